@@ -1,0 +1,34 @@
+import type { RequestHandler } from 'express';
+import { can, type Permission, type Role } from '../../shared/auth/permissions';
+import { AppError } from '../errors';
+
+export type Access = Permission | 'signed-in' | 'public';
+
+export interface SessionUser {
+  id: number;
+  email: string;
+  name: string;
+  role: Role;
+}
+
+declare global {
+  // eslint-disable-next-line @typescript-eslint/no-namespace
+  namespace Express {
+    // eslint-disable-next-line @typescript-eslint/no-empty-object-type
+    interface User extends SessionUser {}
+  }
+}
+
+export function requireAccess(access: Access): RequestHandler {
+  return (req, _res, next) => {
+    if (access === 'public') return next();
+    if (!req.user) return next(AppError.unauthenticated());
+    if (access === 'signed-in' || can(req.user.role, access)) return next();
+    next(AppError.forbidden(`Your role (${req.user.role}) does not allow this: it needs "${access}".`));
+  };
+}
+
+export function currentUser(req: Express.Request): SessionUser {
+  if (!req.user) throw AppError.unauthenticated();
+  return req.user;
+}

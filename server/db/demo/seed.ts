@@ -1,0 +1,21 @@
+import type { AppContext } from '../../context';
+import { hashPassword } from '../../auth/passwords';
+import { User } from '../models';
+import { DEMO_PASSWORD, DEMO_USERS } from './organisation';
+
+/**
+ * Seeds the invented demo scenario into an empty database. Each feature adds
+ * its own step below, in dependency order; a step gets the users by e-mail.
+ */
+export async function seedDemo(ctx: AppContext): Promise<boolean> {
+  if ((await User.count()) > 0) return false;
+  const hash = await hashPassword(DEMO_PASSWORD);
+  const users = new Map<string, User>();
+  await ctx.sequelize.transaction(async (transaction) => {
+    for (const u of DEMO_USERS) {
+      users.set(u.email, await User.create({ ...u, passwordHash: hash }, { transaction }));
+    }
+  });
+  ctx.log(`Demo data seeded: ${DEMO_USERS.length} users (password "${DEMO_PASSWORD}").`);
+  return true;
+}

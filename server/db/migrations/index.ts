@@ -1,0 +1,26 @@
+import type { QueryInterface, Sequelize } from 'sequelize';
+import { SequelizeStorage, Umzug, type MigrationFn } from 'umzug';
+import * as m0001 from './0001-users-and-sessions';
+
+export type Migration = MigrationFn<QueryInterface>;
+
+/**
+ * Every schema change is a numbered migration listed here, in order.
+ * Never edit one that has shipped: add the next number.
+ */
+const MIGRATIONS: Array<{ name: string; up: Migration; down: Migration }> = [
+  { name: '0001-users-and-sessions', ...m0001 },
+];
+
+export function migrator(sequelize: Sequelize) {
+  return new Umzug<QueryInterface>({
+    migrations: MIGRATIONS,
+    context: sequelize.getQueryInterface(),
+    storage: new SequelizeStorage({ sequelize, tableName: 'schema_migrations' }),
+    logger: undefined,
+  });
+}
+
+export async function migrate(sequelize: Sequelize) {
+  return migrator(sequelize).up();
+}

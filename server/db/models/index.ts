@@ -1,0 +1,14 @@
+import type { Sequelize } from 'sequelize';
+import { initSession } from './session';
+import { initUser } from './user';
+
+/**
+ * Each feature adds its init (and associate) call here, in dependency order.
+ */
+export function initModels(sequelize: Sequelize) {
+  initUser(sequelize);
+  initSession(sequelize);
+}
+
+export { User } from './user';
+export { Session } from './session';

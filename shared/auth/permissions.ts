@@ -1,0 +1,70 @@
+/**
+ * The one role → permissions map. The server enforces it (every API route
+ * names the permission it needs); the client reads the same map only to show
+ * or hide actions.
+ */
+export const ROLES = ['technician', 'supervisor', 'planner', 'admin'] as const;
+export type Role = (typeof ROLES)[number];
+
+export const PERMISSIONS = [
+  'sites:read',
+  'sites:write',
+  'cables:read',
+  'cables:write',
+  'calibrations:submit',
+  'calibrations:review',
+  'traces:read',
+  'traces:upload',
+  'traces:reference',
+  'findings:read',
+  'findings:confirm',
+  'tickets:read',
+  'tickets:manage',
+  'tickets:work',
+  'dashboard:read',
+  'users:manage',
+  'outbox:read',
+] as const;
+export type Permission = (typeof PERMISSIONS)[number];
+
+const FIELD: Permission[] = [
+  'sites:read',
+  'cables:read',
+  'calibrations:submit',
+  'traces:read',
+  'traces:upload',
+  'findings:read',
+  'findings:confirm',
+  'tickets:read',
+  'tickets:work',
+];
+
+export const ROLE_PERMISSIONS: Record<Role, readonly Permission[]> = {
+  technician: FIELD,
+  supervisor: [...FIELD, 'sites:write', 'traces:reference', 'tickets:manage', 'dashboard:read'],
+  planner: [
+    'sites:read',
+    'sites:write',
+    'cables:read',
+    'cables:write',
+    'calibrations:submit',
+    'calibrations:review',
+    'traces:read',
+    'findings:read',
+    'tickets:read',
+    'dashboard:read',
+  ],
+  admin: PERMISSIONS,
+};
+
+export function can(role: Role | null | undefined, permission: Permission): boolean {
+  if (!role) return false;
+  return ROLE_PERMISSIONS[role].includes(permission);
+}
+
+export const ROLE_LABELS: Record<Role, string> = {
+  technician: 'Field technician',
+  supervisor: 'Supervisor',
+  planner: 'Planner',
+  admin: 'Administrator',
+};

@@ -1,0 +1,67 @@
+import { z } from 'zod';
+import { ROLES } from '../auth/permissions';
+
+export const emailSchema = z
+  .string({ error: 'is required' })
+  .trim()
+  .toLowerCase()
+  .pipe(z.email({ error: 'must be an e-mail address' }).max(254));
+
+export const LoginSchema = z.object({
+  email: emailSchema,
+  password: z.string({ error: 'is required' }).min(1, 'is required').max(200),
+});
+
+export const passwordSchema = z
+  .string({ error: 'is required' })
+  .min(10, 'must be at least 10 characters')
+  .max(200, 'must be at most 200 characters');
+
+export const ChangePasswordSchema = z.object({
+  currentPassword: z.string({ error: 'is required' }).min(1, 'is required'),
+  newPassword: passwordSchema,
+});
+
+export const CreateUserSchema = z.object({
+  email: emailSchema,
+  name: z.string({ error: 'is required' }).trim().min(1, 'is required').max(120),
+  role: z.enum(ROLES, { error: `must be one of ${ROLES.join(', ')}` }),
+  phone: z.string().trim().max(40).optional(),
+});
+
+export const UpdateUserSchema = z
+  .object({
+    name: z.string().trim().min(1, 'is required').max(120),
+    role: z.enum(ROLES, { error: `must be one of ${ROLES.join(', ')}` }),
+    active: z.boolean({ error: 'must be true or false' }),
+    phone: z.string().trim().max(40).nullable(),
+  })
+  .partial()
+  .refine((v) => Object.keys(v).length > 0, 'give at least one field to change');
+
+export const PreferencesSchema = z.object({
+  unitPreference: z.enum(['m', 'ft'], { error: 'must be m or ft' }),
+});
+
+export const ListQuerySchema = z.object({
+  q: z.string().trim().max(100).optional(),
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+});
+
+export interface PublicUser {
+  id: number;
+  email: string;
+  name: string;
+  role: (typeof ROLES)[number];
+  active: boolean;
+  mustChangePassword: boolean;
+  unitPreference: 'm' | 'ft';
+}
+
+export interface Page<T> {
+  items: T[];
+  total: number;
+  page: number;
+  pageSize: number;
+}
