@@ -1,0 +1,17 @@
+import type { Permission } from '../../shared/auth/permissions';
+import { paths } from './paths';
+
+export interface NavItem {
+  label: string;
+  to: string;
+  /** Shown only to roles with this permission (undefined: every signed-in user). */
+  permission?: Permission;
+  /** Short label for the phone bar. */
+  short?: string;
+}
+
+/** The navigation, in the order people use it; each feature adds its entries here. */
+export const NAV: NavItem[] = [
+  { label: 'Today', short: 'Today', to: paths.home.to() },
+  { label: 'Users', to: paths.adminUsers.to(), permission: 'users:manage' },
+];

@@ -1,0 +1,43 @@
+import { createBrowserRouter, type RouteObject } from 'react-router-dom';
+import { AppShell } from './layout/app-shell';
+import { RequirePermission } from './layout/require-permission';
+import { paths } from './paths';
+import { NotAllowedPage } from './routes/not-allowed';
+import { NotFoundPage } from './routes/not-found';
+import { SignInPage } from './routes/sign-in';
+import type { Permission } from '../../shared/auth/permissions';
+import type { ComponentType } from 'react';
+
+/** A page loaded on demand, shown only to roles with the permission. */
+function page(load: () => Promise<{ default: ComponentType }>, permission?: Permission): Pick<RouteObject, 'lazy'> {
+  return {
+    lazy: async () => {
+      const { default: Component } = await load();
+      return {
+        Component: permission
+          ? () => (
+              <RequirePermission permission={permission}>
+                <Component />
+              </RequirePermission>
+            )
+          : Component,
+      };
+    },
+  };
+}
+
+export const routes: RouteObject[] = [
+  { path: paths.signIn.pattern, element: <SignInPage /> },
+  {
+    element: <AppShell />,
+    children: [
+      { path: paths.home.pattern, ...page(() => import('./routes/home')) },
+      { path: paths.account.pattern, ...page(() => import('./routes/account')) },
+      { path: paths.notAllowed.pattern, element: <NotAllowedPage /> },
+      { path: paths.adminUsers.pattern, ...page(() => import('./routes/admin-users'), 'users:manage') },
+      { path: '*', element: <NotFoundPage /> },
+    ],
+  },
+];
+
+export const createRouter = () => createBrowserRouter(routes);

@@ -1,0 +1,57 @@
+import { useState, type FormEvent } from 'react';
+import { Button } from '../../components/ui/button';
+import { Card, PageHeader } from '../../components/ui/card';
+import { fieldErrors, SelectField, TextField } from '../../components/ui/field';
+import { Notice } from '../../components/ui/notice';
+import { useChangePassword, useUpdateMe } from '../../features/auth/api/update-me';
+import { useSession } from '../../features/auth/use-session';
+
+export function AccountPage() {
+  const { user } = useSession();
+  const updateMe = useUpdateMe();
+  const change = useChangePassword();
+  const [current, setCurrent] = useState('');
+  const [next, setNext] = useState('');
+  const errors = fieldErrors(change.error);
+
+  const submit = (e: FormEvent) => {
+    e.preventDefault();
+    change.mutate({ currentPassword: current, newPassword: next }, { onSuccess: () => (setCurrent(''), setNext('')) });
+  };
+
+  return (
+    <>
+      <PageHeader title="Your account" subtitle={user.email} />
+      {user.mustChangePassword && (
+        <Notice tone="warn" title="Choose your own password" className="mb-4">
+          You signed in with a temporary password. Set one of your own below.
+        </Notice>
+      )}
+      <div className="grid gap-4 md:grid-cols-2">
+        <Card title="Units">
+          <SelectField
+            label="Show lengths in"
+            value={user.unitPreference}
+            onChange={(e) => updateMe.mutate({ unitPreference: e.target.value as 'm' | 'ft' })}
+          >
+            <option value="m">metres (m)</option>
+            <option value="ft">feet (ft)</option>
+          </SelectField>
+          <p className="mt-2 text-xs text-mist">Rholog stores every length in metres; this only changes what you see and type.</p>
+        </Card>
+        <Card title="Password">
+          <form onSubmit={submit} className="space-y-3">
+            <TextField label="Current password" type="password" autoComplete="current-password" value={current} onChange={(e) => setCurrent(e.target.value)} error={errors.currentPassword} required />
+            <TextField label="New password" type="password" autoComplete="new-password" value={next} onChange={(e) => setNext(e.target.value)} error={errors.newPassword} hint="At least 10 characters." required />
+            {change.isSuccess && <Notice tone="ok">Password changed.</Notice>}
+            {change.error && !Object.keys(errors).length && <Notice tone="danger">{change.error.message}</Notice>}
+            <Button type="submit" disabled={change.isPending}>
+              Change password
+            </Button>
+          </form>
+        </Card>
+      </div>
+    </>
+  );
+}
+export default AccountPage;

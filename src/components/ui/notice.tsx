@@ -1,0 +1,39 @@
+import type { ReactNode } from 'react';
+
+type Tone = 'info' | 'ok' | 'warn' | 'danger';
+const TONES: Record<Tone, string> = {
+  info: 'border-teal bg-teal-light text-ink',
+  ok: 'border-ok bg-ok-light text-ink',
+  warn: 'border-warn bg-warn-light text-ink',
+  danger: 'border-danger bg-danger-light text-ink',
+};
+
+export function Notice({ tone = 'info', title, children, className = '' }: { tone?: Tone; title?: ReactNode; children?: ReactNode; className?: string }) {
+  return (
+    <div role={tone === 'danger' ? 'alert' : 'status'} className={`rounded-md border-l-4 px-4 py-3 text-sm ${TONES[tone]} ${className}`}>
+      {title && <p className="font-semibold">{title}</p>}
+      {children}
+    </div>
+  );
+}
+
+export function Badge({ tone = 'info', children }: { tone?: Tone | 'plain'; children: ReactNode }) {
+  const cls =
+    tone === 'plain'
+      ? 'bg-rule/50 text-ink-soft'
+      : { info: 'bg-teal-light text-teal', ok: 'bg-ok-light text-ok', warn: 'bg-warn-light text-warn', danger: 'bg-danger-light text-danger' }[tone];
+  return <span className={`inline-flex items-center rounded px-2 py-0.5 text-xs font-semibold ${cls}`}>{children}</span>;
+}
+
+export function Loading({ what = 'Loading' }: { what?: string }) {
+  return (
+    <p className="py-6 text-sm text-mist" role="status">
+      {what}…
+    </p>
+  );
+}
+
+export function ErrorNotice({ error }: { error: unknown }) {
+  const message = error instanceof Error ? error.message : String(error);
+  return <Notice tone="danger" title="That did not work">{message}</Notice>;
+}

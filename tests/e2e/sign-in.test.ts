@@ -1,0 +1,66 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { ROLE_PERMISSIONS } from '../../shared/auth/permissions';
+import { NAV } from '../../src/app/nav';
+import { DEMO_USERS } from '../../server/db/demo/organisation';
+import { DESKTOP, PHONE, signIn, startE2E, type E2E } from './support/browser';
+
+let e2e: E2E;
+beforeAll(async () => {
+  e2e = await startE2E();
+});
+afterAll(async () => {
+  await e2e?.stop();
+});
+
+const roles = ['technician', 'supervisor', 'planner', 'admin'] as const;
+
+describe('signing in', () => {
+  for (const role of roles) {
+    it(`shows a ${role} their own navigation`, async () => {
+      const user = DEMO_USERS.find((u) => u.role === role)!;
+      const page = await e2e.newPage(DESKTOP);
+      await signIn(page, e2e.baseUrl, user.email);
+      await page.getByTestId('signed-in-name').first().waitFor();
+      const nav = page.locator('aside [data-testid="main-nav"] a');
+      const labels = await nav.allTextContents();
+      const expected = NAV.filter((i) => !i.permission || ROLE_PERMISSIONS[role].includes(i.permission)).map((i) => i.label);
+      expect(labels).toEqual(expected);
+      expect(await page.getByTestId('signed-in-name').first().textContent()).toBe(user.name);
+      await e2e.screenshot(page, `home-${role}`);
+      await page.close();
+    });
+  }
+
+  it('refuses a wrong password with a clear message and stays on the sign-in page', async () => {
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'tech@example.com', 'not-the-password');
+    const alert = page.getByRole('alert');
+    await alert.waitFor();
+    expect(await alert.textContent()).toContain('The e-mail address or password is not right.');
+    expect(new URL(page.url()).pathname).toBe('/sign-in');
+    await e2e.screenshot(page, 'sign-in-wrong-password');
+    await page.close();
+  });
+
+  it('sends a signed-out visitor to sign-in and back to the page they asked for', async () => {
+    const page = await e2e.newPage(PHONE);
+    await page.goto(`${e2e.baseUrl}/account`);
+    await page.waitForURL(/\/sign-in\?next=%2Faccount/);
+    await page.getByLabel('E-mail').fill('admin@example.com');
+    await page.getByLabel('Password').fill('rholog-demo');
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.getByRole('heading', { name: 'Your account' }).waitFor();
+    expect(new URL(page.url()).pathname).toBe('/account');
+    await page.close();
+  });
+
+  it('shows the not-allowed page to a role without the permission', async () => {
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'tech@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/admin/users`);
+    await page.getByRole('heading', { name: 'Your role cannot open this page' }).waitFor();
+    await e2e.screenshot(page, 'not-allowed-phone');
+    await page.close();
+  });
+});

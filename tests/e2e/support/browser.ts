@@ -1,0 +1,91 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import type { AddressInfo } from 'node:net';
+import type { Server } from 'node:http';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { createApp, type RhologApp } from '../../../server/app';
+import { freshDatabase, testConfig } from '../../support/test-config';
+import type { AppConfig } from '../../../server/config';
+
+export interface E2E {
+  baseUrl: string;
+  app: RhologApp;
+  context: BrowserContext;
+  newPage: (viewport?: { width: number; height: number }) => Promise<Page>;
+  screenshot: (page: Page, name: string) => Promise<string>;
+  stop: () => Promise<void>;
+}
+
+export const PHONE = { width: 390, height: 844 };
+export const DESKTOP = { width: 1366, height: 900 };
+export const SCREENSHOT_DIR = path.resolve('tests/e2e/screenshots');
+
+/** The built client served by the real server on a fresh demo database, and Debian's Chromium driving it. */
+export async function startE2E(overrides: Partial<AppConfig> = {}): Promise<E2E> {
+  const db = await freshDatabase();
+  const app = await createApp(testConfig(db.url, db.dir, { client: 'static', demoData: true, ...overrides }));
+  let server: Server | undefined;
+  let context: BrowserContext | undefined;
+  const profile = fs.mkdtempSync(path.join(os.tmpdir(), 'rholog-chromium-'));
+  try {
+    server = await new Promise<Server>((resolve) => {
+      const s = app.app.listen(0, '127.0.0.1', () => resolve(s));
+    });
+    const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+    context = await chromium.launchPersistentContext(profile, {
+      executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+      headless: true,
+      args: [
+        '--headless',
+        '--no-sandbox',
+        '--disable-gpu',
+        '--disable-quic',
+        '--no-first-run',
+        '--disable-background-networking',
+        '--disable-component-update',
+        '--disable-sync',
+      ],
+    });
+    const ctx = context;
+    fs.mkdirSync(SCREENSHOT_DIR, { recursive: true });
+    const srv = server;
+    return {
+      baseUrl,
+      app,
+      context: ctx,
+      newPage: async (viewport = DESKTOP) => {
+        // One signed-in person at a time: a new page starts signed out.
+        await ctx.clearCookies();
+        const page = await ctx.newPage();
+        await page.setViewportSize(viewport);
+        return page;
+      },
+      screenshot: async (page, name) => {
+        const file = path.join(SCREENSHOT_DIR, `${name}.png`);
+        await page.screenshot({ path: file, fullPage: true });
+        return file;
+      },
+      stop: async () => {
+        await ctx.close().catch(() => undefined);
+        await new Promise<void>((resolve) => srv.close(() => resolve()));
+        await app.close();
+        await db.cleanup();
+        fs.rmSync(profile, { recursive: true, force: true });
+      },
+    };
+  } catch (err) {
+    await context?.close().catch(() => undefined);
+    if (server) await new Promise<void>((resolve) => server!.close(() => resolve()));
+    await app.close();
+    await db.cleanup();
+    throw err;
+  }
+}
+
+export async function signIn(page: Page, baseUrl: string, email: string, password = 'rholog-demo') {
+  await page.goto(`${baseUrl}/sign-in`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+}
