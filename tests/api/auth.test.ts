@@ -1,0 +1,136 @@
+import supertest from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { Session } from '../../server/db/models';
+import { startApi, TEST_PASSWORD, type TestApi } from './support/api';
+
+let api: TestApi;
+beforeAll(async () => {
+  api = await startApi({ login: { maxPerAccount: 3, maxPerAddress: 50, windowMs: 60_000 } });
+});
+afterAll(() => api.close());
+
+describe('GET /api/health', () => {
+  it('answers ok', async () => {
+    const c = await api.anonymous();
+    const res = await c.get('/api/health').expect(200);
+    expect(res.body).toEqual({ status: 'ok' });
+  });
+});
+
+describe('POST /api/auth/login', () => {
+  it('signs in with the right password and returns the user', async () => {
+    const c = await api.anonymous();
+    const res = await c.post('/api/auth/login', { email: 'PLANNER.test@example.com ', password: TEST_PASSWORD }).expect(200);
+    expect(res.body.user).toMatchObject({ email: 'planner.test@example.com', role: 'planner', name: 'Pat Plan' });
+    expect(res.body.csrfToken).toMatch(/^[0-9a-f]{32,}$/);
+    const cookie = String(res.headers['set-cookie']);
+    expect(cookie).toContain('HttpOnly');
+    expect(cookie).toContain('SameSite=Lax');
+  });
+
+  it('gives a new session id at sign-in (no session fixation)', async () => {
+    const agent = supertest.agent(api.app.app);
+    const sid = (res: supertest.Response) => /rholog\.sid=([^;]+)/.exec(String(res.headers['set-cookie']))?.[1];
+    const first = await agent.get('/api/auth/csrf').expect(200);
+    const before = sid(first);
+    expect(before).toBeTruthy();
+    const res = await agent
+      .post('/api/auth/login')
+      .set('x-csrf-token', first.body.csrfToken)
+      .send({ email: 'admin.test@example.com', password: TEST_PASSWORD })
+      .expect(200);
+    const after = sid(res);
+    expect(after).toBeTruthy();
+    expect(after).not.toEqual(before);
+  });
+
+  it('rejects a wrong password with 401 and a clear message', async () => {
+    const c = await api.anonymous();
+    const res = await c.post('/api/auth/login', { email: 'supervisor.test@example.com', password: 'nope' }).expect(401);
+    expect(res.body.error).toEqual({ code: 'wrong_credentials', message: 'The e-mail address or password is not right.' });
+  });
+
+  it('gives the same answer for an unknown e-mail (no account probing)', async () => {
+    const c = await api.anonymous();
+    const res = await c.post('/api/auth/login', { email: 'nobody@example.com', password: 'x' }).expect(401);
+    expect(res.body.error.message).toBe('The e-mail address or password is not right.');
+  });
+
+  it('names the bad field when the body is incomplete', async () => {
+    const c = await api.anonymous();
+    const res = await c.post('/api/auth/login', { email: 'not-an-address' }).expect(400);
+    expect(res.body.error.code).toBe('invalid_input');
+    expect(res.body.error.fields).toEqual(
+      expect.arrayContaining([
+        { field: 'email', message: 'must be an e-mail address' },
+        { field: 'password', message: 'is required' },
+      ]),
+    );
+  });
+
+  it('refuses a request without the CSRF token', async () => {
+    const c = await api.anonymous();
+    const res = await c.agent.post('/api/auth/login').send({ email: 'admin.test@example.com', password: TEST_PASSWORD }).expect(403);
+    expect(res.body.error.code).toBe('csrf_invalid');
+  });
+
+  it('refuses further tries on one account after repeated failures (limit 3 in this test)', async () => {
+    const c = await api.anonymous();
+    for (let i = 0; i < 3; i++) await c.post('/api/auth/login', { email: 'technician.test@example.com', password: `bad-${i}` }).expect(401);
+    const res = await c.post('/api/auth/login', { email: 'technician.test@example.com', password: TEST_PASSWORD }).expect(429);
+    expect(res.body.error.code).toBe('too_many_attempts');
+    expect(res.body.error.message).toMatch(/Too many failed sign-ins for this account/);
+  });
+
+  it('answers malformed JSON with 400, not 500', async () => {
+    const c = await api.anonymous();
+    const res = await c.agent.post('/api/auth/login').set('x-csrf-token', c.csrf).set('content-type', 'application/json').send('{"email":').expect(400);
+    expect(res.body.error.code).toBe('invalid_json');
+  });
+});
+
+describe('GET /api/auth/me', () => {
+  it('answers 401 without a session', async () => {
+    const c = await api.anonymous();
+    const res = await c.get('/api/auth/me').expect(401);
+    expect(res.body.error.code).toBe('unauthenticated');
+  });
+
+  it('returns id, e-mail, name and role for the signed-in user', async () => {
+    const c = await api.as('supervisor');
+    const res = await c.get('/api/auth/me').expect(200);
+    expect(res.body).toMatchObject({ id: api.users.supervisor.id, email: 'supervisor.test@example.com', name: 'Sol Super', role: 'supervisor' });
+  });
+
+  it('keeps sessions in the database', async () => {
+    const c = await api.as('planner');
+    await c.get('/api/auth/me').expect(200);
+    const rows = await Session.findAll({ where: { userId: api.users.planner.id } });
+    expect(rows.length).toBeGreaterThan(0);
+  });
+});
+
+describe('POST /api/auth/logout', () => {
+  it('ends the session', async () => {
+    const c = await api.as('planner');
+    const res = await c.post('/api/auth/logout').expect(200);
+    c.csrf = res.body.csrfToken;
+    await c.get('/api/auth/me').expect(401);
+  });
+});
+
+describe('POST /api/auth/password', () => {
+  it('refuses a short new password and names the field', async () => {
+    const c = await api.as('admin');
+    const res = await c.post('/api/auth/password', { currentPassword: TEST_PASSWORD, newPassword: 'short' }).expect(400);
+    expect(res.body.error.fields).toEqual([{ field: 'newPassword', message: 'must be at least 10 characters' }]);
+  });
+});
+
+describe('unknown API routes', () => {
+  it('answer 404 in JSON', async () => {
+    const c = await api.anonymous();
+    const res = await c.get('/api/no-such-thing').expect(404);
+    expect(res.body.error).toEqual({ code: 'no_such_route', message: 'There is no API route GET /api/no-such-thing.' });
+  });
+});
