@@ -1,6 +1,7 @@
 import type { QueryInterface, Sequelize } from 'sequelize';
 import { SequelizeStorage, Umzug, type MigrationFn } from 'umzug';
 import * as m0001 from './0001-users-and-sessions';
+import * as m0002 from './0002-cable-types';
 
 export type Migration = MigrationFn<QueryInterface>;
 
@@ -10,6 +11,7 @@ export type Migration = MigrationFn<QueryInterface>;
  */
 const MIGRATIONS: Array<{ name: string; up: Migration; down: Migration }> = [
   { name: '0001-users-and-sessions', ...m0001 },
+  { name: '0002-cable-types', ...m0002 },
 ];
 
 export function migrator(sequelize: Sequelize) {

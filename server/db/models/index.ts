@@ -1,4 +1,5 @@
 import type { Sequelize } from 'sequelize';
+import { initCableType } from './cable-type';
 import { initSession } from './session';
 import { initUser } from './user';
 
@@ -8,7 +9,9 @@ import { initUser } from './user';
 export function initModels(sequelize: Sequelize) {
   initUser(sequelize);
   initSession(sequelize);
+  initCableType(sequelize);
 }
 
 export { User } from './user';
 export { Session } from './session';
+export { CableType } from './cable-type';
