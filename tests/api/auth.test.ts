@@ -9,6 +9,13 @@ beforeAll(async () => {
 });
 afterAll(() => api.close());
 
+describe('the database', () => {
+  it('is the one the environment names (PostgreSQL in the CI second pass, else a SQLite file)', () => {
+    const expected = /^postgres/.test(process.env.DATABASE_URL ?? '') ? 'postgres' : 'sqlite';
+    expect(api.app.ctx.sequelize.getDialect()).toBe(expected);
+  });
+});
+
 describe('GET /api/health', () => {
   it('answers ok', async () => {
     const c = await api.anonymous();
