@@ -7,10 +7,9 @@ import {
   type Sequelize,
 } from 'sequelize';
 
-export const CONSTRUCTIONS = ['coax', 'twisted-pair', 'twin-lead', 'shielded-power', 'other'] as const;
-export type Construction = (typeof CONSTRUCTIONS)[number];
-export const VF_SOURCES = ['datasheet', 'handbook', 'calculated', 'field-calibrated'] as const;
-export type VfSource = (typeof VF_SOURCES)[number];
+import type { Construction, VfSource } from '../../../shared/schemas/cables';
+
+export { CONSTRUCTIONS, VF_SOURCES, type Construction, type VfSource } from '../../../shared/schemas/cables';
 
 /** One entry of the cable library. Stored in SI; the trace engine takes vf, vfTolerance and z0Ohm from here. */
 export class CableType extends Model<InferAttributes<CableType>, InferCreationAttributes<CableType>> {
@@ -27,6 +26,14 @@ export class CableType extends Model<InferAttributes<CableType>, InferCreationAt
   declare vfSource: VfSource;
   declare vfReference: string;
   declare notes: string | null;
+  /**
+   * Starts at 1 and goes up by one whenever a value the trace engine uses
+   * (vf, vfTolerance, z0Ohm) changes — by an edit, an import or an accepted
+   * calibration. A trace stores the revision it was analysed with; if the
+   * library's revision is now higher, the value has changed since
+   * (server/cables/cables.service.ts: cableTypeVersion, changesSince).
+   */
+  declare revision: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -46,6 +53,7 @@ export function initCableType(sequelize: Sequelize) {
       vfSource: { type: DataTypes.STRING(20), allowNull: false },
       vfReference: { type: DataTypes.TEXT, allowNull: false },
       notes: { type: DataTypes.TEXT, allowNull: true },
+      revision: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

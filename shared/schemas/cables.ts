@@ -1,0 +1,175 @@
+import { z } from 'zod';
+
+export const CONSTRUCTIONS = ['coax', 'twisted-pair', 'twin-lead', 'shielded-power', 'other'] as const;
+export type Construction = (typeof CONSTRUCTIONS)[number];
+export const CONSTRUCTION_LABELS: Record<Construction, string> = {
+  coax: 'Coaxial',
+  'twisted-pair': 'Twisted pair',
+  'twin-lead': 'Twin lead',
+  'shielded-power': 'Shielded power cable',
+  other: 'Other',
+};
+
+export const VF_SOURCES = ['datasheet', 'handbook', 'calculated', 'field-calibrated'] as const;
+export type VfSource = (typeof VF_SOURCES)[number];
+export const VF_SOURCE_LABELS: Record<VfSource, string> = {
+  datasheet: 'Datasheet',
+  handbook: 'Handbook',
+  calculated: 'Calculated',
+  'field-calibrated': 'Field-calibrated',
+};
+
+export const CALIBRATION_SOURCES = ['manual', 'trace', 'repair-closeout'] as const;
+export type CalibrationSource = (typeof CALIBRATION_SOURCES)[number];
+export const CALIBRATION_SOURCE_LABELS: Record<CalibrationSource, string> = {
+  manual: 'Typed in',
+  trace: 'From a trace',
+  'repair-closeout': 'Repair close-out',
+};
+export const CALIBRATION_STATUSES = ['pending', 'accepted', 'rejected'] as const;
+export type CalibrationStatus = (typeof CALIBRATION_STATUSES)[number];
+
+const num = (what = 'must be a number') => z.number({ error: what }).finite({ error: what });
+
+/** The fields of one library entry, all in SI. Shared by the form, the API and the CSV import. */
+export const cableFields = {
+  name: z.string({ error: 'is required' }).trim().min(1, 'is required').max(120, 'must be at most 120 characters'),
+  construction: z.enum(CONSTRUCTIONS, { error: `must be one of ${CONSTRUCTIONS.join(', ')}` }),
+  dielectric: z.string({ error: 'is required' }).trim().min(1, 'is required').max(120, 'must be at most 120 characters'),
+  z0Ohm: num().gt(0, 'must be greater than 0 Ω').max(10_000, 'must be at most 10000 Ω'),
+  vf: num().gt(0, 'must be greater than 0').max(1, 'must be at most 1 (nothing is faster than light)'),
+  vfTolerance: num().min(0, 'must not be negative').max(0.5, 'must be at most 0.5 (±50 %)'),
+  attenuationDbPer100m: num().min(0, 'must not be negative').max(1000, 'must be at most 1000 dB/100 m').nullable(),
+  attenuationFreqMhz: num().gt(0, 'must be greater than 0 MHz').max(100_000, 'must be at most 100000 MHz').nullable(),
+  vfSource: z.enum(VF_SOURCES, { error: `is required: one of ${VF_SOURCES.join(', ')}` }),
+  vfReference: z.string({ error: 'is required' }).trim().min(1, 'is required: say where the VF comes from').max(2000),
+  notes: z.string().trim().max(4000, 'must be at most 4000 characters').nullable(),
+};
+
+type AttenuationPair = { attenuationDbPer100m?: number | null; attenuationFreqMhz?: number | null };
+const attenuationPaired = (v: AttenuationPair, ctx: z.RefinementCtx) => {
+  const a = v.attenuationDbPer100m ?? null;
+  const f = v.attenuationFreqMhz ?? null;
+  if (a !== null && f === null) ctx.addIssue({ code: 'custom', path: ['attenuationFreqMhz'], message: 'is required with an attenuation' });
+  if (f !== null && a === null) ctx.addIssue({ code: 'custom', path: ['attenuationDbPer100m'], message: 'is required with a frequency' });
+};
+
+export const CableTypeInputSchema = z
+  .object({
+    ...cableFields,
+    attenuationDbPer100m: cableFields.attenuationDbPer100m.default(null),
+    attenuationFreqMhz: cableFields.attenuationFreqMhz.default(null),
+    notes: cableFields.notes.default(null),
+  })
+  .superRefine(attenuationPaired);
+export type CableTypeInput = z.output<typeof CableTypeInputSchema>;
+
+export const reasonSchema = z
+  .string({ error: 'is required: say why' })
+  .trim()
+  .min(3, 'is required: say why (at least 3 characters)')
+  .max(2000, 'must be at most 2000 characters');
+
+export const CableTypeUpdateSchema = z
+  .object({
+    ...cableFields,
+  })
+  .partial()
+  .extend({ reason: reasonSchema })
+  .superRefine(attenuationPaired)
+  .refine((v) => Object.keys(v).some((k) => k !== 'reason'), { message: 'give at least one field to change', path: ['(body)'] });
+export type CableTypeUpdate = z.output<typeof CableTypeUpdateSchema>;
+
+export const CABLE_SORTS = ['name', 'construction', 'dielectric', 'z0Ohm', 'vf', 'vfSource', 'updatedAt'] as const;
+export type CableSort = (typeof CABLE_SORTS)[number];
+
+export const CableListQuerySchema = z.object({
+  q: z.string().trim().max(100, 'must be at most 100 characters').optional(),
+  construction: z.enum(CONSTRUCTIONS, { error: `must be one of ${CONSTRUCTIONS.join(', ')}` }).optional(),
+  page: z.coerce.number({ error: 'must be a number' }).int('must be a whole number').min(1, 'must be at least 1').default(1),
+  pageSize: z.coerce.number({ error: 'must be a number' }).int('must be a whole number').min(1, 'must be at least 1').max(200, 'must be at most 200').default(25),
+  sort: z.enum(CABLE_SORTS, { error: `must be one of ${CABLE_SORTS.join(', ')}` }).default('name'),
+  dir: z.enum(['asc', 'desc'], { error: 'must be asc or desc' }).default('asc'),
+});
+export type CableListQuery = z.output<typeof CableListQuerySchema>;
+
+export const CalibrationSubmitSchema = z.object({
+  cableTypeId: z.number({ error: 'is required' }).int('must be a whole number').positive('must be a positive whole number'),
+  knownLengthM: num('is required: a number of metres').gt(0, 'must be greater than 0 m').max(100_000, 'must be at most 100 km'),
+  roundTripNs: num('is required: a number of nanoseconds').gt(0, 'must be greater than 0 ns').max(10_000_000, 'must be at most 10 ms'),
+  source: z.enum(CALIBRATION_SOURCES, { error: `must be one of ${CALIBRATION_SOURCES.join(', ')}` }).default('manual'),
+  traceId: z.number().int().positive().nullable().optional(),
+  note: z.string().trim().max(2000, 'must be at most 2000 characters').optional(),
+});
+export type CalibrationSubmitInput = z.input<typeof CalibrationSubmitSchema>;
+
+export const CalibrationListQuerySchema = z.object({
+  status: z.enum([...CALIBRATION_STATUSES, 'all'], { error: `must be one of ${CALIBRATION_STATUSES.join(', ')}, all` }).default('pending'),
+  cableTypeId: z.coerce.number().int().positive().optional(),
+  page: z.coerce.number({ error: 'must be a number' }).int().min(1, 'must be at least 1').default(1),
+  pageSize: z.coerce.number({ error: 'must be a number' }).int().min(1).max(100, 'must be at most 100').default(25),
+});
+
+export const CalibrationAcceptSchema = z.object({
+  /** Optional new tolerance to store with the accepted VF; the entry's stays otherwise. */
+  vfTolerance: cableFields.vfTolerance.optional(),
+  note: z.string().trim().max(2000).optional(),
+});
+export const CalibrationRejectSchema = z.object({ reason: reasonSchema });
+
+// ---- what the API answers ----
+
+export interface CableTypeView {
+  id: number;
+  name: string;
+  construction: Construction;
+  dielectric: string;
+  z0Ohm: number;
+  vf: number;
+  vfTolerance: number;
+  attenuationDbPer100m: number | null;
+  attenuationFreqMhz: number | null;
+  vfSource: VfSource;
+  vfReference: string;
+  notes: string | null;
+  revision: number;
+  createdAt: string;
+  updatedAt: string;
+}
+
+export interface FieldChangeView {
+  field: string;
+  from: string | number | null;
+  to: string | number | null;
+}
+
+export interface CableTypeChangeView {
+  id: number;
+  revision: number;
+  kind: 'create' | 'update' | 'import' | 'calibration';
+  reason: string;
+  changes: FieldChangeView[];
+  changedBy: { id: number; name: string } | null;
+  calibrationId: number | null;
+  createdAt: string;
+}
+
+export interface CalibrationView {
+  id: number;
+  cableType: { id: number; name: string };
+  knownLengthM: number;
+  roundTripNs: number;
+  vf: number;
+  libraryVf: number;
+  /** (vf − libraryVf) / libraryVf at submission. */
+  deviation: number;
+  source: CalibrationSource;
+  traceId: number | null;
+  note: string | null;
+  status: CalibrationStatus;
+  submittedBy: { id: number; name: string } | null;
+  reviewedBy: { id: number; name: string } | null;
+  reviewedAt: string | null;
+  reviewReason: string | null;
+  createdAt: string;
+}
