@@ -23,7 +23,7 @@ export default defineConfig({
       },
       {
         extends: true,
-        test: { name: 'client', include: ['tests/client/**/*.test.tsx'], environment: 'jsdom' },
+        test: { name: 'client', include: ['tests/client/**/*.test.tsx'], environment: 'jsdom', setupFiles: ['tests/client/setup.ts'] },
       },
       {
         extends: true,

@@ -2,12 +2,18 @@ import path from 'node:path';
 import { z } from 'zod';
 
 const onOff = z
-  .enum(['on', 'off', 'true', 'false', '1', '0'])
+  .enum(['on', 'off', 'true', 'false', '1', '0'], { error: 'must be on or off' })
   .transform((v) => v === 'on' || v === 'true' || v === '1');
+
+const port = z.coerce
+  .number({ error: 'must be a whole number from 0 to 65535' })
+  .int('must be a whole number from 0 to 65535')
+  .min(0, 'must be a whole number from 0 to 65535')
+  .max(65535, 'must be a whole number from 0 to 65535');
 
 const EnvSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
-  PORT: z.coerce.number().int().min(0).max(65535).default(3000),
+  PORT: port.default(3000),
   HOST: z.string().min(1).default('0.0.0.0'),
   DATABASE_URL: z
     .string()
@@ -18,7 +24,9 @@ const EnvSchema = z.object({
   PUBLIC_URL: z.url().optional(),
   SMTP_URL: z.string().regex(/^smtps?:\/\//, 'must start with smtp:// or smtps://').optional(),
   MAIL_FROM: z.string().min(3).default('Rholog <rholog@example.com>'),
-  CAPTURE_SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(0),
+  CAPTURE_SMTP_PORT: port.default(0),
+  MAIL_RETRY_BASE_S: z.coerce.number({ error: 'must be a number of seconds' }).positive('must be more than 0').max(3600).default(30),
+  MAIL_MAX_ATTEMPTS: z.coerce.number({ error: 'must be a whole number' }).int().min(1).max(50).default(8),
   UPLOAD_DIR: z.string().min(1).default('uploads'),
   MAX_UPLOAD_MB: z.coerce.number().positive().max(512).default(20),
   COOKIE_SECURE: z.enum(['auto', 'on', 'off']).default('auto'),
@@ -42,6 +50,9 @@ export interface AppConfig {
   smtpUrl?: string;
   mailFrom: string;
   captureSmtpPort: number;
+  /** A failed send is retried after this long, then twice as long each time. */
+  mailRetryBaseMs: number;
+  mailMaxAttempts: number;
   uploadDir: string;
   maxUploadBytes: number;
   cookieSecure: 'auto' | boolean;
@@ -73,6 +84,8 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     smtpUrl: e.SMTP_URL,
     mailFrom: e.MAIL_FROM,
     captureSmtpPort: e.CAPTURE_SMTP_PORT,
+    mailRetryBaseMs: Math.round(e.MAIL_RETRY_BASE_S * 1000),
+    mailMaxAttempts: e.MAIL_MAX_ATTEMPTS,
     uploadDir: path.resolve(e.UPLOAD_DIR),
     maxUploadBytes: Math.round(e.MAX_UPLOAD_MB * 1024 * 1024),
     cookieSecure: e.COOKIE_SECURE === 'auto' ? 'auto' : e.COOKIE_SECURE === 'on',
