@@ -1,0 +1,70 @@
+import { z } from 'zod';
+
+/** The kinds of reflection event the engine reports. */
+export const reflectionTypeSchema = z.enum(['open', 'short', 'impedance-rise', 'impedance-drop']);
+export type ReflectionType = z.infer<typeof reflectionTypeSchema>;
+
+export const traceModeSchema = z.enum(['step', 'pulse']);
+export type TraceMode = z.infer<typeof traceModeSchema>;
+
+export const traceWarningSchema = z.object({
+  code: z.string(),
+  message: z.string(),
+});
+export type TraceWarning = z.infer<typeof traceWarningSchema>;
+
+export const reflectionEventSchema = z.object({
+  index: z.number().int().nonnegative(),
+  /** Round-trip time from the launch to the event's onset. */
+  roundTripNs: z.number(),
+  distanceM: z.number(),
+  /** Half-width of the window the fault is expected in. */
+  uncertaintyM: z.number().nonnegative(),
+  windowStartM: z.number(),
+  windowEndM: z.number(),
+  reflectionCoefficient: z.number(),
+  /** Z = Z0 (1 + ρ) / (1 − ρ); step traces with a known Z0 only. */
+  impedanceOhm: z.number().nullable(),
+  type: reflectionTypeSchema,
+  isCableEnd: z.boolean(),
+  /** Index of the earlier event this one is probably an echo of. */
+  likelyMultipleOf: z.number().int().nonnegative().nullable(),
+  /** Peak deviation from the local baseline, in the trace's amplitude unit. */
+  amplitude: z.number(),
+  /** Event size over the detector's noise level. */
+  snr: z.number().nonnegative(),
+  /** 10–90 % duration of the event's edge (step) or its width (pulse). */
+  riseTimeNs: z.number().nonnegative(),
+});
+export type ReflectionEvent = z.infer<typeof reflectionEventSchema>;
+
+export const traceAnalysisSchema = z.object({
+  engineVersion: z.string(),
+  mode: traceModeSchema,
+  modeDetected: z.boolean(),
+  amplitudeUnit: z.enum(['V', 'rho']),
+  launch: z.object({
+    indexSample: z.number().int().nonnegative(),
+    timeNs: z.number(),
+    amplitude: z.number(),
+    /** False when the trace holds no launch edge and time zero is the reference plane. */
+    foundInTrace: z.boolean(),
+  }),
+  /** Standard deviation of the noise, in the trace's amplitude unit. */
+  noiseLevel: z.number().nonnegative(),
+  /** Incident step level (step) or launch pulse height (pulse), in the trace's amplitude unit. */
+  incidentLevel: z.number(),
+  vf: z.number().positive(),
+  vfTolerance: z.number().nonnegative(),
+  z0Ohm: z.number().positive().nullable(),
+  sampleIntervalNs: z.number().positive(),
+  pulseWidthNs: z.number().nonnegative().nullable(),
+  riseTimeNs: z.number().nonnegative().nullable(),
+  zeroOffsetNs: z.number(),
+  leadLengthM: z.number(),
+  blindZoneM: z.number().nonnegative(),
+  rangeM: z.number().nonnegative(),
+  events: z.array(reflectionEventSchema),
+  warnings: z.array(traceWarningSchema),
+});
+export type TraceAnalysis = z.infer<typeof traceAnalysisSchema>;
