@@ -33,7 +33,7 @@ describe('the API client', () => {
         );
       }),
     );
-    const err = await api('/api/things', { method: 'POST', body: {} }).catch((e) => e);
+    const err = (await api('/api/things', { method: 'POST', body: {} }).catch((e: unknown) => e)) as ApiError;
     expect(seen).toBe('token-1');
     expect(err).toBeInstanceOf(ApiError);
     expect(err.status).toBe(400);
