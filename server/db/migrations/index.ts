@@ -2,6 +2,7 @@ import type { QueryInterface, Sequelize } from 'sequelize';
 import { SequelizeStorage, Umzug, type MigrationFn } from 'umzug';
 import * as m0001 from './0001-users-and-sessions';
 import * as m0002 from './0002-cable-types';
+import * as m0003 from './0003-field-workflow';
 import * as m0004 from './0004-cable-library';
 
 export type Migration = MigrationFn<QueryInterface>;
@@ -13,7 +14,7 @@ export type Migration = MigrationFn<QueryInterface>;
 const MIGRATIONS: Array<{ name: string; up: Migration; down: Migration }> = [
   { name: '0001-users-and-sessions', ...m0001 },
   { name: '0002-cable-types', ...m0002 },
-  // 0003 is the field workflow's (sites, cable runs, traces, findings).
+  { name: '0003-field-workflow', ...m0003 },
   { name: '0004-cable-library', ...m0004 },
 ];
 

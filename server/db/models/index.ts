@@ -2,7 +2,14 @@ import type { Sequelize } from 'sequelize';
 import { associateCableCalibration, initCableCalibration } from './cable-calibration';
 import { CableType, initCableType } from './cable-type';
 import { associateCableTypeChange, initCableTypeChange } from './cable-type-change';
+import { initCableRun } from './cable-run';
+import { associateFieldModels } from './field-associations';
+import { initFinding } from './finding';
+import { initRouteMarker } from './route-marker';
 import { initSession } from './session';
+import { initSite } from './site';
+import { initSiteSupervisor } from './site-supervisor';
+import { initTrace } from './trace';
 import { initUser, User } from './user';
 
 /**
@@ -14,6 +21,13 @@ export function initModels(sequelize: Sequelize) {
   initCableType(sequelize);
   initCableTypeChange(sequelize);
   initCableCalibration(sequelize);
+  initSite(sequelize);
+  initSiteSupervisor(sequelize);
+  initCableRun(sequelize);
+  initRouteMarker(sequelize);
+  initTrace(sequelize);
+  initFinding(sequelize);
+  associateFieldModels();
   associateCableTypeChange({ CableType, User });
   associateCableCalibration({ CableType, User });
 }
@@ -23,3 +37,9 @@ export { Session } from './session';
 export { CableType } from './cable-type';
 export { CableTypeChange } from './cable-type-change';
 export { CableCalibration } from './cable-calibration';
+export { Site } from './site';
+export { SiteSupervisor } from './site-supervisor';
+export { CableRun } from './cable-run';
+export { RouteMarker } from './route-marker';
+export { Trace } from './trace';
+export { Finding } from './finding';

@@ -1,0 +1,25 @@
+import { EventEmitter } from 'node:events';
+
+/**
+ * What happens to findings, for whoever needs to react (mail, tickets).
+ * 'confirmed' is emitted with the finding's id after its transaction has
+ * committed, so a listener always reads the stored finding. Listeners must
+ * not throw; an error in one is logged and does not undo the finding.
+ */
+interface FindingEventMap {
+  confirmed: [findingId: number];
+}
+
+export const findingEvents = new EventEmitter<FindingEventMap>();
+findingEvents.setMaxListeners(20);
+
+export function emitFindingConfirmed(findingId: number, log: (message: string, extra?: unknown) => void = console.error) {
+  for (const listener of findingEvents.listeners('confirmed')) {
+    try {
+      const result: unknown = listener(findingId);
+      if (result instanceof Promise) result.catch((err: unknown) => log(`finding ${findingId}: a confirmed-listener failed`, err));
+    } catch (err) {
+      log(`finding ${findingId}: a confirmed-listener failed`, err);
+    }
+  }
+}

@@ -1,0 +1,94 @@
+import { z } from 'zod';
+import type { RoutePosition } from '../field/route-position';
+import type { CableEnd } from './traces';
+
+export const FINDING_STATUSES = ['confirmed', 'dismissed'] as const;
+export type FindingStatus = (typeof FINDING_STATUSES)[number];
+
+export const FINDING_KINDS = [
+  'open-conductor',
+  'short-circuit',
+  'high-resistance',
+  'water-ingress',
+  'sheath-damage',
+  'splice-fault',
+  'crush-or-kink',
+  'not-a-fault',
+  'other',
+] as const;
+export const FINDING_KIND_LABELS: Record<(typeof FINDING_KINDS)[number], string> = {
+  'open-conductor': 'Open conductor',
+  'short-circuit': 'Short circuit',
+  'high-resistance': 'High-resistance fault',
+  'water-ingress': 'Water in the cable',
+  'sheath-damage': 'Sheath damage',
+  'splice-fault': 'Faulty splice',
+  'crush-or-kink': 'Crushed or kinked cable',
+  'not-a-fault': 'Not a fault (known feature)',
+  other: 'Other',
+};
+
+export const FindingInputSchema = z.object({
+  traceId: z.coerce.number({ error: 'must be a trace id' }).int().positive('must be a trace id'),
+  eventIndex: z.coerce.number({ error: 'must be an event number' }).int().min(0, 'must be an event number'),
+  status: z.enum(FINDING_STATUSES, { error: 'must be confirmed or dismissed' }),
+  kind: z.enum(FINDING_KINDS, { error: `must be one of ${FINDING_KINDS.join(', ')}` }),
+  note: z
+    .string()
+    .trim()
+    .max(2000, 'must be at most 2000 characters')
+    .nullish()
+    .transform((v) => (v ? v : null)),
+});
+export type FindingInput = z.input<typeof FindingInputSchema>;
+
+export const FINDING_SORTS = ['confirmedAt', 'distanceM', 'status'] as const;
+
+export const FindingListQuerySchema = z.object({
+  siteId: z.coerce.number().int().positive().optional(),
+  cableRunId: z.coerce.number().int().positive().optional(),
+  traceId: z.coerce.number().int().positive().optional(),
+  status: z.enum(FINDING_STATUSES).optional(),
+  sort: z.enum(FINDING_SORTS).default('confirmedAt'),
+  dir: z.enum(['asc', 'desc']).default('desc'),
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+});
+export type FindingListQuery = z.input<typeof FindingListQuerySchema>;
+
+export const TwoEndedQuerySchema = z.object({
+  traceA: z.coerce.number().int().positive(),
+  eventA: z.coerce.number().int().min(0),
+  traceB: z.coerce.number().int().positive(),
+  eventB: z.coerce.number().int().min(0),
+});
+
+export interface FindingView {
+  id: number;
+  siteId: number;
+  siteName: string;
+  cableRunId: number;
+  cableRunName: string;
+  traceId: number;
+  traceName: string;
+  end: CableEnd;
+  endLabel: string;
+  eventIndex: number;
+  eventType: string;
+  kind: string;
+  note: string | null;
+  roundTripNs: number;
+  distanceM: number;
+  uncertaintyM: number;
+  windowStartM: number;
+  windowEndM: number;
+  distanceFromAM: number;
+  routePosition: RoutePosition | null;
+  routePositionText: string;
+  status: FindingStatus;
+  confirmedBy: { id: number; name: string };
+  confirmedAt: string;
+  vf: number;
+  vfTolerance: number;
+  engineVersion: string;
+}

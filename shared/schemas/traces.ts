@@ -1,0 +1,156 @@
+import { z } from 'zod';
+import type { TraceAnalysis } from './trace-analysis';
+import type { RouteMarkerView } from './sites';
+
+export const CABLE_ENDS = ['A', 'B'] as const;
+export type CableEnd = (typeof CABLE_ENDS)[number];
+export const TRACE_STATUSES = ['ok', 'failed'] as const;
+export type TraceStatus = (typeof TRACE_STATUSES)[number];
+
+/** Multipart form fields arrive as strings; an empty field means "not given". */
+const optionalNumber = (what: string, check: (v: number) => boolean, rule: string) =>
+  z.preprocess(
+    (v) => (v === '' || v === null || v === undefined ? undefined : v),
+    z.coerce
+      .number({ error: `${what} must be a number` })
+      .refine(Number.isFinite, `${what} must be a finite number`)
+      .refine(check, `${what} ${rule}`)
+      .optional(),
+  );
+
+export const TraceUploadSchema = z
+  .object({
+    cableRunId: z.coerce.number({ error: 'choose a cable run' }).int().positive('choose a cable run'),
+    end: z.enum(CABLE_ENDS, { error: 'must be A or B (the end the instrument was connected to)' }),
+    mode: z.preprocess((v) => (v === '' ? undefined : v), z.enum(['auto', 'step', 'pulse']).default('auto')),
+    pulseWidthNs: optionalNumber('pulse width', (v) => v > 0 && v < 1e6, 'must be more than 0 ns'),
+    zeroOffsetNs: optionalNumber('zero offset', (v) => Math.abs(v) < 1e6, 'must be under 1 ms'),
+    leadLengthM: optionalNumber('test-lead length', (v) => v >= 0 && v < 1000, 'must be between 0 and 1000 m'),
+    sampleIntervalNs: optionalNumber('sample interval', (v) => v > 0, 'must be more than 0 ns'),
+    vfOverride: optionalNumber('velocity factor', (v) => v > 0 && v <= 1, 'must be more than 0 and at most 1'),
+    vfOverrideReason: z
+      .string()
+      .trim()
+      .max(500)
+      .optional()
+      .transform((v) => (v ? v : undefined)),
+  })
+  .superRefine((v, ctx) => {
+    if (v.vfOverride !== undefined && !v.vfOverrideReason) {
+      ctx.addIssue({ code: 'custom', path: ['vfOverrideReason'], message: 'give a reason when overriding the velocity factor' });
+    }
+  });
+export type TraceUploadInput = z.input<typeof TraceUploadSchema>;
+
+/** The settings a trace was analysed with, as the technician gave them. */
+export interface TraceSettings {
+  mode: 'auto' | 'step' | 'pulse';
+  pulseWidthNs?: number;
+  zeroOffsetNs?: number;
+  leadLengthM?: number;
+  sampleIntervalNs?: number;
+  vfOverride?: number;
+}
+
+export const TRACE_SORTS = ['createdAt', 'originalName', 'status', 'end'] as const;
+
+export const TraceListQuerySchema = z.object({
+  siteId: z.coerce.number().int().positive().optional(),
+  cableRunId: z.coerce.number().int().positive().optional(),
+  end: z.enum(CABLE_ENDS).optional(),
+  status: z.enum(TRACE_STATUSES).optional(),
+  uploadedById: z.coerce.number().int().positive().optional(),
+  from: z.iso.date({ error: 'must be a date, YYYY-MM-DD' }).optional(),
+  to: z.iso.date({ error: 'must be a date, YYYY-MM-DD' }).optional(),
+  sort: z.enum(TRACE_SORTS).default('createdAt'),
+  dir: z.enum(['asc', 'desc']).default('desc'),
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+});
+export type TraceListQuery = z.input<typeof TraceListQuerySchema>;
+
+export const TraceViewQuerySchema = z.object({
+  points: z.coerce.number().int().min(100).max(20000).default(2000),
+  compareTo: z.coerce.number().int().positive().optional(),
+});
+
+export const ReferenceSchema = z.object({ isReference: z.boolean({ error: 'must be true or false' }) });
+
+export interface TraceSummary {
+  id: number;
+  cableRunId: number;
+  cableRunName: string;
+  siteId: number;
+  siteName: string;
+  end: CableEnd;
+  endLabel: string;
+  originalName: string;
+  sizeBytes: number;
+  sha256: string;
+  status: TraceStatus;
+  errorMessage: string | null;
+  uploadedBy: { id: number; name: string };
+  createdAt: string;
+  isReference: boolean;
+  eventCount: number;
+  findingCount: number;
+}
+
+export interface TraceError {
+  code: string;
+  message: string;
+  line: number | null;
+  field: string | null;
+}
+
+export interface TraceFindingRef {
+  id: number;
+  eventIndex: number;
+  status: 'confirmed' | 'dismissed';
+  kind: string;
+}
+
+export interface TraceComparison {
+  referenceTraceId: number;
+  referenceName: string;
+  /** The reference resampled onto this trace's time axis. */
+  reference: Array<{ t: number; y: number }>;
+  /** This trace minus the reference, on this trace's time axis. */
+  difference: Array<{ t: number; y: number }>;
+  /** Indexes of this trace's events with no matching event in the reference. */
+  newEventIndexes: number[];
+  /** Reference events no longer seen. */
+  missingReferenceEvents: Array<{ index: number; distanceM: number; type: string }>;
+}
+
+export interface TraceDetail extends TraceSummary {
+  settings: TraceSettings;
+  vf: number;
+  vfTolerance: number;
+  z0Ohm: number | null;
+  vfOverrideReason: string | null;
+  engineVersion: string;
+  cableTypeRevision: number | null;
+  /** True when the cable library's VF/Z0 has changed since this trace was analysed. */
+  libraryChangedSince: boolean;
+  error: TraceError | null;
+  analysis: TraceAnalysis | null;
+  /** Decimated samples: t = round-trip time in ns, y = amplitude. */
+  samples: Array<{ t: number; y: number }>;
+  sampleCount: number;
+  cableRun: {
+    id: number;
+    name: string;
+    installedLengthM: number;
+    endALabel: string;
+    endBLabel: string;
+    cableTypeName: string;
+    markers: RouteMarkerView[];
+  };
+  findings: TraceFindingRef[];
+  comparison: TraceComparison | null;
+}
+
+export interface UploadResult {
+  traces: TraceDetail[];
+}
