@@ -12,10 +12,12 @@ import { connect } from './db/connection';
 import { seedDemo } from './db/demo/seed';
 import { migrate } from './db/migrations';
 import { initModels } from './db/models';
+import { startMail } from './mail';
 import { sessionSecret } from './db/settings';
 import { AppError, errorHandler } from './errors';
 import type { ApiRouter, RouteRecord } from './http/api-router';
 import { createCsrf } from './http/csrf';
+import { outboxRoutes } from './outbox/outbox.routes';
 import { userRoutes } from './users/users.routes';
 
 const SessionStore = connectSessionSequelize(session.Store);
@@ -36,8 +38,10 @@ export async function createApp(config: AppConfig): Promise<RhologApp> {
   const sequelize = await connect(config.databaseUrl);
   initModels(sequelize);
   await migrate(sequelize);
-  const ctx: AppContext = { config, sequelize, onClose: [], log };
+  const mail = await startMail(config, log);
+  const ctx: AppContext = { config, sequelize, onClose: [], log, mail };
   ctx.onClose.push(() => sequelize.close());
+  ctx.onClose.unshift(() => mail.close());
   fs.mkdirSync(config.uploadDir, { recursive: true });
 
   if (config.demoData) await seedDemo(ctx);
@@ -105,7 +109,7 @@ export async function createApp(config: AppConfig): Promise<RhologApp> {
     res.json({ status: 'ok' });
   });
 
-  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes()];
+  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(), outboxRoutes(ctx)];
   for (const r of routers) app.use(r.prefix, r.router);
   const routes = [{ method: 'get' as const, path: '/api/health', access: 'public' as const }, ...routers.flatMap((r) => r.routes)];
 

@@ -14,4 +14,5 @@ export interface NavItem {
 export const NAV: NavItem[] = [
   { label: 'Today', short: 'Today', to: paths.home.to() },
   { label: 'Users', to: paths.adminUsers.to(), permission: 'users:manage' },
+  { label: 'Outbox', to: paths.outbox.to(), permission: 'outbox:read' },
 ];

@@ -8,4 +8,9 @@ export const paths = {
   notAllowed: { pattern: '/not-allowed', to: () => '/not-allowed' },
   account: { pattern: '/account', to: () => '/account' },
   adminUsers: { pattern: '/admin/users', to: () => '/admin/users' },
+  outbox: { pattern: '/outbox', to: () => '/outbox' },
+  tickets: { pattern: '/tickets', to: () => '/tickets' },
+  ticket: { pattern: '/tickets/:ticketId', to: (ticketId: number) => `/tickets/${ticketId}` },
+  ticketSheet: { pattern: '/tickets/:ticketId/sheet', to: (ticketId: number) => `/tickets/${ticketId}/sheet` },
+  dashboard: { pattern: '/dashboard', to: () => '/dashboard' },
 } as const;

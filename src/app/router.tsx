@@ -35,6 +35,7 @@ export const routes: RouteObject[] = [
       { path: paths.account.pattern, ...page(() => import('./routes/account')) },
       { path: paths.notAllowed.pattern, element: <NotAllowedPage /> },
       { path: paths.adminUsers.pattern, ...page(() => import('./routes/admin-users'), 'users:manage') },
+      { path: paths.outbox.pattern, ...page(() => import('./routes/outbox'), 'outbox:read') },
       { path: '*', element: <NotFoundPage /> },
     ],
   },

@@ -4,6 +4,7 @@ import * as m0001 from './0001-users-and-sessions';
 import * as m0002 from './0002-cable-types';
 import * as m0003 from './0003-field-workflow';
 import * as m0004 from './0004-cable-library';
+import * as m0005 from './0005-mail';
 
 export type Migration = MigrationFn<QueryInterface>;
 
@@ -16,6 +17,7 @@ const MIGRATIONS: Array<{ name: string; up: Migration; down: Migration }> = [
   { name: '0002-cable-types', ...m0002 },
   { name: '0003-field-workflow', ...m0003 },
   { name: '0004-cable-library', ...m0004 },
+  { name: '0005-mail', ...m0005 },
 ];
 
 export function migrator(sequelize: Sequelize) {

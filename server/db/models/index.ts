@@ -2,6 +2,8 @@ import type { Sequelize } from 'sequelize';
 import { associateCableCalibration, initCableCalibration } from './cable-calibration';
 import { CableType, initCableType } from './cable-type';
 import { associateCableTypeChange, initCableTypeChange } from './cable-type-change';
+import { initMailJob } from './mail-job';
+import { initOutboxMessage } from './outbox-message';
 import { initCableRun } from './cable-run';
 import { associateFieldModels } from './field-associations';
 import { initFinding } from './finding';
@@ -28,6 +30,8 @@ export function initModels(sequelize: Sequelize) {
   initTrace(sequelize);
   initFinding(sequelize);
   associateFieldModels();
+  initMailJob(sequelize);
+  initOutboxMessage(sequelize);
   associateCableTypeChange({ CableType, User });
   associateCableCalibration({ CableType, User });
 }
@@ -37,6 +41,8 @@ export { Session } from './session';
 export { CableType } from './cable-type';
 export { CableTypeChange } from './cable-type-change';
 export { CableCalibration } from './cable-calibration';
+export { MailJob } from './mail-job';
+export { OutboxMessage } from './outbox-message';
 export { Site } from './site';
 export { SiteSupervisor } from './site-supervisor';
 export { CableRun } from './cable-run';

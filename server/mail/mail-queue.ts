@@ -1,0 +1,174 @@
+import { Op, type Transaction } from 'sequelize';
+import { MailJob } from '../db/models/mail-job';
+import type { Mailer } from './mailer';
+
+export interface MailJobInput {
+  kind: string;
+  to: string[];
+  subject: string;
+  text: string;
+  html?: string | null;
+  ticketId?: number | null;
+  findingId?: number | null;
+}
+
+export interface MailQueueOptions {
+  /** First retry after this long; each later one waits twice as long as the one before. */
+  retryBaseMs: number;
+  /** After this many failed tries the job is marked failed and left alone. */
+  maxAttempts: number;
+  log: (message: string) => void;
+  /** Longest sleep between looks at the table (jobs are normally picked up at once via kick()). */
+  pollMs?: number;
+}
+
+const MAX_DELAY_MS = 60 * 60 * 1000;
+
+/** Exponential back-off: base, 2·base, 4·base, … capped at one hour. */
+export function retryDelayMs(attemptsSoFar: number, baseMs: number): number {
+  return Math.min(MAX_DELAY_MS, baseMs * 2 ** Math.max(0, attemptsSoFar - 1));
+}
+
+/**
+ * The durable send queue. enqueue() writes a mail_jobs row (inside the
+ * caller's transaction when given one) and wakes the worker after commit;
+ * the worker sends due jobs one by one and records each outcome on the row.
+ */
+export class MailQueue {
+  private timer: NodeJS.Timeout | undefined;
+  private current: Promise<void> | undefined;
+  private again = false;
+  private stopped = false;
+  private readonly pollMs: number;
+
+  constructor(
+    private readonly mailer: Mailer,
+    private readonly options: MailQueueOptions,
+  ) {
+    this.pollMs = options.pollMs ?? 30_000;
+  }
+
+  start() {
+    this.schedule(0);
+  }
+
+  async enqueue(input: MailJobInput, transaction?: Transaction): Promise<MailJob | null> {
+    const to = [...new Set(input.to.map((a) => a.trim()).filter(Boolean))];
+    if (to.length === 0) return null;
+    const job = await MailJob.create(
+      {
+        kind: input.kind,
+        toAddresses: to.join(', '),
+        subject: input.subject,
+        text: input.text,
+        html: input.html ?? null,
+        nextAttemptAt: new Date(),
+        ticketId: input.ticketId ?? null,
+        findingId: input.findingId ?? null,
+      },
+      { transaction },
+    );
+    if (transaction) transaction.afterCommit(() => this.kick());
+    else this.kick();
+    return job;
+  }
+
+  /** Try a failed job again now. */
+  async retry(jobId: number): Promise<MailJob | null> {
+    const job = await MailJob.findByPk(jobId);
+    if (!job || job.status === 'sent') return job;
+    await job.update({ status: 'queued', nextAttemptAt: new Date() });
+    this.kick();
+    return job;
+  }
+
+  kick() {
+    this.schedule(0);
+  }
+
+  async stop() {
+    this.stopped = true;
+    if (this.timer) clearTimeout(this.timer);
+    this.timer = undefined;
+    await this.current;
+  }
+
+  private schedule(delayMs: number) {
+    if (this.stopped) return;
+    if (this.timer) clearTimeout(this.timer);
+    this.timer = setTimeout(() => this.tick(), Math.max(0, delayMs));
+    this.timer.unref();
+  }
+
+  private tick() {
+    this.timer = undefined;
+    if (this.stopped) return;
+    if (this.current) {
+      this.again = true;
+      return;
+    }
+    this.current = this.drain()
+      .then((nextDelay) => {
+        this.current = undefined;
+        if (this.again) {
+          this.again = false;
+          this.schedule(0);
+        } else {
+          this.schedule(nextDelay);
+        }
+      })
+      .catch((err: Error) => {
+        this.current = undefined;
+        this.options.log(`mail queue: ${err.message}`);
+        this.schedule(this.pollMs);
+      });
+  }
+
+  /** Send everything due; answer how long until the next job falls due. */
+  private async drain(): Promise<number> {
+    for (;;) {
+      if (this.stopped) return this.pollMs;
+      const due = await MailJob.findAll({
+        where: { status: 'queued', nextAttemptAt: { [Op.lte]: new Date() } },
+        order: [['nextAttemptAt', 'ASC'], ['id', 'ASC']],
+        limit: 20,
+      });
+      if (due.length === 0) break;
+      for (const job of due) {
+        if (this.stopped) return this.pollMs;
+        await this.sendOne(job);
+      }
+    }
+    const next = await MailJob.findOne({ where: { status: 'queued' }, order: [['nextAttemptAt', 'ASC']] });
+    if (!next) return this.pollMs;
+    return Math.min(this.pollMs, next.nextAttemptAt.getTime() - Date.now());
+  }
+
+  private async sendOne(job: MailJob) {
+    const attempts = job.attempts + 1;
+    const at = new Date();
+    try {
+      const { messageId } = await this.mailer.send({
+        to: job.toAddresses,
+        subject: job.subject,
+        text: job.text,
+        html: job.html,
+        headers: { 'X-Rholog-Mail-Job': String(job.id) },
+      });
+      await job.update({ status: 'sent', attempts, lastAttemptAt: at, sentAt: new Date(), messageId: messageId || null });
+    } catch (err) {
+      const message = (err as Error).message || String(err);
+      const giveUp = attempts >= this.options.maxAttempts;
+      await job.update({
+        status: giveUp ? 'failed' : 'queued',
+        attempts,
+        lastAttemptAt: at,
+        lastError: message.slice(0, 2000),
+        nextAttemptAt: new Date(at.getTime() + retryDelayMs(attempts, this.options.retryBaseMs)),
+      });
+      this.options.log(
+        `mail job ${job.id} to ${job.toAddresses} failed (try ${attempts} of ${this.options.maxAttempts}${giveUp ? ', giving up' : ''}): ${message}`,
+      );
+    }
+  }
+}

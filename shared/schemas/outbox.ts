@@ -1,0 +1,53 @@
+import { z } from 'zod';
+
+export const OutboxQuerySchema = z.object({
+  to: z.string().trim().max(254).optional(),
+  page: z.coerce.number({ error: 'must be a whole number' }).int().min(1, 'must be 1 or more').default(1),
+  pageSize: z.coerce.number({ error: 'must be a whole number' }).int().min(1).max(100, 'must be at most 100').default(25),
+});
+
+export const MailQueueQuerySchema = z.object({
+  status: z.enum(['queued', 'sent', 'failed'], { error: 'must be queued, sent or failed' }).optional(),
+  page: z.coerce.number({ error: 'must be a whole number' }).int().min(1, 'must be 1 or more').default(1),
+  pageSize: z.coerce.number({ error: 'must be a whole number' }).int().min(1).max(100, 'must be at most 100').default(25),
+});
+
+export interface OutboxHeader {
+  key: string;
+  line: string;
+}
+
+/** A message as the capture server stored it. */
+export interface OutboxMessageView {
+  id: number;
+  messageId: string | null;
+  from: string;
+  to: string;
+  cc: string | null;
+  subject: string;
+  sentAt: string;
+  receivedAt: string;
+  /** The plain-text body. */
+  body: string;
+  html: string | null;
+  headers: OutboxHeader[];
+}
+
+export type MailJobStatus = 'queued' | 'sent' | 'failed';
+
+/** One entry of the send queue: what was (or will be) sent and how it went. */
+export interface MailJobView {
+  id: number;
+  kind: string;
+  to: string;
+  subject: string;
+  status: MailJobStatus;
+  attempts: number;
+  nextAttemptAt: string | null;
+  lastAttemptAt: string | null;
+  lastError: string | null;
+  sentAt: string | null;
+  ticketId: number | null;
+  findingId: number | null;
+  createdAt: string;
+}
