@@ -35,7 +35,8 @@ export type Element =
   | { kind: 'series'; rOhm?: number; lH?: number }
   | { kind: 'shunt'; rOhm?: number; cF?: number };
 
-export type Termination = { kind: 'open' } | { kind: 'short' } | { kind: 'load'; rOhm: number };
+/** 'matched' ends in the last section's own characteristic impedance at every frequency: no reflection at all. */
+export type Termination = { kind: 'open' } | { kind: 'short' } | { kind: 'load'; rOhm: number } | { kind: 'matched' };
 
 export interface Network {
   elements: Element[];
@@ -87,6 +88,12 @@ function inputImpedance(net: Network, f: number): { num: C; den: C } {
       num = [0, 0];
       den = [1, 0];
       break;
+    case 'matched': {
+      const last = [...net.elements].reverse().find((e) => e.kind === 'line');
+      num = last && last.kind === 'line' ? lineParameters(last.cable, f).zc : [50, 0];
+      den = [1, 0];
+      break;
+    }
     default:
       num = [net.termination.rOhm, 0];
       den = [1, 0];

@@ -103,6 +103,8 @@ interface Measured {
   echoPeak: number;
   /** u just before the event (step: 0 on a clean matched line). */
   levelBefore: number;
+  /** Change over the last level window, as a fraction of the event: > 0 while a lossy edge is still settling. */
+  stillMoving: number;
 }
 
 const MAD_TO_SIGMA = 1.4826;
@@ -634,6 +636,7 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     let fLo = Math.min(0.3, Math.max(0.1, (3 * sigmaLocal) / Math.abs(height)));
     let r = measureOnset(us, blip ? c.i : postFrom, base, height, fLo, preFrom, Math.min(n - 1, postTo));
     let settleTo = postTo;
+    let stillMoving = 0;
     if (!blip) {
       // A lossy edge keeps rising long after the filter window: widen the level window
       // to a few times the edge's own 10–90 % time until the level stops changing.
@@ -645,6 +648,8 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
         if (b - a < 1) break;
         const hNext = sampleMedian(us, a, b) - base0;
         settleTo = b;
+        const midAB = Math.floor((a + b) / 2);
+        if (midAB > a && b > midAB) stillMoving = (sampleMedian(us, midAB, b) - sampleMedian(us, a, midAB)) / (hNext || 1);
         if (Math.sign(hNext) !== Math.sign(height)) break;
         const change = Math.abs(hNext - height) / Math.abs(height);
         height = hNext;
@@ -673,6 +678,7 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
       fLo,
       echoPeak,
       levelBefore: baseLevel,
+      stillMoving,
     });
     prevEnd = Math.min(n - 1, Math.max(prevEnd, c.i + w));
   }
@@ -684,7 +690,7 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     if (
       last &&
       Math.sign(last.height) !== Math.sign(m.height) &&
-      m.onsetIdx - last.onsetIdx < Math.max(1.5 * Math.max(last.w, m.w), 2 * w0) &&
+      m.onsetIdx - last.onsetIdx < Math.max(1.5 * Math.max(last.w, m.w), 2 * w0, 1.5 * last.riseSamples, 3 * (L.widthSamples ?? 0)) &&
       Math.abs(last.height + m.height) < 0.5 * Math.abs(last.height)
     ) {
       last.blip = true;
@@ -706,7 +712,8 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
 
   const zeroOverride = options.zeroOffsetNs !== undefined ? (options.zeroOffsetNs * 1e-9 - t[0]) / dt : null;
   const blindZoneM = L.found ? Math.max(0, (blindIdx - launchOnset(0.1)) * mPerSample - leadM) : 0;
-  for (const m of merged) {
+  let transmission = 1;
+  for (const [mi, m] of merged.entries()) {
     const zeroIdx = zeroOverride ?? launchOnset(m.fLo) - zeroShift;
     const rtSamples = m.onsetIdx - zeroIdx;
     const roundTripS = rtSamples * dt;
@@ -716,19 +723,18 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     const rise = m.riseSamples * dt;
     const edgeM = distanceFromRoundTrip(0.25 * rise + 2 * (sigmaU / Math.max(1e-12, Math.abs(rho))) * rise, vf);
     const uncertaintyM = Math.sqrt((distanceM * vfTolerance) ** 2 + mPerSample ** 2 + edgeM ** 2);
+    // Type. ρ is first referred to the wave that reached the event: each earlier lumped
+    // fault passed it, out and back, with transmission (1 − |ρ|) each way. An open or a
+    // short reflects (nearly) everything; a lossy far end that is still settling when the
+    // record or the next event cuts it short counts as one from half that.
+    const rhoLocal = rho / Math.max(0.05, transmission);
+    const isLast = merged.slice(mi + 1).every((later) => Math.abs(later.height) < 0.3 * Math.abs(rho));
+    const settling = m.stillMoving > 0.03;
     let type: ReflectionType;
-    if (mode === 'step') {
-      const after = 1 + rho + (events.length ? 0 : 0);
-      const levelAfter = 1 + m.levelBefore + rho;
-      void after;
-      if (!m.blip && (rho >= 0.8 || (rho > 0.4 && levelAfter >= 1.8))) type = 'open';
-      else if (!m.blip && (rho <= -0.8 || (rho < -0.4 && levelAfter <= 0.2))) type = 'short';
-      else type = rho > 0 ? 'impedance-rise' : 'impedance-drop';
-    } else {
-      if (!m.blip && rho >= 0.7) type = 'open';
-      else if (!m.blip && rho <= -0.7) type = 'short';
-      else type = rho > 0 ? 'impedance-rise' : 'impedance-drop';
-    }
+    if (!m.blip && (rhoLocal >= 0.75 || (isLast && rhoLocal >= 0.5) || (isLast && settling && rhoLocal >= 0.3))) type = 'open';
+    else if (!m.blip && (rhoLocal <= -0.75 || (isLast && settling && rhoLocal <= -0.3))) type = 'short';
+    else type = rho > 0 ? 'impedance-rise' : 'impedance-drop';
+    if (!m.blip) transmission *= (1 - Math.min(0.95, Math.abs(rhoLocal))) ** 2;
     const clipped = Math.max(-0.999999, Math.min(0.999999, rho));
     const impedanceOhm = mode === 'step' && z0 !== null && !m.blip ? (type === 'open' && rho >= 0.999 ? null : (z0 * (1 + clipped)) / (1 - clipped)) : null;
     const amplitudeRaw =
@@ -775,6 +781,29 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
         }
       }
       if (e.likelyMultipleOf !== null) break;
+    }
+  }
+  // Beyond an open or a short the line is invisible: weaker features after it are its echoes
+  // or the tail of its own spread edge, not faults.
+  const endIdx = events.findIndex((e) => e.likelyMultipleOf === null && (e.type === 'open' || e.type === 'short'));
+  if (endIdx >= 0) {
+    const end = events[endIdx];
+    let dropped = 0;
+    for (let k = events.length - 1; k > endIdx; k--) {
+      const e = events[k];
+      if (e.likelyMultipleOf === null && Math.abs(e.reflectionCoefficient) < 0.3 * Math.abs(end.reflectionCoefficient)) {
+        events.splice(k, 1);
+        dropped++;
+      }
+    }
+    events.forEach((e, k) => {
+      e.index = k;
+    });
+    if (dropped > 0) {
+      warnings.push({
+        code: 'AFTER_END_IGNORED',
+        message: `${dropped} weak feature(s) after the ${end.type} at ${end.distanceM.toFixed(1)} m were ignored as its echoes`,
+      });
     }
   }
   const primaries = events.filter((e) => e.likelyMultipleOf === null);

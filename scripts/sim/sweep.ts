@@ -1,0 +1,138 @@
+/**
+ * The simulator sweep: cable routes with known faults, each acquired as a step
+ * or pulse trace with noise and ADC quantisation, written in one of the CSV
+ * layouts. The engine must place every feature within max(0.5 m, 1 %) with the
+ * right type and report nothing else.
+ */
+import { COAX_50, COAX_75, PAIR_100, POWER_LV, POWER_MV } from './cables';
+import { LAYOUTS, type Layout, writeLayout } from './layouts';
+import { type Acquisition, defaultAcquisition, type ExpectedEvent, type Scenario, simulateScenario } from './scenario';
+
+export interface SweepCase {
+  id: string;
+  scenario: Scenario;
+  acquisition: Acquisition;
+  layout: Layout;
+  csv: string;
+  expected: ExpectedEvent[];
+  vf: number;
+  z0Ohm: number;
+}
+
+type Route = Omit<Scenario, 'name'> & { modes?: Array<'step' | 'pulse'> };
+
+const ROUTES: Route[] = [
+  { cable: COAX_50, lengthM: 5, end: 'open', features: [] },
+  { cable: COAX_50, lengthM: 12, end: 'short', features: [] },
+  { cable: COAX_50, lengthM: 30, end: 'open', features: [{ kind: 'series', atM: 11, rOhm: 25 }] },
+  { cable: COAX_50, lengthM: 60, end: 'matched', features: [{ kind: 'shunt', atM: 23.5, rOhm: 100 }] },
+  { cable: COAX_50, lengthM: 100, end: 'open', features: [] },
+  { cable: COAX_50, lengthM: 45, end: 'matched', features: [] },
+  { cable: COAX_75, lengthM: 80, end: 'open', features: [{ kind: 'splice', atM: 31, lengthM: 0.4, zScale: 0.7 }] },
+  { cable: COAX_75, lengthM: 150, end: 'short', features: [{ kind: 'wet', atM: 62, lengthM: 12, zScale: 0.8, vfScale: 0.85 }] },
+  { cable: COAX_75, lengthM: 250, end: 'matched', features: [{ kind: 'open', atM: 173 }] },
+  { cable: PAIR_100, lengthM: 40, end: 'open', features: [{ kind: 'shunt', atM: 17, rOhm: 50 }] },
+  { cable: PAIR_100, lengthM: 120, end: 'open', features: [{ kind: 'wet', atM: 48, lengthM: 15, zScale: 0.75, vfScale: 0.85 }] },
+  { cable: PAIR_100, lengthM: 300, end: 'short', features: [] },
+  { cable: PAIR_100, lengthM: 200, end: 'matched', features: [] },
+  { cable: PAIR_100, lengthM: 600, end: 'open', features: [{ kind: 'shunt', atM: 260, rOhm: 40 }] },
+  { cable: POWER_LV, lengthM: 90, end: 'open', features: [{ kind: 'short', atM: 54, rOhm: 0.5 }] },
+  { cable: POWER_LV, lengthM: 250, end: 'open', features: [{ kind: 'series', atM: 140, rOhm: 40 }] },
+  { cable: POWER_LV, lengthM: 400, end: 'matched', features: [] },
+  { cable: POWER_MV, lengthM: 450, end: 'open', features: [{ kind: 'splice', atM: 180, lengthM: 0.6, zScale: 0.6 }] },
+  { cable: POWER_MV, lengthM: 1200, end: 'open', features: [{ kind: 'shunt', atM: 730, rOhm: 15 }] },
+  { cable: POWER_MV, lengthM: 2000, end: 'open', features: [{ kind: 'splice', atM: 820, lengthM: 4, zScale: 0.6 }, { kind: 'shunt', atM: 1450, rOhm: 15 }] },
+  { cable: POWER_MV, lengthM: 3000, end: 'open', features: [] },
+  { cable: POWER_MV, lengthM: 2600, end: 'matched', features: [{ kind: 'short', atM: 1810, rOhm: 0.3 }] },
+  { cable: POWER_MV, lengthM: 1500, end: 'matched', features: [] },
+  { cable: COAX_50, lengthM: 8, end: 'open', features: [{ kind: 'shunt', atM: 3.2, rOhm: 25 }] },
+  { cable: PAIR_100, lengthM: 500, end: 'open', features: [{ kind: 'series', atM: 210, rOhm: 80 }] },
+  { cable: COAX_75, lengthM: 20, end: 'matched', features: [{ kind: 'series', atM: 9, rOhm: 15 }] },
+  { cable: POWER_LV, lengthM: 30, end: 'short', features: [] },
+];
+
+const NOISE = [0.001, 0.003, 0.006];
+const BITS = [12, 10, 14];
+
+/** Instrument VF settings a little off the cable's, as in the field. */
+const INSTRUMENT_VF_OFFSET = [0, 0.02, -0.03];
+
+export function buildSweep(): SweepCase[] {
+  const out: SweepCase[] = [];
+  let k = 0;
+  for (const [r, route] of ROUTES.entries()) {
+    for (const mode of route.modes ?? (['step', 'pulse'] as const)) {
+      const scenario: Scenario = { ...route, name: `${route.cable.name}-${route.lengthM}m-${route.end}` };
+      const acq = defaultAcquisition(scenario, mode, 1000 + k, NOISE[k % NOISE.length], BITS[k % BITS.length]);
+      if (k % 4 === 1) acq.impairments.offsetV = 0.03;
+      if (k % 5 === 2) acq.impairments.driftV = 0.01;
+      const sim = simulateScenario(scenario, acq);
+      const layout = LAYOUTS[k % LAYOUTS.length];
+      const instrumentVf = Math.round((route.cable.vf + INSTRUMENT_VF_OFFSET[r % 3]) * 100) / 100;
+      const csv = writeLayout({
+        layout,
+        timeS: sim.timeS,
+        volts: sim.volts,
+        incidentV: sim.incidentV,
+        instrumentVf,
+        cableName: route.cable.name,
+      });
+      out.push({
+        id: `${String(k).padStart(2, '0')}-${scenario.name}-${mode}-${layout}`,
+        scenario,
+        acquisition: acq,
+        layout,
+        csv,
+        expected: sim.expected,
+        vf: route.cable.vf,
+        z0Ohm: route.cable.z0Ohm,
+      });
+      k++;
+    }
+  }
+  return out;
+}
+
+export interface CaseResult {
+  id: string;
+  ok: boolean;
+  problems: string[];
+  worstErrorM: number;
+  worstErrorOfTolerance: number;
+}
+
+/** Match reported events to expected ones; every expected one found, nothing else. */
+export function scoreCase(
+  c: SweepCase,
+  events: Array<{ distanceM: number; type: string; likelyMultipleOf: number | null }>,
+): CaseResult {
+  const problems: string[] = [];
+  let worstErrorM = 0;
+  let worstErrorOfTolerance = 0;
+  const used = new Set<number>();
+  for (const e of c.expected) {
+    const tol = Math.max(0.5, 0.01 * e.distanceM);
+    let best = -1;
+    let bestErr = Infinity;
+    events.forEach((g, i) => {
+      const err = Math.abs(g.distanceM - e.distanceM);
+      if (!used.has(i) && err < bestErr) {
+        bestErr = err;
+        best = i;
+      }
+    });
+    if (best < 0 || bestErr > tol) {
+      if (e.optional) continue;
+      problems.push(`missed ${e.what} at ${e.distanceM.toFixed(2)} m (nearest ${best < 0 ? 'none' : events[best].distanceM.toFixed(2)})`);
+      continue;
+    }
+    used.add(best);
+    worstErrorM = Math.max(worstErrorM, bestErr);
+    worstErrorOfTolerance = Math.max(worstErrorOfTolerance, bestErr / tol);
+    if (events[best].type !== e.type && !e.optional) problems.push(`${e.what} at ${e.distanceM.toFixed(2)} m typed ${events[best].type}, expected ${e.type}`);
+  }
+  events.forEach((g, i) => {
+    if (!used.has(i) && g.likelyMultipleOf === null) problems.push(`false event ${g.type} at ${g.distanceM.toFixed(2)} m`);
+  });
+  return { id: c.id, ok: problems.length === 0, problems, worstErrorM, worstErrorOfTolerance };
+}
