@@ -39,6 +39,7 @@ import type { ReflectionEvent, ReflectionType, TraceAnalysis, TraceWarning } fro
 import { TraceInputError } from './errors';
 import type { ParsedTrace } from './parse';
 import { ENGINE_VERSION } from './version';
+import { impedanceFromReflection } from './impedance';
 
 export interface AnalyzeOptions {
   /** Velocity factor of the cable under test (0 < vf ≤ 1). */
@@ -154,8 +155,14 @@ function boxcar(x: Float64Array, w: number): Float64Array {
   for (let i = 0; i < n; i++) {
     const a = Math.max(0, i - h);
     const b = Math.min(n, i - h + w);
-    while (hi < b) acc += x[hi++], count++;
-    while (lo < a) acc -= x[lo++], count--;
+    while (hi < b) {
+      acc += x[hi++];
+      count++;
+    }
+    while (lo < a) {
+      acc -= x[lo++];
+      count--;
+    }
     out[i] = acc / count;
   }
   return out;
@@ -735,8 +742,10 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     else if (!m.blip && (rhoLocal <= -0.75 || (isLast && settling && rhoLocal <= -0.3))) type = 'short';
     else type = rho > 0 ? 'impedance-rise' : 'impedance-drop';
     if (!m.blip) transmission *= (1 - Math.min(0.95, Math.abs(rhoLocal))) ** 2;
-    const clipped = Math.max(-0.999999, Math.min(0.999999, rho));
-    const impedanceOhm = mode === 'step' && z0 !== null && !m.blip ? (type === 'open' && rho >= 0.999 ? null : (z0 * (1 + clipped)) / (1 - clipped)) : null;
+    // An impedance is only meaningful for a step trace, a known Z0, and an event that is
+    // neither a blip nor an open/short (whose Z is ∞ or 0, whatever the lossy ρ reads).
+    const impedanceOhm =
+      mode === 'step' && z0 !== null && !m.blip && type !== 'open' && type !== 'short' ? impedanceFromReflection(rho, z0) : null;
     const amplitudeRaw =
       mode === 'step' ? rho * Math.abs(L.found || trace.amplitudeUnit !== 'rho' ? L.height : 1) : m.echoPeak * (L.found ? L.height : 1);
     events.push({

@@ -14,6 +14,7 @@ export { parseTraceCsv, DEFAULT_MAX_BYTES, type ParseOptions, type ParsedTrace, 
 export { TraceInputError, type TraceInputErrorCode } from './errors';
 export { decimateMinMax, type TracePoint } from './decimate';
 export { ENGINE_VERSION } from './version';
+export { reflectionFromImpedance, impedanceFromReflection } from './impedance';
 export type { TraceAnalysis, ReflectionEvent, ReflectionType, TraceWarning } from '../schemas/trace-analysis';
 
 /** Parse and analyse in one call. */

@@ -1,0 +1,177 @@
+/**
+ * Command line: analyse TDR trace CSV files and print their reflection events.
+ *
+ *   npm run --silent analyze -- FILE... [--vf 0.66] [--z0 50] [--mode auto|step|pulse]
+ *     [--zero-ns N] [--lead-m N] [--sample-interval-ns N] [--instrument-vf V]
+ *     [--vf-tolerance F] [--units m|ft] [--json]
+ */
+import { readFileSync } from 'node:fs';
+import { parseArgs } from 'node:util';
+import { analyzeTrace, parseTraceCsv, TraceInputError, type TraceAnalysis } from '../shared/trace';
+import { M_PER_FT } from '../shared/cable/propagation';
+
+const USAGE = `usage: analyze FILE... [--vf 0.66] [--z0 50] [--mode auto|step|pulse] [--zero-ns N] [--lead-m N]
+       [--sample-interval-ns N] [--instrument-vf V] [--vf-tolerance 0.02] [--units m|ft] [--json]`;
+
+function numberOption(name: string, raw: string | undefined): number | undefined {
+  if (raw === undefined) return undefined;
+  const v = Number(raw);
+  if (raw.trim() === '' || !Number.isFinite(v)) throw new TraceInputError('BAD_OPTION', `--${name} expects a number, got '${raw}'`);
+  return v;
+}
+
+/** The JSON shape: snake_case, one object per file. */
+function toJson(file: string, a: TraceAnalysis, units: 'm' | 'ft') {
+  const ft = (m: number) => m / M_PER_FT;
+  return {
+    file,
+    engine_version: a.engineVersion,
+    mode: a.mode,
+    mode_detected: a.modeDetected,
+    amplitude_unit: a.amplitudeUnit,
+    launch: {
+      index_sample: a.launch.indexSample,
+      time_ns: a.launch.timeNs,
+      amplitude: a.launch.amplitude,
+      found_in_trace: a.launch.foundInTrace,
+    },
+    noise_level: a.noiseLevel,
+    incident_level: a.incidentLevel,
+    vf: a.vf,
+    vf_tolerance: a.vfTolerance,
+    z0_ohm: a.z0Ohm,
+    sample_interval_ns: a.sampleIntervalNs,
+    pulse_width_ns: a.pulseWidthNs,
+    rise_time_ns: a.riseTimeNs,
+    zero_offset_ns: a.zeroOffsetNs,
+    lead_length_m: a.leadLengthM,
+    blind_zone_m: a.blindZoneM,
+    range_m: a.rangeM,
+    events: a.events.map((e) => ({
+      index: e.index,
+      distance_m: e.distanceM,
+      ...(units === 'ft' ? { distance_ft: ft(e.distanceM), uncertainty_ft: ft(e.uncertaintyM) } : {}),
+      type: e.type,
+      reflection_coefficient: e.reflectionCoefficient,
+      round_trip_ns: e.roundTripNs,
+      uncertainty_m: e.uncertaintyM,
+      window_start_m: e.windowStartM,
+      window_end_m: e.windowEndM,
+      impedance_ohm: e.impedanceOhm,
+      is_cable_end: e.isCableEnd,
+      likely_multiple_of: e.likelyMultipleOf,
+      amplitude: e.amplitude,
+      snr: e.snr,
+      rise_time_ns: e.riseTimeNs,
+    })),
+    warnings: a.warnings,
+  };
+}
+
+function pad(s: string, n: number, right = false) {
+  return right ? s.padStart(n) : s.padEnd(n);
+}
+
+function table(file: string, a: TraceAnalysis, units: 'm' | 'ft'): string {
+  const k = units === 'ft' ? 1 / M_PER_FT : 1;
+  const u = units;
+  const lines: string[] = [];
+  lines.push(
+    `${file}: ${a.mode} trace${a.modeDetected ? '' : ' (mode set)'}, VF ${a.vf} ±${(a.vfTolerance * 100).toFixed(1)} %` +
+      `${a.z0Ohm !== null ? `, Z0 ${a.z0Ohm} Ω` : ''}, ${a.sampleIntervalNs.toPrecision(3)} ns per sample, blind zone ${(a.blindZoneM * k).toFixed(2)} ${u}`,
+  );
+  if (a.events.length > 0) {
+    lines.push(
+      `  ${pad('#', 3)}${pad(`distance (${u})`, 14, true)}  ${pad(`window (${u})`, 21)}${pad('ρ', 8, true)}${pad('Z (Ω)', 9, true)}  ${pad('type', 15)}note`,
+    );
+    for (const e of a.events) {
+      const note = [e.isCableEnd ? 'cable end' : '', e.likelyMultipleOf !== null ? `echo of #${e.likelyMultipleOf + 1}` : ''].filter(Boolean).join(', ');
+      lines.push(
+        `  ${pad(String(e.index + 1), 3)}${pad((e.distanceM * k).toFixed(2), 14, true)}  ${pad(`${(e.windowStartM * k).toFixed(2)} – ${(e.windowEndM * k).toFixed(2)}`, 21)}` +
+          `${pad((e.reflectionCoefficient >= 0 ? '+' : '') + e.reflectionCoefficient.toFixed(3), 8, true)}${pad(e.impedanceOhm !== null ? e.impedanceOhm.toFixed(1) : '–', 9, true)}  ${pad(e.type, 15)}${note}`,
+      );
+    }
+  }
+  for (const w of a.warnings) lines.push(`  note: ${w.message}`);
+  return lines.join('\n');
+}
+
+function main(argv: string[]): number {
+  let parsed;
+  try {
+    parsed = parseArgs({
+      args: argv,
+      allowPositionals: true,
+      options: {
+        vf: { type: 'string' },
+        z0: { type: 'string' },
+        mode: { type: 'string' },
+        'zero-ns': { type: 'string' },
+        'lead-m': { type: 'string' },
+        'sample-interval-ns': { type: 'string' },
+        'instrument-vf': { type: 'string' },
+        'vf-tolerance': { type: 'string' },
+        units: { type: 'string' },
+        json: { type: 'boolean' },
+        help: { type: 'boolean', short: 'h' },
+      },
+    });
+  } catch (err) {
+    process.stderr.write(`analyze: ${(err as Error).message}\n${USAGE}\n`);
+    return 2;
+  }
+  const { values, positionals } = parsed;
+  if (values.help) {
+    process.stdout.write(`${USAGE}\n`);
+    return 0;
+  }
+  if (positionals.length === 0) {
+    process.stderr.write(`analyze: no trace file given\n${USAGE}\n`);
+    return 2;
+  }
+  const units = (values.units ?? 'm') as 'm' | 'ft';
+  if (units !== 'm' && units !== 'ft') {
+    process.stderr.write(`analyze: --units must be m or ft\n`);
+    return 2;
+  }
+  const mode = (values.mode ?? 'auto') as 'auto' | 'step' | 'pulse';
+  if (!['auto', 'step', 'pulse'].includes(mode)) {
+    process.stderr.write(`analyze: --mode must be auto, step or pulse\n`);
+    return 2;
+  }
+  let failed = 0;
+  const results: ReturnType<typeof toJson>[] = [];
+  for (const file of positionals) {
+    try {
+      const vfArg = numberOption('vf', values.vf);
+      const text = readFileSync(file, 'utf8');
+      const trace = parseTraceCsv(text, {
+        sampleIntervalNs: numberOption('sample-interval-ns', values['sample-interval-ns']),
+        instrumentVf: numberOption('instrument-vf', values['instrument-vf']),
+      });
+      const vf = vfArg ?? trace.hints.instrumentVf ?? trace.instrumentVf;
+      if (vf === undefined) throw new TraceInputError('MISSING_VF', 'no velocity factor: give --vf (the file names none)');
+      const analysis = analyzeTrace(trace, {
+        vf,
+        vfTolerance: numberOption('vf-tolerance', values['vf-tolerance']),
+        z0Ohm: numberOption('z0', values.z0) ?? trace.hints.z0Ohm,
+        mode,
+        zeroOffsetNs: numberOption('zero-ns', values['zero-ns']),
+        leadLengthM: numberOption('lead-m', values['lead-m']),
+      });
+      if (vfArg === undefined) analysis.warnings.push({ code: 'VF_FROM_FILE', message: `velocity factor ${vf} taken from the file` });
+      if (values.json) results.push(toJson(file, analysis, units));
+      else process.stdout.write(`${table(file, analysis, units)}\n`);
+    } catch (err) {
+      failed++;
+      const msg = err instanceof TraceInputError ? err.message : (err as NodeJS.ErrnoException).code === 'ENOENT' ? 'no such file' : (err as Error).message;
+      process.stderr.write(`analyze: ${file}: ${msg.replace(/\s+/g, ' ')}\n`);
+    }
+  }
+  if (values.json && results.length > 0) {
+    process.stdout.write(`${JSON.stringify(positionals.length === 1 ? results[0] : results, null, 2)}\n`);
+  }
+  return failed > 0 ? 1 : 0;
+}
+
+process.exitCode = main(process.argv.slice(2));
