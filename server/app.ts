@@ -18,6 +18,10 @@ import { AppError, errorHandler } from './errors';
 import type { ApiRouter, RouteRecord } from './http/api-router';
 import { createCsrf } from './http/csrf';
 import { outboxRoutes } from './outbox/outbox.routes';
+import { cableRunRoutes } from './cable-runs/cable-runs.routes';
+import { findingRoutes } from './findings/findings.routes';
+import { siteRoutes } from './sites/sites.routes';
+import { traceRoutes } from './traces/traces.routes';
 import { userRoutes } from './users/users.routes';
 
 const SessionStore = connectSessionSequelize(session.Store);
@@ -109,7 +113,7 @@ export async function createApp(config: AppConfig): Promise<RhologApp> {
     res.json({ status: 'ok' });
   });
 
-  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(), outboxRoutes(ctx)];
+  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx)];
   for (const r of routers) app.use(r.prefix, r.router);
   const routes = [{ method: 'get' as const, path: '/api/health', access: 'public' as const }, ...routers.flatMap((r) => r.routes)];
 

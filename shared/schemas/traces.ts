@@ -135,7 +135,9 @@ export interface TraceDetail extends TraceSummary {
   libraryChangedSince: boolean;
   error: TraceError | null;
   analysis: TraceAnalysis | null;
-  /** Decimated samples: t = round-trip time in ns, y = amplitude. */
+  /** Time on the samples' axis (ns) that is distance zero. */
+  zeroNs: number;
+  /** Decimated samples: t = time in ns on the file's axis, y = amplitude. */
   samples: Array<{ t: number; y: number }>;
   sampleCount: number;
   cableRun: {

@@ -1,0 +1,24 @@
+import { FindingInputSchema, FindingListQuerySchema, TwoEndedQuerySchema } from '../../shared/schemas/findings';
+import { currentUser } from '../auth/guards';
+import type { AppContext } from '../context';
+import { ApiRouter, handle } from '../http/api-router';
+import { IdParam } from '../sites/sites.routes';
+import * as findings from './findings.service';
+
+export function findingRoutes(ctx: AppContext) {
+  const r = new ApiRouter('/api/findings');
+  r.get('/', 'findings:read', handle((req) => findings.listFindings(FindingListQuerySchema.parse(req.query))));
+  r.get('/two-ended', 'findings:read', handle((req) => findings.twoEnded(TwoEndedQuerySchema.parse(req.query))));
+  r.post(
+    '/',
+    'findings:confirm',
+    handle(async (req, res) => {
+      const finding = await findings.recordFinding(ctx, FindingInputSchema.parse(req.body), currentUser(req).id);
+      res.status(201);
+      return finding;
+    }),
+  );
+  r.get('/:id', 'findings:read', handle((req) => findings.getFinding(IdParam.parse(req.params).id)));
+  r.get('/:id/two-ended', 'findings:read', handle(async (req) => ({ twoEnded: await findings.twoEndedFor(IdParam.parse(req.params).id) })));
+  return r;
+}

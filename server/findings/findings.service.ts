@@ -1,0 +1,219 @@
+import { Op, type WhereOptions } from 'sequelize';
+import type { z } from 'zod';
+import { describeRoutePosition, distanceFromA, metresText, routePosition } from '../../shared/field/route-position';
+import { twoEndedLocation, type TwoEndedResult } from '../../shared/field/two-ended';
+import type { FindingInputSchema, FindingListQuerySchema, FindingView } from '../../shared/schemas/findings';
+import type { Page } from '../../shared/schemas/users';
+import type { AppContext } from '../context';
+import { CableRun, Finding, RouteMarker, Site, Trace, User } from '../db/models';
+import { AppError } from '../errors';
+import { emitFindingConfirmed } from './events';
+
+export { findingEvents } from './events';
+
+type FindingInput = z.output<typeof FindingInputSchema>;
+
+async function views(findings: Finding[]): Promise<FindingView[]> {
+  if (!findings.length) return [];
+  const [sites, runs, traces, users] = await Promise.all([
+    Site.findAll({ where: { id: [...new Set(findings.map((f) => f.siteId))] } }),
+    CableRun.findAll({ where: { id: [...new Set(findings.map((f) => f.cableRunId))] } }),
+    Trace.findAll({ where: { id: [...new Set(findings.map((f) => f.traceId))] } }),
+    User.findAll({ where: { id: [...new Set(findings.map((f) => f.confirmedById))] } }),
+  ]);
+  return findings.map((f) => {
+    const run = runs.find((r) => r.id === f.cableRunId)!;
+    const trace = traces.find((t) => t.id === f.traceId)!;
+    const user = users.find((u) => u.id === f.confirmedById);
+    const event = trace.analysis?.events.find((e) => e.index === f.eventIndex);
+    return {
+      id: f.id,
+      siteId: f.siteId,
+      siteName: sites.find((s) => s.id === f.siteId)?.name ?? '',
+      cableRunId: f.cableRunId,
+      cableRunName: run.name,
+      traceId: f.traceId,
+      traceName: trace.originalName,
+      end: trace.end,
+      endLabel: trace.end === 'A' ? run.endALabel : run.endBLabel,
+      eventIndex: f.eventIndex,
+      eventType: event?.type ?? '',
+      kind: f.kind,
+      note: f.note,
+      roundTripNs: f.roundTripNs,
+      distanceM: f.distanceM,
+      uncertaintyM: f.uncertaintyM,
+      windowStartM: f.windowStartM,
+      windowEndM: f.windowEndM,
+      distanceFromAM: f.distanceFromAM,
+      routePosition: f.routePosition,
+      routePositionText: f.routePositionText,
+      status: f.status,
+      confirmedBy: { id: f.confirmedById, name: user?.name ?? `user ${f.confirmedById}` },
+      confirmedAt: f.confirmedAt.toISOString(),
+      vf: trace.vf,
+      vfTolerance: trace.vfTolerance,
+      engineVersion: trace.engineVersion,
+    };
+  });
+}
+
+/** Where on the ground an event of a trace is, with the run's markers as they are now. */
+export async function placeEvent(trace: Trace, eventIndex: number) {
+  const event = trace.analysis?.events.find((e) => e.index === eventIndex);
+  if (!event) {
+    throw new AppError(422, 'no_such_event', `Trace ${trace.id} has no event ${eventIndex}.`, {
+      fields: [{ field: 'eventIndex', message: `trace ${trace.id} has no event ${eventIndex}` }],
+    });
+  }
+  const run = (await CableRun.findByPk(trace.cableRunId))!;
+  const markers = await RouteMarker.findAll({ where: { cableRunId: run.id } });
+  const pos = routePosition(
+    { installedLengthM: run.installedLengthM, endALabel: run.endALabel, endBLabel: run.endBLabel, markers },
+    trace.end,
+    event.distanceM,
+    { startM: event.windowStartM, endM: event.windowEndM },
+  );
+  return { event, run, pos, text: describeRoutePosition(pos, metresText) };
+}
+
+export async function recordFinding(ctx: AppContext, input: FindingInput, userId: number): Promise<FindingView> {
+  const id = await ctx.sequelize.transaction(async (transaction) => {
+    const trace = await Trace.findByPk(input.traceId, { transaction });
+    if (!trace) {
+      throw new AppError(422, 'no_such_trace', `There is no trace ${input.traceId}.`, {
+        fields: [{ field: 'traceId', message: `there is no trace ${input.traceId}` }],
+      });
+    }
+    if (trace.status !== 'ok') {
+      throw new AppError(422, 'trace_failed', `Trace ${trace.id} could not be read, so no finding can be made from it.`, {
+        fields: [{ field: 'traceId', message: 'the trace was not readable' }],
+      });
+    }
+    const existing = await Finding.findOne({ where: { traceId: trace.id, eventIndex: input.eventIndex }, transaction });
+    if (existing) {
+      throw new AppError(409, 'already_decided', `Event ${input.eventIndex} of this trace was already ${existing.status} (finding ${existing.id}).`, {
+        findingId: existing.id,
+      });
+    }
+    const { event, run, pos, text } = await placeEvent(trace, input.eventIndex);
+    const finding = await Finding.create(
+      {
+        siteId: run.siteId,
+        cableRunId: run.id,
+        traceId: trace.id,
+        eventIndex: event.index,
+        kind: input.kind,
+        note: input.note,
+        roundTripNs: event.roundTripNs,
+        distanceM: event.distanceM,
+        uncertaintyM: event.uncertaintyM,
+        windowStartM: event.windowStartM,
+        windowEndM: event.windowEndM,
+        distanceFromAM: distanceFromA(run, trace.end, event.distanceM),
+        routePosition: pos,
+        routePositionText: text,
+        status: input.status,
+        confirmedById: userId,
+        confirmedAt: new Date(),
+      },
+      { transaction },
+    );
+    return finding.id;
+  });
+  if (input.status === 'confirmed') emitFindingConfirmed(id, ctx.log);
+  return getFinding(id);
+}
+
+export async function getFinding(id: number): Promise<FindingView> {
+  const f = await Finding.findByPk(id);
+  if (!f) throw AppError.notFound(`Finding ${id}`);
+  return (await views([f]))[0];
+}
+
+export async function listFindings(q: z.output<typeof FindingListQuerySchema>): Promise<Page<FindingView>> {
+  const where: WhereOptions<Finding> = {
+    ...(q.siteId ? { siteId: q.siteId } : {}),
+    ...(q.cableRunId ? { cableRunId: q.cableRunId } : {}),
+    ...(q.traceId ? { traceId: q.traceId } : {}),
+    ...(q.status ? { status: q.status } : {}),
+  };
+  const { rows, count } = await Finding.findAndCountAll({
+    where,
+    order: [
+      [q.sort, q.dir.toUpperCase()],
+      ['id', q.dir.toUpperCase()],
+    ],
+    limit: q.pageSize,
+    offset: (q.page - 1) * q.pageSize,
+  });
+  return { items: await views(rows), total: count, page: q.page, pageSize: q.pageSize };
+}
+
+export interface TwoEndedView extends TwoEndedResult {
+  installedLengthM: number;
+  traceA: { id: number; eventIndex: number; roundTripNs: number; distanceM: number };
+  traceB: { id: number; eventIndex: number; roundTripNs: number; distanceM: number };
+  routePositionText: string;
+}
+
+/** Two-ended location from one event seen from end A and one from end B of the same run. */
+export async function twoEnded(q: { traceA: number; eventA: number; traceB: number; eventB: number }): Promise<TwoEndedView> {
+  const [a, b] = await Promise.all([Trace.findByPk(q.traceA), Trace.findByPk(q.traceB)]);
+  if (!a || !b) throw AppError.notFound(`Trace ${!a ? q.traceA : q.traceB}`);
+  if (a.cableRunId !== b.cableRunId || a.end !== 'A' || b.end !== 'B') {
+    throw new AppError(422, 'not_two_ended', 'Two-ended location needs one trace from end A and one from end B of the same cable run.', {
+      fields: [{ field: a.end !== 'A' ? 'traceA' : 'traceB', message: 'must be a trace of the same run from the other end' }],
+    });
+  }
+  const ea = a.analysis?.events.find((e) => e.index === q.eventA);
+  const eb = b.analysis?.events.find((e) => e.index === q.eventB);
+  if (!ea || !eb) {
+    throw new AppError(422, 'no_such_event', 'One of the events was not found on its trace.', {
+      fields: [{ field: !ea ? 'eventA' : 'eventB', message: 'no such event on that trace' }],
+    });
+  }
+  const run = (await CableRun.findByPk(a.cableRunId))!;
+  const result = twoEndedLocation({
+    installedLengthM: run.installedLengthM,
+    roundTripANs: ea.roundTripNs,
+    roundTripBNs: eb.roundTripNs,
+    singleEndedAM: ea.distanceM,
+    singleEndedBM: eb.distanceM,
+  });
+  const markers = await RouteMarker.findAll({ where: { cableRunId: run.id } });
+  const half = Math.abs(result.disagreementAM ?? 0) / 2 + 0.5;
+  const pos = routePosition(
+    { installedLengthM: run.installedLengthM, endALabel: run.endALabel, endBLabel: run.endBLabel, markers },
+    'A',
+    result.distanceFromAM,
+    { startM: result.distanceFromAM - half, endM: result.distanceFromAM + half },
+  );
+  return {
+    ...result,
+    installedLengthM: run.installedLengthM,
+    traceA: { id: a.id, eventIndex: ea.index, roundTripNs: ea.roundTripNs, distanceM: ea.distanceM },
+    traceB: { id: b.id, eventIndex: eb.index, roundTripNs: eb.roundTripNs, distanceM: eb.distanceM },
+    routePositionText: describeRoutePosition(pos, metresText),
+  };
+}
+
+/** Confirmed findings on the same run from the other end, near enough to be the same fault. */
+export async function twoEndedFor(id: number): Promise<TwoEndedView | null> {
+  const f = await Finding.findByPk(id);
+  if (!f) throw AppError.notFound(`Finding ${id}`);
+  if (f.status !== 'confirmed') return null;
+  const trace = (await Trace.findByPk(f.traceId))!;
+  const others = await Finding.findAll({ where: { cableRunId: f.cableRunId, status: 'confirmed', id: { [Op.ne]: f.id } } });
+  const otherTraces = await Trace.findAll({ where: { id: others.map((o) => o.traceId), end: trace.end === 'A' ? 'B' : 'A' } });
+  const run = (await CableRun.findByPk(f.cableRunId))!;
+  const tolerance = Math.max(5, 0.05 * run.installedLengthM);
+  const candidates = others
+    .filter((o) => otherTraces.some((t) => t.id === o.traceId))
+    .filter((o) => Math.abs(o.distanceFromAM - f.distanceFromAM) <= tolerance + o.uncertaintyM + f.uncertaintyM)
+    .sort((x, y) => Math.abs(x.distanceFromAM - f.distanceFromAM) - Math.abs(y.distanceFromAM - f.distanceFromAM));
+  const pair = candidates[0];
+  if (!pair) return null;
+  const [fa, fb] = trace.end === 'A' ? [f, pair] : [pair, f];
+  return twoEnded({ traceA: fa.traceId, eventA: fa.eventIndex, traceB: fb.traceId, eventB: fb.eventIndex });
+}

@@ -1,0 +1,117 @@
+import { Op, type Transaction } from 'sequelize';
+import type { z } from 'zod';
+import type { SiteInputSchema, SiteSummary } from '../../shared/schemas/sites';
+import type { Page } from '../../shared/schemas/users';
+import { CableRun, Finding, Site, SiteSupervisor, User } from '../db/models';
+import { AppError } from '../errors';
+
+type SiteInput = z.output<typeof SiteInputSchema>;
+
+async function checkSupervisors(ids: number[], transaction?: Transaction) {
+  const unique = [...new Set(ids)];
+  if (unique.length === 0) return unique;
+  const found = await User.findAll({ where: { id: unique, active: true }, transaction });
+  const bad = unique.filter((id) => {
+    const u = found.find((f) => f.id === id);
+    return !u || (u.role !== 'supervisor' && u.role !== 'admin');
+  });
+  if (bad.length) {
+    throw new AppError(422, 'not_a_supervisor', `User ${bad.join(', ')} is not an active supervisor.`, {
+      fields: [{ field: 'supervisorIds', message: `user ${bad.join(', ')} is not an active supervisor` }],
+    });
+  }
+  return unique;
+}
+
+async function summaries(sites: Site[]): Promise<SiteSummary[]> {
+  const ids = sites.map((s) => s.id);
+  const links = ids.length ? await SiteSupervisor.findAll({ where: { siteId: ids } }) : [];
+  const users = links.length ? await User.findAll({ where: { id: [...new Set(links.map((l) => l.userId))] } }) : [];
+  const runs = ids.length ? await CableRun.findAll({ where: { siteId: ids }, attributes: ['id', 'siteId'] }) : [];
+  const findings = ids.length
+    ? await Finding.findAll({ where: { siteId: ids, status: 'confirmed' }, attributes: ['id', 'siteId'] })
+    : [];
+  return sites.map((s) => ({
+    id: s.id,
+    name: s.name,
+    address: s.address,
+    latitude: s.latitude,
+    longitude: s.longitude,
+    accessNotes: s.accessNotes,
+    supervisors: links
+      .filter((l) => l.siteId === s.id)
+      .map((l) => users.find((u) => u.id === l.userId)!)
+      .filter(Boolean)
+      .map((u) => ({ id: u.id, name: u.name, email: u.email }))
+      .sort((a, b) => a.name.localeCompare(b.name)),
+    cableRunCount: runs.filter((r) => r.siteId === s.id).length,
+    openFindingCount: findings.filter((f) => f.siteId === s.id).length,
+  }));
+}
+
+export async function listSites(opts: { q?: string; page: number; pageSize: number }): Promise<Page<SiteSummary>> {
+  const where = opts.q
+    ? { [Op.or]: [{ name: { [Op.like]: `%${opts.q}%` } }, { address: { [Op.like]: `%${opts.q}%` } }] }
+    : {};
+  const { rows, count } = await Site.findAndCountAll({
+    where,
+    order: [['name', 'ASC']],
+    limit: opts.pageSize,
+    offset: (opts.page - 1) * opts.pageSize,
+  });
+  return { items: await summaries(rows), total: count, page: opts.page, pageSize: opts.pageSize };
+}
+
+export async function getSite(id: number): Promise<SiteSummary> {
+  const site = await Site.findByPk(id);
+  if (!site) throw AppError.notFound(`Site ${id}`);
+  return (await summaries([site]))[0];
+}
+
+async function nameFree(name: string, exceptId?: number, transaction?: Transaction) {
+  const other = await Site.findOne({ where: { name }, transaction });
+  if (other && other.id !== exceptId) {
+    throw new AppError(409, 'site_name_taken', `There is already a site called "${name}".`, {
+      fields: [{ field: 'name', message: 'is already used by another site' }],
+    });
+  }
+}
+
+export async function createSite(input: SiteInput, sequelize: import('sequelize').Sequelize) {
+  const id = await sequelize.transaction(async (transaction) => {
+    await nameFree(input.name, undefined, transaction);
+    const supervisorIds = await checkSupervisors(input.supervisorIds, transaction);
+    const { supervisorIds: _ignored, ...fields } = input;
+    const site = await Site.create(fields, { transaction });
+    for (const userId of supervisorIds) await SiteSupervisor.create({ siteId: site.id, userId }, { transaction });
+    return site.id;
+  });
+  return getSite(id);
+}
+
+export async function updateSite(id: number, input: SiteInput, sequelize: import('sequelize').Sequelize) {
+  await sequelize.transaction(async (transaction) => {
+    const site = await Site.findByPk(id, { transaction });
+    if (!site) throw AppError.notFound(`Site ${id}`);
+    await nameFree(input.name, id, transaction);
+    const supervisorIds = await checkSupervisors(input.supervisorIds, transaction);
+    const { supervisorIds: _ignored, ...fields } = input;
+    await site.update(fields, { transaction });
+    await SiteSupervisor.destroy({ where: { siteId: id }, transaction });
+    for (const userId of supervisorIds) await SiteSupervisor.create({ siteId: id, userId }, { transaction });
+  });
+  return getSite(id);
+}
+
+/** Who is told about a site's confirmed findings. */
+export async function siteSupervisors(siteId: number, transaction?: Transaction) {
+  const links = await SiteSupervisor.findAll({ where: { siteId }, transaction });
+  if (!links.length) return [];
+  const users = await User.findAll({ where: { id: links.map((l) => l.userId), active: true }, transaction });
+  return users.map((u) => ({ id: u.id, name: u.name, email: u.email }));
+}
+
+export async function supervisorChoices() {
+  const users = await User.findAll({ where: { active: true, role: ['supervisor', 'admin'] }, order: [['name', 'ASC']] });
+  return users.map((u) => ({ id: u.id, name: u.name, email: u.email }));
+}
