@@ -213,7 +213,7 @@ function scanMetadata(meta: Array<{ key: string; value: string; line: number }>)
       if (!q) continue;
       let vf = q.number;
       const unit = q.unit ?? keyUnit;
-      if (unit === '%' || (unit === null && vf > 1.5 && vf <= 100)) vf /= 100;
+      if (unit === '%' || (unit === null && vf >= 10 && vf <= 100)) vf /= 100;
       else if (unit === 'm/us' || unit === 'm/µs' || unit === 'm/μs') vf = (vf * 1e6) / SPEED_OF_LIGHT_M_PER_S;
       else if (unit === 'm/s') vf /= SPEED_OF_LIGHT_M_PER_S;
       if (!(vf > 0 && vf <= 1)) {
@@ -347,24 +347,32 @@ export function parseTraceCsv(input: string, options: ParseOptions = {}): Parsed
   const rowCells = rows.map((r) => splitRow(r.text, delimiter ?? headDelimiter));
   const allNames = (cells: string[]) => cells.every((c) => c !== '' && !isNumericCell(c));
   let headerIdx = -1;
-  if (lastRow) {
-    const cells = delimiter === null ? [unquote(lastRow.text)] : rowCells[rowCells.length - 1];
+  const headerRows = new Set<number>();
+  // Rows of broken numbers (NaN, text) just above the first clean row belong to the data, not the header.
+  let headRows = rows.length;
+  while (headRows > 0 && rowCells[headRows - 1].length === columnCount && isNumericCell(rowCells[headRows - 1][0] ?? '')) headRows--;
+  const lastHeadRow = headRows > 0 ? rows[headRows - 1] : undefined;
+  if (lastHeadRow) {
+    const lastRow = lastHeadRow;
+    const cells = delimiter === null ? [unquote(lastRow.text)] : rowCells[headRows - 1];
     const looksKeyValue = cells.length === 1 && splitKeyValue(cells[0]) !== null && columnCount === 1 && /[:=]/.test(cells[0]);
     if (cells.length === columnCount && allNames(cells) && !looksKeyValue) {
-      headerIdx = rows.length - 1;
+      headerIdx = headRows - 1;
+      headerRows.add(headerIdx);
       header = cells;
       headerLine = lastRow.line;
       // A units row under a names row ("Time,Voltage" then "s,V").
-      if (rows.length >= 2) {
-        const prev = rowCells[rowCells.length - 2];
+      if (headRows >= 2) {
+        const prev = rowCells[headRows - 2];
         const unitsKnown = cells.every((u) => {
           const info = interpretColumn(`x (${u})`);
           return !info.unknownUnit && info.unit !== null;
         });
         if (unitsKnown && prev.length === columnCount && allNames(prev)) {
           header = prev.map((name, k) => `${name} (${cells[k]})`);
-          headerIdx = rows.length - 2;
-          headerLine = rows[rows.length - 2].line;
+          headerIdx = headRows - 2;
+          headerRows.add(headerIdx);
+          headerLine = rows[headRows - 2].line;
         }
       }
     }
@@ -378,7 +386,7 @@ export function parseTraceCsv(input: string, options: ParseOptions = {}): Parsed
     }
   }
   rows.forEach((r, idx) => {
-    if (idx >= headerIdx && headerIdx >= 0) return;
+    if (headerRows.has(idx)) return;
     const cells = rowCells[idx];
     if (cells.length > 0 && isNumericCell(cells[0]) && cells.length === columnCount) {
       // A broken row of data (NaN, text) before the first clean one.

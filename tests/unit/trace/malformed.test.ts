@@ -1,0 +1,45 @@
+import { readFileSync, readdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { parseTraceCsv, TraceInputError, type ParseOptions } from '../../../shared/trace';
+
+// Each file in the corpus was written by hand to break one rule; expected.json
+// names the error code, the line and words the message must contain.
+const dir = join(__dirname, '../../fixtures/traces/malformed');
+const expected = JSON.parse(readFileSync(join(dir, 'expected.json'), 'utf8')) as Record<
+  string,
+  { code: string; line?: number; message?: string; options?: ParseOptions }
+>;
+
+function failure(text: string, options: ParseOptions): TraceInputError {
+  try {
+    parseTraceCsv(text, options);
+  } catch (err) {
+    if (err instanceof TraceInputError) return err;
+    throw err;
+  }
+  throw new Error('parsed without error');
+}
+
+describe('malformed trace corpus', () => {
+  it('has at least 30 files, each with an expectation', () => {
+    const files = readdirSync(dir).filter((f) => f.endsWith('.csv'));
+    expect(files.length).toBeGreaterThanOrEqual(30);
+    expect(files.sort()).toEqual(Object.keys(expected).sort());
+  });
+
+  for (const [file, exp] of Object.entries(expected)) {
+    it(`rejects ${file} with ${exp.code}`, () => {
+      const text = readFileSync(join(dir, file), 'utf8');
+      for (const reader of ['auto', 'csv-parse'] as const) {
+        const err = failure(text, { ...exp.options, reader });
+        expect(err.code).toBe(exp.code);
+        if (exp.line !== undefined) {
+          expect(err.line).toBe(exp.line);
+          expect(err.message).toMatch(new RegExp(`^line ${exp.line}: `));
+        }
+        if (exp.message) expect(err.message).toContain(exp.message);
+      }
+    });
+  }
+});
