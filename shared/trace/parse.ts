@@ -422,7 +422,8 @@ export function parseTraceCsv(input: string, options: ParseOptions = {}): Parsed
   let ampCol = -1;
   if (columnCount >= 2) {
     if (infos) {
-      xCol = infos.findIndex((c) => c.role === 'time' || c.role === 'distance' || c.role === 'index');
+      xCol = infos.findIndex((c) => c.role === 'time' || c.role === 'distance');
+      if (xCol < 0) xCol = infos.findIndex((c) => c.role === 'index');
       if (xCol < 0 && infos[0].role === 'unknown') xCol = 0;
       ampCol = infos.findIndex((c, k) => k !== xCol && c.role === 'amplitude');
       if (ampCol < 0) ampCol = infos.findIndex((c, k) => k !== xCol && c.role === 'unknown');
