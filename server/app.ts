@@ -5,6 +5,8 @@ import session from 'express-session';
 import connectSessionSequelize from 'connect-session-sequelize';
 import helmet from 'helmet';
 import { authRoutes } from './auth/auth.routes';
+import { cableRoutes } from './cables/cables.routes';
+import { calibrationRoutes } from './calibrations/calibrations.routes';
 import { configurePassport } from './auth/passport';
 import type { AppConfig } from './config';
 import type { AppContext } from './context';
@@ -18,6 +20,8 @@ import { AppError, errorHandler } from './errors';
 import type { ApiRouter, RouteRecord } from './http/api-router';
 import { createCsrf } from './http/csrf';
 import { outboxRoutes } from './outbox/outbox.routes';
+import { subscribeFindingNotices } from './tickets/finding-notices';
+import { ticketRoutes } from './tickets/tickets.routes';
 import { cableRunRoutes } from './cable-runs/cable-runs.routes';
 import { findingRoutes } from './findings/findings.routes';
 import { siteRoutes } from './sites/sites.routes';
@@ -113,7 +117,8 @@ export async function createApp(config: AppConfig): Promise<RhologApp> {
     res.json({ status: 'ok' });
   });
 
-  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx)];
+  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(), cableRoutes(), calibrationRoutes(), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx), ticketRoutes(ctx)];
+  subscribeFindingNotices(ctx);
   for (const r of routers) app.use(r.prefix, r.router);
   const routes = [{ method: 'get' as const, path: '/api/health', access: 'public' as const }, ...routers.flatMap((r) => r.routes)];
 

@@ -1,6 +1,13 @@
-import type { Transaction } from 'sequelize';
-import { CALIBRATION_VF_MAX, CALIBRATION_VF_MIN, vfFromKnownLengthNs } from '../../shared/cable/calibration';
-import { CalibrationSubmitSchema, type CalibrationSource, type CalibrationView } from '../../shared/schemas/cables';
+import type { Transaction, WhereOptions } from 'sequelize';
+import { CALIBRATION_VF_MAX, CALIBRATION_VF_MIN, calibrationStats, vfFromKnownLengthNs } from '../../shared/cable/calibration';
+import {
+  CALIBRATION_SOURCE_LABELS,
+  CalibrationSubmitSchema,
+  type CalibrationSource,
+  type CalibrationStatus,
+  type CalibrationView,
+} from '../../shared/schemas/cables';
+import { updateCable } from '../cables/cables.service';
 import { CableCalibration, CableType, User } from '../db/models';
 import { AppError } from '../errors';
 
@@ -118,4 +125,108 @@ export async function submitCalibration(input: SubmitCalibrationInput, transacti
     { transaction },
   );
   return calibrationView(await loadCalibration(created.id, transaction));
+}
+
+// ---- review ----
+
+export async function listCalibrations(query: {
+  status: CalibrationStatus | 'all';
+  cableTypeId?: number;
+  submittedById?: number;
+  page: number;
+  pageSize: number;
+}) {
+  const where: WhereOptions<CableCalibration> = {};
+  if (query.status !== 'all') Object.assign(where, { status: query.status });
+  if (query.cableTypeId) Object.assign(where, { cableTypeId: query.cableTypeId });
+  if (query.submittedById) Object.assign(where, { submittedById: query.submittedById });
+  const { rows, count } = await CableCalibration.findAndCountAll({
+    where,
+    include: INCLUDE,
+    // The queue is worked oldest first; decided ones are looked up newest first.
+    order: [
+      ['createdAt', query.status === 'pending' ? 'ASC' : 'DESC'],
+      ['id', query.status === 'pending' ? 'ASC' : 'DESC'],
+    ],
+    limit: query.pageSize,
+    offset: (query.page - 1) * query.pageSize,
+    distinct: true,
+  });
+  return { items: rows.map(calibrationView), total: count, page: query.page, pageSize: query.pageSize };
+}
+
+function assertPending(c: CableCalibration) {
+  if (c.status !== 'pending') {
+    throw new AppError(409, 'already_reviewed', `Calibration ${c.id} was already ${c.status}${c.reviewedBy ? ` by ${c.reviewedBy.name}` : ''}.`);
+  }
+}
+
+/** The library keeps VFs to four decimals: a field calibration is not better than about ±0.001. */
+export const roundVf = (vf: number) => Math.round(vf * 1e4) / 1e4;
+
+/**
+ * Accepts a pending calibration into its library entry: the entry's VF becomes
+ * the calibration's (source field-calibrated, with a reference to it), with a
+ * history row, in one transaction. The next analysis of that cable type uses it.
+ */
+export async function acceptCalibration(id: number, reviewerId: number, opts: { vfTolerance?: number; note?: string } = {}) {
+  const sequelize = CableCalibration.sequelize!;
+  return sequelize.transaction(async (transaction) => {
+    const c = await loadCalibration(id, transaction);
+    assertPending(c);
+    const submitted = new Date(c.createdAt).toISOString().slice(0, 10);
+    const vfReference =
+      `Field calibration #${c.id}: ${c.knownLengthM} m known length, ${c.roundTripNs} ns round trip` +
+      ` (${CALIBRATION_SOURCE_LABELS[c.source].toLowerCase()}${c.traceId ? `, trace ${c.traceId}` : ''})` +
+      `, submitted by ${c.submittedBy?.name ?? 'unknown'} on ${submitted}.`;
+    const { cable } = await updateCable(
+      c.cableTypeId,
+      {
+        vf: roundVf(c.vf),
+        vfSource: 'field-calibrated',
+        vfReference,
+        ...(opts.vfTolerance !== undefined ? { vfTolerance: opts.vfTolerance } : {}),
+        reason: `Accepted field calibration #${c.id}${opts.note ? `: ${opts.note}` : ''}`,
+      },
+      { userId: reviewerId, kind: 'calibration', calibrationId: c.id },
+      transaction,
+    );
+    await c.update({ status: 'accepted', reviewedById: reviewerId, reviewedAt: new Date(), reviewReason: opts.note ?? null }, { transaction });
+    return { calibration: calibrationView(await loadCalibration(id, transaction)), cable };
+  });
+}
+
+export async function rejectCalibration(id: number, reviewerId: number, reason: string) {
+  const sequelize = CableCalibration.sequelize!;
+  return sequelize.transaction(async (transaction) => {
+    const c = await loadCalibration(id, transaction);
+    assertPending(c);
+    await c.update({ status: 'rejected', reviewedById: reviewerId, reviewedAt: new Date(), reviewReason: reason }, { transaction });
+    return calibrationView(await loadCalibration(id, transaction));
+  });
+}
+
+/** Per cable type: statistics over the calibrations not rejected, counts by status, and the list. */
+export async function calibrationsForCable(cableTypeId: number) {
+  const cable = await CableType.findByPk(cableTypeId);
+  if (!cable) throw AppError.notFound(`Cable type ${cableTypeId}`);
+  const rows = await CableCalibration.findAll({
+    where: { cableTypeId },
+    include: INCLUDE,
+    order: [
+      ['createdAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
+    limit: 500,
+  });
+  const counts: Record<CalibrationStatus, number> = { pending: 0, accepted: 0, rejected: 0 };
+  for (const r of rows) counts[r.status as CalibrationStatus] += 1;
+  return {
+    libraryVf: cable.vf,
+    libraryVfTolerance: cable.vfTolerance,
+    stats: calibrationStats(rows.filter((r) => r.status !== 'rejected').map((r) => r.vf)),
+    acceptedStats: calibrationStats(rows.filter((r) => r.status === 'accepted').map((r) => r.vf)),
+    counts,
+    items: rows.map(calibrationView),
+  };
 }

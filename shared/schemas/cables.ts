@@ -76,7 +76,7 @@ export const CableTypeUpdateSchema = z
   })
   .partial()
   .extend({ reason: reasonSchema })
-  .superRefine(attenuationPaired)
+  // Attenuation and its frequency are checked against the stored entry by the service: a change may give one of them.
   .refine((v) => Object.keys(v).some((k) => k !== 'reason'), { message: 'give at least one field to change', path: ['(body)'] });
 export type CableTypeUpdate = z.output<typeof CableTypeUpdateSchema>;
 

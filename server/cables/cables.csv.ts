@@ -1,0 +1,206 @@
+import { CsvError, parse } from 'csv-parse/sync';
+import { stringify } from 'csv-stringify/sync';
+import type { Transaction } from 'sequelize';
+import { CableTypeInputSchema, type CableTypeInput } from '../../shared/schemas/cables';
+import { CableType } from '../db/models';
+import type { FieldChange } from '../db/models/cable-type-change';
+import { AppError, type FieldIssue } from '../errors';
+import { CABLE_FIELDS, createCable, diffCable, updateCable, type CableField } from './cables.service';
+
+/**
+ * The library as CSV: one row per cable type, SI units named in the header.
+ * The same columns are written by the export and read by the import.
+ */
+export const CSV_COLUMNS: Record<CableField, string> = {
+  name: 'name',
+  construction: 'construction',
+  dielectric: 'dielectric',
+  z0Ohm: 'z0_ohm',
+  vf: 'vf',
+  vfTolerance: 'vf_tolerance',
+  attenuationDbPer100m: 'attenuation_db_per_100m',
+  attenuationFreqMhz: 'attenuation_freq_mhz',
+  vfSource: 'vf_source',
+  vfReference: 'vf_reference',
+  notes: 'notes',
+};
+const REQUIRED_COLUMNS: CableField[] = ['name', 'construction', 'dielectric', 'z0Ohm', 'vf', 'vfTolerance', 'vfSource', 'vfReference'];
+const NUMERIC: CableField[] = ['z0Ohm', 'vf', 'vfTolerance', 'attenuationDbPer100m', 'attenuationFreqMhz'];
+const NULLABLE: CableField[] = ['attenuationDbPer100m', 'attenuationFreqMhz', 'notes'];
+const COLUMN_TO_FIELD = new Map(Object.entries(CSV_COLUMNS).map(([f, c]) => [c, f as CableField]));
+const NUMBER_RE = /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/;
+
+export const MAX_IMPORT_ROWS = 2000;
+
+export async function exportCsv(): Promise<string> {
+  const rows = await CableType.findAll({ order: [['name', 'ASC']] });
+  return stringify(
+    rows.map((c) => CABLE_FIELDS.map((f) => c[f] ?? '')),
+    { header: true, columns: CABLE_FIELDS.map((f) => CSV_COLUMNS[f]) },
+  );
+}
+
+export type ImportAction = 'create' | 'update' | 'unchanged' | 'invalid';
+
+export interface ImportRow {
+  /** The file's line where the row starts (the header is line 1). */
+  line: number;
+  name: string;
+  action: ImportAction;
+  existingId: number | null;
+  changes: FieldChange[];
+  errors: FieldIssue[];
+}
+
+export interface ImportPreview {
+  rows: ImportRow[];
+  counts: Record<ImportAction, number>;
+  /** True when there are no invalid rows and at least one row to write. */
+  canCommit: boolean;
+}
+
+interface ParsedRow extends ImportRow {
+  input: CableTypeInput | null;
+}
+
+function fileError(message: string, line?: number): AppError {
+  return new AppError(422, 'csv_unreadable', message, line ? { fields: [{ field: 'file', message, line }] } : { fields: [{ field: 'file', message }] });
+}
+
+function readRecords(text: string) {
+  if (text.includes('\u0000')) throw fileError('The file is not a text CSV file.');
+  try {
+    return parse(text, { bom: true, skip_empty_lines: true, trim: true, info: true, relax_column_count: true }) as unknown as Array<{
+      record: string[];
+      info: { lines: number };
+    }>;
+  } catch (err) {
+    if (err instanceof CsvError) {
+      const line = (err as CsvError & { lines?: number }).lines;
+      throw fileError(`The CSV cannot be read${line ? ` at line ${line}` : ''}: ${err.message}`, line);
+    }
+    throw err;
+  }
+}
+
+function cellToValue(field: CableField, raw: string): { value?: unknown; error?: string } {
+  if (raw === '') return NULLABLE.includes(field) ? { value: null } : { error: 'is required' };
+  if (!NUMERIC.includes(field)) return { value: raw };
+  if (/^\d+,\d+$/.test(raw)) return { error: `"${raw}" must be a number with a point for decimals` };
+  if (!NUMBER_RE.test(raw)) return { error: `"${raw}" is not a number` };
+  const n = Number(raw);
+  if (field === 'vf' && n >= 20 && n <= 100) return { error: `${raw} must be at most 1: write the VF as a fraction (${(n / 100).toFixed(2)}), not a percentage` };
+  return { value: n };
+}
+
+/** Parses and checks every row against the schema and the library; writes nothing. */
+export async function parseImport(text: string, transaction?: Transaction): Promise<ParsedRow[]> {
+  const records = readRecords(text);
+  if (records.length === 0) throw fileError('The file is empty: it needs a header row and at least one cable type.');
+  const header = records[0].record.map((h) => h.trim().toLowerCase());
+  const headerFields = header.map((h) => COLUMN_TO_FIELD.get(h));
+  const unknown = header.filter((_h, i) => !headerFields[i]);
+  if (unknown.length) {
+    throw fileError(`Line 1: unknown column${unknown.length > 1 ? 's' : ''} ${unknown.map((u) => `"${u}"`).join(', ')}. The columns are: ${Object.values(CSV_COLUMNS).join(', ')}.`, 1);
+  }
+  const missing = REQUIRED_COLUMNS.filter((f) => !headerFields.includes(f)).map((f) => CSV_COLUMNS[f]);
+  if (missing.length) throw fileError(`Line 1: the header lacks ${missing.join(', ')}.`, 1);
+  const dupes = header.filter((h, i) => header.indexOf(h) !== i);
+  if (dupes.length) throw fileError(`Line 1: the column "${dupes[0]}" appears twice.`, 1);
+  if (records.length - 1 > MAX_IMPORT_ROWS) throw fileError(`The file has ${records.length - 1} rows; import at most ${MAX_IMPORT_ROWS} at a time.`);
+
+  const existing = await CableType.findAll({ transaction });
+  const byName = new Map(existing.map((c) => [c.name.toLowerCase(), c]));
+  const seen = new Map<string, number>();
+  const rows: ParsedRow[] = [];
+
+  for (const { record, info } of records.slice(1)) {
+    const newlinesInside = record.reduce((n, cell) => n + (cell.match(/\n/g)?.length ?? 0), 0);
+    const line = info.lines - newlinesInside;
+    const errors: FieldIssue[] = [];
+    const nameIndex = headerFields.indexOf('name');
+    const name = record[nameIndex] ?? '';
+    if (record.length !== header.length) {
+      errors.push({ field: '(row)', message: `has ${record.length} fields, the header has ${header.length}`, line });
+      rows.push({ line, name, action: 'invalid', existingId: null, changes: [], errors, input: null });
+      continue;
+    }
+    const candidate: Record<string, unknown> = {};
+    headerFields.forEach((field, i) => {
+      const { value, error } = cellToValue(field!, record[i]);
+      if (error) errors.push({ field: CSV_COLUMNS[field!], message: error, line });
+      else candidate[field!] = value;
+    });
+    let input: CableTypeInput | null = null;
+    const parsed = CableTypeInputSchema.safeParse(candidate);
+    if (parsed.success && errors.length === 0) input = parsed.data;
+    else if (!parsed.success) {
+      // Fields whose cell could not be read are reported once, by the cell check above.
+      const unreadable = new Set(errors.map((e) => e.field));
+      for (const issue of parsed.error.issues) {
+        const column = CSV_COLUMNS[issue.path[0] as CableField] ?? String(issue.path[0] ?? '(row)');
+        if (!unreadable.has(column)) errors.push({ field: column, message: issue.message, line });
+      }
+    }
+    const key = name.trim().toLowerCase();
+    if (key && seen.has(key)) errors.push({ field: 'name', message: `appears again (first on line ${seen.get(key)})`, line });
+    else if (key) seen.set(key, line);
+
+    const match = key ? (byName.get(key) ?? null) : null;
+    if (errors.length || !input) {
+      rows.push({ line, name, action: 'invalid', existingId: match?.id ?? null, changes: [], errors, input: null });
+      continue;
+    }
+    if (match) {
+      // Matched by name ignoring letter case; the library's spelling stays.
+      const same = { ...input, name: match.name };
+      const changes = diffCable(match, same);
+      rows.push({ line, name: match.name, action: changes.length ? 'update' : 'unchanged', existingId: match.id, changes, errors, input: same });
+    } else {
+      rows.push({ line, name: input.name, action: 'create', existingId: null, changes: diffCable(null, input), errors, input });
+    }
+  }
+  return rows;
+}
+
+function summarise(rows: ParsedRow[]): ImportPreview {
+  const counts: Record<ImportAction, number> = { create: 0, update: 0, unchanged: 0, invalid: 0 };
+  for (const r of rows) counts[r.action] += 1;
+  return {
+    rows: rows.map(({ input: _input, ...r }) => r),
+    counts,
+    canCommit: counts.invalid === 0 && counts.create + counts.update > 0,
+  };
+}
+
+export async function previewImport(text: string): Promise<ImportPreview> {
+  return summarise(await parseImport(text));
+}
+
+/**
+ * Writes the whole file or nothing: every row is checked again inside one
+ * transaction; any invalid row aborts it with the list of bad rows.
+ */
+export async function commitImport(text: string, opts: { reason: string; userId: number; fileName?: string }) {
+  const sequelize = CableType.sequelize!;
+  return sequelize.transaction(async (transaction) => {
+    const rows = await parseImport(text, transaction);
+    const preview = summarise(rows);
+    if (preview.counts.invalid > 0) {
+      const bad = preview.rows.filter((r) => r.action === 'invalid');
+      throw new AppError(
+        422,
+        'import_invalid',
+        `Nothing was imported: ${bad.length} row${bad.length > 1 ? 's have' : ' has'} errors (line${bad.length > 1 ? 's' : ''} ${bad.map((r) => r.line).join(', ')}).`,
+        { fields: bad.flatMap((r) => r.errors), rows: preview.rows, counts: preview.counts },
+      );
+    }
+    if (!preview.canCommit) throw new AppError(422, 'import_empty', 'Nothing to import: every row matches the library already.');
+    const reason = opts.fileName ? `Import of ${opts.fileName}: ${opts.reason}` : `Import: ${opts.reason}`;
+    for (const row of rows) {
+      if (row.action === 'create') await createCable(row.input!, { userId: opts.userId, reason, kind: 'import' }, transaction);
+      else if (row.action === 'update') await updateCable(row.existingId!, { ...row.input!, reason }, { userId: opts.userId, kind: 'import' }, transaction);
+    }
+    return { counts: preview.counts, rows: preview.rows };
+  });
+}

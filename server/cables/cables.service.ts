@@ -1,0 +1,262 @@
+import { col, fn, Op, where, type Transaction, type WhereOptions } from 'sequelize';
+import {
+  type CableListQuery,
+  type CableTypeChangeView,
+  type CableTypeInput,
+  type CableTypeUpdate,
+  type CableTypeView,
+} from '../../shared/schemas/cables';
+import { CableType, CableTypeChange, type User } from '../db/models';
+import type { ChangeKind, FieldChange } from '../db/models/cable-type-change';
+import { AppError } from '../errors';
+
+/**
+ * The fields a trace analysis takes from the library. A change to any of
+ * them bumps CableType.revision.
+ */
+export const ANALYSIS_FIELDS = ['vf', 'vfTolerance', 'z0Ohm'] as const;
+
+/** Every stored field, in the order history and the CSV list them. */
+export const CABLE_FIELDS = [
+  'name',
+  'construction',
+  'dielectric',
+  'z0Ohm',
+  'vf',
+  'vfTolerance',
+  'attenuationDbPer100m',
+  'attenuationFreqMhz',
+  'vfSource',
+  'vfReference',
+  'notes',
+] as const;
+export type CableField = (typeof CABLE_FIELDS)[number];
+
+export function cableView(c: CableType): CableTypeView {
+  return {
+    id: c.id,
+    name: c.name,
+    construction: c.construction,
+    dielectric: c.dielectric,
+    z0Ohm: c.z0Ohm,
+    vf: c.vf,
+    vfTolerance: c.vfTolerance,
+    attenuationDbPer100m: c.attenuationDbPer100m,
+    attenuationFreqMhz: c.attenuationFreqMhz,
+    vfSource: c.vfSource,
+    vfReference: c.vfReference,
+    notes: c.notes,
+    revision: c.revision,
+    createdAt: new Date(c.createdAt).toISOString(),
+    updatedAt: new Date(c.updatedAt).toISOString(),
+  };
+}
+
+export function changeView(h: CableTypeChange): CableTypeChangeView {
+  const by = h.changedBy as User | undefined;
+  return {
+    id: h.id,
+    revision: h.revision,
+    kind: h.kind,
+    reason: h.reason,
+    changes: h.changes,
+    changedBy: by ? { id: by.id, name: by.name } : null,
+    calibrationId: h.calibrationId,
+    createdAt: new Date(h.createdAt).toISOString(),
+  };
+}
+
+function like(sequelize = CableType.sequelize!) {
+  // PostgreSQL's LIKE is case-sensitive; SQLite's is not for ASCII.
+  return sequelize.getDialect() === 'postgres' ? Op.iLike : Op.like;
+}
+
+/** PostgreSQL takes \\ as LIKE's escape; SQLite has none by default, where a stray % or _ only widens the search. */
+function escapeLike(q: string, sequelize = CableType.sequelize!) {
+  return sequelize.getDialect() === 'postgres' ? q.replace(/[\\%_]/g, (ch) => `\\${ch}`) : q;
+}
+
+export async function listCables(query: CableListQuery) {
+  const clauses: WhereOptions<CableType>[] = [];
+  if (query.q) {
+    const op = like();
+    const words = query.q.split(/\s+/).filter(Boolean).slice(0, 6);
+    for (const w of words) {
+      const pattern = `%${escapeLike(w)}%`;
+      clauses.push({
+        [Op.or]: [{ name: { [op]: pattern } }, { dielectric: { [op]: pattern } }, { construction: { [op]: pattern } }, { vfReference: { [op]: pattern } }],
+      });
+    }
+  }
+  if (query.construction) clauses.push({ construction: query.construction });
+  const { rows, count } = await CableType.findAndCountAll({
+    where: clauses.length ? { [Op.and]: clauses } : {},
+    order: [
+      [query.sort, query.dir.toUpperCase()],
+      ['id', 'ASC'],
+    ],
+    limit: query.pageSize,
+    offset: (query.page - 1) * query.pageSize,
+  });
+  return { items: rows.map(cableView), total: count, page: query.page, pageSize: query.pageSize };
+}
+
+export async function loadCable(id: number, transaction?: Transaction) {
+  const c = await CableType.findByPk(id, { transaction });
+  if (!c) throw AppError.notFound(`Cable type ${id}`);
+  return c;
+}
+
+export async function getCable(id: number) {
+  return cableView(await loadCable(id));
+}
+
+async function assertNameFree(name: string, exceptId: number | null, transaction?: Transaction) {
+  const other = await CableType.findOne({ where: where(fn('lower', col('name')), name.toLowerCase()), transaction });
+  if (other && other.id !== exceptId) {
+    throw new AppError(409, 'name_taken', `The library already has a cable type named "${other.name}".`, {
+      fields: [{ field: 'name', message: 'is already in the library' }],
+    });
+  }
+}
+
+function valueOf(c: CableType | CableTypeInput | null, field: CableField): string | number | null {
+  if (!c) return null;
+  const v = (c as Record<CableField, unknown>)[field];
+  return v === undefined ? null : (v as string | number | null);
+}
+
+/** The fields whose value differs, old → new. */
+export function diffCable(before: CableType | null, after: Partial<CableTypeInput>): FieldChange[] {
+  const changes: FieldChange[] = [];
+  for (const field of CABLE_FIELDS) {
+    if (!(field in after)) continue;
+    const from = valueOf(before, field);
+    const to = (after as Record<string, string | number | null | undefined>)[field] ?? null;
+    if (from !== to) changes.push({ field, from, to });
+  }
+  return changes;
+}
+
+async function record(
+  cable: CableType,
+  kind: ChangeKind,
+  changes: FieldChange[],
+  reason: string,
+  changedById: number | null,
+  transaction?: Transaction,
+  calibrationId: number | null = null,
+) {
+  await CableTypeChange.create(
+    { cableTypeId: cable.id, revision: cable.revision, kind, changes, reason, changedById, calibrationId },
+    { transaction },
+  );
+}
+
+export async function createCable(
+  input: CableTypeInput,
+  by: { userId: number | null; reason?: string; kind?: 'create' | 'import' },
+  transaction?: Transaction,
+): Promise<CableTypeView> {
+  await assertNameFree(input.name, null, transaction);
+  const cable = await CableType.create({ ...input, revision: 1 }, { transaction });
+  await record(cable, by.kind ?? 'create', diffCable(null, input), by.reason ?? 'Added to the library', by.userId, transaction);
+  return cableView(cable);
+}
+
+/**
+ * Changes an entry and writes one history row (who, when, why, old → new).
+ * A change to vf, vfTolerance or z0Ohm bumps the revision.
+ * Answers 422 if nothing would change, so that no empty history is written.
+ */
+export async function updateCable(
+  id: number,
+  input: Omit<CableTypeUpdate, 'reason'> & { reason: string },
+  by: { userId: number | null; kind?: ChangeKind; calibrationId?: number | null },
+  transaction?: Transaction,
+): Promise<{ cable: CableTypeView; changes: FieldChange[] }> {
+  const { reason, ...patch } = input;
+  const cable = await loadCable(id, transaction);
+  const changes = diffCable(cable, patch);
+  if (changes.length === 0) {
+    throw new AppError(422, 'no_change', 'Nothing would change: every value given is the one already stored.', {
+      fields: [{ field: '(body)', message: 'changes nothing' }],
+    });
+  }
+  if (patch.name !== undefined && patch.name !== cable.name) await assertNameFree(patch.name, cable.id, transaction);
+  const merged = {
+    attenuationDbPer100m: patch.attenuationDbPer100m !== undefined ? patch.attenuationDbPer100m : cable.attenuationDbPer100m,
+    attenuationFreqMhz: patch.attenuationFreqMhz !== undefined ? patch.attenuationFreqMhz : cable.attenuationFreqMhz,
+  };
+  if ((merged.attenuationDbPer100m === null) !== (merged.attenuationFreqMhz === null)) {
+    const missing = merged.attenuationDbPer100m === null ? 'attenuationDbPer100m' : 'attenuationFreqMhz';
+    throw new AppError(422, 'attenuation_unpaired', 'An attenuation needs the frequency it was measured at, and a frequency needs its attenuation.', {
+      fields: [{ field: missing, message: missing === 'attenuationFreqMhz' ? 'is required with an attenuation' : 'is required with a frequency' }],
+    });
+  }
+  const bump = changes.some((c) => (ANALYSIS_FIELDS as readonly string[]).includes(c.field));
+  await cable.update({ ...patch, revision: bump ? cable.revision + 1 : cable.revision }, { transaction });
+  await record(cable, by.kind ?? 'update', changes, reason, by.userId, transaction, by.calibrationId ?? null);
+  return { cable: cableView(cable), changes };
+}
+
+export async function history(id: number, opts: { sinceRevision?: number } = {}) {
+  await loadCable(id);
+  const rows = await CableTypeChange.findAll({
+    where: opts.sinceRevision === undefined ? { cableTypeId: id } : { cableTypeId: id, revision: { [Op.gt]: opts.sinceRevision } },
+    include: [{ association: 'changedBy', attributes: ['id', 'name'] }],
+    order: [
+      ['createdAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
+  });
+  return rows.map(changeView);
+}
+
+// ---- for the trace analysis ----
+
+export interface CableTypeVersion {
+  id: number;
+  name: string;
+  /** Goes up by one whenever vf, vfTolerance or z0Ohm changes. */
+  revision: number;
+  vf: number;
+  vfTolerance: number;
+  z0Ohm: number;
+  updatedAt: Date;
+}
+
+/**
+ * What a trace analysis should take from the library and keep beside its
+ * result: store `revision` together with the vf, vfTolerance and z0Ohm used.
+ *
+ * To tell whether the library value has changed since a trace was analysed,
+ * compare the stored revision with `cableTypeVersion(id).revision` (or with
+ * CableType.revision read directly): higher means the VF, its tolerance or Z0
+ * has been edited, imported over or replaced by an accepted calibration.
+ * Do not compare updatedAt — a changed name or note moves it too.
+ * `changesSince(id, revision)` gives the history entries to show (when, who,
+ * old → new, why) next to the re-analysis offer.
+ */
+export async function cableTypeVersion(cableTypeId: number, transaction?: Transaction): Promise<CableTypeVersion> {
+  const c = await loadCable(cableTypeId, transaction);
+  return { id: c.id, name: c.name, revision: c.revision, vf: c.vf, vfTolerance: c.vfTolerance, z0Ohm: c.z0Ohm, updatedAt: c.updatedAt };
+}
+
+/** The history entries after `revision` that changed a value the analysis uses, newest first. */
+export async function changesSince(cableTypeId: number, revision: number, transaction?: Transaction): Promise<CableTypeChangeView[]> {
+  const rows = await CableTypeChange.findAll({
+    where: { cableTypeId, revision: { [Op.gt]: revision } },
+    include: [{ association: 'changedBy', attributes: ['id', 'name'] }],
+    order: [
+      ['createdAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
+    transaction,
+  });
+  return rows
+    .map(changeView)
+    .filter((h) => h.changes.some((c) => (ANALYSIS_FIELDS as readonly string[]).includes(c.field)));
+}
+
+export { record as recordCableChange };

@@ -1,0 +1,51 @@
+import { z } from 'zod';
+import {
+  CalibrationAcceptSchema,
+  CalibrationListQuerySchema,
+  CalibrationRejectSchema,
+  CalibrationSubmitSchema,
+} from '../../shared/schemas/cables';
+import { currentUser } from '../auth/guards';
+import { ApiRouter, handle } from '../http/api-router';
+import * as calibrations from './calibrations.service';
+
+const IdParam = z.object({ id: z.coerce.number().int().positive({ error: 'must be a positive whole number' }) });
+
+export function calibrationRoutes() {
+  const r = new ApiRouter('/api/calibrations');
+  r.get('/', 'calibrations:review', handle((req) => calibrations.listCalibrations(CalibrationListQuerySchema.parse(req.query))));
+  r.get(
+    '/mine',
+    'calibrations:submit',
+    handle((req) =>
+      calibrations.listCalibrations({ ...CalibrationListQuerySchema.parse({ status: 'all', ...req.query }), submittedById: currentUser(req).id }),
+    ),
+  );
+  r.post(
+    '/',
+    'calibrations:submit',
+    handle(async (req, res) => {
+      const input = CalibrationSubmitSchema.parse(req.body);
+      const created = await calibrations.submitCalibration({ ...input, submittedById: currentUser(req).id });
+      res.status(201);
+      return created;
+    }),
+  );
+  r.post(
+    '/:id/accept',
+    'calibrations:review',
+    handle((req) => {
+      const { id } = IdParam.parse(req.params);
+      return calibrations.acceptCalibration(id, currentUser(req).id, CalibrationAcceptSchema.parse(req.body ?? {}));
+    }),
+  );
+  r.post(
+    '/:id/reject',
+    'calibrations:review',
+    handle((req) => {
+      const { id } = IdParam.parse(req.params);
+      return calibrations.rejectCalibration(id, currentUser(req).id, CalibrationRejectSchema.parse(req.body ?? {}).reason);
+    }),
+  );
+  return r;
+}

@@ -1,0 +1,167 @@
+import { parse } from 'csv-parse/sync';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { CableTypeChange } from '../../server/db/models';
+import { startApi, type Client, type TestApi } from './support/api';
+
+let api: TestApi;
+let planner: Client;
+beforeAll(async () => {
+  api = await startApi();
+  planner = await api.as('planner');
+  await planner
+    .post('/api/cables', {
+      name: 'Existing PTFE coax',
+      construction: 'coax',
+      dielectric: 'PTFE',
+      z0Ohm: 50,
+      vf: 0.69,
+      vfTolerance: 0.02,
+      vfSource: 'handbook',
+      vfReference: 'PTFE εr 2.1 → 0.69 (Standard Wire & Cable dielectric table)',
+    })
+    .expect(201);
+});
+afterAll(() => api.close());
+
+const HEADER = 'name,construction,dielectric,z0_ohm,vf,vf_tolerance,attenuation_db_per_100m,attenuation_freq_mhz,vf_source,vf_reference,notes';
+const GOOD_1 = 'Import foam coax,coax,foamed polyethylene,75,0.82,0.03,,,handbook,"Foam PE coax 0.78–0.88, handbook range",';
+const BAD = 'Import bad pair,twisted-pair,PVC,-100,1.4,0.05,,,brochure,,';
+const GOOD_2 = 'Existing PTFE coax,coax,PTFE,50,0.695,0.02,12.5,100,datasheet,"Datasheet, 0.695 at 100 MHz","re-read"';
+
+const upload = (url: string, csv: string, fields: Record<string, string> = {}) => {
+  const req = planner.postRaw(url).attach('file', Buffer.from(csv, 'utf8'), { filename: 'library.csv', contentType: 'text/csv' });
+  for (const [k, v] of Object.entries(fields)) req.field(k, v);
+  return req;
+};
+
+async function libraryNames() {
+  const res = await planner.get('/api/cables?pageSize=200').expect(200);
+  return (res.body.items as Array<{ name: string }>).map((i) => i.name).sort();
+}
+
+describe('POST /api/cables/import/preview', () => {
+  it('checks every row and lists the bad ones with line numbers and reasons, writing nothing', async () => {
+    const before = await libraryNames();
+    const res = await upload('/api/cables/import/preview', [HEADER, GOOD_1, BAD, GOOD_2].join('\n')).expect(200);
+    expect(res.body.counts).toEqual({ create: 1, update: 1, unchanged: 0, invalid: 1 });
+    expect(res.body.canCommit).toBe(false);
+    const [r1, r2, r3] = res.body.rows;
+    expect(r1).toMatchObject({ line: 2, name: 'Import foam coax', action: 'create', errors: [] });
+    expect(r2).toMatchObject({ line: 3, action: 'invalid' });
+    const issues = Object.fromEntries(r2.errors.map((e: { field: string; message: string; line: number }) => [e.field, `${e.line}: ${e.message}`]));
+    expect(issues).toEqual({
+      z0_ohm: '3: must be greater than 0 Ω',
+      vf: '3: must be at most 1 (nothing is faster than light)',
+      vf_source: '3: is required: one of datasheet, handbook, calculated, field-calibrated',
+      vf_reference: '3: is required',
+    });
+    expect(r3).toMatchObject({ line: 4, action: 'update', name: 'Existing PTFE coax' });
+    expect(r3.changes).toEqual([
+      { field: 'vf', from: 0.69, to: 0.695 },
+      { field: 'attenuationDbPer100m', from: null, to: 12.5 },
+      { field: 'attenuationFreqMhz', from: null, to: 100 },
+      { field: 'vfSource', from: 'handbook', to: 'datasheet' },
+      { field: 'vfReference', from: 'PTFE εr 2.1 → 0.69 (Standard Wire & Cable dielectric table)', to: 'Datasheet, 0.695 at 100 MHz' },
+      { field: 'notes', from: null, to: 're-read' },
+    ]);
+    expect(await libraryNames()).toEqual(before);
+  });
+
+  it('counts lines from the file, quoted line breaks included, and catches percentages, decimal commas and repeats', async () => {
+    const csv = [
+      HEADER,
+      'Multi-line note coax,coax,PE,50,0.66,0.02,,,handbook,ref,"first line\nsecond line"',
+      'Percent coax,coax,PE,50,66,0.02,,,handbook,ref,',
+      'Comma coax,coax,PE,50,"0,66",0.02,,,handbook,ref,',
+      'multi-line NOTE coax,coax,PE,50,0.66,0.02,,,handbook,ref,',
+      'Short row,coax',
+    ].join('\r\n');
+    const res = await upload('/api/cables/import/preview', csv).expect(200);
+    const byLine = Object.fromEntries(res.body.rows.map((r: { line: number; action: string; errors: Array<{ message: string }> }) => [r.line, [r.action, r.errors.map((e) => e.message).join('; ')]]));
+    expect(byLine).toEqual({
+      2: ['create', ''],
+      4: ['invalid', '66 must be at most 1: write the VF as a fraction (0.66), not a percentage'],
+      5: ['invalid', '"0,66" must be a number with a point for decimals'],
+      6: ['invalid', 'appears again (first on line 2)'],
+      7: ['invalid', 'has 2 fields, the header has 11'],
+    });
+  });
+
+  it('refuses a file it cannot read, with where and why', async () => {
+    const unknown = await upload('/api/cables/import/preview', 'name,colour\nx,red\n').expect(422);
+    expect(unknown.body.error).toMatchObject({ code: 'csv_unreadable' });
+    expect(unknown.body.error.message).toMatch(/^Line 1: unknown column "colour"/);
+    const quote = await upload('/api/cables/import/preview', `${HEADER}\n"Open quote,coax\n`).expect(422);
+    expect(quote.body.error.fields[0]).toMatchObject({ field: 'file', line: 2 });
+    const none = await planner.post('/api/cables/import/preview', {}).expect(400);
+    expect(none.body.error.fields).toEqual([{ field: 'file', message: 'is required' }]);
+  });
+});
+
+describe('POST /api/cables/import', () => {
+  it('writes nothing when a row in the middle is bad (all or nothing)', async () => {
+    const before = await libraryNames();
+    const beforePtfe = (await planner.get('/api/cables?q=Existing%20PTFE').expect(200)).body.items[0];
+    const res = await upload('/api/cables/import', [HEADER, GOOD_1, BAD, GOOD_2].join('\n'), { reason: 'Yearly refresh' }).expect(422);
+    expect(res.body.error.code).toBe('import_invalid');
+    expect(res.body.error.message).toBe('Nothing was imported: 1 row has errors (line 3).');
+    expect(res.body.error.fields.every((f: { line: number }) => f.line === 3)).toBe(true);
+    expect(await libraryNames()).toEqual(before);
+    const ptfe = (await planner.get('/api/cables?q=Existing%20PTFE').expect(200)).body.items[0];
+    expect(ptfe).toEqual(beforePtfe);
+    const h = await planner.get(`/api/cables/${ptfe.id}/history`).expect(200);
+    expect(h.body).toHaveLength(1);
+  });
+
+  it('rolls back the rows already written when a later write fails', async () => {
+    const before = await libraryNames();
+    const csv = [HEADER, 'Rollback one,coax,PE,50,0.66,0.02,,,handbook,ref,', 'Rollback two,coax,PE,50,0.66,0.02,,,handbook,ref,'].join('\n');
+    const real = CableTypeChange.create.bind(CableTypeChange);
+    let calls = 0;
+    const spy = vi.spyOn(CableTypeChange, 'create').mockImplementation(((...args: Parameters<typeof real>) => {
+      calls += 1;
+      if (calls === 2) return Promise.reject(new Error('disk full'));
+      return real(...args);
+    }) as typeof CableTypeChange.create);
+    try {
+      await upload('/api/cables/import', csv, { reason: 'Rollback check' }).expect(500);
+    } finally {
+      spy.mockRestore();
+    }
+    expect(calls).toBe(2);
+    expect(await libraryNames()).toEqual(before);
+  });
+
+  it('needs a reason, then writes every row with history', async () => {
+    const csv = [HEADER, GOOD_1, GOOD_2].join('\n');
+    const noReason = await upload('/api/cables/import', csv).expect(400);
+    expect(noReason.body.error.fields[0].field).toBe('reason');
+    const res = await upload('/api/cables/import', csv, { reason: 'Yearly refresh' }).expect(200);
+    expect(res.body.counts).toEqual({ create: 1, update: 1, unchanged: 0, invalid: 0 });
+    const ptfe = (await planner.get('/api/cables?q=Existing%20PTFE').expect(200)).body.items[0];
+    expect(ptfe).toMatchObject({ vf: 0.695, vfSource: 'datasheet', revision: 2, attenuationDbPer100m: 12.5 });
+    const h = await planner.get(`/api/cables/${ptfe.id}/history`).expect(200);
+    expect(h.body[0]).toMatchObject({ kind: 'import', reason: 'Import of library.csv: Yearly refresh', changedBy: { name: 'Pat Plan' } });
+    const again = await upload('/api/cables/import', csv, { reason: 'twice' }).expect(422);
+    expect(again.body.error.code).toBe('import_empty');
+  });
+
+  it('is for planners and admins only', async () => {
+    const tech = await api.as('technician');
+    await tech.postRaw('/api/cables/import').attach('file', Buffer.from(HEADER), 'x.csv').expect(403);
+  });
+});
+
+describe('GET /api/cables/export', () => {
+  it('writes the library as CSV that the import reads back unchanged', async () => {
+    const tech = await api.as('technician');
+    const res = await tech.get('/api/cables/export').expect(200);
+    expect(res.headers['content-type']).toMatch(/^text\/csv/);
+    expect(res.headers['content-disposition']).toMatch(/^attachment; filename="?cable-library-\d{4}-\d{2}-\d{2}\.csv"?$/);
+    const rows = parse(res.text, { columns: true }) as Array<Record<string, string>>;
+    expect(Object.keys(rows[0])).toEqual(HEADER.split(','));
+    expect(rows.find((r) => r.name === 'Import foam coax')).toMatchObject({ vf: '0.82', vf_reference: 'Foam PE coax 0.78–0.88, handbook range', notes: '' });
+    const back = await upload('/api/cables/import/preview', res.text).expect(200);
+    expect(back.body.counts).toEqual({ create: 0, update: 0, unchanged: rows.length, invalid: 0 });
+  });
+});

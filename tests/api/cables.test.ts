@@ -1,0 +1,156 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { ROLES } from '../../shared/auth/permissions';
+import { cableTypeVersion, changesSince } from '../../server/cables/cables.service';
+import { startApi, type Client, type TestApi } from './support/api';
+
+let api: TestApi;
+let planner: Client;
+beforeAll(async () => {
+  api = await startApi();
+  planner = await api.as('planner');
+});
+afterAll(() => api.close());
+
+/** A valid body; the VF and εr of solid PE from the Standard Wire & Cable dielectric table (εr 2.26, VP 66 %). */
+const solidPe = (name: string, extra: object = {}) => ({
+  name,
+  construction: 'coax',
+  dielectric: 'solid polyethylene',
+  z0Ohm: 50,
+  vf: 0.66,
+  vfTolerance: 0.02,
+  vfSource: 'handbook',
+  vfReference: 'Standard Wire & Cable dielectric table: PE 2.26 → VP 66 %',
+  ...extra,
+});
+
+describe('permissions on /api/cables', () => {
+  it('lets every role read and search, and only planners and admins create and edit', async () => {
+    const created = await planner.post('/api/cables', solidPe('Perm check coax')).expect(201);
+    const id = created.body.id as number;
+    const expectWrite: Record<string, number> = { technician: 403, supervisor: 403, planner: 200, admin: 200 };
+    for (const role of ROLES) {
+      const c = await api.as(role);
+      const list = await c.get('/api/cables?q=perm').expect(200);
+      expect(list.body.items.map((i: { name: string }) => i.name)).toContain('Perm check coax');
+      await c.get(`/api/cables/${id}`).expect(200);
+      await c.get(`/api/cables/${id}/history`).expect(200);
+      const res = await c.patch(`/api/cables/${id}`, { notes: `seen by ${role}`, reason: 'permission check' });
+      expect(res.status).toBe(expectWrite[role]);
+      if (res.status === 403) expect(res.body.error.code).toBe('forbidden');
+      const create = await c.post('/api/cables', solidPe(`By ${role}`));
+      expect(create.status).toBe(expectWrite[role] === 200 ? 201 : 403);
+    }
+    const anon = await api.anonymous();
+    await anon.get('/api/cables').expect(401);
+  });
+});
+
+describe('POST /api/cables validation', () => {
+  it('rejects a VF outside (0, 1] with a field message', async () => {
+    for (const vf of [0, -0.2, 1.01, 66]) {
+      const res = await planner.post('/api/cables', solidPe(`Bad VF ${vf}`, { vf })).expect(400);
+      expect(res.body.error.code).toBe('invalid_input');
+      expect(res.body.error.fields.map((f: { field: string }) => f.field)).toEqual(['vf']);
+    }
+    const one = await planner.post('/api/cables', solidPe('Vacuum-like line', { vf: 1, vfTolerance: 0 })).expect(201);
+    expect(one.body.vf).toBe(1);
+  });
+
+  it('rejects a negative impedance and a missing source, naming each field', async () => {
+    const res = await planner.post('/api/cables', { ...solidPe('Two faults', { z0Ohm: -50 }), vfSource: undefined }).expect(400);
+    const fields = Object.fromEntries(res.body.error.fields.map((f: { field: string; message: string }) => [f.field, f.message]));
+    expect(fields.z0Ohm).toBe('must be greater than 0 Ω');
+    expect(fields.vfSource).toMatch(/^is required/);
+    const noRef = await planner.post('/api/cables', solidPe('No reference', { vfReference: '  ' })).expect(400);
+    expect(noRef.body.error.fields[0]).toMatchObject({ field: 'vfReference' });
+  });
+
+  it('wants attenuation and its frequency together', async () => {
+    const res = await planner.post('/api/cables', solidPe('Half attenuation', { attenuationDbPer100m: 4.6 })).expect(400);
+    expect(res.body.error.fields).toEqual([{ field: 'attenuationFreqMhz', message: 'is required with an attenuation' }]);
+  });
+
+  it('refuses a second entry of the same name, whatever the letter case', async () => {
+    await planner.post('/api/cables', solidPe('Unique name coax')).expect(201);
+    const res = await planner.post('/api/cables', solidPe('UNIQUE name COAX')).expect(409);
+    expect(res.body.error.fields).toEqual([{ field: 'name', message: 'is already in the library' }]);
+  });
+});
+
+describe('PATCH /api/cables/:id', () => {
+  it('needs a reason, writes who/when/old → new/why, and bumps the revision for VF', async () => {
+    const { body: c } = await planner.post('/api/cables', solidPe('History coax')).expect(201);
+    expect(c.revision).toBe(1);
+    const noReason = await planner.patch(`/api/cables/${c.id}`, { vf: 0.67 }).expect(400);
+    expect(noReason.body.error.fields[0].field).toBe('reason');
+
+    const res = await planner.patch(`/api/cables/${c.id}`, { vf: 0.672, vfSource: 'field-calibrated', reason: 'Drum measured at the yard' }).expect(200);
+    expect(res.body).toMatchObject({ vf: 0.672, vfSource: 'field-calibrated', revision: 2 });
+
+    const notes = await planner.patch(`/api/cables/${c.id}`, { notes: 'Drum 4', reason: 'Note the drum' }).expect(200);
+    expect(notes.body.revision).toBe(2); // a note does not change what an analysis uses
+
+    const h = await planner.get(`/api/cables/${c.id}/history`).expect(200);
+    expect(h.body).toHaveLength(3);
+    expect(h.body[1]).toMatchObject({
+      kind: 'update',
+      revision: 2,
+      reason: 'Drum measured at the yard',
+      changedBy: { id: api.users.planner.id, name: 'Pat Plan' },
+      changes: [
+        { field: 'vf', from: 0.66, to: 0.672 },
+        { field: 'vfSource', from: 'handbook', to: 'field-calibrated' },
+      ],
+    });
+    expect(h.body[2]).toMatchObject({ kind: 'create', revision: 1, reason: 'Added to the library' });
+    expect(h.body[0].changes).toEqual([{ field: 'notes', from: null, to: 'Drum 4' }]);
+
+    const since = await planner.get(`/api/cables/${c.id}/history?sinceRevision=1`).expect(200);
+    expect(since.body.map((e: { reason: string }) => e.reason)).toEqual(['Note the drum', 'Drum measured at the yard']);
+
+    // What the trace analysis compares against.
+    const v = await cableTypeVersion(c.id);
+    expect(v).toMatchObject({ revision: 2, vf: 0.672, vfTolerance: 0.02, z0Ohm: 50 });
+    expect((await changesSince(c.id, 1)).map((e) => e.reason)).toEqual(['Drum measured at the yard']);
+    expect(await changesSince(c.id, 2)).toEqual([]);
+  });
+
+  it('answers 422 when nothing would change, and 404 for an unknown entry', async () => {
+    const { body: c } = await planner.post('/api/cables', solidPe('Same again coax')).expect(201);
+    const res = await planner.patch(`/api/cables/${c.id}`, { vf: 0.66, reason: 'no-op' }).expect(422);
+    expect(res.body.error.code).toBe('no_change');
+    await planner.patch('/api/cables/987654', { vf: 0.7, reason: 'ghost' }).expect(404);
+    const h = await planner.get(`/api/cables/${c.id}/history`).expect(200);
+    expect(h.body).toHaveLength(1);
+  });
+
+  it('validates a partial change the same way as a new entry', async () => {
+    const { body: c } = await planner.post('/api/cables', solidPe('Partial coax')).expect(201);
+    const res = await planner.patch(`/api/cables/${c.id}`, { vf: 1.5, reason: 'typo' }).expect(400);
+    expect(res.body.error.fields).toEqual([{ field: 'vf', message: 'must be at most 1 (nothing is faster than light)' }]);
+    const att = await planner.patch(`/api/cables/${c.id}`, { attenuationDbPer100m: 5, reason: 'loss' }).expect(422);
+    expect(att.body.error.fields[0].field).toBe('attenuationFreqMhz');
+  });
+});
+
+describe('GET /api/cables', () => {
+  it('searches, sorts and pages on the server', async () => {
+    for (const [name, vf] of [
+      ['Sort A foam coax', 0.85],
+      ['Sort B foam coax', 0.8],
+      ['Sort C foam coax', 0.82],
+    ] as const) {
+      await planner.post('/api/cables', solidPe(name, { vf, dielectric: 'foamed polyethylene' })).expect(201);
+    }
+    const byVf = await planner.get('/api/cables?q=sort%20foam&sort=vf&dir=desc&pageSize=2').expect(200);
+    expect(byVf.body.total).toBe(3);
+    expect(byVf.body.items.map((i: { vf: number }) => i.vf)).toEqual([0.85, 0.82]);
+    const page2 = await planner.get('/api/cables?q=sort%20foam&sort=vf&dir=desc&pageSize=2&page=2').expect(200);
+    expect(page2.body.items.map((i: { name: string }) => i.name)).toEqual(['Sort B foam coax']);
+    const byDielectric = await planner.get('/api/cables?q=FOAMED').expect(200);
+    expect(byDielectric.body.total).toBe(3);
+    const bad = await planner.get('/api/cables?sort=colour').expect(400);
+    expect(bad.body.error.fields[0].field).toBe('sort');
+  });
+});
