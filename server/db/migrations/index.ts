@@ -5,6 +5,7 @@ import * as m0002 from './0002-cable-types';
 import * as m0003 from './0003-field-workflow';
 import * as m0004 from './0004-cable-library';
 import * as m0005 from './0005-mail';
+import * as m0006 from './0006-tickets';
 
 export type Migration = MigrationFn<QueryInterface>;
 
@@ -18,6 +19,7 @@ const MIGRATIONS: Array<{ name: string; up: Migration; down: Migration }> = [
   { name: '0003-field-workflow', ...m0003 },
   { name: '0004-cable-library', ...m0004 },
   { name: '0005-mail', ...m0005 },
+  { name: '0006-tickets', ...m0006 },
 ];
 
 export function migrator(sequelize: Sequelize) {

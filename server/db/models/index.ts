@@ -4,13 +4,14 @@ import { CableType, initCableType } from './cable-type';
 import { associateCableTypeChange, initCableTypeChange } from './cable-type-change';
 import { initMailJob } from './mail-job';
 import { initOutboxMessage } from './outbox-message';
-import { initCableRun } from './cable-run';
+import { CableRun, initCableRun } from './cable-run';
 import { associateFieldModels } from './field-associations';
-import { initFinding } from './finding';
+import { Finding, initFinding } from './finding';
 import { initRouteMarker } from './route-marker';
 import { initSession } from './session';
-import { initSite } from './site';
+import { initSite, Site } from './site';
 import { initSiteSupervisor } from './site-supervisor';
+import { associateTicketModels, initTicket, initTicketCloseout, initTicketEvent, initTicketFinding } from './ticket';
 import { initTrace } from './trace';
 import { initUser, User } from './user';
 
@@ -32,6 +33,11 @@ export function initModels(sequelize: Sequelize) {
   associateFieldModels();
   initMailJob(sequelize);
   initOutboxMessage(sequelize);
+  initTicket(sequelize);
+  initTicketFinding(sequelize);
+  initTicketEvent(sequelize);
+  initTicketCloseout(sequelize);
+  associateTicketModels({ User, Site, CableRun, Finding });
   associateCableTypeChange({ CableType, User });
   associateCableCalibration({ CableType, User });
 }
@@ -49,3 +55,4 @@ export { CableRun } from './cable-run';
 export { RouteMarker } from './route-marker';
 export { Trace } from './trace';
 export { Finding } from './finding';
+export { Ticket, TicketFinding, TicketEvent, TicketCloseout } from './ticket';

@@ -1,0 +1,138 @@
+import type { Transaction } from 'sequelize';
+import { describeRoutePosition, type RoutePosition } from '../../shared/field/route-position';
+import { FINDING_KIND_LABELS } from '../../shared/schemas/findings';
+import { TICKET_PRIORITY_LABELS, TICKET_STATUS_LABELS, type TicketStatus } from '../../shared/tickets/status';
+import type { AppContext } from '../context';
+import { CableRun, Finding, Site, Ticket, Trace, User } from '../db/models';
+import { appLink } from '../mail';
+import { composeMail, lengthText, SAFETY_LINE, type LengthUnit } from '../mail/compose';
+
+const kindLabel = (k: string) => FINDING_KIND_LABELS[k as keyof typeof FINDING_KIND_LABELS] ?? k;
+
+/** The route sentence in the reader's unit (the stored text is in metres). */
+function whereText(f: Finding, unit: LengthUnit): string {
+  const pos = f.routePosition as RoutePosition | null;
+  return pos ? describeRoutePosition(pos, (m) => lengthText(m, unit)) : f.routePositionText;
+}
+
+function findingRows(f: Finding, trace: Trace | null, run: CableRun, unit: LengthUnit): Array<[string, string]> {
+  const end = trace?.end ?? 'A';
+  const endLabel = end === 'A' ? run.endALabel : run.endBLabel;
+  return [
+    ['Distance', `${lengthText(f.distanceM, unit)} of cable from end ${end} (${endLabel}), ± ${lengthText(f.uncertaintyM, unit)}`],
+    ['Route position', whereText(f, unit)],
+    ['Dig window', `${lengthText(f.windowStartM, unit)} – ${lengthText(f.windowEndM, unit)} of cable from end ${end}`],
+  ];
+}
+
+/**
+ * The site's supervisors get one e-mail each (in their own unit) when a
+ * finding is confirmed. A site with no supervisor named falls back to every
+ * active supervisor, so the news is never dropped.
+ */
+export async function mailFindingConfirmed(ctx: AppContext, findingId: number) {
+  const finding = await Finding.findByPk(findingId, {
+    include: [
+      { association: 'site', include: [{ association: 'supervisors', where: { active: true }, required: false }] },
+      { association: 'cableRun' },
+      { association: 'trace' },
+      { association: 'confirmedBy' },
+    ],
+  });
+  if (!finding || finding.status !== 'confirmed') return;
+  const site = finding.site as Site;
+  const run = finding.cableRun as CableRun;
+  let recipients = site.supervisors ?? [];
+  const fallback = recipients.length === 0;
+  if (fallback) recipients = await User.findAll({ where: { role: 'supervisor', active: true } });
+  const link = appLink(ctx.config, `/findings/${finding.id}`);
+  for (const r of recipients) {
+    const mail = composeMail({
+      subject: `Fault confirmed at ${site.name}: ${run.name}, ${lengthText(finding.distanceM, r.unitPreference)}`,
+      intro: `${finding.confirmedBy?.name ?? 'A technician'} confirmed a fault (${kindLabel(finding.kind)}) at ${site.name}.`,
+      rows: [['Site', site.name], ['Cable run', `${run.name} (${run.endALabel} → ${run.endBLabel})`], ...findingRows(finding, finding.trace ?? null, run, r.unitPreference)],
+      paragraph: [finding.note ? `Note: ${finding.note}` : '', fallback ? 'No supervisor is named for this site, so every supervisor gets this message.' : '']
+        .filter(Boolean)
+        .join(' ') || null,
+      link: { label: 'Open the finding', url: link },
+      footer: SAFETY_LINE,
+    });
+    await ctx.mail.queue.enqueue({ kind: 'finding-confirmed', to: [r.email], ...mail, findingId: finding.id });
+  }
+}
+
+export type TicketMailReason =
+  | { kind: 'assigned' }
+  | { kind: 'unassigned'; to: User }
+  | { kind: 'status'; from: TicketStatus; to: TicketStatus; comment: string | null }
+  | { kind: 'updated'; changes: string[]; comment: string | null }
+  | { kind: 'comment'; comment: string }
+  | { kind: 'fixed'; to: User; summary: string };
+
+/** Tell the right person about a change to a ticket, inside the change's transaction. */
+export async function mailTicket(ctx: AppContext, ticketId: number, actor: { id: number; name: string }, reason: TicketMailReason, transaction: Transaction) {
+  const ticket = await Ticket.findByPk(ticketId, {
+    include: [{ association: 'site' }, { association: 'cableRun' }, { association: 'assignee' }, { association: 'findings', include: [{ association: 'trace' }] }],
+    transaction,
+  });
+  if (!ticket) return;
+  const recipient = reason.kind === 'unassigned' || reason.kind === 'fixed' ? reason.to : ticket.assignee;
+  // Nobody is e-mailed about their own action.
+  if (!recipient || !recipient.active || recipient.id === actor.id) return;
+  const unit = recipient.unitPreference;
+  const site = ticket.site as Site;
+  const run = ticket.cableRun as CableRun;
+  const first = ticket.findings?.[0];
+  const ref = `Ticket ${ticket.id}`;
+  const rows: Array<[string, string]> = [
+    ['Ticket', `${ref}: ${ticket.title}`],
+    ['Status', TICKET_STATUS_LABELS[ticket.status]],
+    ['Priority', TICKET_PRIORITY_LABELS[ticket.priority]],
+    ['Due', ticket.dueDate ?? 'no date set'],
+    ['Site', site.name],
+    ['Cable run', `${run.name} (${run.endALabel} → ${run.endBLabel})`],
+    ...(first ? findingRows(first, first.trace ?? null, run, unit) : []),
+  ];
+  let subject: string;
+  let intro: string;
+  let paragraph: string | null = null;
+  switch (reason.kind) {
+    case 'assigned':
+      subject = `${ref} assigned to you: ${ticket.title}`;
+      intro = `${actor.name} assigned you a repair at ${site.name}.`;
+      paragraph = ticket.notes ? `Notes: ${ticket.notes}` : null;
+      break;
+    case 'unassigned':
+      subject = `${ref} is no longer yours: ${ticket.title}`;
+      intro = `${actor.name} took you off this repair${ticket.assignee ? ` and gave it to ${ticket.assignee.name}` : ''}.`;
+      break;
+    case 'status':
+      subject = `${ref} is now ${TICKET_STATUS_LABELS[reason.to].toLowerCase()}: ${ticket.title}`;
+      intro = `${actor.name} moved your ticket from ${TICKET_STATUS_LABELS[reason.from].toLowerCase()} to ${TICKET_STATUS_LABELS[reason.to].toLowerCase()}.`;
+      paragraph = reason.comment ? `Comment: ${reason.comment}` : null;
+      break;
+    case 'updated':
+      subject = `${ref} changed: ${ticket.title}`;
+      intro = `${actor.name} changed your ticket: ${reason.changes.join('; ')}.`;
+      paragraph = reason.comment ? `Comment: ${reason.comment}` : null;
+      break;
+    case 'comment':
+      subject = `${ref}: a comment from ${actor.name}`;
+      intro = `${actor.name} commented on your ticket.`;
+      paragraph = reason.comment;
+      break;
+    case 'fixed':
+      subject = `${ref} fixed, waiting for your sign-off: ${ticket.title}`;
+      intro = `${actor.name} recorded the repair. ${reason.summary}`;
+      break;
+  }
+  const mail = composeMail({
+    subject,
+    intro,
+    rows,
+    paragraph,
+    link: { label: 'Open the ticket', url: appLink(ctx.config, `/tickets/${ticket.id}`) },
+    footer: SAFETY_LINE,
+  });
+  await ctx.mail.queue.enqueue({ kind: `ticket-${reason.kind}`, to: [recipient.email], ...mail, ticketId: ticket.id }, transaction);
+}

@@ -1,0 +1,45 @@
+import { z } from 'zod';
+import { CloseoutSchema, TicketCommentSchema, TicketCreateSchema, TicketListQuerySchema, TicketMoveSchema, TicketUpdateSchema } from '../../shared/schemas/tickets';
+import { currentUser } from '../auth/guards';
+import type { AppContext } from '../context';
+import { ApiRouter, handle } from '../http/api-router';
+import * as tickets from './tickets.service';
+
+const IdParam = z.object({ id: z.coerce.number().int().positive({ error: 'must be a positive whole number' }) });
+
+export function ticketRoutes(ctx: AppContext) {
+  const r = new ApiRouter('/api/tickets');
+  r.get('/', 'tickets:read', handle((req) => tickets.listTickets(currentUser(req), TicketListQuerySchema.parse(req.query))));
+  r.get('/unticketed-findings', 'tickets:manage', handle(() => tickets.unticketedFindings()));
+  r.post(
+    '/',
+    'tickets:manage',
+    handle(async (req, res) => {
+      const ticket = await tickets.createTicket(ctx, currentUser(req), TicketCreateSchema.parse(req.body));
+      res.status(201);
+      return ticket;
+    }),
+  );
+  r.get('/:id', 'tickets:read', handle((req) => tickets.getTicket(IdParam.parse(req.params).id, currentUser(req))));
+  r.patch(
+    '/:id',
+    'tickets:manage',
+    handle((req) => tickets.updateTicket(ctx, currentUser(req), IdParam.parse(req.params).id, TicketUpdateSchema.parse(req.body))),
+  );
+  r.post(
+    '/:id/status',
+    'tickets:work',
+    handle((req) => tickets.moveTicket(ctx, currentUser(req), IdParam.parse(req.params).id, TicketMoveSchema.parse(req.body))),
+  );
+  r.post(
+    '/:id/comments',
+    'tickets:work',
+    handle((req) => tickets.commentOnTicket(ctx, currentUser(req), IdParam.parse(req.params).id, TicketCommentSchema.parse(req.body).comment)),
+  );
+  r.post(
+    '/:id/closeout',
+    'tickets:work',
+    handle((req) => tickets.closeOutTicket(ctx, currentUser(req), IdParam.parse(req.params).id, CloseoutSchema.parse(req.body))),
+  );
+  return r;
+}

@@ -1,0 +1,195 @@
+import { z } from 'zod';
+import type { RoutePosition } from '../field/route-position';
+import { FINDING_KINDS } from './findings';
+import type { MailJobView } from './outbox';
+import { TICKET_PRIORITIES, TICKET_STATUSES, type TicketPriority, type TicketStatus } from '../tickets/status';
+
+const id = (what: string) => z.coerce.number({ error: `must be ${what}` }).int(`must be ${what}`).positive(`must be ${what}`);
+const text = (max: number) =>
+  z
+    .string({ error: 'must be text' })
+    .trim()
+    .max(max, `must be at most ${max} characters`)
+    .nullish()
+    .transform((v) => (v ? v : null));
+const dueDate = z
+  .string({ error: 'must be a date (YYYY-MM-DD)' })
+  .regex(/^\d{4}-\d{2}-\d{2}$/, 'must be a date (YYYY-MM-DD)')
+  .refine((v) => !Number.isNaN(Date.parse(`${v}T00:00:00Z`)) && new Date(`${v}T00:00:00Z`).toISOString().startsWith(v), 'is not a real date')
+  .nullish()
+  .transform((v) => v ?? null);
+const priority = z.enum(TICKET_PRIORITIES, { error: `must be one of ${TICKET_PRIORITIES.join(', ')}` });
+
+export const TicketCreateSchema = z.object({
+  findingIds: z
+    .array(id('a finding id'), { error: 'must list at least one finding' })
+    .min(1, 'must list at least one finding')
+    .max(20, 'may list at most 20 findings'),
+  title: text(160),
+  assigneeId: id('a user id').nullish().transform((v) => v ?? null),
+  priority: priority.default('normal'),
+  dueDate,
+  notes: text(4000),
+});
+export type TicketCreateInput = z.input<typeof TicketCreateSchema>;
+
+export const TicketUpdateSchema = z
+  .object({
+    title: z.string({ error: 'must be text' }).trim().min(1, 'is required').max(160, 'must be at most 160 characters'),
+    assigneeId: id('a user id').nullable(),
+    priority,
+    dueDate,
+    notes: text(4000),
+    comment: text(2000),
+  })
+  .partial()
+  .refine((v) => Object.keys(v).some((k) => k !== 'comment'), 'give at least one field to change');
+export type TicketUpdateInput = z.input<typeof TicketUpdateSchema>;
+
+export const TicketMoveSchema = z.object({
+  to: z.enum(TICKET_STATUSES, { error: `must be one of ${TICKET_STATUSES.join(', ')}` }),
+  comment: text(2000),
+});
+
+export const TicketCommentSchema = z.object({
+  comment: z.string({ error: 'is required' }).trim().min(1, 'is required').max(2000, 'must be at most 2000 characters'),
+});
+
+export const FoundPositionSchema = z.discriminatedUnion(
+  'method',
+  [
+    z.object({
+      method: z.literal('distance'),
+      fromEnd: z.enum(['A', 'B'], { error: 'must be A or B' }),
+      distanceM: z.number({ error: 'must be a number of metres' }).min(0, 'must be 0 or more'),
+    }),
+    z.object({
+      method: z.literal('marker'),
+      markerId: id('a route marker id'),
+      offsetM: z.number({ error: 'must be a number of metres' }).min(0, 'must be 0 or more (metres past the marker toward end B)'),
+    }),
+  ],
+  { error: 'must say how the position was found: method "distance" (fromEnd, distanceM) or "marker" (markerId, offsetM)' },
+);
+
+export const CloseoutSchema = z.object({
+  /** Which of the ticket's findings the found position answers (optional when the ticket has one). */
+  findingId: id('a finding id of this ticket').optional(),
+  found: FoundPositionSchema,
+  cause: z.enum(FINDING_KINDS, { error: `must be one of ${FINDING_KINDS.join(', ')}` }),
+  workDone: z.string({ error: 'is required' }).trim().min(1, 'is required: say what was done').max(4000, 'must be at most 4000 characters'),
+  /** File the implied VF as a field calibration (turn off when the fault found was not the one located). */
+  fileCalibration: z.boolean({ error: 'must be true or false' }).default(true),
+  comment: text(2000),
+});
+export type CloseoutInput = z.input<typeof CloseoutSchema>;
+
+export const TicketListQuerySchema = z.object({
+  status: z.enum([...TICKET_STATUSES, 'open', 'all'], { error: `must be open, all or one of ${TICKET_STATUSES.join(', ')}` }).default('open'),
+  assignee: z.enum(['me', 'any'], { error: 'must be me or any' }).default('any'),
+  siteId: id('a site id').optional(),
+  page: z.coerce.number({ error: 'must be a whole number' }).int().min(1, 'must be 1 or more').default(1),
+  pageSize: z.coerce.number({ error: 'must be a whole number' }).int().min(1).max(100, 'must be at most 100').default(25),
+});
+export type TicketListQuery = z.input<typeof TicketListQuerySchema>;
+
+export interface PersonRef {
+  id: number;
+  name: string;
+}
+
+export interface TicketFindingView {
+  id: number;
+  kind: string;
+  note: string | null;
+  traceId: number;
+  measuredFrom: 'A' | 'B';
+  roundTripNs: number;
+  distanceM: number;
+  uncertaintyM: number;
+  windowStartM: number;
+  windowEndM: number;
+  routePosition: RoutePosition | null;
+  routePositionText: string;
+  vf: number;
+  confirmedBy: PersonRef;
+  confirmedAt: string;
+}
+
+export interface TicketSummary {
+  id: number;
+  title: string;
+  status: TicketStatus;
+  priority: TicketPriority;
+  dueDate: string | null;
+  assignee: PersonRef | null;
+  site: PersonRef;
+  cableRun: PersonRef;
+  findingCount: number;
+  createdAt: string;
+  updatedAt: string;
+  /** True when an e-mail about this ticket is failing or has failed. */
+  mailTrouble: boolean;
+  mine: boolean;
+}
+
+export interface TicketEventView {
+  id: number;
+  kind: 'created' | 'assigned' | 'status' | 'updated' | 'comment' | 'closeout';
+  actor: PersonRef;
+  at: string;
+  fromStatus: TicketStatus | null;
+  toStatus: TicketStatus | null;
+  comment: string | null;
+  /** Field changes: { field: [before, after] }. */
+  changes: Record<string, [unknown, unknown]> | null;
+}
+
+export interface CloseoutView {
+  id: number;
+  findingId: number;
+  method: 'distance' | 'marker';
+  markerLabel: string | null;
+  offsetM: number | null;
+  fromEnd: 'A' | 'B' | null;
+  enteredDistanceM: number | null;
+  measuredFrom: 'A' | 'B';
+  foundDistanceM: number;
+  foundFromAM: number;
+  foundChainageM: number;
+  locatedDistanceM: number;
+  errorM: number;
+  errorFraction: number | null;
+  roundTripNs: number;
+  traceVf: number;
+  impliedVf: number | null;
+  cause: string;
+  workDone: string;
+  calibrationId: number | null;
+  recordedBy: PersonRef;
+  recordedAt: string;
+}
+
+export interface TicketRunView {
+  id: number;
+  name: string;
+  endALabel: string;
+  endBLabel: string;
+  installedLengthM: number;
+  cableType: PersonRef;
+  markers: Array<{ id: number; label: string; kind: string; chainageM: number; slackM: number; notes: string | null }>;
+}
+
+export interface TicketDetail extends Omit<TicketSummary, 'cableRun'> {
+  notes: string | null;
+  createdBy: PersonRef;
+  siteAddress: string | null;
+  accessNotes: string | null;
+  cableRun: TicketRunView;
+  findings: TicketFindingView[];
+  timeline: TicketEventView[];
+  closeouts: CloseoutView[];
+  mail: MailJobView[];
+  /** What the signed-in person may do now. */
+  can: { edit: boolean; moves: Array<{ to: TicketStatus; label: string }>; closeOut: boolean; comment: boolean };
+}
