@@ -1,6 +1,7 @@
 import type { AppContext } from '../../context';
 import { hashPassword } from '../../auth/passwords';
 import { User } from '../models';
+import { DEMO_CABLE_TYPE_NAMES, seedCableTypes } from './cables';
 import { DEMO_PASSWORD, DEMO_USERS } from './organisation';
 
 /**
@@ -15,7 +16,9 @@ export async function seedDemo(ctx: AppContext): Promise<boolean> {
     for (const u of DEMO_USERS) {
       users.set(u.email, await User.create({ ...u, passwordHash: hash }, { transaction }));
     }
+    // Before sites and cable runs, which refer to cable types by name.
+    await seedCableTypes(ctx, transaction);
   });
-  ctx.log(`Demo data seeded: ${DEMO_USERS.length} users (password "${DEMO_PASSWORD}").`);
+  ctx.log(`Demo data seeded: ${DEMO_USERS.length} users (password "${DEMO_PASSWORD}"), ${DEMO_CABLE_TYPE_NAMES.length} cable types.`);
   return true;
 }
