@@ -143,13 +143,13 @@ const FAMILIES: CableTypeInput[] = [
     construction: 'shielded-power',
     dielectric: 'cross-linked polyethylene (XLPE) with semiconducting screens',
     z0Ohm: 30,
-    vf: 0.56,
-    vfTolerance: 0.12,
+    vf: 0.58,
+    vfTolerance: 0.15,
     attenuationDbPer100m: null,
     attenuationFreqMhz: null,
     vfSource: 'handbook',
     vfReference:
-      'XLPE εr ≈ 2.3 gives 0.66 in theory; the semiconducting conductor and insulation screens slow the pulse, and measured values run 0.5–0.67 with about 0.56 typical (from memory of power-cable TDR practice).',
+      'XLPE εr ≈ 2.3 gives 0.66 in theory; the semiconducting conductor and insulation screens slow the pulse, and measured values run 0.5–0.67; 0.58 is the middle of that range (from memory of power-cable TDR practice).',
     notes: 'Generic family; Z0 of MV cable is roughly 20–50 Ω depending on conductor and insulation size. Calibrate on a known length before trusting distances.',
   },
   {
