@@ -27,8 +27,11 @@ export interface TestRelay {
   close: () => Promise<void>;
 }
 
-/** A local SMTP relay that refuses the first `refuseFirst` messages with a 451, then accepts. */
-export async function startFlakyRelay(refuseFirst: number): Promise<TestRelay> {
+/**
+ * A local SMTP relay that refuses the first `refuseFirst` messages (those
+ * whose subject matches `only`, when given) with a 451, then accepts.
+ */
+export async function startFlakyRelay(refuseFirst: number, only?: RegExp): Promise<TestRelay> {
   const relay: TestRelay = { url: '', refused: 0, received: [], close: async () => undefined };
   const server = new SMTPServer({
     authOptional: true,
@@ -36,7 +39,7 @@ export async function startFlakyRelay(refuseFirst: number): Promise<TestRelay> {
     logger: false,
     onData(stream, _session, callback) {
       simpleParser(stream).then((mail) => {
-        if (relay.refused < refuseFirst) {
+        if (relay.refused < refuseFirst && (!only || only.test(mail.subject ?? ''))) {
           relay.refused += 1;
           callback(Object.assign(new Error('Relay busy, try later'), { responseCode: 451 }));
           return;
