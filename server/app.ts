@@ -20,6 +20,7 @@ import { AppError, errorHandler } from './errors';
 import type { ApiRouter, RouteRecord } from './http/api-router';
 import { createCsrf } from './http/csrf';
 import { outboxRoutes } from './outbox/outbox.routes';
+import { dashboardRoutes } from './dashboard/dashboard.routes';
 import { subscribeFindingNotices } from './tickets/finding-notices';
 import { ticketRoutes } from './tickets/tickets.routes';
 import { cableRunRoutes } from './cable-runs/cable-runs.routes';
@@ -117,7 +118,7 @@ export async function createApp(config: AppConfig): Promise<RhologApp> {
     res.json({ status: 'ok' });
   });
 
-  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(), cableRoutes(), calibrationRoutes(), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx), ticketRoutes(ctx)];
+  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(), cableRoutes(), calibrationRoutes(), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx), ticketRoutes(ctx), dashboardRoutes()];
   subscribeFindingNotices(ctx);
   for (const r of routers) app.use(r.prefix, r.router);
   const routes = [{ method: 'get' as const, path: '/api/health', access: 'public' as const }, ...routers.flatMap((r) => r.routes)];

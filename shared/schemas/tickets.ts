@@ -193,3 +193,38 @@ export interface TicketDetail extends Omit<TicketSummary, 'cableRun'> {
   /** What the signed-in person may do now. */
   can: { edit: boolean; moves: Array<{ to: TicketStatus; label: string }>; closeOut: boolean; comment: boolean };
 }
+
+export interface UnticketedFinding extends TicketFindingView {
+  site: PersonRef;
+  cableRun: PersonRef;
+}
+
+export interface DashboardView {
+  generatedAt: string;
+  openCount: number;
+  /** Open tickets counted by how long they have been open and by priority. */
+  byAge: Array<{ label: string; counts: Record<TicketPriority, number> }>;
+  /** The longest-open tickets first. */
+  oldest: Array<{
+    id: number;
+    title: string;
+    status: TicketStatus;
+    priority: TicketPriority;
+    ageDays: number;
+    dueDate: string | null;
+    overdue: boolean;
+    site: PersonRef;
+    assignee: PersonRef | null;
+  }>;
+  unticketed: UnticketedFinding[];
+  /** Located-vs-found per cable type, from each ticket's latest close-out. */
+  accuracy: Array<{
+    cableType: PersonRef;
+    count: number;
+    meanErrorM: number;
+    meanAbsErrorM: number;
+    meanAbsErrorPercent: number | null;
+    meanImpliedVf: number | null;
+    libraryVf: number | null;
+  }>;
+}
