@@ -131,7 +131,7 @@ export interface Acquisition {
   impairments: Omit<Impairments, 'seed'> & { seed: number };
 }
 
-/** A reasonable instrument set-up for a route: record 1.3× the round trip, edge ~1/400 of it. */
+/** A reasonable instrument set-up for a route: record 1.35× the round trip, edge ~1/400 of it. */
 export function defaultAcquisition(sc: Scenario, mode: 'step' | 'pulse', seed: number, noiseFrac = 0.003, bits = 12): Acquisition {
   const rt = (2 * sc.lengthM) / (sc.cable.vf * C0);
   const dt = niceInterval(rt / 1500);

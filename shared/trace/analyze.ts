@@ -459,6 +459,8 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
   // Working signal u (see the header comment).
   const mode = L.mode;
   const u = new Float64Array(n);
+  /** Pulse mode: the baseline-free trace in units of the launch peak. */
+  const pulseRaw = new Float64Array(mode === 'pulse' ? n : 0);
   let unitArea = 1;
   if (mode === 'step') {
     if (L.found) for (let i = 0; i < n; i++) u[i] = (y[i] - L.baseline) / L.height - 1;
@@ -478,7 +480,9 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     const baseAt = (i: number) => (i < a0 ? L.baseline : m1 + slope * (i - c1));
     let acc = 0;
     for (let i = 0; i < n; i++) {
-      acc += (y[i] - baseAt(i)) / scale;
+      const v = (y[i] - baseAt(i)) / scale;
+      pulseRaw[i] = v;
+      acc += v;
       u[i] = acc;
     }
     if (L.found) {
@@ -557,7 +561,16 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     }
     // Noise of F: robust spread, but never below what white noise of this level would give.
     const theoretical = mode === 'step' ? (2.24 * sigmaU) / Math.sqrt(w) : 2.24 * scaleForPulse * Math.sqrt(w) * 0.6;
-    const sigmaF = Math.max(madSigma(F, 0, F.length), theoretical, 1e-12);
+    // Differences of F four windows apart: the slowly varying residue a lossy line's creep
+    // leaves in F cancels, while the noise (independent that far apart) stays.
+    const lag = 4 * w;
+    let sigmaF = theoretical;
+    if (F.length > lag + 8) {
+      const dF = new Float64Array(F.length - lag);
+      for (let k = 0; k < dF.length; k++) dF[k] = F[k] - F[k + lag];
+      sigmaF = Math.max(madSigma(dF, 0, dF.length) / Math.SQRT2, theoretical);
+    } else sigmaF = Math.max(madSigma(F, 0, F.length), theoretical);
+    sigmaF = Math.max(sigmaF, 1e-12);
     const thr = Math.max(kSigma * sigmaF, rhoMin);
     thresholds.push(thr);
     let runStart = -1;
@@ -596,10 +609,16 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     byScale.set(c.w, list);
   }
   const kept: Candidate[] = [];
+  const thrOf = new Map(scales.map((w, k) => [w, thresholds[k] ?? rhoMin]));
   for (const [w, list] of byScale) {
     for (const c of list) {
       const lobe = list.some((m) => m !== c && m.sign !== c.sign && Math.abs(m.f) > 1.6 * Math.abs(c.f) && Math.abs(m.i - c.i) <= 2 * w);
-      if (!lobe) kept.push(c);
+      // A side lobe sits beside a step of the other sign: the level across it moves against F.
+      const before = mean(Math.max(0, c.i - 2 * w), Math.max(1, c.i - w));
+      const after = mean(Math.min(n - 1, c.i + w), Math.min(n, c.i + 2 * w));
+      const net = after - before;
+      const against = Math.sign(net) === -c.sign && Math.abs(net) > (thrOf.get(w) ?? rhoMin);
+      if (!lobe && !against) kept.push(c);
     }
   }
   // Finer scales first; a coarser detection only adds an event where no finer one lies.
@@ -698,7 +717,7 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
       last &&
       Math.sign(last.height) !== Math.sign(m.height) &&
       m.onsetIdx - last.onsetIdx < Math.max(1.5 * Math.max(last.w, m.w), 2 * w0, 1.5 * last.riseSamples, 3 * (L.widthSamples ?? 0)) &&
-      Math.abs(last.height + m.height) < 0.5 * Math.abs(last.height)
+      Math.abs(last.height + m.height) < 0.75 * Math.abs(last.height)
     ) {
       last.blip = true;
       last.endIdx = m.endIdx;
@@ -719,10 +738,43 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
 
   const zeroOverride = options.zeroOffsetNs !== undefined ? (options.zeroOffsetNs * 1e-9 - t[0]) / dt : null;
   const blindZoneM = L.found ? Math.max(0, (blindIdx - launchOnset(0.1)) * mPerSample - leadM) : 0;
+  // Echo pre-pass, so an echo after the far end does not stop the end being typed as the end.
+  const rtOf = (m: Measured) => m.onsetIdx - (zeroOverride ?? launchOnset(m.fLo) - zeroShift);
+  const isEcho = merged.map((e, ei) => {
+    const tol = Math.max(3, 0.6 * e.riseSamples, 0.004 * rtOf(e));
+    for (let si = 0; si < ei; si++) {
+      const sm = merged[si];
+      if (Math.abs(e.height) > Math.abs(sm.height)) continue;
+      if (Math.abs(sm.height) >= 0.3 && (Math.abs(rtOf(e) - 2 * rtOf(sm)) < tol || Math.abs(rtOf(e) - 3 * rtOf(sm)) < tol)) return true;
+      for (let ai = 0; ai < si; ai++) {
+        const bounce = Math.abs(merged[ai].height * sm.height);
+        if (Math.abs(rtOf(e) - (2 * rtOf(sm) - rtOf(merged[ai]))) < tol && Math.abs(e.height) < 1.5 * bounce + 0.02) return true;
+      }
+    }
+    return false;
+  });
   let transmission = 1;
   for (const [mi, m] of merged.entries()) {
-    const zeroIdx = zeroOverride ?? launchOnset(m.fLo) - zeroShift;
-    const rtSamples = m.onsetIdx - zeroIdx;
+    let onsetIdx = m.onsetIdx;
+    let zeroIdx = zeroOverride ?? launchOnset(m.fLo) - zeroShift;
+    if (mode === 'pulse' && m.blip && L.found) {
+      // A short section in a pulse trace echoes as a doublet, whose integral is a pulse
+      // rather than a step; time its first lobe against the launch pulse itself instead.
+      const ps = boxcar(pulseRaw, smoothW);
+      const from = Math.max(0, Math.floor(m.onsetIdx - m.w));
+      const to = Math.min(n, Math.ceil(m.onsetIdx + 3 * Math.max(m.w, L.riseSamples)));
+      let iPk = from;
+      for (let i = from; i < to; i++) if (Math.sign(m.height) * ps[i] > Math.sign(m.height) * ps[iPk]) iPk = i;
+      const pk = ps[iPk];
+      if (Math.sign(pk) === Math.sign(m.height) && Math.abs(pk) > 0) {
+        const zero = () => 0;
+        onsetIdx = measureOnset(ps, iPk, zero, pk, m.fLo, from, iPk).onset;
+        let lPk = L.idx;
+        for (let i = L.idx; i < Math.min(n, L.settleIdx); i++) if (ps[i] > ps[lPk]) lPk = i;
+        if (zeroOverride === null) zeroIdx = measureOnset(ps, lPk, zero, ps[lPk], m.fLo, Math.max(0, L.idx - 4 * L.riseSamples), lPk).onset;
+      }
+    }
+    const rtSamples = onsetIdx - zeroIdx;
     const roundTripS = rtSamples * dt;
     const distanceM = distanceFromRoundTrip(roundTripS, vf) - leadM;
     if (distanceM <= 0) continue;
@@ -735,11 +787,11 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     // short reflects (nearly) everything; a lossy far end that is still settling when the
     // record or the next event cuts it short counts as one from half that.
     const rhoLocal = rho / Math.max(0.05, transmission);
-    const isLast = merged.slice(mi + 1).every((later) => Math.abs(later.height) < 0.3 * Math.abs(rho));
-    const settling = m.stillMoving > 0.03;
+    const isLast = merged.every((later, li) => li <= mi || isEcho[li] || Math.abs(later.height) < 0.3 * Math.abs(rho));
+    const settling = m.stillMoving > 0.05;
     let type: ReflectionType;
-    if (!m.blip && (rhoLocal >= 0.75 || (isLast && rhoLocal >= 0.5) || (isLast && settling && rhoLocal >= 0.3))) type = 'open';
-    else if (!m.blip && (rhoLocal <= -0.75 || (isLast && settling && rhoLocal <= -0.3))) type = 'short';
+    if (!m.blip && (rhoLocal >= 0.75 || (isLast && rhoLocal >= 0.35) || (isLast && settling && rhoLocal >= 0.3))) type = 'open';
+    else if (!m.blip && (rhoLocal <= -0.75 || (isLast && rhoLocal <= -0.45) || (isLast && settling && rhoLocal <= -0.3))) type = 'short';
     else type = rho > 0 ? 'impedance-rise' : 'impedance-drop';
     if (!m.blip) transmission *= (1 - Math.min(0.95, Math.abs(rhoLocal))) ** 2;
     // An impedance is only meaningful for a step trace, a known Z0, and an event that is
@@ -776,8 +828,9 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
   for (const e of events) {
     const tol = Math.max(3 * dt * 1e9, 0.6 * e.riseTimeNs, 0.004 * e.roundTripNs);
     for (const s of events) {
-      if (s.index >= e.index || Math.abs(s.reflectionCoefficient) < 0.3 || Math.abs(e.reflectionCoefficient) > Math.abs(s.reflectionCoefficient)) continue;
-      if (Math.abs(e.roundTripNs - 2 * s.roundTripNs) < tol || Math.abs(e.roundTripNs - 3 * s.roundTripNs) < tol) {
+      if (s.index >= e.index || Math.abs(s.reflectionCoefficient) < 0.1 || Math.abs(e.reflectionCoefficient) > Math.abs(s.reflectionCoefficient)) continue;
+      const strong = Math.abs(s.reflectionCoefficient) >= 0.3;
+      if (strong && (Math.abs(e.roundTripNs - 2 * s.roundTripNs) < tol || Math.abs(e.roundTripNs - 3 * s.roundTripNs) < tol)) {
         e.likelyMultipleOf = s.index;
         break;
       }
