@@ -1,8 +1,8 @@
 import { Op, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { describeRoutePosition, distanceFromA, metresText, routePosition } from '../../shared/field/route-position';
-import { twoEndedLocation, type TwoEndedResult } from '../../shared/field/two-ended';
-import type { FindingInputSchema, FindingListQuerySchema, FindingView } from '../../shared/schemas/findings';
+import { twoEndedLocation } from '../../shared/field/two-ended';
+import type { FindingInputSchema, FindingListQuerySchema, FindingView, TwoEndedView } from '../../shared/schemas/findings';
 import type { Page } from '../../shared/schemas/users';
 import type { AppContext } from '../context';
 import { CableRun, Finding, RouteMarker, Site, Trace, User } from '../db/models';
@@ -150,12 +150,6 @@ export async function listFindings(q: z.output<typeof FindingListQuerySchema>): 
   return { items: await views(rows), total: count, page: q.page, pageSize: q.pageSize };
 }
 
-export interface TwoEndedView extends TwoEndedResult {
-  installedLengthM: number;
-  traceA: { id: number; eventIndex: number; roundTripNs: number; distanceM: number };
-  traceB: { id: number; eventIndex: number; roundTripNs: number; distanceM: number };
-  routePositionText: string;
-}
 
 /** Two-ended location from one event seen from end A and one from end B of the same run. */
 export async function twoEnded(q: { traceA: number; eventA: number; traceB: number; eventB: number }): Promise<TwoEndedView> {

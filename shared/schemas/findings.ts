@@ -54,7 +54,7 @@ export const FindingListQuerySchema = z.object({
   page: z.coerce.number().int().min(1).default(1),
   pageSize: z.coerce.number().int().min(1).max(100).default(25),
 });
-export type FindingListQuery = z.input<typeof FindingListQuerySchema>;
+export type FindingListQuery = Partial<z.output<typeof FindingListQuerySchema>>;
 
 export const TwoEndedQuerySchema = z.object({
   traceA: z.coerce.number().int().positive(),
@@ -91,4 +91,16 @@ export interface FindingView {
   vf: number;
   vfTolerance: number;
   engineVersion: string;
+}
+
+export interface TwoEndedView {
+  distanceFromAM: number;
+  distanceFromBM: number;
+  impliedVf: number;
+  disagreementAM: number | null;
+  disagreementBM: number | null;
+  installedLengthM: number;
+  traceA: { id: number; eventIndex: number; roundTripNs: number; distanceM: number };
+  traceB: { id: number; eventIndex: number; roundTripNs: number; distanceM: number };
+  routePositionText: string;
 }

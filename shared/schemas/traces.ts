@@ -67,7 +67,7 @@ export const TraceListQuerySchema = z.object({
   page: z.coerce.number().int().min(1).default(1),
   pageSize: z.coerce.number().int().min(1).max(100).default(25),
 });
-export type TraceListQuery = z.input<typeof TraceListQuerySchema>;
+export type TraceListQuery = Partial<z.output<typeof TraceListQuerySchema>>;
 
 export const TraceViewQuerySchema = z.object({
   points: z.coerce.number().int().min(100).max(20000).default(2000),

@@ -13,6 +13,10 @@ export interface NavItem {
 /** The navigation, in the order people use it; each feature adds its entries here. */
 export const NAV: NavItem[] = [
   { label: 'Today', short: 'Today', to: paths.home.to() },
+  { label: 'Upload trace', short: 'Upload', to: paths.upload.to(), permission: 'traces:upload' },
+  { label: 'Traces', to: paths.traces.to(), permission: 'traces:read' },
+  { label: 'Findings', to: paths.findings.to(), permission: 'findings:read' },
+  { label: 'Sites', to: paths.sites.to(), permission: 'sites:read' },
   { label: 'Users', to: paths.adminUsers.to(), permission: 'users:manage' },
   { label: 'Outbox', to: paths.outbox.to(), permission: 'outbox:read' },
 ];

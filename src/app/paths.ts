@@ -13,4 +13,12 @@ export const paths = {
   ticket: { pattern: '/tickets/:ticketId', to: (ticketId: number) => `/tickets/${ticketId}` },
   ticketSheet: { pattern: '/tickets/:ticketId/sheet', to: (ticketId: number) => `/tickets/${ticketId}/sheet` },
   dashboard: { pattern: '/dashboard', to: () => '/dashboard' },
+  upload: { pattern: '/upload', to: () => '/upload' },
+  traces: { pattern: '/traces', to: () => '/traces' },
+  trace: { pattern: '/traces/:traceId', to: (traceId: number) => `/traces/${traceId}` },
+  findings: { pattern: '/findings', to: () => '/findings' },
+  finding: { pattern: '/findings/:findingId', to: (findingId: number) => `/findings/${findingId}` },
+  sites: { pattern: '/sites', to: () => '/sites' },
+  site: { pattern: '/sites/:siteId', to: (siteId: number) => `/sites/${siteId}` },
+  siteRun: { pattern: '/sites/:siteId/runs/:runId', to: (siteId: number, runId: number) => `/sites/${siteId}/runs/${runId}` },
 } as const;

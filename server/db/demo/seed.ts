@@ -2,6 +2,7 @@ import type { AppContext } from '../../context';
 import { hashPassword } from '../../auth/passwords';
 import { User } from '../models';
 import { DEMO_CABLE_TYPE_NAMES, seedCableTypes } from './cables';
+import { seedField, seedFieldTraces } from './field';
 import { DEMO_PASSWORD, DEMO_USERS } from './organisation';
 
 /**
@@ -12,13 +13,17 @@ export async function seedDemo(ctx: AppContext): Promise<boolean> {
   if ((await User.count()) > 0) return false;
   const hash = await hashPassword(DEMO_PASSWORD);
   const users = new Map<string, User>();
+  let fieldRuns: Awaited<ReturnType<typeof seedField>> = [];
   await ctx.sequelize.transaction(async (transaction) => {
     for (const u of DEMO_USERS) {
       users.set(u.email, await User.create({ ...u, passwordHash: hash }, { transaction }));
     }
     // Before sites and cable runs, which refer to cable types by name.
     await seedCableTypes(ctx, transaction);
+    fieldRuns = await seedField(users, transaction);
   });
-  ctx.log(`Demo data seeded: ${DEMO_USERS.length} users (password "${DEMO_PASSWORD}"), ${DEMO_CABLE_TYPE_NAMES.length} cable types.`);
+  // Traces go through the upload service, which keeps its own transaction per upload.
+  const field = await seedFieldTraces(ctx, users, fieldRuns);
+  ctx.log(`Demo data seeded: ${DEMO_USERS.length} users (password "${DEMO_PASSWORD}"), ${DEMO_CABLE_TYPE_NAMES.length} cable types, ${fieldRuns.length} cable runs, ${field.traces} traces.`);
   return true;
 }

@@ -1,0 +1,194 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import type { Transaction } from 'sequelize';
+import type { MarkerKind } from '../../../shared/schemas/sites';
+import type { AppContext } from '../../context';
+import { recordFinding } from '../../findings/findings.service';
+import { storeTraces } from '../../traces/traces.service';
+import { CableRun, CableType, RouteMarker, Site, SiteSupervisor, Trace, type User } from '../models';
+
+/**
+ * The field part of the invented Harrowmere Valley scenario: three sites,
+ * runs of several cable kinds with their route markers, and — when the demo
+ * trace files have been generated into server/db/demo/traces/ — traces of
+ * those runs, analysed through the same service an upload uses, with a
+ * confirmed finding on each trace that shows a fault.
+ */
+export const DEMO_TRACE_DIR = path.resolve(import.meta.dirname, 'traces');
+
+interface DemoRun {
+  name: string;
+  cable: string;
+  endA: string;
+  endB: string;
+  lengthM: number;
+  markers: Array<[label: string, kind: MarkerKind, chainageM: number, slackM: number]>;
+}
+
+const SITES: Array<{ name: string; address: string; lat: number; lon: number; access: string; supervisors: string[]; runs: DemoRun[] }> = [
+  {
+    name: 'Harrowmere North substation',
+    address: '1 Quarry Road, Harrowmere',
+    lat: 52.4172,
+    lon: -1.9301,
+    access: 'Key safe at the east gate (code from the control room). Hard hats past the yellow line. Park outside the fence.',
+    supervisors: ['supervisor@example.com'],
+    runs: [
+      {
+        name: 'Feeder HN-3 to Ashby Lane',
+        cable: 'Shielded XLPE MV cable',
+        endA: 'Substation bay 3',
+        endB: 'Ashby Lane ring main unit',
+        lengthM: 820,
+        markers: [
+          ['MH-1', 'manhole', 120, 4],
+          ['MH-2', 'manhole', 310, 6],
+          ['RC-1', 'road-crossing', 455, 0],
+          ['SP-1', 'splice', 600, 3],
+          ['P-7', 'pedestal', 760, 0],
+        ],
+      },
+      {
+        name: 'Control pair HN-C2',
+        cable: 'PE-insulated telephone pair',
+        endA: 'Relay room frame',
+        endB: 'Transformer 2 marshalling box',
+        lengthM: 240,
+        markers: [
+          ['HH-1', 'handhole', 90, 2],
+          ['HH-2', 'handhole', 180, 2],
+        ],
+      },
+    ],
+  },
+  {
+    name: 'Brookfold pumping station',
+    address: 'Mill Lane, Brookfold',
+    lat: 52.3905,
+    lon: -1.9712,
+    access: 'Gate padlock 4471. The wet well is a confined space: do not open the hatch without a permit.',
+    supervisors: ['supervisor@example.com'],
+    runs: [
+      {
+        name: 'Telemetry pair BF-T1',
+        cable: 'Jelly-filled telephone pair',
+        endA: 'Pump house cabinet',
+        endB: 'Reservoir outstation',
+        lengthM: 1450,
+        markers: [
+          ['Pole 3', 'pole', 210, 5],
+          ['Pole 9', 'pole', 640, 5],
+          ['SP-4', 'splice', 980, 8],
+          ['Pole 15', 'pole', 1200, 0],
+        ],
+      },
+      {
+        name: 'Camera coax BF-V2',
+        cable: 'Solid PE coax, 75 Ω',
+        endA: 'Control kiosk',
+        endB: 'Inlet screen camera mast',
+        lengthM: 95,
+        markers: [['HH-A', 'handhole', 48, 1.5]],
+      },
+    ],
+  },
+  {
+    name: 'Oakhollow cabinet row',
+    address: 'Oakhollow Road, by the school crossing',
+    lat: 52.4031,
+    lon: -1.9458,
+    access: 'Cabinets are on the footway: cones and a lookout during school hours.',
+    supervisors: [],
+    runs: [
+      {
+        name: 'Data link OH-D1',
+        cable: 'Data-grade twisted pair, 100 Ω',
+        endA: 'Cabinet OH-4',
+        endB: 'Cabinet OH-7',
+        lengthM: 88,
+        markers: [['Duct pit', 'handhole', 40, 1]],
+      },
+    ],
+  },
+];
+
+interface ManifestEntry {
+  file: string;
+  run?: string;
+  end?: 'A' | 'B';
+}
+
+/** The trace files to load: those the manifest names (with their run, if it says), else every CSV. */
+function demoTraceFiles(dir = DEMO_TRACE_DIR): ManifestEntry[] {
+  if (!fs.existsSync(dir)) return [];
+  const manifestPath = path.join(dir, 'manifest.json');
+  if (fs.existsSync(manifestPath)) {
+    try {
+      const raw = JSON.parse(fs.readFileSync(manifestPath, 'utf8')) as unknown;
+      const list = (Array.isArray(raw) ? raw : ((raw as { traces?: unknown[]; files?: unknown[] }).traces ?? (raw as { files?: unknown[] }).files ?? [])) as Array<
+        Record<string, unknown>
+      >;
+      const entries = list
+        .map((e) => ({
+          file: String(e.file ?? e.name ?? e.path ?? ''),
+          run: typeof (e.cableRun ?? e.run) === 'string' ? String(e.cableRun ?? e.run) : undefined,
+          end: e.end === 'A' || e.end === 'B' ? (e.end as 'A' | 'B') : undefined,
+        }))
+        .filter((e) => e.file.endsWith('.csv') && fs.existsSync(path.join(dir, path.basename(e.file))));
+      if (entries.length) return entries.map((e) => ({ ...e, file: path.basename(e.file) }));
+    } catch {
+      // An unreadable manifest falls back to the plain file list.
+    }
+  }
+  return fs
+    .readdirSync(dir)
+    .filter((f) => f.endsWith('.csv'))
+    .sort()
+    .map((file) => ({ file }));
+}
+
+export async function seedField(users: Map<string, User>, transaction: Transaction) {
+  const runs: CableRun[] = [];
+  for (const s of SITES) {
+    const site = await Site.create({ name: s.name, address: s.address, latitude: s.lat, longitude: s.lon, accessNotes: s.access }, { transaction });
+    for (const email of s.supervisors) {
+      const u = users.get(email);
+      if (u) await SiteSupervisor.create({ siteId: site.id, userId: u.id }, { transaction });
+    }
+    for (const r of s.runs) {
+      const cable = await CableType.findOne({ where: { name: r.cable }, transaction });
+      if (!cable) continue;
+      const run = await CableRun.create(
+        { siteId: site.id, name: r.name, cableTypeId: cable.id, endALabel: r.endA, endBLabel: r.endB, installedLengthM: r.lengthM, notes: null },
+        { transaction },
+      );
+      for (const [label, kind, chainageM, slackM] of r.markers) {
+        await RouteMarker.create({ cableRunId: run.id, label, kind, chainageM, slackM, notes: null }, { transaction });
+      }
+      runs.push(run);
+    }
+  }
+  return runs;
+}
+
+/** After the sites are committed: load the demo traces through the upload service and confirm a finding on each. */
+export async function seedFieldTraces(ctx: AppContext, users: Map<string, User>, runs: CableRun[], dir = DEMO_TRACE_DIR) {
+  const tech = users.get('tech@example.com');
+  if (!tech || !runs.length) return { traces: 0, findings: 0 };
+  let traces = 0;
+  let findings = 0;
+  const files = demoTraceFiles(dir);
+  for (const [i, entry] of files.entries()) {
+    const run = (entry.run && runs.find((r) => r.name === entry.run || r.name.includes(entry.run!))) || runs[i % runs.length];
+    const bytes = fs.readFileSync(path.join(dir, entry.file));
+    const [id] = await storeTraces(ctx, { cableRunId: run.id, end: entry.end ?? 'A', mode: 'auto', vfOverrideReason: undefined }, [{ originalName: entry.file, bytes }], tech.id);
+    traces++;
+    const trace = await Trace.findByPk(id);
+    const event = trace?.analysis?.events.find((e) => e.likelyMultipleOf === null && !e.isCableEnd);
+    if (trace && event) {
+      await recordFinding(ctx, { traceId: id, eventIndex: event.index, status: 'confirmed', kind: 'open-conductor', note: 'Demo: confirmed on first reading.' }, tech.id);
+      findings++;
+    }
+  }
+  return { traces, findings };
+}

@@ -1,0 +1,105 @@
+import { Link, useParams } from 'react-router-dom';
+import { describeRoutePosition } from '../../../shared/field/route-position';
+import { FINDING_KIND_LABELS } from '../../../shared/schemas/findings';
+import { Card, PageHeader } from '../../components/ui/card';
+import { Badge, ErrorNotice, Loading } from '../../components/ui/notice';
+import { SafetyCaution } from '../../components/ui/safety-caution';
+import { useSession } from '../../features/auth/use-session';
+import { useFinding } from '../../features/findings/api/get-finding';
+import { useFindingTwoEnded } from '../../features/findings/api/get-two-ended';
+import { DistanceBlock } from '../../features/findings/components/where-to-dig';
+import { formatDateTime, formatLength } from '../../lib/format';
+import { paths } from '../paths';
+
+export function FindingPage() {
+  const id = Number(useParams().findingId);
+  const { unit } = useSession();
+  const finding = useFinding(id);
+  const twoEnded = useFindingTwoEnded(id);
+  if (finding.isPending) return <Loading what="Loading the finding" />;
+  if (finding.error || !finding.data) return <ErrorNotice error={finding.error} />;
+  const f = finding.data;
+  const text = f.routePosition ? describeRoutePosition(f.routePosition, (m) => formatLength(m, unit, 1)) : f.routePositionText;
+  const te = twoEnded.data?.twoEnded;
+  return (
+    <>
+      <PageHeader
+        title={`Finding ${f.id}: ${FINDING_KIND_LABELS[f.kind as keyof typeof FINDING_KIND_LABELS] ?? f.kind}`}
+        subtitle={
+          <>
+            <Link className="text-teal underline" to={paths.site.to(f.siteId)}>
+              {f.siteName}
+            </Link>{' '}
+            · {f.cableRunName} · {f.status === 'confirmed' ? 'confirmed' : 'dismissed'} by {f.confirmedBy.name}, {formatDateTime(f.confirmedAt)}
+          </>
+        }
+        actions={<Badge tone={f.status === 'confirmed' ? 'danger' : 'plain'}>{f.status === 'confirmed' ? 'Confirmed fault' : 'Dismissed'}</Badge>}
+      />
+      <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
+        <div className="space-y-4">
+          <Card title="Where to dig">
+            <DistanceBlock distanceM={f.distanceM} windowStartM={f.windowStartM} windowEndM={f.windowEndM} end={f.end} endLabel={f.endLabel} unit={unit} routeText={text} />
+            {f.note && <p className="mt-3 whitespace-pre-wrap">{f.note}</p>}
+          </Card>
+          {te && (
+            <Card title="Measured from both ends">
+              <p className="text-sm text-ink-soft">
+                From the two round-trip times ({te.traceA.roundTripNs.toFixed(1)} ns from A, {te.traceB.roundTripNs.toFixed(1)} ns from B) and the installed length{' '}
+                {formatLength(te.installedLengthM, unit, 1)}, independent of the velocity factor:
+              </p>
+              <p className="mt-2 text-3xl font-bold tabular" data-testid="two-ended-distance">
+                {formatLength(te.distanceFromAM, unit, 1)} from end A
+              </p>
+              <p className="text-sm">{te.routePositionText}</p>
+              <dl className="mt-2 grid grid-cols-2 gap-x-3 text-sm tabular">
+                <dt className="text-mist">Single-ended from A</dt>
+                <dd>
+                  {formatLength(te.traceA.distanceM, unit, 1)} ({te.disagreementAM! >= 0 ? '+' : ''}
+                  {formatLength(te.disagreementAM, unit, 1)})
+                </dd>
+                <dt className="text-mist">Single-ended from B</dt>
+                <dd>
+                  {formatLength(te.installedLengthM - te.traceB.distanceM, unit, 1)} from A ({te.disagreementBM! >= 0 ? '+' : ''}
+                  {formatLength(te.disagreementBM, unit, 1)})
+                </dd>
+                <dt className="text-mist">Velocity factor implied</dt>
+                <dd>{te.impliedVf.toFixed(3)} (library {f.vf})</dd>
+              </dl>
+            </Card>
+          )}
+          <Card title="Evidence">
+            <dl className="grid grid-cols-2 gap-x-3 gap-y-1 text-sm tabular">
+              <dt className="text-mist">Trace</dt>
+              <dd>
+                <Link className="text-teal underline" to={paths.trace.to(f.traceId)}>
+                  {f.traceName}
+                </Link>{' '}
+                (event {f.eventIndex + 1}, {f.eventType})
+              </dd>
+              <dt className="text-mist">Round-trip time</dt>
+              <dd>{f.roundTripNs.toFixed(1)} ns</dd>
+              <dt className="text-mist">Velocity factor</dt>
+              <dd>
+                {f.vf} ± {(f.vfTolerance * 100).toFixed(1)} %
+              </dd>
+              <dt className="text-mist">Uncertainty</dt>
+              <dd>± {formatLength(f.uncertaintyM, unit, 1)}</dd>
+              <dt className="text-mist">From end A</dt>
+              <dd>{formatLength(f.distanceFromAM, unit, 1)} of cable</dd>
+              {f.routePosition && (
+                <>
+                  <dt className="text-mist">Slack taken off</dt>
+                  <dd>{formatLength(f.routePosition.slackDeductedM, unit, 1)}</dd>
+                </>
+              )}
+              <dt className="text-mist">Engine</dt>
+              <dd>{f.engineVersion}</dd>
+            </dl>
+          </Card>
+        </div>
+        <SafetyCaution />
+      </div>
+    </>
+  );
+}
+export default FindingPage;

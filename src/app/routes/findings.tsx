@@ -1,0 +1,82 @@
+import { useState } from 'react';
+import { Link } from 'react-router-dom';
+import { FINDING_KIND_LABELS, type FindingListQuery } from '../../../shared/schemas/findings';
+import { Button } from '../../components/ui/button';
+import { Card, PageHeader } from '../../components/ui/card';
+import { SelectField } from '../../components/ui/field';
+import { Badge, ErrorNotice, Loading } from '../../components/ui/notice';
+import { Pager } from '../../components/ui/pager';
+import { useSession } from '../../features/auth/use-session';
+import { useFindings } from '../../features/findings/api/list-findings';
+import { useSites } from '../../features/sites/api/list-sites';
+import { formatDateTime, formatLength } from '../../lib/format';
+import { paths } from '../paths';
+
+type Sort = NonNullable<FindingListQuery['sort']>;
+
+export function FindingsPage() {
+  const { unit } = useSession();
+  const [q, setQ] = useState<FindingListQuery>({ page: 1, status: 'confirmed', sort: 'confirmedAt', dir: 'desc' });
+  const sites = useSites({ pageSize: 100 });
+  const findings = useFindings(q);
+  const set = (patch: Partial<FindingListQuery>) => setQ({ ...q, page: 1, ...patch });
+  const sortBy = (sort: Sort) => setQ({ ...q, sort, dir: q.sort === sort && q.dir === 'desc' ? 'asc' : 'desc' });
+  const arrow = (s: Sort) => (q.sort === s ? (q.dir === 'asc' ? ' ▲' : ' ▼') : '');
+  return (
+    <>
+      <PageHeader title="Findings" subtitle="Events confirmed as faults (or dismissed), with where to dig." />
+      <Card>
+        <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
+          <SelectField label="Site" value={q.siteId ?? ''} onChange={(e) => set({ siteId: e.target.value ? Number(e.target.value) : undefined })}>
+            <option value="">All sites</option>
+            {sites.data?.items.map((s) => (
+              <option key={s.id} value={s.id}>
+                {s.name}
+              </option>
+            ))}
+          </SelectField>
+          <SelectField label="Status" value={q.status ?? ''} onChange={(e) => set({ status: (e.target.value || undefined) as FindingListQuery['status'] })}>
+            <option value="confirmed">Confirmed faults</option>
+            <option value="dismissed">Dismissed</option>
+            <option value="">Both</option>
+          </SelectField>
+        </div>
+        <div className="mt-3 flex flex-wrap gap-2 text-sm">
+          Sort:
+          <Button variant="ghost" onClick={() => sortBy('confirmedAt')}>Date{arrow('confirmedAt')}</Button>
+          <Button variant="ghost" onClick={() => sortBy('distanceM')}>Distance{arrow('distanceM')}</Button>
+          <Button variant="ghost" onClick={() => sortBy('status')}>Status{arrow('status')}</Button>
+        </div>
+        {findings.isPending ? (
+          <Loading />
+        ) : findings.error ? (
+          <ErrorNotice error={findings.error} />
+        ) : (
+          <>
+            <ul className="mt-2 divide-y divide-rule">
+              {findings.data.items.map((f) => (
+                <li key={f.id} className="py-3">
+                  <Link to={paths.finding.to(f.id)} className="block min-h-11 rounded-md hover:bg-paper">
+                    <span className="flex flex-wrap items-baseline justify-between gap-2">
+                      <span className="font-semibold">
+                        {f.siteName} · {f.cableRunName}
+                      </span>
+                      <span className="text-2xl font-bold tabular">{formatLength(f.distanceM, unit, 1)}</span>
+                    </span>
+                    <span className="block text-sm text-ink-soft">
+                      <Badge tone={f.status === 'confirmed' ? 'danger' : 'plain'}>{FINDING_KIND_LABELS[f.kind as keyof typeof FINDING_KIND_LABELS] ?? f.kind}</Badge> from end{' '}
+                      {f.end} · {f.confirmedBy.name}, {formatDateTime(f.confirmedAt)}
+                    </span>
+                    <span className="block text-sm">{f.routePositionText}</span>
+                  </Link>
+                </li>
+              ))}
+            </ul>
+            <Pager page={findings.data.page} pageSize={findings.data.pageSize} total={findings.data.total} onPage={(page) => setQ({ ...q, page })} />
+          </>
+        )}
+      </Card>
+    </>
+  );
+}
+export default FindingsPage;

@@ -1,0 +1,269 @@
+import { useMemo, useState } from 'react';
+import { Link, useParams } from 'react-router-dom';
+import type { ReflectionEvent } from '../../../shared/schemas/trace-analysis';
+import { Button } from '../../components/ui/button';
+import { Card, PageHeader } from '../../components/ui/card';
+import { Badge, ErrorNotice, Loading, Notice } from '../../components/ui/notice';
+import { SafetyCaution } from '../../components/ui/safety-caution';
+import { useSession } from '../../features/auth/use-session';
+import { DecideEvent } from '../../features/findings/components/decide-event';
+import { DistanceBlock, whereToDig } from '../../features/findings/components/where-to-dig';
+import { useTrace } from '../../features/traces/api/get-trace';
+import { useSetReference } from '../../features/traces/api/set-reference';
+import { TraceChart, type XAxis } from '../../features/traces/components/trace-chart';
+import { formatDateTime, formatLength } from '../../lib/format';
+import { paths } from '../paths';
+
+const TYPE_WORDS: Record<ReflectionEvent['type'], string> = {
+  open: 'Open',
+  short: 'Short',
+  'impedance-rise': 'Impedance rise',
+  'impedance-drop': 'Impedance drop',
+};
+
+/** The event a technician most likely came for: the first strong one that is not an echo, else the first. */
+function likelyFault(events: ReflectionEvent[]): ReflectionEvent | undefined {
+  const primary = events.filter((e) => e.likelyMultipleOf === null);
+  return primary.find((e) => !e.isCableEnd) ?? primary[0] ?? events[0];
+}
+
+export function TracePage() {
+  const id = Number(useParams().traceId);
+  const { unit, can } = useSession();
+  const trace = useTrace(id);
+  const setRef = useSetReference();
+  const [picked, setPicked] = useState<number | null>(null);
+  const [axis, setAxis] = useState<XAxis>('distance');
+  const [cursors, setCursors] = useState<[number, number] | null>(null);
+  const [activeCursor, setActiveCursor] = useState<0 | 1>(0);
+  const [showReference, setShowReference] = useState(true);
+  const [showDifference, setShowDifference] = useState(false);
+
+  const t = trace.data;
+  const events = useMemo(() => t?.analysis?.events ?? [], [t]);
+  const selected = events.find((e) => e.index === (picked ?? likelyFault(events)?.index ?? -1));
+  const rangeM = t?.analysis?.rangeM ?? 0;
+  const cur: [number, number] = cursors ?? [0, selected?.distanceM ?? rangeM / 2];
+
+  if (trace.isPending) return <Loading what="Loading the trace" />;
+  if (trace.error || !t) return <ErrorNotice error={trace.error} />;
+
+  const run = { ...t.cableRun, markers: t.cableRun.markers };
+  const moveCursor = (i: 0 | 1, dM: number) => {
+    const next: [number, number] = [...cur];
+    next[i] = Math.max(0, Math.min(rangeM, dM));
+    setCursors(next);
+  };
+  const decided = new Map(t.findings.map((f) => [f.eventIndex, f]));
+  const newSet = new Set(t.comparison?.newEventIndexes ?? []);
+
+  return (
+    <>
+      <PageHeader
+        title={t.originalName}
+        subtitle={
+          <>
+            <Link className="text-teal underline" to={paths.site.to(t.siteId)}>
+              {t.siteName}
+            </Link>{' '}
+            · {t.cableRunName} · from end {t.end} ({t.endLabel}) · {t.uploadedBy.name}, {formatDateTime(t.createdAt)}
+          </>
+        }
+        actions={
+          <>
+            {t.isReference && <Badge tone="info">Reference for end {t.end}</Badge>}
+            {can('traces:reference') && t.status === 'ok' && (
+              <Button variant="secondary" disabled={setRef.isPending} onClick={() => setRef.mutate({ id: t.id, isReference: !t.isReference })}>
+                {t.isReference ? 'Stop using as reference' : 'Use as reference'}
+              </Button>
+            )}
+            <a className="inline-flex min-h-11 items-center rounded-md border border-rule bg-card px-4 text-sm font-semibold" href={`/api/traces/${t.id}/raw`}>
+              Original file
+            </a>
+          </>
+        }
+      />
+      {t.status === 'failed' && (
+        <Notice tone="danger" title="This file could not be read" className="mb-4">
+          <p>{t.error?.message}</p>
+          <p className="mt-1 text-xs">
+            The original is kept unchanged (SHA-256 <code className="break-all">{t.sha256}</code>). Export it again from the instrument as CSV, or set the sample
+            interval if the file has a single amplitude column, and upload it again.
+          </p>
+        </Notice>
+      )}
+      {t.libraryChangedSince && (
+        <Notice tone="warn" title="The cable library has changed since this analysis" className="mb-4">
+          This trace was analysed with VF {t.vf} ± {(t.vfTolerance * 100).toFixed(1)} %. Upload the original file again to analyse it with the current value.
+        </Notice>
+      )}
+      {t.status === 'ok' && t.analysis && (
+        <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
+          <div className="space-y-4">
+            {selected ? (
+              <Card title={`Event ${selected.index + 1}: ${TYPE_WORDS[selected.type]}${selected.isCableEnd ? ' (cable end)' : ''}`}>
+                <DistanceBlock
+                  distanceM={selected.distanceM}
+                  windowStartM={selected.windowStartM}
+                  windowEndM={selected.windowEndM}
+                  end={t.end}
+                  endLabel={t.endLabel}
+                  unit={unit}
+                  routeText={whereToDig(run, t.end, selected, unit).text}
+                />
+                <p className="mt-2 text-sm text-ink-soft tabular">
+                  ρ = {selected.reflectionCoefficient.toFixed(3)}
+                  {selected.impedanceOhm !== null && Number.isFinite(selected.impedanceOhm) && selected.impedanceOhm < 1e5 ? ` · Z ≈ ${selected.impedanceOhm.toFixed(0)} Ω` : ''} · round-trip{' '}
+                  {selected.roundTripNs.toFixed(1)} ns
+                  {selected.likelyMultipleOf !== null ? ` · probably an echo of event ${selected.likelyMultipleOf + 1}` : ''}
+                  {newSet.has(selected.index) ? ' · new since the reference' : ''}
+                </p>
+              </Card>
+            ) : (
+              <Notice tone="info" title="No reflection above the noise">
+                The engine found no event on this trace. A matched cable with no fault looks like this; so does a trace too short to reach the fault.
+              </Notice>
+            )}
+            <Card
+              title="Trace"
+              actions={
+                <div className="flex gap-1" role="group" aria-label="Horizontal axis">
+                  {(['distance', 'time'] as const).map((a) => (
+                    <Button key={a} variant={axis === a ? 'primary' : 'secondary'} aria-pressed={axis === a} onClick={() => setAxis(a)}>
+                      {a === 'distance' ? 'Distance' : 'Time'}
+                    </Button>
+                  ))}
+                </div>
+              }
+            >
+              <TraceChart
+                trace={t}
+                unit={unit}
+                axis={axis}
+                selectedEvent={selected?.index ?? null}
+                cursors={cur}
+                showReference={showReference}
+                showDifference={showDifference}
+                onPick={(d) => moveCursor(activeCursor, d)}
+              />
+              <div className="mt-4 space-y-3" aria-label="Cursors">
+                <p className="text-sm text-ink-soft">Tap the chart to move the chosen cursor, or slide it.</p>
+                {([0, 1] as const).map((i) => (
+                  <div key={i} className="flex flex-wrap items-center gap-3">
+                    <Button variant={activeCursor === i ? 'primary' : 'secondary'} aria-pressed={activeCursor === i} onClick={() => setActiveCursor(i)}>
+                      C{i + 1}
+                    </Button>
+                    <input
+                      type="range"
+                      className="h-11 min-w-0 flex-1 accent-copper"
+                      aria-label={`Cursor ${i + 1} position`}
+                      min={0}
+                      max={rangeM}
+                      step={rangeM / 2000}
+                      value={cur[i]}
+                      onChange={(e) => moveCursor(i, Number(e.target.value))}
+                    />
+                    <span className="w-24 text-right font-semibold tabular" data-testid={`cursor-${i + 1}`}>
+                      {formatLength(cur[i], unit, 1)}
+                    </span>
+                  </div>
+                ))}
+                <p className="text-lg font-bold tabular" data-testid="cursor-gap">
+                  Between cursors: {formatLength(Math.abs(cur[1] - cur[0]), unit, 2)}
+                </p>
+              </div>
+              {t.comparison ? (
+                <div className="mt-3 flex flex-wrap items-center gap-3 text-sm">
+                  <label className="flex min-h-11 items-center gap-2">
+                    <input type="checkbox" className="size-5" checked={showReference} onChange={(e) => setShowReference(e.target.checked)} />
+                    Reference ({t.comparison.referenceName})
+                  </label>
+                  <label className="flex min-h-11 items-center gap-2">
+                    <input type="checkbox" className="size-5" checked={showDifference} onChange={(e) => setShowDifference(e.target.checked)} />
+                    Difference
+                  </label>
+                  <span className="text-ink-soft">
+                    {t.comparison.newEventIndexes.length === 0
+                      ? 'No new events since the reference.'
+                      : `New since the reference: event ${t.comparison.newEventIndexes.map((i) => i + 1).join(', ')}.`}
+                    {t.comparison.missingReferenceEvents.length > 0 &&
+                      ` Gone: ${t.comparison.missingReferenceEvents.map((e) => formatLength(e.distanceM, unit, 1)).join(', ')}.`}
+                  </span>
+                </div>
+              ) : (
+                <p className="mt-3 text-sm text-mist">No reference trace for this run and end yet; a supervisor can mark one.</p>
+              )}
+            </Card>
+          </div>
+          <div className="space-y-4">
+            <SafetyCaution compact />
+            <Card title={`Events (${events.length})`}>
+              <ul className="space-y-3">
+                {events.map((e) => {
+                  const f = decided.get(e.index);
+                  const isSel = e.index === selected?.index;
+                  return (
+                    <li key={e.index} className={`rounded-md border-2 p-3 ${isSel ? 'border-copper' : 'border-rule'}`}>
+                      <button type="button" className="flex min-h-11 w-full items-baseline justify-between gap-2 text-left" onClick={() => setPicked(e.index)} aria-pressed={isSel}>
+                        <span className="font-semibold">
+                          {e.index + 1}. {TYPE_WORDS[e.type]}
+                          {e.isCableEnd ? ' · cable end' : ''}
+                          {e.likelyMultipleOf !== null ? ' · echo' : ''}
+                          {newSet.has(e.index) ? ' · new' : ''}
+                        </span>
+                        <span className="text-xl font-bold tabular">{formatLength(e.distanceM, unit, 1)}</span>
+                      </button>
+                      {f ? (
+                        <p className="mt-1 text-sm">
+                          <Badge tone={f.status === 'confirmed' ? 'danger' : 'plain'}>{f.status === 'confirmed' ? 'Confirmed fault' : 'Dismissed'}</Badge>{' '}
+                          <Link className="text-teal underline" to={paths.finding.to(f.id)}>
+                            Finding {f.id}
+                          </Link>
+                        </p>
+                      ) : (
+                        isSel &&
+                        can('findings:confirm') && (
+                          <div className="mt-2">
+                            <DecideEvent traceId={t.id} eventIndex={e.index} type={e.type} findingLink={paths.finding.to} />
+                          </div>
+                        )
+                      )}
+                    </li>
+                  );
+                })}
+              </ul>
+            </Card>
+            <Card title="Analysis">
+              <dl className="grid grid-cols-2 gap-x-3 gap-y-1 text-sm tabular">
+                <dt className="text-mist">Velocity factor</dt>
+                <dd>
+                  {t.vf} ± {(t.vfTolerance * 100).toFixed(1)} %{t.vfOverrideReason ? ` (override: ${t.vfOverrideReason})` : ''}
+                </dd>
+                <dt className="text-mist">Z0</dt>
+                <dd>{t.z0Ohm ?? '—'} Ω</dd>
+                <dt className="text-mist">Trace kind</dt>
+                <dd>{t.analysis.mode}</dd>
+                <dt className="text-mist">Blind zone</dt>
+                <dd>{formatLength(t.analysis.blindZoneM, unit, 1)}</dd>
+                <dt className="text-mist">Range</dt>
+                <dd>{formatLength(t.analysis.rangeM, unit, 1)}</dd>
+                <dt className="text-mist">Samples</dt>
+                <dd>{t.sampleCount.toLocaleString()}</dd>
+                <dt className="text-mist">Engine</dt>
+                <dd>{t.engineVersion}</dd>
+              </dl>
+              {t.analysis.warnings.length > 0 && (
+                <ul className="mt-2 list-disc pl-5 text-sm text-ink-soft">
+                  {t.analysis.warnings.map((w) => (
+                    <li key={w.code + w.message}>{w.message}</li>
+                  ))}
+                </ul>
+              )}
+            </Card>
+          </div>
+        </div>
+      )}
+    </>
+  );
+}
+export default TracePage;

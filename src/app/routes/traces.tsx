@@ -1,0 +1,134 @@
+import { useState } from 'react';
+import { Link } from 'react-router-dom';
+import type { TraceListQuery } from '../../../shared/schemas/traces';
+import { Button } from '../../components/ui/button';
+import { Card, PageHeader } from '../../components/ui/card';
+import { SelectField, TextField } from '../../components/ui/field';
+import { Badge, ErrorNotice, Loading } from '../../components/ui/notice';
+import { Pager } from '../../components/ui/pager';
+import { useSession } from '../../features/auth/use-session';
+import { useCableRuns } from '../../features/sites/api/list-cable-runs';
+import { useSites } from '../../features/sites/api/list-sites';
+import { useTraces } from '../../features/traces/api/list-traces';
+import { formatDateTime } from '../../lib/format';
+import { paths } from '../paths';
+
+type Sort = NonNullable<TraceListQuery['sort']>;
+
+export function TracesPage() {
+  const { user, can } = useSession();
+  const [q, setQ] = useState<TraceListQuery>({ page: 1, sort: 'createdAt', dir: 'desc' });
+  const sites = useSites({ pageSize: 100 });
+  const runs = useCableRuns({ siteId: q.siteId }, !!q.siteId);
+  const traces = useTraces(q);
+  const set = (patch: Partial<TraceListQuery>) => setQ({ ...q, page: 1, ...patch });
+  const sortBy = (sort: Sort) => setQ({ ...q, sort, dir: q.sort === sort && q.dir === 'desc' ? 'asc' : 'desc' });
+  const arrow = (s: Sort) => (q.sort === s ? (q.dir === 'asc' ? ' ▲' : ' ▼') : '');
+
+  return (
+    <>
+      <PageHeader
+        title="Traces"
+        subtitle="Every uploaded trace, readable or not, with what the engine made of it."
+        actions={can('traces:upload') && <Link className="inline-flex min-h-11 items-center rounded-md bg-copper px-4 text-sm font-semibold text-white" to={paths.upload.to()}>Upload a trace</Link>}
+      />
+      <Card>
+        <div className="grid gap-3 sm:grid-cols-3 lg:grid-cols-6">
+          <SelectField label="Site" value={q.siteId ?? ''} onChange={(e) => set({ siteId: e.target.value ? Number(e.target.value) : undefined, cableRunId: undefined })}>
+            <option value="">All sites</option>
+            {sites.data?.items.map((s) => (
+              <option key={s.id} value={s.id}>
+                {s.name}
+              </option>
+            ))}
+          </SelectField>
+          <SelectField label="Cable run" value={q.cableRunId ?? ''} disabled={!q.siteId} onChange={(e) => set({ cableRunId: e.target.value ? Number(e.target.value) : undefined })}>
+            <option value="">All runs</option>
+            {runs.data?.items.map((r) => (
+              <option key={r.id} value={r.id}>
+                {r.name}
+              </option>
+            ))}
+          </SelectField>
+          <SelectField label="Status" value={q.status ?? ''} onChange={(e) => set({ status: (e.target.value || undefined) as TraceListQuery['status'] })}>
+            <option value="">Any</option>
+            <option value="ok">Read</option>
+            <option value="failed">Could not be read</option>
+          </SelectField>
+          <SelectField label="Uploaded by" value={q.uploadedById ? 'me' : ''} onChange={(e) => set({ uploadedById: e.target.value ? user.id : undefined })}>
+            <option value="">Anyone</option>
+            <option value="me">Me</option>
+          </SelectField>
+          <TextField label="From" type="date" value={q.from ?? ''} onChange={(e) => set({ from: e.target.value || undefined })} />
+          <TextField label="To" type="date" value={q.to ?? ''} onChange={(e) => set({ to: e.target.value || undefined })} />
+        </div>
+        {traces.isPending ? (
+          <Loading />
+        ) : traces.error ? (
+          <ErrorNotice error={traces.error} />
+        ) : (
+          <>
+            <div className="mt-4 overflow-x-auto">
+              <table className="w-full text-left text-sm">
+                <thead className="text-xs uppercase text-mist">
+                  <tr>
+                    <th className="py-2">
+                      <Button variant="ghost" onClick={() => sortBy('originalName')}>File{arrow('originalName')}</Button>
+                    </th>
+                    <th>Site · run</th>
+                    <th>
+                      <Button variant="ghost" onClick={() => sortBy('end')}>End{arrow('end')}</Button>
+                    </th>
+                    <th>
+                      <Button variant="ghost" onClick={() => sortBy('status')}>Result{arrow('status')}</Button>
+                    </th>
+                    <th>
+                      <Button variant="ghost" onClick={() => sortBy('createdAt')}>Uploaded{arrow('createdAt')}</Button>
+                    </th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {traces.data.items.map((t) => (
+                    <tr key={t.id} className="border-t border-rule align-top">
+                      <td className="py-2 pr-2">
+                        <Link className="font-semibold text-teal underline" to={paths.trace.to(t.id)}>
+                          {t.originalName}
+                        </Link>
+                        {t.isReference && (
+                          <span className="ml-2">
+                            <Badge tone="info">reference</Badge>
+                          </span>
+                        )}
+                      </td>
+                      <td className="pr-2">
+                        {t.siteName}
+                        <span className="block text-xs text-mist">{t.cableRunName}</span>
+                      </td>
+                      <td className="pr-2">{t.end}</td>
+                      <td className="pr-2">
+                        {t.status === 'ok' ? (
+                          <span className="tabular">
+                            {t.eventCount} event{t.eventCount === 1 ? '' : 's'}
+                            {t.findingCount ? `, ${t.findingCount} decided` : ''}
+                          </span>
+                        ) : (
+                          <Badge tone="danger">could not be read</Badge>
+                        )}
+                      </td>
+                      <td className="tabular">
+                        {formatDateTime(t.createdAt)}
+                        <span className="block text-xs text-mist">{t.uploadedBy.name}</span>
+                      </td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+            <Pager page={traces.data.page} pageSize={traces.data.pageSize} total={traces.data.total} onPage={(page) => setQ({ ...q, page })} />
+          </>
+        )}
+      </Card>
+    </>
+  );
+}
+export default TracesPage;

@@ -1,0 +1,235 @@
+import { useRef, useState, type DragEvent, type FormEvent } from 'react';
+import { Link, useNavigate, useSearchParams } from 'react-router-dom';
+import type { TraceDetail } from '../../../shared/schemas/traces';
+import { ApiError } from '../../lib/api-client';
+import { Button } from '../../components/ui/button';
+import { Card, PageHeader } from '../../components/ui/card';
+import { fieldErrors, SelectField, TextField } from '../../components/ui/field';
+import { Notice } from '../../components/ui/notice';
+import { SafetyCaution } from '../../components/ui/safety-caution';
+import { useCableRuns } from '../../features/sites/api/list-cable-runs';
+import { useSites } from '../../features/sites/api/list-sites';
+import { useUploadTraces } from '../../features/traces/api/upload-traces';
+import { formatLength } from '../../lib/format';
+import { useSession } from '../../features/auth/use-session';
+import { paths } from '../paths';
+
+const LAST = 'rholog.upload.last';
+
+function remembered(): { siteId?: string; runId?: string; end?: 'A' | 'B' } {
+  try {
+    return JSON.parse(localStorage.getItem(LAST) ?? '{}');
+  } catch {
+    return {};
+  }
+}
+
+export function UploadPage() {
+  const { unit } = useSession();
+  const navigate = useNavigate();
+  const [params] = useSearchParams();
+  const last = remembered();
+  const [siteId, setSiteId] = useState(params.get('site') ?? last.siteId ?? '');
+  const [runId, setRunId] = useState(params.get('run') ?? last.runId ?? '');
+  const [end, setEnd] = useState<'A' | 'B' | ''>((params.get('end') as 'A' | 'B') ?? last.end ?? '');
+  const [files, setFiles] = useState<File[]>([]);
+  const [settings, setSettings] = useState({ mode: 'auto', pulseWidthNs: '', zeroOffsetNs: '', leadLengthM: '', sampleIntervalNs: '', vfOverride: '', vfOverrideReason: '' });
+  const [progress, setProgress] = useState<number | null>(null);
+  const [dragging, setDragging] = useState(false);
+  const input = useRef<HTMLInputElement>(null);
+  const sites = useSites({ pageSize: 100 });
+  const runs = useCableRuns({ siteId: Number(siteId) }, !!siteId);
+  const upload = useUploadTraces();
+  const run = runs.data?.items.find((r) => String(r.id) === runId);
+  const errors = fieldErrors(upload.error);
+
+  const addFiles = (list: FileList | null) => {
+    if (!list) return;
+    const next = [...files];
+    for (const f of Array.from(list)) if (!next.some((x) => x.name === f.name && x.size === f.size)) next.push(f);
+    setFiles(next);
+    upload.reset();
+  };
+  const onDrop = (e: DragEvent) => {
+    e.preventDefault();
+    setDragging(false);
+    addFiles(e.dataTransfer.files);
+  };
+
+  const submit = (e: FormEvent) => {
+    e.preventDefault();
+    if (!files.length || !run || !end) return;
+    localStorage.setItem(LAST, JSON.stringify({ siteId, runId, end }));
+    setProgress(0);
+    upload.mutate(
+      { files, fields: { cableRunId: runId, end, ...settings }, onProgress: setProgress },
+      {
+        onSuccess: (r) => {
+          setFiles([]);
+          const ok = r.traces.filter((t) => t.status === 'ok');
+          if (r.traces.length === 1 && ok.length === 1) navigate(paths.trace.to(ok[0].id));
+        },
+        onSettled: () => setProgress(null),
+      },
+    );
+  };
+
+  const failedStored = (upload.error instanceof ApiError ? (upload.error.body?.traces as TraceDetail[] | undefined) : undefined) ?? [];
+  const results = upload.data?.traces ?? [];
+
+  return (
+    <>
+      <PageHeader title="Upload a trace" subtitle="Choose where you measured from, add the CSV from the instrument, and read where the fault is." />
+      <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
+        <form onSubmit={submit} className="space-y-4" aria-label="Upload traces">
+          <Card title="1. Where">
+            <div className="grid gap-3 sm:grid-cols-2">
+              <SelectField label="Site" value={siteId} onChange={(e) => (setSiteId(e.target.value), setRunId(''))} required>
+                <option value="">Choose a site…</option>
+                {sites.data?.items.map((s) => (
+                  <option key={s.id} value={s.id}>
+                    {s.name}
+                  </option>
+                ))}
+              </SelectField>
+              <SelectField label="Cable run" value={run ? runId : ''} onChange={(e) => setRunId(e.target.value)} disabled={!siteId} error={errors.cableRunId} required>
+                <option value="">{siteId ? 'Choose a cable run…' : 'Choose the site first'}</option>
+                {runs.data?.items.map((r) => (
+                  <option key={r.id} value={r.id}>
+                    {r.name}
+                  </option>
+                ))}
+              </SelectField>
+            </div>
+            {run && (
+              <p className="mt-2 text-sm text-ink-soft">
+                {run.cableType.name} · VF {run.cableType.vf.toFixed(3)} ± {(run.cableType.vfTolerance * 100).toFixed(1)} % · installed {formatLength(run.installedLengthM, unit, 1)} ·{' '}
+                {run.markers.length} route markers
+              </p>
+            )}
+            <fieldset className="mt-3">
+              <legend className="text-sm font-semibold text-ink-soft">Instrument connected at</legend>
+              <div className="mt-1 grid grid-cols-2 gap-2">
+                {(['A', 'B'] as const).map((e) => (
+                  <button
+                    key={e}
+                    type="button"
+                    aria-pressed={end === e}
+                    onClick={() => setEnd(e)}
+                    className={`min-h-14 rounded-md border-2 px-3 py-2 text-left ${end === e ? 'border-copper bg-copper-light' : 'border-rule bg-white'}`}
+                  >
+                    <span className="block text-lg font-bold">End {e}</span>
+                    <span className="block text-sm text-ink-soft">{run ? (e === 'A' ? run.endALabel : run.endBLabel) : '—'}</span>
+                  </button>
+                ))}
+              </div>
+              {errors.end && <p className="mt-1 text-xs font-semibold text-danger">{errors.end}</p>}
+            </fieldset>
+          </Card>
+
+          <Card title="2. Trace files">
+            <div
+              onDragOver={(e) => (e.preventDefault(), setDragging(true))}
+              onDragLeave={() => setDragging(false)}
+              onDrop={onDrop}
+              className={`rounded-lg border-2 border-dashed p-5 text-center ${dragging ? 'border-copper bg-copper-light' : 'border-rule'}`}
+              data-testid="drop-area"
+            >
+              <p className="text-sm text-ink-soft">Drop CSV files here, or</p>
+              <Button variant="secondary" className="mt-2 min-h-14 w-full text-base sm:w-auto" onClick={() => input.current?.click()}>
+                Choose trace files
+              </Button>
+              <input
+                ref={input}
+                type="file"
+                multiple
+                accept=".csv,text/csv,text/comma-separated-values,application/vnd.ms-excel"
+                className="sr-only"
+                aria-label="Trace files"
+                onChange={(e) => (addFiles(e.target.files), (e.target.value = ''))}
+              />
+            </div>
+            {files.length > 0 && (
+              <ul className="mt-3 divide-y divide-rule rounded-md border border-rule">
+                {files.map((f) => (
+                  <li key={f.name + f.size} className="flex items-center justify-between gap-2 px-3 py-2 text-sm">
+                    <span className="truncate font-semibold">{f.name}</span>
+                    <span className="flex items-center gap-2 text-mist tabular">
+                      {(f.size / 1024).toFixed(0)} KB
+                      <Button variant="ghost" aria-label={`Remove ${f.name}`} onClick={() => setFiles(files.filter((x) => x !== f))}>
+                        Remove
+                      </Button>
+                    </span>
+                  </li>
+                ))}
+              </ul>
+            )}
+            {errors.file && !failedStored.length && <p className="mt-2 text-sm font-semibold text-danger">{errors.file}</p>}
+          </Card>
+
+          <Card>
+            <details>
+              <summary className="min-h-11 cursor-pointer py-2 text-lg font-semibold">3. Instrument settings (optional)</summary>
+              <div className="mt-3 grid gap-3 sm:grid-cols-2">
+                <SelectField label="Trace kind" value={settings.mode} onChange={(e) => setSettings({ ...settings, mode: e.target.value })}>
+                  <option value="auto">Tell from the trace</option>
+                  <option value="step">Step</option>
+                  <option value="pulse">Pulse</option>
+                </SelectField>
+                <TextField label="Pulse width (ns)" inputMode="decimal" value={settings.pulseWidthNs} error={errors.pulseWidthNs} onChange={(e) => setSettings({ ...settings, pulseWidthNs: e.target.value })} />
+                <TextField label="Zero offset (ns)" hint="Time on the trace to count as the cable's start" inputMode="decimal" value={settings.zeroOffsetNs} error={errors.zeroOffsetNs} onChange={(e) => setSettings({ ...settings, zeroOffsetNs: e.target.value })} />
+                <TextField label="Test-lead length (m)" inputMode="decimal" value={settings.leadLengthM} error={errors.leadLengthM} onChange={(e) => setSettings({ ...settings, leadLengthM: e.target.value })} />
+                <TextField label="Sample interval (ns)" hint="Only for files with a single amplitude column" inputMode="decimal" value={settings.sampleIntervalNs} error={errors.sampleIntervalNs} onChange={(e) => setSettings({ ...settings, sampleIntervalNs: e.target.value })} />
+                <TextField label="Velocity factor override" hint={run ? `Library value ${run.cableType.vf}` : undefined} inputMode="decimal" value={settings.vfOverride} error={errors.vfOverride} onChange={(e) => setSettings({ ...settings, vfOverride: e.target.value })} />
+                {settings.vfOverride && (
+                  <TextField label="Why override the velocity factor?" value={settings.vfOverrideReason} error={errors.vfOverrideReason} onChange={(e) => setSettings({ ...settings, vfOverrideReason: e.target.value })} />
+                )}
+              </div>
+            </details>
+          </Card>
+
+          {progress !== null && (
+            <div aria-live="polite">
+              <progress className="h-4 w-full accent-copper" max={1} value={progress} aria-label="Upload progress" />
+              <p className="text-sm tabular">{progress < 1 ? `Sending… ${Math.round(progress * 100)} %` : 'Analysing…'}</p>
+            </div>
+          )}
+          {upload.error && (
+            <Notice tone="danger" title={failedStored.length ? 'The file was kept, but it could not be read' : 'Nothing was uploaded'}>
+              <p>{upload.error.message}</p>
+              {failedStored.map((t) => (
+                <p key={t.id} className="mt-1">
+                  <Link className="font-semibold text-teal underline" to={paths.trace.to(t.id)}>
+                    See the stored file {t.originalName}
+                  </Link>
+                </p>
+              ))}
+              {!failedStored.length && <p className="mt-1">Your files are still selected: fix the problem and send again.</p>}
+            </Notice>
+          )}
+          {results.length > 0 && (
+            <Notice tone={results.every((t) => t.status === 'ok') ? 'ok' : 'warn'} title="Uploaded">
+              <ul>
+                {results.map((t) => (
+                  <li key={t.id}>
+                    <Link className="font-semibold text-teal underline" to={paths.trace.to(t.id)}>
+                      {t.originalName}
+                    </Link>{' '}
+                    — {t.status === 'ok' ? `${t.eventCount} event${t.eventCount === 1 ? '' : 's'}` : `could not be read: ${t.errorMessage}`}
+                  </li>
+                ))}
+              </ul>
+            </Notice>
+          )}
+          <Button type="submit" className="min-h-14 w-full text-lg" disabled={!files.length || !run || !end || upload.isPending}>
+            {upload.isPending ? 'Uploading…' : files.length > 1 ? `Upload ${files.length} traces` : 'Upload and analyse'}
+          </Button>
+        </form>
+        <div className="space-y-4">
+          <SafetyCaution />
+        </div>
+      </div>
+    </>
+  );
+}
+export default UploadPage;

@@ -1,0 +1,96 @@
+import { useState } from 'react';
+import { MARKER_KIND_LABELS, MARKER_KINDS, type CableRunView, type MarkerKind } from '../../../../shared/schemas/sites';
+import { Button } from '../../../components/ui/button';
+import { fieldErrors } from '../../../components/ui/field';
+import { ErrorNotice, Notice } from '../../../components/ui/notice';
+import { fromUnit, toUnit, type LengthUnit } from '../../../lib/format';
+import { useSaveMarkers } from '../api/save-markers';
+
+interface Row {
+  label: string;
+  kind: MarkerKind;
+  chainage: string;
+  slack: string;
+  notes: string;
+}
+
+const CELL = 'min-h-11 w-full rounded border border-rule bg-white px-2';
+
+/** Edit a run's route markers as one list: chainage along the route from end A, slack coiled there. */
+export function MarkerEditor({ run, unit }: { run: CableRunView; unit: LengthUnit }) {
+  const toRow = (m: CableRunView['markers'][number]): Row => ({
+    label: m.label,
+    kind: m.kind,
+    chainage: toUnit(m.chainageM, unit).toFixed(1),
+    slack: toUnit(m.slackM, unit).toFixed(1),
+    notes: m.notes ?? '',
+  });
+  const [rows, setRows] = useState<Row[]>(run.markers.map(toRow));
+  const save = useSaveMarkers();
+  const errors = fieldErrors(save.error);
+  const edit = (i: number, patch: Partial<Row>) => setRows(rows.map((r, j) => (j === i ? { ...r, ...patch } : r)));
+  const submit = () =>
+    save.mutate({
+      runId: run.id,
+      markers: rows.map((r) => ({
+        label: r.label,
+        kind: r.kind,
+        chainageM: fromUnit(Number(r.chainage), unit),
+        slackM: fromUnit(Number(r.slack || 0), unit),
+        notes: r.notes,
+      })),
+    });
+  return (
+    <div className="space-y-3">
+      <div className="space-y-3">
+        {rows.map((r, i) => (
+          <fieldset key={i} className="grid grid-cols-2 gap-2 rounded-md border border-rule p-2 sm:grid-cols-[1fr_1fr_1fr_1fr_auto]">
+            <legend className="sr-only">Marker {i + 1}</legend>
+            <label className="text-xs text-mist">
+              Label
+              <input className={CELL} value={r.label} aria-invalid={!!errors[`markers.${i}.label`]} onChange={(e) => edit(i, { label: e.target.value })} />
+            </label>
+            <label className="text-xs text-mist">
+              Kind
+              <select className={CELL} value={r.kind} onChange={(e) => edit(i, { kind: e.target.value as MarkerKind })}>
+                {MARKER_KINDS.map((k) => (
+                  <option key={k} value={k}>
+                    {MARKER_KIND_LABELS[k]}
+                  </option>
+                ))}
+              </select>
+            </label>
+            <label className="text-xs text-mist">
+              Chainage ({unit})
+              <input className={CELL} inputMode="decimal" value={r.chainage} aria-invalid={!!errors[`markers.${i}.chainageM`]} onChange={(e) => edit(i, { chainage: e.target.value })} />
+            </label>
+            <label className="text-xs text-mist">
+              Slack ({unit})
+              <input className={CELL} inputMode="decimal" value={r.slack} aria-invalid={!!errors[`markers.${i}.slackM`]} onChange={(e) => edit(i, { slack: e.target.value })} />
+            </label>
+            <Button variant="ghost" className="self-end" aria-label={`Remove marker ${r.label || i + 1}`} onClick={() => setRows(rows.filter((_, j) => j !== i))}>
+              Remove
+            </Button>
+            {Object.entries(errors)
+              .filter(([k]) => k.startsWith(`markers.${i}.`))
+              .map(([k, m]) => (
+                <p key={k} className="col-span-full text-xs font-semibold text-danger">
+                  {m}
+                </p>
+              ))}
+          </fieldset>
+        ))}
+      </div>
+      <div className="flex flex-wrap gap-2">
+        <Button variant="secondary" onClick={() => setRows([...rows, { label: '', kind: 'manhole', chainage: '', slack: '0', notes: '' }])}>
+          Add marker
+        </Button>
+        <Button onClick={submit} disabled={save.isPending}>
+          Save markers
+        </Button>
+      </div>
+      {save.isSuccess && <Notice tone="ok">Markers saved. New findings use them; earlier findings keep the position they were given.</Notice>}
+      {save.error && <ErrorNotice error={save.error} />}
+    </div>
+  );
+}
