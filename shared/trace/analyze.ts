@@ -444,7 +444,10 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     warnings: [...warnings, ...msg],
   });
   if (!(flatRange > 0) || !(Math.abs(L.height) > 0)) {
-    return empty([{ code: 'FLAT_TRACE', message: 'the trace is flat; nothing to analyse' }]);
+    return empty([
+      { code: 'FLAT_TRACE', message: 'the trace is flat' },
+      { code: 'NO_REFLECTION', message: 'no reflection above noise' },
+    ]);
   }
   if (!L.found) {
     warnings.push({
