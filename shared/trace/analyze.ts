@@ -114,9 +114,9 @@ function sampleMedian(values: ArrayLike<number>, from: number, to: number, maxPo
   const len = to - from;
   if (len <= 0) return NaN;
   const step = Math.max(1, Math.floor(len / maxPoints));
-  const tmp: number[] = [];
-  for (let i = from; i < to; i += step) tmp.push(values[i]);
-  tmp.sort((a, b) => a - b);
+  const tmp = new Float64Array(Math.ceil(len / step));
+  for (let i = from, j = 0; i < to; i += step, j++) tmp[j] = values[i];
+  tmp.sort();
   const m = tmp.length >> 1;
   return tmp.length % 2 ? tmp[m] : (tmp[m - 1] + tmp[m]) / 2;
 }
@@ -125,21 +125,21 @@ function madSigma(values: ArrayLike<number>, from: number, to: number): number {
   const len = to - from;
   if (len <= 1) return 0;
   const step = Math.max(1, Math.floor(len / 20001));
-  const tmp: number[] = [];
-  for (let i = from; i < to; i += step) tmp.push(values[i]);
-  tmp.sort((a, b) => a - b);
+  const tmp = new Float64Array(Math.ceil(len / step));
+  for (let i = from, j = 0; i < to; i += step, j++) tmp[j] = values[i];
+  tmp.sort();
   const med = tmp[tmp.length >> 1];
   for (let k = 0; k < tmp.length; k++) tmp[k] = Math.abs(tmp[k] - med);
-  tmp.sort((a, b) => a - b);
+  tmp.sort();
   return MAD_TO_SIGMA * tmp[tmp.length >> 1];
 }
 
 function percentile(values: ArrayLike<number>, p: number): number {
   const n = values.length;
   const step = Math.max(1, Math.floor(n / 20001));
-  const tmp: number[] = [];
-  for (let i = 0; i < n; i += step) tmp.push(values[i]);
-  tmp.sort((a, b) => a - b);
+  const tmp = new Float64Array(Math.ceil(n / step));
+  for (let i = 0, j = 0; i < n; i += step, j++) tmp[j] = values[i];
+  tmp.sort();
   return tmp[Math.min(tmp.length - 1, Math.max(0, Math.round(p * (tmp.length - 1))))];
 }
 
@@ -410,14 +410,16 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
   const pulseHintSamples = pulseHintNs !== undefined ? (pulseHintNs * 1e-9) / dt : null;
 
   // Raw noise from first differences (robust to edges), floored at the quantisation step.
-  const diffs = new Float64Array(n - 1);
+  const diffStep = Math.max(1, Math.floor((n - 1) / 40001));
+  const diffs = new Float64Array(Math.ceil((n - 1) / diffStep));
   let minStep = Infinity;
-  for (let i = 1; i < n; i++) {
-    diffs[i - 1] = y[i] - y[i - 1];
-    const a = Math.abs(diffs[i - 1]);
+  for (let i = 1, j = 0; i < n; i += diffStep, j++) {
+    const d = y[i] - y[i - 1];
+    diffs[j] = d;
+    const a = Math.abs(d);
     if (a > 0 && a < minStep) minStep = a;
   }
-  let sigma0 = madSigma(diffs, 0, n - 1) / Math.SQRT2;
+  let sigma0 = madSigma(diffs, 0, diffs.length) / Math.SQRT2;
   if (Number.isFinite(minStep)) sigma0 = Math.max(sigma0, minStep / Math.sqrt(12));
 
   const L = findLaunch(y, t, dt, trace.amplitudeUnit, options.mode ?? 'auto', pulseHintSamples);
@@ -550,29 +552,33 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
   for (let w = w0; 4 * w <= searchLen && scales.length < 7; w *= 3) scales.push(w);
   if (scales.length === 0) scales.push(Math.max(1, Math.floor(searchLen / 4)));
   const thresholds: number[] = [];
+  const Fbuf = new Float64Array(Math.max(1, n));
   for (const w of scales) {
     const from = start + 2 * w;
     const to = n - 2 * w;
     if (to <= from) continue;
-    const F = new Float64Array(to - from);
-    for (let i = from; i < to; i++) {
-      const A = mean(i - 2 * w, i - w);
-      const B = mean(i - w, i);
-      const Cc = mean(i, i + w);
-      const D = mean(i + w, i + 2 * w);
-      F[i - from] = (A - 3 * B + 3 * Cc - D) / 2;
+    // Coarse scales change slowly; a stride of w/4 keeps their peaks and saves most of the work.
+    const stride = Math.max(1, Math.floor(w / 4));
+    const count = Math.floor((to - 1 - from) / stride) + 1;
+    const F = Fbuf.subarray(0, count);
+    const inv = 1 / (2 * w);
+    // (A − 3B + 3C − D)/2 over window means, written on the prefix sums.
+    for (let k = 0, i = from; k < count; k++, i += stride) {
+      F[k] = (-P[i - 2 * w] + 4 * P[i - w] - 6 * P[i] + 4 * P[i + w] - P[i + 2 * w]) * inv;
     }
     // Noise of F: robust spread, but never below what white noise of this level would give.
     const theoretical = mode === 'step' ? (2.24 * sigmaU) / Math.sqrt(w) : 2.24 * scaleForPulse * Math.sqrt(w) * 0.6;
     // Differences of F four windows apart: the slowly varying residue a lossy line's creep
     // leaves in F cancels, while the noise (independent that far apart) stays.
-    const lag = 4 * w;
-    let sigmaF = theoretical;
-    if (F.length > lag + 8) {
-      const dF = new Float64Array(F.length - lag);
-      for (let k = 0; k < dF.length; k++) dF[k] = F[k] - F[k + lag];
+    const lag = Math.max(1, Math.round((4 * w) / stride));
+    let sigmaF: number;
+    if (count > lag + 8) {
+      const m = count - lag;
+      const step = Math.max(1, Math.floor(m / 20001));
+      const dF = new Float64Array(Math.ceil(m / step));
+      for (let k = 0, j = 0; k < m; k += step, j++) dF[j] = F[k] - F[k + lag];
       sigmaF = Math.max(madSigma(dF, 0, dF.length) / Math.SQRT2, theoretical);
-    } else sigmaF = Math.max(madSigma(F, 0, F.length), theoretical);
+    } else sigmaF = Math.max(madSigma(F, 0, count), theoretical);
     sigmaF = Math.max(sigmaF, 1e-12);
     const thr = Math.max(kSigma * sigmaF, rhoMin);
     thresholds.push(thr);
@@ -581,19 +587,20 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     let best = -1;
     let bestAbs = 0;
     const flush = () => {
-      if (best >= 0) candidates.push({ i: best + from, w, sign: runSign, f: F[best], snr: bestAbs / sigmaF });
+      if (best >= 0) candidates.push({ i: from + best * stride, w, sign: runSign, f: F[best], snr: bestAbs / sigmaF });
       best = -1;
       bestAbs = 0;
       runStart = -1;
     };
-    for (let k = 0; k < F.length; k++) {
-      const a = Math.abs(F[k]);
-      const s = Math.sign(F[k]);
+    for (let k = 0; k < count; k++) {
+      const v = F[k];
+      const a = v < 0 ? -v : v;
       if (a > thr) {
-        if (runStart < 0 || s !== runSign) {
+        const sg = v < 0 ? -1 : 1;
+        if (runStart < 0 || sg !== runSign) {
           flush();
           runStart = k;
-          runSign = s;
+          runSign = sg;
         }
         if (a > bestAbs) {
           bestAbs = a;

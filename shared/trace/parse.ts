@@ -449,8 +449,9 @@ export function parseTraceCsv(input: string, options: ParseOptions = {}): Parsed
 
   // 5. Body.
   const keep = xCol >= 0 ? [xCol, ampCol] : [ampCol];
-  let newlines = 0;
-  for (let p = text.indexOf('\n', dataStart); p >= 0; p = text.indexOf('\n', p + 1)) newlines++;
+  // Size the arrays from the sample rows' average length; they grow if the guess is short.
+  const avgLine = samples.reduce((a, r) => a + r.length + 1, 0) / samples.length;
+  const newlines = Math.ceil(((n - dataStart) / Math.max(2, avgLine)) * 1.05) + 16;
   const spec: BodySpec = {
     text,
     start: dataStart,

@@ -16,6 +16,8 @@ export const NAV: NavItem[] = [
   { label: 'Upload trace', short: 'Upload', to: paths.upload.to(), permission: 'traces:upload' },
   { label: 'Traces', to: paths.traces.to(), permission: 'traces:read' },
   { label: 'Findings', to: paths.findings.to(), permission: 'findings:read' },
+  { label: 'Tickets', to: paths.tickets.to(), permission: 'tickets:read' },
+  { label: 'Dashboard', to: paths.dashboard.to(), permission: 'dashboard:read' },
   { label: 'Sites', to: paths.sites.to(), permission: 'sites:read' },
   { label: 'Users', to: paths.adminUsers.to(), permission: 'users:manage' },
   { label: 'Outbox', to: paths.outbox.to(), permission: 'outbox:read' },
