@@ -59,8 +59,8 @@ describe('a technician on a phone', () => {
     await expect.poll(async () => number(await page.getByTestId('cursor-1').textContent())).not.toBe(300);
 
     await page.getByRole('button', { name: 'Confirm fault' }).click();
-    await page.getByText('Confirmed fault', { exact: true }).waitFor();
-    await page.getByRole('link', { name: /^Finding \d+$/ }).click();
+    await page.getByText('Confirmed as a fault').waitFor();
+    await page.getByRole('link', { name: /^finding \d+$/ }).click();
     await page.getByRole('heading', { name: /Finding \d+: Open conductor/ }).waitFor();
     expect(await page.getByRole('note', { name: 'Safety caution' }).isVisible()).toBe(true);
     expect(await page.getByTestId('route-position').textContent()).toBe(where);

@@ -118,6 +118,18 @@ export function TracePage() {
                   {selected.likelyMultipleOf !== null ? ` · probably an echo of event ${selected.likelyMultipleOf + 1}` : ''}
                   {newSet.has(selected.index) ? ' · new since the reference' : ''}
                 </p>
+                <div className="mt-3">
+                  {decided.get(selected.index) ? (
+                    <p className="rounded-md bg-ok-light px-3 py-2 font-semibold" role="status">
+                      {decided.get(selected.index)!.status === 'confirmed' ? 'Confirmed as a fault' : 'Dismissed'}:{' '}
+                      <Link className="text-teal underline" to={paths.finding.to(decided.get(selected.index)!.id)}>
+                        finding {decided.get(selected.index)!.id}
+                      </Link>
+                    </p>
+                  ) : (
+                    can('findings:confirm') && <DecideEvent key={selected.index} traceId={t.id} eventIndex={selected.index} type={selected.type} findingLink={paths.finding.to} />
+                  )}
+                </div>
               </Card>
             ) : (
               <Notice tone="info" title="No reflection above the noise">
@@ -221,12 +233,7 @@ export function TracePage() {
                           </Link>
                         </p>
                       ) : (
-                        isSel &&
-                        can('findings:confirm') && (
-                          <div className="mt-2">
-                            <DecideEvent traceId={t.id} eventIndex={e.index} type={e.type} findingLink={paths.finding.to} />
-                          </div>
-                        )
+                        <p className="mt-1 text-sm text-mist">{isSel ? 'Shown above: confirm or dismiss it there.' : 'Tap to look at this one.'}</p>
                       )}
                     </li>
                   );

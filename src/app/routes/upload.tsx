@@ -225,8 +225,8 @@ export function UploadPage() {
             {upload.isPending ? 'Uploading…' : files.length > 1 ? `Upload ${files.length} traces` : 'Upload and analyse'}
           </Button>
         </form>
-        <div className="space-y-4">
-          <SafetyCaution />
+        <div className="order-first space-y-4 lg:order-none">
+          <SafetyCaution compact />
         </div>
       </div>
     </>

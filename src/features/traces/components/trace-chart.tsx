@@ -146,11 +146,11 @@ export function TraceChart({ trace, unit, axis, selectedEvent, cursors, showRefe
     normalized: true,
     interaction: { mode: 'nearest', intersect: false, axis: 'x' },
     scales: {
-      x: { type: 'linear', title: { display: true, text: xTitle }, min: axis === 'time' ? undefined : Math.min(0, x(trace.samples[0]?.t ?? 0)) },
+      x: { type: 'linear', title: { display: true, text: xTitle }, min: 0 },
       y: { type: 'linear', title: { display: true, text: trace.analysis?.amplitudeUnit === 'rho' ? 'Reflection coefficient' : 'Amplitude (V)' } },
     },
     plugins: {
-      legend: { display: showReference || showDifference, position: 'bottom' },
+      legend: { display: !!trace.comparison && (showReference || showDifference), position: 'bottom' },
       tooltip: { enabled: true, callbacks: { title: (items) => (items[0] ? `${items[0].parsed.x?.toFixed(2)} ${axis === 'time' ? 'ns' : unit}` : '') } },
       zoom: {
         pan: { enabled: true, mode: 'x' },
