@@ -14,6 +14,7 @@ export function findingView(f: Finding & { trace?: Trace; confirmedBy?: User }):
     kind: f.kind,
     note: f.note,
     traceId: f.traceId,
+    eventIndex: f.eventIndex,
     measuredFrom: (f.trace?.end ?? 'A') as 'A' | 'B',
     roundTripNs: f.roundTripNs,
     distanceM: f.distanceM,

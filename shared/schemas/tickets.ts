@@ -103,6 +103,7 @@ export interface TicketFindingView {
   kind: string;
   note: string | null;
   traceId: number;
+  eventIndex: number;
   measuredFrom: 'A' | 'B';
   roundTripNs: number;
   distanceM: number;

@@ -1,0 +1,144 @@
+import { Link } from 'react-router-dom';
+import { FINDING_KIND_LABELS } from '../../../shared/schemas/findings';
+import { TICKET_PRIORITIES, TICKET_PRIORITY_LABELS } from '../../../shared/tickets/status';
+import { Card, PageHeader } from '../../components/ui/card';
+import { Badge, ErrorNotice, Loading } from '../../components/ui/notice';
+import { useSession } from '../../features/auth/use-session';
+import { useDashboard } from '../../features/dashboard/api/get-dashboard';
+import { AccuracyChart } from '../../features/dashboard/components/accuracy-chart';
+import { PriorityBadge, TicketStatusBadge } from '../../features/tickets/components/ticket-badges';
+import { formatDate, formatDateTime, formatLength } from '../../lib/format';
+import { paths } from '../paths';
+
+const kindLabel = (k: string) => FINDING_KIND_LABELS[k as keyof typeof FINDING_KIND_LABELS] ?? k;
+
+/** Supervisors and planners: what is open and for how long, what nobody has picked up, and how good the readings were. */
+export function DashboardPage() {
+  const { unit, can } = useSession();
+  const d = useDashboard();
+  if (d.isPending) return <Loading what="Loading the dashboard" />;
+  if (d.error) return <ErrorNotice error={d.error} />;
+  const v = d.data;
+  return (
+    <>
+      <PageHeader title="Dashboard" subtitle={`Open repairs, findings waiting for a ticket, and how close readings came to the digs. Updated ${formatDateTime(v.generatedAt)}.`} />
+      <div className="grid gap-4 xl:grid-cols-2">
+        <Card title={`Open tickets (${v.openCount})`}>
+          <div className="overflow-x-auto">
+            <table className="w-full text-left text-sm tabular" aria-label="Open tickets by age and priority">
+              <thead className="text-xs uppercase text-mist">
+                <tr>
+                  <th className="py-2">Open for</th>
+                  {TICKET_PRIORITIES.map((p) => (
+                    <th key={p} className="text-right">
+                      {TICKET_PRIORITY_LABELS[p]}
+                    </th>
+                  ))}
+                </tr>
+              </thead>
+              <tbody>
+                {v.byAge.map((row) => (
+                  <tr key={row.label} className="border-t border-rule">
+                    <td className="py-2 font-semibold">{row.label}</td>
+                    {TICKET_PRIORITIES.map((p) => (
+                      <td key={p} className={`text-right ${row.counts[p] > 0 && (p === 'urgent' || p === 'high') ? 'font-bold text-danger' : ''}`}>
+                        {row.counts[p]}
+                      </td>
+                    ))}
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+          <h3 className="mb-2 mt-4 text-sm font-semibold text-ink-soft">Longest open</h3>
+          <ul className="space-y-2">
+            {v.oldest.slice(0, 6).map((t) => (
+              <li key={t.id}>
+                <Link to={paths.ticket.to(t.id)} className="block rounded border border-rule px-3 py-2 hover:border-copper">
+                  <span className="flex flex-wrap items-center gap-2">
+                    <span className="font-semibold">
+                      Ticket {t.id}: {t.title}
+                    </span>
+                    <TicketStatusBadge status={t.status} />
+                    <PriorityBadge priority={t.priority} />
+                    {t.overdue && <Badge tone="danger">overdue</Badge>}
+                  </span>
+                  <span className="block text-xs text-mist">
+                    {t.site.name} · open {t.ageDays} {t.ageDays === 1 ? 'day' : 'days'} · {t.assignee ? t.assignee.name : 'nobody assigned'}
+                    {t.dueDate ? ` · due ${formatDate(t.dueDate)}` : ''}
+                  </span>
+                </Link>
+              </li>
+            ))}
+            {v.oldest.length === 0 && <li className="text-sm text-mist">No open tickets.</li>}
+          </ul>
+        </Card>
+        <Card title={`Confirmed findings without a ticket (${v.unticketed.length})`}>
+          {v.unticketed.length === 0 ? (
+            <p className="text-sm text-mist">Every confirmed finding is on a ticket.</p>
+          ) : (
+            <ul className="space-y-2" data-testid="unticketed-findings">
+              {v.unticketed.map((f) => (
+                <li key={f.id} className="flex flex-wrap items-center justify-between gap-2 rounded border border-rule px-3 py-2">
+                  <span>
+                    <Link to={paths.finding.to(f.id)} className="font-semibold text-teal underline">
+                      {kindLabel(f.kind)} at {formatLength(f.distanceM, unit)}
+                    </Link>
+                    <span className="block text-xs text-mist">
+                      {f.site.name} · {f.cableRun.name} · confirmed {formatDateTime(f.confirmedAt)} by {f.confirmedBy.name}
+                    </span>
+                  </span>
+                  {can('tickets:manage') && (
+                    <Link
+                      to={`${paths.tickets.to()}?finding=${f.id}`}
+                      className="inline-flex min-h-11 items-center rounded-md bg-copper px-4 text-sm font-semibold text-white hover:bg-copper-dark"
+                    >
+                      Raise ticket
+                    </Link>
+                  )}
+                </li>
+              ))}
+            </ul>
+          )}
+        </Card>
+        <Card title="Located against found, per cable type" className="xl:col-span-2">
+          {v.accuracy.length === 0 ? (
+            <p className="text-sm text-mist">No close-outs yet. Each repair's found position is compared with the reading here.</p>
+          ) : (
+            <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
+              <AccuracyChart rows={v.accuracy} unit={unit} />
+              <div className="overflow-x-auto">
+                <table className="w-full text-left text-sm tabular">
+                  <thead className="text-xs uppercase text-mist">
+                    <tr>
+                      <th className="py-2">Cable type</th>
+                      <th className="text-right">Repairs</th>
+                      <th className="text-right">Mean miss</th>
+                      <th className="text-right">Implied VF</th>
+                      <th className="text-right">Library VF</th>
+                    </tr>
+                  </thead>
+                  <tbody>
+                    {v.accuracy.map((a) => (
+                      <tr key={a.cableType.id} className="border-t border-rule">
+                        <td className="py-2">{a.cableType.name}</td>
+                        <td className="text-right">{a.count}</td>
+                        <td className="text-right">
+                          {formatLength(a.meanAbsErrorM, unit)}
+                          {a.meanAbsErrorPercent !== null && <span className="block text-xs text-mist">{a.meanAbsErrorPercent.toFixed(1)} %</span>}
+                        </td>
+                        <td className="text-right">{a.meanImpliedVf?.toFixed(3) ?? '—'}</td>
+                        <td className="text-right">{a.libraryVf?.toFixed(3) ?? '—'}</td>
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </div>
+            </div>
+          )}
+        </Card>
+      </div>
+    </>
+  );
+}
+export default DashboardPage;

@@ -1,0 +1,227 @@
+import { useState } from 'react';
+import { Link, useParams } from 'react-router-dom';
+import { FINDING_KIND_LABELS } from '../../../shared/schemas/findings';
+import type { CloseoutView, TicketDetail, TicketFindingView } from '../../../shared/schemas/tickets';
+import { Button } from '../../components/ui/button';
+import { Card, PageHeader } from '../../components/ui/card';
+import { TextAreaField, TextField } from '../../components/ui/field';
+import { ErrorNotice, Loading, Notice } from '../../components/ui/notice';
+import { SafetyCaution } from '../../components/ui/safety-caution';
+import { useSession } from '../../features/auth/use-session';
+import { MailStatusLine } from '../../features/outbox/components/mail-status';
+import { useTicket } from '../../features/tickets/api/get-ticket';
+import { useCommentOnTicket, useMoveTicket } from '../../features/tickets/api/save-ticket';
+import { CloseoutForm } from '../../features/tickets/components/closeout-form';
+import { EditTicketForm } from '../../features/tickets/components/edit-ticket-form';
+import { PriorityBadge, TicketStatusBadge } from '../../features/tickets/components/ticket-badges';
+import { TicketTimeline } from '../../features/tickets/components/ticket-timeline';
+import { findingWhere } from '../../features/tickets/components/where';
+import { formatDate, formatDateTime, formatLength, type LengthUnit } from '../../lib/format';
+import { paths } from '../paths';
+
+const kindLabel = (k: string) => FINDING_KIND_LABELS[k as keyof typeof FINDING_KIND_LABELS] ?? k;
+
+function FindingCard({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; unit: LengthUnit }) {
+  const endLabel = f.measuredFrom === 'A' ? t.cableRun.endALabel : t.cableRun.endBLabel;
+  return (
+    <div className="space-y-1 rounded-md border border-rule p-3">
+      <p className="text-xs text-mist">
+        <Link className="text-teal underline" to={paths.finding.to(f.id)}>
+          Finding {f.id}
+        </Link>{' '}
+        · {kindLabel(f.kind)} · confirmed by {f.confirmedBy.name}, {formatDateTime(f.confirmedAt)}
+      </p>
+      <p className="text-2xl font-bold tabular" data-testid="ticket-distance">
+        {formatLength(f.distanceM, unit)}
+        <span className="ml-2 text-sm font-normal text-ink-soft">
+          of cable from end {f.measuredFrom} ({endLabel}), ± {formatLength(f.uncertaintyM, unit)}
+        </span>
+      </p>
+      <p className="font-semibold text-copper-dark" data-testid="ticket-route-position">
+        {findingWhere(f, unit)}
+      </p>
+      <p className="text-sm text-ink-soft tabular">
+        Dig window: {formatLength(f.windowStartM, unit)} – {formatLength(f.windowEndM, unit)} of cable from end {f.measuredFrom}
+      </p>
+      {f.note && <p className="text-sm">Note: {f.note}</p>}
+    </div>
+  );
+}
+
+function CloseoutSummary({ c, unit }: { c: CloseoutView; unit: LengthUnit }) {
+  return (
+    <div className="space-y-2" data-testid="closeout-summary">
+      <dl className="grid grid-cols-2 gap-3 text-sm sm:grid-cols-4">
+        <div>
+          <dt className="text-xs text-mist">Found</dt>
+          <dd className="font-semibold tabular">{formatLength(c.foundDistanceM, unit)}</dd>
+        </div>
+        <div>
+          <dt className="text-xs text-mist">Located</dt>
+          <dd className="font-semibold tabular">{formatLength(c.locatedDistanceM, unit)}</dd>
+        </div>
+        <div>
+          <dt className="text-xs text-mist">Located − found</dt>
+          <dd className="font-semibold tabular" data-testid="closeout-error">
+            {c.errorM >= 0 ? '+' : '−'}
+            {formatLength(Math.abs(c.errorM), unit)}
+            {c.errorFraction !== null && <span className="ml-1 text-xs font-normal text-mist">({(c.errorFraction * 100).toFixed(1)} %)</span>}
+          </dd>
+        </div>
+        <div>
+          <dt className="text-xs text-mist">Implied VF (reading used {c.traceVf.toFixed(3)})</dt>
+          <dd className="font-semibold tabular" data-testid="closeout-vf">
+            {c.impliedVf?.toFixed(3) ?? '—'}
+          </dd>
+        </div>
+      </dl>
+      <p className="text-sm">
+        {c.method === 'marker' ? `${formatLength(c.offsetM ?? 0, unit)} past ${c.markerLabel}` : `${formatLength(c.enteredDistanceM ?? 0, unit)} of cable from end ${c.fromEnd}`} —{' '}
+        {kindLabel(c.cause)}. {c.workDone}
+      </p>
+      <p className="text-xs text-mist">
+        Recorded by {c.recordedBy.name}, {formatDateTime(c.recordedAt)}.{' '}
+        {c.calibrationId ? `Filed as field calibration ${c.calibrationId} for the planners.` : 'Not filed as a calibration.'}
+      </p>
+    </div>
+  );
+}
+
+/** One repair: where to dig, what to do next, the close-out and everything that happened. */
+export function TicketPage() {
+  const id = Number(useParams().ticketId);
+  const { unit, can } = useSession();
+  const ticket = useTicket(id);
+  const move = useMoveTicket();
+  const comment = useCommentOnTicket();
+  const [moveComment, setMoveComment] = useState('');
+  const [note, setNote] = useState('');
+  if (ticket.isPending) return <Loading what="Loading the ticket" />;
+  if (ticket.error) return <ErrorNotice error={ticket.error} />;
+  const t = ticket.data;
+  const failing = t.mail.filter((m) => m.status === 'failed' || (m.status === 'queued' && m.attempts > 0));
+
+  return (
+    <>
+      <PageHeader
+        title={`Ticket ${t.id}: ${t.title}`}
+        subtitle={`${t.site.name} · ${t.cableRun.name} (${t.cableRun.cableType.name}) · raised by ${t.createdBy.name}, ${formatDateTime(t.createdAt)}`}
+        actions={
+          <Link to={paths.ticketSheet.to(t.id)} className="inline-flex min-h-11 items-center rounded-md border border-rule bg-card px-4 text-sm font-semibold hover:border-ink-soft">
+            Crew sheet
+          </Link>
+        }
+      />
+      <div className="mb-4 flex flex-wrap items-center gap-2">
+        <TicketStatusBadge status={t.status} />
+        <PriorityBadge priority={t.priority} />
+        <span className="text-sm text-ink-soft">
+          {t.assignee ? `Assigned to ${t.assignee.name}` : 'Nobody assigned'} · {t.dueDate ? `due ${formatDate(t.dueDate)}` : 'no due date'}
+        </span>
+      </div>
+      {failing.length > 0 && (
+        <Notice tone="danger" title="An e-mail about this ticket has not been delivered" className="mb-4">
+          {failing[0].lastError} — Rholog keeps trying; the ticket itself is saved. Tell the people concerned another way if it is urgent.
+        </Notice>
+      )}
+      <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
+        <div className="space-y-4">
+          <Card title="Where to dig">
+            <div className="space-y-3">
+              {t.findings.map((f) => (
+                <FindingCard key={f.id} f={f} t={t} unit={unit} />
+              ))}
+              {t.accessNotes && (
+                <p className="text-sm">
+                  <span className="font-semibold">Access: </span>
+                  {t.accessNotes}
+                </p>
+              )}
+              {t.notes && (
+                <p className="whitespace-pre-wrap text-sm">
+                  <span className="font-semibold">Notes: </span>
+                  {t.notes}
+                </p>
+              )}
+            </div>
+          </Card>
+          {(t.can.moves.length > 0 || t.can.closeOut) && (
+            <Card title="Next step">
+              {t.can.moves.length > 0 && (
+                <div className="space-y-3">
+                  <TextField label="Comment (optional)" value={moveComment} onChange={(e) => setMoveComment(e.target.value)} />
+                  <div className="flex flex-wrap gap-2">
+                    {t.can.moves.map((m) => (
+                      <Button
+                        key={m.to}
+                        variant={m.to === 'withdrawn' ? 'danger' : m.to === 'under-way' && t.status === 'fixed' ? 'secondary' : 'primary'}
+                        disabled={move.isPending}
+                        onClick={() => move.mutate({ id: t.id, to: m.to, comment: moveComment }, { onSuccess: () => setMoveComment('') })}
+                      >
+                        {m.label}
+                      </Button>
+                    ))}
+                  </div>
+                  {move.error && <ErrorNotice error={move.error} />}
+                </div>
+              )}
+              {t.can.closeOut && (
+                <div className={t.can.moves.length ? 'mt-5 border-t border-rule pt-4' : ''}>
+                  <h3 className="mb-2 text-lg font-semibold">Close out the repair</h3>
+                  <div className="mb-3">
+                    <SafetyCaution compact />
+                  </div>
+                  <CloseoutForm ticket={t} unit={unit} />
+                </div>
+              )}
+            </Card>
+          )}
+          {t.closeouts.length > 0 && (
+            <Card title="Close-out">
+              <CloseoutSummary c={t.closeouts[0]} unit={unit} />
+            </Card>
+          )}
+          <Card title="Timeline">
+            <TicketTimeline events={t.timeline} />
+            {t.can.comment && (
+              <form
+                className="mt-4 space-y-2"
+                onSubmit={(e) => {
+                  e.preventDefault();
+                  comment.mutate({ id: t.id, comment: note }, { onSuccess: () => setNote('') });
+                }}
+              >
+                <TextAreaField label="Add a comment" value={note} onChange={(e) => setNote(e.target.value)} />
+                {comment.error && <ErrorNotice error={comment.error} />}
+                <Button type="submit" variant="secondary" disabled={!note.trim() || comment.isPending}>
+                  Add comment
+                </Button>
+              </form>
+            )}
+          </Card>
+        </div>
+        <div className="space-y-4">
+          {t.can.edit && can('tickets:manage') && (
+            <Card title="Assign and plan">
+              <EditTicketForm key={t.updatedAt} ticket={t} />
+            </Card>
+          )}
+          <Card title="E-mail about this ticket">
+            {t.mail.length === 0 ? (
+              <p className="text-sm text-mist">None sent yet.</p>
+            ) : (
+              <ul className="space-y-3">
+                {t.mail.map((m) => (
+                  <li key={m.id}>
+                    <MailStatusLine job={m} />
+                  </li>
+                ))}
+              </ul>
+            )}
+          </Card>
+        </div>
+      </div>
+    </>
+  );
+}
+export default TicketPage;

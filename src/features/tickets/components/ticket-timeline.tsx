@@ -1,0 +1,51 @@
+import type { TicketEventView } from '../../../../shared/schemas/tickets';
+import { TICKET_STATUS_LABELS } from '../../../../shared/tickets/status';
+import { formatDateTime } from '../../../lib/format';
+
+const KIND_WORDS: Record<TicketEventView['kind'], string> = {
+  created: 'raised the ticket',
+  assigned: 'changed the assignee',
+  status: 'moved it',
+  updated: 'changed details',
+  comment: 'commented',
+  closeout: 'recorded the close-out',
+};
+
+const FIELD_WORDS: Record<string, string> = { title: 'Title', priority: 'Priority', dueDate: 'Due date', notes: 'Notes', assignee: 'Assignee' };
+
+function show(v: unknown): string {
+  if (v === null || v === undefined || v === '') return 'none';
+  return String(v);
+}
+
+/** Who did what and when, oldest first, each status step as from → to. */
+export function TicketTimeline({ events }: { events: TicketEventView[] }) {
+  return (
+    <ol className="relative space-y-4 border-l-2 border-rule pl-5" data-testid="ticket-timeline">
+      {events.map((e) => (
+        <li key={e.id} className="relative">
+          <span className={`absolute -left-[27px] top-1.5 h-3 w-3 rounded-full border-2 border-card ${e.kind === 'closeout' ? 'bg-ok' : e.kind === 'status' || e.kind === 'assigned' ? 'bg-copper' : 'bg-mist'}`} aria-hidden />
+          <p className="text-sm">
+            <span className="font-semibold">{e.actor.name}</span> {KIND_WORDS[e.kind]}
+            {e.fromStatus && e.toStatus && e.fromStatus !== e.toStatus && (
+              <>
+                : <span className="font-semibold">{TICKET_STATUS_LABELS[e.fromStatus]}</span> → <span className="font-semibold">{TICKET_STATUS_LABELS[e.toStatus]}</span>
+              </>
+            )}
+          </p>
+          <p className="text-xs text-mist tabular">{formatDateTime(e.at)}</p>
+          {e.changes && e.kind !== 'created' && e.kind !== 'closeout' && (
+            <ul className="mt-1 text-xs text-ink-soft">
+              {Object.entries(e.changes).map(([field, [before, after]]) => (
+                <li key={field}>
+                  {FIELD_WORDS[field] ?? field}: {field === 'notes' ? 'updated' : `${show(before)} → ${show(after)}`}
+                </li>
+              ))}
+            </ul>
+          )}
+          {e.comment && <p className="mt-1 whitespace-pre-wrap rounded bg-paper px-3 py-2 text-sm">{e.comment}</p>}
+        </li>
+      ))}
+    </ol>
+  );
+}
