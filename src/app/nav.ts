@@ -19,6 +19,8 @@ export const NAV: NavItem[] = [
   { label: 'Tickets', to: paths.tickets.to(), permission: 'tickets:read' },
   { label: 'Dashboard', to: paths.dashboard.to(), permission: 'dashboard:read' },
   { label: 'Sites', to: paths.sites.to(), permission: 'sites:read' },
+  { label: 'Cable library', short: 'Cables', to: paths.cables.to(), permission: 'cables:read' },
+  { label: 'Calibrations', to: paths.calibrations.to(), permission: 'calibrations:review' },
   { label: 'Users', to: paths.adminUsers.to(), permission: 'users:manage' },
   { label: 'Outbox', to: paths.outbox.to(), permission: 'outbox:read' },
 ];

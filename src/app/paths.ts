@@ -21,4 +21,10 @@ export const paths = {
   sites: { pattern: '/sites', to: () => '/sites' },
   site: { pattern: '/sites/:siteId', to: (siteId: number) => `/sites/${siteId}` },
   siteRun: { pattern: '/sites/:siteId/runs/:runId', to: (siteId: number, runId: number) => `/sites/${siteId}/runs/${runId}` },
+  cables: { pattern: '/cables', to: () => '/cables' },
+  cableNew: { pattern: '/cables/new', to: () => '/cables/new' },
+  cableCalculator: { pattern: '/cables/calculator', to: () => '/cables/calculator' },
+  cableImport: { pattern: '/cables/import', to: () => '/cables/import' },
+  cable: { pattern: '/cables/:cableId', to: (cableId: number) => `/cables/${cableId}` },
+  calibrations: { pattern: '/calibrations', to: () => '/calibrations' },
 } as const;

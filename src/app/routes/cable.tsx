@@ -1,0 +1,218 @@
+import { useState, type ReactNode } from 'react';
+import { Link, useParams } from 'react-router-dom';
+import { roundTripFromDistance } from '../../../shared/cable/propagation';
+import { Button } from '../../components/ui/button';
+import { Card, PageHeader } from '../../components/ui/card';
+import { Badge, ErrorNotice, Loading, Notice } from '../../components/ui/notice';
+import { useSession } from '../../features/auth/use-session';
+import { useCable } from '../../features/cables/api/get-cable';
+import { useCableCalibrations } from '../../features/cables/api/get-cable-calibrations';
+import { useCableHistory } from '../../features/cables/api/get-cable-history';
+import { useUpdateCable } from '../../features/cables/api/save-cable';
+import { constructionLabel, formatAttenuation, formatDelay, formatPercent, formatTolerance, formatVf, vfSourceLabel } from '../../features/cables/cable-format';
+import { CableForm, changedFields } from '../../features/cables/components/cable-form';
+import { CableHistory } from '../../features/cables/components/cable-history';
+import { CalibrationChart } from '../../features/calibrations/components/calibration-chart';
+import { CalibrationForm, type TraceCalibrationSource } from '../../features/calibrations/components/calibration-form';
+import { getTrace } from '../../features/traces/api/get-trace';
+import { formatDate, formatDateTime, formatLength, type LengthUnit } from '../../lib/format';
+import { NotFoundPage } from './not-found';
+import { paths } from '../paths';
+
+/** The cable-end reflection of an uploaded trace and its run's recorded length, as a calibration's inputs. */
+async function calibrationFromTrace(traceId: number, unit: LengthUnit): Promise<TraceCalibrationSource> {
+  const trace = await getTrace(traceId);
+  const end = trace.analysis?.events.find((e) => e.isCableEnd);
+  if (!trace.analysis || !end) throw new Error(`Trace ${traceId} has no cable-end reflection to calibrate on.`);
+  // The engine's round trip includes any test lead; take the lead's share out at the VF the trace used.
+  const leadNs = trace.analysis.leadLengthM > 0 ? roundTripFromDistance(trace.analysis.leadLengthM, trace.vf) * 1e9 : 0;
+  return {
+    traceId,
+    roundTripNs: end.roundTripNs - leadNs,
+    knownLengthM: trace.cableRun.installedLengthM,
+    cableTypeName: trace.cableRun.cableTypeName,
+    note:
+      `End reflection of trace ${traceId} on ${trace.cableRun.name}; recorded run length ${formatLength(trace.cableRun.installedLengthM, unit)}` +
+      (leadNs ? `; test lead of ${formatLength(trace.analysis.leadLengthM, unit)} taken out` : '') +
+      '.',
+  };
+}
+
+function Row({ label, children }: { label: string; children: ReactNode }) {
+  return (
+    <div className="grid grid-cols-[9rem_1fr] gap-2 border-t border-rule py-2 text-sm first:border-t-0">
+      <dt className="text-ink-soft">{label}</dt>
+      <dd className="tabular">{children}</dd>
+    </div>
+  );
+}
+
+export function CablePage() {
+  const id = Number(useParams().cableId);
+  const { can, unit } = useSession();
+  const cable = useCable(id);
+  const history = useCableHistory(id);
+  const calibrations = useCableCalibrations(id);
+  const update = useUpdateCable();
+  const [editing, setEditing] = useState(false);
+  const [nothingChanged, setNothingChanged] = useState(false);
+
+  if (!Number.isInteger(id) || id <= 0) return <NotFoundPage />;
+  if (cable.isPending) return <Loading />;
+  if (cable.error) return <ErrorNotice error={cable.error} />;
+  const c = cable.data;
+
+  return (
+    <>
+      <PageHeader
+        title={c.name}
+        subtitle={`${constructionLabel(c.construction)} · ${c.dielectric}`}
+        actions={
+          <>
+            <Link to={paths.cables.to()} className="inline-flex min-h-11 items-center px-2 text-sm font-semibold text-teal hover:underline">
+              All cable types
+            </Link>
+            {can('cables:write') && !editing && (
+              <Button onClick={() => (setEditing(true), update.reset(), setNothingChanged(false))}>Edit</Button>
+            )}
+          </>
+        }
+      />
+      <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
+        <div className="space-y-4">
+          <Card title={editing ? 'Edit the entry' : 'Values'}>
+            {editing ? (
+              <>
+                {nothingChanged && (
+                  <Notice tone="warn" className="mb-3">
+                    Nothing changed: every value is the one already stored.
+                  </Notice>
+                )}
+                <CableForm
+                  key={c.updatedAt}
+                  unit={unit}
+                  cable={c}
+                  pending={update.isPending}
+                  error={update.error}
+                  submitLabel="Save the change"
+                  onCancel={() => setEditing(false)}
+                  onSubmit={(values, reason) => {
+                    const patch = changedFields(c, values);
+                    if (Object.keys(patch).length === 0) return setNothingChanged(true);
+                    update.mutate({ id: c.id, ...patch, reason }, { onSuccess: () => setEditing(false) });
+                  }}
+                />
+              </>
+            ) : (
+              <dl data-testid="cable-values">
+                <Row label="Velocity factor">
+                  <span className="text-lg font-bold" data-testid="cable-vf">
+                    {formatVf(c.vf, 4)}
+                  </span>{' '}
+                  <span className="text-mist">
+                    {formatTolerance(c.vfTolerance)} ({formatVf(c.vf * (1 - c.vfTolerance))}–{formatVf(c.vf * (1 + c.vfTolerance))})
+                  </span>
+                </Row>
+                <Row label="Delay">{formatDelay(c.vf, unit)}</Row>
+                <Row label="Impedance Z0">{c.z0Ohm} Ω</Row>
+                <Row label="Attenuation">{formatAttenuation(c.attenuationDbPer100m, c.attenuationFreqMhz, unit)}</Row>
+                <Row label="VF source">
+                  <Badge tone={c.vfSource === 'field-calibrated' ? 'ok' : 'plain'}>{vfSourceLabel(c.vfSource)}</Badge>
+                  <span className="mt-1 block">{c.vfReference}</span>
+                </Row>
+                {c.notes && <Row label="Notes">{c.notes}</Row>}
+                <Row label="Revision">
+                  {c.revision} · changed {formatDateTime(c.updatedAt)}
+                </Row>
+              </dl>
+            )}
+          </Card>
+          <Card title="Field calibrations">
+            {calibrations.isPending ? (
+              <Loading />
+            ) : calibrations.error ? (
+              <ErrorNotice error={calibrations.error} />
+            ) : (
+              <>
+                <dl className="mb-3 grid grid-cols-3 gap-2 text-center text-sm" data-testid="calibration-stats">
+                  <div className="rounded-md bg-paper p-2">
+                    <dt className="text-xs text-mist">Mean VF</dt>
+                    <dd className="text-lg font-bold tabular">{formatVf(calibrations.data.stats.mean, 4)}</dd>
+                  </div>
+                  <div className="rounded-md bg-paper p-2">
+                    <dt className="text-xs text-mist">Std. deviation</dt>
+                    <dd className="text-lg font-bold tabular">{formatVf(calibrations.data.stats.stdDev, 4)}</dd>
+                  </div>
+                  <div className="rounded-md bg-paper p-2">
+                    <dt className="text-xs text-mist">Count</dt>
+                    <dd className="text-lg font-bold tabular">{calibrations.data.stats.count}</dd>
+                  </div>
+                </dl>
+                <p className="mb-2 text-xs text-mist">
+                  Over the {calibrations.data.counts.accepted} accepted and {calibrations.data.counts.pending} pending calibrations; {calibrations.data.counts.rejected} rejected left out.
+                </p>
+                {calibrations.data.items.length > 0 ? (
+                  <>
+                    <CalibrationChart items={calibrations.data.items} stats={calibrations.data.stats} libraryVf={c.vf} animate={!navigator.webdriver} />
+                    <div className="mt-3 overflow-x-auto">
+                      <table className="w-full min-w-[32rem] text-left text-sm">
+                        <thead className="text-xs uppercase text-mist">
+                          <tr>
+                            <th className="py-2">#</th>
+                            <th>Known length</th>
+                            <th className="text-right">Round trip</th>
+                            <th className="text-right">VF</th>
+                            <th>Status</th>
+                            <th>By</th>
+                          </tr>
+                        </thead>
+                        <tbody>
+                          {calibrations.data.items.map((k) => (
+                            <tr key={k.id} className="border-t border-rule tabular">
+                              <td className="py-2">{k.id}</td>
+                              <td>{formatLength(k.knownLengthM, unit)}</td>
+                              <td className="text-right">{k.roundTripNs.toFixed(1)} ns</td>
+                              <td className="text-right">
+                                {formatVf(k.vf, 4)} <span className="text-xs text-mist">{formatPercent(k.deviation)}</span>
+                              </td>
+                              <td>
+                                <Badge tone={k.status === 'accepted' ? 'ok' : k.status === 'pending' ? 'warn' : 'plain'}>{k.status}</Badge>
+                              </td>
+                              <td>
+                                {k.submittedBy?.name ?? '—'} <span className="text-xs text-mist">{formatDate(k.createdAt)}</span>
+                              </td>
+                            </tr>
+                          ))}
+                        </tbody>
+                      </table>
+                    </div>
+                  </>
+                ) : (
+                  <p className="text-sm text-mist">No field calibrations yet.</p>
+                )}
+              </>
+            )}
+          </Card>
+        </div>
+        <div className="space-y-4">
+          {can('calibrations:submit') && (
+            <Card title="Record a field calibration">
+              <p className="mb-3 text-sm text-ink-soft">
+                On a cable of known length, the round-trip time of the far-end reflection gives the VF: VF = 2L / (c·t). A planner reviews it before the library changes.
+              </p>
+              <CalibrationForm
+                cableType={{ id: c.id, name: c.name, vf: c.vf }}
+                unit={unit}
+                loadTrace={can('traces:read') ? (traceId) => calibrationFromTrace(traceId, unit) : undefined}
+              />
+            </Card>
+          )}
+          <Card title="History">
+            {history.isPending ? <Loading /> : history.error ? <ErrorNotice error={history.error} /> : <CableHistory entries={history.data} unit={unit} />}
+          </Card>
+        </div>
+      </div>
+    </>
+  );
+}
+export default CablePage;

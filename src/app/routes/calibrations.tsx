@@ -1,0 +1,139 @@
+import { useState } from 'react';
+import { Link } from 'react-router-dom';
+import { CALIBRATION_SOURCE_LABELS, type CalibrationStatus, type CalibrationView } from '../../../shared/schemas/cables';
+import { Button } from '../../components/ui/button';
+import { Card, PageHeader } from '../../components/ui/card';
+import { fieldErrors, TextField } from '../../components/ui/field';
+import { Badge, ErrorNotice, Loading, Notice } from '../../components/ui/notice';
+import { Pager } from '../../components/ui/pager';
+import { useSession } from '../../features/auth/use-session';
+import { formatPercent, formatVf } from '../../features/cables/cable-format';
+import { useCalibrations } from '../../features/calibrations/api/list-calibrations';
+import { useAcceptCalibration, useRejectCalibration } from '../../features/calibrations/api/review-calibration';
+import { formatDateTime, formatLength, type LengthUnit } from '../../lib/format';
+import { paths } from '../paths';
+
+const TABS: Array<{ status: CalibrationStatus | 'all'; label: string }> = [
+  { status: 'pending', label: 'Waiting' },
+  { status: 'accepted', label: 'Accepted' },
+  { status: 'rejected', label: 'Rejected' },
+  { status: 'all', label: 'All' },
+];
+
+function Decide({ c }: { c: CalibrationView }) {
+  const accept = useAcceptCalibration();
+  const reject = useRejectCalibration();
+  const [note, setNote] = useState('');
+  const [rejecting, setRejecting] = useState(false);
+  const errors = fieldErrors(reject.error);
+  return (
+    <div className="space-y-2">
+      <TextField label={rejecting ? 'Why reject it' : 'Note (optional)'} value={note} onChange={(e) => setNote(e.target.value)} error={errors.reason} />
+      <div className="flex flex-wrap gap-2">
+        {!rejecting ? (
+          <>
+            <Button onClick={() => accept.mutate({ id: c.id, note: note.trim() || undefined })} disabled={accept.isPending}>
+              Accept into the library
+            </Button>
+            <Button variant="secondary" onClick={() => setRejecting(true)}>
+              Reject…
+            </Button>
+          </>
+        ) : (
+          <>
+            <Button variant="danger" onClick={() => reject.mutate({ id: c.id, reason: note })} disabled={reject.isPending}>
+              Reject with this reason
+            </Button>
+            <Button variant="secondary" onClick={() => (setRejecting(false), reject.reset())}>
+              Cancel
+            </Button>
+          </>
+        )}
+      </div>
+      {accept.error && <ErrorNotice error={accept.error} />}
+      {reject.error && !errors.reason && <ErrorNotice error={reject.error} />}
+    </div>
+  );
+}
+
+function CalibrationItem({ c, unit }: { c: CalibrationView; unit: LengthUnit }) {
+  const large = Math.abs(c.deviation) > 0.05;
+  return (
+    <li className="grid gap-3 border-t border-rule py-4 first:border-t-0 md:grid-cols-[3fr_2fr]" data-testid={`calibration-${c.id}`}>
+      <div className="text-sm">
+        <p className="flex flex-wrap items-center gap-2">
+          <span className="font-semibold">#{c.id}</span>
+          <Link to={paths.cable.to(c.cableType.id)} className="font-semibold text-teal hover:underline">
+            {c.cableType.name}
+          </Link>
+          <Badge tone={c.status === 'accepted' ? 'ok' : c.status === 'pending' ? 'warn' : 'plain'}>{c.status}</Badge>
+          <Badge tone="plain">{CALIBRATION_SOURCE_LABELS[c.source]}</Badge>
+        </p>
+        <p className="mt-1 tabular">
+          {formatLength(c.knownLengthM, unit)} known length, {c.roundTripNs.toFixed(1)} ns round trip → VF <strong>{formatVf(c.vf, 4)}</strong>{' '}
+          <span className={large ? 'font-semibold text-warn' : 'text-mist'}>
+            ({formatPercent(c.deviation)} against {formatVf(c.libraryVf)} in the library then)
+          </span>
+        </p>
+        <p className="text-mist">
+          {c.submittedBy?.name ?? 'Unknown'} · {formatDateTime(c.createdAt)}
+          {c.traceId ? ` · trace ${c.traceId}` : ''}
+        </p>
+        {c.note && <p className="mt-1">{c.note}</p>}
+        {c.status !== 'pending' && (
+          <p className="mt-1 text-mist">
+            {c.status === 'accepted' ? 'Accepted' : 'Rejected'} by {c.reviewedBy?.name ?? '—'} {formatDateTime(c.reviewedAt)}
+            {c.reviewReason ? `: ${c.reviewReason}` : ''}
+          </p>
+        )}
+      </div>
+      {c.status === 'pending' && <Decide c={c} />}
+    </li>
+  );
+}
+
+/** The planners' review queue: field calibrations waiting to be accepted into the library or rejected. */
+export function CalibrationsPage() {
+  const { unit } = useSession();
+  const [status, setStatus] = useState<CalibrationStatus | 'all'>('pending');
+  const [page, setPage] = useState(1);
+  const list = useCalibrations({ status, page });
+  return (
+    <>
+      <PageHeader title="Calibrations" subtitle="Field calibrations on known lengths. Accepting one sets the cable type's VF; the history keeps the old value." />
+      <Card>
+        <div role="tablist" aria-label="Status" className="mb-2 flex flex-wrap gap-2">
+          {TABS.map((t) => (
+            <button
+              key={t.status}
+              role="tab"
+              type="button"
+              aria-selected={status === t.status}
+              onClick={() => (setStatus(t.status), setPage(1))}
+              className={`min-h-11 rounded-md px-4 text-sm font-semibold ${status === t.status ? 'bg-ink text-white' : 'border border-rule bg-card hover:border-ink-soft'}`}
+            >
+              {t.label}
+            </button>
+          ))}
+        </div>
+        {list.isPending ? (
+          <Loading />
+        ) : list.error ? (
+          <ErrorNotice error={list.error} />
+        ) : list.data.total === 0 ? (
+          <Notice tone="info">{status === 'pending' ? 'Nothing is waiting for review.' : 'No calibrations here.'}</Notice>
+        ) : (
+          <>
+            <ul>
+              {list.data.items.map((c) => (
+                <CalibrationItem key={c.id} c={c} unit={unit} />
+              ))}
+            </ul>
+            <Pager page={page} pageSize={list.data.pageSize} total={list.data.total} onPage={setPage} />
+          </>
+        )}
+      </Card>
+    </>
+  );
+}
+export default CalibrationsPage;

@@ -1,0 +1,23 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import type { CableTypeView, CalibrationView } from '../../../../shared/schemas/cables';
+import { api } from '../../../lib/api-client';
+
+export const acceptCalibration = ({ id, note }: { id: number; note?: string }) =>
+  api<{ calibration: CalibrationView; cable: CableTypeView }>(`/api/calibrations/${id}/accept`, { method: 'POST', body: note ? { note } : {} });
+export const rejectCalibration = ({ id, reason }: { id: number; reason: string }) =>
+  api<CalibrationView>(`/api/calibrations/${id}/reject`, { method: 'POST', body: { reason } });
+
+/** A decision changes the queue and, when accepted, the library entry and its history. */
+function useReview<TIn, TOut>(fn: (input: TIn) => Promise<TOut>) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: fn,
+    onSuccess: () => {
+      void qc.invalidateQueries({ queryKey: ['calibrations'] });
+      void qc.invalidateQueries({ queryKey: ['cables'] });
+    },
+  });
+}
+
+export const useAcceptCalibration = () => useReview(acceptCalibration);
+export const useRejectCalibration = () => useReview(rejectCalibration);

@@ -1,0 +1,78 @@
+import { Chart as ChartJS, Legend, LinearScale, LineElement, PointElement, Tooltip, type ChartData, type ChartOptions } from 'chart.js';
+import { Scatter } from 'react-chartjs-2';
+import type { CalibrationStats } from '../../../../shared/cable/calibration';
+import type { CalibrationView } from '../../../../shared/schemas/cables';
+import { formatDate } from '../../../lib/format';
+
+ChartJS.register(LinearScale, PointElement, LineElement, Tooltip, Legend);
+
+const INK = '#1d2731';
+const COPPER = '#b8561f';
+const TEAL = '#1f6f78';
+const OK = '#2f7d5b';
+const MIST = '#6b7a86';
+
+type Point = { x: number; y: number };
+
+/**
+ * Each calibration's VF in the order submitted, against the library's value
+ * and the mean ± one standard deviation of those not rejected.
+ */
+export function CalibrationChart({
+  items,
+  stats,
+  libraryVf,
+  animate = true,
+}: {
+  items: CalibrationView[];
+  stats: CalibrationStats;
+  libraryVf: number;
+  animate?: boolean;
+}) {
+  const ordered = [...items].reverse();
+  const n = Math.max(1, ordered.length);
+  const byStatus = (status: CalibrationView['status']): Point[] =>
+    ordered.flatMap((c, i) => (c.status === status ? [{ x: i + 1, y: c.vf }] : []));
+  const flat = (y: number): Point[] => [
+    { x: 0.5, y },
+    { x: n + 0.5, y },
+  ];
+  const datasets: ChartData<'scatter', Point[]>['datasets'] = [
+    { label: 'Accepted', data: byStatus('accepted'), backgroundColor: OK, borderColor: OK, pointRadius: 6, pointStyle: 'circle' },
+    { label: 'Pending', data: byStatus('pending'), backgroundColor: '#ffffff', borderColor: COPPER, borderWidth: 2, pointRadius: 6, pointStyle: 'circle' },
+    { label: 'Rejected', data: byStatus('rejected'), backgroundColor: MIST, borderColor: MIST, pointRadius: 5, pointStyle: 'crossRot', borderWidth: 2 },
+    { label: 'Library VF', data: flat(libraryVf), showLine: true, borderColor: INK, borderWidth: 2, pointRadius: 0 },
+  ];
+  if (stats.mean !== null) datasets.push({ label: 'Mean', data: flat(stats.mean), showLine: true, borderColor: TEAL, borderWidth: 2, borderDash: [6, 4], pointRadius: 0 });
+  if (stats.mean !== null && stats.stdDev !== null) {
+    datasets.push(
+      { label: '± 1 s.d.', data: flat(stats.mean + stats.stdDev), showLine: true, borderColor: TEAL, borderWidth: 1, borderDash: [2, 3], pointRadius: 0 },
+      { label: '− 1 s.d.', data: flat(stats.mean - stats.stdDev), showLine: true, borderColor: TEAL, borderWidth: 1, borderDash: [2, 3], pointRadius: 0 },
+    );
+  }
+  const options: ChartOptions<'scatter'> = {
+    animation: animate ? undefined : false,
+    maintainAspectRatio: false,
+    scales: {
+      x: { type: 'linear', min: 0.5, max: n + 0.5, ticks: { stepSize: 1, precision: 0 }, title: { display: true, text: 'Calibration, in the order submitted' } },
+      y: { title: { display: true, text: 'Velocity factor' }, ticks: { callback: (v) => Number(v).toFixed(3) } },
+    },
+    plugins: {
+      legend: { position: 'bottom', labels: { filter: (item) => item.text !== '− 1 s.d.', boxWidth: 14 } },
+      tooltip: {
+        callbacks: {
+          label: (ctx) => {
+            if (ctx.dataset.showLine) return `${ctx.dataset.label}: ${(ctx.parsed.y ?? 0).toFixed(4)}`;
+            const c = ordered[Math.round(ctx.parsed.x ?? 0) - 1];
+            return c ? `#${c.id} ${c.status}: VF ${c.vf.toFixed(4)} · ${c.knownLengthM} m · ${formatDate(c.createdAt)}` : '';
+          },
+        },
+      },
+    },
+  };
+  return (
+    <div className="h-64" role="img" aria-label={`Chart of ${items.length} calibrations against the library VF ${libraryVf}`}>
+      <Scatter data={{ datasets }} options={options} />
+    </div>
+  );
+}
