@@ -4,6 +4,7 @@ import { User } from '../models';
 import { DEMO_CABLE_TYPE_NAMES, seedCableTypes } from './cables';
 import { seedField, seedFieldTraces } from './field';
 import { DEMO_PASSWORD, DEMO_USERS } from './organisation';
+import { seedTickets } from './tickets';
 
 /**
  * Seeds the invented demo scenario into an empty database. Each feature adds
@@ -24,6 +25,8 @@ export async function seedDemo(ctx: AppContext): Promise<boolean> {
   });
   // Traces go through the upload service, which keeps its own transaction per upload.
   const field = await seedFieldTraces(ctx, users, fieldRuns);
-  ctx.log(`Demo data seeded: ${DEMO_USERS.length} users (password "${DEMO_PASSWORD}"), ${DEMO_CABLE_TYPE_NAMES.length} cable types, ${fieldRuns.length} cable runs, ${field.traces} traces.`);
+  // Tickets go through the tickets service, after the findings they are raised from.
+  const repairs = await seedTickets(ctx, users);
+  ctx.log(`Demo data seeded: ${DEMO_USERS.length} users (password "${DEMO_PASSWORD}"), ${DEMO_CABLE_TYPE_NAMES.length} cable types, ${fieldRuns.length} cable runs, ${field.traces} traces, ${repairs.tickets} repair tickets.`);
   return true;
 }
