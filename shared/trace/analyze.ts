@@ -236,11 +236,12 @@ function findLaunch(
   const range = Math.max(hi - lo, 1e-300);
   const headEnd = Math.min(n, 5);
   const bStart = sampleMedian(y, 0, headEnd);
-  const zeroIdx = Math.min(n - 1, Math.max(0, -t[0] / dt));
+  // Fractional index of time zero; negative when the record starts after it.
+  const zeroIdx = -t[0] / dt;
   const noLaunch = (baseline: number, height: number): Launch => ({
     found: false,
-    settleIdx: Math.max(0, Math.ceil(zeroIdx)),
-    idx: Math.max(0, Math.round(zeroIdx)),
+    settleIdx: Math.min(n - 1, Math.max(0, Math.ceil(zeroIdx))),
+    idx: Math.min(n - 1, Math.max(0, Math.round(zeroIdx))),
     sign: 1,
     baseline,
     height,
@@ -252,7 +253,7 @@ function findLaunch(
   });
   if (unit === 'rho' && Math.abs(bStart + 1) > 0.35) {
     // ρ with no launch edge: time zero is the reference plane.
-    const from = Math.max(0, Math.ceil(zeroIdx));
+    const from = Math.min(n - 5, Math.max(0, Math.ceil(zeroIdx)));
     const base = sampleMedian(y, from, Math.min(n, from + Math.max(5, Math.min(200, Math.floor(n / 100)))));
     return noLaunch(Number.isFinite(base) ? base : 0, 1);
   }
