@@ -184,7 +184,8 @@ export async function seedFieldTraces(ctx: AppContext, users: Map<string, User>,
     const [id] = await storeTraces(ctx, { cableRunId: run.id, end: entry.end ?? 'A', mode: 'auto', vfOverrideReason: undefined }, [{ originalName: entry.file, bytes }], tech.id);
     traces++;
     const trace = await Trace.findByPk(id);
-    const event = trace?.analysis?.events.find((e) => e.likelyMultipleOf === null && !e.isCableEnd);
+    // A fault is a primary event short of the run's far end (the end itself is not a fault).
+    const event = trace?.analysis?.events.find((e) => e.likelyMultipleOf === null && e.windowEndM < run.installedLengthM);
     if (trace && event) {
       await recordFinding(ctx, { traceId: id, eventIndex: event.index, status: 'confirmed', kind: 'open-conductor', note: 'Demo: confirmed on first reading.' }, tech.id);
       findings++;

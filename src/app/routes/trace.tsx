@@ -21,10 +21,15 @@ const TYPE_WORDS: Record<ReflectionEvent['type'], string> = {
   'impedance-drop': 'Impedance drop',
 };
 
-/** The event a technician most likely came for: the first strong one that is not an echo, else the first. */
-function likelyFault(events: ReflectionEvent[]): ReflectionEvent | undefined {
+/** Whether an event is the run's far end: its window reaches the installed length. */
+function atFarEnd(e: ReflectionEvent, installedLengthM: number) {
+  return e.windowEndM >= installedLengthM && e.windowStartM <= installedLengthM;
+}
+
+/** The event a technician most likely came for: the first one that is neither an echo nor the far end, else the first. */
+function likelyFault(events: ReflectionEvent[], installedLengthM: number): ReflectionEvent | undefined {
   const primary = events.filter((e) => e.likelyMultipleOf === null);
-  return primary.find((e) => !e.isCableEnd) ?? primary[0] ?? events[0];
+  return primary.find((e) => !atFarEnd(e, installedLengthM)) ?? primary[0] ?? events[0];
 }
 
 export function TracePage() {
@@ -41,7 +46,7 @@ export function TracePage() {
 
   const t = trace.data;
   const events = useMemo(() => t?.analysis?.events ?? [], [t]);
-  const selected = events.find((e) => e.index === (picked ?? likelyFault(events)?.index ?? -1));
+  const selected = events.find((e) => e.index === (picked ?? likelyFault(events, t?.cableRun.installedLengthM ?? Infinity)?.index ?? -1));
   const rangeM = t?.analysis?.rangeM ?? 0;
   const cur: [number, number] = cursors ?? [0, selected?.distanceM ?? rangeM / 2];
 
@@ -101,7 +106,7 @@ export function TracePage() {
         <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
           <div className="space-y-4">
             {selected ? (
-              <Card title={`Event ${selected.index + 1}: ${TYPE_WORDS[selected.type]}${selected.isCableEnd ? ' (cable end)' : ''}`}>
+              <Card title={`Event ${selected.index + 1}: ${TYPE_WORDS[selected.type]}${atFarEnd(selected, t.cableRun.installedLengthM) ? ' (far end of the run)' : ''}`}>
                 <DistanceBlock
                   distanceM={selected.distanceM}
                   windowStartM={selected.windowStartM}
@@ -219,7 +224,7 @@ export function TracePage() {
                       <button type="button" className="flex min-h-11 w-full items-baseline justify-between gap-2 text-left" onClick={() => setPicked(e.index)} aria-pressed={isSel}>
                         <span className="font-semibold">
                           {e.index + 1}. {TYPE_WORDS[e.type]}
-                          {e.isCableEnd ? ' · cable end' : ''}
+                          {atFarEnd(e, t.cableRun.installedLengthM) ? ' · far end' : ''}
                           {e.likelyMultipleOf !== null ? ' · echo' : ''}
                           {newSet.has(e.index) ? ' · new' : ''}
                         </span>
