@@ -24,6 +24,8 @@ export interface WriteOptions {
   /** VF the instrument was set to, for distance layouts. */
   instrumentVf: number;
   cableName: string;
+  /** Written into the metadata of layouts that carry it. */
+  z0Ohm?: number;
 }
 
 const num = (x: number, digits = 10) => {
@@ -43,7 +45,7 @@ export function writeLayout(o: WriteOptions): string {
       for (let i = 0; i < n; i++) rows.push(`${num(t[i] * 1e9)},${num(v[i] * 1e3, 7)}`);
       return rows.join('\n') + '\n';
     case 'time-s-v-comments':
-      rows.push('# instrument: simulated reflectometer', `# cable: ${o.cableName}`, `# velocity factor: ${o.instrumentVf}`, '# impedance: 50 ohm');
+      rows.push('# instrument: simulated reflectometer', `# cable: ${o.cableName}`, `# velocity factor: ${o.instrumentVf}`, `# impedance: ${o.z0Ohm ?? 50} ohm`);
       rows.push('Time (s),Amplitude (V)');
       for (let i = 0; i < n; i++) rows.push(`${num(t[i], 12)},${num(v[i], 7)}`);
       return rows.join('\r\n') + '\r\n\r\n';

@@ -77,6 +77,7 @@ export function buildSweep(): SweepCase[] {
         incidentV: sim.incidentV,
         instrumentVf,
         cableName: route.cable.name,
+        z0Ohm: route.cable.z0Ohm,
       });
       out.push({
         id: `${String(k).padStart(2, '0')}-${scenario.name}-${mode}-${layout}`,

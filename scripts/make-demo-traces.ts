@@ -1,0 +1,88 @@
+/**
+ * Writes the demo traces the app's demo seed loads: simulated, for
+ * demonstration only, never for checking the engine.
+ *
+ *   npm run make:demo-traces   → server/db/demo/traces/*.csv and manifest.json
+ */
+import { mkdirSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { COAX_50, PAIR_100, POWER_MV } from './sim/cables';
+import { writeLayout, type Layout } from './sim/layouts';
+import { defaultAcquisition, simulateScenario, type Scenario } from './sim/scenario';
+
+const OUT = join(import.meta.dirname, '..', 'server', 'db', 'demo', 'traces');
+
+const DEMOS: Array<{ file: string; title: string; scenario: Scenario; mode: 'step' | 'pulse'; layout: Layout; instrumentVf: number; seed: number }> = [
+  {
+    file: 'coax-feeder-open.csv',
+    title: 'Antenna feeder, 50 Ω coax, broken at the mast clamp',
+    scenario: { name: 'coax feeder', cable: COAX_50, lengthM: 120, end: 'matched', features: [{ kind: 'open', atM: 62.4 }] },
+    mode: 'step',
+    layout: 'time-ns-mv',
+    instrumentVf: 0.66,
+    seed: 101,
+  },
+  {
+    file: 'telecom-pair-wet-short.csv',
+    title: 'Subscriber pair, water in a joint and a short further on',
+    scenario: {
+      name: 'telecom pair',
+      cable: PAIR_100,
+      lengthM: 180,
+      end: 'open',
+      features: [
+        { kind: 'wet', atM: 71, lengthM: 12, zScale: 0.75, vfScale: 0.85 },
+        { kind: 'short', atM: 143.5, rOhm: 2 },
+      ],
+    },
+    mode: 'pulse',
+    layout: 'distance-m-preamble',
+    instrumentVf: 0.67,
+    seed: 202,
+  },
+  {
+    file: 'mv-cable-splice-fault.csv',
+    title: '12 kV XLPE feeder, a splice and an insulation fault',
+    scenario: {
+      name: 'mv cable',
+      cable: POWER_MV,
+      lengthM: 900,
+      end: 'open',
+      features: [
+        { kind: 'splice', atM: 350, lengthM: 0.6, zScale: 0.6 },
+        { kind: 'shunt', atM: 612, rOhm: 12 },
+      ],
+    },
+    mode: 'step',
+    layout: 'time-s-v-comments',
+    instrumentVf: 0.56,
+    seed: 303,
+  },
+];
+
+mkdirSync(OUT, { recursive: true });
+const manifest = DEMOS.map((d) => {
+  const acq = defaultAcquisition(d.scenario, d.mode, d.seed, 0.002, 12);
+  const sim = simulateScenario(d.scenario, acq);
+  writeFileSync(
+    join(OUT, d.file),
+    writeLayout({ layout: d.layout, timeS: sim.timeS, volts: sim.volts, incidentV: sim.incidentV, instrumentVf: d.instrumentVf, cableName: d.scenario.cable.name, z0Ohm: d.scenario.cable.z0Ohm }),
+  );
+  const faults = sim.expected.filter((e) => !e.what.startsWith('cable end') && e.what !== 'splice' && e.what !== 'wet section end');
+  return {
+    file: d.file,
+    title: d.title,
+    demoOnly: true,
+    cable: d.scenario.cable.name,
+    vf: d.scenario.cable.vf,
+    z0Ohm: d.scenario.cable.z0Ohm,
+    lengthM: d.scenario.lengthM,
+    mode: d.mode,
+    layout: d.layout,
+    instrumentVf: d.instrumentVf,
+    trueFaultDistanceM: faults.length > 0 ? faults[faults.length - 1].distanceM : null,
+    features: sim.expected.map((e) => ({ distanceM: Math.round(e.distanceM * 100) / 100, type: e.type, what: e.what })),
+  };
+});
+writeFileSync(join(OUT, 'manifest.json'), `${JSON.stringify(manifest, null, 2)}\n`);
+console.log(`wrote ${manifest.length} demo traces to ${OUT}`);
