@@ -50,7 +50,8 @@ describe('demo field data', () => {
     expect(await Trace.count()).toBe(before + 2);
     const broken = await Trace.findOne({ where: { originalName: 'broken.csv' } });
     expect(broken?.status).toBe('failed');
-    const f = await Finding.findOne({ where: { cableRunId: run.id } });
+    const mine = await Trace.findOne({ where: { originalName: 'hnc2-open.csv' } });
+    const f = await Finding.findOne({ where: { traceId: mine!.id } });
     // 150 m of cable from A passes HH-1 (chainage 90 m, 2 m coiled): 148 m of route, 58 m past HH-1 toward HH-2 (hand-worked).
     expect(f?.routePositionText).toMatch(/^5[78]\.\d m past handhole HH-1 toward handhole HH-2/);
   });

@@ -77,6 +77,13 @@ describe('a technician on a phone', () => {
     await desk.getByTestId('fault-distance').waitFor();
     await desk.locator('canvas').first().waitFor();
     await e2e.screenshot(desk, 'field-trace-desktop');
+    await desk.goto(`${e2e.baseUrl}/sites/${run.siteId}/runs/${run.id}`);
+    await desk.getByRole('heading', { name: 'Route markers' }).waitFor();
+    expect(await desk.getByLabel('Chainage (m)').count()).toBe(5);
+    await e2e.screenshot(desk, 'field-run-desktop');
+    await page.goto(`${e2e.baseUrl}/traces`);
+    await page.getByRole('link', { name: 'hn3-from-bay3.csv' }).waitFor();
+    await e2e.screenshot(page, 'field-traces-phone');
     await page.close();
     await desk.close();
   });

@@ -39,7 +39,7 @@ const SITES: Array<{ name: string; address: string; lat: number; lon: number; ac
         cable: 'Shielded XLPE MV cable',
         endA: 'Substation bay 3',
         endB: 'Ashby Lane ring main unit',
-        lengthM: 820,
+        lengthM: 900,
         markers: [
           ['MH-1', 'manhole', 120, 4],
           ['MH-2', 'manhole', 310, 6],
@@ -53,7 +53,7 @@ const SITES: Array<{ name: string; address: string; lat: number; lon: number; ac
         cable: 'PE-insulated telephone pair',
         endA: 'Relay room frame',
         endB: 'Transformer 2 marshalling box',
-        lengthM: 240,
+        lengthM: 182,
         markers: [
           ['HH-1', 'handhole', 90, 2],
           ['HH-2', 'handhole', 180, 2],
@@ -83,12 +83,15 @@ const SITES: Array<{ name: string; address: string; lat: number; lon: number; ac
         ],
       },
       {
-        name: 'Camera coax BF-V2',
-        cable: 'Solid PE coax, 75 Ω',
+        name: 'Radio mast feeder BF-R1',
+        cable: 'Solid PE coax, 50 Ω',
         endA: 'Control kiosk',
-        endB: 'Inlet screen camera mast',
-        lengthM: 95,
-        markers: [['HH-A', 'handhole', 48, 1.5]],
+        endB: 'Telemetry radio mast',
+        lengthM: 120,
+        markers: [
+          ['HH-A', 'handhole', 48, 1.5],
+          ['Mast foot', 'other', 110, 2],
+        ],
       },
     ],
   },
@@ -116,7 +119,15 @@ interface ManifestEntry {
   file: string;
   run?: string;
   end?: 'A' | 'B';
+  /** The simulated cable family ("coax-50", "pair-100", "power-mv"), to pick a run of that construction. */
+  cable?: string;
 }
+
+const CONSTRUCTION_OF: Array<[prefix: string, construction: string]> = [
+  ['coax', 'coax'],
+  ['pair', 'twisted-pair'],
+  ['power', 'shielded-power'],
+];
 
 /** The trace files to load: those the manifest names (with their run, if it says), else every CSV. */
 function demoTraceFiles(dir = DEMO_TRACE_DIR): ManifestEntry[] {
@@ -133,6 +144,7 @@ function demoTraceFiles(dir = DEMO_TRACE_DIR): ManifestEntry[] {
           file: String(e.file ?? e.name ?? e.path ?? ''),
           run: typeof (e.cableRun ?? e.run) === 'string' ? String(e.cableRun ?? e.run) : undefined,
           end: e.end === 'A' || e.end === 'B' ? (e.end as 'A' | 'B') : undefined,
+          cable: typeof e.cable === 'string' ? e.cable : undefined,
         }))
         .filter((e) => e.file.endsWith('.csv') && fs.existsSync(path.join(dir, path.basename(e.file))));
       if (entries.length) return entries.map((e) => ({ ...e, file: path.basename(e.file) }));
@@ -178,8 +190,17 @@ export async function seedFieldTraces(ctx: AppContext, users: Map<string, User>,
   let traces = 0;
   let findings = 0;
   const files = demoTraceFiles(dir);
+  const types = new Map((await CableType.findAll({ where: { id: runs.map((r) => r.cableTypeId) } })).map((t) => [t.id, t.construction as string]));
+  const used = new Set<number>();
   for (const [i, entry] of files.entries()) {
-    const run = (entry.run && runs.find((r) => r.name === entry.run || r.name.includes(entry.run!))) || runs[i % runs.length];
+    const construction = CONSTRUCTION_OF.find(([prefix]) => entry.cable?.startsWith(prefix))?.[1];
+    const ofKind = construction ? runs.filter((r) => types.get(r.cableTypeId) === construction) : [];
+    const run =
+      (entry.run && runs.find((r) => r.name === entry.run || r.name.includes(entry.run!))) ||
+      ofKind.find((r) => !used.has(r.id)) ||
+      ofKind[0] ||
+      runs[i % runs.length];
+    used.add(run.id);
     const bytes = fs.readFileSync(path.join(dir, entry.file));
     const [id] = await storeTraces(ctx, { cableRunId: run.id, end: entry.end ?? 'A', mode: 'auto', vfOverrideReason: undefined }, [{ originalName: entry.file, bytes }], tech.id);
     traces++;

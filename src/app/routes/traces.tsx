@@ -68,7 +68,23 @@ export function TracesPage() {
           <ErrorNotice error={traces.error} />
         ) : (
           <>
-            <div className="mt-4 overflow-x-auto">
+            <ul className="mt-4 divide-y divide-rule sm:hidden">
+              {traces.data.items.map((t) => (
+                <li key={t.id}>
+                  <Link to={paths.trace.to(t.id)} className="block min-h-11 py-3">
+                    <span className="block break-all font-semibold text-teal underline">{t.originalName}</span>
+                    <span className="block text-sm text-ink-soft">
+                      {t.siteName} · {t.cableRunName} · end {t.end}
+                    </span>
+                    <span className="block text-sm">
+                      {t.status === 'ok' ? `${t.eventCount} event${t.eventCount === 1 ? '' : 's'}${t.findingCount ? `, ${t.findingCount} decided` : ''}` : 'Could not be read'} ·{' '}
+                      {formatDateTime(t.createdAt)}, {t.uploadedBy.name}
+                    </span>
+                  </Link>
+                </li>
+              ))}
+            </ul>
+            <div className="mt-4 hidden overflow-x-auto sm:block">
               <table className="w-full text-left text-sm">
                 <thead className="text-xs uppercase text-mist">
                   <tr>
