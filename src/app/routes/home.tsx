@@ -1,30 +1,118 @@
 import { Link } from 'react-router-dom';
 import { ROLE_LABELS } from '../../../shared/auth/permissions';
+import { TICKET_PRIORITY_LABELS, TICKET_STATUS_LABELS } from '../../../shared/tickets/status';
 import { Card, PageHeader } from '../../components/ui/card';
+import { Badge, ErrorNotice, Loading } from '../../components/ui/notice';
 import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useSession } from '../../features/auth/use-session';
+import { useCalibrations } from '../../features/calibrations/api/list-calibrations';
+import { useTickets } from '../../features/tickets/api/list-tickets';
+import { formatAge, formatDate } from '../../lib/format';
 import { NAV } from '../nav';
+import { paths } from '../paths';
 
-/** The start page: what this role does in Rholog, one tap away. */
+function OpenTickets({ mine }: { mine: boolean }) {
+  const tickets = useTickets({ status: 'open', assignee: mine ? 'me' : 'any', page: 1 });
+  if (tickets.isPending) return <Loading what="Loading repairs" />;
+  if (tickets.error) return <ErrorNotice error={tickets.error} />;
+  const items = tickets.data.items.slice(0, 5);
+  return (
+    <Card
+      title={mine ? 'Your open repairs' : 'Open repairs'}
+      actions={
+        <Link to={paths.tickets.to()} className="text-sm font-semibold text-teal underline">
+          All tickets ({tickets.data.total})
+        </Link>
+      }
+    >
+      {items.length === 0 ? (
+        <p className="text-sm text-mist">{mine ? 'Nothing assigned to you right now.' : 'No open repair tickets.'}</p>
+      ) : (
+        <ul className="divide-y divide-rule">
+          {items.map((t) => (
+            <li key={t.id}>
+              <Link to={paths.ticket.to(t.id)} className="block min-h-11 py-2 hover:text-copper">
+                <span className="font-semibold">{t.title}</span>
+                <span className="mt-0.5 flex flex-wrap items-center gap-1 text-xs text-ink-soft">
+                  <Badge tone="info">{TICKET_STATUS_LABELS[t.status]}</Badge>
+                  <Badge tone={t.priority === 'urgent' || t.priority === 'high' ? 'warn' : 'plain'}>
+                    {TICKET_PRIORITY_LABELS[t.priority]} priority
+                  </Badge>
+                  {t.site.name} · raised {formatAge(t.createdAt)}
+                  {t.dueDate && ` · due ${formatDate(t.dueDate)}`}
+                </span>
+              </Link>
+            </li>
+          ))}
+        </ul>
+      )}
+    </Card>
+  );
+}
+
+function PendingCalibrations() {
+  const cals = useCalibrations({ status: 'pending', page: 1 });
+  if (cals.isPending) return <Loading what="Loading calibrations" />;
+  if (cals.error) return <ErrorNotice error={cals.error} />;
+  return (
+    <Card
+      title="Calibrations waiting for review"
+      actions={
+        <Link to={paths.calibrations.to()} className="text-sm font-semibold text-teal underline">
+          Review queue ({cals.data.total})
+        </Link>
+      }
+    >
+      {cals.data.items.length === 0 ? (
+        <p className="text-sm text-mist">The queue is empty.</p>
+      ) : (
+        <ul className="divide-y divide-rule text-sm">
+          {cals.data.items.slice(0, 5).map((c) => (
+            <li key={c.id} className="py-2">
+              <span className="font-semibold">{c.cableType.name}</span>: VF {c.vf.toFixed(3)} against library {c.libraryVf.toFixed(3)} (
+              {(c.deviation * 100).toFixed(1)} %), from {c.submittedBy?.name ?? 'a repair close-out'}, {formatAge(c.createdAt)}
+            </li>
+          ))}
+        </ul>
+      )}
+    </Card>
+  );
+}
+
+/** The start page: what this role does first, one tap away. */
 export function HomePage() {
   const { user, can } = useSession();
   const items = NAV.filter((i) => i.to !== '/' && (!i.permission || can(i.permission)));
+  const fieldWorker = can('traces:upload') && !can('users:manage');
   return (
     <>
       <PageHeader title={`Hello, ${user.name.split(' ')[0]}`} subtitle={`Signed in as ${ROLE_LABELS[user.role].toLowerCase()}.`} />
-      <div className="grid gap-4 md:grid-cols-[2fr_1fr]">
-        <Card title="Your work">
-          <ul className="grid gap-2 sm:grid-cols-2">
-            {items.map((i) => (
-              <li key={i.to}>
-                <Link to={i.to} className="flex min-h-14 items-center rounded-md border border-rule px-4 font-semibold hover:border-copper hover:text-copper">
-                  {i.label}
-                </Link>
-              </li>
-            ))}
-          </ul>
-        </Card>
-        {can('traces:upload') && <SafetyCaution compact />}
+      <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
+        <div className="space-y-4">
+          {can('traces:upload') && (
+            <Link
+              to={paths.upload.to()}
+              className="flex min-h-16 items-center justify-center rounded-lg bg-copper px-6 text-lg font-bold text-white shadow hover:bg-copper-dark"
+            >
+              Upload a trace from site
+            </Link>
+          )}
+          {can('tickets:work') && !can('tickets:manage') && <OpenTickets mine />}
+          {can('tickets:manage') && <OpenTickets mine={false} />}
+          {can('calibrations:review') && <PendingCalibrations />}
+          <Card title="Everything you can open">
+            <ul className="grid gap-2 sm:grid-cols-2">
+              {items.map((i) => (
+                <li key={i.to}>
+                  <Link to={i.to} className="flex min-h-12 items-center rounded-md border border-rule px-4 font-semibold hover:border-copper hover:text-copper">
+                    {i.label}
+                  </Link>
+                </li>
+              ))}
+            </ul>
+          </Card>
+        </div>
+        {(fieldWorker || can('tickets:work')) && <SafetyCaution compact />}
       </div>
     </>
   );
