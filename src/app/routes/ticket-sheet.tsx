@@ -20,7 +20,8 @@ function TraceSnapshot({ f, unit }: { f: TicketFindingView; unit: LengthUnit }) 
   if (trace.isPending) return <Loading what="Loading the trace" />;
   if (trace.error) return <p className="text-sm text-mist">The trace snapshot could not be loaded ({trace.error.message}).</p>;
   return (
-    <div className="break-inside-avoid rounded border border-rule p-2" data-testid="sheet-trace">
+    // The chart's zoom buttons are for the screen; paper gets the picture only.
+    <div className="break-inside-avoid rounded border border-rule p-2 print:[&_button]:hidden" data-testid="sheet-trace">
       <TraceChart
         trace={trace.data}
         unit={unit}

@@ -154,7 +154,7 @@ export function TicketPage() {
                     {t.can.moves.map((m) => (
                       <Button
                         key={m.to}
-                        variant={m.to === 'withdrawn' ? 'danger' : m.to === 'under-way' && t.status === 'fixed' ? 'secondary' : 'primary'}
+                        variant={m.to === 'withdrawn' ? 'danger' : m.to === 'signed-off' || (m.to === 'under-way' && t.status === 'assigned') ? 'primary' : 'secondary'}
                         disabled={move.isPending}
                         onClick={() => move.mutate({ id: t.id, to: m.to, comment: moveComment }, { onSuccess: () => setMoveComment('') })}
                       >

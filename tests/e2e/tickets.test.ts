@@ -1,0 +1,179 @@
+import supertest from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { CableCalibration, CableRun, CableType, RouteMarker, TicketCloseout } from '../../server/db/models';
+import { stepTraceCsv } from '../support/step-trace';
+import { DESKTOP, PHONE, signIn, startE2E, type E2E } from './support/browser';
+
+let e2e: E2E;
+let findingId: number;
+let locatedM: number;
+let runVf: number;
+let mh2Id: number;
+
+/** The first number in a text ("400.00 m of cable …" → 400). */
+const number = (s: string | null) => Number((s ?? '').match(/\d+(\.\d+)?/)?.[0] ?? NaN);
+
+beforeAll(async () => {
+  e2e = await startE2E();
+  // A fresh confirmed finding on the demo feeder: an open 400 m of cable from end A, written with the run's own VF.
+  const run = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
+  runVf = (await CableType.findByPk(run.cableTypeId))!.vf;
+  mh2Id = (await RouteMarker.findOne({ where: { cableRunId: run.id, label: 'MH-2' } }))!.id;
+  const agent = supertest.agent(e2e.app.app);
+  const csrf = (await agent.get('/api/auth/csrf')).body.csrfToken as string;
+  const login = await agent.post('/api/auth/login').set('x-csrf-token', csrf).send({ email: 'tech@example.com', password: 'rholog-demo' }).expect(200);
+  const token = login.body.csrfToken as string;
+  const up = await agent
+    .post('/api/traces')
+    .set('x-csrf-token', token)
+    .field('cableRunId', String(run.id))
+    .field('end', 'A')
+    .attach('file', Buffer.from(stepTraceCsv({ faultM: 400, vf: runVf, samples: 9000 })), 'hn3-ticket.csv')
+    .expect(201);
+  const trace = up.body.traces[0];
+  const event = trace.analysis.events.reduce((best: { distanceM: number; index: number }, e: { distanceM: number; index: number }) =>
+    Math.abs(e.distanceM - 400) < Math.abs(best.distanceM - 400) ? e : best,
+  );
+  const f = await agent.post('/api/findings').set('x-csrf-token', token).send({ traceId: trace.id, eventIndex: event.index, status: 'confirmed', kind: 'water-ingress', note: 'Ticket walk-through' }).expect(201);
+  findingId = f.body.id;
+  locatedM = f.body.distanceM;
+});
+afterAll(async () => {
+  await e2e?.stop();
+});
+
+describe('a repair from assignment to calibration', () => {
+  let ticketPath = '';
+
+  it('a supervisor raises a ticket from the finding and assigns a technician', async () => {
+    const page = await e2e.newPage(DESKTOP);
+    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.locator('aside').getByRole('link', { name: 'Tickets' }).click();
+    await page.getByRole('heading', { name: 'Tickets', exact: true }).waitFor();
+    const form = page.getByRole('form', { name: 'Raise a ticket' });
+    await form.getByLabel(`Finding ${findingId}`).check();
+    await form.getByLabel('Assign to').selectOption({ label: 'Ines Ravelo' });
+    await form.getByLabel('Priority').selectOption('high');
+    await form.getByLabel('Notes for the crew').fill('Gate key at the depot.');
+    await e2e.screenshot(page, 'tickets-supervisor-desktop');
+    await form.getByRole('button', { name: 'Raise ticket' }).click();
+    await page.getByRole('heading', { name: /^Ticket \d+: Water in the cable on Feeder HN-3 to Ashby Lane$/ }).waitFor();
+    ticketPath = new URL(page.url()).pathname;
+    expect(await page.getByText('Assigned to Ines Ravelo').first().isVisible()).toBe(true);
+    const timeline = await page.getByTestId('ticket-timeline').textContent();
+    expect(timeline).toContain('Maren Holt raised the ticket');
+    expect(timeline).toContain('Raised → Assigned');
+    await e2e.screenshot(page, 'ticket-supervisor-desktop');
+    // The crew sheet as it prints: no navigation, no buttons, the caution on the page.
+    await page.getByRole('link', { name: 'Crew sheet' }).click();
+    await page.getByTestId('sheet-trace').locator('canvas').waitFor();
+    await page.emulateMedia({ media: 'print' });
+    expect(await page.locator('aside').first().isVisible()).toBe(false);
+    expect(await page.getByRole('button', { name: 'Print' }).isVisible()).toBe(false);
+    expect(await page.getByRole('note', { name: 'Safety caution' }).isVisible()).toBe(true);
+    await e2e.screenshot(page, 'ticket-sheet-print');
+    await page.close();
+  });
+
+  it('the technician sees it first on a phone, starts, and closes it out with the found position', async () => {
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'tech@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.getByRole('button', { name: 'Menu' }).click();
+    await page.getByRole('link', { name: 'Tickets' }).first().click();
+    const rows = page.getByTestId('ticket-row');
+    await rows.first().waitFor();
+    // Their own tickets come first: every "yours" row before any other.
+    const mine = (await rows.allTextContents()).map((t) => t.includes('yours'));
+    expect(mine[0]).toBe(true);
+    expect(mine.indexOf(false) === -1 || mine.lastIndexOf(true) < mine.indexOf(false)).toBe(true);
+    const ours = rows.filter({ hasText: 'Water in the cable on Feeder HN-3 to Ashby Lane' });
+    expect(await ours.textContent()).toContain('yours');
+    await e2e.screenshot(page, 'tickets-technician-phone');
+    await ours.click();
+    await page.waitForURL((u) => u.pathname === ticketPath);
+
+    // The crew sheet first, as printed for the dig.
+    await page.getByRole('link', { name: 'Crew sheet' }).click();
+    await page.getByRole('article', { name: 'Crew sheet' }).waitFor();
+    await page.getByTestId('sheet-trace').locator('canvas').waitFor();
+    expect(await page.getByRole('note', { name: 'Safety caution' }).isVisible()).toBe(true);
+    expect(number(await page.getByTestId('sheet-distance').textContent())).toBeCloseTo(locatedM, 0);
+    // Hand-worked: 400 m of cable passes MH-1 (4 m coiled) and MH-2 (6 m) → 390 m of route, 80 m past MH-2.
+    expect(await page.getByTestId('sheet-route-position').textContent()).toMatch(/^(79|80)\.\d m past manhole MH-2 toward road crossing RC-1/);
+    await e2e.screenshot(page, 'ticket-sheet-phone');
+    await page.getByRole('link', { name: /Back to ticket/ }).click();
+
+    await page.getByRole('button', { name: 'Start work' }).click();
+    await page.getByText('Under way', { exact: true }).first().waitFor();
+    const form = page.getByRole('form', { name: 'Close-out' });
+    await form.getByLabel('Route marker').selectOption(String(mh2Id));
+    await form.getByLabel('Distance past it toward end B (m)').fill('85');
+    // Hand-worked: 85 m past MH-2 (310 m) is 395 m of route; the 4 + 6 m coils lie before it → 405 m of cable.
+    const preview = form.getByTestId('closeout-preview');
+    await preview.waitFor();
+    expect(await preview.textContent()).toContain('405.0 m');
+    await form.getByLabel('What was it?').selectOption('water-ingress');
+    await form.getByLabel('What was done').fill('Cut out the wet length, new straight joint');
+    await e2e.screenshot(page, 'ticket-closeout-phone');
+    await form.getByRole('button', { name: 'Record the repair' }).click();
+    const summary = page.getByTestId('closeout-summary');
+    await summary.waitFor();
+    // Located ≈ 400 m, found 405 m: about −5 m; VF_implied = VF_run · 405/400 (d = VF·c·t/2 solved for VF).
+    const err = await page.getByTestId('closeout-error').textContent();
+    expect(err).toMatch(/^−\d/);
+    expect(number(err)).toBeCloseTo(405 - locatedM, 1);
+    expect(number(await page.getByTestId('closeout-vf').textContent())).toBeCloseTo((runVf * 405) / 400, 2);
+    expect(await page.getByText('Fixed, awaiting sign-off').first().isVisible()).toBe(true);
+    await page.evaluate(() => window.scrollTo(0, 0));
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(PHONE.width);
+    await e2e.screenshot(page, 'ticket-fixed-phone');
+    await page.close();
+  });
+
+  it('the planner sees the new calibration in the review queue', async () => {
+    const closeout = (await TicketCloseout.findOne({ where: { findingId } }))!;
+    const cal = (await CableCalibration.findByPk(closeout.calibrationId!))!;
+    expect(cal.source).toBe('repair-closeout');
+    expect(cal.knownLengthM).toBeCloseTo(405, 9);
+    const page = await e2e.newPage(DESKTOP);
+    await signIn(page, e2e.baseUrl, 'planner@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.locator('aside').getByRole('link', { name: 'Calibrations' }).click();
+    await page.getByRole('heading', { name: 'Calibrations', exact: true }).waitFor();
+    await page.getByText('Repair close-out').first().waitFor();
+    expect(await page.getByText(cal.vf.toFixed(3)).first().isVisible()).toBe(true);
+    await e2e.screenshot(page, 'calibrations-planner-desktop');
+    await page.close();
+  });
+
+  it('the dashboard and the outbox show the story', async () => {
+    const page = await e2e.newPage(DESKTOP);
+    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.locator('aside').getByRole('link', { name: 'Dashboard' }).click();
+    await page.getByRole('heading', { name: 'Dashboard', exact: true }).waitFor();
+    await page.getByRole('img', { name: 'Located-vs-found error per cable type' }).waitFor();
+    await e2e.screenshot(page, 'dashboard-supervisor-desktop');
+    await page.close();
+    const phone = await e2e.newPage(PHONE);
+    await signIn(phone, e2e.baseUrl, 'supervisor@example.com');
+    await phone.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await phone.goto(`${e2e.baseUrl}/dashboard`);
+    await phone.getByRole('img', { name: 'Located-vs-found error per cable type' }).waitFor();
+    // Nothing wider than the phone: no sideways scrolling.
+    expect(await phone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(PHONE.width);
+    await e2e.screenshot(phone, 'dashboard-supervisor-phone');
+    await phone.close();
+
+    const admin = await e2e.newPage(DESKTOP);
+    await signIn(admin, e2e.baseUrl, 'admin@example.com');
+    await admin.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await admin.locator('aside').getByRole('link', { name: 'Outbox' }).click();
+    const list = admin.getByTestId('outbox-list');
+    await expect.poll(async () => (await list.textContent()) ?? '', { timeout: 10_000 }).toMatch(/assigned to you: Water in the cable on Feeder HN-3/);
+    await e2e.screenshot(admin, 'outbox-admin-desktop');
+    await admin.close();
+  });
+});
