@@ -121,26 +121,55 @@ function sampleMedian(values: ArrayLike<number>, from: number, to: number, maxPo
   return tmp.length % 2 ? tmp[m] : (tmp[m - 1] + tmp[m]) / 2;
 }
 
+/** k-th smallest of a (reordered in place), by Hoare's quickselect (C. A. R. Hoare, CACM 4 (1961) 321). */
+function select(a: Float64Array, k: number): number {
+  let lo = 0;
+  let hi = a.length - 1;
+  while (lo < hi) {
+    const pivot = a[(lo + hi) >> 1];
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (a[i] < pivot) i++;
+      while (a[j] > pivot) j--;
+      if (i <= j) {
+        const t = a[i];
+        a[i] = a[j];
+        a[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else return a[k];
+  }
+  return a[k];
+}
+
 function madSigma(values: ArrayLike<number>, from: number, to: number): number {
   const len = to - from;
   if (len <= 1) return 0;
-  const step = Math.max(1, Math.floor(len / 20001));
+  const step = Math.max(1, Math.floor(len / 8001));
   const tmp = new Float64Array(Math.ceil(len / step));
   for (let i = from, j = 0; i < to; i += step, j++) tmp[j] = values[i];
-  tmp.sort();
-  const med = tmp[tmp.length >> 1];
+  const mid = tmp.length >> 1;
+  const med = select(tmp, mid);
   for (let k = 0; k < tmp.length; k++) tmp[k] = Math.abs(tmp[k] - med);
-  tmp.sort();
-  return MAD_TO_SIGMA * tmp[tmp.length >> 1];
+  return MAD_TO_SIGMA * select(tmp, mid);
 }
 
-function percentile(values: ArrayLike<number>, p: number): number {
+/** Evenly spaced sample of up to 4001 values, sorted, for percentiles of a long trace. */
+function sortedSample(values: ArrayLike<number>): Float64Array {
   const n = values.length;
-  const step = Math.max(1, Math.floor(n / 20001));
+  const step = Math.max(1, Math.floor(n / 4001));
   const tmp = new Float64Array(Math.ceil(n / step));
   for (let i = 0, j = 0; i < n; i += step, j++) tmp[j] = values[i];
-  tmp.sort();
-  return tmp[Math.min(tmp.length - 1, Math.max(0, Math.round(p * (tmp.length - 1))))];
+  return tmp.sort();
+}
+
+function percentileOf(sorted: Float64Array, p: number): number {
+  return sorted[Math.min(sorted.length - 1, Math.max(0, Math.round(p * (sorted.length - 1))))];
 }
 
 function boxcar(x: Float64Array, w: number): Float64Array {
@@ -230,9 +259,11 @@ function findLaunch(
   pulseHintSamples: number | null,
 ): Launch {
   const n = y.length;
-  const ys = boxcar(y, 3);
-  const lo = percentile(ys, 0.002);
-  const hi = percentile(ys, 0.998);
+  // Three-point average, computed where needed rather than stored.
+  const ys = (i: number) => (i <= 0 || i >= n - 1 ? y[Math.min(n - 1, Math.max(0, i))] : (y[i - 1] + y[i] + y[i + 1]) / 3);
+  const sorted = sortedSample(y);
+  const lo = percentileOf(sorted, 0.002);
+  const hi = percentileOf(sorted, 0.998);
   const range = Math.max(hi - lo, 1e-300);
   const headEnd = Math.min(n, 5);
   const bStart = sampleMedian(y, 0, headEnd);
@@ -263,18 +294,18 @@ function findLaunch(
   }
   let ic = -1;
   for (let i = 0; i < n; i++) {
-    if (Math.abs(ys[i] - bStart) > 0.25 * range) {
+    if (Math.abs(ys(i) - bStart) > 0.25 * range) {
       ic = i;
       break;
     }
   }
   if (ic < 0) return noLaunch(bStart, unit === 'rho' ? 1 : range || 1);
-  const sign = Math.sign(ys[ic] - bStart) || 1;
-  let maxDev = sign * (ys[ic] - bStart);
+  const sign = Math.sign(ys(ic) - bStart) || 1;
+  let maxDev = sign * (ys(ic) - bStart);
   let imax = ic;
   let iTop = ic;
   for (let i = ic + 1; i < n; i++) {
-    const d = sign * (ys[i] - bStart);
+    const d = sign * (ys(i) - bStart);
     if (d > maxDev) {
       // Only a clear rise counts as still climbing; a lossy line's slow creep does not.
       if (d > 1.02 * maxDev) iTop = i;
@@ -287,17 +318,17 @@ function findLaunch(
   imax = Math.min(imax, iTop);
   // Start of the edge: walk back to where it left the starting level.
   let i10 = ic;
-  while (i10 > 0 && sign * (ys[i10] - bStart) > 0.1 * maxDev) i10--;
+  while (i10 > 0 && sign * (ys(i10) - bStart) > 0.1 * maxDev) i10--;
   const preEnd = Math.max(0, i10 - 2);
   const baseline = preEnd >= 1 ? sampleMedian(y, Math.max(0, preEnd - 2000), preEnd) : bStart;
-  const peak = sign * (ys[imax] - baseline);
+  const peak = sign * (ys(imax) - baseline);
   let i90 = i10;
-  while (i90 < imax && sign * (ys[i90] - baseline) < 0.9 * peak) i90++;
+  while (i90 < imax && sign * (ys(i90) - baseline) < 0.9 * peak) i90++;
   const riseSamples = Math.max(1, i90 - i10);
   // Pulse or step: does the launch fall back below half its height soon?
   let iFall = -1;
   for (let i = imax; i < n; i++) {
-    if (sign * (ys[i] - baseline) < 0.5 * peak) {
+    if (sign * (ys(i) - baseline) < 0.5 * peak) {
       iFall = i;
       break;
     }
@@ -308,7 +339,7 @@ function findLaunch(
     const end = Math.min(n, iFall + Math.max(width, 4 * riseSamples));
     stays = true;
     for (let i = iFall + riseSamples * 2; i < end; i++) {
-      if (sign * (ys[i] - baseline) > 0.5 * peak) {
+      if (sign * (ys(i) - baseline) > 0.5 * peak) {
         stays = false;
         break;
       }
@@ -329,7 +360,7 @@ function findLaunch(
     // The blind zone ends where the launch pulse is back near the baseline.
     let k = Math.max(imax, iFall > 0 ? iFall : imax);
     const tail = 0.02 * peak;
-    while (k < n - 1 && Math.abs(ys[k] - baseline) > tail) k++;
+    while (k < n - 1 && Math.abs(ys(k) - baseline) > tail) k++;
     settleIdx = Math.min(n - 1, k + riseSamples);
   } else {
     const from = Math.min(n - 1, i90 + riseSamples);
@@ -411,7 +442,7 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
   const pulseHintSamples = pulseHintNs !== undefined ? (pulseHintNs * 1e-9) / dt : null;
 
   // Raw noise from first differences (robust to edges), floored at the quantisation step.
-  const diffStep = Math.max(1, Math.floor((n - 1) / 40001));
+  const diffStep = Math.max(1, Math.floor((n - 1) / 8001));
   const diffs = new Float64Array(Math.ceil((n - 1) / diffStep));
   let minStep = Infinity;
   for (let i = 1, j = 0; i < n; i += diffStep, j++) {
@@ -424,7 +455,8 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
   if (Number.isFinite(minStep)) sigma0 = Math.max(sigma0, minStep / Math.sqrt(12));
 
   const L = findLaunch(y, t, dt, trace.amplitudeUnit, options.mode ?? 'auto', pulseHintSamples);
-  const flatRange = percentile(y, 0.999) - percentile(y, 0.001);
+  const ySorted = sortedSample(y);
+  const flatRange = percentileOf(ySorted, 0.999) - percentileOf(ySorted, 0.001);
   const empty = (msg: TraceWarning[]): TraceAnalysis => ({
     engineVersion: ENGINE_VERSION,
     mode: L.mode,
@@ -575,7 +607,7 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     let sigmaF: number;
     if (count > lag + 8) {
       const m = count - lag;
-      const step = Math.max(1, Math.floor(m / 20001));
+      const step = Math.max(1, Math.floor(m / 4001));
       const dF = new Float64Array(Math.ceil(m / step));
       for (let k = 0, j = 0; k < m; k += step, j++) dF[j] = F[k] - F[k + lag];
       sigmaF = Math.max(madSigma(dF, 0, dF.length) / Math.SQRT2, theoretical);

@@ -93,7 +93,7 @@ class Growable {
     this.data[this.length++] = v;
   }
   result(): Float64Array {
-    return this.length === this.data.length ? this.data : this.data.slice(0, this.length);
+    return this.length === this.data.length ? this.data : this.data.subarray(0, this.length);
   }
 }
 
