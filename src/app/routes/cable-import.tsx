@@ -39,7 +39,7 @@ export function CableImportPage() {
     <>
       <PageHeader title="Import the cable library" subtitle="Check a CSV row by row before anything is written; the import writes every row or none." />
       <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
-        <Card title="1. Choose the file">
+        <Card title="1. Choose the file" className="min-w-0">
           <label className="block text-sm font-semibold text-ink-soft" htmlFor="cable-csv">
             CSV file
           </label>
@@ -64,7 +64,7 @@ export function CableImportPage() {
             </div>
           )}
         </Card>
-        <Card title="2. Import">
+        <Card title="2. Import" className="min-w-0">
           {p ? (
             <>
               <p className="text-sm tabular" data-testid="import-counts">

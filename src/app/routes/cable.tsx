@@ -79,7 +79,7 @@ export function CablePage() {
         }
       />
       <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
-        <div className="space-y-4">
+        <div className="min-w-0 space-y-4">
           <Card title={editing ? 'Edit the entry' : 'Values'}>
             {editing ? (
               <>
@@ -158,24 +158,24 @@ export function CablePage() {
                       <table className="w-full min-w-[32rem] text-left text-sm">
                         <thead className="text-xs uppercase text-mist">
                           <tr>
-                            <th className="py-2">#</th>
-                            <th>Known length</th>
-                            <th className="text-right">Round trip</th>
-                            <th className="text-right">VF</th>
-                            <th>Status</th>
+                            <th className="py-2 pr-3">#</th>
+                            <th className="pr-3">Known length</th>
+                            <th className="pr-3 text-right">Round trip</th>
+                            <th className="pr-3 text-right">VF</th>
+                            <th className="pr-3">Status</th>
                             <th>By</th>
                           </tr>
                         </thead>
                         <tbody>
                           {calibrations.data.items.map((k) => (
                             <tr key={k.id} className="border-t border-rule tabular">
-                              <td className="py-2">{k.id}</td>
-                              <td>{formatLength(k.knownLengthM, unit)}</td>
-                              <td className="text-right">{k.roundTripNs.toFixed(1)} ns</td>
-                              <td className="text-right">
+                              <td className="py-2 pr-3">{k.id}</td>
+                              <td className="pr-3">{formatLength(k.knownLengthM, unit)}</td>
+                              <td className="pr-3 text-right">{k.roundTripNs.toFixed(1)} ns</td>
+                              <td className="pr-3 text-right whitespace-nowrap">
                                 {formatVf(k.vf, 4)} <span className="text-xs text-mist">{formatPercent(k.deviation)}</span>
                               </td>
-                              <td>
+                              <td className="pr-3">
                                 <Badge tone={k.status === 'accepted' ? 'ok' : k.status === 'pending' ? 'warn' : 'plain'}>{k.status}</Badge>
                               </td>
                               <td>
@@ -194,7 +194,7 @@ export function CablePage() {
             )}
           </Card>
         </div>
-        <div className="space-y-4">
+        <div className="min-w-0 space-y-4">
           {can('calibrations:submit') && (
             <Card title="Record a field calibration">
               <p className="mb-3 text-sm text-ink-soft">

@@ -174,9 +174,9 @@ export function CableCalculator({ unit, onUse }: { unit: LengthUnit; onUse?: (en
         <p className="mb-3 text-sm text-ink-soft">
           Z0 = (60/√εr)·ln(D/d), L = (μ/2π)·ln(D/d), C = 2πε/ln(D/d). D is the dielectric’s diameter (inside the screen), d the inner conductor’s.
         </p>
-        <div className="grid gap-3 sm:grid-cols-3">
-          <TextField label={`D (${dia})`} inputMode="decimal" value={outer} onChange={(e) => setOuter(e.target.value)} />
-          <TextField label={`d (${dia})`} inputMode="decimal" value={inner} onChange={(e) => setInner(e.target.value)} />
+        <div className="grid gap-3 sm:grid-cols-2">
+          <TextField label={`Dielectric diameter D (${dia})`} inputMode="decimal" value={outer} onChange={(e) => setOuter(e.target.value)} />
+          <TextField label={`Inner conductor d (${dia})`} inputMode="decimal" value={inner} onChange={(e) => setInner(e.target.value)} />
           <TextField label="εr" inputMode="decimal" value={coaxEr} onChange={(e) => setCoaxEr(e.target.value)} />
         </div>
         {cx.error ? <Problem error={cx.error} /> : <Results testId="calc-coax" rows={lcRows(cx.value, unit)} />}

@@ -50,12 +50,18 @@ export function CalibrationChart({
       { label: '− 1 s.d.', data: flat(stats.mean - stats.stdDev), showLine: true, borderColor: TEAL, borderWidth: 1, borderDash: [2, 3], pointRadius: 0 },
     );
   }
+  // A fixed, padded range: equal values would otherwise give an axis of identical labels.
+  const ys = [libraryVf, ...ordered.map((c) => c.vf)];
+  if (stats.mean !== null) ys.push(stats.mean + (stats.stdDev ?? 0), stats.mean - (stats.stdDev ?? 0));
+  const pad = Math.max(0.005, (Math.max(...ys) - Math.min(...ys)) * 0.15);
+  const yMin = Math.floor((Math.min(...ys) - pad) * 1000) / 1000;
+  const yMax = Math.ceil((Math.max(...ys) + pad) * 1000) / 1000;
   const options: ChartOptions<'scatter'> = {
     animation: animate ? undefined : false,
     maintainAspectRatio: false,
     scales: {
       x: { type: 'linear', min: 0.5, max: n + 0.5, ticks: { stepSize: 1, precision: 0 }, title: { display: true, text: 'Calibration, in the order submitted' } },
-      y: { title: { display: true, text: 'Velocity factor' }, ticks: { callback: (v) => Number(v).toFixed(3) } },
+      y: { min: yMin, max: yMax, title: { display: true, text: 'Velocity factor' }, ticks: { callback: (v) => Number(v).toFixed(3) } },
     },
     plugins: {
       legend: { position: 'bottom', labels: { filter: (item) => item.text !== '− 1 s.d.', boxWidth: 14 } },
