@@ -1,4 +1,5 @@
-import { Op, type Sequelize, type Transaction } from 'sequelize';
+import { type Sequelize, type Transaction } from 'sequelize';
+import { containsText } from '../db/search';
 import type { z } from 'zod';
 import type {
   CableRunInputSchema,
@@ -52,7 +53,7 @@ async function views(runs: CableRun[]): Promise<CableRunView[]> {
 export async function listRuns(opts: { siteId?: number; q?: string; page: number; pageSize: number }): Promise<Page<CableRunView>> {
   const where = {
     ...(opts.siteId ? { siteId: opts.siteId } : {}),
-    ...(opts.q ? { name: { [Op.like]: `%${opts.q}%` } } : {}),
+    ...(opts.q ? { name: containsText(CableRun.sequelize!, opts.q) } : {}),
   };
   const { rows, count } = await CableRun.findAndCountAll({
     where,

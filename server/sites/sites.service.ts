@@ -1,4 +1,5 @@
 import { Op, type Transaction } from 'sequelize';
+import { containsText } from '../db/search';
 import type { z } from 'zod';
 import type { SiteInputSchema, SiteSummary } from '../../shared/schemas/sites';
 import type { Page } from '../../shared/schemas/users';
@@ -51,7 +52,7 @@ async function summaries(sites: Site[]): Promise<SiteSummary[]> {
 
 export async function listSites(opts: { q?: string; page: number; pageSize: number }): Promise<Page<SiteSummary>> {
   const where = opts.q
-    ? { [Op.or]: [{ name: { [Op.like]: `%${opts.q}%` } }, { address: { [Op.like]: `%${opts.q}%` } }] }
+    ? { [Op.or]: [{ name: containsText(Site.sequelize!, opts.q) }, { address: containsText(Site.sequelize!, opts.q) }] }
     : {};
   const { rows, count } = await Site.findAndCountAll({
     where,

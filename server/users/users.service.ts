@@ -1,4 +1,5 @@
 import { Op } from 'sequelize';
+import { containsText } from '../db/search';
 import type { z } from 'zod';
 import type { CreateUserSchema, UpdateUserSchema } from '../../shared/schemas/users';
 import { Session, User } from '../db/models';
@@ -7,7 +8,7 @@ import { hashPassword, temporaryPassword } from '../auth/passwords';
 
 export async function listUsers(opts: { q?: string; page: number; pageSize: number }) {
   const where = opts.q
-    ? { [Op.or]: [{ name: { [Op.like]: `%${opts.q}%` } }, { email: { [Op.like]: `%${opts.q.toLowerCase()}%` } }] }
+    ? { [Op.or]: [{ name: containsText(User.sequelize!, opts.q) }, { email: containsText(User.sequelize!, opts.q.toLowerCase()) }] }
     : {};
   const { rows, count } = await User.findAndCountAll({
     where,
