@@ -150,6 +150,10 @@ describe('GET /api/cables', () => {
     expect(page2.body.items.map((i: { name: string }) => i.name)).toEqual(['Sort B foam coax']);
     const byDielectric = await planner.get('/api/cables?q=FOAMED').expect(200);
     expect(byDielectric.body.total).toBe(3);
+    const byZ0 = await planner.get('/api/cables?q=sort&sort=z0Ohm&dir=desc').expect(200);
+    expect(byZ0.body.items.every((i: { z0Ohm: number }) => i.z0Ohm === 50)).toBe(true);
+    const byDate = await planner.get('/api/cables?q=sort&sort=updatedAt&dir=desc').expect(200);
+    expect(byDate.body.items[0].name).toBe('Sort C foam coax');
     const bad = await planner.get('/api/cables?sort=colour').expect(400);
     expect(bad.body.error.fields[0].field).toBe('sort');
   });
