@@ -194,6 +194,16 @@ describe('repair tickets', () => {
     await sup.patch(`/api/tickets/${ticketId}`, { priority: 'low' }).expect(409);
   });
 
+  it('answers bad input with a 400 naming the field', async () => {
+    const fields = (res: { body: { error: { fields: Array<{ field: string }> } } }) => res.body.error.fields.map((f) => f.field);
+    expect(fields(await tech.post(`/api/tickets/${ticketId}/closeout`, { found: {}, cause: 'other', workDone: 'x' }).expect(400))).toEqual(['found.method']);
+    expect(fields(await sup.patch(`/api/tickets/${ticketId}`, { assigneeId: 'abc' }).expect(400))).toEqual(['assigneeId']);
+    expect(fields(await sup.patch(`/api/tickets/${ticketId}`, { comment: 'only a comment' }).expect(400))).toEqual(['(body)']);
+    expect(fields(await tech.post(`/api/tickets/${ticketId}/comments`, { comment: '   ' }).expect(400))).toEqual(['comment']);
+    expect(fields(await sup.get('/api/tickets?status=finished').expect(400))).toEqual(['status']);
+    await sup.get('/api/tickets/987654').expect(404);
+  });
+
   it('will not file an impossible VF, but closes out without a calibration when told the fault found was another', async () => {
     const f = await confirmedFinding(api, fx.run.id, 150);
     const t = (await sup.post('/api/tickets', { findingIds: [f.id], assigneeId: api.users.technician.id }).expect(201)).body as TicketDetail;
