@@ -2,7 +2,7 @@
 import { analyzeCsv } from '../../shared/trace';
 import { buildSweep, scoreCase } from './sweep';
 
-const cases = buildSweep();
+const cases = buildSweep({ clean: process.argv.includes('--clean') });
 let worst = { m: 0, tol: 0, id: '' };
 let failed = 0;
 for (const c of cases) {

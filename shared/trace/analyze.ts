@@ -455,7 +455,11 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     if (a > 0 && a < minStep) minStep = a;
   }
   let sigma0 = madSigma(diffs, 0, diffs.length) / Math.SQRT2;
-  if (Number.isFinite(minStep)) sigma0 = Math.max(sigma0, minStep / Math.sqrt(12));
+  // Below one ADC step the noise reads as zero; floor it at the step's own rounding noise
+  // (q/√12), but only when that step really recurs: a noise-free trace's few edges are not one.
+  let atStep = 0;
+  for (let j = 0; j < diffs.length; j++) if (Math.abs(Math.abs(diffs[j]) - minStep) <= 1e-9 * minStep) atStep++;
+  if (Number.isFinite(minStep) && atStep >= Math.max(3, 0.002 * diffs.length)) sigma0 = Math.max(sigma0, minStep / Math.sqrt(12));
 
   const L = findLaunch(y, t, dt, trace.amplitudeUnit, options.mode ?? 'auto', pulseHintSamples);
   const ySorted = sortedSample(y);

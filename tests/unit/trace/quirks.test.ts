@@ -134,6 +134,42 @@ describe('trace quirks', () => {
     }
   });
 
+  it('reads an ideal lossless bounce-diagram trace with one-sample edges', () => {
+    // Lattice model: reflections ρ = −0.3, +0.2 and +1 at 400, 1500 and 2400 samples after the
+    // launch, each arrival scaled by the round-trip transmission (1 − ρ²) of those before it.
+    const dt = 1e-9;
+    const vf = 0.7;
+    const mPerSample = (vf * 299_792_458 * dt) / 2;
+    const events: Array<[number, number]> = [
+      [400, -0.3],
+      [1500, 0.2],
+      [2400, 1],
+    ];
+    for (const mode of ['step', 'pulse'] as const) {
+      for (const noise of [0, 0.01]) {
+        let seed = 7;
+        const rnd = () => ((seed = (seed * 16807) % 2147483647) / 2147483647 - 0.5) * noise;
+        const t = new Float64Array(3000).map((_, i) => (i - 50) * dt);
+        const v = t.map((_, i) => {
+          const shape = (k: number) => (mode === 'step' ? (i >= k ? 1 : 0) : i >= k && i < k + 4 ? 1 : 0);
+          let x = shape(50);
+          let T = 1;
+          for (const [k, rho] of events) {
+            x += T * rho * shape(50 + k);
+            T *= 1 - rho * rho;
+          }
+          return x + rnd();
+        });
+        const a = analyzeTrace(traceOf(t, v), { vf });
+        expect(a.mode).toBe(mode);
+        expect(a.events.map((e) => e.type)).toEqual(['impedance-drop', 'impedance-rise', 'open']);
+        a.events.forEach((e, k) => expect(Math.abs(e.distanceM - events[k][0] * mPerSample)).toBeLessThanOrEqual(mPerSample));
+        expect(a.events[0].reflectionCoefficient).toBeCloseTo(-0.3, 2);
+        expect(a.events[1].reflectionCoefficient).toBeCloseTo(0.2 * 0.91, 1);
+      }
+    }
+  });
+
   it('rejects impossible options', () => {
     const tr = parseTraceCsv(writeLayout({ layout: 'time-ns-mv', timeS: sim.timeS, volts: sim.volts, incidentV: 1, instrumentVf: 0.66, cableName: 'c' }));
     for (const bad of [{ vf: 1.5 }, { vf: 0 }, { vf: 0.66, vfTolerance: -1 }, { vf: 0.66, z0Ohm: -50 }, { vf: 0.66, leadLengthM: -1 }]) {

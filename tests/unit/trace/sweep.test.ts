@@ -37,4 +37,13 @@ describe('simulator sweep', () => {
     expect(failures).toEqual([]);
     expect(worst.ofTolerance).toBeLessThanOrEqual(1);
   });
+
+  it('does the same on noise-free, unquantised simulations', () => {
+    const failures: string[] = [];
+    for (const c of buildSweep({ clean: true })) {
+      const r = scoreCase(c, analyzeCsv(c.csv, {}, { vf: c.vf, z0Ohm: c.z0Ohm }).events);
+      if (!r.ok) failures.push(`${c.id}: ${r.problems.join('; ')}`);
+    }
+    expect(failures).toEqual([]);
+  });
 });
