@@ -16,6 +16,8 @@ const ENTRY = 'Solid PE coax, 50 Ω';
 async function openEntry(page: import('playwright-core').Page, name: string) {
   await page.getByRole('link', { name: 'Cable library' }).first().click();
   await page.getByRole('heading', { name: 'Cable library' }).waitFor();
+  await page.getByRole('link', { name, exact: true }).waitFor();
+  await e2e.screenshot(page, `cables-list-${page.viewportSize()!.width}`);
   await page.getByLabel('Search by name, dielectric, construction or reference').fill(name);
   await page.getByRole('link', { name, exact: true }).click();
   await page.getByRole('heading', { name, exact: true }).waitFor();
@@ -57,6 +59,8 @@ describe('the cable library in the browser', () => {
     await page.getByRole('heading', { name: 'Cable library' }).waitFor();
     expect(await page.getByRole('link', { name: 'New cable type' }).count()).toBe(0);
     expect(await page.getByRole('link', { name: 'Import CSV' }).count()).toBe(0);
+    await page.getByRole('link', { name: ENTRY, exact: true }).waitFor();
+    await e2e.screenshot(page, 'cables-list-technician-phone');
     await page.getByLabel('Search by name, dielectric, construction or reference').fill(ENTRY);
     await page.getByRole('link', { name: ENTRY, exact: true }).click();
     await page.getByRole('heading', { name: ENTRY, exact: true }).waitFor();

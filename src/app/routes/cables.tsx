@@ -13,12 +13,13 @@ import { paths } from '../paths';
 
 const COLUMNS: Array<{ key: CableSort | null; label: string; className?: string }> = [
   { key: 'name', label: 'Name' },
-  { key: 'construction', label: 'Construction' },
-  { key: 'dielectric', label: 'Dielectric' },
-  { key: 'z0Ohm', label: 'Z0', className: 'text-right' },
+  // On a phone the name, VF and delay matter most; the rest shows on wider screens.
+  { key: 'construction', label: 'Construction', className: 'hidden md:table-cell' },
+  { key: 'dielectric', label: 'Dielectric', className: 'hidden xl:table-cell' },
+  { key: 'z0Ohm', label: 'Z0', className: 'hidden sm:table-cell text-right' },
   { key: 'vf', label: 'VF', className: 'text-right' },
-  { key: null, label: 'Delay', className: 'text-right' },
-  { key: 'vfSource', label: 'Source' },
+  { key: null, label: 'Delay', className: 'hidden sm:table-cell text-right' },
+  { key: 'vfSource', label: 'Source', className: 'hidden md:table-cell' },
 ];
 
 const linkButton = 'inline-flex min-h-11 items-center rounded-md px-4 text-sm font-semibold';
@@ -82,7 +83,7 @@ export function CablesPage() {
         ) : (
           <>
             <div className="mt-3 overflow-x-auto">
-              <table className="w-full min-w-[44rem] text-left text-sm" aria-label="Cable types">
+              <table className="w-full text-left text-sm" aria-label="Cable types">
                 <thead className="text-xs uppercase text-mist">
                   <tr>
                     {COLUMNS.map((c) => (
@@ -111,14 +112,14 @@ export function CablesPage() {
                           {c.name}
                         </Link>
                       </td>
-                      <td className="pr-3">{constructionLabel(c.construction)}</td>
-                      <td className="pr-3">{c.dielectric}</td>
-                      <td className="pr-3 text-right tabular">{c.z0Ohm} Ω</td>
-                      <td className="pr-3 text-right tabular whitespace-nowrap">
-                        {formatVf(c.vf)} <span className="text-xs text-mist">{formatTolerance(c.vfTolerance)}</span>
+                      <td className="hidden pr-3 md:table-cell">{constructionLabel(c.construction)}</td>
+                      <td className="hidden pr-3 xl:table-cell">{c.dielectric}</td>
+                      <td className="hidden whitespace-nowrap pr-3 text-right tabular sm:table-cell">{c.z0Ohm} Ω</td>
+                      <td className="whitespace-nowrap pr-3 text-right tabular">
+                        {formatVf(c.vf)} <span className="block text-xs text-mist sm:inline">{formatTolerance(c.vfTolerance)}</span>
                       </td>
-                      <td className="pr-3 text-right tabular whitespace-nowrap">{formatDelay(c.vf, unit)}</td>
-                      <td className="pr-3">
+                      <td className="hidden whitespace-nowrap pr-3 text-right tabular sm:table-cell">{formatDelay(c.vf, unit)}</td>
+                      <td className="hidden whitespace-nowrap pr-3 md:table-cell">
                         <Badge tone={c.vfSource === 'field-calibrated' ? 'ok' : c.vfSource === 'datasheet' ? 'info' : 'plain'}>{vfSourceLabel(c.vfSource)}</Badge>
                       </td>
                     </tr>
