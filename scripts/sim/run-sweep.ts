@@ -2,7 +2,8 @@
 import { analyzeCsv } from '../../shared/trace';
 import { buildSweep, scoreCase } from './sweep';
 
-const cases = buildSweep({ clean: process.argv.includes('--clean') });
+const scaleArg = process.argv.find((a) => a.startsWith('--noise-scale='));
+const cases = buildSweep({ clean: process.argv.includes('--clean'), noiseScale: scaleArg ? Number(scaleArg.split('=')[1]) : 1 });
 let worst = { m: 0, tol: 0, id: '' };
 let failed = 0;
 for (const c of cases) {

@@ -59,13 +59,13 @@ const BITS = [12, 10, 14];
 const INSTRUMENT_VF_OFFSET = [0, 0.02, -0.03];
 
 /** `clean` drops noise and quantisation (24-bit), to check the engine on noise-free simulations too. */
-export function buildSweep(opts: { clean?: boolean } = {}): SweepCase[] {
+export function buildSweep(opts: { clean?: boolean; noiseScale?: number } = {}): SweepCase[] {
   const out: SweepCase[] = [];
   let k = 0;
   for (const [r, route] of ROUTES.entries()) {
     for (const mode of route.modes ?? (['step', 'pulse'] as const)) {
       const scenario: Scenario = { ...route, name: `${route.cable.name}-${route.lengthM}m-${route.end}` };
-      const acq = defaultAcquisition(scenario, mode, 1000 + k, opts.clean ? 0 : NOISE[k % NOISE.length], opts.clean ? 24 : BITS[k % BITS.length]);
+      const acq = defaultAcquisition(scenario, mode, 1000 + k, opts.clean ? 0 : NOISE[k % NOISE.length] * (opts.noiseScale ?? 1), opts.clean ? 24 : BITS[k % BITS.length]);
       if (k % 4 === 1) acq.impairments.offsetV = 0.03;
       if (k % 5 === 2) acq.impairments.driftV = 0.01;
       const sim = simulateScenario(scenario, acq);
