@@ -175,5 +175,14 @@ describe('a repair from assignment to calibration', () => {
     await expect.poll(async () => (await list.textContent()) ?? '', { timeout: 10_000 }).toMatch(/assigned to you: Water in the cable on Feeder HN-3/);
     await e2e.screenshot(admin, 'outbox-admin-desktop');
     await admin.close();
+
+    const adminPhone = await e2e.newPage(PHONE);
+    await signIn(adminPhone, e2e.baseUrl, 'admin@example.com');
+    await adminPhone.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await adminPhone.goto(`${e2e.baseUrl}/outbox`);
+    await adminPhone.getByTestId('outbox-body').waitFor();
+    expect(await adminPhone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(PHONE.width);
+    await e2e.screenshot(adminPhone, 'outbox-admin-phone');
+    await adminPhone.close();
   });
 });

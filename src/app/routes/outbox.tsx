@@ -76,7 +76,7 @@ export function OutboxPage() {
           Mail goes to the {queue.data.relay}.
         </Notice>
       )}
-      <div className="grid gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)]">
+      <div className="grid grid-cols-[minmax(0,1fr)] gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)]">
         <Card title="Messages">
           <TextField label="Recipient contains" value={to} onChange={(e) => (setTo(e.target.value), setPage(1))} />
           {messages.isPending ? (
@@ -92,7 +92,11 @@ export function OutboxPage() {
                   <li key={m.id}>
                     <button
                       type="button"
-                      onClick={() => setSelectedId(m.id)}
+                      onClick={() => {
+                        setSelectedId(m.id);
+                        // On a phone the message is below the list: bring it into view.
+                        if (window.innerWidth < 1024) document.getElementById('outbox-message')?.scrollIntoView({ behavior: 'smooth', block: 'start' });
+                      }}
                       aria-current={selected?.id === m.id ? 'true' : undefined}
                       className={`block min-h-11 w-full px-2 py-2 text-left hover:bg-paper ${selected?.id === m.id ? 'border-l-4 border-copper bg-copper-light/40' : 'border-l-4 border-transparent'}`}
                     >
@@ -108,7 +112,7 @@ export function OutboxPage() {
             </>
           )}
         </Card>
-        <Card title="Message">{selected ? <MessageView message={selected} /> : <p className="text-sm text-mist">Choose a message.</p>}</Card>
+        <Card title={<span id="outbox-message">Message</span>}>{selected ? <MessageView message={selected} /> : <p className="text-sm text-mist">Choose a message.</p>}</Card>
       </div>
       <Card title="Send queue" className="mt-4">
         <div className="max-w-xs">
@@ -127,7 +131,7 @@ export function OutboxPage() {
           <>
             <ul className="mt-3 divide-y divide-rule">
               {queue.data.items.map((j) => (
-                <li key={j.id} className="flex flex-wrap items-center justify-between gap-2 py-2">
+                <li key={j.id} className="flex min-w-0 flex-wrap items-center justify-between gap-2 py-2 [overflow-wrap:anywhere]">
                   <MailStatusLine job={j} />
                   {j.status === 'failed' && (
                     <Button variant="secondary" onClick={() => retry.mutate(j.id)} disabled={retry.isPending}>
