@@ -55,9 +55,10 @@ function measure(file: string, repeats: number) {
   analyzeCsv(text, {}, { vf: 0.66, z0Ohm: 50 });
   const rssMb = process.resourceUsage().maxRSS / 1024;
   gc?.();
-  analyzeCsv(text, {}, { vf: 0.66, z0Ohm: 50 });
+  for (let r = 0; r < (text.length > 5e6 ? 1 : 20); r++) analyzeCsv(text, {}, { vf: 0.66, z0Ohm: 50 });
   for (let r = 0; r < repeats; r++) {
-    gc?.();
+    // A full collection before each large run keeps one run's garbage out of the next.
+    if (text.length > 5e6) gc?.();
     const t0 = performance.now();
     const a = analyzeCsv(text, {}, { vf: 0.66, z0Ohm: 50 });
     times.push(performance.now() - t0);
@@ -78,7 +79,7 @@ function main() {
     let ok = true;
     for (const [samples, repeats, goalMs] of [
       [1_000_000, 5, GOALS.largeMs],
-      [10_000, 50, GOALS.smallMs],
+      [10_000, 200, GOALS.smallMs],
     ] as const) {
       const file = join(dir, `trace-${samples}.csv`);
       writeFileSync(file, demoCsv(samples));
