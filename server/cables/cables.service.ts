@@ -1,4 +1,5 @@
 import { col, fn, Op, where, type Transaction, type WhereOptions } from 'sequelize';
+import { containsText } from '../db/search';
 import {
   type CableListQuery,
   type CableTypeChangeView,
@@ -66,26 +67,13 @@ export function changeView(h: CableTypeChange): CableTypeChangeView {
   };
 }
 
-function like(sequelize = CableType.sequelize!) {
-  // PostgreSQL's LIKE is case-sensitive; SQLite's is not for ASCII.
-  return sequelize.getDialect() === 'postgres' ? Op.iLike : Op.like;
-}
-
-/** PostgreSQL takes \\ as LIKE's escape; SQLite has none by default, where a stray % or _ only widens the search. */
-function escapeLike(q: string, sequelize = CableType.sequelize!) {
-  return sequelize.getDialect() === 'postgres' ? q.replace(/[\\%_]/g, (ch) => `\\${ch}`) : q;
-}
-
 export async function listCables(query: CableListQuery) {
   const clauses: WhereOptions<CableType>[] = [];
   if (query.q) {
-    const op = like();
     const words = query.q.split(/\s+/).filter(Boolean).slice(0, 6);
     for (const w of words) {
-      const pattern = `%${escapeLike(w)}%`;
-      clauses.push({
-        [Op.or]: [{ name: { [op]: pattern } }, { dielectric: { [op]: pattern } }, { construction: { [op]: pattern } }, { vfReference: { [op]: pattern } }],
-      });
+      const has = containsText(CableType.sequelize!, w);
+      clauses.push({ [Op.or]: [{ name: has }, { dielectric: has }, { construction: has }, { vfReference: has }] });
     }
   }
   if (query.construction) clauses.push({ construction: query.construction });
