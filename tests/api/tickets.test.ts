@@ -239,6 +239,23 @@ describe('repair tickets', () => {
     await planner.get(`/api/tickets/${ticketId}`).expect(200);
     await planner.post('/api/tickets', { findingIds: [f.id] }).expect(403);
   });
+
+  it('frees a withdrawn ticket’s findings, and a reopened repair takes a fresh close-out', async () => {
+    const f = await confirmedFinding(api, fx.run.id, 120);
+    const first = (await sup.post('/api/tickets', { findingIds: [f.id], assigneeId: api.users.technician.id }).expect(201)).body as TicketDetail;
+    const gone = await sup.post(`/api/tickets/${first.id}/status`, { to: 'withdrawn', comment: 'Raised twice' }).expect(200);
+    expect(gone.body.can).toEqual({ edit: false, moves: [], closeOut: false, comment: false });
+    await tech.post(`/api/tickets/${first.id}/status`, { to: 'under-way' }).expect(409);
+    const again = (await sup.post('/api/tickets', { findingIds: [f.id], assigneeId: api.users.technician.id }).expect(201)).body as TicketDetail;
+    const found = (m: number) => ({ found: { method: 'distance', fromEnd: 'A', distanceM: m }, cause: 'open-conductor', workDone: 'Joint' });
+    await tech.post(`/api/tickets/${again.id}/closeout`, found(121)).expect(200);
+    const reopened = await sup.post(`/api/tickets/${again.id}/status`, { to: 'under-way', comment: 'Still open-circuit' }).expect(200);
+    expect(reopened.body.status).toBe('under-way');
+    const second = (await tech.post(`/api/tickets/${again.id}/closeout`, found(123)).expect(200)).body as TicketDetail;
+    // Newest first: the second dig is the one that counts.
+    expect(second.closeouts.map((c) => c.foundDistanceM)).toEqual([123, 121]);
+    expect(second.timeline.filter((e) => e.kind === 'closeout').length).toBe(2);
+  });
 });
 
 describe('ticket e-mail through a relay that refuses at first', () => {
