@@ -16,7 +16,8 @@ const USAGE = `usage: analyze FILE... [--vf 0.66] [--z0 50] [--mode auto|step|pu
 function numberOption(name: string, raw: string | undefined): number | undefined {
   if (raw === undefined) return undefined;
   const v = Number(raw);
-  if (raw.trim() === '' || !Number.isFinite(v)) throw new TraceInputError('BAD_OPTION', `--${name} expects a number, got '${raw}'`);
+  if (raw.trim() === '' || !Number.isFinite(v))
+    throw new TraceInputError('BAD_OPTION', `--${name} expects a number, got '${raw}'`);
   return v;
 }
 
@@ -85,7 +86,9 @@ function table(file: string, a: TraceAnalysis, units: 'm' | 'ft'): string {
       `  ${pad('#', 3)}${pad(`distance (${u})`, 14, true)}  ${pad(`window (${u})`, 21)}${pad('ρ', 8, true)}${pad('Z (Ω)', 9, true)}  ${pad('type', 15)}note`,
     );
     for (const e of a.events) {
-      const note = [e.isCableEnd ? 'cable end' : '', e.likelyMultipleOf !== null ? `echo of #${e.likelyMultipleOf + 1}` : ''].filter(Boolean).join(', ');
+      const note = [e.isCableEnd ? 'cable end' : '', e.likelyMultipleOf !== null ? `echo of #${e.likelyMultipleOf + 1}` : '']
+        .filter(Boolean)
+        .join(', ');
       lines.push(
         `  ${pad(String(e.index + 1), 3)}${pad((e.distanceM * k).toFixed(2), 14, true)}  ${pad(`${(e.windowStartM * k).toFixed(2)} – ${(e.windowEndM * k).toFixed(2)}`, 21)}` +
           `${pad((e.reflectionCoefficient >= 0 ? '+' : '') + e.reflectionCoefficient.toFixed(3), 8, true)}${pad(e.impedanceOhm !== null ? e.impedanceOhm.toFixed(1) : '–', 9, true)}  ${pad(e.type, 15)}${note}`,
@@ -159,12 +162,18 @@ function main(argv: string[]): number {
         zeroOffsetNs: numberOption('zero-ns', values['zero-ns']),
         leadLengthM: numberOption('lead-m', values['lead-m']),
       });
-      if (vfArg === undefined) analysis.warnings.push({ code: 'VF_FROM_FILE', message: `velocity factor ${vf} taken from the file` });
+      if (vfArg === undefined)
+        analysis.warnings.push({ code: 'VF_FROM_FILE', message: `velocity factor ${vf} taken from the file` });
       if (values.json) results.push(toJson(file, analysis, units));
       else process.stdout.write(`${table(file, analysis, units)}\n`);
     } catch (err) {
       failed++;
-      const msg = err instanceof TraceInputError ? err.message : (err as NodeJS.ErrnoException).code === 'ENOENT' ? 'no such file' : (err as Error).message;
+      const msg =
+        err instanceof TraceInputError
+          ? err.message
+          : (err as NodeJS.ErrnoException).code === 'ENOENT'
+            ? 'no such file'
+            : (err as Error).message;
       process.stderr.write(`analyze: ${file}: ${msg.replace(/\s+/g, ' ')}\n`);
     }
   }

@@ -23,7 +23,9 @@ function demoCsv(samples: number): string {
     const s = Math.sign(x);
     const a = Math.abs(x);
     const t = 1 / (1 + 0.3275911 * a);
-    return s * (1 - ((((1.061405429 * t - 1.453152027) * t + 1.421413741) * t - 0.284496736) * t + 0.254829592) * t * Math.exp(-a * a));
+    return (
+      s * (1 - ((((1.061405429 * t - 1.453152027) * t + 1.421413741) * t - 0.284496736) * t + 0.254829592) * t * Math.exp(-a * a))
+    );
   };
   const edge = (t: number, at: number, w: number) => 0.5 * (1 + erf((t - at) / w));
   const lsb = 5 / 4096;
@@ -84,9 +86,13 @@ function main() {
       const file = join(dir, `trace-${samples}.csv`);
       writeFileSync(file, demoCsv(samples));
       const mb = statSync(file).size / 1e6;
-      const out = execFileSync(process.execPath, ['--expose-gc', ...process.execArgv, process.argv[1], '--measure', file, String(repeats)], {
-        encoding: 'utf8',
-      });
+      const out = execFileSync(
+        process.execPath,
+        ['--expose-gc', ...process.execArgv, process.argv[1], '--measure', file, String(repeats)],
+        {
+          encoding: 'utf8',
+        },
+      );
       const r = JSON.parse(out) as { medianMs: number; bestMs: number; events: number; rssMb: number; baseRssMb: number };
       const rate = samples / (r.medianMs / 1000);
       // Memory goal: what reading and analysing the trace adds to the process.

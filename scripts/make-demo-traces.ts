@@ -12,7 +12,15 @@ import { defaultAcquisition, simulateScenario, type Scenario } from './sim/scena
 
 const OUT = join(import.meta.dirname, '..', 'server', 'db', 'demo', 'traces');
 
-const DEMOS: Array<{ file: string; title: string; scenario: Scenario; mode: 'step' | 'pulse'; layout: Layout; instrumentVf: number; seed: number }> = [
+const DEMOS: Array<{
+  file: string;
+  title: string;
+  scenario: Scenario;
+  mode: 'step' | 'pulse';
+  layout: Layout;
+  instrumentVf: number;
+  seed: number;
+}> = [
   {
     file: 'coax-feeder-open.csv',
     title: 'Antenna feeder, 50 Ω coax, broken at the mast clamp',
@@ -66,9 +74,19 @@ const manifest = DEMOS.map((d) => {
   const sim = simulateScenario(d.scenario, acq);
   writeFileSync(
     join(OUT, d.file),
-    writeLayout({ layout: d.layout, timeS: sim.timeS, volts: sim.volts, incidentV: sim.incidentV, instrumentVf: d.instrumentVf, cableName: d.scenario.cable.name, z0Ohm: d.scenario.cable.z0Ohm }),
+    writeLayout({
+      layout: d.layout,
+      timeS: sim.timeS,
+      volts: sim.volts,
+      incidentV: sim.incidentV,
+      instrumentVf: d.instrumentVf,
+      cableName: d.scenario.cable.name,
+      z0Ohm: d.scenario.cable.z0Ohm,
+    }),
   );
-  const faults = sim.expected.filter((e) => !e.what.startsWith('cable end') && e.what !== 'splice' && e.what !== 'wet section end');
+  const faults = sim.expected.filter(
+    (e) => !e.what.startsWith('cable end') && e.what !== 'splice' && e.what !== 'wet section end',
+  );
   return {
     file: d.file,
     title: d.title,

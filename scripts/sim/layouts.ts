@@ -45,7 +45,12 @@ export function writeLayout(o: WriteOptions): string {
       for (let i = 0; i < n; i++) rows.push(`${num(t[i] * 1e9)},${num(v[i] * 1e3, 7)}`);
       return rows.join('\n') + '\n';
     case 'time-s-v-comments':
-      rows.push('# instrument: simulated reflectometer', `# cable: ${o.cableName}`, `# velocity factor: ${o.instrumentVf}`, `# impedance: ${o.z0Ohm ?? 50} ohm`);
+      rows.push(
+        '# instrument: simulated reflectometer',
+        `# cable: ${o.cableName}`,
+        `# velocity factor: ${o.instrumentVf}`,
+        `# impedance: ${o.z0Ohm ?? 50} ohm`,
+      );
       rows.push('Time (s),Amplitude (V)');
       for (let i = 0; i < n; i++) rows.push(`${num(t[i], 12)},${num(v[i], 7)}`);
       return rows.join('\r\n') + '\r\n\r\n';
@@ -62,7 +67,12 @@ export function writeLayout(o: WriteOptions): string {
       for (let i = 0; i < n; i++) rows.push(num(v[i], 7));
       return rows.join('\n') + '\n';
     case 'distance-m-preamble': {
-      rows.push('Instrument,simulated reflectometer', `Cable,${o.cableName}`, `Velocity factor,${o.instrumentVf}`, 'Distance (m),Level (V)');
+      rows.push(
+        'Instrument,simulated reflectometer',
+        `Cable,${o.cableName}`,
+        `Velocity factor,${o.instrumentVf}`,
+        'Distance (m),Level (V)',
+      );
       const k = (o.instrumentVf * C0) / 2;
       for (let i = 0; i < n; i++) rows.push(`${num(t[i] * k, 12)},${num(v[i], 7)}`);
       return rows.join('\n') + '\n';

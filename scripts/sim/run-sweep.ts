@@ -12,11 +12,20 @@ for (const c of cases) {
     const r = scoreCase(c, a.events);
     if (r.worstErrorOfTolerance > worst.tol) worst = { m: r.worstErrorM, tol: r.worstErrorOfTolerance, id: c.id };
     if (!r.ok) failed++;
-    const got = a.events.map((e) => `${e.distanceM.toFixed(2)}(${e.reflectionCoefficient.toFixed(2)})${e.type[0]}${e.type.includes('-') ? e.type.split('-')[1][0] : ''}${e.likelyMultipleOf !== null ? '*' : ''}`).join(' ');
-    console.log(`${r.ok ? 'ok  ' : 'FAIL'} ${c.id} [${a.mode}] exp ${c.expected.map((e) => e.distanceM.toFixed(2)).join(' ')} | got ${got}${r.ok ? '' : '\n       ' + r.problems.join('; ')}`);
+    const got = a.events
+      .map(
+        (e) =>
+          `${e.distanceM.toFixed(2)}(${e.reflectionCoefficient.toFixed(2)})${e.type[0]}${e.type.includes('-') ? e.type.split('-')[1][0] : ''}${e.likelyMultipleOf !== null ? '*' : ''}`,
+      )
+      .join(' ');
+    console.log(
+      `${r.ok ? 'ok  ' : 'FAIL'} ${c.id} [${a.mode}] exp ${c.expected.map((e) => e.distanceM.toFixed(2)).join(' ')} | got ${got}${r.ok ? '' : '\n       ' + r.problems.join('; ')}`,
+    );
   } catch (err) {
     failed++;
     console.log(`FAIL ${c.id} threw ${(err as Error).message}`);
   }
 }
-console.log(`${cases.length} traces, ${failed} failed; worst error ${worst.m.toFixed(3)} m (${(worst.tol * 100).toFixed(0)} % of its tolerance) in ${worst.id}`);
+console.log(
+  `${cases.length} traces, ${failed} failed; worst error ${worst.m.toFixed(3)} m (${(worst.tol * 100).toFixed(0)} % of its tolerance) in ${worst.id}`,
+);

@@ -3,7 +3,16 @@
  * simulator network and lists the events an ideal engine should report, at
  * their apparent distance (using the cable's nominal VF).
  */
-import { type CableModel, type Element, type Impairments, type Network, type Termination, simulate, impair, C0 } from './line-model';
+import {
+  type CableModel,
+  type Element,
+  type Impairments,
+  type Network,
+  type Termination,
+  simulate,
+  impair,
+  C0,
+} from './line-model';
 import { variant } from './cables';
 
 export type Feature =
@@ -77,7 +86,11 @@ export function buildNetwork(sc: Scenario): { net: Network; expected: ExpectedEv
       case 'wet': {
         const wet = variant(sc.cable, f.zScale, f.vfScale, 'wet');
         elements.push({ kind: 'line', lengthM: f.lengthM, cable: wet });
-        expected.push({ distanceM: apparent, type: f.zScale < 1 ? 'impedance-drop' : 'impedance-rise', what: 'wet section start' });
+        expected.push({
+          distanceM: apparent,
+          type: f.zScale < 1 ? 'impedance-drop' : 'impedance-rise',
+          what: 'wet section start',
+        });
         extra += f.lengthM / f.vfScale - f.lengthM;
         expected.push({
           distanceM: f.atM + extra + f.lengthM,
@@ -132,7 +145,13 @@ export interface Acquisition {
 }
 
 /** A reasonable instrument set-up for a route: record 1.35× the round trip, edge ~1/400 of it. */
-export function defaultAcquisition(sc: Scenario, mode: 'step' | 'pulse', seed: number, noiseFrac = 0.003, bits = 12): Acquisition {
+export function defaultAcquisition(
+  sc: Scenario,
+  mode: 'step' | 'pulse',
+  seed: number,
+  noiseFrac = 0.003,
+  bits = 12,
+): Acquisition {
   const rt = (2 * sc.lengthM) / (sc.cable.vf * C0);
   const dt = niceInterval(rt / 1500);
   const rise = Math.max(4 * dt, rt / 400);

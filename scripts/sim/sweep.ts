@@ -41,7 +41,15 @@ const ROUTES: Route[] = [
   { cable: POWER_LV, lengthM: 400, end: 'matched', features: [] },
   { cable: POWER_MV, lengthM: 450, end: 'open', features: [{ kind: 'splice', atM: 180, lengthM: 0.6, zScale: 0.6 }] },
   { cable: POWER_MV, lengthM: 1200, end: 'open', features: [{ kind: 'shunt', atM: 730, rOhm: 15 }] },
-  { cable: POWER_MV, lengthM: 2000, end: 'open', features: [{ kind: 'splice', atM: 820, lengthM: 4, zScale: 0.6 }, { kind: 'shunt', atM: 1450, rOhm: 15 }] },
+  {
+    cable: POWER_MV,
+    lengthM: 2000,
+    end: 'open',
+    features: [
+      { kind: 'splice', atM: 820, lengthM: 4, zScale: 0.6 },
+      { kind: 'shunt', atM: 1450, rOhm: 15 },
+    ],
+  },
   { cable: POWER_MV, lengthM: 3000, end: 'open', features: [] },
   { cable: POWER_MV, lengthM: 2600, end: 'matched', features: [{ kind: 'short', atM: 1810, rOhm: 0.3 }] },
   { cable: POWER_MV, lengthM: 1500, end: 'matched', features: [] },
@@ -65,7 +73,13 @@ export function buildSweep(opts: { clean?: boolean; noiseScale?: number } = {}):
   for (const [r, route] of ROUTES.entries()) {
     for (const mode of route.modes ?? (['step', 'pulse'] as const)) {
       const scenario: Scenario = { ...route, name: `${route.cable.name}-${route.lengthM}m-${route.end}` };
-      const acq = defaultAcquisition(scenario, mode, 1000 + k, opts.clean ? 0 : NOISE[k % NOISE.length] * (opts.noiseScale ?? 1), opts.clean ? 24 : BITS[k % BITS.length]);
+      const acq = defaultAcquisition(
+        scenario,
+        mode,
+        1000 + k,
+        opts.clean ? 0 : NOISE[k % NOISE.length] * (opts.noiseScale ?? 1),
+        opts.clean ? 24 : BITS[k % BITS.length],
+      );
       if (k % 4 === 1) acq.impairments.offsetV = 0.03;
       if (k % 5 === 2) acq.impairments.driftV = 0.01;
       const sim = simulateScenario(scenario, acq);
@@ -126,13 +140,16 @@ export function scoreCase(
     });
     if (best < 0 || bestErr > tol) {
       if (e.optional) continue;
-      problems.push(`missed ${e.what} at ${e.distanceM.toFixed(2)} m (nearest ${best < 0 ? 'none' : events[best].distanceM.toFixed(2)})`);
+      problems.push(
+        `missed ${e.what} at ${e.distanceM.toFixed(2)} m (nearest ${best < 0 ? 'none' : events[best].distanceM.toFixed(2)})`,
+      );
       continue;
     }
     used.add(best);
     worstErrorM = Math.max(worstErrorM, bestErr);
     worstErrorOfTolerance = Math.max(worstErrorOfTolerance, bestErr / tol);
-    if (events[best].type !== e.type && !e.optional) problems.push(`${e.what} at ${e.distanceM.toFixed(2)} m typed ${events[best].type}, expected ${e.type}`);
+    if (events[best].type !== e.type && !e.optional)
+      problems.push(`${e.what} at ${e.distanceM.toFixed(2)} m typed ${events[best].type}, expected ${e.type}`);
   }
   events.forEach((g, i) => {
     if (!used.has(i) && g.likelyMultipleOf === null) problems.push(`false event ${g.type} at ${g.distanceM.toFixed(2)} m`);

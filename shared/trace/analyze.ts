@@ -240,12 +240,15 @@ function validateOptions(o: AnalyzeOptions): void {
     throw new TraceInputError('BAD_OPTION', `${field} ${msg}`, { field });
   };
   if (!(Number.isFinite(o.vf) && o.vf > 0 && o.vf <= 1)) bad('vf', 'must be a velocity factor between 0 and 1');
-  if (o.vfTolerance !== undefined && !(o.vfTolerance >= 0 && o.vfTolerance < 0.5)) bad('vfTolerance', 'must be a fraction between 0 and 0.5');
+  if (o.vfTolerance !== undefined && !(o.vfTolerance >= 0 && o.vfTolerance < 0.5))
+    bad('vfTolerance', 'must be a fraction between 0 and 0.5');
   if (o.z0Ohm !== undefined && !(Number.isFinite(o.z0Ohm) && o.z0Ohm > 0)) bad('z0Ohm', 'must be a positive impedance in ohms');
   if (o.mode !== undefined && !['auto', 'step', 'pulse'].includes(o.mode)) bad('mode', "must be 'auto', 'step' or 'pulse'");
   if (o.zeroOffsetNs !== undefined && !Number.isFinite(o.zeroOffsetNs)) bad('zeroOffsetNs', 'must be a number of nanoseconds');
-  if (o.leadLengthM !== undefined && !(Number.isFinite(o.leadLengthM) && o.leadLengthM >= 0)) bad('leadLengthM', 'must be a length of 0 m or more');
-  if (o.pulseWidthNs !== undefined && !(Number.isFinite(o.pulseWidthNs) && o.pulseWidthNs > 0)) bad('pulseWidthNs', 'must be a positive number of nanoseconds');
+  if (o.leadLengthM !== undefined && !(Number.isFinite(o.leadLengthM) && o.leadLengthM >= 0))
+    bad('leadLengthM', 'must be a length of 0 m or more');
+  if (o.pulseWidthNs !== undefined && !(Number.isFinite(o.pulseWidthNs) && o.pulseWidthNs > 0))
+    bad('pulseWidthNs', 'must be a positive number of nanoseconds');
 }
 
 /** Time of a fractional sample index on the trace's (uniform) axis. */
@@ -352,9 +355,7 @@ function findLaunch(
   const looksPulse =
     iFall > 0 &&
     stays &&
-    (pulseHintSamples !== null
-      ? widthSamples! < 3 * pulseHintSamples + 4 * riseSamples
-      : widthSamples! < 0.15 * (n - ic));
+    (pulseHintSamples !== null ? widthSamples! < 3 * pulseHintSamples + 4 * riseSamples : widthSamples! < 0.15 * (n - ic));
   const mode: Mode = modeOpt === 'auto' ? (looksPulse ? 'pulse' : 'step') : modeOpt;
   let height: number;
   let settleIdx: number;
@@ -662,7 +663,9 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
   const thrOf = new Map(scales.map((w, k) => [w, thresholds[k] ?? rhoMin]));
   for (const [w, list] of byScale) {
     for (const c of list) {
-      const lobe = list.some((m) => m !== c && m.sign !== c.sign && Math.abs(m.f) > 1.6 * Math.abs(c.f) && Math.abs(m.i - c.i) <= 2 * w);
+      const lobe = list.some(
+        (m) => m !== c && m.sign !== c.sign && Math.abs(m.f) > 1.6 * Math.abs(c.f) && Math.abs(m.i - c.i) <= 2 * w,
+      );
       // A side lobe sits beside a step of the other sign: the level across it moves against F.
       const before = mean(Math.max(0, c.i - 2 * w), Math.max(1, c.i - w));
       const after = mean(Math.min(n - 1, c.i + w), Math.min(n, c.i + 2 * w));
@@ -766,7 +769,8 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     if (
       last &&
       Math.sign(last.height) !== Math.sign(m.height) &&
-      m.onsetIdx - last.onsetIdx < Math.max(1.5 * Math.max(last.w, m.w), 2 * w0, 1.5 * last.riseSamples, 3 * (L.widthSamples ?? 0)) &&
+      m.onsetIdx - last.onsetIdx <
+        Math.max(1.5 * Math.max(last.w, m.w), 2 * w0, 1.5 * last.riseSamples, 3 * (L.widthSamples ?? 0)) &&
       Math.abs(last.height + m.height) < 0.75 * Math.abs(last.height)
     ) {
       last.blip = true;
@@ -795,7 +799,8 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     for (let si = 0; si < ei; si++) {
       const sm = merged[si];
       if (Math.abs(e.height) > Math.abs(sm.height)) continue;
-      if (Math.abs(sm.height) >= 0.3 && (Math.abs(rtOf(e) - 2 * rtOf(sm)) < tol || Math.abs(rtOf(e) - 3 * rtOf(sm)) < tol)) return true;
+      if (Math.abs(sm.height) >= 0.3 && (Math.abs(rtOf(e) - 2 * rtOf(sm)) < tol || Math.abs(rtOf(e) - 3 * rtOf(sm)) < tol))
+        return true;
       for (let ai = 0; ai < si; ai++) {
         const bounce = Math.abs(merged[ai].height * sm.height);
         if (Math.abs(rtOf(e) - (2 * rtOf(sm) - rtOf(merged[ai]))) < tol && Math.abs(e.height) < 1.5 * bounce + 0.02) return true;
@@ -821,7 +826,8 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
         onsetIdx = measureOnset(ps, iPk, zero, pk, m.fLo, from, iPk).onset;
         let lPk = L.idx;
         for (let i = L.idx; i < Math.min(n, L.settleIdx); i++) if (ps[i] > ps[lPk]) lPk = i;
-        if (zeroOverride === null) zeroIdx = measureOnset(ps, lPk, zero, ps[lPk], m.fLo, Math.max(0, L.idx - 4 * L.riseSamples), lPk).onset;
+        if (zeroOverride === null)
+          zeroIdx = measureOnset(ps, lPk, zero, ps[lPk], m.fLo, Math.max(0, L.idx - 4 * L.riseSamples), lPk).onset;
       }
     }
     const rtSamples = onsetIdx - zeroIdx;
@@ -841,7 +847,8 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     const settling = m.stillMoving > 0.05;
     let type: ReflectionType;
     if (!m.blip && (rhoLocal >= 0.75 || (isLast && rhoLocal >= 0.35) || (isLast && settling && rhoLocal >= 0.3))) type = 'open';
-    else if (!m.blip && (rhoLocal <= -0.75 || (isLast && rhoLocal <= -0.45) || (isLast && settling && rhoLocal <= -0.3))) type = 'short';
+    else if (!m.blip && (rhoLocal <= -0.75 || (isLast && rhoLocal <= -0.45) || (isLast && settling && rhoLocal <= -0.3)))
+      type = 'short';
     else type = rho > 0 ? 'impedance-rise' : 'impedance-drop';
     if (!m.blip) transmission *= (1 - Math.min(0.95, Math.abs(rhoLocal))) ** 2;
     // An impedance is only meaningful for a step trace, a known Z0, and an event that is
@@ -849,7 +856,9 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     const impedanceOhm =
       mode === 'step' && z0 !== null && !m.blip && type !== 'open' && type !== 'short' ? impedanceFromReflection(rho, z0) : null;
     const amplitudeRaw =
-      mode === 'step' ? rho * Math.abs(L.found || trace.amplitudeUnit !== 'rho' ? L.height : 1) : m.echoPeak * (L.found ? L.height : 1);
+      mode === 'step'
+        ? rho * Math.abs(L.found || trace.amplitudeUnit !== 'rho' ? L.height : 1)
+        : m.echoPeak * (L.found ? L.height : 1);
     events.push({
       index: events.length,
       roundTripNs: roundTripS * 1e9,
@@ -878,7 +887,12 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
   for (const e of events) {
     const tol = Math.max(3 * dt * 1e9, 0.6 * e.riseTimeNs, 0.004 * e.roundTripNs);
     for (const s of events) {
-      if (s.index >= e.index || Math.abs(s.reflectionCoefficient) < 0.1 || Math.abs(e.reflectionCoefficient) > Math.abs(s.reflectionCoefficient)) continue;
+      if (
+        s.index >= e.index ||
+        Math.abs(s.reflectionCoefficient) < 0.1 ||
+        Math.abs(e.reflectionCoefficient) > Math.abs(s.reflectionCoefficient)
+      )
+        continue;
       const strong = Math.abs(s.reflectionCoefficient) >= 0.3;
       if (strong && (Math.abs(e.roundTripNs - 2 * s.roundTripNs) < tol || Math.abs(e.roundTripNs - 3 * s.roundTripNs) < tol)) {
         e.likelyMultipleOf = s.index;
@@ -887,7 +901,10 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
       for (const a of events) {
         if (a.index >= s.index || a.likelyMultipleOf !== null) continue;
         const bounce = Math.abs(a.reflectionCoefficient * s.reflectionCoefficient);
-        if (Math.abs(e.roundTripNs - (2 * s.roundTripNs - a.roundTripNs)) < tol && Math.abs(e.reflectionCoefficient) < 1.5 * bounce + 0.02) {
+        if (
+          Math.abs(e.roundTripNs - (2 * s.roundTripNs - a.roundTripNs)) < tol &&
+          Math.abs(e.reflectionCoefficient) < 1.5 * bounce + 0.02
+        ) {
           e.likelyMultipleOf = s.index;
           break;
         }

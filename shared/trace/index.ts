@@ -10,7 +10,14 @@ import { parseTraceCsv, type ParseOptions } from './parse';
 import type { TraceAnalysis } from '../schemas/trace-analysis';
 
 export { analyzeTrace, type AnalyzeOptions } from './analyze';
-export { parseTraceCsv, DEFAULT_MAX_BYTES, type ParseOptions, type ParsedTrace, type TraceLayout, type TraceHints } from './parse';
+export {
+  parseTraceCsv,
+  DEFAULT_MAX_BYTES,
+  type ParseOptions,
+  type ParsedTrace,
+  type TraceLayout,
+  type TraceHints,
+} from './parse';
 export { TraceInputError, type TraceInputErrorCode } from './errors';
 export { decimateMinMax, type TracePoint } from './decimate';
 export { ENGINE_VERSION } from './version';

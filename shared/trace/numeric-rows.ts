@@ -42,7 +42,9 @@ export interface BodyColumns {
   reader: 'fast' | 'csv-parse';
 }
 
-const POW10 = [1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22];
+const POW10 = [
+  1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22,
+];
 
 const NON_FINITE = /^[+-]?(nan|inf|infinity|∞)$/i;
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
@@ -61,10 +63,18 @@ export function numberFromField(raw: string, decimalComma: boolean, line: number
   if (NUMBER.test(s)) {
     const v = Number(s);
     if (Number.isFinite(v)) return v;
-    throw new TraceInputError('NOT_FINITE', `value '${raw.trim()}' in column ${column} is out of range; expected a finite number`, { line, field: column });
+    throw new TraceInputError(
+      'NOT_FINITE',
+      `value '${raw.trim()}' in column ${column} is out of range; expected a finite number`,
+      { line, field: column },
+    );
   }
   if (NON_FINITE.test(s)) {
-    throw new TraceInputError('NOT_FINITE', `value '${raw.trim()}' in column ${column} is not a finite number; expected a measured value`, { line, field: column });
+    throw new TraceInputError(
+      'NOT_FINITE',
+      `value '${raw.trim()}' in column ${column} is not a finite number; expected a measured value`,
+      { line, field: column },
+    );
   }
   const shown = raw.trim().length > 40 ? `${raw.trim().slice(0, 40)}…` : raw.trim();
   throw new TraceInputError('NOT_A_NUMBER', `'${shown}' in column ${column} is not a number`, { line, field: column });
@@ -248,7 +258,12 @@ export function readBodyFast(spec: BodySpec): BodyColumns | null {
         if (ws) continue;
         continue;
       }
-      if (ws && i > fieldStart && (text.charCodeAt(i - 1) === 32 || text.charCodeAt(i - 1) === 9) && !(c === 10 || c === 13 || i >= n)) {
+      if (
+        ws &&
+        i > fieldStart &&
+        (text.charCodeAt(i - 1) === 32 || text.charCodeAt(i - 1) === 9) &&
+        !(c === 10 || c === 13 || i >= n)
+      ) {
         continue;
       }
       if (c === 10 || c === 13 || i >= n) break;

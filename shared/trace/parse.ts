@@ -154,7 +154,17 @@ function splitKeyValue(s: string): [string, string] | null {
   return [m[1].trim(), m[2].trim()];
 }
 
-const VF_KEYS = new Set(['vf', 'velocity factor', 'nvp', 'vop', 'velocity of propagation', 'propagation velocity', 'instrument vf', 'cable vf', 'vp']);
+const VF_KEYS = new Set([
+  'vf',
+  'velocity factor',
+  'nvp',
+  'vop',
+  'velocity of propagation',
+  'propagation velocity',
+  'instrument vf',
+  'cable vf',
+  'vp',
+]);
 const DT_KEYS = new Set([
   'sample interval',
   'sampling interval',
@@ -175,10 +185,30 @@ const DT_KEYS = new Set([
   'horizontal interval',
 ]);
 const RATE_KEYS = new Set(['sample rate', 'sampling rate', 'sample frequency', 'sampling frequency', 'rate']);
-const START_KEYS = new Set(['start', 'start time', 't0', 'time offset', 'x origin', 'xorigin', 'first sample time', 'trigger offset', 'time zero', 'start of record']);
+const START_KEYS = new Set([
+  'start',
+  'start time',
+  't0',
+  'time offset',
+  'x origin',
+  'xorigin',
+  'first sample time',
+  'trigger offset',
+  'time zero',
+  'start of record',
+]);
 const PULSE_KEYS = new Set(['pulse width', 'pulse', 'pulse duration', 'pulse length', 'pulsewidth']);
 const Z0_KEYS = new Set(['z0', 'impedance', 'characteristic impedance', 'nominal impedance', 'cable impedance', 'z']);
-const AMP_UNIT_KEYS = new Set(['amplitude unit', 'amplitude units', 'y unit', 'y units', 'vertical unit', 'vertical units', 'units', 'unit']);
+const AMP_UNIT_KEYS = new Set([
+  'amplitude unit',
+  'amplitude units',
+  'y unit',
+  'y units',
+  'vertical unit',
+  'vertical units',
+  'units',
+  'unit',
+]);
 const TIME_UNIT_KEYS = new Set(['time unit', 'time units', 'x unit', 'x units', 'horizontal unit', 'horizontal units']);
 const DIST_UNIT_KEYS = new Set(['distance unit', 'distance units', 'length unit']);
 
@@ -191,11 +221,14 @@ interface MetaScan {
 
 function timeSeconds(value: string, keyUnit: string | null, key: string, line: number | undefined): number {
   const q = splitQuantity(value);
-  if (!q) throw new TraceInputError('BAD_METADATA', `metadata '${key}' is '${value}'; expected a time such as '0.5 ns'`, { line });
+  if (!q)
+    throw new TraceInputError('BAD_METADATA', `metadata '${key}' is '${value}'; expected a time such as '0.5 ns'`, { line });
   const unit = q.unit ?? keyUnit;
   if (unit === null) {
     if (Math.abs(q.number) < 1e-3) return q.number;
-    throw new TraceInputError('BAD_METADATA', `metadata '${key}' is '${value}' with no unit; expected a time such as '0.5 ns'`, { line });
+    throw new TraceInputError('BAD_METADATA', `metadata '${key}' is '${value}' with no unit; expected a time such as '0.5 ns'`, {
+      line,
+    });
   }
   const scale = timeUnitScale(unit);
   if (scale === undefined) {
@@ -217,17 +250,35 @@ function scanMetadata(meta: Array<{ key: string; value: string; line: number }>)
       else if (unit === 'm/us' || unit === 'm/µs' || unit === 'm/μs') vf = (vf * 1e6) / SPEED_OF_LIGHT_M_PER_S;
       else if (unit === 'm/s') vf /= SPEED_OF_LIGHT_M_PER_S;
       if (!(vf > 0 && vf <= 1)) {
-        throw new TraceInputError('BAD_METADATA', `metadata '${key}' is '${value}'; expected a velocity factor between 0 and 1`, { line });
+        throw new TraceInputError('BAD_METADATA', `metadata '${key}' is '${value}'; expected a velocity factor between 0 and 1`, {
+          line,
+        });
       }
       out.hints.instrumentVf = vf;
     } else if (DT_KEYS.has(k)) {
       const s = timeSeconds(value, keyUnit, key, line);
-      if (!(s > 0)) throw new TraceInputError('BAD_METADATA', `metadata '${key}' is '${value}'; expected a positive sample interval`, { line });
+      if (!(s > 0))
+        throw new TraceInputError('BAD_METADATA', `metadata '${key}' is '${value}'; expected a positive sample interval`, {
+          line,
+        });
       out.hints.sampleIntervalNs = s * 1e9;
     } else if (RATE_KEYS.has(k)) {
       const q = splitQuantity(value);
       const unit = (q?.unit ?? keyUnit ?? '').toLowerCase();
-      const mult: Record<string, number> = { hz: 1, 's/s': 1, khz: 1e3, mhz: 1e6, ghz: 1e9, 'ks/s': 1e3, 'ms/s': 1e6, 'gs/s': 1e9, sa: 1, 'sa/s': 1, 'gsa/s': 1e9, 'msa/s': 1e6 };
+      const mult: Record<string, number> = {
+        hz: 1,
+        's/s': 1,
+        khz: 1e3,
+        mhz: 1e6,
+        ghz: 1e9,
+        'ks/s': 1e3,
+        'ms/s': 1e6,
+        'gs/s': 1e9,
+        sa: 1,
+        'sa/s': 1,
+        'gsa/s': 1e9,
+        'msa/s': 1e6,
+      };
       if (q && q.number > 0 && unit in mult) out.hints.sampleIntervalNs = 1e9 / (q.number * mult[unit]);
     } else if (START_KEYS.has(k)) {
       out.hints.startNs = timeSeconds(value, keyUnit, key, line) * 1e9;
@@ -322,7 +373,8 @@ export function parseTraceCsv(input: string, options: ParseOptions = {}): Parsed
     }
   }
   let delimiter = detectDelimiter(samples);
-  let decimalComma = (delimiter === ';' || delimiter === '\t' || delimiter === 'whitespace') && samples.some((s) => s.includes(','));
+  let decimalComma =
+    (delimiter === ';' || delimiter === '\t' || delimiter === 'whitespace') && samples.some((s) => s.includes(','));
   const rows = head.filter((r) => !r.comment);
   const headDelimiter: Delimiter =
     delimiter ?? ([';', '\t', ','] as const).find((d) => rows.some((r) => r.text.includes(d))) ?? null;
@@ -350,7 +402,8 @@ export function parseTraceCsv(input: string, options: ParseOptions = {}): Parsed
   const headerRows = new Set<number>();
   // Rows of broken numbers (NaN, text) just above the first clean row belong to the data, not the header.
   let headRows = rows.length;
-  while (headRows > 0 && rowCells[headRows - 1].length === columnCount && isNumericCell(rowCells[headRows - 1][0] ?? '')) headRows--;
+  while (headRows > 0 && rowCells[headRows - 1].length === columnCount && isNumericCell(rowCells[headRows - 1][0] ?? ''))
+    headRows--;
   const lastHeadRow = headRows > 0 ? rows[headRows - 1] : undefined;
   if (lastHeadRow) {
     const lastRow = lastHeadRow;
@@ -466,11 +519,16 @@ export function parseTraceCsv(input: string, options: ParseOptions = {}): Parsed
   let body: BodyColumns | null = options.reader === 'csv-parse' ? null : readBodyFast(spec);
   if (body === null) body = readBodyCsvParse(spec);
   const count = body.rows;
-  if (count === 0) throw new TraceInputError('NO_NUMERIC_ROWS', 'no rows of numbers were found; expected numeric rows after the header');
+  if (count === 0)
+    throw new TraceInputError('NO_NUMERIC_ROWS', 'no rows of numbers were found; expected numeric rows after the header');
   if (count < minSamples) {
-    throw new TraceInputError('TOO_FEW_SAMPLES', `only ${count} sample${count === 1 ? '' : 's'} found; at least ${minSamples} are needed`, {
-      line: body.lastRowLine,
-    });
+    throw new TraceInputError(
+      'TOO_FEW_SAMPLES',
+      `only ${count} sample${count === 1 ? '' : 's'} found; at least ${minSamples} are needed`,
+      {
+        line: body.lastRowLine,
+      },
+    );
   }
   const amplitudeRaw = xCol >= 0 ? body.columns[1] : body.columns[0];
   const xRaw = xCol >= 0 ? body.columns[0] : null;
@@ -546,7 +604,10 @@ export function parseTraceCsv(input: string, options: ParseOptions = {}): Parsed
       const step = (xRaw[count - 1] - xRaw[0]) / (count - 1);
       if (span < 1e-2 && step > 0 && step < 1e-6) {
         scale = 1;
-        warnings.push({ code: 'TIME_UNIT_ASSUMED', message: `the ${xLabel} column names no unit; its values were read as seconds` });
+        warnings.push({
+          code: 'TIME_UNIT_ASSUMED',
+          message: `the ${xLabel} column names no unit; its values were read as seconds`,
+        });
       } else {
         throw new TraceInputError(
           'MISSING_TIME_UNIT',
@@ -566,11 +627,19 @@ export function parseTraceCsv(input: string, options: ParseOptions = {}): Parsed
     if (!(d > 0)) {
       const ln = body.lineOfRow(i);
       if (d === 0) {
-        throw new TraceInputError('DUPLICATE_TIME', `${axisName} repeats the previous row's value; expected each row to be later than the one before`, {
-          line: ln,
-        });
+        throw new TraceInputError(
+          'DUPLICATE_TIME',
+          `${axisName} repeats the previous row's value; expected each row to be later than the one before`,
+          {
+            line: ln,
+          },
+        );
       }
-      throw new TraceInputError('NON_MONOTONIC_TIME', `${axisName} goes backwards; expected each row to be later than the one before`, { line: ln });
+      throw new TraceInputError(
+        'NON_MONOTONIC_TIME',
+        `${axisName} goes backwards; expected each row to be later than the one before`,
+        { line: ln },
+      );
     }
   }
   let resampled = false;
@@ -588,7 +657,10 @@ export function parseTraceCsv(input: string, options: ParseOptions = {}): Parsed
     const dt = diffs[(count - 1) >> 1];
     const m = Math.floor((timeS[count - 1] - timeS[0]) / dt) + 1;
     if (m > 8 * count || m > 20_000_000) {
-      throw new TraceInputError('NON_MONOTONIC_TIME', `${axisName} steps are very uneven (gaps of many samples); expected evenly spaced samples`);
+      throw new TraceInputError(
+        'NON_MONOTONIC_TIME',
+        `${axisName} steps are very uneven (gaps of many samples); expected evenly spaced samples`,
+      );
     }
     outTime = new Float64Array(m);
     outAmp = new Float64Array(m);
@@ -601,7 +673,10 @@ export function parseTraceCsv(input: string, options: ParseOptions = {}): Parsed
       outAmp[k] = amplitude[j] + Math.min(1, Math.max(0, f)) * (amplitude[j + 1] - amplitude[j]);
     }
     resampled = true;
-    warnings.push({ code: 'RESAMPLED', message: `samples were unevenly spaced; the trace was put on an even ${(dt * 1e9).toPrecision(3)} ns grid` });
+    warnings.push({
+      code: 'RESAMPLED',
+      message: `samples were unevenly spaced; the trace was put on an even ${(dt * 1e9).toPrecision(3)} ns grid`,
+    });
   }
 
   return {
@@ -633,10 +708,14 @@ export function parseTraceCsv(input: string, options: ParseOptions = {}): Parsed
 function numberFromHead(cell: string, decimalComma: boolean, line: number, column: string): void {
   const s = decimalComma ? cell.replace(',', '.') : cell;
   if (NON_FINITE_CELL.test(s.trim())) {
-    throw new TraceInputError('NOT_FINITE', `value '${cell}' in column '${column}' is not a finite number; expected a measured value`, {
-      line,
-      field: column,
-    });
+    throw new TraceInputError(
+      'NOT_FINITE',
+      `value '${cell}' in column '${column}' is not a finite number; expected a measured value`,
+      {
+        line,
+        field: column,
+      },
+    );
   }
   if (!NUMERIC_CELL.test(s.trim())) {
     throw new TraceInputError('NOT_A_NUMBER', `'${cell}' in column '${column}' is not a number`, { line, field: column });

@@ -24,8 +24,8 @@ const TIME_UNITS: Record<string, number> = {
   ms: 1e-3,
   msec: 1e-3,
   us: 1e-6,
-  'µs': 1e-6,
-  'μs': 1e-6,
+  µs: 1e-6,
+  μs: 1e-6,
   usec: 1e-6,
   microseconds: 1e-6,
   ns: 1e-9,
@@ -55,15 +55,15 @@ const VOLT_UNITS: Record<string, number> = {
   mv: 1e-3,
   millivolts: 1e-3,
   uv: 1e-6,
-  'µv': 1e-6,
-  'μv': 1e-6,
+  µv: 1e-6,
+  μv: 1e-6,
 };
 
 const RHO_UNITS: Record<string, number> = {
   rho: 1,
-  'ρ': 1,
+  ρ: 1,
   mrho: 1e-3,
-  'mρ': 1e-3,
+  mρ: 1e-3,
   '%': 0.01,
   'units of rho': 1,
 };
@@ -85,7 +85,11 @@ const INDEX_NAME = /^(#|n|no|index|idx|sample|samples|sample[ _-]?(no|number|ind
 
 /** Split a header cell into its base name and its unit, e.g. `Time (s)`, `t [us]`, `time_ns`, `Time/ns`. */
 export function splitNameAndUnit(raw: string): { base: string; unit: string | null } {
-  const name = raw.trim().replace(/^["']|["']$/g, '').trim().toLowerCase();
+  const name = raw
+    .trim()
+    .replace(/^["']|["']$/g, '')
+    .trim()
+    .toLowerCase();
   const bracket = /^(.*?)\s*[([{]\s*([^)\]}]*?)\s*[)\]}]\s*$/.exec(name);
   if (bracket) return { base: bracket[1].trim(), unit: bracket[2].trim() || null };
   const sep = /^(.*?)\s*(?:[_/]|\s+|\bin\s+)\s*([a-zµμρ%]+)$/.exec(name);

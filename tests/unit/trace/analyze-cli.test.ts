@@ -14,12 +14,17 @@ function run(args: string[]) {
 describe('analyze command', () => {
   it('prints one JSON object with snake_case events for one file', () => {
     // scikit-rf reference: 7 m of solid-PE coax (VF 1/√2.25) into 25 Ω, ρ = −1/3.
-    const out = execFileSync(tsx, [cli, ref('pe-coax-7m-25ohm.csv'), '--vf', String(1 / 1.5), '--z0', '50', '--json'], { cwd: root, encoding: 'utf8' });
+    const out = execFileSync(tsx, [cli, ref('pe-coax-7m-25ohm.csv'), '--vf', String(1 / 1.5), '--z0', '50', '--json'], {
+      cwd: root,
+      encoding: 'utf8',
+    });
     const json = JSON.parse(out);
     expect(Array.isArray(json)).toBe(false);
     expect(json.events).toHaveLength(1);
     const e = json.events[0];
-    expect(Object.keys(e)).toEqual(expect.arrayContaining(['distance_m', 'type', 'reflection_coefficient', 'round_trip_ns', 'uncertainty_m']));
+    expect(Object.keys(e)).toEqual(
+      expect.arrayContaining(['distance_m', 'type', 'reflection_coefficient', 'round_trip_ns', 'uncertainty_m']),
+    );
     expect(e.distance_m).toBeCloseTo(7, 1);
     expect(e.type).toBe('impedance-drop');
     expect(e.reflection_coefficient).toBeCloseTo(-1 / 3, 1);
@@ -29,7 +34,15 @@ describe('analyze command', () => {
   });
 
   it('prints a JSON array for several files, with feet when asked', () => {
-    const r = run([ref('pe-coax-10m-open.csv'), ref('pe-coax-25m-short.csv'), '--vf', String(1 / 1.5), '--json', '--units', 'ft']);
+    const r = run([
+      ref('pe-coax-10m-open.csv'),
+      ref('pe-coax-25m-short.csv'),
+      '--vf',
+      String(1 / 1.5),
+      '--json',
+      '--units',
+      'ft',
+    ]);
     expect(r.status).toBe(0);
     const json = JSON.parse(r.stdout);
     expect(json.map((j: { events: Array<{ type: string }> }) => j.events[0].type)).toEqual(['open', 'short']);

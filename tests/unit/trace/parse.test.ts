@@ -14,7 +14,14 @@ describe('parseTraceCsv layouts', () => {
   });
 
   it('reads Time (s),Amplitude (V) with # key: value metadata, CRLF and trailing blank lines', () => {
-    const text = ['# velocity factor: 0.69', '# pulse width: 10 ns', '# impedance: 75 ohm', 'Time (s),Amplitude (V)', ...col((i) => `${i}e-9,${i / 100}`)].join('\r\n') + '\r\n\r\n\r\n';
+    const text =
+      [
+        '# velocity factor: 0.69',
+        '# pulse width: 10 ns',
+        '# impedance: 75 ohm',
+        'Time (s),Amplitude (V)',
+        ...col((i) => `${i}e-9,${i / 100}`),
+      ].join('\r\n') + '\r\n\r\n\r\n';
     const t = parseTraceCsv(text);
     expect(t.metadata['velocity factor']).toBe('0.69');
     expect(t.hints).toEqual({ instrumentVf: 0.69, pulseWidthNs: 10, z0Ohm: 75 });
@@ -25,7 +32,11 @@ describe('parseTraceCsv layouts', () => {
   });
 
   it('reads t [us];v [V] with decimal commas and a UTF-8 BOM', () => {
-    const text = '\ufeff' + ['t [us];v [V]', ...col((i) => `${(i * 0.001).toFixed(3).replace('.', ',')};${(i / 8).toString().replace('.', ',')}`)].join('\n');
+    const text =
+      '\ufeff' +
+      ['t [us];v [V]', ...col((i) => `${(i * 0.001).toFixed(3).replace('.', ',')};${(i / 8).toString().replace('.', ',')}`)].join(
+        '\n',
+      );
     const t = parseTraceCsv(text);
     expect(t.layout.delimiter).toBe(';');
     expect(t.layout.decimalComma).toBe(true);
@@ -48,7 +59,9 @@ describe('parseTraceCsv layouts', () => {
   });
 
   it('reads a single amplitude column with the sample interval and start in the metadata', () => {
-    const t = parseTraceCsv(['# sample interval: 250 ps', '# start time: -5 ns', 'amplitude (mV)', ...col((i) => `${i}`)].join('\n'));
+    const t = parseTraceCsv(
+      ['# sample interval: 250 ps', '# start time: -5 ns', 'amplitude (mV)', ...col((i) => `${i}`)].join('\n'),
+    );
     expect(t.layout.kind).toBe('amplitude-only');
     expect(t.timeS[0]).toBeCloseTo(-5e-9, 20);
     expect(t.timeS[4]).toBeCloseTo(-4e-9, 20); // −5 ns + 4 · 0.25 ns
@@ -86,7 +99,9 @@ describe('parseTraceCsv layouts', () => {
   });
 
   it('reads a names row followed by a units row', () => {
-    const t = parseTraceCsv(['Time;Signal', 'ms;mV', ...col((i) => `${(i * 1e-6).toExponential().replace('.', ',')};${i}`)].join('\n'));
+    const t = parseTraceCsv(
+      ['Time;Signal', 'ms;mV', ...col((i) => `${(i * 1e-6).toExponential().replace('.', ',')};${i}`)].join('\n'),
+    );
     expect(t.layout.columns).toEqual(['Time (ms)', 'Signal (mV)']);
     expect(t.timeS[3]).toBeCloseTo(3e-9, 20); // 3e-6 ms
     expect(t.amplitude[3]).toBeCloseTo(0.003, 15);
@@ -120,7 +135,11 @@ describe('parseTraceCsv layouts', () => {
   });
 
   it('gives the same trace from the fast reader and from csv-parse', () => {
-    const text = ['# velocity factor: 0.66', 'time_ns,voltage_mV', ...Array.from({ length: 500 }, (_, i) => `${(i * 0.123456789).toPrecision(12)},${Math.sin(i) * 1e3}`)].join('\n');
+    const text = [
+      '# velocity factor: 0.66',
+      'time_ns,voltage_mV',
+      ...Array.from({ length: 500 }, (_, i) => `${(i * 0.123456789).toPrecision(12)},${Math.sin(i) * 1e3}`),
+    ].join('\n');
     const a = parseTraceCsv(text);
     const b = parseTraceCsv(text, { reader: 'csv-parse' });
     expect(a.layout.reader).toBe('fast');

@@ -8,15 +8,31 @@ import { defaultAcquisition, simulateScenario, type Scenario } from '../../../sc
 
 // Ground truth is the simulated geometry: a 50 Ω coax with a 100 Ω shunt fault at
 // 23.5 m (ρ = (ZL − Z0)/(ZL + Z0) with ZL = 100 ∥ 50 = 33.3 Ω gives −0.2) and an open end at 60 m.
-const route: Scenario = { name: 'quirks', cable: COAX_50, lengthM: 60, end: 'open', features: [{ kind: 'shunt', atM: 23.5, rOhm: 100 }] };
+const route: Scenario = {
+  name: 'quirks',
+  cable: COAX_50,
+  lengthM: 60,
+  end: 'open',
+  features: [{ kind: 'shunt', atM: 23.5, rOhm: 100 }],
+};
 const tol = (d: number) => Math.max(0.5, 0.01 * d);
 
 function traceOf(t: Float64Array, v: Float64Array, unit: 'V' | 'rho' = 'V'): ParsedTrace {
-  return { timeS: t, amplitude: v, amplitudeUnit: unit, metadata: {}, hints: {}, layout: {} as ParsedTrace['layout'], warnings: [] };
+  return {
+    timeS: t,
+    amplitude: v,
+    amplitudeUnit: unit,
+    metadata: {},
+    hints: {},
+    layout: {} as ParsedTrace['layout'],
+    warnings: [],
+  };
 }
 
 function expectRoute(events: Array<{ distanceM: number; type: string }>, offsetM = 0) {
-  const primary = events.filter((e) => !('likelyMultipleOf' in e) || (e as { likelyMultipleOf: number | null }).likelyMultipleOf === null);
+  const primary = events.filter(
+    (e) => !('likelyMultipleOf' in e) || (e as { likelyMultipleOf: number | null }).likelyMultipleOf === null,
+  );
   expect(primary.map((e) => e.type)).toEqual(['impedance-drop', 'open']);
   expect(Math.abs(primary[0].distanceM - (23.5 - offsetM))).toBeLessThanOrEqual(tol(23.5));
   expect(Math.abs(primary[1].distanceM - (60 - offsetM))).toBeLessThanOrEqual(tol(60));
@@ -60,7 +76,11 @@ describe('trace quirks', () => {
   });
 
   it('reads a reflection-only ρ trace whose time zero is the reference plane', () => {
-    const s3 = simulateScenario(route, { ...acq, output: 'reflection', timeOfFirstSampleS: -acq.preTriggerSamples * acq.sampleIntervalS });
+    const s3 = simulateScenario(route, {
+      ...acq,
+      output: 'reflection',
+      timeOfFirstSampleS: -acq.preTriggerSamples * acq.sampleIntervalS,
+    });
     const rho = s3.volts.map((x) => x / s3.incidentV);
     const a = analyzeTrace(traceOf(s3.timeS, rho, 'rho'), { vf: COAX_50.vf });
     expect(a.launch.foundInTrace).toBe(false);
@@ -114,8 +134,19 @@ describe('trace quirks', () => {
     // A 25 Ω source on a 50 Ω line reflects ρs = −1/3, so the open's step returns at 2t.
     const dt = 0.1e-9;
     const clean = simulate(
-      { elements: [{ kind: 'line', lengthM: 15, cable: { ...COAX_50, rdcOhmPerM: 0.01, skinOhmPerMRootHz: 2e-5 } }], termination: { kind: 'open' } },
-      { samples: 3600, sampleIntervalS: dt, launchAtS: 100 * dt, riseTimeS: 0.5e-9, sourceV: 2, sourceOhm: 25, excitation: { kind: 'step' } },
+      {
+        elements: [{ kind: 'line', lengthM: 15, cable: { ...COAX_50, rdcOhmPerM: 0.01, skinOhmPerMRootHz: 2e-5 } }],
+        termination: { kind: 'open' },
+      },
+      {
+        samples: 3600,
+        sampleIntervalS: dt,
+        launchAtS: 100 * dt,
+        riseTimeS: 0.5e-9,
+        sourceV: 2,
+        sourceOhm: 25,
+        excitation: { kind: 'step' },
+      },
     );
     const v = impair(clean, { noiseV: 0.001, adcBits: 12, fullScaleV: 2.5, seed: 5 });
     const t = new Float64Array(v.length).map((_, i) => i * dt);
@@ -127,9 +158,25 @@ describe('trace quirks', () => {
   });
 
   it('gives the same answer from every CSV layout', () => {
-    const layouts = ['time-ns-mv', 'time-s-v-comments', 'time-us-semicolon-decimal-comma', 'time-ps-rho', 'amplitude-only', 'distance-m-preamble', 'distance-ft-tab', 'time-ms-units-row'] as const;
+    const layouts = [
+      'time-ns-mv',
+      'time-s-v-comments',
+      'time-us-semicolon-decimal-comma',
+      'time-ps-rho',
+      'amplitude-only',
+      'distance-m-preamble',
+      'distance-ft-tab',
+      'time-ms-units-row',
+    ] as const;
     for (const layout of layouts) {
-      const csv = writeLayout({ layout, timeS: sim.timeS, volts: sim.volts, incidentV: sim.incidentV, instrumentVf: 0.7, cableName: 'coax' });
+      const csv = writeLayout({
+        layout,
+        timeS: sim.timeS,
+        volts: sim.volts,
+        incidentV: sim.incidentV,
+        instrumentVf: 0.7,
+        cableName: 'coax',
+      });
       expectRoute(analyzeCsv(csv, {}, { vf: COAX_50.vf }).events);
     }
   });
@@ -171,8 +218,16 @@ describe('trace quirks', () => {
   });
 
   it('rejects impossible options', () => {
-    const tr = parseTraceCsv(writeLayout({ layout: 'time-ns-mv', timeS: sim.timeS, volts: sim.volts, incidentV: 1, instrumentVf: 0.66, cableName: 'c' }));
-    for (const bad of [{ vf: 1.5 }, { vf: 0 }, { vf: 0.66, vfTolerance: -1 }, { vf: 0.66, z0Ohm: -50 }, { vf: 0.66, leadLengthM: -1 }]) {
+    const tr = parseTraceCsv(
+      writeLayout({ layout: 'time-ns-mv', timeS: sim.timeS, volts: sim.volts, incidentV: 1, instrumentVf: 0.66, cableName: 'c' }),
+    );
+    for (const bad of [
+      { vf: 1.5 },
+      { vf: 0 },
+      { vf: 0.66, vfTolerance: -1 },
+      { vf: 0.66, z0Ohm: -50 },
+      { vf: 0.66, leadLengthM: -1 },
+    ]) {
       expect(() => analyzeTrace(tr, bad)).toThrow(TraceInputError);
     }
   });

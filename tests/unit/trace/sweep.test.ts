@@ -29,7 +29,8 @@ describe('simulator sweep', () => {
       expect(analysis.mode).toBe(c.acquisition.mode);
       const r = scoreCase(c, analysis.events);
       if (!r.ok) failures.push(`${c.id}: ${r.problems.join('; ')}`);
-      if (r.worstErrorOfTolerance > worst.ofTolerance) worst = { m: r.worstErrorM, ofTolerance: r.worstErrorOfTolerance, id: c.id };
+      if (r.worstErrorOfTolerance > worst.ofTolerance)
+        worst = { m: r.worstErrorM, ofTolerance: r.worstErrorOfTolerance, id: c.id };
     }
     console.log(
       `sweep: ${cases.length} traces; worst error ${worst.m.toFixed(3)} m (${(worst.ofTolerance * 100).toFixed(0)} % of its tolerance) in ${worst.id}`,
