@@ -14,7 +14,7 @@ describe('propagation', () => {
   });
 
   it('turns a round trip into distance as VF·c·t/2', () => {
-    // VF 0.70 and a 50 ns round trip give 5.25 m to the centimetre (worked example in the product brief).
+    // VF 0.70 and a 50 ns round trip give 5.25 m to the centimetre (worked example: 0.70 · c · 50 ns / 2, c exact by SI).
     expect(Math.round(distanceFromRoundTrip(50e-9, 0.7) * 100) / 100).toBe(5.25);
     // 1 µs round trip in vacuum is 149.896 m one way (c/2 · 1 µs; common practice).
     expect(distanceFromRoundTrip(1e-6, 1)).toBeCloseTo(149.896229, 6);
