@@ -106,6 +106,15 @@ export function traceRoutes(ctx: AppContext) {
       return undefined;
     }),
   );
+  r.post(
+    '/:id/reanalyse',
+    'traces:upload',
+    handle(async (req, res) => {
+      const id = await traces.reanalyseTrace(ctx, IdParam.parse(req.params).id, currentUser(req).id);
+      res.status(201);
+      return traces.getTrace(ctx, id);
+    }),
+  );
   r.put(
     '/:id/reference',
     'traces:reference',

@@ -121,7 +121,7 @@ export async function storeTraces(ctx: AppContext, fields: UploadFields, files: 
             vfTolerance: cable.vfTolerance,
             z0Ohm: cable.z0Ohm,
             vfOverrideReason: fields.vfOverrideReason ?? null,
-            cableTypeRevision: (cable as CableType & { revision?: number }).revision ?? null,
+            cableTypeRevision: cable.revision,
             engineVersion: ENGINE_VERSION,
             analysis: outcome.analysis,
           },
@@ -135,6 +135,51 @@ export async function storeTraces(ctx: AppContext, fields: UploadFields, files: 
     for (const rel of written) await removeRaw(ctx.config.uploadDir, rel).catch(() => undefined);
     throw err;
   }
+}
+
+/**
+ * Analyse a stored trace again with the cable library's current VF, tolerance
+ * and Z0 (and the current engine). The earlier trace and its findings stay as
+ * they were — they are the record of what was read on the day — and the new
+ * analysis is a new trace row over the same stored bytes, pointing back.
+ * A VF override of the earlier upload is dropped: the point is the library value.
+ */
+export async function reanalyseTrace(ctx: AppContext, id: number, userId: number): Promise<number> {
+  const earlier = await Trace.findByPk(id);
+  if (!earlier) throw AppError.notFound(`Trace ${id}`);
+  const run = await CableRun.findByPk(earlier.cableRunId);
+  const cable = run ? await CableType.findByPk(run.cableTypeId) : null;
+  if (!run || !cable) throw new AppError(422, 'no_cable_type', `The cable run of trace ${id} has no cable type in the library.`);
+  const bytes = await readRaw(ctx.config.uploadDir, earlier.rawPath);
+  if (sha256(bytes) !== earlier.sha256) {
+    throw new AppError(409, 'raw_file_changed', `The stored file of trace ${id} no longer matches its SHA-256; it will not be analysed again.`);
+  }
+  const { vfOverride: _dropped, ...settings } = earlier.settings;
+  const outcome = analyseBytes(bytes, settings, cable, ctx.config.maxUploadBytes, ctx.log);
+  const trace = await Trace.create({
+    cableRunId: earlier.cableRunId,
+    end: earlier.end,
+    uploadedById: userId,
+    originalName: earlier.originalName,
+    rawPath: earlier.rawPath,
+    sha256: earlier.sha256,
+    sizeBytes: earlier.sizeBytes,
+    status: outcome.status,
+    errorCode: outcome.error?.code ?? null,
+    errorMessage: outcome.error?.message ?? null,
+    errorLine: outcome.error?.line ?? null,
+    errorField: outcome.error?.field ?? null,
+    settings,
+    vf: cable.vf,
+    vfTolerance: cable.vfTolerance,
+    z0Ohm: cable.z0Ohm,
+    vfOverrideReason: null,
+    cableTypeRevision: cable.revision,
+    engineVersion: ENGINE_VERSION,
+    analysis: outcome.analysis,
+    reanalysisOfId: earlier.id,
+  });
+  return trace.id;
 }
 
 function endLabel(run: CableRun, end: CableEnd) {
@@ -264,7 +309,8 @@ export async function getTrace(ctx: AppContext, id: number, opts: { points: numb
   const markers = await RouteMarker.findAll({ where: { cableRunId: run.id }, order: [['chainageM', 'ASC']] });
   const findings = await Finding.findAll({ where: { traceId: id }, order: [['eventIndex', 'ASC']] });
   const parsed = await parsedSamples(ctx, trace);
-  const libraryRevision = (cable as (CableType & { revision?: number }) | null)?.revision;
+  const libraryRevision = cable?.revision;
+  const newer = await Trace.findAll({ where: { reanalysisOfId: id }, attributes: ['id'], order: [['id', 'ASC']] });
   return {
     ...summary,
     settings: trace.settings,
@@ -274,6 +320,8 @@ export async function getTrace(ctx: AppContext, id: number, opts: { points: numb
     vfOverrideReason: trace.vfOverrideReason,
     engineVersion: trace.engineVersion,
     cableTypeRevision: trace.cableTypeRevision,
+    reanalysisOfId: trace.reanalysisOfId,
+    reanalysedAs: newer.map((t) => t.id),
     libraryChangedSince:
       !!cable &&
       (trace.cableTypeRevision !== null && libraryRevision !== undefined

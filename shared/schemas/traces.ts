@@ -133,6 +133,10 @@ export interface TraceDetail extends TraceSummary {
   cableTypeRevision: number | null;
   /** True when the cable library's VF/Z0 has changed since this trace was analysed. */
   libraryChangedSince: boolean;
+  /** The trace whose analysis this one replaces (same stored file), if this is a re-analysis. */
+  reanalysisOfId: number | null;
+  /** Later re-analyses of this trace's file, oldest first. */
+  reanalysedAs: number[];
   error: TraceError | null;
   analysis: TraceAnalysis | null;
   /** Time on the samples' axis (ns) that is distance zero. */

@@ -6,6 +6,7 @@ import * as m0003 from './0003-field-workflow';
 import * as m0004 from './0004-cable-library';
 import * as m0005 from './0005-mail';
 import * as m0006 from './0006-tickets';
+import * as m0007 from './0007-trace-reanalysis';
 
 export type Migration = MigrationFn<QueryInterface>;
 
@@ -20,6 +21,7 @@ const MIGRATIONS: Array<{ name: string; up: Migration; down: Migration }> = [
   { name: '0004-cable-library', ...m0004 },
   { name: '0005-mail', ...m0005 },
   { name: '0006-tickets', ...m0006 },
+  { name: '0007-trace-reanalysis', ...m0007 },
 ];
 
 export function migrator(sequelize: Sequelize) {

@@ -43,6 +43,8 @@ export class Trace extends Model<InferAttributes<Trace>, InferCreationAttributes
   declare engineVersion: string;
   declare analysis: TraceAnalysis | null;
   declare isReference: CreationOptional<boolean>;
+  /** Set on a re-analysis: the trace (same stored file) whose analysis this one replaces. */
+  declare reanalysisOfId: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare cableRun?: NonAttribute<CableRun>;
@@ -74,6 +76,7 @@ export function initTrace(sequelize: Sequelize) {
       engineVersion: { type: DataTypes.STRING(20), allowNull: false },
       analysis: { type: DataTypes.JSON, allowNull: true },
       isReference: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+      reanalysisOfId: { type: DataTypes.INTEGER, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -1,5 +1,5 @@
 import { useMemo, useState } from 'react';
-import { Link, useParams } from 'react-router-dom';
+import { Link, useNavigate, useParams } from 'react-router-dom';
 import type { ReflectionEvent } from '../../../shared/schemas/trace-analysis';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
@@ -9,6 +9,7 @@ import { useSession } from '../../features/auth/use-session';
 import { DecideEvent } from '../../features/findings/components/decide-event';
 import { DistanceBlock, whereToDig } from '../../features/findings/components/where-to-dig';
 import { useTrace } from '../../features/traces/api/get-trace';
+import { useReanalyseTrace } from '../../features/traces/api/reanalyse-trace';
 import { useSetReference } from '../../features/traces/api/set-reference';
 import { TraceChart, type XAxis } from '../../features/traces/components/trace-chart';
 import { formatDateTime, formatLength } from '../../lib/format';
@@ -37,6 +38,8 @@ export function TracePage() {
   const { unit, can } = useSession();
   const trace = useTrace(id);
   const setRef = useSetReference();
+  const reanalyse = useReanalyseTrace();
+  const navigate = useNavigate();
   const [picked, setPicked] = useState<number | null>(null);
   const [axis, setAxis] = useState<XAxis>('distance');
   const [cursors, setCursors] = useState<[number, number] | null>(null);
@@ -97,9 +100,46 @@ export function TracePage() {
           </p>
         </Notice>
       )}
+      {t.reanalysisOfId !== null && (
+        <Notice tone="info" className="mb-4">
+          A re-analysis of the same stored file as{' '}
+          <Link className="font-semibold underline" to={paths.trace.to(t.reanalysisOfId)}>
+            trace {t.reanalysisOfId}
+          </Link>
+          , with the library values of {formatDateTime(t.createdAt)}.
+        </Notice>
+      )}
       {t.libraryChangedSince && (
         <Notice tone="warn" title="The cable library has changed since this analysis" className="mb-4">
-          This trace was analysed with VF {t.vf} ± {(t.vfTolerance * 100).toFixed(1)} %. Upload the original file again to analyse it with the current value.
+          <p>
+            This trace was analysed with VF {t.vf} ± {(t.vfTolerance * 100).toFixed(1)} %. Its findings keep the values they were made with.
+          </p>
+          {t.reanalysedAs.length > 0 ? (
+            <p className="mt-1">
+              Analysed again as{' '}
+              {t.reanalysedAs.map((n, i) => (
+                <span key={n}>
+                  {i > 0 && ', '}
+                  <Link className="font-semibold underline" to={paths.trace.to(n)}>
+                    trace {n}
+                  </Link>
+                </span>
+              ))}
+              .
+            </p>
+          ) : (
+            can('traces:upload') && (
+              <Button
+                variant="secondary"
+                className="mt-2"
+                disabled={reanalyse.isPending}
+                onClick={() => reanalyse.mutate(t.id, { onSuccess: (next) => navigate(paths.trace.to(next.id)) })}
+              >
+                {reanalyse.isPending ? 'Analysing…' : 'Analyse again with the current library value'}
+              </Button>
+            )
+          )}
+          {reanalyse.error && <p className="mt-1 font-semibold text-danger">{reanalyse.error.message}</p>}
         </Notice>
       )}
       {t.status === 'ok' && t.analysis && (

@@ -1,0 +1,64 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { makeRun, stepTraceCsv } from './support/field-fixtures';
+import { startApi, type TestApi } from './support/api';
+
+let api: TestApi;
+let runId: number;
+let cableTypeId: number;
+beforeAll(async () => {
+  api = await startApi();
+  const { run, cable } = await makeRun('Re-analysis run');
+  runId = run.id;
+  cableTypeId = cable.id;
+});
+afterAll(() => api.close());
+
+type Event = { isCableEnd: boolean; distanceM: number; roundTripNs: number };
+
+describe('POST /api/traces/:id/reanalyse', () => {
+  it('analyses the same stored bytes with the current library VF and keeps the earlier analysis as it was', async () => {
+    const tech = await api.as('technician');
+    // A 120 m cable that really propagates at VF 0.70, read first with the library's 0.66.
+    const up = await tech
+      .postRaw('/api/traces')
+      .field('cableRunId', String(runId))
+      .field('end', 'A')
+      .attach('file', Buffer.from(stepTraceCsv({ faultM: 120, vf: 0.7 })), 'end-of-run.csv')
+      .expect(201);
+    const first = up.body.traces[0];
+    const firstEnd = first.analysis.events.find((e: Event) => e.isCableEnd) as Event;
+    expect(first.vf).toBe(0.66);
+
+    const planner = await api.as('planner');
+    await planner.patch(`/api/cables/${cableTypeId}`, { vf: 0.7, reason: 'field calibration on the 120 m drum' }).expect(200);
+    const stale = await tech.get(`/api/traces/${first.id}`).expect(200);
+    expect(stale.body.libraryChangedSince).toBe(true);
+    expect(stale.body.reanalysedAs).toEqual([]);
+
+    const res = await tech.post(`/api/traces/${first.id}/reanalyse`).expect(201);
+    const again = res.body;
+    expect(again.id).not.toBe(first.id);
+    expect(again.reanalysisOfId).toBe(first.id);
+    expect(again.sha256).toBe(first.sha256);
+    expect(again.vf).toBe(0.7);
+    expect(again.libraryChangedSince).toBe(false);
+    const end = again.analysis.events.find((e: Event) => e.isCableEnd) as Event;
+    // Same round trip, so the distance scales with the VF: d = VF·c·t/2 (the distance formula).
+    expect(end.roundTripNs).toBeCloseTo(firstEnd.roundTripNs, 6);
+    expect(end.distanceM).toBeCloseTo((firstEnd.distanceM * 0.7) / 0.66, 6);
+    expect(end.distanceM).toBeGreaterThan(119.5);
+    expect(end.distanceM).toBeLessThan(120.5);
+
+    const earlier = await tech.get(`/api/traces/${first.id}`).expect(200);
+    expect(earlier.body.vf).toBe(0.66);
+    expect(earlier.body.reanalysedAs).toEqual([again.id]);
+    const raw = await tech.get(`/api/traces/${again.id}/raw`).expect(200);
+    expect(raw.headers['x-content-sha256']).toBe(first.sha256);
+  });
+
+  it('answers 404 for an unknown trace', async () => {
+    const tech = await api.as('technician');
+    const res = await tech.post('/api/traces/424242/reanalyse').expect(404);
+    expect(res.body.error.code).toBe('not_found');
+  });
+});
