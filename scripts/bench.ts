@@ -70,6 +70,17 @@ function measure(file: string, repeats: number) {
   process.stdout.write(JSON.stringify({ medianMs: times[times.length >> 1], bestMs: times[0], events, rssMb, baseRssMb }));
 }
 
+/** The same large file through numpy.loadtxt + scipy (scripts/bench-numpy.py), when Debian's python3 has them. */
+function numpyBaseline(file: string): string {
+  try {
+    const out = execFileSync('/usr/bin/python3', [join(import.meta.dirname, 'bench-numpy.py'), file], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'ignore'] });
+    const r = JSON.parse(out) as { seconds: number };
+    return `  numpy.loadtxt + scipy filter/peaks on the same 1,000,000-sample file: ${(r.seconds * 1000).toFixed(0)} ms`;
+  } catch {
+    return '  (numpy/scipy baseline skipped: /usr/bin/python3 with numpy and scipy not found)';
+  }
+}
+
 function main() {
   if (process.argv[2] === '--measure') {
     measure(process.argv[3], Number(process.argv[4]));
@@ -105,6 +116,7 @@ function main() {
           `goal < ${goalMs} ms${samples >= 1_000_000 ? `, < ${GOALS.largeRssMb} MB` : ''}: ${within ? 'met' : 'MISSED'}`,
       );
     }
+    rows.push(numpyBaseline(join(dir, 'trace-1000000.csv')));
     console.log(rows.join('\n'));
     if (!ok) process.exitCode = 1;
   } finally {
