@@ -9,7 +9,8 @@ import { CableType, CableTypeChange } from '../models';
  * datasheet entries beside these. The tolerance is the half-width of the
  * range as a fraction of the VF.
  *
- * Sources named in the references:
+ * Sources behind the references (named here; the text shown to users
+ * says "published dielectric-constant tables" / "published coax data tables"):
  * - Standard Wire & Cable, "Formula for capacitance in 2-conductor, shielded,
  *   non-shielded wires, coax": dielectric constants and velocities of
  *   propagation (PE 2.26–2.29 → 66 %, TFE 2.1 → 69 %, PVC 3.6–5.0 → 53–45 %).
@@ -28,7 +29,7 @@ const FAMILIES: CableTypeInput[] = [
     attenuationDbPer100m: null,
     attenuationFreqMhz: null,
     vfSource: 'handbook',
-    vfReference: 'Solid PE εr 2.25–2.3 → VF = 1/√εr ≈ 0.66 (Standard Wire & Cable dielectric table: PE 2.26, 66 %); 0.66 on every solid-PE row of the NA5N coax data sheet.',
+    vfReference: 'Solid PE εr 2.25–2.3 → VF = 1/√εr ≈ 0.66 (published dielectric-constant tables: PE 2.26, 66 %); 0.66 on every solid-PE row of published coax data tables.',
     notes: 'Generic family. Replace with the datasheet value of the cable actually installed where known.',
   },
   {
@@ -41,7 +42,7 @@ const FAMILIES: CableTypeInput[] = [
     attenuationDbPer100m: null,
     attenuationFreqMhz: null,
     vfSource: 'handbook',
-    vfReference: 'Solid PE εr 2.25–2.3 → VF ≈ 0.66 (Standard Wire & Cable dielectric table); NA5N coax data sheet, 75 Ω solid-PE rows: 0.66.',
+    vfReference: 'Solid PE εr 2.25–2.3 → VF ≈ 0.66 (published dielectric-constant tables); published coax data tables, 75 Ω solid-PE rows: 0.66.',
     notes: 'Generic family.',
   },
   {
@@ -55,7 +56,7 @@ const FAMILIES: CableTypeInput[] = [
     attenuationFreqMhz: null,
     vfSource: 'handbook',
     vfReference:
-      'Foamed PE VF 0.78–0.88 depending on the degree of foaming (NA5N coax data sheet foam rows 0.78–0.84; cellular PE εr 1.56 → 0.80 in the Standard Wire & Cable table). Wide range: calibrate on a known length.',
+      'Foamed PE VF 0.78–0.88 depending on the degree of foaming (published coax data tables foam rows 0.78–0.84; cellular PE εr 1.56 → 0.80 in published dielectric-constant tables). Wide range: calibrate on a known length.',
     notes: 'Generic family; the spread between makers is large, so a field calibration is worth more here than anywhere.',
   },
   {
@@ -68,7 +69,7 @@ const FAMILIES: CableTypeInput[] = [
     attenuationDbPer100m: null,
     attenuationFreqMhz: null,
     vfSource: 'handbook',
-    vfReference: 'Foamed PE VF 0.78–0.88 (NA5N coax data sheet, 50 Ω foam rows 0.78–0.84).',
+    vfReference: 'Foamed PE VF 0.78–0.88 (published coax data tables, 50 Ω foam rows 0.78–0.84).',
     notes: 'Generic family.',
   },
   {
@@ -81,7 +82,7 @@ const FAMILIES: CableTypeInput[] = [
     attenuationDbPer100m: null,
     attenuationFreqMhz: null,
     vfSource: 'handbook',
-    vfReference: 'PTFE εr 2.1 → VF = 1/√2.1 ≈ 0.69 (Standard Wire & Cable dielectric table: TFE 2.1, 69 %); NA5N coax data sheet PTFE row: 0.70.',
+    vfReference: 'PTFE εr 2.1 → VF = 1/√2.1 ≈ 0.69 (published dielectric-constant tables: TFE 2.1, 69 %); published coax data tables PTFE row: 0.70.',
     notes: 'Generic family.',
   },
   {
@@ -95,7 +96,7 @@ const FAMILIES: CableTypeInput[] = [
     attenuationFreqMhz: null,
     vfSource: 'handbook',
     vfReference:
-      'PVC εr 3.6–5.0 → 0.53–0.45 (Standard Wire & Cable dielectric table); air between loosely laid pairs raises it towards 0.6 (common practice). Range 0.45–0.6.',
+      'PVC εr 3.6–5.0 → 0.53–0.45 (published dielectric-constant tables); air between loosely laid pairs raises it towards 0.6 (common practice). Range 0.45–0.6.',
     notes: 'Generic family; Z0 varies with construction (roughly 80–120 Ω), so treat it as approximate.',
   },
   {
@@ -108,7 +109,7 @@ const FAMILIES: CableTypeInput[] = [
     attenuationDbPer100m: null,
     attenuationFreqMhz: null,
     vfSource: 'handbook',
-    vfReference: 'Solid PE insulation εr ≈ 2.26 with an air core: ≈ 0.66 (Standard Wire & Cable dielectric table for PE; the air-core figure from memory of TDR practice).',
+    vfReference: 'Solid PE insulation εr ≈ 2.26 with an air core: ≈ 0.66 (published dielectric-constant tables for PE; the air-core figure from memory of TDR practice).',
     notes: 'Generic family; Z0 at TDR pulse frequencies is roughly 100–120 Ω.',
   },
   {
@@ -135,7 +136,7 @@ const FAMILIES: CableTypeInput[] = [
     attenuationFreqMhz: null,
     vfSource: 'handbook',
     vfReference:
-      'Nominal velocity of propagation of 100 Ω data cable is usually stated as 0.65–0.70 (common practice); PE 2.26 → 0.66, FEP 2.1 → 0.69 (Standard Wire & Cable dielectric table).',
+      'Nominal velocity of propagation of 100 Ω data cable is usually stated as 0.65–0.70 (common practice); PE 2.26 → 0.66, FEP 2.1 → 0.69 (published dielectric-constant tables).',
     notes: 'Generic family; the stated NVP of the actual cable is better.',
   },
   {

@@ -25,12 +25,11 @@ interface DemoRun {
   markers: Array<[label: string, kind: MarkerKind, chainageM: number, slackM: number]>;
 }
 
-const SITES: Array<{ name: string; address: string; lat: number; lon: number; access: string; supervisors: string[]; runs: DemoRun[] }> = [
+// Invented places: addresses only, no map coordinates (any coordinates would point at a real place).
+const SITES: Array<{ name: string; address: string; access: string; supervisors: string[]; runs: DemoRun[] }> = [
   {
     name: 'Harrowmere North substation',
     address: '1 Quarry Road, Harrowmere',
-    lat: 52.4172,
-    lon: -1.9301,
     access: 'Key safe at the east gate (code from the control room). Hard hats past the yellow line. Park outside the fence.',
     supervisors: ['supervisor@example.com'],
     runs: [
@@ -64,8 +63,6 @@ const SITES: Array<{ name: string; address: string; lat: number; lon: number; ac
   {
     name: 'Brookfold pumping station',
     address: 'Mill Lane, Brookfold',
-    lat: 52.3905,
-    lon: -1.9712,
     access: 'Gate padlock 4471. The wet well is a confined space: do not open the hatch without a permit.',
     supervisors: ['supervisor@example.com'],
     runs: [
@@ -98,8 +95,6 @@ const SITES: Array<{ name: string; address: string; lat: number; lon: number; ac
   {
     name: 'Oakhollow cabinet row',
     address: 'Oakhollow Road, by the school crossing',
-    lat: 52.4031,
-    lon: -1.9458,
     access: 'Cabinets are on the footway: cones and a lookout during school hours.',
     supervisors: [],
     runs: [
@@ -121,7 +116,16 @@ interface ManifestEntry {
   end?: 'A' | 'B';
   /** The simulated cable family ("coax-50", "pair-100", "power-mv"), to pick a run of that construction. */
   cable?: string;
+  /** Where the simulator put the fault, so the demo confirms that event and not a splice in front of it. */
+  trueFaultDistanceM?: number;
 }
+
+const KIND_OF_TYPE = {
+  open: 'open-conductor',
+  short: 'short-circuit',
+  'impedance-drop': 'high-resistance',
+  'impedance-rise': 'other',
+} as const;
 
 const CONSTRUCTION_OF: Array<[prefix: string, construction: string]> = [
   ['coax', 'coax'],
@@ -145,6 +149,7 @@ function demoTraceFiles(dir = DEMO_TRACE_DIR): ManifestEntry[] {
           run: typeof (e.cableRun ?? e.run) === 'string' ? String(e.cableRun ?? e.run) : undefined,
           end: e.end === 'A' || e.end === 'B' ? (e.end as 'A' | 'B') : undefined,
           cable: typeof e.cable === 'string' ? e.cable : undefined,
+          trueFaultDistanceM: typeof e.trueFaultDistanceM === 'number' ? e.trueFaultDistanceM : undefined,
         }))
         .filter((e) => e.file.endsWith('.csv') && fs.existsSync(path.join(dir, path.basename(e.file))));
       if (entries.length) return entries.map((e) => ({ ...e, file: path.basename(e.file) }));
@@ -162,7 +167,7 @@ function demoTraceFiles(dir = DEMO_TRACE_DIR): ManifestEntry[] {
 export async function seedField(users: Map<string, User>, transaction: Transaction) {
   const runs: CableRun[] = [];
   for (const s of SITES) {
-    const site = await Site.create({ name: s.name, address: s.address, latitude: s.lat, longitude: s.lon, accessNotes: s.access }, { transaction });
+    const site = await Site.create({ name: s.name, address: s.address, latitude: null, longitude: null, accessNotes: s.access }, { transaction });
     for (const email of s.supervisors) {
       const u = users.get(email);
       if (u) await SiteSupervisor.create({ siteId: site.id, userId: u.id }, { transaction });
@@ -205,10 +210,20 @@ export async function seedFieldTraces(ctx: AppContext, users: Map<string, User>,
     const [id] = await storeTraces(ctx, { cableRunId: run.id, end: entry.end ?? 'A', mode: 'auto', vfOverrideReason: undefined }, [{ originalName: entry.file, bytes }], tech.id);
     traces++;
     const trace = await Trace.findByPk(id);
-    // A fault is a primary event short of the run's far end (the end itself is not a fault).
-    const event = trace?.analysis?.events.find((e) => e.likelyMultipleOf === null && e.windowEndM < run.installedLengthM);
+    // A fault is a primary event short of the run's far end (the end itself is not a fault); the
+    // demo confirms the one nearest where the simulator put the fault, as a technician would.
+    const candidates = trace?.analysis?.events.filter((e) => e.likelyMultipleOf === null && e.windowEndM < run.installedLengthM) ?? [];
+    const truth = entry.trueFaultDistanceM;
+    const event =
+      truth === undefined
+        ? candidates[0]
+        : candidates.reduce<(typeof candidates)[number] | undefined>((best, e) => (!best || Math.abs(e.distanceM - truth) < Math.abs(best.distanceM - truth) ? e : best), undefined);
     if (trace && event) {
-      await recordFinding(ctx, { traceId: id, eventIndex: event.index, status: 'confirmed', kind: 'open-conductor', note: 'Demo: confirmed on first reading.' }, tech.id);
+      await recordFinding(
+        ctx,
+        { traceId: id, eventIndex: event.index, status: 'confirmed', kind: KIND_OF_TYPE[event.type], note: 'Demo: confirmed on first reading.' },
+        tech.id,
+      );
       findings++;
     }
   }

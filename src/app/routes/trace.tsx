@@ -27,10 +27,17 @@ function atFarEnd(e: ReflectionEvent, installedLengthM: number) {
   return e.windowEndM >= installedLengthM && e.windowStartM <= installedLengthM;
 }
 
-/** The event a technician most likely came for: the first one that is neither an echo nor the far end, else the first. */
+/**
+ * The event a technician most likely came for: of the events that are neither
+ * an echo nor the run's far end, the strongest reflection (largest |ρ|) — a
+ * splice or the start of a wet section reflects far less than the fault
+ * behind it. Failing that, the strongest of any.
+ */
 function likelyFault(events: ReflectionEvent[], installedLengthM: number): ReflectionEvent | undefined {
+  const strongest = (list: ReflectionEvent[]) =>
+    list.reduce<ReflectionEvent | undefined>((best, e) => (!best || Math.abs(e.reflectionCoefficient) > Math.abs(best.reflectionCoefficient) ? e : best), undefined);
   const primary = events.filter((e) => e.likelyMultipleOf === null);
-  return primary.find((e) => !atFarEnd(e, installedLengthM)) ?? primary[0] ?? events[0];
+  return strongest(primary.filter((e) => !atFarEnd(e, installedLengthM))) ?? strongest(primary) ?? strongest(events);
 }
 
 export function TracePage() {
