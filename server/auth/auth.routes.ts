@@ -22,14 +22,15 @@ export function authRoutes(ctx: AppContext, deps: { passport: PassportStatic; cs
   const { windowMs, maxPerAccount, maxPerAddress } = ctx.config.login;
   const minutes = Math.round(windowMs / 60_000);
 
-  // Per address: every try counts. Per account: failures only, so a user who
-  // signs in is not locked out by their own earlier typos.
+  // Failed tries only, both per address and per account: a crew behind one
+  // depot address signing in all morning is not locked out, a guesser is.
   const perAddress = rateLimit({
     windowMs,
     limit: maxPerAddress,
+    skipSuccessfulRequests: true,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
-    handler: tooMany(`Too many sign-in attempts from this address. Wait ${minutes} minutes and try again.`),
+    handler: tooMany(`Too many failed sign-ins from this address. Wait ${minutes} minutes and try again.`),
   });
   const perAccount = rateLimit({
     windowMs,

@@ -28,7 +28,8 @@ export const TicketCreateSchema = z.object({
   title: text(160),
   assigneeId: id('a user id').nullish().transform((v) => v ?? null),
   priority: priority.default('normal'),
-  dueDate,
+  // A new ticket cannot be due in the past (a day's grace for time zones).
+  dueDate: dueDate.refine((v) => v === null || Date.parse(`${v}T00:00:00Z`) >= Date.now() - 2 * 86_400_000, 'is in the past'),
   notes: text(4000),
 });
 export type TicketCreateInput = z.input<typeof TicketCreateSchema>;

@@ -89,6 +89,16 @@ describe('POST /api/auth/login', () => {
     expect(res.body.error.message).toMatch(/Too many failed sign-ins for this account/);
   });
 
+  it('does not count successful sign-ins against the address (a crew shares one depot address)', async () => {
+    const c = await api.anonymous();
+    // The address limit in this file is 50 failed tries; 60 good sign-ins must all pass.
+    for (let i = 0; i < 60; i++) {
+      const res = await c.post('/api/auth/login', { email: 'planner.test@example.com', password: TEST_PASSWORD });
+      expect(res.status).toBe(200);
+      c.csrf = res.body.csrfToken;
+    }
+  });
+
   it('answers malformed JSON with 400, not 500', async () => {
     const c = await api.anonymous();
     const res = await c.agent.post('/api/auth/login').set('x-csrf-token', c.csrf).set('content-type', 'application/json').send('{"email":').expect(400);

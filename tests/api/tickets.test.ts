@@ -84,6 +84,8 @@ describe('repair tickets', () => {
     expect(planner.body.error.fields[0].field).toBe('assigneeId');
     const empty = await sup.post('/api/tickets', { findingIds: [], dueDate: '2031-02-30' }).expect(400);
     expect(empty.body.error.fields.map((f: { field: string }) => f.field).sort()).toEqual(['dueDate', 'findingIds']);
+    const past = await sup.post('/api/tickets', { findingIds: [other.id], dueDate: '2020-01-01' }).expect(400);
+    expect(past.body.error.fields).toEqual([{ field: 'dueDate', message: 'is in the past' }]);
     expect(await Ticket.count()).toBe(1);
   });
 

@@ -2,6 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ROLE_PERMISSIONS } from '../../shared/auth/permissions';
 import { NAV } from '../../src/app/nav';
 import { DEMO_USERS } from '../../server/db/demo/organisation';
+import { hashPassword } from '../../server/auth/passwords';
+import { User } from '../../server/db/models';
 import { DESKTOP, PHONE, signIn, startE2E, type E2E } from './support/browser';
 
 let e2e: E2E;
@@ -51,6 +53,25 @@ describe('signing in', () => {
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.getByRole('heading', { name: 'Your account' }).waitFor();
     expect(new URL(page.url()).pathname).toBe('/account');
+    await page.close();
+  });
+
+  it('sends someone with a temporary password to choose their own before anything else', async () => {
+    await User.create({ email: 'new.crew@example.com', name: 'New Crew', role: 'technician', passwordHash: await hashPassword('temporary-123'), mustChangePassword: true });
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'new.crew@example.com', 'temporary-123');
+    await page.getByText('Choose your own password').waitFor();
+    expect(new URL(page.url()).pathname).toBe('/account');
+    await page.goto(`${e2e.baseUrl}/upload`);
+    await page.getByText('Choose your own password').waitFor();
+    expect(new URL(page.url()).pathname).toBe('/account');
+    await page.getByLabel('Current password').fill('temporary-123');
+    await page.getByLabel('New password').fill('my-own-long-secret');
+    await page.getByRole('button', { name: 'Change password' }).click();
+    await page.getByText('Password changed.').waitFor();
+    await page.goto(`${e2e.baseUrl}/`);
+    await page.getByRole('link', { name: 'Upload a trace from site' }).waitFor();
+    expect(new URL(page.url()).pathname).toBe('/');
     await page.close();
   });
 

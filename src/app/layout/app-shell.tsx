@@ -26,6 +26,8 @@ export function AppShell() {
 
   if (isPending) return <Loading what="Opening Rholog" />;
   if (!user) return <Navigate to={paths.signIn.to(location.pathname + location.search)} replace />;
+  // A temporary password from an administrator is changed before anything else.
+  if (user.mustChangePassword && location.pathname !== paths.account.pattern) return <Navigate to={paths.account.to()} replace />;
 
   const items = NAV.filter((i) => !i.permission || can(user.role, i.permission));
   const signOut = () => logout.mutate(undefined, { onSuccess: () => navigate(paths.signIn.to()) });
