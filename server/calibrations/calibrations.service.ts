@@ -24,7 +24,7 @@ export interface SubmitCalibrationInput {
 }
 
 const INCLUDE = [
-  { association: 'cableType', attributes: ['id', 'name'] },
+  { association: 'cableType', attributes: ['id', 'name', 'vf'] },
   { association: 'submittedBy', attributes: ['id', 'name'] },
   { association: 'reviewedBy', attributes: ['id', 'name'] },
 ];
@@ -33,7 +33,7 @@ export function calibrationView(c: CableCalibration): CalibrationView {
   const person = (u?: User | null) => (u ? { id: u.id, name: u.name } : null);
   return {
     id: c.id,
-    cableType: { id: c.cableTypeId, name: c.cableType?.name ?? `#${c.cableTypeId}` },
+    cableType: { id: c.cableTypeId, name: c.cableType?.name ?? `#${c.cableTypeId}`, currentVf: c.cableType?.vf ?? null },
     knownLengthM: c.knownLengthM,
     roundTripNs: c.roundTripNs,
     vf: c.vf,
@@ -176,7 +176,7 @@ export async function acceptCalibration(id: number, reviewerId: number, opts: { 
     assertPending(c);
     const submitted = new Date(c.createdAt).toISOString().slice(0, 10);
     const vfReference =
-      `Field calibration #${c.id}: ${c.knownLengthM} m known length, ${c.roundTripNs} ns round trip` +
+      `Field calibration #${c.id}: ${Number(c.knownLengthM.toFixed(2))} m known length, ${Number(c.roundTripNs.toFixed(2))} ns round trip` +
       ` (${CALIBRATION_SOURCE_LABELS[c.source].toLowerCase()}${c.traceId ? `, trace ${c.traceId}` : ''})` +
       `, submitted by ${c.submittedBy?.name ?? 'unknown'} on ${submitted}.`;
     const { cable } = await updateCable(

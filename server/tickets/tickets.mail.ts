@@ -21,7 +21,7 @@ function findingRows(f: Finding, trace: Trace | null, run: CableRun, unit: Lengt
   return [
     ['Distance', `${lengthText(f.distanceM, unit)} of cable from end ${end} (${endLabel}), ± ${lengthText(f.uncertaintyM, unit)}`],
     ['Route position', whereText(f, unit)],
-    ['Dig window', `${lengthText(f.windowStartM, unit)} – ${lengthText(f.windowEndM, unit)} of cable from end ${end}`],
+    ['Cable-length window (slack included)', `${lengthText(f.windowStartM, unit)} – ${lengthText(f.windowEndM, unit)} of cable from end ${end}`],
   ];
 }
 

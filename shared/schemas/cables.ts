@@ -156,7 +156,8 @@ export interface CableTypeChangeView {
 
 export interface CalibrationView {
   id: number;
-  cableType: { id: number; name: string };
+  /** currentVf: the library's VF now (it may have changed since submission). */
+  cableType: { id: number; name: string; currentVf: number | null };
   knownLengthM: number;
   roundTripNs: number;
   vf: number;

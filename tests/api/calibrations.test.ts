@@ -73,12 +73,17 @@ describe('the review queue', () => {
     const before = await cableTypeVersion(cableId);
 
     const queue = await planner.get('/api/calibrations?status=pending&pageSize=100').expect(200);
-    expect(queue.body.items.map((i: { id: number }) => i.id)).toContain(cal.id);
+    const queued = queue.body.items.find((i: { id: number }) => i.id === cal.id);
+    // The reviewer sees both the library value at submission and the value now.
+    expect(queued.cableType.currentVf).toBe(before.vf);
+    expect(queued.libraryVf).toBe(before.vf);
+    // The reference written into the library is rounded for people, not a float dump.
+    expect(cal.roundTripNs.toFixed(2)).not.toBe(String(cal.roundTripNs));
 
     const res = await planner.post(`/api/calibrations/${cal.id}/accept`, { note: 'matches the as-built' }).expect(200);
     expect(res.body.calibration).toMatchObject({ status: 'accepted', reviewedBy: { name: 'Pat Plan' }, reviewReason: 'matches the as-built' });
     expect(res.body.cable).toMatchObject({ vf: 0.6437, vfSource: 'field-calibrated', revision: before.revision + 1 });
-    expect(res.body.cable.vfReference).toContain(`Field calibration #${cal.id}: 412.5 m known length`);
+    expect(res.body.cable.vfReference).toContain(`Field calibration #${cal.id}: 412.5 m known length, ${Number(cal.roundTripNs.toFixed(2))} ns round trip`);
 
     const after = await cableTypeVersion(cableId);
     expect(after.vf).toBe(0.6437);

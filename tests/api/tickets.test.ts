@@ -45,7 +45,7 @@ describe('repair tickets', () => {
     expect(msg.body).toContain('Ticket run (Cabinet C-1 → Pole 14)');
     // Hand-worked: 100 m of cable from A is 95 m of route, 15 m past MH-2 toward P-7.
     expect(msg.body).toMatch(/Route position: +15\.\d+ m past manhole MH-2 toward pedestal P-7/);
-    expect(msg.body).toMatch(/Dig window: +\d+\.\d+ m – \d+\.\d+ m of cable from end A/);
+    expect(msg.body).toMatch(/Cable-length window \(slack included\): +\d+\.\d+ m – \d+\.\d+ m of cable from end A/);
     expect(msg.body).toContain(`${PUBLIC_URL}/findings/${finding.id}`);
     expect(msg.html).toContain(`href="${PUBLIC_URL}/findings/${finding.id}"`);
   });

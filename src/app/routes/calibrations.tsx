@@ -79,6 +79,11 @@ function CalibrationItem({ c, unit }: { c: CalibrationView; unit: LengthUnit }) 
           {c.submittedBy?.name ?? 'Unknown'} · {formatDateTime(c.createdAt)}
           {c.traceId ? ` · trace ${c.traceId}` : ''}
         </p>
+        {c.status === 'pending' && c.cableType.currentVf !== null && c.cableType.currentVf !== c.libraryVf && (
+          <p className="mt-1 font-semibold text-warn">
+            The library has changed since: it is now {formatVf(c.cableType.currentVf)}. Accepting replaces that value with {formatVf(c.vf, 4)}.
+          </p>
+        )}
         {c.note && <p className="mt-1">{c.note}</p>}
         {c.status !== 'pending' && (
           <p className="mt-1 text-mist">

@@ -13,7 +13,7 @@ import { paths } from '../paths';
 
 export function FindingPage() {
   const id = Number(useParams().findingId);
-  const { unit } = useSession();
+  const { unit, can } = useSession();
   const finding = useFinding(id);
   const twoEnded = useFindingTwoEnded(id);
   if (finding.isPending) return <Loading what="Loading the finding" />;
@@ -33,7 +33,19 @@ export function FindingPage() {
             · {f.cableRunName} · {f.status === 'confirmed' ? 'confirmed' : 'dismissed'} by {f.confirmedBy.name}, {formatDateTime(f.confirmedAt)}
           </>
         }
-        actions={<Badge tone={f.status === 'confirmed' ? 'danger' : 'plain'}>{f.status === 'confirmed' ? 'Confirmed fault' : 'Dismissed'}</Badge>}
+        actions={
+          <>
+            <Badge tone={f.status === 'confirmed' ? 'danger' : 'plain'}>{f.status === 'confirmed' ? 'Confirmed fault' : 'Dismissed'}</Badge>
+            {f.status === 'confirmed' && can('tickets:manage') && (
+              <Link
+                to={`${paths.tickets.to()}?finding=${f.id}`}
+                className="inline-flex min-h-11 items-center rounded-md bg-copper px-4 text-sm font-semibold text-white hover:bg-copper-dark"
+              >
+                Raise a repair ticket
+              </Link>
+            )}
+          </>
+        }
       />
       <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
         <div className="space-y-4">

@@ -55,7 +55,7 @@ function FindingBlock({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; u
         <dd className="text-base font-bold" data-testid="sheet-route-position">
           {findingWhere(f, unit)}
         </dd>
-        <dt className="font-semibold">Dig window</dt>
+        <dt className="font-semibold">Cable-length window (slack included)</dt>
         <dd className="tabular">
           {formatLength(f.windowStartM, unit)} – {formatLength(f.windowEndM, unit)} of cable from end {f.measuredFrom}
         </dd>

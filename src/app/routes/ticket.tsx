@@ -41,7 +41,7 @@ function FindingCard({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; un
         {findingWhere(f, unit)}
       </p>
       <p className="text-sm text-ink-soft tabular">
-        Dig window: {formatLength(f.windowStartM, unit)} – {formatLength(f.windowEndM, unit)} of cable from end {f.measuredFrom}
+        Cable-length window (electrical, slack included): {formatLength(f.windowStartM, unit)} – {formatLength(f.windowEndM, unit)} of cable from end {f.measuredFrom}
       </p>
       {f.note && <p className="text-sm">Note: {f.note}</p>}
     </div>
