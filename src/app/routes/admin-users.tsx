@@ -41,7 +41,7 @@ export function AdminUsersPage() {
         </Notice>
       )}
       <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
-        <Card title="People">
+        <Card title="People" className="min-w-0">
           <TextField label="Search by name or e-mail" value={q} onChange={(e) => (setQ(e.target.value), setPage(1))} />
           {users.isPending ? (
             <Loading />
@@ -82,7 +82,7 @@ export function AdminUsersPage() {
                           </select>
                         </td>
                         <td>{u.active ? <Badge tone="ok">active</Badge> : <Badge tone="plain">deactivated</Badge>}</td>
-                        <td className="space-x-1 whitespace-nowrap text-right">
+                        <td className="text-right">
                           {u.id !== me.id && (
                             <Button variant="ghost" onClick={() => update.mutate({ id: u.id, active: !u.active })}>
                               {u.active ? 'Deactivate' : 'Reactivate'}
@@ -105,7 +105,7 @@ export function AdminUsersPage() {
           )}
           {update.error && <ErrorNotice error={update.error} />}
         </Card>
-        <Card title="Add a person">
+        <Card title="Add a person" className="min-w-0">
           <form onSubmit={submit} className="space-y-3">
             <TextField label="Name" value={form.name} onChange={(e) => setForm({ ...form, name: e.target.value })} error={errors.name} required />
             <TextField label="E-mail" type="email" value={form.email} onChange={(e) => setForm({ ...form, email: e.target.value })} error={errors.email} required />

@@ -255,7 +255,11 @@ export function TracePage() {
                   </span>
                 </div>
               ) : (
-                <p className="mt-3 text-sm text-mist">No reference trace for this run and end yet; a supervisor can mark one.</p>
+                <p className="mt-3 text-sm text-mist">
+                  {t.isReference
+                    ? `This trace is the reference for end ${t.end}: later traces from this end are compared with it.`
+                    : 'No reference trace for this run and end yet; a supervisor can mark one.'}
+                </p>
               )}
             </Card>
           </div>
