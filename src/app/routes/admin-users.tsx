@@ -49,57 +49,42 @@ export function AdminUsersPage() {
             <ErrorNotice error={users.error} />
           ) : (
             <>
-              <div className="mt-3 overflow-x-auto">
-                <table className="w-full text-left text-sm">
-                  <thead className="text-xs uppercase text-mist">
-                    <tr>
-                      <th className="py-2">Name</th>
-                      <th>Role</th>
-                      <th>Status</th>
-                      <th />
-                    </tr>
-                  </thead>
-                  <tbody>
-                    {users.data.items.map((u) => (
-                      <tr key={u.id} className="border-t border-rule">
-                        <td className="py-2">
-                          <span className="font-semibold">{u.name}</span>
-                          <span className="block text-xs text-mist">{u.email}</span>
-                        </td>
-                        <td>
-                          <select
-                            aria-label={`Role of ${u.name}`}
-                            className="min-h-11 rounded border border-rule bg-white px-2"
-                            value={u.role}
-                            disabled={u.id === me.id}
-                            onChange={(e) => update.mutate({ id: u.id, role: e.target.value as Role })}
-                          >
-                            {ROLES.map((r) => (
-                              <option key={r} value={r}>
-                                {ROLE_LABELS[r]}
-                              </option>
-                            ))}
-                          </select>
-                        </td>
-                        <td>{u.active ? <Badge tone="ok">active</Badge> : <Badge tone="plain">deactivated</Badge>}</td>
-                        <td className="text-right">
-                          {u.id !== me.id && (
-                            <Button variant="ghost" onClick={() => update.mutate({ id: u.id, active: !u.active })}>
-                              {u.active ? 'Deactivate' : 'Reactivate'}
-                            </Button>
-                          )}
-                          <Button
-                            variant="ghost"
-                            onClick={() => reset.mutate(u.id, { onSuccess: (r) => setIssued({ email: r.user.email, password: r.temporaryPassword }) })}
-                          >
-                            New password
-                          </Button>
-                        </td>
-                      </tr>
-                    ))}
-                  </tbody>
-                </table>
-              </div>
+              <ul className="mt-3 divide-y divide-rule text-sm">
+                {users.data.items.map((u) => (
+                  <li key={u.id} className="flex flex-wrap items-center gap-x-3 gap-y-1 py-2">
+                    <span className="min-w-48 flex-1">
+                      <span className="font-semibold">{u.name}</span> {u.active ? <Badge tone="ok">active</Badge> : <Badge tone="plain">deactivated</Badge>}
+                      <span className="block text-xs text-mist">{u.email}</span>
+                    </span>
+                    <select
+                      aria-label={`Role of ${u.name}`}
+                      className="min-h-11 rounded border border-rule bg-white px-2"
+                      value={u.role}
+                      disabled={u.id === me.id}
+                      onChange={(e) => update.mutate({ id: u.id, role: e.target.value as Role })}
+                    >
+                      {ROLES.map((r) => (
+                        <option key={r} value={r}>
+                          {ROLE_LABELS[r]}
+                        </option>
+                      ))}
+                    </select>
+                    <span className="flex gap-1">
+                      {u.id !== me.id && (
+                        <Button variant="ghost" onClick={() => update.mutate({ id: u.id, active: !u.active })}>
+                          {u.active ? 'Deactivate' : 'Reactivate'}
+                        </Button>
+                      )}
+                      <Button
+                        variant="ghost"
+                        onClick={() => reset.mutate(u.id, { onSuccess: (r) => setIssued({ email: r.user.email, password: r.temporaryPassword }) })}
+                      >
+                        New password
+                      </Button>
+                    </span>
+                  </li>
+                ))}
+              </ul>
               <Pager page={page} pageSize={users.data.pageSize} total={users.data.total} onPage={setPage} />
             </>
           )}
