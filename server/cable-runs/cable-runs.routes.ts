@@ -1,4 +1,5 @@
 import type { AppContext } from '../context';
+import { IdParam } from '../http/params';
 import {
   CableRunInputSchema,
   CableRunListQuerySchema,
@@ -6,7 +7,6 @@ import {
   MarkersInputSchema,
 } from '../../shared/schemas/sites';
 import { ApiRouter, handle } from '../http/api-router';
-import { IdParam } from '../sites/sites.routes';
 import * as runs from './cable-runs.service';
 
 export function cableRunRoutes(ctx: AppContext) {

@@ -1,4 +1,5 @@
 import multer from 'multer';
+import { IdParam } from '../http/params';
 import type { Request, RequestHandler } from 'express';
 import { z } from 'zod';
 import { CableListQuerySchema, CableTypeInputSchema, CableTypeUpdateSchema, reasonSchema } from '../../shared/schemas/cables';
@@ -9,7 +10,6 @@ import { ApiRouter, handle } from '../http/api-router';
 import { commitImport, exportCsv, previewImport } from './cables.csv';
 import * as cables from './cables.service';
 
-const IdParam = z.object({ id: z.coerce.number().int().positive({ error: 'must be a positive whole number' }) });
 const HistoryQuery = z.object({ sinceRevision: z.coerce.number().int().min(0, 'must not be negative').optional() });
 const CommitBody = z.object({ reason: reasonSchema });
 

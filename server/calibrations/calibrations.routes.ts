@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import { IdParam } from '../http/params';
 import {
   CalibrationAcceptSchema,
   CalibrationListQuerySchema,
@@ -9,7 +9,6 @@ import { currentUser } from '../auth/guards';
 import { ApiRouter, handle } from '../http/api-router';
 import * as calibrations from './calibrations.service';
 
-const IdParam = z.object({ id: z.coerce.number().int().positive({ error: 'must be a positive whole number' }) });
 
 export function calibrationRoutes() {
   const r = new ApiRouter('/api/calibrations');

@@ -1,8 +1,8 @@
 import { FindingInputSchema, FindingListQuerySchema, TwoEndedQuerySchema } from '../../shared/schemas/findings';
+import { IdParam } from '../http/params';
 import { currentUser } from '../auth/guards';
 import type { AppContext } from '../context';
 import { ApiRouter, handle } from '../http/api-router';
-import { IdParam } from '../sites/sites.routes';
 import * as findings from './findings.service';
 
 export function findingRoutes(ctx: AppContext) {

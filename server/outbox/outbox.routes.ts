@@ -1,11 +1,10 @@
-import { z } from 'zod';
+import { IdParam } from '../http/params';
 import { MailQueueQuerySchema, OutboxQuerySchema } from '../../shared/schemas/outbox';
 import type { AppContext } from '../context';
 import { AppError } from '../errors';
 import { ApiRouter, handle } from '../http/api-router';
 import * as outbox from './outbox.service';
 
-const IdParam = z.object({ id: z.coerce.number().int().positive({ error: 'must be a positive whole number' }) });
 
 export function outboxRoutes(ctx: AppContext) {
   const r = new ApiRouter('/api/outbox');

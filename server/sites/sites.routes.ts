@@ -1,10 +1,9 @@
 import type { AppContext } from '../context';
-import { z } from 'zod';
+import { IdParam } from '../http/params';
 import { SiteInputSchema, SiteListQuerySchema } from '../../shared/schemas/sites';
 import { ApiRouter, handle } from '../http/api-router';
 import * as sites from './sites.service';
 
-export const IdParam = z.object({ id: z.coerce.number().int().positive({ error: 'must be a positive whole number' }) });
 
 export function siteRoutes(ctx: AppContext) {
   const r = new ApiRouter('/api/sites');

@@ -1,11 +1,10 @@
-import { z } from 'zod';
+import { IdParam } from '../http/params';
 import { CloseoutSchema, TicketCommentSchema, TicketCreateSchema, TicketListQuerySchema, TicketMoveSchema, TicketUpdateSchema } from '../../shared/schemas/tickets';
 import { currentUser } from '../auth/guards';
 import type { AppContext } from '../context';
 import { ApiRouter, handle } from '../http/api-router';
 import * as tickets from './tickets.service';
 
-const IdParam = z.object({ id: z.coerce.number().int().positive({ error: 'must be a positive whole number' }) });
 
 export function ticketRoutes(ctx: AppContext) {
   const r = new ApiRouter('/api/tickets');

@@ -1,4 +1,5 @@
 import path from 'node:path';
+import { IdParam } from '../http/params';
 import multer from 'multer';
 import type { RequestHandler } from 'express';
 import { ReferenceSchema, TraceListQuerySchema, TraceUploadSchema, TraceViewQuerySchema } from '../../shared/schemas/traces';
@@ -6,7 +7,6 @@ import { currentUser } from '../auth/guards';
 import type { AppContext } from '../context';
 import { AppError } from '../errors';
 import { ApiRouter, handle } from '../http/api-router';
-import { IdParam } from '../sites/sites.routes';
 import * as traces from './traces.service';
 
 export const MAX_FILES_PER_UPLOAD = 10;

@@ -1,10 +1,9 @@
-import { z } from 'zod';
+import { IdParam } from '../http/params';
 import { CreateUserSchema, ListQuerySchema, UpdateUserSchema } from '../../shared/schemas/users';
 import { currentUser } from '../auth/guards';
 import { ApiRouter, handle } from '../http/api-router';
 import * as users from './users.service';
 
-const IdParam = z.object({ id: z.coerce.number().int().positive({ error: 'must be a positive whole number' }) });
 
 export function userRoutes() {
   const r = new ApiRouter('/api/users');
