@@ -9,6 +9,8 @@ export interface SessionUser {
   email: string;
   name: string;
   role: Role;
+  /** Signed in with an administrator's temporary password: only their own account is open until they choose one. */
+  mustChangePassword?: boolean;
 }
 
 declare global {
@@ -22,7 +24,11 @@ export function requireAccess(access: Access): RequestHandler {
   return (req, _res, next) => {
     if (access === 'public') return next();
     if (!req.user) return next(AppError.unauthenticated());
-    if (access === 'signed-in' || can(req.user.role, access)) return next();
+    if (access === 'signed-in') return next();
+    if (req.user.mustChangePassword) {
+      return next(new AppError(403, 'password_change_required', 'Choose your own password first (Account page); the temporary one only opens your account.'));
+    }
+    if (can(req.user.role, access)) return next();
     next(AppError.forbidden(`Your role (${req.user.role}) does not allow this: it needs "${access}".`));
   };
 }

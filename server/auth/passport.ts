@@ -7,7 +7,7 @@ import type { SessionUser } from './guards';
 export const WRONG_CREDENTIALS = 'The e-mail address or password is not right.';
 
 export function toSessionUser(user: User): SessionUser {
-  return { id: user.id, email: user.email, name: user.name, role: user.role };
+  return { id: user.id, email: user.email, name: user.name, role: user.role, mustChangePassword: user.mustChangePassword };
 }
 
 export function configurePassport(): PassportStatic {

@@ -16,8 +16,11 @@ describe('POST /api/users', () => {
     const them = await api.signIn('new.person@example.com', res.body.temporaryPassword);
     const me = await them.get('/api/auth/me').expect(200);
     expect(me.body.mustChangePassword).toBe(true);
+    const blocked = await them.get('/api/sites').expect(403);
+    expect(blocked.body.error.code).toBe('password_change_required');
     await them.post('/api/auth/password', { currentPassword: res.body.temporaryPassword, newPassword: 'a-longer-secret' }).expect(200);
     expect((await them.get('/api/auth/me')).body.mustChangePassword).toBe(false);
+    await them.get('/api/sites').expect(200);
   });
 
   it('rejects a duplicate e-mail with 409 naming the field', async () => {

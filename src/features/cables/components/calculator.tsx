@@ -259,7 +259,10 @@ export function CableCalculator({ unit, onUse }: { unit: LengthUnit; onUse?: (en
             testId="calc-delay"
             rows={[
               ['One-way delay', `${sig(delay.value.m)} ns/m · ${sig(delay.value.ft)} ns/ft`],
-              ['Round trip over the length', Number.isFinite(num(meters)) ? `${sig(2 * num(meters) * delay.value.m)} ns` : '—'],
+              [
+                'Round trip over the length',
+                !Number.isFinite(num(meters)) ? '—' : num(meters) < 0 ? 'a length cannot be negative' : `${sig(2 * num(meters) * delay.value.m)} ns`,
+              ],
               ['1 ft', '0.3048 m exactly'],
             ]}
           />
