@@ -2,7 +2,8 @@ import { Op } from 'sequelize';
 import { containsText } from '../db/search';
 import type { z } from 'zod';
 import type { CreateUserSchema, UpdateUserSchema } from '../../shared/schemas/users';
-import { Session, User } from '../db/models';
+import { OPEN_STATUSES } from '../../shared/tickets/status';
+import { Session, Ticket, User } from '../db/models';
 import { AppError } from '../errors';
 import { hashPassword, temporaryPassword } from '../auth/passwords';
 
@@ -45,7 +46,9 @@ export async function updateUser(id: number, input: z.output<typeof UpdateUserSc
   }
   await user.update(input);
   if (input.active === false) await endSessions(id);
-  return user.toPublic();
+  // Deactivating someone does not take their repairs away silently: say how many are still theirs.
+  const openTickets = await Ticket.count({ where: { assigneeId: id, status: [...OPEN_STATUSES] } });
+  return { ...user.toPublic(), openTicketCount: openTickets };
 }
 
 export async function resetPassword(id: number) {

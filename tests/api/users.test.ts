@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startApi, type TestApi } from './support/api';
+import { confirmedFinding, supervisedRun } from './tickets.support';
 
 let api: TestApi;
 beforeAll(async () => {
@@ -54,6 +55,17 @@ describe('PATCH /api/users/:id', () => {
     const again = await api.anonymous();
     const res = await again.post('/api/auth/login', { email: 'leaver@example.com', password: created.body.temporaryPassword }).expect(401);
     expect(res.body.error.message).toBe('This account has been deactivated. Ask an administrator.');
+  });
+
+  it('says how many open repair tickets a deactivated person still holds', async () => {
+    const admin = await api.as('admin');
+    const created = await admin.post('/api/users', { email: 'holder@example.com', name: 'Holder', role: 'technician' }).expect(201);
+    const fx = await supervisedRun(api, 'Holder run');
+    const finding = await confirmedFinding(api, fx.run.id, 60);
+    const sup = await api.as('supervisor');
+    await sup.post('/api/tickets', { findingIds: [finding.id], assigneeId: created.body.user.id }).expect(201);
+    const res = await admin.patch(`/api/users/${created.body.user.id}`, { active: false }).expect(200);
+    expect(res.body).toMatchObject({ active: false, openTicketCount: 1 });
   });
 
   it('does not let an admin deactivate themself', async () => {

@@ -19,6 +19,7 @@ export function AdminUsersPage() {
   const reset = useResetUserPassword();
   const [form, setForm] = useState({ email: '', name: '', role: 'technician' as Role });
   const [issued, setIssued] = useState<{ email: string; password: string } | null>(null);
+  const [leftOpen, setLeftOpen] = useState<{ name: string; count: number } | null>(null);
   const errors = fieldErrors(create.error);
 
   const submit = (e: FormEvent) => {
@@ -38,6 +39,12 @@ export function AdminUsersPage() {
         <Notice tone="ok" title="Temporary password" className="mb-4">
           Give <strong>{issued.email}</strong> this password by a safe route; they will be asked to change it:{' '}
           <code className="rounded bg-white px-1 font-mono">{issued.password}</code>
+        </Notice>
+      )}
+      {leftOpen && (
+        <Notice tone="warn" title="Open repairs still assigned" className="mb-4">
+          {leftOpen.name} is deactivated but still has {leftOpen.count} open repair ticket{leftOpen.count === 1 ? '' : 's'}. A supervisor should reassign{' '}
+          {leftOpen.count === 1 ? 'it' : 'them'} on the Tickets page.
         </Notice>
       )}
       <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
@@ -71,7 +78,15 @@ export function AdminUsersPage() {
                     </select>
                     <span className="flex gap-1">
                       {u.id !== me.id && (
-                        <Button variant="ghost" onClick={() => update.mutate({ id: u.id, active: !u.active })}>
+                        <Button
+                          variant="ghost"
+                          onClick={() =>
+                            update.mutate(
+                              { id: u.id, active: !u.active },
+                              { onSuccess: (r) => setLeftOpen(!r.active && r.openTicketCount > 0 ? { name: r.name, count: r.openTicketCount } : null) },
+                            )
+                          }
+                        >
                           {u.active ? 'Deactivate' : 'Reactivate'}
                         </Button>
                       )}

@@ -12,7 +12,7 @@ type WithPassword = { user: PublicUser; temporaryPassword: string };
 
 export const createUser = (input: NewUser) => api<WithPassword>('/api/users', { method: 'POST', body: input });
 export const updateUser = ({ id, ...patch }: { id: number; role?: Role; active?: boolean; name?: string }) =>
-  api<PublicUser>(`/api/users/${id}`, { method: 'PATCH', body: patch });
+  api<PublicUser & { openTicketCount: number }>(`/api/users/${id}`, { method: 'PATCH', body: patch });
 export const resetUserPassword = (id: number) => api<WithPassword>(`/api/users/${id}/reset-password`, { method: 'POST' });
 
 function useUserMutation<TIn, TOut>(fn: (input: TIn) => Promise<TOut>) {
