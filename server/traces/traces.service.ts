@@ -69,6 +69,24 @@ export function analyseBytes(
   }
 }
 
+/** The columns that record one analysis: its outcome and the cable values and engine it was made with. */
+function analysisColumns(outcome: Outcome, cable: CableType, settings: TraceSettings) {
+  return {
+    status: outcome.status,
+    errorCode: outcome.error?.code ?? null,
+    errorMessage: outcome.error?.message ?? null,
+    errorLine: outcome.error?.line ?? null,
+    errorField: outcome.error?.field ?? null,
+    settings,
+    vf: settings.vfOverride ?? cable.vf,
+    vfTolerance: cable.vfTolerance,
+    z0Ohm: cable.z0Ohm,
+    cableTypeRevision: cable.revision,
+    engineVersion: ENGINE_VERSION,
+    analysis: outcome.analysis,
+  };
+}
+
 function settingsFrom(fields: UploadFields): TraceSettings {
   const s: TraceSettings = { mode: fields.mode };
   if (fields.pulseWidthNs !== undefined) s.pulseWidthNs = fields.pulseWidthNs;
@@ -111,19 +129,8 @@ export async function storeTraces(ctx: AppContext, fields: UploadFields, files: 
             rawPath,
             sha256: sha256(file.bytes),
             sizeBytes: file.bytes.length,
-            status: outcome.status,
-            errorCode: outcome.error?.code ?? null,
-            errorMessage: outcome.error?.message ?? null,
-            errorLine: outcome.error?.line ?? null,
-            errorField: outcome.error?.field ?? null,
-            settings,
-            vf: settings.vfOverride ?? cable.vf,
-            vfTolerance: cable.vfTolerance,
-            z0Ohm: cable.z0Ohm,
+            ...analysisColumns(outcome, cable, settings),
             vfOverrideReason: fields.vfOverrideReason ?? null,
-            cableTypeRevision: cable.revision,
-            engineVersion: ENGINE_VERSION,
-            analysis: outcome.analysis,
           },
           { transaction },
         );
@@ -164,19 +171,8 @@ export async function reanalyseTrace(ctx: AppContext, id: number, userId: number
     rawPath: earlier.rawPath,
     sha256: earlier.sha256,
     sizeBytes: earlier.sizeBytes,
-    status: outcome.status,
-    errorCode: outcome.error?.code ?? null,
-    errorMessage: outcome.error?.message ?? null,
-    errorLine: outcome.error?.line ?? null,
-    errorField: outcome.error?.field ?? null,
-    settings,
-    vf: cable.vf,
-    vfTolerance: cable.vfTolerance,
-    z0Ohm: cable.z0Ohm,
+    ...analysisColumns(outcome, cable, settings),
     vfOverrideReason: null,
-    cableTypeRevision: cable.revision,
-    engineVersion: ENGINE_VERSION,
-    analysis: outcome.analysis,
     reanalysisOfId: earlier.id,
   });
   return trace.id;
