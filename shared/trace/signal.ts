@@ -1,0 +1,72 @@
+/**
+ * Working signal u, in units of the reflection coefficient.
+ *
+ * Step: the trace normalised so that the matched line is 0, an open +1 and a
+ * short −1 (the step-response reading of ρ, e.g. B. M. Oliver, "Time domain
+ * reflectometry", Hewlett-Packard Journal 15(6), 1964). Pulse: the running
+ * integral of the trace, divided by the launch pulse's area, so each echo
+ * becomes a step whose height is its area ratio. Cable loss spreads an echo but
+ * keeps its area (the line's DC gain), so area is the loss-robust measure of ρ.
+ */
+import { boxcar, sampleMedian } from './stats';
+import type { Launch, TraceRecord, WorkingSignal } from './steps';
+
+function stepSignal(rec: TraceRecord, L: Launch): Float64Array {
+  const { y, n } = rec;
+  const u = new Float64Array(n);
+  if (L.found) for (let i = 0; i < n; i++) u[i] = (y[i] - L.baseline) / L.height - 1;
+  else if (rec.unit === 'rho') for (let i = 0; i < n; i++) u[i] = y[i] - L.baseline;
+  else for (let i = 0; i < n; i++) u[i] = y[i] / L.height - 1;
+  return u;
+}
+
+/** Pulse mode: baseline-free trace (in launch peaks) and its running integral in launch areas. */
+function pulseSignal(rec: TraceRecord, L: Launch): { u: Float64Array; pulseRaw: Float64Array; unitArea: number } {
+  const { y, n } = rec;
+  const u = new Float64Array(n);
+  const pulseRaw = new Float64Array(n);
+  const scale = L.found ? L.height : 1;
+  // After the launch a pulse trace sits on its baseline except for sparse echoes, so a
+  // line through the medians of the two halves is a robust baseline and drift estimate.
+  const a0 = Math.min(n - 1, L.settleIdx);
+  const mid = Math.floor((a0 + n) / 2);
+  const m1 = sampleMedian(y, a0, mid);
+  const m2 = sampleMedian(y, mid, n);
+  const c1 = (a0 + mid) / 2;
+  const c2 = (mid + n) / 2;
+  const slope = Number.isFinite(m1) && Number.isFinite(m2) && c2 > c1 ? (m2 - m1) / (c2 - c1) : 0;
+  const baseAt = (i: number) => (i < a0 ? L.baseline : m1 + slope * (i - c1));
+  let acc = 0;
+  for (let i = 0; i < n; i++) {
+    const v = (y[i] - baseAt(i)) / scale;
+    pulseRaw[i] = v;
+    acc += v;
+    u[i] = acc;
+  }
+  let unitArea = 1;
+  if (L.found) {
+    // Area of the launch pulse, in samples, from the flat stretch before it to where it has settled.
+    const from = Math.max(0, L.idx - 2 * L.riseSamples);
+    const to = Math.min(n - 1, L.settleIdx);
+    unitArea = u[to] - u[from];
+    if (!(unitArea > 0)) unitArea = L.widthSamples ?? 1;
+  }
+  for (let i = 0; i < n; i++) u[i] /= unitArea;
+  return { u, pulseRaw, unitArea };
+}
+
+export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number): WorkingSignal {
+  const mode = L.mode;
+  const { n } = rec;
+  const { u, pulseRaw, unitArea } =
+    mode === 'step' ? { u: stepSignal(rec, L), pulseRaw: new Float64Array(0), unitArea: 1 } : pulseSignal(rec, L);
+  const sigmaU = mode === 'step' ? sigma0 / Math.abs(L.found || rec.unit !== 'rho' ? L.height : 1) : 0;
+  const scaleForPulse = mode === 'pulse' ? sigma0 / Math.abs(L.found ? L.height : 1) / unitArea : 0;
+  // Smoothing for onset timing: a short boxcar, the same for the launch and every event.
+  const w0 = Math.max(2, Math.round(L.found ? L.riseSamples : 2));
+  const smoothW = Math.max(1, Math.round(w0 / 3));
+  const us = boxcar(u, smoothW);
+  const start = Math.min(n - 1, L.settleIdx + (L.found ? w0 : 0));
+  const blindIdx = L.found ? start : Math.max(0, Math.ceil(L.zeroIdx));
+  return { mode, u, us, pulseRaw, unitArea, sigmaU, scaleForPulse, w0, smoothW, start, blindIdx };
+}

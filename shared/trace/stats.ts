@@ -1,0 +1,139 @@
+/**
+ * Robust statistics and running sums for the trace engine.
+ *
+ * Medians and the median absolute deviation (MAD) are the robust location and
+ * spread estimates (F. R. Hampel, "The influence curve and its role in robust
+ * estimation", J. Amer. Statist. Assoc. 69 (1974) 383); σ = 1.4826·MAD for
+ * Gaussian noise. Order statistics use Hoare's quickselect (C. A. R. Hoare,
+ * "Algorithm 65: Find", Comm. ACM 4 (1961) 321). Window means come from prefix
+ * sums, so a window of any width costs two look-ups.
+ */
+
+/** σ of a Gaussian from its MAD: 1/Φ⁻¹(3/4). */
+export const MAD_TO_SIGMA = 1.4826;
+
+/** Median of values[from, to), from an evenly spaced sample of at most `maxPoints`. */
+export function sampleMedian(values: ArrayLike<number>, from: number, to: number, maxPoints = 4001): number {
+  const len = to - from;
+  if (len <= 0) return NaN;
+  const step = Math.max(1, Math.floor(len / maxPoints));
+  const tmp = new Float64Array(Math.ceil(len / step));
+  for (let i = from, j = 0; i < to; i += step, j++) tmp[j] = values[i];
+  tmp.sort();
+  const m = tmp.length >> 1;
+  return tmp.length % 2 ? tmp[m] : (tmp[m - 1] + tmp[m]) / 2;
+}
+
+/** k-th smallest of a (reordered in place), by quickselect. */
+export function select(a: Float64Array, k: number): number {
+  let lo = 0;
+  let hi = a.length - 1;
+  while (lo < hi) {
+    const pivot = a[(lo + hi) >> 1];
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (a[i] < pivot) i++;
+      while (a[j] > pivot) j--;
+      if (i <= j) {
+        const t = a[i];
+        a[i] = a[j];
+        a[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else return a[k];
+  }
+  return a[k];
+}
+
+/** Robust σ (1.4826·MAD) of values[from, to), from an evenly spaced sample of at most 8001. */
+export function madSigma(values: ArrayLike<number>, from: number, to: number): number {
+  const len = to - from;
+  if (len <= 1) return 0;
+  const step = Math.max(1, Math.floor(len / 8001));
+  const tmp = new Float64Array(Math.ceil(len / step));
+  for (let i = from, j = 0; i < to; i += step, j++) tmp[j] = values[i];
+  const mid = tmp.length >> 1;
+  const med = select(tmp, mid);
+  for (let k = 0; k < tmp.length; k++) tmp[k] = Math.abs(tmp[k] - med);
+  return MAD_TO_SIGMA * select(tmp, mid);
+}
+
+/** Evenly spaced sample of up to 4001 values, sorted, for percentiles of a long trace. */
+export function sortedSample(values: ArrayLike<number>): Float64Array {
+  const n = values.length;
+  const step = Math.max(1, Math.floor(n / 4001));
+  const tmp = new Float64Array(Math.ceil(n / step));
+  for (let i = 0, j = 0; i < n; i += step, j++) tmp[j] = values[i];
+  return tmp.sort();
+}
+
+export function percentileOf(sorted: Float64Array, p: number): number {
+  return sorted[Math.min(sorted.length - 1, Math.max(0, Math.round(p * (sorted.length - 1))))];
+}
+
+/** Centred moving average of width w (shrinking at the ends). */
+export function boxcar(x: Float64Array, w: number): Float64Array {
+  if (w <= 1) return x;
+  const n = x.length;
+  const out = new Float64Array(n);
+  const h = Math.floor(w / 2);
+  let acc = 0;
+  let count = 0;
+  let lo = 0;
+  let hi = 0;
+  for (let i = 0; i < n; i++) {
+    const a = Math.max(0, i - h);
+    const b = Math.min(n, i - h + w);
+    while (hi < b) {
+      acc += x[hi++];
+      count++;
+    }
+    while (lo < a) {
+      acc -= x[lo++];
+      count--;
+    }
+    out[i] = acc / count;
+  }
+  return out;
+}
+
+/** p[i] = x[0] + … + x[i−1]; the mean of x[a, b) is (p[b] − p[a])/(b − a). */
+export function prefixSums(x: Float64Array): Float64Array {
+  const p = new Float64Array(x.length + 1);
+  let acc = 0;
+  for (let i = 0; i < x.length; i++) {
+    acc += x[i];
+    p[i + 1] = acc;
+  }
+  return p;
+}
+
+/** Least-squares line over [from, to) of x, returned as a function of index. */
+export function lineFit(x: Float64Array, from: number, to: number): (i: number) => number {
+  const n = to - from;
+  if (n <= 0) return () => 0;
+  if (n < 3) {
+    const m = (x[from] + x[to - 1]) / 2;
+    return () => m;
+  }
+  let sx = 0;
+  let sy = 0;
+  let sxx = 0;
+  let sxy = 0;
+  for (let i = from; i < to; i++) {
+    const k = i - from;
+    sx += k;
+    sy += x[i];
+    sxx += k * k;
+    sxy += k * x[i];
+  }
+  const den = n * sxx - sx * sx;
+  const slope = den > 0 ? (n * sxy - sx * sy) / den : 0;
+  const icpt = (sy - slope * sx) / n;
+  return (i) => icpt + slope * (i - from);
+}

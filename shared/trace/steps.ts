@@ -1,0 +1,90 @@
+/**
+ * The values the engine's steps hand to one another. Each step lives in its own
+ * module (launch, signal, detection, edge-fit, locate, classify, echoes,
+ * uncertainty); `analyzeTrace` in analyze.ts calls them in order.
+ */
+
+export type Mode = 'step' | 'pulse';
+
+/** The record as the steps see it: uniform samples y at times t. */
+export interface TraceRecord {
+  y: Float64Array;
+  t: Float64Array;
+  n: number;
+  /** Sample interval, seconds. */
+  dt: number;
+  unit: 'V' | 'rho';
+}
+
+export interface Launch {
+  found: boolean;
+  /** Index of the first sample past the launch's settling (search starts here). */
+  settleIdx: number;
+  /** Index near the launch edge (or zero reference). */
+  idx: number;
+  sign: number;
+  baseline: number;
+  /** Step: incident level above baseline; pulse: peak height. */
+  height: number;
+  mode: Mode;
+  modeDetected: boolean;
+  riseSamples: number;
+  widthSamples: number | null;
+  /** For the no-launch case: index of time zero (fractional). */
+  zeroIdx: number;
+}
+
+/**
+ * Working signal u: step traces normalised so a matched line reads 0, an open
+ * +1 and a short −1; pulse traces integrated and divided by the launch area, so
+ * every echo becomes a step whose height is its reflection coefficient.
+ */
+export interface WorkingSignal {
+  mode: Mode;
+  u: Float64Array;
+  /** u after the short timing boxcar (width smoothW). */
+  us: Float64Array;
+  /** Pulse mode: the baseline-free trace in units of the launch peak; empty for steps. */
+  pulseRaw: Float64Array;
+  unitArea: number;
+  /** Noise of u per sample (step mode). */
+  sigmaU: number;
+  /** Noise of one pulse-domain sample in u units (pulse mode). */
+  scaleForPulse: number;
+  /** Shortest filter scale, samples. */
+  w0: number;
+  smoothW: number;
+  /** First sample searched for events. */
+  start: number;
+  /** End of the blind zone, samples. */
+  blindIdx: number;
+}
+
+/** A detection: the step filter's extreme at scale w. */
+export interface Candidate {
+  i: number;
+  w: number;
+  sign: number;
+  f: number;
+  snr: number;
+}
+
+/** A detection after its edge has been timed and its height measured. */
+export interface Measured {
+  onsetIdx: number;
+  t50Idx: number;
+  riseSamples: number;
+  height: number;
+  peakDev: number;
+  blip: boolean;
+  snr: number;
+  w: number;
+  endIdx: number;
+  fLo: number;
+  /** Largest |deviation| of the raw pulse-domain echo, for the loss warning. */
+  echoPeak: number;
+  /** u just before the event (step: 0 on a clean matched line). */
+  levelBefore: number;
+  /** Change over the last level window, as a fraction of the event: > 0 while a lossy edge is still settling. */
+  stillMoving: number;
+}
