@@ -33,9 +33,9 @@ const ROUTES: Route[] = [
   { cable: COAX_75, lengthM: 250, end: 'matched', features: [{ kind: 'open', atM: 173 }] },
   { cable: PAIR_100, lengthM: 40, end: 'open', features: [{ kind: 'shunt', atM: 17, rOhm: 50 }] },
   { cable: PAIR_100, lengthM: 120, end: 'open', features: [{ kind: 'wet', atM: 48, lengthM: 15, zScale: 0.75, vfScale: 0.85 }] },
-  { cable: PAIR_100, lengthM: 150, end: 'short', features: [] },
+  { cable: PAIR_100, lengthM: 300, end: 'short', features: [] },
   { cable: PAIR_100, lengthM: 200, end: 'matched', features: [] },
-  { cable: PAIR_100, lengthM: 200, end: 'open', features: [{ kind: 'shunt', atM: 110, rOhm: 200 }], modes: ['step'] },
+  { cable: PAIR_100, lengthM: 600, end: 'open', features: [{ kind: 'shunt', atM: 260, rOhm: 40 }] },
   { cable: POWER_LV, lengthM: 90, end: 'open', features: [{ kind: 'short', atM: 54, rOhm: 0.5 }] },
   { cable: POWER_LV, lengthM: 250, end: 'open', features: [{ kind: 'series', atM: 140, rOhm: 40 }] },
   { cable: POWER_LV, lengthM: 400, end: 'matched', features: [] },
@@ -54,13 +54,12 @@ const ROUTES: Route[] = [
   { cable: POWER_MV, lengthM: 2600, end: 'matched', features: [{ kind: 'short', atM: 1810, rOhm: 0.3 }] },
   { cable: POWER_MV, lengthM: 1500, end: 'matched', features: [] },
   { cable: COAX_50, lengthM: 8, end: 'open', features: [{ kind: 'shunt', atM: 3.2, rOhm: 25 }] },
-  // Pulse traces of pairs this long spread the far echo below a reliable reading; step only.
-  { cable: PAIR_100, lengthM: 400, end: 'open', features: [{ kind: 'series', atM: 170, rOhm: 80 }], modes: ['step'] },
+  { cable: PAIR_100, lengthM: 500, end: 'open', features: [{ kind: 'series', atM: 210, rOhm: 80 }] },
   { cable: COAX_75, lengthM: 20, end: 'matched', features: [{ kind: 'series', atM: 9, rOhm: 15 }] },
   { cable: POWER_LV, lengthM: 30, end: 'short', features: [] },
 ];
 
-const NOISE = [0.001, 0.002, 0.004];
+const NOISE = [0.001, 0.003, 0.006];
 const BITS = [12, 10, 14];
 
 /** Instrument VF settings a little off the cable's, as in the field. */
