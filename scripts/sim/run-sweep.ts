@@ -6,10 +6,14 @@ const scaleArg = process.argv.find((a) => a.startsWith('--noise-scale='));
 const cases = buildSweep({ clean: process.argv.includes('--clean'), noiseScale: scaleArg ? Number(scaleArg.split('=')[1]) : 1 });
 let worst = { m: 0, tol: 0, id: '' };
 let failed = 0;
+let hits = 0;
+let checks = 0;
 for (const c of cases) {
   try {
     const a = analyzeCsv(c.csv, {}, { vf: c.vf, z0Ohm: c.z0Ohm });
     const r = scoreCase(c, a.events);
+    hits += r.windowHits;
+    checks += r.windowChecks;
     if (r.worstErrorOfTolerance > worst.tol) worst = { m: r.worstErrorM, tol: r.worstErrorOfTolerance, id: c.id };
     if (!r.ok) failed++;
     const got = a.events
@@ -27,5 +31,5 @@ for (const c of cases) {
   }
 }
 console.log(
-  `${cases.length} traces, ${failed} failed; worst error ${worst.m.toFixed(3)} m (${(worst.tol * 100).toFixed(0)} % of its tolerance) in ${worst.id}`,
+  `${cases.length} traces, ${failed} failed; worst error ${worst.m.toFixed(3)} m (${(worst.tol * 100).toFixed(0)} % of its tolerance) in ${worst.id}; windows held ${hits} of ${checks}`,
 );

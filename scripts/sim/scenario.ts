@@ -38,6 +38,17 @@ export interface ExpectedEvent {
   optional?: boolean;
   type: 'open' | 'short' | 'impedance-rise' | 'impedance-drop';
   what: string;
+  /** The feature's own reflection coefficient, as a matched, lossless line in front of it would show it. */
+  rho: number;
+  /**
+   * A short section (a splice) shows its ρ only if it is longer than the edge: its reading
+   * is then at most |rho|, so only its sign and that bound are checked.
+   */
+  rhoIsBound?: boolean;
+  /** Round-trip transmission past lumped faults and impedance steps before it (lossless). */
+  transmission?: number;
+  /** Lumped (a resistor) or distributed (a change of line impedance). */
+  lumped?: boolean;
 }
 
 function reflection(zl: number, z0: number): number {
@@ -61,41 +72,62 @@ export function buildNetwork(sc: Scenario): { net: Network; expected: ExpectedEv
     switch (f.kind) {
       case 'open':
         termination = { kind: 'open' };
-        expected.push({ distanceM: apparent, type: 'open', what: 'open' });
+        expected.push({ distanceM: apparent, type: 'open', what: 'open', rho: 1, lumped: true });
         ended = true;
         break;
       case 'short': {
         const r = f.rOhm ?? 0.1;
         elements.push({ kind: 'shunt', rOhm: r });
         const rho = reflection((r * z0) / (r + z0), z0);
-        expected.push({ distanceM: apparent, type: rho <= -0.8 ? 'short' : 'impedance-drop', what: `short ${r} Ω` });
+        expected.push({
+          distanceM: apparent,
+          type: rho <= -0.8 ? 'short' : 'impedance-drop',
+          what: `short ${r} Ω`,
+          rho,
+          lumped: true,
+        });
         break;
       }
       case 'shunt': {
         elements.push({ kind: 'shunt', rOhm: f.rOhm });
         const rho = reflection((f.rOhm * z0) / (f.rOhm + z0), z0);
-        expected.push({ distanceM: apparent, type: rho <= -0.8 ? 'short' : 'impedance-drop', what: `shunt ${f.rOhm} Ω` });
+        expected.push({
+          distanceM: apparent,
+          type: rho <= -0.8 ? 'short' : 'impedance-drop',
+          what: `shunt ${f.rOhm} Ω`,
+          rho,
+          lumped: true,
+        });
         break;
       }
       case 'series': {
         elements.push({ kind: 'series', rOhm: f.rOhm });
         const rho = reflection(z0 + f.rOhm, z0);
-        expected.push({ distanceM: apparent, type: rho >= 0.8 ? 'open' : 'impedance-rise', what: `series ${f.rOhm} Ω` });
+        expected.push({
+          distanceM: apparent,
+          type: rho >= 0.8 ? 'open' : 'impedance-rise',
+          what: `series ${f.rOhm} Ω`,
+          rho,
+          lumped: true,
+        });
         break;
       }
       case 'wet': {
         const wet = variant(sc.cable, f.zScale, f.vfScale, 'wet');
         elements.push({ kind: 'line', lengthM: f.lengthM, cable: wet });
+        const rho = reflection(f.zScale, 1);
         expected.push({
           distanceM: apparent,
           type: f.zScale < 1 ? 'impedance-drop' : 'impedance-rise',
           what: 'wet section start',
+          rho,
         });
         extra += f.lengthM / f.vfScale - f.lengthM;
         expected.push({
           distanceM: f.atM + extra + f.lengthM,
           type: f.zScale < 1 ? 'impedance-rise' : 'impedance-drop',
           what: 'wet section end',
+          rho: -rho,
         });
         pos = f.atM + f.lengthM;
         break;
@@ -103,7 +135,13 @@ export function buildNetwork(sc: Scenario): { net: Network; expected: ExpectedEv
       case 'splice': {
         const sp = variant(sc.cable, f.zScale, 1, 'splice');
         elements.push({ kind: 'line', lengthM: f.lengthM, cable: sp });
-        expected.push({ distanceM: apparent, type: f.zScale < 1 ? 'impedance-drop' : 'impedance-rise', what: 'splice' });
+        expected.push({
+          distanceM: apparent,
+          type: f.zScale < 1 ? 'impedance-drop' : 'impedance-rise',
+          what: 'splice',
+          rho: reflection(f.zScale, 1),
+          rhoIsBound: true,
+        });
         pos = f.atM + f.lengthM;
         break;
       }
@@ -112,18 +150,27 @@ export function buildNetwork(sc: Scenario): { net: Network; expected: ExpectedEv
   }
   if (!ended) {
     if (sc.lengthM > pos) elements.push({ kind: 'line', lengthM: sc.lengthM - pos, cable: sc.cable });
-    if (sc.end !== 'matched') expected.push({ distanceM: sc.lengthM + extra, type: sc.end, what: `cable end (${sc.end})` });
+    if (sc.end !== 'matched')
+      expected.push({
+        distanceM: sc.lengthM + extra,
+        type: sc.end,
+        what: `cable end (${sc.end})`,
+        rho: sc.end === 'open' ? 1 : -1,
+        lumped: true,
+      });
   }
-  // Round-trip transmission past each lumped fault, (1 − |ρ|)², decides what is still visible.
+  // Round-trip transmission decides what is still visible. A lumped resistor passes (1 − |ρ|)
+  // each way (series: 2Z0/(2Z0 + R); shunt: 2R/(2R + Z0)); a change of line impedance passes
+  // 1 + ρ one way and 1 − ρ back, 1 − ρ² in all (D. M. Pozar, "Microwave Engineering", 4th ed., §2.3).
+  // An event is required while the lumped faults before it pass at least a quarter of the wave.
   let transmission = 1;
+  let pastLumped = 1;
   for (const e of expected) {
-    if (transmission < 0.25) e.optional = true;
-    const m = /^(shunt|short|series) ([\d.]+) Ω/.exec(e.what);
-    if (m) {
-      const r = Number(m[2]);
-      const rho = m[1] === 'series' ? reflection(z0 + r, z0) : reflection((r * z0) / (r + z0), z0);
-      transmission *= (1 - Math.abs(rho)) ** 2;
-    }
+    e.transmission = transmission;
+    if (pastLumped < 0.25) e.optional = true;
+    const r = Math.min(0.999, Math.abs(e.rho));
+    transmission *= e.lumped ? (1 - r) ** 2 : 1 - r * r;
+    if (e.lumped) pastLumped *= (1 - r) ** 2;
   }
   return { net: { elements, termination }, expected };
 }

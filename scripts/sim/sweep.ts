@@ -115,19 +115,69 @@ export interface CaseResult {
   problems: string[];
   worstErrorM: number;
   worstErrorOfTolerance: number;
+  /** Matched events whose window held the true distance, of those checked. */
+  windowHits: number;
+  windowChecks: number;
 }
 
-/** Match reported events to expected ones; every expected one found, nothing else. */
-export function scoreCase(
-  c: SweepCase,
-  events: Array<{ distanceM: number; type: string; likelyMultipleOf: number | null }>,
-): CaseResult {
+/** Distance tolerance, the product requirement: max(0.5 m, 1 % of the distance). */
+export const distanceTolerance = (d: number) => Math.max(0.5, 0.01 * d);
+
+/**
+ * ρ tolerance: ±(0.05 + 20 % of |ρ|). A field reading of ρ to a few hundredths plus a
+ * fifth of its size is enough to tell an open or short from a partial fault and to
+ * size a joint (common practice).
+ */
+export const rhoTolerance = (rho: number) => 0.05 + 0.2 * Math.abs(rho);
+
+/** Stated coverage the uncertainty windows must reach over the sweep. */
+export const WINDOW_COVERAGE = 0.95;
+
+export interface ScoredEvent {
+  distanceM: number;
+  type: string;
+  likelyMultipleOf: number | null;
+  reflectionCoefficient: number;
+  windowStartM: number;
+  windowEndM: number;
+}
+
+/**
+ * Where echoes of the expected events can fall: a bounce between two reflectors a and b
+ * (the instrument counting as one at 0 m) returns at 2·d_b − d_a, twice at 3·d_b − 2·d_a.
+ */
+export function echoPositions(expected: ExpectedEvent[]): number[] {
+  const at = [0, ...expected.map((e) => e.distanceM)];
+  const out: number[] = [];
+  for (let b = 1; b < at.length; b++)
+    for (let a = 0; a < b; a++) for (let k = 1; k <= 2; k++) out.push(at[b] + k * (at[b] - at[a]));
+  return out;
+}
+
+function checkRho(e: ExpectedEvent, got: number): string | null {
+  const where = `${e.what} at ${e.distanceM.toFixed(2)} m`;
+  if (Math.sign(got) !== Math.sign(e.rho)) return `${where} has ρ ${got.toFixed(3)}, expected the sign of ${e.rho.toFixed(3)}`;
+  const tol = rhoTolerance(e.rho);
+  if (e.rhoIsBound ? Math.abs(got) > Math.abs(e.rho) + tol : Math.abs(got - e.rho) > tol)
+    return `${where} has ρ ${got.toFixed(3)}, expected ${e.rhoIsBound ? 'at most ' : ''}${e.rho.toFixed(3)} ± ${tol.toFixed(3)}`;
+  return null;
+}
+
+/**
+ * Match reported events to expected ones: every required one found within its distance
+ * tolerance, with the right type, ρ sign and ρ, not flagged as an echo; its window is
+ * counted for coverage. Nothing else may be reported, except echoes flagged where an
+ * echo can fall.
+ */
+export function scoreCase(c: SweepCase, events: ScoredEvent[]): CaseResult {
   const problems: string[] = [];
   let worstErrorM = 0;
   let worstErrorOfTolerance = 0;
+  let windowHits = 0;
+  let windowChecks = 0;
   const used = new Set<number>();
   for (const e of c.expected) {
-    const tol = Math.max(0.5, 0.01 * e.distanceM);
+    const tol = distanceTolerance(e.distanceM);
     let best = -1;
     let bestErr = Infinity;
     events.forEach((g, i) => {
@@ -145,13 +195,23 @@ export function scoreCase(
       continue;
     }
     used.add(best);
+    const g = events[best];
     worstErrorM = Math.max(worstErrorM, bestErr);
     worstErrorOfTolerance = Math.max(worstErrorOfTolerance, bestErr / tol);
-    if (events[best].type !== e.type && !e.optional)
-      problems.push(`${e.what} at ${e.distanceM.toFixed(2)} m typed ${events[best].type}, expected ${e.type}`);
+    windowChecks++;
+    if (g.windowStartM <= e.distanceM && e.distanceM <= g.windowEndM) windowHits++;
+    if (e.optional) continue;
+    if (g.type !== e.type) problems.push(`${e.what} at ${e.distanceM.toFixed(2)} m typed ${g.type}, expected ${e.type}`);
+    if (g.likelyMultipleOf !== null) problems.push(`${e.what} at ${e.distanceM.toFixed(2)} m flagged as an echo`);
+    const rhoProblem = checkRho(e, g.reflectionCoefficient);
+    if (rhoProblem) problems.push(rhoProblem);
   }
+  const echoes = echoPositions(c.expected);
   events.forEach((g, i) => {
-    if (!used.has(i) && g.likelyMultipleOf === null) problems.push(`false event ${g.type} at ${g.distanceM.toFixed(2)} m`);
+    if (used.has(i)) return;
+    if (g.likelyMultipleOf === null) problems.push(`false event ${g.type} at ${g.distanceM.toFixed(2)} m`);
+    else if (!echoes.some((d) => Math.abs(g.distanceM - d) <= 2 * distanceTolerance(d)))
+      problems.push(`${g.type} at ${g.distanceM.toFixed(2)} m flagged as an echo where none can fall`);
   });
-  return { id: c.id, ok: problems.length === 0, problems, worstErrorM, worstErrorOfTolerance };
+  return { id: c.id, ok: problems.length === 0, problems, worstErrorM, worstErrorOfTolerance, windowHits, windowChecks };
 }
