@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
+  assessVf,
   awgDiameterM,
   coax,
   delayNsPerFt,
@@ -15,6 +16,7 @@ import {
   twoWire,
   vfFromLC,
   vfFromPermittivity,
+  USUAL_VF_RANGE,
 } from '../../../shared/cable/derivations';
 import { SPEED_OF_LIGHT_M_PER_S } from '../../../shared/cable/propagation';
 
@@ -193,5 +195,30 @@ describe('delay and units', () => {
     expect(awgDiameterM(24) / INCH).toBeCloseTo(0.0201, 4);
     expect(awgDiameterM(-3) / INCH).toBeCloseTo(0.46, 4);
     expect(() => awgDiameterM(12.5)).toThrow(DerivationError);
+  });
+});
+
+describe('a derived VF checked before it is shown or offered to the library', () => {
+  it('refuses a VF faster than light, such as L and C typed in the wrong units', () => {
+    // 250 nH/m with 1 pF/m (a coax's 100 pF/m typed as 1): u = 1/√(2.5e-19) = 2e9 m/s, VF 6.67 — faster than light.
+    const line = lineFromLC(250e-9, 1e-12);
+    expect(line.vf).toBeGreaterThan(1);
+    const verdict = assessVf(line.vf);
+    expect(verdict.level).toBe('refuse');
+    expect(verdict.level !== 'ok' && verdict.message).toMatch(/VF 6\.671 would be faster than light/);
+    expect(assessVf(3.336).level).toBe('refuse');
+    expect(assessVf(Number.NaN).level).toBe('refuse');
+  });
+
+  it('passes the usual range and warns outside it', () => {
+    // Usual cable VFs 0.4–0.99 (common practice: PVC pairs about 0.45–0.6, solid PE 0.66, foam 0.8–0.88, open wire up to 0.99).
+    expect(USUAL_VF_RANGE).toEqual({ min: 0.4, max: 0.99 });
+    for (const vf of [0.45, 0.66, 0.82, 0.95, 0.99]) expect(assessVf(vf).level).toBe('ok');
+    const air = assessVf(vfFromPermittivity(1));
+    expect(air.level).toBe('warn');
+    expect(air.level !== 'ok' && air.message).toMatch(/speed of light/);
+    const slow = assessVf(vfFromPermittivity(12)); // εr 12 → VF 0.289
+    expect(slow.level).toBe('warn');
+    expect(slow.level !== 'ok' && slow.message).toMatch(/VF 0\.2887 is slower than cables usually are/);
   });
 });
