@@ -1,11 +1,11 @@
 import { CsvError, parse } from 'csv-parse/sync';
 import { stringify } from 'csv-stringify/sync';
 import type { Transaction } from 'sequelize';
-import { CableTypeInputSchema, type CableTypeInput } from '../../shared/schemas/cables';
+import { CableTypeInputSchema, parseAttenuationList, parsePulseVfList, type CableTypeInput } from '../../shared/schemas/cables';
 import { CableType } from '../db/models';
 import type { FieldChange } from '../db/models/cable-type-change';
 import { AppError, type FieldIssue } from '../errors';
-import { CABLE_FIELDS, createCable, diffCable, updateCable, type CableField } from './cables.service';
+import { CABLE_FIELDS, createCable, diffCable, historyValue, LIST_FIELDS, updateCable, type CableField } from './cables.service';
 
 /**
  * The library as CSV: one row per cable type, SI units named in the header.
@@ -23,10 +23,22 @@ export const CSV_COLUMNS: Record<CableField, string> = {
   vfSource: 'vf_source',
   vfReference: 'vf_reference',
   notes: 'notes',
+  attenuation: 'attenuation_points',
+  lossSource: 'loss_source',
+  rDcOhmPerM: 'r_dc_ohm_per_m',
+  skinOhmPerMRootHz: 'skin_ohm_per_m_root_hz',
+  lHPerM: 'l_h_per_m',
+  cFPerM: 'c_f_per_m',
+  gSPerM: 'g_s_per_m',
+  lossTangent: 'loss_tangent',
+  pulseVfs: 'pulse_vfs',
 };
 const REQUIRED_COLUMNS: CableField[] = ['name', 'construction', 'dielectric', 'z0Ohm', 'vf', 'vfTolerance', 'vfSource', 'vfReference'];
-const NUMERIC: CableField[] = ['z0Ohm', 'vf', 'vfTolerance', 'attenuationDbPer100m', 'attenuationFreqMhz'];
-const NULLABLE: CableField[] = ['attenuationDbPer100m', 'attenuationFreqMhz', 'notes'];
+const LINE_CONSTANTS: CableField[] = ['rDcOhmPerM', 'skinOhmPerMRootHz', 'lHPerM', 'cFPerM', 'gSPerM', 'lossTangent'];
+const NUMERIC: CableField[] = ['z0Ohm', 'vf', 'vfTolerance', 'attenuationDbPer100m', 'attenuationFreqMhz', ...LINE_CONSTANTS];
+const NULLABLE: CableField[] = ['attenuationDbPer100m', 'attenuationFreqMhz', 'notes', 'lossSource', ...LINE_CONSTANTS];
+/** Loss columns a file may leave out (older files): an entry it updates keeps what it has. */
+const KEPT_WHEN_ABSENT: CableField[] = ['attenuation', 'lossSource', ...LINE_CONSTANTS, 'pulseVfs'];
 const COLUMN_TO_FIELD = new Map(Object.entries(CSV_COLUMNS).map(([f, c]) => [c, f as CableField]));
 const NUMBER_RE = /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/;
 
@@ -35,7 +47,7 @@ export const MAX_IMPORT_ROWS = 2000;
 export async function exportCsv(): Promise<string> {
   const rows = await CableType.findAll({ order: [['name', 'ASC']] });
   return stringify(
-    rows.map((c) => CABLE_FIELDS.map((f) => c[f] ?? '')),
+    rows.map((c) => CABLE_FIELDS.map((f) => ((LIST_FIELDS as readonly string[]).includes(f) ? (historyValue(f, c[f]) ?? '') : (c[f] ?? '')))),
     { header: true, columns: CABLE_FIELDS.map((f) => CSV_COLUMNS[f]) },
   );
 }
@@ -84,6 +96,10 @@ function readRecords(text: string) {
 }
 
 function cellToValue(field: CableField, raw: string): { value?: unknown; error?: string } {
+  if (field === 'attenuation' || field === 'pulseVfs') {
+    const read = field === 'attenuation' ? parseAttenuationList(raw) : parsePulseVfList(raw);
+    return read.ok ? { value: read.value } : { error: read.error };
+  }
   if (raw === '') return NULLABLE.includes(field) ? { value: null } : { error: 'is required' };
   if (!NUMERIC.includes(field)) return { value: raw };
   if (/^\d+,\d+$/.test(raw)) return { error: `"${raw}" must be a number with a point for decimals` };
@@ -126,6 +142,8 @@ export async function parseImport(text: string, transaction?: Transaction): Prom
       continue;
     }
     const candidate: Record<string, unknown> = {};
+    const stored = byName.get(name.trim().toLowerCase());
+    if (stored) for (const f of KEPT_WHEN_ABSENT) if (!headerFields.includes(f)) candidate[f] = stored[f];
     headerFields.forEach((field, i) => {
       const { value, error } = cellToValue(field!, record[i]);
       if (error) errors.push({ field: CSV_COLUMNS[field!], message: error, line });

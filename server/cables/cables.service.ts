@@ -1,23 +1,34 @@
 import { col, fn, Op, where, type Transaction, type WhereOptions } from 'sequelize';
 import { containsText } from '../db/search';
 import {
+  formatAttenuationList,
+  formatPulseVfList,
+  headlinePoint,
+  LEGACY_POINT_MESSAGE,
+  legacyPointClash,
+  lossFieldIssues,
+  type AttenuationPoint,
   type CableListQuery,
   type CableTypeChangeView,
   type CableTypeInput,
   type CableTypeUpdate,
   type CableTypeView,
+  type PulseVf,
 } from '../../shared/schemas/cables';
 import { CableType, CableTypeChange, type User } from '../db/models';
 import type { ChangeKind, FieldChange } from '../db/models/cable-type-change';
 import { AppError } from '../errors';
 
+/** The line constants, which the analysis turns into attenuation when no points are given. */
+const LINE_CONSTANTS = ['rDcOhmPerM', 'skinOhmPerMRootHz', 'lHPerM', 'cFPerM', 'gSPerM', 'lossTangent'] as const;
+
 /**
  * The fields a trace analysis takes from the library. A change to any of
  * them bumps CableType.revision.
  */
-export const ANALYSIS_FIELDS = ['vf', 'vfTolerance', 'z0Ohm'] as const;
+export const ANALYSIS_FIELDS = ['vf', 'vfTolerance', 'z0Ohm', 'attenuation', ...LINE_CONSTANTS, 'pulseVfs'] as const;
 
-/** Every stored field, in the order history and the CSV list them. */
+/** Every stored field, in the order the CSV lists them (the loss fields came later, so they come last). */
 export const CABLE_FIELDS = [
   'name',
   'construction',
@@ -30,8 +41,18 @@ export const CABLE_FIELDS = [
   'vfSource',
   'vfReference',
   'notes',
+  'attenuation',
+  'lossSource',
+  ...LINE_CONSTANTS,
+  'pulseVfs',
 ] as const;
 export type CableField = (typeof CABLE_FIELDS)[number];
+
+/** The history records the list, not the pair that repeats its lowest point. */
+const HISTORY_FIELDS = CABLE_FIELDS.filter((f) => f !== 'attenuationDbPer100m' && f !== 'attenuationFreqMhz');
+
+/** The fields kept as lists, written as text in the history and the CSV file. */
+export const LIST_FIELDS = ['attenuation', 'pulseVfs'] as const;
 
 export function cableView(c: CableType): CableTypeView {
   return {
@@ -47,6 +68,15 @@ export function cableView(c: CableType): CableTypeView {
     vfSource: c.vfSource,
     vfReference: c.vfReference,
     notes: c.notes,
+    attenuation: c.attenuation ?? [],
+    lossSource: c.lossSource ?? null,
+    rDcOhmPerM: c.rDcOhmPerM ?? null,
+    skinOhmPerMRootHz: c.skinOhmPerMRootHz ?? null,
+    lHPerM: c.lHPerM ?? null,
+    cFPerM: c.cFPerM ?? null,
+    gSPerM: c.gSPerM ?? null,
+    lossTangent: c.lossTangent ?? null,
+    pulseVfs: c.pulseVfs ?? [],
     revision: c.revision,
     createdAt: new Date(c.createdAt).toISOString(),
     updatedAt: new Date(c.updatedAt).toISOString(),
@@ -108,19 +138,26 @@ async function assertNameFree(name: string, exceptId: number | null, transaction
   }
 }
 
+/** A stored or given value as the history keeps it: lists as their text form, none as null. */
+export function historyValue(field: CableField, v: unknown): string | number | null {
+  if (v === undefined || v === null) return null;
+  if (field === 'attenuation') return (v as AttenuationPoint[]).length ? formatAttenuationList(v as AttenuationPoint[]) : null;
+  if (field === 'pulseVfs') return (v as PulseVf[]).length ? formatPulseVfList(v as PulseVf[]) : null;
+  return v as string | number;
+}
+
 function valueOf(c: CableType | CableTypeInput | null, field: CableField): string | number | null {
   if (!c) return null;
-  const v = (c as Record<CableField, unknown>)[field];
-  return v === undefined ? null : (v as string | number | null);
+  return historyValue(field, (c as Record<CableField, unknown>)[field]);
 }
 
 /** The fields whose value differs, old → new. */
 export function diffCable(before: CableType | null, after: Partial<CableTypeInput>): FieldChange[] {
   const changes: FieldChange[] = [];
-  for (const field of CABLE_FIELDS) {
+  for (const field of HISTORY_FIELDS) {
     if (!(field in after)) continue;
     const from = valueOf(before, field);
-    const to = (after as Record<string, string | number | null | undefined>)[field] ?? null;
+    const to = historyValue(field, (after as Record<string, unknown>)[field]);
     if (from !== to) changes.push({ field, from, to });
   }
   return changes;
@@ -154,7 +191,7 @@ export async function createCable(
 
 /**
  * Changes an entry and writes one history row (who, when, why, old → new).
- * A change to vf, vfTolerance or z0Ohm bumps the revision.
+ * A change to a value the analysis uses (ANALYSIS_FIELDS) bumps the revision.
  * Answers 422 if nothing would change, so that no empty history is written.
  */
 export async function updateCable(
@@ -163,8 +200,9 @@ export async function updateCable(
   by: { userId: number | null; kind?: ChangeKind; calibrationId?: number | null },
   transaction?: Transaction,
 ): Promise<{ cable: CableTypeView; changes: FieldChange[] }> {
-  const { reason, ...patch } = input;
+  const { reason, ...given } = input;
   const cable = await loadCable(id, transaction);
+  const patch = lossPatch(cable, given);
   const changes = diffCable(cable, patch);
   if (changes.length === 0) {
     throw new AppError(422, 'no_change', 'Nothing would change: every value given is the one already stored.', {
@@ -172,20 +210,57 @@ export async function updateCable(
     });
   }
   if (patch.name !== undefined && patch.name !== cable.name) await assertNameFree(patch.name, cable.id, transaction);
-  const merged = {
-    attenuationDbPer100m: patch.attenuationDbPer100m !== undefined ? patch.attenuationDbPer100m : cable.attenuationDbPer100m,
-    attenuationFreqMhz: patch.attenuationFreqMhz !== undefined ? patch.attenuationFreqMhz : cable.attenuationFreqMhz,
-  };
-  if ((merged.attenuationDbPer100m === null) !== (merged.attenuationFreqMhz === null)) {
-    const missing = merged.attenuationDbPer100m === null ? 'attenuationDbPer100m' : 'attenuationFreqMhz';
-    throw new AppError(422, 'attenuation_unpaired', 'An attenuation needs the frequency it was measured at, and a frequency needs its attenuation.', {
-      fields: [{ field: missing, message: missing === 'attenuationFreqMhz' ? 'is required with an attenuation' : 'is required with a frequency' }],
-    });
-  }
   const bump = changes.some((c) => (ANALYSIS_FIELDS as readonly string[]).includes(c.field));
   await cable.update({ ...patch, revision: bump ? cable.revision + 1 : cable.revision }, { transaction });
   await record(cable, by.kind ?? 'update', changes, reason, by.userId, transaction, by.calibrationId ?? null);
   return { cable: cableView(cable), changes };
+}
+
+function unpaired(missing: 'attenuationDbPer100m' | 'attenuationFreqMhz'): AppError {
+  return new AppError(422, 'attenuation_unpaired', 'An attenuation needs the frequency it was measured at, and a frequency needs its attenuation.', {
+    fields: [{ field: missing, message: missing === 'attenuationFreqMhz' ? 'is required with an attenuation' : 'is required with a frequency' }],
+  });
+}
+
+/**
+ * A change's loss fields, checked against the stored entry: the one-point pair
+ * stands for a one-point list (refused where the entry holds more points, so
+ * none is lost unseen), lists are kept sorted, and the merged entry must pass
+ * the same loss checks as a new one.
+ */
+function lossPatch(cable: CableType, given: Omit<CableTypeUpdate, 'reason'>): Omit<CableTypeUpdate, 'reason'> {
+  const patch = { ...given };
+  const pairGiven = patch.attenuationDbPer100m !== undefined || patch.attenuationFreqMhz !== undefined;
+  if (pairGiven) {
+    const a = patch.attenuationDbPer100m !== undefined ? patch.attenuationDbPer100m : cable.attenuationDbPer100m;
+    const f = patch.attenuationFreqMhz !== undefined ? patch.attenuationFreqMhz : cable.attenuationFreqMhz;
+    if ((a === null) !== (f === null)) throw unpaired(a === null ? 'attenuationDbPer100m' : 'attenuationFreqMhz');
+    if (patch.attenuation === undefined) {
+      if (cable.attenuation.length > 1) {
+        throw new AppError(422, 'attenuation_list', `This entry has ${cable.attenuation.length} attenuation points: change them through attenuation.`, {
+          fields: [{ field: 'attenuationDbPer100m', message: `replaces one point, and this entry has ${cable.attenuation.length}: give attenuation instead` }],
+        });
+      }
+      patch.attenuation = a === null || f === null ? [] : [{ frequencyMhz: f, dbPer100m: a }];
+    } else if (legacyPointClash({ attenuationDbPer100m: a, attenuationFreqMhz: f, attenuation: patch.attenuation })) {
+      throw new AppError(422, 'attenuation_clash', 'The one-point attenuation is not one of the points given.', {
+        fields: [{ field: 'attenuationDbPer100m', message: LEGACY_POINT_MESSAGE }],
+      });
+    }
+  }
+  if (patch.attenuation !== undefined) {
+    patch.attenuation = [...patch.attenuation].sort((x, y) => x.frequencyMhz - y.frequencyMhz);
+    Object.assign(patch, headlinePoint(patch.attenuation));
+  }
+  if (patch.pulseVfs !== undefined) patch.pulseVfs = [...patch.pulseVfs].sort((x, y) => x.pulseWidthNs - y.pulseWidthNs);
+  const merged = { ...cableView(cable), ...patch };
+  const issues = lossFieldIssues(merged);
+  if (issues.length) {
+    throw new AppError(422, 'loss_incomplete', `The loss figures are not complete: ${issues.map((i) => `${i.field} ${i.message}`).join('; ')}.`, {
+      fields: issues,
+    });
+  }
+  return patch;
 }
 
 export async function history(id: number, opts: { sinceRevision?: number } = {}) {
@@ -206,7 +281,7 @@ export async function history(id: number, opts: { sinceRevision?: number } = {})
 export interface CableTypeVersion {
   id: number;
   name: string;
-  /** Goes up by one whenever vf, vfTolerance or z0Ohm changes. */
+  /** Goes up by one whenever a value in ANALYSIS_FIELDS changes. */
   revision: number;
   vf: number;
   vfTolerance: number;
@@ -220,8 +295,9 @@ export interface CableTypeVersion {
  *
  * To tell whether the library value has changed since a trace was analysed,
  * compare the stored revision with `cableTypeVersion(id).revision` (or with
- * CableType.revision read directly): higher means the VF, its tolerance or Z0
- * has been edited, imported over or replaced by an accepted calibration.
+ * CableType.revision read directly): higher means the VF, its tolerance, Z0,
+ * the loss figures or the pulse-width VFs have been edited, imported over or
+ * replaced by an accepted calibration.
  * Do not compare updatedAt — a changed name or note moves it too.
  * `changesSince(id, revision)` gives the history entries to show (when, who,
  * old → new, why) next to the re-analysis offer.

@@ -1,4 +1,15 @@
 import { z } from 'zod';
+import {
+  attenuationListSchema,
+  lossFieldIssues,
+  lineConstantFields,
+  pulseVfListSchema,
+  type AttenuationPoint,
+  type LineConstants,
+  type PulseVf,
+} from './cable-loss';
+
+export * from './cable-loss';
 
 export const CONSTRUCTIONS = ['coax', 'twisted-pair', 'twin-lead', 'shielded-power', 'other'] as const;
 export type Construction = (typeof CONSTRUCTIONS)[number];
@@ -44,6 +55,13 @@ export const cableFields = {
   vfSource: z.enum(VF_SOURCES, { error: `is required: one of ${VF_SOURCES.join(', ')}` }),
   vfReference: z.string({ error: 'is required' }).trim().min(1, 'is required: say where the VF comes from').max(2000),
   notes: z.string().trim().max(4000, 'must be at most 4000 characters').nullable(),
+  /** Attenuation at stated frequencies, dB per 100 m; the engine corrects distance and ρ for it. */
+  attenuation: attenuationListSchema,
+  /** Where the attenuation figures and line constants come from. */
+  lossSource: z.string().trim().max(2000, 'must be at most 2000 characters').nullable().transform((s) => (s === '' ? null : s)),
+  ...lineConstantFields,
+  /** VF measured with a given pulse width; used instead of vf when a trace's pulse width matches. */
+  pulseVfs: pulseVfListSchema,
 };
 
 type AttenuationPair = { attenuationDbPer100m?: number | null; attenuationFreqMhz?: number | null };
@@ -54,15 +72,54 @@ const attenuationPaired = (v: AttenuationPair, ctx: z.RefinementCtx) => {
   if (f !== null && a === null) ctx.addIssue({ code: 'custom', path: ['attenuationDbPer100m'], message: 'is required with a frequency' });
 };
 
+/**
+ * attenuationDbPer100m with attenuationFreqMhz is the older one-point form of
+ * `attenuation`: alone it stands for a one-point list; beside a list it must be
+ * one of its points.
+ */
+export function legacyPointClash(v: AttenuationPair & { attenuation?: AttenuationPoint[] }): boolean {
+  const a = v.attenuationDbPer100m ?? null;
+  const f = v.attenuationFreqMhz ?? null;
+  if (a === null || f === null || !v.attenuation?.length) return false;
+  return !v.attenuation.some((p) => p.frequencyMhz === f && p.dbPer100m === a);
+}
+export const LEGACY_POINT_MESSAGE = 'is the one-point form of attenuation: give the points in attenuation, or make this one of them';
+
+const lineConstantDefaults = Object.fromEntries(
+  Object.entries(lineConstantFields).map(([k, s]) => [k, s.default(null)]),
+) as { [K in keyof typeof lineConstantFields]: z.ZodDefault<(typeof lineConstantFields)[K]> };
+
 export const CableTypeInputSchema = z
   .object({
     ...cableFields,
     attenuationDbPer100m: cableFields.attenuationDbPer100m.default(null),
     attenuationFreqMhz: cableFields.attenuationFreqMhz.default(null),
     notes: cableFields.notes.default(null),
+    attenuation: cableFields.attenuation.default([]),
+    lossSource: cableFields.lossSource.default(null),
+    ...lineConstantDefaults,
+    pulseVfs: cableFields.pulseVfs.default([]),
   })
-  .superRefine(attenuationPaired);
+  .superRefine((v, ctx) => {
+    attenuationPaired(v, ctx);
+    if (legacyPointClash(v)) ctx.addIssue({ code: 'custom', path: ['attenuationDbPer100m'], message: LEGACY_POINT_MESSAGE });
+    for (const i of lossFieldIssues(v)) ctx.addIssue({ code: 'custom', path: [i.field], message: i.message });
+  })
+  .transform((v) => {
+    // The one-point form becomes the list; the pair then always reads as the list's lowest point.
+    const attenuation =
+      v.attenuation.length === 0 && v.attenuationDbPer100m !== null && v.attenuationFreqMhz !== null
+        ? [{ frequencyMhz: v.attenuationFreqMhz, dbPer100m: v.attenuationDbPer100m }]
+        : [...v.attenuation].sort((a, b) => a.frequencyMhz - b.frequencyMhz);
+    return { ...v, attenuation, ...headlinePoint(attenuation), pulseVfs: [...v.pulseVfs].sort((a, b) => a.pulseWidthNs - b.pulseWidthNs) };
+  });
 export type CableTypeInput = z.output<typeof CableTypeInputSchema>;
+
+/** The lowest-frequency point as the older pair of fields (null, null for none). */
+export function headlinePoint(points: readonly AttenuationPoint[]): { attenuationDbPer100m: number | null; attenuationFreqMhz: number | null } {
+  const first = [...points].sort((a, b) => a.frequencyMhz - b.frequencyMhz)[0];
+  return first ? { attenuationDbPer100m: first.dbPer100m, attenuationFreqMhz: first.frequencyMhz } : { attenuationDbPer100m: null, attenuationFreqMhz: null };
+}
 
 export const reasonSchema = z
   .string({ error: 'is required: say why' })
@@ -132,6 +189,17 @@ export interface CableTypeView {
   vfSource: VfSource;
   vfReference: string;
   notes: string | null;
+  /** Lowest frequency first. attenuationDbPer100m / attenuationFreqMhz above repeat its first point. */
+  attenuation: AttenuationPoint[];
+  lossSource: string | null;
+  rDcOhmPerM: LineConstants['rDcOhmPerM'];
+  skinOhmPerMRootHz: LineConstants['skinOhmPerMRootHz'];
+  lHPerM: LineConstants['lHPerM'];
+  cFPerM: LineConstants['cFPerM'];
+  gSPerM: LineConstants['gSPerM'];
+  lossTangent: LineConstants['lossTangent'];
+  /** Shortest pulse first. */
+  pulseVfs: PulseVf[];
   revision: number;
   createdAt: string;
   updatedAt: string;

@@ -158,3 +158,112 @@ describe('GET /api/cables', () => {
     expect(bad.body.error.fields[0].field).toBe('sort');
   });
 });
+
+describe('loss and pulse-width VFs', () => {
+  // A 0.5 mm PE telephone pair. Attenuation typical of telephone-cable data (from memory);
+  // L = Z0/v and C = 1/(Z0·v) for Z0 = 100 Ω, VF = 0.66 (lossless-line formulas, Pozar §2.1): 5.05e-7 H/m, 5.05e-11 F/m.
+  const pePair = (name: string, extra: object = {}) =>
+    solidPe(name, {
+      construction: 'twisted-pair',
+      z0Ohm: 100,
+      attenuation: [
+        { frequencyMhz: 10, dbPer100m: 5.5 },
+        { frequencyMhz: 1, dbPer100m: 1.6 },
+      ],
+      lossSource: 'typical of 0.5 mm PE pairs, from memory',
+      lHPerM: 5.05e-7,
+      cFPerM: 5.05e-11,
+      rDcOhmPerM: 0.176,
+      pulseVfs: [{ pulseWidthNs: 1000, vf: 0.628, source: 'yard test on drum 4' }],
+      ...extra,
+    });
+
+  it('stores attenuation points (lowest frequency first), line constants and pulse-width VFs with their sources', async () => {
+    const { body: c } = await planner.post('/api/cables', pePair('Loss pair A')).expect(201);
+    expect(c.attenuation).toEqual([
+      { frequencyMhz: 1, dbPer100m: 1.6 },
+      { frequencyMhz: 10, dbPer100m: 5.5 },
+    ]);
+    // The older one-point fields repeat the lowest point.
+    expect(c).toMatchObject({ attenuationDbPer100m: 1.6, attenuationFreqMhz: 1, lossSource: 'typical of 0.5 mm PE pairs, from memory' });
+    expect(c).toMatchObject({ rDcOhmPerM: 0.176, lHPerM: 5.05e-7, cFPerM: 5.05e-11, skinOhmPerMRootHz: null, lossTangent: null });
+    expect(c.pulseVfs).toEqual([{ pulseWidthNs: 1000, vf: 0.628, source: 'yard test on drum 4' }]);
+    const again = await planner.get(`/api/cables/${c.id}`).expect(200);
+    expect(again.body.attenuation).toEqual(c.attenuation);
+  });
+
+  it('refuses bad loss figures, naming the field and the entry in the list', async () => {
+    const fieldsOf = async (body: object) => {
+      const res = await planner.post('/api/cables', body).expect(400);
+      expect(res.body.error.code).toBe('invalid_input');
+      return res.body.error.fields as Array<{ field: string; message: string }>;
+    };
+    expect(await fieldsOf(pePair('Bad loss 1', { attenuation: [{ frequencyMhz: 1, dbPer100m: -2 }] }))).toEqual([
+      { field: 'attenuation.0.dbPer100m', message: 'must not be negative' },
+    ]);
+    expect(
+      await fieldsOf(pePair('Bad loss 2', { attenuation: [{ frequencyMhz: 1, dbPer100m: 2 }, { frequencyMhz: 1, dbPer100m: 3 }] })),
+    ).toEqual([{ field: 'attenuation.1.frequencyMhz', message: 'repeats the frequency 1 (entry 1)' }]);
+    expect(await fieldsOf(pePair('Bad loss 3', { lossSource: '' }))).toEqual([
+      { field: 'lossSource', message: 'is required with loss figures: say where they come from' },
+    ]);
+    expect(await fieldsOf(pePair('Bad loss 4', { cFPerM: null }))).toEqual([{ field: 'cFPerM', message: 'is required with the other line constants' }]);
+    // 1/(c·√(5.05e-7 · 2e-10)) = 0.332 against the entry's 0.66; Z0 = √(5.05e-7 / 2e-10) = 50.2 Ω, outside 30 % of 100 Ω.
+    expect(await fieldsOf(pePair('Bad loss 5', { cFPerM: 2e-10 }))).toEqual([
+      { field: 'lHPerM', message: "with C gives Z0 = √(L/C) = 50.2 Ω, far from the entry's 100 Ω: check the exponents" },
+    ]);
+    expect(await fieldsOf(pePair('Bad loss 6', { pulseVfs: [{ pulseWidthNs: 500, vf: 64, source: 'yard' }] }))).toEqual([
+      { field: 'pulseVfs.0.vf', message: 'must be at most 1 (nothing is faster than light)' },
+    ]);
+    expect(await fieldsOf(pePair('Bad loss 7', { pulseVfs: [{ pulseWidthNs: 500, vf: 0.64 }] }))).toEqual([
+      { field: 'pulseVfs.0.source', message: 'is required: say where the figure comes from' },
+    ]);
+    expect(await fieldsOf(pePair('Bad loss 8', { attenuationDbPer100m: 9, attenuationFreqMhz: 100 }))).toEqual([
+      { field: 'attenuationDbPer100m', message: 'is the one-point form of attenuation: give the points in attenuation, or make this one of them' },
+    ]);
+  });
+
+  it('records loss changes in the history and counts them as a change the analysis sees', async () => {
+    const { body: c } = await planner.post('/api/cables', pePair('Loss pair B')).expect(201);
+    const res = await planner
+      .patch(`/api/cables/${c.id}`, {
+        attenuation: [
+          { frequencyMhz: 0.1, dbPer100m: 0.55 },
+          { frequencyMhz: 1, dbPer100m: 1.6 },
+          { frequencyMhz: 10, dbPer100m: 5.5 },
+        ],
+        pulseVfs: [
+          { pulseWidthNs: 100, vf: 0.655, source: 'yard test on drum 4' },
+          { pulseWidthNs: 1000, vf: 0.628, source: 'yard test on drum 4' },
+        ],
+        reason: 'Low-frequency point and a short-pulse VF from the yard',
+      })
+      .expect(200);
+    expect(res.body).toMatchObject({ revision: 2, attenuationDbPer100m: 0.55, attenuationFreqMhz: 0.1 });
+    const h = await planner.get(`/api/cables/${c.id}/history`).expect(200);
+    expect(h.body[0].changes).toEqual([
+      { field: 'attenuation', from: '1 MHz: 1.6 dB; 10 MHz: 5.5 dB', to: '0.1 MHz: 0.55 dB; 1 MHz: 1.6 dB; 10 MHz: 5.5 dB' },
+      {
+        field: 'pulseVfs',
+        from: '1000 ns: 0.628 (yard test on drum 4)',
+        to: '100 ns: 0.655 (yard test on drum 4); 1000 ns: 0.628 (yard test on drum 4)',
+      },
+    ]);
+    expect((await changesSince(c.id, 1)).map((e) => e.reason)).toEqual(['Low-frequency point and a short-pulse VF from the yard']);
+    const source = await planner.patch(`/api/cables/${c.id}`, { lossSource: 'maker datasheet, issue 3', reason: 'Found the datasheet' }).expect(200);
+    expect(source.body.revision).toBe(2); // the wording of a source does not change an analysis
+  });
+
+  it('checks a partial change against the stored entry', async () => {
+    const { body: c } = await planner.post('/api/cables', pePair('Loss pair C')).expect(201);
+    const noSource = await planner.patch(`/api/cables/${c.id}`, { lossSource: null, reason: 'tidy' }).expect(422);
+    expect(noSource.body.error.fields).toEqual([{ field: 'lossSource', message: 'is required with loss figures: say where they come from' }]);
+    // The one-point form would drop the second point unseen.
+    const onePoint = await planner.patch(`/api/cables/${c.id}`, { attenuationDbPer100m: 2, attenuationFreqMhz: 1, reason: 'old client' }).expect(422);
+    expect(onePoint.body.error.fields[0].field).toBe('attenuationDbPer100m');
+    const cleared = await planner
+      .patch(`/api/cables/${c.id}`, { attenuation: [], rDcOhmPerM: null, lHPerM: null, cFPerM: null, lossSource: null, reason: 'figures were for another cable' })
+      .expect(200);
+    expect(cleared.body).toMatchObject({ attenuation: [], attenuationDbPer100m: null, lossSource: null, lHPerM: null, revision: 2 });
+  });
+});

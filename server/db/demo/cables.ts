@@ -1,5 +1,7 @@
 import type { Transaction } from 'sequelize';
-import { CableTypeInputSchema, type CableTypeInput } from '../../../shared/schemas/cables';
+import type { z } from 'zod';
+import { CableTypeInputSchema, type AttenuationPoint } from '../../../shared/schemas/cables';
+import { diffCable } from '../../cables/cables.service';
 import type { AppContext } from '../../context';
 import { CableType, CableTypeChange } from '../models';
 
@@ -18,7 +20,41 @@ import { CableType, CableTypeChange } from '../models';
  *   solid PE, 0.78–0.84 for foamed PE, 0.70 for PTFE rows.
  * Where no published source was at hand, the reference says "from memory".
  */
-const FAMILIES: CableTypeInput[] = [
+type FamilyInput = z.input<typeof CableTypeInputSchema>;
+
+const pt = (frequencyMhz: number, dbPer100m: number): AttenuationPoint => ({ frequencyMhz, dbPer100m });
+
+/*
+ * Loss figures. Generic families have no datasheet, so these are typical
+ * values of each family's usual sizes, written from memory of makers' data
+ * and marked so; the data-grade pair uses the usual 100 m cable limits of the
+ * structured-cabling standards (from memory as well).
+ */
+const TYPICAL_COAX =
+  'Typical of the family (5–10 mm sizes), from memory of makers\' datasheets; no one product. Replace with the installed cable\'s datasheet.';
+const TYPICAL_PAIR = 'Typical of 0.4–0.6 mm pairs, from memory of telephone-cable data; no one product.';
+const DATA_PAIR = 'The usual insertion-loss limits for 100 m of 100 Ω data cable in the structured-cabling standards, from memory.';
+const TYPICAL_POWER =
+  'Typical of 95–300 mm² cables, from memory of power-cable TDR and partial-discharge practice: the semiconducting screens make the loss rise steeply above 10 MHz.';
+
+/**
+ * 0.5 mm copper pair, worked out: R = 2·ρ/(π·0.25 mm²) with ρ = 1/58 Ω·mm²/m
+ * (annealed copper, IEC 60028) = 0.176 Ω/m loop; k_s from the skin depth
+ * δ = √(ρ/(π f μ0)): R_ac ≈ R_dc·r/(2δ), 3.4e-4 Ω/m/√Hz; L and C from
+ * Z0 = 100 Ω and VF = 0.66 (L = Z0/v, C = 1/(Z0·v)); tanδ of PE from memory.
+ */
+const PE_PAIR_CONSTANTS = {
+  rDcOhmPerM: 0.176,
+  skinOhmPerMRootHz: 3.4e-4,
+  lHPerM: 5.05e-7,
+  cFPerM: 5.05e-11,
+  gSPerM: 0,
+  lossTangent: 3e-4,
+  lossSource:
+    'Calculated for 0.5 mm copper: R from copper resistivity (IEC 60028), the skin term from the skin depth, L and C from Z0 100 Ω and VF 0.66; PE loss tangent from memory.',
+};
+
+const FAMILIES: FamilyInput[] = [
   {
     name: 'Solid PE coax, 50 Ω',
     construction: 'coax',
@@ -26,8 +62,8 @@ const FAMILIES: CableTypeInput[] = [
     z0Ohm: 50,
     vf: 0.66,
     vfTolerance: 0.02,
-    attenuationDbPer100m: null,
-    attenuationFreqMhz: null,
+    attenuation: [pt(1, 1.3), pt(10, 4.6), pt(100, 16), pt(1000, 60)],
+    lossSource: TYPICAL_COAX,
     vfSource: 'handbook',
     vfReference: 'Solid PE εr 2.25–2.3 → VF = 1/√εr ≈ 0.66 (published dielectric-constant tables: PE 2.26, 66 %); 0.66 on every solid-PE row of published coax data tables.',
     notes: 'Generic family. Replace with the datasheet value of the cable actually installed where known.',
@@ -39,8 +75,8 @@ const FAMILIES: CableTypeInput[] = [
     z0Ohm: 75,
     vf: 0.66,
     vfTolerance: 0.02,
-    attenuationDbPer100m: null,
-    attenuationFreqMhz: null,
+    attenuation: [pt(1, 1.1), pt(10, 3.6), pt(100, 11), pt(1000, 40)],
+    lossSource: TYPICAL_COAX,
     vfSource: 'handbook',
     vfReference: 'Solid PE εr 2.25–2.3 → VF ≈ 0.66 (published dielectric-constant tables); published coax data tables, 75 Ω solid-PE rows: 0.66.',
     notes: 'Generic family.',
@@ -52,8 +88,8 @@ const FAMILIES: CableTypeInput[] = [
     z0Ohm: 75,
     vf: 0.83,
     vfTolerance: 0.06,
-    attenuationDbPer100m: null,
-    attenuationFreqMhz: null,
+    attenuation: [pt(1, 0.6), pt(10, 1.9), pt(100, 6.6), pt(1000, 22)],
+    lossSource: TYPICAL_COAX,
     vfSource: 'handbook',
     vfReference:
       'Foamed PE VF 0.78–0.88 depending on the degree of foaming (published coax data tables foam rows 0.78–0.84; cellular PE εr 1.56 → 0.80 in published dielectric-constant tables). Wide range: calibrate on a known length.',
@@ -66,8 +102,8 @@ const FAMILIES: CableTypeInput[] = [
     z0Ohm: 50,
     vf: 0.83,
     vfTolerance: 0.06,
-    attenuationDbPer100m: null,
-    attenuationFreqMhz: null,
+    attenuation: [pt(10, 1.3), pt(100, 4), pt(1000, 13)],
+    lossSource: TYPICAL_COAX,
     vfSource: 'handbook',
     vfReference: 'Foamed PE VF 0.78–0.88 (published coax data tables, 50 Ω foam rows 0.78–0.84).',
     notes: 'Generic family.',
@@ -79,8 +115,8 @@ const FAMILIES: CableTypeInput[] = [
     z0Ohm: 50,
     vf: 0.695,
     vfTolerance: 0.01,
-    attenuationDbPer100m: null,
-    attenuationFreqMhz: null,
+    attenuation: [pt(10, 4.3), pt(100, 14), pt(1000, 50)],
+    lossSource: TYPICAL_COAX,
     vfSource: 'handbook',
     vfReference: 'PTFE εr 2.1 → VF = 1/√2.1 ≈ 0.69 (published dielectric-constant tables: TFE 2.1, 69 %); published coax data tables PTFE row: 0.70.',
     notes: 'Generic family.',
@@ -92,8 +128,8 @@ const FAMILIES: CableTypeInput[] = [
     z0Ohm: 100,
     vf: 0.525,
     vfTolerance: 0.15,
-    attenuationDbPer100m: null,
-    attenuationFreqMhz: null,
+    attenuation: [pt(1, 2.5), pt(10, 9)],
+    lossSource: TYPICAL_PAIR,
     vfSource: 'handbook',
     vfReference:
       'PVC εr 3.6–5.0 → 0.53–0.45 (published dielectric-constant tables); air between loosely laid pairs raises it towards 0.6 (common practice). Range 0.45–0.6.',
@@ -106,8 +142,7 @@ const FAMILIES: CableTypeInput[] = [
     z0Ohm: 100,
     vf: 0.66,
     vfTolerance: 0.03,
-    attenuationDbPer100m: null,
-    attenuationFreqMhz: null,
+    ...PE_PAIR_CONSTANTS,
     vfSource: 'handbook',
     vfReference: 'Solid PE insulation εr ≈ 2.26 with an air core: ≈ 0.66 (published dielectric-constant tables for PE; the air-core figure from memory of TDR practice).',
     notes: 'Generic family; Z0 at TDR pulse frequencies is roughly 100–120 Ω.',
@@ -119,8 +154,8 @@ const FAMILIES: CableTypeInput[] = [
     z0Ohm: 100,
     vf: 0.64,
     vfTolerance: 0.03,
-    attenuationDbPer100m: null,
-    attenuationFreqMhz: null,
+    attenuation: [pt(0.1, 0.6), pt(1, 1.8), pt(10, 6)],
+    lossSource: TYPICAL_PAIR,
     vfSource: 'handbook',
     vfReference: 'The filling compound raises the effective εr of PE-insulated pairs a little: ≈ 0.62–0.66, 0.64 typical (from memory of TDR practice; no published table checked).',
     notes: 'Generic family.',
@@ -132,8 +167,8 @@ const FAMILIES: CableTypeInput[] = [
     z0Ohm: 100,
     vf: 0.675,
     vfTolerance: 0.04,
-    attenuationDbPer100m: null,
-    attenuationFreqMhz: null,
+    attenuation: [pt(1, 2), pt(10, 6.5), pt(100, 22)],
+    lossSource: DATA_PAIR,
     vfSource: 'handbook',
     vfReference:
       'Nominal velocity of propagation of 100 Ω data cable is usually stated as 0.65–0.70 (common practice); PE 2.26 → 0.66, FEP 2.1 → 0.69 (published dielectric-constant tables).',
@@ -146,8 +181,8 @@ const FAMILIES: CableTypeInput[] = [
     z0Ohm: 30,
     vf: 0.58,
     vfTolerance: 0.15,
-    attenuationDbPer100m: null,
-    attenuationFreqMhz: null,
+    attenuation: [pt(1, 0.15), pt(10, 1.5), pt(100, 10)],
+    lossSource: TYPICAL_POWER,
     vfSource: 'handbook',
     vfReference:
       'XLPE εr ≈ 2.3 gives 0.66 in theory; the semiconducting conductor and insulation screens slow the pulse, and measured values run 0.5–0.67; 0.58 is the middle of that range (from memory of power-cable TDR practice).',
@@ -160,8 +195,8 @@ const FAMILIES: CableTypeInput[] = [
     z0Ohm: 25,
     vf: 0.55,
     vfTolerance: 0.12,
-    attenuationDbPer100m: null,
-    attenuationFreqMhz: null,
+    attenuation: [pt(1, 0.2), pt(10, 2), pt(100, 14)],
+    lossSource: TYPICAL_POWER,
     vfSource: 'handbook',
     vfReference: 'EPR εr ≈ 2.6–3.2 → 0.62–0.56 before the screens; measured 0.5–0.62, about 0.55 typical (from memory of power-cable TDR practice).',
     notes: 'Generic family; Z0 approximate.',
@@ -173,8 +208,8 @@ const FAMILIES: CableTypeInput[] = [
     z0Ohm: 20,
     vf: 0.53,
     vfTolerance: 0.06,
-    attenuationDbPer100m: null,
-    attenuationFreqMhz: null,
+    attenuation: [pt(1, 0.2), pt(10, 1.8)],
+    lossSource: TYPICAL_POWER,
     vfSource: 'handbook',
     vfReference: 'About 0.50–0.56 (from memory: no published source checked). Impregnated paper εr ≈ 3.3–4 would give 0.55–0.50.',
     notes: 'Generic family; old installations vary with moisture and age — calibrate.',
@@ -184,7 +219,7 @@ const FAMILIES: CableTypeInput[] = [
 /** The seeded names, for the sites and cable runs that refer to them. */
 export const DEMO_CABLE_TYPE_NAMES: readonly string[] = FAMILIES.map((f) => f.name);
 
-export const DEMO_CABLE_FAMILIES: readonly CableTypeInput[] = FAMILIES;
+export const DEMO_CABLE_FAMILIES: readonly FamilyInput[] = FAMILIES;
 
 /** Adds the generic families with a history entry each; call before sites and runs, which look them up by name. */
 export async function seedCableTypes(_ctx: AppContext, transaction?: Transaction): Promise<Map<string, CableType>> {
@@ -198,7 +233,7 @@ export async function seedCableTypes(_ctx: AppContext, transaction?: Transaction
         revision: 1,
         kind: 'create',
         reason: 'Seeded with the generic dielectric families',
-        changes: Object.entries(f).map(([field, to]) => ({ field, from: null, to: to ?? null })),
+        changes: diffCable(null, f),
         changedById: null,
         calibrationId: null,
       },

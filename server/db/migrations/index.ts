@@ -7,6 +7,7 @@ import * as m0004 from './0004-cable-library';
 import * as m0005 from './0005-mail';
 import * as m0006 from './0006-tickets';
 import * as m0007 from './0007-trace-reanalysis';
+import * as m0008 from './0008-cable-loss';
 
 export type Migration = MigrationFn<QueryInterface>;
 
@@ -22,6 +23,7 @@ const MIGRATIONS: Array<{ name: string; up: Migration; down: Migration }> = [
   { name: '0005-mail', ...m0005 },
   { name: '0006-tickets', ...m0006 },
   { name: '0007-trace-reanalysis', ...m0007 },
+  { name: '0008-cable-loss', ...m0008 },
 ];
 
 export function migrator(sequelize: Sequelize) {

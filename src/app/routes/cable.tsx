@@ -9,9 +9,10 @@ import { useCable } from '../../features/cables/api/get-cable';
 import { useCableCalibrations } from '../../features/cables/api/get-cable-calibrations';
 import { useCableHistory } from '../../features/cables/api/get-cable-history';
 import { useUpdateCable } from '../../features/cables/api/save-cable';
-import { constructionLabel, formatAttenuation, formatDelay, formatPercent, formatTolerance, formatVf, vfSourceLabel } from '../../features/cables/cable-format';
+import { constructionLabel, formatDelay, formatPercent, formatTolerance, formatVf, vfSourceLabel } from '../../features/cables/cable-format';
 import { CableForm, changedFields } from '../../features/cables/components/cable-form';
 import { CableHistory } from '../../features/cables/components/cable-history';
+import { CableLossDetails } from '../../features/cables/components/cable-loss-details';
 import { CalibrationChart } from '../../features/calibrations/components/calibration-chart';
 import { CalibrationForm, type TraceCalibrationSource } from '../../features/calibrations/components/calibration-form';
 import { getTrace } from '../../features/traces/api/get-trace';
@@ -115,7 +116,7 @@ export function CablePage() {
                 </Row>
                 <Row label="Delay">{formatDelay(c.vf, unit)}</Row>
                 <Row label="Impedance Z0">{c.z0Ohm} Ω</Row>
-                <Row label="Attenuation">{formatAttenuation(c.attenuationDbPer100m, c.attenuationFreqMhz, unit)}</Row>
+                <CableLossDetails cable={c} unit={unit} />
                 <Row label="VF source">
                   <Badge tone={c.vfSource === 'field-calibrated' ? 'ok' : 'plain'}>{vfSourceLabel(c.vfSource)}</Badge>
                   <span className="mt-1 block">{c.vfReference}</span>

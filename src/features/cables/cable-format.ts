@@ -1,6 +1,15 @@
 import { delayNsPerFt, delayNsPerM } from '../../../shared/cable/derivations';
 import { M_PER_FT } from '../../../shared/cable/propagation';
-import { CONSTRUCTION_LABELS, VF_SOURCE_LABELS, type Construction, type VfSource } from '../../../shared/schemas/cables';
+import {
+  CONSTRUCTION_LABELS,
+  LINE_CONSTANT_LABELS,
+  parseAttenuationList,
+  VF_SOURCE_LABELS,
+  type AttenuationPoint,
+  type Construction,
+  type LineConstantField,
+  type VfSource,
+} from '../../../shared/schemas/cables';
 import type { LengthUnit } from '../../lib/format';
 
 export const formatVf = (vf: number | null | undefined, digits = 3) => (vf === null || vf === undefined || !Number.isFinite(vf) ? '—' : vf.toFixed(digits));
@@ -10,11 +19,14 @@ export const formatTolerance = (fraction: number) => `±${(fraction * 100).toFix
 
 export const formatPercent = (fraction: number, digits = 1) => `${fraction >= 0 ? '+' : '−'}${Math.abs(fraction * 100).toFixed(digits)} %`;
 
-/** dB per 100 m or per 100 ft, as the user reads lengths. */
-export function formatAttenuation(dbPer100m: number | null, freqMhz: number | null, unit: LengthUnit): string {
-  if (dbPer100m === null || freqMhz === null) return '—';
-  const v = unit === 'ft' ? dbPer100m * M_PER_FT : dbPer100m;
-  return `${v.toFixed(2)} dB/100 ${unit} at ${freqMhz} MHz`;
+/** "1 MHz: 1.3 dB · 10 MHz: 4.6 dB per 100 m", in the user's length unit. */
+export function formatAttenuationPoints(points: readonly AttenuationPoint[], unit: LengthUnit): string {
+  if (points.length === 0) return '—';
+  const per = (db: number) => Number((unit === 'ft' ? db * M_PER_FT : db).toPrecision(3));
+  return `${[...points]
+    .sort((a, b) => a.frequencyMhz - b.frequencyMhz)
+    .map((p) => `${p.frequencyMhz} MHz: ${per(p.dbPer100m)} dB`)
+    .join(' · ')} per 100 ${unit}`;
 }
 
 export function formatDelay(vf: number, unit: LengthUnit): string {
@@ -36,6 +48,10 @@ export const FIELD_LABELS: Record<string, string> = {
   vfSource: 'VF source',
   vfReference: 'VF reference',
   notes: 'Notes',
+  attenuation: 'Attenuation points',
+  lossSource: 'Source of the loss figures',
+  ...Object.fromEntries(Object.entries(LINE_CONSTANT_LABELS).map(([k, v]) => [k, v.label])),
+  pulseVfs: 'VF per pulse width',
 };
 
 /** One history value as a person reads it. */
@@ -52,6 +68,20 @@ export function formatFieldValue(field: string, value: string | number | null, u
       return unit === 'ft' ? `${(Number(value) * M_PER_FT).toFixed(2)} dB/100 ft` : `${value} dB/100 m`;
     case 'attenuationFreqMhz':
       return `${value} MHz`;
+    case 'attenuation': {
+      // Stored as text per 100 m; shown in the user's unit.
+      const read = parseAttenuationList(String(value));
+      return read.ok ? formatAttenuationPoints(read.value, unit) : String(value);
+    }
+    case 'rDcOhmPerM':
+    case 'skinOhmPerMRootHz':
+    case 'lHPerM':
+    case 'cFPerM':
+    case 'gSPerM':
+    case 'lossTangent': {
+      const u = LINE_CONSTANT_LABELS[field as LineConstantField].unit;
+      return u ? `${value} ${u}` : String(value);
+    }
     case 'construction':
       return constructionLabel(value as Construction);
     case 'vfSource':

@@ -1,5 +1,4 @@
 import { useState, type FormEvent } from 'react';
-import { M_PER_FT } from '../../../../shared/cable/propagation';
 import {
   CableTypeInputSchema,
   CONSTRUCTIONS,
@@ -14,6 +13,7 @@ import { fieldErrors, SelectField, TextAreaField, TextField } from '../../../com
 import { ErrorNotice } from '../../../components/ui/notice';
 import type { LengthUnit } from '../../../lib/format';
 import { constructionLabel, formatDelay, vfSourceLabel } from '../cable-format';
+import { CableLossFields, lossStateFrom, lossValuesFrom, typedNumber as num, type LossFormState } from './cable-loss-fields';
 
 /** What the planner types: strings, tolerance in percent, attenuation per 100 m or 100 ft. */
 export interface CableFormState {
@@ -23,17 +23,18 @@ export interface CableFormState {
   z0Ohm: string;
   vf: string;
   vfTolerancePercent: string;
-  attenuation: string;
-  attenuationFreqMhz: string;
   vfSource: VfSource;
   vfReference: string;
   notes: string;
+  loss: LossFormState;
 }
+
+/** The one-point pair repeats the list's lowest point; the form edits the list only. */
+type FormFields = Exclude<keyof CableTypeInput, 'attenuationDbPer100m' | 'attenuationFreqMhz'>;
 
 const trimNumber = (n: number) => String(Number(n.toPrecision(10)));
 
 export function stateFromCable(c: Partial<CableTypeInput> | undefined, unit: LengthUnit): CableFormState {
-  const att = c?.attenuationDbPer100m;
   return {
     name: c?.name ?? '',
     construction: c?.construction ?? 'coax',
@@ -41,23 +42,14 @@ export function stateFromCable(c: Partial<CableTypeInput> | undefined, unit: Len
     z0Ohm: c?.z0Ohm !== undefined ? trimNumber(c.z0Ohm) : '',
     vf: c?.vf !== undefined ? trimNumber(c.vf) : '',
     vfTolerancePercent: c?.vfTolerance !== undefined ? trimNumber(c.vfTolerance * 100) : '2',
-    attenuation: att !== undefined && att !== null ? trimNumber(unit === 'ft' ? att * M_PER_FT : att) : '',
-    attenuationFreqMhz: c?.attenuationFreqMhz != null ? trimNumber(c.attenuationFreqMhz) : '',
     vfSource: c?.vfSource ?? 'datasheet',
     vfReference: c?.vfReference ?? '',
     notes: c?.notes ?? '',
+    loss: lossStateFrom(c ?? {}, unit),
   };
 }
 
-/** A typed number, or NaN; a comma is taken as the decimal mark. Empty gives null. */
-function num(s: string): number | null {
-  const t = s.trim().replace(',', '.');
-  if (t === '') return null;
-  return /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(t) ? Number(t) : NaN;
-}
-
-export function valuesFromState(s: CableFormState, unit: LengthUnit): Record<keyof CableTypeInput, unknown> {
-  const att = num(s.attenuation);
+export function valuesFromState(s: CableFormState, unit: LengthUnit): Record<FormFields, unknown> {
   const tol = num(s.vfTolerancePercent);
   return {
     name: s.name,
@@ -66,16 +58,15 @@ export function valuesFromState(s: CableFormState, unit: LengthUnit): Record<key
     z0Ohm: num(s.z0Ohm) ?? undefined,
     vf: num(s.vf) ?? undefined,
     vfTolerance: tol === null ? undefined : tol / 100,
-    attenuationDbPer100m: att === null ? null : unit === 'ft' ? att / M_PER_FT : att,
-    attenuationFreqMhz: num(s.attenuationFreqMhz),
     vfSource: s.vfSource,
     vfReference: s.vfReference,
     notes: s.notes.trim() === '' ? null : s.notes,
+    ...lossValuesFrom(s.loss, unit),
   };
 }
 
-/** Form field names differ from the stored ones for the two converted inputs. */
-const FORM_FIELD: Record<string, keyof CableFormState> = { vfTolerance: 'vfTolerancePercent', attenuationDbPer100m: 'attenuation' };
+/** Form field names differ from the stored ones for the converted input. */
+const FORM_FIELD: Record<string, keyof CableFormState> = { vfTolerance: 'vfTolerancePercent' };
 const toFormErrors = (errors: Record<string, string>) =>
   Object.fromEntries(Object.entries(errors).map(([k, v]) => [FORM_FIELD[k] ?? k, k === 'vfTolerance' ? v.replace(/0\.5 \(±50 %\)/, '50 %') : v]));
 
@@ -111,7 +102,7 @@ export function CableForm({ unit, cable, prefill, pending, error, submitLabel, o
     e.preventDefault();
     const parsed = CableTypeInputSchema.safeParse(valuesFromState(state, unit));
     const next: Record<string, string> = {};
-    if (!parsed.success) for (const i of parsed.error.issues) next[String(i.path[0] ?? '(body)')] ??= i.message;
+    if (!parsed.success) for (const i of parsed.error.issues) next[i.path.join('.') || '(body)'] ??= i.message;
     if (editing && reason.trim().length < 3) next.reason = 'is required: say why (at least 3 characters)';
     setLocalErrors(toFormErrors(next));
     if (Object.keys(next).length || !parsed.success) return;
@@ -147,20 +138,6 @@ export function CableForm({ unit, cable, prefill, pending, error, submitLabel, o
           error={errors.vfTolerancePercent}
           hint="How far the true VF may be from this value"
         />
-        <TextField
-          label={`Attenuation (dB/100 ${unit}, optional)`}
-          inputMode="decimal"
-          value={state.attenuation}
-          onChange={(e) => set('attenuation', e.target.value)}
-          error={errors.attenuation}
-        />
-        <TextField
-          label="At frequency (MHz)"
-          inputMode="decimal"
-          value={state.attenuationFreqMhz}
-          onChange={(e) => set('attenuationFreqMhz', e.target.value)}
-          error={errors.attenuationFreqMhz}
-        />
         <SelectField label="Source of the VF" value={state.vfSource} onChange={(e) => set('vfSource', e.target.value as VfSource)} error={errors.vfSource}>
           {VF_SOURCES.map((s) => (
             <option key={s} value={s}>
@@ -177,6 +154,7 @@ export function CableForm({ unit, cable, prefill, pending, error, submitLabel, o
         hint="Which datasheet, handbook table, calculation or calibration it comes from"
       />
       <TextAreaField label="Notes (optional)" value={state.notes} onChange={(e) => set('notes', e.target.value)} error={errors.notes} />
+      <CableLossFields unit={unit} state={state.loss} onChange={(loss) => set('loss', loss)} errors={errors} />
       {editing && (
         <TextField
           label="Reason for the change"
@@ -203,13 +181,25 @@ export function CableForm({ unit, cable, prefill, pending, error, submitLabel, o
   );
 }
 
-/** The fields of `next` that differ from the stored entry: what an edit sends. */
+/** Equal, numbers within rounding (a unit conversion there and back), lists and records field by field. */
+function sameValue(a: unknown, b: unknown): boolean {
+  if (typeof a === 'number' && typeof b === 'number') return Math.abs(a - b) <= 1e-9 * Math.max(1, Math.abs(a));
+  if (Array.isArray(a) && Array.isArray(b)) return a.length === b.length && a.every((x, i) => sameValue(x, b[i]));
+  if (a && b && typeof a === 'object' && typeof b === 'object') {
+    const ka = Object.keys(a);
+    return ka.length === Object.keys(b).length && ka.every((k) => sameValue((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k]));
+  }
+  return a === b;
+}
+
+/** The fields of `next` that differ from the stored entry: what an edit sends (the list, never the pair that repeats it). */
 export function changedFields(cable: CableTypeView, next: CableTypeInput): Partial<CableTypeInput> {
   const out: Partial<CableTypeInput> = {};
   for (const k of Object.keys(next) as Array<keyof CableTypeInput>) {
+    if (k === 'attenuationDbPer100m' || k === 'attenuationFreqMhz') continue;
     const a = cable[k];
     const b = next[k];
-    const same = typeof a === 'number' && typeof b === 'number' ? Math.abs(a - b) <= 1e-12 * Math.max(1, Math.abs(a)) : a === b;
+    const same = sameValue(a, b);
     if (!same) (out as Record<string, unknown>)[k] = b;
   }
   return out;
