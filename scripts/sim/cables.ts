@@ -62,3 +62,13 @@ export const CABLES = { COAX_50, COAX_75, PAIR_100, POWER_MV, POWER_LV };
 export function variant(cable: CableModel, zScale: number, vfScale: number, name: string): CableModel {
   return { ...cable, name, z0Ohm: cable.z0Ohm * zScale, vf: cable.vf * vfScale };
 }
+
+/** 0.4 mm PE-insulated telecom pair: higher loss than 0.5 mm, 0.27 Ω/m loop, about 120 Ω at high frequency. */
+export const PAIR_04: CableModel = {
+  name: 'pair-04',
+  z0Ohm: 120,
+  vf: 0.67,
+  rdcOhmPerM: 0.27,
+  skinOhmPerMRootHz: 4.2e-4,
+  tanDelta: 5e-4,
+};

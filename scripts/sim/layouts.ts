@@ -14,7 +14,12 @@ export const LAYOUTS = [
   'distance-ft-tab',
   'time-ms-units-row',
 ] as const;
-export type Layout = (typeof LAYOUTS)[number];
+/**
+ * Further layouts used by the hand-made field cases: a distance export in ρ that starts
+ * at 0 m (a pulse record in ρ is normalised to the launch peak, so its baseline is 0).
+ */
+export const FIELD_LAYOUTS = ['distance-m-rho'] as const;
+export type Layout = (typeof LAYOUTS)[number] | (typeof FIELD_LAYOUTS)[number];
 
 export interface WriteOptions {
   layout: Layout;
@@ -26,6 +31,8 @@ export interface WriteOptions {
   cableName: string;
   /** Written into the metadata of layouts that carry it. */
   z0Ohm?: number;
+  /** Step or pulse record; decides how a ρ export is normalised. */
+  mode?: 'step' | 'pulse';
 }
 
 const num = (x: number, digits = 10) => {
@@ -82,6 +89,13 @@ export function writeLayout(o: WriteOptions): string {
       const k = (o.instrumentVf * C0) / 2 / 0.3048;
       for (let i = 0; i < n; i++) rows.push(`${num(t[i] * k, 12)}\t${num(v[i], 7)}`);
       return rows.join('\r\n') + '\r\n\r\n\r\n';
+    }
+    case 'distance-m-rho': {
+      rows.push(`# velocity factor ${o.instrumentVf}`, 'distance (m),rho');
+      const k = (o.instrumentVf * C0) / 2;
+      const offset = o.mode === 'pulse' ? 0 : 1;
+      for (let i = 0; i < n; i++) rows.push(`${num(t[i] * k, 12)},${num(v[i] / incidentV - offset, 7)}`);
+      return rows.join('\n') + '\n';
     }
     case 'time-ms-units-row':
       rows.push('Time;Signal', 'ms;mV');

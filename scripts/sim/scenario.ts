@@ -188,6 +188,8 @@ export interface Acquisition {
   /** The instrument's trigger time on its own axis: time of sample 0. */
   timeOfFirstSampleS: number;
   output?: 'port' | 'reflection';
+  /** Source resistance; default the cable's own impedance (a matched instrument). */
+  sourceOhm?: number;
   impairments: Omit<Impairments, 'seed'> & { seed: number };
 }
 
@@ -242,12 +244,13 @@ export function simulateScenario(sc: Scenario, acq: Acquisition): SimulatedTrace
     launchAtS: launchAt,
     riseTimeS: acq.riseTimeS,
     sourceV: acq.sourceV,
-    sourceOhm: sc.cable.z0Ohm,
+    sourceOhm: acq.sourceOhm ?? sc.cable.z0Ohm,
     excitation: acq.mode === 'pulse' ? { kind: 'pulse', widthS: acq.pulseWidthS ?? 2 * acq.riseTimeS } : { kind: 'step' },
     output: acq.output,
   });
   const volts = impair(clean, acq.impairments);
   const timeS = new Float64Array(acq.samples);
   for (let i = 0; i < acq.samples; i++) timeS[i] = acq.timeOfFirstSampleS + i * acq.sampleIntervalS;
-  return { timeS, volts, incidentV: acq.sourceV / 2, expected };
+  const rs = acq.sourceOhm ?? sc.cable.z0Ohm;
+  return { timeS, volts, incidentV: (acq.sourceV * sc.cable.z0Ohm) / (rs + sc.cable.z0Ohm), expected };
 }

@@ -144,13 +144,16 @@ export interface ScoredEvent {
 
 /**
  * Where echoes of the expected events can fall: a bounce between two reflectors a and b
- * (the instrument counting as one at 0 m) returns at 2·d_b − d_a, twice at 3·d_b − 2·d_a.
+ * (the instrument counting as one at 0 m) returns at 2·d_b − d_a, twice at 3·d_b − 2·d_a;
+ * an echo re-reflected by a mismatched instrument returns at d_a + d_b.
  */
 export function echoPositions(expected: ExpectedEvent[]): number[] {
   const at = [0, ...expected.map((e) => e.distanceM)];
   const out: number[] = [];
-  for (let b = 1; b < at.length; b++)
+  for (let b = 1; b < at.length; b++) {
     for (let a = 0; a < b; a++) for (let k = 1; k <= 2; k++) out.push(at[b] + k * (at[b] - at[a]));
+    for (let a = 1; a <= b; a++) out.push(at[a] + at[b]);
+  }
   return out;
 }
 
