@@ -1,13 +1,16 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import express, { type Express } from 'express';
-import session from 'express-session';
-import connectSessionSequelize from 'connect-session-sequelize';
+import cookieParser from 'cookie-parser';
 import helmet from 'helmet';
+import type { DestinationStream } from 'pino';
 import { authRoutes } from './auth/auth.routes';
 import { cableRoutes } from './cables/cables.routes';
 import { calibrationRoutes } from './calibrations/calibrations.routes';
+import { createCsrf } from './auth/csrf';
 import { configurePassport } from './auth/passport';
+import { configurePasswordHashing } from './auth/passwords';
+import { createSessionMiddleware, sessionLifetime } from './auth/session';
 import type { AppConfig } from './config';
 import type { AppContext } from './context';
 import { connect } from './db/connection';
@@ -18,7 +21,6 @@ import { startMail } from './mail';
 import { sessionSecret } from './db/settings';
 import { AppError, errorHandler } from './errors';
 import type { ApiRouter, RouteRecord } from './http/api-router';
-import { createCsrf } from './http/csrf';
 import { outboxRoutes } from './outbox/outbox.routes';
 import { dashboardRoutes } from './dashboard/dashboard.routes';
 import { subscribeFindingNotices } from './tickets/finding-notices';
@@ -28,9 +30,8 @@ import { findingRoutes } from './findings/findings.routes';
 import { siteRoutes } from './sites/sites.routes';
 import { traceRoutes } from './traces/traces.routes';
 import { userRoutes } from './users/users.routes';
-
-const SessionStore = connectSessionSequelize(session.Store);
-const SESSION_MAX_AGE_MS = 12 * 60 * 60 * 1000;
+import { createLogger, securityLog } from './log';
+import { hardenFiles } from './startup';
 
 export interface RhologApp {
   app: Express;
@@ -40,26 +41,31 @@ export interface RhologApp {
 }
 
 /** The whole Express app on a migrated database; listen() is the caller's business. */
-export async function createApp(config: AppConfig): Promise<RhologApp> {
-  const log = (message: string, extra?: unknown) => {
-    if (config.env !== 'test') console.log(`[rholog] ${message}`, ...(extra === undefined ? [] : [extra]));
-  };
+export async function createApp(config: AppConfig, options: { logDestination?: DestinationStream } = {}): Promise<RhologApp> {
+  const logger = createLogger(config, options.logDestination);
+  const log = (message: string, extra?: unknown) => logger.info(extra === undefined ? {} : { extra }, message);
+  configurePasswordHashing({ cost: config.scryptCost });
   const sequelize = await connect(config.databaseUrl);
   initModels(sequelize);
   await migrate(sequelize);
   const mail = await startMail(config, log);
-  const ctx: AppContext = { config, sequelize, onClose: [], log, mail };
+  const ctx: AppContext = { config, sequelize, onClose: [], log, logger, security: securityLog(logger), mail };
   ctx.onClose.push(() => sequelize.close());
   ctx.onClose.unshift(() => mail.close());
-  fs.mkdirSync(config.uploadDir, { recursive: true });
+  fs.mkdirSync(config.uploadDir, { recursive: true, mode: 0o750 });
+  hardenFiles(config, logger);
 
   if (config.demoData) await seedDemo(ctx);
 
   const app = express();
   app.disable('x-powered-by');
-  if (config.trustProxy) app.set('trust proxy', 1);
+  // A hop count, never `true`: the client address is the one the nearest trusted proxy saw, so a
+  // visitor cannot choose theirs by sending X-Forwarded-For.
+  app.set('trust proxy', config.trustProxyHops);
   app.use(
     helmet({
+      // Strict-Transport-Security only on answers that went over HTTPS (below).
+      strictTransportSecurity: false,
       contentSecurityPolicy:
         config.client === 'vite'
           ? false
@@ -75,50 +81,36 @@ export async function createApp(config: AppConfig): Promise<RhologApp> {
             },
     }),
   );
+  app.use((req, res, next) => {
+    if (req.secure) res.setHeader('Strict-Transport-Security', 'max-age=31536000; includeSubDomains');
+    next();
+  });
   app.use(express.json({ limit: '256kb' }));
   app.use(express.urlencoded({ extended: false, limit: '64kb' }));
 
-  const store = new SessionStore({
-    db: sequelize,
-    table: 'Session',
-    expiration: SESSION_MAX_AGE_MS,
-    extendDefaultFields: (defaults: { data: string; expires: Date }, s: { passport?: { user?: number } }) => ({
-      data: defaults.data,
-      expires: defaults.expires,
-      userId: s.passport?.user ?? null,
-    }),
-  });
-  ctx.onClose.unshift(() => (store as unknown as { stopExpiringSessions: () => void }).stopExpiringSessions());
-
-  app.use(
-    session({
-      name: 'rholog.sid',
-      secret: await sessionSecret(sequelize, config.sessionSecret),
-      store,
-      resave: false,
-      saveUninitialized: false,
-      rolling: true,
-      proxy: config.trustProxy,
-      cookie: {
-        httpOnly: true,
-        sameSite: 'lax',
-        secure: config.cookieSecure,
-        maxAge: SESSION_MAX_AGE_MS,
-      },
-    }),
-  );
+  const secret = await sessionSecret(sequelize, config.sessionSecret);
+  const sessions = createSessionMiddleware(config, sequelize, secret);
+  ctx.onClose.unshift(sessions.stop);
+  app.use(cookieParser());
+  app.use(sessions.middleware);
+  app.use(sessionLifetime(config, ctx.security));
   const passport = configurePassport();
   app.use(passport.initialize());
   app.use(passport.session());
 
-  const csrf = createCsrf();
-  app.use('/api', csrf.csrfSynchronisedProtection);
+  // API answers are per person and change often: never kept by a browser or a proxy.
+  app.use('/api', (_req, res, next) => {
+    res.setHeader('Cache-Control', 'no-store');
+    next();
+  });
+  const csrf = createCsrf({ sessionSecret: secret, cookieSecure: config.cookieSecure });
+  app.use('/api', csrf.protection);
 
   app.get('/api/health', (_req, res) => {
     res.json({ status: 'ok' });
   });
 
-  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(), cableRoutes(), calibrationRoutes(), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx), ticketRoutes(ctx), dashboardRoutes()];
+  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(ctx), cableRoutes(), calibrationRoutes(ctx), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx), ticketRoutes(ctx), dashboardRoutes()];
   subscribeFindingNotices(ctx);
   for (const r of routers) app.use(r.prefix, r.router);
   const routes = [{ method: 'get' as const, path: '/api/health', access: 'public' as const }, ...routers.flatMap((r) => r.routes)];
@@ -132,6 +124,8 @@ export async function createApp(config: AppConfig): Promise<RhologApp> {
     if (!fs.existsSync(path.join(dist, 'index.html'))) {
       throw new Error(`The built client is missing (${dist}/index.html). Run "npm run build" first.`);
     }
+    // Source maps are not built (vite.config.ts); any left over from an older build are not served.
+    app.use((req, _res, next) => next(req.path.endsWith('.map') ? new AppError(404, 'not_found', 'Not found.') : undefined));
     app.use(express.static(dist, { index: false, maxAge: '1h' }));
     app.get('/{*splat}', (_req, res) => {
       res.sendFile(path.join(dist, 'index.html'));
@@ -143,7 +137,8 @@ export async function createApp(config: AppConfig): Promise<RhologApp> {
     app.use(vite.middlewares);
   }
 
-  app.use(errorHandler({ exposeInternals: config.env !== 'production', log: (err) => console.error('[rholog]', err) }));
+  // Stack traces and file paths only for a developer (NODE_ENV=development); the log always has them.
+  app.use(errorHandler({ exposeInternals: config.env === 'development', log: (err) => logger.error({ err }, 'request failed') }));
 
   const close = async () => {
     for (const fn of ctx.onClose) await fn();

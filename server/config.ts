@@ -1,9 +1,16 @@
+import os from 'node:os';
 import path from 'node:path';
 import { z } from 'zod';
 
 const onOff = z
   .enum(['on', 'off', 'true', 'false', '1', '0'], { error: 'must be on or off' })
   .transform((v) => v === 'on' || v === 'true' || v === '1');
+
+/** How many reverse proxies stand in front: a hop count (0 = none). 'on' is one proxy, 'off' none. */
+const proxyHops = z
+  .string()
+  .regex(/^(on|off|true|false|\d{1,2})$/, { error: 'must be a number of proxies in front (0, 1, 2…) or on/off' })
+  .transform((v) => (v === 'on' || v === 'true' ? 1 : v === 'off' || v === 'false' ? 0 : Number(v)));
 
 const port = z.coerce
   .number({ error: 'must be a whole number from 0 to 65535' })
@@ -12,9 +19,11 @@ const port = z.coerce
   .max(65535, 'must be a whole number from 0 to 65535');
 
 const EnvSchema = z.object({
-  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  // Production unless asked otherwise: development (Vite, detailed errors) only when NODE_ENV says so.
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('production'),
   PORT: port.default(3000),
-  HOST: z.string().min(1).default('0.0.0.0'),
+  /** Unset: 127.0.0.1 while the demo data (with its published passwords) is on, else 0.0.0.0. */
+  HOST: z.string().min(1).optional(),
   DATABASE_URL: z
     .string()
     .regex(/^(sqlite:|postgres:\/\/|postgresql:\/\/)/, 'must start with sqlite: or postgres://')
@@ -29,11 +38,33 @@ const EnvSchema = z.object({
   MAIL_MAX_ATTEMPTS: z.coerce.number({ error: 'must be a whole number' }).int().min(1).max(50).default(8),
   UPLOAD_DIR: z.string().min(1).default('uploads'),
   MAX_UPLOAD_MB: z.coerce.number().positive().max(512).default(20),
+  /** Worker threads that analyse uploads; unset: one fewer than the cores (at least 1, at most 8). */
+  ANALYSIS_THREADS: z.coerce.number({ error: 'must be a whole number from 1 to 32' }).int().min(1).max(32).optional(),
+  ANALYSIS_TIMEOUT_S: z.coerce.number({ error: 'must be a number of seconds' }).min(0).max(600).default(20),
+  ANALYSIS_MEMORY_MB: z.coerce.number({ error: 'must be a number of megabytes' }).int().min(16).max(8192).default(256),
+  /** Start-up clean-up leaves files younger than this alone (an upload may be arriving). */
+  UPLOAD_SWEEP_MIN_AGE_S: z.coerce.number({ error: 'must be a number of seconds' }).min(0).max(86_400).default(600),
   COOKIE_SECURE: z.enum(['auto', 'on', 'off']).default('auto'),
-  TRUST_PROXY: onOff.default(false),
-  LOGIN_MAX_PER_ACCOUNT: z.coerce.number().int().positive().default(5),
+  TRUST_PROXY: proxyHops.default(0),
+  LOGIN_MAX_PER_PAIR: z.coerce.number().int().positive().default(5),
   LOGIN_MAX_PER_ADDRESS: z.coerce.number().int().positive().default(30),
   LOGIN_WINDOW_MIN: z.coerce.number().positive().default(15),
+  LOGIN_SLOW_AFTER: z.coerce.number().int().min(0).default(5),
+  LOGIN_DELAY_MS: z.coerce.number().int().min(0).max(60_000).default(500),
+  LOGIN_MAX_DELAY_S: z.coerce.number().min(0).max(120).default(10),
+  PASSWORD_CHANGE_MAX_FAILS: z.coerce.number().int().positive().default(5),
+  SESSION_IDLE_HOURS: z.coerce.number({ error: 'must be a number of hours' }).positive('must be more than 0').max(24 * 30).default(12),
+  SESSION_MAX_DAYS: z.coerce.number({ error: 'must be a number of days' }).positive('must be more than 0').max(365).default(7),
+  SCRYPT_COST: z.coerce
+    .number({ error: 'must be a power of two from 1024 to 1048576' })
+    .int('must be a power of two from 1024 to 1048576')
+    .min(1024, 'must be a power of two from 1024 to 1048576')
+    .max(1_048_576, 'must be a power of two from 1024 to 1048576')
+    .refine((n) => (n & (n - 1)) === 0, 'must be a power of two from 1024 to 1048576')
+    .default(2 ** 15),
+  LOG_LEVEL: z
+    .enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent'], { error: 'must be one of fatal, error, warn, info, debug, trace, silent' })
+    .default('info'),
 });
 
 export type Env = z.input<typeof EnvSchema>;
@@ -55,9 +86,30 @@ export interface AppConfig {
   mailMaxAttempts: number;
   uploadDir: string;
   maxUploadBytes: number;
+  /** The worker pool that analyses traces: threads, and each file's time and memory budget. */
+  analysis: { threads: number; timeoutMs: number; memoryMb: number };
+  uploadSweepMinAgeMs: number;
   cookieSecure: 'auto' | boolean;
-  trustProxy: boolean;
-  login: { maxPerAccount: number; maxPerAddress: number; windowMs: number };
+  /** Reverse proxies in front of Rholog; the client address is read that many hops back in X-Forwarded-For. */
+  trustProxyHops: number;
+  login: {
+    /** Failed tries from one address on one account before that pair is locked for the window. */
+    maxPerPair: number;
+    /** Failed tries from one address, on any accounts, before the address is refused for the window. */
+    maxPerAddress: number;
+    windowMs: number;
+    /** Failed tries on one account (from anywhere) before its sign-ins are slowed down (never locked). */
+    slowAfter: number;
+    /** The first delay; each further failure doubles it, up to maxDelayMs. */
+    delayMs: number;
+    maxDelayMs: number;
+  };
+  /** Wrong current passwords on the change-password route per account per login window. */
+  passwordChangeMaxFails: number;
+  session: { idleMs: number; absoluteMs: number };
+  /** scrypt's N (CPU/memory cost) for new password hashes; stored hashes keep their own. */
+  scryptCost: number;
+  logLevel: 'fatal' | 'error' | 'warn' | 'info' | 'debug' | 'trace' | 'silent';
   /** Serve the built client from dist/client (production) or Vite in middleware mode (development). */
   client: 'static' | 'vite' | 'none';
 }
@@ -76,7 +128,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
   return {
     env: e.NODE_ENV,
     port: e.PORT,
-    host: e.HOST,
+    host: e.HOST ?? (e.DEMO_DATA ? '127.0.0.1' : '0.0.0.0'),
     databaseUrl: e.DATABASE_URL,
     sessionSecret: e.SESSION_SECRET,
     demoData: e.DEMO_DATA,
@@ -88,13 +140,26 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     mailMaxAttempts: e.MAIL_MAX_ATTEMPTS,
     uploadDir: path.resolve(e.UPLOAD_DIR),
     maxUploadBytes: Math.round(e.MAX_UPLOAD_MB * 1024 * 1024),
+    analysis: {
+      threads: e.ANALYSIS_THREADS ?? Math.min(8, Math.max(1, os.availableParallelism() - 1)),
+      timeoutMs: Math.round(e.ANALYSIS_TIMEOUT_S * 1000),
+      memoryMb: e.ANALYSIS_MEMORY_MB,
+    },
+    uploadSweepMinAgeMs: Math.round(e.UPLOAD_SWEEP_MIN_AGE_S * 1000),
     cookieSecure: e.COOKIE_SECURE === 'auto' ? 'auto' : e.COOKIE_SECURE === 'on',
-    trustProxy: e.TRUST_PROXY,
+    trustProxyHops: e.TRUST_PROXY,
     login: {
-      maxPerAccount: e.LOGIN_MAX_PER_ACCOUNT,
+      maxPerPair: e.LOGIN_MAX_PER_PAIR,
       maxPerAddress: e.LOGIN_MAX_PER_ADDRESS,
       windowMs: Math.round(e.LOGIN_WINDOW_MIN * 60_000),
+      slowAfter: e.LOGIN_SLOW_AFTER,
+      delayMs: e.LOGIN_DELAY_MS,
+      maxDelayMs: Math.round(e.LOGIN_MAX_DELAY_S * 1000),
     },
+    passwordChangeMaxFails: e.PASSWORD_CHANGE_MAX_FAILS,
+    session: { idleMs: Math.round(e.SESSION_IDLE_HOURS * 3_600_000), absoluteMs: Math.round(e.SESSION_MAX_DAYS * 86_400_000) },
+    scryptCost: e.SCRYPT_COST,
+    logLevel: e.LOG_LEVEL,
     client: e.NODE_ENV === 'production' ? 'static' : e.NODE_ENV === 'development' ? 'vite' : 'none',
   };
 }

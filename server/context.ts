@@ -1,5 +1,6 @@
 import type { Sequelize } from 'sequelize';
 import type { AppConfig } from './config';
+import type { Logger, SecurityLog } from './log';
 import type { MailSystem } from './mail';
 
 /** What route modules and services get from createApp(); features add their long-lived pieces here. */
@@ -8,7 +9,12 @@ export interface AppContext {
   sequelize: Sequelize;
   /** Called on close(), last registered first. */
   onClose: Array<() => Promise<void> | void>;
+  /** A line in the structured log at info level (kept for short messages; `logger` for the rest). */
   log: (message: string, extra?: unknown) => void;
+  /** The structured (JSON) log. */
+  logger: Logger;
+  /** Sign-ins, role changes, password changes and overrides: `ctx.security('role-changed', { userId, actorId })`. */
+  security: SecurityLog;
   /** Outgoing mail: ctx.mail.queue.enqueue(job, transaction) inside the change's transaction. */
   mail: MailSystem;
 }

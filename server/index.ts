@@ -1,22 +1,30 @@
 import { createApp } from './app';
 import { ConfigError, loadConfig } from './config';
+import { createLogger } from './log';
+import { exposureWarnings } from './startup';
 
 async function main() {
+  // Files and folders Rholog creates (database, uploads) are closed to other users.
+  process.umask(0o027);
   let config;
   try {
     config = loadConfig();
   } catch (err) {
     if (err instanceof ConfigError) {
-      console.error(err.message);
+      process.stderr.write(`${err.message}\n`);
       process.exit(2);
     }
     throw err;
   }
   const { app, close, ctx } = await createApp(config);
+  for (const warning of exposureWarnings(config)) ctx.logger.warn({ host: config.host, demoData: config.demoData }, warning);
   const server = app.listen(config.port, config.host, () => {
     const address = server.address();
     const port = typeof address === 'object' && address ? address.port : config.port;
-    ctx.log(`Listening on http://localhost:${port} (${config.env}, database ${config.databaseUrl.split('@').pop()})`);
+    ctx.logger.info(
+      { host: config.host, port, env: config.env, database: config.databaseUrl.split('@').pop() },
+      `Listening on http://${config.host === '0.0.0.0' ? 'localhost' : config.host}:${port} (${config.env})`,
+    );
   });
   let stopping = false;
   const stop = (signal: string) => {
@@ -27,7 +35,7 @@ async function main() {
       close().then(
         () => process.exit(0),
         (err) => {
-          console.error(err);
+          ctx.logger.error({ err }, 'shutdown failed');
           process.exit(1);
         },
       );
@@ -39,6 +47,6 @@ async function main() {
 }
 
 main().catch((err) => {
-  console.error('[rholog] start-up failed:', err);
+  createLogger({ logLevel: 'error' }).fatal({ err }, 'start-up failed');
   process.exit(1);
 });

@@ -1,81 +1,77 @@
-import type { RequestHandler } from 'express';
 import { rateLimit } from 'express-rate-limit';
+import { Op } from 'sequelize';
+import type { PassportStatic } from 'passport';
 import { ChangePasswordSchema, LoginSchema, PreferencesSchema } from '../../shared/schemas/users';
 import type { AppContext } from '../context';
-import { User } from '../db/models';
+import { Session, User } from '../db/models';
 import { AppError } from '../errors';
 import { ApiRouter, handle } from '../http/api-router';
-import type { Csrf } from '../http/csrf';
+import type { Csrf } from './csrf';
 import { currentUser } from './guards';
+import { assertStrongPassword } from './password-strength';
 import { WRONG_CREDENTIALS } from './passport';
 import { hashPassword, verifyPassword } from './passwords';
-import type { PassportStatic } from 'passport';
-
-function tooMany(message: string): RequestHandler {
-  return (_req, res) => {
-    res.status(429).json({ error: { code: 'too_many_attempts', message } });
-  };
-}
+import { signInLimits } from './sign-in-limits';
 
 export function authRoutes(ctx: AppContext, deps: { passport: PassportStatic; csrf: Csrf }) {
   const r = new ApiRouter('/api/auth');
-  const { windowMs, maxPerAccount, maxPerAddress } = ctx.config.login;
-  const minutes = Math.round(windowMs / 60_000);
+  const { windowMs } = ctx.config.login;
+  const minutes = Math.max(1, Math.round(windowMs / 60_000));
 
-  // Failed tries only, both per address and per account: a crew behind one
-  // depot address signing in all morning is not locked out, a guesser is.
-  const perAddress = rateLimit({
+  // Wrong current passwords on the change route, per account: someone at an
+  // unlocked, signed-in screen cannot guess the password behind it.
+  const passwordGuesses = rateLimit({
     windowMs,
-    limit: maxPerAddress,
-    skipSuccessfulRequests: true,
+    limit: ctx.config.passwordChangeMaxFails,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
-    handler: tooMany(`Too many failed sign-ins from this address. Wait ${minutes} minutes and try again.`),
-  });
-  const perAccount = rateLimit({
-    windowMs,
-    limit: maxPerAccount,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
+    keyGenerator: (req) => `pw:${req.user?.id ?? 0}`,
+    requestWasSuccessful: (_req, res) => res.locals.wrongCurrentPassword !== true,
     skipSuccessfulRequests: true,
-    keyGenerator: (req) => `acct:${String(req.body?.email ?? '').trim().toLowerCase()}`,
-    handler: tooMany(`Too many failed sign-ins for this account. Wait ${minutes} minutes and try again.`),
+    handler: (req, res) => {
+      ctx.security('password-change-limited', { userId: req.user?.id, ip: req.ip });
+      res.status(429).json({
+        error: {
+          code: 'too_many_attempts',
+          message: `Too many wrong current passwords. Wait ${minutes} minute${minutes === 1 ? '' : 's'} and try again, or ask an administrator for a new temporary password.`,
+        },
+      });
+    },
   });
 
   r.get('/csrf', 'public', (req, res) => {
-    res.json({ csrfToken: deps.csrf.generateToken(req) });
+    res.json({ csrfToken: deps.csrf.token(req, res) });
   });
 
-  r.post(
-    '/login',
-    'public',
-    perAddress,
-    perAccount,
-    (req, res, next) => {
-      req.body = LoginSchema.parse(req.body);
-      deps.passport.authenticate('local', (err: unknown, user: Express.User | false, info?: { message?: string }) => {
-        if (err) return next(err);
-        if (!user) {
-          res.status(401).json({ error: { code: 'wrong_credentials', message: info?.message ?? WRONG_CREDENTIALS } });
-          return;
-        }
-        // passport 0.7 regenerates the session id on logIn (session fixation defence).
-        req.logIn(user, (loginErr) => {
-          if (loginErr) return next(loginErr);
-          User.findByPk(user.id)
-            .then((u) => {
-              res.json({ user: u!.toPublic(), csrfToken: deps.csrf.generateToken(req, true) });
-            })
-            .catch(next);
-        });
-      })(req, res, next);
-    },
-  );
+  r.post('/login', 'public', ...signInLimits(ctx.config.login, ctx.security), (req, res, next) => {
+    req.body = LoginSchema.parse(req.body);
+    const email = (req.body as { email: string }).email;
+    deps.passport.authenticate('local', (err: unknown, user: Express.User | false, info?: { message?: string; reason?: string }) => {
+      if (err) return next(err);
+      if (!user) {
+        ctx.security('sign-in-failed', { email, ip: req.ip, reason: info?.reason ?? 'wrong credentials' });
+        res.status(401).json({ error: { code: 'wrong_credentials', message: info?.message ?? WRONG_CREDENTIALS } });
+        return;
+      }
+      // passport 0.7 regenerates the session id on logIn (session fixation defence).
+      req.logIn(user, (loginErr) => {
+        if (loginErr) return next(loginErr);
+        const now = Date.now();
+        req.session.signedInAt = now;
+        req.session.lastSeenAt = now;
+        User.findByPk(user.id)
+          .then((u) => {
+            res.json({ user: u!.toPublic(), csrfToken: deps.csrf.token(req, res, true) });
+          })
+          .catch(next);
+      });
+    })(req, res, next);
+  });
 
   r.post('/logout', 'public', (req, res, next) => {
     req.logout((err) => {
       if (err) return next(err);
-      res.json({ ok: true, csrfToken: deps.csrf.generateToken(req, true) });
+      res.json({ ok: true, csrfToken: deps.csrf.token(req, res, true) });
     });
   });
 
@@ -104,16 +100,31 @@ export function authRoutes(ctx: AppContext, deps: { passport: PassportStatic; cs
   r.post(
     '/password',
     'signed-in',
-    handle(async (req) => {
+    passwordGuesses,
+    handle(async (req, res) => {
       const body = ChangePasswordSchema.parse(req.body);
       const user = await User.findByPk(currentUser(req).id);
       if (!user) throw AppError.unauthenticated();
       if (!(await verifyPassword(body.currentPassword, user.passwordHash))) {
+        res.locals.wrongCurrentPassword = true;
+        ctx.security('password-change-failed', { userId: user.id, ip: req.ip });
         throw AppError.badRequest('wrong_password', 'The current password is not right.', {
           fields: [{ field: 'currentPassword', message: 'is not right' }],
         });
       }
-      await user.update({ passwordHash: await hashPassword(body.newPassword), mustChangePassword: false });
+      if (body.newPassword === body.currentPassword) {
+        throw AppError.badRequest('same_password', 'The new password must differ from the current one.', {
+          fields: [{ field: 'newPassword', message: 'must differ from the current password' }],
+        });
+      }
+      assertStrongPassword(body.newPassword, user);
+      const passwordHash = await hashPassword(body.newPassword);
+      // Every other session of the account ends with the old password; this one goes on.
+      const endedSessions = await ctx.sequelize.transaction(async (transaction) => {
+        await user.update({ passwordHash, mustChangePassword: false }, { transaction });
+        return Session.destroy({ where: { userId: user.id, sid: { [Op.ne]: req.sessionID } }, transaction });
+      });
+      ctx.security('password-changed', { userId: user.id, ip: req.ip, endedSessions });
       return user.toPublic();
     }),
   );

@@ -6,6 +6,13 @@ import type { SessionUser } from './guards';
 
 export const WRONG_CREDENTIALS = 'The e-mail address or password is not right.';
 
+/** Why a sign-in failed, for the security log only: the person is told the same thing either way. */
+interface Refusal {
+  message: string;
+  reason: 'unknown account' | 'wrong password' | 'deactivated';
+}
+const refusal = (reason: Refusal['reason'], message = WRONG_CREDENTIALS): Refusal => ({ message, reason });
+
 export function toSessionUser(user: User): SessionUser {
   return { id: user.id, email: user.email, name: user.name, role: user.role, mustChangePassword: user.mustChangePassword };
 }
@@ -18,11 +25,11 @@ export function configurePassport(): PassportStatic {
         const user = await User.findOne({ where: { email: email.trim().toLowerCase() } });
         if (!user) {
           await verifyPassword(password, await dummyPasswordHash());
-          return done(null, false, { message: WRONG_CREDENTIALS });
+          return done(null, false, refusal('unknown account'));
         }
         const ok = await verifyPassword(password, user.passwordHash);
-        if (!ok) return done(null, false, { message: WRONG_CREDENTIALS });
-        if (!user.active) return done(null, false, { message: 'This account has been deactivated. Ask an administrator.' });
+        if (!ok) return done(null, false, refusal('wrong password'));
+        if (!user.active) return done(null, false, refusal('deactivated', 'This account has been deactivated. Ask an administrator.'));
         return done(null, toSessionUser(user));
       } catch (err) {
         return done(err);

@@ -6,11 +6,11 @@ import {
   CalibrationSubmitSchema,
 } from '../../shared/schemas/cables';
 import { currentUser } from '../auth/guards';
+import type { AppContext } from '../context';
 import { ApiRouter, handle } from '../http/api-router';
 import * as calibrations from './calibrations.service';
 
-
-export function calibrationRoutes() {
+export function calibrationRoutes(ctx: AppContext) {
   const r = new ApiRouter('/api/calibrations');
   r.get('/', 'calibrations:review', handle((req) => calibrations.listCalibrations(CalibrationListQuerySchema.parse(req.query))));
   r.get(
@@ -35,7 +35,7 @@ export function calibrationRoutes() {
     'calibrations:review',
     handle((req) => {
       const { id } = IdParam.parse(req.params);
-      return calibrations.acceptCalibration(id, currentUser(req).id, CalibrationAcceptSchema.parse(req.body ?? {}));
+      return calibrations.acceptCalibration(id, currentUser(req), CalibrationAcceptSchema.parse(req.body ?? {}), ctx.security);
     }),
   );
   r.post(

@@ -8,8 +8,11 @@ import {
   type CalibrationView,
 } from '../../shared/schemas/cables';
 import { updateCable } from '../cables/cables.service';
+import { can } from '../../shared/auth/permissions';
+import type { SessionUser } from '../auth/guards';
 import { CableCalibration, CableType, User } from '../db/models';
 import { AppError } from '../errors';
+import type { SecurityLog } from '../log';
 
 export interface SubmitCalibrationInput {
   cableTypeId: number;
@@ -165,15 +168,42 @@ function assertPending(c: CableCalibration) {
 export const roundVf = (vf: number) => Math.round(vf * 1e4) / 1e4;
 
 /**
+ * Four eyes: a calibration changes the library VF every later analysis uses,
+ * so the person who filed it does not accept it. Someone allowed to override
+ * (an administrator) may, with a reason, which goes into the library history.
+ * Returns the override reason, or null when the reviewer is someone else.
+ */
+function ownCalibrationOverride(c: CableCalibration, reviewer: Pick<SessionUser, 'id' | 'role'>, note: string | undefined): string | null {
+  if (c.submittedById !== reviewer.id) return null;
+  if (!can(reviewer.role, 'calibrations:override')) {
+    throw new AppError(403, 'own_calibration', `You filed calibration #${c.id}, so another planner accepts it: a second person checks every change to the library VF.`);
+  }
+  if (!note || note.trim().length < 10) {
+    throw AppError.badRequest('override_reason_required', `You filed calibration #${c.id}: to accept it yourself, say why no one else can (a note of at least 10 characters).`, {
+      fields: [{ field: 'note', message: 'give the reason for accepting your own calibration (at least 10 characters)' }],
+    });
+  }
+  return note.trim();
+}
+
+/**
  * Accepts a pending calibration into its library entry: the entry's VF becomes
  * the calibration's (source field-calibrated, with a reference to it), with a
  * history row, in one transaction. The next analysis of that cable type uses it.
+ * The reviewer must not be the person who filed it, except by an override (above).
  */
-export async function acceptCalibration(id: number, reviewerId: number, opts: { vfTolerance?: number; note?: string } = {}) {
+export async function acceptCalibration(
+  id: number,
+  reviewer: Pick<SessionUser, 'id' | 'role'>,
+  opts: { vfTolerance?: number; note?: string } = {},
+  security?: SecurityLog,
+) {
   const sequelize = CableCalibration.sequelize!;
-  return sequelize.transaction(async (transaction) => {
+  const reviewerId = reviewer.id;
+  const result = await sequelize.transaction(async (transaction) => {
     const c = await loadCalibration(id, transaction);
     assertPending(c);
+    const override = ownCalibrationOverride(c, reviewer, opts.note);
     const submitted = new Date(c.createdAt).toISOString().slice(0, 10);
     const vfReference =
       `Field calibration #${c.id}: ${Number(c.knownLengthM.toFixed(2))} m known length, ${Number(c.roundTripNs.toFixed(2))} ns round trip` +
@@ -186,14 +216,23 @@ export async function acceptCalibration(id: number, reviewerId: number, opts: { 
         vfSource: 'field-calibrated',
         vfReference,
         ...(opts.vfTolerance !== undefined ? { vfTolerance: opts.vfTolerance } : {}),
-        reason: `Accepted field calibration #${c.id}${opts.note ? `: ${opts.note}` : ''}`,
+        reason: override
+          ? `Accepted field calibration #${c.id} by its own submitter, an administrator, without a second reviewer: ${override}`
+          : `Accepted field calibration #${c.id}${opts.note ? `: ${opts.note}` : ''}`,
       },
       { userId: reviewerId, kind: 'calibration', calibrationId: c.id },
       transaction,
     );
-    await c.update({ status: 'accepted', reviewedById: reviewerId, reviewedAt: new Date(), reviewReason: opts.note ?? null }, { transaction });
-    return { calibration: calibrationView(await loadCalibration(id, transaction)), cable };
+    await c.update(
+      { status: 'accepted', reviewedById: reviewerId, reviewedAt: new Date(), reviewReason: override ? `Own calibration accepted by override: ${override}` : (opts.note ?? null) },
+      { transaction },
+    );
+    return { calibration: calibrationView(await loadCalibration(id, transaction)), cable, override };
   });
+  if (result.override) {
+    security?.('calibration-own-accepted', { calibrationId: id, cableTypeId: result.cable.id, actorId: reviewerId, reason: result.override });
+  }
+  return { calibration: result.calibration, cable: result.cable };
 }
 
 export async function rejectCalibration(id: number, reviewerId: number, reason: string) {

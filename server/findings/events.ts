@@ -13,7 +13,7 @@ interface FindingEventMap {
 export const findingEvents = new EventEmitter<FindingEventMap>();
 findingEvents.setMaxListeners(20);
 
-export function emitFindingConfirmed(findingId: number, log: (message: string, extra?: unknown) => void = console.error) {
+export function emitFindingConfirmed(findingId: number, log: (message: string, extra?: unknown) => void) {
   for (const listener of findingEvents.listeners('confirmed')) {
     try {
       const result: unknown = listener(findingId);

@@ -8,6 +8,8 @@ export interface MailSystem {
   mailer: Mailer;
   /** The capture server's port, or null when SMTP_URL sends mail to a real relay. */
   capturePort: number | null;
+  /** The capture server's generated sign-in (null with SMTP_URL); kept in memory only. */
+  captureAuth: { user: string; pass: string } | null;
   close: () => Promise<void>;
 }
 
@@ -21,13 +23,14 @@ export async function startMail(config: AppConfig, log: (m: string) => void): Pr
     capture = await startCaptureServer({ port: config.captureSmtpPort, log });
     log(`Mail is captured locally (SMTP on 127.0.0.1:${capture.port}); admins read it on the Outbox page.`);
   }
-  const mailer = createMailer({ from: config.mailFrom, smtpUrl: config.smtpUrl, capturePort: capture?.port });
+  const mailer = createMailer({ from: config.mailFrom, smtpUrl: config.smtpUrl, capture: capture ?? undefined });
   const queue = new MailQueue(mailer, { retryBaseMs: config.mailRetryBaseMs, maxAttempts: config.mailMaxAttempts, log });
   queue.start();
   return {
     queue,
     mailer,
     capturePort: capture?.port ?? null,
+    captureAuth: capture?.auth ?? null,
     close: async () => {
       await queue.stop();
       mailer.close();

@@ -16,7 +16,7 @@ export interface Mailer {
 }
 
 /** nodemailer over SMTP: to SMTP_URL when set, otherwise to the local capture server. */
-export function createMailer(options: { from: string; smtpUrl?: string; capturePort?: number }): Mailer {
+export function createMailer(options: { from: string; smtpUrl?: string; capture?: { port: number; auth: { user: string; pass: string } } }): Mailer {
   let transport: Transporter;
   let describe: string;
   const timeouts = { connectionTimeout: 10_000, greetingTimeout: 10_000, socketTimeout: 30_000 };
@@ -30,9 +30,16 @@ export function createMailer(options: { from: string; smtpUrl?: string; captureP
       auth: url.username ? { user: decodeURIComponent(url.username), pass: decodeURIComponent(url.password) } : undefined,
       ...timeouts,
     });
-  } else if (options.capturePort) {
-    describe = `capture server on 127.0.0.1:${options.capturePort}`;
-    transport = nodemailer.createTransport({ host: '127.0.0.1', port: options.capturePort, secure: false, ignoreTLS: true, ...timeouts });
+  } else if (options.capture) {
+    describe = `capture server on 127.0.0.1:${options.capture.port}`;
+    transport = nodemailer.createTransport({
+      host: '127.0.0.1',
+      port: options.capture.port,
+      secure: false,
+      ignoreTLS: true,
+      auth: { user: options.capture.auth.user, pass: options.capture.auth.pass },
+      ...timeouts,
+    });
   } else {
     throw new Error('The mailer needs SMTP_URL or a capture server port.');
   }

@@ -20,9 +20,8 @@ import { submitCalibration } from '../calibrations/calibrations.service';
 import type { AppContext } from '../context';
 import { CableRun, Finding, MailJob, RouteMarker, Site, Ticket, TicketCloseout, TicketEvent, TicketFinding, Trace, User } from '../db/models';
 import { AppError } from '../errors';
-import { mailJobView } from '../outbox/outbox.service';
 import { mailTicket } from './tickets.mail';
-import { closeoutView, eventView, findingView, mailInTrouble, permissionsFor, summaryView } from './tickets.views';
+import { closeoutView, eventView, findingView, mailDetailsFor, mailInTrouble, permissionsFor, summaryView } from './tickets.views';
 
 type CreateInput = z.output<typeof TicketCreateSchema>;
 type UpdateInput = z.output<typeof TicketUpdateSchema>;
@@ -380,7 +379,7 @@ export async function getTicket(id: number, viewer: SessionUser): Promise<Ticket
     findings: findings.map(findingView),
     timeline: events.map(eventView),
     closeouts: closeouts.map(closeoutView),
-    mail: mail.map(mailJobView),
+    mail: mailDetailsFor(viewer, mail),
     can: permissionsFor(t, viewer),
   };
 }

@@ -1,9 +1,11 @@
 import { can } from '../../shared/auth/permissions';
 import type { RoutePosition } from '../../shared/field/route-position';
+import type { MailJobView } from '../../shared/schemas/outbox';
 import type { CloseoutView, TicketDetail, TicketEventView, TicketFindingView, TicketSummary } from '../../shared/schemas/tickets';
 import { allowedMoves, isOpen, mayCloseOut } from '../../shared/tickets/status';
 import type { SessionUser } from '../auth/guards';
 import type { Finding, MailJob, Ticket, TicketCloseout, TicketEvent, Trace, User } from '../db/models';
+import { mailJobView } from '../outbox/outbox.service';
 
 const person = (u: { id: number; name: string } | null | undefined, fallbackId: number) => (u ? { id: u.id, name: u.name } : { id: fallbackId, name: `#${fallbackId}` });
 const iso = (d: Date | string) => new Date(d).toISOString();
@@ -67,6 +69,14 @@ export function closeoutView(c: TicketCloseout): CloseoutView {
     recordedBy: person(c.recordedBy, c.recordedById),
     recordedAt: iso(c.createdAt),
   };
+}
+
+/**
+ * The e-mails about a ticket (recipients, delivery state, the relay's last
+ * error) for those who may read the Outbox; an empty list for everyone else.
+ */
+export function mailDetailsFor(viewer: SessionUser, jobs: MailJob[]): MailJobView[] {
+  return can(viewer.role, 'outbox:read') ? jobs.map(mailJobView) : [];
 }
 
 /** A mail job that has failed, or is being retried after a failure. */

@@ -1,27 +1,28 @@
 import { IdParam } from '../http/params';
 import { CreateUserSchema, ListQuerySchema, UpdateUserSchema } from '../../shared/schemas/users';
 import { currentUser } from '../auth/guards';
+import type { AppContext } from '../context';
 import { ApiRouter, handle } from '../http/api-router';
 import * as users from './users.service';
 
-
-export function userRoutes() {
+export function userRoutes(ctx: AppContext) {
   const r = new ApiRouter('/api/users');
   r.get('/', 'users:manage', handle((req) => users.listUsers(ListQuerySchema.parse(req.query))));
   r.post(
     '/',
     'users:manage',
     handle(async (req, res) => {
+      const created = await users.createUser(ctx, CreateUserSchema.parse(req.body), currentUser(req).id);
       res.status(201);
-      return users.createUser(CreateUserSchema.parse(req.body));
+      return created;
     }),
   );
   r.patch(
     '/:id',
     'users:manage',
-    handle((req) => users.updateUser(IdParam.parse(req.params).id, UpdateUserSchema.parse(req.body), currentUser(req).id)),
+    handle((req) => users.updateUser(ctx, IdParam.parse(req.params).id, UpdateUserSchema.parse(req.body), currentUser(req))),
   );
-  r.post('/:id/reset-password', 'users:manage', handle((req) => users.resetPassword(IdParam.parse(req.params).id)));
+  r.post('/:id/reset-password', 'users:manage', handle((req) => users.resetPassword(ctx, IdParam.parse(req.params).id, currentUser(req).id)));
   r.get('/assignable', 'tickets:manage', handle(() => users.assignableTechnicians()));
   return r;
 }

@@ -2,7 +2,10 @@ import { Op } from 'sequelize';
 import { containsText } from '../db/search';
 import type { z } from 'zod';
 import type { CreateUserSchema, UpdateUserSchema } from '../../shared/schemas/users';
+import { can } from '../../shared/auth/permissions';
 import { OPEN_STATUSES } from '../../shared/tickets/status';
+import type { SessionUser } from '../auth/guards';
+import type { AppContext } from '../context';
 import { Session, Ticket, User } from '../db/models';
 import { AppError } from '../errors';
 import { hashPassword, temporaryPassword } from '../auth/passwords';
@@ -20,7 +23,7 @@ export async function listUsers(opts: { q?: string; page: number; pageSize: numb
   return { items: rows.map((u) => u.toPublic()), total: count, page: opts.page, pageSize: opts.pageSize };
 }
 
-export async function createUser(input: z.output<typeof CreateUserSchema>) {
+export async function createUser(ctx: AppContext, input: z.output<typeof CreateUserSchema>, actorId: number) {
   if (await User.findOne({ where: { email: input.email } })) {
     throw new AppError(409, 'email_taken', `A user with e-mail ${input.email} already exists.`, {
       fields: [{ field: 'email', message: 'is already in use' }],
@@ -35,33 +38,67 @@ export async function createUser(input: z.output<typeof CreateUserSchema>) {
     passwordHash: await hashPassword(password),
     mustChangePassword: true,
   });
+  if (input.role === 'admin') ctx.security('admin-created', { userId: user.id, actorId, email: user.email });
   return { user: user.toPublic(), temporaryPassword: password };
 }
 
-export async function updateUser(id: number, input: z.output<typeof UpdateUserSchema>, actingUserId: number) {
-  const user = await User.findByPk(id);
-  if (!user) throw AppError.notFound(`User ${id}`);
-  if (id === actingUserId && (input.active === false || (input.role && input.role !== 'admin'))) {
+/**
+ * Changes a user's name, role, activity or phone. Whether at least one active
+ * administrator remains is decided inside the transaction that makes the
+ * change, with the administrators' rows locked (PostgreSQL; SQLite runs one
+ * write transaction at a time), so two administrators demoting each other at
+ * the same moment cannot both succeed.
+ */
+export async function updateUser(ctx: AppContext, id: number, input: z.output<typeof UpdateUserSchema>, actor: SessionUser) {
+  if (id === actor.id && (input.active === false || (input.role && input.role !== 'admin'))) {
     throw AppError.badRequest('cannot_demote_self', 'You cannot deactivate yourself or take away your own admin role.');
   }
-  await user.update(input);
-  if (input.active === false) await endSessions(id);
+  const { user, before } = await ctx.sequelize.transaction(async (transaction) => {
+    const lock = ctx.sequelize.getDialect() === 'postgres' ? transaction.LOCK.UPDATE : undefined;
+    // The administrators first, always in id order, then the person: every such change takes its locks in one order.
+    const admins = await User.findAll({ where: { role: 'admin', active: true }, attributes: ['id'], order: [['id', 'ASC']], lock, transaction });
+    const user = await User.findByPk(id, { lock, transaction });
+    if (!user) throw AppError.notFound(`User ${id}`);
+    const before = { role: user.role, active: user.active };
+    const stopsBeingAdmin = user.role === 'admin' && user.active && ((input.role !== undefined && input.role !== 'admin') || input.active === false);
+    if (stopsBeingAdmin && !admins.some((a) => a.id !== user.id)) {
+      throw new AppError(
+        409,
+        'last_admin',
+        `${user.name} is the last active administrator: make someone else an administrator first, so Rholog always has one.`,
+      );
+    }
+    // The request was allowed when it arrived; the actor may have lost the right since.
+    const acting = await User.findByPk(actor.id, { transaction });
+    if (!acting || !acting.active || !can(acting.role, 'users:manage')) {
+      throw new AppError(409, 'no_longer_allowed', 'Your own account was changed a moment ago and may no longer manage users. Reload the page.');
+    }
+    await user.update(input, { transaction });
+    if (input.active === false) await Session.destroy({ where: { userId: id }, transaction });
+    return { user, before };
+  });
+  if (input.role !== undefined && input.role !== before.role) {
+    ctx.security('role-changed', { userId: id, actorId: actor.id, from: before.role, to: user.role });
+  }
+  if (input.active !== undefined && input.active !== before.active) {
+    ctx.security(input.active ? 'user-reactivated' : 'user-deactivated', { userId: id, actorId: actor.id });
+  }
   // Deactivating someone does not take their repairs away silently: say how many are still theirs.
   const openTickets = await Ticket.count({ where: { assigneeId: id, status: [...OPEN_STATUSES] } });
   return { ...user.toPublic(), openTicketCount: openTickets };
 }
 
-export async function resetPassword(id: number) {
+export async function resetPassword(ctx: AppContext, id: number, actorId: number) {
   const user = await User.findByPk(id);
   if (!user) throw AppError.notFound(`User ${id}`);
   const password = temporaryPassword();
-  await user.update({ passwordHash: await hashPassword(password), mustChangePassword: true });
-  await endSessions(id);
+  const passwordHash = await hashPassword(password);
+  await ctx.sequelize.transaction(async (transaction) => {
+    await user.update({ passwordHash, mustChangePassword: true }, { transaction });
+    await Session.destroy({ where: { userId: id }, transaction });
+  });
+  ctx.security('password-reset', { userId: id, actorId });
   return { user: user.toPublic(), temporaryPassword: password };
-}
-
-export async function endSessions(userId: number) {
-  await Session.destroy({ where: { userId } });
 }
 
 export async function assignableTechnicians() {

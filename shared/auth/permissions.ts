@@ -13,11 +13,15 @@ export const PERMISSIONS = [
   'cables:write',
   'calibrations:submit',
   'calibrations:review',
+  /** Accept a calibration one filed oneself, giving a reason (the four-eyes rule's exception). */
+  'calibrations:override',
   'traces:read',
   'traces:upload',
   'traces:reference',
   'findings:read',
   'findings:confirm',
+  /** Decide an event on someone else's trace, and reverse a decision with a reason. */
+  'findings:review',
   'tickets:read',
   'tickets:manage',
   'tickets:work',
@@ -41,7 +45,7 @@ const FIELD: Permission[] = [
 
 export const ROLE_PERMISSIONS: Record<Role, readonly Permission[]> = {
   technician: FIELD,
-  supervisor: [...FIELD, 'sites:write', 'traces:reference', 'tickets:manage', 'dashboard:read'],
+  supervisor: [...FIELD, 'sites:write', 'traces:reference', 'findings:review', 'tickets:manage', 'dashboard:read'],
   planner: [
     'sites:read',
     'sites:write',

@@ -4,8 +4,10 @@ import { Session } from '../../server/db/models';
 import { startApi, TEST_PASSWORD, type TestApi } from './support/api';
 
 let api: TestApi;
+// No slow-down in this file (slowAfter far above any count here); the limits have their own tests.
+const LIMITS = { maxPerPair: 3, maxPerAddress: 20, windowMs: 60_000, slowAfter: 1000, delayMs: 0, maxDelayMs: 0 };
 beforeAll(async () => {
-  api = await startApi({ login: { maxPerAccount: 3, maxPerAddress: 50, windowMs: 60_000 } });
+  api = await startApi({ login: LIMITS });
 });
 afterAll(() => api.close());
 
@@ -24,31 +26,75 @@ describe('GET /api/health', () => {
   });
 });
 
+describe('GET /api/auth/csrf', () => {
+  it('stores no session for a signed-out visitor (the token travels in a signed cookie)', async () => {
+    const before = await Session.count();
+    for (let i = 0; i < 25; i++) {
+      const res = await supertest(api.app.app).get('/api/auth/csrf').expect(200);
+      expect(res.body.csrfToken).toMatch(/^[0-9a-f]{64}\.[0-9a-f]{64}$/);
+      expect(String(res.headers['set-cookie'])).not.toContain('rholog.sid=');
+      expect(String(res.headers['set-cookie'])).toMatch(/rholog\.csrf=[^;]+; Path=\/; HttpOnly; SameSite=Lax/);
+    }
+    expect(await Session.count()).toBe(before);
+  });
+
+  it('refuses a token whose cookie is missing or belongs to another visitor', async () => {
+    const a = await api.anonymous();
+    const b = await api.anonymous();
+    const mixed = await a.agent.post('/api/auth/login').set('x-csrf-token', b.csrf).send({ email: 'admin.test@example.com', password: TEST_PASSWORD }).expect(403);
+    expect(mixed.body.error.code).toBe('csrf_invalid');
+    const bare = await supertest(api.app.app).post('/api/auth/login').set('x-csrf-token', a.csrf).send({ email: 'admin.test@example.com', password: TEST_PASSWORD }).expect(403);
+    expect(bare.body.error.code).toBe('csrf_invalid');
+  });
+
+  it('binds the token to the session from sign-in on: the signed-out token no longer works', async () => {
+    const c = await api.anonymous();
+    const signedOutToken = c.csrf;
+    const login = await c.post('/api/auth/login', { email: 'planner.test@example.com', password: TEST_PASSWORD }).expect(200);
+    expect(login.body.csrfToken).not.toBe(signedOutToken);
+    const stale = await c.agent.patch('/api/auth/me').set('x-csrf-token', signedOutToken).send({ unitPreference: 'ft' }).expect(403);
+    expect(stale.body.error.code).toBe('csrf_invalid');
+    const ok = await c.agent.patch('/api/auth/me').set('x-csrf-token', login.body.csrfToken).send({ unitPreference: 'ft' }).expect(200);
+    expect(ok.body.unitPreference).toBe('ft');
+  });
+});
+
 describe('POST /api/auth/login', () => {
   it('signs in with the right password and returns the user', async () => {
     const c = await api.anonymous();
     const res = await c.post('/api/auth/login', { email: 'PLANNER.test@example.com ', password: TEST_PASSWORD }).expect(200);
     expect(res.body.user).toMatchObject({ email: 'planner.test@example.com', role: 'planner', name: 'Pat Plan' });
-    expect(res.body.csrfToken).toMatch(/^[0-9a-f]{32,}$/);
+    // HMAC (hex SHA-256) and the random value it signs, joined by a dot.
+    expect(res.body.csrfToken).toMatch(/^[0-9a-f]{64}\.[0-9a-f]{64}$/);
     const cookie = String(res.headers['set-cookie']);
     expect(cookie).toContain('HttpOnly');
     expect(cookie).toContain('SameSite=Lax');
   });
 
-  it('gives a new session id at sign-in (no session fixation)', async () => {
-    const agent = supertest.agent(api.app.app);
-    const sid = (res: supertest.Response) => /rholog\.sid=([^;]+)/.exec(String(res.headers['set-cookie']))?.[1];
-    const first = await agent.get('/api/auth/csrf').expect(200);
-    const before = sid(first);
-    expect(before).toBeTruthy();
-    const res = await agent
+  it('gives a new session id at sign-in, whatever session id the browser brought (no session fixation)', async () => {
+    const cookieOf = (res: supertest.Response, name: string) =>
+      new RegExp(`${name.replace('.', '\\.')}=([^;]+)`).exec(String(res.headers['set-cookie']))?.[1];
+    // Someone signs in as themself, then plants that session cookie in another person's browser.
+    const planter = supertest.agent(api.app.app);
+    const t = (await planter.get('/api/auth/csrf').expect(200)).body.csrfToken;
+    const planted = cookieOf(
+      await planter.post('/api/auth/login').set('x-csrf-token', t).send({ email: 'planner.test@example.com', password: TEST_PASSWORD }).expect(200),
+      'rholog.sid',
+    );
+    expect(planted).toBeTruthy();
+    const victim = await supertest(api.app.app).get('/api/auth/csrf').set('cookie', `rholog.sid=${planted}`).expect(200);
+    const res = await supertest(api.app.app)
       .post('/api/auth/login')
-      .set('x-csrf-token', first.body.csrfToken)
+      .set('cookie', `rholog.sid=${planted}; rholog.csrf=${cookieOf(victim, 'rholog.csrf')}`)
+      .set('x-csrf-token', victim.body.csrfToken)
       .send({ email: 'admin.test@example.com', password: TEST_PASSWORD })
       .expect(200);
-    const after = sid(res);
+    const after = cookieOf(res, 'rholog.sid');
     expect(after).toBeTruthy();
-    expect(after).not.toEqual(before);
+    expect(after).not.toEqual(planted);
+    // The planted session is still the planner's, never the administrator's.
+    const me = await supertest(api.app.app).get('/api/auth/me').set('cookie', `rholog.sid=${planted}`);
+    expect(me.body.email).not.toBe('admin.test@example.com');
   });
 
   it('rejects a wrong password with 401 and a clear message', async () => {
@@ -81,7 +127,7 @@ describe('POST /api/auth/login', () => {
     expect(res.body.error.code).toBe('csrf_invalid');
   });
 
-  it('refuses further tries on one account after repeated failures (limit 3 in this test)', async () => {
+  it('refuses further tries on one account from one address after repeated failures (limit 3 in this test)', async () => {
     const c = await api.anonymous();
     for (let i = 0; i < 3; i++) await c.post('/api/auth/login', { email: 'technician.test@example.com', password: `bad-${i}` }).expect(401);
     const res = await c.post('/api/auth/login', { email: 'technician.test@example.com', password: TEST_PASSWORD }).expect(429);
@@ -91,8 +137,9 @@ describe('POST /api/auth/login', () => {
 
   it('does not count successful sign-ins against the address (a crew shares one depot address)', async () => {
     const c = await api.anonymous();
-    // The address limit in this file is 50 failed tries; 60 good sign-ins must all pass.
-    for (let i = 0; i < 60; i++) {
+    // The address limit in this file is 20 failed tries; 25 good sign-ins in a row must all pass.
+    // (scrypt runs at the test configuration's low cost, so this takes milliseconds, not the machine's patience.)
+    for (let i = 0; i < 25; i++) {
       const res = await c.post('/api/auth/login', { email: 'planner.test@example.com', password: TEST_PASSWORD });
       expect(res.status).toBe(200);
       c.csrf = res.body.csrfToken;
@@ -128,11 +175,15 @@ describe('GET /api/auth/me', () => {
 });
 
 describe('POST /api/auth/logout', () => {
-  it('ends the session', async () => {
+  it('ends the session and leaves no session row', async () => {
     const c = await api.as('planner');
+    const before = await Session.count({ where: { userId: api.users.planner.id } });
     const res = await c.post('/api/auth/logout').expect(200);
     c.csrf = res.body.csrfToken;
     await c.get('/api/auth/me').expect(401);
+    expect(await Session.count({ where: { userId: api.users.planner.id } })).toBe(before - 1);
+    // The new token is a signed-out one: it opens the sign-in form again.
+    await c.post('/api/auth/login', { email: 'planner.test@example.com', password: TEST_PASSWORD }).expect(200);
   });
 });
 

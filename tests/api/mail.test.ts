@@ -1,6 +1,6 @@
 import nodemailer from 'nodemailer';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { MailJob, User } from '../../server/db/models';
+import { MailJob, OutboxMessage, User } from '../../server/db/models';
 import { retryDelayMs } from '../../server/mail';
 import type { MailJobView, OutboxMessageView } from '../../shared/schemas/outbox';
 import { startApi, type TestApi } from './support/api';
@@ -50,8 +50,26 @@ describe('mail through the local capture server', () => {
     expect((queue.body.items as MailJobView[]).map((j) => j.id)).toContain(job!.id);
   });
 
-  it('stores headers, Cc and the envelope of mail from any SMTP client, newest first', async () => {
-    const client = nodemailer.createTransport({ host: '127.0.0.1', port: api.app.ctx.mail.capturePort!, secure: false, ignoreTLS: true });
+  it('takes mail only from a client that signs in with the credentials generated at start', async () => {
+    const port = api.app.ctx.mail.capturePort!;
+    const auth = api.app.ctx.mail.captureAuth!;
+    expect(auth.user).toMatch(/^rholog-[0-9a-f]{12}$/);
+    expect(auth.pass.length).toBeGreaterThanOrEqual(32);
+    const before = await OutboxMessage.count();
+    const message = { from: 'rholog@example.com', to: 'crew@example.com', subject: 'Looks like Rholog', text: 'forged' };
+    const anonymous = nodemailer.createTransport({ host: '127.0.0.1', port, secure: false, ignoreTLS: true });
+    // 530: authentication required (RFC 4954).
+    await expect(anonymous.sendMail(message)).rejects.toMatchObject({ responseCode: 530 });
+    anonymous.close();
+    const guesser = nodemailer.createTransport({ host: '127.0.0.1', port, secure: false, ignoreTLS: true, auth: { user: auth.user, pass: 'not-the-password' } });
+    // 535: authentication credentials invalid (RFC 4954).
+    await expect(guesser.sendMail(message)).rejects.toMatchObject({ responseCode: 535 });
+    guesser.close();
+    expect(await OutboxMessage.count()).toBe(before);
+  });
+
+  it('stores headers, Cc and the envelope of mail from the signed-in mailer, newest first', async () => {
+    const client = nodemailer.createTransport({ host: '127.0.0.1', port: api.app.ctx.mail.capturePort!, secure: false, ignoreTLS: true, auth: api.app.ctx.mail.captureAuth! });
     await client.sendMail({ from: 'a@example.com', to: 'b@example.com', cc: 'c@example.com', bcc: 'd@example.com', subject: 'First', text: 'one' });
     await client.sendMail({ from: 'a@example.com', to: 'b@example.com', subject: 'Second', text: 'two' });
     client.close();

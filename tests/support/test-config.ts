@@ -37,6 +37,14 @@ export async function freshDatabase(): Promise<{ url: string; dir: string; clean
 }
 
 export function testConfig(databaseUrl: string, dir: string, overrides: Partial<AppConfig> = {}): AppConfig {
-  const base = loadConfig({ NODE_ENV: 'test', DATABASE_URL: databaseUrl, UPLOAD_DIR: path.join(dir, 'uploads'), DEMO_DATA: 'off' });
+  const base = loadConfig({
+    NODE_ENV: 'test',
+    DATABASE_URL: databaseUrl,
+    UPLOAD_DIR: path.join(dir, 'uploads'),
+    DEMO_DATA: 'off',
+    // scrypt at N = 2^10 instead of 2^15: a sign-in costs about a millisecond, so no test waits on the machine's speed.
+    SCRYPT_COST: '1024',
+    LOG_LEVEL: 'silent',
+  });
   return { ...base, ...overrides };
 }

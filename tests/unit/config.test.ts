@@ -3,14 +3,45 @@ import { describe, expect, it } from 'vitest';
 import { ConfigError, loadConfig } from '../../server/config';
 
 describe('loadConfig', () => {
-  it('gives the embedded defaults', () => {
+  it('gives the embedded defaults: production, on loopback while the demo data is on', () => {
     const c = loadConfig({});
     expect(c.port).toBe(3000);
     expect(c.databaseUrl).toBe('sqlite:data/rholog.sqlite');
     expect(c.demoData).toBe(true);
     expect(c.maxUploadBytes).toBe(20 * 1024 * 1024);
     expect(c.uploadDir).toBe(path.resolve('uploads'));
-    expect(c.client).toBe('vite');
+    expect(c.env).toBe('production');
+    expect(c.client).toBe('static');
+    expect(c.host).toBe('127.0.0.1');
+    expect(c.trustProxyHops).toBe(0);
+    expect(c.scryptCost).toBe(32768);
+    expect(c.session).toEqual({ idleMs: 12 * 3_600_000, absoluteMs: 7 * 86_400_000 });
+  });
+
+  it('runs as development only when NODE_ENV says so', () => {
+    expect(loadConfig({ NODE_ENV: 'development' })).toMatchObject({ env: 'development', client: 'vite' });
+  });
+
+  it('listens on every address by default only without demo data, and always where HOST says', () => {
+    expect(loadConfig({ DEMO_DATA: 'off' }).host).toBe('0.0.0.0');
+    expect(loadConfig({ DEMO_DATA: 'on', HOST: '0.0.0.0' }).host).toBe('0.0.0.0');
+    expect(loadConfig({ DEMO_DATA: 'off', HOST: '10.1.2.3' }).host).toBe('10.1.2.3');
+  });
+
+  it('reads TRUST_PROXY as a count of proxies, with on and off kept', () => {
+    expect(loadConfig({ TRUST_PROXY: 'off' }).trustProxyHops).toBe(0);
+    expect(loadConfig({ TRUST_PROXY: 'on' }).trustProxyHops).toBe(1);
+    expect(loadConfig({ TRUST_PROXY: '2' }).trustProxyHops).toBe(2);
+    expect(() => loadConfig({ TRUST_PROXY: 'yes' })).toThrow('TRUST_PROXY: must be a number of proxies in front (0, 1, 2…) or on/off');
+  });
+
+  it('takes the scrypt cost as a power of two and the session lifetimes in hours and days', () => {
+    expect(loadConfig({ SCRYPT_COST: '1024', SESSION_IDLE_HOURS: '2', SESSION_MAX_DAYS: '1' })).toMatchObject({
+      scryptCost: 1024,
+      session: { idleMs: 2 * 3_600_000, absoluteMs: 86_400_000 },
+    });
+    expect(() => loadConfig({ SCRYPT_COST: '3000' })).toThrow('SCRYPT_COST: must be a power of two from 1024 to 1048576');
+    expect(() => loadConfig({ SCRYPT_COST: '512' })).toThrow('SCRYPT_COST: must be a power of two from 1024 to 1048576');
   });
 
   it('reads PORT, DATABASE_URL and DEMO_DATA=off', () => {

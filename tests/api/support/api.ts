@@ -1,3 +1,4 @@
+import type { DestinationStream } from 'pino';
 import supertest from 'supertest';
 import { createApp, type RhologApp } from '../../../server/app';
 import type { AppConfig } from '../../../server/config';
@@ -48,9 +49,9 @@ async function clientFor(app: RhologApp): Promise<Client> {
 }
 
 /** The real app on a fresh database (SQLite file, or PostgreSQL when DATABASE_URL says so), with one user per role. */
-export async function startApi(overrides: Partial<AppConfig> = {}): Promise<TestApi> {
+export async function startApi(overrides: Partial<AppConfig> = {}, options: { logDestination?: DestinationStream } = {}): Promise<TestApi> {
   const db = await freshDatabase();
-  const app = await createApp(testConfig(db.url, db.dir, overrides));
+  const app = await createApp(testConfig(db.url, db.dir, overrides), options);
   const hash = await hashPassword(TEST_PASSWORD);
   const users = {} as Record<Role, User>;
   const names: Record<Role, string> = { technician: 'Tess Tech', supervisor: 'Sol Super', planner: 'Pat Plan', admin: 'Ada Admin' };

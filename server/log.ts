@@ -1,0 +1,58 @@
+import pino, { type DestinationStream, type Logger } from 'pino';
+import type { AppConfig } from './config';
+
+export type { Logger };
+
+/**
+ * Events an administrator or an auditor looks for after the fact. Each is one
+ * JSON line with `security` set to the event's name, the account concerned
+ * (`userId` or `email`), the client address (`ip`) where there is a request,
+ * and who did it (`actorId`) where that is someone else.
+ */
+export type SecurityEvent =
+  | 'sign-in-failed'
+  | 'sign-in-limited'
+  | 'sign-in-slowed'
+  | 'password-changed'
+  | 'password-change-failed'
+  | 'password-change-limited'
+  | 'password-reset'
+  | 'role-changed'
+  | 'user-deactivated'
+  | 'user-reactivated'
+  | 'admin-created'
+  | 'calibration-own-accepted'
+  | 'finding-reversed'
+  | 'session-expired';
+
+/** Failures and refusals are warnings; changes made on purpose are information. */
+const WARNINGS: ReadonlySet<SecurityEvent> = new Set([
+  'sign-in-failed',
+  'sign-in-limited',
+  'sign-in-slowed',
+  'password-change-failed',
+  'password-change-limited',
+  'calibration-own-accepted',
+]);
+
+export type SecurityLog = (event: SecurityEvent, fields?: Record<string, unknown>) => void;
+
+/** One JSON line per entry on standard output (or the given stream); passwords and cookies never written. */
+export function createLogger(config: Pick<AppConfig, 'logLevel'>, destination?: DestinationStream): Logger {
+  return pino(
+    {
+      level: config.logLevel,
+      base: { app: 'rholog' },
+      redact: { paths: ['password', 'newPassword', 'currentPassword', '*.password', 'headers.cookie', 'req.headers.cookie'], censor: '[hidden]' },
+    },
+    destination ?? pino.destination({ dest: 1, sync: true }),
+  );
+}
+
+export function securityLog(logger: Logger): SecurityLog {
+  return (event, fields = {}) => {
+    const entry = { security: event, ...fields };
+    if (WARNINGS.has(event)) logger.warn(entry, `security: ${event}`);
+    else logger.info(entry, `security: ${event}`);
+  };
+}

@@ -1,0 +1,44 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import type { AppConfig } from './config';
+import { dialectOf, sqlitePath } from './db/connection';
+import type { Logger } from './log';
+
+/** Remove every permission for other users (0755 → 0750, 0644 → 0640), and optionally the group's too. */
+function tighten(file: string, mask: number) {
+  try {
+    const mode = fs.statSync(file).mode & 0o777;
+    if ((mode & mask) !== 0) fs.chmodSync(file, mode & ~mask);
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code !== 'ENOENT') throw err;
+  }
+}
+
+/**
+ * The SQLite file (with its WAL and shared-memory files) readable by Rholog's
+ * own user only (0600), and the folders holding it and the uploads closed to
+ * other users (0750 at most). Uploads are written 0440 by the trace store.
+ */
+export function hardenFiles(config: Pick<AppConfig, 'databaseUrl' | 'uploadDir'>, logger?: Logger) {
+  if (dialectOf(config.databaseUrl) === 'sqlite') {
+    const db = sqlitePath(config.databaseUrl);
+    for (const f of [db, `${db}-wal`, `${db}-shm`]) tighten(f, 0o077);
+    tighten(path.dirname(db), 0o007);
+  }
+  tighten(config.uploadDir, 0o007);
+  logger?.debug({ uploadDir: config.uploadDir }, 'file permissions checked');
+}
+
+const LOOPBACK = /^(127\.\d+\.\d+\.\d+|::1|localhost)$/;
+
+/** What to say at start about how exposed this server is. */
+export function exposureWarnings(config: Pick<AppConfig, 'demoData' | 'host'>): string[] {
+  if (!config.demoData) return [];
+  const warnings = [
+    'Demo data is on: the demo accounts and their password are published in the README. Set DEMO_DATA=off and create the first administrator with "npm run admin:create" for real use.',
+  ];
+  if (!LOOPBACK.test(config.host)) {
+    warnings.push(`HOST=${config.host} makes the demo accounts reachable from other machines; while demo data is on, leave HOST unset (127.0.0.1).`);
+  }
+  return warnings;
+}
