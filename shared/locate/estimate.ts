@@ -105,6 +105,7 @@ export function buildEstimate<K extends string>(spec: {
       `the end measured from must be A or B, got '${String(spec.fromEnd)}'`,
     );
   const run = checkedRun(spec.run);
+  const label = spec.label ?? `${METHOD_LABELS[spec.method]} from end ${spec.fromEnd}`;
   const inputs = {
     ...spec.inputs,
     installedLengthM: {
@@ -122,7 +123,7 @@ export function buildEstimate<K extends string>(spec: {
     throw new LocateInputError(
       'BEYOND_CABLE',
       spec.field,
-      `${spec.label ?? METHOD_LABELS[spec.method]}: the readings put the fault ${distanceFromEndM.toFixed(1)} m from end ${spec.fromEnd}, ` +
+      `${label}: the readings put the fault ${distanceFromEndM.toFixed(1)} m from end ${spec.fromEnd}, ` +
         `outside the ${run.installedLengthM} m cable`,
     );
   }
@@ -130,7 +131,7 @@ export function buildEstimate<K extends string>(spec: {
   return {
     id: spec.id,
     method: spec.method,
-    label: spec.label ?? `${METHOD_LABELS[spec.method]} from end ${spec.fromEnd}`,
+    label,
     fromEnd: spec.fromEnd,
     distanceFromEndM,
     distanceFromAM: onAxisA(x0),
