@@ -13,18 +13,27 @@ export { analyzeTrace, type AnalyzeOptions } from './analyze';
 export {
   parseTraceCsv,
   DEFAULT_MAX_BYTES,
+  MAX_COLUMNS,
+  MAX_DATA_LINE_BYTES,
+  MAX_HEADER_LINE_BYTES,
+  MAX_HEAD_LINES,
   type ParseOptions,
   type ParsedTrace,
+  type TraceChannel,
   type TraceLayout,
   type TraceHints,
 } from './parse';
-export { TraceInputError, type TraceInputErrorCode } from './errors';
+export { TraceInputError, MAX_MESSAGE_CHARS, type TraceInputErrorCode } from './errors';
 export { decimateMinMax, type TracePoint } from './decimate';
 export { ENGINE_VERSION } from './version';
 export { reflectionFromImpedance, impedanceFromReflection } from './impedance';
 export type { TraceAnalysis, ReflectionEvent, ReflectionType, TraceWarning } from '../schemas/trace-analysis';
 
-/** Parse and analyse in one call. */
-export function analyzeCsv(text: string, parseOptions: ParseOptions | undefined, analyzeOptions: AnalyzeOptions): TraceAnalysis {
+/** Parse and analyse in one call; bytes are read faster than text. */
+export function analyzeCsv(
+  text: string | Uint8Array,
+  parseOptions: ParseOptions | undefined,
+  analyzeOptions: AnalyzeOptions,
+): TraceAnalysis {
   return analyzeTrace(parseTraceCsv(text, parseOptions), analyzeOptions);
 }

@@ -1,23 +1,28 @@
 /**
  * Reading the numeric body of a trace file: plain rows of numbers after the
- * header. Two readers give the same result:
- *  - csv-parse (browser build, which carries its own Buffer shim, so it runs
- *    on the server and in the browser) reads every file that is not plain:
- *    quoted fields, stray characters, and anything the fast reader declines;
- *  - a single-pass reader over char codes, used only for plain rows (digits,
- *    signs, exponent, one decimal mark, delimiter). On a 1 000 000-row file it
- *    is about 10× faster and keeps no per-row strings; csv-parse's sync API
- *    needed about 1.8 s and 280 MB heap there (measured on the 2-core CI box).
- * Both report a bad row with the same code and line number.
+ * header, straight from the file's bytes. Two readers give the same result:
+ *  - a single pass over the bytes, used for plain rows (digits, signs,
+ *    exponent, one decimal mark, delimiter): no string per line or per
+ *    number, and the numbers go straight into the Float64Arrays the trace
+ *    keeps. It declines (returns null) at anything else, so it never has to
+ *    be right about quoting rules;
+ *  - the general reader, csv-parse (browser build, which carries its own
+ *    Buffer shim, so it runs on the server and in the browser), for quoted
+ *    fields, stray characters and anything the single pass declines. Before
+ *    it decodes anything it checks every line's length in one bounded pass,
+ *    so a hostile line is refused after MAX_DATA_LINE_BYTES, never copied.
+ * Both report a bad row with the same code and line number, and both are
+ * linear in the size of the file.
  */
 import { parse as csvParse } from 'csv-parse/browser/esm/sync';
-import { TraceInputError } from './errors';
+import { shorten, TraceInputError } from './errors';
+import { decodeText, lineTooLong, MAX_DATA_LINE_BYTES } from './lines';
 
 export type Delimiter = ',' | ';' | '\t' | 'whitespace' | null;
 
 export interface BodySpec {
-  text: string;
-  /** Offset in `text` where the body starts (start of a line). */
+  bytes: Uint8Array;
+  /** Offset in `bytes` where the body starts (start of a line). */
   start: number;
   /** 1-based file line number of the line at `start`. */
   firstLine: number;
@@ -47,11 +52,13 @@ const POW10 = [
 ];
 
 const NON_FINITE = /^[+-]?(nan|inf|infinity|∞)$/i;
-const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+// One way to match each number, so a long run of digits is never backtracked over.
+const NUMBER = /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/;
 
-function columnLabel(spec: BodySpec, col: number): string {
-  const name = spec.columnNames[col];
-  return name ? `'${name}'` : `${col + 1}`;
+/** How a column is named in messages: its header in quotes, or its 1-based position. */
+export function columnLabel(names: string[], col: number): string {
+  const name = names[col];
+  return name ? `'${shorten(name)}'` : `${col + 1}`;
 }
 
 /** Convert one field to a number or throw the error a person can act on. */
@@ -60,23 +67,22 @@ export function numberFromField(raw: string, decimalComma: boolean, line: number
   if (s.length >= 2 && (s[0] === '"' || s[0] === "'") && s[s.length - 1] === s[0]) s = s.slice(1, -1).trim();
   if (s === '') throw new TraceInputError('EMPTY_VALUE', `column ${column} is empty; expected a number`, { line, field: column });
   if (decimalComma) s = s.replace(',', '.');
+  const shown = shorten(raw.trim());
   if (NUMBER.test(s)) {
     const v = Number(s);
     if (Number.isFinite(v)) return v;
-    throw new TraceInputError(
-      'NOT_FINITE',
-      `value '${raw.trim()}' in column ${column} is out of range; expected a finite number`,
-      { line, field: column },
-    );
+    throw new TraceInputError('NOT_FINITE', `value '${shown}' in column ${column} is out of range; expected a finite number`, {
+      line,
+      field: column,
+    });
   }
   if (NON_FINITE.test(s)) {
     throw new TraceInputError(
       'NOT_FINITE',
-      `value '${raw.trim()}' in column ${column} is not a finite number; expected a measured value`,
+      `value '${shown}' in column ${column} is not a finite number; expected a measured value`,
       { line, field: column },
     );
   }
-  const shown = raw.trim().length > 40 ? `${raw.trim().slice(0, 40)}…` : raw.trim();
   throw new TraceInputError('NOT_A_NUMBER', `'${shown}' in column ${column} is not a number`, { line, field: column });
 }
 
@@ -134,20 +140,35 @@ class LineMap {
   }
 }
 
+/** A number the one-pass reader could not convert exactly itself (over 15 digits, or a large exponent). */
+function slowNumber(b: Uint8Array, from: number, to: number, decimalComma: boolean): number {
+  let s = String.fromCharCode(...b.subarray(from, to));
+  if (decimalComma) s = s.replace(',', '.');
+  return Number(s);
+}
+
+const END = -1;
+const LF = 10;
+const CR = 13;
+
 /**
- * Fast reader. Returns null (so the caller falls back to csv-parse) when it
- * meets anything but plain numeric rows, so it never has to be right about
- * quoting rules.
+ * One pass over the bytes. Returns null (so the caller falls back to the
+ * general reader) when it meets anything but plain numeric rows. Every read
+ * is bounded by the current line's limit, so a line longer than
+ * MAX_DATA_LINE_BYTES is refused at that point. The number loop is kept in
+ * one function on purpose: it is the hot path of every upload.
  */
 export function readBodyFast(spec: BodySpec): BodyColumns | null {
-  const { text, delimiter, decimalComma, columnCount } = spec;
-  const n = text.length;
-  const dCode = delimiter === ',' ? 44 : delimiter === ';' ? 59 : delimiter === '\t' ? 9 : -1;
+  const { bytes: b, delimiter, decimalComma, columnCount } = spec;
+  const n = b.length;
+  // A local copy: an imported binding may be read through a getter on every use.
+  const maxLine = MAX_DATA_LINE_BYTES;
+  const dCode = delimiter === ',' ? 44 : delimiter === ';' ? 59 : delimiter === '\t' ? 9 : -2;
   const ws = delimiter === 'whitespace';
-  // With decimal commas a point is accepted too, as csv-parse's path does.
+  // With decimal commas a point is accepted too, as the general reader does.
   const decCode = decimalComma ? 44 : 46;
   const keepSlot = new Int32Array(columnCount).fill(-1);
-  spec.keep.forEach((c, k) => (keepSlot[c] = k));
+  spec.keep.forEach((col, k) => (keepSlot[col] = k));
   const cols = spec.keep.map(() => new Growable(spec.rowEstimate));
   const lines = new LineMap(spec.firstLine);
   let i = spec.start;
@@ -157,32 +178,37 @@ export function readBodyFast(spec: BodySpec): BodyColumns | null {
   let lastRowLine = -1;
 
   while (i < n) {
-    // Start of a line: skip leading blanks, blank lines, comment lines.
-    let c = text.charCodeAt(i);
-    while (i < n && (c === 32 || (c === 9 && dCode !== 9))) c = text.charCodeAt(++i);
-    if (i >= n) break;
-    if (c === 10 || c === 13) {
-      if (c === 13 && text.charCodeAt(i + 1) === 10) i++;
+    // Content may run to lim - 1; the byte at lim - 1 may also be the line's CR or LF.
+    const lineStart = i;
+    const lim = Math.min(n, lineStart + maxLine + 1);
+    let c = b[i];
+    while (c === 32 || (c === 9 && dCode !== 9)) c = ++i < lim ? b[i] : END;
+    if (c === LF || c === CR) {
+      if (c === CR && b[i + 1] === LF) i++;
       i++;
       line++;
       continue;
     }
     if (c === 35) {
-      const nl = text.indexOf('\n', i);
-      if (nl < 0) break;
-      i = nl + 1;
+      // A comment line: skip to its end within the limit.
+      while (c !== LF && c !== END) c = ++i < lim ? b[i] : END;
+      if (c === END && i < n) throw lineTooLong(b, lineStart, line, maxLine, 'a row of numbers');
+      i++;
       line++;
       continue;
+    }
+    if (c === END) {
+      if (i < n) throw lineTooLong(b, lineStart, line, maxLine, 'a row of numbers');
+      break;
     }
     let field = 0;
     for (;;) {
       // One number.
       const fieldStart = i;
       let neg = false;
-      c = text.charCodeAt(i);
       if (c === 45 || c === 43) {
         neg = c === 45;
-        c = text.charCodeAt(++i);
+        c = ++i < lim ? b[i] : END;
       }
       let mant = 0;
       let digits = 0;
@@ -199,10 +225,10 @@ export function readBodyFast(spec: BodySpec): BodyColumns | null {
           sig++;
         }
         digits++;
-        c = text.charCodeAt(++i);
+        c = ++i < lim ? b[i] : END;
       }
       if (c === decCode || c === 46) {
-        c = text.charCodeAt(++i);
+        c = ++i < lim ? b[i] : END;
         while (c >= 48 && c <= 57) {
           if (sig > 0 || c !== 48) {
             if (sig < 15) {
@@ -212,27 +238,31 @@ export function readBodyFast(spec: BodySpec): BodyColumns | null {
             sig++;
           } else scale--;
           digits++;
-          c = text.charCodeAt(++i);
+          c = ++i < lim ? b[i] : END;
         }
       }
-      if (digits === 0) return null;
+      if (digits === 0) {
+        if (c === END && i < n) throw lineTooLong(b, lineStart, line, maxLine, 'a row of numbers');
+        return null;
+      }
       if (c === 101 || c === 69) {
-        c = text.charCodeAt(++i);
+        c = ++i < lim ? b[i] : END;
         let eneg = false;
         if (c === 45 || c === 43) {
           eneg = c === 45;
-          c = text.charCodeAt(++i);
+          c = ++i < lim ? b[i] : END;
         }
         let e = 0;
         let ed = 0;
         while (c >= 48 && c <= 57) {
           if (e < 100000) e = e * 10 + (c - 48);
           ed++;
-          c = text.charCodeAt(++i);
+          c = ++i < lim ? b[i] : END;
         }
         if (ed === 0) return null;
         scale += eneg ? -e : e;
       }
+      if (c === END && i < n) throw lineTooLong(b, lineStart, line, maxLine, 'a row of numbers');
       let v: number;
       if (exact && scale >= -22 && scale <= 22) {
         // Clinger's fast path: an exact integer mantissa and an exact power of
@@ -240,47 +270,33 @@ export function readBodyFast(spec: BodySpec): BodyColumns | null {
         // (W. D. Clinger, "How to read floating point numbers accurately", PLDI 1990).
         v = scale >= 0 ? mant * POW10[scale] : mant / POW10[-scale];
         if (neg) v = -v;
-      } else {
-        let s = text.slice(fieldStart, i);
-        if (decCode === 44) s = s.replace(',', '.');
-        v = Number(s);
-      }
+      } else v = slowNumber(b, fieldStart, i, decimalComma);
       if (!Number.isFinite(v)) return null;
       const slot = field < columnCount ? keepSlot[field] : -1;
       if (slot >= 0) cols[slot].push(v);
       field++;
-      // After a number: spaces, then a delimiter or the end of the line.
-      while (c === 32 || (c === 9 && dCode !== 9)) c = text.charCodeAt(++i);
+      // After a number: blanks, then a delimiter or the end of the line.
+      const before = i;
+      while (c === 32 || (c === 9 && dCode !== 9)) c = ++i < lim ? b[i] : END;
       if (c === dCode) {
-        c = text.charCodeAt(++i);
-        while (c === 32 || (c === 9 && dCode !== 9)) c = text.charCodeAt(++i);
-        if (c === 10 || c === 13 || i >= n) break; // trailing delimiter
-        if (ws) continue;
+        c = ++i < lim ? b[i] : END;
+        while (c === 32 || (c === 9 && dCode !== 9)) c = ++i < lim ? b[i] : END;
+        if (c === LF || c === CR || c === END) break; // trailing delimiter
         continue;
       }
-      if (
-        ws &&
-        i > fieldStart &&
-        (text.charCodeAt(i - 1) === 32 || text.charCodeAt(i - 1) === 9) &&
-        !(c === 10 || c === 13 || i >= n)
-      ) {
-        continue;
-      }
-      if (c === 10 || c === 13 || i >= n) break;
-      return null;
+      if (ws && i > before && c !== LF && c !== CR && c !== END) continue;
+      break;
     }
-    if (field !== columnCount) {
-      if (field < columnCount) {
-        // Undo the partial row before reporting, so the state stays consistent for the caller.
-        throw raggedError(spec, field, line);
-      }
-      throw raggedError(spec, field, line);
+    if ((c === END && i < n) || i - lineStart > maxLine) {
+      throw lineTooLong(b, lineStart, line, maxLine, 'a row of numbers');
     }
+    if (c !== LF && c !== CR && c !== END) return null;
+    if (field !== columnCount) throw raggedError(spec, field, line);
     lines.note(rows, line, spec.firstLine + rows);
     if (firstRowLine < 0) firstRowLine = line;
     lastRowLine = line;
     rows++;
-    if (c === 13 && text.charCodeAt(i + 1) === 10) i++;
+    if (c === CR && b[i + 1] === LF) i++;
     i++;
     line++;
   }
@@ -294,67 +310,103 @@ export function readBodyFast(spec: BodySpec): BodyColumns | null {
   };
 }
 
-interface CsvRecord {
-  record: string[];
-  info: { lines: number };
+/** One bounded pass over the body: refuse the first line longer than MAX_DATA_LINE_BYTES, reading no further into it. */
+function checkLineLengths(spec: BodySpec): void {
+  const b = spec.bytes;
+  const n = b.length;
+  let i = spec.start;
+  let line = spec.firstLine;
+  while (i < n) {
+    const lineStart = i;
+    const lim = Math.min(n, lineStart + MAX_DATA_LINE_BYTES + 1);
+    while (i < lim && b[i] !== LF) i++;
+    if (i === lim && lim < n && !(b[lim] === LF && b[lim - 1] === CR)) {
+      throw lineTooLong(b, lineStart, line, MAX_DATA_LINE_BYTES, 'a row of numbers');
+    }
+    if (i === lim && lim < n) i = lim;
+    i++;
+    line++;
+  }
 }
 
-/** General reader: csv-parse, then each field checked as a number. */
-export function readBodyCsvParse(spec: BodySpec): BodyColumns {
-  const body = spec.text.slice(spec.start);
+interface RowSink {
+  onRow: (cells: string[], line: number) => void;
+  result: () => BodyColumns;
+}
+
+function rowSink(spec: BodySpec): RowSink {
   const cols = spec.keep.map(() => new Growable(Math.min(spec.rowEstimate, 1 << 20)));
+  const slotOf = new Int32Array(spec.columnCount).fill(-1);
+  spec.keep.forEach((col, k) => (slotOf[col] = k));
   const lines = new LineMap(spec.firstLine);
   let rows = 0;
   let firstRowLine = -1;
   let lastRowLine = -1;
-  const onRow = (cells: string[], line: number) => {
-    if (cells.length > 1 && cells[cells.length - 1].trim() === '') cells = cells.slice(0, -1);
-    if (cells.length === 1 && cells[0].trim() === '') return;
-    if (cells.length !== spec.columnCount) throw raggedError(spec, cells.length, line);
-    for (let k = 0; k < cells.length; k++) {
-      const v = numberFromField(cells[k], spec.decimalComma, line, columnLabel(spec, k));
-      const slot = spec.keep.indexOf(k);
-      if (slot >= 0) cols[slot].push(v);
-    }
-    lines.note(rows, line, spec.firstLine + rows);
-    if (firstRowLine < 0) firstRowLine = line;
-    lastRowLine = line;
-    rows++;
+  return {
+    onRow(cells, line) {
+      if (cells.length > 1 && cells[cells.length - 1].trim() === '') cells = cells.slice(0, -1);
+      if (cells.length === 1 && cells[0].trim() === '') return;
+      if (cells.length !== spec.columnCount) throw raggedError(spec, cells.length, line);
+      for (let k = 0; k < cells.length; k++) {
+        const v = numberFromField(cells[k], spec.decimalComma, line, columnLabel(spec.columnNames, k));
+        if (slotOf[k] >= 0) cols[slotOf[k]].push(v);
+      }
+      lines.note(rows, line, spec.firstLine + rows);
+      if (firstRowLine < 0) firstRowLine = line;
+      lastRowLine = line;
+      rows++;
+    },
+    result: () => ({
+      columns: cols.map((g) => g.result()),
+      rows,
+      firstRowLine,
+      lastRowLine,
+      lineOfRow: (r) => lines.lineOf(r),
+      reader: 'csv-parse',
+    }),
   };
+}
+
+/** General reader: csv-parse, then each field checked as a number. Lines are length-checked first. */
+export function readBodyCsvParse(spec: BodySpec): BodyColumns {
+  checkLineLengths(spec);
+  const body = decodeText(spec.bytes, spec.start);
+  const sink = rowSink(spec);
   if (spec.delimiter === 'whitespace') {
     let line = spec.firstLine;
-    for (const raw of body.split(/\r\n|\n|\r/)) {
-      const t = raw.trim();
-      if (t !== '' && !t.startsWith('#')) onRow(t.split(/[ \t]+/), line);
+    let pos = 0;
+    while (pos <= body.length) {
+      const nl = body.indexOf('\n', pos);
+      const end = nl < 0 ? body.length : nl;
+      const t = body.slice(pos, end).trim();
+      if (t !== '' && !t.startsWith('#')) sink.onRow(t.split(/[ \t]+/), line);
+      pos = end + 1;
       line++;
     }
-  } else {
-    let records: CsvRecord[];
-    try {
-      records = csvParse(body, {
-        delimiter: spec.delimiter ?? '\u0000',
-        relax_column_count: true,
-        skip_empty_lines: true,
-        skip_records_with_empty_values: false,
-        comment: '#',
-        comment_no_infix: true,
-        trim: true,
-        info: true,
-      }) as unknown as CsvRecord[];
-    } catch (err) {
-      const e = err as { message?: string; lines?: number };
-      const line = typeof e.lines === 'number' ? spec.firstLine + e.lines - 1 : undefined;
-      const msg = (e.message ?? 'unreadable CSV').replace(/^Invalid [^:]*:\s*/, '');
-      throw new TraceInputError('CSV_SYNTAX', `the CSV could not be read (${msg})`, line !== undefined ? { line } : {});
-    }
-    for (const r of records) onRow(r.record, spec.firstLine + r.info.lines - 1);
+    return sink.result();
   }
-  return {
-    columns: cols.map((g) => g.result()),
-    rows,
-    firstRowLine,
-    lastRowLine,
-    lineOfRow: (r) => lines.lineOf(r),
-    reader: 'csv-parse',
-  };
+  try {
+    csvParse(body, {
+      delimiter: spec.delimiter ?? '\u0000',
+      relax_column_count: true,
+      skip_empty_lines: true,
+      skip_records_with_empty_values: false,
+      comment: '#',
+      comment_no_infix: true,
+      trim: true,
+      max_record_size: MAX_DATA_LINE_BYTES,
+      // Each record is turned into numbers as it is read and then dropped, so no array of records is built.
+      on_record: (record: string[], context: { lines: number }) => {
+        sink.onRow(record, spec.firstLine + context.lines - 1);
+        return null;
+      },
+    });
+  } catch (err) {
+    if (err instanceof TraceInputError) throw err;
+    const e = err as { message?: string; lines?: number };
+    const line = typeof e.lines === 'number' ? spec.firstLine + e.lines - 1 : undefined;
+    const msg = shorten((e.message ?? 'unreadable CSV').replace(/^Invalid [^:]*:\s*/, ''), 120);
+    throw new TraceInputError('CSV_SYNTAX', `the CSV could not be read (${msg})`, line !== undefined ? { line } : {});
+  }
+  return sink.result();
 }

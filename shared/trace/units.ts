@@ -78,6 +78,9 @@ export function distanceUnitScale(unit: string): { scale: number; unit: 'm' | 'f
   return DISTANCE_UNITS[unit.trim().toLowerCase()];
 }
 
+/** Column titles and metadata keys longer than this are taken as plain text, never searched for a unit. */
+export const MAX_NAME_CHARS = 120;
+
 const RHO_NAME = /(^|[^a-z])(m?rho|m?ρ|refl(ection)?[ ._-]*coef(f(icient)?)?|reflection)([^a-z]|$)/;
 const TIME_NAME = /(^|[^a-z])(t|time|zeit|temps|tiempo|delay|round[ _-]?trip)([^a-z]|$)/;
 const DIST_NAME = /(^|[^a-z])(d|dist|distance|length|range|position|pos|location)([^a-z]|$)/;
@@ -90,6 +93,8 @@ export function splitNameAndUnit(raw: string): { base: string; unit: string | nu
     .replace(/^["']|["']$/g, '')
     .trim()
     .toLowerCase();
+  // A name this long is not a column title with a unit; its patterns are not worth searching.
+  if (name.length > MAX_NAME_CHARS) return { base: name, unit: null };
   const bracket = /^(.*?)\s*[([{]\s*([^)\]}]*?)\s*[)\]}]\s*$/.exec(name);
   if (bracket) return { base: bracket[1].trim(), unit: bracket[2].trim() || null };
   const sep = /^(.*?)\s*(?:[_/]|\s+|\bin\s+)\s*([a-zµμρ%]+)$/.exec(name);
@@ -154,7 +159,8 @@ export function interpretColumn(raw: string): ColumnInfo {
 
 /** A number with an optional unit suffix, e.g. `0.5 ns`, `66 %`, `1e-9`, `0,66`. */
 export function splitQuantity(value: string): { number: number; unit: string | null } | null {
-  const m = /^\s*([+-]?(?:\d+[.,]?\d*|[.,]\d+)(?:[eE][+-]?\d+)?)\s*([a-zA-Zµμ%/Ω]*)\s*$/.exec(value);
+  if (value.length > MAX_NAME_CHARS) return null;
+  const m = /^\s*([+-]?(?:\d+(?:[.,]\d*)?|[.,]\d+)(?:[eE][+-]?\d+)?)\s*([a-zA-Zµμ%/Ωω\u2126]*)\s*$/.exec(value);
   if (!m) return null;
   const number = Number(m[1].replace(',', '.'));
   if (!Number.isFinite(number)) return null;

@@ -1,7 +1,7 @@
 import { readFileSync, readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { parseTraceCsv, TraceInputError, type ParseOptions } from '../../../shared/trace';
+import { MAX_MESSAGE_CHARS, parseTraceCsv, TraceInputError, type ParseOptions } from '../../../shared/trace';
 
 // Each file in the corpus was written by hand to break one rule; expected.json
 // names the error code, the line and words the message must contain.
@@ -11,7 +11,7 @@ const expected = JSON.parse(readFileSync(join(dir, 'expected.json'), 'utf8')) as
   { code: string; line?: number; message?: string; options?: ParseOptions }
 >;
 
-function failure(text: string, options: ParseOptions): TraceInputError {
+function failure(text: string | Uint8Array, options: ParseOptions): TraceInputError {
   try {
     parseTraceCsv(text, options);
   } catch (err) {
@@ -39,7 +39,13 @@ describe('malformed trace corpus', () => {
           expect(err.message).toMatch(new RegExp(`^line ${exp.line}: `));
         }
         if (exp.message) expect(err.message).toContain(exp.message);
+        // Messages are stored and listed as they are, so none may grow with the file.
+        expect(err.message.length).toBeLessThanOrEqual(MAX_MESSAGE_CHARS);
       }
+      // The same file given as bytes fails the same way.
+      const fromBytes = failure(readFileSync(join(dir, file)), exp.options ?? {});
+      expect(fromBytes.code).toBe(exp.code);
+      expect(fromBytes.message).toBe(failure(text, exp.options ?? {}).message);
     });
   }
 });
