@@ -4,7 +4,7 @@ import tailwindcss from '@tailwindcss/vite';
 
 export default defineConfig({
   plugins: [react(), tailwindcss()],
-  build: { outDir: 'dist/client', sourcemap: true, chunkSizeWarningLimit: 900 },
+  build: { outDir: 'dist/client', sourcemap: false, chunkSizeWarningLimit: 900 },
   test: {
     projects: [
       {

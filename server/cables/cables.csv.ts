@@ -5,6 +5,7 @@ import { CableTypeInputSchema, parseAttenuationList, parsePulseVfList, type Cabl
 import { CableType } from '../db/models';
 import type { FieldChange } from '../db/models/cable-type-change';
 import { AppError, type FieldIssue } from '../errors';
+import { protectCell, unprotectCell } from './csv-cells';
 import { CABLE_FIELDS, createCable, diffCable, historyValue, LIST_FIELDS, updateCable, type CableField } from './cables.service';
 
 /**
@@ -47,7 +48,13 @@ export const MAX_IMPORT_ROWS = 2000;
 export async function exportCsv(): Promise<string> {
   const rows = await CableType.findAll({ order: [['name', 'ASC']] });
   return stringify(
-    rows.map((c) => CABLE_FIELDS.map((f) => ((LIST_FIELDS as readonly string[]).includes(f) ? (historyValue(f, c[f]) ?? '') : (c[f] ?? '')))),
+    rows.map((c) =>
+      CABLE_FIELDS.map((f) => {
+        const value = (LIST_FIELDS as readonly string[]).includes(f) ? (historyValue(f, c[f]) ?? '') : (c[f] ?? '');
+        // Text only: a number column keeps its sign (see csv-cells.ts).
+        return typeof value === 'string' ? protectCell(value) : value;
+      }),
+    ),
     { header: true, columns: CABLE_FIELDS.map((f) => CSV_COLUMNS[f]) },
   );
 }
@@ -95,7 +102,8 @@ function readRecords(text: string) {
   }
 }
 
-function cellToValue(field: CableField, raw: string): { value?: unknown; error?: string } {
+function cellToValue(field: CableField, cell: string): { value?: unknown; error?: string } {
+  const raw = NUMERIC.includes(field) ? cell : unprotectCell(cell);
   if (field === 'attenuation' || field === 'pulseVfs') {
     const read = field === 'attenuation' ? parseAttenuationList(raw) : parsePulseVfList(raw);
     return read.ok ? { value: read.value } : { error: read.error };
@@ -135,7 +143,7 @@ export async function parseImport(text: string, transaction?: Transaction): Prom
     const line = info.lines - newlinesInside;
     const errors: FieldIssue[] = [];
     const nameIndex = headerFields.indexOf('name');
-    const name = record[nameIndex] ?? '';
+    const name = unprotectCell(record[nameIndex] ?? '');
     if (record.length !== header.length) {
       errors.push({ field: '(row)', message: `has ${record.length} fields, the header has ${header.length}`, line });
       rows.push({ line, name, action: 'invalid', existingId: null, changes: [], errors, input: null });
