@@ -10,10 +10,13 @@
  *
  * Both ends: d_A = L·t_A/(t_A + t_B) (shared/field/two-ended.ts), free of the
  * VF; its error comes from the installed length and the two round-trip times.
- * The timing errors it shares with the single-ended readings of the same
- * traces are left out of the covariance: a few centimetres per nanosecond
- * against metres from the VF.
+ * When the same traces also give single-ended readings, name each trace's
+ * timing as a shared source on both (`timingSource`, `timingSourceA/B`) so the
+ * fusion knows the two-ended reading repeats their timing; otherwise the
+ * timing errors are taken as independent (a few centimetres per nanosecond
+ * against metres from the VF).
  */
+import { SPEED_OF_LIGHT_M_PER_S } from '../cable/propagation';
 import { twoEndedLocation } from '../field/two-ended';
 import { LocateInputError, finite, nonNegative, positive } from './errors';
 import { buildEstimate, type CableEnd, type CableRunInput, type LocationEstimate, type UncertainInput } from './estimate';
@@ -33,7 +36,19 @@ export interface SingleEndedTdrReading {
   vfRelativeU?: number;
   /** Names the VF's error source; readings with the same VF share it. */
   vfSource?: string;
+  /** Names the timing error's source (the trace), shared with a two-ended reading of the same trace. */
+  timingSource?: string;
   label?: string;
+}
+
+/**
+ * The round-trip timing uncertainty behind a single-ended reading, ns: the part
+ * of its uncertainty that is not the VF's, turned back into time through
+ * d = VF·c·t/2.
+ */
+export function timingUncertaintyNs(distanceM: number, standardUncertaintyM: number, vf: number, vfRelativeU: number): number {
+  const rest = Math.sqrt(Math.max(0, standardUncertaintyM ** 2 - (distanceM * vfRelativeU) ** 2));
+  return (2 * rest) / (vf * SPEED_OF_LIGHT_M_PER_S) / 1e-9;
 }
 
 export function singleEndedTdr(id: string, run: CableRunInput, r: SingleEndedTdrReading, field = id): LocationEstimate {
@@ -46,7 +61,7 @@ export function singleEndedTdr(id: string, run: CableRunInput, r: SingleEndedTdr
   const inputs: Record<'vfScale' | 'reading', UncertainInput> = {
     // The reading scales with the VF: d·(1 + δ), δ with standard uncertainty u(VF)/VF.
     vfScale: { value: 1, u: d > 0 ? vfPart / d : 0, label: 'velocity factor', source: r.vfSource ?? VF_SOURCE },
-    reading: { value: d, u: rest, label: 'timing, sampling and edge of the reading' },
+    reading: { value: d, u: rest, label: 'timing, sampling and edge of the reading', source: r.timingSource },
   };
   return buildEstimate({
     id,
@@ -63,19 +78,33 @@ export function singleEndedTdr(id: string, run: CableRunInput, r: SingleEndedTdr
 export interface TwoEndedTdrReading {
   roundTripANs: number;
   roundTripBNs: number;
-  /** Standard uncertainty of each round-trip time, ns. */
-  roundTripUNs: number;
+  /** Standard uncertainty of each round-trip time, ns (or one per end below). */
+  roundTripUNs?: number;
+  roundTripAUNs?: number;
+  roundTripBUNs?: number;
+  /** Shared timing sources: the traces the times come from. */
+  timingSourceA?: string;
+  timingSourceB?: string;
   label?: string;
 }
 
 export function twoEndedTdr(id: string, run: CableRunInput, r: TwoEndedTdrReading, field = id): LocationEstimate {
   const tA = positive(`${field}.roundTripANs`, r.roundTripANs, 'round-trip time from end A');
   const tB = positive(`${field}.roundTripBNs`, r.roundTripBNs, 'round-trip time from end B');
-  const ut = nonNegative(`${field}.roundTripUNs`, r.roundTripUNs, 'uncertainty of the round-trip times');
+  const utA = nonNegative(
+    `${field}.roundTripAUNs`,
+    r.roundTripAUNs ?? r.roundTripUNs,
+    'uncertainty of the round-trip time from end A',
+  );
+  const utB = nonNegative(
+    `${field}.roundTripBUNs`,
+    r.roundTripBUNs ?? r.roundTripUNs,
+    'uncertainty of the round-trip time from end B',
+  );
   finite('installedLengthM', run.installedLengthM, 'installed length');
   const inputs: Record<'tA' | 'tB', UncertainInput> = {
-    tA: { value: tA, u: ut, label: 'round-trip time from end A' },
-    tB: { value: tB, u: ut, label: 'round-trip time from end B' },
+    tA: { value: tA, u: utA, label: 'round-trip time from end A', source: r.timingSourceA },
+    tB: { value: tB, u: utB, label: 'round-trip time from end B', source: r.timingSourceB },
   };
   const estimate = buildEstimate({
     id,

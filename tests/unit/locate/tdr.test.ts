@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { LocateInputError, singleEndedTdr, twoEndedTdr } from '../../../shared/locate';
+import { covarianceOf, LocateInputError, singleEndedTdr, timingUncertaintyNs, twoEndedTdr } from '../../../shared/locate';
 
 const contribution = (e: { budget: Array<{ label: string; contributionM: number }> }, label: string) =>
   e.budget.find((b) => b.label === label)?.contributionM;
@@ -81,5 +81,33 @@ describe('two-ended TDR reading as an estimate', () => {
     expect(() =>
       twoEndedTdr('te', { installedLengthM: 1000 }, { roundTripANs: 800, roundTripBNs: 1200, roundTripUNs: 1 }),
     ).toThrow(/imply a velocity factor of 3\.336/);
+  });
+});
+
+describe('timing shared between a single-ended and a two-ended reading of the same trace', () => {
+  it('turns the reading back into a timing uncertainty and counts it as one error', () => {
+    // d = VF·c·t/2 at VF 0.7: 1 ns is 0.7 × 299 792 458 × 1e-9/2 = 0.104927 m (c exact by the SI definition).
+    // A reading of 419.7 m with 2 % VF (8.394 m) and that timing: back to 1 ns (hand-worked).
+    const uA = Math.hypot(419.7 * 0.02, 0.104927);
+    expect(timingUncertaintyNs(419.7, uA, 0.7, 0.02)).toBeCloseTo(1, 4);
+    const run = { installedLengthM: 1000, installedLengthUM: 10 };
+    const single = singleEndedTdr('a', run, {
+      fromEnd: 'A',
+      distanceM: 419.7,
+      standardUncertaintyM: uA,
+      vfRelativeU: 0.02,
+      timingSource: 'trace-1',
+    });
+    const both = twoEndedTdr('te', run, {
+      roundTripANs: 4000,
+      roundTripBNs: 6000,
+      roundTripUNs: 1,
+      timingSourceA: 'trace-1',
+      timingSourceB: 'trace-2',
+    });
+    // Covariance = 0.104927 m × (∂d/∂t_A = 0.06 m/ns × 1 ns) = 0.0062956 m² (hand-worked); nothing else is shared.
+    const v = covarianceOf([single, both]);
+    expect(v[0][1]).toBeCloseTo(0.0062956, 6);
+    expect(v[1][0]).toBeCloseTo(v[0][1], 12);
   });
 });
