@@ -147,7 +147,7 @@ describe('POST /api/traces', () => {
       .postRaw('/api/traces')
       .field('cableRunId', String(runId))
       .field('end', 'A')
-      .attach('file', Buffer.from(stepTraceCsv({ faultM: 100, vf: 0.66 })), 'one.csv')
+      .attach('file', Buffer.from(stepTraceCsv({ faultM: 110, vf: 0.66 })), 'one.csv')
       .attach('file', Buffer.from('time_ns,voltage_V\n'), 'empty.csv')
       .expect(201);
     expect(res.body.traces.map((t: { originalName: string; status: string }) => [t.originalName, t.status])).toEqual([
@@ -190,7 +190,8 @@ describe('PUT /api/traces/:id/reference', () => {
     const newOnes = view.body.comparison.newEventIndexes.map((i: number) => view.body.analysis.events[i].distanceM);
     expect(newOnes.some((d: number) => Math.abs(d - 60) < 1)).toBe(true);
     expect(view.body.comparison.missingReferenceEvents.some((e: { distanceM: number }) => Math.abs(e.distanceM - 150) < 1)).toBe(true);
-    const second = await up(stepTraceCsv({ faultM: 150, vf: 0.66 }), 'recommissioned.csv');
+    // A new recording of the same cable (one sample longer): the very same bytes again would be a duplicate upload.
+    const second = await up(stepTraceCsv({ faultM: 150, vf: 0.66, samples: 3001 }), 'recommissioned.csv');
     await sup.put(`/api/traces/${second.id}/reference`, { isReference: true }).expect(200);
     expect((await Trace.findAll({ where: { cableRunId: run.id, isReference: true } })).map((t) => t.id)).toEqual([second.id]);
   });
