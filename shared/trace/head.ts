@@ -33,8 +33,6 @@ export interface FileHead {
   dataLine: number;
   /** Up to SAMPLE_ROWS rows of numbers from the first one (comments and blank lines skipped). */
   samples: SampleRow[];
-  /** Their average length in bytes, line end included. */
-  bytesPerSample: number;
 }
 
 const SAMPLE_ROWS = 50;
@@ -58,24 +56,20 @@ function refuseLongHeadLine(src: TraceBytes, pos: number, line: number): never {
   throw lineTooLong(src.bytes, pos, line, MAX_HEADER_LINE_BYTES, 'a line before the numbers');
 }
 
-function readSamples(src: TraceBytes, dataStart: number, dataLine: number): { samples: SampleRow[]; bytes: number } {
+function readSamples(src: TraceBytes, dataStart: number, dataLine: number): SampleRow[] {
   const { bytes } = src;
   const samples: SampleRow[] = [];
-  let total = 0;
   let pos = dataStart;
   let line = dataLine;
   while (pos < bytes.length && samples.length < SAMPLE_ROWS) {
     const end = lineEnd(bytes, pos, MAX_DATA_LINE_BYTES);
     if (end < 0) throw lineTooLong(bytes, pos, line, MAX_DATA_LINE_BYTES, 'a row of numbers');
     const t = decodeText(bytes, pos, end).trim();
-    if (t !== '' && !t.startsWith('#')) {
-      samples.push({ text: t, line });
-      total += end - pos + 1;
-    }
+    if (t !== '' && !t.startsWith('#')) samples.push({ text: t, line });
     pos = end + 1;
     line++;
   }
-  return { samples, bytes: total };
+  return samples;
 }
 
 /** Split off the head and find the first rows of numbers. */
@@ -95,8 +89,7 @@ export function readHead(src: TraceBytes): FileHead {
         if (lineEnd(bytes, pos, MAX_DATA_LINE_BYTES) < 0) {
           throw lineTooLong(bytes, pos, line, MAX_DATA_LINE_BYTES, 'a row of numbers');
         }
-        const { samples, bytes: sampleBytes } = readSamples(src, pos, line);
-        return { rows, dataStart: pos, dataLine: line, samples, bytesPerSample: sampleBytes / samples.length };
+        return { rows, dataStart: pos, dataLine: line, samples: readSamples(src, pos, line) };
       } else rows.push({ text: t, line, comment: false });
     }
     if (line >= MAX_HEAD_LINES) throw noNumbers(` in the first ${MAX_HEAD_LINES} lines`);

@@ -110,10 +110,41 @@ export function lineEnd(bytes: Uint8Array, pos: number, limit: number): number {
 
 /** A line refused for its length; says which limit and what the line looked like. */
 export function lineTooLong(bytes: Uint8Array, pos: number, line: number, limit: number, what: string): TraceInputError {
-  const start = decodeText(bytes, pos, Math.min(bytes.length, pos + 24)).replace(/\uFFFD+$/, '');
+  // The first few bytes only; a character cut in two at the end is dropped.
+  const start = utf8Lenient.decode(bytes.subarray(pos, Math.min(bytes.length, pos + 24))).replace(/\uFFFD+$/, '');
   return new TraceInputError(
     'LINE_TOO_LONG',
     `the line is longer than ${limit} bytes, the limit for ${what}; it begins '${start}…'`,
     { line },
   );
+}
+
+/**
+ * How many lines the bytes from `start` hold, estimated from the length of a
+ * few lines at the start, a quarter, half and three quarters of the way and
+ * near the end, so the arrays for the numbers can be sized once. Reads a few
+ * hundred bytes at each place, never the whole file.
+ */
+export function estimateLines(bytes: Uint8Array, start: number): number {
+  const n = bytes.length;
+  const span = n - start;
+  let lines = 0;
+  let length = 0;
+  for (const at of [0, 0.25, 0.5, 0.75, 0.97]) {
+    let pos = start + Math.floor(span * at);
+    if (at > 0) {
+      // Move to the start of the next line.
+      const end = lineEnd(bytes, pos, 4096);
+      if (end < 0 || end >= n) continue;
+      pos = end + 1;
+    }
+    for (let k = 0; k < 16 && pos < n; k++) {
+      const end = lineEnd(bytes, pos, 4096);
+      if (end < 0) break;
+      length += end + 1 - pos;
+      lines++;
+      pos = end + 1;
+    }
+  }
+  return lines === 0 ? 16 : Math.ceil((span / (length / lines)) * 1.03) + 16;
 }

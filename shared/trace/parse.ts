@@ -13,7 +13,7 @@ import { buildTimeAxis, checkRising, evenlySpaced } from './axis';
 import { TraceInputError } from './errors';
 import { readHead } from './head';
 import { amplitudeUnitOf, planColumns, readLayout } from './layout';
-import { DEFAULT_MAX_BYTES, traceBytes } from './lines';
+import { DEFAULT_MAX_BYTES, estimateLines, traceBytes } from './lines';
 import { metadataEntries, readMetadata } from './metadata';
 import { type BodyColumns, type BodySpec, readBodyCsvParse, readBodyFast } from './numeric-rows';
 import type { ParseOptions, ParsedTrace } from './reader-types';
@@ -65,8 +65,8 @@ export function parseTraceCsv(input: string | Uint8Array, options: ParseOptions 
     columnCount: layout.columnCount,
     keep,
     columnNames: layout.header ?? [],
-    // Sized from the first rows' average length; the arrays grow if the guess is short.
-    rowEstimate: Math.ceil(((src.bytes.length - head.dataStart) / Math.max(2, head.bytesPerSample)) * 1.05) + 17,
+    // Sized from the length of lines through the file; the arrays grow if the guess is short.
+    rowEstimate: estimateLines(src.bytes, head.dataStart),
   };
   const body: BodyColumns = (options.reader === 'csv-parse' ? null : readBodyFast(spec)) ?? readBodyCsvParse(spec);
   const count = body.rows;
