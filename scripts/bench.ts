@@ -74,10 +74,7 @@ function measure(file: string, repeats: number) {
 /** The same large file through numpy.loadtxt + scipy (scripts/bench-numpy.py), when Debian's python3 has them. */
 function numpyBaseline(file: string): string {
   try {
-    const out = execFileSync('/usr/bin/python3', [join(import.meta.dirname, 'bench-numpy.py'), file], {
-      encoding: 'utf8',
-      stdio: ['ignore', 'pipe', 'ignore'],
-    });
+    const out = execFileSync('/usr/bin/python3', [join(import.meta.dirname, 'bench-numpy.py'), file], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'ignore'] });
     const r = JSON.parse(out) as { seconds: number };
     return `  numpy.loadtxt + scipy filter/peaks on the same 1,000,000-sample file: ${(r.seconds * 1000).toFixed(0)} ms`;
   } catch {
