@@ -28,7 +28,7 @@
  * acts at the node's position). Node 0 is the instrument port, driven by a
  * Thevenin source (open-circuit voltage vs(t) behind `sourceOhm`).
  */
-import { fitDielectric, fitSkin, type PoleSet, type SkinFit } from './fit';
+import { dielectricAdmittance, fitDielectric, fitSkin, type PoleSet, type SkinFit, skinImpedance } from './fit';
 
 export const C0 = 299_792_458;
 
@@ -309,4 +309,28 @@ export function erfc(x: number): number {
                         t * (0.27886807 + t * (-1.13520398 + t * (1.48851587 + t * (-0.82215223 + t * 0.17087277)))))))),
     );
   return x >= 0 ? r : 2 - r;
+}
+
+/**
+ * Propagation constant γ = α + jβ per metre of a cable as the solver sees it (the same pole
+ * fits), as a function of angular frequency, for a run with time step dt whose record spans ω_min.
+ */
+export function propagationOf(cable: CableRlgc, dtS: number, omegaMin: number): (omega: number) => [number, number] {
+  const v = cable.vf * C0;
+  const L = cable.z0Ohm / v;
+  const Cinf = 1 / (cable.z0Ohm * v);
+  const skin = fitSkin(cable.rdcOhmPerM, cable.skinOhmPerMRootHz, 2 / dtS, omegaMin);
+  const diel = fitDielectric(Cinf, cable.tanDelta, Math.max(omegaMin / 3, 1), (2 / dtS) * 3);
+  return (omega) => {
+    const [zr, zi0] = skinImpedance(skin, omega);
+    const zi = zi0 + omega * L;
+    const [yr, yi] = dielectricAdmittance(Cinf, cable.gSPerM ?? 0, diel, omega);
+    // γ = √(Z·Y), principal root (Re ≥ 0).
+    const pr = zr * yr - zi * yi;
+    const pi = zr * yi + zi * yr;
+    const m = Math.hypot(pr, pi);
+    const re = Math.sqrt((m + pr) / 2);
+    const im = Math.sign(pi || 1) * Math.sqrt(Math.max(0, (m - pr) / 2));
+    return [re, im];
+  };
 }
