@@ -10,6 +10,7 @@
  * Exit codes: 0 created, 1 refused (the address is taken, the password is
  * weak), 2 bad usage or configuration. Every refusal is one line on stderr.
  */
+import { pathToFileURL } from 'node:url';
 import { parseArgs } from 'node:util';
 import readline from 'node:readline';
 import { Writable } from 'node:stream';
@@ -24,7 +25,7 @@ import { initModels, User } from '../server/db/models';
 import { createLogger, securityLog } from '../server/log';
 import { hardenFiles } from '../server/startup';
 
-class Refusal extends Error {
+export class Refusal extends Error {
   constructor(
     message: string,
     readonly exitCode: 1 | 2,
@@ -33,10 +34,10 @@ class Refusal extends Error {
   }
 }
 
-function readArgs() {
+function readArgs(args: string[]) {
   let values: { email?: string; name?: string };
   try {
-    ({ values } = parseArgs({ options: { email: { type: 'string' }, name: { type: 'string' } }, strict: true }));
+    ({ values } = parseArgs({ args, options: { email: { type: 'string' }, name: { type: 'string' } }, strict: true }));
   } catch (err) {
     throw new Refusal(`admin:create: ${(err as Error).message}. Usage: npm run admin:create -- --email ADDRESS --name "FULL NAME" (password on standard input)`, 2);
   }
@@ -63,19 +64,22 @@ async function readPassword(): Promise<string> {
   return line;
 }
 
-async function main() {
-  process.umask(0o027);
-  const { email, name } = readArgs();
+/**
+ * The command without its process: arguments, a way to read the password, the
+ * environment. Resolves with the line to print; rejects with a Refusal.
+ */
+export async function adminCreate(args: string[], password: () => Promise<string>, env: Record<string, string | undefined> = process.env): Promise<string> {
+  const { email, name } = readArgs(args);
   let config;
   try {
-    config = loadConfig();
+    config = loadConfig(env);
   } catch (err) {
     if (err instanceof ConfigError) throw new Refusal(err.message.replace(/\n\s*/g, ' '), 2);
     throw err;
   }
-  const password = await readPassword();
-  if (!password) throw new Refusal('admin:create: no password on standard input', 2);
-  const problem = passwordProblem(password, { email, name });
+  const secret = await password();
+  if (!secret) throw new Refusal('admin:create: no password on standard input', 2);
+  const problem = passwordProblem(secret, { email, name });
   if (problem) throw new Refusal(`admin:create: the password ${problem}`, 1);
 
   configurePasswordHashing({ cost: config.scryptCost });
@@ -85,19 +89,25 @@ async function main() {
     await migrate(sequelize);
     hardenFiles(config);
     if (await User.findOne({ where: { email } })) throw new Refusal(`admin:create: a user with e-mail ${email} already exists`, 1);
-    const user = await User.create({ email, name, role: 'admin', phone: null, passwordHash: await hashPassword(password), mustChangePassword: false });
+    const user = await User.create({ email, name, role: 'admin', phone: null, passwordHash: await hashPassword(secret), mustChangePassword: false });
     securityLog(createLogger(config, pino.destination({ dest: 2, sync: true })))('admin-created', { userId: user.id, email, by: 'admin:create' });
-    process.stdout.write(`Created administrator ${name} <${email}> (user ${user.id}).\n`);
+    return `Created administrator ${name} <${email}> (user ${user.id}).`;
   } finally {
     await sequelize.close();
   }
 }
 
-main().catch((err: unknown) => {
-  if (err instanceof Refusal) {
-    process.stderr.write(`${err.message}\n`);
-    process.exit(err.exitCode);
-  }
-  process.stderr.write(`admin:create: ${(err as Error)?.message ?? String(err)}\n`);
-  process.exit(1);
-});
+if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
+  process.umask(0o027);
+  adminCreate(process.argv.slice(2), readPassword).then(
+    (line) => process.stdout.write(`${line}\n`),
+    (err: unknown) => {
+      if (err instanceof Refusal) {
+        process.stderr.write(`${err.message}\n`);
+        process.exit(err.exitCode);
+      }
+      process.stderr.write(`admin:create: ${(err as Error)?.message ?? String(err)}\n`);
+      process.exit(1);
+    },
+  );
+}
