@@ -140,6 +140,46 @@ class LineMap {
   }
 }
 
+/** The columns kept so far, with the line of every row; both readers fill the same store. */
+export class RowStore {
+  readonly cols: Growable[];
+  readonly lines: LineMap;
+  rows = 0;
+  firstRowLine = -1;
+  lastRowLine = -1;
+  constructor(private readonly spec: BodySpec) {
+    this.cols = spec.keep.map(() => new Growable(spec.rowEstimate));
+    this.lines = new LineMap(spec.firstLine);
+  }
+  /** A row has been read in full from `line`. */
+  endRow(line: number) {
+    this.lines.note(this.rows, line, this.spec.firstLine + this.rows);
+    if (this.firstRowLine < 0) this.firstRowLine = line;
+    this.lastRowLine = line;
+    this.rows++;
+  }
+  /** Forget the values of a row that was not finished. */
+  dropPartialRow() {
+    for (const g of this.cols) g.length = this.rows;
+  }
+  result(reader: BodyColumns['reader']): BodyColumns {
+    return {
+      columns: this.cols.map((g) => g.result()),
+      rows: this.rows,
+      firstRowLine: this.firstRowLine,
+      lastRowLine: this.lastRowLine,
+      lineOfRow: (r) => this.lines.lineOf(r),
+      reader,
+    };
+  }
+}
+
+/** Where the one-pass reader stopped: the start of the line it declined. */
+export interface Resume {
+  pos: number;
+  line: number;
+}
+
 /** A number the one-pass reader could not convert exactly itself (over 15 digits, or a large exponent). */
 function slowNumber(b: Uint8Array, from: number, to: number, decimalComma: boolean): number {
   let s = String.fromCharCode(...b.subarray(from, to));
@@ -152,13 +192,14 @@ const LF = 10;
 const CR = 13;
 
 /**
- * One pass over the bytes. Returns null (so the caller falls back to the
- * general reader) when it meets anything but plain numeric rows. Every read
- * is bounded by the current line's limit, so a line longer than
- * MAX_DATA_LINE_BYTES is refused at that point. The number loop is kept in
- * one function on purpose: it is the hot path of every upload.
+ * One pass over the bytes into `store`. Returns null when it has read the
+ * whole body, or the line where it met anything but plain numeric rows, for
+ * the general reader to go on from. Every read is bounded by the current
+ * line's limit, so a line longer than MAX_DATA_LINE_BYTES is refused at that
+ * point. The number loop is kept in one function on purpose: it is the hot
+ * path of every upload.
  */
-export function readBodyFast(spec: BodySpec): BodyColumns | null {
+export function readBodyFast(spec: BodySpec, store: RowStore): Resume | null {
   const { bytes: b, delimiter, decimalComma, columnCount } = spec;
   const n = b.length;
   // A local copy: an imported binding may be read through a getter on every use.
@@ -169,17 +210,18 @@ export function readBodyFast(spec: BodySpec): BodyColumns | null {
   const decCode = decimalComma ? 44 : 46;
   const keepSlot = new Int32Array(columnCount).fill(-1);
   spec.keep.forEach((col, k) => (keepSlot[col] = k));
-  const cols = spec.keep.map(() => new Growable(spec.rowEstimate));
-  const lines = new LineMap(spec.firstLine);
+  const cols = store.cols;
   let i = spec.start;
   let line = spec.firstLine;
-  let rows = 0;
-  let firstRowLine = -1;
-  let lastRowLine = -1;
+  let lineStart = i;
+  const decline = (): Resume => {
+    store.dropPartialRow();
+    return { pos: lineStart, line };
+  };
 
   while (i < n) {
     // Content may run to lim - 1; the byte at lim - 1 may also be the line's CR or LF.
-    const lineStart = i;
+    lineStart = i;
     const lim = Math.min(n, lineStart + maxLine + 1);
     let c = b[i];
     while (c === 32 || (c === 9 && dCode !== 9)) c = ++i < lim ? b[i] : END;
@@ -243,7 +285,7 @@ export function readBodyFast(spec: BodySpec): BodyColumns | null {
       }
       if (digits === 0) {
         if (c === END && i < n) throw lineTooLong(b, lineStart, line, maxLine, 'a row of numbers');
-        return null;
+        return decline();
       }
       if (c === 101 || c === 69) {
         c = ++i < lim ? b[i] : END;
@@ -259,7 +301,7 @@ export function readBodyFast(spec: BodySpec): BodyColumns | null {
           ed++;
           c = ++i < lim ? b[i] : END;
         }
-        if (ed === 0) return null;
+        if (ed === 0) return decline();
         scale += eneg ? -e : e;
       }
       if (c === END && i < n) throw lineTooLong(b, lineStart, line, maxLine, 'a row of numbers');
@@ -271,7 +313,7 @@ export function readBodyFast(spec: BodySpec): BodyColumns | null {
         v = scale >= 0 ? mant * POW10[scale] : mant / POW10[-scale];
         if (neg) v = -v;
       } else v = slowNumber(b, fieldStart, i, decimalComma);
-      if (!Number.isFinite(v)) return null;
+      if (!Number.isFinite(v)) return decline();
       const slot = field < columnCount ? keepSlot[field] : -1;
       if (slot >= 0) cols[slot].push(v);
       field++;
@@ -290,100 +332,67 @@ export function readBodyFast(spec: BodySpec): BodyColumns | null {
     if ((c === END && i < n) || i - lineStart > maxLine) {
       throw lineTooLong(b, lineStart, line, maxLine, 'a row of numbers');
     }
-    if (c !== LF && c !== CR && c !== END) return null;
+    if (c !== LF && c !== CR && c !== END) return decline();
     if (field !== columnCount) throw raggedError(spec, field, line);
-    lines.note(rows, line, spec.firstLine + rows);
-    if (firstRowLine < 0) firstRowLine = line;
-    lastRowLine = line;
-    rows++;
+    store.endRow(line);
     if (c === CR && b[i + 1] === LF) i++;
     i++;
     line++;
   }
-  return {
-    columns: cols.map((g) => g.result()),
-    rows,
-    firstRowLine,
-    lastRowLine,
-    lineOfRow: (r) => lines.lineOf(r),
-    reader: 'fast',
-  };
+  return null;
 }
 
 /** One bounded pass over the body: refuse the first line longer than MAX_DATA_LINE_BYTES, reading no further into it. */
-function checkLineLengths(spec: BodySpec): void {
-  const b = spec.bytes;
+function checkLineLengths(b: Uint8Array, from: Resume): void {
   const n = b.length;
-  let i = spec.start;
-  let line = spec.firstLine;
+  let i = from.pos;
+  let line = from.line;
   while (i < n) {
     const lineStart = i;
     const lim = Math.min(n, lineStart + MAX_DATA_LINE_BYTES + 1);
     while (i < lim && b[i] !== LF) i++;
-    if (i === lim && lim < n && !(b[lim] === LF && b[lim - 1] === CR)) {
-      throw lineTooLong(b, lineStart, line, MAX_DATA_LINE_BYTES, 'a row of numbers');
+    if (i === lim && lim < n) {
+      // Content may fill the limit exactly when a CR LF follows it.
+      if (!(b[lim] === LF && b[lim - 1] === CR)) throw lineTooLong(b, lineStart, line, MAX_DATA_LINE_BYTES, 'a row of numbers');
     }
-    if (i === lim && lim < n) i = lim;
     i++;
     line++;
   }
 }
 
-interface RowSink {
-  onRow: (cells: string[], line: number) => void;
-  result: () => BodyColumns;
+/** Check one row's cells as numbers and keep the columns asked for. */
+function storeRow(spec: BodySpec, store: RowStore, slotOf: Int32Array, cells: string[], line: number): void {
+  if (cells.length > 1 && cells[cells.length - 1].trim() === '') cells = cells.slice(0, -1);
+  if (cells.length === 1 && cells[0].trim() === '') return;
+  if (cells.length !== spec.columnCount) throw raggedError(spec, cells.length, line);
+  for (let k = 0; k < cells.length; k++) {
+    const v = numberFromField(cells[k], spec.decimalComma, line, columnLabel(spec.columnNames, k));
+    if (slotOf[k] >= 0) store.cols[slotOf[k]].push(v);
+  }
+  store.endRow(line);
 }
 
-function rowSink(spec: BodySpec): RowSink {
-  const cols = spec.keep.map(() => new Growable(Math.min(spec.rowEstimate, 1 << 20)));
+/**
+ * General reader from `from` on: csv-parse, then each field checked as a
+ * number. Lines are length-checked before anything is decoded.
+ */
+export function readBodyCsvParse(spec: BodySpec, store: RowStore, from: Resume): void {
+  checkLineLengths(spec.bytes, from);
+  const body = decodeText(spec.bytes, from.pos);
   const slotOf = new Int32Array(spec.columnCount).fill(-1);
   spec.keep.forEach((col, k) => (slotOf[col] = k));
-  const lines = new LineMap(spec.firstLine);
-  let rows = 0;
-  let firstRowLine = -1;
-  let lastRowLine = -1;
-  return {
-    onRow(cells, line) {
-      if (cells.length > 1 && cells[cells.length - 1].trim() === '') cells = cells.slice(0, -1);
-      if (cells.length === 1 && cells[0].trim() === '') return;
-      if (cells.length !== spec.columnCount) throw raggedError(spec, cells.length, line);
-      for (let k = 0; k < cells.length; k++) {
-        const v = numberFromField(cells[k], spec.decimalComma, line, columnLabel(spec.columnNames, k));
-        if (slotOf[k] >= 0) cols[slotOf[k]].push(v);
-      }
-      lines.note(rows, line, spec.firstLine + rows);
-      if (firstRowLine < 0) firstRowLine = line;
-      lastRowLine = line;
-      rows++;
-    },
-    result: () => ({
-      columns: cols.map((g) => g.result()),
-      rows,
-      firstRowLine,
-      lastRowLine,
-      lineOfRow: (r) => lines.lineOf(r),
-      reader: 'csv-parse',
-    }),
-  };
-}
-
-/** General reader: csv-parse, then each field checked as a number. Lines are length-checked first. */
-export function readBodyCsvParse(spec: BodySpec): BodyColumns {
-  checkLineLengths(spec);
-  const body = decodeText(spec.bytes, spec.start);
-  const sink = rowSink(spec);
   if (spec.delimiter === 'whitespace') {
-    let line = spec.firstLine;
+    let line = from.line;
     let pos = 0;
     while (pos <= body.length) {
       const nl = body.indexOf('\n', pos);
       const end = nl < 0 ? body.length : nl;
       const t = body.slice(pos, end).trim();
-      if (t !== '' && !t.startsWith('#')) sink.onRow(t.split(/[ \t]+/), line);
+      if (t !== '' && !t.startsWith('#')) storeRow(spec, store, slotOf, t.split(/[ \t]+/), line);
       pos = end + 1;
       line++;
     }
-    return sink.result();
+    return;
   }
   try {
     csvParse(body, {
@@ -397,16 +406,28 @@ export function readBodyCsvParse(spec: BodySpec): BodyColumns {
       max_record_size: MAX_DATA_LINE_BYTES,
       // Each record is turned into numbers as it is read and then dropped, so no array of records is built.
       on_record: (record: string[], context: { lines: number }) => {
-        sink.onRow(record, spec.firstLine + context.lines - 1);
+        storeRow(spec, store, slotOf, record, from.line + context.lines - 1);
         return null;
       },
     });
   } catch (err) {
     if (err instanceof TraceInputError) throw err;
     const e = err as { message?: string; lines?: number };
-    const line = typeof e.lines === 'number' ? spec.firstLine + e.lines - 1 : undefined;
+    const line = typeof e.lines === 'number' ? from.line + e.lines - 1 : undefined;
     const msg = shorten((e.message ?? 'unreadable CSV').replace(/^Invalid [^:]*:\s*/, ''), 120);
     throw new TraceInputError('CSV_SYNTAX', `the CSV could not be read (${msg})`, line !== undefined ? { line } : {});
   }
-  return sink.result();
+}
+
+/**
+ * Read the body: the one pass over the bytes as far as it goes, then the
+ * general reader from the first line it declined (or from the start when
+ * `general` is asked for).
+ */
+export function readBody(spec: BodySpec, general: boolean): BodyColumns {
+  const store = new RowStore(spec);
+  const from = general ? { pos: spec.start, line: spec.firstLine } : readBodyFast(spec, store);
+  if (from === null) return store.result('fast');
+  readBodyCsvParse(spec, store, from);
+  return store.result('csv-parse');
 }

@@ -15,7 +15,7 @@ import { readHead } from './head';
 import { amplitudeUnitOf, planColumns, readLayout } from './layout';
 import { DEFAULT_MAX_BYTES, estimateLines, traceBytes } from './lines';
 import { metadataEntries, readMetadata } from './metadata';
-import { type BodyColumns, type BodySpec, readBodyCsvParse, readBodyFast } from './numeric-rows';
+import { type BodySpec, readBody } from './numeric-rows';
 import type { ParseOptions, ParsedTrace } from './reader-types';
 
 export type { ParseOptions, ParsedTrace, TraceChannel, TraceHints, TraceLayout, TraceLayoutKind } from './reader-types';
@@ -68,7 +68,7 @@ export function parseTraceCsv(input: string | Uint8Array, options: ParseOptions 
     // Sized from the length of lines through the file; the arrays grow if the guess is short.
     rowEstimate: estimateLines(src.bytes, head.dataStart),
   };
-  const body: BodyColumns = (options.reader === 'csv-parse' ? null : readBodyFast(spec)) ?? readBodyCsvParse(spec);
+  const body = readBody(spec, options.reader === 'csv-parse');
   const count = body.rows;
   const minSamples = options.minSamples ?? DEFAULT_MIN_SAMPLES;
   if (count === 0)

@@ -155,6 +155,20 @@ describe('parseTraceCsv layouts', () => {
     expect(Array.from(a.amplitude)).toEqual(Array.from(b.amplitude));
   });
 
+  it('goes on with csv-parse from the first row the fast reader declines, with the same result', () => {
+    const lines = ['time_ns;voltage_mV', ...Array.from({ length: 500 }, (_, i) => `${i * 0.25};${(Math.cos(i) * 100).toFixed(4)}`)];
+    lines.splice(300, 0, '# a note in the middle', '');
+    lines[401] = `"${398 * 0.25}";"${(Math.cos(398) * 100).toFixed(4)}"`; // sample 398, quoted
+    const text = lines.join('\r\n');
+    const mixed = parseTraceCsv(text);
+    const general = parseTraceCsv(text, { reader: 'csv-parse' });
+    expect(mixed.layout.reader).toBe('csv-parse');
+    expect(mixed).toEqual(general);
+    expect(mixed.timeS.length).toBe(500);
+    expect(mixed.amplitude[398]).toBeCloseTo(Math.cos(398) / 10, 7); // mV to V
+    expect(mixed.layout.lastDataLine).toBe(503);
+  });
+
   it('reads numbers exactly as JavaScript does', () => {
     const vals = ['0.1', '1e-9', '-2.5E+3', '123456789012345678', '.5', '7.', '0.000000000000000000001234', '+3'];
     const t = parseTraceCsv(['amplitude (V)', ...vals, ...Array(10).fill('0')].join('\n'), { sampleIntervalNs: 1 });
