@@ -137,6 +137,34 @@ export function derivationReference(formula: FormulaSource, inputs: string[], re
 
 // ---- geometries ----
 
+/** The calculator's first four derivations, named for the library entry they start. */
+export const BASIC_FORMULAS = {
+  permittivity: {
+    name: 'the uniform-dielectric velocity factor',
+    formula: 'VF = 1/√(εr·μr)',
+    source: 'D. M. Pozar, Microwave Engineering, 4th ed. (Wiley, 2012), §2.1 (u = 1/√(με) on any TEM line in one dielectric)',
+    validity: 'a line whose whole field is in the one dielectric, εr and μr at least 1',
+  },
+  lc: {
+    name: 'the line constants L and C',
+    formula: 'u = 1/√(LC), VF = u/c, Z0 = √(L/C)',
+    source: 'D. M. Pozar, Microwave Engineering, 4th ed. (Wiley, 2012), §2.1 (lossless line)',
+    validity: 'a lossless or low-loss line, L and C per unit length at the frequencies of the pulse',
+  },
+  coax: {
+    name: 'the coaxial-line formulas',
+    formula: 'L = (μ/2π)·ln(D/d), C = 2πε/ln(D/d), Z0 = (η0/2π)·√(μr/εr)·ln(D/d)',
+    source: 'D. M. Pozar, Microwave Engineering, 4th ed. (Wiley, 2012), Table 2.1',
+    validity: 'a round, concentric coax with one dielectric filling the space, D larger than d',
+  },
+  twoWire: {
+    name: 'the two-wire-line formulas',
+    formula: 'L = (μ/π)·acosh(s/d), C = πε/acosh(s/d), Z0 = (η0/π)·√(μr/εr)·acosh(s/d)',
+    source: 'D. M. Pozar, Microwave Engineering, 4th ed. (Wiley, 2012), Table 2.1',
+    validity: 'two parallel round wires in one (or an effective) dielectric, s larger than d',
+  },
+} satisfies Record<string, FormulaSource>;
+
 export interface LineGeometryResult {
   z0Ohm: number;
   lHPerM: number;
