@@ -156,7 +156,10 @@ describe('parseTraceCsv layouts', () => {
   });
 
   it('goes on with csv-parse from the first row the fast reader declines, with the same result', () => {
-    const lines = ['time_ns;voltage_mV', ...Array.from({ length: 500 }, (_, i) => `${i * 0.25};${(Math.cos(i) * 100).toFixed(4)}`)];
+    const lines = [
+      'time_ns;voltage_mV',
+      ...Array.from({ length: 500 }, (_, i) => `${i * 0.25};${(Math.cos(i) * 100).toFixed(4)}`),
+    ];
     lines.splice(300, 0, '# a note in the middle', '');
     lines[401] = `"${398 * 0.25}";"${(Math.cos(398) * 100).toFixed(4)}"`; // sample 398, quoted
     const text = lines.join('\r\n');
