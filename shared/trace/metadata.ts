@@ -252,12 +252,33 @@ export interface HeadText {
   cells: string[] | null;
 }
 
+/** Several settings on one line: "vf=0.66; z0=50; pulse=10 ns", each part a key and a value. */
+function settingsOnOneLine(text: string): Array<{ key: string; value: string }> | null {
+  if (!/[:=]/.test(text)) return null;
+  for (const sep of [';', '\t', ',']) {
+    if (!text.includes(sep)) continue;
+    const parts = text
+      .split(sep)
+      .map((p) => p.trim())
+      .filter((p) => p !== '');
+    if (parts.length < 2 || !parts.every((p) => /^[^:=]+[:=]/.test(p))) continue;
+    const kvs = parts.map((p) => splitOnFirst(p, p.search(/[:=]/)));
+    if (kvs.every((kv) => kv !== null)) return kvs as Array<{ key: string; value: string }>;
+  }
+  return null;
+}
+
 /** Key/value entries from the head's rows; rows that are not settings are kept as numbered notes. */
 export function metadataEntries(rows: HeadText[]): MetaEntry[] {
   const out: MetaEntry[] = [];
   let notes = 0;
   for (const r of rows) {
     if (r.text === '') continue;
+    const several = settingsOnOneLine(r.text);
+    if (several) {
+      for (const kv of several) out.push({ ...kv, line: r.line });
+      continue;
+    }
     const cells = r.cells;
     let kv: { key: string; value: string } | null;
     if (cells && cells.length >= 2 && !/[:=]/.test(cells[0])) {

@@ -298,6 +298,13 @@ describe('parseTraceCsv other settings written in any of the usual ways', () => 
     expect(t.metadata).toEqual({ Instrument: 'demo unit', 'sample interval': '1 ns', 'note 1': 'recorded after rain' });
   });
 
+  it('reads several settings written on one line', () => {
+    const t = parseTraceCsv(distanceFile(['vf=0.660; z0=50; pulse=10 ns']));
+    expect(t.hints).toEqual({ instrumentVf: 0.66, z0Ohm: 50, pulseWidthNs: 10 });
+    const u = parseTraceCsv(distanceFile(['# Z0: 75 ohm, NVP: 82%']));
+    expect(u.hints).toEqual({ z0Ohm: 75, instrumentVf: 0.82 });
+  });
+
   it('refuses an impossible impedance or an unreadable rate with the line', () => {
     expect(() => parseTraceCsv(single(['sample interval 1 ns', 'Z0 = -50 ohm']))).toThrow(
       expect.objectContaining({ code: 'BAD_METADATA', line: 2 }),
