@@ -21,14 +21,17 @@ import { startMail } from './mail';
 import { sessionSecret } from './db/settings';
 import { AppError, errorHandler } from './errors';
 import type { ApiRouter, RouteRecord } from './http/api-router';
+import { refuseNulBytes } from './http/strict-input';
 import { outboxRoutes } from './outbox/outbox.routes';
 import { dashboardRoutes } from './dashboard/dashboard.routes';
 import { subscribeFindingNotices } from './tickets/finding-notices';
 import { ticketRoutes } from './tickets/tickets.routes';
 import { cableRunRoutes } from './cable-runs/cable-runs.routes';
 import { findingRoutes } from './findings/findings.routes';
+import { measurementRoutes } from './measurements/measurements.routes';
 import { siteRoutes } from './sites/sites.routes';
 import { traceRoutes } from './traces/traces.routes';
+import { sweepUploads } from './traces/traces.service';
 import { userRoutes } from './users/users.routes';
 import { createLogger, securityLog } from './log';
 import { hardenFiles } from './startup';
@@ -54,6 +57,7 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
   ctx.onClose.unshift(() => mail.close());
   fs.mkdirSync(config.uploadDir, { recursive: true, mode: 0o750 });
   hardenFiles(config, logger);
+  await sweepUploads(ctx);
 
   if (config.demoData) await seedDemo(ctx);
 
@@ -87,6 +91,7 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
   });
   app.use(express.json({ limit: '256kb' }));
   app.use(express.urlencoded({ extended: false, limit: '64kb' }));
+  app.use('/api', refuseNulBytes);
 
   const secret = await sessionSecret(sequelize, config.sessionSecret);
   const sessions = createSessionMiddleware(config, sequelize, secret);
@@ -110,7 +115,7 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
     res.json({ status: 'ok' });
   });
 
-  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(ctx), cableRoutes(), calibrationRoutes(ctx), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx), ticketRoutes(ctx), dashboardRoutes()];
+  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(ctx), cableRoutes(), calibrationRoutes(ctx), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx), measurementRoutes(ctx), ticketRoutes(ctx), dashboardRoutes()];
   subscribeFindingNotices(ctx);
   for (const r of routers) app.use(r.prefix, r.router);
   const routes = [{ method: 'get' as const, path: '/api/health', access: 'public' as const }, ...routers.flatMap((r) => r.routes)];

@@ -1,6 +1,9 @@
 import type { ErrorRequestHandler } from 'express';
 import multer from 'multer';
 import { ZodError } from 'zod';
+import { capMessage } from './http/messages';
+
+export { capMessage, MAX_MESSAGE_CHARS } from './http/messages';
 
 export interface FieldIssue {
   field: string;
@@ -43,7 +46,62 @@ function describeFields(fields: FieldIssue[]): string {
   return fields.map((f) => `${f.field}: ${f.message}`).join('; ');
 }
 
+/**
+ * True for the failures a second try can cure: SQLite's "database is locked"
+ * (SQLITE_BUSY, which Sequelize reports as a TimeoutError) and PostgreSQL's
+ * serialization failure (40001), deadlock (40P01) and lock-not-available (55P03).
+ */
+export function isBusyError(err: unknown): boolean {
+  const e = err as { name?: string; code?: string; parent?: { code?: string }; original?: { code?: string }; message?: string } | null;
+  if (!e || typeof e !== 'object') return false;
+  const code = e.parent?.code ?? e.original?.code ?? e.code;
+  if (code === 'SQLITE_BUSY' || code === 'SQLITE_LOCKED' || code === '40001' || code === '40P01' || code === '55P03') return true;
+  return e.name === 'SequelizeTimeoutError' || /SQLITE_BUSY|database is locked/.test(e.message ?? '');
+}
+
+/** What a write that stayed busy through every retry answers: 503, nothing changed. */
+export function databaseBusy(): AppError {
+  return new AppError(503, 'database_busy', 'The database is busy with other changes and this one could not be saved. Nothing was changed; try again in a moment.');
+}
+
 type BodyParserError = Error & { type?: string; status?: number; expose?: boolean };
+
+/**
+ * A multipart body the form reader (busboy, under multer) could not take
+ * apart: a cut-off body, a broken part header, a missing boundary. Those are
+ * the sender's fault (400), unlike a disk error while saving a part.
+ */
+export function isMalformedMultipart(err: unknown): boolean {
+  const e = err as (Error & { syscall?: string }) | null;
+  if (!(e instanceof Error) || e instanceof AppError || e.syscall || err instanceof multer.MulterError) return false;
+  // Made by the form reader itself: the first frame of its stack is in busboy.
+  const firstFrame = (e.stack ?? '').split('\n').find((l) => l.trimStart().startsWith('at ')) ?? '';
+  return /[\\/]busboy[\\/]/.test(firstFrame) || /^(Malformed part header|Unexpected end of (form|file)|Multipart: Boundary not found|Malformed urlencoded form)/.test(e.message);
+}
+
+const MULTER_MESSAGES: Record<string, [status: number, code: string, message: string]> = {
+  LIMIT_PART_COUNT: [400, 'bad_upload', 'The form has too many parts.'],
+  LIMIT_FILE_SIZE: [413, 'file_too_large', 'A file is larger than the upload limit.'],
+  LIMIT_FILE_COUNT: [400, 'too_many_files', 'The form has too many files.'],
+  LIMIT_FIELD_KEY: [400, 'bad_upload', 'A form field name is too long.'],
+  LIMIT_FIELD_VALUE: [413, 'field_too_large', 'A form field value is too long.'],
+  LIMIT_FIELD_COUNT: [400, 'bad_upload', 'The form has too many fields.'],
+  LIMIT_UNEXPECTED_FILE: [400, 'bad_upload', 'The form has a file in a field that takes none.'],
+  MISSING_FIELD_NAME: [400, 'bad_upload', 'A part of the form has no field name.'],
+};
+
+/** A multer limit error as an AppError whose message says which limit and which field. */
+export function multerAppError(err: InstanceType<typeof multer.MulterError>): AppError {
+  const [status, code, message] = MULTER_MESSAGES[err.code] ?? [400, 'bad_upload', 'The upload is not a valid form.'];
+  const field = err.field ? capMessage(err.field, 60) : undefined;
+  return new AppError(status, code, `${message}${field ? ` (field "${field}")` : ''} Nothing was stored.`, {
+    ...(field ? { fields: [{ field, message }] } : {}),
+  });
+}
+
+export function malformedMultipartError(err: Error): AppError {
+  return AppError.badRequest('malformed_form', `The upload is not a well-formed multipart form (${capMessage(err.message, 80)}). Nothing was stored; send the form again.`);
+}
 
 /** Every error leaves as JSON { error: { code, message, fields? } }; internals stay hidden in production. */
 export function errorHandler(options: { exposeInternals: boolean; log?: (err: unknown) => void }): ErrorRequestHandler {
@@ -58,15 +116,17 @@ export function errorHandler(options: { exposeInternals: boolean; log?: (err: un
       const fields = zodFields(err);
       body = { code: 'invalid_input', message: `The input is not valid: ${describeFields(fields)}`, fields };
     } else if (err instanceof multer.MulterError) {
-      status = err.code === 'LIMIT_FILE_SIZE' ? 413 : 400;
-      body = {
-        code: err.code === 'LIMIT_FILE_SIZE' ? 'file_too_large' : 'bad_upload',
-        message:
-          err.code === 'LIMIT_FILE_SIZE'
-            ? `The file ${err.field ? `in field "${err.field}" ` : ''}is larger than the upload limit.`
-            : `The upload is not valid (${err.message}${err.field ? `, field "${err.field}"` : ''}).`,
-        ...(err.field ? { fields: [{ field: err.field, message: err.message }] } : {}),
-      };
+      const e = multerAppError(err);
+      status = e.status;
+      body = { code: e.code, message: e.message, ...(e.details ?? {}) };
+    } else if (isMalformedMultipart(err)) {
+      const e = malformedMultipartError(err as Error);
+      status = e.status;
+      body = { code: e.code, message: e.message };
+    } else if (isBusyError(err)) {
+      const e = databaseBusy();
+      status = e.status;
+      body = { code: e.code, message: e.message };
     } else if ((err as BodyParserError)?.type === 'entity.too.large') {
       status = 413;
       body = { code: 'body_too_large', message: 'The request body is larger than the server accepts.' };
@@ -86,6 +146,9 @@ export function errorHandler(options: { exposeInternals: boolean; log?: (err: un
         message: options.exposeInternals ? String((err as Error)?.stack ?? err) : 'Something went wrong on the server.',
       };
     }
+    body.message = capMessage(body.message);
+    if (Array.isArray(body.fields)) body.fields = (body.fields as FieldIssue[]).map((f) => ({ ...f, message: capMessage(String(f.message)) }));
+    if (status === 503) res.setHeader('retry-after', '2');
     res.status(status).json({ error: body });
   };
 }

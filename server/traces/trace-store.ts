@@ -1,34 +1,77 @@
-import { createHash, randomUUID } from 'node:crypto';
+import { randomUUID } from 'node:crypto';
 import fs from 'node:fs/promises';
 import path from 'node:path';
 
 /**
- * Raw trace files, kept byte for byte as uploaded. Names are generated (the
- * uploader's file name is only recorded), written once with 'wx' and never
- * opened for writing again.
+ * Raw trace files, kept byte for byte as uploaded. An upload is streamed into
+ * the inbox (`incoming/`), then moved into `traces/YYYY/MM/` under a
+ * generated name (the uploader's file name is only recorded) and made
+ * read-only; it is never opened for writing again.
  */
-export function sha256(bytes: Buffer): string {
-  return createHash('sha256').update(bytes).digest('hex');
-}
-
-export async function writeRaw(uploadDir: string, bytes: Buffer, when = new Date()): Promise<string> {
-  const rel = path.posix.join('traces', String(when.getUTCFullYear()), String(when.getUTCMonth() + 1).padStart(2, '0'), `${randomUUID()}.csv`);
-  const abs = path.join(uploadDir, rel);
-  await fs.mkdir(path.dirname(abs), { recursive: true });
-  await fs.writeFile(abs, bytes, { flag: 'wx', mode: 0o440 });
-  return rel;
-}
-
 export function rawAbsolutePath(uploadDir: string, rel: string): string {
   const abs = path.resolve(uploadDir, rel);
   if (!abs.startsWith(path.resolve(uploadDir) + path.sep)) throw new Error(`stored path escapes the upload directory: ${rel}`);
   return abs;
 }
 
-export async function readRaw(uploadDir: string, rel: string): Promise<Buffer> {
-  return fs.readFile(rawAbsolutePath(uploadDir, rel));
-}
-
 export async function removeRaw(uploadDir: string, rel: string) {
   await fs.rm(rawAbsolutePath(uploadDir, rel), { force: true });
+}
+
+/** Where multipart uploads are streamed while they arrive, before they are analysed and stored. */
+export function inboxDir(uploadDir: string): string {
+  return path.join(uploadDir, 'incoming');
+}
+
+/** A new place in the store for a file received today. */
+function newRawPath(when: Date): string {
+  return path.posix.join('traces', String(when.getUTCFullYear()), String(when.getUTCMonth() + 1).padStart(2, '0'), `${randomUUID()}.csv`);
+}
+
+/** Put bytes given in memory (the demo seed) into the inbox, as an upload would arrive. */
+export async function writeInbox(uploadDir: string, bytes: Buffer): Promise<string> {
+  const abs = path.join(inboxDir(uploadDir), `${randomUUID()}.part`);
+  await fs.mkdir(path.dirname(abs), { recursive: true });
+  await fs.writeFile(abs, bytes, { flag: 'wx', mode: 0o600 });
+  return abs;
+}
+
+/** Move a received file from the inbox into the store (same file system: a rename), read-only from then on. */
+export async function adoptRaw(uploadDir: string, inboxPath: string, when = new Date()): Promise<string> {
+  const rel = newRawPath(when);
+  const abs = rawAbsolutePath(uploadDir, rel);
+  await fs.mkdir(path.dirname(abs), { recursive: true });
+  await fs.chmod(inboxPath, 0o440);
+  await fs.rename(inboxPath, abs);
+  return rel;
+}
+
+async function filesUnder(dir: string): Promise<string[]> {
+  try {
+    const entries = await fs.readdir(dir, { recursive: true, withFileTypes: true });
+    return entries.filter((e) => e.isFile()).map((e) => path.join(e.parentPath, e.name));
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code === 'ENOENT') return [];
+    throw err;
+  }
+}
+
+/**
+ * Files in the store that no trace row names, and uploads left in the inbox:
+ * what a crash between writing a file and committing its row leaves behind.
+ * Files younger than `minAgeMs` are left alone (an upload may be arriving).
+ */
+export async function sweepOrphans(uploadDir: string, storedPaths: Iterable<string>, minAgeMs: number, now = Date.now()): Promise<string[]> {
+  const known = new Set<string>();
+  for (const rel of storedPaths) known.add(path.resolve(uploadDir, rel));
+  const candidates = [...(await filesUnder(path.join(uploadDir, 'traces'))), ...(await filesUnder(inboxDir(uploadDir)))];
+  const removed: string[] = [];
+  for (const abs of candidates) {
+    if (known.has(abs)) continue;
+    const stat = await fs.stat(abs).catch(() => null);
+    if (!stat || now - stat.mtimeMs < minAgeMs) continue;
+    await fs.rm(abs, { force: true });
+    removed.push(path.relative(uploadDir, abs));
+  }
+  return removed;
 }

@@ -1,28 +1,55 @@
+import { randomUUID } from 'node:crypto';
+import fs from 'node:fs';
+import fsp from 'node:fs/promises';
 import path from 'node:path';
-import { IdParam } from '../http/params';
+import type { Request, RequestHandler, Response } from 'express';
 import multer from 'multer';
-import type { RequestHandler } from 'express';
-import { ReferenceSchema, TraceListQuerySchema, TraceUploadSchema, TraceViewQuerySchema } from '../../shared/schemas/traces';
+import {
+  IDEMPOTENCY_KEY,
+  ReferenceSchema,
+  TraceListQuerySchema,
+  TraceUploadSchema,
+  TraceViewQuerySchema,
+  type DuplicateFile,
+  type UploadResult,
+} from '../../shared/schemas/traces';
 import { currentUser } from '../auth/guards';
 import type { AppContext } from '../context';
-import { AppError } from '../errors';
+import { AppError, capMessage, isMalformedMultipart, malformedMultipartError, multerAppError } from '../errors';
 import { ApiRouter, handle } from '../http/api-router';
+import { IdParam } from '../http/params';
+import { findNulByte, nulByteError } from '../http/strict-input';
+import { inboxDir } from './trace-store';
 import * as traces from './traces.service';
 
 export const MAX_FILES_PER_UPLOAD = 10;
 const CSV_TYPES = new Set(['text/csv', 'text/plain', 'application/csv', 'application/vnd.ms-excel', 'application/octet-stream', 'text/comma-separated-values', '']);
 
+/** The uploader's file name: multipart sends it as UTF-8 bytes that the form reader hands over as Latin-1. */
+const fileName = (f: Express.Multer.File) => Buffer.from(f.originalname, 'latin1').toString('utf8');
+
+/**
+ * The multipart reader: files are streamed straight to the upload inbox on
+ * disk (never held whole in memory), with limits on size and count; every
+ * way a form can be broken or too big answers 4xx with a message, and what
+ * was already written of it is removed.
+ */
 function uploadMiddleware(ctx: AppContext): RequestHandler {
   const mb = Math.round((ctx.config.maxUploadBytes / 1024 / 1024) * 10) / 10;
+  const inbox = inboxDir(ctx.config.uploadDir);
+  fs.mkdirSync(inbox, { recursive: true, mode: 0o750 });
   const upload = multer({
-    storage: multer.memoryStorage(),
-    limits: { fileSize: ctx.config.maxUploadBytes, files: MAX_FILES_PER_UPLOAD, fields: 20, fieldSize: 2048 },
+    storage: multer.diskStorage({ destination: inbox, filename: (_req, _file, cb) => cb(null, `${randomUUID()}.part`) }),
+    limits: { fileSize: ctx.config.maxUploadBytes, files: MAX_FILES_PER_UPLOAD, fields: 20, fieldSize: 2048, parts: MAX_FILES_PER_UPLOAD + 20, headerPairs: 200 },
     fileFilter: (_req, file, cb) => {
-      const ext = path.extname(file.originalname).toLowerCase();
+      const name = Buffer.from(file.originalname, 'latin1').toString('utf8');
+      if (name.includes('\0')) return cb(nulByteError('file name', 'file'));
+      const ext = path.extname(name).toLowerCase();
       if (ext !== '.csv' || !CSV_TYPES.has(file.mimetype)) {
+        const shown = capMessage(name, 120);
         return cb(
-          new AppError(415, 'wrong_file_type', `"${file.originalname}" is not a CSV file. Export the trace from the instrument as CSV (.csv) and upload that.`, {
-            fields: [{ field: 'file', message: `${file.originalname}: only .csv files are accepted` }],
+          new AppError(415, 'wrong_file_type', `"${shown}" is not a CSV file. Export the trace from the instrument as CSV (.csv) and upload that.`, {
+            fields: [{ field: 'file', message: `${shown}: only .csv files are accepted` }],
           }),
         );
       }
@@ -31,6 +58,7 @@ function uploadMiddleware(ctx: AppContext): RequestHandler {
   }).array('file', MAX_FILES_PER_UPLOAD);
   return (req, res, next) =>
     upload(req, res, (err: unknown) => {
+      if (!err) return next();
       if (err instanceof multer.MulterError && err.code === 'LIMIT_FILE_SIZE') {
         return next(
           new AppError(413, 'file_too_large', `A file is larger than the upload limit of ${mb} MB. Nothing was stored. Shorten the record on the instrument, or ask an administrator to raise the limit.`, {
@@ -39,15 +67,69 @@ function uploadMiddleware(ctx: AppContext): RequestHandler {
           }),
         );
       }
-      if (err instanceof multer.MulterError && err.code === 'LIMIT_FILE_COUNT') {
+      if (err instanceof multer.MulterError && (err.code === 'LIMIT_FILE_COUNT' || (err.code === 'LIMIT_UNEXPECTED_FILE' && err.field === 'file'))) {
         return next(
           new AppError(400, 'too_many_files', `At most ${MAX_FILES_PER_UPLOAD} files can be uploaded at once. Nothing was stored.`, {
             fields: [{ field: 'file', message: `at most ${MAX_FILES_PER_UPLOAD} files` }],
           }),
         );
       }
+      if (err instanceof multer.MulterError) return next(multerAppError(err));
+      if (isMalformedMultipart(err)) return next(malformedMultipartError(err as Error));
       next(err);
     });
+}
+
+/** The optional Idempotency-Key header: the client makes one per file it sends, so a retry of the same upload reuses it. */
+function idempotencyKey(req: Request): string | undefined {
+  const key = req.get('idempotency-key');
+  if (key === undefined) return undefined;
+  if (!IDEMPOTENCY_KEY.test(key)) {
+    throw AppError.badRequest('bad_idempotency_key', 'The Idempotency-Key header must be 8 to 128 letters, digits, dots, dashes, underscores or colons.', {
+      fields: [{ field: 'Idempotency-Key', message: 'must be 8 to 128 of A–Z, a–z, 0–9, . _ : -' }],
+    });
+  }
+  return key;
+}
+
+function duplicateWords(d: DuplicateFile) {
+  return `${capMessage(d.originalName, 120)} was already uploaded for this run and end (trace ${d.traceId}, ${d.uploadedAt.slice(0, 16).replace('T', ' ')} UTC)`;
+}
+
+/** The answer to an upload, the same for its first try and any retry with the same key. */
+async function uploadAnswer(ctx: AppContext, res: Response, outcome: traces.UploadOutcome): Promise<UploadResult> {
+  const { duplicates, replayed } = outcome;
+  if (replayed) res.setHeader('idempotent-replayed', 'true');
+  if (!outcome.traceIds.length) {
+    throw new AppError(
+      409,
+      'duplicate_upload',
+      duplicates.length === 1
+        ? `${duplicateWords(duplicates[0])}; it was not stored again.`
+        : `All ${duplicates.length} files were already uploaded for this run and end; none was stored again. ${duplicates.map(duplicateWords).join('; ')}.`,
+      { duplicates, replayed },
+    );
+  }
+  const stored = await Promise.all(outcome.traceIds.map((id) => traces.getTrace(ctx, id)));
+  const failed = stored.filter((t) => t.status === 'failed');
+  if (failed.length === stored.length) {
+    const first = failed[0];
+    throw new AppError(
+      422,
+      'trace_unreadable',
+      failed.length === 1
+        ? `${first.originalName} could not be read: ${first.error?.message}. The file is kept (trace ${first.id}); no finding was made from it.`
+        : `None of the ${failed.length} files could be read; they are kept, marked failed. ${failed.map((t) => `${t.originalName}: ${t.error?.message}`).join('; ')}`,
+      {
+        fields: failed.map((t) => ({ field: 'file', message: `${t.originalName}: ${t.error?.message}`, ...(t.error?.line ? { line: t.error.line } : {}) })),
+        traces: stored,
+        duplicates,
+        replayed,
+      },
+    );
+  }
+  res.status(201);
+  return { traces: stored, duplicates, replayed };
 }
 
 export function traceRoutes(ctx: AppContext) {
@@ -58,35 +140,26 @@ export function traceRoutes(ctx: AppContext) {
     'traces:upload',
     uploadMiddleware(ctx),
     handle(async (req, res) => {
-      const fields = TraceUploadSchema.parse(req.body ?? {});
       const files = (req.files as Express.Multer.File[] | undefined) ?? [];
-      if (!files.length) {
-        throw AppError.badRequest('no_file', 'Choose at least one CSV trace file to upload.', { fields: [{ field: 'file', message: 'is required' }] });
-      }
-      const ids = await traces.storeTraces(
-        ctx,
-        fields,
-        files.map((f) => ({ originalName: Buffer.from(f.originalname, 'latin1').toString('utf8'), bytes: f.buffer })),
-        currentUser(req).id,
-      );
-      const stored = await Promise.all(ids.map((id) => traces.getTrace(ctx, id)));
-      const failed = stored.filter((t) => t.status === 'failed');
-      if (failed.length === stored.length) {
-        const first = failed[0];
-        throw new AppError(
-          422,
-          'trace_unreadable',
-          failed.length === 1
-            ? `${first.originalName} could not be read: ${first.error?.message}. The file is kept (trace ${first.id}); no finding was made from it.`
-            : `None of the ${failed.length} files could be read; they are kept, marked failed. ${failed.map((t) => `${t.originalName}: ${t.error?.message}`).join('; ')}`,
-          {
-            fields: failed.map((t) => ({ field: 'file', message: `${t.originalName}: ${t.error?.message}`, ...(t.error?.line ? { line: t.error.line } : {}) })),
-            traces: stored,
-          },
+      try {
+        const nul = findNulByte(req.body ?? {});
+        if (nul) throw nulByteError('form', nul);
+        const fields = TraceUploadSchema.parse(req.body ?? {});
+        const key = idempotencyKey(req);
+        if (!files.length) {
+          throw AppError.badRequest('no_file', 'Choose at least one CSV trace file to upload.', { fields: [{ field: 'file', message: 'is required' }] });
+        }
+        const outcome = await traces.receiveUpload(
+          ctx,
+          fields,
+          files.map((f) => ({ originalName: fileName(f), path: f.path })),
+          currentUser(req).id,
+          key,
         );
+        return await uploadAnswer(ctx, res, outcome);
+      } finally {
+        await Promise.all(files.map((f) => fsp.rm(f.path, { force: true })));
       }
-      res.status(201);
-      return { traces: stored };
     }),
   );
   r.get(
@@ -99,10 +172,16 @@ export function traceRoutes(ctx: AppContext) {
     'traces:read',
     handle(async (req, res) => {
       const raw = await traces.rawFile(ctx, IdParam.parse(req.params).id);
-      res.setHeader('content-type', 'text/csv; charset=utf-8');
-      res.setHeader('content-disposition', `attachment; filename="${raw.name.replace(/[^\w.\- ]/g, '_')}"`);
-      res.setHeader('x-content-sha256', raw.sha256);
-      res.send(raw.bytes);
+      const headers = {
+        'content-type': 'text/csv; charset=utf-8',
+        'content-disposition': `attachment; filename="${raw.name.replace(/[^\w.\- ]/g, '_')}"`,
+        'x-content-sha256': raw.sha256,
+      };
+      await new Promise<void>((resolve, reject) =>
+        res.sendFile(raw.path, { headers, dotfiles: 'allow' }, (err) =>
+          !err ? resolve() : (err as NodeJS.ErrnoException).code === 'ENOENT' ? reject(new AppError(410, 'raw_file_missing', `The stored file of this trace is missing from the upload directory.`)) : reject(err),
+        ),
+      );
       return undefined;
     }),
   );

@@ -1,9 +1,11 @@
-import { Op, type Sequelize, type WhereOptions } from 'sequelize';
+import fs from 'node:fs/promises';
+import { Op, UniqueConstraintError, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { matchEvents, resampleOnto } from '../../shared/field/compare';
 import type { TraceAnalysis } from '../../shared/schemas/trace-analysis';
 import type {
   CableEnd,
+  DuplicateFile,
   TraceComparison,
   TraceDetail,
   TraceListQuerySchema,
@@ -12,62 +14,22 @@ import type {
   TraceUploadSchema,
 } from '../../shared/schemas/traces';
 import type { Page } from '../../shared/schemas/users';
-import { analyzeTrace, decimateMinMax, ENGINE_VERSION, parseTraceCsv, TraceInputError, type ParsedTrace } from '../../shared/trace';
+import { decimateMinMax, ENGINE_VERSION, type ParsedTrace } from '../../shared/trace';
 import type { AppContext } from '../context';
-import { CableRun, CableType, Finding, RouteMarker, Site, Trace, User } from '../db/models';
+import { CableRun, CableType, Finding, RouteMarker, Site, Trace, UploadReceipt, User } from '../db/models';
 import { markerView } from '../cable-runs/cable-runs.service';
 import { AppError } from '../errors';
-import { readRaw, removeRaw, sha256, writeRaw } from './trace-store';
+import { parseOptions, type AnalysisCable, type Outcome } from './analysis';
+import { analysisPool } from './analysis-pool';
+import { adoptRaw, rawAbsolutePath, removeRaw, sweepOrphans, writeInbox } from './trace-store';
 
 export type UploadFields = z.output<typeof TraceUploadSchema>;
 
-export interface IncomingFile {
-  originalName: string;
-  bytes: Buffer;
-}
+/** One file of an upload: waiting in the inbox (`path`, as multer wrote it) or in memory (`bytes`, the demo seed). */
+export type IncomingFile = { originalName: string } & ({ path: string } | { bytes: Buffer });
 
-interface Outcome {
-  status: 'ok' | 'failed';
-  analysis: TraceAnalysis | null;
-  error: { code: string; message: string; line: number | null; field: string | null } | null;
-}
-
-function parseOptions(settings: TraceSettings, maxBytes: number) {
-  return { maxBytes, ...(settings.sampleIntervalNs !== undefined ? { sampleIntervalNs: settings.sampleIntervalNs } : {}) };
-}
-
-/** Run the engine; a file it cannot read becomes a failed outcome with the engine's own words. */
-export function analyseBytes(
-  bytes: Buffer,
-  settings: TraceSettings,
-  cable: { vf: number; vfTolerance: number; z0Ohm: number | null },
-  maxBytes: number,
-  log?: AppContext['log'],
-): Outcome {
-  try {
-    const parsed = parseTraceCsv(bytes.toString('utf8'), parseOptions(settings, maxBytes));
-    const analysis = analyzeTrace(parsed, {
-      vf: settings.vfOverride ?? cable.vf,
-      vfTolerance: cable.vfTolerance,
-      ...(cable.z0Ohm ? { z0Ohm: cable.z0Ohm } : {}),
-      mode: settings.mode,
-      ...(settings.zeroOffsetNs !== undefined ? { zeroOffsetNs: settings.zeroOffsetNs } : {}),
-      ...(settings.leadLengthM !== undefined ? { leadLengthM: settings.leadLengthM } : {}),
-      ...(settings.pulseWidthNs !== undefined ? { pulseWidthNs: settings.pulseWidthNs } : {}),
-    });
-    return { status: 'ok', analysis, error: null };
-  } catch (err) {
-    if (err instanceof TraceInputError) {
-      return { status: 'failed', analysis: null, error: { code: err.code, message: err.message, line: err.line ?? null, field: err.field ?? null } };
-    }
-    log?.('the trace engine failed on an upload', err);
-    return {
-      status: 'failed',
-      analysis: null,
-      error: { code: 'ENGINE_ERROR', message: `The trace engine could not analyse this file (${(err as Error).message}).`, line: null, field: null },
-    };
-  }
-}
+/** Same bytes on the same run and end within this long of the first upload: a duplicate, not stored again. */
+export const DUPLICATE_WINDOW_MS = 24 * 60 * 60 * 1000;
 
 /** The columns that record one analysis: its outcome and the cable values and engine it was made with. */
 function analysisColumns(outcome: Outcome, cable: CableType, settings: TraceSettings) {
@@ -87,6 +49,11 @@ function analysisColumns(outcome: Outcome, cable: CableType, settings: TraceSett
   };
 }
 
+/** The cable type's values as the analysis worker takes them (plain data). */
+function analysisCable(cable: CableType): AnalysisCable {
+  return cable.get({ plain: true }) as AnalysisCable;
+}
+
 function settingsFrom(fields: UploadFields): TraceSettings {
   const s: TraceSettings = { mode: fields.mode };
   if (fields.pulseWidthNs !== undefined) s.pulseWidthNs = fields.pulseWidthNs;
@@ -97,12 +64,15 @@ function settingsFrom(fields: UploadFields): TraceSettings {
   return s;
 }
 
-/**
- * Store each file unchanged, analyse it with the run's cable values and save
- * the result, all in one transaction: either every file of the upload is
- * recorded (readable or marked failed) or none is, and no stray file is left.
- */
-export async function storeTraces(ctx: AppContext, fields: UploadFields, files: IncomingFile[], uploadedById: number): Promise<number[]> {
+export interface UploadOutcome {
+  /** The traces this upload stored, in file order. */
+  traceIds: number[];
+  duplicates: DuplicateFile[];
+  /** Answered from an earlier upload with the same idempotency key. */
+  replayed: boolean;
+}
+
+async function runAndCable(fields: Pick<UploadFields, 'cableRunId'>) {
   const run = await CableRun.findByPk(fields.cableRunId);
   if (!run) {
     throw new AppError(422, 'no_such_cable_run', `There is no cable run ${fields.cableRunId}.`, {
@@ -111,37 +81,159 @@ export async function storeTraces(ctx: AppContext, fields: UploadFields, files: 
   }
   const cable = await CableType.findByPk(run.cableTypeId);
   if (!cable) throw new AppError(422, 'no_cable_type', `Cable run ${run.name} has no cable type in the library.`);
-  const settings = settingsFrom(fields);
-  const written: string[] = [];
+  return { run, cable };
+}
+
+async function earlierReceipt(userId: number, key: string, fields: UploadFields): Promise<UploadOutcome | null> {
+  const receipt = await UploadReceipt.findOne({ where: { userId, idempotencyKey: key } });
+  if (!receipt) return null;
+  if (receipt.cableRunId !== fields.cableRunId || receipt.end !== fields.end) {
+    throw new AppError(422, 'idempotency_key_reused', 'This Idempotency-Key was already used for an upload to another cable run or end. Send a new key for a new upload.', {
+      fields: [{ field: 'Idempotency-Key', message: 'already used for a different upload' }],
+    });
+  }
+  return { traceIds: receipt.traceIds, duplicates: receipt.duplicates, replayed: true };
+}
+
+/** The first trace holding these bytes on this run and end, uploaded within the duplicate window. */
+async function earlierCopy(sha256: string, cableRunId: number, end: CableEnd, transaction?: Transaction) {
+  return Trace.findOne({
+    where: { sha256, cableRunId, end, reanalysisOfId: null, createdAt: { [Op.gte]: new Date(Date.now() - DUPLICATE_WINDOW_MS) } },
+    order: [['id', 'ASC']],
+    attributes: ['id', 'createdAt'],
+    transaction,
+  });
+}
+
+const duplicateOf = (originalName: string, t: Pick<Trace, 'id' | 'createdAt'>): DuplicateFile => ({
+  originalName,
+  traceId: t.id,
+  uploadedAt: t.createdAt.toISOString(),
+});
+
+/**
+ * Receive the files of one upload. Each is analysed once, in the worker pool,
+ * off the request thread and outside any transaction; files already uploaded
+ * (same SHA-256, same run and end, within a day) are reported, not stored
+ * again; the rest are moved into the store and their rows written in one
+ * short transaction with the upload's receipt. Either every new file of the
+ * upload is recorded (readable or marked failed) or none is, and no stray
+ * file is left: the inbox copies go whatever happens, and a file moved into
+ * the store is removed again if its row is not written.
+ *
+ * With an idempotency key, a second upload under the same key (a retry whose
+ * answer was lost) is answered with the first one's outcome.
+ */
+export async function receiveUpload(
+  ctx: AppContext,
+  fields: UploadFields,
+  files: IncomingFile[],
+  uploadedById: number,
+  idempotencyKey?: string,
+): Promise<UploadOutcome> {
+  const inbox: string[] = [];
+  const adopted: string[] = [];
+  let committed = false;
   try {
-    return await ctx.sequelize.transaction(async (transaction) => {
-      const ids: number[] = [];
-      for (const file of files) {
-        const rawPath = await writeRaw(ctx.config.uploadDir, file.bytes);
-        written.push(rawPath);
-        const outcome = analyseBytes(file.bytes, settings, cable, ctx.config.maxUploadBytes, ctx.log);
+    for (const f of files) inbox.push('path' in f ? f.path : await writeInbox(ctx.config.uploadDir, f.bytes));
+    if (idempotencyKey) {
+      const earlier = await earlierReceipt(uploadedById, idempotencyKey, fields);
+      if (earlier) return earlier;
+    }
+    const { run, cable } = await runAndCable(fields);
+    const settings = settingsFrom(fields);
+    const pool = analysisPool(ctx);
+    const results = await Promise.all(
+      inbox.map((p) => pool.analyse({ path: p, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes })),
+    );
+
+    // Each file is new (moved into the store), a copy of a trace stored earlier, or a repeat of a file earlier in this upload.
+    const plan: Array<{ kind: 'new'; rawPath: string } | { kind: 'copy'; of: DuplicateFile } | { kind: 'repeat'; of: number }> = [];
+    for (const [index, r] of results.entries()) {
+      const first = results.findIndex((o) => o.sha256 === r.sha256);
+      const earlier = first < index ? null : await earlierCopy(r.sha256, run.id, fields.end);
+      if (first < index) plan.push({ kind: 'repeat', of: first });
+      else if (earlier) plan.push({ kind: 'copy', of: duplicateOf(files[index].originalName, earlier) });
+      else {
+        const rawPath = await adoptRaw(ctx.config.uploadDir, inbox[index]);
+        adopted.push(rawPath);
+        plan.push({ kind: 'new', rawPath });
+      }
+    }
+
+    const outcome = await ctx.sequelize.transaction(async (transaction) => {
+      if (ctx.sequelize.getDialect() === 'postgres') {
+        // One upload at a time per run, so two uploads of the same bytes cannot both pass the duplicate check.
+        await ctx.sequelize.query('SELECT pg_advisory_xact_lock(:key)', { replacements: { key: run.id }, transaction });
+      }
+      const traceIds: number[] = [];
+      const duplicates: DuplicateFile[] = [];
+      const recordedAs = new Map<number, Pick<Trace, 'id' | 'createdAt'>>();
+      for (const [index, step] of plan.entries()) {
+        const r = results[index];
+        const name = files[index].originalName;
+        if (step.kind === 'repeat') {
+          duplicates.push(duplicateOf(name, recordedAs.get(step.of)!));
+          continue;
+        }
+        // Checked again inside the transaction: another upload of the same bytes may have committed since.
+        const earlier = step.kind === 'copy' ? null : await earlierCopy(r.sha256, run.id, fields.end, transaction);
+        if (step.kind === 'copy' || earlier) {
+          const of = step.kind === 'copy' ? step.of : duplicateOf(name, earlier!);
+          recordedAs.set(index, { id: of.traceId, createdAt: new Date(of.uploadedAt) });
+          duplicates.push(of);
+          continue;
+        }
         const trace = await Trace.create(
           {
             cableRunId: run.id,
             end: fields.end,
             uploadedById,
-            originalName: file.originalName.slice(0, 255),
-            rawPath,
-            sha256: sha256(file.bytes),
-            sizeBytes: file.bytes.length,
-            ...analysisColumns(outcome, cable, settings),
+            originalName: name.slice(0, 255),
+            rawPath: step.rawPath,
+            sha256: r.sha256,
+            sizeBytes: r.sizeBytes,
+            ...analysisColumns(r.outcome, cable, settings),
             vfOverrideReason: fields.vfOverrideReason ?? null,
           },
           { transaction },
         );
-        ids.push(trace.id);
+        recordedAs.set(index, trace);
+        traceIds.push(trace.id);
       }
-      return ids;
+      if (idempotencyKey) {
+        await UploadReceipt.create({ userId: uploadedById, idempotencyKey, cableRunId: run.id, end: fields.end, traceIds, duplicates }, { transaction });
+      }
+      return { traceIds, duplicates, replayed: false };
     });
+    committed = true;
+
+    // A file that turned out to be a copy inside the transaction is not kept; the others' samples are, to draw them.
+    const kept = new Set((await Trace.findAll({ where: { id: outcome.traceIds }, attributes: ['rawPath'] })).map((t) => t.rawPath));
+    for (const [index, step] of plan.entries()) {
+      if (step.kind !== 'new') continue;
+      if (!kept.has(step.rawPath)) await removeRaw(ctx.config.uploadDir, step.rawPath).catch(() => undefined);
+      else if (results[index].parsed) rememberParsed(ctx, step.rawPath, settings, results[index].parsed!);
+    }
+    return outcome;
   } catch (err) {
-    for (const rel of written) await removeRaw(ctx.config.uploadDir, rel).catch(() => undefined);
+    if (!committed) for (const rel of adopted) await removeRaw(ctx.config.uploadDir, rel).catch(() => undefined);
+    if (idempotencyKey && err instanceof UniqueConstraintError) {
+      // The same key committed first from another request: answer with its outcome.
+      const earlier = await earlierReceipt(uploadedById, idempotencyKey, fields);
+      if (earlier) return earlier;
+    }
     throw err;
+  } finally {
+    await Promise.all(inbox.map((p) => fs.rm(p, { force: true })));
   }
+}
+
+/** For the demo seed: store files and return, per file, the trace it is recorded as (new or the earlier copy). */
+export async function storeTraces(ctx: AppContext, fields: UploadFields, files: IncomingFile[], uploadedById: number): Promise<number[]> {
+  const result = await receiveUpload(ctx, fields, files, uploadedById);
+  const stored = await Trace.findAll({ where: { id: result.traceIds }, order: [['id', 'ASC']] });
+  return files.map((f) => stored.find((t) => t.originalName === f.originalName.slice(0, 255))?.id ?? result.duplicates.find((d) => d.originalName === f.originalName)!.traceId);
 }
 
 /**
@@ -157,12 +249,17 @@ export async function reanalyseTrace(ctx: AppContext, id: number, userId: number
   const run = await CableRun.findByPk(earlier.cableRunId);
   const cable = run ? await CableType.findByPk(run.cableTypeId) : null;
   if (!run || !cable) throw new AppError(422, 'no_cable_type', `The cable run of trace ${id} has no cable type in the library.`);
-  const bytes = await readRaw(ctx.config.uploadDir, earlier.rawPath);
-  if (sha256(bytes) !== earlier.sha256) {
+  const { vfOverride: _dropped, ...settings } = earlier.settings;
+  const result = await analysisPool(ctx).analyse({
+    path: rawAbsolutePath(ctx.config.uploadDir, earlier.rawPath),
+    settings,
+    cable: analysisCable(cable),
+    maxBytes: ctx.config.maxUploadBytes,
+  });
+  if (result.sha256 !== earlier.sha256) {
     throw new AppError(409, 'raw_file_changed', `The stored file of trace ${id} no longer matches its SHA-256; it will not be analysed again.`);
   }
-  const { vfOverride: _dropped, ...settings } = earlier.settings;
-  const outcome = analyseBytes(bytes, settings, cable, ctx.config.maxUploadBytes, ctx.log);
+  if (result.parsed) rememberParsed(ctx, earlier.rawPath, settings, result.parsed);
   const trace = await Trace.create({
     cableRunId: earlier.cableRunId,
     end: earlier.end,
@@ -171,11 +268,22 @@ export async function reanalyseTrace(ctx: AppContext, id: number, userId: number
     rawPath: earlier.rawPath,
     sha256: earlier.sha256,
     sizeBytes: earlier.sizeBytes,
-    ...analysisColumns(outcome, cable, settings),
+    ...analysisColumns(result.outcome, cable, settings),
     vfOverrideReason: null,
     reanalysisOfId: earlier.id,
   });
   return trace.id;
+}
+
+/**
+ * At start: remove stored files no trace row names, and uploads left in the
+ * inbox (what a crash between writing a file and committing its row leaves).
+ */
+export async function sweepUploads(ctx: AppContext): Promise<number> {
+  const rows = await Trace.findAll({ attributes: ['rawPath'], raw: true });
+  const removed = await sweepOrphans(ctx.config.uploadDir, rows.map((r) => r.rawPath), ctx.config.uploadSweepMinAgeMs);
+  ctx.log(`Upload clean-up: removed ${removed.length} file${removed.length === 1 ? '' : 's'} no trace refers to.`);
+  return removed.length;
 }
 
 function endLabel(run: CableRun, end: CableEnd) {
@@ -240,18 +348,46 @@ export async function listTraces(q: z.output<typeof TraceListQuerySchema>): Prom
   return { items: await summaries(rows), total: count, page: q.page, pageSize: q.pageSize };
 }
 
-/** A few recently drawn traces kept parsed, so moving between them does not re-read large files. */
+/**
+ * Recently drawn or uploaded traces kept parsed (up to a few million samples
+ * in all), so drawing a trace just uploaded, or moving between traces, does
+ * not read the file again. Keyed by stored file and the settings it is read with.
+ */
 const parsedCache = new Map<string, ParsedTrace>();
+const PARSED_CACHE_SAMPLES = 4_000_000;
+
+function parsedKey(ctx: AppContext, rawPath: string, settings: TraceSettings) {
+  return `${ctx.config.uploadDir}:${rawPath}:${JSON.stringify(parseOptions(settings, ctx.config.maxUploadBytes))}`;
+}
+
+function rememberParsed(ctx: AppContext, rawPath: string, settings: TraceSettings, parsed: ParsedTrace) {
+  const key = parsedKey(ctx, rawPath, settings);
+  parsedCache.delete(key);
+  parsedCache.set(key, parsed);
+  let total = 0;
+  for (const p of parsedCache.values()) total += p.amplitude.length;
+  for (const [k, p] of parsedCache) {
+    if (total <= PARSED_CACHE_SAMPLES || parsedCache.size <= 1) break;
+    parsedCache.delete(k);
+    total -= p.amplitude.length;
+  }
+}
+
+/** A stored trace's samples: from the cache, or read again in the analysis pool (never on the request thread). */
 async function parsedSamples(ctx: AppContext, trace: Trace): Promise<ParsedTrace | null> {
   if (trace.status !== 'ok') return null;
-  const key = `${ctx.config.uploadDir}:${trace.id}:${trace.sha256}`;
-  const hit = parsedCache.get(key);
+  const hit = parsedCache.get(parsedKey(ctx, trace.rawPath, trace.settings));
   if (hit) return hit;
-  const bytes = await readRaw(ctx.config.uploadDir, trace.rawPath);
-  const parsed = parseTraceCsv(bytes.toString('utf8'), parseOptions(trace.settings, ctx.config.maxUploadBytes));
-  parsedCache.set(key, parsed);
-  if (parsedCache.size > 8) parsedCache.delete(parsedCache.keys().next().value!);
+  const parsed = await analysisPool(ctx).read({ path: rawAbsolutePath(ctx.config.uploadDir, trace.rawPath), settings: trace.settings, maxBytes: ctx.config.maxUploadBytes });
+  if (parsed) rememberParsed(ctx, trace.rawPath, trace.settings, parsed);
   return parsed;
+}
+
+/** values·scale + offset, as a new array (a plain loop: this runs on every view of large traces). */
+function scaled(values: Float64Array, scale: number, offset = 0): Float64Array {
+  const out = new Float64Array(values.length);
+  for (let i = 0; i < values.length; i++) out[i] = values[i] * scale + offset;
+  return out;
 }
 
 /** The time (ns, on the file's axis) that distance zero sits at. */
@@ -281,10 +417,11 @@ async function comparison(ctx: AppContext, trace: Trace, parsed: ParsedTrace, po
   if (!refParsed) return null;
   const z = zeroTimeNs(trace.analysis, trace.settings);
   const zr = zeroTimeNs(ref.analysis, ref.settings);
-  const xs = Float64Array.from(parsed.timeS, (s) => s * 1e9);
-  const refXs = Float64Array.from(refParsed.timeS, (s) => s * 1e9 - zr + z);
+  const xs = scaled(parsed.timeS, 1e9);
+  const refXs = scaled(refParsed.timeS, 1e9, z - zr);
   const refOnto = resampleOnto(refXs, refParsed.amplitude, xs);
-  const diff = Float64Array.from(parsed.amplitude, (y, i) => y - refOnto[i]);
+  const diff = new Float64Array(parsed.amplitude.length);
+  for (let i = 0; i < diff.length; i++) diff[i] = parsed.amplitude[i] - refOnto[i];
   const match = matchEvents(trace.analysis.events, ref.analysis.events);
   return {
     referenceTraceId: ref.id,
@@ -326,7 +463,7 @@ export async function getTrace(ctx: AppContext, id: number, opts: { points: numb
     error: trace.status === 'failed' ? { code: trace.errorCode ?? 'UNKNOWN', message: trace.errorMessage ?? '', line: trace.errorLine, field: trace.errorField } : null,
     analysis: trace.analysis,
     zeroNs: trace.analysis ? zeroTimeNs(trace.analysis, trace.settings) : 0,
-    samples: parsed ? toPoints(Float64Array.from(parsed.timeS, (s) => s * 1e9), parsed.amplitude, opts.points) : [],
+    samples: parsed ? toPoints(scaled(parsed.timeS, 1e9), parsed.amplitude, opts.points) : [],
     sampleCount: parsed?.amplitude.length ?? 0,
     cableRun: {
       id: run.id,
@@ -345,7 +482,7 @@ export async function getTrace(ctx: AppContext, id: number, opts: { points: numb
 export async function rawFile(ctx: AppContext, id: number) {
   const trace = await Trace.findByPk(id);
   if (!trace) throw AppError.notFound(`Trace ${id}`);
-  return { bytes: await readRaw(ctx.config.uploadDir, trace.rawPath), name: trace.originalName, sha256: trace.sha256 };
+  return { path: rawAbsolutePath(ctx.config.uploadDir, trace.rawPath), name: trace.originalName, sha256: trace.sha256 };
 }
 
 /** At most one reference per run and end; setting one clears the previous. */

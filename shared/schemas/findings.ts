@@ -1,5 +1,7 @@
 import { z } from 'zod';
+import { jsonId, textId, textInt } from './input';
 import type { RoutePosition } from '../field/route-position';
+import type { BestLocationView } from './measurements';
 import type { CableEnd } from './traces';
 
 export const FINDING_STATUSES = ['confirmed', 'dismissed'] as const;
@@ -29,8 +31,8 @@ export const FINDING_KIND_LABELS: Record<(typeof FINDING_KINDS)[number], string>
 };
 
 export const FindingInputSchema = z.object({
-  traceId: z.coerce.number({ error: 'must be a trace id' }).int().positive('must be a trace id'),
-  eventIndex: z.coerce.number({ error: 'must be an event number' }).int().min(0, 'must be an event number'),
+  traceId: jsonId('must be a trace id'),
+  eventIndex: z.number({ error: 'must be an event number' }).int('must be an event number').min(0, 'must be an event number').max(100_000, 'must be an event number'),
   status: z.enum(FINDING_STATUSES, { error: 'must be confirmed or dismissed' }),
   kind: z.enum(FINDING_KINDS, { error: `must be one of ${FINDING_KINDS.join(', ')}` }),
   note: z
@@ -45,22 +47,22 @@ export type FindingInput = z.input<typeof FindingInputSchema>;
 export const FINDING_SORTS = ['confirmedAt', 'distanceM', 'status'] as const;
 
 export const FindingListQuerySchema = z.object({
-  siteId: z.coerce.number().int().positive().optional(),
-  cableRunId: z.coerce.number().int().positive().optional(),
-  traceId: z.coerce.number().int().positive().optional(),
+  siteId: textId().optional(),
+  cableRunId: textId().optional(),
+  traceId: textId().optional(),
   status: z.enum(FINDING_STATUSES).optional(),
   sort: z.enum(FINDING_SORTS).default('confirmedAt'),
   dir: z.enum(['asc', 'desc']).default('desc'),
-  page: z.coerce.number().int().min(1).default(1),
-  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+  page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
+  pageSize: textInt({ min: 1, max: 100, what: 'a page size' }).default(25),
 });
 export type FindingListQuery = Partial<z.output<typeof FindingListQuerySchema>>;
 
 export const TwoEndedQuerySchema = z.object({
-  traceA: z.coerce.number().int().positive(),
-  eventA: z.coerce.number().int().min(0),
-  traceB: z.coerce.number().int().positive(),
-  eventB: z.coerce.number().int().min(0),
+  traceA: textId('a trace id'),
+  eventA: textInt({ min: 0, max: 100_000, what: 'an event number' }),
+  traceB: textId('a trace id'),
+  eventB: textInt({ min: 0, max: 100_000, what: 'an event number' }),
 });
 
 export interface FindingView {
@@ -91,6 +93,8 @@ export interface FindingView {
   vf: number;
   vfTolerance: number;
   engineVersion: string;
+  /** The best location from every reading of this fault; only GET /api/findings/:id fills it in. */
+  bestLocation?: BestLocationView | null;
 }
 
 export interface TwoEndedView {

@@ -1,15 +1,16 @@
 import { z } from 'zod';
+import { textInt } from './input';
 
 export const OutboxQuerySchema = z.object({
   to: z.string().trim().max(254).optional(),
-  page: z.coerce.number({ error: 'must be a whole number' }).int().min(1, 'must be 1 or more').default(1),
-  pageSize: z.coerce.number({ error: 'must be a whole number' }).int().min(1).max(100, 'must be at most 100').default(25),
+  page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
+  pageSize: textInt({ min: 1, max: 100, what: 'a page size' }).default(25),
 });
 
 export const MailQueueQuerySchema = z.object({
   status: z.enum(['queued', 'sent', 'failed'], { error: 'must be queued, sent or failed' }).optional(),
-  page: z.coerce.number({ error: 'must be a whole number' }).int().min(1, 'must be 1 or more').default(1),
-  pageSize: z.coerce.number({ error: 'must be a whole number' }).int().min(1).max(100, 'must be at most 100').default(25),
+  page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
+  pageSize: textInt({ min: 1, max: 100, what: 'a page size' }).default(25),
 });
 
 export interface OutboxHeader {

@@ -1,13 +1,12 @@
 import { z } from 'zod';
+import { jsonId, lengthM, MAX_LENGTH_M, textId, textInt } from './input';
 
 const text = (max: number) => z.string().trim().max(max, `must be at most ${max} characters`);
 const optionalText = (max: number) =>
   text(max)
     .nullish()
     .transform((v) => (v ? v : null));
-const id = z.coerce.number({ error: 'must be a number' }).int('must be a whole number').positive('must be a positive id');
-const metres = (what: string) =>
-  z.coerce.number({ error: `${what} must be a number` }).refine(Number.isFinite, `${what} must be a finite number`);
+const id = jsonId();
 
 export const MARKER_KINDS = ['pole', 'manhole', 'handhole', 'splice', 'pedestal', 'road-crossing', 'cabinet', 'other'] as const;
 export type MarkerKind = (typeof MARKER_KINDS)[number];
@@ -25,29 +24,34 @@ export const MARKER_KIND_LABELS: Record<MarkerKind, string> = {
 export const SiteInputSchema = z.object({
   name: text(120).min(1, 'is required'),
   address: optionalText(300),
-  latitude: z.coerce.number().min(-90, 'must be between -90 and 90').max(90, 'must be between -90 and 90').nullish().transform((v) => v ?? null),
-  longitude: z.coerce
-    .number()
+  latitude: z
+    .number({ error: 'must be a number of degrees, or null' })
+    .min(-90, 'must be between -90 and 90')
+    .max(90, 'must be between -90 and 90')
+    .nullish()
+    .transform((v) => v ?? null),
+  longitude: z
+    .number({ error: 'must be a number of degrees, or null' })
     .min(-180, 'must be between -180 and 180')
     .max(180, 'must be between -180 and 180')
     .nullish()
     .transform((v) => v ?? null),
   accessNotes: optionalText(4000),
-  supervisorIds: z.array(id).max(20).default([]),
+  supervisorIds: z.array(id, { error: 'must be a list of user ids' }).max(20, 'at most 20 supervisors').default([]),
 });
 export type SiteInput = z.input<typeof SiteInputSchema>;
 
 export const SiteListQuerySchema = z.object({
   q: z.string().trim().max(100).optional(),
-  page: z.coerce.number().int().min(1).default(1),
-  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+  page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
+  pageSize: textInt({ min: 1, max: 100, what: 'a page size' }).default(25),
 });
 
 export const RouteMarkerInputSchema = z.object({
   label: text(60).min(1, 'is required'),
   kind: z.enum(MARKER_KINDS, { error: `must be one of ${MARKER_KINDS.join(', ')}` }),
-  chainageM: metres('chainage').refine((v) => v >= 0, 'chainage must be zero or more'),
-  slackM: metres('slack').refine((v) => v >= 0, 'slack must be zero or more').default(0),
+  chainageM: lengthM('chainage'),
+  slackM: lengthM('slack', { max: 10_000 }).default(0),
   notes: optionalText(1000),
 });
 export type RouteMarkerInput = z.input<typeof RouteMarkerInputSchema>;
@@ -58,7 +62,7 @@ export const CableRunInputSchema = z.object({
   cableTypeId: id,
   endALabel: text(120).min(1, 'is required'),
   endBLabel: text(120).min(1, 'is required'),
-  installedLengthM: metres('installed length').refine((v) => v > 0, 'installed length must be more than zero'),
+  installedLengthM: lengthM('installed length', { positive: true, max: MAX_LENGTH_M }),
   notes: optionalText(4000),
 });
 export type CableRunInput = z.input<typeof CableRunInputSchema>;
@@ -70,10 +74,10 @@ export const MarkersInputSchema = z.object({
 });
 
 export const CableRunListQuerySchema = z.object({
-  siteId: id.optional(),
+  siteId: textId().optional(),
   q: z.string().trim().max(100).optional(),
-  page: z.coerce.number().int().min(1).default(1),
-  pageSize: z.coerce.number().int().min(1).max(200).default(50),
+  page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
+  pageSize: textInt({ min: 1, max: 200, what: 'a page size' }).default(50),
 });
 
 export interface SupervisorSummary {

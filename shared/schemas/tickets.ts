@@ -1,10 +1,11 @@
 import { z } from 'zod';
+import { jsonId, lengthM, textId, textInt } from './input';
 import type { RoutePosition } from '../field/route-position';
 import { FINDING_KINDS } from './findings';
 import type { MailJobView } from './outbox';
 import { TICKET_PRIORITIES, TICKET_STATUSES, type TicketPriority, type TicketStatus } from '../tickets/status';
 
-const id = (what: string) => z.coerce.number({ error: `must be ${what}` }).int(`must be ${what}`).positive(`must be ${what}`);
+const id = (what: string) => jsonId(`must be ${what}`);
 const text = (max: number) =>
   z
     .string({ error: 'must be text' })
@@ -62,12 +63,12 @@ export const FoundPositionSchema = z.discriminatedUnion(
     z.object({
       method: z.literal('distance'),
       fromEnd: z.enum(['A', 'B'], { error: 'must be A or B' }),
-      distanceM: z.number({ error: 'must be a number of metres' }).min(0, 'must be 0 or more'),
+      distanceM: lengthM('the distance'),
     }),
     z.object({
       method: z.literal('marker'),
       markerId: id('a route marker id'),
-      offsetM: z.number({ error: 'must be a number of metres' }).min(0, 'must be 0 or more (metres past the marker toward end B)'),
+      offsetM: lengthM('the offset (metres past the marker toward end B)'),
     }),
   ],
   { error: 'must say how the position was found: method "distance" (fromEnd, distanceM) or "marker" (markerId, offsetM)' },
@@ -88,9 +89,9 @@ export type CloseoutInput = z.input<typeof CloseoutSchema>;
 export const TicketListQuerySchema = z.object({
   status: z.enum([...TICKET_STATUSES, 'open', 'all'], { error: `must be open, all or one of ${TICKET_STATUSES.join(', ')}` }).default('open'),
   assignee: z.enum(['me', 'any'], { error: 'must be me or any' }).default('any'),
-  siteId: id('a site id').optional(),
-  page: z.coerce.number({ error: 'must be a whole number' }).int().min(1, 'must be 1 or more').default(1),
-  pageSize: z.coerce.number({ error: 'must be a whole number' }).int().min(1).max(100, 'must be at most 100').default(25),
+  siteId: textId('a site id').optional(),
+  page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
+  pageSize: textInt({ min: 1, max: 100, what: 'a page size' }).default(25),
 });
 export type TicketListQuery = z.input<typeof TicketListQuerySchema>;
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { formNumber, textId, textInt } from './input';
 import type { TraceAnalysis } from './trace-analysis';
 import type { RouteMarkerView } from './sites';
 
@@ -7,26 +8,22 @@ export type CableEnd = (typeof CABLE_ENDS)[number];
 export const TRACE_STATUSES = ['ok', 'failed'] as const;
 export type TraceStatus = (typeof TRACE_STATUSES)[number];
 
-/** Multipart form fields arrive as strings; an empty field means "not given". */
+/**
+ * Multipart form fields arrive as text; an empty field means "not given".
+ * `formNumber` reads plain decimals only ("0x10", "1e999" are refused).
+ */
 const optionalNumber = (what: string, check: (v: number) => boolean, rule: string) =>
-  z.preprocess(
-    (v) => (v === '' || v === null || v === undefined ? undefined : v),
-    z.coerce
-      .number({ error: `${what} must be a number` })
-      .refine(Number.isFinite, `${what} must be a finite number`)
-      .refine(check, `${what} ${rule}`)
-      .optional(),
-  );
+  formNumber({ what: `${what} as a number` }).refine((v) => v === undefined || check(v), `${what} ${rule}`);
 
 export const TraceUploadSchema = z
   .object({
-    cableRunId: z.coerce.number({ error: 'choose a cable run' }).int().positive('choose a cable run'),
+    cableRunId: textId('the id of a cable run (choose a cable run)'),
     end: z.enum(CABLE_ENDS, { error: 'must be A or B (the end the instrument was connected to)' }),
     mode: z.preprocess((v) => (v === '' ? undefined : v), z.enum(['auto', 'step', 'pulse']).default('auto')),
     pulseWidthNs: optionalNumber('pulse width', (v) => v > 0 && v < 1e6, 'must be more than 0 ns'),
     zeroOffsetNs: optionalNumber('zero offset', (v) => Math.abs(v) < 1e6, 'must be under 1 ms'),
     leadLengthM: optionalNumber('test-lead length', (v) => v >= 0 && v < 1000, 'must be between 0 and 1000 m'),
-    sampleIntervalNs: optionalNumber('sample interval', (v) => v > 0, 'must be more than 0 ns'),
+    sampleIntervalNs: optionalNumber('sample interval', (v) => v > 0 && v < 1e9, 'must be more than 0 ns and under 1 s'),
     vfOverride: optionalNumber('velocity factor', (v) => v > 0 && v <= 1, 'must be more than 0 and at most 1'),
     vfOverrideReason: z
       .string()
@@ -55,23 +52,23 @@ export interface TraceSettings {
 export const TRACE_SORTS = ['createdAt', 'originalName', 'status', 'end'] as const;
 
 export const TraceListQuerySchema = z.object({
-  siteId: z.coerce.number().int().positive().optional(),
-  cableRunId: z.coerce.number().int().positive().optional(),
+  siteId: textId().optional(),
+  cableRunId: textId().optional(),
   end: z.enum(CABLE_ENDS).optional(),
   status: z.enum(TRACE_STATUSES).optional(),
-  uploadedById: z.coerce.number().int().positive().optional(),
+  uploadedById: textId().optional(),
   from: z.iso.date({ error: 'must be a date, YYYY-MM-DD' }).optional(),
   to: z.iso.date({ error: 'must be a date, YYYY-MM-DD' }).optional(),
   sort: z.enum(TRACE_SORTS).default('createdAt'),
   dir: z.enum(['asc', 'desc']).default('desc'),
-  page: z.coerce.number().int().min(1).default(1),
-  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+  page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
+  pageSize: textInt({ min: 1, max: 100, what: 'a page size' }).default(25),
 });
 export type TraceListQuery = Partial<z.output<typeof TraceListQuerySchema>>;
 
 export const TraceViewQuerySchema = z.object({
-  points: z.coerce.number().int().min(100).max(20000).default(2000),
-  compareTo: z.coerce.number().int().positive().optional(),
+  points: textInt({ min: 100, max: 20000, what: 'a number of points' }).default(2000),
+  compareTo: textId('the id of a trace').optional(),
 });
 
 export const ReferenceSchema = z.object({ isReference: z.boolean({ error: 'must be true or false' }) });
@@ -157,6 +154,22 @@ export interface TraceDetail extends TraceSummary {
   comparison: TraceComparison | null;
 }
 
-export interface UploadResult {
-  traces: TraceDetail[];
+/** A file of an upload that was not stored because the same bytes were already uploaded for that run and end within a day. */
+export interface DuplicateFile {
+  originalName: string;
+  /** The trace already holding these bytes. */
+  traceId: number;
+  uploadedAt: string;
 }
+
+export interface UploadResult {
+  /** The traces stored by this upload, in file order (readable or marked failed). */
+  traces: TraceDetail[];
+  /** Files not stored again because they were already uploaded. */
+  duplicates: DuplicateFile[];
+  /** True when this answers a retry: the same Idempotency-Key was seen before and nothing new was stored. */
+  replayed: boolean;
+}
+
+/** The Idempotency-Key header of an upload: 8 to 128 letters, digits, dots, dashes, underscores or colons. */
+export const IDEMPOTENCY_KEY = /^[A-Za-z0-9._:-]{8,128}$/;

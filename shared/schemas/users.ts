@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { textInt } from './input';
 import { ROLES } from '../auth/permissions';
 
 export const emailSchema = z
@@ -18,7 +19,7 @@ export const passwordSchema = z
   .max(200, 'must be at most 200 characters');
 
 export const ChangePasswordSchema = z.object({
-  currentPassword: z.string({ error: 'is required' }).min(1, 'is required'),
+  currentPassword: z.string({ error: 'is required' }).min(1, 'is required').max(200, 'must be at most 200 characters'),
   newPassword: passwordSchema,
 });
 
@@ -45,8 +46,8 @@ export const PreferencesSchema = z.object({
 
 export const ListQuerySchema = z.object({
   q: z.string().trim().max(100).optional(),
-  page: z.coerce.number().int().min(1).default(1),
-  pageSize: z.coerce.number().int().min(1).max(100).default(25),
+  page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
+  pageSize: textInt({ min: 1, max: 100, what: 'a page size' }).default(25),
 });
 
 export interface PublicUser {

@@ -13,6 +13,7 @@ import { initSite, Site } from './site';
 import { initSiteSupervisor } from './site-supervisor';
 import { associateTicketModels, initTicket, initTicketCloseout, initTicketEvent, initTicketFinding } from './ticket';
 import { initTrace } from './trace';
+import { initUploadReceipt } from './upload-receipt';
 import { initUser, User } from './user';
 
 /**
@@ -29,6 +30,7 @@ export function initModels(sequelize: Sequelize) {
   initCableRun(sequelize);
   initRouteMarker(sequelize);
   initTrace(sequelize);
+  initUploadReceipt(sequelize);
   initFinding(sequelize);
   associateFieldModels();
   initMailJob(sequelize);
@@ -54,5 +56,6 @@ export { SiteSupervisor } from './site-supervisor';
 export { CableRun } from './cable-run';
 export { RouteMarker } from './route-marker';
 export { Trace } from './trace';
+export { UploadReceipt } from './upload-receipt';
 export { Finding } from './finding';
 export { Ticket, TicketFinding, TicketEvent, TicketCloseout } from './ticket';

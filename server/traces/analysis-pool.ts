@@ -1,0 +1,152 @@
+import { createHash } from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { MessageChannel } from 'node:worker_threads';
+import { Piscina } from 'piscina';
+import type { AppContext } from '../context';
+import type { ParsedTrace } from '../../shared/trace';
+import { failedOutcome, type Outcome } from './analysis';
+import type { AnalyseResult, AnalyseTask, ReadResult, ReadTask, WorkerTask } from './analysis-worker';
+
+export interface AnalysisBudget {
+  threads: number;
+  /** Wall time one file may take once its analysis has started. */
+  timeoutMs: number;
+  /** V8 heap one analysis worker may use. */
+  memoryMb: number;
+}
+
+const here = path.dirname(fileURLToPath(import.meta.url));
+
+/**
+ * The worker's entry file. A built server (plain JavaScript) has the worker
+ * built beside it; from TypeScript source (tsx, vitest) a small ES module
+ * loads the TypeScript worker through tsx.
+ */
+export function workerEntry(): string {
+  if (import.meta.url.endsWith('.js')) {
+    for (const candidate of [path.join(here, 'analysis-worker.js'), path.join(here, 'traces', 'analysis-worker.js')]) {
+      if (fs.existsSync(candidate)) return candidate;
+    }
+    throw new Error(`The analysis worker was not built beside the server (looked for analysis-worker.js in ${here}). Run "npm run build:server".`);
+  }
+  return path.join(here, 'analysis-worker.boot.mjs');
+}
+
+async function hashFile(file: string): Promise<{ sha256: string; sizeBytes: number }> {
+  const hash = createHash('sha256');
+  let sizeBytes = 0;
+  for await (const chunk of fs.createReadStream(file)) {
+    hash.update(chunk as Buffer);
+    sizeBytes += (chunk as Buffer).length;
+  }
+  return { sha256: hash.digest('hex'), sizeBytes };
+}
+
+const seconds = (ms: number) => `${Math.round(ms / 100) / 10} s`;
+
+/**
+ * The trace engine off the request thread: a pool of worker threads (as many
+ * as the budget says, at most one per core by default), each file with a time
+ * and a memory budget. A file over either budget, or one that crashes its
+ * worker, still gets an answer: a failed outcome saying why, with the file's
+ * SHA-256 and size, so it is stored like any unreadable file.
+ */
+export class AnalysisPool {
+  private readonly pool: Piscina<WorkerTask, AnalyseResult | ReadResult>;
+
+  constructor(
+    readonly budget: AnalysisBudget,
+    private readonly log: (message: string, extra?: unknown) => void = () => undefined,
+  ) {
+    this.pool = new Piscina({
+      filename: workerEntry(),
+      minThreads: 0,
+      maxThreads: budget.threads,
+      idleTimeout: 60_000,
+      resourceLimits: { maxOldGenerationSizeMb: budget.memoryMb, maxYoungGenerationSizeMb: Math.max(4, Math.round(budget.memoryMb / 8)) },
+    });
+    // Errors reach the task that caused them; the pool's own 'error' event must not crash the server.
+    this.pool.on('error', (err) => this.log('an analysis worker failed', err));
+  }
+
+  /** Hash, parse and analyse one file. Never throws for the file's sake: a file over budget is a failed outcome. */
+  async analyse(task: Omit<AnalyseTask, 'kind' | 'started'>): Promise<AnalyseResult> {
+    const run = await this.run<AnalyseResult>({ ...task, kind: 'analyse' });
+    if ('error' in run) return { ...(await hashFile(task.path)), outcome: run.error, parsed: null, elapsedMs: 0 };
+    if (run.result.outcome.internal) this.log('the trace engine failed on a file', run.result.outcome.internal);
+    return run.result;
+  }
+
+  /** The samples of a stored file, read in a worker; null (and a log line) when it cannot be read within budget. */
+  async read(task: Omit<ReadTask, 'kind' | 'started'>): Promise<ParsedTrace | null> {
+    const run = await this.run<ReadResult>({ ...task, kind: 'read' });
+    if ('error' in run) {
+      this.log(`a stored trace could not be read again (${task.path})`, run.error.error?.message);
+      return null;
+    }
+    return run.result.parsed;
+  }
+
+  private async run<R extends AnalyseResult | ReadResult>(task: WorkerTask): Promise<{ result: R } | { error: Outcome }> {
+    const { port1, port2 } = new MessageChannel();
+    const abort = new AbortController();
+    let startedAt: number | null = null;
+    let timer: NodeJS.Timeout | undefined;
+    port1.once('message', () => {
+      startedAt = performance.now();
+      timer = setTimeout(() => abort.abort(), this.budget.timeoutMs);
+    });
+    try {
+      const result = (await this.pool.run({ ...task, started: port2 }, { transferList: [port2], signal: abort.signal })) as R;
+      // Late is over budget too, whether the timer or the worker's own clock noticed first.
+      const tookMs = Math.max(result.elapsedMs, startedAt === null ? 0 : performance.now() - startedAt);
+      if (tookMs > this.budget.timeoutMs) return { error: this.overTime() };
+      return { result };
+    } catch (err) {
+      return { error: this.failure(err, abort.signal.aborted) };
+    } finally {
+      clearTimeout(timer);
+      port1.close();
+    }
+  }
+
+  private overTime(): Outcome {
+    return failedOutcome(
+      'ANALYSIS_TIMEOUT',
+      `Analysing this file took longer than the ${seconds(this.budget.timeoutMs)} allowed for one file, so it was stopped. The file is kept; if it is a genuine record, export a shorter one from the instrument.`,
+    );
+  }
+
+  private failure(err: unknown, timedOut: boolean): Outcome {
+    if (timedOut) return this.overTime();
+    const code = (err as { code?: string })?.code;
+    if (code === 'ERR_WORKER_OUT_OF_MEMORY') {
+      return failedOutcome(
+        'ANALYSIS_MEMORY',
+        `Analysing this file needed more than the ${this.budget.memoryMb} MB of memory allowed for one file, so it was stopped. The file is kept; if it is a genuine record, export a shorter one from the instrument.`,
+      );
+    }
+    this.log('an analysis worker failed', err);
+    return failedOutcome('ENGINE_ERROR', `The trace engine stopped on this file (${(err as Error)?.message ?? String(err)}). The file is kept.`);
+  }
+
+  close(): Promise<void> {
+    return this.pool.destroy();
+  }
+}
+
+const pools = new WeakMap<AppContext, AnalysisPool>();
+
+/** The app's analysis pool, made on first use and closed with the app. */
+export function analysisPool(ctx: AppContext): AnalysisPool {
+  let pool = pools.get(ctx);
+  if (!pool) {
+    const made = new AnalysisPool(ctx.config.analysis, ctx.log);
+    pools.set(ctx, made);
+    ctx.onClose.unshift(() => made.close());
+    pool = made;
+  }
+  return pool;
+}

@@ -1,0 +1,80 @@
+import { z } from 'zod';
+
+/**
+ * Numbers as they arrive from outside, read strictly.
+ *
+ * JSON bodies carry real numbers: schemas for them use `z.number()` (never
+ * `z.coerce`), so "", true, [45] and "45" are refused rather than read as 0,
+ * 1 and 45. Query strings, path parameters and multipart form fields carry
+ * only text: the helpers below read that text as plain decimal digits, so
+ * "0x10", "1e999", " 7" and "" are refused rather than read as 16,
+ * Infinity, 7 and 0.
+ */
+
+/** The longest run a length may describe: 100 km of cable (common practice for a single TDR shot is far less). */
+export const MAX_LENGTH_M = 100_000;
+
+const WHOLE = /^-?\d{1,15}$/;
+const DECIMAL = /^[-+]?(\d{1,20}(\.\d{0,20})?|\.\d{1,20})([eE][-+]?\d{1,3})?$/;
+
+interface Bounds {
+  min?: number;
+  max?: number;
+  /** The value's description in messages, e.g. "a page number". */
+  what?: string;
+}
+
+function bounded(schema: z.ZodNumber, b: Bounds): z.ZodNumber {
+  let s = schema;
+  if (b.min !== undefined) s = s.min(b.min, { error: `must be ${b.min} or more` });
+  if (b.max !== undefined) s = s.max(b.max, { error: `must be at most ${b.max}` });
+  return s;
+}
+
+/** A whole number written in a query string or path: digits only (a number is taken as is, for calls from code). */
+export function textInt(b: Bounds = {}) {
+  const what = b.what ?? 'a whole number';
+  return z
+    .unknown()
+    .transform((v, ctx) => {
+      if (typeof v === 'number') return v;
+      if (typeof v === 'string' && WHOLE.test(v)) return Number(v);
+      ctx.addIssue({ code: 'custom', message: `must be ${what}, written in digits` });
+      return z.NEVER;
+    })
+    .pipe(bounded(z.number().int({ error: `must be ${what}` }), b));
+}
+
+/** A positive id in a query string or path. */
+export const textId = (what = 'a positive id') => textInt({ min: 1, what });
+
+/**
+ * A decimal number in a multipart form field: digits with an optional point
+ * and exponent, finite. An empty field means "not given".
+ */
+export function formNumber(b: Bounds = {}) {
+  const what = b.what ?? 'a number';
+  return z
+    .unknown()
+    .transform((v, ctx) => {
+      if (v === '' || v === undefined || v === null) return undefined;
+      if (typeof v === 'number' && Number.isFinite(v)) return v;
+      const finite = typeof v === 'string' && DECIMAL.test(v.trim());
+      if (finite && Number.isFinite(Number(v))) return Number(v);
+      ctx.addIssue({ code: 'custom', message: finite ? `must be ${what} of a sensible size (this one is too large to hold)` : `must be ${what}, written in digits` });
+      return z.NEVER;
+    })
+    .pipe(bounded(z.number({ error: `must be ${what}` }), b).optional())
+    .optional();
+}
+
+/** A positive id in a JSON body: a real whole number. */
+export const jsonId = (message = 'must be a positive id') => z.number({ error: message }).int({ error: message }).positive({ error: message });
+
+/** A length in metres in a JSON body: a real number from 0 (or above, when `positive`) to 100 km. */
+export function lengthM(what: string, opts: { positive?: boolean; max?: number } = {}) {
+  const max = opts.max ?? MAX_LENGTH_M;
+  const rule = `${what} must be ${opts.positive ? 'more than 0' : '0 or more'} and at most ${max.toLocaleString('en-GB')} m`;
+  const n = z.number({ error: `${what} must be a number of metres` }).max(max, { error: rule });
+  return opts.positive ? n.positive({ error: rule }) : n.min(0, { error: rule });
+}
