@@ -22,7 +22,18 @@ export const reflectionEventSchema = z.object({
   uncertaintyM: z.number().nonnegative(),
   windowStartM: z.number(),
   windowEndM: z.number(),
+  /**
+   * The event's own reflection coefficient: the height read at the instrument referred to
+   * the wave that reached the event (past earlier faults and, where modelled, the cable's
+   * loss), in [−1, 1].
+   */
   reflectionCoefficient: z.number(),
+  /** The height as read from the trace against the launch, before any correction. */
+  reflectionCoefficientRaw: z.number().optional(),
+  /** True when `reflectionCoefficient` is corrected for the cable's loss. */
+  lossCorrected: z.boolean().optional(),
+  /** The event lies inside the launch's blind zone but stands out of it; its reading is less certain. */
+  insideBlindZone: z.boolean().optional(),
   /** Z = Z0 (1 + ρ) / (1 − ρ); step traces with a known Z0 only. */
   impedanceOhm: z.number().nullable(),
   type: reflectionTypeSchema,
@@ -64,6 +75,18 @@ export const traceAnalysisSchema = z.object({
   leadLengthM: z.number(),
   blindZoneM: z.number().nonnegative(),
   rangeM: z.number().nonnegative(),
+  /** How events were told from noise: the target rate of false events per trace and the threshold it sets. */
+  detection: z
+    .object({
+      falseEventsPerTrace: z.number().nonnegative(),
+      /** Threshold, in noise standard deviations of the step filter. */
+      thresholdSigma: z.number().positive(),
+      /** Independent filter outputs tested over the record. */
+      independentTests: z.number().nonnegative(),
+    })
+    .optional(),
+  /** Coverage the uncertainty windows are stated at (e.g. 0.95). */
+  windowCoverage: z.number().min(0).max(1).optional(),
   events: z.array(reflectionEventSchema),
   warnings: z.array(traceWarningSchema),
 });

@@ -14,9 +14,9 @@
  */
 import { distanceFromRoundTrip, SPEED_OF_LIGHT_M_PER_S } from '../cable/propagation';
 import type { ReflectionEvent, TraceAnalysis, TraceWarning } from '../schemas/trace-analysis';
-import { classifyEvent, impedanceOf, PathTransmission } from './classify';
+import { classifyEvent, impedanceOf, ownReflections } from './classify';
 import { detectEdges, mergeEdges } from './detection';
-import { preliminaryEchoes, resolveEchoes } from './echoes';
+import { findEchoes, resolveCableEnd } from './echoes';
 import { fitEdges } from './edge-fit';
 import { TraceInputError } from './errors';
 import { findLaunch } from './launch';
@@ -112,14 +112,20 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
   const vf = options.vf;
   const leadM = options.leadLengthM ?? 0;
   const mPerSample = (vf * SPEED_OF_LIGHT_M_PER_S * rec.dt) / 2;
-  const isEcho = preliminaryEchoes(merged, (m) => m.onsetIdx - zeroIndex(tb, m.fLo));
-  const path = new PathTransmission();
+  const echoes = findEchoes(merged, (m) => m.onsetIdx - zeroIndex(tb, m.fLo));
+  if (echoes.sourceRho !== 0) warnings.push(sourceWarning(echoes.sourceRho));
+  const isEcho = echoes.of.map((s) => s !== null);
+  const own = ownReflections(merged, isEcho, echoes.sourceRho);
   const events: ReflectionEvent[] = [];
+  const eventOf = new Map<number, number>();
   for (const [mi, m] of merged.entries()) {
     const roundTripS = roundTripSamples(tb, m) * rec.dt;
     const distanceM = distanceFromRoundTrip(roundTripS, vf) - leadM;
     if (distanceM <= 0) continue;
-    const rho = m.height;
+    eventOf.set(mi, events.length);
+    const echoOf = echoes.of[mi];
+    const rho = own[mi].rho;
+    const rhoRaw = m.heightRaw ?? m.height;
     const riseS = m.riseSamples * rec.dt;
     const uncertaintyM = estimateUncertainty({
       distanceM,
@@ -128,14 +134,13 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
       mPerSample,
       riseS,
       sigmaU: sig.sigmaU,
-      rho,
+      rho: rhoRaw,
     });
-    const rhoLocal = path.local(rho);
-    const isLast = merged.every((later, li) => li <= mi || isEcho[li] || Math.abs(later.height) < 0.3 * Math.abs(rho));
-    const type = classifyEvent(m, rhoLocal, isLast);
-    path.pass(m, rhoLocal);
+    const type = classifyEvent(m, own[mi], L.found ? L.riseSamples : sig.w0);
     const amplitude =
-      sig.mode === 'step' ? rho * Math.abs(L.found || rec.unit !== 'rho' ? L.height : 1) : m.echoPeak * (L.found ? L.height : 1);
+      sig.mode === 'step'
+        ? rhoRaw * Math.abs(L.found || rec.unit !== 'rho' ? L.height : 1)
+        : m.echoPeak * (L.found ? L.height : 1);
     events.push({
       index: events.length,
       roundTripNs: roundTripS * 1e9,
@@ -144,15 +149,17 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
       windowStartM: Math.max(0, distanceM - uncertaintyM),
       windowEndM: distanceM + uncertaintyM,
       reflectionCoefficient: rho,
+      reflectionCoefficientRaw: rhoRaw,
+      lossCorrected: m.lossCorrected ?? false,
       impedanceOhm: impedanceOf(sig.mode, options.z0Ohm ?? null, m, type, rho),
       type,
       isCableEnd: false,
-      likelyMultipleOf: null,
+      likelyMultipleOf: echoOf !== null ? (eventOf.get(echoOf) ?? null) : null,
       amplitude,
       snr: Number.isFinite(m.snr) ? m.snr : 0,
       riseTimeNs: riseS * 1e9,
     });
-    if (sig.mode === 'pulse' && L.found && !m.blip && Math.abs(m.echoPeak) < 0.6 * Math.abs(rho)) {
+    if (sig.mode === 'pulse' && L.found && !m.blip && Math.abs(m.echoPeak) < 0.6 * Math.abs(rhoRaw)) {
       warnings.push({
         code: 'PULSE_LOSS',
         message: `the echo at ${distanceM.toFixed(1)} m is spread by cable loss (peak ${m.echoPeak.toFixed(2)} of the launch); its ρ is taken from the echo's area`,
@@ -180,6 +187,19 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     ]);
   }
   if (!L.found) warnings.push(noLaunchWarning(rec));
+  else if (!L.onsetInRecord) {
+    warnings.push({
+      code: 'LAUNCH_BEFORE_RECORD',
+      message: "the record starts during the launch pulse; time zero is taken from the file's own axis",
+    });
+  }
+  if (L.clipped) {
+    warnings.push({
+      code: 'LAUNCH_CLIPPED',
+      message:
+        'the launch is flat at the recorder’s limit (clipped); reflection coefficients read against it are too large and are capped at ±1',
+    });
+  }
   const signal = buildWorkingSignal(rec, L, sigma0);
   if (rec.n - signal.start < 16) {
     const msg = 'no reflection above noise (the record ends inside the blind zone)';
@@ -192,7 +212,7 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
   const zeroOverride = options.zeroOffsetNs !== undefined ? (options.zeroOffsetNs * 1e-9 - rec.t[0]) / rec.dt : null;
   const tb: Timebase = { rec, launch: L, signal, launchOnset, zeroOverride, zeroShift: referencePlaneShift(L, merged) };
   const events = describeEvents(merged, tb, options, warnings);
-  warnings.push(...resolveEchoes(events, rec.dt * 1e9));
+  warnings.push(...resolveCableEnd(events));
   const mPerSample = (options.vf * SPEED_OF_LIGHT_M_PER_S * rec.dt) / 2;
   const blindZoneM = L.found ? Math.max(0, (signal.blindIdx - launchOnset(0.1)) * mPerSample - (options.leadLengthM ?? 0)) : 0;
   if (events.length === 0) warnings.push({ code: 'NO_REFLECTION', message: 'no reflection above noise' });
@@ -209,5 +229,12 @@ function noLaunchWarning(rec: TraceRecord): TraceWarning {
       rec.unit === 'rho'
         ? 'no launch edge in the trace; time zero is taken as the reference plane'
         : 'the record starts after the launch; time zero is taken as the launch',
+  };
+}
+
+function sourceWarning(rhoS: number): TraceWarning {
+  return {
+    code: 'SOURCE_MISMATCH',
+    message: `the instrument's source reflects returning waves (ρ ≈ ${rhoS.toFixed(2)}, from the echo at twice the strongest round trip); reflection coefficients are corrected for it and its echoes are marked`,
   };
 }

@@ -1,35 +1,88 @@
 /**
- * Classification: the kind of each event and the impedance it shows.
+ * Classification: each event's own reflection coefficient, its kind, and the
+ * impedance it shows.
  *
- * ρ is first referred to the wave that reached the event: each earlier lumped
- * fault passed it, out and back. An open or a short reflects (nearly)
- * everything; a lossy far end that is still settling when the record or the
- * next event cuts it short counts as one from half that. The impedance is
- * Z = Z0 (1 + ρ)/(1 − ρ) (D. M. Pozar, "Microwave Engineering", 4th ed.,
- * eq. 2.35), reported for step traces only.
+ * The height read at the instrument is the event's own ρ times the round-trip
+ * transmission of everything in front of it. A lumped resistor passes 1 − |ρ|
+ * each way (series R: 2Z0/(2Z0 + R); shunt R: 2R/(2R + Z0)), (1 − |ρ|)² out and
+ * back; a change of line impedance passes 1 + ρ one way and 1 − ρ the other,
+ * T·T′ = 1 − ρ² (D. M. Pozar, "Microwave Engineering", 4th ed., §2.3). One edge
+ * cannot tell the two apart, so an edge is taken as a change of line when it
+ * starts a section (an opposite edge of like size follows, with more line after
+ * it: a wet stretch, a splice) and as a lumped fault otherwise.
+ *
+ * Bands on the event's own ρ (common practice): open at ρ ≥ +0.8, short at
+ * ρ ≤ −0.8, otherwise an impedance rise or drop. Where the cable's loss was not
+ * modelled, a last event whose edge is visibly spread by loss is typed an open
+ * from ρ ≥ +0.35 or a short from ρ ≤ −0.45 (±0.3 while it is still rising when
+ * the record ends), since loss has taken the rest. The impedance is
+ * Z = Z0 (1 + ρ)/(1 − ρ) (Pozar eq. 2.35), for step traces only.
  */
 import type { ReflectionType } from '../schemas/trace-analysis';
 import { impedanceFromReflection } from './impedance';
 import type { Measured, Mode } from './steps';
 
-/** Transmission of the wave reaching later events, updated as each event is passed. */
-export class PathTransmission {
-  private t = 1;
+export const OPEN_MIN_RHO = 0.8;
+export const SHORT_MAX_RHO = -0.8;
 
-  /** ρ as the wave that reached this event would read it. */
-  local(rho: number): number {
-    return rho / Math.max(0.05, this.t);
-  }
-
-  pass(m: Measured, rhoLocal: number): void {
-    if (!m.blip) this.t *= (1 - Math.min(0.95, Math.abs(rhoLocal))) ** 2;
-  }
+export interface OwnReflection {
+  /** The event's own ρ, in [−1, 1]. */
+  rho: number;
+  /** Round-trip transmission of everything in front of it. */
+  transmission: number;
+  isLast: boolean;
 }
 
-export function classifyEvent(m: Measured, rhoLocal: number, isLast: boolean): ReflectionType {
-  const settling = m.stillMoving > 0.05;
-  if (!m.blip && (rhoLocal >= 0.75 || (isLast && rhoLocal >= 0.35) || (isLast && settling && rhoLocal >= 0.3))) return 'open';
-  if (!m.blip && (rhoLocal <= -0.75 || (isLast && rhoLocal <= -0.45) || (isLast && settling && rhoLocal <= -0.3))) return 'short';
+const clampRho = (r: number) => Math.max(-1, Math.min(1, r));
+
+/** Is merged[k] the first edge of a section: an opposite edge of like size follows, then more line? */
+function startsSection(merged: Measured[], primary: boolean[], k: number): boolean {
+  const m = merged[k];
+  for (let j = k + 1; j < merged.length; j++) {
+    if (!primary[j]) continue;
+    const o = merged[j];
+    if (Math.sign(o.height) === Math.sign(m.height)) return false;
+    const ratio = Math.abs(o.height) / Math.abs(m.height);
+    const more = merged.some((later, l) => l > j && primary[l] && Math.abs(later.height) >= 0.5 * Math.abs(o.height));
+    return ratio > 0.6 && ratio < 1.4 && more;
+  }
+  return false;
+}
+
+/**
+ * Each event's own ρ, referred to the wave that reached it, and whether anything real
+ * follows it. A mismatched source (ρ_s) shows every returning wave as (1 + ρ_s) of it.
+ */
+export function ownReflections(merged: Measured[], isEcho: boolean[], sourceRho = 0): OwnReflection[] {
+  const primary = isEcho.map((e) => !e);
+  const atPort = 1 + sourceRho;
+  let t = 1;
+  return merged.map((m, k) => {
+    const transmission = t;
+    const rho = clampRho(m.height / atPort / Math.max(0.05, transmission));
+    const isLast = merged.every((later, l) => l <= k || isEcho[l] || Math.abs(later.height) < 0.1 * Math.abs(m.height));
+    if (primary[k]) {
+      const r = Math.min(0.95, Math.abs(rho));
+      if (m.blip) t *= (1 - r * r) ** 2;
+      else t *= startsSection(merged, primary, k) ? 1 - r * r : (1 - r) ** 2;
+    }
+    return { rho, transmission, isLast };
+  });
+}
+
+/** Open, short, or an impedance rise or drop, from the event's own ρ. */
+export function classifyEvent(m: Measured, own: OwnReflection, launchRiseSamples: number): ReflectionType {
+  const rho = own.rho;
+  if (!m.blip) {
+    if (rho >= OPEN_MIN_RHO) return 'open';
+    if (rho <= SHORT_MAX_RHO) return 'short';
+    const settling = m.stillMoving > 0.05;
+    const spread = m.riseSamples >= 4 * Math.max(1, launchRiseSamples) || settling;
+    if (!m.lossCorrected && own.isLast && spread) {
+      if (rho >= 0.35 || (settling && rho >= 0.3)) return 'open';
+      if (rho <= -0.45 || (settling && rho <= -0.3)) return 'short';
+    }
+  }
   return m.height > 0 ? 'impedance-rise' : 'impedance-drop';
 }
 

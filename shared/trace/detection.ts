@@ -170,6 +170,8 @@ export function mergeEdges(measured: Measured[], w0: number, L: Launch): Measure
     }
     if (last && Math.sign(last.height) === Math.sign(m.height) && m.onsetIdx - last.onsetIdx < Math.max(last.w, m.w)) {
       last.height += m.height;
+      if (last.heightRaw !== undefined || m.heightRaw !== undefined)
+        last.heightRaw = (last.heightRaw ?? last.height - m.height) + (m.heightRaw ?? m.height);
       last.endIdx = m.endIdx;
       continue;
     }

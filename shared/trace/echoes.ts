@@ -1,80 +1,115 @@
 /**
- * Echoes: reflections that are not faults. A strong reflection returns again
- * at 2× and 3× its round trip (re-reflected at the instrument), and a wave
- * trapped between two events a and b arrives at 2·t_b − t_a (the bounce, or
- * lattice, diagram: L. V. Bewley, "Traveling Waves on Transmission Systems",
- * 2nd ed., Wiley 1951, ch. 3). Beyond an open or a short the line is
- * invisible, so weaker features after it are its echoes or the tail of its own
- * spread edge.
+ * Echoes: reflections that are not faults.
+ *
+ * A wave trapped between two reflectors a and b arrives again at 2·t_b − t_a
+ * with about ρ_a·ρ_b of the launch (the bounce, or lattice, diagram: L. V.
+ * Bewley, "Traveling Waves on Transmission Systems", 2nd ed., Wiley 1951,
+ * ch. 3). An instrument whose source impedance differs from the cable's
+ * reflects every returning wave back down the line with its own ρ_s, so an
+ * echo of events a and b arrives at t_a + t_b (2·t_a for one event). At the
+ * port a returning wave of ρ shows as (1 + ρ_s)·ρ, and its first source echo
+ * as (1 + ρ_s)·ρ_s·ρ², so the ratio r = A₂/A₁² of the echo at twice the round
+ * trip to the square of the first arrival gives ρ_s = r/(1 − r), whatever the
+ * loss or the faults in front (both arrivals carry them squared and once, in
+ * the same proportion). Beyond an open or a short the line is invisible, so
+ * weaker features after it are its echoes or the tail of its own spread edge.
  */
 import type { ReflectionEvent, TraceWarning } from '../schemas/trace-analysis';
 import type { Measured } from './steps';
 
-/**
- * Echo pre-pass on the measured edges (round trips in samples), so an echo after
- * the far end does not stop the end being typed as the end.
- */
-export function preliminaryEchoes(merged: Measured[], rtOf: (m: Measured) => number): boolean[] {
-  return merged.map((e, ei) => {
-    const tol = Math.max(3, 0.6 * e.riseSamples, 0.004 * rtOf(e));
-    for (let si = 0; si < ei; si++) {
-      const sm = merged[si];
-      if (Math.abs(e.height) > Math.abs(sm.height)) continue;
-      if (Math.abs(sm.height) >= 0.3 && (Math.abs(rtOf(e) - 2 * rtOf(sm)) < tol || Math.abs(rtOf(e) - 3 * rtOf(sm)) < tol))
-        return true;
-      for (let ai = 0; ai < si; ai++) {
-        const bounce = Math.abs(merged[ai].height * sm.height);
-        if (Math.abs(rtOf(e) - (2 * rtOf(sm) - rtOf(merged[ai]))) < tol && Math.abs(e.height) < 1.5 * bounce + 0.02) return true;
-      }
-    }
-    return false;
-  });
+export interface EchoFindings {
+  /** For each measured edge, the index of the edge it is probably an echo of, or null. */
+  of: Array<number | null>;
+  /** Reflection coefficient of the instrument's source, 0 when none is seen. */
+  sourceRho: number;
 }
 
-/** The earlier event `e` is probably an echo of, or null. */
-function echoSource(e: ReflectionEvent, events: ReflectionEvent[], dtNs: number): number | null {
-  const tol = Math.max(3 * dtNs, 0.6 * e.riseTimeNs, 0.004 * e.roundTripNs);
-  for (const s of events) {
-    if (
-      s.index >= e.index ||
-      Math.abs(s.reflectionCoefficient) < 0.1 ||
-      Math.abs(e.reflectionCoefficient) > Math.abs(s.reflectionCoefficient)
-    )
-      continue;
-    const strong = Math.abs(s.reflectionCoefficient) >= 0.3;
-    if (strong && (Math.abs(e.roundTripNs - 2 * s.roundTripNs) < tol || Math.abs(e.roundTripNs - 3 * s.roundTripNs) < tol))
-      return s.index;
-    for (const a of events) {
-      if (a.index >= s.index || a.likelyMultipleOf !== null) continue;
-      const bounce = Math.abs(a.reflectionCoefficient * s.reflectionCoefficient);
-      if (
-        Math.abs(e.roundTripNs - (2 * s.roundTripNs - a.roundTripNs)) < tol &&
-        Math.abs(e.reflectionCoefficient) < 1.5 * bounce + 0.02
-      )
-        return s.index;
+const STRONG = 0.3;
+
+function tolerance(m: Measured, rt: number): number {
+  return Math.max(3, 0.6 * m.riseSamples, 0.004 * rt);
+}
+
+/** Which earlier edge `merged[k]` echoes, given the echoes found so far. */
+function echoOf(merged: Measured[], rt: number[], of: Array<number | null>, k: number, sourceRho: number): number | null {
+  const e = merged[k];
+  const tol = tolerance(e, rt[k]);
+  const he = Math.abs(e.height);
+  const near = (t: number) => Math.abs(rt[k] - t) < tol;
+  for (let s = 0; s < k; s++) {
+    const hs = Math.abs(merged[s].height);
+    if (of[s] !== null || he > hs) continue;
+    if (hs >= STRONG && (near(2 * rt[s]) || near(3 * rt[s]))) return s;
+    for (let a = 0; a <= s; a++) {
+      if (of[a] !== null) continue;
+      const ha = Math.abs(merged[a].height);
+      if (a < s && near(2 * rt[s] - rt[a]) && he < 1.5 * ha * hs + 0.02) return s;
+      const viaSource = (a === s ? 1 : 2) * Math.abs(sourceRho / (1 + sourceRho)) * ha * hs;
+      if (sourceRho !== 0 && near(rt[a] + rt[s]) && he < 1.5 * viaSource + 0.02) return s;
     }
   }
   return null;
 }
 
-/** Mark echoes, drop what lies beyond the cable's end, and flag the end. Returns the warnings raised. */
-export function resolveEchoes(events: ReflectionEvent[], dtNs: number): TraceWarning[] {
+function markEchoes(merged: Measured[], rt: number[], sourceRho: number): Array<number | null> {
+  const of: Array<number | null> = [];
+  for (let k = 0; k < merged.length; k++) of.push(echoOf(merged, rt, of, k, sourceRho));
+  return of;
+}
+
+/**
+ * ρ_s from the strongest pair of events a, b (a = b allowed) whose source echo at
+ * t_a + t_b is seen: A_e = m·(1 + ρ_s)·ρ_s·ρ_a·ρ_b with m = 2 when a ≠ b (the wave can
+ * visit a first or b first), so r = A_e/(m·A_a·A_b) = ρ_s/(1 + ρ_s). 0 when none is seen.
+ */
+function sourceReflection(merged: Measured[], rt: number[], of: Array<number | null>): number {
+  const primaries = merged.map((_, k) => k).filter((k) => of[k] === null && !merged[k].blip);
+  const pairs: Array<[number, number, number]> = [];
+  for (const a of primaries)
+    for (const b of primaries) if (a <= b) pairs.push([a, b, Math.abs(merged[a].height * merged[b].height)]);
+  pairs.sort((p, q) => q[2] - p[2]);
+  for (const [a, b, size] of pairs) {
+    if (size < 0.05) break;
+    const at = rt[a] + rt[b];
+    const tol = tolerance(merged[b], at);
+    const k = merged.findIndex((_, i) => i > b && Math.abs(rt[i] - at) < tol);
+    if (k < 0) continue;
+    const r = merged[k].height / ((a === b ? 1 : 2) * merged[a].height * merged[b].height);
+    const rhoS = r / (1 - r);
+    return Math.abs(rhoS) >= 0.05 && Math.abs(rhoS) <= 0.9 ? rhoS : 0;
+  }
+  return 0;
+}
+
+/** Echoes among the measured edges (round trips in samples), and the source's ρ they reveal. */
+export function findEchoes(merged: Measured[], rtOf: (m: Measured) => number): EchoFindings {
+  const rt = merged.map(rtOf);
+  const first = markEchoes(merged, rt, 0);
+  const sourceRho = sourceReflection(merged, rt, first);
+  return { of: sourceRho === 0 ? first : markEchoes(merged, rt, sourceRho), sourceRho };
+}
+
+/** Echoes are judged on the heights read at the instrument, not on the events' own ρ. */
+const seen = (e: ReflectionEvent) => e.reflectionCoefficientRaw ?? e.reflectionCoefficient;
+
+/** Drop what lies beyond the cable's end, and flag the end. Returns the warnings raised. */
+export function resolveCableEnd(events: ReflectionEvent[]): TraceWarning[] {
   const warnings: TraceWarning[] = [];
-  for (const e of events) e.likelyMultipleOf = echoSource(e, events, dtNs);
   const endIdx = events.findIndex((e) => e.likelyMultipleOf === null && (e.type === 'open' || e.type === 'short'));
   if (endIdx >= 0) {
     const end = events[endIdx];
-    let dropped = 0;
-    for (let k = events.length - 1; k > endIdx; k--) {
-      const e = events[k];
-      if (e.likelyMultipleOf === null && Math.abs(e.reflectionCoefficient) < 0.3 * Math.abs(end.reflectionCoefficient)) {
-        events.splice(k, 1);
-        dropped++;
-      }
-    }
-    events.forEach((e, k) => {
-      e.index = k;
+    const renumber = new Map<number, number>();
+    const kept = events.filter((e, k) => {
+      const drop = k > endIdx && e.likelyMultipleOf === null && Math.abs(seen(e)) < 0.3 * Math.abs(seen(end));
+      return !drop;
     });
+    const dropped = events.length - kept.length;
+    kept.forEach((e, k) => renumber.set(e.index, k));
+    for (const e of kept) {
+      e.index = renumber.get(e.index)!;
+      if (e.likelyMultipleOf !== null) e.likelyMultipleOf = renumber.get(e.likelyMultipleOf) ?? null;
+    }
+    events.splice(0, events.length, ...kept);
     if (dropped > 0) {
       warnings.push({
         code: 'AFTER_END_IGNORED',

@@ -5,11 +5,20 @@
  *
  * The launch is the first excursion larger than a quarter of the trace's range
  * (0.2–99.8 % percentiles), timed from where it leaves the starting level, with
- * its 10–90 % rise time as in IEEE Std 181-2011 ("Transitions, Pulses, and
- * Related Waveforms"). A ρ trace that does not start near −1 holds no launch
- * edge: its time zero is the reference plane, as in VNA-derived step responses.
- * A launch that falls back below half its height within 15 % of the record (or
- * near a given pulse width) and stays there is a pulse; otherwise a step.
+ * its 10–90 % rise time and 50 % width as in IEEE Std 181-2011 ("Transitions,
+ * Pulses, and Related Waveforms"). Four shapes of record are told apart:
+ *  - the launch edge or pulse inside the record, after a pre-trigger stretch;
+ *  - a pulse record that starts during the launch (no pre-trigger, as distance
+ *    exports that begin at 0 m are): the record opens far from the level it
+ *    rests at for most of its length and falls back to it within a pulse;
+ *  - a step record that starts after the launch, at the incident level;
+ *  - a ρ trace with no launch at all (time zero is the reference plane, as in
+ *    VNA-derived step responses), unless it holds a launch pulse of about +1.
+ * Step or pulse is decided from the whole record: a pulse falls back below half
+ * its height and the record then rests near the pre-launch level; a step keeps
+ * away from it (a fault near the instrument lowers the level but does not bring
+ * it back to the baseline). A launch whose top is flat at the record's extreme
+ * while its edge is still steep has been clipped by the recorder.
  */
 import { percentileOf, sampleMedian, sortedSample } from './stats';
 import type { Launch, Mode, TraceRecord } from './steps';
@@ -18,6 +27,32 @@ import type { Launch, Mode, TraceRecord } from './steps';
 function smoothedAt(y: Float64Array): (i: number) => number {
   const n = y.length;
   return (i) => (i <= 0 || i >= n - 1 ? y[Math.min(n - 1, Math.max(0, i))] : (y[i - 1] + y[i] + y[i + 1]) / 3);
+}
+
+interface Levels {
+  lo: number;
+  hi: number;
+  range: number;
+  /** Level of the first few samples. */
+  bStart: number;
+  /** Level the record rests at over its last four fifths. */
+  rest: number;
+  zeroIdx: number;
+}
+
+function recordLevels(rec: TraceRecord): Levels {
+  const { y, n, t, dt } = rec;
+  const sorted = sortedSample(y);
+  const lo = percentileOf(sorted, 0.002);
+  const hi = percentileOf(sorted, 0.998);
+  return {
+    lo,
+    hi,
+    range: Math.max(hi - lo, 1e-300),
+    bStart: sampleMedian(y, 0, Math.min(n, 5)),
+    rest: sampleMedian(y, Math.floor(n / 5), n),
+    zeroIdx: -t[0] / dt,
+  };
 }
 
 interface LaunchEdge {
@@ -62,49 +97,60 @@ function traceLaunchEdge(y: Float64Array, ic: number, bStart: number): LaunchEdg
   return { ic, sign, imax, i10, i90, baseline, peak, riseSamples: Math.max(1, i90 - i10) };
 }
 
-/** Pulse or step: does the launch fall back below half its height soon, and stay down? */
+/** First index from `from` where sign·(y − level) drops below `frac`·peak, or −1. */
+function firstBelow(y: Float64Array, from: number, sign: number, level: number, frac: number, peak: number): number {
+  const ys = smoothedAt(y);
+  for (let i = from; i < y.length; i++) if (sign * (ys(i) - level) < frac * peak) return i;
+  return -1;
+}
+
+/** Fraction of samples in [from, n) within `band` of `level`. */
+function fractionNear(y: Float64Array, from: number, level: number, band: number): number {
+  const n = y.length;
+  if (from >= n) return 0;
+  const step = Math.max(1, Math.floor((n - from) / 4001));
+  let near = 0;
+  let all = 0;
+  for (let i = from; i < n; i += step, all++) if (Math.abs(y[i] - level) < band) near++;
+  return near / all;
+}
+
+/** Pulse or step: does the launch fall back below half its height soon, stay down, and the record rest at the baseline? */
 function launchFall(y: Float64Array, e: LaunchEdge, pulseHintSamples: number | null): { iFall: number; looksPulse: boolean } {
   const n = y.length;
   const ys = smoothedAt(y);
   const { sign, baseline, peak, riseSamples, ic } = e;
-  let iFall = -1;
-  for (let i = e.imax; i < n; i++) {
-    if (sign * (ys(i) - baseline) < 0.5 * peak) {
-      iFall = i;
-      break;
-    }
+  const iFall = firstBelow(y, e.imax, sign, baseline, 0.5, peak);
+  if (iFall <= 0) return { iFall, looksPulse: false };
+  const width = iFall - ic;
+  const end = Math.min(n, iFall + Math.max(width, 4 * riseSamples));
+  for (let i = iFall + riseSamples * 2; i < end; i++) {
+    if (sign * (ys(i) - baseline) > 0.5 * peak) return { iFall, looksPulse: false };
   }
-  let stays = false;
-  if (iFall > 0) {
-    const width = iFall - ic;
-    const end = Math.min(n, iFall + Math.max(width, 4 * riseSamples));
-    stays = true;
-    for (let i = iFall + riseSamples * 2; i < end; i++) {
-      if (sign * (ys(i) - baseline) > 0.5 * peak) {
-        stays = false;
-        break;
-      }
-    }
-  }
-  const widthSamples = iFall > 0 ? iFall - ic : 0;
-  const looksPulse =
-    iFall > 0 &&
-    stays &&
-    (pulseHintSamples !== null ? widthSamples < 3 * pulseHintSamples + 4 * riseSamples : widthSamples < 0.15 * (n - ic));
-  return { iFall, looksPulse };
+  const short = pulseHintSamples !== null ? width < 3 * pulseHintSamples + 4 * riseSamples : width < 0.15 * (n - ic);
+  // A pulse record rests at its baseline after the launch, apart from sparse echoes.
+  const rests = fractionNear(y, Math.min(n, end), baseline, 0.25 * peak) >= 0.6;
+  return { iFall, looksPulse: short && rests };
 }
 
-/** Incident level (step) or peak (pulse), and the first sample past the launch's settling. */
+/** 10–90 % duration of the falling edge that starts near `from` (sign·(y − level) falling from `peak`). */
+function fallSamples(y: Float64Array, from: number, sign: number, level: number, peak: number): { i10: number; fall: number } {
+  const ys = smoothedAt(y);
+  let i90 = from;
+  while (i90 > 0 && sign * (ys(i90) - level) < 0.9 * peak) i90--;
+  let i10 = from;
+  while (i10 < y.length - 1 && sign * (ys(i10) - level) > 0.1 * peak) i10++;
+  return { i10, fall: Math.max(1, i10 - i90) };
+}
+
+/** Incident level (step) or peak (pulse), and the first sample past the launch. */
 function launchLevels(y: Float64Array, e: LaunchEdge, mode: Mode, iFall: number): { height: number; settleIdx: number } {
   const n = y.length;
-  const ys = smoothedAt(y);
   const { baseline, peak, riseSamples, i90 } = e;
   if (mode === 'pulse') {
-    // The blind zone ends where the launch pulse is back near the baseline.
-    let k = Math.max(e.imax, iFall > 0 ? iFall : e.imax);
-    const tail = 0.02 * peak;
-    while (k < n - 1 && Math.abs(ys(k) - baseline) > tail) k++;
-    return { height: peak, settleIdx: Math.min(n - 1, k + riseSamples) };
+    // The launch ends where its falling edge reaches 10 % of its height, plus one edge time.
+    const f = fallSamples(y, iFall > 0 ? iFall : e.imax, e.sign, baseline, peak);
+    return { height: e.sign * peak, settleIdx: Math.min(n - 1, f.i10 + Math.max(riseSamples, f.fall)) };
   }
   const from = Math.min(n - 1, i90 + riseSamples);
   const to = Math.min(n, from + Math.max(5, 2 * riseSamples));
@@ -113,20 +159,76 @@ function launchLevels(y: Float64Array, e: LaunchEdge, mode: Mode, iFall: number)
   return { height, settleIdx: Math.min(n - 1, i90 + 2 * riseSamples) };
 }
 
-export function findLaunch(rec: TraceRecord, modeOpt: 'auto' | Mode, pulseHintSamples: number | null): Launch {
-  const { y, t, dt, n, unit } = rec;
+/**
+ * A pulse record that starts during the launch: it opens far from its resting level,
+ * holds there for longer than its falling edge lasts, then rests at that level.
+ */
+function launchBeforeRecord(rec: TraceRecord, lv: Levels, positiveOnly: boolean): Launch | null {
+  const { y, n } = rec;
   const ys = smoothedAt(y);
-  const sorted = sortedSample(y);
-  const lo = percentileOf(sorted, 0.002);
-  const hi = percentileOf(sorted, 0.998);
-  const range = Math.max(hi - lo, 1e-300);
-  const bStart = sampleMedian(y, 0, Math.min(n, 5));
-  // Fractional index of time zero; negative when the record starts after it.
-  const zeroIdx = -t[0] / dt;
-  const noLaunch = (baseline: number, height: number): Launch => ({
+  const sign = Math.sign(lv.bStart - lv.rest) || 1;
+  if (positiveOnly && sign < 0) return null;
+  if (Math.abs(lv.bStart - lv.rest) < 0.25 * lv.range) return null;
+  let peak = 0;
+  let iFall = -1;
+  for (let i = 0; i < n; i++) {
+    const d = sign * (ys(i) - lv.rest);
+    if (d > peak) peak = d;
+    if (d < 0.5 * peak) {
+      iFall = i;
+      break;
+    }
+  }
+  if (iFall < 3 || iFall > 0.3 * n) return null;
+  // A pre-trigger stretch before a step looks the same, but its axis zero is at the edge,
+  // not at or before the record's start; where the axis just starts at 0, a positive
+  // excursion is read as a launch pulse and a negative one as a pre-trigger baseline.
+  if (lv.zeroIdx > 0.5 * iFall || (Math.abs(lv.zeroIdx) < 0.5 && sign < 0)) return null;
+  const { i10, fall } = fallSamples(y, iFall, sign, lv.rest, peak);
+  if (iFall < fall) return null;
+  if (fractionNear(y, Math.min(n, i10 + 2 * fall), lv.rest, 0.25 * peak) < 0.6) return null;
+  return {
+    found: true,
+    onsetInRecord: false,
+    settleIdx: Math.min(n - 1, i10 + fall),
+    idx: 0,
+    sign,
+    baseline: lv.rest,
+    height: sign * peak,
+    mode: 'pulse',
+    modeDetected: true,
+    riseSamples: fall,
+    // Width at half height, taking the axis zero as the launch's rising 50 % point.
+    widthSamples: iFall - Math.min(0, lv.zeroIdx),
+    zeroIdx: lv.zeroIdx,
+    clipped: false,
+  };
+}
+
+/** A flat run at the record's own extreme that the edge hits while still steep. */
+function isClipped(y: Float64Array, from: number, to: number, sign: number): boolean {
+  let ext = y[from];
+  for (let i = from; i < to; i++) if (sign * y[i] > sign * ext) ext = y[i];
+  let global = ext;
+  for (let i = 0; i < y.length; i++) if (sign * y[i] > sign * global) global = y[i];
+  if (ext !== global) return false;
+  const first = y.findIndex((v, i) => i >= from && v === ext);
+  if (first < 2) return false;
+  let run = 0;
+  while (first + run < y.length && y[first + run] === ext) run++;
+  if (run < 3) return false;
+  let steepest = 0;
+  for (let i = from + 1; i <= first; i++) steepest = Math.max(steepest, sign * (y[i] - y[i - 1]));
+  return sign * (y[first] - y[first - 1]) >= 0.3 * steepest && steepest > 0;
+}
+
+function noLaunch(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, baseline: number, height: number): Launch {
+  const n = rec.n;
+  return {
     found: false,
-    settleIdx: Math.min(n - 1, Math.max(0, Math.ceil(zeroIdx))),
-    idx: Math.min(n - 1, Math.max(0, Math.round(zeroIdx))),
+    onsetInRecord: false,
+    settleIdx: Math.min(n - 1, Math.max(0, Math.ceil(lv.zeroIdx))),
+    idx: Math.min(n - 1, Math.max(0, Math.round(lv.zeroIdx))),
     sign: 1,
     baseline,
     height,
@@ -134,32 +236,30 @@ export function findLaunch(rec: TraceRecord, modeOpt: 'auto' | Mode, pulseHintSa
     modeDetected: modeOpt === 'auto',
     riseSamples: 0,
     widthSamples: null,
-    zeroIdx,
-  });
-  if (unit === 'rho' && Math.abs(bStart + 1) > 0.35) {
-    // ρ with no launch edge: time zero is the reference plane.
-    const from = Math.min(n - 5, Math.max(0, Math.ceil(zeroIdx)));
-    const base = sampleMedian(y, from, Math.min(n, from + Math.max(5, Math.min(200, Math.floor(n / 100)))));
-    return noLaunch(Number.isFinite(base) ? base : 0, 1);
-  }
-  if (unit === 'V' && Math.abs(bStart) > 0.35 * range && Math.sign(bStart) === Math.sign(hi + lo)) {
-    // The record begins after the launch, at the incident level.
-    return noLaunch(0, bStart);
-  }
+    zeroIdx: lv.zeroIdx,
+    clipped: false,
+  };
+}
+
+/** The launch found from its edge inside the record, or null when there is no clear excursion. */
+function launchInRecord(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hint: number | null): Launch | null {
+  const { y, n } = rec;
+  const ys = smoothedAt(y);
   let ic = -1;
   for (let i = 0; i < n; i++) {
-    if (Math.abs(ys(i) - bStart) > 0.25 * range) {
+    if (Math.abs(ys(i) - lv.bStart) > 0.25 * lv.range) {
       ic = i;
       break;
     }
   }
-  if (ic < 0) return noLaunch(bStart, unit === 'rho' ? 1 : range || 1);
-  const edge = traceLaunchEdge(y, ic, bStart);
-  const { iFall, looksPulse } = launchFall(y, edge, pulseHintSamples);
+  if (ic < 0) return null;
+  const edge = traceLaunchEdge(y, ic, lv.bStart);
+  const { iFall, looksPulse } = launchFall(y, edge, hint);
   const mode: Mode = modeOpt === 'auto' ? (looksPulse ? 'pulse' : 'step') : modeOpt;
   const { height, settleIdx } = launchLevels(y, edge, mode, iFall);
   return {
     found: true,
+    onsetInRecord: true,
     settleIdx,
     idx: edge.i10,
     sign: edge.sign,
@@ -169,6 +269,40 @@ export function findLaunch(rec: TraceRecord, modeOpt: 'auto' | Mode, pulseHintSa
     modeDetected: modeOpt === 'auto',
     riseSamples: edge.riseSamples,
     widthSamples: mode === 'pulse' && iFall > 0 ? iFall - ic : null,
-    zeroIdx,
+    zeroIdx: lv.zeroIdx,
+    clipped: isClipped(y, edge.i10, Math.min(n, settleIdx + 1), edge.sign),
   };
+}
+
+/** A ρ trace: a launch at −1 before it, a launch pulse of about +1, or no launch (reference plane). */
+function rhoLaunch(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hint: number | null): Launch {
+  const { y, n } = rec;
+  if (modeOpt !== 'step') {
+    const before = launchBeforeRecord(rec, lv, true);
+    if (before && before.height >= 0.5) return { ...before, modeDetected: modeOpt === 'auto' };
+    const inRecord = launchInRecord(rec, lv, 'auto', hint);
+    if (inRecord && inRecord.mode === 'pulse' && inRecord.height >= 0.5 && inRecord.idx < 0.3 * n) {
+      return { ...inRecord, modeDetected: modeOpt === 'auto' };
+    }
+  }
+  const from = Math.min(n - 5, Math.max(0, Math.ceil(lv.zeroIdx)));
+  const base = sampleMedian(y, from, Math.min(n, from + Math.max(5, Math.min(200, Math.floor(n / 100)))));
+  return noLaunch(rec, lv, modeOpt, Number.isFinite(base) ? base : 0, 1);
+}
+
+export function findLaunch(rec: TraceRecord, modeOpt: 'auto' | Mode, pulseHintSamples: number | null): Launch {
+  const lv = recordLevels(rec);
+  if (rec.unit === 'rho' && Math.abs(lv.bStart + 1) > 0.35) return rhoLaunch(rec, lv, modeOpt, pulseHintSamples);
+  if (modeOpt !== 'step') {
+    const before = launchBeforeRecord(rec, lv, false);
+    if (before) return { ...before, modeDetected: modeOpt === 'auto' };
+  }
+  if (rec.unit === 'V' && Math.abs(lv.bStart) > 0.35 * lv.range && Math.sign(lv.bStart) === Math.sign(lv.hi + lv.lo)) {
+    // The record begins after the launch, at the incident level.
+    return noLaunch(rec, lv, modeOpt, 0, lv.bStart);
+  }
+  return (
+    launchInRecord(rec, lv, modeOpt, pulseHintSamples) ??
+    noLaunch(rec, lv, modeOpt, lv.bStart, rec.unit === 'rho' ? 1 : lv.range || 1)
+  );
 }

@@ -22,9 +22,14 @@ export interface Timebase {
   zeroShift: number;
 }
 
-/** The instrument edge's onset offset, taken from the sharpest event (reference-plane traces only). */
+/**
+ * The instrument edge's onset offset, taken from the sharpest event, for traces whose
+ * time zero is the axis zero at the launch's 50 % point. A pulse record's echoes are
+ * timed on its running integral, whose ramp starts at the echo's own 50 % point, so
+ * they need none.
+ */
 export function referencePlaneShift(L: Launch, merged: Measured[]): number {
-  if (L.found || merged.length === 0) return 0;
+  if (L.onsetInRecord || merged.length === 0 || L.mode === 'pulse') return 0;
   return Math.min(...merged.map((m) => Math.max(0, m.t50Idx - m.onsetIdx)));
 }
 
@@ -59,7 +64,7 @@ function doubletTiming(tb: Timebase, m: Measured): { onsetIdx: number; zeroIdx: 
 
 /** Round trip of an event, in samples. */
 export function roundTripSamples(tb: Timebase, m: Measured): number {
-  if (tb.signal.mode === 'pulse' && m.blip && tb.launch.found) {
+  if (tb.signal.mode === 'pulse' && m.blip && tb.launch.found && tb.launch.onsetInRecord) {
     const d = doubletTiming(tb, m);
     if (d) return d.onsetIdx - d.zeroIdx;
   }

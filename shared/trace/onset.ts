@@ -66,7 +66,7 @@ export function launchOnsetTimer(L: Launch, sig: WorkingSignal): (fLo: number) =
   const { us, mode } = sig;
   const n = us.length;
   return (fLo) => {
-    if (!L.found) return L.zeroIdx;
+    if (!L.found || !L.onsetInRecord) return L.zeroIdx;
     const cached = cache.get(fLo);
     if (cached !== undefined) return cached;
     const preEnd = Math.max(1, L.idx - 1);

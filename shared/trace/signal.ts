@@ -49,6 +49,8 @@ function pulseSignal(rec: TraceRecord, L: Launch): { u: Float64Array; pulseRaw: 
     const from = Math.max(0, L.idx - 2 * L.riseSamples);
     const to = Math.min(n - 1, L.settleIdx);
     unitArea = u[to] - u[from];
+    // A launch that began before the record: add the part before it, from its width at half height.
+    if (!L.onsetInRecord && L.widthSamples !== null) unitArea = Math.max(unitArea, L.widthSamples);
     if (!(unitArea > 0)) unitArea = L.widthSamples ?? 1;
   }
   for (let i = 0; i < n; i++) u[i] /= unitArea;

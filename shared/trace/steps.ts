@@ -30,8 +30,15 @@ export interface Launch {
   modeDetected: boolean;
   riseSamples: number;
   widthSamples: number | null;
-  /** For the no-launch case: index of time zero (fractional). */
+  /** Index of time zero on the trace's own axis (fractional). */
   zeroIdx: number;
+  /**
+   * False when the launch's leading edge is not in the record (the record starts during
+   * the launch): time zero is then the axis zero, as for a reference-plane trace.
+   */
+  onsetInRecord: boolean;
+  /** The launch reaches the recorder's limit: a flat top at the record's extreme. */
+  clipped: boolean;
 }
 
 /**
@@ -74,7 +81,15 @@ export interface Measured {
   onsetIdx: number;
   t50Idx: number;
   riseSamples: number;
+  /**
+   * Step height in ρ at the instrument: the line's own ρ times the transmission of
+   * everything in front of it. Corrected for the cable's loss when `lossCorrected`.
+   */
   height: number;
+  /** The height as read from the trace, before any loss correction (default: `height`). */
+  heightRaw?: number;
+  /** True when the edge fit modelled the cable's loss and `height` is corrected for it. */
+  lossCorrected?: boolean;
   peakDev: number;
   blip: boolean;
   snr: number;
