@@ -14,6 +14,9 @@
  *    width + 2 rises; step: 2 rises) plus 2 samples;
  *  - not resolved: it arrives within one edge plus 2 samples of an earlier
  *    expected event, or closer than twice the distance tolerance to it;
+ *  - masked: it is under 3 % of an earlier event's size (both as seen at the
+ *    port) that arrives less than 5 edges before it, whose lossy tail it
+ *    sits on;
  *  - below the noise: its expected amplitude A after loss is under 6 σeff.
  *    A is |ρ seen| · V+ times the pulse's lossy peak ratio (pulse) or the
  *    fraction of the step reached before the next event or the record's end
@@ -403,6 +406,7 @@ export function drawCase(seed: number, index: number, prefix: string): Sim2Case 
   const evs = [...phys.events].sort((a, b) => a.delayS - b.delayS);
   let lastT = -Infinity;
   let lastD = -Infinity;
+  const seenBefore: Array<{ t: number; seen: number }> = [];
   for (const ev of evs) {
     const t = 2 * ev.delayS;
     // A change between two cables of nearly the same impedance is no event.
@@ -414,6 +418,8 @@ export function drawCase(seed: number, index: number, prefix: string): Sim2Case 
     else if (t < edgeS + 2 * su.dtOutS) why = 'inside the launch';
     else if (t - lastT < edgeS + 2 * su.dtOutS || ev.distanceM - lastD < 2 * tolerance(ev.distanceM))
       why = 'not resolved from the event before';
+    else if (seenBefore.some((b) => t - b.t < 5 * edgeS && Math.abs(seen) < 0.03 * Math.abs(b.seen)))
+      why = 'masked by the tail of a larger echo before it';
     let rhoCheck = !rec.clipped;
     if (ev.spanS !== undefined && 2 * ev.spanS < edgeS) {
       rhoCheck = false;
@@ -450,6 +456,7 @@ export function drawCase(seed: number, index: number, prefix: string): Sim2Case 
     });
     lastT = t;
     lastD = ev.distanceM;
+    seenBefore.push({ t, seen });
   }
   // Multiple reflections: arrivals after three or more bounces, merged within a tolerance.
   const echoes: Sim2Echo[] = [];
