@@ -94,25 +94,6 @@ function raggedError(spec: BodySpec, got: number, line: number): TraceInputError
   );
 }
 
-class Growable {
-  data: Float64Array;
-  length = 0;
-  constructor(n: number) {
-    this.data = new Float64Array(Math.max(16, n));
-  }
-  push(v: number) {
-    if (this.length === this.data.length) {
-      const next = new Float64Array(this.data.length * 2);
-      next.set(this.data);
-      this.data = next;
-    }
-    this.data[this.length++] = v;
-  }
-  result(): Float64Array {
-    return this.length === this.data.length ? this.data : this.data.subarray(0, this.length);
-  }
-}
-
 /** Line numbers of rows, stored only where a row is not on the next line (blank or comment lines skipped). */
 class LineMap {
   private jumpsRow: number[] = [];
@@ -140,16 +121,33 @@ class LineMap {
   }
 }
 
-/** The columns kept so far, with the line of every row; both readers fill the same store. */
+/**
+ * The columns kept so far, with the line of every row; both readers fill the
+ * same store. Values are written by row, so a row abandoned half-way is
+ * simply written over by the next one.
+ */
 export class RowStore {
-  readonly cols: Growable[];
+  /** One array per kept column, with room for `capacity` rows. */
+  data: Float64Array[];
   readonly lines: LineMap;
   rows = 0;
   firstRowLine = -1;
   lastRowLine = -1;
   constructor(private readonly spec: BodySpec) {
-    this.cols = spec.keep.map(() => new Growable(spec.rowEstimate));
+    const capacity = Math.max(16, spec.rowEstimate);
+    this.data = spec.keep.map(() => new Float64Array(capacity));
     this.lines = new LineMap(spec.firstLine);
+  }
+  get capacity(): number {
+    return this.data[0].length;
+  }
+  /** Double the room when the estimate was short (one copy). */
+  grow() {
+    this.data = this.data.map((d) => {
+      const next = new Float64Array(d.length * 2);
+      next.set(d);
+      return next;
+    });
   }
   /** A row has been read in full from `line`. */
   endRow(line: number) {
@@ -158,14 +156,12 @@ export class RowStore {
     this.lastRowLine = line;
     this.rows++;
   }
-  /** Forget the values of a row that was not finished. */
-  dropPartialRow() {
-    for (const g of this.cols) g.length = this.rows;
-  }
   result(reader: BodyColumns['reader']): BodyColumns {
+    const rows = this.rows;
     return {
-      columns: this.cols.map((g) => g.result()),
-      rows: this.rows,
+      // A view of the rows read, not a copy.
+      columns: this.data.map((d) => (rows === d.length ? d : d.subarray(0, rows))),
+      rows,
       firstRowLine: this.firstRowLine,
       lastRowLine: this.lastRowLine,
       lineOfRow: (r) => this.lines.lineOf(r),
@@ -210,14 +206,16 @@ export function readBodyFast(spec: BodySpec, store: RowStore): Resume | null {
   const decCode = decimalComma ? 44 : 46;
   const keepSlot = new Int32Array(columnCount).fill(-1);
   spec.keep.forEach((col, k) => (keepSlot[col] = k));
-  const cols = store.cols;
+  // Up to two kept columns (x and amplitude), written straight into the store's arrays.
+  let col0 = store.data[0];
+  let col1 = store.data.length > 1 ? store.data[1] : col0;
+  let capacity = store.capacity;
+  let row = store.rows;
   let i = spec.start;
   let line = spec.firstLine;
   let lineStart = i;
-  const decline = (): Resume => {
-    store.dropPartialRow();
-    return { pos: lineStart, line };
-  };
+  const decline = (): Resume => ({ pos: lineStart, line });
+  if (spec.keep.length > 2) return decline();
 
   while (i < n) {
     // Content may run to lim - 1; the byte at lim - 1 may also be the line's CR or LF.
@@ -243,6 +241,12 @@ export function readBodyFast(spec: BodySpec, store: RowStore): Resume | null {
       if (i < n) throw lineTooLong(b, lineStart, line, maxLine, 'a row of numbers');
       break;
     }
+    if (row === capacity) {
+      store.grow();
+      col0 = store.data[0];
+      col1 = store.data.length > 1 ? store.data[1] : col0;
+      capacity = store.capacity;
+    }
     let field = 0;
     for (;;) {
       // One number.
@@ -252,36 +256,33 @@ export function readBodyFast(spec: BodySpec, store: RowStore): Resume | null {
         neg = c === 45;
         c = ++i < lim ? b[i] : END;
       }
+      // Digits go into an integer mantissa while it stays below 10^15, so it is
+      // exact (under 2^53); leading zeros leave it at 0. Any further digit makes
+      // the number inexact here, and it is converted from its text instead.
       let mant = 0;
-      let digits = 0;
-      let sig = 0;
       let scale = 0;
       let exact = true;
+      const digitsFrom = i;
       while (c >= 48 && c <= 57) {
-        if (sig > 0 || c !== 48) {
-          if (sig < 15) mant = mant * 10 + (c - 48);
-          else {
-            exact = false;
-            scale++;
-          }
-          sig++;
+        if (mant < 1e14) mant = mant * 10 + (c - 48);
+        else {
+          exact = false;
+          scale++;
         }
-        digits++;
         c = ++i < lim ? b[i] : END;
       }
+      let digits = i - digitsFrom;
       if (c === decCode || c === 46) {
         c = ++i < lim ? b[i] : END;
+        const fractionFrom = i;
         while (c >= 48 && c <= 57) {
-          if (sig > 0 || c !== 48) {
-            if (sig < 15) {
-              mant = mant * 10 + (c - 48);
-              scale--;
-            } else exact = false;
-            sig++;
-          } else scale--;
-          digits++;
+          if (mant < 1e14) {
+            mant = mant * 10 + (c - 48);
+            scale--;
+          } else exact = false;
           c = ++i < lim ? b[i] : END;
         }
+        digits += i - fractionFrom;
       }
       if (digits === 0) {
         if (c === END && i < n) throw lineTooLong(b, lineStart, line, maxLine, 'a row of numbers');
@@ -315,7 +316,8 @@ export function readBodyFast(spec: BodySpec, store: RowStore): Resume | null {
       } else v = slowNumber(b, fieldStart, i, decimalComma);
       if (!Number.isFinite(v)) return decline();
       const slot = field < columnCount ? keepSlot[field] : -1;
-      if (slot >= 0) cols[slot].push(v);
+      if (slot === 0) col0[row] = v;
+      else if (slot === 1) col1[row] = v;
       field++;
       // After a number: blanks, then a delimiter or the end of the line.
       const before = i;
@@ -335,6 +337,7 @@ export function readBodyFast(spec: BodySpec, store: RowStore): Resume | null {
     if (c !== LF && c !== CR && c !== END) return decline();
     if (field !== columnCount) throw raggedError(spec, field, line);
     store.endRow(line);
+    row++;
     if (c === CR && b[i + 1] === LF) i++;
     i++;
     line++;
@@ -365,9 +368,10 @@ function storeRow(spec: BodySpec, store: RowStore, slotOf: Int32Array, cells: st
   if (cells.length > 1 && cells[cells.length - 1].trim() === '') cells = cells.slice(0, -1);
   if (cells.length === 1 && cells[0].trim() === '') return;
   if (cells.length !== spec.columnCount) throw raggedError(spec, cells.length, line);
+  if (store.rows === store.capacity) store.grow();
   for (let k = 0; k < cells.length; k++) {
     const v = numberFromField(cells[k], spec.decimalComma, line, columnLabel(spec.columnNames, k));
-    if (slotOf[k] >= 0) store.cols[slotOf[k]].push(v);
+    if (slotOf[k] >= 0) store.data[slotOf[k]][store.rows] = v;
   }
   store.endRow(line);
 }

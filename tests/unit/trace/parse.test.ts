@@ -7,6 +7,7 @@ import {
   parseTraceCsv,
   TraceInputError,
 } from '../../../shared/trace';
+import { readBody } from '../../../shared/trace/numeric-rows';
 
 const N = 20;
 const col = (f: (i: number) => string) => Array.from({ length: N }, (_, i) => f(i));
@@ -170,6 +171,31 @@ describe('parseTraceCsv layouts', () => {
     expect(mixed.timeS.length).toBe(500);
     expect(mixed.amplitude[398]).toBeCloseTo(Math.cos(398) / 10, 7); // mV to V
     expect(mixed.layout.lastDataLine).toBe(503);
+  });
+
+  it('grows its arrays when the row estimate is short, in both readers', () => {
+    const text = ['time_ns,voltage_V', ...Array.from({ length: 100 }, (_, i) => `${i},${i / 2}`)].join('\n');
+    const bytes = new TextEncoder().encode(text);
+    for (const general of [false, true]) {
+      const body = readBody(
+        {
+          bytes,
+          start: 'time_ns,voltage_V\n'.length,
+          firstLine: 2,
+          delimiter: ',',
+          decimalComma: false,
+          columnCount: 2,
+          keep: [1, 0],
+          columnNames: ['time_ns', 'voltage_V'],
+          rowEstimate: 3,
+        },
+        general,
+      );
+      expect(body.rows).toBe(100);
+      expect(body.lastRowLine).toBe(101);
+      expect(Array.from(body.columns[0])).toEqual(Array.from({ length: 100 }, (_, i) => i / 2));
+      expect(Array.from(body.columns[1])).toEqual(Array.from({ length: 100 }, (_, i) => i));
+    }
   });
 
   it('reads numbers exactly as JavaScript does', () => {
