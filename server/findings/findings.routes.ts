@@ -1,8 +1,10 @@
+import { FindingReverseSchema } from '../../shared/schemas/finding-decisions';
 import { FindingInputSchema, FindingListQuerySchema, TwoEndedQuerySchema } from '../../shared/schemas/findings';
 import { IdParam } from '../http/params';
 import { currentUser } from '../auth/guards';
 import type { AppContext } from '../context';
 import { ApiRouter, handle } from '../http/api-router';
+import * as decisions from './decisions.service';
 import * as findings from './findings.service';
 
 export function findingRoutes(ctx: AppContext) {
@@ -19,6 +21,12 @@ export function findingRoutes(ctx: AppContext) {
     }),
   );
   r.get('/:id', 'findings:read', handle((req) => findings.getFinding(IdParam.parse(req.params).id)));
+  r.get('/:id/decisions', 'findings:read', handle((req) => decisions.decisionHistory(IdParam.parse(req.params).id)));
+  r.post(
+    '/:id/reverse',
+    'findings:review',
+    handle((req) => decisions.reverseDecision(ctx, IdParam.parse(req.params).id, FindingReverseSchema.parse(req.body), currentUser(req))),
+  );
   r.get('/:id/two-ended', 'findings:read', handle(async (req) => ({ twoEnded: await findings.twoEndedFor(IdParam.parse(req.params).id) })));
   return r;
 }

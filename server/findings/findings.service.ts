@@ -2,10 +2,11 @@ import { Op, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { describeRoutePosition, distanceFromA, metresText, routePosition } from '../../shared/field/route-position';
 import { twoEndedLocation } from '../../shared/field/two-ended';
+import { can } from '../../shared/auth/permissions';
 import type { FindingInputSchema, FindingListQuerySchema, FindingView, TwoEndedView } from '../../shared/schemas/findings';
 import type { Page } from '../../shared/schemas/users';
 import type { AppContext } from '../context';
-import { CableRun, Finding, RouteMarker, Site, Trace, User } from '../db/models';
+import { CableRun, Finding, FindingDecision, RouteMarker, Site, Trace, User } from '../db/models';
 import { AppError } from '../errors';
 import { emitFindingConfirmed } from './events';
 
@@ -90,11 +91,25 @@ export async function recordFinding(ctx: AppContext, input: FindingInput, userId
         fields: [{ field: 'traceId', message: 'the trace was not readable' }],
       });
     }
+    // The decision on an event belongs to whoever uploaded the trace, or to a supervisor.
+    const actor = await User.findByPk(userId, { transaction });
+    if (!actor) throw AppError.unauthenticated();
+    if (trace.uploadedById !== userId && !can(actor.role, 'findings:review')) {
+      const uploader = await User.findByPk(trace.uploadedById, { attributes: ['name'], transaction });
+      throw new AppError(
+        403,
+        'not_your_trace',
+        `Trace ${trace.id} was uploaded by ${uploader?.name ?? 'someone else'}: deciding its events is theirs or a supervisor's.`,
+      );
+    }
     const existing = await Finding.findOne({ where: { traceId: trace.id, eventIndex: input.eventIndex }, transaction });
     if (existing) {
-      throw new AppError(409, 'already_decided', `Event ${input.eventIndex} of this trace was already ${existing.status} (finding ${existing.id}).`, {
-        findingId: existing.id,
-      });
+      throw new AppError(
+        409,
+        'already_decided',
+        `Event ${input.eventIndex} of this trace was already ${existing.status} (finding ${existing.id}); a supervisor can reverse that with a reason.`,
+        { findingId: existing.id },
+      );
     }
     const { event, run, pos, text } = await placeEvent(trace, input.eventIndex);
     const finding = await Finding.create(
@@ -117,6 +132,10 @@ export async function recordFinding(ctx: AppContext, input: FindingInput, userId
         confirmedById: userId,
         confirmedAt: new Date(),
       },
+      { transaction },
+    );
+    await FindingDecision.create(
+      { findingId: finding.id, action: 'decided', fromStatus: null, toStatus: input.status, kind: input.kind, reason: null, decidedById: userId },
       { transaction },
     );
     return finding.id;

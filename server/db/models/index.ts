@@ -7,6 +7,7 @@ import { initOutboxMessage } from './outbox-message';
 import { CableRun, initCableRun } from './cable-run';
 import { associateFieldModels } from './field-associations';
 import { Finding, initFinding } from './finding';
+import { associateFindingDecision, initFindingDecision } from './finding-decision';
 import { initRouteMarker } from './route-marker';
 import { initSession } from './session';
 import { initSite, Site } from './site';
@@ -32,6 +33,7 @@ export function initModels(sequelize: Sequelize) {
   initTrace(sequelize);
   initUploadReceipt(sequelize);
   initFinding(sequelize);
+  initFindingDecision(sequelize);
   associateFieldModels();
   initMailJob(sequelize);
   initOutboxMessage(sequelize);
@@ -42,6 +44,7 @@ export function initModels(sequelize: Sequelize) {
   associateTicketModels({ User, Site, CableRun, Finding });
   associateCableTypeChange({ CableType, User });
   associateCableCalibration({ CableType, User });
+  associateFindingDecision({ User });
 }
 
 export { User } from './user';
@@ -58,4 +61,5 @@ export { RouteMarker } from './route-marker';
 export { Trace } from './trace';
 export { UploadReceipt } from './upload-receipt';
 export { Finding } from './finding';
+export { FindingDecision } from './finding-decision';
 export { Ticket, TicketFinding, TicketEvent, TicketCloseout } from './ticket';

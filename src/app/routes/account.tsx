@@ -42,8 +42,8 @@ export function AccountPage() {
         <Card title="Password">
           <form onSubmit={submit} className="space-y-3">
             <TextField label="Current password" type="password" autoComplete="current-password" value={current} onChange={(e) => setCurrent(e.target.value)} error={errors.currentPassword} required />
-            <TextField label="New password" type="password" autoComplete="new-password" value={next} onChange={(e) => setNext(e.target.value)} error={errors.newPassword} hint="At least 10 characters." required />
-            {change.isSuccess && <Notice tone="ok">Password changed.</Notice>}
+            <TextField label="New password" type="password" autoComplete="new-password" value={next} onChange={(e) => setNext(e.target.value)} error={errors.newPassword} hint="At least 10 characters, hard to guess: a few unrelated words work well. Not your name or e-mail address." required />
+            {change.isSuccess && <Notice tone="ok">Password changed. Rholog signed you out everywhere else.</Notice>}
             {change.error && !Object.keys(errors).length && <Notice tone="danger">{change.error.message}</Notice>}
             <Button type="submit" disabled={change.isPending}>
               Change password

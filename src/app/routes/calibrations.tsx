@@ -21,20 +21,40 @@ const TABS: Array<{ status: CalibrationStatus | 'all'; label: string }> = [
 ];
 
 function Decide({ c }: { c: CalibrationView }) {
+  const { user, can } = useSession();
   const accept = useAcceptCalibration();
   const reject = useRejectCalibration();
   const [note, setNote] = useState('');
   const [rejecting, setRejecting] = useState(false);
-  const errors = fieldErrors(reject.error);
+  const errors = { ...fieldErrors(accept.error), ...fieldErrors(reject.error) };
+  // Four eyes: whoever filed a calibration does not accept it, except an administrator who gives the reason.
+  const own = c.submittedBy?.id === user.id;
+  const override = own && can('calibrations:override');
   return (
     <div className="space-y-2">
-      <TextField label={rejecting ? 'Why reject it' : 'Note (optional)'} value={note} onChange={(e) => setNote(e.target.value)} error={errors.reason} />
+      {own && (
+        <p className="text-sm text-ink-soft">
+          You filed this calibration, so another planner accepts it.
+          {override ? ' As an administrator you may accept it yourself: say why in the note (kept in the library history).' : ''}
+        </p>
+      )}
+      <TextField
+        label={rejecting ? 'Why reject it' : override ? 'Why you accept your own calibration' : 'Note (optional)'}
+        value={note}
+        onChange={(e) => setNote(e.target.value)}
+        error={rejecting ? errors.reason : errors.note}
+      />
       <div className="flex flex-wrap gap-2">
         {!rejecting ? (
           <>
-            <Button onClick={() => accept.mutate({ id: c.id, note: note.trim() || undefined })} disabled={accept.isPending}>
-              Accept into the library
-            </Button>
+            {(!own || override) && (
+              <Button
+                onClick={() => accept.mutate({ id: c.id, note: note.trim() || undefined })}
+                disabled={accept.isPending || (override && note.trim().length < 10)}
+              >
+                {override ? 'Accept my own, with this reason' : 'Accept into the library'}
+              </Button>
+            )}
             <Button variant="secondary" onClick={() => setRejecting(true)}>
               Reject…
             </Button>
@@ -50,7 +70,7 @@ function Decide({ c }: { c: CalibrationView }) {
           </>
         )}
       </div>
-      {accept.error && <ErrorNotice error={accept.error} />}
+      {accept.error && !errors.note && <ErrorNotice error={accept.error} />}
       {reject.error && !errors.reason && <ErrorNotice error={reject.error} />}
     </div>
   );

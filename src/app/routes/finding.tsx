@@ -7,6 +7,7 @@ import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useSession } from '../../features/auth/use-session';
 import { useFinding } from '../../features/findings/api/get-finding';
 import { useFindingTwoEnded } from '../../features/findings/api/get-two-ended';
+import { DecisionHistory } from '../../features/findings/components/decision-history';
 import { DistanceBlock } from '../../features/findings/components/where-to-dig';
 import { formatDateTime, formatLength } from '../../lib/format';
 import { paths } from '../paths';
@@ -108,6 +109,7 @@ export function FindingPage() {
               <dd>{f.engineVersion}</dd>
             </dl>
           </Card>
+          <DecisionHistory finding={f} mayReverse={can('findings:review')} />
         </div>
         <SafetyCaution />
       </div>

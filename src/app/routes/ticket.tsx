@@ -119,9 +119,9 @@ export function TicketPage() {
           {t.assignee ? `Assigned to ${t.assignee.name}` : 'Nobody assigned'} · {t.dueDate ? `due ${formatDate(t.dueDate)}` : 'no due date'}
         </span>
       </div>
-      {failing.length > 0 && (
+      {(failing.length > 0 || t.mailTrouble) && (
         <Notice tone="danger" title="An e-mail about this ticket has not been delivered" className="mb-4">
-          {failing[0].lastError} — Rholog keeps trying; the ticket itself is saved. Tell the people concerned another way if it is urgent.
+          {failing[0] ? `${failing[0].lastError} — ` : ''}Rholog keeps trying; the ticket itself is saved. Tell the people concerned another way if it is urgent.
         </Notice>
       )}
       <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
@@ -206,19 +206,22 @@ export function TicketPage() {
               <EditTicketForm key={t.updatedAt} ticket={t} />
             </Card>
           )}
-          <Card title="E-mail about this ticket">
-            {t.mail.length === 0 ? (
-              <p className="text-sm text-mist">None sent yet.</p>
-            ) : (
-              <ul className="space-y-3">
-                {t.mail.map((m) => (
-                  <li key={m.id}>
-                    <MailStatusLine job={m} />
-                  </li>
-                ))}
-              </ul>
-            )}
-          </Card>
+          {/* Recipients, delivery state and relay errors are for those who may read the Outbox. */}
+          {can('outbox:read') && (
+            <Card title="E-mail about this ticket">
+              {t.mail.length === 0 ? (
+                <p className="text-sm text-mist">None sent yet.</p>
+              ) : (
+                <ul className="space-y-3">
+                  {t.mail.map((m) => (
+                    <li key={m.id}>
+                      <MailStatusLine job={m} />
+                    </li>
+                  ))}
+                </ul>
+              )}
+            </Card>
+          )}
         </div>
       </div>
     </>

@@ -42,7 +42,7 @@ function likelyFault(events: ReflectionEvent[], installedLengthM: number): Refle
 
 export function TracePage() {
   const id = Number(useParams().traceId);
-  const { unit, can } = useSession();
+  const { unit, can, user } = useSession();
   const trace = useTrace(id);
   const setRef = useSetReference();
   const reanalyse = useReanalyseTrace();
@@ -178,8 +178,14 @@ export function TracePage() {
                         finding {decided.get(selected.index)!.id}
                       </Link>
                     </p>
+                  ) : can('findings:confirm') && (t.uploadedBy.id === user.id || can('findings:review')) ? (
+                    <DecideEvent key={selected.index} traceId={t.id} eventIndex={selected.index} type={selected.type} findingLink={paths.finding.to} />
                   ) : (
-                    can('findings:confirm') && <DecideEvent key={selected.index} traceId={t.id} eventIndex={selected.index} type={selected.type} findingLink={paths.finding.to} />
+                    can('findings:confirm') && (
+                      <p className="text-sm text-mist">
+                        {t.uploadedBy.name} uploaded this trace: deciding its events is theirs or a supervisor&rsquo;s.
+                      </p>
+                    )
                   )}
                 </div>
               </Card>

@@ -1,0 +1,95 @@
+import type { Transaction } from 'sequelize';
+import type { z } from 'zod';
+import type { FindingDecisionView, FindingReverseSchema } from '../../shared/schemas/finding-decisions';
+import type { FindingStatus, FindingView } from '../../shared/schemas/findings';
+import { OPEN_STATUSES } from '../../shared/tickets/status';
+import type { SessionUser } from '../auth/guards';
+import type { AppContext } from '../context';
+import { Finding, FindingDecision, Ticket, TicketFinding } from '../db/models';
+import { AppError } from '../errors';
+import { emitFindingConfirmed } from './events';
+import { getFinding } from './findings.service';
+
+export function decisionView(d: FindingDecision): FindingDecisionView {
+  return {
+    id: d.id,
+    action: d.action,
+    fromStatus: d.fromStatus,
+    toStatus: d.toStatus,
+    kind: d.kind,
+    reason: d.reason,
+    decidedBy: { id: d.decidedById, name: d.decidedBy?.name ?? `user ${d.decidedById}` },
+    at: new Date(d.createdAt).toISOString(),
+  };
+}
+
+/** An event's decisions, oldest first: the first one and every reversal with its reason. */
+export async function decisionHistory(findingId: number): Promise<FindingDecisionView[]> {
+  if (!(await Finding.findByPk(findingId, { attributes: ['id'] }))) throw AppError.notFound(`Finding ${findingId}`);
+  const rows = await FindingDecision.findAll({
+    where: { findingId },
+    include: [{ association: 'decidedBy', attributes: ['id', 'name'] }],
+    order: [
+      ['createdAt', 'ASC'],
+      ['id', 'ASC'],
+    ],
+  });
+  return rows.map(decisionView);
+}
+
+/**
+ * A supervisor turns a confirmed event into a dismissed one, or a dismissed one
+ * into a confirmed fault, with a reason kept in the event's history. A fault
+ * on an open repair ticket is not dismissed under the crew's feet: the ticket
+ * is withdrawn or closed first. A new confirmation tells the site's
+ * supervisors, as a first one does.
+ */
+export async function reverseDecision(
+  ctx: AppContext,
+  findingId: number,
+  input: z.output<typeof FindingReverseSchema>,
+  reviewer: SessionUser,
+): Promise<{ finding: FindingView; history: FindingDecisionView[] }> {
+  const to = await ctx.sequelize.transaction(async (transaction) => {
+    const finding = await Finding.findByPk(findingId, { transaction });
+    if (!finding) throw AppError.notFound(`Finding ${findingId}`);
+    const from = finding.status;
+    const to: FindingStatus = from === 'confirmed' ? 'dismissed' : 'confirmed';
+    let kind: string;
+    if (to === 'dismissed') {
+      const openTicketIds = await openTicketsOf(findingId, transaction);
+      if (openTicketIds.length) {
+        throw new AppError(
+          409,
+          'on_open_ticket',
+          `Finding ${findingId} is on open repair ticket${openTicketIds.length > 1 ? 's' : ''} #${openTicketIds.join(', #')}: withdraw or close the ticket before dismissing it.`,
+        );
+      }
+      kind = input.kind ?? 'not-a-fault';
+    } else {
+      const faultKind = input.kind ?? (finding.kind !== 'not-a-fault' ? finding.kind : undefined);
+      if (!faultKind || faultKind === 'not-a-fault') {
+        throw AppError.badRequest('kind_required', 'Say what kind of fault the event is when confirming it.', {
+          fields: [{ field: 'kind', message: 'is required: what kind of fault it is' }],
+        });
+      }
+      kind = faultKind;
+    }
+    await finding.update({ status: to, kind, confirmedById: reviewer.id, confirmedAt: new Date() }, { transaction });
+    await FindingDecision.create(
+      { findingId, action: 'reversed', fromStatus: from, toStatus: to, kind, reason: input.reason, decidedById: reviewer.id },
+      { transaction },
+    );
+    return to;
+  });
+  ctx.security('finding-reversed', { findingId, actorId: reviewer.id, to, reason: input.reason });
+  if (to === 'confirmed') emitFindingConfirmed(findingId, ctx.log);
+  return { finding: await getFinding(findingId), history: await decisionHistory(findingId) };
+}
+
+async function openTicketsOf(findingId: number, transaction: Transaction): Promise<number[]> {
+  const links = await TicketFinding.findAll({ where: { findingId }, attributes: ['ticketId'], transaction });
+  if (!links.length) return [];
+  const tickets = await Ticket.findAll({ where: { id: links.map((l) => l.ticketId), status: [...OPEN_STATUSES] }, attributes: ['id'], transaction });
+  return tickets.map((t) => t.id);
+}
