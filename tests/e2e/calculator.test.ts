@@ -128,4 +128,42 @@ describe('the VF calculator in the browser', () => {
       await page.close();
     }
   });
+
+  it('works in inches and feet for a planner who reads lengths in feet', async () => {
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, PLANNER);
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/account`);
+    await Promise.all([
+      page.waitForResponse((r) => r.request().method() !== 'GET' && r.ok()),
+      page.getByLabel('Show lengths in').selectOption('ft'),
+    ]);
+    try {
+      await page.goto(`${e2e.baseUrl}/cables/calculator`);
+      await page.getByRole('heading', { name: 'VF calculator' }).waitFor();
+      const strip = card(page, 'Stripline');
+      // Pozar's 50 Ω example in inches: W = 0.266 cm = 0.1047 in, b = 0.32 cm = 0.126 in (1 in = 2.54 cm exactly).
+      expect(await strip.getByLabel('Strip width W (in)').inputValue()).toBe('0.1047');
+      const text = (await strip.getByTestId('calc-stripline').textContent()) ?? '';
+      expect(text).toMatch(/Z0(49\.9|50\.0)\d* Ω/);
+      // c/√2.2 = 202.12 m/µs = 663.1 ft/µs; per-length values per foot.
+      expect(text).toContain('c/√(εr·μr)663.1 ft/µs');
+      expect(text).toMatch(/L\d+(\.\d+)? nH\/ft/);
+      expect(text).toContain('s²/ft²');
+      expect(text).not.toMatch(/\/m\b|m\/µs|mm|m²/);
+      for (const title of ['Twisted pair', 'Shielded pair', 'Two dielectrics']) {
+        const c = card(page, title);
+        expect(await c.locator('[data-testid^="calc-"]').first().textContent()).toContain('ft/µs');
+        expect(await c.getByText(/\(mm\)/).count()).toBe(0);
+      }
+      await e2e.screenshot(page, 'calculator-phone-feet');
+    } finally {
+      await page.goto(`${e2e.baseUrl}/account`);
+      await Promise.all([
+        page.waitForResponse((r) => r.request().method() !== 'GET' && r.ok()),
+        page.getByLabel('Show lengths in').selectOption('m'),
+      ]);
+      await page.close();
+    }
+  });
 });

@@ -35,12 +35,15 @@ export function attempt<T>(fn: () => T): { value: T; error: null } | { value: nu
 
 export const sig = (v: number, digits = 4) => (Number.isFinite(v) ? Number(v.toPrecision(digits)).toString() : '—');
 
+/** The inch is a twelfth of the international foot. */
+const M_PER_IN = M_PER_FT / 12;
+
 /** Diameters and widths: millimetres, or inches for a planner working in feet. */
 export function smallLength(unit: LengthUnit) {
   return {
     label: unit === 'ft' ? 'in' : 'mm',
-    toM: (v: number) => (unit === 'ft' ? v * 0.0254 : v / 1000),
-    fromM: (m: number) => (unit === 'ft' ? m / 0.0254 : m * 1000),
+    toM: (v: number) => (unit === 'ft' ? v * M_PER_IN : v / 1000),
+    fromM: (m: number) => (unit === 'ft' ? m / M_PER_IN : m * 1000),
   };
 }
 
@@ -115,11 +118,11 @@ export function lcRows(
     [`c/√(${er}·μr)`, velocityText(SPEED_OF_LIGHT_M_PER_S / Math.sqrt(dielectric.epsilonR * dielectric.muR), unit)],
     ['VF = v/c', sig(r.vf)],
     ['Delay', unit === 'ft' ? `${sig(r.delayNsPerM * M_PER_FT)} ns/ft` : `${sig(r.delayNsPerM)} ns/m`],
-    ['L·C', `${sci(r.lc)} s²/m²`],
+    ['L·C', `${sci(r.lc * perLen * perLen)} s²/${unit}²`],
     [
       `μ·ε${dielectric.effective ? 'eff' : ''}`,
       <span key="me">
-        {sci(r.muEpsilon)} s²/m²
+        {sci(r.muEpsilon * perLen * perLen)} s²/{unit}²
         <span className="block text-xs font-normal text-mist">
           {dielectric.effective
             ? 'The geometry cancels out of L·C: only the effective εr of the mixed field is left.'
@@ -134,7 +137,7 @@ export function lcRows(
 export function FormulaNote({ formula }: { formula: FormulaSource }) {
   return (
     <details className="mt-3 rounded-md border border-rule text-sm" data-testid="formula-note">
-      <summary className="flex min-h-11 cursor-pointer items-center px-3 font-semibold text-ink-soft">
+      <summary className="flex min-h-11 cursor-pointer items-center px-3 py-2 font-semibold text-ink-soft">
         Formula: {formula.name}
       </summary>
       <div className="space-y-1 px-3 pb-3">
