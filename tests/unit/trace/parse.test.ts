@@ -115,8 +115,18 @@ describe('parseTraceCsv layouts', () => {
     expect(t.amplitude[3]).toBeCloseTo(0.003, 15);
   });
 
-  it('reads quoted fields through csv-parse', () => {
-    const t = parseTraceCsv(['"time_ns","voltage_V"', ...col((i) => `"${i}","${i / 4}"`)].join('\n'));
+  it('reads quoted numbers in the byte reader, exactly as csv-parse does', () => {
+    const text = ['"time_ns","voltage_V"', ...col((i) => `"${i}","${i / 4}"`)].join('\n');
+    const t = parseTraceCsv(text);
+    expect(t.layout.reader).toBe('fast');
+    expect(t.amplitude[2]).toBe(0.5);
+    const general = parseTraceCsv(text, { reader: 'csv-parse' });
+    expect(general.layout.reader).toBe('csv-parse');
+    expect({ ...general, layout: { ...general.layout, reader: 'fast' } }).toEqual(t);
+  });
+
+  it('reads quoted fields with blanks inside the quotes through csv-parse', () => {
+    const t = parseTraceCsv(['"time_ns","voltage_V"', ...col((i) => `" ${i}", "${i / 4} "`)].join('\n'));
     expect(t.layout.reader).toBe('csv-parse');
     expect(t.amplitude[2]).toBe(0.5);
   });
