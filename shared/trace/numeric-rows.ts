@@ -2,7 +2,7 @@
  * Reading the numeric body of a trace file: plain rows of numbers after the
  * header, straight from the file's bytes. Two readers give the same result:
  *  - a single pass over the bytes, used for plain rows (digits, signs,
- *    exponent, one decimal mark, delimiter): no string per line or per
+ *    exponent, one decimal mark, delimiter, numbers in double quotes): no string per line or per
  *    number, and the numbers go straight into the Float64Arrays the trace
  *    keeps. It declines (returns null) at anything else, so it never has to
  *    be right about quoting rules;
@@ -249,7 +249,9 @@ export function readBodyFast(spec: BodySpec, store: RowStore): Resume | null {
     }
     let field = 0;
     for (;;) {
-      // One number.
+      // One number, perhaps in double quotes as some spreadsheet exports write every field.
+      const quoted = c === 34;
+      if (quoted) c = ++i < lim ? b[i] : END;
       const fieldStart = i;
       let neg = false;
       if (c === 45 || c === 43) {
@@ -306,6 +308,11 @@ export function readBodyFast(spec: BodySpec, store: RowStore): Resume | null {
         scale += eneg ? -e : e;
       }
       if (c === END && i < n) throw lineTooLong(b, lineStart, line, maxLine, 'a row of numbers');
+      const fieldEnd = i;
+      if (quoted) {
+        if (c !== 34) return decline();
+        c = ++i < lim ? b[i] : END;
+      }
       let v: number;
       if (exact && scale >= -22 && scale <= 22) {
         // Clinger's fast path: an exact integer mantissa and an exact power of
@@ -313,7 +320,7 @@ export function readBodyFast(spec: BodySpec, store: RowStore): Resume | null {
         // (W. D. Clinger, "How to read floating point numbers accurately", PLDI 1990).
         v = scale >= 0 ? mant * POW10[scale] : mant / POW10[-scale];
         if (neg) v = -v;
-      } else v = slowNumber(b, fieldStart, i, decimalComma);
+      } else v = slowNumber(b, fieldStart, fieldEnd, decimalComma);
       if (!Number.isFinite(v)) return decline();
       const slot = field < columnCount ? keepSlot[field] : -1;
       if (slot === 0) col0[row] = v;

@@ -172,7 +172,7 @@ describe('parseTraceCsv layouts', () => {
       ...Array.from({ length: 500 }, (_, i) => `${i * 0.25};${(Math.cos(i) * 100).toFixed(4)}`),
     ];
     lines.splice(300, 0, '# a note in the middle', '');
-    lines[401] = `"${398 * 0.25}";"${(Math.cos(398) * 100).toFixed(4)}"`; // sample 398, quoted
+    lines[401] = `" ${398 * 0.25}";" ${(Math.cos(398) * 100).toFixed(4)}"`; // sample 398, blanks inside quotes
     const text = lines.join('\r\n');
     const mixed = parseTraceCsv(text);
     const general = parseTraceCsv(text, { reader: 'csv-parse' });
