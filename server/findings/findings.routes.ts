@@ -5,6 +5,7 @@ import { currentUser } from '../auth/guards';
 import type { AppContext } from '../context';
 import { ApiRouter, handle } from '../http/api-router';
 import * as decisions from './decisions.service';
+import { bestLocationFor } from './best-location';
 import * as findings from './findings.service';
 
 export function findingRoutes(ctx: AppContext) {
@@ -20,7 +21,14 @@ export function findingRoutes(ctx: AppContext) {
       return finding;
     }),
   );
-  r.get('/:id', 'findings:read', handle((req) => findings.getFinding(IdParam.parse(req.params).id)));
+  r.get(
+    '/:id',
+    'findings:read',
+    handle(async (req) => {
+      const id = IdParam.parse(req.params).id;
+      return { ...(await findings.getFinding(id)), bestLocation: await bestLocationFor(id) };
+    }),
+  );
   r.get('/:id/decisions', 'findings:read', handle((req) => decisions.decisionHistory(IdParam.parse(req.params).id)));
   r.post(
     '/:id/reverse',

@@ -22,6 +22,8 @@ export const PERMISSIONS = [
   'findings:confirm',
   /** Decide an event on someone else's trace, and reverse a decision with a reason. */
   'findings:review',
+  /** Record bridge, capacitance and resistance readings on a finding or cable run, and correct or withdraw one's own. */
+  'measurements:record',
   'tickets:read',
   'tickets:manage',
   'tickets:work',
@@ -39,6 +41,7 @@ const FIELD: Permission[] = [
   'traces:upload',
   'findings:read',
   'findings:confirm',
+  'measurements:record',
   'tickets:read',
   'tickets:work',
 ];

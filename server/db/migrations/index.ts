@@ -10,6 +10,7 @@ import * as m0007 from './0007-trace-reanalysis';
 import * as m0008 from './0008-cable-loss';
 import * as m0009 from './0009-upload-integrity';
 import * as m0010 from './0010-decision-history';
+import * as m0011 from './0011-fusion-measurements';
 
 export type Migration = MigrationFn<QueryInterface>;
 
@@ -28,6 +29,7 @@ const MIGRATIONS: Array<{ name: string; up: Migration; down: Migration }> = [
   { name: '0008-cable-loss', ...m0008 },
   { name: '0009-upload-integrity', ...m0009 },
   { name: '0010-decision-history', ...m0010 },
+  { name: '0011-fusion-measurements', ...m0011 },
 ];
 
 export function migrator(sequelize: Sequelize) {

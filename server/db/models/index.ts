@@ -3,6 +3,7 @@ import { associateCableCalibration, initCableCalibration } from './cable-calibra
 import { CableType, initCableType } from './cable-type';
 import { associateCableTypeChange, initCableTypeChange } from './cable-type-change';
 import { initMailJob } from './mail-job';
+import { associateMeasurement, initMeasurement } from './measurement';
 import { initOutboxMessage } from './outbox-message';
 import { CableRun, initCableRun } from './cable-run';
 import { associateFieldModels } from './field-associations';
@@ -37,6 +38,7 @@ export function initModels(sequelize: Sequelize) {
   associateFieldModels();
   initMailJob(sequelize);
   initOutboxMessage(sequelize);
+  initMeasurement(sequelize);
   initTicket(sequelize);
   initTicketFinding(sequelize);
   initTicketEvent(sequelize);
@@ -44,6 +46,7 @@ export function initModels(sequelize: Sequelize) {
   associateTicketModels({ User, Site, CableRun, Finding });
   associateCableTypeChange({ CableType, User });
   associateCableCalibration({ CableType, User });
+  associateMeasurement({ User });
   associateFindingDecision({ User });
 }
 
@@ -63,3 +66,4 @@ export { UploadReceipt } from './upload-receipt';
 export { Finding } from './finding';
 export { FindingDecision } from './finding-decision';
 export { Ticket, TicketFinding, TicketEvent, TicketCloseout } from './ticket';
+export { Measurement } from './measurement';

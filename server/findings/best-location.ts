@@ -1,0 +1,251 @@
+import { Op } from 'sequelize';
+import { describeRoutePosition, metresText, routePosition } from '../../shared/field/route-position';
+import {
+  fuseEstimates,
+  LocateInputError,
+  singleEndedTdr,
+  timingUncertaintyNs,
+  twoEndedTdr,
+  window95,
+  type CableRunInput,
+  type LocationEstimate,
+} from '../../shared/locate';
+import type { BestLocationView, LocationMethodView, MeasurementReadings } from '../../shared/schemas/measurements';
+import { CableRun, Finding, Measurement, RouteMarker, Trace } from '../db/models';
+import { INSTALLED_LENGTH_RELATIVE_U, measurementEstimate, runInput } from '../measurements/measurement-estimate';
+
+/** Readings of the same fault: within this of each other, beyond their own uncertainties (as the two-ended pairing does). */
+function sameFaultToleranceM(installedLengthM: number) {
+  return Math.max(5, 0.05 * installedLengthM);
+}
+
+interface TdrReading {
+  finding: Finding;
+  trace: Trace;
+}
+
+interface Source {
+  estimate: LocationEstimate;
+  findingId: number | null;
+  traceId: number | null;
+  measurementId: number | null;
+}
+
+/**
+ * Confirmed TDR findings on the run that are this fault (the finding itself and
+ * those near it), one per stored file: a re-analysis of the same file repeats
+ * its information.
+ */
+async function sameFaultReadings(f: Finding, run: CableRun): Promise<TdrReading[]> {
+  const candidates = await Finding.findAll({ where: { cableRunId: run.id, status: 'confirmed' }, order: [['id', 'ASC']] });
+  const near = candidates.filter(
+    (o) =>
+      o.id === f.id ||
+      Math.abs(o.distanceFromAM - f.distanceFromAM) <=
+        sameFaultToleranceM(run.installedLengthM) + o.uncertaintyM + f.uncertaintyM,
+  );
+  const traces = await Trace.findAll({ where: { id: near.map((o) => o.traceId) } });
+  const byFile = new Map<string, TdrReading>();
+  for (const finding of near) {
+    const trace = traces.find((t) => t.id === finding.traceId);
+    if (!trace) continue;
+    const kept = byFile.get(trace.sha256);
+    // Keep the finding on the latest analysis of a file, and the asked-for one over others.
+    if (!kept || finding.id === f.id || (kept.finding.id !== f.id && trace.id > kept.trace.id))
+      byFile.set(trace.sha256, { finding, trace });
+  }
+  return [...byFile.values()];
+}
+
+function singleEnded(r: TdrReading, run: CableRun, runIn: CableRunInput): LocationEstimate {
+  return singleEndedTdr(`finding-${r.finding.id}`, runIn, {
+    fromEnd: r.trace.end,
+    distanceM: r.finding.distanceM,
+    standardUncertaintyM: r.finding.uncertaintyM,
+    vfRelativeU: r.trace.vfTolerance,
+    // Readings with the same library VF on the same cable share its error.
+    vfSource: `vf:cable-type-${run.cableTypeId}:${r.trace.vf}`,
+    timingSource: `round-trip:trace-${r.trace.id}`,
+    label: `TDR from end ${r.trace.end} (finding ${r.finding.id})`,
+  });
+}
+
+/** The A and B readings closest to each other, the asked-for finding's own end first. */
+function closestPair(readings: TdrReading[], f: Finding): [TdrReading, TdrReading] | null {
+  let best: [TdrReading, TdrReading] | null = null;
+  let bestGap = Infinity;
+  for (const a of readings.filter((r) => r.trace.end === 'A'))
+    for (const b of readings.filter((r) => r.trace.end === 'B')) {
+      const involvesF = a.finding.id === f.id || b.finding.id === f.id ? 0 : 1;
+      const gap = involvesF * 1e9 + Math.abs(a.finding.distanceFromAM - b.finding.distanceFromAM);
+      if (gap < bestGap) {
+        bestGap = gap;
+        best = [a, b];
+      }
+    }
+  return best;
+}
+
+function methodView(m: ReturnType<typeof fuseEstimates>['methods'][number], source: Source | undefined): LocationMethodView {
+  return {
+    id: m.id,
+    method: m.method,
+    label: m.label,
+    fromEnd: m.fromEnd,
+    distanceFromEndM: m.distanceFromEndM,
+    distanceFromAM: m.distanceFromAM,
+    standardUncertaintyM: m.standardUncertaintyM,
+    windowStartM: m.windowStartM,
+    windowEndM: m.windowEndM,
+    used: m.used,
+    weight: m.weight,
+    normalisedResidual: m.normalisedResidual,
+    findingId: source?.findingId ?? null,
+    traceId: source?.traceId ?? null,
+    measurementId: source?.measurementId ?? null,
+    note: m.notes.length ? m.notes.join('; ') : null,
+  };
+}
+
+/**
+ * A confirmed finding's best location from every reading of the same fault:
+ * its TDR readings from both ends (as one two-ended reading when there is a
+ * pair, which is free of the VF), and the bridge, capacitance and resistance
+ * measurements recorded on those findings, fused by shared/locate. Null for a
+ * finding that is not a confirmed fault.
+ */
+export async function bestLocationFor(findingId: number): Promise<BestLocationView | null> {
+  const f = await Finding.findByPk(findingId);
+  if (!f || f.status !== 'confirmed') return null;
+  const run = (await CableRun.findByPk(f.cableRunId))!;
+  const runIn: CableRunInput = runInput(run);
+  const sources: Source[] = [];
+  const shownOnly: LocationMethodView[] = [];
+  const excluded: BestLocationView['excluded'] = [];
+  const tryAdd = (
+    label: string,
+    ids: { findingId: number | null; traceId: number | null; measurementId: number | null },
+    build: () => LocationEstimate,
+  ) => {
+    try {
+      sources.push({ estimate: build(), ...ids });
+    } catch (err) {
+      if (!(err instanceof LocateInputError)) throw err;
+      excluded.push({ label, findingId: ids.findingId, measurementId: ids.measurementId, reason: err.message });
+    }
+  };
+
+  const readings = await sameFaultReadings(f, run);
+  const pair = closestPair(readings, f);
+  let pairUsed = false;
+  if (pair) {
+    const [a, b] = pair;
+    const before = sources.length;
+    tryAdd('TDR from both ends', { findingId: a.finding.id, traceId: null, measurementId: null }, () =>
+      twoEndedTdr(`two-ended-${a.finding.id}-${b.finding.id}`, runIn, {
+        roundTripANs: a.finding.roundTripNs,
+        roundTripBNs: b.finding.roundTripNs,
+        roundTripAUNs: timingUncertaintyNs(a.finding.distanceM, a.finding.uncertaintyM, a.trace.vf, a.trace.vfTolerance),
+        roundTripBUNs: timingUncertaintyNs(b.finding.distanceM, b.finding.uncertaintyM, b.trace.vf, b.trace.vfTolerance),
+        label: `TDR from both ends (findings ${a.finding.id} and ${b.finding.id})`,
+      }),
+    );
+    pairUsed = sources.length > before;
+  }
+  for (const r of readings) {
+    const ids = { findingId: r.finding.id, traceId: r.trace.id, measurementId: null };
+    const inPair = pairUsed && (pair![0] === r || pair![1] === r);
+    if (!inPair) {
+      tryAdd(`TDR from end ${r.trace.end} (finding ${r.finding.id})`, ids, () => singleEnded(r, run, runIn));
+      continue;
+    }
+    // Shown beside the two-ended reading it went into, not counted twice.
+    try {
+      const e = singleEnded(r, run, runIn);
+      shownOnly.push({
+        ...methodView(
+          {
+            ...e,
+            ...window95(e.distanceFromAM, e.standardUncertaintyM, run.installedLengthM),
+            used: false,
+            weight: null,
+            normalisedResidual: null,
+          },
+          { estimate: e, ...ids },
+        ),
+        note: 'counted through the two-ended reading',
+      });
+    } catch (err) {
+      if (!(err instanceof LocateInputError)) throw err;
+    }
+  }
+
+  const measurements = await Measurement.findAll({
+    where: { findingId: { [Op.in]: readings.map((r) => r.finding.id) }, status: 'active' },
+    order: [['id', 'ASC']],
+  });
+  for (const m of measurements) {
+    const ids = { findingId: m.findingId, traceId: null, measurementId: m.id };
+    tryAdd(`measurement ${m.id}`, ids, () =>
+      measurementEstimate({ kind: m.kind, readings: m.readings, id: m.id } as MeasurementReadings & { id: number }, runIn),
+    );
+  }
+  if (sources.length === 0) return null;
+
+  const fused = fuseEstimates(
+    sources.map((s) => s.estimate),
+    run.installedLengthM,
+  );
+  const markers = await RouteMarker.findAll({ where: { cableRunId: run.id } });
+  const pos =
+    fused.distanceFromAM === null
+      ? null
+      : routePosition(
+          { installedLengthM: run.installedLengthM, endALabel: run.endALabel, endBLabel: run.endBLabel, markers },
+          'A',
+          fused.distanceFromAM,
+          { startM: fused.windowStartM!, endM: fused.windowEndM! },
+        );
+  return {
+    distanceFromAM: fused.distanceFromAM,
+    standardUncertaintyM: fused.standardUncertaintyM,
+    windowStartM: fused.windowStartM,
+    windowEndM: fused.windowEndM,
+    coverageFactor: fused.coverageFactor,
+    consistent: fused.consistent,
+    ...(fused.outlier
+      ? {
+          outlier: {
+            methodId: fused.outlier.id,
+            label: fused.outlier.label,
+            offsetM: fused.outlier.offsetM,
+            sigmas: fused.outlier.sigmas,
+          },
+        }
+      : {}),
+    verdict: fused.verdict,
+    checks: fused.checks,
+    test: fused.test && {
+      chiSquare: fused.test.statistic,
+      degreesOfFreedom: fused.test.degreesOfFreedom,
+      limit95: fused.test.limit95,
+      birgeRatio: fused.test.birgeRatio,
+    },
+    methods: [
+      ...fused.methods.map((m) =>
+        methodView(
+          m,
+          sources.find((s) => s.estimate.id === m.id),
+        ),
+      ),
+      ...shownOnly,
+    ],
+    excluded,
+    routePosition: pos,
+    routePositionText: pos ? describeRoutePosition(pos, metresText) : null,
+    assumptions: [
+      `installed length ${run.installedLengthM} m known to ±${(INSTALLED_LENGTH_RELATIVE_U * run.installedLengthM).toFixed(1)} m ` +
+        `(${INSTALLED_LENGTH_RELATIVE_U * 100} %, standard uncertainty)`,
+    ],
+  };
+}

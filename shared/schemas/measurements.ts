@@ -1,0 +1,259 @@
+import { z } from 'zod';
+import type { RoutePosition } from '../field/route-position';
+import { CONDUCTOR_MATERIALS, type ConductorMaterial, type LocateMethod } from '../locate';
+
+/** Readings other than TDR traces, kept with who took them, when and with what. */
+export const MEASUREMENT_KINDS = ['murray', 'varley', 'capacitance', 'loop-resistance'] as const;
+export type MeasurementKind = (typeof MEASUREMENT_KINDS)[number];
+export const MEASUREMENT_KIND_LABELS: Record<MeasurementKind, string> = {
+  murray: 'Murray loop',
+  varley: 'Varley loop',
+  capacitance: 'Capacitance',
+  'loop-resistance': 'Loop resistance',
+};
+
+/** active: in use; corrected: replaced by a newer version; withdrawn: taken back with a reason. */
+export const MEASUREMENT_STATUSES = ['active', 'corrected', 'withdrawn'] as const;
+export type MeasurementStatus = (typeof MEASUREMENT_STATUSES)[number];
+
+const num = (what: string) => z.number({ error: `must be a number (${what})` });
+const positive = (what: string) => num(what).gt(0, `must be more than 0 (${what})`);
+const nonNegative = (what: string) => num(what).min(0, `must not be negative (${what})`);
+const id = (what: string) =>
+  z
+    .number({ error: `must be ${what}` })
+    .int(`must be ${what}`)
+    .positive(`must be ${what}`);
+
+const sectionSchema = z.strictObject({
+  lengthM: positive('metres'),
+  material: z.enum(CONDUCTOR_MATERIALS as [ConductorMaterial, ...ConductorMaterial[]], { error: 'must be copper or aluminium' }),
+  sizeMm2: positive('mm²').max(5000, 'must be at most 5000 mm²').optional(),
+  ohmPerM20: positive('Ω/m at 20 °C').max(100, 'must be at most 100 Ω/m').optional(),
+  relativeU: nonNegative('a fraction').max(1, 'must be at most 1').optional(),
+});
+const sectionsSchema = z
+  .array(sectionSchema, { error: 'must be a list of conductor sections from end A' })
+  .min(1, 'needs at least one section')
+  .max(50, 'must have at most 50 sections');
+const endSchema = z.enum(['A', 'B'], { error: 'must be A or B' });
+const temperature = {
+  temperatureC: num('°C').min(-50, 'must be at least −50 °C').max(250, 'must be at most 250 °C').optional(),
+  temperatureUK: nonNegative('K').max(50, 'must be at most 50 K').optional(),
+};
+const loop = {
+  fromEnd: endSchema,
+  faulty: sectionsSchema,
+  sound: z
+    .union([z.literal('same'), z.literal('unknown'), sectionsSchema], {
+      error: "must be 'same', 'unknown' or a list of sections",
+    })
+    .optional(),
+  ...temperature,
+};
+
+export const MurrayReadingsSchema = z.strictObject({
+  ...loop,
+  ratio: num('a share of the loop, 0–1').optional(),
+  faultySideArmOhm: positive('Ω').optional(),
+  soundSideArmOhm: positive('Ω').optional(),
+  ratioStep: nonNegative('the ratio resolution').optional(),
+  ratioAccuracy: nonNegative('± the ratio').optional(),
+  loopOhm: positive('Ω').optional(),
+  ohmStep: nonNegative('Ω').optional(),
+  accuracyPct: nonNegative('%').max(100, 'must be at most 100 %').optional(),
+});
+
+export const VarleyReadingsSchema = z.strictObject({
+  ...loop,
+  armRatio: positive('a/b'),
+  rheostatOhm: nonNegative('Ω'),
+  loopOhm: positive('Ω').optional(),
+  ohmStep: nonNegative('Ω').optional(),
+  accuracyPct: nonNegative('%').max(100, 'must be at most 100 %').optional(),
+});
+
+export const CapacitanceReadingsSchema = z.strictObject({
+  fromEnd: endSchema,
+  measuredF: positive('F'),
+  soundF: positive('F').optional(),
+  otherEndF: positive('F').optional(),
+  perMF: positive('F/m').optional(),
+  perMRelativeU: nonNegative('a fraction').max(1, 'must be at most 1').optional(),
+  uniformityRelativeU: nonNegative('a fraction').max(1, 'must be at most 1').optional(),
+  leadF: nonNegative('F').optional(),
+  leadUF: nonNegative('F').optional(),
+  stepF: nonNegative('F').optional(),
+  accuracyPct: nonNegative('%').max(100, 'must be at most 100 %').optional(),
+});
+
+export const LoopResistanceReadingsSchema = z.strictObject({
+  fromEnd: endSchema,
+  loopOhm: positive('Ω'),
+  leadOhm: nonNegative('Ω').optional(),
+  faultOhmMax: nonNegative('Ω').optional(),
+  first: sectionsSchema,
+  second: z.union([z.literal('same'), sectionsSchema], { error: "must be 'same' or a list of sections" }).optional(),
+  ...temperature,
+  ohmStep: nonNegative('Ω').optional(),
+  accuracyPct: nonNegative('%').max(100, 'must be at most 100 %').optional(),
+});
+
+export type MurrayReadings = z.output<typeof MurrayReadingsSchema>;
+export type VarleyReadings = z.output<typeof VarleyReadingsSchema>;
+export type CapacitanceReadings = z.output<typeof CapacitanceReadingsSchema>;
+export type LoopResistanceReadings = z.output<typeof LoopResistanceReadingsSchema>;
+
+export type MeasurementReadings =
+  | { kind: 'murray'; readings: MurrayReadings }
+  | { kind: 'varley'; readings: VarleyReadings }
+  | { kind: 'capacitance'; readings: CapacitanceReadings }
+  | { kind: 'loop-resistance'; readings: LoopResistanceReadings };
+
+const record = {
+  /** Make, model and serial of the bridge or meter. */
+  instrument: z
+    .string({ error: 'is required: the instrument used' })
+    .trim()
+    .min(1, 'is required: the instrument used')
+    .max(200, 'must be at most 200 characters'),
+  /** When the reading was taken (ISO 8601); defaults to now. */
+  measuredAt: z.iso.datetime({ offset: true, error: 'must be a date and time (ISO 8601)' }).optional(),
+  note: z
+    .string()
+    .trim()
+    .max(2000, 'must be at most 2000 characters')
+    .nullish()
+    .transform((v) => (v ? v : null)),
+};
+
+const kindError = { error: `must be one of ${MEASUREMENT_KINDS.join(', ')}` };
+
+/** The four kinds of reading, each with its own readings and the given extra fields. */
+function byKind<T extends z.ZodRawShape>(extra: T) {
+  return z.discriminatedUnion(
+    'kind',
+    [
+      z.strictObject({ kind: z.literal('murray'), readings: MurrayReadingsSchema, ...record, ...extra }),
+      z.strictObject({ kind: z.literal('varley'), readings: VarleyReadingsSchema, ...record, ...extra }),
+      z.strictObject({ kind: z.literal('capacitance'), readings: CapacitanceReadingsSchema, ...record, ...extra }),
+      z.strictObject({ kind: z.literal('loop-resistance'), readings: LoopResistanceReadingsSchema, ...record, ...extra }),
+    ],
+    kindError,
+  );
+}
+
+/** A new measurement, on a finding (its run is the finding's) or on a cable run. */
+export const MeasurementInputSchema = byKind({
+  findingId: id('a finding id').optional(),
+  cableRunId: id('a cable run id').optional(),
+}).superRefine((v, ctx) => {
+  if (v.findingId === undefined && v.cableRunId === undefined)
+    ctx.addIssue({
+      code: 'custom',
+      path: ['findingId'],
+      message: 'is required: the finding (or give cableRunId) the reading belongs to',
+    });
+});
+export type MeasurementInput = z.input<typeof MeasurementInputSchema>;
+
+/** A corrected version: the same kind, new readings, and why. */
+export const MeasurementCorrectionSchema = byKind({
+  reason: z
+    .string({ error: 'is required: why it is corrected' })
+    .trim()
+    .min(3, 'is required: why it is corrected')
+    .max(2000, 'must be at most 2000 characters'),
+});
+
+export const MeasurementWithdrawSchema = z.strictObject({
+  reason: z
+    .string({ error: 'is required: why it is withdrawn' })
+    .trim()
+    .min(3, 'is required: why it is withdrawn')
+    .max(2000, 'must be at most 2000 characters'),
+});
+
+const queryId = (what: string) =>
+  z
+    .string({ error: `must be ${what}` })
+    .regex(/^[1-9]\d{0,9}$/, `must be ${what}`)
+    .transform(Number);
+
+export const MeasurementListQuerySchema = z.strictObject({
+  cableRunId: queryId('a cable run id').optional(),
+  findingId: queryId('a finding id').optional(),
+  /** Also the corrected and withdrawn ones. */
+  all: z.enum(['true', 'false'], { error: 'must be true or false' }).optional(),
+});
+
+/** One method's estimate as the finding shows it. */
+export interface LocationMethodView {
+  id: string;
+  method: LocateMethod;
+  label: string;
+  fromEnd: 'A' | 'B';
+  distanceFromEndM: number;
+  distanceFromAM: number;
+  standardUncertaintyM: number;
+  windowStartM: number;
+  windowEndM: number;
+  /** Whether it went into the best location; false for the one that stands apart, or for a single-ended reading already in a two-ended one. */
+  used: boolean;
+  weight: number | null;
+  normalisedResidual: number | null;
+  /** Where the reading is kept. */
+  findingId: number | null;
+  traceId: number | null;
+  measurementId: number | null;
+  note: string | null;
+}
+
+/** The best location of a fault from every reading of it, on the axis from end A. */
+export interface BestLocationView {
+  distanceFromAM: number | null;
+  standardUncertaintyM: number | null;
+  windowStartM: number | null;
+  windowEndM: number | null;
+  coverageFactor: number;
+  consistent: boolean;
+  outlier?: { methodId: string; label: string; offsetM: number; sigmas: number };
+  verdict: string;
+  checks: string[];
+  test: { chiSquare: number; degreesOfFreedom: number; limit95: number; birgeRatio: number } | null;
+  methods: LocationMethodView[];
+  /** Readings that could not be used, and why. */
+  excluded: Array<{ label: string; findingId: number | null; measurementId: number | null; reason: string }>;
+  routePosition: RoutePosition | null;
+  routePositionText: string | null;
+  assumptions: string[];
+}
+
+export interface MeasurementView {
+  id: number;
+  cableRunId: number;
+  findingId: number | null;
+  kind: MeasurementKind;
+  readings: MeasurementReadings['readings'];
+  instrument: string;
+  measuredAt: string;
+  note: string | null;
+  status: MeasurementStatus;
+  recordedBy: { id: number; name: string };
+  recordedAt: string;
+  supersedesId: number | null;
+  changeReason: string | null;
+  withdrawnBy: { id: number; name: string } | null;
+  withdrawnAt: string | null;
+  withdrawReason: string | null;
+  /** The estimate the readings give on the run as it is now, or why they give none. */
+  estimate: {
+    fromEnd: 'A' | 'B';
+    distanceFromEndM: number;
+    distanceFromAM: number;
+    standardUncertaintyM: number;
+    windowStartM: number;
+    windowEndM: number;
+  } | null;
+  estimateError: string | null;
+}
