@@ -52,6 +52,10 @@ describe('failed sign-ins on one account from one address', () => {
       ['203.0.113.10', 2, 1],
       ['198.51.100.7', 3, 2],
     ]);
+    // Passwords, right or wrong, never reach the log.
+    const written = JSON.stringify(log.lines);
+    expect(written).not.toContain(TEST_PASSWORD);
+    expect(written).not.toContain('guess-0');
   });
 });
 
