@@ -4,7 +4,7 @@ import { scoreCase } from '../../../scripts/sim2/score';
 
 // The scorer's own rules (stated in scripts/sim2/score.ts): distance within max(0.5 m, 1 %),
 // ρ within max(0.1, 25 % of |ρ|) of the range between local and seen ρ.
-const base = {
+const base: Omit<Sim2Case, 'expected' | 'echoes'> = {
   id: 'case',
   csv: '',
   layout: 'time-ns-mv',
@@ -27,7 +27,7 @@ const base = {
   clipped: false,
   instrumentVf: 0.66,
   features: [],
-} as const;
+};
 
 const c: Sim2Case = {
   ...base,
