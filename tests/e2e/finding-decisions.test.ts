@@ -1,0 +1,67 @@
+import supertest from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { CableRun, CableType, Finding, FindingDecision } from '../../server/db/models';
+import { stepTraceCsv } from '../support/step-trace';
+import { DESKTOP, PHONE, signIn, startE2E, type E2E } from './support/browser';
+
+let e2e: E2E;
+let findingId: number;
+let traceId: number;
+
+beforeAll(async () => {
+  e2e = await startE2E();
+  // The demo technician uploads a trace of the demo feeder (an open 250 m from end A) and confirms its event.
+  const run = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
+  const vf = (await CableType.findByPk(run.cableTypeId))!.vf;
+  const agent = supertest.agent(e2e.app.app);
+  const csrf = (await agent.get('/api/auth/csrf')).body.csrfToken as string;
+  const login = await agent.post('/api/auth/login').set('x-csrf-token', csrf).send({ email: 'tech@example.com', password: 'rholog-demo' }).expect(200);
+  const token = login.body.csrfToken as string;
+  const up = await agent
+    .post('/api/traces')
+    .set('x-csrf-token', token)
+    .field('cableRunId', String(run.id))
+    .field('end', 'A')
+    .attach('file', Buffer.from(stepTraceCsv({ faultM: 250, vf, samples: 9000 })), 'hn3-decision.csv')
+    .expect(201);
+  traceId = up.body.traces[0].id;
+  const event = up.body.traces[0].analysis.events.reduce((best: { distanceM: number; index: number }, e: { distanceM: number; index: number }) =>
+    Math.abs(e.distanceM - 250) < Math.abs(best.distanceM - 250) ? e : best,
+  );
+  const f = await agent.post('/api/findings').set('x-csrf-token', token).send({ traceId, eventIndex: event.index, status: 'confirmed', kind: 'open-conductor' }).expect(201);
+  findingId = f.body.id;
+});
+afterAll(() => e2e?.stop());
+
+describe('a decision on an event', () => {
+  it('is not offered to a technician on someone else’s trace', async () => {
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'tech2@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/findings/${findingId}`);
+    await page.getByRole('heading', { name: /Decision history/ }).waitFor();
+    expect(await page.getByRole('button', { name: /Reverse/ }).count()).toBe(0);
+    await page.close();
+  });
+
+  it('is reversed by a supervisor with a reason, after a confirmation, and kept in the history', async () => {
+    const page = await e2e.newPage(DESKTOP);
+    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/findings/${findingId}`);
+    await page.getByText(/Decided: confirmed as a fault \(Open conductor\) by/).waitFor();
+    await page.getByRole('button', { name: 'Reverse: dismiss this fault…' }).click();
+    const form = page.getByRole('form', { name: 'Reverse the decision' });
+    await form.getByLabel('Reason (kept in the history)').fill('Crew found the joint dry; the step is the cable end of a spur');
+    await form.getByRole('button', { name: 'Check the reversal' }).click();
+    await form.getByText(`Finding ${findingId} will be dismissed (Not a fault (known feature)).`).waitFor();
+    await e2e.screenshot(page, 'finding-reverse-confirm');
+    await form.getByRole('button', { name: 'Yes, reverse it' }).click();
+    await page.getByText(/Reversed: dismissed \(Not a fault \(known feature\)\) by Maren Holt/).waitFor();
+    await page.getByText('Reason: Crew found the joint dry; the step is the cable end of a spur').waitFor();
+    await e2e.screenshot(page, 'finding-reversed');
+    expect((await Finding.findByPk(findingId))!.status).toBe('dismissed');
+    expect(await FindingDecision.count({ where: { findingId } })).toBe(2);
+    await page.close();
+  });
+});
