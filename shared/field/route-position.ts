@@ -11,8 +11,15 @@
  * and a point inside a coil (e_i ≤ d ≤ e_i + s_i) is at the marker itself.
  * Chainages are measured along the route from end A; installed length is the
  * cable length from A to B, slack included.
+ *
+ * Two windows, never to be mixed up: the cable-length window is electrical
+ * ("along the cable from end B: 76.8–83.9 m"), the dig window is ground
+ * distance past a marker ("on the ground 27.3–34.4 m past MH-2"). A position
+ * reads from the end the trace was taken at, and names every marker its dig
+ * window runs over.
  */
 import { MARKER_KIND_LABELS, type MarkerKind } from '../schemas/sites';
+import { formatLength, formatLengthRange, type LengthUnit } from '../units/format-length';
 
 export interface MarkerLike {
   label: string;
@@ -39,12 +46,26 @@ export interface RoutePlace {
   chainageM: number;
 }
 
+export interface RouteCrossing {
+  /** The marker the dig window runs over. */
+  place: RoutePlace;
+  /** Its ground distance past `from`, in the direction of the reading. */
+  offsetM: number;
+}
+
+/**
+ * A point on the route. Distances read in the direction of the reading: for
+ * a trace taken at end B, `from` is the last marker (or end B) passed on the
+ * way from B, and offsets grow toward end A.
+ */
 export interface RoutePosition {
   /** Electrical distance from end A that was placed. */
   distanceFromAM: number;
   /** Ground distance along the route from end A. */
   chainageM: number;
-  /** The last marker (or end A) at or before the point. */
+  /** The end the reading was taken from; the sentence runs from it. Positions stored before it was kept read from A. */
+  measuredFrom?: 'A' | 'B';
+  /** The last marker (or the measured end) at or before the point, coming from the measured end. */
   from: RoutePlace;
   /** Ground distance past `from`, toward `toward`. */
   offsetM: number;
@@ -54,10 +75,15 @@ export interface RoutePosition {
   /** Dig window as ground offsets past `from` (start may be negative: before the marker). */
   windowStartOffsetM: number;
   windowEndOffsetM: number;
+  /** The dig window as chainages from end A (start ≤ end). */
   windowStartChainageM: number;
   windowEndChainageM: number;
+  /** Markers other than `from` that lie inside the dig window, nearest first. */
+  crossed?: RouteCrossing[];
   /** True when the distance is past the far end of the cable. */
   beyondEnd: boolean;
+  /** How far past the far end, in cable length (0 when on the cable). */
+  beyondByM?: number;
   /** Total slack taken off before the point. */
   slackDeductedM: number;
 }
@@ -120,7 +146,8 @@ function markerPlace(m: MarkerLike): RoutePlace {
 
 /**
  * Place an event on the route. `distanceM` and the window are electrical
- * distances from the end the trace was taken at.
+ * distances from the end the trace was taken at; the position reads from
+ * that end too.
  */
 export function routePosition(
   run: RunLike,
@@ -130,39 +157,43 @@ export function routePosition(
 ): RoutePosition {
   const dA = distanceFromA(run, end, distanceM);
   const wA = [distanceFromA(run, end, window.startM), distanceFromA(run, end, window.endM)].sort((a, b) => a - b);
-  const place = chainageAt(run.markers, Math.max(0, dA));
-  const markers = sorted(run.markers);
   const routeLen = routeLengthM(run);
+  const place = chainageAt(run.markers, Math.min(Math.max(0, dA), run.installedLengthM));
   const chainageM = Math.min(place.chainageM, routeLen);
-  let from = endPlace(run, 'A');
-  let toward = endPlace(run, 'B');
-  for (const m of markers) {
-    if (m.chainageM <= chainageM) from = markerPlace(m);
-    else {
-      toward = markerPlace(m);
-      break;
-    }
-  }
-  if (place.inSlackAt) {
-    const m = markers.find((x) => x.label === place.inSlackAt)!;
-    from = markerPlace(m);
-    const next = markers.find((x) => x.chainageM > m.chainageM);
-    toward = next ? markerPlace(next) : endPlace(run, 'B');
-  }
   const ws = chainageAt(run.markers, Math.max(0, wA[0])).chainageM;
-  const we = Math.min(chainageAt(run.markers, Math.max(0, wA[1])).chainageM, routeLen);
+  const we = Math.min(chainageAt(run.markers, Math.min(Math.max(0, wA[1]), run.installedLengthM)).chainageM, routeLen);
+
+  // Ground distance from the measured end: chainage for A, what is left of the route for B.
+  const along = (chainage: number) => (end === 'A' ? chainage : routeLen - chainage);
+  const places = [...sorted(run.markers).map(markerPlace), endPlace(run, 'A'), endPlace(run, 'B')].sort((a, b) => along(a.chainageM) - along(b.chainageM));
+  const here = along(chainageM);
+  let fromIndex = 0;
+  if (place.inSlackAt) fromIndex = places.findIndex((p) => p.kind === 'marker' && p.label === place.inSlackAt);
+  else for (let i = 0; i < places.length - 1; i++) if (along(places[i].chainageM) <= here) fromIndex = i;
+  const from = places[fromIndex];
+  const toward = places[Math.min(fromIndex + 1, places.length - 1)];
+  const base = along(from.chainageM);
+  const [wNear, wFar] = [along(ws), along(we)].sort((a, b) => a - b);
+  const crossed = places
+    .filter((p) => p.kind === 'marker' && p !== from && along(p.chainageM) > wNear && along(p.chainageM) < wFar)
+    .map((p) => ({ place: p, offsetM: along(p.chainageM) - base }))
+    .sort((a, b) => Math.abs(a.offsetM) - Math.abs(b.offsetM));
+  const beyondByM = Math.max(0, distanceM - run.installedLengthM);
   return {
     distanceFromAM: dA,
     chainageM,
+    measuredFrom: end,
     from,
-    offsetM: chainageM - from.chainageM,
+    offsetM: here - base,
     toward,
     inSlackAt: place.inSlackAt,
-    windowStartOffsetM: ws - from.chainageM,
-    windowEndOffsetM: we - from.chainageM,
+    windowStartOffsetM: wNear - base,
+    windowEndOffsetM: wFar - base,
     windowStartChainageM: ws,
     windowEndChainageM: we,
-    beyondEnd: dA > run.installedLengthM,
+    crossed,
+    beyondEnd: beyondByM > 0,
+    beyondByM,
     slackDeductedM: place.slackDeductedM,
   };
 }
@@ -171,26 +202,68 @@ function placeName(p: RoutePlace): string {
   return p.kind === 'end' ? `end ${p.label} (${p.name})` : `${p.description} ${p.label}`;
 }
 
-/**
- * The sentence a crew digs by, e.g.
- * "18.4 m past manhole MH-3 toward pedestal P-7, dig window 17.2–19.6 m".
- * `fmt` turns metres into the reader's unit ("18.4 m", "60.4 ft").
- */
-export function describeRoutePosition(pos: RoutePosition, fmt: (metres: number) => string): string {
-  if (pos.beyondEnd) {
-    return `beyond the far end of the cable by ${fmt(pos.distanceFromAM - pos.chainageM - pos.slackDeductedM)}: check the installed length and the velocity factor`;
-  }
-  const window =
-    pos.windowStartOffsetM >= 0
-      ? `dig window ${fmt(pos.windowStartOffsetM).replace(/ [a-z]+$/, '')}–${fmt(pos.windowEndOffsetM)}`
-      : `dig window from ${fmt(-pos.windowStartOffsetM)} before to ${fmt(pos.windowEndOffsetM)} past it`;
-  if (pos.inSlackAt) {
-    return `in the slack coil at ${placeName(pos.from)} (toward ${placeName(pos.toward)}), ${window}`;
-  }
-  return `${fmt(pos.offsetM)} past ${placeName(pos.from)} toward ${placeName(pos.toward)}, ${window}`;
+/** A marker by its label alone ("MH-2"), an end by its letter ("end B"). */
+function shortName(p: RoutePlace): string {
+  return p.kind === 'end' ? `end ${p.label}` : p.label;
 }
 
-/** Metres with one decimal, for stored text. */
+/** Words for a length: "18.4 m", "60.4 ft". */
+export type LengthWords = (metres: number) => string;
+/**
+ * How lengths are written: the reader's unit (the shared formatter, the
+ * usual case), or a function for a caller with its own.
+ */
+export type LengthStyle = LengthUnit | LengthWords;
+
+function styleOf(style: LengthStyle): { len: LengthWords; range: (a: number, b: number) => string } {
+  if (typeof style === 'string') return { len: (m) => formatLength(m, style), range: (a, b) => formatLengthRange(a, b, style) };
+  return { len: style, range: (a, b) => `${style(a).replace(/\s\S+$/, '')}–${style(b)}` };
+}
+
+/** The ground (dig) window, named as such: "on the ground 72.3–87.6 m past MH-2". */
+export function describeDigWindow(pos: RoutePosition, style: LengthStyle): string {
+  const { len, range } = styleOf(style);
+  const at = shortName(pos.from);
+  if (pos.windowStartOffsetM >= 0) return `on the ground ${range(pos.windowStartOffsetM, pos.windowEndOffsetM)} past ${at}`;
+  return `on the ground from ${len(-pos.windowStartOffsetM)} before ${at} to ${len(pos.windowEndOffsetM)} past it`;
+}
+
+/** "The dig window crosses road crossing RC-1, 145.0 m past MH-2 …", or null when it stays between two markers. */
+export function describeCrossings(pos: RoutePosition, style: LengthStyle): string | null {
+  const crossed = pos.crossed ?? [];
+  if (pos.beyondEnd || crossed.length === 0) return null;
+  const { len } = styleOf(style);
+  const at = shortName(pos.from);
+  const each = crossed.map((c) => `${placeName(c.place)} (${len(Math.abs(c.offsetM))} ${c.offsetM >= 0 ? 'past' : 'before'} ${at})`);
+  const list = each.length === 1 ? each[0] : `${each.slice(0, -1).join(', ')} and ${each[each.length - 1]}`;
+  return `The dig window crosses ${list}: the fault may be on either side of ${crossed.length === 1 ? 'it' : 'them'}.`;
+}
+
+/**
+ * The sentence a crew digs by, e.g.
+ * "18.4 m past manhole MH-3 toward pedestal P-7; dig on the ground 17.2–19.6 m past MH-3".
+ * It reads from the end the trace was taken at.
+ */
+export function describeRoutePosition(pos: RoutePosition, style: LengthStyle): string {
+  const { len } = styleOf(style);
+  if (pos.beyondEnd) {
+    const by = pos.beyondByM ?? pos.distanceFromAM - pos.chainageM - pos.slackDeductedM;
+    return `beyond the far end of the cable by ${len(by)}: check the installed length and the velocity factor`;
+  }
+  const dig = `dig ${describeDigWindow(pos, style)}`;
+  if (pos.inSlackAt) {
+    return `in the slack coil at ${placeName(pos.from)} (toward ${placeName(pos.toward)}); ${dig}`;
+  }
+  return `${len(pos.offsetM)} past ${placeName(pos.from)} toward ${placeName(pos.toward)}; ${dig}`;
+}
+
+/** The route sentence followed, when the window runs over a marker, by the sentence that says so. */
+export function describeRoute(pos: RoutePosition, style: LengthStyle): string {
+  const crossing = describeCrossings(pos, style);
+  return crossing ? `${describeRoutePosition(pos, style)}. ${crossing}` : describeRoutePosition(pos, style);
+}
+
+/** Metres in the shared precision, for text stored with a finding. */
 export function metresText(m: number): string {
-  return `${(Math.round(m * 10) / 10).toFixed(1)} m`;
+  return formatLength(m, 'm');
 }

@@ -2,6 +2,8 @@ import { describe, expect, it } from 'vitest';
 import {
   cableLengthAt,
   chainageAt,
+  describeCrossings,
+  describeRoute,
   describeRoutePosition,
   metresText,
   routeLengthM,
@@ -34,7 +36,12 @@ describe('route position with slack (hand-worked)', () => {
     // Window 247–253 m of cable → 237–243 m of route → 37–43 m past SP-1.
     expect(p.windowStartOffsetM).toBeCloseTo(37, 9);
     expect(p.windowEndOffsetM).toBeCloseTo(43, 9);
-    expect(describeRoutePosition(p, metresText)).toBe('40.0 m past splice SP-1 toward pedestal P-7, dig window 37.0–43.0 m');
+    expect(describeRoutePosition(p, metresText)).toBe('40.0 m past splice SP-1 toward pedestal P-7; dig on the ground 37.0–43.0 m past SP-1');
+    expect(describeRoutePosition(p, 'm')).toBe('40.0 m past splice SP-1 toward pedestal P-7; dig on the ground 37.0–43.0 m past SP-1');
+    // 40 m / 0.3048 = 131.23 ft; 37 m = 121.39 ft; 43 m = 141.08 ft.
+    expect(describeRoutePosition(p, 'ft')).toBe('131.2 ft past splice SP-1 toward pedestal P-7; dig on the ground 121.4–141.1 ft past SP-1');
+    expect(p.crossed).toEqual([]);
+    expect(describeCrossings(p, 'm')).toBeNull();
   });
 
   it('places a point before the first marker from end A, with nothing taken off', () => {
@@ -43,7 +50,7 @@ describe('route position with slack (hand-worked)', () => {
     expect(p.from).toMatchObject({ kind: 'end', label: 'A', name: 'Substation' });
     expect(p.toward.label).toBe('MH-3');
     expect(p.offsetM).toBeCloseTo(60, 9);
-    expect(describeRoutePosition(p, metresText)).toBe('60.0 m past end A (Substation) toward manhole MH-3, dig window 58.5–61.5 m');
+    expect(describeRoutePosition(p, metresText)).toBe('60.0 m past end A (Substation) toward manhole MH-3; dig on the ground 58.5–61.5 m past end A');
   });
 
   it('puts a point inside a coil at the marker itself', () => {
@@ -54,17 +61,35 @@ describe('route position with slack (hand-worked)', () => {
     expect(p.offsetM).toBe(0);
   });
 
-  it('measures from end B by turning the distance round on the installed length', () => {
-    // 120 m from B on a 500 m cable = 380 m from A; coils passed from A: 4 + 6 + 3 = 13 m → 367 m of route,
-    // 67 m past P-7 toward end B. Route length 500 − 13 = 487 m.
+  it('reads a trace from end B from end B: the last marker passed coming from B, toward A', () => {
+    // 120 m from B on a 500 m cable = 380 m from A; coils passed from A: 4 + 6 + 3 = 13 m → 367 m of route.
+    // Route length 500 − 13 = 487 m, so the point is 487 − 367 = 120 m of ground from B, before P-7
+    // (487 − 300 = 187 m from B): 120 m past end B toward P-7.
     const p = routePosition(run, 'B', 120, { startM: 117, endM: 123 });
     expect(p.distanceFromAM).toBe(380);
     expect(p.chainageM).toBeCloseTo(367, 9);
+    expect(p.measuredFrom).toBe('B');
+    expect(p.from).toMatchObject({ kind: 'end', label: 'B', chainageM: 487 });
+    expect(p.toward.label).toBe('P-7');
+    expect(p.offsetM).toBeCloseTo(120, 9);
+    // The window 117–123 m of cable from B has no coil in it: 117–123 m of ground past end B.
+    expect(p.windowStartOffsetM).toBeCloseTo(117, 9);
+    expect(p.windowEndOffsetM).toBeCloseTo(123, 9);
+    expect(describeRoutePosition(p, 'm')).toBe('120.0 m past end B (Cabinet 12) toward pedestal P-7; dig on the ground 117.0–123.0 m past end B');
+  });
+
+  it('counts a coil passed on the way from end B', () => {
+    // 250 m from B = 250 m from A → 250 − 10 = 240 m of route from A, 487 − 240 = 247 m from B.
+    // Coming from B: P-7 is reached after 187 m of ground, its 3 m coil brings the cable to 190 m,
+    // and the remaining 60 m of cable are 60 m of ground past P-7, toward SP-1.
+    const p = routePosition(run, 'B', 250, { startM: 247, endM: 253 });
     expect(p.from.label).toBe('P-7');
-    expect(p.toward).toMatchObject({ kind: 'end', label: 'B', chainageM: 487 });
-    // The window turns round too: 117–123 m from B = 377–383 m from A → 364–370 m of route → 64–70 m past P-7.
-    expect(p.windowStartOffsetM).toBeCloseTo(64, 9);
-    expect(p.windowEndOffsetM).toBeCloseTo(70, 9);
+    expect(p.toward.label).toBe('SP-1');
+    expect(p.offsetM).toBeCloseTo(60, 9);
+    // 247–253 m of cable from B → 57–63 m past P-7.
+    expect(p.windowStartOffsetM).toBeCloseTo(57, 9);
+    expect(p.windowEndOffsetM).toBeCloseTo(63, 9);
+    expect(describeRoutePosition(p, 'm')).toBe('60.0 m past pedestal P-7 toward splice SP-1; dig on the ground 57.0–63.0 m past P-7');
   });
 
   it('says so when the window starts before the marker', () => {
@@ -74,13 +99,62 @@ describe('route position with slack (hand-worked)', () => {
     const p = routePosition(run, 'A', 211, { startM: 196, endM: 214 });
     // 196 m of cable = 192 m of route, 8 m before SP-1.
     expect(p.windowStartOffsetM).toBeCloseTo(-8, 9);
-    expect(describeRoutePosition(p, metresText)).toContain('dig window from 8.0 m before to 4.0 m past it');
+    expect(describeRoutePosition(p, 'm')).toContain('dig on the ground from 8.00 m before SP-1 to 4.00 m past it');
+    // SP-1 itself is named as the window's start, not as a marker crossed.
+    expect(p.crossed).toEqual([]);
   });
 
-  it('flags a distance beyond the far end', () => {
+  it('flags a distance beyond the far end, from either end', () => {
     const p = routePosition(run, 'A', 530, { startM: 525, endM: 535 });
     expect(p.beyondEnd).toBe(true);
     expect(describeRoutePosition(p, metresText)).toMatch(/^beyond the far end of the cable by 30\.0 m/);
+    // From B the far end is A: 512 m of a 500 m cable is 12 m beyond it.
+    const b = routePosition(run, 'B', 512, { startM: 508, endM: 516 });
+    expect(b.beyondEnd).toBe(true);
+    expect(describeRoute(b, 'm')).toBe('beyond the far end of the cable by 12.0 m: check the installed length and the velocity factor');
+  });
+
+  it('names the marker a wide window crosses, with the marker it is measured from', () => {
+    // 240 m of cable from A is 230 m of route (MH-3 and SP-1 coils, 10 m, passed): 30 m past SP-1.
+    // Window 215–330 m of cable: 215 − 10 = 205 m of route; 330 m is past P-7's coil
+    // (reached at 310 m of cable, coiled to 313 m), so 330 − 13 = 317 m of route.
+    // On the ground past SP-1 (at 200 m): 5–117 m, and P-7 (at 300 m) lies 100 m past SP-1, inside it.
+    const p = routePosition(run, 'A', 240, { startM: 215, endM: 330 });
+    expect(p.from.label).toBe('SP-1');
+    expect(p.windowStartOffsetM).toBeCloseTo(5, 9);
+    expect(p.windowEndOffsetM).toBeCloseTo(117, 9);
+    expect(p.crossed?.map((c) => c.place.label)).toEqual(['P-7']);
+    expect(p.crossed?.[0].offsetM).toBeCloseTo(100, 9);
+    expect(describeRoute(p, 'm')).toBe(
+      '30.0 m past splice SP-1 toward pedestal P-7; dig on the ground 5.0–117.0 m past SP-1. ' +
+        'The dig window crosses pedestal P-7 (100.0 m past SP-1): the fault may be on either side of it.',
+    );
+  });
+
+  it('names a crossing in the direction of a reading from end B', () => {
+    // 180 m from B = 320 m from A, past every coil (13 m): 307 m of route from A, 487 − 307 = 180 m from B.
+    // P-7 is 187 m from B, so the point is 180 m past end B toward P-7.
+    // Window 150–215 m of cable from B: 150 m of ground (no coil before P-7); 215 m is past P-7's coil
+    // (187 + 3 = 190 m of cable), so 215 − 3 = 212 m of ground. P-7 at 187 m lies inside 150–212 m.
+    const p = routePosition(run, 'B', 180, { startM: 150, endM: 215 });
+    expect(p.from).toMatchObject({ kind: 'end', label: 'B' });
+    expect(p.offsetM).toBeCloseTo(180, 9);
+    expect(p.windowStartOffsetM).toBeCloseTo(150, 9);
+    expect(p.windowEndOffsetM).toBeCloseTo(212, 9);
+    expect(p.crossed?.map((c) => [c.place.label, Math.round(c.offsetM * 1000) / 1000])).toEqual([['P-7', 187]]);
+    // In feet: 180 m = 590.6 ft, 150 m = 492.1 ft, 212 m = 695.5 ft, 187 m = 613.5 ft.
+    expect(describeRoute(p, 'ft')).toBe(
+      '590.6 ft past end B (Cabinet 12) toward pedestal P-7; dig on the ground 492.1–695.5 ft past end B. ' +
+        'The dig window crosses pedestal P-7 (613.5 ft past end B): the fault may be on either side of it.',
+    );
+  });
+
+  it('still describes a position stored before the direction was kept', () => {
+    const stored = routePosition(run, 'A', 250, { startM: 247, endM: 253 });
+    delete stored.measuredFrom;
+    delete stored.crossed;
+    delete stored.beyondByM;
+    expect(describeRoute(stored, 'm')).toBe('40.0 m past splice SP-1 toward pedestal P-7; dig on the ground 37.0–43.0 m past SP-1');
   });
 
   it('inverts: cable length at a chainage', () => {

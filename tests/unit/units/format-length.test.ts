@@ -1,0 +1,79 @@
+import { describe, expect, it } from 'vitest';
+import {
+  formatLength,
+  formatLengthRange,
+  formatSignedLength,
+  fromUnit,
+  lengthDecimals,
+  lengthsInText,
+  toUnit,
+} from '../../../shared/units/format-length';
+
+// 1 ft = 0.3048 m exactly (international yard and pound agreement, 1959).
+// Feet values below are the metre values divided by 0.3048, worked by hand.
+
+describe('one precision rule for every length', () => {
+  it('keeps two decimals under 10, one under 1000, none from 1000 up', () => {
+    expect(lengthDecimals(9.99)).toBe(2);
+    expect(lengthDecimals(10)).toBe(1);
+    expect(lengthDecimals(999.9)).toBe(1);
+    expect(lengthDecimals(1000)).toBe(0);
+    expect(formatLength(3.05, 'm')).toBe('3.05 m');
+    expect(formatLength(80, 'm')).toBe('80.0 m');
+    expect(formatLength(1234.56, 'm')).toBe('1235 m');
+  });
+
+  it('chooses the precision from the printed value, so 9.996 is "10.0", not "10.00"', () => {
+    expect(formatLength(9.996, 'm')).toBe('10.0 m');
+    expect(formatLength(999.96, 'm')).toBe('1000 m');
+    expect(formatLength(9.994, 'm')).toBe('9.99 m');
+  });
+
+  it('writes feet from metres at 0.3048 m to the foot', () => {
+    // 80 m / 0.3048 = 262.467… ft
+    expect(formatLength(80, 'ft')).toBe('262.5 ft');
+    // 400 m / 0.3048 = 1312.336… ft
+    expect(formatLength(400, 'ft')).toBe('1312 ft');
+    // 3 m / 0.3048 = 9.8425… ft
+    expect(formatLength(3, 'ft')).toBe('9.84 ft');
+    // 3.048 m is exactly 10 ft
+    expect(formatLength(3.048, 'ft')).toBe('10.0 ft');
+    expect(toUnit(0.3048, 'ft')).toBe(1);
+    expect(fromUnit(1000, 'ft')).toBeCloseTo(304.8, 12);
+  });
+
+  it('shows no sign on a zero and a true minus on a negative', () => {
+    expect(formatLength(-0.001, 'm')).toBe('0.00 m');
+    expect(formatLength(-12.34, 'm')).toBe('−12.3 m');
+    expect(formatSignedLength(1.2, 'm')).toBe('+1.20 m');
+    expect(formatSignedLength(-0.45, 'm')).toBe('−0.45 m');
+    expect(formatSignedLength(0, 'ft')).toBe('0.00 ft');
+  });
+
+  it('writes a dash for a missing value', () => {
+    expect(formatLength(null, 'm')).toBe('—');
+    expect(formatLength(Number.NaN, 'ft')).toBe('—');
+  });
+
+  it('gives both ends of a range the precision of the larger end', () => {
+    expect(formatLengthRange(72.31, 87.64, 'm')).toBe('72.3–87.6 m');
+    expect(formatLengthRange(9.5, 10.5, 'm')).toBe('9.5–10.5 m');
+    // 290 m = 951.44 ft, 310 m = 1017.06 ft
+    expect(formatLengthRange(290, 310, 'ft')).toBe('951–1017 ft');
+  });
+});
+
+describe('metre figures in text Rholog wrote', () => {
+  it('rewrites lengths and ranges into feet', () => {
+    expect(lengthsInText('events closer than 3.05 m are hidden by the launch', 'ft')).toBe('events closer than 10.0 ft are hidden by the launch');
+    // 37 m = 121.39 ft, 43 m = 141.08 ft; 40 m = 131.23 ft
+    expect(lengthsInText('40.0 m past splice SP-1, dig window 37.0–43.0 m', 'ft')).toBe('131.2 ft past splice SP-1, dig window 121.4–141.1 ft');
+    expect(lengthsInText('located 400.00 m, found 398.50 m of cable (+1.50 m).', 'ft')).toBe('located 1312 ft, found 1307 ft of cable (+4.92 ft).');
+  });
+
+  it('leaves rates, areas, other units and a metre reader\'s text alone', () => {
+    const rates = 'at most 1000 dB/100 m, 3 dB per 100 m, 2.5 m/s, 4 m², 12 mm, 5 min';
+    expect(lengthsInText(rates, 'ft')).toBe(rates);
+    expect(lengthsInText('dig window 37.0–43.0 m', 'm')).toBe('dig window 37.0–43.0 m');
+  });
+});
