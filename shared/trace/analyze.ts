@@ -15,13 +15,13 @@
 import { distanceFromRoundTrip, SPEED_OF_LIGHT_M_PER_S } from '../cable/propagation';
 import type { ReflectionEvent, TraceAnalysis, TraceWarning } from '../schemas/trace-analysis';
 import { classifyEvent, impedanceOf, ownReflections } from './classify';
-import { detectEdges, mergeEdges } from './detection';
+import { detectEdges, FALSE_EVENTS_PER_TRACE, mergeEdges } from './detection';
 import { findEchoes, resolveCableEnd } from './echoes';
 import { fitEdges } from './edge-fit';
 import { TraceInputError } from './errors';
 import { findLaunch } from './launch';
 import { referencePlaneShift, roundTripSamples, type Timebase, zeroIndex } from './locate';
-import { estimateNoise } from './noise';
+import { estimateNoise, estimateSlowNoise } from './noise';
 import { launchOnsetTimer } from './onset';
 import type { ParsedTrace } from './parse';
 import { buildWorkingSignal } from './signal';
@@ -44,7 +44,7 @@ export interface AnalyzeOptions {
   leadLengthM?: number;
   /** Launch pulse width, if known; helps tell a pulse from a step. */
   pulseWidthNs?: number;
-  /** Detection threshold in noise standard deviations; default 6. */
+  /** Detection threshold in noise standard deviations; default: set for 1 false event from noise in 100 traces. */
   thresholdSigma?: number;
   /** Smallest |ρ| reported; default 0.005. */
   minReflection?: number;
@@ -177,7 +177,7 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
   const sigma0 = estimateNoise(rec.y);
   const pulseHintNs = options.pulseWidthNs ?? trace.hints.pulseWidthNs;
   const pulseHintSamples = pulseHintNs !== undefined ? (pulseHintNs * 1e-9) / rec.dt : null;
-  const L = findLaunch(rec, options.mode ?? 'auto', pulseHintSamples);
+  const L = findLaunch(rec, options.mode ?? 'auto', pulseHintSamples, estimateSlowNoise(rec.y));
   const ySorted = sortedSample(rec.y);
   if (!(percentileOf(ySorted, 0.999) - percentileOf(ySorted, 0.001) > 0) || !(Math.abs(L.height) > 0)) {
     return emptyAnalysis(rec, L, options, sigma0, [
@@ -206,8 +206,12 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     return emptyAnalysis(rec, L, options, sigma0, [...warnings, { code: 'NO_REFLECTION', message: msg }]);
   }
   const rhoMin = options.minReflection ?? 0.005;
-  const candidates = detectEdges(signal, options.thresholdSigma ?? 6, rhoMin);
-  const merged = mergeEdges(fitEdges({ rec, launch: L, signal, rhoMin }, candidates), signal.w0, L);
+  const detection = detectEdges(signal, {
+    thresholdSigma: options.thresholdSigma,
+    falseEventsPerTrace: FALSE_EVENTS_PER_TRACE,
+    rhoMin,
+  });
+  const merged = mergeEdges(fitEdges({ rec, launch: L, signal, rhoMin }, detection.candidates), signal.w0, L);
   const launchOnset = launchOnsetTimer(L, signal);
   const zeroOverride = options.zeroOffsetNs !== undefined ? (options.zeroOffsetNs * 1e-9 - rec.t[0]) / rec.dt : null;
   const tb: Timebase = { rec, launch: L, signal, launchOnset, zeroOverride, zeroShift: referencePlaneShift(L, merged) };
@@ -219,7 +223,16 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
   if (blindZoneM > 0) {
     warnings.push({ code: 'BLIND_ZONE', message: `events closer than ${blindZoneM.toFixed(2)} m are hidden by the launch` });
   }
-  return { ...emptyAnalysis(rec, L, options, sigma0, warnings), blindZoneM, events };
+  return {
+    ...emptyAnalysis(rec, L, options, sigma0, warnings),
+    blindZoneM,
+    events,
+    detection: {
+      falseEventsPerTrace: FALSE_EVENTS_PER_TRACE,
+      thresholdSigma: detection.thresholdSigma,
+      independentTests: Math.round(detection.independentTests),
+    },
+  };
 }
 
 function noLaunchWarning(rec: TraceRecord): TraceWarning {

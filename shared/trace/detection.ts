@@ -6,60 +6,83 @@
  * the sense of S. Mallat and S. Zhong, "Characterization of signals from
  * multiscale edges", IEEE Trans. PAMI 14 (1992) 710). It returns the step
  * height for a step and zero for any constant, linear or quadratic baseline,
- * so the slow creep of a lossy line and DC drift do not raise events. Its
- * threshold is a multiple of the filter's own robust noise (1.4826·MAD,
- * Hampel 1974). Finer scales win, so sharp events keep their resolution and
- * slow, far edges are still found at coarse scales.
+ * so the slow creep of a lossy line and DC drift do not raise events; at the
+ * coarse scales its windows match the slow, loss-spread edges of far events.
+ * Within two windows of the record's end, where the four windows do not fit, a
+ * three-window filter C − 2B + A (zero for a linear baseline) takes over, so an
+ * edge the record cuts short is still seen.
+ *
+ * The threshold is set for a stated rate of false events per trace from noise
+ * (by default 1 in 100): each scale contributes about L/w independent outputs
+ * over a search length L, and with N outputs in all each is held to a two-sided
+ * Gaussian tail of rate/N, k = Φ⁻¹(1 − rate/2N) standard deviations (the
+ * Bonferroni bound, e.g. R. G. Miller, "Simultaneous Statistical Inference",
+ * 2nd ed., Springer 1981, ch. 1). The noise at each scale is measured on the
+ * filter's own output (robust 1.4826·MAD, Hampel 1974, of differences four
+ * windows apart, where the creep of a lossy line cancels), so coloured noise is
+ * met at the scale it acts on; it is never taken below what white noise of the
+ * measured sample noise would give. At coarse scales, where the record holds
+ * too few independent outputs for a robust spread, the ratio of measured to
+ * white noise found at the finer scales is carried over.
  */
-import { madSigma, prefixSums } from './stats';
+import { madSigma, normalUpperQuantile, prefixSums } from './stats';
 import type { Candidate, Launch, Measured, WorkingSignal } from './steps';
 
-interface ScaleResult {
-  candidates: Candidate[];
-  thr: number;
+/** Target rate of false events per trace, from noise. */
+export const FALSE_EVENTS_PER_TRACE = 0.01;
+
+export interface DetectionSettings {
+  /** A fixed threshold in noise deviations; when absent, set from the false-event rate. */
+  thresholdSigma?: number;
+  falseEventsPerTrace: number;
+  /** Smallest |ρ| reported. */
+  rhoMin: number;
 }
 
-/** Robust noise of F at one scale, never below what white noise of the measured level would give. */
-function filterNoise(F: Float64Array, count: number, w: number, stride: number, sig: WorkingSignal): number {
-  const theoretical = sig.mode === 'step' ? (2.24 * sig.sigmaU) / Math.sqrt(w) : 2.24 * sig.scaleForPulse * Math.sqrt(w) * 0.6;
-  // Differences of F four windows apart: the slowly varying residue a lossy line's creep
-  // leaves in F cancels, while the noise (independent that far apart) stays.
+export interface Detection {
+  candidates: Candidate[];
+  thresholdSigma: number;
+  independentTests: number;
+}
+
+interface ScaleNoise {
+  sigmaF: number;
+  /** Measured over white-noise level, when measured on enough outputs. */
+  excess: number | null;
+}
+
+/** White-noise level of F at scale w. */
+function whiteNoiseOfF(w: number, sig: WorkingSignal): number {
+  return sig.mode === 'step' ? (2.24 * sig.sigmaU) / Math.sqrt(w) : 2.24 * sig.scaleForPulse * Math.sqrt(w) * 0.6;
+}
+
+/** Robust noise of F at one scale (see the header). */
+function filterNoise(F: Float64Array, count: number, w: number, stride: number, sig: WorkingSignal, excess: number): ScaleNoise {
+  const white = Math.max(whiteNoiseOfF(w, sig), 1e-12);
   const lag = Math.max(1, Math.round((4 * w) / stride));
-  let sigmaF: number;
+  let measured: number;
   if (count > lag + 8) {
     const m = count - lag;
     const step = Math.max(1, Math.floor(m / 4001));
     const dF = new Float64Array(Math.ceil(m / step));
     for (let k = 0, j = 0; k < m; k += step, j++) dF[j] = F[k] - F[k + lag];
-    sigmaF = Math.max(madSigma(dF, 0, dF.length) / Math.SQRT2, theoretical);
-  } else sigmaF = Math.max(madSigma(F, 0, count), theoretical);
-  return Math.max(sigmaF, 1e-12);
+    measured = madSigma(dF, 0, dF.length) / Math.SQRT2;
+  } else measured = madSigma(F, 0, count);
+  // Enough independent outputs (twelve lags' worth) for the robust spread to hold.
+  if (count >= 12 * lag) return { sigmaF: Math.max(measured, white), excess: Math.max(1, measured / white) };
+  return { sigmaF: Math.max(white, Math.min(measured, 3 * excess * white)), excess: null };
 }
 
-/** The filter at scale w, its threshold, and the extreme of each run above it. */
-function filterScale(
-  P: Float64Array,
-  Fbuf: Float64Array,
+/** Extreme of each run of |F| above thr, as candidates at positions from + k·stride. */
+function runsAbove(
+  F: Float64Array,
+  count: number,
+  from: number,
+  stride: number,
   w: number,
-  sig: WorkingSignal,
-  kSigma: number,
-  rhoMin: number,
-): ScaleResult | null {
-  const n = P.length - 1;
-  const from = sig.start + 2 * w;
-  const to = n - 2 * w;
-  if (to <= from) return null;
-  // Coarse scales change slowly; a stride of w/4 keeps their peaks and saves most of the work.
-  const stride = Math.max(1, Math.floor(w / 4));
-  const count = Math.floor((to - 1 - from) / stride) + 1;
-  const F = Fbuf.subarray(0, count);
-  const inv = 1 / (2 * w);
-  // (A − 3B + 3C − D)/2 over window means, written on the prefix sums.
-  for (let k = 0, i = from; k < count; k++, i += stride) {
-    F[k] = (-P[i - 2 * w] + 4 * P[i - w] - 6 * P[i] + 4 * P[i + w] - P[i + 2 * w]) * inv;
-  }
-  const sigmaF = filterNoise(F, count, w, stride, sig);
-  const thr = Math.max(kSigma * sigmaF, rhoMin);
+  thr: number,
+  sigmaF: number,
+): Candidate[] {
   const candidates: Candidate[] = [];
   let runStart = -1;
   let runSign = 0;
@@ -88,7 +111,53 @@ function filterScale(
     } else if (runStart >= 0) flush();
   }
   flush();
-  return { candidates, thr };
+  return candidates;
+}
+
+interface ScaleResult {
+  candidates: Candidate[];
+  thr: number;
+  excess: number | null;
+}
+
+/** The filter at scale w, its threshold, and the extreme of each run above it. */
+function filterScale(
+  P: Float64Array,
+  Fbuf: Float64Array,
+  w: number,
+  sig: WorkingSignal,
+  k: number,
+  rhoMin: number,
+  excess: number,
+): ScaleResult | null {
+  const n = P.length - 1;
+  const from = sig.start + 2 * w;
+  const to = n - 2 * w;
+  if (to <= from) return null;
+  // Coarse scales change slowly; a stride of w/4 keeps their peaks and saves most of the work.
+  const stride = Math.max(1, Math.floor(w / 4));
+  const count = Math.floor((to - 1 - from) / stride) + 1;
+  const F = Fbuf.subarray(0, count);
+  const inv = 1 / (2 * w);
+  // (A − 3B + 3C − D)/2 over window means, written on the prefix sums.
+  for (let j = 0, i = from; j < count; j++, i += stride) {
+    F[j] = (-P[i - 2 * w] + 4 * P[i - w] - 6 * P[i] + 4 * P[i + w] - P[i + 2 * w]) * inv;
+  }
+  const noise = filterNoise(F, count, w, stride, sig, excess);
+  const thr = Math.max(k * noise.sigmaF, rhoMin);
+  const candidates = runsAbove(F, count, from, stride, w, thr, noise.sigmaF);
+  // The record's last two windows: C − 2B + A, with noise √6/√5 that of F for white noise.
+  const tailFrom = Math.max(from, to);
+  const tailCount = Math.floor((n - w - tailFrom) / stride);
+  if (tailCount > 0) {
+    const T = Fbuf.subarray(0, tailCount);
+    const invW = 1 / w;
+    for (let j = 0, i = tailFrom; j < tailCount; j++, i += stride)
+      T[j] = (P[i + w] - 3 * P[i] + 3 * P[i - w] - P[i - 2 * w]) * invW;
+    const sigmaT = noise.sigmaF * Math.sqrt(6 / 5);
+    candidates.push(...runsAbove(T, tailCount, tailFrom, stride, w, Math.max(k * sigmaT, rhoMin), sigmaT));
+  }
+  return { candidates, thr, excess: noise.excess };
 }
 
 /** Drop side lobes: a step gives −½ of its height at ±w on the same scale, and the level across it moves against F. */
@@ -128,25 +197,37 @@ function resolveScales(kept: Candidate[]): Candidate[] {
   return accepted.sort((a, b) => a.i - b.i);
 }
 
-/** Candidate events in the working signal, in time order. */
-export function detectEdges(sig: WorkingSignal, kSigma: number, rhoMin: number): Candidate[] {
-  const n = sig.u.length;
-  const searchLen = n - sig.start;
-  const P = prefixSums(sig.u);
+/** The filter's scales: w0, 3w0, 9w0, … while four windows fit the search, at most seven. */
+function scalesOf(sig: WorkingSignal): number[] {
+  const searchLen = sig.u.length - sig.start;
   const scales: number[] = [];
   for (let w = sig.w0; 4 * w <= searchLen && scales.length < 7; w *= 3) scales.push(w);
   if (scales.length === 0) scales.push(Math.max(1, Math.floor(searchLen / 4)));
+  return scales;
+}
+
+/** Candidate events in the working signal, in time order, and the threshold that found them. */
+export function detectEdges(sig: WorkingSignal, settings: DetectionSettings): Detection {
+  const n = sig.u.length;
+  const searchLen = n - sig.start;
+  const scales = scalesOf(sig);
+  const independentTests = scales.reduce((acc, w) => acc + Math.max(1, (searchLen - 3 * w) / w), 0);
+  const k = settings.thresholdSigma ?? normalUpperQuantile(settings.falseEventsPerTrace / (2 * independentTests));
+  const rhoMin = settings.rhoMin;
+  const P = prefixSums(sig.u);
   const candidates: Candidate[] = [];
   const thresholds: number[] = [];
   const Fbuf = new Float64Array(Math.max(1, n));
+  let excess = 1;
   for (const w of scales) {
-    const r = filterScale(P, Fbuf, w, sig, kSigma, rhoMin);
+    const r = filterScale(P, Fbuf, w, sig, k, rhoMin, excess);
     if (!r) continue;
+    if (r.excess !== null) excess = r.excess;
     thresholds.push(r.thr);
     candidates.push(...r.candidates);
   }
-  const thrOf = new Map(scales.map((w, k) => [w, thresholds[k] ?? rhoMin]));
-  return resolveScales(dropSideLobes(candidates, P, thrOf, rhoMin));
+  const thrOf = new Map(scales.map((w, j) => [w, thresholds[j] ?? rhoMin]));
+  return { candidates: resolveScales(dropSideLobes(candidates, P, thrOf, rhoMin)), thresholdSigma: k, independentTests };
 }
 
 /**

@@ -20,7 +20,7 @@
  * it back to the baseline). A launch whose top is flat at the record's extreme
  * while its edge is still steep has been clipped by the recorder.
  */
-import { percentileOf, sampleMedian, sortedSample } from './stats';
+import { boxcar, percentileOf, sampleMedian, sortedSample } from './stats';
 import type { Launch, Mode, TraceRecord } from './steps';
 
 /** Three-point average, computed where needed rather than stored. */
@@ -38,17 +38,21 @@ interface Levels {
   /** Level the record rests at over its last four fifths. */
   rest: number;
   zeroIdx: number;
+  /** Smallest excursion read as the launch: a quarter of the range, raised to 5 σ of slow noise (at most 0.6 of the range). */
+  launchMin: number;
 }
 
-function recordLevels(rec: TraceRecord): Levels {
+function recordLevels(rec: TraceRecord, slowNoise: number): Levels {
   const { y, n, t, dt } = rec;
   const sorted = sortedSample(y);
   const lo = percentileOf(sorted, 0.002);
   const hi = percentileOf(sorted, 0.998);
+  const range = Math.max(hi - lo, 1e-300);
   return {
     lo,
     hi,
-    range: Math.max(hi - lo, 1e-300),
+    range,
+    launchMin: Math.max(0.25 * range, Math.min(0.6 * range, 5 * slowNoise)),
     bStart: sampleMedian(y, 0, Math.min(n, 5)),
     rest: sampleMedian(y, Math.floor(n / 5), n),
     zeroIdx: -t[0] / dt,
@@ -127,7 +131,7 @@ function launchFall(y: Float64Array, e: LaunchEdge, pulseHintSamples: number | n
   for (let i = iFall + riseSamples * 2; i < end; i++) {
     if (sign * (ys(i) - baseline) > 0.5 * peak) return { iFall, looksPulse: false };
   }
-  const short = pulseHintSamples !== null ? width < 3 * pulseHintSamples + 4 * riseSamples : width < 0.15 * (n - ic);
+  const short = pulseHintSamples !== null ? width < 3 * pulseHintSamples + 4 * riseSamples : width < 0.35 * (n - ic);
   // A pulse record rests at its baseline after the launch, apart from sparse echoes.
   const rests = fractionNear(y, Math.min(n, end), baseline, 0.25 * peak) >= 0.6;
   return { iFall, looksPulse: short && rests };
@@ -168,7 +172,7 @@ function launchBeforeRecord(rec: TraceRecord, lv: Levels, positiveOnly: boolean)
   const ys = smoothedAt(y);
   const sign = Math.sign(lv.bStart - lv.rest) || 1;
   if (positiveOnly && sign < 0) return null;
-  if (Math.abs(lv.bStart - lv.rest) < 0.25 * lv.range) return null;
+  if (Math.abs(lv.bStart - lv.rest) < lv.launchMin) return null;
   let peak = 0;
   let iFall = -1;
   for (let i = 0; i < n; i++) {
@@ -246,8 +250,9 @@ function launchInRecord(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hi
   const { y, n } = rec;
   const ys = smoothedAt(y);
   let ic = -1;
-  for (let i = 0; i < n; i++) {
-    if (Math.abs(ys(i) - lv.bStart) > 0.25 * lv.range) {
+  const beyond = (i: number) => Math.abs(ys(i) - lv.bStart) > lv.launchMin;
+  for (let i = 0; i < n - 1; i++) {
+    if (beyond(i) && beyond(i + 1)) {
       ic = i;
       break;
     }
@@ -290,8 +295,22 @@ function rhoLaunch(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hint: n
   return noLaunch(rec, lv, modeOpt, Number.isFinite(base) ? base : 0, 1);
 }
 
-export function findLaunch(rec: TraceRecord, modeOpt: 'auto' | Mode, pulseHintSamples: number | null): Launch {
-  const lv = recordLevels(rec);
+/**
+ * A noisy record is averaged over k samples before its launch is looked for, k chosen so
+ * the noise falls to 3 % of the record's range (σ/√k ≤ 0.03·range): the quarter-range
+ * crossing that finds the launch is then eight noise deviations out.
+ */
+function forLaunchSearch(rec: TraceRecord, sigma0: number): TraceRecord {
+  const sorted = sortedSample(rec.y);
+  const range = percentileOf(sorted, 0.998) - percentileOf(sorted, 0.002);
+  if (!(range > 0) || sigma0 <= 0.03 * range) return rec;
+  const k = Math.min(Math.max(1, Math.floor(rec.n / 200)), Math.ceil((sigma0 / (0.03 * range)) ** 2));
+  return k > 1 ? { ...rec, y: boxcar(rec.y, k) } : rec;
+}
+
+export function findLaunch(record: TraceRecord, modeOpt: 'auto' | Mode, pulseHintSamples: number | null, sigma0 = 0): Launch {
+  const rec = forLaunchSearch(record, sigma0);
+  const lv = recordLevels(rec, sigma0);
   if (rec.unit === 'rho' && Math.abs(lv.bStart + 1) > 0.35) return rhoLaunch(rec, lv, modeOpt, pulseHintSamples);
   if (modeOpt !== 'step') {
     const before = launchBeforeRecord(rec, lv, false);

@@ -7,23 +7,66 @@
  * the uniform rounding noise of a quantiser, q/√12 (B. Widrow and I. Kollár,
  * "Quantization Noise", Cambridge 2008, ch. 4), is then the floor, but only
  * when that step really recurs: a noise-free trace's few edges are not one.
+ * Stretches held flat at the record's extreme (a saturated recorder) carry no
+ * noise and are left out.
  */
 import { madSigma } from './stats';
 
+/** Samples inside runs of eight or more equal values at the record's maximum or minimum. */
+function saturated(y: Float64Array): Uint8Array {
+  const n = y.length;
+  const out = new Uint8Array(n);
+  let hi = -Infinity;
+  let lo = Infinity;
+  for (let i = 0; i < n; i++) {
+    if (y[i] > hi) hi = y[i];
+    if (y[i] < lo) lo = y[i];
+  }
+  for (let i = 0; i < n;) {
+    let j = i;
+    while (j < n && y[j] === y[i]) j++;
+    if (j - i >= 8 && (y[i] === hi || y[i] === lo)) out.fill(1, i, j);
+    i = j;
+  }
+  return out;
+}
+
 export function estimateNoise(y: Float64Array): number {
   const n = y.length;
+  const clipped = saturated(y);
   const diffStep = Math.max(1, Math.floor((n - 1) / 8001));
   const diffs = new Float64Array(Math.ceil((n - 1) / diffStep));
+  let m = 0;
   let minStep = Infinity;
-  for (let i = 1, j = 0; i < n; i += diffStep, j++) {
+  for (let i = 1; i < n; i += diffStep) {
+    if (clipped[i] && clipped[i - 1]) continue;
     const d = y[i] - y[i - 1];
-    diffs[j] = d;
+    diffs[m++] = d;
     const a = Math.abs(d);
     if (a > 0 && a < minStep) minStep = a;
   }
-  let sigma0 = madSigma(diffs, 0, diffs.length) / Math.SQRT2;
+  if (m < 2) return 0;
+  let sigma0 = madSigma(diffs, 0, m) / Math.SQRT2;
   let atStep = 0;
-  for (let j = 0; j < diffs.length; j++) if (Math.abs(Math.abs(diffs[j]) - minStep) <= 1e-9 * minStep) atStep++;
-  if (Number.isFinite(minStep) && atStep >= Math.max(3, 0.002 * diffs.length)) sigma0 = Math.max(sigma0, minStep / Math.sqrt(12));
+  for (let j = 0; j < m; j++) if (Math.abs(Math.abs(diffs[j]) - minStep) <= 1e-9 * minStep) atStep++;
+  if (Number.isFinite(minStep) && atStep >= Math.max(3, 0.002 * m)) sigma0 = Math.max(sigma0, minStep / Math.sqrt(12));
   return sigma0;
+}
+
+/**
+ * Noise including its slow (coloured) part: the largest robust spread of y[i] − y[i − lag]
+ * over lags 1, 4, 16, 64 and 256, over √2. Differences over a longer lag see the low-frequency
+ * noise a first difference misses; edges still touch few of them.
+ */
+export function estimateSlowNoise(y: Float64Array): number {
+  const n = y.length;
+  let worst = 0;
+  for (const lag of [1, 4, 16, 64, 256]) {
+    if (n <= lag + 16) break;
+    const step = Math.max(1, Math.floor((n - lag) / 8001));
+    const d = new Float64Array(Math.ceil((n - lag) / step));
+    for (let i = lag, j = 0; i < n; i += step, j++) d[j] = y[i] - y[i - lag];
+    worst = Math.max(worst, madSigma(d, 0, d.length) / Math.SQRT2);
+  }
+  return worst;
 }

@@ -137,3 +137,14 @@ export function lineFit(x: Float64Array, from: number, to: number): (i: number) 
   const icpt = (sy - slope * sx) / n;
   return (i) => icpt + slope * (i - from);
 }
+
+/**
+ * x with P(Z > x) = p for a standard normal Z, 0 < p ≤ 0.5: the rational approximation
+ * of M. Abramowitz and I. A. Stegun, "Handbook of Mathematical Functions" (1964),
+ * 26.2.23, |error| < 4.5·10⁻⁴.
+ */
+export function normalUpperQuantile(p: number): number {
+  const q = Math.min(0.5, Math.max(1e-300, p));
+  const t = Math.sqrt(-2 * Math.log(q));
+  return t - (2.515517 + 0.802853 * t + 0.010328 * t * t) / (1 + 1.432788 * t + 0.189269 * t * t + 0.001308 * t * t * t);
+}
