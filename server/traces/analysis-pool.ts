@@ -44,6 +44,9 @@ async function hashFile(file: string): Promise<{ sha256: string; sizeBytes: numb
   return { sha256: hash.digest('hex'), sizeBytes };
 }
 
+/** How long a file may wait for a free worker, beyond its own time budget. */
+const QUEUE_WAIT_MS = 120_000;
+
 const seconds = (ms: number) => `${Math.round(ms / 100) / 10} s`;
 
 /**
@@ -53,22 +56,49 @@ const seconds = (ms: number) => `${Math.round(ms / 100) / 10} s`;
  * worker, still gets an answer: a failed outcome saying why, with the file's
  * SHA-256 and size, so it is stored like any unreadable file.
  */
+type Pool = Piscina<WorkerTask, AnalyseResult | ReadResult>;
+
+/** A task handed to the pool and not yet started, and why it was called off (if it was). */
+interface Waiting {
+  pool: Pool;
+  abort: AbortController;
+  calledOff?: unknown;
+}
+
 export class AnalysisPool {
-  private readonly pool: Piscina<WorkerTask, AnalyseResult | ReadResult>;
+  private pool: Pool | null = null;
+  private readonly waiting = new Set<Waiting>();
 
   constructor(
     readonly budget: AnalysisBudget,
     private readonly log: (message: string, extra?: unknown) => void = () => undefined,
-  ) {
-    this.pool = new Piscina({
+  ) {}
+
+  private current(): Pool {
+    if (this.pool) return this.pool;
+    const pool: Pool = new Piscina({
       filename: workerEntry(),
       minThreads: 0,
-      maxThreads: budget.threads,
+      maxThreads: this.budget.threads,
       idleTimeout: 60_000,
-      resourceLimits: { maxOldGenerationSizeMb: budget.memoryMb, maxYoungGenerationSizeMb: Math.max(4, Math.round(budget.memoryMb / 8)) },
+      resourceLimits: { maxOldGenerationSizeMb: this.budget.memoryMb, maxYoungGenerationSizeMb: Math.max(4, Math.round(this.budget.memoryMb / 8)) },
     });
-    // Errors reach the task that caused them; the pool's own 'error' event must not crash the server.
-    this.pool.on('error', (err) => this.log('an analysis worker failed', err));
+    // A worker that fails outside any task failed while starting. The pool then starts no more workers, so the
+    // files waiting for one are called off with that reason, and the next file gets a fresh pool.
+    pool.on('error', (err) => this.workerFailedToStart(pool, err));
+    this.pool = pool;
+    return pool;
+  }
+
+  private workerFailedToStart(pool: Pool, err: unknown) {
+    this.log('an analysis worker failed while starting', err);
+    if (this.pool === pool) this.pool = null;
+    for (const w of this.waiting) {
+      if (w.pool !== pool) continue;
+      w.calledOff = err;
+      w.abort.abort();
+    }
+    pool.close().catch(() => undefined);
   }
 
   /** Hash, parse and analyse one file. Never throws for the file's sake: a file over budget is a failed outcome. */
@@ -92,21 +122,28 @@ export class AnalysisPool {
   private async run<R extends AnalyseResult | ReadResult>(task: WorkerTask): Promise<{ result: R } | { error: Outcome }> {
     const { port1, port2 } = new MessageChannel();
     const abort = new AbortController();
+    const pool = this.current();
+    const waiting: Waiting = { pool, abort };
+    this.waiting.add(waiting);
     let startedAt: number | null = null;
-    let timer: NodeJS.Timeout | undefined;
+    // Until the work starts, only a generous ceiling for the wait (a worker that cannot even start must not hang the upload).
+    let timer: NodeJS.Timeout | undefined = setTimeout(() => abort.abort(), this.budget.timeoutMs + QUEUE_WAIT_MS);
     port1.once('message', () => {
       startedAt = performance.now();
+      this.waiting.delete(waiting);
+      clearTimeout(timer);
       timer = setTimeout(() => abort.abort(), this.budget.timeoutMs);
     });
     try {
-      const result = (await this.pool.run({ ...task, started: port2 }, { transferList: [port2], signal: abort.signal })) as R;
+      const result = (await pool.run({ ...task, started: port2 }, { transferList: [port2], signal: abort.signal })) as R;
       // Late is over budget too, whether the timer or the worker's own clock noticed first.
       const tookMs = Math.max(result.elapsedMs, startedAt === null ? 0 : performance.now() - startedAt);
       if (tookMs > this.budget.timeoutMs) return { error: this.overTime() };
       return { result };
     } catch (err) {
-      return { error: this.failure(err, abort.signal.aborted) };
+      return { error: this.failure(waiting.calledOff ?? err, abort.signal.aborted && !waiting.calledOff, startedAt !== null) };
     } finally {
+      this.waiting.delete(waiting);
       clearTimeout(timer);
       port1.close();
     }
@@ -119,7 +156,13 @@ export class AnalysisPool {
     );
   }
 
-  private failure(err: unknown, timedOut: boolean): Outcome {
+  private failure(err: unknown, timedOut: boolean, started: boolean): Outcome {
+    if (timedOut && !started) {
+      return failedOutcome(
+        'ANALYSIS_NOT_STARTED',
+        `The server was too busy to start analysing this file within ${seconds(this.budget.timeoutMs + QUEUE_WAIT_MS)}. The file is kept; analyse it again later.`,
+      );
+    }
     if (timedOut) return this.overTime();
     const code = (err as { code?: string })?.code;
     if (code === 'ERR_WORKER_OUT_OF_MEMORY') {
@@ -132,8 +175,10 @@ export class AnalysisPool {
     return failedOutcome('ENGINE_ERROR', `The trace engine stopped on this file (${(err as Error)?.message ?? String(err)}). The file is kept.`);
   }
 
-  close(): Promise<void> {
-    return this.pool.destroy();
+  async close(): Promise<void> {
+    const pool = this.pool;
+    this.pool = null;
+    await pool?.destroy();
   }
 }
 
