@@ -31,6 +31,7 @@ import { findingRoutes } from './findings/findings.routes';
 import { measurementRoutes } from './measurements/measurements.routes';
 import { siteRoutes } from './sites/sites.routes';
 import { traceRoutes } from './traces/traces.routes';
+import { traceOutcomeRoutes } from './trace-outcomes/trace-outcomes.routes';
 import { sweepUploads } from './traces/traces.service';
 import { userRoutes } from './users/users.routes';
 import { createLogger, securityLog } from './log';
@@ -115,7 +116,7 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
     res.json({ status: 'ok' });
   });
 
-  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(ctx), cableRoutes(), calibrationRoutes(ctx), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx), measurementRoutes(ctx), ticketRoutes(ctx), dashboardRoutes()];
+  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(ctx), cableRoutes(), calibrationRoutes(ctx), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceOutcomeRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx), measurementRoutes(ctx), ticketRoutes(ctx), dashboardRoutes()];
   subscribeFindingNotices(ctx);
   for (const r of routers) app.use(r.prefix, r.router);
   const routes = [{ method: 'get' as const, path: '/api/health', access: 'public' as const }, ...routers.flatMap((r) => r.routes)];

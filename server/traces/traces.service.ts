@@ -324,7 +324,8 @@ async function summaries(traces: Trace[]): Promise<TraceSummary[]> {
 
 export async function listTraces(q: z.output<typeof TraceListQuerySchema>): Promise<Page<TraceSummary>> {
   const where: WhereOptions<Trace> = {};
-  const and: WhereOptions<Trace>[] = [];
+  // Archived traces are kept but left out of the lists.
+  const and: WhereOptions<Trace>[] = [{ archivedAt: null }];
   if (q.cableRunId) and.push({ cableRunId: q.cableRunId });
   if (q.siteId) {
     const runs = await CableRun.findAll({ where: { siteId: q.siteId }, attributes: ['id'] });
@@ -374,7 +375,7 @@ function rememberParsed(ctx: AppContext, rawPath: string, settings: TraceSetting
 }
 
 /** A stored trace's samples: from the cache, or read again in the analysis pool (never on the request thread). */
-async function parsedSamples(ctx: AppContext, trace: Trace): Promise<ParsedTrace | null> {
+export async function parsedSamples(ctx: AppContext, trace: Trace): Promise<ParsedTrace | null> {
   if (trace.status !== 'ok') return null;
   const hit = parsedCache.get(parsedKey(ctx, trace.rawPath, trace.settings));
   if (hit) return hit;

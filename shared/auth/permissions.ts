@@ -18,6 +18,10 @@ export const PERMISSIONS = [
   'traces:read',
   'traces:upload',
   'traces:reference',
+  /** Archive anyone's junk or unreadable trace with a reason (an uploader may archive their own with traces:upload). */
+  'traces:archive',
+  /** See archived traces and put one back in the lists. */
+  'traces:restore',
   'findings:read',
   'findings:confirm',
   /** Decide an event on someone else's trace, and reverse a decision with a reason. */
@@ -48,7 +52,7 @@ const FIELD: Permission[] = [
 
 export const ROLE_PERMISSIONS: Record<Role, readonly Permission[]> = {
   technician: FIELD,
-  supervisor: [...FIELD, 'sites:write', 'traces:reference', 'findings:review', 'tickets:manage', 'dashboard:read'],
+  supervisor: [...FIELD, 'sites:write', 'traces:reference', 'traces:archive', 'findings:review', 'tickets:manage', 'dashboard:read'],
   planner: [
     'sites:read',
     'sites:write',

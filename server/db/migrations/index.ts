@@ -11,6 +11,7 @@ import * as m0008 from './0008-cable-loss';
 import * as m0009 from './0009-upload-integrity';
 import * as m0010 from './0010-decision-history';
 import * as m0011 from './0011-fusion-measurements';
+import * as m0012 from './0012-outcomes';
 
 export type Migration = MigrationFn<QueryInterface>;
 
@@ -30,6 +31,7 @@ const MIGRATIONS: Array<{ name: string; up: Migration; down: Migration }> = [
   { name: '0009-upload-integrity', ...m0009 },
   { name: '0010-decision-history', ...m0010 },
   { name: '0011-fusion-measurements', ...m0011 },
+  { name: '0012-outcomes', ...m0012 },
 ];
 
 export function migrator(sequelize: Sequelize) {

@@ -15,6 +15,8 @@ import { initSite, Site } from './site';
 import { initSiteSupervisor } from './site-supervisor';
 import { associateTicketModels, initTicket, initTicketCloseout, initTicketEvent, initTicketFinding } from './ticket';
 import { initTrace } from './trace';
+import { associateTraceArchiveEvent, initTraceArchiveEvent } from './trace-archive-event';
+import { associateTraceOutcome, initTraceOutcome } from './trace-outcome';
 import { initUploadReceipt } from './upload-receipt';
 import { initUser, User } from './user';
 
@@ -48,6 +50,10 @@ export function initModels(sequelize: Sequelize) {
   associateCableCalibration({ CableType, User });
   associateMeasurement({ User });
   associateFindingDecision({ User });
+  initTraceOutcome(sequelize);
+  initTraceArchiveEvent(sequelize);
+  associateTraceOutcome({ User });
+  associateTraceArchiveEvent({ User });
 }
 
 export { User } from './user';
@@ -67,3 +73,5 @@ export { Finding } from './finding';
 export { FindingDecision } from './finding-decision';
 export { Ticket, TicketFinding, TicketEvent, TicketCloseout } from './ticket';
 export { Measurement } from './measurement';
+export { TraceOutcome } from './trace-outcome';
+export { TraceArchiveEvent } from './trace-archive-event';

@@ -45,6 +45,8 @@ export class Trace extends Model<InferAttributes<Trace>, InferCreationAttributes
   declare isReference: CreationOptional<boolean>;
   /** Set on a re-analysis: the trace (same stored file) whose analysis this one replaces. */
   declare reanalysisOfId: CreationOptional<number | null>;
+  /** Set while the trace is archived: kept, but left out of the lists (history in trace_archive_events). */
+  declare archivedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare cableRun?: NonAttribute<CableRun>;
@@ -77,6 +79,7 @@ export function initTrace(sequelize: Sequelize) {
       analysis: { type: DataTypes.JSON, allowNull: true },
       isReference: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       reanalysisOfId: { type: DataTypes.INTEGER, allowNull: true },
+      archivedAt: { type: DataTypes.DATE, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },
