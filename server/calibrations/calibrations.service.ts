@@ -195,7 +195,7 @@ function ownCalibrationOverride(c: CableCalibration, reviewer: Pick<SessionUser,
 export async function acceptCalibration(
   id: number,
   reviewer: Pick<SessionUser, 'id' | 'role'>,
-  opts: { vfTolerance?: number; note?: string } = {},
+  opts: { vf?: number; vfTolerance?: number; note?: string } = {},
   security?: SecurityLog,
 ) {
   const sequelize = CableCalibration.sequelize!;
@@ -205,14 +205,16 @@ export async function acceptCalibration(
     assertPending(c);
     const override = ownCalibrationOverride(c, reviewer, opts.note);
     const submitted = new Date(c.createdAt).toISOString().slice(0, 10);
+    const vf = roundVf(opts.vf ?? c.vf);
     const vfReference =
-      `Field calibration #${c.id}: ${Number(c.knownLengthM.toFixed(2))} m known length, ${Number(c.roundTripNs.toFixed(2))} ns round trip` +
+      (vf !== roundVf(c.vf) ? `Mean of the accepted field calibrations of this cable type, the last #${c.id}: ` : `Field calibration #${c.id}: `) +
+      `${Number(c.knownLengthM.toFixed(2))} m known length, ${Number(c.roundTripNs.toFixed(2))} ns round trip` +
       ` (${CALIBRATION_SOURCE_LABELS[c.source].toLowerCase()}${c.traceId ? `, trace ${c.traceId}` : ''})` +
       `, submitted by ${c.submittedBy?.name ?? 'unknown'} on ${submitted}.`;
     const { cable } = await updateCable(
       c.cableTypeId,
       {
-        vf: roundVf(c.vf),
+        vf,
         vfSource: 'field-calibrated',
         vfReference,
         ...(opts.vfTolerance !== undefined ? { vfTolerance: opts.vfTolerance } : {}),

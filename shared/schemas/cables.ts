@@ -168,6 +168,8 @@ export const CalibrationListQuerySchema = z.object({
 });
 
 export const CalibrationAcceptSchema = z.object({
+  /** The VF to store, when the reviewer takes the mean of the accepted calibrations; the calibration's own VF otherwise. */
+  vf: cableFields.vf.optional(),
   /** Optional new tolerance to store with the accepted VF; the entry's stays otherwise. */
   vfTolerance: cableFields.vfTolerance.optional(),
   note: z.string().trim().max(2000).optional(),
