@@ -51,9 +51,10 @@ interface ScaleNoise {
   excess: number | null;
 }
 
-/** White-noise level of F at scale w. */
+/** Level of F at scale w for the record's noise: white noise of the measured σ, times its coloured excess there. */
 function whiteNoiseOfF(w: number, sig: WorkingSignal): number {
-  return sig.mode === 'step' ? (2.24 * sig.sigmaU) / Math.sqrt(w) : 2.24 * sig.scaleForPulse * Math.sqrt(w) * 0.6;
+  const white = sig.mode === 'step' ? (2.24 * sig.sigmaU) / Math.sqrt(w) : 2.24 * sig.scaleForPulse * Math.sqrt(w) * 0.6;
+  return white * sig.noiseExcess(w);
 }
 
 /** Robust noise of F at one scale (see the header). */

@@ -70,3 +70,40 @@ export function estimateSlowNoise(y: Float64Array): number {
   }
   return worst;
 }
+
+/**
+ * How much the noise at a scale of w samples exceeds white noise of σ0: the robust spread
+ * of second differences of b-sample block means (which cancel a baseline's slope, so a
+ * lossy line's creep does not count), over their white-noise value √6·σ0/√b, for block
+ * sizes b = 1, 2, 4, … while at least 48 blocks remain. A scale beyond the largest block
+ * takes that block's factor. Always at least 1.
+ */
+export function noiseExcess(y: Float64Array, sigma0: number): (w: number) => number {
+  const n = y.length;
+  const sizes: number[] = [];
+  const factors: number[] = [];
+  if (sigma0 > 0) {
+    const P = new Float64Array(n + 1);
+    for (let i = 0; i < n; i++) P[i + 1] = P[i] + y[i];
+    for (let b = 1; n / b >= 48; b *= 2) {
+      const blocks = Math.floor(n / b);
+      const step = Math.max(1, Math.floor((blocks - 2) / 4001));
+      const d2 = new Float64Array(Math.ceil((blocks - 2) / step));
+      let m = 0;
+      for (let j = 1; j < blocks - 1; j += step) {
+        const a = P[(j - 1) * b];
+        const c = P[j * b];
+        const d = P[(j + 1) * b];
+        const e = P[(j + 2) * b];
+        d2[m++] = (e - d - 2 * (d - c) + (c - a)) / b;
+      }
+      sizes.push(b);
+      factors.push(Math.max(1, madSigma(d2, 0, m) / ((Math.sqrt(6) * sigma0) / Math.sqrt(b))));
+    }
+  }
+  return (w) => {
+    let f = 1;
+    for (let k = 0; k < sizes.length && sizes[k] <= w; k++) f = factors[k];
+    return f;
+  };
+}

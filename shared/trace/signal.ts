@@ -8,6 +8,7 @@
  * becomes a step whose height is its area ratio. Cable loss spreads an echo but
  * keeps its area (the line's DC gain), so area is the loss-robust measure of ρ.
  */
+import { noiseExcess } from './noise';
 import { boxcar, sampleMedian } from './stats';
 import type { Launch, TraceRecord, WorkingSignal } from './steps';
 
@@ -64,11 +65,27 @@ export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number):
     mode === 'step' ? { u: stepSignal(rec, L), pulseRaw: new Float64Array(0), unitArea: 1 } : pulseSignal(rec, L);
   const sigmaU = mode === 'step' ? sigma0 / Math.abs(L.found || rec.unit !== 'rho' ? L.height : 1) : 0;
   const scaleForPulse = mode === 'pulse' ? sigma0 / Math.abs(L.found ? L.height : 1) / unitArea : 0;
+  // The shortest edge in u: the launch's rise (step), or the ramp an echo of the launch
+  // pulse makes in the running integral, about 0.8 of its width (pulse).
+  const edge = L.found ? Math.max(L.riseSamples, mode === 'pulse' ? 0.4 * (L.widthSamples ?? 0) : 0) : 2;
+  const w0 = Math.max(2, Math.round(edge));
   // Smoothing for onset timing: a short boxcar, the same for the launch and every event.
-  const w0 = Math.max(2, Math.round(L.found ? L.riseSamples : 2));
   const smoothW = Math.max(1, Math.round(w0 / 3));
   const us = boxcar(u, smoothW);
   const start = Math.min(n - 1, L.settleIdx + (L.found ? w0 : 0));
   const blindIdx = L.found ? start : Math.max(0, Math.ceil(L.zeroIdx));
-  return { mode, u, us, pulseRaw, unitArea, sigmaU, scaleForPulse, w0, smoothW, start, blindIdx };
+  return {
+    mode,
+    u,
+    us,
+    pulseRaw,
+    unitArea,
+    sigmaU,
+    scaleForPulse,
+    w0,
+    smoothW,
+    start,
+    blindIdx,
+    noiseExcess: noiseExcess(rec.y, sigma0),
+  };
 }

@@ -65,6 +65,8 @@ export interface WorkingSignal {
   start: number;
   /** End of the blind zone, samples. */
   blindIdx: number;
+  /** Coloured-noise factor at a scale of w samples (noise.ts). */
+  noiseExcess: (w: number) => number;
 }
 
 /** A detection: the step filter's extreme at scale w. */
