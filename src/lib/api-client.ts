@@ -111,6 +111,7 @@ export async function uploadWithProgress<T>(
   path: string,
   form: FormData,
   onProgress: (fraction: number) => void,
+  headers: Record<string, string> = {},
 ): Promise<T> {
   const token = csrfToken ?? (await fetchCsrfToken());
   return new Promise<T>((resolve, reject) => {
@@ -118,6 +119,7 @@ export async function uploadWithProgress<T>(
     xhr.open('POST', path);
     xhr.setRequestHeader('x-csrf-token', token);
     xhr.setRequestHeader('accept', 'application/json');
+    for (const [name, value] of Object.entries(headers)) xhr.setRequestHeader(name, value);
     xhr.upload.onprogress = (e) => e.lengthComputable && onProgress(e.loaded / e.total);
     xhr.onerror = () => reject(new ApiError(0, 'offline', 'The upload did not reach Rholog. Check the connection and try again.'));
     xhr.onload = () => {

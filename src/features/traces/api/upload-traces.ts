@@ -8,11 +8,39 @@ export interface UploadInput {
   onProgress: (fraction: number) => void;
 }
 
+const fileKeys = new WeakMap<File, string>();
+const uploadKeys = new Map<string, string>();
+
+function randomKey() {
+  // getRandomValues works on plain HTTP too, unlike randomUUID.
+  const bytes = crypto.getRandomValues(new Uint8Array(16));
+  return Array.from(bytes, (b) => b.toString(16).padStart(2, '0')).join('');
+}
+
+/**
+ * The Idempotency-Key of an upload: each chosen file gets a key of its own,
+ * and sending the same files again (a retry after a lost answer) sends the
+ * same key, so the server answers with the first result instead of storing
+ * the files twice.
+ */
+export function uploadKey(files: File[]): string {
+  const perFile = files
+    .map((f) => {
+      const key = fileKeys.get(f) ?? randomKey();
+      fileKeys.set(f, key);
+      return key;
+    })
+    .join('.');
+  const key = uploadKeys.get(perFile) ?? randomKey();
+  uploadKeys.set(perFile, key);
+  return key;
+}
+
 export function uploadTraces({ files, fields, onProgress }: UploadInput) {
   const form = new FormData();
   for (const [k, v] of Object.entries(fields)) if (v !== undefined && v !== '') form.append(k, v);
   for (const f of files) form.append('file', f, f.name);
-  return uploadWithProgress<UploadResult>('/api/traces', form, onProgress);
+  return uploadWithProgress<UploadResult>('/api/traces', form, onProgress, { 'Idempotency-Key': uploadKey(files) });
 }
 
 export function useUploadTraces() {
