@@ -207,6 +207,7 @@ export async function twoEnded(q: { traceA: number; eventA: number; traceB: numb
     installedLengthM: run.installedLengthM,
     traceA: { id: a.id, eventIndex: ea.index, roundTripNs: ea.roundTripNs, distanceM: ea.distanceM },
     traceB: { id: b.id, eventIndex: eb.index, roundTripNs: eb.roundTripNs, distanceM: eb.distanceM },
+    routePosition: pos,
     routePositionText: describeRoutePosition(pos, metresText),
   };
 }

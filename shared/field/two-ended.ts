@@ -4,7 +4,7 @@
  * cancels out:  v·t_A/2 + v·t_B/2 = L  ⇒  d_A = L·t_A / (t_A + t_B).
  * The implied velocity factor is v/c = 2L / (c·(t_A + t_B)).
  */
-export const SPEED_OF_LIGHT_M_PER_S = 299_792_458;
+import { SPEED_OF_LIGHT_M_PER_S } from '../cable/propagation';
 
 export interface TwoEndedInput {
   installedLengthM: number;

@@ -106,5 +106,7 @@ export interface TwoEndedView {
   installedLengthM: number;
   traceA: { id: number; eventIndex: number; roundTripNs: number; distanceM: number };
   traceB: { id: number; eventIndex: number; roundTripNs: number; distanceM: number };
+  /** The two-ended position on the route, read from end A; the text is the same in metres. */
+  routePosition?: RoutePosition;
   routePositionText: string;
 }

@@ -52,6 +52,16 @@ export function lengthNumber(m: number, unit: LengthUnit): string {
   return digits(v, lengthDecimals(v));
 }
 
+/**
+ * A stored length as the starting value of a form field: plain digits,
+ * enough of them (to the millimetre) that saving the form unchanged does not
+ * move the value. Display precision is for reading, not for editing.
+ */
+export function lengthForInput(m: number | null | undefined, unit: LengthUnit): string {
+  if (!finite(m)) return '';
+  return String(Number(toUnit(m, unit).toFixed(unit === 'ft' ? 4 : 3)));
+}
+
 /** "80.0 m", "262.5 ft"; a dash for a missing value. */
 export function formatLength(m: number | null | undefined, unit: LengthUnit): string {
   if (!finite(m)) return '—';

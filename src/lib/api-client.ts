@@ -137,3 +137,110 @@ export async function uploadWithProgress<T>(
     xhr.send(form);
   });
 }
+
+/**
+ * Words for an error, without the API's internal field names. A form passes
+ * its own labels (field path → what the form calls it); paths it does not
+ * name fall back to the common ones, then to the path spelt out in words
+ * ("pulseWidthNs" → "Pulse width"). Zod's stock English is turned into ours.
+ */
+export type FieldLabels = Record<string, string>;
+
+const COMMON_LABELS: FieldLabels = {
+  '(body)': 'The form',
+  '(row)': 'The row',
+  id: 'The address of this page',
+  file: 'The file',
+  email: 'E-mail',
+  cableRunId: 'Cable run',
+  cableTypeId: 'Cable type',
+  traceId: 'Trace',
+  findingId: 'Finding',
+  findingIds: 'Findings',
+  assigneeId: 'Assignee',
+  eventIndex: 'Event',
+  end: 'End',
+  vf: 'Velocity factor',
+  vfTolerance: 'Velocity factor tolerance',
+  vfOverride: 'Velocity factor override',
+  vfOverrideReason: 'Reason for the override',
+  z0Ohm: 'Impedance Z0',
+  leadLengthM: 'Test-lead length',
+  knownLengthM: 'Known length',
+  installedLengthM: 'Installed length',
+  chainageM: 'Chainage',
+  slackM: 'Slack',
+  roundTripNs: 'Round-trip time',
+  endALabel: 'End A',
+  endBLabel: 'End B',
+  dueDate: 'Due date',
+  workDone: 'What was done',
+  'found.offsetM': 'Distance past the marker',
+  'found.distanceM': 'Cable length to the fault',
+  'found.markerId': 'Route marker',
+  found: 'Where the fault was found',
+  to: 'Next step',
+  unitPreference: 'Length unit',
+  currentPassword: 'Current password',
+  newPassword: 'New password',
+};
+
+/** Unit endings the API puts on field names ("pulseWidthNs", "chainageM"). */
+const UNIT_SUFFIX = /(Ns|M|Ohm|Hz|Mhz|Db|Pct|Id|Ids)$/;
+
+function spelt(segment: string): string {
+  const words = segment.replace(UNIT_SUFFIX, '').replace(/_/g, ' ').replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase().trim();
+  return words ? words.charAt(0).toUpperCase() + words.slice(1) : segment;
+}
+
+/** What a person calls the field at `path`: "markers.2.chainageM" → "Marker 3, chainage". */
+export function fieldLabel(path: string, labels: FieldLabels = {}): string {
+  const named = labels[path] ?? COMMON_LABELS[path];
+  if (named) return named;
+  const parts = path.split('.');
+  const words: string[] = [];
+  for (let i = 0; i < parts.length; i++) {
+    const next = parts[i + 1];
+    if (next !== undefined && /^\d+$/.test(next)) {
+      words.push(`${spelt(parts[i]).replace(/s$/, '')} ${Number(next) + 1}`);
+      i++;
+    } else {
+      const last = parts.slice(i).join('.');
+      words.push(labels[last] ?? COMMON_LABELS[last] ?? labels[parts[i]] ?? COMMON_LABELS[parts[i]] ?? spelt(parts[i]));
+    }
+  }
+  return words.map((w, i) => (i === 0 ? w : w.charAt(0).toLowerCase() + w.slice(1))).join(', ');
+}
+
+const ZOD_TYPES: Record<string, string> = {
+  number: 'a number',
+  string: 'text',
+  boolean: 'yes or no',
+  array: 'a list',
+  object: 'a set of values',
+  date: 'a date',
+  int: 'a whole number',
+};
+
+/** Zod's stock messages in our words: "Invalid input: expected number, received NaN" → "must be a number". */
+export function plainMessage(message: string): string {
+  const expected = message.match(/^Invalid input: expected (\w+), received (\w+)/);
+  if (expected) return expected[2] === 'undefined' ? 'is required' : `must be ${ZOD_TYPES[expected[1]] ?? expected[1]}`;
+  if (/^Invalid option/.test(message)) return 'is not one of the choices';
+  const size = message.match(/^Too (small|big): expected \w+ to (?:be|have) ([<>]=?)\s?([-\d.e]+)/);
+  if (size) return `must be ${size[2].startsWith('>') ? (size[2] === '>' ? 'more than' : 'at least') : size[2] === '<' ? 'less than' : 'at most'} ${size[3]}`;
+  if (/^Invalid (input|string)/.test(message)) return 'is not valid';
+  if (/^Unrecognized key/.test(message)) return 'is not expected here';
+  return message;
+}
+
+/** The message to show for a failed request: the server's words, or its field list in human words when the message names fields. */
+export function describeError(error: unknown, labels: FieldLabels = {}): string {
+  if (!(error instanceof Error)) return String(error);
+  const fields = error instanceof ApiError ? error.fields : [];
+  const namesFields = fields.some((f) => error.message.includes(`${f.field}:`)) || (error instanceof ApiError && error.code === 'invalid_input');
+  if (!fields.length || !namesFields) return error.message;
+  const lines = fields.map((f) => `${f.line ? `Line ${f.line}: ` : ''}${fieldLabel(f.field, labels)} ${plainMessage(f.message)}`);
+  const body = lines.length === 1 ? `${lines[0]}.` : `${lines.join('; ')}.`;
+  return error instanceof ApiError && error.code === 'invalid_input' ? `Please check: ${body}` : body;
+}

@@ -1,33 +1,38 @@
-import { format, formatDistanceToNowStrict } from 'date-fns';
+import { formatDistanceToNowStrict } from 'date-fns';
+import { MARKER_KIND_LABELS, type MarkerKind } from '../../shared/schemas/sites';
 
-export type LengthUnit = 'm' | 'ft';
-// 1 ft = 0.3048 m exactly (international foot, 1959 agreement).
-const M_PER_FT = 0.3048;
+/**
+ * Lengths on screen go through the shared formatter, the same one the
+ * e-mails and server-written text use: one precision rule, the reader's unit.
+ */
+export {
+  formatLength,
+  formatLengthRange,
+  formatSignedLength,
+  fromUnit,
+  LENGTH_UNIT_WORDS,
+  lengthForInput,
+  lengthNumber,
+  lengthsInText,
+  toUnit,
+  type LengthUnit,
+} from '../../shared/units/format-length';
 
-export function toUnit(m: number, unit: LengthUnit): number {
-  return unit === 'ft' ? m / M_PER_FT : m;
-}
-export function fromUnit(value: number, unit: LengthUnit): number {
-  return unit === 'ft' ? value * M_PER_FT : value;
-}
+/** Dates in the one style shared with the e-mails. */
+export { formatDate, formatDateTime } from '../../shared/units/format-date';
 
-/** "412.3 m" / "1352.7 ft"; precision follows the size so short runs keep decimetres. */
-export function formatLength(m: number | null | undefined, unit: LengthUnit, digits?: number): string {
-  if (m === null || m === undefined || !Number.isFinite(m)) return '—';
-  const v = toUnit(m, unit);
-  const d = digits ?? (Math.abs(v) < 100 ? 2 : 1);
-  return `${v.toFixed(d)} ${unit}`;
-}
-
-export function formatDateTime(value: string | Date | null | undefined): string {
-  if (!value) return '—';
-  return format(new Date(value), 'd MMM yyyy, HH:mm');
-}
-export function formatDate(value: string | Date | null | undefined): string {
-  if (!value) return '—';
-  return format(new Date(value), 'd MMM yyyy');
-}
 export function formatAge(value: string | Date | null | undefined): string {
   if (!value) return '—';
   return formatDistanceToNowStrict(new Date(value), { addSuffix: true });
+}
+
+/** "1 route marker", "3 route markers", "0 route markers". */
+export function countOf(n: number, singular: string, plural = `${singular}s`): string {
+  return `${n} ${n === 1 ? singular : plural}`;
+}
+
+/** A marker kind standing alone (a list, a table cell, a drop-down): "Road crossing". */
+export function markerKindTitle(kind: string): string {
+  const words = MARKER_KIND_LABELS[kind as MarkerKind] ?? kind.replace(/-/g, ' ');
+  return words.charAt(0).toUpperCase() + words.slice(1);
 }

@@ -39,7 +39,7 @@ describe('POST /api/findings', () => {
     expect(f.routePosition.from.label).toBe('MH-2');
     expect(f.routePosition.toward.label).toBe('P-7');
     expect(f.routePosition.offsetM).toBeCloseTo(15, 0);
-    expect(f.routePositionText).toMatch(/^15\.\d m past manhole MH-2 toward pedestal P-7, dig window 1\d\.\d–1\d\.\d m$/);
+    expect(f.routePositionText).toMatch(/^15\.\d m past manhole MH-2 toward pedestal P-7; dig on the ground 1\d\.\d–1\d\.\d m past MH-2$/);
     expect(f.windowStartM).toBeLessThan(f.distanceM);
     expect(f.windowEndM).toBeGreaterThan(f.distanceM);
     const again = await c.post('/api/findings', { traceId: trace.id, eventIndex: 0, status: 'dismissed', kind: 'other' }).expect(409);

@@ -42,7 +42,7 @@ describe('a technician on a phone', () => {
     // Hand-worked: 400 m of cable passes MH-1 (4 m coiled) and MH-2 (6 m coiled) → 390 m of route,
     // 80 m past MH-2 (chainage 310 m) toward the road crossing RC-1 (455 m).
     const where = (await page.getByTestId('route-position').textContent()) ?? '';
-    expect(where).toMatch(/^(79|80)\.\d m past manhole MH-2 toward road crossing RC-1, dig window/);
+    expect(where).toMatch(/^(79|80)\.\d m past manhole MH-2 toward road crossing RC-1; dig on the ground/);
     await page.locator('canvas').first().waitFor();
     await e2e.screenshot(page, 'field-trace-phone');
 

@@ -1,5 +1,4 @@
 import { Link, useParams } from 'react-router-dom';
-import { describeRoutePosition } from '../../../shared/field/route-position';
 import { FINDING_KIND_LABELS } from '../../../shared/schemas/findings';
 import { Card, PageHeader } from '../../components/ui/card';
 import { Badge, ErrorNotice, Loading } from '../../components/ui/notice';
@@ -8,8 +7,8 @@ import { useSession } from '../../features/auth/use-session';
 import { useFinding } from '../../features/findings/api/get-finding';
 import { useFindingTwoEnded } from '../../features/findings/api/get-two-ended';
 import { DecisionHistory } from '../../features/findings/components/decision-history';
-import { DistanceBlock } from '../../features/findings/components/where-to-dig';
-import { formatDateTime, formatLength } from '../../lib/format';
+import { DistanceBlock, RouteSentence } from '../../features/findings/components/where-to-dig';
+import { formatDateTime, formatLength, formatSignedLength } from '../../lib/format';
 import { paths } from '../paths';
 
 export function FindingPage() {
@@ -20,7 +19,6 @@ export function FindingPage() {
   if (finding.isPending) return <Loading what="Loading the finding" />;
   if (finding.error || !finding.data) return <ErrorNotice error={finding.error} />;
   const f = finding.data;
-  const text = f.routePosition ? describeRoutePosition(f.routePosition, (m) => formatLength(m, unit, 1)) : f.routePositionText;
   const te = twoEnded.data?.twoEnded;
   return (
     <>
@@ -51,29 +49,29 @@ export function FindingPage() {
       <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
         <div className="space-y-4">
           <Card title="Where to dig">
-            <DistanceBlock distanceM={f.distanceM} windowStartM={f.windowStartM} windowEndM={f.windowEndM} end={f.end} endLabel={f.endLabel} unit={unit} routeText={text} />
+            <DistanceBlock distanceM={f.distanceM} windowStartM={f.windowStartM} windowEndM={f.windowEndM} end={f.end} endLabel={f.endLabel} unit={unit} pos={f.routePosition} storedText={f.routePositionText} />
             {f.note && <p className="mt-3 whitespace-pre-wrap">{f.note}</p>}
           </Card>
           {te && (
             <Card title="Measured from both ends">
               <p className="text-sm text-ink-soft">
                 From the two round-trip times ({te.traceA.roundTripNs.toFixed(1)} ns from A, {te.traceB.roundTripNs.toFixed(1)} ns from B) and the installed length{' '}
-                {formatLength(te.installedLengthM, unit, 1)}, independent of the velocity factor:
+                {formatLength(te.installedLengthM, unit)}, independent of the velocity factor:
               </p>
               <p className="mt-2 text-3xl font-bold tabular" data-testid="two-ended-distance">
-                {formatLength(te.distanceFromAM, unit, 1)} from end A
+                {formatLength(te.distanceFromAM, unit)} along the cable from end A
               </p>
-              <p className="text-sm">{te.routePositionText}</p>
+              <p className="text-sm">
+                <RouteSentence pos={te.routePosition} storedText={te.routePositionText} unit={unit} testId="two-ended-route" />
+              </p>
               <dl className="mt-2 grid grid-cols-2 gap-x-3 text-sm tabular">
                 <dt className="text-mist">Single-ended from A</dt>
                 <dd>
-                  {formatLength(te.traceA.distanceM, unit, 1)} ({te.disagreementAM! >= 0 ? '+' : ''}
-                  {formatLength(te.disagreementAM, unit, 1)})
+                  {formatLength(te.traceA.distanceM, unit)} from A ({formatSignedLength(te.disagreementAM, unit)})
                 </dd>
                 <dt className="text-mist">Single-ended from B</dt>
                 <dd>
-                  {formatLength(te.installedLengthM - te.traceB.distanceM, unit, 1)} from A ({te.disagreementBM! >= 0 ? '+' : ''}
-                  {formatLength(te.disagreementBM, unit, 1)})
+                  {formatLength(te.installedLengthM - te.traceB.distanceM, unit)} from A ({formatSignedLength(te.disagreementBM, unit)})
                 </dd>
                 <dt className="text-mist">Velocity factor implied</dt>
                 <dd>{te.impliedVf.toFixed(3)} (library {f.vf})</dd>
@@ -96,13 +94,13 @@ export function FindingPage() {
                 {f.vf} ± {(f.vfTolerance * 100).toFixed(1)} %
               </dd>
               <dt className="text-mist">Uncertainty</dt>
-              <dd>± {formatLength(f.uncertaintyM, unit, 1)}</dd>
+              <dd>± {formatLength(f.uncertaintyM, unit)}</dd>
               <dt className="text-mist">From end A</dt>
-              <dd>{formatLength(f.distanceFromAM, unit, 1)} of cable</dd>
+              <dd>{formatLength(f.distanceFromAM, unit)} along the cable</dd>
               {f.routePosition && (
                 <>
                   <dt className="text-mist">Slack taken off</dt>
-                  <dd>{formatLength(f.routePosition.slackDeductedM, unit, 1)}</dd>
+                  <dd>{formatLength(f.routePosition.slackDeductedM, unit)}</dd>
                 </>
               )}
               <dt className="text-mist">Engine</dt>

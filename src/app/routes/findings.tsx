@@ -9,6 +9,7 @@ import { Pager } from '../../components/ui/pager';
 import { useSession } from '../../features/auth/use-session';
 import { useFindings } from '../../features/findings/api/list-findings';
 import { useSites } from '../../features/sites/api/list-sites';
+import { RouteSentence } from '../../features/findings/components/where-to-dig';
 import { formatDateTime, formatLength } from '../../lib/format';
 import { paths } from '../paths';
 
@@ -61,13 +62,15 @@ export function FindingsPage() {
                       <span className="font-semibold">
                         {f.siteName} · {f.cableRunName}
                       </span>
-                      <span className="text-2xl font-bold tabular">{formatLength(f.distanceM, unit, 1)}</span>
+                      <span className="text-2xl font-bold tabular">{formatLength(f.distanceM, unit)}</span>
                     </span>
                     <span className="block text-sm text-ink-soft">
                       <Badge tone={f.status === 'confirmed' ? 'danger' : 'plain'}>{FINDING_KIND_LABELS[f.kind as keyof typeof FINDING_KIND_LABELS] ?? f.kind}</Badge> from end{' '}
                       {f.end} · {f.confirmedBy.name}, {formatDateTime(f.confirmedAt)}
                     </span>
-                    <span className="block text-sm">{f.routePositionText}</span>
+                    <span className="block text-sm">
+                      <RouteSentence pos={f.routePosition} storedText={f.routePositionText} unit={unit} testId="finding-route" />
+                    </span>
                   </Link>
                 </li>
               ))}

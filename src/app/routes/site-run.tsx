@@ -1,6 +1,5 @@
 import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
-import { MARKER_KIND_LABELS } from '../../../shared/schemas/sites';
 import { routeLengthM } from '../../../shared/field/route-position';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
@@ -10,7 +9,7 @@ import { useCableRun } from '../../features/sites/api/get-cable-run';
 import { MarkerEditor } from '../../features/sites/components/marker-editor';
 import { RunForm } from '../../features/sites/components/run-form';
 import { useTraces } from '../../features/traces/api/list-traces';
-import { formatDateTime, formatLength } from '../../lib/format';
+import { formatDateTime, formatLength, markerKindTitle } from '../../lib/format';
 import { paths } from '../paths';
 
 export function SiteRunPage() {
@@ -60,7 +59,7 @@ export function SiteRunPage() {
           <Card title="Route markers">
             <p className="mb-3 text-sm text-ink-soft">
               Chainage is the distance along the route from end A; slack is extra cable coiled at the marker, which the trace sees but the route does not. Route
-              length {formatLength(routeLengthM(r), unit, 1)} = installed {formatLength(r.installedLengthM, unit, 1)} less slack.
+              length {formatLength(routeLengthM(r), unit)} = installed {formatLength(r.installedLengthM, unit)} less slack.
             </p>
             {can('sites:write') ? (
               <MarkerEditor key={r.markers.map((m) => m.id).join()} run={r} unit={unit} />
@@ -77,10 +76,10 @@ export function SiteRunPage() {
                   {r.markers.map((m) => (
                     <tr key={m.id} className="border-t border-rule">
                       <td className="py-2">
-                        {MARKER_KIND_LABELS[m.kind]} {m.label}
+                        {markerKindTitle(m.kind)} {m.label}
                       </td>
-                      <td>{formatLength(m.chainageM, unit, 1)}</td>
-                      <td>{formatLength(m.slackM, unit, 1)}</td>
+                      <td>{formatLength(m.chainageM, unit)}</td>
+                      <td>{formatLength(m.slackM, unit)}</td>
                     </tr>
                   ))}
                 </tbody>
@@ -92,7 +91,7 @@ export function SiteRunPage() {
           <Card title="Cable">
             <p className="font-semibold">{r.cableType.name}</p>
             <p className="text-sm tabular">
-              VF {r.cableType.vf} ± {(r.cableType.vfTolerance * 100).toFixed(1)} % · Z0 {r.cableType.z0Ohm} Ω · installed {formatLength(r.installedLengthM, unit, 1)}
+              VF {r.cableType.vf} ± {(r.cableType.vfTolerance * 100).toFixed(1)} % · Z0 {r.cableType.z0Ohm} Ω · installed {formatLength(r.installedLengthM, unit)}
             </p>
           </Card>
           <Card title="Recent traces">

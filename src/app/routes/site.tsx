@@ -8,7 +8,7 @@ import { useSite } from '../../features/sites/api/get-site';
 import { useCableRuns } from '../../features/sites/api/list-cable-runs';
 import { RunForm } from '../../features/sites/components/run-form';
 import { SiteForm } from '../../features/sites/components/site-form';
-import { formatLength } from '../../lib/format';
+import { countOf, formatLength } from '../../lib/format';
 import { paths } from '../paths';
 
 export function SitePage() {
@@ -58,7 +58,7 @@ export function SitePage() {
                     <Link to={paths.siteRun.to(s.id, r.id)} className="block min-h-11 py-3 hover:bg-paper">
                       <span className="font-semibold text-teal underline">{r.name}</span>
                       <span className="block text-sm text-ink-soft">
-                        {r.endALabel} → {r.endBLabel} · {formatLength(r.installedLengthM, unit, 1)} of {r.cableType.name} · {r.markers.length} markers
+                        {r.endALabel} → {r.endBLabel} · {formatLength(r.installedLengthM, unit)} of {r.cableType.name} · {countOf(r.markers.length, 'route marker')}
                       </span>
                     </Link>
                   </li>
@@ -94,7 +94,7 @@ export function SitePage() {
           </Card>
           <Card title="Findings">
             <Link className="text-teal underline" to={paths.findings.to()}>
-              {s.openFindingCount} confirmed finding{s.openFindingCount === 1 ? '' : 's'}
+              {countOf(s.openFindingCount, 'confirmed finding')}
             </Link>
           </Card>
         </div>

@@ -7,10 +7,10 @@ import { ErrorNotice, Loading } from '../../components/ui/notice';
 import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useSession } from '../../features/auth/use-session';
 import { useTicket } from '../../features/tickets/api/get-ticket';
-import { findingWhere } from '../../features/tickets/components/where';
+import { RouteSentence } from '../../features/findings/components/where-to-dig';
 import { useTrace } from '../../features/traces/api/get-trace';
 import { TraceChart } from '../../features/traces/components/trace-chart';
-import { formatDate, formatDateTime, formatLength, type LengthUnit } from '../../lib/format';
+import { formatDate, formatDateTime, formatLength, formatLengthRange, markerKindTitle, type LengthUnit } from '../../lib/format';
 import { paths } from '../paths';
 
 const kindLabel = (k: string) => FINDING_KIND_LABELS[k as keyof typeof FINDING_KIND_LABELS] ?? k;
@@ -30,6 +30,7 @@ function TraceSnapshot({ f, unit }: { f: TicketFindingView; unit: LengthUnit }) 
         cursors={[f.distanceM, f.distanceM]}
         showReference={false}
         showDifference={false}
+        showCursors={false}
         onPick={() => undefined}
       />
       <p className="mt-1 text-xs text-mist">
@@ -52,12 +53,12 @@ function FindingBlock({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; u
           {formatLength(f.distanceM, unit)} of cable from end {f.measuredFrom} ({endLabel}), ± {formatLength(f.uncertaintyM, unit)}
         </dd>
         <dt className="font-semibold">Route position</dt>
-        <dd className="text-base font-bold" data-testid="sheet-route-position">
-          {findingWhere(f, unit)}
+        <dd className="text-base font-bold">
+          <RouteSentence pos={f.routePosition} storedText={f.routePositionText} unit={unit} testId="sheet-route-position" />
         </dd>
-        <dt className="font-semibold">Cable-length window (slack included)</dt>
+        <dt className="font-semibold">Cable-length window</dt>
         <dd className="tabular">
-          {formatLength(f.windowStartM, unit)} – {formatLength(f.windowEndM, unit)} of cable from end {f.measuredFrom}
+          {formatLengthRange(f.windowStartM, f.windowEndM, unit)} along the cable from end {f.measuredFrom}, slack included
         </dd>
         {f.note && (
           <>
@@ -152,7 +153,7 @@ export function TicketSheetPage() {
               {run.markers.map((m) => (
                 <tr key={m.id} className="border-b border-rule">
                   <td className="py-1 font-semibold">{m.label}</td>
-                  <td>{m.kind}</td>
+                  <td>{markerKindTitle(m.kind)}</td>
                   <td className="text-right">{formatLength(m.chainageM, unit)}</td>
                   <td className="text-right">{formatLength(m.slackM, unit)}</td>
                 </tr>

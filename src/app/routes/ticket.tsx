@@ -15,8 +15,8 @@ import { CloseoutForm } from '../../features/tickets/components/closeout-form';
 import { EditTicketForm } from '../../features/tickets/components/edit-ticket-form';
 import { PriorityBadge, TicketStatusBadge } from '../../features/tickets/components/ticket-badges';
 import { TicketTimeline } from '../../features/tickets/components/ticket-timeline';
-import { findingWhere } from '../../features/tickets/components/where';
-import { formatDate, formatDateTime, formatLength, type LengthUnit } from '../../lib/format';
+import { RouteSentence } from '../../features/findings/components/where-to-dig';
+import { formatDate, formatDateTime, formatLength, formatLengthRange, formatSignedLength, type LengthUnit } from '../../lib/format';
 import { paths } from '../paths';
 
 const kindLabel = (k: string) => FINDING_KIND_LABELS[k as keyof typeof FINDING_KIND_LABELS] ?? k;
@@ -37,11 +37,11 @@ function FindingCard({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; un
           of cable from end {f.measuredFrom} ({endLabel}), ± {formatLength(f.uncertaintyM, unit)}
         </span>
       </p>
-      <p className="font-semibold text-copper-dark" data-testid="ticket-route-position">
-        {findingWhere(f, unit)}
+      <p className="font-semibold text-copper-dark">
+        <RouteSentence pos={f.routePosition} storedText={f.routePositionText} unit={unit} testId="ticket-route-position" />
       </p>
       <p className="text-sm text-ink-soft tabular">
-        Cable-length window (electrical, slack included): {formatLength(f.windowStartM, unit)} – {formatLength(f.windowEndM, unit)} of cable from end {f.measuredFrom}
+        Cable-length window: {formatLengthRange(f.windowStartM, f.windowEndM, unit)} along the cable from end {f.measuredFrom}, slack included
       </p>
       {f.note && <p className="text-sm">Note: {f.note}</p>}
     </div>
@@ -63,8 +63,7 @@ function CloseoutSummary({ c, unit }: { c: CloseoutView; unit: LengthUnit }) {
         <div>
           <dt className="text-xs text-mist">Located − found</dt>
           <dd className="font-semibold tabular" data-testid="closeout-error">
-            {c.errorM >= 0 ? '+' : '−'}
-            {formatLength(Math.abs(c.errorM), unit)}
+            {formatSignedLength(c.errorM, unit)}
             {c.errorFraction !== null && <span className="ml-1 text-xs font-normal text-mist">({(c.errorFraction * 100).toFixed(1)} %)</span>}
           </dd>
         </div>
@@ -76,7 +75,7 @@ function CloseoutSummary({ c, unit }: { c: CloseoutView; unit: LengthUnit }) {
         </div>
       </dl>
       <p className="text-sm">
-        {c.method === 'marker' ? `${formatLength(c.offsetM ?? 0, unit)} past ${c.markerLabel}` : `${formatLength(c.enteredDistanceM ?? 0, unit)} of cable from end ${c.fromEnd}`} —{' '}
+        Found {c.method === 'marker' ? `${formatLength(c.offsetM ?? 0, unit)} on the ground past ${c.markerLabel}` : `${formatLength(c.enteredDistanceM ?? 0, unit)} along the cable from end ${c.fromEnd}`} —{' '}
         {kindLabel(c.cause)}. {c.workDone}
       </p>
       <p className="text-xs text-mist">

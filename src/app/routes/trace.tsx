@@ -7,12 +7,13 @@ import { Badge, ErrorNotice, Loading, Notice } from '../../components/ui/notice'
 import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useSession } from '../../features/auth/use-session';
 import { DecideEvent } from '../../features/findings/components/decide-event';
-import { DistanceBlock, whereToDig } from '../../features/findings/components/where-to-dig';
+import { DistanceBlock, placeEvent } from '../../features/findings/components/where-to-dig';
 import { useTrace } from '../../features/traces/api/get-trace';
 import { useReanalyseTrace } from '../../features/traces/api/reanalyse-trace';
 import { useSetReference } from '../../features/traces/api/set-reference';
 import { TraceChart, type XAxis } from '../../features/traces/components/trace-chart';
-import { formatDateTime, formatLength } from '../../lib/format';
+import { distanceToTime } from '../../features/traces/components/trace-axis';
+import { formatDateTime, formatLength, lengthsInText } from '../../lib/format';
 import { paths } from '../paths';
 
 const TYPE_WORDS: Record<ReflectionEvent['type'], string> = {
@@ -21,6 +22,11 @@ const TYPE_WORDS: Record<ReflectionEvent['type'], string> = {
   'impedance-rise': 'Impedance rise',
   'impedance-drop': 'Impedance drop',
 };
+
+/** An engine message as a sentence: capital first letter. */
+const sentence = (text: string) => (text ? text.charAt(0).toUpperCase() + text.slice(1) : text);
+/** A time on the trace, round trip: "412.3 ns". */
+const formatNs = (ns: number) => `${ns.toFixed(ns < 100 ? 2 : 1)} ns`;
 
 /** Whether an event is the run's far end: its window reaches the installed length. */
 function atFarEnd(e: ReflectionEvent, installedLengthM: number) {
@@ -100,7 +106,7 @@ export function TracePage() {
       />
       {t.status === 'failed' && (
         <Notice tone="danger" title="This file could not be read" className="mb-4">
-          <p>{t.error?.message}</p>
+          <p>{sentence(lengthsInText(t.error?.message ?? '', unit))}</p>
           <p className="mt-1 text-xs">
             The original is kept unchanged (SHA-256 <code className="break-all">{t.sha256}</code>). Export it again from the instrument as CSV, or set the sample
             interval if the file has a single amplitude column, and upload it again.
@@ -161,7 +167,7 @@ export function TracePage() {
                   end={t.end}
                   endLabel={t.endLabel}
                   unit={unit}
-                  routeText={whereToDig(run, t.end, selected, unit).text}
+                  pos={placeEvent(run, t.end, selected)}
                 />
                 <p className="mt-2 text-sm text-ink-soft tabular">
                   ρ = {selected.reflectionCoefficient.toFixed(3)}
@@ -233,13 +239,15 @@ export function TracePage() {
                       value={cur[i]}
                       onChange={(e) => moveCursor(i, Number(e.target.value))}
                     />
-                    <span className="w-24 text-right font-semibold tabular" data-testid={`cursor-${i + 1}`}>
-                      {formatLength(cur[i], unit, 1)}
+                    <span className="min-w-24 text-right font-semibold tabular" data-testid={`cursor-${i + 1}`}>
+                      {axis === 'time' && <span className="block text-sm font-normal text-ink-soft">{formatNs(distanceToTime(t, cur[i]) - t.zeroNs)}</span>}
+                      {formatLength(cur[i], unit)}
                     </span>
                   </div>
                 ))}
                 <p className="text-lg font-bold tabular" data-testid="cursor-gap">
-                  Between cursors: {formatLength(Math.abs(cur[1] - cur[0]), unit, 2)}
+                  Between cursors: {formatLength(Math.abs(cur[1] - cur[0]), unit)}
+                  {axis === 'time' && <span className="font-normal text-ink-soft"> ({formatNs(Math.abs(distanceToTime(t, cur[1]) - distanceToTime(t, cur[0])))} round trip)</span>}
                 </p>
               </div>
               {t.comparison ? (
@@ -257,7 +265,7 @@ export function TracePage() {
                       ? 'No new events since the reference.'
                       : `New since the reference: event ${t.comparison.newEventIndexes.map((i) => i + 1).join(', ')}.`}
                     {t.comparison.missingReferenceEvents.length > 0 &&
-                      ` Gone: ${t.comparison.missingReferenceEvents.map((e) => formatLength(e.distanceM, unit, 1)).join(', ')}.`}
+                      ` Gone: ${t.comparison.missingReferenceEvents.map((e) => formatLength(e.distanceM, unit)).join(', ')}.`}
                   </span>
                 </div>
               ) : (
@@ -285,7 +293,7 @@ export function TracePage() {
                           {e.likelyMultipleOf !== null ? ' · echo' : ''}
                           {newSet.has(e.index) ? ' · new' : ''}
                         </span>
-                        <span className="text-xl font-bold tabular">{formatLength(e.distanceM, unit, 1)}</span>
+                        <span className="text-xl font-bold tabular">{formatLength(e.distanceM, unit)}</span>
                       </button>
                       {f ? (
                         <p className="mt-1 text-sm">
@@ -313,9 +321,9 @@ export function TracePage() {
                 <dt className="text-mist">Trace kind</dt>
                 <dd>{t.analysis.mode}</dd>
                 <dt className="text-mist">Blind zone</dt>
-                <dd>{formatLength(t.analysis.blindZoneM, unit, 1)}</dd>
+                <dd>{formatLength(t.analysis.blindZoneM, unit)}</dd>
                 <dt className="text-mist">Range</dt>
-                <dd>{formatLength(t.analysis.rangeM, unit, 1)}</dd>
+                <dd>{formatLength(t.analysis.rangeM, unit)}</dd>
                 <dt className="text-mist">Samples</dt>
                 <dd>{t.sampleCount.toLocaleString()}</dd>
                 <dt className="text-mist">Engine</dt>
@@ -324,7 +332,7 @@ export function TracePage() {
               {t.analysis.warnings.length > 0 && (
                 <ul className="mt-2 list-disc pl-5 text-sm text-ink-soft">
                   {t.analysis.warnings.map((w) => (
-                    <li key={w.code + w.message}>{w.message}</li>
+                    <li key={w.code + w.message}>{sentence(lengthsInText(w.message, unit))}</li>
                   ))}
                 </ul>
               )}

@@ -1,7 +1,7 @@
 import { useRef, useState, type DragEvent, type FormEvent } from 'react';
 import { Link, useNavigate, useSearchParams } from 'react-router-dom';
 import type { TraceDetail } from '../../../shared/schemas/traces';
-import { ApiError } from '../../lib/api-client';
+import { ApiError, describeError, type FieldLabels } from '../../lib/api-client';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
 import { fieldErrors, SelectField, TextField } from '../../components/ui/field';
@@ -10,11 +10,30 @@ import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useCableRuns } from '../../features/sites/api/list-cable-runs';
 import { useSites } from '../../features/sites/api/list-sites';
 import { useUploadTraces } from '../../features/traces/api/upload-traces';
-import { formatLength } from '../../lib/format';
+import { countOf, formatLength, fromUnit, lengthsInText } from '../../lib/format';
 import { useSession } from '../../features/auth/use-session';
 import { paths } from '../paths';
 
 const LAST = 'rholog.upload.last';
+
+/** What this form calls each field the server may name in an error. */
+const LABELS: FieldLabels = {
+  cableRunId: 'Cable run',
+  end: 'Instrument connected at',
+  mode: 'Trace kind',
+  pulseWidthNs: 'Pulse width',
+  zeroOffsetNs: 'Zero offset',
+  leadLengthM: 'Test-lead length',
+  sampleIntervalNs: 'Sample interval',
+  vfOverride: 'Velocity factor override',
+  vfOverrideReason: 'Reason for the override',
+};
+
+/** The test lead typed in the reader's unit, sent in metres; text that is not a number goes as typed, for the server to name. */
+function leadInMetres(typed: string, unit: 'm' | 'ft'): string {
+  const v = Number(typed.trim().replace(',', '.'));
+  return typed.trim() !== '' && Number.isFinite(v) ? String(fromUnit(v, unit)) : typed;
+}
 
 function remembered(): { siteId?: string; runId?: string; end?: 'A' | 'B' } {
   try {
@@ -41,7 +60,7 @@ export function UploadPage() {
   const runs = useCableRuns({ siteId: Number(siteId) }, !!siteId);
   const upload = useUploadTraces();
   const run = runs.data?.items.find((r) => String(r.id) === runId);
-  const errors = fieldErrors(upload.error);
+  const errors = fieldErrors(upload.error, unit);
 
   const addFiles = (list: FileList | null) => {
     if (!list) return;
@@ -62,7 +81,7 @@ export function UploadPage() {
     localStorage.setItem(LAST, JSON.stringify({ siteId, runId, end }));
     setProgress(0);
     upload.mutate(
-      { files, fields: { cableRunId: runId, end, ...settings }, onProgress: setProgress },
+      { files, fields: { cableRunId: runId, end, ...settings, leadLengthM: leadInMetres(settings.leadLengthM, unit) }, onProgress: setProgress },
       {
         onSuccess: (r) => {
           setFiles([]);
@@ -103,8 +122,8 @@ export function UploadPage() {
             </div>
             {run && (
               <p className="mt-2 text-sm text-ink-soft">
-                {run.cableType.name} · VF {run.cableType.vf.toFixed(3)} ± {(run.cableType.vfTolerance * 100).toFixed(1)} % · installed {formatLength(run.installedLengthM, unit, 1)} ·{' '}
-                {run.markers.length} route markers
+                {run.cableType.name} · VF {run.cableType.vf.toFixed(3)} ± {(run.cableType.vfTolerance * 100).toFixed(1)} % · installed {formatLength(run.installedLengthM, unit)} ·{' '}
+                {countOf(run.markers.length, 'route marker')}
               </p>
             )}
             <fieldset className="mt-3">
@@ -178,7 +197,7 @@ export function UploadPage() {
                 </SelectField>
                 <TextField label="Pulse width (ns)" inputMode="decimal" value={settings.pulseWidthNs} error={errors.pulseWidthNs} onChange={(e) => setSettings({ ...settings, pulseWidthNs: e.target.value })} />
                 <TextField label="Zero offset (ns)" hint="Time on the trace to count as the cable's start" inputMode="decimal" value={settings.zeroOffsetNs} error={errors.zeroOffsetNs} onChange={(e) => setSettings({ ...settings, zeroOffsetNs: e.target.value })} />
-                <TextField label="Test-lead length (m)" inputMode="decimal" value={settings.leadLengthM} error={errors.leadLengthM} onChange={(e) => setSettings({ ...settings, leadLengthM: e.target.value })} />
+                <TextField label={`Test-lead length (${unit})`} inputMode="decimal" value={settings.leadLengthM} error={errors.leadLengthM} onChange={(e) => setSettings({ ...settings, leadLengthM: e.target.value })} />
                 <TextField label="Sample interval (ns)" hint="Only for files with a single amplitude column" inputMode="decimal" value={settings.sampleIntervalNs} error={errors.sampleIntervalNs} onChange={(e) => setSettings({ ...settings, sampleIntervalNs: e.target.value })} />
                 <TextField label="Velocity factor override" hint={run ? `Library value ${run.cableType.vf}` : undefined} inputMode="decimal" value={settings.vfOverride} error={errors.vfOverride} onChange={(e) => setSettings({ ...settings, vfOverride: e.target.value })} />
                 {settings.vfOverride && (
@@ -196,7 +215,7 @@ export function UploadPage() {
           )}
           {upload.error && (
             <Notice tone="danger" title={failedStored.length ? 'The file was kept, but it could not be read' : 'Nothing was uploaded'}>
-              <p>{upload.error.message}</p>
+              <p>{lengthsInText(describeError(upload.error, LABELS), unit)}</p>
               {failedStored.map((t) => (
                 <p key={t.id} className="mt-1">
                   <Link className="font-semibold text-teal underline" to={paths.trace.to(t.id)}>

@@ -1,5 +1,7 @@
 import type { InputHTMLAttributes, ReactNode, SelectHTMLAttributes, TextareaHTMLAttributes } from 'react';
 import { useId } from 'react';
+import { plainMessage } from '../../lib/api-client';
+import { lengthsInText, type LengthUnit } from '../../lib/format';
 
 const CONTROL = 'block w-full min-h-11 rounded-md border border-rule bg-white px-3 py-2 text-base text-ink shadow-inner aria-[invalid=true]:border-danger';
 
@@ -55,8 +57,12 @@ export function TextAreaField({ label, hint, error, ...props }: Common & Textare
   );
 }
 
-/** Map an ApiError's field list onto { field: message } for forms. */
-export function fieldErrors(error: unknown): Record<string, string> {
+/**
+ * Map an ApiError's field list onto { field: message } for forms, each
+ * message in our words (shown under the field's own label) and its lengths
+ * in the reader's unit.
+ */
+export function fieldErrors(error: unknown, unit: LengthUnit = 'm'): Record<string, string> {
   const fields = (error as { fields?: Array<{ field: string; message: string }> } | null)?.fields ?? [];
-  return Object.fromEntries(fields.map((f) => [f.field, f.message]));
+  return Object.fromEntries(fields.map((f) => [f.field, lengthsInText(plainMessage(f.message), unit)]));
 }

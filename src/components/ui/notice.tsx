@@ -1,4 +1,6 @@
 import type { ReactNode } from 'react';
+import { describeError, type FieldLabels } from '../../lib/api-client';
+import { lengthsInText, type LengthUnit } from '../../lib/format';
 
 type Tone = 'info' | 'ok' | 'warn' | 'danger';
 const TONES: Record<Tone, string> = {
@@ -33,7 +35,14 @@ export function Loading({ what = 'Loading' }: { what?: string }) {
   );
 }
 
-export function ErrorNotice({ error }: { error: unknown }) {
-  const message = error instanceof Error ? error.message : String(error);
-  return <Notice tone="danger" title="That did not work">{message}</Notice>;
+/**
+ * A failed request in the reader's words: the form's own labels for the
+ * fields, and lengths in the reader's unit when the form deals in lengths.
+ */
+export function ErrorNotice({ error, labels, unit = 'm' }: { error: unknown; labels?: FieldLabels; unit?: LengthUnit }) {
+  return (
+    <Notice tone="danger" title="That did not work">
+      {lengthsInText(describeError(error, labels), unit)}
+    </Notice>
+  );
 }

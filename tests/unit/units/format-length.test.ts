@@ -5,6 +5,7 @@ import {
   formatSignedLength,
   fromUnit,
   lengthDecimals,
+  lengthForInput,
   lengthsInText,
   toUnit,
 } from '../../../shared/units/format-length';
@@ -75,5 +76,15 @@ describe('metre figures in text Rholog wrote', () => {
     const rates = 'at most 1000 dB/100 m, 3 dB per 100 m, 2.5 m/s, 4 m², 12 mm, 5 min';
     expect(lengthsInText(rates, 'ft')).toBe(rates);
     expect(lengthsInText('dig window 37.0–43.0 m', 'm')).toBe('dig window 37.0–43.0 m');
+  });
+});
+
+describe('a stored length as a form field starts', () => {
+  it('keeps enough digits that saving unchanged does not move the value', () => {
+    // 400 m = 1312.3360 ft to four places; back to metres that is 400.0000 m to 0.03 mm.
+    expect(lengthForInput(400, 'ft')).toBe('1312.336');
+    expect(fromUnit(Number(lengthForInput(400, 'ft')), 'ft')).toBeCloseTo(400, 4);
+    expect(lengthForInput(120.5, 'm')).toBe('120.5');
+    expect(lengthForInput(null, 'm')).toBe('');
   });
 });

@@ -1,14 +1,41 @@
-import { describeRoutePosition, routePosition, type RunLike } from '../../../../shared/field/route-position';
+import { describeCrossings, describeRoutePosition, routePosition, type RoutePosition, type RunLike } from '../../../../shared/field/route-position';
 import type { ReflectionEvent } from '../../../../shared/schemas/trace-analysis';
-import { formatLength, type LengthUnit } from '../../../lib/format';
+import { formatLength, formatLengthRange, lengthsInText, type LengthUnit } from '../../../lib/format';
 
-/** The route position sentence in the reader's unit. */
-export function whereToDig(run: RunLike, end: 'A' | 'B', e: Pick<ReflectionEvent, 'distanceM' | 'windowStartM' | 'windowEndM'>, unit: LengthUnit) {
-  const pos = routePosition(run, end, e.distanceM, { startM: e.windowStartM, endM: e.windowEndM });
-  return { pos, text: describeRoutePosition(pos, (m) => formatLength(m, unit, 1)) };
+/** Where an event of a trace is on the ground, with the run's markers as they are now. */
+export function placeEvent(run: RunLike, end: 'A' | 'B', e: Pick<ReflectionEvent, 'distanceM' | 'windowStartM' | 'windowEndM'>): RoutePosition {
+  return routePosition(run, end, e.distanceM, { startM: e.windowStartM, endM: e.windowEndM });
 }
 
-/** The fault distance and dig window in large type: the first thing a crew reads. */
+/**
+ * The route sentence in the reader's unit: from the position kept with a
+ * finding when there is one, else from the stored text (written in metres).
+ */
+export function routeWords(pos: RoutePosition | null | undefined, storedText: string | null | undefined, unit: LengthUnit): { sentence: string; crossing: string | null } {
+  if (pos) return { sentence: describeRoutePosition(pos, unit), crossing: describeCrossings(pos, unit) };
+  return { sentence: lengthsInText(storedText ?? '', unit), crossing: null };
+}
+
+/** The route sentence, and the marker warning when the dig window runs over one. */
+export function RouteSentence({ pos, storedText, unit, testId = 'route-position' }: { pos: RoutePosition | null | undefined; storedText?: string | null; unit: LengthUnit; testId?: string }) {
+  const { sentence, crossing } = routeWords(pos, storedText, unit);
+  return (
+    <>
+      <span data-testid={testId}>{sentence}</span>
+      {crossing && (
+        <span className="mt-1 block text-base font-semibold text-danger" data-testid="window-crossing">
+          {crossing}
+        </span>
+      )}
+    </>
+  );
+}
+
+/**
+ * The fault distance and its two windows in large type: the first thing a
+ * crew reads. The cable-length window is electrical (slack included), from
+ * the end measured; the dig window is ground distance past a marker.
+ */
 export function DistanceBlock({
   distanceM,
   windowStartM,
@@ -16,7 +43,8 @@ export function DistanceBlock({
   endLabel,
   end,
   unit,
-  routeText,
+  pos,
+  storedText,
 }: {
   distanceM: number;
   windowStartM: number;
@@ -24,7 +52,8 @@ export function DistanceBlock({
   end: 'A' | 'B';
   endLabel: string;
   unit: LengthUnit;
-  routeText: string;
+  pos: RoutePosition | null | undefined;
+  storedText?: string | null;
 }) {
   return (
     <div className="space-y-1">
@@ -32,13 +61,13 @@ export function DistanceBlock({
         Along the cable from end {end} ({endLabel})
       </p>
       <p className="text-4xl font-bold tabular text-ink sm:text-5xl" data-testid="fault-distance">
-        {formatLength(distanceM, unit, 1)}
+        {formatLength(distanceM, unit)}
       </p>
-      <p className="text-lg font-semibold tabular">
-        Window {formatLength(windowStartM, unit, 1).replace(/ \w+$/, '')}–{formatLength(windowEndM, unit, 1)}
+      <p className="text-base tabular" data-testid="cable-window">
+        <span className="font-semibold">Cable-length window:</span> {formatLengthRange(windowStartM, windowEndM, unit)} along the cable from end {end}, slack included
       </p>
-      <p className="rounded-md bg-copper-light px-3 py-2 text-lg font-semibold text-ink" data-testid="route-position">
-        {routeText}
+      <p className="rounded-md bg-copper-light px-3 py-2 text-lg font-semibold text-ink">
+        <RouteSentence pos={pos} storedText={storedText} unit={unit} />
       </p>
     </div>
   );

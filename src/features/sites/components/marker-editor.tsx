@@ -1,9 +1,9 @@
 import { useState } from 'react';
-import { MARKER_KIND_LABELS, MARKER_KINDS, type CableRunView, type MarkerKind } from '../../../../shared/schemas/sites';
+import { MARKER_KINDS, type CableRunView, type MarkerKind } from '../../../../shared/schemas/sites';
 import { Button } from '../../../components/ui/button';
 import { fieldErrors } from '../../../components/ui/field';
 import { ErrorNotice, Notice } from '../../../components/ui/notice';
-import { fromUnit, toUnit, type LengthUnit } from '../../../lib/format';
+import { fromUnit, lengthForInput, markerKindTitle, type LengthUnit } from '../../../lib/format';
 import { useSaveMarkers } from '../api/save-markers';
 
 interface Row {
@@ -14,15 +14,16 @@ interface Row {
   notes: string;
 }
 
-const CELL = 'min-h-11 w-full rounded border border-rule bg-white px-2';
+// The label above is small and grey; the value a person saved is ink, never placeholder grey.
+const CELL = 'mt-0.5 min-h-11 w-full rounded border border-rule bg-white px-2 text-base text-ink';
 
 /** Edit a run's route markers as one list: chainage along the route from end A, slack coiled there. */
 export function MarkerEditor({ run, unit }: { run: CableRunView; unit: LengthUnit }) {
   const toRow = (m: CableRunView['markers'][number]): Row => ({
     label: m.label,
     kind: m.kind,
-    chainage: toUnit(m.chainageM, unit).toFixed(1),
-    slack: toUnit(m.slackM, unit).toFixed(1),
+    chainage: lengthForInput(m.chainageM, unit),
+    slack: lengthForInput(m.slackM, unit),
     notes: m.notes ?? '',
   });
   const [rows, setRows] = useState<Row[]>(run.markers.map(toRow));
@@ -55,7 +56,7 @@ export function MarkerEditor({ run, unit }: { run: CableRunView; unit: LengthUni
               <select className={CELL} value={r.kind} onChange={(e) => edit(i, { kind: e.target.value as MarkerKind })}>
                 {MARKER_KINDS.map((k) => (
                   <option key={k} value={k}>
-                    {MARKER_KIND_LABELS[k]}
+                    {markerKindTitle(k)}
                   </option>
                 ))}
               </select>

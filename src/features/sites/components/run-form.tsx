@@ -3,7 +3,7 @@ import type { CableRunView } from '../../../../shared/schemas/sites';
 import { Button } from '../../../components/ui/button';
 import { fieldErrors, SelectField, TextAreaField, TextField } from '../../../components/ui/field';
 import { ErrorNotice } from '../../../components/ui/notice';
-import { fromUnit, toUnit, type LengthUnit } from '../../../lib/format';
+import { fromUnit, lengthForInput, type LengthUnit } from '../../../lib/format';
 import { useCableTypeChoices } from '../api/list-cable-type-choices';
 import { useSaveCableRun } from '../api/save-cable-run';
 
@@ -15,7 +15,7 @@ export function RunForm({ siteId, run, unit, onSaved }: { siteId: number; run?: 
     cableTypeId: run ? String(run.cableTypeId) : '',
     endALabel: run?.endALabel ?? '',
     endBLabel: run?.endBLabel ?? '',
-    installedLength: run ? toUnit(run.installedLengthM, unit).toFixed(1) : '',
+    installedLength: run ? lengthForInput(run.installedLengthM, unit) : '',
     notes: run?.notes ?? '',
   });
   const errors = fieldErrors(save.error);

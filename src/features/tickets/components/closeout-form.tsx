@@ -6,7 +6,7 @@ import { compareLocatedFound, type FoundPosition } from '../../../../shared/tick
 import { Button } from '../../../components/ui/button';
 import { fieldErrors, SelectField, TextAreaField, TextField } from '../../../components/ui/field';
 import { ErrorNotice, Notice } from '../../../components/ui/notice';
-import { formatLength, fromUnit, type LengthUnit } from '../../../lib/format';
+import { formatLength, formatSignedLength, fromUnit, lengthsInText, markerKindTitle, type LengthUnit } from '../../../lib/format';
 import { useCloseOutTicket } from '../api/save-ticket';
 
 function parseNumber(s: string): number | null {
@@ -91,7 +91,7 @@ export function CloseoutForm({ ticket, unit, onDone }: { ticket: TicketDetail; u
             <SelectField label="Route marker" value={markerId} onChange={(e) => setMarkerId(Number(e.target.value))} error={errors['found.markerId']}>
               {run.markers.map((m) => (
                 <option key={m.id} value={m.id}>
-                  {m.label} ({m.kind}, {formatLength(m.chainageM, unit)} along the route)
+                  {m.label} ({markerKindTitle(m.kind)}, {formatLength(m.chainageM, unit)} from end A on the ground)
                 </option>
               ))}
             </SelectField>
@@ -138,8 +138,7 @@ export function CloseoutForm({ ticket, unit, onDone }: { ticket: TicketDetail; u
           <div>
             <p className="text-xs text-mist">Located − found</p>
             <p className="font-semibold tabular">
-              {preview.r.errorM >= 0 ? '+' : '−'}
-              {formatLength(Math.abs(preview.r.errorM), unit)}
+              {formatSignedLength(preview.r.errorM, unit)}
             </p>
           </div>
           <div>
@@ -149,7 +148,7 @@ export function CloseoutForm({ ticket, unit, onDone }: { ticket: TicketDetail; u
           <p className="col-span-full text-xs text-mist">Cable length from end {finding.measuredFrom}, the end the reading was taken from. The reading used VF {finding.vf.toFixed(3)}.</p>
         </div>
       )}
-      {preview && !preview.ok && <Notice tone="warn">{preview.message}</Notice>}
+      {preview && !preview.ok && <Notice tone="warn">{lengthsInText(preview.message, unit)}</Notice>}
 
       <SelectField label="What was it?" value={cause} onChange={(e) => setCause(e.target.value as typeof cause)} error={errors.cause}>
         {FINDING_KINDS.map((k) => (

@@ -13,7 +13,7 @@ import zoomPlugin from 'chartjs-plugin-zoom';
 import { useMemo, useRef } from 'react';
 import { Line } from 'react-chartjs-2';
 import type { TraceDetail } from '../../../../shared/schemas/traces';
-import { toUnit, type LengthUnit } from '../../../lib/format';
+import { fromUnit, toUnit, type LengthUnit } from '../../../lib/format';
 import { distanceToTime, markerDistances, timeToDistance } from './trace-axis';
 
 ChartJS.register(LineElement, PointElement, LinearScale, Tooltip, Legend, zoomPlugin, annotationPlugin);
@@ -35,6 +35,8 @@ export interface TraceChartProps {
   showDifference: boolean;
   /** Called with the distance (m) tapped on the chart. */
   onPick: (distanceM: number) => void;
+  /** False on paper: the cursors are for the screen. */
+  showCursors?: boolean;
 }
 
 /**
@@ -42,7 +44,7 @@ export interface TraceChartProps {
  * on the server), events, the selected event's window shaded, route markers
  * along the axis, two cursors; wheel, pinch or buttons to zoom, drag to pan.
  */
-export function TraceChart({ trace, unit, axis, selectedEvent, cursors, showReference, showDifference, onPick }: TraceChartProps) {
+export function TraceChart({ trace, unit, axis, selectedEvent, cursors, showReference, showDifference, onPick, showCursors = true }: TraceChartProps) {
   const chartRef = useRef<ChartJS<'line'>>(null);
   const x = useMemo(
     () => (tNs: number) => (axis === 'time' ? tNs - trace.zeroNs : toUnit(timeToDistance(trace, tNs), unit)),
@@ -125,7 +127,7 @@ export function TraceChart({ trace, unit, axis, selectedEvent, cursors, showRefe
       label: { display: true, content: marker.label, position: 'end', backgroundColor: TEAL, color: '#fff', font: { size: 11 } },
     };
   }
-  cursors.forEach((c, i) => {
+  (showCursors ? cursors : []).forEach((c, i) => {
     annotations[`cursor${i}`] = {
       type: 'line',
       xMin: fromDistance(c),
@@ -165,7 +167,7 @@ export function TraceChart({ trace, unit, axis, selectedEvent, cursors, showRefe
       const rect = chart.canvas.getBoundingClientRect();
       const v = chart.scales.x.getValueForPixel(native.clientX - rect.left);
       if (v === undefined) return;
-      const dM = axis === 'time' ? timeToDistance(trace, v + trace.zeroNs) : unit === 'ft' ? v * 0.3048 : v;
+      const dM = axis === 'time' ? timeToDistance(trace, v + trace.zeroNs) : fromUnit(v, unit);
       onPick(dM);
     },
   };
