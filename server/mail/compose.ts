@@ -1,11 +1,41 @@
-import { M_PER_FT } from '../../shared/cable/propagation';
+import { formatLength, type LengthUnit } from '../../shared/units/format-length';
 
-export type LengthUnit = 'm' | 'ft';
+export type { LengthUnit };
 
-/** Lengths in the reader's own unit, as on screen: two decimals under 100, one above. */
-export function lengthText(m: number, unit: LengthUnit): string {
-  const v = unit === 'ft' ? m / M_PER_FT : m;
-  return `${v.toFixed(Math.abs(v) < 100 ? 2 : 1)} ${unit}`;
+/** Lengths in the reader's own unit, through the same formatter as the screens (one precision rule). */
+export const lengthText = formatLength;
+
+/** Plain-text lines stay within this many characters, so a mail reader never wraps them raggedly. */
+export const TEXT_WIDTH = 76;
+
+/** Break `text` into lines of at most `width` characters, at spaces; a number keeps its unit ("287.5 ft") on its line. */
+export function wrapText(text: string, width: number): string[] {
+  const lines: string[] = [];
+  for (const paragraph of text.split('\n')) {
+    let line = '';
+    const words = paragraph.split(/ +/).reduce<string[]>((acc, w) => {
+      if (acc.length && /\d$/.test(acc[acc.length - 1]) && /^(m|ft|ns|%|Ω)[.,;:)]?$/.test(w)) acc[acc.length - 1] += ` ${w}`;
+      else acc.push(w);
+      return acc;
+    }, []);
+    for (const word of words) {
+      if (line && line.length + 1 + word.length > width) {
+        lines.push(line);
+        line = word;
+      } else line = line ? `${line} ${word}` : word;
+    }
+    lines.push(line);
+  }
+  return lines;
+}
+
+/**
+ * Label/value rows as two plain-text columns: the values start in one column
+ * and a long value continues under itself, not under the labels.
+ */
+export function textRows(rows: Array<[string, string]>, width = TEXT_WIDTH): string[] {
+  const labelWidth = Math.max(...rows.map(([k]) => k.length)) + 2;
+  return rows.flatMap(([k, v]) => wrapText(v, Math.max(20, width - labelWidth)).map((line, i) => `${(i === 0 ? `${k}:` : '').padEnd(labelWidth)}${line}`.trimEnd()));
 }
 
 export function escapeHtml(s: string): string {
@@ -30,20 +60,19 @@ export function composeMail(opts: {
   link: { label: string; url: string };
   footer?: string;
 }): MailBody {
-  const width = Math.max(...opts.rows.map(([k]) => k.length));
   const text = [
-    opts.intro,
+    ...wrapText(opts.intro, TEXT_WIDTH),
     '',
-    ...opts.rows.map(([k, v]) => `${`${k}:`.padEnd(width + 2)}${v}`),
-    ...(opts.paragraph ? ['', opts.paragraph] : []),
+    ...textRows(opts.rows),
+    ...(opts.paragraph ? ['', ...wrapText(opts.paragraph, TEXT_WIDTH)] : []),
     '',
     `${opts.link.label}: ${opts.link.url}`,
-    ...(opts.footer ? ['', opts.footer] : []),
+    ...(opts.footer ? ['', ...wrapText(opts.footer, TEXT_WIDTH)] : []),
   ].join('\n');
   const html = [
     `<p>${escapeHtml(opts.intro)}</p>`,
-    '<table cellpadding="4" style="border-collapse:collapse">',
-    ...opts.rows.map(([k, v]) => `<tr><th align="left" style="color:#3b4a57">${escapeHtml(k)}</th><td>${escapeHtml(v)}</td></tr>`),
+    '<table cellpadding="4" style="border-collapse:collapse;max-width:640px">',
+    ...opts.rows.map(([k, v]) => `<tr><th align="left" valign="top" style="color:#3b4a57;white-space:nowrap">${escapeHtml(k)}</th><td>${escapeHtml(v)}</td></tr>`),
     '</table>',
     ...(opts.paragraph ? [`<p>${escapeHtml(opts.paragraph)}</p>`] : []),
     `<p><a href="${escapeHtml(opts.link.url)}" style="color:#1f6f78">${escapeHtml(opts.link.label)}</a></p>`,
