@@ -11,12 +11,13 @@ import type {
 import type { Page } from '../../shared/schemas/users';
 import { CableRun, CableType, RouteMarker, Site, Trace } from '../db/models';
 import { AppError, type FieldIssue } from '../errors';
+import { coordinateProblems } from '../../shared/locate/route-geo';
 
 type RunInput = z.output<typeof CableRunInputSchema>;
 type RunUpdate = z.output<typeof CableRunUpdateSchema>;
 
 export function markerView(m: RouteMarker): RouteMarkerView {
-  return { id: m.id, label: m.label, kind: m.kind, chainageM: m.chainageM, slackM: m.slackM, notes: m.notes };
+  return { id: m.id, label: m.label, kind: m.kind, chainageM: m.chainageM, slackM: m.slackM, notes: m.notes, latitude: m.latitude ?? null, longitude: m.longitude ?? null };
 }
 
 async function views(runs: CableRun[]): Promise<CableRunView[]> {
@@ -84,7 +85,10 @@ async function checkRefs(input: { siteId: number; cableTypeId: number; name: str
 }
 
 /** Markers must lie on the route (0 … installed length less slack) with distinct labels. */
-export function checkMarkers(installedLengthM: number, markers: Array<{ label: string; chainageM: number; slackM: number }>) {
+export function checkMarkers(
+  installedLengthM: number,
+  markers: Array<{ label: string; chainageM: number; slackM: number; latitude?: number | null; longitude?: number | null }>,
+) {
   const fields: FieldIssue[] = [];
   const totalSlack = markers.reduce((s, m) => s + m.slackM, 0);
   const routeLength = installedLengthM - totalSlack;
@@ -103,6 +107,7 @@ export function checkMarkers(installedLengthM: number, markers: Array<{ label: s
     if (seen.has(key)) fields.push({ field: `markers.${i}.label`, message: `the label ${m.label} is used twice` });
     seen.add(key);
   });
+  for (const p of coordinateProblems(markers)) fields.push({ field: `markers.${p.index}.${p.field}`, message: p.message });
   if (fields.length) throw new AppError(422, 'invalid_markers', fields.map((f) => f.message).join('; '), { fields });
 }
 

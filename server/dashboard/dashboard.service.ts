@@ -3,6 +3,7 @@ import type { DashboardView } from '../../shared/schemas/tickets';
 import { OPEN_STATUSES, TICKET_PRIORITIES } from '../../shared/tickets/status';
 import { CableType, Ticket, TicketCloseout } from '../db/models';
 import { unticketedFindings } from '../tickets/tickets.service';
+import { methodAccuracy } from '../findings/method-scores';
 
 export const AGE_BUCKETS = [
   { label: 'Under a day', maxDays: 0 },
@@ -67,5 +68,5 @@ export async function dashboard(now = new Date()): Promise<DashboardView> {
     .sort((a, b) => a.cableType.name.localeCompare(b.cableType.name));
 
   const unticketed = await unticketedFindings(20);
-  return { generatedAt: now.toISOString(), openCount: open.length, byAge, oldest: oldest.slice(0, 20), unticketed, accuracy };
+  return { generatedAt: now.toISOString(), openCount: open.length, byAge, oldest: oldest.slice(0, 20), unticketed, accuracy, methodAccuracy: await methodAccuracy() };
 }

@@ -1,5 +1,6 @@
-import { Op } from 'sequelize';
-import { describeRoutePosition, metresText, routePosition } from '../../shared/field/route-position';
+import { Op, type Transaction } from 'sequelize';
+import { describeRoutePosition, metresText, routePosition, type RoutePosition } from '../../shared/field/route-position';
+import { anchorsOf, placeOnGround } from '../../shared/locate/route-geo';
 import {
   fuseEstimates,
   LocateInputError,
@@ -36,15 +37,15 @@ interface Source {
  * those near it), one per stored file: a re-analysis of the same file repeats
  * its information.
  */
-async function sameFaultReadings(f: Finding, run: CableRun): Promise<TdrReading[]> {
-  const candidates = await Finding.findAll({ where: { cableRunId: run.id, status: 'confirmed' }, order: [['id', 'ASC']] });
+async function sameFaultReadings(f: Finding, run: CableRun, transaction?: Transaction): Promise<TdrReading[]> {
+  const candidates = await Finding.findAll({ where: { cableRunId: run.id, status: 'confirmed' }, order: [['id', 'ASC']], transaction });
   const near = candidates.filter(
     (o) =>
       o.id === f.id ||
       Math.abs(o.distanceFromAM - f.distanceFromAM) <=
         sameFaultToleranceM(run.installedLengthM) + o.uncertaintyM + f.uncertaintyM,
   );
-  const traces = await Trace.findAll({ where: { id: near.map((o) => o.traceId) } });
+  const traces = await Trace.findAll({ where: { id: near.map((o) => o.traceId) }, transaction });
   const byFile = new Map<string, TdrReading>();
   for (const finding of near) {
     const trace = traces.find((t) => t.id === finding.traceId);
@@ -107,6 +108,29 @@ function methodView(m: ReturnType<typeof fuseEstimates>['methods'][number], sour
   };
 }
 
+/** The best location on the ground, from the markers that carry coordinates; or why there is none. */
+function groundOf(pos: RoutePosition | null, markers: RouteMarker[]): Pick<BestLocationView, 'ground' | 'groundNote'> {
+  const onMap = markers.map((m) => ({ label: m.label, chainageM: m.chainageM, latitude: m.latitude ?? null, longitude: m.longitude ?? null }));
+  const anchors = anchorsOf(onMap);
+  if (!pos) return { ground: null, groundNote: null };
+  if (anchors.length < 2) {
+    return {
+      ground: null,
+      groundNote:
+        anchors.length === 0
+          ? 'No route marker of this run has coordinates, so no position on the map is estimated.'
+          : 'Only one route marker of this run has coordinates; a position on the map needs one on each side of the fault.',
+    };
+  }
+  const ground = placeOnGround(onMap, pos);
+  return ground
+    ? { ground, groundNote: null }
+    : {
+        ground: null,
+        groundNote: `The location is outside the stretch between ${anchors[0].label} and ${anchors[anchors.length - 1].label}, the first and last markers with coordinates; add coordinates to a marker beyond it (or at the end).`,
+      };
+}
+
 /**
  * A confirmed finding's best location from every reading of the same fault:
  * its TDR readings from both ends (as one two-ended reading when there is a
@@ -114,10 +138,10 @@ function methodView(m: ReturnType<typeof fuseEstimates>['methods'][number], sour
  * measurements recorded on those findings, fused by shared/locate. Null for a
  * finding that is not a confirmed fault.
  */
-export async function bestLocationFor(findingId: number): Promise<BestLocationView | null> {
-  const f = await Finding.findByPk(findingId);
+export async function bestLocationFor(findingId: number, transaction?: Transaction): Promise<BestLocationView | null> {
+  const f = await Finding.findByPk(findingId, { transaction });
   if (!f || f.status !== 'confirmed') return null;
-  const run = (await CableRun.findByPk(f.cableRunId))!;
+  const run = (await CableRun.findByPk(f.cableRunId, { transaction }))!;
   const runIn: CableRunInput = runInput(run);
   const sources: Source[] = [];
   const shownOnly: LocationMethodView[] = [];
@@ -135,7 +159,7 @@ export async function bestLocationFor(findingId: number): Promise<BestLocationVi
     }
   };
 
-  const readings = await sameFaultReadings(f, run);
+  const readings = await sameFaultReadings(f, run, transaction);
   const pair = closestPair(readings, f);
   let pairUsed = false;
   if (pair) {
@@ -183,6 +207,7 @@ export async function bestLocationFor(findingId: number): Promise<BestLocationVi
   const measurements = await Measurement.findAll({
     where: { findingId: { [Op.in]: readings.map((r) => r.finding.id) }, status: 'active' },
     order: [['id', 'ASC']],
+    transaction,
   });
   for (const m of measurements) {
     const ids = { findingId: m.findingId, traceId: null, measurementId: m.id };
@@ -196,7 +221,7 @@ export async function bestLocationFor(findingId: number): Promise<BestLocationVi
     sources.map((s) => s.estimate),
     run.installedLengthM,
   );
-  const markers = await RouteMarker.findAll({ where: { cableRunId: run.id } });
+  const markers = await RouteMarker.findAll({ where: { cableRunId: run.id }, transaction });
   const pos =
     fused.distanceFromAM === null
       ? null
@@ -243,6 +268,7 @@ export async function bestLocationFor(findingId: number): Promise<BestLocationVi
     excluded,
     routePosition: pos,
     routePositionText: pos ? describeRoutePosition(pos, metresText) : null,
+    ...groundOf(pos, markers),
     assumptions: [
       `installed length ${run.installedLengthM} m known to ±${(INSTALLED_LENGTH_RELATIVE_U * run.installedLengthM).toFixed(1)} m ` +
         `(${INSTALLED_LENGTH_RELATIVE_U * 100} %, standard uncertainty)`,

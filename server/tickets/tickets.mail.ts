@@ -6,6 +6,10 @@ import type { AppContext } from '../context';
 import { CableRun, Finding, Site, Ticket, Trace, User } from '../db/models';
 import { appLink } from '../mail';
 import { composeMail, lengthText, SAFETY_LINE, type LengthUnit } from '../mail/compose';
+import { bestLocationFor } from '../findings/best-location';
+import { bestLocationRows } from '../../shared/locate/words';
+import type { BestLocationView } from '../../shared/schemas/measurements';
+import { formatLength } from '../../shared/units/format-length';
 
 const kindLabel = (k: string) => FINDING_KIND_LABELS[k as keyof typeof FINDING_KIND_LABELS] ?? k;
 
@@ -15,11 +19,18 @@ function whereText(f: Finding, unit: LengthUnit): string {
   return pos ? describeRoutePosition(pos, (m) => lengthText(m, unit)) : f.routePositionText;
 }
 
-function findingRows(f: Finding, trace: Trace | null, run: CableRun, unit: LengthUnit): Array<[string, string]> {
+/** The distance a subject line leads with: the best location from end A, else the reading from its own end. */
+function headlineDistance(f: Finding & { trace?: Trace }, best: BestLocationView | null, unit: LengthUnit): string {
+  if (best?.distanceFromAM != null) return `${formatLength(best.distanceFromAM, unit)} from end A`;
+  return `${lengthText(f.distanceM, unit)} from end ${f.trace?.end ?? 'A'}`;
+}
+
+function findingRows(f: Finding, trace: Trace | null, run: CableRun, unit: LengthUnit, underBest = false): Array<[string, string]> {
   const end = trace?.end ?? 'A';
   const endLabel = end === 'A' ? run.endALabel : run.endBLabel;
   return [
-    ['Distance', `${lengthText(f.distanceM, unit)} of cable from end ${end} (${endLabel}), ± ${lengthText(f.uncertaintyM, unit)}`],
+    // Under a best location these rows are the one TDR reading this finding was made from.
+    [underBest ? 'This TDR reading' : 'Distance', `${lengthText(f.distanceM, unit)} of cable from end ${end} (${endLabel}), ± ${lengthText(f.uncertaintyM, unit)}`],
     ['Route position', whereText(f, unit)],
     ['Cable-length window (slack included)', `${lengthText(f.windowStartM, unit)} – ${lengthText(f.windowEndM, unit)} of cable from end ${end}`],
   ];
@@ -46,11 +57,17 @@ export async function mailFindingConfirmed(ctx: AppContext, findingId: number) {
   const fallback = recipients.length === 0;
   if (fallback) recipients = await User.findAll({ where: { role: 'supervisor', active: true } });
   const link = appLink(ctx.config, `/findings/${finding.id}`);
+  const best = await bestLocationFor(finding.id);
   for (const r of recipients) {
     const mail = composeMail({
-      subject: `Fault confirmed at ${site.name}: ${run.name}, ${lengthText(finding.distanceM, r.unitPreference)}`,
+      subject: `Fault confirmed at ${site.name}: ${run.name}, ${headlineDistance(finding, best, r.unitPreference)}`,
       intro: `${finding.confirmedBy?.name ?? 'A technician'} confirmed a fault (${kindLabel(finding.kind)}) at ${site.name}.`,
-      rows: [['Site', site.name], ['Cable run', `${run.name} (${run.endALabel} → ${run.endBLabel})`], ...findingRows(finding, finding.trace ?? null, run, r.unitPreference)],
+      rows: [
+        ['Site', site.name],
+        ['Cable run', `${run.name} (${run.endALabel} → ${run.endBLabel})`],
+        ...(best ? bestLocationRows(best, run, r.unitPreference) : []),
+        ...findingRows(finding, finding.trace ?? null, run, r.unitPreference, best !== null),
+      ],
       paragraph: [finding.note ? `Note: ${finding.note}` : '', fallback ? 'No supervisor is named for this site, so every supervisor gets this message.' : '']
         .filter(Boolean)
         .join(' ') || null,
@@ -82,8 +99,10 @@ export async function mailTicket(ctx: AppContext, ticketId: number, actor: { id:
   const unit = recipient.unitPreference;
   const site = ticket.site as Site;
   const run = ticket.cableRun as CableRun;
-  const first = ticket.findings?.[0];
+  const first = [...(ticket.findings ?? [])].sort((a, b) => a.id - b.id)[0];
   const ref = `Ticket ${ticket.id}`;
+  // The same best location the ticket page and the crew sheet show.
+  const best = first ? await bestLocationFor(first.id, transaction) : null;
   const rows: Array<[string, string]> = [
     ['Ticket', `${ref}: ${ticket.title}`],
     ['Status', TICKET_STATUS_LABELS[ticket.status]],
@@ -91,7 +110,8 @@ export async function mailTicket(ctx: AppContext, ticketId: number, actor: { id:
     ['Due', ticket.dueDate ?? 'no date set'],
     ['Site', site.name],
     ['Cable run', `${run.name} (${run.endALabel} → ${run.endBLabel})`],
-    ...(first ? findingRows(first, first.trace ?? null, run, unit) : []),
+    ...(best ? bestLocationRows(best, run, unit) : []),
+    ...(first ? findingRows(first, first.trace ?? null, run, unit, best !== null) : []),
   ];
   let subject: string;
   let intro: string;

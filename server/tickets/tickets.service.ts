@@ -20,6 +20,8 @@ import { submitCalibration } from '../calibrations/calibrations.service';
 import type { AppContext } from '../context';
 import { CableRun, Finding, MailJob, RouteMarker, Site, Ticket, TicketCloseout, TicketEvent, TicketFinding, Trace, User } from '../db/models';
 import { AppError } from '../errors';
+import { bestLocationFor } from '../findings/best-location';
+import { scoreMethodsAtCloseout, scoresOfCloseout } from '../findings/method-scores';
 import { mailTicket } from './tickets.mail';
 import { closeoutView, eventView, findingView, mailDetailsFor, mailInTrouble, permissionsFor, summaryView } from './tickets.views';
 
@@ -291,7 +293,7 @@ export async function closeOutTicket(ctx: AppContext, actor: SessionUser, id: nu
       );
       calibrationId = cal.id;
     }
-    await TicketCloseout.create(
+    const closeout = await TicketCloseout.create(
       {
         ticketId: t.id,
         findingId: finding!.id,
@@ -318,6 +320,8 @@ export async function closeOutTicket(ctx: AppContext, actor: SessionUser, id: nu
       },
       { transaction },
     );
+    // Every method's estimate of this fault, and the best location, against where it was found.
+    await scoreMethodsAtCloseout(closeout, run!.installedLengthM, transaction);
     const from = t.status;
     await t.update({ status: 'fixed' }, { transaction });
     const summary = `Found ${result.foundDistanceM.toFixed(2)} m of cable from end ${measuredFrom}; located ${result.locatedDistanceM.toFixed(2)} m (${result.errorM >= 0 ? '+' : ''}${result.errorM.toFixed(2)} m).`;
@@ -374,11 +378,12 @@ export async function getTicket(id: number, viewer: SessionUser): Promise<Ticket
       cableType: { id: run.cableTypeId, name: run.cableType?.name ?? `#${run.cableTypeId}` },
       markers: [...(run.markers ?? [])]
         .sort((a, b) => a.chainageM - b.chainageM)
-        .map((m) => ({ id: m.id, label: m.label, kind: m.kind, chainageM: m.chainageM, slackM: m.slackM, notes: m.notes })),
+        .map((m) => ({ id: m.id, label: m.label, kind: m.kind, chainageM: m.chainageM, slackM: m.slackM, notes: m.notes, latitude: m.latitude ?? null, longitude: m.longitude ?? null })),
     },
-    findings: findings.map(findingView),
+    // Each finding with the best location of its fault: the ticket, the crew sheet and the e-mails read the same numbers.
+    findings: await Promise.all(findings.map(async (f) => ({ ...findingView(f), bestLocation: await bestLocationFor(f.id) }))),
     timeline: events.map(eventView),
-    closeouts: closeouts.map(closeoutView),
+    closeouts: await Promise.all(closeouts.map(async (c) => ({ ...closeoutView(c), methodScores: await scoresOfCloseout(c.id) }))),
     mail: mailDetailsFor(viewer, mail),
     can: permissionsFor(t, viewer),
   };

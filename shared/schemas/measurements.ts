@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import type { RoutePosition } from '../field/route-position';
+import type { GroundPlace } from '../locate/route-geo';
 import { CONDUCTOR_MATERIALS, type ConductorMaterial, type LocateMethod } from '../locate';
 
 /** Readings other than TDR traces, kept with who took them, when and with what. */
@@ -226,6 +227,10 @@ export interface BestLocationView {
   excluded: Array<{ label: string; findingId: number | null; measurementId: number | null; reason: string }>;
   routePosition: RoutePosition | null;
   routePositionText: string | null;
+  /** The best location on the ground between route markers with coordinates (straight between them), or null. */
+  ground: GroundPlace | null;
+  /** Why there is no estimated coordinate, when there is none. */
+  groundNote: string | null;
   assumptions: string[];
 }
 

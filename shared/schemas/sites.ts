@@ -53,6 +53,19 @@ export const RouteMarkerInputSchema = z.object({
   chainageM: lengthM('chainage'),
   slackM: lengthM('slack', { max: 10_000 }).default(0),
   notes: optionalText(1000),
+  /** WGS 84 decimal degrees, optional; both or neither (checked with the run's other markers). */
+  latitude: z
+    .number({ error: 'must be a number of degrees (WGS 84), or left empty' })
+    .min(-90, 'must be between -90 and 90 degrees')
+    .max(90, 'must be between -90 and 90 degrees')
+    .nullish()
+    .transform((v) => v ?? null),
+  longitude: z
+    .number({ error: 'must be a number of degrees (WGS 84), or left empty' })
+    .min(-180, 'must be between -180 and 180 degrees')
+    .max(180, 'must be between -180 and 180 degrees')
+    .nullish()
+    .transform((v) => v ?? null),
 });
 export type RouteMarkerInput = z.input<typeof RouteMarkerInputSchema>;
 
@@ -105,6 +118,8 @@ export interface RouteMarkerView {
   chainageM: number;
   slackM: number;
   notes: string | null;
+  latitude: number | null;
+  longitude: number | null;
 }
 
 export interface CableRunView {

@@ -3,6 +3,8 @@ import { jsonId, lengthM, textId, textInt } from './input';
 import type { RoutePosition } from '../field/route-position';
 import { FINDING_KINDS } from './findings';
 import type { MailJobView } from './outbox';
+import type { BestLocationView } from './measurements';
+import type { MethodAccuracyRow, MethodScoreView } from './method-scores';
 import { TICKET_PRIORITIES, TICKET_STATUSES, type TicketPriority, type TicketStatus } from '../tickets/status';
 
 const id = (what: string) => jsonId(`must be ${what}`);
@@ -117,6 +119,8 @@ export interface TicketFindingView {
   vf: number;
   confirmedBy: PersonRef;
   confirmedAt: string;
+  /** The best location of this finding's fault from every reading of it (on a ticket's findings). */
+  bestLocation?: BestLocationView | null;
 }
 
 export interface TicketSummary {
@@ -171,6 +175,8 @@ export interface CloseoutView {
   calibrationId: number | null;
   recordedBy: PersonRef;
   recordedAt: string;
+  /** Each method's estimate of this fault, and the best location, against where it was found. */
+  methodScores?: MethodScoreView[];
 }
 
 export interface TicketRunView {
@@ -180,7 +186,7 @@ export interface TicketRunView {
   endBLabel: string;
   installedLengthM: number;
   cableType: PersonRef;
-  markers: Array<{ id: number; label: string; kind: string; chainageM: number; slackM: number; notes: string | null }>;
+  markers: Array<{ id: number; label: string; kind: string; chainageM: number; slackM: number; notes: string | null; latitude: number | null; longitude: number | null }>;
 }
 
 export interface TicketDetail extends Omit<TicketSummary, 'cableRun'> {
@@ -230,4 +236,6 @@ export interface DashboardView {
     meanImpliedVf: number | null;
     libraryVf: number | null;
   }>;
+  /** Located-vs-found per location method, for every cable type together and for each one. */
+  methodAccuracy: MethodAccuracyRow[];
 }

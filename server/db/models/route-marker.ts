@@ -21,6 +21,9 @@ export class RouteMarker extends Model<InferAttributes<RouteMarker>, InferCreati
   declare chainageM: number;
   declare slackM: CreationOptional<number>;
   declare notes: string | null;
+  /** WGS 84 degrees, both or neither: where the marker is on the ground, if surveyed. */
+  declare latitude: CreationOptional<number | null>;
+  declare longitude: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -35,6 +38,8 @@ export function initRouteMarker(sequelize: Sequelize) {
       chainageM: { type: DataTypes.DOUBLE, allowNull: false },
       slackM: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 0 },
       notes: { type: DataTypes.TEXT, allowNull: true },
+      latitude: { type: DataTypes.DOUBLE, allowNull: true },
+      longitude: { type: DataTypes.DOUBLE, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -1,0 +1,70 @@
+/**
+ * The best location in words, in the reader's unit: the same sentences on the
+ * finding page, the ticket, the crew sheet and in e-mail, so every place the
+ * crew reads carries the same numbers.
+ */
+import { describeRoute } from '../field/route-position';
+import type { BestLocationView, LocationMethodView } from '../schemas/measurements';
+import { formatLength, formatLengthRange, lengthsInText, type LengthUnit } from '../units/format-length';
+import { geoUri } from './geo-files';
+
+/** "612.3 m of cable from end A (Substation bay 3)", or null when the readings give no location. */
+export function bestDistanceText(best: BestLocationView, endALabel: string, unit: LengthUnit): string | null {
+  if (best.distanceFromAM === null) return null;
+  return `${formatLength(best.distanceFromAM, unit)} of cable from end A (${endALabel})`;
+}
+
+/** "604.1–620.5 m of cable from end A" (the 95 % window). */
+export function bestWindowText(best: BestLocationView, unit: LengthUnit): string | null {
+  if (best.windowStartM === null || best.windowEndM === null) return null;
+  return `${formatLengthRange(best.windowStartM, best.windowEndM, unit)} of cable from end A`;
+}
+
+/** "± 4.20 m (standard uncertainty)". */
+export function bestUncertaintyText(best: BestLocationView, unit: LengthUnit): string | null {
+  if (best.standardUncertaintyM === null) return null;
+  return `± ${formatLength(best.standardUncertaintyM, unit)} (standard uncertainty)`;
+}
+
+/** A method with its share: "TDR from both ends (findings 3 and 4), 71 %". */
+export function methodShareText(m: LocationMethodView): string {
+  return m.weight === null ? m.label : `${m.label}, ${Math.round(m.weight * 100)} %`;
+}
+
+/** The readings that went into the location, with their weights. */
+export function methodsUsedText(best: BestLocationView): string {
+  const used = best.methods.filter((m) => m.used);
+  return used.length ? used.map(methodShareText).join('; ') : 'none';
+}
+
+/** "-30.001350, -15.000000 (within 11 m)" and the geo: link, when the run's markers carry coordinates. */
+export function groundText(best: BestLocationView, unit: LengthUnit): { text: string; uri: string } | null {
+  const g = best.ground;
+  if (!g) return null;
+  const uri = geoUri(g.point, g.radiusM);
+  const [lat, lon] = uri.slice(4).split(/[,;]/);
+  return {
+    text: `${lat}, ${lon}, within ${formatLength(g.radiusM, unit)} (between ${g.fromLabel} and ${g.toLabel}, estimated from the markers' coordinates)`,
+    uri,
+  };
+}
+
+/** Label/value rows for an e-mail or a printed sheet: the best location first, then how it was reached. */
+export function bestLocationRows(best: BestLocationView, run: { endALabel: string }, unit: LengthUnit): Array<[string, string]> {
+  const distance = bestDistanceText(best, run.endALabel, unit);
+  const rows: Array<[string, string]> = [];
+  if (distance) {
+    rows.push(['Best location', `${distance}, ${bestUncertaintyText(best, unit)}`]);
+    rows.push(['Dig window (95 %)', bestWindowText(best, unit)!]);
+    if (best.routePosition) rows.push(['Where to dig', describeRoute(best.routePosition, unit)]);
+    const ground = groundText(best, unit);
+    if (ground) rows.push(['Estimated position', `${ground.text} ${ground.uri}`]);
+    rows.push(['Based on', methodsUsedText(best)]);
+  } else {
+    rows.push(['Best location', 'none: the readings disagree and none can be set aside']);
+  }
+  rows.push([best.consistent ? 'Readings' : 'Readings disagree', lengthsInText(best.verdict, unit)]);
+  if (best.outlier) rows.push(['Set aside', best.outlier.label]);
+  if (best.checks.length) rows.push(['What to check', best.checks.map((c) => lengthsInText(c, unit)).join('; ')]);
+  return rows;
+}
