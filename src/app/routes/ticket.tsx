@@ -2,7 +2,9 @@ import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { FINDING_KIND_LABELS } from '../../../shared/schemas/findings';
 import type { CloseoutView, TicketDetail, TicketFindingView } from '../../../shared/schemas/tickets';
+import type { TicketStatus } from '../../../shared/tickets/status';
 import { Button } from '../../components/ui/button';
+import { ConfirmDialog } from '../../components/ui/confirm-dialog';
 import { Card, PageHeader } from '../../components/ui/card';
 import { TextAreaField, TextField } from '../../components/ui/field';
 import { ErrorNotice, Loading, Notice } from '../../components/ui/notice';
@@ -17,7 +19,11 @@ import { PriorityBadge, TicketStatusBadge } from '../../features/tickets/compone
 import { TicketTimeline } from '../../features/tickets/components/ticket-timeline';
 import { RouteSentence } from '../../features/findings/components/where-to-dig';
 import { formatDate, formatDateTime, formatLength, formatLengthRange, formatSignedLength, type LengthUnit } from '../../lib/format';
+import { describeError } from '../../lib/api-client';
 import { paths } from '../paths';
+
+/** Steps that cannot be taken back: each asks first. */
+const FINAL_MOVES: readonly TicketStatus[] = ['withdrawn', 'signed-off'];
 
 const kindLabel = (k: string) => FINDING_KIND_LABELS[k as keyof typeof FINDING_KIND_LABELS] ?? k;
 
@@ -95,9 +101,12 @@ export function TicketPage() {
   const comment = useCommentOnTicket();
   const [moveComment, setMoveComment] = useState('');
   const [note, setNote] = useState('');
+  const [asking, setAsking] = useState<TicketStatus | null>(null);
   if (ticket.isPending) return <Loading what="Loading the ticket" />;
   if (ticket.error) return <ErrorNotice error={ticket.error} />;
   const t = ticket.data;
+  const go = (to: TicketStatus) =>
+    move.mutate({ id: t.id, to, comment: moveComment }, { onSuccess: () => (setMoveComment(''), setAsking(null)) });
   const failing = t.mail.filter((m) => m.status === 'failed' || (m.status === 'queued' && m.attempts > 0));
 
   return (
@@ -150,18 +159,55 @@ export function TicketPage() {
                 <div className="space-y-3">
                   <TextField label="Comment (optional)" value={moveComment} onChange={(e) => setMoveComment(e.target.value)} />
                   <div className="flex flex-wrap gap-2">
-                    {t.can.moves.map((m) => (
-                      <Button
-                        key={m.to}
-                        variant={m.to === 'withdrawn' ? 'danger' : m.to === 'signed-off' || (m.to === 'under-way' && t.status === 'assigned') ? 'primary' : 'secondary'}
-                        disabled={move.isPending}
-                        onClick={() => move.mutate({ id: t.id, to: m.to, comment: moveComment }, { onSuccess: () => setMoveComment('') })}
-                      >
-                        {m.label}
-                      </Button>
-                    ))}
+                    {t.can.moves
+                      .filter((m) => m.to !== 'withdrawn')
+                      .map((m) => (
+                        <Button
+                          key={m.to}
+                          variant={m.to === 'signed-off' || (m.to === 'under-way' && t.status === 'assigned') ? 'primary' : 'secondary'}
+                          disabled={move.isPending}
+                          onClick={() => (FINAL_MOVES.includes(m.to) ? setAsking(m.to) : go(m.to))}
+                        >
+                          {m.label}
+                          {FINAL_MOVES.includes(m.to) ? '…' : ''}
+                        </Button>
+                      ))}
                   </div>
-                  {move.error && <ErrorNotice error={move.error} />}
+                  {t.can.moves.some((m) => m.to === 'withdrawn') && (
+                    // Set apart from the everyday steps, so it is never pressed in passing.
+                    <div className="border-t border-rule pt-3">
+                      <Button variant="secondary" className="border-danger text-danger" disabled={move.isPending} onClick={() => setAsking('withdrawn')}>
+                        Withdraw the ticket…
+                      </Button>
+                    </div>
+                  )}
+                  {move.error && !asking && <ErrorNotice error={move.error} />}
+                  <ConfirmDialog
+                    open={asking !== null}
+                    title={asking === 'withdrawn' ? `Withdraw ticket ${t.id}?` : `Sign off ticket ${t.id}?`}
+                    confirmLabel={asking === 'withdrawn' ? 'Withdraw the ticket' : 'Sign off for good'}
+                    tone={asking === 'withdrawn' ? 'danger' : 'primary'}
+                    pending={move.isPending}
+                    error={move.error ? describeError(move.error) : null}
+                    onCancel={() => (setAsking(null), move.reset())}
+                    onConfirm={() => asking && go(asking)}
+                  >
+                    {asking === 'withdrawn' ? (
+                      <>
+                        <p>The ticket closes without a repair, and a withdrawn ticket cannot be reopened.</p>
+                        <p>
+                          {t.assignee ? `${t.assignee.name} is told by e-mail and it leaves their list. ` : ''}
+                          Its {t.findings.length === 1 ? 'finding stays confirmed and can' : 'findings stay confirmed and can'} go on a new ticket.
+                        </p>
+                      </>
+                    ) : (
+                      <>
+                        <p>The repair is accepted as done and the ticket closes. A signed-off ticket cannot be reopened.</p>
+                        <p>The close-out and any field calibration it filed stay as recorded.</p>
+                      </>
+                    )}
+                    {moveComment.trim() && <p className="text-sm text-ink-soft">Your comment goes with it: “{moveComment.trim()}”</p>}
+                  </ConfirmDialog>
                 </div>
               )}
               {t.can.closeOut && (
