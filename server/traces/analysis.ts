@@ -34,9 +34,10 @@ export function parseOptions(settings: TraceSettings, maxBytes: number) {
 /**
  * Parse and analyse one file with the run's cable values; a file the engine
  * cannot read becomes a failed outcome in the engine's own words (cut to 300
- * characters). Runs in an analysis worker, never on the request thread.
+ * characters). Runs in an analysis worker, never on the request thread, and
+ * in a Web Worker on a phone that analyses a file before uploading it.
  */
-export function analyseBytes(bytes: Buffer, settings: TraceSettings, cable: AnalysisCable, maxBytes: number): { outcome: Outcome; parsed: ParsedTrace | null } {
+export function analyseBytes(bytes: Uint8Array, settings: TraceSettings, cable: AnalysisCable, maxBytes: number): { outcome: Outcome; parsed: ParsedTrace | null } {
   let parsed: ParsedTrace | null = null;
   try {
     parsed = readBytes(bytes, settings, maxBytes);
@@ -63,6 +64,6 @@ export function analyseBytes(bytes: Buffer, settings: TraceSettings, cable: Anal
 }
 
 /** The samples of a file, read with the settings it was uploaded with. */
-export function readBytes(bytes: Buffer, settings: TraceSettings, maxBytes: number): ParsedTrace {
+export function readBytes(bytes: Uint8Array, settings: TraceSettings, maxBytes: number): ParsedTrace {
   return parseTraceCsv(bytes, parseOptions(settings, maxBytes));
 }

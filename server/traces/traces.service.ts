@@ -195,6 +195,7 @@ export async function receiveUpload(
             sizeBytes: r.sizeBytes,
             ...analysisColumns(r.outcome, cable, settings),
             vfOverrideReason: fields.vfOverrideReason ?? null,
+            deviceAnalysis: fields.deviceAnalysis ?? null,
           },
           { transaction },
         );
@@ -477,6 +478,7 @@ export async function getTrace(ctx: AppContext, id: number, opts: { points: numb
     },
     findings: findings.map((f) => ({ id: f.id, eventIndex: f.eventIndex, status: f.status, kind: f.kind })),
     comparison: parsed ? await comparison(ctx, trace, parsed, opts.points, opts.compareTo) : null,
+    deviceAnalysis: trace.deviceAnalysis ?? null,
   };
 }
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { deviceAnalysisField, type DeviceAnalysis } from './device-analysis';
 import { formNumber, textId, textInt } from './input';
 import type { TraceAnalysis } from './trace-analysis';
 import type { RouteMarkerView } from './sites';
@@ -31,6 +32,8 @@ export const TraceUploadSchema = z
       .max(500)
       .optional()
       .transform((v) => (v ? v : undefined)),
+    /** The phone's own analysis of the file, when it was analysed there before the upload. */
+    deviceAnalysis: deviceAnalysisField,
   })
   .superRefine((v, ctx) => {
     if (v.vfOverride !== undefined && !v.vfOverrideReason) {
@@ -152,6 +155,8 @@ export interface TraceDetail extends TraceSummary {
   };
   findings: TraceFindingRef[];
   comparison: TraceComparison | null;
+  /** What the phone made of the file before it was uploaded, when it was analysed on a device. */
+  deviceAnalysis: DeviceAnalysis | null;
 }
 
 /** A file of an upload that was not stored because the same bytes were already uploaded for that run and end within a day. */

@@ -7,6 +7,7 @@ import {
   type NonAttribute,
   type Sequelize,
 } from 'sequelize';
+import type { DeviceAnalysis } from '../../../shared/schemas/device-analysis';
 import type { TraceAnalysis } from '../../../shared/schemas/trace-analysis';
 import type { CableEnd, TraceSettings, TraceStatus } from '../../../shared/schemas/traces';
 import type { CableRun } from './cable-run';
@@ -47,6 +48,8 @@ export class Trace extends Model<InferAttributes<Trace>, InferCreationAttributes
   declare reanalysisOfId: CreationOptional<number | null>;
   /** Set while the trace is archived: kept, but left out of the lists (history in trace_archive_events). */
   declare archivedAt: CreationOptional<Date | null>;
+  /** What the phone made of the file before it was uploaded (analysed on a device while offline). */
+  declare deviceAnalysis: CreationOptional<DeviceAnalysis | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare cableRun?: NonAttribute<CableRun>;
@@ -80,6 +83,7 @@ export function initTrace(sequelize: Sequelize) {
       isReference: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       reanalysisOfId: { type: DataTypes.INTEGER, allowNull: true },
       archivedAt: { type: DataTypes.DATE, allowNull: true },
+      deviceAnalysis: { type: DataTypes.JSON, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },
