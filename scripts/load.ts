@@ -9,6 +9,9 @@
  *     limit, so it reaches the reader) is being refused.
  * Every request goes to 127.0.0.1; every loop has a fixed count; the whole run
  * stops itself after RUN_LIMIT_MS. Speed goals belong here, never in tests.
+ *
+ * `npm run load -- --server dist/server/index.js` runs a built server with node
+ * instead of the TypeScript source under tsx.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
@@ -92,8 +95,11 @@ async function prepare() {
   return { tech, sup, runId: run.id };
 }
 
+const builtServer = process.argv.includes('--server') ? process.argv[process.argv.indexOf('--server') + 1] : undefined;
+
 async function startServer(port: number) {
-  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], { env: { ...process.env, ...env, PORT: String(port) }, stdio: ['ignore', 'ignore', 'inherit'] });
+  const args = builtServer ? [builtServer] : ['--import', 'tsx', 'server/index.ts'];
+  const child = spawn(process.execPath, args, { env: { ...process.env, ...env, PORT: String(port) }, stdio: ['ignore', 'ignore', 'inherit'] });
   server = child;
   for (let i = 0; i < 600; i++) {
     if (child.exitCode !== null) throw new Error(`the server exited with code ${child.exitCode}`);
@@ -122,7 +128,7 @@ async function main() {
   await startServer(port);
   const t = await signIn(base, tech.email);
   const s = await signIn(base, sup.email);
-  console.log(`Rholog load check: server on ${base} (its own process, fresh SQLite database), ${os.cpus().length} cores, load average ${os.loadavg().map((l) => l.toFixed(2)).join(' ')}`);
+  console.log(`Rholog load check: ${builtServer ? `built server ${builtServer}` : 'server from source (tsx)'} on ${base} (its own process, fresh SQLite database), ${os.cpus().length} cores, load average ${os.loadavg().map((l) => l.toFixed(2)).join(' ')}`);
 
   // 1. Fifty uploads at once, each a different 10k-sample recording (an open every 4 m from 20 m).
   const upload = (faultM: number) => {
