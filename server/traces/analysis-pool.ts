@@ -29,7 +29,7 @@ export function workerEntry(): string {
     for (const candidate of [path.join(here, 'analysis-worker.js'), path.join(here, 'traces', 'analysis-worker.js')]) {
       if (fs.existsSync(candidate)) return candidate;
     }
-    throw new Error(`The analysis worker was not built beside the server (looked for analysis-worker.js in ${here}). Run "npm run build:server".`);
+    throw new Error(`The analysis worker was not built beside the server (looked for analysis-worker.js in ${here} and ${path.join(here, 'traces')}): build server/traces/analysis-worker.ts with the server.`);
   }
   return path.join(here, 'analysis-worker.boot.mjs');
 }
