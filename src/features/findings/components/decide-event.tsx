@@ -3,8 +3,10 @@ import { Link } from 'react-router-dom';
 import { FINDING_KIND_LABELS, FINDING_KINDS } from '../../../../shared/schemas/findings';
 import type { ReflectionType } from '../../../../shared/schemas/trace-analysis';
 import { Button } from '../../../components/ui/button';
+import { ConfirmDialog } from '../../../components/ui/confirm-dialog';
 import { fieldErrors, SelectField, TextAreaField } from '../../../components/ui/field';
 import { ErrorNotice } from '../../../components/ui/notice';
+import { describeError } from '../../../lib/api-client';
 import { useRecordFinding } from '../api/record-finding';
 
 const KIND_FOR_TYPE: Record<ReflectionType, (typeof FINDING_KINDS)[number]> = {
@@ -28,6 +30,7 @@ export function DecideEvent({
 }) {
   const [kind, setKind] = useState<(typeof FINDING_KINDS)[number]>(KIND_FOR_TYPE[type]);
   const [note, setNote] = useState('');
+  const [askingDismiss, setAskingDismiss] = useState(false);
   const record = useRecordFinding();
   const errors = fieldErrors(record.error);
 
@@ -41,9 +44,10 @@ export function DecideEvent({
       </p>
     );
   }
+  const dismissKind = kind === KIND_FOR_TYPE[type] ? 'not-a-fault' : kind;
   const decide = (status: 'confirmed' | 'dismissed') => (e?: FormEvent) => {
     e?.preventDefault();
-    record.mutate({ traceId, eventIndex, status, kind: status === 'dismissed' && kind === KIND_FOR_TYPE[type] ? 'not-a-fault' : kind, note });
+    record.mutate({ traceId, eventIndex, status, kind: status === 'dismissed' ? dismissKind : kind, note });
   };
   return (
     <form className="space-y-3" onSubmit={decide('confirmed')} aria-label={`Decide event ${eventIndex + 1}`}>
@@ -55,15 +59,29 @@ export function DecideEvent({
         ))}
       </SelectField>
       <TextAreaField label="Note (optional)" value={note} onChange={(e) => setNote(e.target.value)} error={errors.note} rows={2} />
-      {record.error && <ErrorNotice error={record.error} />}
+      {record.error && !askingDismiss && <ErrorNotice error={record.error} />}
       <div className="grid grid-cols-2 gap-2">
         <Button type="submit" className="min-h-14 text-base" disabled={record.isPending}>
           Confirm fault
         </Button>
-        <Button variant="secondary" className="min-h-14 text-base" disabled={record.isPending} onClick={() => decide('dismissed')()}>
-          Dismiss
+        <Button variant="secondary" className="min-h-14 text-base" disabled={record.isPending} onClick={() => setAskingDismiss(true)}>
+          Dismiss…
         </Button>
       </div>
+      <ConfirmDialog
+        open={askingDismiss}
+        title={`Dismiss event ${eventIndex + 1}?`}
+        confirmLabel="Dismiss the event"
+        pending={record.isPending}
+        error={record.error ? describeError(record.error) : null}
+        onCancel={() => (setAskingDismiss(false), record.reset())}
+        onConfirm={() => decide('dismissed')()}
+      >
+        <p>
+          It is recorded as <strong>{FINDING_KIND_LABELS[dismissKind]}</strong>, not a fault to dig for: no supervisor is e-mailed and no repair ticket can be raised from it.
+        </p>
+        <p>Only a supervisor can reverse the decision later, giving a reason that stays in its history.</p>
+      </ConfirmDialog>
     </form>
   );
 }

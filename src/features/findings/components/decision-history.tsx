@@ -3,7 +3,9 @@ import { FINDING_KIND_LABELS, FINDING_KINDS, type FindingView } from '../../../.
 import { Button } from '../../../components/ui/button';
 import { Card } from '../../../components/ui/card';
 import { fieldErrors, SelectField, TextAreaField } from '../../../components/ui/field';
-import { ErrorNotice, Notice } from '../../../components/ui/notice';
+import { ConfirmDialog } from '../../../components/ui/confirm-dialog';
+import { ErrorNotice } from '../../../components/ui/notice';
+import { describeError } from '../../../lib/api-client';
 import { formatDateTime } from '../../../lib/format';
 import { useFindingDecisions } from '../api/get-decisions';
 import { useReverseDecision } from '../api/reverse-decision';
@@ -51,12 +53,11 @@ function ReverseForm({ finding }: { finding: FindingView }) {
   }
   const submit = (e: FormEvent) => {
     e.preventDefault();
-    if (!checking) return setChecking(true);
-    reverse.mutate({ id: finding.id, reason: reason.trim(), kind }, { onSuccess: () => (setOpen(false), setChecking(false), setReason('')) });
+    setChecking(true);
   };
   return (
     <form className="mt-3 space-y-3" onSubmit={submit} aria-label="Reverse the decision">
-      <SelectField label={toConfirm ? 'What fault is it?' : 'What is it instead?'} value={kind} onChange={(e) => (setKind(e.target.value as Kind), setChecking(false))} error={errors.kind}>
+      <SelectField label={toConfirm ? 'What fault is it?' : 'What is it instead?'} value={kind} onChange={(e) => setKind(e.target.value as Kind)} error={errors.kind}>
         {FINDING_KINDS.filter((k) => (toConfirm ? k !== 'not-a-fault' : true)).map((k) => (
           <option key={k} value={k}>
             {FINDING_KIND_LABELS[k]}
@@ -67,25 +68,36 @@ function ReverseForm({ finding }: { finding: FindingView }) {
         label="Reason (kept in the history)"
         hint="At least 10 characters: what you saw that the first decision missed."
         value={reason}
-        onChange={(e) => (setReason(e.target.value), setChecking(false))}
+        onChange={(e) => setReason(e.target.value)}
         error={errors.reason}
         rows={3}
       />
-      {checking && (
-        <Notice tone="warn" title="Reverse this decision?">
-          Finding {finding.id} will be {statusWord(toConfirm ? 'confirmed' : 'dismissed')} ({kindLabel(kind)}).
-          {toConfirm ? ' The site’s supervisors are e-mailed, as for a new fault.' : ' It will no longer count as a fault to dig for.'} The first decision stays in the history.
-        </Notice>
-      )}
-      {reverse.error && <ErrorNotice error={reverse.error} />}
+      {reverse.error && !checking && <ErrorNotice error={reverse.error} />}
       <div className="flex flex-wrap gap-2">
-        <Button type="submit" variant={checking ? 'danger' : 'primary'} disabled={reasonTooShort || reverse.isPending}>
-          {checking ? 'Yes, reverse it' : 'Check the reversal'}
+        <Button type="submit" disabled={reasonTooShort || reverse.isPending}>
+          Reverse the decision…
         </Button>
-        <Button variant="ghost" onClick={() => (checking ? setChecking(false) : setOpen(false))}>
-          {checking ? 'Go back' : 'Cancel'}
+        <Button variant="ghost" onClick={() => setOpen(false)}>
+          Cancel
         </Button>
       </div>
+      <ConfirmDialog
+        open={checking}
+        title={`Reverse the decision on finding ${finding.id}?`}
+        confirmLabel={toConfirm ? 'Confirm it as a fault' : 'Dismiss the fault'}
+        pending={reverse.isPending}
+        error={reverse.error ? describeError(reverse.error) : null}
+        onCancel={() => (setChecking(false), reverse.reset())}
+        onConfirm={() =>
+          reverse.mutate({ id: finding.id, reason: reason.trim(), kind }, { onSuccess: () => (setOpen(false), setChecking(false), setReason('')) })
+        }
+      >
+        <p>
+          Finding {finding.id} will be {statusWord(toConfirm ? 'confirmed' : 'dismissed')} ({kindLabel(kind)}).
+          {toConfirm ? ' The site’s supervisors are e-mailed, as for a new fault.' : ' It will no longer count as a fault to dig for.'}
+        </p>
+        <p>The first decision and your reason stay in the history.</p>
+      </ConfirmDialog>
     </form>
   );
 }
