@@ -1,0 +1,52 @@
+// Builds the server, its analysis worker and the command-line tools to plain
+// JavaScript with esbuild, so production and batch use run with node alone.
+//
+//   node scripts/build/build-node.mjs            (npm run build:node)
+//
+// Output: dist/server/index.js, dist/server/analysis-worker.js (the worker pool
+// starts it from beside the server), dist/server/traces/ (demo trace files),
+// dist/cli/rholog.js with dist/cli/analyze.js and dist/cli/locate.js.
+import { build } from 'esbuild';
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
+const out = path.join(root, 'dist');
+
+const common = {
+  absWorkingDir: root,
+  bundle: true,
+  platform: 'node',
+  format: 'esm',
+  target: 'node20',
+  // Packages load from node_modules at run time (sqlite3 is native; the rest keep their own module format).
+  packages: 'external',
+  sourcemap: 'linked',
+  logLevel: 'warning',
+  legalComments: 'none',
+};
+
+const started = Date.now();
+await Promise.all([
+  build({
+    ...common,
+    entryPoints: { index: 'server/index.ts', 'analysis-worker': 'server/traces/analysis-worker.ts' },
+    outdir: path.join(out, 'server'),
+  }),
+  build({
+    ...common,
+    entryPoints: { analyze: 'scripts/analyze.ts', locate: 'scripts/locate.ts', rholog: 'scripts/rholog.ts' },
+    outdir: path.join(out, 'cli'),
+    // The dispatcher loads a subcommand only when it is asked for.
+    external: ['./analyze.js', './locate.js'],
+    banner: { js: '#!/usr/bin/env node' },
+  }),
+]);
+
+// The demo seed reads its trace files from beside its own module: in the bundle, beside dist/server/index.js.
+fs.cpSync(path.join(root, 'server/db/demo/traces'), path.join(out, 'server/traces'), { recursive: true });
+fs.chmodSync(path.join(out, 'cli/rholog.js'), 0o755);
+fs.writeFileSync(path.join(out, 'server/package.json'), '{ "type": "module" }\n');
+fs.writeFileSync(path.join(out, 'cli/package.json'), '{ "type": "module" }\n');
+process.stdout.write(`built dist/server and dist/cli in ${Date.now() - started} ms\n`);
