@@ -53,10 +53,11 @@ describe('a decision on an event', () => {
     await page.getByRole('button', { name: 'Reverse: dismiss this fault…' }).click();
     const form = page.getByRole('form', { name: 'Reverse the decision' });
     await form.getByLabel('Reason (kept in the history)').fill('Crew found the joint dry; the step is the cable end of a spur');
-    await form.getByRole('button', { name: 'Check the reversal' }).click();
-    await form.getByText(`Finding ${findingId} will be dismissed (Not a fault (known feature)).`).waitFor();
+    await form.getByRole('button', { name: 'Reverse the decision…' }).click();
+    const dialog = page.getByRole('dialog', { name: `Reverse the decision on finding ${findingId}?` });
+    await dialog.getByText(`Finding ${findingId} will be dismissed (Not a fault (known feature)).`).waitFor();
     await e2e.screenshot(page, 'finding-reverse-confirm');
-    await form.getByRole('button', { name: 'Yes, reverse it' }).click();
+    await dialog.getByRole('button', { name: 'Dismiss the fault' }).click();
     await page.getByText(/Reversed: dismissed \(Not a fault \(known feature\)\) by Maren Holt/).waitFor();
     await page.getByText('Reason: Crew found the joint dry; the step is the cable end of a spur').waitFor();
     await e2e.screenshot(page, 'finding-reversed');
