@@ -1,10 +1,11 @@
 /**
  * Echoes: reflections that are not faults.
  *
- * A wave trapped between two reflectors a and b arrives again at 2·t_b − t_a
- * with about ρ_a·ρ_b of the launch (the bounce, or lattice, diagram: L. V.
- * Bewley, "Traveling Waves on Transmission Systems", 2nd ed., Wiley 1951,
- * ch. 3). An instrument whose source impedance differs from the cable's
+ * A wave that bounces once between two reflectors a and b on its way arrives
+ * t_b − t_a after the wave it copies, with about ρ_a·ρ_b of it, so every event e
+ * at or beyond b has an echo at t_e + (t_b − t_a), and a weaker one at
+ * t_e + 2(t_b − t_a) (the bounce, or lattice, diagram: L. V. Bewley, "Traveling
+ * Waves on Transmission Systems", 2nd ed., Wiley 1951, ch. 3). An instrument whose source impedance differs from the cable's
  * reflects every returning wave back down the line with its own ρ_s, so an
  * echo of events a and b arrives at t_a + t_b (2·t_a for one event). At the
  * port a returning wave of ρ shows as (1 + ρ_s)·ρ, and its first source echo
@@ -43,12 +44,36 @@ function echoOf(merged: Measured[], rt: number[], of: Array<number | null>, k: n
     for (let a = 0; a <= s; a++) {
       if (of[a] !== null) continue;
       const ha = Math.abs(merged[a].height);
-      if (a < s && near(2 * rt[s] - rt[a]) && he < 1.5 * ha * hs + 0.02) return s;
       const viaSource = (a === s ? 1 : 2) * Math.abs(sourceRho / (1 + sourceRho)) * ha * hs;
       if (sourceRho !== 0 && near(rt[a] + rt[s]) && he < 1.5 * viaSource + 0.02) return s;
     }
+    if (bounceOf(merged, rt, of, k, s, near)) return s;
   }
   return null;
+}
+
+/** Is merged[k] the copy of merged[s] that bounced once or twice between two earlier reflectors a < b ≤ s? */
+function bounceOf(
+  merged: Measured[],
+  rt: number[],
+  of: Array<number | null>,
+  k: number,
+  s: number,
+  near: (t: number) => boolean,
+): boolean {
+  const he = Math.abs(merged[k].height);
+  const hs = Math.abs(merged[s].height);
+  for (let b = 0; b <= s; b++) {
+    if (of[b] !== null) continue;
+    for (let a = 0; a < b; a++) {
+      if (of[a] !== null) continue;
+      const gain = Math.abs(merged[a].height * merged[b].height);
+      const gap = rt[b] - rt[a];
+      if (near(rt[s] + gap) && he < 1.5 * gain * hs + 0.02) return true;
+      if (near(rt[s] + 2 * gap) && he < 1.5 * gain * gain * hs + 0.02) return true;
+    }
+  }
+  return false;
 }
 
 function markEchoes(merged: Measured[], rt: number[], sourceRho: number): Array<number | null> {

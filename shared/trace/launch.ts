@@ -131,6 +131,8 @@ function launchFall(y: Float64Array, e: LaunchEdge, pulseHintSamples: number | n
   for (let i = iFall + riseSamples * 2; i < end; i++) {
     if (sign * (ys(i) - baseline) > 0.5 * peak) return { iFall, looksPulse: false };
   }
+  // Without a stated width, an excursion over a third of the record is taken as a step into
+  // a near short: instruments set pulses much shorter than the record.
   const short = pulseHintSamples !== null ? width < 3 * pulseHintSamples + 4 * riseSamples : width < 0.35 * (n - ic);
   // A pulse record rests at its baseline after the launch, apart from sparse echoes.
   const rests = fractionNear(y, Math.min(n, end), baseline, 0.25 * peak) >= 0.6;
@@ -172,7 +174,7 @@ function launchBeforeRecord(rec: TraceRecord, lv: Levels, positiveOnly: boolean)
   const ys = smoothedAt(y);
   const sign = Math.sign(lv.bStart - lv.rest) || 1;
   if (positiveOnly && sign < 0) return null;
-  if (Math.abs(lv.bStart - lv.rest) < lv.launchMin) return null;
+  if (Math.abs(lv.bStart - lv.rest) < 0.5 * lv.launchMin) return null;
   let peak = 0;
   let iFall = -1;
   for (let i = 0; i < n; i++) {
@@ -183,7 +185,7 @@ function launchBeforeRecord(rec: TraceRecord, lv: Levels, positiveOnly: boolean)
       break;
     }
   }
-  if (iFall < 3 || iFall > 0.3 * n) return null;
+  if (iFall < 3 || iFall > 0.3 * n || peak < lv.launchMin) return null;
   // A pre-trigger stretch before a step looks the same, but its axis zero is at the edge,
   // not at or before the record's start; where the axis just starts at 0, a positive
   // excursion is read as a launch pulse and a negative one as a pre-trigger baseline.
