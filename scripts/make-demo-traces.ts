@@ -3,6 +3,7 @@
  * demonstration only, never for checking the engine.
  *
  *   npm run make:demo-traces   → server/db/demo/traces/*.csv and manifest.json
+ *   npm run make:demo-traces -- --out DIR   (write them elsewhere, to compare)
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -10,7 +11,8 @@ import { COAX_50, PAIR_100, POWER_MV } from './sim/cables';
 import { writeLayout, type Layout } from './sim/layouts';
 import { defaultAcquisition, simulateScenario, type Scenario } from './sim/scenario';
 
-const OUT = join(import.meta.dirname, '..', 'server', 'db', 'demo', 'traces');
+const outArg = process.argv.indexOf('--out');
+const OUT = outArg > 0 && process.argv[outArg + 1] ? process.argv[outArg + 1] : join(import.meta.dirname, '..', 'server', 'db', 'demo', 'traces');
 
 const DEMOS: Array<{
   file: string;
@@ -20,6 +22,9 @@ const DEMOS: Array<{
   layout: Layout;
   instrumentVf: number;
   seed: number;
+  /** The demo run and end it is a trace of, when the cable family alone does not say. */
+  run?: string;
+  end?: 'A' | 'B';
 }> = [
   {
     file: 'coax-feeder-open.csv',
@@ -65,6 +70,29 @@ const DEMOS: Array<{
     layout: 'time-s-v-comments',
     instrumentVf: 0.56,
     seed: 303,
+    run: 'Feeder HN-3 to Ashby Lane',
+    end: 'A',
+  },
+  {
+    // The same feeder and fault seen from end B: 900 − 612 = 288 m, the splice at 900 − 350 = 550 m.
+    file: 'mv-cable-splice-fault-from-b.csv',
+    title: '12 kV XLPE feeder, the same insulation fault measured from the far end',
+    scenario: {
+      name: 'mv cable from end B',
+      cable: POWER_MV,
+      lengthM: 900,
+      end: 'open',
+      features: [
+        { kind: 'shunt', atM: 288, rOhm: 12 },
+        { kind: 'splice', atM: 550, lengthM: 0.6, zScale: 0.6 },
+      ],
+    },
+    mode: 'step',
+    layout: 'time-s-v-comments',
+    instrumentVf: 0.56,
+    seed: 304,
+    run: 'Feeder HN-3 to Ashby Lane',
+    end: 'B',
   },
 ];
 
@@ -91,6 +119,7 @@ const manifest = DEMOS.map((d) => {
     file: d.file,
     title: d.title,
     demoOnly: true,
+    ...(d.run ? { run: d.run, end: d.end } : {}),
     cable: d.scenario.cable.name,
     vf: d.scenario.cable.vf,
     z0Ohm: d.scenario.cable.z0Ohm,

@@ -3,6 +3,7 @@ import { hashPassword } from '../../auth/passwords';
 import { User } from '../models';
 import { DEMO_CABLE_TYPE_NAMES, seedCableTypes } from './cables';
 import { seedField, seedFieldTraces } from './field';
+import { seedFaultLocatedThreeWays } from './locate';
 import { DEMO_PASSWORD, DEMO_USERS } from './organisation';
 import { seedTickets } from './tickets';
 
@@ -27,6 +28,8 @@ export async function seedDemo(ctx: AppContext): Promise<boolean> {
   const field = await seedFieldTraces(ctx, users, fieldRuns);
   // Tickets go through the tickets service, after the findings they are raised from.
   const repairs = await seedTickets(ctx, users);
-  ctx.log(`Demo data seeded: ${DEMO_USERS.length} users (password "${DEMO_PASSWORD}"), ${DEMO_CABLE_TYPE_NAMES.length} cable types, ${fieldRuns.length} cable runs, ${field.traces} traces, ${repairs.tickets} repair tickets.`);
+  // Then one fault located three ways (two traces and a bridge reading) with its repair ticket.
+  const located = await seedFaultLocatedThreeWays(ctx, users);
+  ctx.log(`Demo data seeded: ${DEMO_USERS.length} users (password "${DEMO_PASSWORD}"), ${DEMO_CABLE_TYPE_NAMES.length} cable types, ${fieldRuns.length} cable runs, ${field.traces} traces, ${repairs.tickets + located.tickets} repair tickets, ${located.measurements} bridge reading.`);
   return true;
 }
