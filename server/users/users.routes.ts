@@ -1,8 +1,9 @@
 import { IdParam } from '../http/params';
-import { CreateUserSchema, ListQuerySchema, UpdateUserSchema } from '../../shared/schemas/users';
+import { CreateUserSchema, HandOverSchema, ListQuerySchema, UpdateUserSchema } from '../../shared/schemas/users';
 import { currentUser } from '../auth/guards';
 import type { AppContext } from '../context';
 import { ApiRouter, handle } from '../http/api-router';
+import { handOverRepairs, openRepairsOf } from './hand-over.service';
 import * as users from './users.service';
 
 export function userRoutes(ctx: AppContext) {
@@ -24,5 +25,11 @@ export function userRoutes(ctx: AppContext) {
   );
   r.post('/:id/reset-password', 'users:manage', handle((req) => users.resetPassword(ctx, IdParam.parse(req.params).id, currentUser(req).id)));
   r.get('/assignable', 'tickets:manage', handle(() => users.assignableTechnicians()));
+  r.get('/:id/open-repairs', 'users:manage', handle((req) => openRepairsOf(IdParam.parse(req.params).id)));
+  r.post(
+    '/:id/hand-over-repairs',
+    'users:manage',
+    handle((req) => handOverRepairs(ctx, IdParam.parse(req.params).id, HandOverSchema.parse(req.body).toUserId, currentUser(req))),
+  );
   return r;
 }

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { textInt } from './input';
 import { ROLES } from '../auth/permissions';
+import type { TicketStatus } from '../tickets/status';
 
 export const emailSchema = z
   .string({ error: 'is required' })
@@ -39,6 +40,17 @@ export const UpdateUserSchema = z
   })
   .partial()
   .refine((v) => Object.keys(v).length > 0, 'give at least one field to change');
+
+/** Hand a person's open repairs to another technician (POST /api/users/:id/hand-over-repairs). */
+export const HandOverSchema = z.object({
+  toUserId: z.number({ error: 'must be a person' }).int({ error: 'must be a person' }).positive({ error: 'must be a person' }),
+});
+
+/** A person's open repair tickets; `movable` ones can be handed over (a fixed one waits for sign-off). */
+export interface OpenRepairsView {
+  userId: number;
+  tickets: Array<{ id: number; title: string; status: TicketStatus; movable: boolean }>;
+}
 
 export const PreferencesSchema = z.object({
   unitPreference: z.enum(['m', 'ft'], { error: 'must be m or ft' }),

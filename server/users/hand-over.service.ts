@@ -1,0 +1,63 @@
+import type { SessionUser } from '../auth/guards';
+import type { AppContext } from '../context';
+import { Ticket, TicketEvent, User } from '../db/models';
+import { AppError } from '../errors';
+import { mailTicket } from '../tickets/tickets.mail';
+import { OPEN_STATUSES, type TicketStatus } from '../../shared/tickets/status';
+import type { OpenRepairsView } from '../../shared/schemas/users';
+
+/** Repairs another technician can pick up: not yet fixed. A fixed ticket waits for a supervisor, not its assignee. */
+const HANDED_OVER: readonly TicketStatus[] = ['raised', 'assigned', 'under-way'];
+
+/** The open repair tickets assigned to a person, for the administrator deciding whether to hand them over. */
+export async function openRepairsOf(userId: number): Promise<OpenRepairsView> {
+  const user = await User.findByPk(userId);
+  if (!user) throw AppError.notFound(`User ${userId}`);
+  const tickets = await Ticket.findAll({ where: { assigneeId: userId, status: [...OPEN_STATUSES] }, order: [['id', 'ASC']] });
+  return {
+    userId,
+    tickets: tickets.map((t) => ({ id: t.id, title: t.title, status: t.status, movable: HANDED_OVER.includes(t.status) })),
+  };
+}
+
+/**
+ * Gives every open repair of one person (raised, assigned or under way) to
+ * another active technician, in one transaction: each ticket starts again
+ * from "assigned" with its new assignee, its timeline says who handed it
+ * over, and both people are e-mailed as for any change of assignee.
+ */
+export async function handOverRepairs(ctx: AppContext, fromUserId: number, toUserId: number, actor: SessionUser) {
+  if (fromUserId === toUserId) {
+    throw new AppError(422, 'same_person', 'Choose someone else to take the repairs over.', { fields: [{ field: 'toUserId', message: 'must be another person' }] });
+  }
+  return ctx.sequelize.transaction(async (transaction) => {
+    const from = await User.findByPk(fromUserId, { transaction });
+    if (!from) throw AppError.notFound(`User ${fromUserId}`);
+    const to = await User.findByPk(toUserId, { transaction });
+    if (!to || !to.active || to.role !== 'technician') {
+      throw new AppError(422, 'not_a_technician', `${to?.name ?? `User ${toUserId}`} is not an active field technician.`, {
+        fields: [{ field: 'toUserId', message: 'must be an active field technician' }],
+      });
+    }
+    const tickets = await Ticket.findAll({ where: { assigneeId: fromUserId, status: [...HANDED_OVER] }, order: [['id', 'ASC']], transaction });
+    for (const t of tickets) {
+      const fromStatus = t.status;
+      await t.update({ assigneeId: to.id, status: 'assigned' }, { transaction });
+      await TicketEvent.create(
+        {
+          ticketId: t.id,
+          actorId: actor.id,
+          kind: 'assigned',
+          fromStatus,
+          toStatus: 'assigned',
+          comment: `Handed over from ${from.name} to ${to.name}.`,
+          changes: JSON.stringify({ assignee: [from.name, to.name] }),
+        },
+        { transaction },
+      );
+      await mailTicket(ctx, t.id, actor, { kind: 'unassigned', to: from }, transaction);
+      await mailTicket(ctx, t.id, actor, { kind: 'assigned' }, transaction);
+    }
+    return { moved: tickets.map((t) => t.id), to: { id: to.id, name: to.name } };
+  });
+}
