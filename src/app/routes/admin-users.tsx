@@ -3,23 +3,25 @@ import { ROLE_LABELS, ROLES, type Role } from '../../../shared/auth/permissions'
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
 import { fieldErrors, SelectField, TextField } from '../../components/ui/field';
-import { Badge, ErrorNotice, Loading, Notice } from '../../components/ui/notice';
+import { ErrorNotice, Loading, Notice } from '../../components/ui/notice';
 import { Pager } from '../../components/ui/pager';
 import { useSession } from '../../features/auth/use-session';
+import { useAssignable } from '../../features/tickets/api/list-assignable';
 import { useUsers } from '../../features/users/api/list-users';
-import { useCreateUser, useResetUserPassword, useUpdateUser } from '../../features/users/api/save-user';
+import { useCreateUser } from '../../features/users/api/save-user';
+import { PersonRow } from '../../features/users/components/person-row';
+import { countOf } from '../../lib/format';
 
 export function AdminUsersPage() {
   const { user: me } = useSession();
   const [q, setQ] = useState('');
   const [page, setPage] = useState(1);
   const users = useUsers({ q, page });
+  const technicians = useAssignable();
   const create = useCreateUser();
-  const update = useUpdateUser();
-  const reset = useResetUserPassword();
   const [form, setForm] = useState({ email: '', name: '', role: 'technician' as Role });
   const [issued, setIssued] = useState<{ email: string; password: string } | null>(null);
-  const [leftOpen, setLeftOpen] = useState<{ name: string; count: number } | null>(null);
+  const [left, setLeft] = useState<{ name: string; stillOpen: number; handedTo: string | null } | null>(null);
   const errors = fieldErrors(create.error);
 
   const submit = (e: FormEvent) => {
@@ -41,10 +43,12 @@ export function AdminUsersPage() {
           <code className="rounded bg-white px-1 font-mono">{issued.password}</code>
         </Notice>
       )}
-      {leftOpen && (
-        <Notice tone="warn" title="Open repairs still assigned" className="mb-4">
-          {leftOpen.name} is deactivated but still has {leftOpen.count} open repair ticket{leftOpen.count === 1 ? '' : 's'}. A supervisor should reassign{' '}
-          {leftOpen.count === 1 ? 'it' : 'them'} on the Tickets page.
+      {left && (
+        <Notice tone={left.stillOpen > 0 ? 'warn' : 'ok'} title={`${left.name} is deactivated`} className="mb-4">
+          {left.handedTo ? `Their repairs not yet fixed went to ${left.handedTo}. ` : ''}
+          {left.stillOpen > 0
+            ? `${countOf(left.stillOpen, 'open repair ticket')} still ${left.stillOpen === 1 ? 'names' : 'name'} them: a supervisor reassigns or signs ${left.stillOpen === 1 ? 'it' : 'them'} off on the Tickets page.`
+            : 'No open repair names them.'}
         </Notice>
       )}
       <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
@@ -58,52 +62,19 @@ export function AdminUsersPage() {
             <>
               <ul className="mt-3 divide-y divide-rule text-sm">
                 {users.data.items.map((u) => (
-                  <li key={u.id} className="flex flex-wrap items-center gap-x-3 gap-y-1 py-2">
-                    <span className="min-w-48 flex-1">
-                      <span className="font-semibold">{u.name}</span> {u.active ? <Badge tone="ok">active</Badge> : <Badge tone="plain">deactivated</Badge>}
-                      <span className="block text-xs text-mist">{u.email}</span>
-                    </span>
-                    <select
-                      aria-label={`Role of ${u.name}`}
-                      className="min-h-11 rounded border border-rule bg-white px-2"
-                      value={u.role}
-                      disabled={u.id === me.id}
-                      onChange={(e) => update.mutate({ id: u.id, role: e.target.value as Role })}
-                    >
-                      {ROLES.map((r) => (
-                        <option key={r} value={r}>
-                          {ROLE_LABELS[r]}
-                        </option>
-                      ))}
-                    </select>
-                    <span className="flex gap-1">
-                      {u.id !== me.id && (
-                        <Button
-                          variant="ghost"
-                          onClick={() =>
-                            update.mutate(
-                              { id: u.id, active: !u.active },
-                              { onSuccess: (r) => setLeftOpen(!r.active && r.openTicketCount > 0 ? { name: r.name, count: r.openTicketCount } : null) },
-                            )
-                          }
-                        >
-                          {u.active ? 'Deactivate' : 'Reactivate'}
-                        </Button>
-                      )}
-                      <Button
-                        variant="ghost"
-                        onClick={() => reset.mutate(u.id, { onSuccess: (r) => setIssued({ email: r.user.email, password: r.temporaryPassword }) })}
-                      >
-                        New password
-                      </Button>
-                    </span>
-                  </li>
+                  <PersonRow
+                    key={u.id}
+                    person={u}
+                    isMe={u.id === me.id}
+                    technicians={technicians.data ?? []}
+                    onPassword={(p) => (setIssued(p), setLeft(null))}
+                    onDeactivated={(r) => (setLeft(r), setIssued(null))}
+                  />
                 ))}
               </ul>
               <Pager page={page} pageSize={users.data.pageSize} total={users.data.total} onPage={setPage} />
             </>
           )}
-          {update.error && <ErrorNotice error={update.error} />}
         </Card>
         <Card title="Add a person" className="min-w-0">
           <form onSubmit={submit} className="space-y-3">
