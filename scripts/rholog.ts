@@ -31,4 +31,6 @@ async function main() {
   await import(target);
 }
 
+export {};
+
 await main();

@@ -22,6 +22,7 @@ import { sessionSecret } from './db/settings';
 import { AppError, errorHandler } from './errors';
 import type { ApiRouter, RouteRecord } from './http/api-router';
 import { refuseNulBytes } from './http/strict-input';
+import { staticClient } from './static-client';
 import { outboxRoutes } from './outbox/outbox.routes';
 import { dashboardRoutes } from './dashboard/dashboard.routes';
 import { subscribeFindingNotices } from './tickets/finding-notices';
@@ -132,10 +133,7 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
     }
     // Source maps are not built (vite.config.ts); any left over from an older build are not served.
     app.use((req, _res, next) => next(req.path.endsWith('.map') ? new AppError(404, 'not_found', 'Not found.') : undefined));
-    app.use(express.static(dist, { index: false, maxAge: '1h' }));
-    app.get('/{*splat}', (_req, res) => {
-      res.sendFile(path.join(dist, 'index.html'));
-    });
+    app.use(staticClient(dist));
   } else if (config.client === 'vite') {
     const { createServer } = await import('vite');
     const vite = await createServer({ server: { middlewareMode: true }, appType: 'spa' });

@@ -9,6 +9,7 @@ import type { AppContext } from '../context';
 import { CableRun, Finding, FindingDecision, RouteMarker, Site, Trace, User } from '../db/models';
 import { AppError } from '../errors';
 import { emitFindingConfirmed } from './events';
+import { idsContaining } from '../db/text-search';
 
 export { findingEvents } from './events';
 
@@ -156,6 +157,8 @@ export async function listFindings(q: z.output<typeof FindingListQuerySchema>): 
     ...(q.cableRunId ? { cableRunId: q.cableRunId } : {}),
     ...(q.traceId ? { traceId: q.traceId } : {}),
     ...(q.status ? { status: q.status } : {}),
+    // Text search: the note, the kind and the route position sentence.
+    ...(q.q ? idsContaining(Finding.sequelize!, 'findings', ['note', 'kind', 'route_position_text'], q.q) : {}),
   };
   const { rows, count } = await Finding.findAndCountAll({
     where,

@@ -28,10 +28,17 @@ async function summaries(sites: Site[]): Promise<SiteSummary[]> {
   const ids = sites.map((s) => s.id);
   const links = ids.length ? await SiteSupervisor.findAll({ where: { siteId: ids } }) : [];
   const users = links.length ? await User.findAll({ where: { id: [...new Set(links.map((l) => l.userId))] } }) : [];
-  const runs = ids.length ? await CableRun.findAll({ where: { siteId: ids }, attributes: ['id', 'siteId'] }) : [];
-  const findings = ids.length
-    ? await Finding.findAll({ where: { siteId: ids, status: 'confirmed' }, attributes: ['id', 'siteId'] })
-    : [];
+  // Counts in SQL: one grouped row per site, never one row per finding.
+  const countBy = async (model: typeof CableRun | typeof Finding, where: Record<string, unknown>) => {
+    const rows = ids.length
+      ? ((await (model as typeof Finding).count({ where: { siteId: ids, ...where }, group: ['siteId'] })) as unknown as Array<{
+          siteId: number;
+          count: number | string;
+        }>)
+      : [];
+    return new Map(rows.map((r) => [Number(r.siteId), Number(r.count)]));
+  };
+  const [runCounts, findingCounts] = await Promise.all([countBy(CableRun, {}), countBy(Finding, { status: 'confirmed' })]);
   return sites.map((s) => ({
     id: s.id,
     name: s.name,
@@ -45,8 +52,8 @@ async function summaries(sites: Site[]): Promise<SiteSummary[]> {
       .filter(Boolean)
       .map((u) => ({ id: u.id, name: u.name, email: u.email }))
       .sort((a, b) => a.name.localeCompare(b.name)),
-    cableRunCount: runs.filter((r) => r.siteId === s.id).length,
-    openFindingCount: findings.filter((f) => f.siteId === s.id).length,
+    cableRunCount: runCounts.get(s.id) ?? 0,
+    openFindingCount: findingCounts.get(s.id) ?? 0,
   }));
 }
 

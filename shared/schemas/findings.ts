@@ -51,6 +51,8 @@ export const FindingListQuerySchema = z.object({
   cableRunId: textId().optional(),
   traceId: textId().optional(),
   status: z.enum(FINDING_STATUSES).optional(),
+  /** Text search in the note, the kind and the route position. */
+  q: z.string().trim().max(100, 'must be at most 100 characters').optional(),
   sort: z.enum(FINDING_SORTS).default('confirmedAt'),
   dir: z.enum(['asc', 'desc']).default('desc'),
   page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),

@@ -62,6 +62,8 @@ export const TraceListQuerySchema = z.object({
   uploadedById: textId().optional(),
   from: z.iso.date({ error: 'must be a date, YYYY-MM-DD' }).optional(),
   to: z.iso.date({ error: 'must be a date, YYYY-MM-DD' }).optional(),
+  /** Text search in the file name. */
+  q: z.string().trim().max(100, 'must be at most 100 characters').optional(),
   sort: z.enum(TRACE_SORTS).default('createdAt'),
   dir: z.enum(['asc', 'desc']).default('desc'),
   page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),

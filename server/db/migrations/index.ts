@@ -12,9 +12,9 @@ import * as m0009 from './0009-upload-integrity';
 import * as m0010 from './0010-decision-history';
 import * as m0011 from './0011-fusion-measurements';
 import * as m0012 from './0012-outcomes';
-import * as m0014 from './0014-device-analysis';
 import * as m0013 from './0013-method-scores';
 import * as m0014 from './0014-device-analysis';
+import * as m0015 from './0015-list-indexes';
 
 export type Migration = MigrationFn<QueryInterface>;
 
@@ -35,9 +35,9 @@ const MIGRATIONS: Array<{ name: string; up: Migration; down: Migration }> = [
   { name: '0010-decision-history', ...m0010 },
   { name: '0011-fusion-measurements', ...m0011 },
   { name: '0012-outcomes', ...m0012 },
-  { name: '0014-device-analysis', ...m0014 },
   { name: '0013-method-scores', ...m0013 },
   { name: '0014-device-analysis', ...m0014 },
+  { name: '0015-list-indexes', ...m0015 },
 ];
 
 export function migrator(sequelize: Sequelize) {
