@@ -3,15 +3,40 @@
  *
  *   npm run --silent analyze -- FILE... [--vf 0.66] [--z0 50] [--mode auto|step|pulse]
  *     [--zero-ns N] [--lead-m N] [--sample-interval-ns N] [--instrument-vf V]
- *     [--vf-tolerance F] [--units m|ft] [--json]
+ *     [--vf-tolerance F] [--loss-db-per-100m 5.2@10MHz]... [--channel NAME|N]
+ *     [--units m|ft] [--json]
  */
 import { readFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
-import { analyzeTrace, parseTraceCsv, TraceInputError, type TraceAnalysis } from '../shared/trace';
+import { analyzeTrace, parseTraceCsv, TraceInputError, type ParsedTrace, type TraceAnalysis } from '../shared/trace';
 import { M_PER_FT } from '../shared/cable/propagation';
 
 const USAGE = `usage: analyze FILE... [--vf 0.66] [--z0 50] [--mode auto|step|pulse] [--zero-ns N] [--lead-m N]
-       [--sample-interval-ns N] [--instrument-vf V] [--vf-tolerance 0.02] [--units m|ft] [--json]`;
+       [--sample-interval-ns N] [--instrument-vf V] [--vf-tolerance 0.02]
+       [--loss-db-per-100m 5.2@10MHz]... [--channel NAME|N] [--units m|ft] [--json]`;
+
+const FREQUENCY_UNITS: Record<string, number> = { hz: 1, khz: 1e3, mhz: 1e6, ghz: 1e9 };
+
+/** "5.2@10MHz" → { dbPer100m: 5.2, frequencyHz: 1e7 }: an attenuation and the frequency it is stated at. */
+function parseLoss(raw: string): { dbPer100m: number; frequencyHz: number } {
+  const m = /^\s*([0-9]*\.?[0-9]+(?:e[-+]?\d+)?)\s*@\s*([0-9]*\.?[0-9]+(?:e[-+]?\d+)?)\s*(hz|khz|mhz|ghz)\s*$/i.exec(raw);
+  if (!m)
+    throw new TraceInputError('BAD_OPTION', `--loss-db-per-100m expects DB@FREQUENCY such as 5.2@10MHz, got '${raw}'`, {
+      field: 'loss-db-per-100m',
+    });
+  const frequencyHz = Number(m[2]) * FREQUENCY_UNITS[m[3].toLowerCase()];
+  if (!(frequencyHz > 0))
+    throw new TraceInputError('BAD_OPTION', `--loss-db-per-100m needs a frequency above 0, got '${raw}'`, {
+      field: 'loss-db-per-100m',
+    });
+  return { dbPer100m: Number(m[1]), frequencyHz };
+}
+
+/** A channel by its 1-based number when the option is a whole number, else by its column name. */
+function channelOption(raw: string | undefined): string | number | undefined {
+  if (raw === undefined) return undefined;
+  return /^\s*\d+\s*$/.test(raw) ? Number(raw) : raw;
+}
 
 function numberOption(name: string, raw: string | undefined): number | undefined {
   if (raw === undefined) return undefined;
@@ -22,11 +47,12 @@ function numberOption(name: string, raw: string | undefined): number | undefined
 }
 
 /** The JSON shape: snake_case, one object per file. */
-function toJson(file: string, a: TraceAnalysis, units: 'm' | 'ft') {
+function toJson(file: string, a: TraceAnalysis, units: 'm' | 'ft', trace?: ParsedTrace) {
   const ft = (m: number) => m / M_PER_FT;
   return {
     file,
     engine_version: a.engineVersion,
+    channel: trace?.channel ? { name: trace.channel.name, index: trace.channel.index, available: trace.channel.available } : null,
     mode: a.mode,
     mode_detected: a.modeDetected,
     amplitude_unit: a.amplitudeUnit,
@@ -48,12 +74,23 @@ function toJson(file: string, a: TraceAnalysis, units: 'm' | 'ft') {
     lead_length_m: a.leadLengthM,
     blind_zone_m: a.blindZoneM,
     range_m: a.rangeM,
+    window_coverage: a.windowCoverage ?? null,
+    detection: a.detection
+      ? {
+          false_events_per_trace: a.detection.falseEventsPerTrace,
+          threshold_sigma: a.detection.thresholdSigma,
+          independent_tests: a.detection.independentTests,
+        }
+      : null,
     events: a.events.map((e) => ({
       index: e.index,
       distance_m: e.distanceM,
       ...(units === 'ft' ? { distance_ft: ft(e.distanceM), uncertainty_ft: ft(e.uncertaintyM) } : {}),
       type: e.type,
       reflection_coefficient: e.reflectionCoefficient,
+      reflection_coefficient_raw: e.reflectionCoefficientRaw ?? e.reflectionCoefficient,
+      loss_corrected: e.lossCorrected ?? false,
+      inside_blind_zone: e.insideBlindZone ?? false,
       round_trip_ns: e.roundTripNs,
       uncertainty_m: e.uncertaintyM,
       window_start_m: e.windowStartM,
@@ -73,7 +110,7 @@ function pad(s: string, n: number, right = false) {
   return right ? s.padStart(n) : s.padEnd(n);
 }
 
-function table(file: string, a: TraceAnalysis, units: 'm' | 'ft'): string {
+function table(file: string, a: TraceAnalysis, units: 'm' | 'ft', trace?: ParsedTrace): string {
   const k = units === 'ft' ? 1 / M_PER_FT : 1;
   const u = units;
   const lines: string[] = [];
@@ -95,6 +132,7 @@ function table(file: string, a: TraceAnalysis, units: 'm' | 'ft'): string {
       );
     }
   }
+  if (trace?.channel && trace.channel.available.length > 1) lines.push(`  note: read channel ${trace.channel.name}`);
   for (const w of a.warnings) lines.push(`  note: ${w.message}`);
   return lines.join('\n');
 }
@@ -114,6 +152,8 @@ function main(argv: string[]): number {
         'sample-interval-ns': { type: 'string' },
         'instrument-vf': { type: 'string' },
         'vf-tolerance': { type: 'string' },
+        'loss-db-per-100m': { type: 'string', multiple: true },
+        channel: { type: 'string' },
         units: { type: 'string' },
         json: { type: 'boolean' },
         help: { type: 'boolean', short: 'h' },
@@ -147,10 +187,12 @@ function main(argv: string[]): number {
   for (const file of positionals) {
     try {
       const vfArg = numberOption('vf', values.vf);
+      const loss = values['loss-db-per-100m']?.map(parseLoss);
       // Bytes straight to the reader: no decoded copy of the whole file.
       const trace = parseTraceCsv(readFileSync(file), {
         sampleIntervalNs: numberOption('sample-interval-ns', values['sample-interval-ns']),
         instrumentVf: numberOption('instrument-vf', values['instrument-vf']),
+        channel: channelOption(values.channel),
       });
       const vf = vfArg ?? trace.hints.instrumentVf ?? trace.instrumentVf;
       if (vf === undefined) throw new TraceInputError('MISSING_VF', 'no velocity factor: give --vf (the file names none)');
@@ -161,11 +203,12 @@ function main(argv: string[]): number {
         mode,
         zeroOffsetNs: numberOption('zero-ns', values['zero-ns']),
         leadLengthM: numberOption('lead-m', values['lead-m']),
+        loss,
       });
       if (vfArg === undefined)
         analysis.warnings.push({ code: 'VF_FROM_FILE', message: `velocity factor ${vf} taken from the file` });
-      if (values.json) results.push(toJson(file, analysis, units));
-      else process.stdout.write(`${table(file, analysis, units)}\n`);
+      if (values.json) results.push(toJson(file, analysis, units, trace));
+      else process.stdout.write(`${table(file, analysis, units, trace)}\n`);
     } catch (err) {
       failed++;
       const msg =

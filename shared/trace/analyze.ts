@@ -48,6 +48,8 @@ export interface AnalyzeOptions {
   thresholdSigma?: number;
   /** Smallest |ρ| reported; default 0.005. */
   minReflection?: number;
+  /** The cable's attenuation where known: dB per 100 m at stated frequencies (for the loss-aware edge fit). */
+  loss?: Array<{ dbPer100m: number; frequencyHz: number }>;
 }
 
 function validateOptions(o: AnalyzeOptions): void {
@@ -64,6 +66,14 @@ function validateOptions(o: AnalyzeOptions): void {
     bad('leadLengthM', 'must be a length of 0 m or more');
   if (o.pulseWidthNs !== undefined && !(Number.isFinite(o.pulseWidthNs) && o.pulseWidthNs > 0))
     bad('pulseWidthNs', 'must be a positive number of nanoseconds');
+  if (o.loss !== undefined) {
+    if (!Array.isArray(o.loss)) bad('loss', 'must be a list of attenuations');
+    o.loss.forEach((l, k) => {
+      if (!(Number.isFinite(l?.dbPer100m) && l.dbPer100m >= 0)) bad(`loss[${k}].dbPer100m`, 'must be 0 dB per 100 m or more');
+      if (!(Number.isFinite(l?.frequencyHz) && l.frequencyHz > 0))
+        bad(`loss[${k}].frequencyHz`, 'must be a positive frequency in hertz');
+    });
+  }
 }
 
 function recordOf(trace: ParsedTrace): TraceRecord {

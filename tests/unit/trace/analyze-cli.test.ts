@@ -1,6 +1,10 @@
 import { execFileSync, spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { COAX_50 } from '../../../scripts/sim/cables';
+import { defaultAcquisition, simulateScenario, type Scenario } from '../../../scripts/sim/scenario';
 
 const root = join(__dirname, '../../..');
 const cli = join(root, 'scripts/analyze.ts');
@@ -65,5 +69,70 @@ describe('analyze command', () => {
     const bad = run([ref('pe-coax-10m-open.csv'), '--vf', 'fast']);
     expect(bad.status).not.toBe(0);
     expect(bad.stderr).toContain('--vf expects a number');
+  });
+
+  it('takes the cable loss as dB per 100 m at a frequency, and refuses a value it cannot read', () => {
+    const ok = run([
+      ref('pe-coax-10m-open.csv'),
+      '--vf',
+      String(1 / 1.5),
+      '--loss-db-per-100m',
+      '5.2@10MHz',
+      '--loss-db-per-100m',
+      '16@100MHz',
+      '--json',
+    ]);
+    expect(ok.status).toBe(0);
+    expect(JSON.parse(ok.stdout).events[0].type).toBe('open');
+    for (const bad of ['5.2', '5.2@10', 'fast@10MHz', '5.2@0MHz']) {
+      const r = run([ref('pe-coax-10m-open.csv'), '--vf', '0.66', '--loss-db-per-100m', bad]);
+      expect(r.status).not.toBe(0);
+      expect(r.stderr.trim().split('\n')).toHaveLength(1);
+      expect(r.stderr).toContain('--loss-db-per-100m');
+    }
+  });
+
+  it('reads the channel asked for from an oscilloscope export and says which one it read', () => {
+    // Simulated route: 50 Ω coax, 100 Ω shunt at 23.5 m (ρ = −0.2), open end at 60 m, on CH2;
+    // CH1 carries an unrelated sine. VF 0.66 is the simulated cable's.
+    const route: Scenario = {
+      name: 'scope',
+      cable: COAX_50,
+      lengthM: 60,
+      end: 'open',
+      features: [{ kind: 'shunt', atM: 23.5, rOhm: 100 }],
+    };
+    const sim = simulateScenario(route, defaultAcquisition(route, 'step', 31, 0.002, 12));
+    const rows = ['Time (s),CH1 (V),CH2 (V)'];
+    sim.timeS.forEach((t, i) => rows.push(`${t},${(0.3 * Math.sin(i / 40)).toFixed(5)},${sim.volts[i].toFixed(5)}`));
+    const dir = mkdtempSync(join(tmpdir(), 'rholog-cli-'));
+    try {
+      const file = join(dir, 'scope.csv');
+      writeFileSync(file, rows.join('\n') + '\n');
+      for (const channel of ['2', 'CH2']) {
+        const r = run([file, '--vf', '0.66', '--channel', channel, '--json']);
+        expect(r.status).toBe(0);
+        const json = JSON.parse(r.stdout);
+        expect(json.channel.name).toMatch(/^CH2/);
+        const primary = json.events.filter((e: { likely_multiple_of: number | null }) => e.likely_multiple_of === null);
+        expect(primary.map((e: { type: string }) => e.type)).toEqual(['impedance-drop', 'open']);
+        expect(Math.abs(primary[0].distance_m - 23.5)).toBeLessThanOrEqual(0.5);
+        expect(Math.abs(primary[1].distance_m - 60)).toBeLessThanOrEqual(0.6);
+        expect(primary[0].reflection_coefficient_raw).toBeCloseTo(-0.2, 1);
+      }
+      const first = JSON.parse(run([file, '--vf', '0.66', '--json']).stdout);
+      expect(first.channel.name).toMatch(/^CH1/);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+
+  it('states the false-event rate its threshold is set for', () => {
+    const json = JSON.parse(run([ref('pe-coax-7m-25ohm.csv'), '--vf', String(1 / 1.5), '--json']).stdout);
+    expect(json.detection.false_events_per_trace).toBe(0.01);
+    // One false event in 100 traces over N independent outputs: k = Φ⁻¹(1 − 0.01/2N) (Gaussian
+    // tail, common practice); for N between 100 and 10⁶ that is between 3.9 and 6.1.
+    expect(json.detection.threshold_sigma).toBeGreaterThan(3.8);
+    expect(json.detection.threshold_sigma).toBeLessThan(6.2);
   });
 });
