@@ -50,7 +50,7 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
   const logger = createLogger(config, options.logDestination);
   const log = (message: string, extra?: unknown) => logger.info(extra === undefined ? {} : { extra }, message);
   configurePasswordHashing({ cost: config.scryptCost });
-  const sequelize = await connect(config.databaseUrl);
+  const sequelize = await connect(config.databaseUrl, { sqliteBusyTimeoutMs: config.sqliteBusyTimeoutMs });
   initModels(sequelize);
   await migrate(sequelize);
   const mail = await startMail(config, log);

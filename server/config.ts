@@ -43,6 +43,8 @@ const EnvSchema = z.object({
   ANALYSIS_TIMEOUT_S: z.coerce.number({ error: 'must be a number of seconds' }).min(0).max(600).default(20),
   ANALYSIS_MEMORY_MB: z.coerce.number({ error: 'must be a number of megabytes' }).int().min(16).max(8192).default(256),
   /** Start-up clean-up leaves files younger than this alone (an upload may be arriving). */
+  /** How long an SQLite statement waits for another process's write lock (this process queues its own writes). */
+  SQLITE_BUSY_TIMEOUT_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(0).max(600_000).default(10_000),
   UPLOAD_SWEEP_MIN_AGE_S: z.coerce.number({ error: 'must be a number of seconds' }).min(0).max(86_400).default(600),
   COOKIE_SECURE: z.enum(['auto', 'on', 'off']).default('auto'),
   TRUST_PROXY: proxyHops.default(0),
@@ -89,6 +91,7 @@ export interface AppConfig {
   /** The worker pool that analyses traces: threads, and each file's time and memory budget. */
   analysis: { threads: number; timeoutMs: number; memoryMb: number };
   uploadSweepMinAgeMs: number;
+  sqliteBusyTimeoutMs: number;
   cookieSecure: 'auto' | boolean;
   /** Reverse proxies in front of Rholog; the client address is read that many hops back in X-Forwarded-For. */
   trustProxyHops: number;
@@ -146,6 +149,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
       memoryMb: e.ANALYSIS_MEMORY_MB,
     },
     uploadSweepMinAgeMs: Math.round(e.UPLOAD_SWEEP_MIN_AGE_S * 1000),
+    sqliteBusyTimeoutMs: e.SQLITE_BUSY_TIMEOUT_MS,
     cookieSecure: e.COOKIE_SECURE === 'auto' ? 'auto' : e.COOKIE_SECURE === 'on',
     trustProxyHops: e.TRUST_PROXY,
     login: {

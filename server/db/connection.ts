@@ -6,7 +6,7 @@ import { WriteQueuedSequelize } from './transactions';
 
 export type Dialect = 'sqlite' | 'postgres';
 
-/** How long an SQLite statement waits for another process's write lock before SQLITE_BUSY. */
+/** How long an SQLite statement waits for another process's write lock before SQLITE_BUSY, unless the config says otherwise. */
 export const SQLITE_BUSY_TIMEOUT_MS = 10_000;
 
 export function dialectOf(databaseUrl: string): Dialect {
@@ -27,11 +27,11 @@ type OpenCallback = (err: Error | null) => void;
  * SQLite dialect opens a fresh connection for each transaction, so PRAGMAs run
  * once on the default connection would not reach those.
  */
-function sqliteWithConnectionPragmas() {
+function sqliteWithConnectionPragmas(busyTimeoutMs: number) {
   const Database = function (filename: string, mode: number, callback?: OpenCallback) {
     const db = new sqlite3.Database(filename, mode, (err) => {
       if (err) return callback?.(err);
-      db.configure('busyTimeout', SQLITE_BUSY_TIMEOUT_MS);
+      db.configure('busyTimeout', busyTimeoutMs);
       db.exec('PRAGMA synchronous = NORMAL;', (e) => callback?.(e ?? null));
     });
     return db;
@@ -39,13 +39,13 @@ function sqliteWithConnectionPragmas() {
   return { ...sqlite3, Database };
 }
 
-export async function connect(databaseUrl: string): Promise<Sequelize> {
+export async function connect(databaseUrl: string, options: { sqliteBusyTimeoutMs?: number } = {}): Promise<Sequelize> {
   if (dialectOf(databaseUrl) === 'sqlite') {
     const storage = sqlitePath(databaseUrl);
     fs.mkdirSync(path.dirname(storage), { recursive: true });
     const sequelize = new WriteQueuedSequelize('single-writer', {
       dialect: 'sqlite',
-      dialectModule: sqliteWithConnectionPragmas(),
+      dialectModule: sqliteWithConnectionPragmas(options.sqliteBusyTimeoutMs ?? SQLITE_BUSY_TIMEOUT_MS),
       storage,
       logging: false,
       transactionType: 'IMMEDIATE' as never,
