@@ -85,22 +85,23 @@ export function formatLengthRange(startM: number, endM: number, unit: LengthUnit
 }
 
 /**
- * Rewrites the metre figures in a sentence Rholog itself wrote and stored in
- * metres (an engine warning, a stored route sentence, a calibration note, a
- * server message) into the reader's unit. Rates such as "dB/100 m" or
- * "dB per 100 m" are left alone; so is everything in a metre reader's text.
+ * Rewrites the lengths in a sentence Rholog itself wrote and stored (an
+ * engine warning, a stored route sentence, a calibration or close-out note, a
+ * server message) into the reader's unit: metre figures for a reader in
+ * feet, feet figures (a note written by someone working in feet) for a reader
+ * in metres. Rates such as "dB/100 m" or "dB per 100 m" are left alone.
  */
 export function lengthsInText(text: string, unit: LengthUnit): string {
-  if (unit === 'm' || !text) return text;
+  if (!text) return text;
+  const source: LengthUnit = unit === 'ft' ? 'm' : 'ft';
+  const toMetres = (v: number) => fromUnit(v, source);
   const read = (n: string) => Number(n.replace('−', '-'));
-  return text.replace(
-    /(^|[^\w./,−-])([-−]?\d+(?:\.\d+)?)(?:\s?–\s?([-−]?\d+(?:\.\d+)?))?\s?m\b(?![/²³])/g,
-    (whole, before: string, first: string, second: string | undefined, offset: number) => {
-      const lead = text.slice(Math.max(0, offset - 4), offset + before.length);
-      if (/per\s$/i.test(lead)) return whole;
-      const a = read(first);
-      if (second === undefined) return `${before}${formatLength(a, unit)}`;
-      return `${before}${formatLengthRange(a, read(second), unit)}`;
-    },
-  );
+  const pattern = new RegExp(`(^|[^\\w./,−-])([-−]?\\d+(?:\\.\\d+)?)(?:\\s?–\\s?([-−]?\\d+(?:\\.\\d+)?))?\\s?${source}\\b(?![/²³])`, 'g');
+  return text.replace(pattern, (whole, before: string, first: string, second: string | undefined, offset: number) => {
+    const lead = text.slice(Math.max(0, offset - 4), offset + before.length);
+    if (/per\s$/i.test(lead)) return whole;
+    const a = toMetres(read(first));
+    if (second === undefined) return `${before}${formatLength(a, unit)}`;
+    return `${before}${formatLengthRange(a, toMetres(read(second)), unit)}`;
+  });
 }

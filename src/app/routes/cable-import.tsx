@@ -10,10 +10,10 @@ import { FIELD_LABELS, formatFieldValue } from '../../features/cables/cable-form
 import { paths } from '../paths';
 
 const ACTION: Record<ImportAction, { label: string; tone: 'ok' | 'info' | 'plain' | 'danger' }> = {
-  create: { label: 'new', tone: 'ok' },
-  update: { label: 'changes', tone: 'info' },
-  unchanged: { label: 'unchanged', tone: 'plain' },
-  invalid: { label: 'error', tone: 'danger' },
+  create: { label: 'New', tone: 'ok' },
+  update: { label: 'Changes', tone: 'info' },
+  unchanged: { label: 'Unchanged', tone: 'plain' },
+  invalid: { label: 'Error', tone: 'danger' },
 };
 
 const COLUMNS = 'name, construction, dielectric, z0_ohm, vf, vf_tolerance, attenuation_db_per_100m, attenuation_freq_mhz, vf_source, vf_reference, notes';

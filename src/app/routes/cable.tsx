@@ -3,7 +3,8 @@ import { Link, useParams } from 'react-router-dom';
 import { roundTripFromDistance } from '../../../shared/cable/propagation';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
-import { Badge, ErrorNotice, Loading, Notice } from '../../components/ui/notice';
+import { ErrorNotice, Loading, Notice } from '../../components/ui/notice';
+import { StatusBadge } from '../../components/ui/status-badge';
 import { useSession } from '../../features/auth/use-session';
 import { useCable } from '../../features/cables/api/get-cable';
 import { useCableCalibrations } from '../../features/cables/api/get-cable-calibrations';
@@ -32,6 +33,7 @@ async function calibrationFromTrace(traceId: number, unit: LengthUnit): Promise<
     roundTripNs: end.roundTripNs - leadNs,
     knownLengthM: trace.cableRun.installedLengthM,
     cableTypeName: trace.cableRun.cableTypeName,
+    // In the writer's unit, as they will read it in the form; every reader later sees it in their own (lengthsInText).
     note:
       `End reflection of trace ${traceId} on ${trace.cableRun.name}; recorded run length ${formatLength(trace.cableRun.installedLengthM, unit)}` +
       (leadNs ? `; test lead of ${formatLength(trace.analysis.leadLengthM, unit)} taken out` : '') +
@@ -118,7 +120,7 @@ export function CablePage() {
                 <Row label="Impedance Z0">{c.z0Ohm} Ω</Row>
                 <CableLossDetails cable={c} unit={unit} />
                 <Row label="VF source">
-                  <Badge tone={c.vfSource === 'field-calibrated' ? 'ok' : 'plain'}>{vfSourceLabel(c.vfSource)}</Badge>
+                  <StatusBadge kind="vfSource" status={c.vfSource} label={vfSourceLabel(c.vfSource)} />
                   <span className="mt-1 block">{c.vfReference}</span>
                 </Row>
                 {c.notes && <Row label="Notes">{c.notes}</Row>}
@@ -177,7 +179,7 @@ export function CablePage() {
                                 {formatVf(k.vf, 4)} <span className="text-xs text-mist">{formatPercent(k.deviation)}</span>
                               </td>
                               <td className="pr-3">
-                                <Badge tone={k.status === 'accepted' ? 'ok' : k.status === 'pending' ? 'warn' : 'plain'}>{k.status}</Badge>
+                                <StatusBadge kind="calibration" status={k.status} />
                               </td>
                               <td>
                                 {k.submittedBy?.name ?? '—'} <span className="text-xs text-mist">{formatDate(k.createdAt)}</span>

@@ -3,7 +3,8 @@ import { Link } from 'react-router-dom';
 import type { CableSort } from '../../../shared/schemas/cables';
 import { Card, PageHeader } from '../../components/ui/card';
 import { TextField } from '../../components/ui/field';
-import { Badge, ErrorNotice, Loading } from '../../components/ui/notice';
+import { ErrorNotice, Loading } from '../../components/ui/notice';
+import { StatusBadge } from '../../components/ui/status-badge';
 import { Pager } from '../../components/ui/pager';
 import { useSession } from '../../features/auth/use-session';
 import { CABLE_EXPORT_URL } from '../../features/cables/api/import-cables';
@@ -120,7 +121,7 @@ export function CablesPage() {
                       </td>
                       <td className="hidden whitespace-nowrap pr-3 text-right tabular sm:table-cell">{formatDelay(c.vf, unit)}</td>
                       <td className="hidden whitespace-nowrap pr-3 md:table-cell">
-                        <Badge tone={c.vfSource === 'field-calibrated' ? 'ok' : c.vfSource === 'datasheet' ? 'info' : 'plain'}>{vfSourceLabel(c.vfSource)}</Badge>
+                        <StatusBadge kind="vfSource" status={c.vfSource} label={vfSourceLabel(c.vfSource)} />
                       </td>
                     </tr>
                   ))}

@@ -5,12 +5,13 @@ import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
 import { fieldErrors, TextField } from '../../components/ui/field';
 import { Badge, ErrorNotice, Loading, Notice } from '../../components/ui/notice';
+import { StatusBadge } from '../../components/ui/status-badge';
 import { Pager } from '../../components/ui/pager';
 import { useSession } from '../../features/auth/use-session';
 import { formatPercent, formatVf } from '../../features/cables/cable-format';
 import { useCalibrations } from '../../features/calibrations/api/list-calibrations';
 import { useAcceptCalibration, useRejectCalibration } from '../../features/calibrations/api/review-calibration';
-import { formatDateTime, formatLength, type LengthUnit } from '../../lib/format';
+import { formatDateTime, formatLength, lengthsInText, type LengthUnit } from '../../lib/format';
 import { paths } from '../paths';
 
 const TABS: Array<{ status: CalibrationStatus | 'all'; label: string }> = [
@@ -86,7 +87,7 @@ function CalibrationItem({ c, unit }: { c: CalibrationView; unit: LengthUnit }) 
           <Link to={paths.cable.to(c.cableType.id)} className="font-semibold text-teal hover:underline">
             {c.cableType.name}
           </Link>
-          <Badge tone={c.status === 'accepted' ? 'ok' : c.status === 'pending' ? 'warn' : 'plain'}>{c.status}</Badge>
+          <StatusBadge kind="calibration" status={c.status} />
           <Badge tone="plain">{CALIBRATION_SOURCE_LABELS[c.source]}</Badge>
         </p>
         <p className="mt-1 tabular">
@@ -104,7 +105,7 @@ function CalibrationItem({ c, unit }: { c: CalibrationView; unit: LengthUnit }) 
             The library has changed since: it is now {formatVf(c.cableType.currentVf)}. Accepting replaces that value with {formatVf(c.vf, 4)}.
           </p>
         )}
-        {c.note && <p className="mt-1">{c.note}</p>}
+        {c.note && <p className="mt-1">{lengthsInText(c.note, unit)}</p>}
         {c.status !== 'pending' && (
           <p className="mt-1 text-mist">
             {c.status === 'accepted' ? 'Accepted' : 'Rejected'} by {c.reviewedBy?.name ?? '—'} {formatDateTime(c.reviewedAt)}

@@ -4,7 +4,8 @@ import { FINDING_KIND_LABELS, type FindingListQuery } from '../../../shared/sche
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
 import { SelectField } from '../../components/ui/field';
-import { Badge, ErrorNotice, Loading } from '../../components/ui/notice';
+import { ErrorNotice, Loading } from '../../components/ui/notice';
+import { StatusBadge } from '../../components/ui/status-badge';
 import { Pager } from '../../components/ui/pager';
 import { useSession } from '../../features/auth/use-session';
 import { useFindings } from '../../features/findings/api/list-findings';
@@ -65,8 +66,8 @@ export function FindingsPage() {
                       <span className="text-2xl font-bold tabular">{formatLength(f.distanceM, unit)}</span>
                     </span>
                     <span className="block text-sm text-ink-soft">
-                      <Badge tone={f.status === 'confirmed' ? 'danger' : 'plain'}>{FINDING_KIND_LABELS[f.kind as keyof typeof FINDING_KIND_LABELS] ?? f.kind}</Badge> from end{' '}
-                      {f.end} · {f.confirmedBy.name}, {formatDateTime(f.confirmedAt)}
+                      <StatusBadge kind="finding" status={f.status} /> {FINDING_KIND_LABELS[f.kind as keyof typeof FINDING_KIND_LABELS] ?? f.kind} · from end {f.end} ·{' '}
+                      {f.confirmedBy.name}, {formatDateTime(f.confirmedAt)}
                     </span>
                     <span className="block text-sm">
                       <RouteSentence pos={f.routePosition} storedText={f.routePositionText} unit={unit} testId="finding-route" />

@@ -1,12 +1,12 @@
 import { Link } from 'react-router-dom';
 import { ROLE_LABELS } from '../../../shared/auth/permissions';
-import { TICKET_PRIORITY_LABELS, TICKET_STATUS_LABELS } from '../../../shared/tickets/status';
 import { Card, PageHeader } from '../../components/ui/card';
-import { Badge, ErrorNotice, Loading } from '../../components/ui/notice';
+import { ErrorNotice, Loading } from '../../components/ui/notice';
 import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useSession } from '../../features/auth/use-session';
 import { useCalibrations } from '../../features/calibrations/api/list-calibrations';
 import { useTickets } from '../../features/tickets/api/list-tickets';
+import { PriorityBadge, TicketStatusBadge } from '../../features/tickets/components/ticket-badges';
 import { formatAge, formatDate } from '../../lib/format';
 import { NAV } from '../nav';
 import { paths } from '../paths';
@@ -34,10 +34,8 @@ function OpenTickets({ mine }: { mine: boolean }) {
               <Link to={paths.ticket.to(t.id)} className="block min-h-11 py-2 hover:text-copper">
                 <span className="font-semibold">{t.title}</span>
                 <span className="mt-0.5 flex flex-wrap items-center gap-1 text-xs text-ink-soft">
-                  <Badge tone="info">{TICKET_STATUS_LABELS[t.status]}</Badge>
-                  <Badge tone={t.priority === 'urgent' || t.priority === 'high' ? 'warn' : 'plain'}>
-                    {TICKET_PRIORITY_LABELS[t.priority]} priority
-                  </Badge>
+                  <TicketStatusBadge status={t.status} />
+                  <PriorityBadge priority={t.priority} />
                   {t.site.name} · raised {formatAge(t.createdAt)}
                   {t.dueDate && ` · due ${formatDate(t.dueDate)}`}
                 </span>

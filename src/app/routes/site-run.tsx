@@ -3,7 +3,8 @@ import { Link, useParams } from 'react-router-dom';
 import { routeLengthM } from '../../../shared/field/route-position';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
-import { Badge, ErrorNotice, Loading } from '../../components/ui/notice';
+import { ErrorNotice, Loading } from '../../components/ui/notice';
+import { StatusBadge } from '../../components/ui/status-badge';
 import { useSession } from '../../features/auth/use-session';
 import { useCableRun } from '../../features/sites/api/get-cable-run';
 import { MarkerEditor } from '../../features/sites/components/marker-editor';
@@ -101,7 +102,7 @@ export function SiteRunPage() {
                   <Link className="font-semibold text-teal underline" to={paths.trace.to(t.id)}>
                     {t.originalName}
                   </Link>{' '}
-                  from {t.end} {t.isReference && <Badge tone="info">reference</Badge>} {t.status === 'failed' && <Badge tone="danger">could not be read</Badge>}
+                  from {t.end} {t.isReference && <StatusBadge kind="trace" status="reference" />} {t.status === 'failed' && <StatusBadge kind="trace" status="failed" />}
                   <span className="block text-xs text-mist">{formatDateTime(t.createdAt)}</span>
                 </li>
               ))}

@@ -4,7 +4,8 @@ import type { TicketSummary } from '../../../shared/schemas/tickets';
 import { TICKET_STATUS_LABELS, TICKET_STATUSES, type TicketStatus } from '../../../shared/tickets/status';
 import { Card, PageHeader } from '../../components/ui/card';
 import { SelectField } from '../../components/ui/field';
-import { Badge, ErrorNotice, Loading } from '../../components/ui/notice';
+import { ErrorNotice, Loading } from '../../components/ui/notice';
+import { StatusBadge } from '../../components/ui/status-badge';
 import { Pager } from '../../components/ui/pager';
 import { useSession } from '../../features/auth/use-session';
 import { useTickets } from '../../features/tickets/api/list-tickets';
@@ -25,8 +26,8 @@ function TicketRow({ t }: { t: TicketSummary }) {
           <span className="text-xs font-semibold text-mist tabular">Ticket {t.id}</span>
           <TicketStatusBadge status={t.status} />
           <PriorityBadge priority={t.priority} />
-          {t.mine && <Badge tone="info">yours</Badge>}
-          {t.mailTrouble && <Badge tone="danger">e-mail not delivered</Badge>}
+          {t.mine && <StatusBadge kind="ticketFlag" status="mine" />}
+          {t.mailTrouble && <StatusBadge kind="ticketFlag" status="mailTrouble" />}
         </div>
         <p className="mt-1 font-semibold">{t.title}</p>
         <p className="text-sm text-ink-soft">

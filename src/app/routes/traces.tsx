@@ -4,7 +4,8 @@ import type { TraceListQuery } from '../../../shared/schemas/traces';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
 import { SelectField, TextField } from '../../components/ui/field';
-import { Badge, ErrorNotice, Loading } from '../../components/ui/notice';
+import { ErrorNotice, Loading } from '../../components/ui/notice';
+import { StatusBadge } from '../../components/ui/status-badge';
 import { Pager } from '../../components/ui/pager';
 import { useSession } from '../../features/auth/use-session';
 import { useCableRuns } from '../../features/sites/api/list-cable-runs';
@@ -112,7 +113,7 @@ export function TracesPage() {
                         </Link>
                         {t.isReference && (
                           <span className="ml-2">
-                            <Badge tone="info">reference</Badge>
+                            <StatusBadge kind="trace" status="reference" />
                           </span>
                         )}
                       </td>
@@ -128,7 +129,7 @@ export function TracesPage() {
                             {t.findingCount ? `, ${t.findingCount} decided` : ''}
                           </span>
                         ) : (
-                          <Badge tone="danger">could not be read</Badge>
+                          <StatusBadge kind="trace" status="failed" />
                         )}
                       </td>
                       <td className="tabular">

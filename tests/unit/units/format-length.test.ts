@@ -72,10 +72,18 @@ describe('metre figures in text Rholog wrote', () => {
     expect(lengthsInText('located 400.00 m, found 398.50 m of cable (+1.50 m).', 'ft')).toBe('located 1312 ft, found 1307 ft of cable (+4.92 ft).');
   });
 
-  it('leaves rates, areas, other units and a metre reader\'s text alone', () => {
+  it('leaves rates, areas, other units and lengths already in the reader\'s unit alone', () => {
     const rates = 'at most 1000 dB/100 m, 3 dB per 100 m, 2.5 m/s, 4 m², 12 mm, 5 min';
     expect(lengthsInText(rates, 'ft')).toBe(rates);
     expect(lengthsInText('dig window 37.0–43.0 m', 'm')).toBe('dig window 37.0–43.0 m');
+    expect(lengthsInText('a 12 ft lead', 'ft')).toBe('a 12 ft lead');
+  });
+
+  it('rewrites feet written by someone working in feet for a reader in metres', () => {
+    // 1312 ft × 0.3048 = 399.90 m; 10 ft = 3.048 m; 200 dB/1000 ft is a rate.
+    expect(lengthsInText('recorded run length 1312 ft; test lead of 10.0 ft taken out, 200 dB/1000 ft', 'm')).toBe(
+      'recorded run length 399.9 m; test lead of 3.05 m taken out, 200 dB/1000 ft',
+    );
   });
 });
 

@@ -1,16 +1,13 @@
 import type { MailJobView } from '../../../../shared/schemas/outbox';
-import { Badge } from '../../../components/ui/notice';
+import { StatusBadge } from '../../../components/ui/status-badge';
 import { formatDateTime } from '../../../lib/format';
-
-const LABELS = { queued: 'waiting to send', sent: 'sent', failed: 'not delivered' } as const;
 
 /** One line per e-mail: status, to whom, and what went wrong if it did. */
 export function MailStatusLine({ job }: { job: MailJobView }) {
-  const tone = job.status === 'sent' ? 'ok' : job.status === 'failed' ? 'danger' : job.lastError ? 'warn' : 'plain';
   return (
     <div className="space-y-0.5 text-sm">
       <div className="flex flex-wrap items-center gap-2">
-        <Badge tone={tone}>{job.status === 'queued' && job.lastError ? 'retrying' : LABELS[job.status]}</Badge>
+        <StatusBadge kind="mail" status={job.status === 'queued' && job.lastError ? 'retrying' : job.status} />
         <span className="font-semibold">{job.subject}</span>
       </div>
       <p className="text-xs text-mist">

@@ -5,7 +5,7 @@ import { TICKET_STATUS_LABELS } from '../../../../shared/tickets/status';
 import { Button } from '../../../components/ui/button';
 import { ConfirmDialog } from '../../../components/ui/confirm-dialog';
 import { SelectField } from '../../../components/ui/field';
-import { Badge } from '../../../components/ui/notice';
+import { StatusBadge } from '../../../components/ui/status-badge';
 import { describeError } from '../../../lib/api-client';
 import { countOf } from '../../../lib/format';
 import { useOpenRepairs } from '../api/get-open-repairs';
@@ -78,7 +78,7 @@ export function PersonRow({
     <li className="flex flex-wrap items-center gap-x-3 gap-y-2 py-3">
       <span className="min-w-48 flex-1">
         <span className="font-semibold">{person.name}</span>{' '}
-        {person.active ? <Badge tone="ok">Active</Badge> : <Badge tone="plain">Deactivated</Badge>}
+        <StatusBadge kind="person" status={person.active ? 'active' : 'deactivated'} />
         <span className="block text-xs text-mist">{person.email}</span>
       </span>
       <select
