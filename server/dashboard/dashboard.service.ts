@@ -1,5 +1,5 @@
-import { differenceInCalendarDays } from 'date-fns';
 import type { DashboardView } from '../../shared/schemas/tickets';
+import { openDays } from '../../shared/tickets/age';
 import { OPEN_STATUSES, TICKET_PRIORITIES } from '../../shared/tickets/status';
 import { CableType, Ticket, TicketCloseout } from '../db/models';
 import { unticketedFindings } from '../tickets/tickets.service';
@@ -24,7 +24,7 @@ export async function dashboard(now = new Date()): Promise<DashboardView> {
   });
   const byAge = AGE_BUCKETS.map((b) => ({ label: b.label, counts: Object.fromEntries(TICKET_PRIORITIES.map((p) => [p, 0])) as Record<(typeof TICKET_PRIORITIES)[number], number> }));
   const oldest = open.map((t) => {
-    const ageDays = Math.max(0, differenceInCalendarDays(now, t.createdAt));
+    const ageDays = openDays(t.createdAt, now);
     const bucket = AGE_BUCKETS.findIndex((b) => ageDays <= b.maxDays);
     byAge[bucket].counts[t.priority] += 1;
     return {
