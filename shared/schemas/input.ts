@@ -48,6 +48,20 @@ export function textInt(b: Bounds = {}) {
 /** A positive id in a query string or path. */
 export const textId = (what = 'a positive id') => textInt({ min: 1, what });
 
+/** A decimal number written in a query string: digits with an optional sign, point and exponent, finite ("0x10", "", "1e999" are refused). */
+export function textNumber(b: Bounds = {}) {
+  const what = b.what ?? 'a number';
+  return z
+    .unknown()
+    .transform((v, ctx) => {
+      if (typeof v === 'number' && Number.isFinite(v)) return v;
+      if (typeof v === 'string' && DECIMAL.test(v) && Number.isFinite(Number(v))) return Number(v);
+      ctx.addIssue({ code: 'custom', message: `must be ${what}, written in digits` });
+      return z.NEVER;
+    })
+    .pipe(bounded(z.number(), b));
+}
+
 /**
  * A decimal number in a multipart form field: digits with an optional point
  * and exponent, finite. An empty field means "not given".

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { textInt } from './input';
+import { textInt, textNumber } from './input';
 
 const eventIndex = z
   .number({ error: 'is required: the number of the event (counting from 0)' })
@@ -42,8 +42,8 @@ export const ArchiveReasonSchema = z.object({
 /** A window of a trace's samples, for drawing a zoomed view at full detail. */
 export const SampleWindowQuerySchema = z
   .object({
-    fromNs: z.coerce.number({ error: 'must be a time in ns' }).finite('must be a time in ns'),
-    toNs: z.coerce.number({ error: 'must be a time in ns' }).finite('must be a time in ns'),
+    fromNs: textNumber({ min: -1e9, max: 1e9, what: 'a time in ns' }),
+    toNs: textNumber({ min: -1e9, max: 1e9, what: 'a time in ns' }),
     points: textInt({ min: 100, max: 20000, what: 'a number of points' }).default(2000),
   })
   .refine((q) => q.toNs > q.fromNs, { path: ['toNs'], message: 'must be later than fromNs' });

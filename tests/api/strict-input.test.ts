@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableRun, Site } from '../../server/db/models';
-import { makeRun } from './support/field-fixtures';
+import { makeRun, stepTraceCsv } from './support/field-fixtures';
 import { startApi, type Client, type TestApi } from './support/api';
 
 /**
@@ -99,6 +99,26 @@ describe('query strings and paths', () => {
   it('reads plain digits', async () => {
     const res = await sup.get(`/api/cable-runs?siteId=${fx.site.id}&page=1&pageSize=10`).expect(200);
     expect(res.body.items.map((r: { id: number }) => r.id)).toContain(fx.run.id);
+  });
+
+  it('refuses a zoom window in hexadecimal, empty or past the largest number', async () => {
+    const tech = await api.as('technician');
+    const up = await tech
+      .postRaw('/api/traces')
+      .field('cableRunId', String(fx.run.id))
+      .field('end', 'A')
+      .attach('file', Buffer.from(stepTraceCsv({ faultM: 60, vf: 0.66 })), 'zoom.csv')
+      .expect(201);
+    const id = up.body.traces[0].id;
+    for (const [query, field] of [
+      ['fromNs=0x10&toNs=400', 'fromNs'],
+      ['fromNs=&toNs=400', 'fromNs'],
+      ['fromNs=0&toNs=1e999', 'toNs'],
+    ]) {
+      const res = await tech.get(`/api/traces/${id}/samples?${query}`).expect(400);
+      expect(res.body.error.fields).toEqual([{ field, message: 'must be a time in ns, written in digits' }]);
+    }
+    await tech.get(`/api/traces/${id}/samples?fromNs=-5.5&toNs=400`).expect(200);
   });
 
   it('refuses an id in a path that is not plain digits', async () => {
