@@ -6,6 +6,7 @@ import { Badge, ErrorNotice, Loading } from '../../components/ui/notice';
 import { useSession } from '../../features/auth/use-session';
 import { useDashboard } from '../../features/dashboard/api/get-dashboard';
 import { AccuracyChart } from '../../features/dashboard/components/accuracy-chart';
+import { MethodAccuracyTable } from '../../features/locate/components/method-accuracy';
 import { PriorityBadge, TicketStatusBadge } from '../../features/tickets/components/ticket-badges';
 import { formatDate, formatDateTime, formatLength } from '../../lib/format';
 import { paths } from '../paths';
@@ -136,6 +137,9 @@ export function DashboardPage() {
               </div>
             </div>
           )}
+        </Card>
+        <Card title="Located against found, per method" className="xl:col-span-2">
+          <MethodAccuracyTable rows={v.methodAccuracy} unit={unit} />
         </Card>
       </div>
     </>

@@ -8,13 +8,19 @@ import { useFinding } from '../../features/findings/api/get-finding';
 import { useFindingTwoEnded } from '../../features/findings/api/get-two-ended';
 import { DecisionHistory } from '../../features/findings/components/decision-history';
 import { DistanceBlock, RouteSentence } from '../../features/findings/components/where-to-dig';
-import { formatDateTime, formatLength, formatSignedLength } from '../../lib/format';
+import { useBestLocation } from '../../features/locate/api/get-best-location';
+import { BestLocationHeadline, LocationMethods } from '../../features/locate/components/best-location';
+import { MeasurementPanel } from '../../features/locate/components/measurement-panel';
+import { useCableRun } from '../../features/sites/api/get-cable-run';
+import { formatDateTime, formatLength, formatLengthRange, formatSignedLength } from '../../lib/format';
 import { paths } from '../paths';
 
 export function FindingPage() {
   const id = Number(useParams().findingId);
-  const { unit, can } = useSession();
+  const { unit, can, user } = useSession();
   const finding = useFinding(id);
+  const best = useBestLocation(id).data ?? null;
+  const run = useCableRun(finding.data?.cableRunId ?? 0, finding.data !== undefined);
   const twoEnded = useFindingTwoEnded(id);
   if (finding.isPending) return <Loading what="Loading the finding" />;
   if (finding.error || !finding.data) return <ErrorNotice error={finding.error} />;
@@ -47,9 +53,44 @@ export function FindingPage() {
         }
       />
       <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
-        <div className="space-y-4">
-          <Card title="Where to dig">
-            <DistanceBlock distanceM={f.distanceM} windowStartM={f.windowStartM} windowEndM={f.windowEndM} end={f.end} endLabel={f.endLabel} unit={unit} pos={f.routePosition} storedText={f.routePositionText} />
+        <div className="min-w-0 space-y-4">
+          {best && run.data && (
+            <>
+              <Card title="Where to dig">
+                <BestLocationHeadline best={best} run={run.data} unit={unit} fileStem={`finding-${f.id}-location`} />
+              </Card>
+              <Card title="Readings of this fault">
+                <LocationMethods best={best} unit={unit} findingLink={paths.finding.to} />
+              </Card>
+            </>
+          )}
+          {f.status === 'confirmed' && run.data && (
+            <Card title="Bridge, capacitance and resistance readings">
+              <MeasurementPanel
+                findingId={f.id}
+                installedLengthM={run.data.installedLengthM}
+                unit={unit}
+                userId={user.id}
+                mayRecord={can('measurements:record')}
+                mayReview={can('findings:review')}
+              />
+            </Card>
+          )}
+          <Card title={best ? 'This TDR reading' : 'Where to dig'}>
+            {best ? (
+              // One of the readings behind the best location: smaller, so the crew reads the headline first.
+              <div className="space-y-1 text-sm tabular">
+                <p className="text-lg font-semibold">
+                  {formatLength(f.distanceM, unit)} along the cable from end {f.end} ({f.endLabel}), ± {formatLength(f.uncertaintyM, unit)}
+                </p>
+                <p>Cable-length window {formatLengthRange(f.windowStartM, f.windowEndM, unit)} from end {f.end}, slack included</p>
+                <p>
+                  <RouteSentence pos={f.routePosition} storedText={f.routePositionText} unit={unit} />
+                </p>
+              </div>
+            ) : (
+              <DistanceBlock distanceM={f.distanceM} windowStartM={f.windowStartM} windowEndM={f.windowEndM} end={f.end} endLabel={f.endLabel} unit={unit} pos={f.routePosition} storedText={f.routePositionText} />
+            )}
             {f.note && <p className="mt-3 whitespace-pre-wrap">{f.note}</p>}
           </Card>
           {te && (

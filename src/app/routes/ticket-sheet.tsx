@@ -6,6 +6,7 @@ import { Button } from '../../components/ui/button';
 import { ErrorNotice, Loading } from '../../components/ui/notice';
 import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useSession } from '../../features/auth/use-session';
+import { TicketLocations } from '../../features/locate/components/ticket-locations';
 import { useTicket } from '../../features/tickets/api/get-ticket';
 import { RouteSentence } from '../../features/findings/components/where-to-dig';
 import { useTrace } from '../../features/traces/api/get-trace';
@@ -48,7 +49,7 @@ function FindingBlock({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; u
         {kindLabel(f.kind)} <span className="text-sm font-normal text-mist">(finding {f.id})</span>
       </h2>
       <dl className="grid gap-x-6 gap-y-1 text-sm sm:grid-cols-[auto_1fr] print:grid-cols-[auto_1fr]">
-        <dt className="font-semibold">Distance</dt>
+        <dt className="font-semibold">{f.bestLocation ? 'This TDR reading' : 'Distance'}</dt>
         <dd className="tabular" data-testid="sheet-distance">
           {formatLength(f.distanceM, unit)} of cable from end {f.measuredFrom} ({endLabel}), ± {formatLength(f.uncertaintyM, unit)}
         </dd>
@@ -133,6 +134,13 @@ export function TicketSheetPage() {
         </p>
       )}
 
+      {t.findings.some((f) => f.bestLocation) && (
+        <section className="space-y-2 border-t-2 border-ink pt-3" data-testid="sheet-best-location">
+          <h2 className="text-lg font-bold">Where to dig</h2>
+          <TicketLocations t={t} unit={unit} />
+        </section>
+      )}
+
       {t.findings.map((f) => (
         <FindingBlock key={f.id} f={f} t={t} unit={unit} />
       ))}
@@ -173,7 +181,7 @@ export function TicketSheetPage() {
         ))}
       </section>
       <p className="text-xs text-mist">
-        Printed from Rholog {formatDateTime(new Date())}. Distances are guidance from a TDR reading, not a permit to dig; follow local codes and your employer's procedures.
+        Printed from Rholog {formatDateTime(new Date())}. Distances are guidance from the readings, not a permit to dig; follow local codes and your employer's procedures.
       </p>
     </article>
   );

@@ -6,6 +6,6 @@ export const getCableRun = (id: number) => api<CableRunView>(`/api/cable-runs/${
 
 export const getCableRunQueryOptions = (id: number) => queryOptions({ queryKey: ['cable-runs', 'one', id], queryFn: () => getCableRun(id) });
 
-export function useCableRun(id: number) {
-  return useQuery(getCableRunQueryOptions(id));
+export function useCableRun(id: number, enabled = true) {
+  return useQuery({ ...getCableRunQueryOptions(id), enabled });
 }

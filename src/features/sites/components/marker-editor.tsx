@@ -12,12 +12,29 @@ interface Row {
   chainage: string;
   slack: string;
   notes: string;
+  latitude: string;
+  longitude: string;
+}
+
+/**
+ * A coordinate as typed: empty is none; anything that is not a plain decimal
+ * number goes to the server as typed, which says what is wrong with it.
+ */
+function degrees(text: string): number | null {
+  const t = text.trim();
+  if (t === '') return null;
+  const v = Number(t);
+  return (Number.isFinite(v) ? v : t) as number;
 }
 
 // The label above is small and grey; the value a person saved is ink, never placeholder grey.
 const CELL = 'mt-0.5 min-h-11 w-full rounded border border-rule bg-white px-2 text-base text-ink';
 
-/** Edit a run's route markers as one list: chainage along the route from end A, slack coiled there. */
+/**
+ * Edit a run's route markers as one list: chainage along the route from end
+ * A, slack coiled there, and where the marker is (WGS 84 degrees, optional),
+ * from which a best location is placed on the map.
+ */
 export function MarkerEditor({ run, unit }: { run: CableRunView; unit: LengthUnit }) {
   const toRow = (m: CableRunView['markers'][number]): Row => ({
     label: m.label,
@@ -25,6 +42,8 @@ export function MarkerEditor({ run, unit }: { run: CableRunView; unit: LengthUni
     chainage: lengthForInput(m.chainageM, unit),
     slack: lengthForInput(m.slackM, unit),
     notes: m.notes ?? '',
+    latitude: m.latitude === null ? '' : String(m.latitude),
+    longitude: m.longitude === null ? '' : String(m.longitude),
   });
   const [rows, setRows] = useState<Row[]>(run.markers.map(toRow));
   const save = useSaveMarkers();
@@ -39,6 +58,8 @@ export function MarkerEditor({ run, unit }: { run: CableRunView; unit: LengthUni
         chainageM: fromUnit(Number(r.chainage), unit),
         slackM: fromUnit(Number(r.slack || 0), unit),
         notes: r.notes,
+        latitude: degrees(r.latitude),
+        longitude: degrees(r.longitude),
       })),
     });
   return (
@@ -72,6 +93,16 @@ export function MarkerEditor({ run, unit }: { run: CableRunView; unit: LengthUni
             <Button variant="ghost" className="self-end" aria-label={`Remove marker ${r.label || i + 1}`} onClick={() => setRows(rows.filter((_, j) => j !== i))}>
               Remove
             </Button>
+            <div className="col-span-full grid grid-cols-2 gap-2 sm:grid-cols-4">
+              <label className="text-xs text-mist">
+                Latitude (°, optional)
+                <input className={CELL} inputMode="decimal" placeholder="e.g. 52.204310" value={r.latitude} aria-invalid={!!errors[`markers.${i}.latitude`]} onChange={(e) => edit(i, { latitude: e.target.value })} />
+              </label>
+              <label className="text-xs text-mist">
+                Longitude (°, optional)
+                <input className={CELL} inputMode="decimal" placeholder="e.g. -1.512870" value={r.longitude} aria-invalid={!!errors[`markers.${i}.longitude`]} onChange={(e) => edit(i, { longitude: e.target.value })} />
+              </label>
+            </div>
             {Object.entries(errors)
               .filter(([k]) => k.startsWith(`markers.${i}.`))
               .map(([k, m]) => (
@@ -83,7 +114,7 @@ export function MarkerEditor({ run, unit }: { run: CableRunView; unit: LengthUni
         ))}
       </div>
       <div className="flex flex-wrap gap-2">
-        <Button variant="secondary" onClick={() => setRows([...rows, { label: '', kind: 'manhole', chainage: '', slack: '0', notes: '' }])}>
+        <Button variant="secondary" onClick={() => setRows([...rows, { label: '', kind: 'manhole', chainage: '', slack: '0', notes: '', latitude: '', longitude: '' }])}>
           Add marker
         </Button>
         <Button onClick={submit} disabled={save.isPending}>

@@ -1,0 +1,133 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { bestLocationFor } from '../../server/findings/best-location';
+import { CableRun, Finding, Measurement, TicketFinding, Trace, User } from '../../server/db/models';
+import type { BestLocationView } from '../../shared/schemas/measurements';
+import { formatLength, formatLengthRange } from '../../shared/units/format-length';
+import path from 'node:path';
+import type { Locator } from 'playwright-core';
+import { DESKTOP, PHONE, SCREENSHOT_DIR, signIn, startE2E, type E2E } from './support/browser';
+
+/** One part of a page at full size, to look at closely. */
+const shoot = (part: Locator, name: string) => part.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`) });
+
+/**
+ * The demo's Feeder HN-3 fault, located three ways: a trace from end A, one
+ * from end B and a Murray loop reading (server/db/demo/locate.ts), on one
+ * repair ticket assigned to the second technician.
+ */
+let e2e: E2E;
+let findingA: number;
+let ticketId: number;
+let best: BestLocationView;
+
+beforeAll(async () => {
+  e2e = await startE2E();
+  const run = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
+  const findings = await Finding.findAll({ where: { cableRunId: run.id, status: 'confirmed' }, order: [['id', 'ASC']] });
+  const traces = await Trace.findAll({ where: { id: findings.map((f) => f.traceId) } });
+  findingA = findings.find((f) => traces.find((t) => t.id === f.traceId)!.end === 'A')!.id;
+  ticketId = (await TicketFinding.findOne({ where: { findingId: findingA } }))!.ticketId;
+  best = (await bestLocationFor(findingA))!;
+});
+afterAll(async () => {
+  await e2e?.stop();
+});
+
+describe('the best location in the browser', () => {
+  it('leads the finding page with the fused location, its window and the readings behind it', async () => {
+    const page = await e2e.newPage(DESKTOP);
+    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/findings/${findingA}`);
+    const headline = page.getByTestId('best-distance');
+    await headline.waitFor();
+    // The fault the simulator put 612 m from end A (scripts/make-demo-traces.ts), read by two traces and a bridge.
+    expect(best.distanceFromAM!).toBeGreaterThan(600);
+    expect(best.distanceFromAM!).toBeLessThan(624);
+    expect(await headline.textContent()).toBe(formatLength(best.distanceFromAM, 'm'));
+    const win = await page.getByTestId('best-window').textContent();
+    expect(win).toContain(formatLengthRange(best.windowStartM!, best.windowEndM!, 'm'));
+    expect(win).toContain(`± ${formatLength(best.standardUncertaintyM, 'm')}`);
+    const from = await page.getByTestId('best-methods').textContent();
+    expect(from).toMatch(/TDR from both ends \(findings \d+ and \d+\), \d+ %/);
+    expect(from).toMatch(/Murray loop from end A \(reading \d+\), \d+ %/);
+    expect(await page.getByTestId('best-verdict').textContent()).toMatch(/^The 2 readings agree/);
+    expect(await page.getByTestId('best-route-position').textContent()).toMatch(/SP-1/);
+    // Every reading in the table, the single-ended ones shown but counted through the two-ended one.
+    const rows = page.getByTestId('location-methods').locator('tbody tr');
+    expect(await rows.count()).toBe(4);
+    expect(await page.getByTestId('location-methods').textContent()).toContain('counted through the two-ended reading');
+    await page.getByTestId('route-strip').locator('svg').waitFor();
+    expect(await page.getByTestId('ground-note').textContent()).toMatch(/No route marker of this run has coordinates/);
+    await e2e.screenshot(page, 'best-location-finding-desktop');
+    await shoot(page.getByTestId('best-location'), 'best-location-headline-desktop');
+    await page.close();
+  });
+
+  it('lets a technician record a bridge reading on a phone, with the safety caution, and withdraw it', async () => {
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'tech@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/findings/${findingA}`);
+    await page.getByTestId('best-distance').waitFor();
+    await e2e.screenshot(page, 'best-location-finding-phone');
+    await shoot(page.getByTestId('best-location'), 'best-location-headline-phone');
+    await shoot(page.getByTestId('location-methods-list'), 'best-location-methods-phone');
+    await page.getByRole('button', { name: 'Record a bridge, capacitance or resistance reading' }).click();
+    const form = page.getByRole('form', { name: 'Record a reading' });
+    await form.waitFor();
+    expect(await page.getByRole('note', { name: 'Safety caution' }).count()).toBeGreaterThanOrEqual(2);
+    await form.getByLabel('Method').selectOption('murray');
+    await form.getByLabel('Ratio at balance, Q/(P+Q)').fill('0.341');
+    await form.getByLabel('Material').selectOption('aluminium');
+    await form.getByLabel('Size (mm²)').selectOption('185');
+    await form.getByLabel('Conductor temperature (°C)').fill('9');
+    await form.getByLabel('Instrument').fill('Loop bridge LB-3, serial 0117');
+    await shoot(form, 'best-location-reading-form-phone');
+    await form.getByRole('button', { name: 'Record the reading' }).click();
+    const item = page.getByTestId('measurement').filter({ hasText: 'in use' }).filter({ hasText: '613.8 m' });
+    // 0.341 of a loop of two equal 900 m cores: 0.341 × 1800 = 613.8 m from end A (hand-worked).
+    await item.waitFor();
+    expect(await Measurement.count({ where: { findingId: findingA, status: 'active' } })).toBe(2);
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(PHONE.width);
+    await item.getByRole('button', { name: 'Withdraw' }).click();
+    await item.getByLabel('Why it is withdrawn').fill('Entered to try the form');
+    await item.getByRole('button', { name: 'Withdraw the reading' }).click();
+    await page.getByTestId('measurement').filter({ hasText: 'withdrawn' }).filter({ hasText: 'Entered to try the form' }).waitFor();
+    expect(await Measurement.count({ where: { findingId: findingA, status: 'active' } })).toBe(1);
+    // Back to the demo's own readings: the headline as before.
+    await page.getByText(formatLength(best.distanceFromAM, 'm'), { exact: true }).first().waitFor();
+    await page.close();
+  });
+
+  it('prints the crew sheet with the fused location in the crew’s unit, feet included', async () => {
+    await User.update({ unitPreference: 'ft' }, { where: { email: 'tech2@example.com' } });
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'tech2@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/tickets/${ticketId}/sheet`);
+    const sheet = page.getByTestId('sheet-best-location');
+    await sheet.getByTestId('best-distance').waitFor().catch(async (err: unknown) => {
+      await e2e.screenshot(page, 'best-location-sheet-failed');
+      throw err;
+    });
+    // 612 m is about 2008 ft (international foot, 0.3048 m exactly); four figures carry no decimals.
+    const feet = formatLength(best.distanceFromAM, 'ft');
+    expect(feet).toMatch(/^20\d\d ft$/);
+    expect(await sheet.getByTestId('best-distance').textContent()).toBe(feet);
+    expect(await sheet.getByTestId('best-window').textContent()).toContain(formatLengthRange(best.windowStartM!, best.windowEndM!, 'ft'));
+    // Both findings of the fault share one best location: it is printed once.
+    expect(await sheet.getByTestId('best-distance').count()).toBe(1);
+    expect(await sheet.textContent()).not.toMatch(/\d m\b/);
+    await page.getByTestId('sheet-trace').first().locator('canvas').waitFor();
+    await e2e.screenshot(page, 'best-location-sheet-phone-feet');
+    await shoot(sheet, 'best-location-sheet-headline-phone-feet');
+    await page.setViewportSize(DESKTOP);
+    await page.emulateMedia({ media: 'print' });
+    expect(await page.getByRole('note', { name: 'Safety caution' }).isVisible()).toBe(true);
+    expect(await sheet.getByTestId('best-distance').isVisible()).toBe(true);
+    expect(await page.getByTestId('geo-link').count()).toBe(0);
+    await e2e.screenshot(page, 'best-location-sheet-print');
+    await page.close();
+  });
+});
