@@ -158,7 +158,7 @@ export async function listFindings(q: z.output<typeof FindingListQuerySchema>): 
     ...(q.traceId ? { traceId: q.traceId } : {}),
     ...(q.status ? { status: q.status } : {}),
     // Text search: the note, the kind and the route position sentence.
-    ...(q.q ? idsContaining(Finding.sequelize!, 'findings', ['note', 'kind', 'route_position_text'], q.q) : {}),
+    ...(q.q ? { [Op.and]: [idsContaining(Finding, ['note', 'kind', 'route_position_text'], q.q)] } : {}),
   };
   const { rows, count } = await Finding.findAndCountAll({
     where,

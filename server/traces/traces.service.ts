@@ -338,7 +338,7 @@ export async function listTraces(q: z.output<typeof TraceListQuerySchema>): Prom
   if (q.uploadedById) and.push({ uploadedById: q.uploadedById });
   if (q.from) and.push({ createdAt: { [Op.gte]: new Date(`${q.from}T00:00:00Z`) } });
   if (q.to) and.push({ createdAt: { [Op.lt]: new Date(new Date(`${q.to}T00:00:00Z`).getTime() + 86_400_000) } });
-  if (q.q) and.push(idsContaining(Trace.sequelize!, 'traces', ['original_name'], q.q));
+  if (q.q) and.push(idsContaining(Trace, ['original_name'], q.q));
   if (and.length) Object.assign(where, { [Op.and]: and });
   const { rows, count } = await Trace.findAndCountAll({
     where,

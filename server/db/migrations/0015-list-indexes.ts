@@ -14,8 +14,8 @@ const INDEXES: Array<[name: string, table: string, columns: string[]]> = [
   ['traces_list_status_created', 'traces', ['archived_at', 'status', 'created_at']],
   ['traces_list_end', 'traces', ['archived_at', 'end']],
   ['traces_list_end_created', 'traces', ['archived_at', 'end', 'created_at']],
-  ['traces_uploader_created', 'traces', ['uploaded_by_id', 'created_at']],
-  ['traces_run_created', 'traces', ['cable_run_id', 'created_at']],
+  ['traces_uploader_created', 'traces', ['uploaded_by_id', 'archived_at', 'created_at']],
+  ['traces_run_created', 'traces', ['cable_run_id', 'archived_at', 'created_at']],
   // Finding list: each sort, and each filter with the default sort.
   ['findings_confirmed', 'findings', ['confirmed_at']],
   ['findings_distance', 'findings', ['distance_m']],
@@ -24,6 +24,8 @@ const INDEXES: Array<[name: string, table: string, columns: string[]]> = [
   ['findings_site_confirmed', 'findings', ['site_id', 'confirmed_at']],
   ['findings_run_confirmed', 'findings', ['cable_run_id', 'confirmed_at']],
   ['findings_confirmed_by', 'findings', ['confirmed_by_id']],
+  // Text search reads these columns from the index, not from whole rows.
+  ['findings_text', 'findings', ['note', 'kind', 'route_position_text']],
   // Foreign keys without an index of their own.
   ['cable_type_changes_changed_by', 'cable_type_changes', ['changed_by_id']],
   ['cable_calibrations_submitted_by', 'cable_calibrations', ['submitted_by_id']],
