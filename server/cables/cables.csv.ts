@@ -55,7 +55,8 @@ export async function exportCsv(): Promise<string> {
         return typeof value === 'string' ? protectCell(value) : value;
       }),
     ),
-    { header: true, columns: CABLE_FIELDS.map((f) => CSV_COLUMNS[f]) },
+    // The byte-order mark tells a spreadsheet the file is UTF-8, so Ω, μ and – open as written.
+    { header: true, bom: true, columns: CABLE_FIELDS.map((f) => CSV_COLUMNS[f]) },
   );
 }
 
@@ -86,23 +87,43 @@ function fileError(message: string, line?: number): AppError {
   return new AppError(422, 'csv_unreadable', message, line ? { fields: [{ field: 'file', message, line }] } : { fields: [{ field: 'file', message }] });
 }
 
-function readRecords(text: string) {
+/**
+ * The cell separator: a comma, or a semicolon as spreadsheets write CSV
+ * where the comma is the decimal mark. Decided from the header line, outside
+ * quotes: whichever of the two it has more of.
+ */
+export function csvDelimiter(text: string): ',' | ';' {
+  const header = (text.replace(/^\uFEFF/, '').split(/\r?\n/, 1)[0] ?? '').replace(/"[^"]*"/g, '');
+  const count = (c: string) => header.split(c).length - 1;
+  return count(';') > count(',') ? ';' : ',';
+}
+
+/** What a CSV reading error means, in words a planner can act on. */
+const CSV_TROUBLE: Record<string, string> = {
+  CSV_QUOTE_NOT_CLOSED: 'a double quote (") opens a cell and is never closed; look for a stray quote on this line or above',
+  CSV_INVALID_CLOSING_QUOTE: 'a quoted cell goes on after its closing quote; inside quotes, write a quote mark twice ("")',
+  CSV_NON_TRIMABLE_CHAR_AFTER_CLOSING_QUOTE: 'a quoted cell goes on after its closing quote; inside quotes, write a quote mark twice ("")',
+  INVALID_OPENING_QUOTE: 'a quote mark appears inside a cell that does not start with one; put the whole cell in quotes and write the quote mark twice ("")',
+};
+
+function readRecords(text: string, delimiter: ',' | ';') {
   if (text.includes('\u0000')) throw fileError('The file is not a text CSV file.');
   try {
-    return parse(text, { bom: true, skip_empty_lines: true, trim: true, info: true, relax_column_count: true }) as unknown as Array<{
+    return parse(text, { bom: true, delimiter, skip_empty_lines: true, trim: true, info: true, relax_column_count: true }) as unknown as Array<{
       record: string[];
       info: { lines: number };
     }>;
   } catch (err) {
     if (err instanceof CsvError) {
       const line = (err as CsvError & { lines?: number }).lines;
-      throw fileError(`The CSV cannot be read${line ? ` at line ${line}` : ''}: ${err.message}`, line);
+      const why = CSV_TROUBLE[err.code] ?? 'its cells are not laid out as CSV (one row per line, cells separated by commas or semicolons)';
+      throw fileError(`The file cannot be read${line ? ` at line ${line}` : ''}: ${why}.`, line);
     }
     throw err;
   }
 }
 
-function cellToValue(field: CableField, cell: string): { value?: unknown; error?: string } {
+function cellToValue(field: CableField, cell: string, decimalComma: boolean): { value?: unknown; error?: string } {
   const raw = NUMERIC.includes(field) ? cell : unprotectCell(cell);
   if (field === 'attenuation' || field === 'pulseVfs') {
     const read = field === 'attenuation' ? parseAttenuationList(raw) : parsePulseVfList(raw);
@@ -110,6 +131,8 @@ function cellToValue(field: CableField, cell: string): { value?: unknown; error?
   }
   if (raw === '') return NULLABLE.includes(field) ? { value: null } : { error: 'is required' };
   if (!NUMERIC.includes(field)) return { value: raw };
+  // In a semicolon file the comma is the decimal mark ("0,66"); in a comma file it cannot be.
+  if (decimalComma && /^[-+]?\d+,\d+([eE][-+]?\d+)?$/.test(raw)) return cellToValue(field, raw.replace(',', '.'), false);
   if (/^\d+,\d+$/.test(raw)) return { error: `"${raw}" must be a number with a point for decimals` };
   if (!NUMBER_RE.test(raw)) return { error: `"${raw}" is not a number` };
   const n = Number(raw);
@@ -119,7 +142,8 @@ function cellToValue(field: CableField, cell: string): { value?: unknown; error?
 
 /** Parses and checks every row against the schema and the library; writes nothing. */
 export async function parseImport(text: string, transaction?: Transaction): Promise<ParsedRow[]> {
-  const records = readRecords(text);
+  const delimiter = csvDelimiter(text);
+  const records = readRecords(text, delimiter);
   if (records.length === 0) throw fileError('The file is empty: it needs a header row and at least one cable type.');
   const header = records[0].record.map((h) => h.trim().toLowerCase());
   const headerFields = header.map((h) => COLUMN_TO_FIELD.get(h));
@@ -153,7 +177,7 @@ export async function parseImport(text: string, transaction?: Transaction): Prom
     const stored = byName.get(name.trim().toLowerCase());
     if (stored) for (const f of KEPT_WHEN_ABSENT) if (!headerFields.includes(f)) candidate[f] = stored[f];
     headerFields.forEach((field, i) => {
-      const { value, error } = cellToValue(field!, record[i]);
+      const { value, error } = cellToValue(field!, record[i], delimiter === ';');
       if (error) errors.push({ field: CSV_COLUMNS[field!], message: error, line });
       else candidate[field!] = value;
     });

@@ -47,7 +47,7 @@ afterAll(() => api.close());
 
 async function exportRows() {
   const res = await planner.get('/api/cables/export').expect(200);
-  return { text: res.text, rows: parse(res.text, { columns: true }) as Array<Record<string, string>> };
+  return { text: res.text, rows: parse(res.text, { columns: true, bom: true }) as Array<Record<string, string>> };
 }
 
 describe('GET /api/cables/export', () => {

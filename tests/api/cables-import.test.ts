@@ -221,7 +221,7 @@ describe('GET /api/cables/export', () => {
     const res = await tech.get('/api/cables/export').expect(200);
     expect(res.headers['content-type']).toMatch(/^text\/csv/);
     expect(res.headers['content-disposition']).toMatch(/^attachment; filename="?cable-library-\d{4}-\d{2}-\d{2}\.csv"?$/);
-    const rows = parse(res.text, { columns: true }) as Array<Record<string, string>>;
+    const rows = parse(res.text, { columns: true, bom: true }) as Array<Record<string, string>>;
     expect(Object.keys(rows[0])).toEqual([
       ...HEADER.split(','),
       'attenuation_points',

@@ -51,7 +51,8 @@ export function CableImportPage() {
             onChange={(e) => choose(e.target.files?.[0] ?? null)}
           />
           <p className="mt-2 text-xs text-mist">
-            Columns: {COLUMNS}. SI units; tolerance as a fraction (0.02 for ±2 %). Rows are matched to the library by name. The{' '}
+            Columns: {COLUMNS}. Cells separated by commas, or by semicolons with a decimal comma as many spreadsheets save them. SI units; tolerance as a fraction
+            (0.02 for ±2 %). Rows are matched to the library by name. The{' '}
             <a href={CABLE_EXPORT_URL} className="text-teal underline" download>
               export
             </a>{' '}
@@ -122,7 +123,7 @@ export function CableImportPage() {
                         <ul className="space-y-0.5 text-danger">
                           {r.errors.map((e, i) => (
                             <li key={i}>
-                              <span className="font-semibold">{e.field}</span> {e.message}
+                              <span className="font-semibold">{e.field === '(row)' ? 'The row' : `Column ${e.field}`}</span> {e.message}
                             </li>
                           ))}
                         </ul>
