@@ -44,7 +44,7 @@ export function groundText(best: BestLocationView, unit: LengthUnit): { text: st
   const uri = geoUri(g.point, g.radiusM);
   const [lat, lon] = uri.slice(4).split(/[,;]/);
   return {
-    text: `${lat}, ${lon}, within ${formatLength(g.radiusM, unit)} (between ${g.fromLabel} and ${g.toLabel}, estimated from the markers' coordinates)`,
+    text: `${lat}, ${lon}, within ${formatLength(g.radiusM, unit)} (${g.fromLabel === g.toLabel ? `at ${g.fromLabel}` : `between ${g.fromLabel} and ${g.toLabel}`}, estimated from the markers' coordinates)`,
     uri,
   };
 }

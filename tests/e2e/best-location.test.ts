@@ -1,8 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { bestLocationFor } from '../../server/findings/best-location';
-import { CableRun, Finding, Measurement, TicketFinding, Trace, User } from '../../server/db/models';
+import { CableRun, Finding, Measurement, RouteMarker, TicketFinding, Trace, User } from '../../server/db/models';
 import type { BestLocationView } from '../../shared/schemas/measurements';
 import { formatLength, formatLengthRange } from '../../shared/units/format-length';
+import fs from 'node:fs';
 import path from 'node:path';
 import type { Locator } from 'playwright-core';
 import { DESKTOP, PHONE, SCREENSHOT_DIR, signIn, startE2E, type E2E } from './support/browser';
@@ -128,6 +129,50 @@ describe('the best location in the browser', () => {
     expect(await sheet.getByTestId('best-distance').isVisible()).toBe(true);
     expect(await page.getByTestId('geo-link').count()).toBe(0);
     await e2e.screenshot(page, 'best-location-sheet-print');
+    await page.close();
+  });
+
+  it('places the location on the map once the markers carry coordinates, with a geo: link and a GPX file', async () => {
+    const run = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
+    const page = await e2e.newPage(DESKTOP);
+    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/sites/${run.siteId}/runs/${run.id}`);
+    await page.getByRole('heading', { name: 'Route markers' }).waitFor();
+    // Invented test coordinates on one meridian: RC-1 (chainage 455 m), SP-1 (600 m) and P-7 (760 m), spaced as the
+    // route: 145 m = 0.001304° and 160 m = 0.001439° of a meridian (111 194.93 m per degree, hand-worked).
+    const lat = page.getByLabel('Latitude (°, optional)');
+    const lon = page.getByLabel('Longitude (°, optional)');
+    const place = async (i: number, la: string, lo: string) => {
+      await lat.nth(i).fill(la);
+      await lon.nth(i).fill(lo);
+    };
+    await place(2, '-29.998696', '-15');
+    await place(3, '-30', '-15');
+    // First P-7 typed 0.1° off: 11 km from SP-1 for 160 m of route. Refused, naming the marker.
+    await place(4, '-30.1', '-15');
+    await page.getByRole('button', { name: 'Save markers' }).click();
+    await page.getByText(/marker P-7 is 11\d\d\d m from SP-1 in a straight line but only 160\.0 m further along the route/).first().waitFor();
+    await place(4, '-30.001439', '-15');
+    await page.getByRole('button', { name: 'Save markers' }).click();
+    await expect.poll(async () => (await RouteMarker.findOne({ where: { cableRunId: run.id, label: 'P-7' } }))?.latitude).toBe(-30.001439);
+    await lat.nth(4).waitFor();
+    expect(await lat.nth(4).inputValue()).toBe('-30.001439');
+    await e2e.screenshot(page, 'best-location-markers-desktop');
+
+    await page.goto(`${e2e.baseUrl}/findings/${findingA}`);
+    await page.getByTestId('ground').waitFor();
+    const mapped = (await bestLocationFor(findingA))!;
+    // The fault is in SP-1's slack coil: on the ground it is at SP-1 itself, −30°, −15° (hand-worked).
+    expect(mapped.ground!.point.latitude).toBeCloseTo(-30, 9);
+    expect(await page.getByTestId('ground-text').textContent()).toMatch(/^-30\.000000, -15\.000000, within \d+\.\d m \(at SP-1, estimated/);
+    expect(await page.getByTestId('geo-link').getAttribute('href')).toBe(`geo:-30.000000,-15.000000;u=${Math.ceil(mapped.ground!.radiusM)}`);
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'GPX file' }).click()]);
+    expect(download.suggestedFilename()).toBe(`finding-${findingA}-location.gpx`);
+    const gpx = fs.readFileSync((await download.path())!, 'utf8');
+    expect(gpx).toContain('<wpt lat="-30.000000" lon="-15.000000">');
+    expect(gpx).toContain('<name>SP-1</name>');
+    await shoot(page.getByTestId('best-location'), 'best-location-headline-mapped-desktop');
     await page.close();
   });
 });

@@ -26,10 +26,11 @@ export async function seedDemo(ctx: AppContext): Promise<boolean> {
   });
   // Traces go through the upload service, which keeps its own transaction per upload.
   const field = await seedFieldTraces(ctx, users, fieldRuns);
+  // One fault located three ways (two traces and a bridge reading) with its repair ticket, before the other
+  // tickets take findings of their own.
+  const located = await seedFaultLocatedThreeWays(ctx, users);
   // Tickets go through the tickets service, after the findings they are raised from.
   const repairs = await seedTickets(ctx, users);
-  // Then one fault located three ways (two traces and a bridge reading) with its repair ticket.
-  const located = await seedFaultLocatedThreeWays(ctx, users);
   ctx.log(`Demo data seeded: ${DEMO_USERS.length} users (password "${DEMO_PASSWORD}"), ${DEMO_CABLE_TYPE_NAMES.length} cable types, ${fieldRuns.length} cable runs, ${field.traces} traces, ${repairs.tickets + located.tickets} repair tickets, ${located.measurements} bridge reading.`);
   return true;
 }
