@@ -68,17 +68,24 @@ interface Waiting {
 export class AnalysisPool {
   private pool: Pool | null = null;
   private readonly waiting = new Set<Waiting>();
+  private keepOneReady = false;
 
   constructor(
     readonly budget: AnalysisBudget,
     private readonly log: (message: string, extra?: unknown) => void = () => undefined,
   ) {}
 
+  /** Start one worker now, and keep one ready, so the first upload does not wait for a worker to load the engine. */
+  warm() {
+    this.keepOneReady = true;
+    this.current();
+  }
+
   private current(): Pool {
     if (this.pool) return this.pool;
     const pool: Pool = new Piscina({
       filename: workerEntry(),
-      minThreads: 0,
+      minThreads: this.keepOneReady ? 1 : 0,
       maxThreads: this.budget.threads,
       idleTimeout: 60_000,
       resourceLimits: { maxOldGenerationSizeMb: this.budget.memoryMb, maxYoungGenerationSizeMb: Math.max(4, Math.round(this.budget.memoryMb / 8)) },

@@ -19,6 +19,7 @@ import { AppError, capMessage, isMalformedMultipart, malformedMultipartError, mu
 import { ApiRouter, handle } from '../http/api-router';
 import { IdParam } from '../http/params';
 import { findNulByte, nulByteError } from '../http/strict-input';
+import { analysisPool } from './analysis-pool';
 import { inboxDir } from './trace-store';
 import * as traces from './traces.service';
 
@@ -133,6 +134,8 @@ async function uploadAnswer(ctx: AppContext, res: Response, outcome: traces.Uplo
 }
 
 export function traceRoutes(ctx: AppContext) {
+  // A running server keeps an analysis worker ready; tests start theirs on the first upload.
+  if (ctx.config.env !== 'test') analysisPool(ctx).warm();
   const r = new ApiRouter('/api/traces');
   r.get('/', 'traces:read', handle((req) => traces.listTraces(TraceListQuerySchema.parse(req.query))));
   r.post(
