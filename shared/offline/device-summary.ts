@@ -9,7 +9,10 @@ const mm = (m: number) => Math.round(m * 1000) / 1000;
  * The summary a phone sends with an upload it analysed itself: the engine
  * version and library values it used, and where it put the first events.
  */
-export function summariseDeviceAnalysis(analysis: TraceAnalysis, opts: { analysedAt: Date; cableTypeRevision: number | null }): DeviceAnalysis {
+export function summariseDeviceAnalysis(
+  analysis: TraceAnalysis,
+  opts: { analysedAt: Date; cableTypeRevision: number | null },
+): DeviceAnalysis {
   return {
     engineVersion: analysis.engineVersion,
     analysedAt: opts.analysedAt.toISOString(),
@@ -50,7 +53,10 @@ export interface DeviceComparison {
  * They differ when the library's values changed while the phone was offline,
  * or when the phone ran another engine version.
  */
-export function compareWithServer(device: DeviceAnalysis, server: Pick<TraceAnalysis, 'engineVersion' | 'vf' | 'vfTolerance' | 'events'>): DeviceComparison {
+export function compareWithServer(
+  device: DeviceAnalysis,
+  server: Pick<TraceAnalysis, 'engineVersion' | 'vf' | 'vfTolerance' | 'events'>,
+): DeviceComparison {
   const pair = <T>(a: T, b: T, differ: boolean) => (differ ? { device: a, server: b } : null);
   const events: EventDifference[] = [];
   const shown = Math.min(DEVICE_SUMMARY_MAX_EVENTS, Math.max(device.eventCount, server.events.length));

@@ -15,7 +15,12 @@ export const DEVICE_SUMMARY_MAX_EVENTS = 12;
 /** The longest JSON text accepted for the field. */
 export const DEVICE_SUMMARY_MAX_CHARS = 2000;
 
-const metres = (what: string) => z.number({ error: `must be ${what} in metres` }).finite({ error: `must be ${what} in metres` }).min(-100_000).max(1_000_000);
+const metres = (what: string) =>
+  z
+    .number({ error: `must be ${what} in metres` })
+    .finite({ error: `must be ${what} in metres` })
+    .min(-100_000)
+    .max(1_000_000);
 
 export const DeviceEventSchema = z
   .object({
@@ -29,7 +34,11 @@ export const DeviceEventSchema = z
 
 export const DeviceAnalysisSchema = z
   .object({
-    engineVersion: z.string({ error: 'must be the engine version' }).trim().min(1, 'must be the engine version').max(20, 'must be at most 20 characters'),
+    engineVersion: z
+      .string({ error: 'must be the engine version' })
+      .trim()
+      .min(1, 'must be the engine version')
+      .max(20, 'must be at most 20 characters'),
     analysedAt: z.iso.datetime({ error: 'must be a date and time (ISO 8601)' }),
     vf: z.number({ error: 'must be a velocity factor' }).gt(0, 'must be more than 0').max(1, 'must be at most 1'),
     vfTolerance: z.number({ error: 'must be a fraction' }).min(0, 'must not be negative').max(1, 'must be at most 1'),
@@ -38,7 +47,9 @@ export const DeviceAnalysisSchema = z
     cableTypeRevision: z.number().int().min(0).nullable(),
     /** Every event the phone found; `events` holds the first few of them. */
     eventCount: z.number({ error: 'must be a count' }).int().min(0).max(100_000),
-    events: z.array(DeviceEventSchema, { error: 'must be a list of events' }).max(DEVICE_SUMMARY_MAX_EVENTS, `must have at most ${DEVICE_SUMMARY_MAX_EVENTS} events`),
+    events: z
+      .array(DeviceEventSchema, { error: 'must be a list of events' })
+      .max(DEVICE_SUMMARY_MAX_EVENTS, `must have at most ${DEVICE_SUMMARY_MAX_EVENTS} events`),
   })
   .strict();
 export type DeviceAnalysis = z.output<typeof DeviceAnalysisSchema>;

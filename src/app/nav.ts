@@ -14,6 +14,7 @@ export interface NavItem {
 export const NAV: NavItem[] = [
   { label: 'Today', short: 'Today', to: paths.home.to() },
   { label: 'Upload trace', short: 'Upload', to: paths.upload.to(), permission: 'traces:upload' },
+  { label: 'On this phone', short: 'Phone', to: paths.device.to(), permission: 'traces:upload' },
   { label: 'Traces', to: paths.traces.to(), permission: 'traces:read' },
   { label: 'Findings', to: paths.findings.to(), permission: 'findings:read' },
   { label: 'Tickets', to: paths.tickets.to(), permission: 'tickets:read' },

@@ -14,6 +14,8 @@ export const paths = {
   ticketSheet: { pattern: '/tickets/:ticketId/sheet', to: (ticketId: number) => `/tickets/${ticketId}/sheet` },
   dashboard: { pattern: '/dashboard', to: () => '/dashboard' },
   upload: { pattern: '/upload', to: () => '/upload' },
+  device: { pattern: '/device', to: () => '/device' },
+  deviceAnalyse: { pattern: '/device/analyse', to: (itemId?: string) => (itemId ? `/device/analyse?item=${encodeURIComponent(itemId)}` : '/device/analyse') },
   traces: { pattern: '/traces', to: () => '/traces' },
   trace: { pattern: '/traces/:traceId', to: (traceId: number) => `/traces/${traceId}` },
   findings: { pattern: '/findings', to: () => '/findings' },

@@ -27,7 +27,12 @@ describe('POST /api/traces with the phone’s own analysis', () => {
   afterAll(() => api?.close());
 
   const send = (csv: Buffer, name: string, deviceAnalysis: string, key?: string) => {
-    const req = tech.postRaw('/api/traces').field('cableRunId', String(runId)).field('end', 'A').field('deviceAnalysis', deviceAnalysis).attach('file', csv, name);
+    const req = tech
+      .postRaw('/api/traces')
+      .field('cableRunId', String(runId))
+      .field('end', 'A')
+      .field('deviceAnalysis', deviceAnalysis)
+      .attach('file', csv, name);
     return key ? req.set('Idempotency-Key', key) : req;
   };
 
@@ -75,7 +80,9 @@ describe('POST /api/traces with the phone’s own analysis', () => {
     const before = await Trace.count();
     const notJson = await send(csv, 'bad.csv', '{"engineVersion": "1.0.0",').expect(400);
     expect(notJson.body.error.code).toBe('invalid_input');
-    expect(notJson.body.error.fields).toEqual([{ field: 'deviceAnalysis', message: 'must be JSON text (the analysis made on the device)' }]);
+    expect(notJson.body.error.fields).toEqual([
+      { field: 'deviceAnalysis', message: 'must be JSON text (the analysis made on the device)' },
+    ]);
     const fast = { ...phoneSummary(csv, 0.66), vf: 1.4 };
     const tooFast = await send(csv, 'bad.csv', JSON.stringify(fast)).expect(400);
     expect(tooFast.body.error.fields).toEqual([{ field: 'deviceAnalysis.vf', message: 'must be at most 1' }]);
@@ -86,7 +93,12 @@ describe('POST /api/traces with the phone’s own analysis', () => {
 
   it('leaves deviceAnalysis empty on a trace uploaded from the desk', async () => {
     const csv = Buffer.from(stepTraceCsv({ faultM: 65, vf: 0.66 }));
-    const res = await tech.postRaw('/api/traces').field('cableRunId', String(runId)).field('end', 'B').attach('file', csv, 'desk.csv').expect(201);
+    const res = await tech
+      .postRaw('/api/traces')
+      .field('cableRunId', String(runId))
+      .field('end', 'B')
+      .attach('file', csv, 'desk.csv')
+      .expect(201);
     expect(res.body.traces[0].deviceAnalysis).toBeNull();
   });
 });

@@ -2,7 +2,10 @@ import { useState } from 'react';
 import { Navigate, NavLink, Outlet, useLocation, useNavigate } from 'react-router-dom';
 import { can, ROLE_LABELS } from '../../../shared/auth/permissions';
 import { useMe } from '../../features/auth/api/get-me';
-import { useLogout } from '../../features/auth/api/logout';
+import { ConnectionBar } from '../../features/offline/components/connection-bar';
+import { SignOutButton } from '../../features/offline/components/sign-out-button';
+import { UpdatePrompt } from '../../features/offline/components/update-prompt';
+import { DeviceProvider } from '../../features/offline/device-context';
 import { Loading } from '../../components/ui/notice';
 import { NAV } from '../nav';
 import { paths } from '../paths';
@@ -21,7 +24,6 @@ export function AppShell() {
   const { data: user, isPending } = useMe();
   const location = useLocation();
   const navigate = useNavigate();
-  const logout = useLogout();
   const [menuOpen, setMenuOpen] = useState(false);
 
   if (isPending) return <Loading what="Opening Rholog" />;
@@ -30,7 +32,6 @@ export function AppShell() {
   if (user.mustChangePassword && location.pathname !== paths.account.pattern) return <Navigate to={paths.account.to()} replace />;
 
   const items = NAV.filter((i) => !i.permission || can(user.role, i.permission));
-  const signOut = () => logout.mutate(undefined, { onSuccess: () => navigate(paths.signIn.to()) });
 
   const links = (
     <ul className="space-y-1" data-testid="main-nav">
@@ -61,42 +62,50 @@ export function AppShell() {
           {ROLE_LABELS[user.role]}
         </span>
       </NavLink>
-      <button type="button" onClick={signOut} className="mt-2 min-h-11 text-left text-sm font-semibold text-copper-light hover:text-white">
-        Sign out
-      </button>
+      <SignOutButton
+        onSignedOut={() => navigate(paths.signIn.to())}
+        className="mt-2 min-h-11 text-left text-sm font-semibold text-copper-light hover:text-white"
+      />
     </div>
   );
 
   return (
-    <div className="min-h-screen lg:flex">
-      <aside className="no-print hidden w-60 shrink-0 flex-col gap-6 bg-ink px-4 py-5 lg:flex">
-        <Wordmark />
-        <nav aria-label="Main" className="flex-1">
-          {links}
-        </nav>
-        {who}
-      </aside>
-      <header className="no-print sticky top-0 z-20 flex items-center justify-between bg-ink px-4 py-2 lg:hidden">
-        <Wordmark />
-        <button
-          type="button"
-          aria-expanded={menuOpen}
-          aria-controls="phone-menu"
-          onClick={() => setMenuOpen((o) => !o)}
-          className="min-h-11 min-w-11 rounded-md px-3 text-sm font-semibold text-white ring-1 ring-white/30"
-        >
-          {menuOpen ? 'Close' : 'Menu'}
-        </button>
-      </header>
-      {menuOpen && (
-        <div id="phone-menu" className="no-print fixed inset-x-0 top-[60px] z-10 space-y-4 bg-ink px-4 pb-5 pt-2 shadow-lg lg:hidden">
-          <nav aria-label="Main">{links}</nav>
+    <DeviceProvider user={user}>
+      <div className="min-h-screen lg:flex">
+        <aside className="no-print hidden w-60 shrink-0 flex-col gap-6 bg-ink px-4 py-5 lg:flex">
+          <Wordmark />
+          <nav aria-label="Main" className="flex-1">
+            {links}
+          </nav>
           {who}
-        </div>
-      )}
-      <main className="mx-auto w-full max-w-6xl flex-1 px-4 py-5 sm:px-6 lg:py-8">
-        <Outlet />
-      </main>
-    </div>
+        </aside>
+        <header className="no-print sticky top-0 z-20 flex items-center justify-between bg-ink px-4 py-2 lg:hidden">
+          <Wordmark />
+          <button
+            type="button"
+            aria-expanded={menuOpen}
+            aria-controls="phone-menu"
+            onClick={() => setMenuOpen((o) => !o)}
+            className="min-h-11 min-w-11 rounded-md px-3 text-sm font-semibold text-white ring-1 ring-white/30"
+          >
+            {menuOpen ? 'Close' : 'Menu'}
+          </button>
+        </header>
+        {menuOpen && (
+          <div
+            id="phone-menu"
+            className="no-print fixed inset-x-0 top-[60px] z-10 space-y-4 bg-ink px-4 pb-5 pt-2 shadow-lg lg:hidden"
+          >
+            <nav aria-label="Main">{links}</nav>
+            {who}
+          </div>
+        )}
+        <main className="mx-auto w-full max-w-6xl flex-1 px-4 py-5 sm:px-6 lg:py-8">
+          <UpdatePrompt />
+          <ConnectionBar devicePath={paths.device.to()} />
+          <Outlet />
+        </main>
+      </div>
+    </DeviceProvider>
   );
 }

@@ -8,6 +8,7 @@ import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useSession } from '../../features/auth/use-session';
 import { DecideEvent } from '../../features/findings/components/decide-event';
 import { DistanceBlock, placeEvent } from '../../features/findings/components/where-to-dig';
+import { DeviceComparisonNotice } from '../../features/offline/components/device-comparison';
 import { useTrace } from '../../features/traces/api/get-trace';
 import { useReanalyseTrace } from '../../features/traces/api/reanalyse-trace';
 import { useSetReference } from '../../features/traces/api/set-reference';
@@ -122,6 +123,7 @@ export function TracePage() {
           , with the library values of {formatDateTime(t.createdAt)}.
         </Notice>
       )}
+      <DeviceComparisonNotice trace={t} unit={unit} />
       {t.libraryChangedSince && (
         <Notice tone="warn" title="The cable library has changed since this analysis" className="mb-4">
           <p>

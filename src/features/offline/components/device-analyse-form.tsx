@@ -1,0 +1,273 @@
+import { useRef, useState, type FormEvent } from 'react';
+import { TraceUploadSchema, type TraceSettings } from '../../../../shared/schemas/traces';
+import { summariseDeviceAnalysis } from '../../../../shared/offline/device-summary';
+import { Button } from '../../../components/ui/button';
+import { Card } from '../../../components/ui/card';
+import { SelectField, TextField } from '../../../components/ui/field';
+import { Notice } from '../../../components/ui/notice';
+import { countOf, formatLength, fromUnit, type LengthUnit } from '../../../lib/format';
+import { analyseOnDevice } from '../analyse-on-device';
+import { analysisCableOf } from '../cable-values';
+import { useDevice } from '../device-context';
+import type { UploadItem } from '../outbox-machine';
+
+const LAST = 'rholog.device.last';
+
+function remembered(): { siteId?: string; runId?: string; end?: 'A' | 'B' } {
+  try {
+    return JSON.parse(localStorage.getItem(LAST) ?? '{}');
+  } catch {
+    return {};
+  }
+}
+
+/** The test lead typed in the reader's unit, sent in metres; text that is not a number goes as typed, to be named. */
+function leadInMetres(typed: string, unit: LengthUnit): string {
+  const v = Number(typed.trim().replace(',', '.'));
+  return typed.trim() !== '' && Number.isFinite(v) ? String(fromUnit(v, unit)) : typed;
+}
+
+/** A fresh idempotency key for one upload: it stays with the file through every try. */
+const newKey = () => `device-${crypto.randomUUID()}`;
+
+/**
+ * Where the trace was taken and which file: read from the field data kept on
+ * the phone, analysed here by the engine in a worker, and put in the outbox
+ * with its settings and the raw bytes.
+ */
+export function DeviceAnalyseForm({ unit, onAnalysed }: { unit: LengthUnit; onAnalysed: (id: string) => void }) {
+  const d = useDevice();
+  const last = remembered();
+  const [siteId, setSiteId] = useState(last.siteId ?? '');
+  const [runId, setRunId] = useState(last.runId ?? '');
+  const [end, setEnd] = useState<'A' | 'B' | ''>(last.end ?? '');
+  const [file, setFile] = useState<File | null>(null);
+  const [settings, setSettings] = useState({
+    mode: 'auto',
+    pulseWidthNs: '',
+    zeroOffsetNs: '',
+    leadLengthM: '',
+    sampleIntervalNs: '',
+  });
+  const [errors, setErrors] = useState<Record<string, string>>({});
+  const [busy, setBusy] = useState(false);
+  const [failure, setFailure] = useState<string | null>(null);
+  const input = useRef<HTMLInputElement>(null);
+
+  const sites = d.field?.sites ?? [];
+  const runs = (d.field?.runs ?? []).filter((r) => String(r.siteId) === siteId);
+  const run = runs.find((r) => String(r.id) === runId);
+  const cable = run ? d.field?.cables.find((c) => c.id === run.cableTypeId) : undefined;
+
+  const submit = async (e: FormEvent) => {
+    e.preventDefault();
+    if (!run || !end || !file || !cable) return;
+    const fields: Record<string, string> = {
+      cableRunId: String(run.id),
+      end,
+      ...settings,
+      leadLengthM: leadInMetres(settings.leadLengthM, unit),
+    };
+    // The server's own rules for the form, so what the phone accepts the server accepts too.
+    const checked = TraceUploadSchema.safeParse(fields);
+    if (!checked.success) {
+      setErrors(Object.fromEntries(checked.error.issues.map((i) => [String(i.path[0]), i.message])));
+      return;
+    }
+    setErrors({});
+    setFailure(null);
+    setBusy(true);
+    try {
+      localStorage.setItem(LAST, JSON.stringify({ siteId, runId, end }));
+      const v = checked.data;
+      const traceSettings: TraceSettings = { mode: v.mode };
+      if (v.pulseWidthNs !== undefined) traceSettings.pulseWidthNs = v.pulseWidthNs;
+      if (v.zeroOffsetNs !== undefined) traceSettings.zeroOffsetNs = v.zeroOffsetNs;
+      if (v.leadLengthM !== undefined) traceSettings.leadLengthM = v.leadLengthM;
+      if (v.sampleIntervalNs !== undefined) traceSettings.sampleIntervalNs = v.sampleIntervalNs;
+      const bytes = await file.arrayBuffer();
+      const done = await analyseOnDevice(bytes, traceSettings, analysisCableOf(cable));
+      const analysis = done.outcome.analysis;
+      const now = new Date();
+      const item: UploadItem = {
+        kind: 'upload',
+        id: crypto.randomUUID(),
+        key: newKey(),
+        userId: d.user.id,
+        userName: d.user.name,
+        createdAt: now.toISOString(),
+        state: 'queued',
+        attempts: 0,
+        lastAttemptAt: null,
+        nextAttemptAt: null,
+        problem: null,
+        sentAt: null,
+        fileName: file.name,
+        bytes,
+        sizeBytes: bytes.byteLength,
+        fields: Object.fromEntries(Object.entries(fields).filter(([, value]) => value !== '')),
+        where: {
+          siteId: run.siteId,
+          siteName: run.siteName,
+          cableRunId: run.id,
+          cableRunName: run.name,
+          end,
+          endLabel: end === 'A' ? run.endALabel : run.endBLabel,
+        },
+        analysis,
+        deviceError: done.outcome.error?.message ?? null,
+        summary: analysis ? summariseDeviceAnalysis(analysis, { analysedAt: now, cableTypeRevision: cable.revision }) : null,
+        result: null,
+        analysedMs: done.elapsedMs,
+        sampleCount: done.sampleCount,
+      };
+      await d.enqueue([item]);
+      setFile(null);
+      onAnalysed(item.id);
+    } catch (err) {
+      setFailure((err as Error).message);
+    } finally {
+      setBusy(false);
+    }
+  };
+
+  if (!d.field) {
+    return (
+      <Notice tone="warn" title="No field data on this phone yet">
+        Open Rholog once with signal after signing in: it keeps the sites, cable runs and cable library here for working offline.
+      </Notice>
+    );
+  }
+
+  return (
+    <form onSubmit={(e) => void submit(e)} className="space-y-4" aria-label="Analyse a trace on this phone">
+      <Card title="1. Where">
+        <div className="grid gap-3 sm:grid-cols-2">
+          <SelectField label="Site" value={siteId} onChange={(e) => (setSiteId(e.target.value), setRunId(''))} required>
+            <option value="">Choose a site…</option>
+            {sites.map((s) => (
+              <option key={s.id} value={s.id}>
+                {s.name}
+              </option>
+            ))}
+          </SelectField>
+          <SelectField
+            label="Cable run"
+            value={run ? runId : ''}
+            onChange={(e) => setRunId(e.target.value)}
+            disabled={!siteId}
+            error={errors.cableRunId}
+            required
+          >
+            <option value="">{siteId ? 'Choose a cable run…' : 'Choose the site first'}</option>
+            {runs.map((r) => (
+              <option key={r.id} value={r.id}>
+                {r.name}
+              </option>
+            ))}
+          </SelectField>
+        </div>
+        {run && (
+          <p className="mt-2 text-sm text-ink-soft">
+            {cable
+              ? `${cable.name} · VF ${cable.vf.toFixed(3)} ± ${(cable.vfTolerance * 100).toFixed(1)} %`
+              : 'Its cable type is not in the library kept on this phone'}{' '}
+            · installed {formatLength(run.installedLengthM, unit)} · {countOf(run.markers.length, 'route marker')}
+          </p>
+        )}
+        <fieldset className="mt-3">
+          <legend className="text-sm font-semibold text-ink-soft">Instrument connected at</legend>
+          <div className="mt-1 grid grid-cols-2 gap-2">
+            {(['A', 'B'] as const).map((e) => (
+              <button
+                key={e}
+                type="button"
+                aria-pressed={end === e}
+                onClick={() => setEnd(e)}
+                className={`min-h-14 rounded-md border-2 px-3 py-2 text-left ${end === e ? 'border-copper bg-copper-light' : 'border-rule bg-white'}`}
+              >
+                <span className="block text-lg font-bold">End {e}</span>
+                <span className="block text-sm text-ink-soft">{run ? (e === 'A' ? run.endALabel : run.endBLabel) : '—'}</span>
+              </button>
+            ))}
+          </div>
+        </fieldset>
+      </Card>
+
+      <Card title="2. Trace file">
+        <Button variant="secondary" className="min-h-14 w-full text-base sm:w-auto" onClick={() => input.current?.click()}>
+          Choose the CSV from the instrument
+        </Button>
+        <input
+          ref={input}
+          type="file"
+          accept=".csv,text/csv,text/comma-separated-values,application/vnd.ms-excel"
+          className="sr-only"
+          aria-label="Trace file"
+          onChange={(e) => (setFile(e.target.files?.[0] ?? null), (e.target.value = ''))}
+        />
+        {file && (
+          <p className="mt-3 flex justify-between gap-2 rounded-md border border-rule px-3 py-2 text-sm">
+            <span className="truncate font-semibold">{file.name}</span>
+            <span className="text-mist tabular">{(file.size / 1024).toFixed(0)} KB</span>
+          </p>
+        )}
+      </Card>
+
+      <Card>
+        <details>
+          <summary className="min-h-11 cursor-pointer py-2 text-lg font-semibold">3. Instrument settings (optional)</summary>
+          <div className="mt-3 grid gap-3 sm:grid-cols-2">
+            <SelectField
+              label="Trace kind"
+              value={settings.mode}
+              onChange={(e) => setSettings({ ...settings, mode: e.target.value })}
+            >
+              <option value="auto">Tell from the trace</option>
+              <option value="step">Step</option>
+              <option value="pulse">Pulse</option>
+            </SelectField>
+            <TextField
+              label="Pulse width (ns)"
+              inputMode="decimal"
+              value={settings.pulseWidthNs}
+              error={errors.pulseWidthNs}
+              onChange={(e) => setSettings({ ...settings, pulseWidthNs: e.target.value })}
+            />
+            <TextField
+              label="Zero offset (ns)"
+              inputMode="decimal"
+              value={settings.zeroOffsetNs}
+              error={errors.zeroOffsetNs}
+              onChange={(e) => setSettings({ ...settings, zeroOffsetNs: e.target.value })}
+            />
+            <TextField
+              label={`Test-lead length (${unit})`}
+              inputMode="decimal"
+              value={settings.leadLengthM}
+              error={errors.leadLengthM}
+              onChange={(e) => setSettings({ ...settings, leadLengthM: e.target.value })}
+            />
+            <TextField
+              label="Sample interval (ns)"
+              hint="Only for files with a single amplitude column"
+              inputMode="decimal"
+              value={settings.sampleIntervalNs}
+              error={errors.sampleIntervalNs}
+              onChange={(e) => setSettings({ ...settings, sampleIntervalNs: e.target.value })}
+            />
+          </div>
+        </details>
+      </Card>
+
+      {failure && (
+        <Notice tone="danger" title="The phone could not analyse the file">
+          {failure}
+        </Notice>
+      )}
+      <Button type="submit" className="min-h-14 w-full text-lg" disabled={!file || !run || !end || !cable || busy}>
+        {busy ? 'Analysing on this phone…' : 'Analyse on this phone'}
+      </Button>
+    </form>
+  );
+}

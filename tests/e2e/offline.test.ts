@@ -1,0 +1,205 @@
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import type { Page, Route } from 'playwright-core';
+import { CableRun, CableType, Finding, Trace, User } from '../../server/db/models';
+import { hashPassword } from '../../server/auth/passwords';
+import { updateUser } from '../../server/users/users.service';
+import { stepTraceCsv } from '../support/step-trace';
+import { PHONE, signIn, startE2E, type E2E } from './support/browser';
+
+let e2e: E2E;
+beforeAll(async () => {
+  e2e = await startE2E();
+});
+afterAll(async () => {
+  await e2e?.stop();
+});
+// Whatever a test left behind, the next one starts with the network on.
+afterEach(async () => {
+  await e2e?.context.setOffline(false);
+});
+
+const number = (s: string | null) => Number((s ?? '').replace(/[^\d.]/g, ''));
+
+/** The service worker is active and its precache complete: the app can start with no network. */
+async function offlineReady(page: Page) {
+  await page.evaluate(async () => {
+    const reg = await navigator.serviceWorker.ready;
+    return reg.active?.state;
+  });
+}
+
+async function analyseOnPhone(page: Page, fileName: string, csv: string) {
+  await page.getByLabel('Site').selectOption({ label: 'Harrowmere North substation' });
+  await page.getByLabel('Cable run').selectOption({ label: 'Feeder HN-3 to Ashby Lane' });
+  await page.getByRole('button', { name: /End A/ }).click();
+  await page.getByLabel('Trace file').setInputFiles({ name: fileName, mimeType: 'text/csv', buffer: Buffer.from(csv) });
+  await page.getByText(fileName).waitFor();
+  await page.getByRole('button', { name: 'Analyse on this phone' }).click();
+  await page.getByText('Analysed on this device, not yet uploaded').waitFor({ timeout: 20_000 });
+}
+
+describe('a technician with no signal', () => {
+  it('opens the app offline, analyses a trace on the phone, confirms the fault, and it all arrives once when the network is back', async () => {
+    const run = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
+    const cable = (await CableType.findByPk(run.cableTypeId))!;
+    // An open 400 m of cable from end A, written with the run's own VF.
+    const csv = stepTraceCsv({ faultM: 400, vf: cable.vf, samples: 9000 });
+
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'tech@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/device`);
+    // The field data this technician may read is on the phone before the signal goes.
+    await page.getByTestId('field-data-age').waitFor();
+    expect(await page.getByTestId('field-data-age').textContent()).toMatch(
+      /^Saved .* ago .*: \d+ sites?, \d+ cable runs? with their route markers, \d+ cable types? of the library\.$/,
+    );
+    await offlineReady(page);
+
+    await e2e.context.setOffline(true);
+    await page.reload();
+    // Served by the service worker: no network at all.
+    await page.getByRole('heading', { name: 'On this phone', exact: true }).waitFor();
+    expect(await page.getByTestId('connection-state').textContent()).toBe('Offline');
+    expect(await page.getByTestId('outbox-count').textContent()).toBe('Nothing waiting to send');
+
+    await page.getByRole('link', { name: 'Analyse a trace on this phone' }).click();
+    await page.getByRole('heading', { name: 'Analyse on this phone' }).waitFor();
+    expect(await page.getByRole('note', { name: 'Safety caution' }).isVisible()).toBe(true);
+    await e2e.screenshot(page, 'offline-analyse-phone');
+    await analyseOnPhone(page, 'hn3-no-signal.csv', csv);
+
+    // Everything at once: distance, window, route position — and marked as not yet on the server.
+    const phoneDistance = (await page.getByTestId('fault-distance').textContent())!;
+    // d = VF·c·t/2 puts the open back at 400 m (the file was written from that distance).
+    expect(Math.abs(number(phoneDistance) - 400)).toBeLessThan(1);
+    expect(await page.getByTestId('cable-window').textContent()).toMatch(
+      /^Cable-length window: .* along the cable from end A, slack included$/,
+    );
+    // Hand-worked: 400 m of cable passes MH-1 (4 m coiled) and MH-2 (6 m coiled) → 390 m of route, 80 m past MH-2.
+    const phoneWhere = (await page.getByTestId('route-position').textContent())!;
+    expect(phoneWhere).toMatch(/^(79|80)\.\d m past manhole MH-2 toward road crossing RC-1/);
+    expect(await page.getByTestId('device-upload-state').textContent()).toMatch(/^Waiting to send\./);
+
+    await page.getByRole('button', { name: 'Confirm fault' }).click();
+    await page.getByTestId('device-decision').waitFor();
+    expect(await page.getByTestId('device-decision').textContent()).toBe(
+      'Confirmed as a fault on this phone: waiting for its trace to be sent.',
+    );
+    expect(await page.getByTestId('outbox-count').textContent()).toBe('2 items waiting to send');
+    await e2e.screenshot(page, 'offline-result-phone');
+
+    await page.getByTestId('outbox-count').click();
+    await page.getByRole('heading', { name: 'On this phone', exact: true }).waitFor();
+    expect(await page.getByTestId('outbox-item').evaluateAll((els) => els.map((e) => e.getAttribute('data-state')))).toEqual([
+      'queued',
+      'queued',
+    ]);
+    await e2e.screenshot(page, 'offline-outbox-phone');
+
+    // Back online, the first send reaches the server but its answer is cut off on the way back.
+    const tracesBefore = await Trace.count();
+    const keys: string[] = [];
+    let cutOff = 0;
+    await page.route('**/api/traces', async (route: Route) => {
+      if (route.request().method() !== 'POST') return route.continue();
+      keys.push((await route.request().headerValue('idempotency-key')) ?? '');
+      if (cutOff === 0) {
+        cutOff++;
+        await route.fetch();
+        return route.abort('connectionreset');
+      }
+      return route.continue();
+    });
+    await e2e.context.setOffline(false);
+    await expect
+      .poll(() => page.getByTestId('outbox-item').first().getAttribute('data-state'), { timeout: 20_000 })
+      .toBe('failed');
+    expect(await Trace.count()).toBe(tracesBefore + 1);
+    expect(await page.getByTestId('outbox-problem').first().textContent()).toMatch(/Could not reach Rholog/);
+    await e2e.screenshot(page, 'offline-sync-failed-phone');
+
+    await page.getByRole('button', { name: 'Try again' }).first().click();
+    await expect.poll(() => page.getByTestId('outbox-count').textContent(), { timeout: 20_000 }).toBe('Nothing waiting to send');
+    expect(keys).toHaveLength(2);
+    expect(keys[1]).toBe(keys[0]);
+    expect(await Trace.count()).toBe(tracesBefore + 1);
+
+    const trace = (await Trace.findOne({ where: { originalName: 'hn3-no-signal.csv' } }))!;
+    const finding = await Finding.findOne({ where: { traceId: trace.id } });
+    expect(finding?.status).toBe('confirmed');
+    expect(finding?.kind).toBe('open-conductor');
+    // The same engine and library values on both sides: the server's event is where the phone put it.
+    expect(trace.deviceAnalysis?.engineVersion).toBe(trace.engineVersion);
+    expect(trace.deviceAnalysis?.events.map((e) => e.distanceM)).toEqual(
+      trace.analysis!.events.slice(0, 12).map((e) => Math.round(e.distanceM * 1000) / 1000),
+    );
+    expect(Math.abs(finding!.distanceM - number(phoneDistance))).toBeLessThan(0.05);
+    await e2e.screenshot(page, 'offline-synced-phone');
+
+    // The trace page shows the server's analysis, the same distance and place, and that the phone agreed.
+    await page.goto(`${e2e.baseUrl}/traces/${trace.id}`);
+    await page.getByTestId('fault-distance').waitFor();
+    expect(await page.getByTestId('fault-distance').textContent()).toBe(phoneDistance);
+    expect(await page.getByTestId('route-position').textContent()).toBe(phoneWhere);
+    expect(await page.getByTestId('device-comparison').textContent()).toMatch(
+      /before it was uploaded: the server’s analysis agrees/,
+    );
+    await page.unroute('**/api/traces');
+    await page.close();
+  });
+});
+
+describe('a device whose account was deactivated while it was offline', () => {
+  it('sends nothing, keeps the trace on the phone, and shows it to an administrator to recover', async () => {
+    const user = await User.create({
+      email: 'kit.field@example.com',
+      name: 'Kit Fielding',
+      role: 'technician',
+      passwordHash: await hashPassword('Skylark-Ridge-4417'),
+      active: true,
+      mustChangePassword: false,
+      unitPreference: 'm',
+    } as never);
+    const run = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
+    const cable = (await CableType.findByPk(run.cableTypeId))!;
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'kit.field@example.com', 'Skylark-Ridge-4417');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/device/analyse`);
+    await page.getByLabel('Site').waitFor();
+    await e2e.context.setOffline(true);
+    await analyseOnPhone(page, 'kit-offline.csv', stepTraceCsv({ faultM: 250, vf: cable.vf, samples: 6000 }));
+
+    const admin = (await User.findOne({ where: { email: 'admin@example.com' } }))!;
+    await updateUser(
+      e2e.app.ctx,
+      user.id,
+      { active: false },
+      { id: admin.id, email: admin.email, name: admin.name, role: admin.role },
+    );
+    const tracesBefore = await Trace.count();
+
+    await e2e.context.setOffline(false);
+    // The server refuses the ended sign-in; the item waits on the phone for a sign-in that cannot come.
+    await page.getByRole('button', { name: 'Sign in' }).waitFor({ timeout: 20_000 });
+    await page.getByLabel('E-mail').fill('kit.field@example.com');
+    await page.getByLabel('Password').fill('Skylark-Ridge-4417');
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.getByText(/deactivated/).waitFor();
+    expect(await Trace.count()).toBe(tracesBefore);
+    expect(await Trace.count({ where: { originalName: 'kit-offline.csv' } })).toBe(0);
+
+    await signIn(page, e2e.baseUrl, 'admin@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/device`);
+    await page.getByRole('heading', { name: 'Kept for other accounts' }).waitFor();
+    const kept = page.getByTestId('outbox-item').filter({ hasText: 'kit-offline.csv' });
+    expect(await kept.getAttribute('data-state')).toBe('sign-in');
+    expect(await kept.textContent()).toContain('Waits for Kit Fielding to sign in');
+    expect(await kept.getByRole('button', { name: 'Save the file' }).isVisible()).toBe(true);
+    await e2e.screenshot(page, 'offline-kept-for-admin-phone');
+    expect(await Trace.count()).toBe(tracesBefore);
+    await page.close();
+  });
+});
