@@ -106,6 +106,13 @@ describe('the best location in the browser', () => {
     const page = await e2e.newPage(PHONE);
     await signIn(page, e2e.baseUrl, 'tech2@example.com');
     await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    // The ticket leads with the same location.
+    await page.goto(`${e2e.baseUrl}/tickets/${ticketId}`);
+    await page.getByTestId('best-distance').waitFor();
+    expect(await page.getByTestId('best-distance').textContent()).toBe(formatLength(best.distanceFromAM, 'ft'));
+    expect(await page.getByTestId('ticket-distance').count()).toBe(2);
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(PHONE.width);
+    await e2e.screenshot(page, 'best-location-ticket-phone-feet');
     await page.goto(`${e2e.baseUrl}/tickets/${ticketId}/sheet`);
     const sheet = page.getByTestId('sheet-best-location');
     await sheet.getByTestId('best-distance').waitFor().catch(async (err: unknown) => {

@@ -11,6 +11,8 @@ import { ErrorNotice, Loading, Notice } from '../../components/ui/notice';
 import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useSession } from '../../features/auth/use-session';
 import { MailStatusLine } from '../../features/outbox/components/mail-status';
+import { MethodScores } from '../../features/locate/components/method-scores';
+import { TicketLocations } from '../../features/locate/components/ticket-locations';
 import { useTicket } from '../../features/tickets/api/get-ticket';
 import { useCommentOnTicket, useMoveTicket } from '../../features/tickets/api/save-ticket';
 import { CloseoutForm } from '../../features/tickets/components/closeout-form';
@@ -133,9 +135,11 @@ export function TicketPage() {
         </Notice>
       )}
       <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
-        <div className="space-y-4">
+        <div className="min-w-0 space-y-4">
           <Card title="Where to dig">
             <div className="space-y-3">
+              <TicketLocations t={t} unit={unit} methods={false} />
+              {t.findings.some((f) => f.bestLocation) && <h3 className="pt-2 text-sm font-semibold text-ink-soft">The TDR readings behind it</h3>}
               {t.findings.map((f) => (
                 <FindingCard key={f.id} f={f} t={t} unit={unit} />
               ))}
@@ -224,6 +228,11 @@ export function TicketPage() {
           {t.closeouts.length > 0 && (
             <Card title="Close-out">
               <CloseoutSummary c={t.closeouts[0]} unit={unit} />
+              {t.closeouts[0].methodScores && t.closeouts[0].methodScores.length > 0 && (
+                <div className="mt-3">
+                  <MethodScores scores={t.closeouts[0].methodScores} unit={unit} />
+                </div>
+              )}
             </Card>
           )}
           <Card title="Timeline">
