@@ -17,7 +17,7 @@ import type { ReflectionEvent, TraceAnalysis, TraceWarning } from '../schemas/tr
 import { classifyEvent, impedanceOf, ownReflections } from './classify';
 import { detectEdges, FALSE_EVENTS_PER_TRACE, mergeEdges } from './detection';
 import { findEchoes, resolveCableEnd } from './echoes';
-import { fitEdges } from './edge-fit';
+import { fitEdges, fitLineEdges, lossSummary, pathLossDb } from './edge-fit';
 import { TraceInputError } from './errors';
 import { findLaunch } from './launch';
 import { referencePlaneShift, roundTripSamples, type Timebase, zeroIndex } from './locate';
@@ -27,7 +27,7 @@ import type { ParsedTrace } from './parse';
 import { buildWorkingSignal } from './signal';
 import { percentileOf, sortedSample } from './stats';
 import type { Launch, Measured, TraceRecord } from './steps';
-import { estimateUncertainty } from './uncertainty';
+import { budgetView, uncertaintyBudget, WINDOW_COVERAGE } from './uncertainty';
 import { ENGINE_VERSION } from './version';
 
 export interface AnalyzeOptions {
@@ -50,6 +50,8 @@ export interface AnalyzeOptions {
   minReflection?: number;
   /** The cable's attenuation where known: dB per 100 m at stated frequencies (for the loss-aware edge fit). */
   loss?: Array<{ dbPer100m: number; frequencyHz: number }>;
+  /** The pulse width `vf` was measured at (the library's VF for this pulse width), so it holds the line's dispersion. */
+  vfPulseWidthNs?: number;
 }
 
 function validateOptions(o: AnalyzeOptions): void {
@@ -66,6 +68,8 @@ function validateOptions(o: AnalyzeOptions): void {
     bad('leadLengthM', 'must be a length of 0 m or more');
   if (o.pulseWidthNs !== undefined && !(Number.isFinite(o.pulseWidthNs) && o.pulseWidthNs > 0))
     bad('pulseWidthNs', 'must be a positive number of nanoseconds');
+  if (o.vfPulseWidthNs !== undefined && !(Number.isFinite(o.vfPulseWidthNs) && o.vfPulseWidthNs > 0))
+    bad('vfPulseWidthNs', 'must be a positive number of nanoseconds');
   if (o.loss !== undefined) {
     if (!Array.isArray(o.loss)) bad('loss', 'must be a list of attenuations');
     o.loss.forEach((l, k) => {
@@ -137,7 +141,7 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
     const rho = own[mi].rho;
     const rhoRaw = m.heightRaw ?? m.height;
     const riseS = m.riseSamples * rec.dt;
-    const uncertaintyM = estimateUncertainty({
+    const budget = uncertaintyBudget({
       distanceM,
       vf,
       vfTolerance: options.vfTolerance ?? 0.02,
@@ -145,7 +149,10 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
       riseS,
       sigmaU: sig.sigmaU,
       rho: rhoRaw,
+      fit: m.fit,
+      vfAtPulseWidth: options.vfPulseWidthNs !== undefined,
     });
+    const uncertaintyM = budget.expandedM;
     const type = classifyEvent(m, own[mi], L.found ? L.riseSamples : sig.w0);
     const amplitude =
       sig.mode === 'step'
@@ -161,6 +168,9 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
       reflectionCoefficient: rho,
       reflectionCoefficientRaw: rhoRaw,
       lossCorrected: m.lossCorrected ?? false,
+      pathLossDb: pathLossDb(m),
+      uncertaintyBudget: budgetView(budget),
+      insideBlindZone: L.found && m.onsetIdx < sig.blindIdx,
       impedanceOhm: impedanceOf(sig.mode, options.z0Ohm ?? null, m, type, rho),
       type,
       isCableEnd: false,
@@ -169,6 +179,12 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
       snr: Number.isFinite(m.snr) ? m.snr : 0,
       riseTimeNs: riseS * 1e9,
     });
+    if (L.found && m.onsetIdx < sig.blindIdx) {
+      warnings.push({
+        code: 'INSIDE_BLIND_ZONE',
+        message: `the ${type} at ${distanceM.toFixed(2)} m lies inside the launch's blind zone; it stands out of the launch, but its distance and ρ are less certain`,
+      });
+    }
     if (sig.mode === 'pulse' && L.found && !m.blip && Math.abs(m.echoPeak) < 0.6 * Math.abs(rhoRaw)) {
       warnings.push({
         code: 'PULSE_LOSS',
@@ -221,7 +237,9 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     falseEventsPerTrace: FALSE_EVENTS_PER_TRACE,
     rhoMin,
   });
-  const merged = mergeEdges(fitEdges({ rec, launch: L, signal, rhoMin }, detection.candidates), signal.w0, L);
+  const edgeInput = { rec, launch: L, signal, rhoMin, vf: options.vf, loss: options.loss };
+  const line = fitLineEdges(edgeInput, mergeEdges(fitEdges(edgeInput, detection.candidates), signal.w0, L));
+  const merged = line.events;
   const launchOnset = launchOnsetTimer(L, signal);
   const zeroOverride = options.zeroOffsetNs !== undefined ? (options.zeroOffsetNs * 1e-9 - rec.t[0]) / rec.dt : null;
   const tb: Timebase = { rec, launch: L, signal, launchOnset, zeroOverride, zeroShift: referencePlaneShift(L, merged) };
@@ -231,12 +249,17 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
   const blindZoneM = L.found ? Math.max(0, (signal.blindIdx - launchOnset(0.1)) * mPerSample - (options.leadLengthM ?? 0)) : 0;
   if (events.length === 0) warnings.push({ code: 'NO_REFLECTION', message: 'no reflection above noise' });
   if (blindZoneM > 0) {
-    warnings.push({ code: 'BLIND_ZONE', message: `events closer than ${blindZoneM.toFixed(2)} m are hidden by the launch` });
+    warnings.push({
+      code: 'BLIND_ZONE',
+      message: `the launch hides events closer than ${blindZoneM.toFixed(2)} m; only ones standing well out of it are reported there, with less certain distance and ρ`,
+    });
   }
   return {
     ...emptyAnalysis(rec, L, options, sigma0, warnings),
     blindZoneM,
     events,
+    ...lossSummary(line),
+    windowCoverage: WINDOW_COVERAGE,
     detection: {
       falseEventsPerTrace: FALSE_EVENTS_PER_TRACE,
       thresholdSigma: detection.thresholdSigma,

@@ -12,10 +12,12 @@
  * it: a wet stretch, a splice) and as a lumped fault otherwise.
  *
  * Bands on the event's own ρ (common practice): open at ρ ≥ +0.8, short at
- * ρ ≤ −0.8, otherwise an impedance rise or drop. Where the cable's loss was not
- * modelled, a last event whose edge is visibly spread by loss is typed an open
- * from ρ ≥ +0.35 or a short from ρ ≤ −0.45 (±0.3 while it is still rising when
- * the record ends), since loss has taken the rest. The impedance is
+ * ρ ≤ −0.8, otherwise an impedance rise or drop. A last event (nothing real
+ * after it) whose edge is visibly spread by loss is typed an open from ρ ≥ +0.35
+ * or a short from ρ ≤ −0.45 (±0.3 while it is still rising when the record
+ * ends), since loss takes more of a far end than a correction can be sure to
+ * give back; a partial fault with the line still visible beyond it keeps the
+ * strict bands. The impedance is
  * Z = Z0 (1 + ρ)/(1 − ρ) (Pozar eq. 2.35), for step traces only.
  */
 import type { ReflectionType } from '../schemas/trace-analysis';
@@ -78,7 +80,7 @@ export function classifyEvent(m: Measured, own: OwnReflection, launchRiseSamples
     if (rho <= SHORT_MAX_RHO) return 'short';
     const settling = m.stillMoving > 0.05;
     const spread = m.riseSamples >= 4 * Math.max(1, launchRiseSamples) || settling;
-    if (!m.lossCorrected && own.isLast && spread) {
+    if (own.isLast && spread) {
       if (rho >= 0.35 || (settling && rho >= 0.3)) return 'open';
       if (rho <= -0.45 || (settling && rho <= -0.3)) return 'short';
     }

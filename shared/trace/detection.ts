@@ -228,7 +228,10 @@ export function detectEdges(sig: WorkingSignal, settings: DetectionSettings): De
     candidates.push(...r.candidates);
   }
   const thrOf = new Map(scales.map((w, j) => [w, thresholds[j] ?? rhoMin]));
-  return { candidates: resolveScales(dropSideLobes(candidates, P, thrOf, rhoMin)), thresholdSigma: k, independentTests };
+  // Inside the blind zone the launch's own settling is still in the signal: keep only what
+  // stands twice the threshold out of it.
+  const clear = candidates.filter((c) => c.i - 2 * c.w >= sig.blindIdx || c.snr >= 2 * k);
+  return { candidates: resolveScales(dropSideLobes(clear, P, thrOf, rhoMin)), thresholdSigma: k, independentTests };
 }
 
 /**

@@ -213,6 +213,10 @@ function launchBeforeRecord(rec: TraceRecord, lv: Levels, positiveOnly: boolean)
 
 /** A flat run at the record's own extreme that the edge hits while still steep. */
 function isClipped(y: Float64Array, from: number, to: number, sign: number): boolean {
+  // A noise-free record's tops are flat anyway: only a noisy baseline makes flatness telling.
+  const before = new Set<number>();
+  for (let i = Math.max(0, from - 200); i < Math.max(0, from - 20); i++) before.add(y[i]);
+  if (before.size <= 2) return false;
   let ext = y[from];
   for (let i = from; i < to; i++) if (sign * y[i] > sign * ext) ext = y[i];
   let global = ext;

@@ -6,7 +6,8 @@
  * even on a trace full of steps. Below one ADC step the noise reads as zero;
  * the uniform rounding noise of a quantiser, q/√12 (B. Widrow and I. Kollár,
  * "Quantization Noise", Cambridge 2008, ch. 4), is then the floor, but only
- * when that step really recurs: a noise-free trace's few edges are not one.
+ * when that step really is the recorder's: it recurs, or the samples sit on its
+ * grid (a noise-free trace's few edges are neither).
  * Stretches held flat at the record's extreme (a saturated recorder) carry no
  * noise and are left out.
  */
@@ -31,6 +32,23 @@ function saturated(y: Float64Array): Uint8Array {
   return out;
 }
 
+/** Do (nearly) all samples lie on a grid of step q, using at least eight of its levels, as an ADC's output does? */
+function onGrid(y: Float64Array, q: number): boolean {
+  const n = y.length;
+  const step = Math.max(1, Math.floor(n / 4001));
+  let on = 0;
+  let all = 0;
+  const levels = new Set<number>();
+  for (let i = 0; i < n; i += step, all++) {
+    const r = (y[i] - y[0]) / q;
+    if (Math.abs(r - Math.round(r)) < 1e-3) {
+      on++;
+      levels.add(Math.round(r));
+    }
+  }
+  return on >= 0.95 * all && levels.size >= 8;
+}
+
 export function estimateNoise(y: Float64Array): number {
   const n = y.length;
   const clipped = saturated(y);
@@ -49,7 +67,8 @@ export function estimateNoise(y: Float64Array): number {
   let sigma0 = madSigma(diffs, 0, m) / Math.SQRT2;
   let atStep = 0;
   for (let j = 0; j < m; j++) if (Math.abs(Math.abs(diffs[j]) - minStep) <= 1e-9 * minStep) atStep++;
-  if (Number.isFinite(minStep) && atStep >= Math.max(3, 0.002 * m)) sigma0 = Math.max(sigma0, minStep / Math.sqrt(12));
+  if (Number.isFinite(minStep) && (atStep >= Math.max(3, 0.002 * m) || onGrid(y, minStep)))
+    sigma0 = Math.max(sigma0, minStep / Math.sqrt(12));
   return sigma0;
 }
 

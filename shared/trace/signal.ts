@@ -72,8 +72,13 @@ export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number):
   // Smoothing for onset timing: a short boxcar, the same for the launch and every event.
   const smoothW = Math.max(1, Math.round(w0 / 3));
   const us = boxcar(u, smoothW);
-  const start = Math.min(n - 1, L.settleIdx + (L.found ? w0 : 0));
-  const blindIdx = L.found ? start : Math.max(0, Math.ceil(L.zeroIdx));
+  // The blind zone ends one filter window past the launch's settling. The search starts
+  // earlier (a step: one rise past its 90 % point), so an event inside the blind zone that
+  // stands out of it can still be reported.
+  const blindEnd = Math.min(n - 1, L.settleIdx + (L.found ? w0 : 0));
+  const earliest = L.found && L.onsetInRecord && mode === 'step' ? L.idx + 2 * L.riseSamples : L.settleIdx;
+  const start = Math.min(blindEnd, Math.max(0, earliest));
+  const blindIdx = L.found ? blindEnd : Math.max(0, Math.ceil(L.zeroIdx));
   return {
     mode,
     u,

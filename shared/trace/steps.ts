@@ -4,6 +4,8 @@
  * uncertainty); `analyzeTrace` in analyze.ts calls them in order.
  */
 
+import type { LineFit } from './edge-fit';
+
 export type Mode = 'step' | 'pulse';
 
 /** The record as the steps see it: uniform samples y at times t. */
@@ -61,9 +63,9 @@ export interface WorkingSignal {
   /** Shortest filter scale, samples. */
   w0: number;
   smoothW: number;
-  /** First sample searched for events. */
+  /** First sample searched for events (may lie inside the blind zone). */
   start: number;
-  /** End of the blind zone, samples. */
+  /** End of the blind zone, samples: before it only events standing well out of the launch are kept. */
   blindIdx: number;
   /** Coloured-noise factor at a scale of w samples (noise.ts). */
   noiseExcess: (w: number) => number;
@@ -104,4 +106,6 @@ export interface Measured {
   levelBefore: number;
   /** Change over the last level window, as a fraction of the event: > 0 while a lossy edge is still settling. */
   stillMoving: number;
+  /** The line fit's delay, its uncertainty and the loss model it used (edge-fit.ts); absent where the reading stands. */
+  fit?: LineFit;
 }
