@@ -3,13 +3,21 @@
  * and a 10 000-sample one. Each measurement runs in a fresh child process so
  * its peak resident memory is its own.
  *
+ * Then, on the 1,000,000-sample file and side by side, each as a median with
+ * its ratio to the numpy/scipy script's whole run: the engine's stages (read
+ * the bytes, parse, analyse), the limit loop (read the file and parse its
+ * numbers in a tight loop, nothing else), the script and the whole built
+ * command (`node dist/cli/rholog.js analyze FILE`), the last two timed as
+ * whole processes in alternating rounds; and the command's start-up on a
+ * 200-sample file. Needs `npm run build` for the command.
+ *
  *   npm run bench
  */
-import { execFileSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { execFileSync, spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { analyzeCsv } from '../shared/trace';
+import { analyzeCsv, analyzeTrace, parseTraceCsv } from '../shared/trace';
 import { gaussianSource } from './sim/line-model';
 
 const GOALS = { largeMs: 1000, smallMs: 20, largeRssMb: 200 };
@@ -71,6 +79,114 @@ function measure(file: string, repeats: number) {
   process.stdout.write(JSON.stringify({ medianMs: times[times.length >> 1], bestMs: times[0], events, rssMb, baseRssMb }));
 }
 
+const median = (v: number[]) => [...v].sort((a, b) => a - b)[v.length >> 1];
+
+/** The floor: read the file and parse its two numeric columns in one tight loop over the bytes. */
+function limitLoop(file: string): number {
+  const b = readFileSync(file);
+  const t = new Float64Array(b.length >> 3);
+  const v = new Float64Array(b.length >> 3);
+  let i = b.indexOf(10) + 1;
+  let n = 0;
+  let col = 0;
+  let num = 0;
+  let scale = 0;
+  let neg = false;
+  for (; i < b.length; i++) {
+    const c = b[i];
+    if (c >= 48 && c <= 57) {
+      num = num * 10 + (c - 48);
+      if (scale) scale *= 10;
+    } else if (c === 46) scale = 1;
+    else if (c === 45) neg = true;
+    else if (c === 44 || c === 10) {
+      const x = (neg ? -num : num) / (scale || 1);
+      if (col === 0) t[n] = x;
+      else v[n++] = x;
+      col = c === 44 ? 1 : 0;
+      num = 0;
+      scale = 0;
+      neg = false;
+    }
+  }
+  return n + v[n >> 1] * 0 + t[0] * 0;
+}
+
+/** Child process: median of each engine stage and of the limit loop on one file. */
+function measureStages(file: string, repeats: number) {
+  const read: number[] = [];
+  const parse: number[] = [];
+  const analyse: number[] = [];
+  const limit: number[] = [];
+  for (let r = 0; r < repeats + 1; r++) {
+    const t0 = performance.now();
+    const bytes = readFileSync(file);
+    const t1 = performance.now();
+    const parsed = parseTraceCsv(bytes);
+    const t2 = performance.now();
+    analyzeTrace(parsed, { vf: 0.66, z0Ohm: 50 });
+    const t3 = performance.now();
+    const n = limitLoop(file);
+    const t4 = performance.now();
+    // Both must read every sample, or the comparison means nothing.
+    if (n !== parsed.amplitude.length) throw new Error(`limit loop read ${n} samples, the reader ${parsed.amplitude.length}`);
+    if (r === 0) continue; // the first round warms the compiler
+    read.push(t1 - t0);
+    parse.push(t2 - t1);
+    analyse.push(t3 - t2);
+    limit.push(t4 - t3);
+  }
+  process.stdout.write(JSON.stringify({ read: median(read), parse: median(parse), analyse: median(analyse), limit: median(limit) }));
+}
+
+/** Wall time of whole processes, alternating between the commands each round. */
+function wallTimes(commands: Array<[string, string[]]>, rounds: number): number[] {
+  const times = commands.map(() => [] as number[]);
+  for (let r = 0; r < rounds; r++) {
+    commands.forEach(([cmd, args], k) => {
+      const t0 = performance.now();
+      const p = spawnSync(cmd, args, { stdio: ['ignore', 'ignore', 'pipe'] });
+      if (p.status !== 0) throw new Error(`${cmd} ${args.join(' ')} failed: ${p.stderr}`);
+      times[k].push(performance.now() - t0);
+    });
+  }
+  return times.map(median);
+}
+
+function sideBySide(dir: string, file: string): string[] {
+  const bin = join(import.meta.dirname, '../dist/cli/rholog.js');
+  const lines = ['', `side by side on the 1,000,000-sample file (load average ${loadavg().map((l) => l.toFixed(2)).join(' ')}):`];
+  const stages = JSON.parse(
+    execFileSync(process.execPath, [...process.execArgv, process.argv[1], '--stages', file, '5'], { encoding: 'utf8' }),
+  ) as { read: number; parse: number; analyse: number; limit: number };
+  const havePython = spawnSync('/usr/bin/python3', ['-c', 'import numpy, scipy'], { stdio: 'ignore' }).status === 0;
+  if (!existsSync(bin)) lines.push(`  (the built command ${bin} is missing: run npm run build)`);
+  const commands: Array<[string, string[]]> = [];
+  if (havePython) commands.push(['/usr/bin/python3', [join(import.meta.dirname, 'bench-numpy.py'), file]]);
+  if (existsSync(bin)) commands.push([process.execPath, [bin, 'analyze', file, '--vf', '0.66', '--z0', '50']]);
+  const walls = wallTimes(commands, 5);
+  const script = havePython ? walls[0] : NaN;
+  const cli = existsSync(bin) ? walls[walls.length - 1] : NaN;
+  const row = (label: string, ms: number) =>
+    `  ${label.padEnd(52)} ${ms.toFixed(1).padStart(8)} ms  ${Number.isFinite(script) ? `${(ms / script).toFixed(2)} × the script` : ''}`;
+  lines.push(row('engine: read the bytes', stages.read));
+  lines.push(row('engine: parse', stages.parse));
+  lines.push(row('engine: analyse', stages.analyse));
+  lines.push(row('engine: read + parse + analyse', stages.read + stages.parse + stages.analyse));
+  lines.push(row('limit loop: read + parse numbers, nothing else', stages.limit));
+  lines.push(`  parse + analyse ÷ limit loop: ${((stages.read + stages.parse + stages.analyse) / stages.limit).toFixed(2)}`);
+  if (havePython) lines.push(row('numpy/scipy script, whole process', script));
+  else lines.push('  (numpy/scipy script skipped: /usr/bin/python3 with numpy and scipy not found)');
+  if (Number.isFinite(cli)) {
+    lines.push(row('rholog analyze (built, node), whole process', cli));
+    const tiny = join(dir, 'tiny.csv');
+    writeFileSync(tiny, demoCsv(200));
+    const [startUp] = wallTimes([[process.execPath, [bin, 'analyze', tiny, '--vf', '0.66']]], 9);
+    lines.push(row('rholog analyze start-up, 200-sample file', startUp));
+  }
+  return lines;
+}
+
 /** The same large file through numpy.loadtxt + scipy (scripts/bench-numpy.py), when Debian's python3 has them. */
 function numpyBaseline(file: string): string {
   try {
@@ -83,6 +199,10 @@ function numpyBaseline(file: string): string {
 }
 
 function main() {
+  if (process.argv[2] === '--stages') {
+    measureStages(process.argv[3], Number(process.argv[4]));
+    return;
+  }
   if (process.argv[2] === '--measure') {
     measure(process.argv[3], Number(process.argv[4]));
     return;
@@ -118,6 +238,7 @@ function main() {
       );
     }
     rows.push(numpyBaseline(join(dir, 'trace-1000000.csv')));
+    rows.push(...sideBySide(dir, join(dir, 'trace-1000000.csv')));
     console.log(rows.join('\n'));
     if (!ok) process.exitCode = 1;
   } finally {
