@@ -26,9 +26,19 @@ export function bestUncertaintyText(best: BestLocationView, unit: LengthUnit): s
   return `± ${formatLength(best.standardUncertaintyM, unit)} (standard uncertainty)`;
 }
 
+/**
+ * A weight in whole per cent. Readings that share most of their error (the
+ * installed length, say) can take a small negative weight in the combined
+ * mean; it is written with a true minus sign, never as "-0 %".
+ */
+export function weightText(weight: number): string {
+  const pct = Math.round(weight * 100);
+  return pct < 0 ? `−${-pct} %` : `${pct === 0 ? 0 : pct} %`;
+}
+
 /** A method with its share: "TDR from both ends (findings 3 and 4), 71 %". */
 export function methodShareText(m: LocationMethodView): string {
-  return m.weight === null ? m.label : `${m.label}, ${Math.round(m.weight * 100)} %`;
+  return m.weight === null ? m.label : `${m.label}, ${weightText(m.weight)}`;
 }
 
 /** The readings that went into the location, with their weights. */

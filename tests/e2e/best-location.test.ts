@@ -113,6 +113,7 @@ describe('the best location in the browser', () => {
     expect(await page.getByTestId('ticket-distance').count()).toBe(2);
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(PHONE.width);
     await e2e.screenshot(page, 'best-location-ticket-phone-feet');
+    await shoot(page.getByTestId('best-location'), 'best-location-ticket-headline-phone-feet');
     await page.goto(`${e2e.baseUrl}/tickets/${ticketId}/sheet`);
     const sheet = page.getByTestId('sheet-best-location');
     await sheet.getByTestId('best-distance').waitFor().catch(async (err: unknown) => {

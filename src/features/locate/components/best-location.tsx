@@ -1,6 +1,6 @@
 import { Link } from 'react-router-dom';
 import type { BestLocationView, LocationMethodView } from '../../../../shared/schemas/measurements';
-import { methodShareText } from '../../../../shared/locate/words';
+import { methodShareText, weightText } from '../../../../shared/locate/words';
 import { Notice } from '../../../components/ui/notice';
 import { formatLength, formatLengthRange, lengthsInText, type LengthUnit } from '../../../lib/format';
 import { describeCrossings, describeRoutePosition } from '../../../../shared/field/route-position';
@@ -110,7 +110,7 @@ export function LocationMethods({ best, unit, findingLink }: { best: BestLocatio
             <p className="font-semibold">{sourceLink(m, findingLink)}</p>
             <p>
               {formatLength(m.distanceFromEndM, unit)} from end {m.fromEnd} · ± {formatLength(m.standardUncertaintyM, unit)}
-              {m.weight !== null && ` · weight ${Math.round(m.weight * 100)} %`}
+              {m.weight !== null && ` · weight ${weightText(m.weight)}`}
             </p>
             <p className="text-xs">
               95 % window {formatLengthRange(m.windowStartM, m.windowEndM, unit)} from A · {m.used ? 'used' : 'not used'}
@@ -145,7 +145,7 @@ export function LocationMethods({ best, unit, findingLink }: { best: BestLocatio
                 </td>
                 <td className="whitespace-nowrap pl-2 text-right">{formatLengthRange(m.windowStartM, m.windowEndM, unit)}</td>
                 <td className="whitespace-nowrap pl-2 text-right">± {formatLength(m.standardUncertaintyM, unit)}</td>
-                <td className="text-right">{m.weight === null ? '—' : `${Math.round(m.weight * 100)} %`}</td>
+                <td className="text-right">{m.weight === null ? '—' : weightText(m.weight)}</td>
               </tr>
             ))}
           </tbody>

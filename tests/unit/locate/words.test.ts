@@ -1,0 +1,95 @@
+import { describe, expect, it } from 'vitest';
+import { routePosition } from '../../../shared/field/route-position';
+import { bestLocationRows, weightText } from '../../../shared/locate/words';
+import type { BestLocationView, LocationMethodView } from '../../../shared/schemas/measurements';
+
+const method = (id: string, label: string, weight: number | null): LocationMethodView => ({
+  id,
+  method: 'murray-loop',
+  label,
+  fromEnd: 'A',
+  distanceFromEndM: 120,
+  distanceFromAM: 120,
+  standardUncertaintyM: 1.2,
+  windowStartM: 117.648,
+  windowEndM: 122.352,
+  used: weight !== null,
+  weight,
+  normalisedResidual: 0,
+  findingId: null,
+  traceId: null,
+  measurementId: null,
+  note: null,
+});
+
+/** 200 m run, MH-1 at chainage 40 m (2 m coiled), MH-2 at 80 m (3 m), P-7 at 120 m. */
+const run = {
+  installedLengthM: 200,
+  endALabel: 'Cabinet C-1',
+  endBLabel: 'Pole 14',
+  markers: [
+    { label: 'MH-1', kind: 'manhole' as const, chainageM: 40, slackM: 2 },
+    { label: 'MH-2', kind: 'manhole' as const, chainageM: 80, slackM: 3 },
+    { label: 'P-7', kind: 'pedestal' as const, chainageM: 120, slackM: 0 },
+  ],
+};
+
+const best: BestLocationView = {
+  distanceFromAM: 120,
+  standardUncertaintyM: 1.2,
+  windowStartM: 117.648,
+  windowEndM: 122.352,
+  coverageFactor: 1.96,
+  consistent: true,
+  verdict: 'The 2 readings agree (χ² = 0.02 on 1 degree of freedom, 95 % limit 3.84).',
+  checks: [],
+  test: { chiSquare: 0.02, degreesOfFreedom: 1, limit95: 3.84, birgeRatio: 0.14 },
+  methods: [method('a', 'TDR from both ends (findings 1 and 2)', 0.65), method('b', 'Murray loop from end A (reading 1)', 0.35), method('c', 'TDR from end A (finding 1)', null)],
+  excluded: [],
+  routePosition: routePosition(run, 'A', 120, { startM: 117.648, endM: 122.352 }),
+  routePositionText: null,
+  ground: null,
+  groundNote: null,
+  assumptions: [],
+};
+
+describe('the best location in words', () => {
+  it('writes the rows a crew reads in feet, through the one length formatter', () => {
+    // 120 m = 393.70 ft, 1.2 m = 3.937 ft, 117.648–122.352 m = 385.98–401.42 ft (0.3048 m per international foot).
+    // 120 m of cable passes the 2 m and 3 m coils: chainage 115 m, 35 m = 114.8 ft past MH-2 (hand-worked).
+    expect(bestLocationRows(best, run, 'ft')).toEqual([
+      ['Best location', '393.7 ft of cable from end A (Cabinet C-1), ± 3.94 ft (standard uncertainty)'],
+      ['Dig window (95 %)', '386.0–401.4 ft of cable from end A'],
+      ['Where to dig', expect.stringMatching(/^114\.8 ft past manhole MH-2 toward pedestal P-7; dig on the ground/)],
+      ['Based on', 'TDR from both ends (findings 1 and 2), 65 %; Murray loop from end A (reading 1), 35 %'],
+      ['Readings', 'The 2 readings agree (χ² = 0.02 on 1 degree of freedom, 95 % limit 3.84).'],
+    ]);
+  });
+
+  it('says there is no location, names the one set aside and what to check, lengths in the reader’s unit', () => {
+    const rows = bestLocationRows(
+      {
+        ...best,
+        distanceFromAM: null,
+        standardUncertaintyM: null,
+        windowStartM: null,
+        windowEndM: null,
+        consistent: false,
+        verdict: 'The readings disagree.',
+        checks: ['the TDR readings from the two ends add up to 914.0 m on a 900.0 m run'],
+      },
+      run,
+      'ft',
+    );
+    expect(rows[0]).toEqual(['Best location', 'none: the readings disagree and none can be set aside']);
+    // 914 m = 2998.7 ft → 2999 ft; 900 m = 2952.8 ft → 2953 ft (four figures carry no decimals).
+    expect(rows).toContainEqual(['What to check', 'the TDR readings from the two ends add up to 2999 ft on a 2953 ft run']);
+  });
+
+  it('writes weights in whole per cent, a small negative one with a true minus sign', () => {
+    expect(weightText(0.655)).toBe('66 %');
+    expect(weightText(0.995)).toBe('100 %');
+    expect(weightText(-0.004)).toBe('0 %');
+    expect(weightText(-0.012)).toBe('−1 %');
+  });
+});
