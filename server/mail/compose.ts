@@ -8,13 +8,14 @@ export const lengthText = formatLength;
 /** Plain-text lines stay within this many characters, so a mail reader never wraps them raggedly. */
 export const TEXT_WIDTH = 76;
 
-/** Break `text` into lines of at most `width` characters, at spaces; a number keeps its unit ("287.5 ft") on its line. */
+/** Break `text` into lines of at most `width` characters, at spaces; a number keeps its unit and its "±" ("± 2.31 m") on its line. */
 export function wrapText(text: string, width: number): string[] {
   const lines: string[] = [];
   for (const paragraph of text.split('\n')) {
     let line = '';
     const words = paragraph.split(/ +/).reduce<string[]>((acc, w) => {
-      if (acc.length && /\d$/.test(acc[acc.length - 1]) && /^(m|ft|ns|%|Ω)[.,;:)]?$/.test(w)) acc[acc.length - 1] += ` ${w}`;
+      const last = acc[acc.length - 1];
+      if (acc.length && ((/\d$/.test(last) && /^(m|ft|ns|%|Ω)[.,;:)]?$/.test(w)) || /^[±≈~]$/.test(last))) acc[acc.length - 1] += ` ${w}`;
       else acc.push(w);
       return acc;
     }, []);

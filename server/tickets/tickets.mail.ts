@@ -1,28 +1,29 @@
 import type { Transaction } from 'sequelize';
-import { describeRoutePosition, type RoutePosition } from '../../shared/field/route-position';
+import { describeRoute, type RoutePosition } from '../../shared/field/route-position';
 import { FINDING_KIND_LABELS } from '../../shared/schemas/findings';
 import { TICKET_PRIORITY_LABELS, TICKET_STATUS_LABELS, type TicketStatus } from '../../shared/tickets/status';
 import type { AppContext } from '../context';
 import { CableRun, Finding, Site, Ticket, Trace, User } from '../db/models';
 import { appLink } from '../mail';
-import { composeMail, lengthText, SAFETY_LINE, type LengthUnit } from '../mail/compose';
+import { composeMail, SAFETY_LINE } from '../mail/compose';
 import { bestLocationFor } from '../findings/best-location';
 import { bestLocationRows } from '../../shared/locate/words';
 import type { BestLocationView } from '../../shared/schemas/measurements';
-import { formatLength } from '../../shared/units/format-length';
+import { formatDate } from '../../shared/units/format-date';
+import { formatLength, formatLengthRange, formatSignedLength, lengthsInText, type LengthUnit } from '../../shared/units/format-length';
 
 const kindLabel = (k: string) => FINDING_KIND_LABELS[k as keyof typeof FINDING_KIND_LABELS] ?? k;
 
-/** The route sentence in the reader's unit (the stored text is in metres). */
+/** The route sentence in the reader's unit, with any marker the dig window crosses (the stored text is in metres). */
 function whereText(f: Finding, unit: LengthUnit): string {
   const pos = f.routePosition as RoutePosition | null;
-  return pos ? describeRoutePosition(pos, (m) => lengthText(m, unit)) : f.routePositionText;
+  return pos ? describeRoute(pos, unit) : lengthsInText(f.routePositionText, unit);
 }
 
 /** The distance a subject line leads with: the best location from end A, else the reading from its own end. */
 function headlineDistance(f: Finding & { trace?: Trace }, best: BestLocationView | null, unit: LengthUnit): string {
   if (best?.distanceFromAM != null) return `${formatLength(best.distanceFromAM, unit)} from end A`;
-  return `${lengthText(f.distanceM, unit)} from end ${f.trace?.end ?? 'A'}`;
+  return `${formatLength(f.distanceM, unit)} from end ${f.trace?.end ?? 'A'}`;
 }
 
 function findingRows(f: Finding, trace: Trace | null, run: CableRun, unit: LengthUnit, underBest = false): Array<[string, string]> {
@@ -30,9 +31,9 @@ function findingRows(f: Finding, trace: Trace | null, run: CableRun, unit: Lengt
   const endLabel = end === 'A' ? run.endALabel : run.endBLabel;
   return [
     // Under a best location these rows are the one TDR reading this finding was made from.
-    [underBest ? 'This TDR reading' : 'Distance', `${lengthText(f.distanceM, unit)} of cable from end ${end} (${endLabel}), ± ${lengthText(f.uncertaintyM, unit)}`],
+    [underBest ? 'This TDR reading' : 'Distance', `${formatLength(f.distanceM, unit)} along the cable from end ${end} (${endLabel}), ± ${formatLength(f.uncertaintyM, unit)}`],
     ['Route position', whereText(f, unit)],
-    ['Cable-length window (slack included)', `${lengthText(f.windowStartM, unit)} – ${lengthText(f.windowEndM, unit)} of cable from end ${end}`],
+    ['Cable-length window', `${formatLengthRange(f.windowStartM, f.windowEndM, unit)} along the cable from end ${end}, slack included`],
   ];
 }
 
@@ -84,7 +85,7 @@ export type TicketMailReason =
   | { kind: 'status'; from: TicketStatus; to: TicketStatus; comment: string | null }
   | { kind: 'updated'; changes: string[]; comment: string | null }
   | { kind: 'comment'; comment: string }
-  | { kind: 'fixed'; to: User; summary: string };
+  | { kind: 'fixed'; to: User; found: { measuredFrom: 'A' | 'B'; foundDistanceM: number; locatedDistanceM: number; errorM: number } };
 
 /** Tell the right person about a change to a ticket, inside the change's transaction. */
 export async function mailTicket(ctx: AppContext, ticketId: number, actor: { id: number; name: string }, reason: TicketMailReason, transaction: Transaction) {
@@ -107,7 +108,7 @@ export async function mailTicket(ctx: AppContext, ticketId: number, actor: { id:
     ['Ticket', `${ref}: ${ticket.title}`],
     ['Status', TICKET_STATUS_LABELS[ticket.status]],
     ['Priority', TICKET_PRIORITY_LABELS[ticket.priority]],
-    ['Due', ticket.dueDate ?? 'no date set'],
+    ['Due', ticket.dueDate ? formatDate(ticket.dueDate) : 'no date set'],
     ['Site', site.name],
     ['Cable run', `${run.name} (${run.endALabel} → ${run.endBLabel})`],
     ...(best ? bestLocationRows(best, run, unit) : []),
@@ -141,10 +142,17 @@ export async function mailTicket(ctx: AppContext, ticketId: number, actor: { id:
       intro = `${actor.name} commented on your ticket.`;
       paragraph = reason.comment;
       break;
-    case 'fixed':
+    case 'fixed': {
+      const f = reason.found;
       subject = `${ref} fixed, waiting for your sign-off: ${ticket.title}`;
-      intro = `${actor.name} recorded the repair. ${reason.summary}`;
+      intro = `${actor.name} recorded the repair.`;
+      // What the dig found, ahead of the rest, in the reader's unit.
+      rows.unshift(
+        ['Found', `${formatLength(f.foundDistanceM, unit)} along the cable from end ${f.measuredFrom}`],
+        ['Located', `${formatLength(f.locatedDistanceM, unit)} (located − found ${formatSignedLength(f.errorM, unit)})`],
+      );
       break;
+    }
   }
   const mail = composeMail({
     subject,

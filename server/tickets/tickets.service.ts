@@ -20,6 +20,8 @@ import { submitCalibration } from '../calibrations/calibrations.service';
 import type { AppContext } from '../context';
 import { CableRun, Finding, MailJob, RouteMarker, Site, Ticket, TicketCloseout, TicketEvent, TicketFinding, Trace, User } from '../db/models';
 import { AppError } from '../errors';
+import { formatDate } from '../../shared/units/format-date';
+import { formatLength } from '../../shared/units/format-length';
 import { bestLocationFor } from '../findings/best-location';
 import { scoreMethodsAtCloseout, scoresOfCloseout } from '../findings/method-scores';
 import { mailTicket } from './tickets.mail';
@@ -125,7 +127,8 @@ export async function createTicket(ctx: AppContext, actor: SessionUser, input: C
 }
 
 const describeChange = (field: string, before: unknown, after: unknown) => {
-  const show = (v: unknown) => (v === null || v === undefined || v === '' ? 'none' : field === 'priority' ? TICKET_PRIORITY_LABELS[v as 'normal'] : String(v));
+  const show = (v: unknown) =>
+    v === null || v === undefined || v === '' ? 'none' : field === 'priority' ? TICKET_PRIORITY_LABELS[v as 'normal'] : field === 'dueDate' ? formatDate(String(v)) : String(v);
   const name = { title: 'title', priority: 'priority', dueDate: 'due date', notes: 'notes', assignee: 'assignee' }[field] ?? field;
   return field === 'notes' ? 'notes updated' : `${name} ${show(before)} → ${show(after)}`;
 };
@@ -287,7 +290,8 @@ export async function closeOutTicket(ctx: AppContext, actor: SessionUser, id: nu
           submittedById: actor.id,
           source: 'repair-closeout',
           traceId: finding!.traceId,
-          note: `Repair close-out of ticket ${t.id} (finding ${finding!.id}): located ${result.locatedDistanceM.toFixed(2)} m, found ${result.foundDistanceM.toFixed(2)} m of cable from end ${measuredFrom}.`,
+          // Stored in metres through the shared formatter; each reader sees it in their own unit.
+          note: `Repair close-out of ticket ${t.id} (finding ${finding!.id}): located ${formatLength(result.locatedDistanceM, 'm')}, found ${formatLength(result.foundDistanceM, 'm')} along the cable from end ${measuredFrom}.`,
         },
         transaction,
       );
@@ -324,7 +328,6 @@ export async function closeOutTicket(ctx: AppContext, actor: SessionUser, id: nu
     await scoreMethodsAtCloseout(closeout, run!.installedLengthM, transaction);
     const from = t.status;
     await t.update({ status: 'fixed' }, { transaction });
-    const summary = `Found ${result.foundDistanceM.toFixed(2)} m of cable from end ${measuredFrom}; located ${result.locatedDistanceM.toFixed(2)} m (${result.errorM >= 0 ? '+' : ''}${result.errorM.toFixed(2)} m).`;
     await record(
       t.id,
       actor.id,
@@ -339,7 +342,10 @@ export async function closeOutTicket(ctx: AppContext, actor: SessionUser, id: nu
     );
     await mailTicket(ctx, t.id, actor, { kind: 'status', from, to: 'fixed', comment: input.comment }, transaction);
     const creator = await User.findByPk(t.createdById, { transaction });
-    if (creator) await mailTicket(ctx, t.id, actor, { kind: 'fixed', to: creator, summary }, transaction);
+    if (creator) {
+      const found = { measuredFrom, foundDistanceM: result.foundDistanceM, locatedDistanceM: result.locatedDistanceM, errorM: result.errorM };
+      await mailTicket(ctx, t.id, actor, { kind: 'fixed', to: creator, found }, transaction);
+    }
   });
   return getTicket(id, actor);
 }

@@ -77,7 +77,8 @@ describe('one best location on the finding, the ticket, the crew sheet and the e
 
     const job = await MailJob.findOne({ where: { ticketId: ticket.id, kind: 'ticket-assigned' } });
     expect(job).not.toBeNull();
-    const text = job!.text;
+    // Plain-text rows wrap at 76 characters with the value column kept: read each row as one line.
+    const text = job!.text.replace(/\n {2,}/g, ' ');
     // The technician reads metres: the same numbers through the one length formatter.
     const d = formatLength(best.distanceFromAM, 'm');
     const u = formatLength(best.standardUncertaintyM, 'm');
@@ -88,7 +89,7 @@ describe('one best location on the finding, the ticket, the crew sheet and the e
     expect(text).toMatch(/Where to dig: +35\.\d m past manhole MH-2 toward pedestal P-7; dig on the ground/);
     expect(text).toMatch(/Based on: +TDR from both ends \(findings \d+ and \d+\), \d+ %; Murray loop from end A \(reading \d+\), \d+ %/);
     // The single reading the finding was made from stays below, named as such.
-    expect(text).toMatch(/This TDR reading: +120\.\d+ m of cable from end A/);
+    expect(text).toMatch(/This TDR reading: +120\.\d+ m along the cable from end A/);
     expect(text.indexOf('Best location:')).toBeLessThan(text.indexOf('This TDR reading:'));
   });
 

@@ -45,7 +45,7 @@ describe('repair tickets', () => {
     expect(msg.body).toContain('Ticket run (Cabinet C-1 → Pole 14)');
     // Hand-worked: 100 m of cable from A is 95 m of route, 15 m past MH-2 toward P-7.
     expect(msg.body).toMatch(/Route position: +15\.\d+ m past manhole MH-2 toward pedestal P-7/);
-    expect(msg.body).toMatch(/Cable-length window \(slack included\): +\d+\.\d+ m – \d+\.\d+ m of cable from end A/);
+    expect(msg.body).toMatch(/Cable-length window: +\d+\.\d–\d+\.\d m along the cable from end A, slack/);
     expect(msg.body).toContain(`${PUBLIC_URL}/findings/${finding.id}`);
     expect(msg.html).toContain(`href="${PUBLIC_URL}/findings/${finding.id}"`);
   });
@@ -68,6 +68,8 @@ describe('repair tickets', () => {
     ]);
     const mail = await outboxFor(api, 'technician.test@example.com', new RegExp(`^Ticket ${t.id} assigned to you`));
     expect(mail.body).toContain('Priority:');
+    // Dates in the one style the screens use.
+    expect(mail.body).toMatch(/Due: +20 May 2031/);
     expect(mail.body).toContain('High');
     expect(mail.body).toContain('Gate code 4412');
     expect(mail.body).toContain(`${PUBLIC_URL}/tickets/${t.id}`);
@@ -173,7 +175,9 @@ describe('repair tickets', () => {
     expect(cal.roundTripNs).toBeCloseTo(finding.roundTripNs, 9);
 
     const toSup = await outboxFor(api, 'supervisor.test@example.com', new RegExp(`^Ticket ${ticketId} fixed, waiting for your sign-off`));
-    expect(toSup.body).toContain('Found 105.00 m of cable from end A');
+    // Rows in the reader's unit and the one precision rule: 105 m → "105.0 m"; located − found about −5 m.
+    expect(toSup.body).toMatch(/Found: +105\.0 m along the cable from end A/);
+    expect(toSup.body).toMatch(/Located: +\d+\.\d m \(located − found −[45]\.\d\d m\)/);
   });
 
   it('refuses a second close-out, then signs off, with the whole story on the timeline', async () => {

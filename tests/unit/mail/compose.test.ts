@@ -21,8 +21,9 @@ describe('plain-text e-mail columns', () => {
     for (const line of lines) expect(line.length).toBeLessThanOrEqual(60);
   });
 
-  it('wraps a paragraph at spaces within the width', () => {
+  it('wraps a paragraph at spaces within the width, never between a number and its sign or unit', () => {
     expect(wrapText('one two three four five', 9)).toEqual(['one two', 'three', 'four five']);
+    expect(wrapText('from end A (Cabinet C-1), ± 2.31 m', 28)).toEqual(['from end A (Cabinet C-1),', '± 2.31 m']);
   });
 
   it('keeps every plain-text line of a message within 76 characters', () => {
