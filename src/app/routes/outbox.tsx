@@ -11,6 +11,28 @@ import { useRetryMailJob } from '../../features/outbox/api/retry-mail-job';
 import { MailStatusLine } from '../../features/outbox/components/mail-status';
 import { formatDateTime } from '../../lib/format';
 
+/**
+ * The HTML part in a frame as tall as its content. The frame may not run
+ * scripts (sandbox without allow-scripts); allow-same-origin only lets this
+ * page measure the content's height once it has loaded.
+ */
+function FormattedMessage({ html }: { html: string }) {
+  const [height, setHeight] = useState(384);
+  return (
+    <iframe
+      title="Formatted message"
+      sandbox="allow-same-origin"
+      srcDoc={html}
+      style={{ height }}
+      onLoad={(e) => {
+        const doc = e.currentTarget.contentDocument;
+        if (doc) setHeight(Math.max(120, doc.documentElement.scrollHeight + 16));
+      }}
+      className="w-full rounded border border-rule bg-white"
+    />
+  );
+}
+
 function MessageView({ message }: { message: OutboxMessageView }) {
   const [formatted, setFormatted] = useState(false);
   return (
@@ -41,10 +63,10 @@ function MessageView({ message }: { message: OutboxMessageView }) {
         </div>
       )}
       {formatted && message.html ? (
-        // sandbox with no permissions: the HTML can show but not run scripts or navigate.
-        <iframe title="Formatted message" sandbox="" srcDoc={message.html} className="h-96 w-full rounded border border-rule bg-white" />
+        <FormattedMessage html={message.html} />
       ) : (
-        <pre className="whitespace-pre-wrap break-words rounded border border-rule bg-paper p-3 font-sans text-sm" data-testid="outbox-body">
+        // Fixed-width letters, as a mail reader shows plain text, so the label and value columns line up.
+        <pre className="overflow-x-auto whitespace-pre rounded border border-rule bg-paper p-3 font-mono text-xs leading-relaxed sm:text-sm" data-testid="outbox-body">
           {message.body || '(no plain-text body)'}
         </pre>
       )}
