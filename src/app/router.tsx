@@ -1,4 +1,5 @@
 import { createBrowserRouter, type RouteObject } from 'react-router-dom';
+import { Loading } from '../components/ui/notice';
 import { AppShell } from './layout/app-shell';
 import { RequirePermission } from './layout/require-permission';
 import { paths } from './paths';
@@ -30,6 +31,8 @@ export const routes: RouteObject[] = [
   { path: paths.signIn.pattern, element: <SignInPage /> },
   {
     element: <AppShell />,
+    // Pages load on demand: until the first one has, the first paint is this line, not a blank page.
+    hydrateFallbackElement: <Loading what="Opening Rholog" />,
     children: [
       { path: paths.home.pattern, ...page(() => import('./routes/home')) },
       { path: paths.account.pattern, ...page(() => import('./routes/account')) },
