@@ -253,7 +253,8 @@ export function MeasurementForm({
   const [f, setF] = useState(initial);
   const [reason, setReason] = useState('');
   const set = (p: Partial<MeasurementFormState>) => setF((old) => ({ ...old, ...p }));
-  const errors = fieldErrors(error, unit);
+  // The location methods name a section "readings.faulty[0]", the request check "readings.faulty.0": one key for both.
+  const errors = Object.fromEntries(Object.entries(fieldErrors(error, unit)).map(([k, v]) => [k.replace(/\[(\d+)\]/g, '.$1'), v]));
   const submit = (e: FormEvent) => {
     e.preventDefault();
     onSubmit(f, reason);
