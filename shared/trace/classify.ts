@@ -15,9 +15,9 @@
  * ρ ≤ −0.8, otherwise an impedance rise or drop. A last event (nothing real
  * after it) whose edge is visibly spread by loss is typed an open from ρ ≥ +0.35
  * or a short from ρ ≤ −0.45 (±0.3 while it is still rising when the record
- * ends), since loss takes more of a far end than a correction can be sure to
- * give back; a partial fault with the line still visible beyond it keeps the
- * strict bands. The impedance is
+ * ends; +0.5 and −0.55 when its loss is corrected), since loss takes more of a
+ * far end than a correction can be sure to give back; a partial fault with the
+ * line still visible beyond it keeps the strict bands. The impedance is
  * Z = Z0 (1 + ρ)/(1 − ρ) (Pozar eq. 2.35), for step traces only.
  */
 import type { ReflectionType } from '../schemas/trace-analysis';
@@ -81,8 +81,10 @@ export function classifyEvent(m: Measured, own: OwnReflection, launchRiseSamples
     const settling = m.stillMoving > 0.05;
     const spread = m.riseSamples >= 4 * Math.max(1, launchRiseSamples) || settling;
     if (own.isLast && spread) {
-      if (rho >= 0.35 || (settling && rho >= 0.3)) return 'open';
-      if (rho <= -0.45 || (settling && rho <= -0.3)) return 'short';
+      // A loss-corrected ρ has had most of the loss given back, so it must come nearer ±1.
+      const [openMin, shortMax] = m.lossCorrected ? [0.5, -0.55] : [0.35, -0.45];
+      if (rho >= openMin || (settling && rho >= 0.3)) return 'open';
+      if (rho <= shortMax || (settling && rho <= -0.3)) return 'short';
     }
   }
   return m.height > 0 ? 'impedance-rise' : 'impedance-drop';

@@ -27,6 +27,14 @@ export interface EchoFindings {
 
 const STRONG = 0.3;
 
+/**
+ * Echo sizes are compared as read at the instrument: an echo has lost at least as much to
+ * the cable as the arrivals it copies. The reflectors it bounced between act with their
+ * own (loss-corrected) size.
+ */
+const seenAt = (m: Measured) => Math.abs(m.heightRaw ?? m.height);
+const own = (m: Measured) => Math.abs(m.height);
+
 function tolerance(m: Measured, rt: number): number {
   return Math.max(3, 0.6 * m.riseSamples, 0.004 * rt);
 }
@@ -35,15 +43,15 @@ function tolerance(m: Measured, rt: number): number {
 function echoOf(merged: Measured[], rt: number[], of: Array<number | null>, k: number, sourceRho: number): number | null {
   const e = merged[k];
   const tol = tolerance(e, rt[k]);
-  const he = Math.abs(e.height);
+  const he = seenAt(e);
   const near = (t: number) => Math.abs(rt[k] - t) < tol;
   for (let s = 0; s < k; s++) {
-    const hs = Math.abs(merged[s].height);
+    const hs = seenAt(merged[s]);
     if (of[s] !== null || he > hs) continue;
     if (hs >= STRONG && (near(2 * rt[s]) || near(3 * rt[s]))) return s;
     for (let a = 0; a <= s; a++) {
       if (of[a] !== null) continue;
-      const ha = Math.abs(merged[a].height);
+      const ha = seenAt(merged[a]);
       const viaSource = (a === s ? 1 : 2) * Math.abs(sourceRho / (1 + sourceRho)) * ha * hs;
       if (sourceRho !== 0 && near(rt[a] + rt[s]) && he < 1.5 * viaSource + 0.02) return s;
     }
@@ -61,13 +69,13 @@ function bounceOf(
   s: number,
   near: (t: number) => boolean,
 ): boolean {
-  const he = Math.abs(merged[k].height);
-  const hs = Math.abs(merged[s].height);
+  const he = seenAt(merged[k]);
+  const hs = seenAt(merged[s]);
   for (let b = 0; b <= s; b++) {
     if (of[b] !== null) continue;
     for (let a = 0; a < b; a++) {
       if (of[a] !== null) continue;
-      const gain = Math.abs(merged[a].height * merged[b].height);
+      const gain = Math.min(1, own(merged[a]) * own(merged[b]));
       const gap = rt[b] - rt[a];
       if (near(rt[s] + gap) && he < 1.5 * gain * hs + 0.02) return true;
       if (near(rt[s] + 2 * gap) && he < 1.5 * gain * gain * hs + 0.02) return true;
@@ -90,8 +98,7 @@ function markEchoes(merged: Measured[], rt: number[], sourceRho: number): Array<
 function sourceReflection(merged: Measured[], rt: number[], of: Array<number | null>): number {
   const primaries = merged.map((_, k) => k).filter((k) => of[k] === null && !merged[k].blip);
   const pairs: Array<[number, number, number]> = [];
-  for (const a of primaries)
-    for (const b of primaries) if (a <= b) pairs.push([a, b, Math.abs(merged[a].height * merged[b].height)]);
+  for (const a of primaries) for (const b of primaries) if (a <= b) pairs.push([a, b, seenAt(merged[a]) * seenAt(merged[b])]);
   pairs.sort((p, q) => q[2] - p[2]);
   for (const [a, b, size] of pairs) {
     if (size < 0.05) break;
@@ -99,7 +106,8 @@ function sourceReflection(merged: Measured[], rt: number[], of: Array<number | n
     const tol = tolerance(merged[b], at);
     const k = merged.findIndex((_, i) => i > b && Math.abs(rt[i] - at) < tol);
     if (k < 0) continue;
-    const r = merged[k].height / ((a === b ? 1 : 2) * merged[a].height * merged[b].height);
+    const raw = (m: Measured) => m.heightRaw ?? m.height;
+    const r = raw(merged[k]) / ((a === b ? 1 : 2) * raw(merged[a]) * raw(merged[b]));
     const rhoS = r / (1 - r);
     return Math.abs(rhoS) >= 0.05 && Math.abs(rhoS) <= 0.9 ? rhoS : 0;
   }
