@@ -2,7 +2,9 @@ import { Link } from 'react-router-dom';
 import { FINDING_KIND_LABELS } from '../../../shared/schemas/findings';
 import { TICKET_PRIORITIES, TICKET_PRIORITY_LABELS } from '../../../shared/tickets/status';
 import { Card, PageHeader } from '../../components/ui/card';
-import { Badge, ErrorNotice, Loading } from '../../components/ui/notice';
+import { ErrorNotice, Loading } from '../../components/ui/notice';
+import { StatusBadge } from '../../components/ui/status-badge';
+import { openDaysText } from '../../../shared/tickets/age';
 import { useSession } from '../../features/auth/use-session';
 import { useDashboard } from '../../features/dashboard/api/get-dashboard';
 import { AccuracyChart } from '../../features/dashboard/components/accuracy-chart';
@@ -62,10 +64,10 @@ export function DashboardPage() {
                     </span>
                     <TicketStatusBadge status={t.status} />
                     <PriorityBadge priority={t.priority} />
-                    {t.overdue && <Badge tone="danger">overdue</Badge>}
+                    {t.overdue && <StatusBadge kind="ticketFlag" status="overdue" />}
                   </span>
                   <span className="block text-xs text-mist">
-                    {t.site.name} · open {t.ageDays} {t.ageDays === 1 ? 'day' : 'days'} · {t.assignee ? t.assignee.name : 'nobody assigned'}
+                    {t.site.name} · open {openDaysText(t.ageDays)} · {t.assignee ? t.assignee.name : 'nobody assigned'}
                     {t.dueDate ? ` · due ${formatDate(t.dueDate)}` : ''}
                   </span>
                 </Link>

@@ -1,7 +1,8 @@
 import { Link, useParams } from 'react-router-dom';
 import { FINDING_KIND_LABELS } from '../../../shared/schemas/findings';
 import { Card, PageHeader } from '../../components/ui/card';
-import { Badge, ErrorNotice, Loading } from '../../components/ui/notice';
+import { ErrorNotice, Loading } from '../../components/ui/notice';
+import { StatusBadge } from '../../components/ui/status-badge';
 import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useSession } from '../../features/auth/use-session';
 import { useFinding } from '../../features/findings/api/get-finding';
@@ -40,7 +41,7 @@ export function FindingPage() {
         }
         actions={
           <>
-            <Badge tone={f.status === 'confirmed' ? 'danger' : 'plain'}>{f.status === 'confirmed' ? 'Confirmed fault' : 'Dismissed'}</Badge>
+            <StatusBadge kind="finding" status={f.status} />
             {f.status === 'confirmed' && can('tickets:manage') && (
               <Link
                 to={`${paths.tickets.to()}?finding=${f.id}`}
