@@ -126,7 +126,19 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
   const vf = options.vf;
   const leadM = options.leadLengthM ?? 0;
   const mPerSample = (vf * SPEED_OF_LIGHT_M_PER_S * rec.dt) / 2;
-  const echoes = findEchoes(merged, (m) => m.onsetIdx - zeroIndex(tb, m.fLo));
+  // Echoes and the events' own ρ depend on each other: a first pass sizes the reflectors.
+  const rtOf = (m: Measured) => m.onsetIdx - zeroIndex(tb, m.fLo);
+  const first = findEchoes(merged, rtOf);
+  const firstOwn = ownReflections(
+    merged,
+    first.of.map((s) => s !== null),
+    first.sourceRho,
+  );
+  const echoes = findEchoes(
+    merged,
+    rtOf,
+    firstOwn.map((o) => o.rho),
+  );
   if (echoes.sourceRho !== 0) warnings.push(sourceWarning(echoes.sourceRho));
   const isEcho = echoes.of.map((s) => s !== null);
   const own = ownReflections(merged, isEcho, echoes.sourceRho);

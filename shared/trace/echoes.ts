@@ -33,14 +33,22 @@ const STRONG = 0.3;
  * own (loss-corrected) size.
  */
 const seenAt = (m: Measured) => Math.abs(m.heightRaw ?? m.height);
-const own = (m: Measured) => Math.abs(m.height);
 
 function tolerance(m: Measured, rt: number): number {
   return Math.max(3, 0.6 * m.riseSamples, 0.004 * rt);
 }
 
+interface EchoContext {
+  merged: Measured[];
+  rt: number[];
+  /** Each edge's own ρ where known (past what stands in front of it), else its height. */
+  own: number[];
+  sourceRho: number;
+}
+
 /** Which earlier edge `merged[k]` echoes, given the echoes found so far. */
-function echoOf(merged: Measured[], rt: number[], of: Array<number | null>, k: number, sourceRho: number): number | null {
+function echoOf(cx: EchoContext, of: Array<number | null>, k: number): number | null {
+  const { merged, rt, sourceRho } = cx;
   const e = merged[k];
   const tol = tolerance(e, rt[k]);
   const he = seenAt(e);
@@ -55,27 +63,21 @@ function echoOf(merged: Measured[], rt: number[], of: Array<number | null>, k: n
       const viaSource = (a === s ? 1 : 2) * Math.abs(sourceRho / (1 + sourceRho)) * ha * hs;
       if (sourceRho !== 0 && near(rt[a] + rt[s]) && he < 1.5 * viaSource + 0.02) return s;
     }
-    if (bounceOf(merged, rt, of, k, s, near)) return s;
+    if (bounceOf(cx, of, k, s, near)) return s;
   }
   return null;
 }
 
 /** Is merged[k] the copy of merged[s] that bounced once or twice between two earlier reflectors a < b ≤ s? */
-function bounceOf(
-  merged: Measured[],
-  rt: number[],
-  of: Array<number | null>,
-  k: number,
-  s: number,
-  near: (t: number) => boolean,
-): boolean {
+function bounceOf(cx: EchoContext, of: Array<number | null>, k: number, s: number, near: (t: number) => boolean): boolean {
+  const { merged, rt, own } = cx;
   const he = seenAt(merged[k]);
   const hs = seenAt(merged[s]);
   for (let b = 0; b <= s; b++) {
     if (of[b] !== null) continue;
     for (let a = 0; a < b; a++) {
       if (of[a] !== null) continue;
-      const gain = Math.min(1, own(merged[a]) * own(merged[b]));
+      const gain = Math.min(1, Math.abs(own[a] * own[b]));
       const gap = rt[b] - rt[a];
       if (near(rt[s] + gap) && he < 1.5 * gain * hs + 0.02) return true;
       if (near(rt[s] + 2 * gap) && he < 1.5 * gain * gain * hs + 0.02) return true;
@@ -84,9 +86,9 @@ function bounceOf(
   return false;
 }
 
-function markEchoes(merged: Measured[], rt: number[], sourceRho: number): Array<number | null> {
+function markEchoes(cx: EchoContext): Array<number | null> {
   const of: Array<number | null> = [];
-  for (let k = 0; k < merged.length; k++) of.push(echoOf(merged, rt, of, k, sourceRho));
+  for (let k = 0; k < cx.merged.length; k++) of.push(echoOf(cx, of, k));
   return of;
 }
 
@@ -114,12 +116,16 @@ function sourceReflection(merged: Measured[], rt: number[], of: Array<number | n
   return 0;
 }
 
-/** Echoes among the measured edges (round trips in samples), and the source's ρ they reveal. */
-export function findEchoes(merged: Measured[], rtOf: (m: Measured) => number): EchoFindings {
+/**
+ * Echoes among the measured edges (round trips in samples), and the source's ρ they reveal.
+ * `ownRho`, each edge's own ρ from a first pass, sizes the bounces between reflectors.
+ */
+export function findEchoes(merged: Measured[], rtOf: (m: Measured) => number, ownRho?: number[]): EchoFindings {
   const rt = merged.map(rtOf);
-  const first = markEchoes(merged, rt, 0);
+  const own = ownRho ?? merged.map((m) => m.height);
+  const first = markEchoes({ merged, rt, own, sourceRho: 0 });
   const sourceRho = sourceReflection(merged, rt, first);
-  return { of: sourceRho === 0 ? first : markEchoes(merged, rt, sourceRho), sourceRho };
+  return { of: sourceRho === 0 ? first : markEchoes({ merged, rt, own, sourceRho }), sourceRho };
 }
 
 /** Echoes are judged on the heights read at the instrument, not on the events' own ρ. */
