@@ -32,6 +32,19 @@ export const reflectionEventSchema = z.object({
   reflectionCoefficientRaw: z.number().optional(),
   /** True when `reflectionCoefficient` is corrected for the cable's loss. */
   lossCorrected: z.boolean().optional(),
+  /** How many dB the cable's loss had lowered this event's reading: 20·log10 of the corrected over the raw height. */
+  pathLossDb: z.number().nullable().optional(),
+  /** Standard uncertainties behind the window, metres (uncertaintyM is COVERAGE_FACTOR times their root-sum-square). */
+  uncertaintyBudget: z
+    .object({
+      vfM: z.number().nonnegative(),
+      samplingM: z.number().nonnegative(),
+      timingM: z.number().nonnegative(),
+      lossM: z.number().nonnegative(),
+      dispersionM: z.number().nonnegative(),
+      combinedM: z.number().nonnegative(),
+    })
+    .optional(),
   /** The event lies inside the launch's blind zone but stands out of it; its reading is less certain. */
   insideBlindZone: z.boolean().optional(),
   /** Z = Z0 (1 + ρ) / (1 − ρ); step traces with a known Z0 only. */
@@ -87,6 +100,10 @@ export const traceAnalysisSchema = z.object({
     .optional(),
   /** Coverage the uncertainty windows are stated at (e.g. 0.95). */
   windowCoverage: z.number().min(0).max(1).optional(),
+  /** Where the cable loss the events were fitted with came from: the cable library, estimated from this trace, or none. */
+  lossSource: z.enum(['library', 'estimated', 'none']).optional(),
+  /** That loss, as attenuation at a few frequencies (dB per 100 m). */
+  lossDbPer100m: z.array(z.object({ frequencyHz: z.number().positive(), dbPer100m: z.number().nonnegative() })).optional(),
   events: z.array(reflectionEventSchema),
   warnings: z.array(traceWarningSchema),
 });

@@ -1,12 +1,36 @@
 /**
- * Edge fit: the arrival time and height of each detected event.
+ * Edge fit: the arrival time and height of each detected event, in two passes.
  *
- * Today: the level just before the event, the level after it (widened until a
- * lossy edge stops rising), and its onset by the tangent construction of
- * onset.ts. This is the seam where a fit of the line's own (loss-spread) edge
- * shape replaces the construction.
+ * 1. Reading (fitEdges): the level just before the event, the level after it
+ *    (widened until a lossy edge stops rising), and its onset by the tangent
+ *    construction of onset.ts. Cheap, and good enough to merge and sort events.
+ * 2. Line fit (fitLineEdges): each event is modelled as the line's own response,
+ *    the launch as recorded convolved with the round trip's skin-effect erfc
+ *    edge and dielectric spread (loss.ts), and its delay and height are fitted by
+ *    least squares over a window around the event only: the height and the level
+ *    before it enter linearly and are solved exactly for each trial delay
+ *    (variable projection, G. H. Golub and V. Pereyra, SIAM J. Numer. Anal. 10
+ *    (1973) 413), the delay by a grid then golden-section search on the residual
+ *    (J. Kiefer, Proc. AMS 4 (1953) 502). The delay's standard uncertainty is
+ *    σ·√(2/S''), from the residual's curvature at the minimum (the Gauss–Newton
+ *    covariance of one parameter). The fitted delay is the arrival at the
+ *    lossless speed, so far events no longer read late, and the fitted height is
+ *    the reflection coefficient the loss had hidden.
+ *    With the cable's loss unknown, the skin parameter is fitted on the clearest
+ *    far event and scaled to the others by distance.
  */
-import { measureOnset, type Onset } from './onset';
+import { SPEED_OF_LIGHT_M_PER_S } from '../cable/propagation';
+import {
+  attenuationDbPer100m,
+  erfc,
+  lineKernel,
+  lossModelFromPoints,
+  NO_LOSS,
+  type LineKernel,
+  type LossModel,
+  type LossPoint,
+} from './loss';
+import { launchOnsetTimer, measureOnset, type Onset } from './onset';
 import { lineFit, sampleMedian } from './stats';
 import type { Candidate, Launch, Measured, TraceRecord, WorkingSignal } from './steps';
 
@@ -16,6 +40,10 @@ export interface EdgeFitInput {
   signal: WorkingSignal;
   /** Smallest |ρ| kept. */
   rhoMin: number;
+  /** Velocity factor, to turn a delay into the length of line the wave crossed. */
+  vf?: number;
+  /** The cable's attenuation at stated frequencies, when known. */
+  loss?: readonly LossPoint[];
 }
 
 const lowFraction = (sigmaLocal: number, height: number) => Math.min(0.3, Math.max(0.1, (3 * sigmaLocal) / Math.abs(height)));
@@ -111,6 +139,8 @@ function fitOne(input: EdgeFitInput, accepted: Candidate[], k: number, prevEnd: 
     t50Idx: r.t50,
     riseSamples: r.rise,
     height,
+    heightRaw: height,
+    lossCorrected: false,
     peakDev,
     blip,
     snr: c.snr,
@@ -135,4 +165,469 @@ export function fitEdges(input: EdgeFitInput, accepted: Candidate[]): Measured[]
     prevEnd = Math.min(n - 1, Math.max(prevEnd, accepted[k].i + accepted[k].w));
   }
   return measured;
+}
+
+// ---- pass 2: the line fit ----
+
+/** Points a fit window is reduced to, at most, by block means: the fit's cost stays bounded on long records. */
+const MAX_FIT_POINTS = 600;
+/** The same for the fits that estimate an unknown loss. */
+const ESTIMATE_POINTS = 300;
+/** Relative change of the loss parameter used to measure a delay's sensitivity to the loss model. */
+export const LOSS_PROBE = 0.25;
+
+export type LossSource = 'library' | 'estimated' | 'none';
+
+/** What the line fit adds to a measured edge. */
+export interface LineFit {
+  /** What the delay counts from: the recorded launch, or the trace's own time zero. */
+  reference: 'launch' | 'axis';
+  /** Where the loss model came from. */
+  lossSource: LossSource;
+  /** Round trip at the lossless speed, in samples. */
+  delaySamples: number;
+  /** Standard uncertainty of the delay from the fit, samples. */
+  sigmaDelaySamples: number;
+  /** Height as read before the line fit (loss not corrected). */
+  heightRaw: number;
+  /** Change of the delay when the loss parameter is LOSS_PROBE larger, samples. */
+  lossSensitivitySamples: number;
+  /** How far after the arrival the modelled edge reaches half height (step) or its peak (pulse), samples. */
+  lossDelaySamples: number;
+  /** The loss model's dielectric term, nepers per metre per hertz (for the dispersion it implies). */
+  dielectricNpPerMPerHz: number;
+}
+
+/** Launch shape in the fit's domain (step: u's first difference; pulse: the launch pulse), on the full-rate grid. */
+interface LaunchShape {
+  kind: 'measured' | 'synthetic';
+  step: boolean;
+  reference: 'launch' | 'axis';
+  /** Measured: sample range of the launch. */
+  from: number;
+  to: number;
+  /** Synthetic: centre and σ of a Gaussian edge, samples. */
+  centre: number;
+  sigma: number;
+}
+
+function launchShape(input: EdgeFitInput): LaunchShape | null {
+  const { launch: L, signal: sig, rec } = input;
+  const step = sig.mode === 'step';
+  const rise = Math.max(1, L.riseSamples);
+  if (L.found && L.onsetInRecord && !L.clipped) {
+    const from = Math.max(0, L.idx - Math.max(4, 2 * rise));
+    const to = Math.min(rec.n - 1, Math.max(L.settleIdx, L.idx + 2 * rise) + rise);
+    return { kind: 'measured', step, reference: 'launch', from, to, centre: 0, sigma: 0 };
+  }
+  // No usable launch: a Gaussian edge centred on time zero (a reference-plane trace's edges are
+  // symmetric about their delay), as sharp as the record's own rise allows (10–90 % is 2.5631 σ).
+  if (!step) return null;
+  return { kind: 'synthetic', step, reference: 'axis', from: 0, to: 0, centre: L.zeroIdx, sigma: Math.max(0.5, rise / 2.5631) };
+}
+
+/** Block means of x over the blocks J0 … J1−1 of q samples (block J covers [Jq, Jq + q)). */
+function blockMeans(x: Float64Array, j0: number, j1: number, q: number): Float64Array {
+  const out = new Float64Array(Math.max(0, j1 - j0));
+  const n = x.length;
+  for (let j = j0; j < j1; j++) {
+    const a = Math.max(0, j * q);
+    const b = Math.min(n, j * q + q);
+    let acc = 0;
+    for (let i = a; i < b; i++) acc += x[i];
+    out[j - j0] = b > a ? acc / (b - a) : x[Math.min(n - 1, Math.max(0, a))];
+  }
+  return out;
+}
+
+/** Standard normal distribution function, Φ(z) = erfc(−z/√2)/2. */
+const gaussCdf = (z: number) => 0.5 * erfc(-z / Math.SQRT2);
+
+/** The launch's impulse on the grid of q-sample blocks: values[j] sits at block start + j. */
+function coarseLaunch(input: EdgeFitInput, shape: LaunchShape, q: number): { values: Float64Array; start: number } {
+  if (shape.kind === 'synthetic') {
+    // Block J's mean sits at sample Jq + (q − 1)/2.
+    const c = (shape.centre - (q - 1) / 2) / q;
+    const sg = Math.max(0.3, shape.sigma / q);
+    const start = Math.floor(c - 5 * sg);
+    const len = Math.ceil(10 * sg) + 2;
+    const values = new Float64Array(len);
+    for (let j = 0; j < len; j++) values[j] = gaussCdf((start + j - c) / sg) - gaussCdf((start + j - 1 - c) / sg);
+    return { values, start };
+  }
+  const j0 = Math.floor(shape.from / q);
+  const j1 = Math.ceil(shape.to / q) + 1;
+  const src = shape.step ? input.signal.u : input.signal.pulseRaw;
+  const means = blockMeans(src, j0, j1, q);
+  if (!shape.step) return { values: means, start: j0 };
+  const values = new Float64Array(Math.max(1, means.length - 1));
+  for (let j = 0; j + 1 < means.length; j++) values[j] = means[j + 1] - means[j];
+  return { values, start: j0 + 1 };
+}
+
+/** A reflection's shape on the block grid: value at block J for delay D is at x = J − start − D. */
+interface Template {
+  values: Float64Array;
+  start: number;
+  step: boolean;
+}
+
+function buildTemplate(launch: { values: Float64Array; start: number }, kernel: LineKernel, step: boolean): Template {
+  const a = launch.values;
+  const g = kernel.values;
+  const out = new Float64Array(a.length + g.length - 1);
+  for (let i = 0; i < a.length; i++) {
+    const ai = a[i];
+    if (ai === 0) continue;
+    for (let k = 0; k < g.length; k++) out[i + k] += ai * g[k];
+  }
+  if (step) for (let i = 1; i < out.length; i++) out[i] += out[i - 1];
+  return { values: out, start: launch.start - kernel.offset, step };
+}
+
+function templateAt(t: Template, x: number): number {
+  const v = t.values;
+  if (x <= 0) return x === 0 ? v[0] : 0;
+  const last = v.length - 1;
+  if (x >= last) return t.step ? v[last] : 0;
+  const i = Math.floor(x);
+  const f = x - i;
+  return v[i] + f * (v[i + 1] - v[i]);
+}
+
+interface WindowData {
+  y: Float64Array;
+  /** Block index of y[0]. */
+  j0: number;
+  q: number;
+}
+
+/** Residual sum of squares of y ≈ b + h·template at delay d, with b and h solved exactly. */
+function profile(w: WindowData, t: Template, d: number): { ss: number; b: number; h: number } {
+  const { y, j0 } = w;
+  const n = y.length;
+  let se = 0;
+  let see = 0;
+  let sy = 0;
+  let sey = 0;
+  let syy = 0;
+  for (let k = 0; k < n; k++) {
+    const e = templateAt(t, j0 + k - t.start - d);
+    const yk = y[k];
+    se += e;
+    see += e * e;
+    sy += yk;
+    sey += e * yk;
+    syy += yk * yk;
+  }
+  const det = n * see - se * se;
+  if (!(det > 1e-12 * n * Math.max(see, 1e-300))) {
+    const b = sy / n;
+    return { ss: syy - n * b * b, b, h: 0 };
+  }
+  const h = (n * sey - se * sy) / det;
+  const b = (sy - h * se) / n;
+  return { ss: Math.max(0, syy - b * sy - h * sey), b, h };
+}
+
+/** Minimum of f on [a, b] by golden-section search, one new evaluation per step. */
+function goldenMin(f: (x: number) => number, a: number, b: number, tol: number, maxIter = 60): { x: number; fx: number } {
+  const phi = (Math.sqrt(5) - 1) / 2;
+  let c = b - phi * (b - a);
+  let e = a + phi * (b - a);
+  let fc = f(c);
+  let fe = f(e);
+  for (let it = 0; it < maxIter && b - a > tol; it++) {
+    if (fc < fe) {
+      b = e;
+      e = c;
+      fe = fc;
+      c = b - phi * (b - a);
+      fc = f(c);
+    } else {
+      a = c;
+      c = e;
+      fc = fe;
+      e = a + phi * (b - a);
+      fe = f(e);
+    }
+  }
+  return fc < fe ? { x: c, fx: fc } : { x: e, fx: fe };
+}
+
+/** Delay of least residual in [lo, hi]: a grid of at most 24 steps (none over a few samples), then golden-section search around its best point. */
+function bestDelay(w: WindowData, t: Template, lo: number, hi: number, sign: number): { d: number; ss: number; h: number } {
+  const steps = Math.max(8, Math.min(24, Math.ceil((hi - lo) / 0.5)));
+  const step = (hi - lo) / steps;
+  let best = { d: lo, ss: Infinity, h: 0 };
+  for (let k = 0; k <= steps; k++) {
+    const d = lo + k * step;
+    const p = profile(w, t, d);
+    if (Math.sign(p.h) === sign && p.ss < best.ss) best = { d, ss: p.ss, h: p.h };
+  }
+  if (!Number.isFinite(best.ss)) return best;
+  const g = goldenMin((d) => profile(w, t, d).ss, Math.max(lo, best.d - step), Math.min(hi, best.d + step), 1e-3);
+  const p = profile(w, t, g.x);
+  return p.ss <= best.ss && Math.sign(p.h) === sign ? { d: g.x, ss: p.ss, h: p.h } : best;
+}
+
+/** Standard uncertainty of the delay: σ√(2/S''), σ² from the residual (N − 3 degrees of freedom). */
+function delaySigma(w: WindowData, t: Template, d: number, ss: number, fallback: number): number {
+  const delta = 0.5;
+  const curv = (profile(w, t, d + delta).ss - 2 * ss + profile(w, t, d - delta).ss) / (delta * delta);
+  const dof = Math.max(1, w.y.length - 3);
+  if (!(curv > 0)) return fallback;
+  return Math.min(fallback, Math.sqrt((2 * (ss / dof)) / curv));
+}
+
+/** Samples from the arrival to the template's half height (step) or peak (pulse). */
+function middleOf(t: Template): number {
+  const v = t.values;
+  let k = 0;
+  if (t.step) {
+    const top = v[v.length - 1];
+    while (k < v.length - 1 && Math.abs(v[k]) < 0.5 * Math.abs(top)) k++;
+    if (k > 0 && v[k] !== v[k - 1]) return k - 1 + (0.5 * top - v[k - 1]) / (v[k] - v[k - 1]);
+    return k;
+  }
+  for (let i = 1; i < v.length; i++) if (Math.abs(v[i]) > Math.abs(v[k])) k = i;
+  return k;
+}
+
+interface EventWindow {
+  /** Full-rate sample range of the window. */
+  from: number;
+  to: number;
+  /** Delay search range, full-rate samples. */
+  lo: number;
+  hi: number;
+  sign: number;
+}
+
+interface FitContext {
+  input: EdgeFitInput;
+  shape: LaunchShape;
+  /** Length of line (out and back) per sample of round trip, metres. */
+  twoWayMPerSample: number;
+  /** Earlier fitted events, subtracted from later windows so their slow tails do not pass for a baseline. */
+  peeled: Array<{ t: Template; q: number; d: number; h: number }>;
+}
+
+/** Full-rate window and delay range for event k of `events`. */
+function eventWindow(ctx: FitContext, events: Measured[], k: number): EventWindow {
+  const { launch: L, signal: sig, rec } = ctx.input;
+  const m = events[k];
+  const riseL = Math.max(1, L.riseSamples);
+  const riseE = Math.max(m.riseSamples, riseL);
+  const prev = k > 0 ? events[k - 1].onsetIdx : -Infinity;
+  const next = k + 1 < events.length ? events[k + 1].onsetIdx : rec.n;
+  const pre = Math.max(8, 2 * m.w, 3 * riseL);
+  const post = Math.max(24, 8 * m.w, 6 * riseE, 3 * (L.widthSamples ?? 0));
+  const ref = ctx.shape.reference === 'launch' ? L.idx : ctx.shape.centre;
+  const d0 = (ctx.shape.reference === 'launch' ? m.onsetIdx : m.t50Idx) - ref;
+  // The window starts a baseline's length before the earliest arrival tried, but after the previous event's
+  // onset (whose fitted shape is taken out of it); no arrival is tried before the window.
+  const earliest = ref + d0 - Math.max(8, riseE);
+  const from = Math.max(sig.start, Math.round(prev + 2), Math.round(Math.min(m.onsetIdx, earliest) - pre));
+  const to = Math.min(rec.n, Math.round(m.onsetIdx + post), Math.round(next - Math.max(2, 0.5 * riseL)));
+  const lo = Math.max(d0 - Math.max(8, riseE), from + 2 - ref);
+  return { from, to, lo, hi: Math.max(lo + 8, d0 + Math.max(8, 0.5 * riseE)), sign: Math.sign(m.height) || 1 };
+}
+
+function windowData(ctx: FitContext, win: EventWindow, q: number): WindowData {
+  const src = ctx.shape.step ? ctx.input.signal.u : ctx.input.signal.pulseRaw;
+  const j0 = Math.floor(win.from / q);
+  const j1 = Math.max(j0 + 4, Math.ceil(win.to / q));
+  const y = blockMeans(src, j0, j1, q);
+  for (const p of ctx.peeled) {
+    for (let k = 0; k < y.length; k++) {
+      const centre = (j0 + k) * q + (q - 1) / 2;
+      const jp = (centre - (p.q - 1) / 2) / p.q;
+      y[k] -= p.h * templateAt(p.t, jp - p.t.start - p.d);
+    }
+  }
+  return { y, j0, q };
+}
+
+interface ModelFit {
+  /** Full-rate samples. */
+  d: number;
+  sigma: number;
+  h: number;
+  ss: number;
+  t: Template;
+  q: number;
+  dq: number;
+  middle: number;
+}
+
+/** Fit one window with one loss model; `twoWayM` sets the size of the loss spread. */
+function fitWindow(
+  ctx: FitContext,
+  win: EventWindow,
+  model: LossModel,
+  twoWayM: number,
+  opts: { withMiddle?: boolean; maxPoints?: number } = {},
+): ModelFit | null {
+  const { rec } = ctx.input;
+  const withMiddle = opts.withMiddle ?? true;
+  const q = Math.max(1, Math.ceil((win.to - win.from) / (opts.maxPoints ?? MAX_FIT_POINTS)));
+  const w = windowData(ctx, win, q);
+  if (w.y.length < 6) return null;
+  const launch = coarseLaunch(ctx.input, ctx.shape, q);
+  const span = w.y.length + (win.hi - win.lo) / q + 8;
+  const kernel = lineKernel(model, Math.max(0, twoWayM), rec.dt * q, span);
+  const t = buildTemplate(launch, kernel, ctx.shape.step);
+  const best = bestDelay(w, t, win.lo / q, win.hi / q, win.sign);
+  if (!Number.isFinite(best.ss)) return null;
+  const sigma = delaySigma(w, t, best.d, best.ss, (win.hi - win.lo) / q / 2);
+  const middle = withMiddle ? middleOf(t) - kernel.offset - middleOf(buildTemplate(launch, { values: Float64Array.of(1), offset: 0 }, ctx.shape.step)) : 0;
+  return {
+    d: best.d * q,
+    sigma: sigma * q,
+    h: best.h,
+    ss: best.ss,
+    t,
+    q,
+    dq: best.d,
+    middle: middle * q,
+  };
+}
+
+const twoWayOf = (ctx: FitContext, delaySamples: number) => Math.max(0, delaySamples) * ctx.twoWayMPerSample;
+
+/** Fit with the model's spread for the event's own distance, once more if the fitted distance moved it. */
+function fitAtDistance(ctx: FitContext, win: EventWindow, model: LossModel): ModelFit | null {
+  const guess = (win.lo + win.hi) / 2;
+  let f = fitWindow(ctx, win, model, twoWayOf(ctx, guess));
+  if (f && model !== NO_LOSS && Math.abs(f.d - guess) > 0.02 * Math.abs(guess)) f = fitWindow(ctx, win, model, twoWayOf(ctx, f.d)) ?? f;
+  return f;
+}
+
+/**
+ * The skin term of a cable of unknown loss, from the event that shows its edge
+ * best: the erfc parameter whose fit leaves the least residual, searched over
+ * the edge's half-height delay t50 = 1.0990·K² on a doubling grid, then refined.
+ * Null when the best fit is no better than the lossless one by more than the
+ * noise (the loss is not measurable on this trace).
+ */
+function estimateSkin(ctx: FitContext, events: Measured[]): LossModel | null {
+  const fittable = events.map((m, k) => ({ m, k })).filter(({ m }) => !m.blip);
+  if (fittable.length === 0) return null;
+  const { k, m } = fittable.reduce((a, b) => (Math.abs(b.m.height) * b.m.snr > Math.abs(a.m.height) * a.m.snr ? b : a));
+  // An edge no wider than the launch shows no loss worth a fit.
+  if (m.riseSamples <= 1.5 * Math.max(1, ctx.input.launch.riseSamples) + 1) return null;
+  const win = eventWindow(ctx, events, k);
+  const d0 = (win.lo + win.hi) / 2;
+  const twoWayM = twoWayOf(ctx, d0);
+  if (!(twoWayM > 0)) return null;
+  const dt = ctx.input.rec.dt;
+  const modelFor = (t50Samples: number): LossModel => {
+    const kParam = Math.sqrt((t50Samples * dt) / 1.099);
+    return { skinNpPerMRootHz: (kParam * Math.sqrt(Math.PI)) / twoWayM, dielectricNpPerMPerHz: 0 };
+  };
+  const ssAt = (t50: number) =>
+    fitWindow(ctx, win, t50 > 0 ? modelFor(t50) : NO_LOSS, twoWayM, { withMiddle: false, maxPoints: ESTIMATE_POINTS })?.ss ?? Infinity;
+  // First guess from the widening: the erfc edge's 10–90 % time is 28.6 times its t50
+  // (31.48·K² against 1.099·K²), and the launch's own rise adds to it.
+  const guess = Math.max(0.25, (m.riseSamples - Math.max(1, ctx.input.launch.riseSamples)) / 28.6);
+  const lossless = ssAt(0);
+  // A look a factor 2 apart within 16 times either side of the guess, then golden-section between the best one's neighbours.
+  const grid = [1 / 16, 1 / 8, 1 / 4, 1 / 2, 1, 2, 4, 8, 16].map((f) => guess * f);
+  const scores = grid.map(ssAt);
+  let bi = 0;
+  for (let i = 1; i < grid.length; i++) if (scores[i] < scores[bi]) bi = i;
+  const g = goldenMin((x) => ssAt(Math.exp(x)), Math.log(grid[bi] / 2), Math.log(grid[bi] * 2), 0.05, 7);
+  const best = g.fx < scores[bi] ? { t50: Math.exp(g.x), ss: g.fx } : { t50: grid[bi], ss: scores[bi] };
+  const dof = Math.max(1, Math.min(ESTIMATE_POINTS, win.to - win.from) - 3);
+  // Keep the estimate only if it fits better than no loss by clearly more than the noise.
+  if (lossless - best.ss < 9 * (best.ss / dof)) return null;
+  return modelFor(best.t50);
+}
+
+export interface LineFitResult {
+  events: Measured[];
+  lossSource: LossSource;
+  loss: LossModel;
+}
+
+/**
+ * Refit every event (blips excepted) with the line's own response. Events the
+ * fit cannot improve keep their reading; the others get the fitted height and
+ * `fit` with the delay and its uncertainty.
+ */
+export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitResult {
+  const shape = launchShape(input);
+  const library = input.loss && input.loss.length > 0 ? lossModelFromPoints(input.loss) : null;
+  if (!shape || !input.vf) return { events, lossSource: library ? 'library' : 'none', loss: library ?? NO_LOSS };
+  const ctx: FitContext = { input, shape, twoWayMPerSample: input.vf * SPEED_OF_LIGHT_M_PER_S * input.rec.dt, peeled: [] };
+  const estimated = library ? null : estimateSkin(ctx, events);
+  const model = library ?? estimated ?? NO_LOSS;
+  const lossSource: LossSource = library ? 'library' : estimated ? 'estimated' : 'none';
+  const launchOnset = launchOnsetTimer(input.launch, input.signal);
+  for (const [k, m] of events.entries()) {
+    // A blip is two edges, and an event inside the blind zone rides on the launch's own tail: their readings stand.
+    if (m.blip || m.onsetIdx < input.signal.blindIdx) continue;
+    const win = eventWindow(ctx, events, k);
+    if (win.to - win.from < 8) continue;
+    const f = fitAtDistance(ctx, win, model);
+    if (!f || !acceptable(f, m, win)) continue;
+    const probe = model === NO_LOSS ? null : fitWindow(ctx, win, scaled(model, 1 + LOSS_PROBE), twoWayOf(ctx, f.d), { withMiddle: false });
+    m.fit = {
+      reference: shape.reference,
+      lossSource,
+      delaySamples: f.d,
+      sigmaDelaySamples: f.sigma,
+      heightRaw: m.height,
+      lossSensitivitySamples: probe ? Math.abs(probe.d - f.d) : 0,
+      lossDelaySamples: Math.max(0, f.middle),
+      dielectricNpPerMPerHz: model.dielectricNpPerMPerHz,
+    };
+    m.heightRaw = m.height;
+    m.height = f.h;
+    m.lossCorrected = lossSource !== 'none';
+    // Timed from the launch's onset (or the trace's zero), so the location step reads the fitted delay.
+    const onset = shape.reference === 'launch' ? launchOnset(m.fLo) + f.d : input.launch.zeroIdx + f.d;
+    m.onsetIdx = onset;
+    if (shape.reference === 'axis') m.t50Idx = onset;
+    ctx.peeled.push({ t: f.t, q: f.q, d: f.dq, h: f.h });
+  }
+  return { events, lossSource, loss: model };
+}
+
+const scaled = (m: LossModel, k: number): LossModel => ({
+  skinNpPerMRootHz: m.skinNpPerMRootHz * k,
+  dielectricNpPerMPerHz: m.dielectricNpPerMPerHz * k,
+});
+
+/** A fit is kept when its delay is inside the searched range and its height is a believable correction of the reading. */
+function acceptable(f: ModelFit, m: Measured, win: EventWindow): boolean {
+  const inside = f.d > win.lo + 0.01 * (win.hi - win.lo) && f.d < win.hi - 0.01 * (win.hi - win.lo);
+  const raw = Math.abs(m.height);
+  const h = Math.abs(f.h);
+  return inside && Math.sign(f.h) === Math.sign(m.height) && h >= 0.5 * raw && h <= Math.max(1.3, 1.3 * raw);
+}
+
+/** Round trip of a fitted event in samples, from the launch or from a manual time zero. */
+export function fittedRoundTrip(fit: LineFit, zeroOverride: number | null, launchOnset: number, zeroIdx: number): number {
+  if (zeroOverride === null) return fit.delaySamples;
+  return fit.delaySamples + (fit.reference === 'launch' ? launchOnset : zeroIdx) - zeroOverride;
+}
+
+/** How many dB the cable's loss had lowered an event's reading (null where the reading was not corrected). */
+export function pathLossDb(m: Measured): number | null {
+  if (!m.fit || !m.lossCorrected || !(Math.abs(m.fit.heightRaw) > 0)) return null;
+  return 20 * Math.log10(Math.abs(m.height) / Math.abs(m.fit.heightRaw));
+}
+
+/** The frequencies the loss used is reported at. */
+const SUMMARY_FREQUENCIES_HZ = [1e6, 1e7, 1e8];
+
+/** Where the loss came from, and the loss itself at a few frequencies, for the analysis. */
+export function lossSummary(r: LineFitResult): { lossSource: LossSource; lossDbPer100m: Array<{ frequencyHz: number; dbPer100m: number }> } {
+  return {
+    lossSource: r.lossSource,
+    lossDbPer100m:
+      r.lossSource === 'none' ? [] : SUMMARY_FREQUENCIES_HZ.map((f) => ({ frequencyHz: f, dbPer100m: Number(attenuationDbPer100m(r.loss, f).toPrecision(4)) })),
+  };
 }

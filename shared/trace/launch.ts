@@ -40,6 +40,8 @@ interface Levels {
   zeroIdx: number;
   /** Smallest excursion read as the launch: a quarter of the range, raised to 5 σ of slow noise (at most 0.6 of the range). */
   launchMin: number;
+  /** Noise, including its slow part. */
+  noise: number;
 }
 
 function recordLevels(rec: TraceRecord, slowNoise: number): Levels {
@@ -53,6 +55,7 @@ function recordLevels(rec: TraceRecord, slowNoise: number): Levels {
     hi,
     range,
     launchMin: Math.max(0.25 * range, Math.min(0.6 * range, 5 * slowNoise)),
+    noise: slowNoise,
     bStart: sampleMedian(y, 0, Math.min(n, 5)),
     rest: sampleMedian(y, Math.floor(n / 5), n),
     zeroIdx: -t[0] / dt,
@@ -120,7 +123,12 @@ function fractionNear(y: Float64Array, from: number, level: number, band: number
 }
 
 /** Pulse or step: does the launch fall back below half its height soon, stay down, and the record rest at the baseline? */
-function launchFall(y: Float64Array, e: LaunchEdge, pulseHintSamples: number | null): { iFall: number; looksPulse: boolean } {
+function launchFall(
+  y: Float64Array,
+  e: LaunchEdge,
+  pulseHintSamples: number | null,
+  noise: number,
+): { iFall: number; looksPulse: boolean } {
   const n = y.length;
   const ys = smoothedAt(y);
   const { sign, baseline, peak, riseSamples, ic } = e;
@@ -134,8 +142,9 @@ function launchFall(y: Float64Array, e: LaunchEdge, pulseHintSamples: number | n
   // Without a stated width, an excursion over a third of the record is taken as a step into
   // a near short: instruments set pulses much shorter than the record.
   const short = pulseHintSamples !== null ? width < 3 * pulseHintSamples + 4 * riseSamples : width < 0.35 * (n - ic);
-  // A pulse record rests at its baseline after the launch, apart from sparse echoes.
-  const rests = fractionNear(y, Math.min(n, end), baseline, 0.25 * peak) >= 0.6;
+  // A pulse record rests at its baseline after the launch, apart from sparse echoes; a step
+  // into a near fault rests at 1 + ρ of the launch, off the baseline unless ρ is near −1.
+  const rests = fractionNear(y, Math.min(n, end), baseline, Math.max(0.1 * peak, 4 * noise)) >= 0.6;
   return { iFall, looksPulse: short && rests };
 }
 
@@ -265,7 +274,7 @@ function launchInRecord(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hi
   }
   if (ic < 0) return null;
   const edge = traceLaunchEdge(y, ic, lv.bStart);
-  const { iFall, looksPulse } = launchFall(y, edge, hint);
+  const { iFall, looksPulse } = launchFall(y, edge, hint, lv.noise);
   const mode: Mode = modeOpt === 'auto' ? (looksPulse ? 'pulse' : 'step') : modeOpt;
   const { height, settleIdx } = launchLevels(y, edge, mode, iFall);
   return {

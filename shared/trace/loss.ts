@@ -1,0 +1,214 @@
+/**
+ * Cable loss, and the shape it gives a reflection.
+ *
+ * A cable's attenuation is modelled with its two usual terms, α(f) = s·√f + g·f
+ * nepers per metre: conductor (skin-effect) loss rising as √f and dielectric
+ * loss rising as f (D. M. Pozar, "Microwave Engineering", 4th ed., §2.7). Over
+ * a round trip of 2d metres they act on the wave as
+ *
+ *  - skin: H(s) = exp(−K·√s), K = 2d·s/√π, whose step response is
+ *    erfc(K / 2√t) after the delay (R. L. Wigington and N. S. Nahman,
+ *    "Transient analysis of coaxial cables considering skin effect",
+ *    Proc. IRE 45 (1957) 166); |H| = exp(−K·√(πf)) = exp(−2d·s·√f);
+ *  - dielectric: |H| = exp(−2d·g·f) = exp(−c·|ω|), c = d·g/π, taken with zero
+ *    phase: a Cauchy (Lorentzian) spread c/(π(c² + t²)) centred on the delay.
+ *
+ * A reflection is then the launch convolved with both, so it arrives at the
+ * lossless delay but rises slowly and reads low for a while; edge-fit.ts fits
+ * this shape instead of reading the edge's corners.
+ */
+
+/** 20·log10(e): decibels per neper (definition of the neper). */
+export const DB_PER_NEPER = 20 / Math.LN10;
+
+/** Attenuation figure at one frequency, as the cable library keeps it. */
+export interface LossPoint {
+  dbPer100m: number;
+  frequencyHz: number;
+}
+
+/** α(f) = skin·√f + dielectric·f, nepers per metre (one way). */
+export interface LossModel {
+  skinNpPerMRootHz: number;
+  dielectricNpPerMPerHz: number;
+}
+
+export const NO_LOSS: LossModel = { skinNpPerMRootHz: 0, dielectricNpPerMPerHz: 0 };
+
+const npPerM = (dbPer100m: number) => dbPer100m / 100 / DB_PER_NEPER;
+
+/** Attenuation of the model at f, dB per 100 m. */
+export function attenuationDbPer100m(model: LossModel, frequencyHz: number): number {
+  return (model.skinNpPerMRootHz * Math.sqrt(frequencyHz) + model.dielectricNpPerMPerHz * frequencyHz) * 100 * DB_PER_NEPER;
+}
+
+/**
+ * The model through attenuation points, by least squares on α in nepers
+ * (each point weighted by 1/α, so each counts by its relative error) with every
+ * term kept non-negative: the non-negative least squares of C. L. Lawson and
+ * R. J. Hanson ("Solving Least Squares Problems", 1974, ch. 23), done here by
+ * trying each set of terms and keeping the best feasible one. A third,
+ * frequency-independent term r takes up the loss of the conductors' DC
+ * resistance (α ≈ R/2Z0 once ωL ≫ R), so that low-frequency points do not pass
+ * for skin loss; it lowers every frequency alike and so changes no edge's shape,
+ * and the step's final level does not feel it, so it is fitted and set aside.
+ * One point cannot tell the terms apart: it is taken as skin loss, the larger
+ * term in cables below a few hundred MHz.
+ */
+export function lossModelFromPoints(points: readonly LossPoint[]): LossModel {
+  const pts = points.filter((p) => p.frequencyHz > 0 && p.dbPer100m >= 0 && Number.isFinite(p.dbPer100m));
+  if (pts.length === 0) return NO_LOSS;
+  const rows = pts.map((p) => {
+    const a = npPerM(p.dbPer100m);
+    const w = a > 0 ? 1 / a : 1;
+    return { x: [w, Math.sqrt(p.frequencyHz) * w, p.frequencyHz * w], y: a * w };
+  });
+  if (pts.length === 1) return { skinNpPerMRootHz: solveSubset(rows, [1])?.[1] ?? 0, dielectricNpPerMPerHz: 0 };
+  // Subsets of [r, s, g]; with two points at most two terms are determined.
+  const subsets = pts.length >= 3 ? [[0, 1, 2], [1, 2], [0, 1], [0, 2], [1], [2], [0]] : [[1, 2], [0, 1], [1], [2]];
+  let best: { coef: number[]; misfit: number } | null = null;
+  for (const set of subsets) {
+    const coef = solveSubset(rows, set);
+    if (!coef || coef.some((c) => c < 0)) continue;
+    const misfit = rows.reduce((acc, r) => acc + (r.x[0] * coef[0] + r.x[1] * coef[1] + r.x[2] * coef[2] - r.y) ** 2, 0);
+    if (!best || misfit < best.misfit * (1 - 1e-9)) best = { coef, misfit };
+  }
+  return best ? { skinNpPerMRootHz: best.coef[1], dielectricNpPerMPerHz: best.coef[2] } : NO_LOSS;
+}
+
+/** Least squares with only the terms in `set`; the others are 0. Null when singular. */
+function solveSubset(rows: Array<{ x: number[]; y: number }>, set: number[]): number[] | null {
+  const k = set.length;
+  const a = Array.from({ length: k }, () => new Array<number>(k + 1).fill(0));
+  for (const r of rows) {
+    for (let i = 0; i < k; i++) {
+      for (let j = 0; j < k; j++) a[i][j] += r.x[set[i]] * r.x[set[j]];
+      a[i][k] += r.x[set[i]] * r.y;
+    }
+  }
+  // Gaussian elimination with partial pivoting.
+  for (let c = 0; c < k; c++) {
+    let p = c;
+    for (let i = c + 1; i < k; i++) if (Math.abs(a[i][c]) > Math.abs(a[p][c])) p = i;
+    if (!(Math.abs(a[p][c]) > 1e-300)) return null;
+    [a[c], a[p]] = [a[p], a[c]];
+    for (let i = 0; i < k; i++) {
+      if (i === c) continue;
+      const f = a[i][c] / a[c][c];
+      for (let j = c; j <= k; j++) a[i][j] -= f * a[c][j];
+    }
+  }
+  const coef = [0, 0, 0];
+  set.forEach((term, i) => (coef[term] = a[i][k] / a[i][i]));
+  return coef;
+}
+
+/** Per-metre line constants with skin and dielectric terms, as the cable library keeps them. */
+export interface LineConstants {
+  rDcOhmPerM?: number | null;
+  skinOhmPerMRootHz?: number | null;
+  lHPerM?: number | null;
+  cFPerM?: number | null;
+  gSPerM?: number | null;
+  lossTangent?: number | null;
+}
+
+/**
+ * Attenuation of a line from its constants at frequency f: α = Re √((R + jωL')(G + jωC)),
+ * with R = R_dc + k_s√f and the skin effect's internal reactance k_s√f added to ωL
+ * (a good conductor's surface impedance R_s(1 + j), Pozar §1.7 and §2.7).
+ * Returns dB per 100 m.
+ */
+export function attenuationFromLineConstants(lc: LineConstants, frequencyHz: number): number {
+  const l = lc.lHPerM ?? 0;
+  const c = lc.cFPerM ?? 0;
+  const w = 2 * Math.PI * frequencyHz;
+  const skin = (lc.skinOhmPerMRootHz ?? 0) * Math.sqrt(frequencyHz);
+  const zRe = (lc.rDcOhmPerM ?? 0) + skin;
+  const zIm = w * l + skin;
+  const yRe = (lc.gSPerM ?? 0) + w * c * (lc.lossTangent ?? 0);
+  const yIm = w * c;
+  // γ² = Z·Y; α = Re √(γ²).
+  const re = zRe * yRe - zIm * yIm;
+  const im = zRe * yIm + zIm * yRe;
+  return Math.sqrt((Math.hypot(re, im) + re) / 2) * DB_PER_NEPER * 100;
+}
+
+/** Skin parameter K (√s) of the erfc edge after a round trip of `twoWayM` metres. */
+export function skinParameter(model: LossModel, twoWayM: number): number {
+  return (twoWayM * model.skinNpPerMRootHz) / Math.sqrt(Math.PI);
+}
+
+/** Half-width c (s) of the dielectric spread after a round trip of `twoWayM` metres. */
+export function dielectricSpread(model: LossModel, twoWayM: number): number {
+  return (twoWayM * model.dielectricNpPerMPerHz) / (2 * Math.PI);
+}
+
+/**
+ * erfc(x) with fractional error below 1.2e-7 everywhere (the Chebyshev-fitted
+ * form of W. H. Press et al., "Numerical Recipes", 2nd ed., §6.2, erfcc).
+ */
+export function erfc(x: number): number {
+  const z = Math.abs(x);
+  const t = 1 / (1 + 0.5 * z);
+  const r =
+    t *
+    Math.exp(
+      -z * z -
+        1.26551223 +
+        t *
+          (1.00002368 +
+            t *
+              (0.37409196 +
+                t * (0.09678418 + t * (-0.18628806 + t * (0.27886807 + t * (-1.13520398 + t * (1.48851587 + t * (-0.82215223 + t * 0.17087277)))))))),
+    );
+  return x >= 0 ? r : 2 - r;
+}
+
+/** The skin-effect step response erfc(K / 2√t) at t seconds after the delay (0 before it). */
+export function skinStep(k: number, tS: number): number {
+  if (tS <= 0) return 0;
+  if (k <= 0) return 1;
+  return erfc(k / (2 * Math.sqrt(tS)));
+}
+
+/** The line's round-trip impulse response on a sample grid: values[i] is the weight at (i − offset)·dt. */
+export interface LineKernel {
+  values: Float64Array;
+  offset: number;
+}
+
+/**
+ * Weight of each sample cell [(i − ½)dt, (i + ½)dt] of the skin response (an
+ * erfc difference) convolved with that of the dielectric spread (an arctan
+ * difference), out to `spanSamples` after the delay or until less than 1e-4
+ * of the step is left. The weights sum to the part of the response inside that
+ * (less than 1 by the slow tail).
+ */
+export function lineKernel(model: LossModel, twoWayM: number, dtS: number, spanSamples: number): LineKernel {
+  const k = skinParameter(model, twoWayM);
+  const c = dielectricSpread(model, twoWayM);
+  const span = Math.max(1, Math.ceil(spanSamples));
+  // The response's cells until what is left of it falls under 1e-4 of the step.
+  let last = span;
+  for (let i = 0; i <= span; i++) {
+    if (1 - skinStep(k, (i + 0.5) * dtS) < 1e-4) {
+      last = i;
+      break;
+    }
+  }
+  const skin = new Float64Array(last + 1);
+  for (let i = 0; i <= last; i++) skin[i] = skinStep(k, (i + 0.5) * dtS) - (i === 0 ? 0 : skinStep(k, (i - 0.5) * dtS));
+  if (!(c > 0.02 * dtS)) return { values: skin, offset: 0 };
+  // A Cauchy spread narrower than 2 % of a sample changes nothing worth the work.
+  const half = Math.min(span, Math.ceil(Math.max(4, 50 * (c / dtS))));
+  const diel = new Float64Array(2 * half + 1);
+  for (let j = -half; j <= half; j++) diel[j + half] = (Math.atan(((j + 0.5) * dtS) / c) - Math.atan(((j - 0.5) * dtS) / c)) / Math.PI;
+  const values = new Float64Array(last + 1 + 2 * half);
+  for (let i = 0; i <= last; i++) {
+    const a = skin[i];
+    if (a === 0) continue;
+    for (let j = 0; j < diel.length; j++) values[i + j] += a * diel[j];
+  }
+  return { values, offset: half };
+}
