@@ -19,7 +19,8 @@ const upload = async (faultM: number, vf: number, name: string) => {
     .postRaw('/api/traces')
     .field('cableRunId', String(runId))
     .field('end', 'A')
-    .attach('file', Buffer.from(stepTraceCsv({ faultM, vf })), name)
+    // The name goes into a comment line so that two recordings of the same cable are not the same bytes.
+    .attach('file', Buffer.from(`# recording ${name}\n${stepTraceCsv({ faultM, vf })}`), name)
     .expect(201);
   return res.body.traces[0];
 };
