@@ -52,7 +52,7 @@ describe('demo field data', () => {
     expect(broken?.status).toBe('failed');
     const mine = await Trace.findOne({ where: { originalName: 'hnc2-open.csv' } });
     const f = await Finding.findOne({ where: { traceId: mine!.id } });
-    // 150 m of cable from A passes HH-1 (chainage 90 m, 2 m coiled): 148 m of route, 58 m past HH-1 toward HH-2 (hand-worked).
-    expect(f?.routePositionText).toMatch(/^5[78]\.\d m past handhole HH-1 toward handhole HH-2/);
+    // 150 m of cable from A passes HH-1 (chainage 90 m, 2 m coiled): 148 m of route, 58 m past HH-1, heading for end B (hand-worked).
+    expect(f?.routePositionText).toMatch(/^5[78]\.\d m past handhole HH-1 toward end B/);
   });
 });
