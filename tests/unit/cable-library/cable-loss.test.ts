@@ -48,7 +48,7 @@ describe('what an analysis takes from the library', () => {
 
   it('lets an explicit VF win over a pulse-width VF, and that win over the entry', () => {
     const cable = { vf: 0.66, pulseVfs, attenuation: [] };
-    expect(libraryAnalysisOptions(cable, 100, undefined)).toEqual({ vf: 0.655 });
+    expect(libraryAnalysisOptions(cable, 100, undefined)).toEqual({ vf: 0.655, vfPulseWidthNs: 100 });
     expect(libraryAnalysisOptions(cable, 250, undefined)).toEqual({ vf: 0.66 });
     expect(libraryAnalysisOptions(cable, 100, 0.7)).toEqual({ vf: 0.7 });
   });
