@@ -94,7 +94,7 @@ export function CablesPage() {
                         aria-sort={c.key && c.key === sort ? (dir === 'asc' ? 'ascending' : 'descending') : undefined}
                       >
                         {c.key ? (
-                          <button type="button" onClick={() => sortBy(c.key!)} className="min-h-11 font-semibold uppercase hover:text-copper">
+                          <button type="button" onClick={() => sortBy(c.key!)} className="min-h-11 min-w-11 font-semibold uppercase hover:text-copper">
                             {c.label}
                             {c.key === sort ? (dir === 'asc' ? ' ▲' : ' ▼') : ''}
                           </button>

@@ -31,7 +31,7 @@ export function ConnectionBar({ devicePath }: { devicePath: string }) {
           <>
             <Link
               to={devicePath}
-              className="inline-flex min-h-8 items-center font-semibold text-teal underline"
+              className="inline-flex min-h-11 items-center font-semibold text-teal underline"
               data-testid="outbox-count"
             >
               {waiting ? `${countOf(waiting, 'item')} waiting to send` : 'Nothing waiting to send'}
