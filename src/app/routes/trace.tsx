@@ -14,7 +14,7 @@ import { useReanalyseTrace } from '../../features/traces/api/reanalyse-trace';
 import { useSetReference } from '../../features/traces/api/set-reference';
 import { TraceChart, type XAxis } from '../../features/traces/components/trace-chart';
 import { distanceToTime } from '../../features/traces/components/trace-axis';
-import { formatDateTime, formatLength, lengthsInText } from '../../lib/format';
+import { formatDateTime, formatLength, lengthsInText, type LengthUnit } from '../../lib/format';
 import { paths } from '../paths';
 
 const TYPE_WORDS: Record<ReflectionEvent['type'], string> = {
@@ -24,6 +24,15 @@ const TYPE_WORDS: Record<ReflectionEvent['type'], string> = {
   'impedance-drop': 'Impedance drop',
 };
 
+/**
+ * An engine warning in the reader's unit. The blind-zone one is written from
+ * the analysis' own value, not from the figure rounded into the message, so
+ * it matches the "Blind zone" line beside it.
+ */
+function warningWords(w: { code: string; message: string }, blindZoneM: number, unit: LengthUnit) {
+  const text = w.code === 'BLIND_ZONE' ? w.message.replace(/\d+(\.\d+)? m\b/, formatLength(blindZoneM, 'm')) : w.message;
+  return lengthsInText(text, unit);
+}
 /** An engine message as a sentence: capital first letter. */
 const sentence = (text: string) => (text ? text.charAt(0).toUpperCase() + text.slice(1) : text);
 /** A time on the trace, round trip: "412.3 ns". */
@@ -334,7 +343,7 @@ export function TracePage() {
               {t.analysis.warnings.length > 0 && (
                 <ul className="mt-2 list-disc pl-5 text-sm text-ink-soft">
                   {t.analysis.warnings.map((w) => (
-                    <li key={w.code + w.message}>{sentence(lengthsInText(w.message, unit))}</li>
+                    <li key={w.code + w.message}>{sentence(warningWords(w, t.analysis!.blindZoneM, unit))}</li>
                   ))}
                 </ul>
               )}
