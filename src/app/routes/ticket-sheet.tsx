@@ -51,7 +51,7 @@ function FindingBlock({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; u
       <dl className="grid gap-x-6 gap-y-1 text-sm sm:grid-cols-[auto_1fr] print:grid-cols-[auto_1fr]">
         <dt className="font-semibold">{f.bestLocation ? 'This TDR reading' : 'Distance'}</dt>
         <dd className="tabular" data-testid="sheet-distance">
-          {formatLength(f.distanceM, unit)} of cable from end {f.measuredFrom} ({endLabel}), ± {formatLength(f.uncertaintyM, unit)}
+          {formatLength(f.distanceM, unit)} along the cable from end {f.measuredFrom} ({endLabel}), ± {formatLength(f.uncertaintyM, unit)}
         </dd>
         <dt className="font-semibold">Route position</dt>
         <dd className="text-base font-bold">
