@@ -53,13 +53,14 @@ export function lengthNumber(m: number, unit: LengthUnit): string {
 }
 
 /**
- * A stored length as the starting value of a form field: plain digits,
- * enough of them (to the millimetre) that saving the form unchanged does not
- * move the value. Display precision is for reading, not for editing.
+ * A stored length as the starting value of a form field: plain digits, to
+ * the millimetre or the hundredth of a foot (3 mm), so saving the form
+ * unchanged moves nothing a tape could show. Display precision is for
+ * reading, not for editing.
  */
 export function lengthForInput(m: number | null | undefined, unit: LengthUnit): string {
   if (!finite(m)) return '';
-  return String(Number(toUnit(m, unit).toFixed(unit === 'ft' ? 4 : 3)));
+  return String(Number(toUnit(m, unit).toFixed(unit === 'ft' ? 2 : 3)));
 }
 
 /** "80.0 m", "262.5 ft"; a dash for a missing value. */

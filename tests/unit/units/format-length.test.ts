@@ -89,9 +89,11 @@ describe('metre figures in text Rholog wrote', () => {
 
 describe('a stored length as a form field starts', () => {
   it('keeps enough digits that saving unchanged does not move the value', () => {
-    // 400 m = 1312.3360 ft to four places; back to metres that is 400.0000 m to 0.03 mm.
-    expect(lengthForInput(400, 'ft')).toBe('1312.336');
-    expect(fromUnit(Number(lengthForInput(400, 'ft')), 'ft')).toBeCloseTo(400, 4);
+    // 400 m = 1312.34 ft to the hundredth; back in metres 1312.34 × 0.3048 = 400.0012 m, 1.2 mm off.
+    expect(lengthForInput(400, 'ft')).toBe('1312.34');
+    expect(Math.abs(fromUnit(Number(lengthForInput(400, 'ft')), 'ft') - 400)).toBeLessThan(0.0015);
+    // 120 m = 393.70 ft: the trailing zero goes.
+    expect(lengthForInput(120, 'ft')).toBe('393.7');
     expect(lengthForInput(120.5, 'm')).toBe('120.5');
     expect(lengthForInput(null, 'm')).toBe('');
   });
