@@ -23,6 +23,7 @@ import { SPEED_OF_LIGHT_M_PER_S } from '../cable/propagation';
 import {
   attenuationDbPer100m,
   erfc,
+  exactLineKernel,
   lineKernel,
   lossModelFromPoints,
   NO_LOSS,
@@ -297,6 +298,8 @@ function templateAt(t: Template, x: number): number {
 
 interface WindowData {
   y: Float64Array;
+  /** Fit a sloping baseline (step records creep on lossy lines). */
+  slope: boolean;
   /** Block index of y[0]. */
   j0: number;
   q: number;
@@ -306,28 +309,50 @@ interface WindowData {
 function profile(w: WindowData, t: Template, d: number): { ss: number; b: number; h: number } {
   const { y, j0 } = w;
   const n = y.length;
-  let se = 0;
-  let see = 0;
-  let sy = 0;
-  let sey = 0;
-  let syy = 0;
+  // Normal equations for y ≈ b + c·x + h·e, x centred on the window (step records creep on lossy lines).
+  let sx = 0, sxx = 0, se = 0, see = 0, sxe = 0, sy = 0, sxy = 0, sey = 0, syy = 0;
+  const slope = w.slope;
   for (let k = 0; k < n; k++) {
     const e = templateAt(t, j0 + k - t.start - d);
+    const x = slope ? (k - (n - 1) / 2) / n : 0;
     const yk = y[k];
+    sx += x;
+    sxx += x * x;
     se += e;
     see += e * e;
+    sxe += x * e;
     sy += yk;
+    sxy += x * yk;
     sey += e * yk;
     syy += yk * yk;
   }
-  const det = n * see - se * se;
-  if (!(det > 1e-12 * n * Math.max(see, 1e-300))) {
+  const sol = slope
+    ? solve3([n, sx, se, sx, sxx, sxe, se, sxe, see], [sy, sxy, sey])
+    : solve2(n, se, see, sy, sey);
+  if (!sol) {
     const b = sy / n;
     return { ss: syy - n * b * b, b, h: 0 };
   }
+  const [b, c, h] = sol;
+  return { ss: Math.max(0, syy - b * sy - c * sxy - h * sey), b, h };
+}
+
+function solve2(n: number, se: number, see: number, sy: number, sey: number): [number, number, number] | null {
+  const det = n * see - se * se;
+  if (!(det > 1e-12 * n * Math.max(see, 1e-300))) return null;
   const h = (n * sey - se * sy) / det;
-  const b = (sy - h * se) / n;
-  return { ss: Math.max(0, syy - b * sy - h * sey), b, h };
+  return [(sy - h * se) / n, 0, h];
+}
+
+/** The 3×3 symmetric system m·x = r by Cramer's rule; null when singular. */
+function solve3(m: number[], r: number[]): [number, number, number] | null {
+  const [a, b, c, , e, f, , , i] = m;
+  const det = a * (e * i - f * f) - b * (b * i - f * c) + c * (b * f - e * c);
+  if (!(Math.abs(det) > 1e-14 * Math.abs(a * e * i))) return null;
+  const x0 = (r[0] * (e * i - f * f) - b * (r[1] * i - f * r[2]) + c * (r[1] * f - e * r[2])) / det;
+  const x1 = (a * (r[1] * i - f * r[2]) - r[0] * (b * i - f * c) + c * (b * r[2] - r[1] * c)) / det;
+  const x2 = (a * (e * r[2] - r[1] * f) - b * (b * r[2] - r[1] * c) + r[0] * (b * f - e * c)) / det;
+  return [x0, x1, x2];
 }
 
 /** Minimum of f on [a, b] by golden-section search, one new evaluation per step. */
@@ -419,7 +444,16 @@ function eventWindow(ctx: FitContext, events: Measured[], k: number): EventWindo
   const m = events[k];
   const riseL = Math.max(1, L.riseSamples);
   const riseE = Math.max(m.riseSamples, riseL);
-  const prev = k > 0 ? events[k - 1].onsetIdx : -Infinity;
+  // The nearest earlier event bounds the window, unless it was fitted (its shape is taken out of the
+  // window) and is smaller: a small one just before must not push the arrival late.
+  let prev = -Infinity;
+  for (let j = k - 1; j >= 0; j--) {
+    const big = Math.abs(events[j].heightRaw ?? events[j].height) >= Math.abs(m.heightRaw ?? m.height);
+    if (!events[j].fit || big) {
+      prev = events[j].onsetIdx;
+      break;
+    }
+  }
   const next = k + 1 < events.length ? events[k + 1].onsetIdx : rec.n;
   const pre = Math.max(8, 2 * m.w, 3 * riseL);
   const post = Math.max(24, 8 * m.w, 6 * riseE, 3 * (L.widthSamples ?? 0));
@@ -427,10 +461,13 @@ function eventWindow(ctx: FitContext, events: Measured[], k: number): EventWindo
   const d0 = (ctx.shape.reference === 'launch' ? m.onsetIdx : m.t50Idx) - ref;
   // The window starts a baseline's length before the earliest arrival tried, but after the previous event's
   // onset (whose fitted shape is taken out of it); no arrival is tried before the window.
-  const earliest = ref + d0 - Math.max(8, riseE);
+  // The arrival is sought from a rise before the tangent reading (a third of one on step records, whose
+  // baseline creeps on lossy lines and so cannot be stretched far back) to half a rise after it.
+  const before = Math.max(8, 2 * riseL, ctx.shape.step ? riseE / 3 : riseE);
+  const earliest = ref + d0 - before;
   const from = Math.max(sig.start, Math.round(prev + 2), Math.round(Math.min(m.onsetIdx, earliest) - pre));
   const to = Math.min(rec.n, Math.round(m.onsetIdx + post), Math.round(next - Math.max(2, 0.5 * riseL)));
-  const lo = Math.max(d0 - Math.max(8, riseE), from + 2 - ref);
+  const lo = Math.max(d0 - before, from + 2 - ref);
   return { from, to, lo, hi: Math.max(lo + 8, d0 + Math.max(8, 0.5 * riseE)), sign: Math.sign(m.height) || 1 };
 }
 
@@ -446,7 +483,7 @@ function windowData(ctx: FitContext, win: EventWindow, q: number): WindowData {
       y[k] -= p.h * templateAt(p.t, jp - p.t.start - p.d);
     }
   }
-  return { y, j0, q };
+  return { y, j0, q, slope: ctx.shape.step };
 }
 
 interface ModelFit {
@@ -476,7 +513,10 @@ function fitWindow(
   if (w.y.length < 6) return null;
   const launch = coarseLaunch(ctx.input, ctx.shape, q);
   const span = w.y.length + (win.hi - win.lo) / q + 8;
-  const kernel = lineKernel(model, Math.max(0, twoWayM), rec.dt * q, span);
+  const kernel =
+    (model.resistiveNpPerM ?? 0) > 0 && ctx.input.vf
+      ? exactLineKernel(model, Math.max(0, twoWayM), rec.dt * q, span, ctx.input.vf)
+      : lineKernel(model, Math.max(0, twoWayM), rec.dt * q, span);
   const t = buildTemplate(launch, kernel, ctx.shape.step);
   const best = bestDelay(w, t, win.lo / q, win.hi / q, win.sign);
   if (!Number.isFinite(best.ss)) return null;
@@ -598,6 +638,7 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
 const scaled = (m: LossModel, k: number): LossModel => ({
   skinNpPerMRootHz: m.skinNpPerMRootHz * k,
   dielectricNpPerMPerHz: m.dielectricNpPerMPerHz * k,
+  resistiveNpPerM: (m.resistiveNpPerM ?? 0) * k,
 });
 
 /** A fit is kept when its delay is inside the searched range and its height is a believable correction of the reading. */

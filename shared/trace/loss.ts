@@ -18,6 +18,8 @@
  * this shape instead of reading the edge's corners.
  */
 
+const SPEED_OF_LIGHT = 299_792_458;
+
 /** 20·log10(e): decibels per neper (definition of the neper). */
 export const DB_PER_NEPER = 20 / Math.LN10;
 
@@ -27,10 +29,16 @@ export interface LossPoint {
   frequencyHz: number;
 }
 
-/** α(f) = skin·√f + dielectric·f, nepers per metre (one way). */
+/**
+ * α(f) = resistive + skin·√f + dielectric·f, nepers per metre (one way). The
+ * resistive term is the conductors' DC resistance seen at high frequency
+ * (α ≈ R/2Z0 once ωL ≫ R); below that frequency the same resistance makes the
+ * line diffusive, which only the exact propagation (lineKernel) follows.
+ */
 export interface LossModel {
   skinNpPerMRootHz: number;
   dielectricNpPerMPerHz: number;
+  resistiveNpPerM?: number;
 }
 
 export const NO_LOSS: LossModel = { skinNpPerMRootHz: 0, dielectricNpPerMPerHz: 0 };
@@ -39,7 +47,8 @@ const npPerM = (dbPer100m: number) => dbPer100m / 100 / DB_PER_NEPER;
 
 /** Attenuation of the model at f, dB per 100 m. */
 export function attenuationDbPer100m(model: LossModel, frequencyHz: number): number {
-  return (model.skinNpPerMRootHz * Math.sqrt(frequencyHz) + model.dielectricNpPerMPerHz * frequencyHz) * 100 * DB_PER_NEPER;
+  const np = (model.resistiveNpPerM ?? 0) + model.skinNpPerMRootHz * Math.sqrt(frequencyHz) + model.dielectricNpPerMPerHz * frequencyHz;
+  return np * 100 * DB_PER_NEPER;
 }
 
 /**
@@ -50,8 +59,7 @@ export function attenuationDbPer100m(model: LossModel, frequencyHz: number): num
  * trying each set of terms and keeping the best feasible one. A third,
  * frequency-independent term r takes up the loss of the conductors' DC
  * resistance (α ≈ R/2Z0 once ωL ≫ R), so that low-frequency points do not pass
- * for skin loss; it lowers every frequency alike and so changes no edge's shape,
- * and the step's final level does not feel it, so it is fitted and set aside.
+ * for skin loss.
  * One point cannot tell the terms apart: it is taken as skin loss, the larger
  * term in cables below a few hundred MHz.
  */
@@ -73,7 +81,7 @@ export function lossModelFromPoints(points: readonly LossPoint[]): LossModel {
     const misfit = rows.reduce((acc, r) => acc + (r.x[0] * coef[0] + r.x[1] * coef[1] + r.x[2] * coef[2] - r.y) ** 2, 0);
     if (!best || misfit < best.misfit * (1 - 1e-9)) best = { coef, misfit };
   }
-  return best ? { skinNpPerMRootHz: best.coef[1], dielectricNpPerMPerHz: best.coef[2] } : NO_LOSS;
+  return best ? { skinNpPerMRootHz: best.coef[1], dielectricNpPerMPerHz: best.coef[2], resistiveNpPerM: best.coef[0] } : NO_LOSS;
 }
 
 /** Least squares with only the terms in `set`; the others are 0. Null when singular. */
@@ -209,6 +217,110 @@ export function lineKernel(model: LossModel, twoWayM: number, dtS: number, spanS
     const a = skin[i];
     if (a === 0) continue;
     for (let j = 0; j < diel.length; j++) values[i + j] += a * diel[j];
+  }
+  return { values, offset: half };
+}
+
+/**
+ * In-place radix-2 FFT of (re, im), length a power of two; `inverse` divides by
+ * the length (J. W. Cooley and J. W. Tukey, "An algorithm for the machine
+ * calculation of complex Fourier series", Math. Comp. 19 (1965) 297).
+ */
+export function fft(re: Float64Array, im: Float64Array, inverse = false): void {
+  const n = re.length;
+  for (let i = 1, j = 0; i < n; i++) {
+    let bit = n >> 1;
+    for (; j & bit; bit >>= 1) j ^= bit;
+    j ^= bit;
+    if (i < j) {
+      [re[i], re[j]] = [re[j], re[i]];
+      [im[i], im[j]] = [im[j], im[i]];
+    }
+  }
+  for (let len = 2; len <= n; len <<= 1) {
+    const ang = ((inverse ? 2 : -2) * Math.PI) / len;
+    const wr = Math.cos(ang);
+    const wi = Math.sin(ang);
+    for (let i = 0; i < n; i += len) {
+      let cr = 1;
+      let ci = 0;
+      for (let k = 0; k < len / 2; k++) {
+        const a = i + k;
+        const b = a + len / 2;
+        const xr = re[b] * cr - im[b] * ci;
+        const xi = re[b] * ci + im[b] * cr;
+        re[b] = re[a] - xr;
+        im[b] = im[a] - xi;
+        re[a] += xr;
+        im[a] += xi;
+        const t = cr * wr - ci * wi;
+        ci = cr * wi + ci * wr;
+        cr = t;
+      }
+    }
+  }
+  if (inverse) for (let i = 0; i < n; i++) {
+    re[i] /= n;
+    im[i] /= n;
+  }
+}
+
+/**
+ * The round trip's response from the exact propagation constant, for a model with
+ * a resistive term: with R = 2Z0·(r + s√f·(1 + j)) (DC and skin resistance with its
+ * internal reactance), G = 2·g·f/Z0, L = Z0/v and C = 1/(Z0·v),
+ * γ = √((R + jωL)(G + jωC)) = √((2α_R + jω/v)(2α_G + jω/v)), free of Z0; the kernel
+ * is the inverse FFT of H = exp(−2d·(γ − jω/v)), the lossless delay taken out
+ * (telegrapher's equations, Pozar §2.1 and §2.7). At high frequency it is the
+ * skin edge attenuated by e^(−2d·r); at low frequency the line turns diffusive and
+ * the response creeps up to its full height. The dielectric spread is the same
+ * Cauchy spread as lineKernel's.
+ */
+export function exactLineKernel(model: LossModel, twoWayM: number, dtS: number, spanSamples: number, vf: number): LineKernel {
+  const span = Math.max(8, Math.ceil(spanSamples));
+  let n = 256;
+  while (n < 8 * span && n < 1 << 17) n <<= 1;
+  const re = new Float64Array(n);
+  const im = new Float64Array(n);
+  const v = vf * SPEED_OF_LIGHT;
+  const d = twoWayM / 2;
+  const r = model.resistiveNpPerM ?? 0;
+  for (let k = 0; k <= n / 2; k++) {
+    const f = k / (n * dtS);
+    const w = 2 * Math.PI * f;
+    const sq = model.skinNpPerMRootHz * Math.sqrt(f);
+    // (2α_R + jω/v)·(jω/v): the conductors' part, causal; the dielectric spread is added after.
+    const ar = 2 * (r + sq);
+    const ai = 2 * sq + w / v;
+    const bi = w / v;
+    const pr = -ai * bi;
+    const pi = ar * bi;
+    const mag = Math.hypot(pr, pi);
+    const gr = Math.sqrt(Math.max(0, (mag + pr) / 2));
+    const gi = Math.sqrt(Math.max(0, (mag - pr) / 2));
+    const amp = Math.exp(-2 * d * gr);
+    const ph = -2 * d * (gi - w / v);
+    re[k] = amp * Math.cos(ph);
+    im[k] = amp * Math.sin(ph);
+    if (k > 0 && k < n / 2) {
+      re[n - k] = re[k];
+      im[n - k] = -im[k];
+    }
+  }
+  fft(re, im, true);
+  // The response is causal: what the inverse transform puts at negative times is the slow tail
+  // wrapped round from beyond the buffer, nearly level there; take that level off every sample.
+  const wrapped = re.slice((3 * n) / 4).reduce((a, b) => a + b, 0) / (n / 4);
+  const conductors = new Float64Array(span + 1);
+  for (let i = 0; i <= span; i++) conductors[i] = re[i] - wrapped;
+  const c = dielectricSpread(model, twoWayM);
+  if (!(c > 0.02 * dtS)) return { values: conductors, offset: 0 };
+  const half = Math.min(span, Math.ceil(Math.max(4, 50 * (c / dtS))));
+  const values = new Float64Array(span + 1 + 2 * half);
+  for (let i = 0; i <= span; i++) {
+    const a = conductors[i];
+    if (a === 0) continue;
+    for (let j = -half; j <= half; j++) values[i + j + half] += (a * (Math.atan(((j + 0.5) * dtS) / c) - Math.atan(((j - 0.5) * dtS) / c))) / Math.PI;
   }
   return { values, offset: half };
 }
