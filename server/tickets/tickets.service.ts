@@ -21,7 +21,6 @@ import type { AppContext } from '../context';
 import { CableRun, Finding, MailJob, RouteMarker, Site, Ticket, TicketCloseout, TicketEvent, TicketFinding, Trace, User } from '../db/models';
 import { AppError } from '../errors';
 import { formatDate } from '../../shared/units/format-date';
-import { formatLength } from '../../shared/units/format-length';
 import { bestLocationFor } from '../findings/best-location';
 import { scoreMethodsAtCloseout, scoresOfCloseout } from '../findings/method-scores';
 import { mailTicket } from './tickets.mail';
@@ -290,8 +289,8 @@ export async function closeOutTicket(ctx: AppContext, actor: SessionUser, id: nu
           submittedById: actor.id,
           source: 'repair-closeout',
           traceId: finding!.traceId,
-          // Stored in metres through the shared formatter; each reader sees it in their own unit.
-          note: `Repair close-out of ticket ${t.id} (finding ${finding!.id}): located ${formatLength(result.locatedDistanceM, 'm')}, found ${formatLength(result.foundDistanceM, 'm')} along the cable from end ${measuredFrom}.`,
+          // Kept in metres to the centimetre; each reader sees it in their own unit and precision (lengthsInText).
+          note: `Repair close-out of ticket ${t.id} (finding ${finding!.id}): located ${result.locatedDistanceM.toFixed(2)} m, found ${result.foundDistanceM.toFixed(2)} m along the cable from end ${measuredFrom}.`,
         },
         transaction,
       );

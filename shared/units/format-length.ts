@@ -88,21 +88,21 @@ export function formatLengthRange(startM: number, endM: number, unit: LengthUnit
 /**
  * Rewrites the lengths in a sentence Rholog itself wrote and stored (an
  * engine warning, a stored route sentence, a calibration or close-out note, a
- * server message) into the reader's unit: metre figures for a reader in
- * feet, feet figures (a note written by someone working in feet) for a reader
- * in metres. Rates such as "dB/100 m" or "dB per 100 m" are left alone.
+ * server message) into the reader's unit and the one precision rule: metre
+ * figures for a reader in feet, feet figures (a note written by someone
+ * working in feet) for a reader in metres, and a figure already in the
+ * reader's unit to the usual precision. Stored text may therefore keep more
+ * digits than it shows. Rates such as "dB/100 m" or "dB per 100 m" are left alone.
  */
 export function lengthsInText(text: string, unit: LengthUnit): string {
   if (!text) return text;
-  const source: LengthUnit = unit === 'ft' ? 'm' : 'ft';
-  const toMetres = (v: number) => fromUnit(v, source);
   const read = (n: string) => Number(n.replace('−', '-'));
-  const pattern = new RegExp(`(^|[^\\w./,−-])([-−]?\\d+(?:\\.\\d+)?)(?:\\s?–\\s?([-−]?\\d+(?:\\.\\d+)?))?\\s?${source}\\b(?![/²³])`, 'g');
-  return text.replace(pattern, (whole, before: string, first: string, second: string | undefined, offset: number) => {
+  const pattern = /(^|[^\w./,−-])([-−]?\d+(?:\.\d+)?)(?:\s?–\s?([-−]?\d+(?:\.\d+)?))?\s?(m|ft)\b(?![/²³])/g;
+  return text.replace(pattern, (whole, before: string, first: string, second: string | undefined, from: LengthUnit, offset: number) => {
     const lead = text.slice(Math.max(0, offset - 4), offset + before.length);
     if (/per\s$/i.test(lead)) return whole;
-    const a = toMetres(read(first));
+    const a = fromUnit(read(first), from);
     if (second === undefined) return `${before}${formatLength(a, unit)}`;
-    return `${before}${formatLengthRange(a, toMetres(read(second)), unit)}`;
+    return `${before}${formatLengthRange(a, fromUnit(read(second), from), unit)}`;
   });
 }

@@ -25,7 +25,8 @@ export function DashboardPage() {
   return (
     <>
       <PageHeader title="Dashboard" subtitle={`Open repairs, findings waiting for a ticket, and how close readings came to the digs. Updated ${formatDateTime(v.generatedAt)}.`} />
-      <div className="grid gap-4 xl:grid-cols-2">
+      {/* min-w-0: a wide table scrolls inside its card instead of pushing the card past a phone's edge. */}
+      <div className="grid grid-cols-1 gap-4 xl:grid-cols-2 [&>*]:min-w-0">
         <Card title={`Open tickets (${v.openCount})`}>
           <div className="overflow-x-auto">
             <table className="w-full text-left text-sm tabular" aria-label="Open tickets by age and priority">

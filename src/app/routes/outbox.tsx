@@ -34,7 +34,8 @@ function FormattedMessage({ html }: { html: string }) {
 }
 
 function MessageView({ message }: { message: OutboxMessageView }) {
-  const [formatted, setFormatted] = useState(false);
+  // On a phone the 76-character plain text is wider than the screen; the formatted part wraps to fit, so it comes first there.
+  const [formatted, setFormatted] = useState(() => typeof window !== 'undefined' && window.matchMedia('(width < 40rem)').matches);
   return (
     <article aria-label="Message" className="space-y-3">
       <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1 text-sm">

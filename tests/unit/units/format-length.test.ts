@@ -76,7 +76,13 @@ describe('metre figures in text Rholog wrote', () => {
     const rates = 'at most 1000 dB/100 m, 3 dB per 100 m, 2.5 m/s, 4 m², 12 mm, 5 min';
     expect(lengthsInText(rates, 'ft')).toBe(rates);
     expect(lengthsInText('dig window 37.0–43.0 m', 'm')).toBe('dig window 37.0–43.0 m');
-    expect(lengthsInText('a 12 ft lead', 'ft')).toBe('a 12 ft lead');
+  });
+
+  it('writes a figure already in the reader\'s unit to the one precision rule, so stored text may keep more digits', () => {
+    // 143.08 m is 469.42 ft; rounding to 143.1 m first would give 469.49 → "469.5 ft".
+    expect(lengthsInText('located 143.08 m along the cable', 'ft')).toBe('located 469.4 ft along the cable');
+    expect(lengthsInText('located 143.08 m along the cable', 'm')).toBe('located 143.1 m along the cable');
+    expect(lengthsInText('a 12 ft lead', 'ft')).toBe('a 12.0 ft lead');
   });
 
   it('rewrites feet written by someone working in feet for a reader in metres', () => {
