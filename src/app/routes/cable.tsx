@@ -139,20 +139,21 @@ export function CablePage() {
               <>
                 <dl className="mb-3 grid grid-cols-3 gap-2 text-center text-sm" data-testid="calibration-stats">
                   <div className="rounded-md bg-paper p-2">
+                    <dt className="text-xs text-mist">Accepted (n)</dt>
+                    <dd className="text-lg font-bold tabular">{calibrations.data.acceptedStats.count}</dd>
+                  </div>
+                  <div className="rounded-md bg-paper p-2">
                     <dt className="text-xs text-mist">Mean VF</dt>
-                    <dd className="text-lg font-bold tabular">{formatVf(calibrations.data.stats.mean, 4)}</dd>
+                    <dd className="text-lg font-bold tabular">{formatVf(calibrations.data.acceptedStats.mean, 4)}</dd>
                   </div>
                   <div className="rounded-md bg-paper p-2">
-                    <dt className="text-xs text-mist">Std. deviation</dt>
-                    <dd className="text-lg font-bold tabular">{formatVf(calibrations.data.stats.stdDev, 4)}</dd>
-                  </div>
-                  <div className="rounded-md bg-paper p-2">
-                    <dt className="text-xs text-mist">Count</dt>
-                    <dd className="text-lg font-bold tabular">{calibrations.data.stats.count}</dd>
+                    <dt className="text-xs text-mist">Spread (s.d.)</dt>
+                    <dd className="text-lg font-bold tabular">{formatVf(calibrations.data.acceptedStats.stdDev, 4)}</dd>
                   </div>
                 </dl>
                 <p className="mb-2 text-xs text-mist">
-                  Over the {calibrations.data.counts.accepted} accepted and {calibrations.data.counts.pending} pending calibrations; {calibrations.data.counts.rejected} rejected left out.
+                  Over the {calibrations.data.counts.accepted} accepted and {calibrations.data.counts.pending} pending calibrations: n, mean and spread count the accepted ones,
+                  which the library value rests on; {calibrations.data.counts.rejected} rejected left out.
                 </p>
                 {calibrations.data.items.length > 0 ? (
                   <>

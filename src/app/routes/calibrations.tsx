@@ -8,7 +8,9 @@ import { Badge, ErrorNotice, Loading, Notice } from '../../components/ui/notice'
 import { StatusBadge } from '../../components/ui/status-badge';
 import { Pager } from '../../components/ui/pager';
 import { useSession } from '../../features/auth/use-session';
+import { useCableCalibrations } from '../../features/cables/api/get-cable-calibrations';
 import { formatPercent, formatVf } from '../../features/cables/cable-format';
+import { CalibrationProposal, proposalDefaults, proposalInput, type ProposalValues } from '../../features/calibrations/components/calibration-proposal';
 import { useCalibrations } from '../../features/calibrations/api/list-calibrations';
 import { useAcceptCalibration, useRejectCalibration } from '../../features/calibrations/api/review-calibration';
 import { formatDateTime, formatLength, lengthsInText, type LengthUnit } from '../../lib/format';
@@ -28,6 +30,12 @@ function Decide({ c }: { c: CalibrationView }) {
   const [note, setNote] = useState('');
   const [rejecting, setRejecting] = useState(false);
   const errors = { ...fieldErrors(accept.error), ...fieldErrors(reject.error) };
+  // The library values proposed from this cable type's accepted calibrations, until the reviewer changes them.
+  const cable = useCableCalibrations(c.cableType.id);
+  const acceptedVfs = cable.data?.items.filter((k) => k.status === 'accepted' && k.id !== c.id).map((k) => k.vf) ?? [];
+  const [edited, setEdited] = useState<ProposalValues | null>(null);
+  const values = edited ?? (cable.data ? proposalDefaults(c, acceptedVfs, cable.data.libraryVfTolerance) : null);
+  const chosen = values ? proposalInput(values) : null;
   // Four eyes: whoever filed a calibration does not accept it, except an administrator who gives the reason.
   const own = c.submittedBy?.id === user.id;
   const override = own && can('calibrations:override');
@@ -38,6 +46,18 @@ function Decide({ c }: { c: CalibrationView }) {
           You filed this calibration, so another planner accepts it.
           {override ? ' As an administrator you may accept it yourself: say why in the note (kept in the library history).' : ''}
         </p>
+      )}
+      {!rejecting && (!own || override) && cable.data && values && (
+        <CalibrationProposal
+          calibration={c}
+          accepted={cable.data.acceptedStats}
+          acceptedVfs={acceptedVfs}
+          libraryVf={cable.data.libraryVf}
+          libraryVfTolerance={cable.data.libraryVfTolerance}
+          values={values}
+          onValues={setEdited}
+          errors={errors}
+        />
       )}
       <TextField
         label={rejecting ? 'Why reject it' : override ? 'Why you accept your own calibration' : 'Note (optional)'}
@@ -50,10 +70,10 @@ function Decide({ c }: { c: CalibrationView }) {
           <>
             {(!own || override) && (
               <Button
-                onClick={() => accept.mutate({ id: c.id, note: note.trim() || undefined })}
-                disabled={accept.isPending || (override && note.trim().length < 10)}
+                onClick={() => accept.mutate({ id: c.id, note: note.trim() || undefined, ...(chosen ?? {}) })}
+                disabled={accept.isPending || (override && note.trim().length < 10) || (values !== null && chosen === null)}
               >
-                {override ? 'Accept my own, with this reason' : 'Accept into the library'}
+                {override ? 'Accept my own, with this reason' : chosen ? `Accept into the library: VF ${chosen.vf.toFixed(4)} ± ${(chosen.vfTolerance * 100).toFixed(1)} %` : 'Accept into the library'}
               </Button>
             )}
             <Button variant="secondary" onClick={() => setRejecting(true)}>

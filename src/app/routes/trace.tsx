@@ -13,16 +13,12 @@ import { useTrace } from '../../features/traces/api/get-trace';
 import { useReanalyseTrace } from '../../features/traces/api/reanalyse-trace';
 import { useSetReference } from '../../features/traces/api/set-reference';
 import { TraceChart, type XAxis } from '../../features/traces/components/trace-chart';
-import { distanceToTime } from '../../features/traces/components/trace-axis';
+import { ArchiveControl } from '../../features/traces/components/archive-control';
+import { CursorPanel } from '../../features/traces/components/cursor-panel';
+import { EventCard } from '../../features/traces/components/event-card';
+import { eventTitle } from '../../features/traces/reflection-words';
 import { formatDateTime, formatLength, lengthsInText, type LengthUnit } from '../../lib/format';
 import { paths } from '../paths';
-
-const TYPE_WORDS: Record<ReflectionEvent['type'], string> = {
-  open: 'Open',
-  short: 'Short',
-  'impedance-rise': 'Impedance rise',
-  'impedance-drop': 'Impedance drop',
-};
 
 /**
  * An engine warning in the reader's unit. The blind-zone one is written from
@@ -35,8 +31,6 @@ function warningWords(w: { code: string; message: string }, blindZoneM: number, 
 }
 /** An engine message as a sentence: capital first letter. */
 const sentence = (text: string) => (text ? text.charAt(0).toUpperCase() + text.slice(1) : text);
-/** A time on the trace, round trip: "412.3 ns". */
-const formatNs = (ns: number) => `${ns.toFixed(ns < 100 ? 2 : 1)} ns`;
 
 /** Whether an event is the run's far end: its window reaches the installed length. */
 function atFarEnd(e: ReflectionEvent, installedLengthM: number) {
@@ -44,8 +38,8 @@ function atFarEnd(e: ReflectionEvent, installedLengthM: number) {
 }
 
 /**
- * The event a technician most likely came for: of the events that are neither
- * an echo nor the run's far end, the strongest reflection (largest |ρ|) — a
+ * The event a technician most likely came for: of the events on the cable
+ * that are neither an echo nor the run's far end, the strongest reflection (largest |ρ|) — a
  * splice or the start of a wet section reflects far less than the fault
  * behind it. Failing that, the strongest of any.
  */
@@ -53,7 +47,9 @@ function likelyFault(events: ReflectionEvent[], installedLengthM: number): Refle
   const strongest = (list: ReflectionEvent[]) =>
     list.reduce<ReflectionEvent | undefined>((best, e) => (!best || Math.abs(e.reflectionCoefficient) > Math.abs(best.reflectionCoefficient) ? e : best), undefined);
   const primary = events.filter((e) => e.likelyMultipleOf === null);
-  return strongest(primary.filter((e) => !atFarEnd(e, installedLengthM))) ?? strongest(primary) ?? strongest(events);
+  // A reflection whose whole window lies past the run's end is not on this cable: never the likely fault.
+  const onCable = primary.filter((e) => e.windowStartM <= installedLengthM);
+  return strongest(onCable.filter((e) => !atFarEnd(e, installedLengthM))) ?? strongest(onCable) ?? strongest(primary) ?? strongest(events);
 }
 
 export function TracePage() {
@@ -114,6 +110,7 @@ export function TracePage() {
           </>
         }
       />
+      <ArchiveControl trace={t} userId={user.id} can={can} />
       {t.status === 'failed' && (
         <Notice tone="danger" title="This file could not be read" className="mb-4">
           <p>{sentence(lengthsInText(t.error?.message ?? '', unit))}</p>
@@ -170,25 +167,26 @@ export function TracePage() {
         <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
           <div className="space-y-4">
             {selected ? (
-              <Card title={`Event ${selected.index + 1}: ${TYPE_WORDS[selected.type]}${atFarEnd(selected, t.cableRun.installedLengthM) ? ' (far end of the run)' : ''}`}>
-                <DistanceBlock
-                  distanceM={selected.distanceM}
-                  windowStartM={selected.windowStartM}
-                  windowEndM={selected.windowEndM}
-                  end={t.end}
-                  endLabel={t.endLabel}
-                  unit={unit}
-                  pos={placeEvent(run, t.end, selected)}
-                />
-                <p className="mt-2 text-sm text-ink-soft tabular">
-                  ρ = {selected.reflectionCoefficient.toFixed(3)}
-                  {selected.impedanceOhm !== null && Number.isFinite(selected.impedanceOhm) && selected.impedanceOhm < 1e5 ? ` · Z ≈ ${selected.impedanceOhm.toFixed(0)} Ω` : ''} · round-trip{' '}
-                  {selected.roundTripNs.toFixed(1)} ns
-                  {selected.likelyMultipleOf !== null ? ` · probably an echo of event ${selected.likelyMultipleOf + 1}` : ''}
-                  {newSet.has(selected.index) ? ' · new since the reference' : ''}
-                </p>
-                <div className="mt-3">
-                  {decided.get(selected.index) ? (
+              <EventCard
+                trace={t}
+                event={selected}
+                unit={unit}
+                isNew={newSet.has(selected.index)}
+                canRecord={can('findings:confirm') && (t.uploadedBy.id === user.id || can('findings:review'))}
+                canCalibrate={can('calibrations:submit')}
+                distanceBlock={
+                  <DistanceBlock
+                    distanceM={selected.distanceM}
+                    windowStartM={selected.windowStartM}
+                    windowEndM={selected.windowEndM}
+                    end={t.end}
+                    endLabel={t.endLabel}
+                    unit={unit}
+                    pos={placeEvent(run, t.end, selected)}
+                  />
+                }
+                decision={
+                  decided.get(selected.index) ? (
                     <p className="rounded-md bg-ok-light px-3 py-2 font-semibold" role="status">
                       {decided.get(selected.index)!.status === 'confirmed' ? 'Confirmed as a fault' : 'Dismissed'}:{' '}
                       <Link className="text-teal underline" to={paths.finding.to(decided.get(selected.index)!.id)}>
@@ -203,9 +201,9 @@ export function TracePage() {
                         {t.uploadedBy.name} uploaded this trace: deciding its events is theirs or a supervisor&rsquo;s.
                       </p>
                     )
-                  )}
-                </div>
-              </Card>
+                  )
+                }
+              />
             ) : (
               <Notice tone="info" title="No reflection above the noise">
                 The engine found no event on this trace. A matched cable with no fault looks like this; so does a trace too short to reach the fault.
@@ -229,38 +227,13 @@ export function TracePage() {
                 axis={axis}
                 selectedEvent={selected?.index ?? null}
                 cursors={cur}
+                activeCursor={activeCursor}
                 showReference={showReference}
                 showDifference={showDifference}
                 onPick={(d) => moveCursor(activeCursor, d)}
+                onCursorMove={(i, d) => (setActiveCursor(i), moveCursor(i, d))}
               />
-              <div className="mt-4 space-y-3" aria-label="Cursors">
-                <p className="text-sm text-ink-soft">Tap the chart to move the chosen cursor, or slide it.</p>
-                {([0, 1] as const).map((i) => (
-                  <div key={i} className="flex flex-wrap items-center gap-3">
-                    <Button variant={activeCursor === i ? 'primary' : 'secondary'} aria-pressed={activeCursor === i} onClick={() => setActiveCursor(i)}>
-                      C{i + 1}
-                    </Button>
-                    <input
-                      type="range"
-                      className="h-11 min-w-0 flex-1 accent-copper"
-                      aria-label={`Cursor ${i + 1} position`}
-                      min={0}
-                      max={rangeM}
-                      step={rangeM / 2000}
-                      value={cur[i]}
-                      onChange={(e) => moveCursor(i, Number(e.target.value))}
-                    />
-                    <span className="min-w-24 text-right font-semibold tabular" data-testid={`cursor-${i + 1}`}>
-                      {axis === 'time' && <span className="block text-sm font-normal text-ink-soft">{formatNs(distanceToTime(t, cur[i]) - t.zeroNs)}</span>}
-                      {formatLength(cur[i], unit)}
-                    </span>
-                  </div>
-                ))}
-                <p className="text-lg font-bold tabular" data-testid="cursor-gap">
-                  Between cursors: {formatLength(Math.abs(cur[1] - cur[0]), unit)}
-                  {axis === 'time' && <span className="font-normal text-ink-soft"> ({formatNs(Math.abs(distanceToTime(t, cur[1]) - distanceToTime(t, cur[0])))} round trip)</span>}
-                </p>
-              </div>
+              <CursorPanel trace={t} unit={unit} axis={axis} cursors={cur} active={activeCursor} onActive={setActiveCursor} onMove={moveCursor} />
               {t.comparison ? (
                 <div className="mt-3 flex flex-wrap items-center gap-3 text-sm">
                   <label className="flex min-h-11 items-center gap-2">
@@ -299,7 +272,7 @@ export function TracePage() {
                     <li key={e.index} className={`rounded-md border-2 p-3 ${isSel ? 'border-copper' : 'border-rule'}`}>
                       <button type="button" className="flex min-h-11 w-full items-baseline justify-between gap-2 text-left" onClick={() => setPicked(e.index)} aria-pressed={isSel}>
                         <span className="font-semibold">
-                          {e.index + 1}. {TYPE_WORDS[e.type]}
+                          {e.index + 1}. {eventTitle(e)}
                           {atFarEnd(e, t.cableRun.installedLengthM) ? ' · far end' : ''}
                           {e.likelyMultipleOf !== null ? ' · echo' : ''}
                           {newSet.has(e.index) ? ' · new' : ''}

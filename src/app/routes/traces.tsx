@@ -11,6 +11,7 @@ import { useSession } from '../../features/auth/use-session';
 import { useCableRuns } from '../../features/sites/api/list-cable-runs';
 import { useSites } from '../../features/sites/api/list-sites';
 import { useTraces } from '../../features/traces/api/list-traces';
+import { ArchivedTraces } from '../../features/traces/components/archived-traces';
 import { formatDateTime } from '../../lib/format';
 import { paths } from '../paths';
 
@@ -145,6 +146,7 @@ export function TracesPage() {
           </>
         )}
       </Card>
+      {can('traces:restore') && <ArchivedTraces traceLink={paths.trace.to} />}
     </>
   );
 }

@@ -1,15 +1,14 @@
 import { useRef, useState, type DragEvent, type FormEvent } from 'react';
-import { Link, useNavigate, useSearchParams } from 'react-router-dom';
-import type { TraceDetail } from '../../../shared/schemas/traces';
+import { useNavigate, useSearchParams } from 'react-router-dom';
 import { ApiError, describeError, type FieldLabels } from '../../lib/api-client';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
 import { fieldErrors, SelectField, TextField } from '../../components/ui/field';
-import { Notice } from '../../components/ui/notice';
 import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useCableRuns } from '../../features/sites/api/list-cable-runs';
 import { useSites } from '../../features/sites/api/list-sites';
 import { useUploadTraces } from '../../features/traces/api/upload-traces';
+import { fileAtFault, sameBytes, UploadOutcome } from '../../features/traces/components/upload-outcome';
 import { countOf, formatLength, fromUnit, lengthsInText } from '../../lib/format';
 import { useSession } from '../../features/auth/use-session';
 import { paths } from '../paths';
@@ -55,6 +54,9 @@ export function UploadPage() {
   const [settings, setSettings] = useState({ mode: 'auto', pulseWidthNs: '', zeroOffsetNs: '', leadLengthM: '', sampleIntervalNs: '', vfOverride: '', vfOverrideReason: '' });
   const [progress, setProgress] = useState<number | null>(null);
   const [dragging, setDragging] = useState(false);
+  // Files just refused for what is in them (unreadable, not a CSV, too large, already uploaded): not taken again.
+  const [refused, setRefused] = useState<Array<{ file: File; why: string }>>([]);
+  const [skipped, setSkipped] = useState<string[]>([]);
   const input = useRef<HTMLInputElement>(null);
   const sites = useSites({ pageSize: 100 });
   const runs = useCableRuns({ siteId: Number(siteId) }, !!siteId);
@@ -62,10 +64,20 @@ export function UploadPage() {
   const run = runs.data?.items.find((r) => String(r.id) === runId);
   const errors = fieldErrors(upload.error, unit);
 
-  const addFiles = (list: FileList | null) => {
+  const addFiles = async (list: FileList | null) => {
     if (!list) return;
+    const picked = Array.from(list);
     const next = [...files];
-    for (const f of Array.from(list)) if (!next.some((x) => x.name === f.name && x.size === f.size)) next.push(f);
+    const again: string[] = [];
+    for (const f of picked) {
+      let earlier: { why: string } | undefined;
+      for (const r of refused) if (await sameBytes(r.file, f)) earlier = r;
+      if (earlier) again.push(`${f.name} (${earlier.why})`);
+      else if (!next.some((x) => x.name === f.name && x.size === f.size)) next.push(f);
+    }
+    setSkipped(again);
+    // Re-choosing only a refused file keeps what the last upload said (and its links).
+    if (next.length === files.length) return;
     setFiles(next);
     upload.reset();
   };
@@ -86,15 +98,21 @@ export function UploadPage() {
         onSuccess: (r) => {
           setFiles([]);
           const ok = r.traces.filter((t) => t.status === 'ok');
-          if (r.traces.length === 1 && ok.length === 1) navigate(paths.trace.to(ok[0].id));
+          if (r.traces.length === 1 && ok.length === 1 && r.duplicates.length === 0) navigate(paths.trace.to(ok[0].id));
+        },
+        onError: (err) => {
+          if (!fileAtFault(err)) return;
+          // The same bytes would be refused again (or stored as another unreadable copy): clear them from the form.
+          const why = err instanceof ApiError && err.code === 'duplicate_upload' ? 'already uploaded for this run and end' : 'it was just refused';
+          setRefused([...refused, ...files.map((file) => ({ file, why }))]);
+          setFiles([]);
         },
         onSettled: () => setProgress(null),
       },
     );
   };
 
-  const failedStored = (upload.error instanceof ApiError ? (upload.error.body?.traces as TraceDetail[] | undefined) : undefined) ?? [];
-  const results = upload.data?.traces ?? [];
+  const failedStored = upload.error instanceof ApiError ? ((upload.error.body?.traces as unknown[] | undefined) ?? []) : [];
 
   return (
     <>
@@ -184,6 +202,11 @@ export function UploadPage() {
               </ul>
             )}
             {errors.file && !failedStored.length && <p className="mt-2 text-sm font-semibold text-danger">{errors.file}</p>}
+            {skipped.length > 0 && (
+              <p className="mt-2 text-sm font-semibold text-warn" role="status" data-testid="upload-skipped">
+                Not added again: {skipped.join('; ')}. Choose a different file.
+              </p>
+            )}
           </Card>
 
           <Card>
@@ -213,33 +236,7 @@ export function UploadPage() {
               <p className="text-sm tabular">{progress < 1 ? `Sending… ${Math.round(progress * 100)} %` : 'Analysing…'}</p>
             </div>
           )}
-          {upload.error && (
-            <Notice tone="danger" title={failedStored.length ? 'The file was kept, but it could not be read' : 'Nothing was uploaded'}>
-              <p>{lengthsInText(describeError(upload.error, LABELS), unit)}</p>
-              {failedStored.map((t) => (
-                <p key={t.id} className="mt-1">
-                  <Link className="font-semibold text-teal underline" to={paths.trace.to(t.id)}>
-                    See the stored file {t.originalName}
-                  </Link>
-                </p>
-              ))}
-              {!failedStored.length && <p className="mt-1">Your files are still selected: fix the problem and send again.</p>}
-            </Notice>
-          )}
-          {results.length > 0 && (
-            <Notice tone={results.every((t) => t.status === 'ok') ? 'ok' : 'warn'} title="Uploaded">
-              <ul>
-                {results.map((t) => (
-                  <li key={t.id}>
-                    <Link className="font-semibold text-teal underline" to={paths.trace.to(t.id)}>
-                      {t.originalName}
-                    </Link>{' '}
-                    — {t.status === 'ok' ? `${t.eventCount} event${t.eventCount === 1 ? '' : 's'}` : `could not be read: ${t.errorMessage}`}
-                  </li>
-                ))}
-              </ul>
-            </Notice>
-          )}
+          <UploadOutcome error={upload.error} data={upload.data} describe={(err) => lengthsInText(describeError(err, LABELS), unit)} traceLink={paths.trace.to} />
           <Button type="submit" className="min-h-14 w-full text-lg" disabled={!files.length || !run || !end || upload.isPending}>
             {upload.isPending ? 'Uploading…' : files.length > 1 ? `Upload ${files.length} traces` : 'Upload and analyse'}
           </Button>

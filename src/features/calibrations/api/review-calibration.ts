@@ -2,8 +2,16 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { CableTypeView, CalibrationView } from '../../../../shared/schemas/cables';
 import { api } from '../../../lib/api-client';
 
-export const acceptCalibration = ({ id, note }: { id: number; note?: string }) =>
-  api<{ calibration: CalibrationView; cable: CableTypeView }>(`/api/calibrations/${id}/accept`, { method: 'POST', body: note ? { note } : {} });
+export interface AcceptInput {
+  id: number;
+  note?: string;
+  /** The VF and tolerance to store, as the reviewer confirmed them. */
+  vf?: number;
+  vfTolerance?: number;
+}
+
+export const acceptCalibration = ({ id, ...body }: AcceptInput) =>
+  api<{ calibration: CalibrationView; cable: CableTypeView }>(`/api/calibrations/${id}/accept`, { method: 'POST', body });
 export const rejectCalibration = ({ id, reason }: { id: number; reason: string }) =>
   api<CalibrationView>(`/api/calibrations/${id}/reject`, { method: 'POST', body: { reason } });
 

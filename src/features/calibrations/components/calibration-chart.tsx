@@ -15,6 +15,16 @@ const MIST = '#6b7a86';
 type Point = { x: number; y: number };
 
 /**
+ * The ticks along the calibrations axis: whole positions only, one per
+ * calibration (at most about ten, evenly spread), each named by the
+ * calibration's number, so one calibration is one tick in the middle.
+ */
+export function calibrationTicks(idsOldestFirst: readonly number[]): Array<{ value: number; label: string }> {
+  const every = Math.max(1, Math.ceil(idsOldestFirst.length / 10));
+  return idsOldestFirst.flatMap((id, i) => (i % every === 0 ? [{ value: i + 1, label: `#${id}` }] : []));
+}
+
+/**
  * Each calibration's VF in the order submitted, against the library's value
  * and the mean ± one standard deviation of those not rejected.
  */
@@ -33,6 +43,8 @@ export function CalibrationChart({
   const n = Math.max(1, ordered.length);
   const byStatus = (status: CalibrationView['status']): Point[] =>
     ordered.flatMap((c, i) => (c.status === status ? [{ x: i + 1, y: c.vf }] : []));
+  // Calibrations sit at 1…n with half a step of room either side; the lines for the library value,
+  // mean and spread run the whole width. One calibration is one point in the middle, labelled by its number.
   const flat = (y: number): Point[] => [
     { x: 0.5, y },
     { x: n + 0.5, y },
@@ -60,7 +72,17 @@ export function CalibrationChart({
     animation: animate ? undefined : false,
     maintainAspectRatio: false,
     scales: {
-      x: { type: 'linear', min: 0.5, max: n + 0.5, ticks: { stepSize: 1, precision: 0 }, title: { display: true, text: 'Calibration, in the order submitted' } },
+      x: {
+        type: 'linear',
+        min: 0.5,
+        max: n + 0.5,
+        afterBuildTicks: (axis) => {
+          axis.ticks = calibrationTicks(ordered.map((c) => c.id)).map(({ value }) => ({ value }));
+        },
+        ticks: { autoSkip: false, callback: (v) => calibrationTicks(ordered.map((c) => c.id)).find((t) => t.value === Number(v))?.label ?? '' },
+        grid: { display: false },
+        title: { display: true, text: 'Calibration number, oldest first' },
+      },
       y: { min: yMin, max: yMax, title: { display: true, text: 'Velocity factor' }, ticks: { callback: (v) => Number(v).toFixed(3) } },
     },
     plugins: {

@@ -7,65 +7,247 @@ import {
   Tooltip,
   type ChartData,
   type ChartOptions,
+  type Plugin,
 } from 'chart.js';
 import annotationPlugin, { type AnnotationOptions } from 'chartjs-plugin-annotation';
-import zoomPlugin from 'chartjs-plugin-zoom';
-import { useMemo, useRef } from 'react';
+import { useMemo, useRef, useState } from 'react';
 import { Line } from 'react-chartjs-2';
 import type { TraceDetail } from '../../../../shared/schemas/traces';
-import { fromUnit, toUnit, type LengthUnit } from '../../../lib/format';
-import { distanceToTime, markerDistances, timeToDistance } from './trace-axis';
+import { formatLength, type LengthUnit } from '../../../lib/format';
+import { useTraceSamples } from '../api/get-trace-samples';
+import { axisMap, formatNs, type AxisMap, type XAxis } from '../chart/axis-map';
+import { ChartControls, type DistanceGainState } from '../chart/chart-controls';
+import { CursorHandles, LabelStrip } from '../chart/chart-overlays';
+import { distanceGain, median, pulseWithGain, stepGainCarry, stepWithGain, verticalRange, type ChartPoint } from '../chart/gain';
+import { useChartGestures, type PlotGeometry } from '../chart/use-chart-gestures';
+import { useLibraryLoss } from '../chart/use-library-loss';
+import { pointsForView, zoomRange, type Range } from '../chart/view-window';
+import { markerDistances } from './trace-axis';
 
-ChartJS.register(LineElement, PointElement, LinearScale, Tooltip, Legend, zoomPlugin, annotationPlugin);
+ChartJS.register(LineElement, PointElement, LinearScale, Tooltip, Legend, annotationPlugin);
 
 const INK = '#1d2731';
 const COPPER = '#b8561f';
 const TEAL = '#1f6f78';
 const MIST = '#6b7a86';
 
-export type XAxis = 'distance' | 'time';
+export type { XAxis };
 
 export interface TraceChartProps {
   trace: TraceDetail;
   unit: LengthUnit;
   axis: XAxis;
   selectedEvent: number | null;
-  cursors: [number, number];
+  /** Cursor positions, distance along the cable (m); none drawn when not given. */
+  cursors?: [number, number];
+  /** The cursor a tap moves. */
+  activeCursor?: 0 | 1;
   showReference: boolean;
   showDifference: boolean;
   /** Called with the distance (m) tapped on the chart. */
-  onPick: (distanceM: number) => void;
-  /** False on paper: the cursors are for the screen. */
+  onPick?: (distanceM: number) => void;
+  /** Called while a cursor is dragged, with its new distance (m). */
+  onCursorMove?: (i: 0 | 1, distanceM: number) => void;
+  /** Off for a printed sheet: no controls, handles or zoomed fetches. */
+  interactive?: boolean;
+  /** False to leave the cursors off (a printed sheet). */
   showCursors?: boolean;
 }
 
-/**
- * Amplitude against distance or round-trip time: the trace (min/max decimated
- * on the server), events, the selected event's window shaded, route markers
- * along the axis, two cursors; wheel, pinch or buttons to zoom, drag to pan.
- */
-export function TraceChart({ trace, unit, axis, selectedEvent, cursors, showReference, showDifference, onPick, showCursors = true }: TraceChartProps) {
-  const chartRef = useRef<ChartJS<'line'>>(null);
-  const x = useMemo(
-    () => (tNs: number) => (axis === 'time' ? tNs - trace.zeroNs : toUnit(timeToDistance(trace, tNs), unit)),
-    [axis, trace, unit],
-  );
-  const fromDistance = (dM: number) => (axis === 'time' ? distanceToTime(trace, dM) - trace.zeroNs : toUnit(dM, unit));
+/** The view range as chosen, remembered with the axis and unit it was chosen in. */
+interface View {
+  key: string;
+  range: Range;
+}
 
-  const data: ChartData<'line', Array<{ x: number; y: number }>> = {
+/** A window of the record around the view, on a coarse grid so small pans reuse it. */
+function detailWindow(map: AxisMap, range: Range, plotPx: number) {
+  const t0 = map.timeOf(range.min);
+  const t1 = map.timeOf(range.max);
+  const span = Math.max(t1 - t0, 1e-6);
+  const grid = 10 ** Math.floor(Math.log10(span));
+  return {
+    fromNs: Math.floor((t0 - span / 2) / grid) * grid,
+    toNs: Math.ceil((t1 + span / 2) / grid) * grid,
+    points: Math.min(20000, Math.max(100, Math.ceil((plotPx * 4) / 100) * 100)),
+  };
+}
+
+function withGain(
+  points: ChartPoint[],
+  gainAt: ((x: number) => number) | null,
+  mode: 'step' | 'pulse',
+  baseline: number,
+  overview: ChartPoint[],
+) {
+  if (!gainAt || points.length === 0) return points;
+  return mode === 'pulse'
+    ? pulseWithGain(points, gainAt, baseline)
+    : stepWithGain(points, gainAt, stepGainCarry(overview, gainAt, points[0].x));
+}
+
+/**
+ * Amplitude against distance or round-trip time: the trace drawn at about
+ * two points per pixel of whatever is in view (a zoomed view fetches that
+ * stretch of the record at full detail), the events and the selected event's
+ * window, route markers with labels that never overlap, two draggable
+ * cursors, vertical gain and a distance gain for far echoes.
+ */
+export function TraceChart({
+  trace,
+  unit,
+  axis,
+  selectedEvent,
+  cursors,
+  activeCursor = 0,
+  showReference,
+  showDifference,
+  onPick,
+  onCursorMove,
+  interactive = true,
+  showCursors = true,
+}: TraceChartProps) {
+  const map = useMemo(() => axisMap(trace, axis, unit), [trace, axis, unit]);
+  const overview = useMemo(() => trace.samples.map((p) => ({ x: map.ofTime(p.t), y: p.y })), [trace.samples, map]);
+  const limits = useMemo<Range>(
+    () => ({ min: 0, max: Math.max(overview.length ? overview[overview.length - 1].x : 1, 1e-6) }),
+    [overview],
+  );
+  const viewKey = `${trace.id}:${axis}:${unit}`;
+  const [view, setView] = useState<View | null>(null);
+  const range = view?.key === viewKey ? view.range : limits;
+  const setRange = (r: Range) => setView({ key: viewKey, range: r });
+  const [geometry, setGeometry] = useState<PlotGeometry | null>(null);
+  const [gain, setGain] = useState(1);
+  const [shift, setShift] = useState(0);
+  const library = useLibraryLoss(trace, interactive);
+  const [ddg, setDdg] = useState<DistanceGainState | null>(null);
+  const distance = ddg ?? { on: false, dbPer100m: library.dbPer100m ?? 0 };
+
+  const plotPx = geometry ? geometry.right - geometry.left : 300;
+  const a = trace.analysis;
+  const mode = a?.mode ?? 'step';
+  const stepX = Math.abs(map.ofTime(trace.zeroNs + (a?.sampleIntervalNs ?? 1)) - map.ofTime(trace.zeroNs));
+  const minSpan = Math.max(20 * stepX, (limits.max - limits.min) / 20000);
+  const zoomed = range.max - range.min < (limits.max - limits.min) * 0.999;
+
+  // A zoomed view with fewer overview points than pixels fetches its stretch of the record at full detail.
+  const inView = zoomed ? overview.filter((p) => p.x >= range.min && p.x <= range.max).length : overview.length;
+  const wantDetail = interactive && zoomed && trace.sampleCount > trace.samples.length && inView < plotPx * 1.5;
+  const detail = useTraceSamples(trace.id, wantDetail ? detailWindow(map, range, plotPx) : null);
+  const detailPoints = useMemo(
+    () => detail.data?.samples.map((p) => ({ x: map.ofTime(p.t), y: p.y })) ?? null,
+    [detail.data, map],
+  );
+  const covers =
+    wantDetail && !!detail.data && detail.data.fromNs <= map.timeOf(range.min) && detail.data.toNs >= map.timeOf(range.max);
+  const source = covers && detailPoints ? detailPoints : overview;
+
+  const blindX = map.ofDistance(a?.blindZoneM ?? 0);
+  const baseline = useMemo(() => median(overview.filter((p) => p.x > blindX).map((p) => p.y)), [overview, blindX]);
+  const gainAt =
+    distance.on && distance.dbPer100m > 0 ? (x: number) => distanceGain(map.distanceOf(x), distance.dbPer100m) : null;
+  const inRange = pointsForView(source, range.min, range.max, plotPx);
+  const drawn = withGain(inRange, gainAt, mode, baseline, overview);
+  const comparison = (pts: Array<{ t: number; y: number }>) =>
+    withGain(
+      pointsForView(
+        pts.map((p) => ({ x: map.ofTime(p.t), y: p.y })),
+        range.min,
+        range.max,
+        plotPx,
+      ),
+      gainAt,
+      mode,
+      baseline,
+      overview,
+    );
+
+  const events = a?.events ?? [];
+  const selected = events.find((e) => e.index === selectedEvent);
+  const cursorX: [number, number] | null =
+    cursors && showCursors ? [map.ofDistance(cursors[0]), map.ofDistance(cursors[1])] : null;
+
+  // Vertical gain magnifies the trace as recorded (so ×4 means the same whether or not far echoes are lifted),
+  // about the trace's level at the chosen cursor (or the middle of the view); ▲/▼ move the band by a quarter.
+  const ys = drawn.map((p) => p.y);
+  const recorded = verticalRange(
+    inRange.map((p) => p.y),
+    1,
+  );
+  const band = (recorded.max - recorded.min) / gain;
+  const focusX =
+    cursorX && cursorX[activeCursor] >= range.min && cursorX[activeCursor] <= range.max
+      ? cursorX[activeCursor]
+      : (range.min + range.max) / 2;
+  const near = drawn.filter((p) => Math.abs(p.x - focusX) <= (range.max - range.min) / 50);
+  const centre = median((near.length ? near : drawn).map((p) => p.y)) + (shift * band) / 4;
+  const yRange = gain > 1 ? { min: centre - band / 2, max: centre + band / 2 } : verticalRange(ys, 1);
+
+  const px = (x: number) =>
+    geometry ? geometry.left + ((x - geometry.xMin) / (geometry.xMax - geometry.xMin)) * (geometry.right - geometry.left) : 0;
+  const onScreen = (x: number) => geometry !== null && x >= geometry.xMin && x <= geometry.xMax;
+  const cursorPx: [number | null, number | null] = cursorX
+    ? [onScreen(cursorX[0]) ? px(cursorX[0]) : null, onScreen(cursorX[1]) ? px(cursorX[1]) : null]
+    : [null, null];
+
+  const plot = useRef<HTMLDivElement>(null);
+  const gestures = useChartGestures(plot, {
+    geometry,
+    range,
+    limits,
+    minSpan,
+    cursorPx,
+    setRange,
+    onTap: (x) => onPick?.(map.distanceOf(x)),
+    onCursorDrag: (i, x) => onCursorMove?.(i, map.distanceOf(x)),
+  });
+
+  const annotations: Record<string, AnnotationOptions> = {};
+  if (selected) {
+    annotations.window = {
+      type: 'box',
+      xMin: map.ofDistance(selected.windowStartM),
+      xMax: map.ofDistance(selected.windowEndM),
+      backgroundColor: 'rgba(184, 86, 31, 0.18)',
+      borderWidth: 0,
+    };
+  }
+  for (const e of events) {
+    const x = map.ofDistance(e.distanceM);
+    const on = e.index === selectedEvent;
+    annotations[`event${e.index}`] = {
+      type: 'line',
+      xMin: x,
+      xMax: x,
+      borderColor: on ? COPPER : 'rgba(184, 86, 31, 0.5)',
+      borderWidth: on ? 2.5 : 1.5,
+    };
+  }
+  const markers = markerDistances(trace);
+  for (const { marker, distanceM } of markers) {
+    const x = map.ofDistance(distanceM);
+    annotations[`marker${marker.id}`] = { type: 'line', xMin: x, xMax: x, borderColor: TEAL, borderDash: [3, 3], borderWidth: 1 };
+  }
+  cursorX?.forEach((x, i) => {
+    annotations[`cursor${i}`] = {
+      type: 'line',
+      xMin: x,
+      xMax: x,
+      borderColor: INK,
+      borderWidth: i === activeCursor ? 2 : 1.5,
+      borderDash: i === 0 ? undefined : [8, 4],
+    };
+  });
+
+  const data: ChartData<'line', ChartPoint[]> = {
     datasets: [
-      {
-        label: trace.originalName,
-        data: trace.samples.map((p) => ({ x: x(p.t), y: p.y })),
-        borderColor: INK,
-        borderWidth: 1.5,
-        pointRadius: 0,
-      },
+      { label: trace.originalName, data: drawn, borderColor: INK, borderWidth: 1.5, pointRadius: 0 },
       ...(showReference && trace.comparison
         ? [
             {
               label: `Reference: ${trace.comparison.referenceName}`,
-              data: trace.comparison.reference.map((p) => ({ x: x(p.t), y: p.y })),
+              data: comparison(trace.comparison.reference),
               borderColor: MIST,
               borderDash: [6, 4],
               borderWidth: 1.5,
@@ -77,7 +259,7 @@ export function TraceChart({ trace, unit, axis, selectedEvent, cursors, showRefe
         ? [
             {
               label: 'Difference (this − reference)',
-              data: trace.comparison.difference.map((p) => ({ x: x(p.t), y: p.y })),
+              data: comparison(trace.comparison.difference),
               borderColor: TEAL,
               borderWidth: 1.5,
               pointRadius: 0,
@@ -87,119 +269,161 @@ export function TraceChart({ trace, unit, axis, selectedEvent, cursors, showRefe
     ],
   };
 
-  const annotations: Record<string, AnnotationOptions> = {};
-  const events = trace.analysis?.events ?? [];
-  const sel = events.find((e) => e.index === selectedEvent);
-  if (sel) {
-    annotations.window = {
-      type: 'box',
-      xMin: fromDistance(sel.windowStartM),
-      xMax: fromDistance(sel.windowEndM),
-      backgroundColor: 'rgba(184, 86, 31, 0.18)',
-      borderWidth: 0,
-    };
-  }
-  for (const e of events) {
-    annotations[`event${e.index}`] = {
-      type: 'line',
-      xMin: fromDistance(e.distanceM),
-      xMax: fromDistance(e.distanceM),
-      borderColor: e.index === selectedEvent ? COPPER : 'rgba(184, 86, 31, 0.5)',
-      borderWidth: e.index === selectedEvent ? 2.5 : 1.5,
-      label: {
-        display: true,
-        content: String(e.index + 1),
-        position: 'start',
-        backgroundColor: e.index === selectedEvent ? COPPER : 'rgba(184, 86, 31, 0.7)',
-        color: '#fff',
-        font: { weight: 'bold', size: 13 },
+  const geometryPlugin = useMemo<Plugin<'line'>>(
+    () => ({
+      id: 'rhologPlotGeometry',
+      afterLayout: (chart) => {
+        const { left, right } = chart.chartArea;
+        const xMin = chart.scales.x.min;
+        const xMax = chart.scales.x.max;
+        setGeometry((g) =>
+          g && g.left === left && g.right === right && g.xMin === xMin && g.xMax === xMax ? g : { left, right, xMin, xMax },
+        );
       },
-    };
-  }
-  for (const { marker, distanceM } of markerDistances(trace)) {
-    annotations[`marker${marker.id}`] = {
-      type: 'line',
-      xMin: fromDistance(distanceM),
-      xMax: fromDistance(distanceM),
-      borderColor: TEAL,
-      borderDash: [3, 3],
-      borderWidth: 1,
-      label: { display: true, content: marker.label, position: 'end', backgroundColor: TEAL, color: '#fff', font: { size: 11 } },
-    };
-  }
-  (showCursors ? cursors : []).forEach((c, i) => {
-    annotations[`cursor${i}`] = {
-      type: 'line',
-      xMin: fromDistance(c),
-      xMax: fromDistance(c),
-      borderColor: INK,
-      borderWidth: 1.5,
-      borderDash: i === 0 ? undefined : [8, 4],
-      label: { display: true, content: `C${i + 1}`, position: 'center', backgroundColor: INK, color: '#fff', font: { size: 11 } },
-    };
-  });
+    }),
+    [],
+  );
 
-  const xTitle = axis === 'time' ? 'Round-trip time (ns)' : `Distance from end ${trace.end} (${unit})`;
+  const readout = (x: number) => (axis === 'time' ? formatNs(x) : formatLength(map.distanceOf(x), unit));
+  const amplitude = a?.amplitudeUnit === 'rho' ? 'Reflection coefficient' : 'Amplitude (V)';
   const options: ChartOptions<'line'> = {
     animation: false,
     responsive: true,
     maintainAspectRatio: false,
     parsing: false,
     normalized: true,
+    events: ['mousemove', 'mouseout'],
     interaction: { mode: 'nearest', intersect: false, axis: 'x' },
     scales: {
-      x: { type: 'linear', title: { display: true, text: xTitle }, min: 0 },
-      y: { type: 'linear', title: { display: true, text: trace.analysis?.amplitudeUnit === 'rho' ? 'Reflection coefficient' : 'Amplitude (V)' } },
+      x: {
+        type: 'linear',
+        min: range.min,
+        max: range.max,
+        ticks: { includeBounds: false },
+        title: { display: true, text: axis === 'time' ? 'Round-trip time (ns)' : `Distance from end ${trace.end} (${unit})` },
+      },
+      y: {
+        type: 'linear',
+        min: yRange.min,
+        max: yRange.max,
+        ticks: { includeBounds: false },
+        title: { display: true, text: gain > 1 || gainAt ? `${amplitude}, magnified` : amplitude },
+      },
     },
     plugins: {
       legend: { display: !!trace.comparison && (showReference || showDifference), position: 'bottom' },
-      tooltip: { enabled: true, callbacks: { title: (items) => (items[0] ? `${items[0].parsed.x?.toFixed(2)} ${axis === 'time' ? 'ns' : unit}` : '') } },
-      zoom: {
-        pan: { enabled: true, mode: 'x' },
-        zoom: { wheel: { enabled: true }, pinch: { enabled: true }, mode: 'x' },
-        limits: { x: { minRange: 0.5 } },
-      },
+      tooltip: { enabled: true, callbacks: { title: (items) => (items[0]?.parsed.x != null ? readout(items[0].parsed.x) : '') } },
       annotation: { annotations },
-    },
-    onClick: (_evt, _els, chart) => {
-      const native = _evt.native as MouseEvent | undefined;
-      if (!native) return;
-      const rect = chart.canvas.getBoundingClientRect();
-      const v = chart.scales.x.getValueForPixel(native.clientX - rect.left);
-      if (v === undefined) return;
-      const dM = axis === 'time' ? timeToDistance(trace, v + trace.zeroNs) : fromUnit(v, unit);
-      onPick(dM);
     },
   };
 
+  const plotLeft = geometry?.left ?? 0;
+  const plotRight = geometry?.right ?? 0;
+  const narrow = plotRight - plotLeft < 420;
+  const zoomBy = (factor: number) => setRange(zoomRange(range, factor, (range.min + range.max) / 2, limits, minSpan));
+
   return (
     <div>
-      <div className="relative h-72 w-full sm:h-96" data-testid="trace-chart">
-        <Line ref={chartRef} data={data} options={options} aria-label={`Trace ${trace.originalName}`} role="img" />
-      </div>
-      <div className="mt-2 flex flex-wrap gap-2">
-        <button type="button" className="min-h-11 rounded-md border border-rule bg-card px-3 text-sm font-semibold" onClick={() => chartRef.current?.zoom(1.5)}>
-          Zoom in
-        </button>
-        <button type="button" className="min-h-11 rounded-md border border-rule bg-card px-3 text-sm font-semibold" onClick={() => chartRef.current?.zoom(1 / 1.5)}>
-          Zoom out
-        </button>
-        <button type="button" className="min-h-11 rounded-md border border-rule bg-card px-3 text-sm font-semibold" onClick={() => chartRef.current?.resetZoom()}>
-          Show all
-        </button>
-        {sel && (
-          <button
-            type="button"
-            className="min-h-11 rounded-md border border-rule bg-card px-3 text-sm font-semibold"
-            onClick={() => {
-              const span = Math.max(sel.windowEndM - sel.windowStartM, 1) * 6;
-              chartRef.current?.zoomScale('x', { min: fromDistance(sel.distanceM - span), max: fromDistance(sel.distanceM + span) });
+      <div
+        data-testid="trace-chart-frame"
+        data-plot-left={plotLeft}
+        data-plot-right={plotRight}
+        data-x-min={geometry?.xMin}
+        data-x-max={geometry?.xMax}
+      >
+        {geometry && (
+          <>
+            <LabelStrip
+              label="Events on the chart"
+              testId="event-label"
+              tone="copper"
+              rows={2}
+              plotLeft={plotLeft}
+              plotRight={plotRight}
+              labels={events
+                .filter((e) => onScreen(map.ofDistance(e.distanceM)))
+                .map((e) => ({
+                  id: `e${e.index}`,
+                  text: String(e.index + 1),
+                  x: px(map.ofDistance(e.distanceM)),
+                  priority: e.index === selectedEvent ? 2 : e.likelyMultipleOf === null ? 1 : 0,
+                  title: `Event ${e.index + 1}`,
+                }))}
+            />
+            <LabelStrip
+              label="Route markers on the chart"
+              testId="marker-label"
+              tone="teal"
+              rows={narrow ? 2 : 3}
+              plotLeft={plotLeft}
+              plotRight={plotRight}
+              labels={markers
+                .filter((m) => onScreen(map.ofDistance(m.distanceM)))
+                .map((m) => ({
+                  id: `m${m.marker.id}`,
+                  text: m.marker.label,
+                  x: px(map.ofDistance(m.distanceM)),
+                  title: `${m.marker.label} at ${formatLength(m.distanceM, unit)} of cable`,
+                }))}
+            />
+          </>
+        )}
+        <div
+          ref={plot}
+          className="relative h-72 w-full touch-pan-y select-none sm:h-96"
+          data-testid="trace-chart"
+          {...(interactive ? gestures : {})}
+        >
+          <Line data={data} options={options} plugins={[geometryPlugin]} aria-label={`Trace ${trace.originalName}`} role="img" />
+        </div>
+        {interactive && geometry && cursorX && (
+          <CursorHandles
+            positions={cursorPx}
+            plotLeft={plotLeft}
+            plotRight={plotRight}
+            active={activeCursor}
+            readouts={[readout(cursorX[0]), readout(cursorX[1])]}
+            onDrag={(i, p) => {
+              const clamped = Math.max(plotLeft, Math.min(plotRight, p));
+              onCursorMove?.(
+                i,
+                map.distanceOf(geometry.xMin + ((clamped - plotLeft) / (plotRight - plotLeft)) * (geometry.xMax - geometry.xMin)),
+              );
             }}
-          >
-            Zoom to event {sel.index + 1}
-          </button>
+            onStep={(i, p) =>
+              onCursorMove?.(
+                i,
+                map.distanceOf(geometry.xMin + ((p - plotLeft) / (plotRight - plotLeft)) * (geometry.xMax - geometry.xMin)),
+              )
+            }
+          />
         )}
       </div>
+      {interactive && (
+        <ChartControls
+          onZoom={zoomBy}
+          onShowAll={() => setView(null)}
+          zoomToEvent={
+            selected
+              ? {
+                  label: `Event ${selected.index + 1} close up`,
+                  go: () => {
+                    const spanM = Math.max(selected.windowEndM - selected.windowStartM, 1) * 6;
+                    const lo = map.ofDistance(selected.distanceM - spanM);
+                    const hi = map.ofDistance(selected.distanceM + spanM);
+                    setRange(zoomRange({ min: lo, max: hi }, 1, (lo + hi) / 2, limits, minSpan));
+                  },
+                }
+              : null
+          }
+          gain={gain}
+          onGain={(g) => (setGain(g), g === 1 && setShift(0))}
+          onShift={(q) => setShift((s) => s + q)}
+          distanceGain={distance}
+          onDistanceGain={setDdg}
+          libraryLoss={library.text}
+        />
+      )}
     </div>
   );
 }

@@ -1,0 +1,44 @@
+import type { ReflectionEvent } from '../../../shared/schemas/trace-analysis';
+
+/** The engine's kinds, in words. The engine types them from the event's own ρ: open ≥ +0.8, short ≤ −0.8. */
+export const TYPE_WORDS: Record<ReflectionEvent['type'], string> = {
+  open: 'Open',
+  short: 'Short',
+  'impedance-rise': 'Impedance rise',
+  'impedance-drop': 'Impedance drop',
+};
+
+/** ρ with its sign always written and a true minus: "ρ −0.54". */
+export function rhoText(rho: number): string {
+  const s = Math.abs(rho).toFixed(2);
+  return `ρ ${rho < 0 && Number(s) !== 0 ? '−' : rho > 0 && Number(s) !== 0 ? '+' : ''}${s}`;
+}
+
+/** "Impedance drop · ρ −0.54": the engine's kind and the ρ it was named from. */
+export function eventTitle(e: Pick<ReflectionEvent, 'type' | 'reflectionCoefficient'>): string {
+  return `${TYPE_WORDS[e.type]} · ${rhoText(e.reflectionCoefficient)}`;
+}
+
+/**
+ * What the size of ρ says, in plain words. Only ρ at or beyond ±0.8 is
+ * called an open or a short; a strong drop or rise short of that is a
+ * partial fault, and is said so, not called a short or an open.
+ */
+export function eventMeaning(e: Pick<ReflectionEvent, 'type' | 'reflectionCoefficient'>): string {
+  const rho = e.reflectionCoefficient;
+  const size = Math.abs(rho);
+  switch (e.type) {
+    case 'open':
+      return 'A full open: the cable ends or a conductor is broken here.';
+    case 'short':
+      return 'A full short: the conductors touch, or nearly, here.';
+    case 'impedance-drop':
+      if (size >= 0.3) return 'A strong drop, short of a full short (that reads beyond −0.80): a low-resistance fault, heavy water or a crushed section.';
+      if (size >= 0.05) return 'A drop: water, a crushed section, a splice or a change of cable.';
+      return 'A slight drop: a splice, a change of cable or the start of damp.';
+    case 'impedance-rise':
+      if (size >= 0.3) return 'A strong rise, short of a full open (that reads beyond +0.80): a high-resistance joint or a partly broken conductor.';
+      if (size >= 0.05) return 'A rise: a high-resistance joint, a splice or a change of cable.';
+      return 'A slight rise: a splice or a change of cable.';
+  }
+}
