@@ -47,7 +47,7 @@ export function CalibrationForm({
   const [traceError, setTraceError] = useState<string | null>(null);
   const [loading, setLoading] = useState(false);
   const submit = useSubmitCalibration();
-  const errors = fieldErrors(submit.error);
+  const errors = fieldErrors(submit.error, unit);
 
   const lengthM = (() => {
     const v = num(length);
@@ -150,7 +150,7 @@ export function CalibrationForm({
         )}
       </p>
       <TextAreaField label="Note (optional)" value={note} onChange={(e) => setNote(e.target.value)} error={errors.note} hint="Where the length comes from, which end you measured from" />
-      {submit.error != null && Object.keys(errors).length === 0 && <ErrorNotice error={submit.error} />}
+      {submit.error != null && Object.keys(errors).length === 0 && <ErrorNotice error={submit.error} unit={unit} />}
       {submit.isSuccess && (
         <Notice tone="ok" title="Sent for review">
           Calibration #{submit.data.id} (VF {submit.data.vf.toFixed(4)}) is in the planners’ queue.

@@ -47,7 +47,7 @@ export function MarkerEditor({ run, unit }: { run: CableRunView; unit: LengthUni
   });
   const [rows, setRows] = useState<Row[]>(run.markers.map(toRow));
   const save = useSaveMarkers();
-  const errors = fieldErrors(save.error);
+  const errors = fieldErrors(save.error, unit);
   const edit = (i: number, patch: Partial<Row>) => setRows(rows.map((r, j) => (j === i ? { ...r, ...patch } : r)));
   const submit = () =>
     save.mutate({
@@ -122,7 +122,7 @@ export function MarkerEditor({ run, unit }: { run: CableRunView; unit: LengthUni
         </Button>
       </div>
       {save.isSuccess && <Notice tone="ok">Markers saved. New findings use them; earlier findings keep the position they were given.</Notice>}
-      {save.error && <ErrorNotice error={save.error} />}
+      {save.error && <ErrorNotice error={save.error} unit={unit} />}
     </div>
   );
 }

@@ -18,7 +18,7 @@ export function RunForm({ siteId, run, unit, onSaved }: { siteId: number; run?: 
     installedLength: run ? lengthForInput(run.installedLengthM, unit) : '',
     notes: run?.notes ?? '',
   });
-  const errors = fieldErrors(save.error);
+  const errors = fieldErrors(save.error, unit);
   const submit = (e: FormEvent) => {
     e.preventDefault();
     save.mutate(
@@ -59,7 +59,7 @@ export function RunForm({ siteId, run, unit, onSaved }: { siteId: number; run?: 
         required
       />
       <TextAreaField label="Notes" value={form.notes} onChange={(e) => setForm({ ...form, notes: e.target.value })} />
-      {save.error && !Object.keys(errors).length && <ErrorNotice error={save.error} />}
+      {save.error && !Object.keys(errors).length && <ErrorNotice error={save.error} unit={unit} />}
       <Button type="submit" disabled={save.isPending}>
         {run ? 'Save cable run' : 'Add cable run'}
       </Button>

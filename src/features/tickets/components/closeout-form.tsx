@@ -28,7 +28,7 @@ export function CloseoutForm({ ticket, unit, onDone }: { ticket: TicketDetail; u
   const [comment, setComment] = useState('');
   const [fileCalibration, setFileCalibration] = useState(true);
   const save = useCloseOutTicket();
-  const errors = fieldErrors(save.error);
+  const errors = fieldErrors(save.error, unit);
   const finding = ticket.findings.find((f) => f.id === findingId) ?? ticket.findings[0];
 
   const found: FoundPosition | null = useMemo(() => {
@@ -166,7 +166,7 @@ export function CloseoutForm({ ticket, unit, onDone }: { ticket: TicketDetail; u
           <span className="block text-xs text-mist">Untick if the fault you found is not the one the reading located.</span>
         </span>
       </label>
-      {save.error && !Object.keys(errors).length && <ErrorNotice error={save.error} />}
+      {save.error && !Object.keys(errors).length && <ErrorNotice error={save.error} unit={unit} />}
       <Button type="submit" disabled={save.isPending || !found}>
         Record the repair
       </Button>
