@@ -96,8 +96,10 @@ export function formatLengthRange(startM: number, endM: number, unit: LengthUnit
  */
 export function lengthsInText(text: string, unit: LengthUnit): string {
   if (!text) return text;
-  const read = (n: string) => Number(n.replace('−', '-'));
-  const pattern = /(^|[^\w./,−-])([-−]?\d+(?:\.\d+)?)(?:\s?–\s?([-−]?\d+(?:\.\d+)?))?\s?(m|ft)\b(?![/²³])/g;
+  const read = (n: string) => Number(n.replace('−', '-').replace(/,/g, ''));
+  // A figure, with thousands written "100,000" or not.
+  const figure = '[-−]?(?:\\d{1,3}(?:,\\d{3})+|\\d+)(?:\\.\\d+)?';
+  const pattern = new RegExp(`(^|[^\\w./,−-])(${figure})(?:\\s?–\\s?(${figure}))?\\s?(m|ft)\\b(?![/²³])`, 'g');
   return text.replace(pattern, (whole, before: string, first: string, second: string | undefined, from: LengthUnit, offset: number) => {
     const lead = text.slice(Math.max(0, offset - 4), offset + before.length);
     if (/per\s$/i.test(lead)) return whole;

@@ -83,6 +83,9 @@ describe('metre figures in text Rholog wrote', () => {
     expect(lengthsInText('located 143.08 m along the cable', 'ft')).toBe('located 469.4 ft along the cable');
     expect(lengthsInText('located 143.08 m along the cable', 'm')).toBe('located 143.1 m along the cable');
     expect(lengthsInText('a 12 ft lead', 'ft')).toBe('a 12.0 ft lead');
+    // 100,000 m / 0.3048 = 328,083.99 ft; a list "12, 40 m" is not a thousands figure.
+    expect(lengthsInText('chainage must be at most 100,000 m', 'ft')).toBe('chainage must be at most 328084 ft');
+    expect(lengthsInText('at 12, 40 m', 'm')).toBe('at 12, 40.0 m');
   });
 
   it('rewrites feet written by someone working in feet for a reader in metres', () => {
