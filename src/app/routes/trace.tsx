@@ -9,6 +9,8 @@ import { useSession } from '../../features/auth/use-session';
 import { DecideEvent } from '../../features/findings/components/decide-event';
 import { DistanceBlock, placeEvent } from '../../features/findings/components/where-to-dig';
 import { DeviceComparisonNotice } from '../../features/offline/components/device-comparison';
+import { useBestLocation } from '../../features/locate/api/get-best-location';
+import { BestLocationHeadline } from '../../features/locate/components/best-location';
 import { useTrace } from '../../features/traces/api/get-trace';
 import { useReanalyseTrace } from '../../features/traces/api/reanalyse-trace';
 import { useSetReference } from '../../features/traces/api/set-reference';
@@ -71,6 +73,10 @@ export function TracePage() {
   const selected = events.find((e) => e.index === (picked ?? likelyFault(events, t?.cableRun.installedLengthM ?? Infinity)?.index ?? -1));
   const rangeM = t?.analysis?.rangeM ?? 0;
   const cur: [number, number] = cursors ?? [0, selected?.distanceM ?? rangeM / 2];
+  // The fault this trace shows (the chosen event's, else the first confirmed): its best location leads the page.
+  const confirmed = t?.findings.filter((f) => f.status === 'confirmed') ?? [];
+  const faultFinding = confirmed.find((f) => f.eventIndex === selected?.index) ?? confirmed[0] ?? null;
+  const best = useBestLocation(faultFinding?.id ?? null).data ?? null;
 
   if (trace.isPending) return <Loading what="Loading the trace" />;
   if (trace.error || !t) return <ErrorNotice error={trace.error} />;
@@ -165,7 +171,19 @@ export function TracePage() {
       )}
       {t.status === 'ok' && t.analysis && (
         <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
-          <div className="space-y-4">
+          <div className="min-w-0 space-y-4">
+            {best && faultFinding && (
+              <Card
+                title="Where to dig: best location of the fault"
+                actions={
+                  <Link className="text-sm font-semibold text-teal underline" to={paths.finding.to(faultFinding.id)}>
+                    Finding {faultFinding.id} and every reading of it
+                  </Link>
+                }
+              >
+                <BestLocationHeadline best={best} run={t.cableRun} unit={unit} fileStem={`finding-${faultFinding.id}-location`} />
+              </Card>
+            )}
             {selected ? (
               <EventCard
                 trace={t}
