@@ -62,6 +62,12 @@ describe('the best location in the browser', () => {
     expect(await page.getByTestId('ground-note').textContent()).toMatch(/No route marker of this run has coordinates/);
     await e2e.screenshot(page, 'best-location-finding-desktop');
     await shoot(page.getByTestId('best-location'), 'best-location-headline-desktop');
+    // The trace the finding came from leads with the same location.
+    const traceId = (await Finding.findByPk(findingA))!.traceId;
+    await page.goto(`${e2e.baseUrl}/traces/${traceId}`);
+    await page.getByTestId('best-distance').waitFor();
+    expect(await page.getByTestId('best-distance').textContent()).toBe(formatLength(best.distanceFromAM, 'm'));
+    await e2e.screenshot(page, 'best-location-trace-desktop');
     await page.close();
   });
 
