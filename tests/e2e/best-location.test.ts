@@ -68,6 +68,12 @@ describe('the best location in the browser', () => {
     await page.getByTestId('best-distance').waitFor();
     expect(await page.getByTestId('best-distance').textContent()).toBe(formatLength(best.distanceFromAM, 'm'));
     await e2e.screenshot(page, 'best-location-trace-desktop');
+    // The demo's closed-out repair scored its reading against the find: the dashboard lists it per method.
+    await page.goto(`${e2e.baseUrl}/dashboard`);
+    const table = page.getByTestId('method-accuracy');
+    await table.waitFor();
+    expect(await table.locator('tbody tr').first().textContent()).toMatch(/^Best location \(all readings\)1/);
+    await shoot(table, 'best-location-method-accuracy-desktop');
     await page.close();
   });
 
