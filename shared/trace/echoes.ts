@@ -103,7 +103,7 @@ function sourceReflection(merged: Measured[], rt: number[], of: Array<number | n
   for (const a of primaries) for (const b of primaries) if (a <= b) pairs.push([a, b, seenAt(merged[a]) * seenAt(merged[b])]);
   pairs.sort((p, q) => q[2] - p[2]);
   for (const [a, b, size] of pairs) {
-    if (size < 0.05) break;
+    if (size < 0.02) break;
     const at = rt[a] + rt[b];
     const tol = tolerance(merged[b], at);
     const k = merged.findIndex((_, i) => i > b && Math.abs(rt[i] - at) < tol);
