@@ -1,0 +1,225 @@
+import { describe, expect, it } from 'vitest';
+import { analyzeTrace, type ParsedTrace } from '../../../shared/trace';
+import { classifyEvent, ownReflections } from '../../../shared/trace/classify';
+import { detectEdges } from '../../../shared/trace/detection';
+import { findEchoes } from '../../../shared/trace/echoes';
+import { findLaunch } from '../../../shared/trace/launch';
+import { estimateNoise, estimateSlowNoise } from '../../../shared/trace/noise';
+import { buildWorkingSignal } from '../../../shared/trace/signal';
+import { madSigma, normalUpperQuantile } from '../../../shared/trace/stats';
+import type { Measured, TraceRecord } from '../../../shared/trace/steps';
+import { COAX_50 } from '../../../scripts/sim/cables';
+import { gaussianSource } from '../../../scripts/sim/line-model';
+import { defaultAcquisition, simulateScenario, type Scenario } from '../../../scripts/sim/scenario';
+
+const record = (y: Float64Array, dt = 1e-9, t0 = 0): TraceRecord => {
+  const n = y.length;
+  return { y, t: new Float64Array(n).map((_, i) => t0 + i * dt), n, dt, unit: 'V' };
+};
+const parsed = (r: TraceRecord, unit: 'V' | 'rho' = 'V'): ParsedTrace => ({
+  timeS: r.t,
+  amplitude: r.y,
+  amplitudeUnit: unit,
+  metadata: {},
+  hints: {},
+  layout: {} as ParsedTrace['layout'],
+  warnings: [],
+});
+const edge = (h: number, opts: Partial<Measured> = {}): Measured => ({
+  onsetIdx: 0,
+  t50Idx: 0,
+  riseSamples: 4,
+  height: h,
+  peakDev: h,
+  blip: false,
+  snr: 50,
+  w: 4,
+  endIdx: 0,
+  fLo: 0.1,
+  echoPeak: h,
+  levelBefore: 0,
+  stillMoving: 0,
+  ...opts,
+});
+
+describe('statistics', () => {
+  it('gives the Gaussian upper quantile', () => {
+    // Φ⁻¹(0.975) = 1.959964, Φ⁻¹(1 − 10⁻⁶) = 4.753424 (Abramowitz & Stegun, table 26.1 / 26.2);
+    // the rational approximation 26.2.23 is good to 4.5·10⁻⁴.
+    expect(Math.abs(normalUpperQuantile(0.025) - 1.959964)).toBeLessThan(4.5e-4);
+    expect(Math.abs(normalUpperQuantile(1e-6) - 4.753424)).toBeLessThan(4.5e-4);
+    expect(normalUpperQuantile(0.5)).toBeCloseTo(0, 3);
+  });
+
+  it('reads σ from the median absolute deviation of Gaussian noise', () => {
+    const rnd = gaussianSource(3);
+    const x = new Float64Array(20000).map(() => 0.25 * rnd());
+    // 1.4826·MAD estimates σ of a normal sample (Hampel 1974); 20 000 draws hold it within 3 %.
+    expect(Math.abs(madSigma(x, 0, x.length) / 0.25 - 1)).toBeLessThan(0.03);
+  });
+});
+
+describe('noise', () => {
+  it('measures white noise on a trace with edges, and ignores a stretch held at the recorder’s limit', () => {
+    const rnd = gaussianSource(4);
+    const y = new Float64Array(10000).map((_, i) => (i > 3000 ? 1 : 0) + (i > 7000 ? 0.5 : 0) + 0.01 * rnd());
+    expect(Math.abs(estimateNoise(y) / 0.01 - 1)).toBeLessThan(0.05);
+    const clipped = y.map((v, i) => (i > 6000 ? 1.2 : Math.min(v, 1.2)));
+    expect(Math.abs(estimateNoise(clipped) / 0.01 - 1)).toBeLessThan(0.05);
+  });
+
+  it('floors a noise-free quantised record at q/√12', () => {
+    // Uniform rounding noise of a quantiser with step q has σ = q/√12 (Widrow & Kollár, ch. 4).
+    const q = 2 / 256;
+    const y = new Float64Array(5000).map((_, i) => Math.round((0.8 * (1 - Math.exp(-i / 900))) / q) * q);
+    expect(estimateNoise(y)).toBeCloseTo(q / Math.sqrt(12), 9);
+  });
+
+  it('sees slow (coloured) noise that first differences miss', () => {
+    // AR(1) noise x[i] = a·x[i−1] + e[i], a = 0.98: its σ is σe/√(1 − a²) ≈ 5σe, while first
+    // differences show only √(2(1 − a))·5σe/√2 ≈ σe (common practice for AR(1) processes).
+    const rnd = gaussianSource(5);
+    let x = 0;
+    const y = new Float64Array(20000).map(() => (x = 0.98 * x + 0.01 * rnd()));
+    expect(estimateNoise(y)).toBeLessThan(0.015);
+    expect(estimateSlowNoise(y)).toBeGreaterThan(0.03);
+  });
+});
+
+describe('launch and mode', () => {
+  const route: Scenario = {
+    name: 'l',
+    cable: COAX_50,
+    lengthM: 60,
+    end: 'open',
+    features: [{ kind: 'shunt', atM: 23.5, rOhm: 100 }],
+  };
+
+  it('reads a pulse record that starts during the launch, with time zero from its axis', () => {
+    const acq = { ...defaultAcquisition(route, 'pulse', 9, 0.002, 12), preTriggerSamples: 0, timeOfFirstSampleS: 0 };
+    const sim = simulateScenario(route, acq);
+    const L = findLaunch(record(sim.volts, acq.sampleIntervalS), 'auto', null);
+    expect(L.found && L.mode).toBe('pulse');
+    expect(L.onsetInRecord).toBe(false);
+    expect(L.zeroIdx).toBeCloseTo(0, 9);
+    // The simulated pulse is 2 rise times wide: its width at half height, in samples.
+    expect(Math.abs((L.widthSamples ?? 0) - (acq.pulseWidthS ?? 0) / acq.sampleIntervalS)).toBeLessThanOrEqual(2);
+  });
+
+  it('reads a launch of either polarity', () => {
+    const acq = defaultAcquisition(route, 'pulse', 10, 0.002, 12);
+    const sim = simulateScenario(route, acq);
+    const up = findLaunch(record(sim.volts, acq.sampleIntervalS), 'auto', null);
+    const down = findLaunch(
+      record(
+        sim.volts.map((v) => -v),
+        acq.sampleIntervalS,
+      ),
+      'auto',
+      null,
+    );
+    expect([up.mode, down.mode]).toEqual(['pulse', 'pulse']);
+    expect(Math.sign(up.height)).toBe(1);
+    expect(Math.sign(down.height)).toBe(-1);
+    expect(Math.abs(up.height + down.height)).toBeLessThan(0.02);
+  });
+
+  it('keeps a step record a step when a fault near the instrument pulls the level down', () => {
+    // 20 Ω shunt at 0.8 m on 50 Ω: ρ = (14.3 − 50)/(14.3 + 50) = −0.56, so the level falls to 0.44.
+    const near: Scenario = {
+      name: 'n',
+      cable: COAX_50,
+      lengthM: 30,
+      end: 'open',
+      features: [{ kind: 'shunt', atM: 0.8, rOhm: 20 }],
+    };
+    const acq = { ...defaultAcquisition(near, 'step', 11, 0.002, 12), sampleIntervalS: 0.1e-9, riseTimeS: 0.5e-9 };
+    acq.samples = 4000;
+    acq.preTriggerSamples = 400;
+    acq.timeOfFirstSampleS = -400 * acq.sampleIntervalS;
+    const sim = simulateScenario(near, acq);
+    expect(findLaunch(record(sim.volts, acq.sampleIntervalS), 'auto', null).mode).toBe('step');
+    const a = analyzeTrace(parsed(record(sim.volts, acq.sampleIntervalS, acq.timeOfFirstSampleS)), { vf: COAX_50.vf, z0Ohm: 50 });
+    expect(a.events[0].type).toBe('impedance-drop');
+    expect(Math.abs(a.events[0].distanceM - 0.8)).toBeLessThanOrEqual(0.5);
+  });
+
+  it('flags a clipped launch and never reports |ρ| above 1 from it', () => {
+    const acq = defaultAcquisition(route, 'pulse', 12, 0.002, 12);
+    acq.impairments.fullScaleV = 0.7;
+    const sim = simulateScenario(route, acq);
+    const a = analyzeTrace(parsed(record(sim.volts, acq.sampleIntervalS, acq.timeOfFirstSampleS)), { vf: COAX_50.vf });
+    expect(a.warnings.map((w) => w.code)).toContain('LAUNCH_CLIPPED');
+    for (const e of a.events) expect(Math.abs(e.reflectionCoefficient)).toBeLessThanOrEqual(1);
+  });
+});
+
+describe('detection', () => {
+  it('holds the false events on pure noise near the stated rate', () => {
+    // 1 false event per 100 traces is the stated target; over 100 noise-only step records the
+    // count is Poisson with mean about 1, so more than 5 would happen by chance under 0.1 % of the time.
+    let falseEvents = 0;
+    for (let s = 0; s < 100; s++) {
+      const rnd = gaussianSource(100 + s);
+      const y = new Float64Array(4000).map((_, i) => (i >= 200 ? 1 : 0) + 0.01 * rnd());
+      const rec = record(y);
+      const sigma0 = estimateNoise(y);
+      const L = findLaunch(rec, 'auto', null, estimateSlowNoise(y));
+      const sig = buildWorkingSignal(rec, L, sigma0);
+      falseEvents += detectEdges(sig, { falseEventsPerTrace: 0.01, rhoMin: 0 }).candidates.length;
+    }
+    expect(falseEvents).toBeLessThanOrEqual(5);
+  });
+
+  it('finds a weak step the noise would hide sample by sample', () => {
+    // ρ = 0.13 (a 15 Ω series joint on 50 Ω: 15/115) with noise σ a quarter of it (12 dB).
+    const rnd = gaussianSource(7);
+    const y = new Float64Array(6000).map((_, i) => (i >= 300 ? 1 : 0) + (i >= 3000 ? 0.13 : 0) + 0.0326 * rnd());
+    const rec = record(y);
+    const L = findLaunch(rec, 'auto', null, estimateSlowNoise(y));
+    const sig = buildWorkingSignal(rec, L, estimateNoise(y));
+    const found = detectEdges(sig, { falseEventsPerTrace: 0.01, rhoMin: 0.005 }).candidates;
+    expect(found.length).toBe(1);
+    expect(Math.abs(found[0].i - 3000)).toBeLessThanOrEqual(2 * found[0].w);
+  });
+});
+
+describe('classification', () => {
+  it('types by the ρ bands and refers ρ past what stands in front', () => {
+    // Lumped resistor: round trip (1 − |ρ|)²; change of line: 1 − ρ² (Pozar, §2.3).
+    const shuntThenEnd = [edge(-0.5), edge(0.25)];
+    const own = ownReflections(shuntThenEnd, [false, false]);
+    expect(own[1].rho).toBeCloseTo(1, 6);
+    const section = [edge(-0.3), edge(0.3 * 0.91), edge(0.9 * 0.91 * 0.91)];
+    const ownSection = ownReflections(section, [false, false, false]);
+    expect(ownSection[1].rho).toBeCloseTo(0.3, 6);
+    // An 8 Ω shunt on 30 Ω reads ρ = (6.3 − 30)/(6.3 + 30) = −0.65: not a short while line shows beyond it.
+    const fault = [edge(-0.65, { riseSamples: 40 }), edge(0.1, { riseSamples: 60 })];
+    expect(classifyEvent(fault[0], ownReflections(fault, [false, false])[0], 4)).toBe('impedance-drop');
+    expect(classifyEvent(edge(-0.85), { rho: -0.85, transmission: 1, isLast: false }, 4)).toBe('short');
+    expect(classifyEvent(edge(0.79), { rho: 0.79, transmission: 1, isLast: false }, 4)).toBe('impedance-rise');
+  });
+});
+
+describe('echoes', () => {
+  it('recovers a mismatched source from the echo at twice an event’s round trip', () => {
+    // Port sees (1 + ρs)·ρ, then (1 + ρs)·ρs·ρ² at twice the time: ρs = r/(1 − r), r = A₂/A₁².
+    // A 25 Ω source on 50 Ω has ρs = −1/3; an open end ρ = 1.
+    const rhoS = -1 / 3;
+    const merged = [edge((1 + rhoS) * 1, { onsetIdx: 1000 }), edge((1 + rhoS) * rhoS, { onsetIdx: 2000 })];
+    const found = findEchoes(merged, (m) => m.onsetIdx);
+    expect(found.sourceRho).toBeCloseTo(rhoS, 6);
+    expect(found.of).toEqual([null, 0]);
+  });
+
+  it('marks a bounce between two reflectors behind a later event', () => {
+    // Reflectors at 100 and 130 samples, end at 500: one bounce returns at 500 + 30 with about ρa·ρb of it.
+    const merged = [
+      edge(-0.3, { onsetIdx: 100 }),
+      edge(0.25, { onsetIdx: 130 }),
+      edge(0.6, { onsetIdx: 500 }),
+      edge(-0.05, { onsetIdx: 530 }),
+    ];
+    expect(findEchoes(merged, (m) => m.onsetIdx).of).toEqual([null, null, null, 2]);
+  });
+});
