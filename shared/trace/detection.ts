@@ -13,7 +13,7 @@
  * edge the record cuts short is still seen.
  *
  * The threshold is set for a stated rate of false events per trace from noise
- * (by default 1 in 100): each scale contributes about L/w independent outputs
+ * (by default 1 in 100): each scale contributes about 2L/w independent outputs
  * over a search length L, and with N outputs in all each is held to a two-sided
  * Gaussian tail of rate/N, k = Φ⁻¹(1 − rate/2N) standard deviations (the
  * Bonferroni bound, e.g. R. G. Miller, "Simultaneous Statistical Inference",
@@ -51,9 +51,14 @@ interface ScaleNoise {
   excess: number | null;
 }
 
-/** Level of F at scale w for the record's noise: white noise of the measured σ, times its coloured excess there. */
+/**
+ * Level of F at scale w for the record's noise: white noise of the measured σ, times its
+ * coloured excess there. On white noise F's weights give √5·σ/√w (step); on the running sum
+ * of white noise (a pulse record's u) they give 0.82·σ·√w, from the same weights summed over
+ * the walk's increments.
+ */
 function whiteNoiseOfF(w: number, sig: WorkingSignal): number {
-  const white = sig.mode === 'step' ? (2.24 * sig.sigmaU) / Math.sqrt(w) : 2.24 * sig.scaleForPulse * Math.sqrt(w) * 0.6;
+  const white = sig.mode === 'step' ? (2.24 * sig.sigmaU) / Math.sqrt(w) : 0.82 * sig.scaleForPulse * Math.sqrt(w);
   return white * sig.noiseExcess(w);
 }
 
@@ -212,7 +217,9 @@ export function detectEdges(sig: WorkingSignal, settings: DetectionSettings): De
   const n = sig.u.length;
   const searchLen = n - sig.start;
   const scales = scalesOf(sig);
-  const independentTests = scales.reduce((acc, w) => acc + Math.max(1, (searchLen - 3 * w) / w), 0);
+  // About two independent outputs per window length: F's kernel decorrelates within half a
+  // window of lag (measured on noise-only records, tests/unit/trace/engine-steps.test.ts).
+  const independentTests = scales.reduce((acc, w) => acc + Math.max(1, (2 * (searchLen - 3 * w)) / w), 0);
   const k = settings.thresholdSigma ?? normalUpperQuantile(settings.falseEventsPerTrace / (2 * independentTests));
   const rhoMin = settings.rhoMin;
   const P = prefixSums(sig.u);

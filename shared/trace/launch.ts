@@ -44,11 +44,30 @@ interface Levels {
   noise: number;
 }
 
+/** The k-th largest (sign +1) or smallest (sign −1) of the three-point averages of y. */
+function extreme(y: Float64Array, k: number, sign: number): number {
+  const ys = smoothedAt(y);
+  const top: number[] = [];
+  for (let i = 0; i < y.length; i++) {
+    const v = sign * ys(i);
+    if (top.length < k) {
+      top.push(v);
+      top.sort((a, b) => a - b);
+    } else if (v > top[0]) {
+      top[0] = v;
+      top.sort((a, b) => a - b);
+    }
+  }
+  return sign * top[0];
+}
+
 function recordLevels(rec: TraceRecord, slowNoise: number): Levels {
   const { y, n, t, dt } = rec;
   const sorted = sortedSample(y);
-  const lo = percentileOf(sorted, 0.002);
-  const hi = percentileOf(sorted, 0.998);
+  // The range runs from the 0.2 % to the 99.8 % point, widened to the fifth most extreme
+  // three-point average, so a launch pulse narrower than 0.2 % of the record still spans it.
+  const lo = Math.min(percentileOf(sorted, 0.002), extreme(y, 5, -1));
+  const hi = Math.max(percentileOf(sorted, 0.998), extreme(y, 5, 1));
   const range = Math.max(hi - lo, 1e-300);
   return {
     lo,
