@@ -75,6 +75,8 @@ function toJson(file: string, a: TraceAnalysis, units: 'm' | 'ft', trace?: Parse
     blind_zone_m: a.blindZoneM,
     range_m: a.rangeM,
     window_coverage: a.windowCoverage ?? null,
+    loss_source: a.lossSource ?? null,
+    loss_db_per_100m: a.lossDbPer100m?.map((l) => ({ frequency_hz: l.frequencyHz, db_per_100m: l.dbPer100m })) ?? null,
     detection: a.detection
       ? {
           false_events_per_trace: a.detection.falseEventsPerTrace,
@@ -91,6 +93,17 @@ function toJson(file: string, a: TraceAnalysis, units: 'm' | 'ft', trace?: Parse
       reflection_coefficient_raw: e.reflectionCoefficientRaw ?? e.reflectionCoefficient,
       loss_corrected: e.lossCorrected ?? false,
       inside_blind_zone: e.insideBlindZone ?? false,
+      path_loss_db: e.pathLossDb ?? null,
+      uncertainty_budget: e.uncertaintyBudget
+        ? {
+            vf_m: e.uncertaintyBudget.vfM,
+            sampling_m: e.uncertaintyBudget.samplingM,
+            timing_m: e.uncertaintyBudget.timingM,
+            loss_m: e.uncertaintyBudget.lossM,
+            dispersion_m: e.uncertaintyBudget.dispersionM,
+            combined_m: e.uncertaintyBudget.combinedM,
+          }
+        : null,
       round_trip_ns: e.roundTripNs,
       uncertainty_m: e.uncertaintyM,
       window_start_m: e.windowStartM,
