@@ -3,6 +3,7 @@ import type { Page, Route } from 'playwright-core';
 import { CableRun, CableType, Finding, Trace, User } from '../../server/db/models';
 import { hashPassword } from '../../server/auth/passwords';
 import { updateUser } from '../../server/users/users.service';
+import { updateCable } from '../../server/cables/cables.service';
 import { stepTraceCsv } from '../support/step-trace';
 import { PHONE, signIn, startE2E, type E2E } from './support/browser';
 
@@ -168,6 +169,7 @@ describe('a device whose account was deactivated while it was offline', () => {
     await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
     await page.goto(`${e2e.baseUrl}/device/analyse`);
     await page.getByLabel('Site').waitFor();
+    await offlineReady(page);
     await e2e.context.setOffline(true);
     await analyseOnPhone(page, 'kit-offline.csv', stepTraceCsv({ faultM: 250, vf: cable.vf, samples: 6000 }));
 
@@ -200,6 +202,52 @@ describe('a device whose account was deactivated while it was offline', () => {
     expect(await kept.getByRole('button', { name: 'Save the file' }).isVisible()).toBe(true);
     await e2e.screenshot(page, 'offline-kept-for-admin-phone');
     expect(await Trace.count()).toBe(tracesBefore);
+    await page.close();
+  });
+});
+
+describe('a trace analysed on the phone while the cable library changed', () => {
+  it('shows the phone’s and the server’s analysis side by side, and leaves a decision the server cannot place to the trace page', async () => {
+    const run = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
+    const cable = (await CableType.findByPk(run.cableTypeId))!;
+    const phoneVf = cable.vf;
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'tech@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/device/analyse`);
+    await page.getByLabel('Site').waitFor();
+    await offlineReady(page);
+    await e2e.context.setOffline(true);
+    await analyseOnPhone(page, 'hn3-before-calibration.csv', stepTraceCsv({ faultM: 300, vf: phoneVf, samples: 8000 }));
+    expect(Math.abs(number(await page.getByTestId('fault-distance').textContent()) - 300)).toBeLessThan(1);
+    await page.getByRole('button', { name: 'Confirm fault' }).click();
+    await page.getByTestId('device-decision').waitFor();
+
+    // Meanwhile a planner raises the run's VF to 0.70 from a field calibration.
+    const planner = (await User.findOne({ where: { email: 'planner@example.com' } }))!;
+    await updateCable(cable.id, { vf: 0.7, reason: 'Field calibration on HN-3' }, { userId: planner.id });
+
+    await e2e.context.setOffline(false);
+    await page.getByTestId('device-sent').waitFor({ timeout: 20_000 });
+    const trace = (await Trace.findOne({ where: { originalName: 'hn3-before-calibration.csv' } }))!;
+    // d = VF·c·t/2: the same round trip read with the new VF lies 0.70/VF_old as far.
+    expect(trace.analysis!.events[0].distanceM / trace.deviceAnalysis!.events[0].distanceM).toBeCloseTo(0.7 / phoneVf, 3);
+    // The confirmed event now sits outside the phone's window: nothing is guessed, it waits for the technician.
+    await expect
+      .poll(() => page.getByTestId('device-decision').textContent(), { timeout: 20_000 })
+      .toMatch(/^Confirmed as a fault on this phone: not sent\. The server's analysis of trace \d+ has no matching event/);
+    expect(await Finding.count({ where: { traceId: trace.id } })).toBe(0);
+    await e2e.screenshot(page, 'offline-library-changed-phone');
+
+    await page.goto(`${e2e.baseUrl}/traces/${trace.id}`);
+    const both = page.getByTestId('device-comparison');
+    await both.waitFor();
+    expect(await page.getByText("The server's analysis differs from the phone's").isVisible()).toBe(true);
+    expect(await both.locator('tr').filter({ hasText: 'Velocity factor' }).locator('td').allTextContents()).toEqual([
+      String(phoneVf),
+      '0.7',
+    ]);
+    await e2e.screenshot(page, 'offline-trace-compared-phone');
     await page.close();
   });
 });

@@ -18,6 +18,23 @@ export function stateWords(item: OutboxItem, viewerId = item.userId): string {
   }
 }
 
+/** Decisions the server could not place: sending them again cannot help; the trace page is where to decide. */
+const DECIDE_ON_TRACE_PAGE = new Set(['event_moved', 'trace_failed', 'upload_removed']);
+
+/** Whether "Try again" can help this item. */
+export function canTryAgain(item: OutboxItem): boolean {
+  if (item.state === 'refused') return true;
+  if (item.state !== 'failed') return false;
+  return !(item.kind === 'decision' && DECIDE_ON_TRACE_PAGE.has(item.problem?.code ?? ''));
+}
+
+/** The server's trace of a decision's upload, once the upload is in. */
+export function traceOfDecision(item: OutboxItem, all: OutboxItem[]): number | null {
+  if (item.kind !== 'decision') return null;
+  const up = all.find((u) => u.id === item.uploadId);
+  return up?.kind === 'upload' ? (up.result?.traceId ?? null) : null;
+}
+
 /** What the item is, in one line. */
 export function itemTitle(item: OutboxItem, uploads: OutboxItem[] = []): string {
   if (item.kind === 'upload') return item.fileName;

@@ -3,9 +3,9 @@ import { countOf, formatAge, formatDateTime } from '../../../lib/format';
 import { useDevice } from '../device-context';
 
 /**
- * One line at the top of every page: online or offline, how much
- * waits on this phone, when it last sent, and what went wrong if it did —
- * with the one action that helps.
+ * One line at the top of every page: online or offline, how much waits on
+ * this phone, when it last sent, and what went wrong if it did — with the
+ * one action that helps.
  */
 export function ConnectionBar({ devicePath }: { devicePath: string }) {
   const d = useDevice();
@@ -47,7 +47,7 @@ export function ConnectionBar({ devicePath }: { devicePath: string }) {
               )
             )}
             {!d.online && d.field && <span className="text-ink-soft">Field data saved {formatAge(d.field.savedAt)}</span>}
-            {signIn > 0 ? (
+            {signIn > 0 && (
               <button
                 type="button"
                 className="inline-flex min-h-8 items-center font-semibold text-danger underline"
@@ -55,12 +55,11 @@ export function ConnectionBar({ devicePath }: { devicePath: string }) {
               >
                 Sign in to send
               </button>
-            ) : (
-              problem &&
-              d.online &&
-              waiting > 0 && (
-                <span className="flex flex-wrap items-center gap-2 text-danger">
-                  <span data-testid="sync-problem">Last send failed: {problem.message}</span>
+            )}
+            {signIn === 0 && problem && d.online && waiting > 0 && (
+              <span className="flex flex-wrap items-center gap-2 text-danger">
+                <span data-testid="sync-problem">Last send failed: {problem.message}</span>
+                {problem.retryable && (
                   <button
                     type="button"
                     className="min-h-8 rounded border border-danger px-2 font-semibold"
@@ -69,8 +68,8 @@ export function ConnectionBar({ devicePath }: { devicePath: string }) {
                   >
                     Try again
                   </button>
-                </span>
-              )
+                )}
+              </span>
             )}
           </>
         )}

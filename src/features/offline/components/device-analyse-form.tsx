@@ -1,4 +1,4 @@
-import { useRef, useState, type FormEvent } from 'react';
+import { useEffect, useRef, useState, type FormEvent } from 'react';
 import { TraceUploadSchema, type TraceSettings } from '../../../../shared/schemas/traces';
 import { summariseDeviceAnalysis } from '../../../../shared/offline/device-summary';
 import { Button } from '../../../components/ui/button';
@@ -6,7 +6,7 @@ import { Card } from '../../../components/ui/card';
 import { SelectField, TextField } from '../../../components/ui/field';
 import { Notice } from '../../../components/ui/notice';
 import { countOf, formatLength, fromUnit, type LengthUnit } from '../../../lib/format';
-import { analyseOnDevice } from '../analyse-on-device';
+import { analyseOnDevice, startEngine } from '../analyse-on-device';
 import { analysisCableOf } from '../cable-values';
 import { useDevice } from '../device-context';
 import type { UploadItem } from '../outbox-machine';
@@ -53,6 +53,8 @@ export function DeviceAnalyseForm({ unit, onAnalysed }: { unit: LengthUnit; onAn
   const [busy, setBusy] = useState(false);
   const [failure, setFailure] = useState<string | null>(null);
   const input = useRef<HTMLInputElement>(null);
+  // Load the engine now, while there may still be signal.
+  useEffect(() => void startEngine(), []);
 
   const sites = d.field?.sites ?? [];
   const runs = (d.field?.runs ?? []).filter((r) => String(r.siteId) === siteId);

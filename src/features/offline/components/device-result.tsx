@@ -26,6 +26,17 @@ const KIND_FOR_TYPE: Record<ReflectionType, (typeof FINDING_KINDS)[number]> = {
   'impedance-drop': 'water-ingress',
 };
 
+/** Whether the server put the events elsewhere than the phone did (or found others). */
+function serverDiffers(item: UploadItem): boolean {
+  const server = item.result?.events;
+  const phone = item.analysis?.events;
+  if (!server || !phone) return false;
+  return (
+    server.length !== phone.length ||
+    server.some((s, i) => s.type !== phone[i].type || Math.abs(s.distanceM - phone[i].distanceM) > 0.0015)
+  );
+}
+
 const atFarEnd = (e: ReflectionEvent, installedLengthM: number) =>
   e.windowEndM >= installedLengthM && e.windowStartM <= installedLengthM;
 
@@ -100,7 +111,17 @@ function DecideOnDevice({ upload, event }: { upload: UploadItem; event: Reflecti
   );
 }
 
-function DecisionState({ item, findingLink }: { item: DecisionItem; findingLink: (id: number) => string }) {
+function DecisionState({
+  item,
+  traceId,
+  traceLink,
+  findingLink,
+}: {
+  item: DecisionItem;
+  traceId: number | null;
+  traceLink: (id: number) => string;
+  findingLink: (id: number) => string;
+}) {
   const verb = item.status === 'confirmed' ? 'Confirmed as a fault' : 'Dismissed';
   if (item.state === 'sent' && item.result) {
     return (
@@ -116,6 +137,14 @@ function DecisionState({ item, findingLink }: { item: DecisionItem; findingLink:
   return (
     <p className="rounded-md bg-warn-light px-3 py-2 font-semibold" role="status" data-testid="device-decision">
       {verb} on this phone: {stateWords(item).toLowerCase()}.{item.problem ? ` ${item.problem.message}` : ''}
+      {item.state === 'failed' && traceId !== null && (
+        <>
+          {' '}
+          <Link className="text-teal underline" to={traceLink(traceId)}>
+            Open trace {traceId}
+          </Link>
+        </>
+      )}
     </p>
   );
 }
@@ -156,8 +185,10 @@ export function DeviceResult({
             <Link className="font-semibold text-teal underline" to={traceLink(item.result.traceId)}>
               trace {item.result.traceId}
             </Link>
-            {item.result.alreadyThere ? ' (it had the file already; nothing was stored twice)' : ''}. Its own analysis, with the
-            library values of now, is on the trace page.
+            {item.result.alreadyThere ? ' (it had the file already; nothing was stored twice)' : ''}.{' '}
+            {serverDiffers(item)
+              ? 'The server’s analysis differs from this phone’s (the cable library may have changed): the trace page shows both.'
+              : 'Its own analysis, with the library values of now, is on the trace page.'}
           </p>
         </Notice>
       ) : (
@@ -202,7 +233,12 @@ export function DeviceResult({
               </p>
               <div className="mt-3">
                 {decisionFor(selected.index) ? (
-                  <DecisionState item={decisionFor(selected.index)!} findingLink={findingLink} />
+                  <DecisionState
+                    item={decisionFor(selected.index)!}
+                    traceId={item.result?.traceId ?? null}
+                    traceLink={traceLink}
+                    findingLink={findingLink}
+                  />
                 ) : (
                   <DecideOnDevice key={selected.index} upload={item} event={selected} />
                 )}

@@ -3,7 +3,7 @@ import { Badge } from '../../../components/ui/notice';
 import { Button } from '../../../components/ui/button';
 import { formatAge, formatDateTime } from '../../../lib/format';
 import type { OutboxItem } from '../outbox-machine';
-import { itemTitle, saveFile, stateWords, TONE_OF } from '../outbox-words';
+import { canTryAgain, itemTitle, saveFile, stateWords, traceOfDecision, TONE_OF } from '../outbox-words';
 
 export interface OutboxActions {
   retry?: (id: string) => void;
@@ -21,7 +21,8 @@ export interface OutboxActions {
 function ItemRow({ item, all, actions }: { item: OutboxItem; all: OutboxItem[]; actions: OutboxActions }) {
   const open = actions.openLink?.(item);
   const title = itemTitle(item, all);
-  const canRetry = actions.retry && (item.state === 'failed' || item.state === 'refused');
+  const canRetry = actions.retry && canTryAgain(item);
+  const decideOn = item.state === 'failed' && !canTryAgain(item) ? traceOfDecision(item, all) : null;
   return (
     <li className="space-y-1 py-3" data-testid="outbox-item" data-state={item.state}>
       <div className="flex flex-wrap items-baseline justify-between gap-2">
@@ -51,6 +52,13 @@ function ItemRow({ item, all, actions }: { item: OutboxItem; all: OutboxItem[]; 
       {item.problem && item.state !== 'sent' && (
         <p className="text-sm font-semibold text-danger" data-testid="outbox-problem">
           {item.problem.message}
+        </p>
+      )}
+      {decideOn !== null && (
+        <p className="text-sm">
+          <Link className="font-semibold text-teal underline" to={actions.traceLink(decideOn)}>
+            Decide it on trace {decideOn}
+          </Link>
         </p>
       )}
       {item.state === 'sent' && item.kind === 'upload' && item.result && (
