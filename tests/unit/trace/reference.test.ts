@@ -32,41 +32,36 @@ describe('scikit-rf reference traces', () => {
     expect(manifest.some((m) => m.multiples !== undefined)).toBe(true);
   });
 
-  // Known shortfall: the engine misreads these lossy references today; expected failures until fixed.
-  const shortfall = new Set(['foam-coax-30m-open-lossy.csv', 'pair-0.4mm-300m-short-lossy.csv']);
   for (const ref of manifest) {
-    (shortfall.has(ref.file) ? it.fails : it)(
-      `finds ${ref.events.map((e) => `${e.type} at ${e.distance_m} m`).join(', ') || 'nothing'} in ${ref.file}`,
-      () => {
-        const loss = ref.loss?.map((l) => ({ dbPer100m: l.db_per_100m, frequencyHz: l.frequency_hz }));
-        const a = analyzeCsv(readFileSync(join(dir, ref.file), 'utf8'), {}, { vf: ref.vf, z0Ohm: ref.z0_ohm, loss });
-        expect(a.amplitudeUnit).toBe('rho');
-        const primaries = a.events.filter((e) => e.likelyMultipleOf === null);
-        expect(primaries.length).toBe(ref.events.length);
-        ref.events.forEach((exp, k) => {
-          const got = primaries[k];
-          expect(Math.abs(got.distanceM - exp.distance_m)).toBeLessThanOrEqual(tolerance(exp.distance_m));
-          expect(got.type).toBe(exp.type);
-          expect(got.windowStartM).toBeLessThanOrEqual(exp.distance_m);
-          expect(got.windowEndM).toBeGreaterThanOrEqual(exp.distance_m);
-          if (ref.loss === undefined || got.lossCorrected) {
-            expect(Math.abs(got.reflectionCoefficient - exp.reflection_coefficient)).toBeLessThanOrEqual(
-              rhoTolerance(exp.reflection_coefficient),
-            );
-          } else {
-            // Loss not modelled: the step is still rising when it is read, so it reads low.
-            // It keeps its sign and does not exceed the load's ρ.
-            expect(Math.sign(got.reflectionCoefficient)).toBe(Math.sign(exp.reflection_coefficient));
-            expect(Math.abs(got.reflectionCoefficient)).toBeLessThanOrEqual(Math.abs(exp.reflection_coefficient) + 0.05);
-          }
-        });
-        // The port's re-reflections of the load are reported only as multiples, or not at all.
-        for (const m of ref.multiples ?? []) {
-          const at = a.events.filter((e) => Math.abs(e.distanceM - m.distance_m) <= tolerance(m.distance_m));
-          for (const e of at) expect(e.likelyMultipleOf).not.toBeNull();
+    it(`finds ${ref.events.map((e) => `${e.type} at ${e.distance_m} m`).join(', ') || 'nothing'} in ${ref.file}`, () => {
+      const loss = ref.loss?.map((l) => ({ dbPer100m: l.db_per_100m, frequencyHz: l.frequency_hz }));
+      const a = analyzeCsv(readFileSync(join(dir, ref.file), 'utf8'), {}, { vf: ref.vf, z0Ohm: ref.z0_ohm, loss });
+      expect(a.amplitudeUnit).toBe('rho');
+      const primaries = a.events.filter((e) => e.likelyMultipleOf === null);
+      expect(primaries.length).toBe(ref.events.length);
+      ref.events.forEach((exp, k) => {
+        const got = primaries[k];
+        expect(Math.abs(got.distanceM - exp.distance_m)).toBeLessThanOrEqual(tolerance(exp.distance_m));
+        expect(got.type).toBe(exp.type);
+        expect(got.windowStartM).toBeLessThanOrEqual(exp.distance_m);
+        expect(got.windowEndM).toBeGreaterThanOrEqual(exp.distance_m);
+        if (ref.loss === undefined || got.lossCorrected) {
+          expect(Math.abs(got.reflectionCoefficient - exp.reflection_coefficient)).toBeLessThanOrEqual(
+            rhoTolerance(exp.reflection_coefficient),
+          );
+        } else {
+          // Loss not modelled: the step is still rising when it is read, so it reads low.
+          // It keeps its sign and does not exceed the load's ρ.
+          expect(Math.sign(got.reflectionCoefficient)).toBe(Math.sign(exp.reflection_coefficient));
+          expect(Math.abs(got.reflectionCoefficient)).toBeLessThanOrEqual(Math.abs(exp.reflection_coefficient) + 0.05);
         }
-        if (ref.events.length === 0) expect(a.warnings.map((w) => w.code)).toContain('NO_REFLECTION');
-      },
-    );
+      });
+      // The port's re-reflections of the load are reported only as multiples, or not at all.
+      for (const m of ref.multiples ?? []) {
+        const at = a.events.filter((e) => Math.abs(e.distanceM - m.distance_m) <= tolerance(m.distance_m));
+        for (const e of at) expect(e.likelyMultipleOf).not.toBeNull();
+      }
+      if (ref.events.length === 0) expect(a.warnings.map((w) => w.code)).toContain('NO_REFLECTION');
+    });
   }
 });

@@ -21,35 +21,31 @@ describe('simulator sweep', () => {
     expect(Math.max(...lengths)).toBeGreaterThanOrEqual(3000);
   });
 
-  // Known shortfall of the engine on the restored harder sweep: recorded as an expected failure so it turns red once fixed.
-  it.fails(
-    'places every feature within max(0.5 m, 1 %) with the right type and ρ, windows that hold it, and nothing else',
-    () => {
-      let worst = { m: 0, ofTolerance: 0, id: '' };
-      const failures: string[] = [];
-      let hits = 0;
-      let checks = 0;
-      for (const c of cases) {
-        const analysis = analyzeCsv(c.csv, {}, { vf: c.vf, z0Ohm: c.z0Ohm });
-        expect(traceAnalysisSchema.safeParse(analysis).success).toBe(true);
-        expect(analysis.mode).toBe(c.acquisition.mode);
-        const r = scoreCase(c, analysis.events);
-        if (!r.ok) failures.push(`${c.id}: ${r.problems.join('; ')}`);
-        hits += r.windowHits;
-        checks += r.windowChecks;
-        if (r.worstErrorOfTolerance > worst.ofTolerance)
-          worst = { m: r.worstErrorM, ofTolerance: r.worstErrorOfTolerance, id: c.id };
-      }
-      console.log(
-        `sweep: ${cases.length} traces; worst error ${worst.m.toFixed(3)} m (${(worst.ofTolerance * 100).toFixed(0)} % of its tolerance) in ${worst.id}; windows held ${hits} of ${checks}`,
-      );
-      expect(failures).toEqual([]);
-      expect(worst.ofTolerance).toBeLessThanOrEqual(1);
-      expect(hits / checks).toBeGreaterThanOrEqual(WINDOW_COVERAGE);
-    },
-  );
+  it('places every feature within max(0.5 m, 1 %) with the right type and ρ, windows that hold it, and nothing else', () => {
+    let worst = { m: 0, ofTolerance: 0, id: '' };
+    const failures: string[] = [];
+    let hits = 0;
+    let checks = 0;
+    for (const c of cases) {
+      const analysis = analyzeCsv(c.csv, {}, { vf: c.vf, z0Ohm: c.z0Ohm });
+      expect(traceAnalysisSchema.safeParse(analysis).success).toBe(true);
+      expect(analysis.mode).toBe(c.acquisition.mode);
+      const r = scoreCase(c, analysis.events);
+      if (!r.ok) failures.push(`${c.id}: ${r.problems.join('; ')}`);
+      hits += r.windowHits;
+      checks += r.windowChecks;
+      if (r.worstErrorOfTolerance > worst.ofTolerance)
+        worst = { m: r.worstErrorM, ofTolerance: r.worstErrorOfTolerance, id: c.id };
+    }
+    console.log(
+      `sweep: ${cases.length} traces; worst error ${worst.m.toFixed(3)} m (${(worst.ofTolerance * 100).toFixed(0)} % of its tolerance) in ${worst.id}; windows held ${hits} of ${checks}`,
+    );
+    expect(failures).toEqual([]);
+    expect(worst.ofTolerance).toBeLessThanOrEqual(1);
+    expect(hits / checks).toBeGreaterThanOrEqual(WINDOW_COVERAGE);
+  });
 
-  it.fails('does the same on noise-free, unquantised simulations', () => {
+  it('does the same on noise-free, unquantised simulations', () => {
     const failures: string[] = [];
     for (const c of buildSweep({ clean: true })) {
       const r = scoreCase(c, analyzeCsv(c.csv, {}, { vf: c.vf, z0Ohm: c.z0Ohm }).events);
