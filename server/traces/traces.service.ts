@@ -1,3 +1,5 @@
+import { createHash } from 'node:crypto';
+import { createReadStream } from 'node:fs';
 import fs from 'node:fs/promises';
 import { Op, UniqueConstraintError, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
@@ -85,13 +87,38 @@ async function runAndCable(fields: Pick<UploadFields, 'cableRunId'>) {
   return { run, cable };
 }
 
-async function earlierReceipt(userId: number, key: string, fields: UploadFields): Promise<UploadOutcome | null> {
+/** The SHA-256 of a file waiting in the inbox, read as a stream. */
+async function fileSha256(p: string): Promise<string> {
+  const hash = createHash('sha256');
+  for await (const chunk of createReadStream(p)) hash.update(chunk as Buffer);
+  return hash.digest('hex');
+}
+
+/**
+ * The earlier upload under this key, if any. It is a retry only when it went
+ * to the same run and end with the same bytes (file names may differ); a key
+ * reused for other files is refused, never answered with the first files' result.
+ */
+async function earlierReceipt(userId: number, key: string, fields: UploadFields, hashes: string[]): Promise<UploadOutcome | null> {
   const receipt = await UploadReceipt.findOne({ where: { userId, idempotencyKey: key } });
   if (!receipt) return null;
   if (receipt.cableRunId !== fields.cableRunId || receipt.end !== fields.end) {
     throw new AppError(422, 'idempotency_key_reused', 'This Idempotency-Key was already used for an upload to another cable run or end. Send a new key for a new upload.', {
       fields: [{ field: 'Idempotency-Key', message: 'already used for a different upload' }],
     });
+  }
+  const ids = [...receipt.traceIds, ...receipt.duplicates.map((d) => d.traceId)];
+  const rows = await Trace.findAll({ where: { id: ids }, attributes: ['id', 'sha256'] });
+  const shaOf = new Map(rows.map((t) => [t.id, t.sha256]));
+  const before = ids.map((id) => shaOf.get(id) ?? '').sort();
+  const now = [...hashes].sort();
+  if (before.length !== now.length || before.some((h, i) => h !== now[i])) {
+    throw new AppError(
+      422,
+      'idempotency_key_reused',
+      'This Idempotency-Key was already used for an upload of different files: a retry must send the same files. Nothing was stored; send a new key for a new upload.',
+      { fields: [{ field: 'Idempotency-Key', message: 'already used for different files' }] },
+    );
   }
   return { traceIds: receipt.traceIds, duplicates: receipt.duplicates, replayed: true };
 }
@@ -135,10 +162,12 @@ export async function receiveUpload(
   const inbox: string[] = [];
   const adopted: string[] = [];
   let committed = false;
+  let hashes: string[] = [];
   try {
     for (const f of files) inbox.push('path' in f ? f.path : await writeInbox(ctx.config.uploadDir, f.bytes));
     if (idempotencyKey) {
-      const earlier = await earlierReceipt(uploadedById, idempotencyKey, fields);
+      hashes = await Promise.all(inbox.map(fileSha256));
+      const earlier = await earlierReceipt(uploadedById, idempotencyKey, fields, hashes);
       if (earlier) return earlier;
     }
     const { run, cable } = await runAndCable(fields);
@@ -222,7 +251,7 @@ export async function receiveUpload(
     if (!committed) for (const rel of adopted) await removeRaw(ctx.config.uploadDir, rel).catch(() => undefined);
     if (idempotencyKey && err instanceof UniqueConstraintError) {
       // The same key committed first from another request: answer with its outcome.
-      const earlier = await earlierReceipt(uploadedById, idempotencyKey, fields);
+      const earlier = await earlierReceipt(uploadedById, idempotencyKey, fields, hashes);
       if (earlier) return earlier;
     }
     throw err;

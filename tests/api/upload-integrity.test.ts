@@ -75,6 +75,33 @@ describe('uploads that are retried or repeated', () => {
     expect(filesIn(api, 'incoming')).toEqual([]);
   });
 
+  it('refuses a key reused for different bytes on the same run and end, and replays it for the same bytes under another name', async () => {
+    const first = Buffer.from(stepTraceCsv({ faultM: 64, vf: 0.66 }));
+    const other = Buffer.from(stepTraceCsv({ faultM: 118, vf: 0.66 }));
+    const stored = await send(first, 'joint-3.csv', { key: 'upload-joint-3-a' }).expect(201);
+    const traces = await Trace.count();
+    const res = await send(other, 'joint-3.csv', { key: 'upload-joint-3-a' }).expect(422);
+    expect(res.body.error.code).toBe('idempotency_key_reused');
+    expect(res.body.error.message).toContain('different files');
+    expect(res.body.error.fields).toEqual([{ field: 'Idempotency-Key', message: 'already used for different files' }]);
+    expect(await Trace.count()).toBe(traces);
+    expect(await Trace.count({ where: { sha256: sha(other) } })).toBe(0);
+    // One file more than the first time is a different upload too.
+    const more = await tech
+      .postRaw('/api/traces')
+      .field('cableRunId', String(runId))
+      .field('end', 'A')
+      .attach('file', first, 'joint-3.csv')
+      .attach('file', other, 'joint-3b.csv')
+      .set('Idempotency-Key', 'upload-joint-3-a')
+      .expect(422);
+    expect(more.body.error.code).toBe('idempotency_key_reused');
+    const again = await send(first, 'joint-3 renamed.csv', { key: 'upload-joint-3-a' }).expect(201);
+    expect(again.body.replayed).toBe(true);
+    expect(again.body.traces[0].id).toBe(stored.body.traces[0].id);
+    expect(filesIn(api, 'incoming')).toEqual([]);
+  });
+
   it('reports the same bytes on the same run and end as a duplicate and does not store them again', async () => {
     const csv = Buffer.from(stepTraceCsv({ faultM: 80, vf: 0.66 }));
     const first = await send(csv, 'pole-14.csv').expect(201);
