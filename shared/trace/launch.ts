@@ -44,21 +44,46 @@ interface Levels {
   noise: number;
 }
 
-/** The k-th largest (sign +1) or smallest (sign −1) of the three-point averages of y. */
-function extreme(y: Float64Array, k: number, sign: number): number {
-  const ys = smoothedAt(y);
-  const top: number[] = [];
-  for (let i = 0; i < y.length; i++) {
-    const v = sign * ys(i);
-    if (top.length < k) {
-      top.push(v);
-      top.sort((a, b) => a - b);
-    } else if (v > top[0]) {
-      top[0] = v;
-      top.sort((a, b) => a - b);
-    }
+/** Insert v into `top`, the k largest so far in ascending order (top[0] is the k-th largest). */
+function keepLargest(top: number[], k: number, v: number): void {
+  if (top.length === k) {
+    if (v <= top[0]) return;
+    top.shift();
   }
-  return sign * top[0];
+  let j = top.length;
+  while (j > 0 && top[j - 1] > v) j--;
+  top.splice(j, 0, v);
+}
+
+/**
+ * The k-th smallest and k-th largest of the three-point averages of y, in one pass: the
+ * running three-sample sum is kept as it goes, and a value touches the short lists only when
+ * it beats their current k-th, which on a long record almost never happens.
+ */
+export function extremes(y: Float64Array, k: number): { lo: number; hi: number } {
+  const n = y.length;
+  if (n === 0) return { lo: NaN, hi: NaN };
+  const top: number[] = [];
+  const bottom: number[] = [];
+  let above = -Infinity;
+  let below = Infinity;
+  const take = (v: number) => {
+    if (v > above || top.length < k) {
+      keepLargest(top, k, v);
+      above = top.length < k ? -Infinity : top[0];
+    }
+    if (v < below || bottom.length < k) {
+      keepLargest(bottom, k, -v);
+      below = bottom.length < k ? Infinity : -bottom[0];
+    }
+  };
+  take(y[0]);
+  for (let i = 1; i < n - 1; i++) {
+    const v = (y[i - 1] + y[i] + y[i + 1]) / 3;
+    if (v > above || v < below) take(v);
+  }
+  if (n > 1) take(y[n - 1]);
+  return { lo: -bottom[0], hi: top[0] };
 }
 
 function recordLevels(rec: TraceRecord, slowNoise: number): Levels {
@@ -66,8 +91,9 @@ function recordLevels(rec: TraceRecord, slowNoise: number): Levels {
   const sorted = sortedSample(y);
   // The range runs from the 0.2 % to the 99.8 % point, widened to the fifth most extreme
   // three-point average, so a launch pulse narrower than 0.2 % of the record still spans it.
-  const lo = Math.min(percentileOf(sorted, 0.002), extreme(y, 5, -1));
-  const hi = Math.max(percentileOf(sorted, 0.998), extreme(y, 5, 1));
+  const ext = extremes(y, 5);
+  const lo = Math.min(percentileOf(sorted, 0.002), ext.lo);
+  const hi = Math.max(percentileOf(sorted, 0.998), ext.hi);
   const range = Math.max(hi - lo, 1e-300);
   return {
     lo,

@@ -3,7 +3,7 @@ import { analyzeTrace, type ParsedTrace } from '../../../shared/trace';
 import { classifyEvent, ownReflections } from '../../../shared/trace/classify';
 import { detectEdges } from '../../../shared/trace/detection';
 import { findEchoes } from '../../../shared/trace/echoes';
-import { findLaunch } from '../../../shared/trace/launch';
+import { extremes, findLaunch } from '../../../shared/trace/launch';
 import { estimateNoise, estimateSlowNoise } from '../../../shared/trace/noise';
 import { buildWorkingSignal } from '../../../shared/trace/signal';
 import { madSigma, normalUpperQuantile } from '../../../shared/trace/stats';
@@ -94,6 +94,19 @@ describe('launch and mode', () => {
     end: 'open',
     features: [{ kind: 'shunt', atM: 23.5, rOhm: 100 }],
   };
+
+  it('spans the range from the fifth most extreme three-point averages, found in one pass', () => {
+    // Hand-worked: the three-point averages of [0, 3, 0, 0, 9, 0, 0, -6, 0, 0] are
+    // 0 (end), 1, 1, 3, 3, 3, −2, −2, −2, 0 (end); the third largest is 3, the third smallest −2.
+    const y = new Float64Array([0, 3, 0, 0, 9, 0, 0, -6, 0, 0]);
+    expect(extremes(y, 3)).toEqual({ lo: -2, hi: 3 });
+    expect(extremes(y, 1)).toEqual({ lo: -2, hi: 3 });
+    // A record of n = 100 001 samples y_i = i: the averages are i for 1 ≤ i ≤ n − 2 and the
+    // ends are 0 and n − 1, so all of 0 … n − 1 occur once: fifth largest n − 5, fifth smallest 4.
+    const n = 100001;
+    const ramp = new Float64Array(n).map((_, i) => i);
+    expect(extremes(ramp, 5)).toEqual({ lo: 4, hi: n - 5 });
+  });
 
   it('reads a pulse record that starts during the launch, with time zero from its axis', () => {
     const acq = { ...defaultAcquisition(route, 'pulse', 9, 0.002, 12), preTriggerSamples: 0, timeOfFirstSampleS: 0 };
