@@ -21,15 +21,44 @@ export function nulByteError(where: string, field: string): AppError {
   });
 }
 
+/** Half of a UTF-16 surrogate pair standing alone: no character at all, and not storable as UTF-8. */
+const LONE_SURROGATE = /[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/;
+
+/** The path of the first string (or key) holding a lone UTF-16 surrogate, such as "\ud800" in JSON, or null. */
+export function findLoneSurrogate(value: unknown, path = '', depth = 0): string | null {
+  if (typeof value === 'string') return LONE_SURROGATE.test(value) ? path || '(value)' : null;
+  if (depth > 20 || value === null || typeof value !== 'object') return null;
+  for (const [key, v] of Object.entries(value)) {
+    const here = path ? `${path}.${key}` : key;
+    if (LONE_SURROGATE.test(key)) return here.replace(new RegExp(LONE_SURROGATE.source, 'g'), '\uFFFD');
+    const found = findLoneSurrogate(v, here, depth + 1);
+    if (found) return found;
+  }
+  return null;
+}
+
+export function loneSurrogateError(where: string, field: string): AppError {
+  const name = field.slice(0, 60);
+  return AppError.badRequest('broken_text', `The ${where} has a broken character in "${name}" (half of a UTF-16 surrogate pair, which is not a character). Retype the text and send again.`, {
+    fields: [{ field: name, message: 'must be valid text: it holds half of a UTF-16 surrogate pair' }],
+  });
+}
+
 /**
- * No text Rholog takes in may hold a NUL character: databases refuse it or
- * cut the text there. Query parameters and JSON bodies are checked here, once
- * for every route; multipart fields where the form is read.
+ * No text Rholog takes in may hold a NUL character (databases refuse it or
+ * cut the text there) or a lone UTF-16 surrogate (no character; it cannot be
+ * stored as UTF-8 and comes back as something else). Query parameters and
+ * JSON bodies are checked here, once for every route; multipart fields where
+ * the form is read.
  */
 export const refuseNulBytes: RequestHandler = (req, _res, next) => {
   const inQuery = findNulByte(req.query);
   if (inQuery) return next(nulByteError('query', inQuery));
   const inBody = findNulByte(req.body);
   if (inBody) return next(nulByteError('request body', inBody));
+  const brokenQuery = findLoneSurrogate(req.query);
+  if (brokenQuery) return next(loneSurrogateError('query', brokenQuery));
+  const brokenBody = findLoneSurrogate(req.body);
+  if (brokenBody) return next(loneSurrogateError('request body', brokenBody));
   next();
 };

@@ -144,3 +144,25 @@ describe('NUL characters', () => {
     expect(await Site.count()).toBe(before);
   });
 });
+
+describe('lone UTF-16 surrogates', () => {
+  // A surrogate half alone (U+D800–U+DFFF unpaired) is not a character (The Unicode Standard, ch. 3, D71–D76); JSON can
+  // still carry one as "\ud800" (RFC 8259 §8.2), so the server must refuse it rather than store something it cannot read back.
+  it('refuses one in a site name, a user name or a nested field, naming the field, and stores nothing', async () => {
+    const before = await Site.count();
+    const name = await sup.post('/api/sites', site({ name: 'Pump \ud800house' })).expect(400);
+    expect(name.body.error.code).toBe('broken_text');
+    expect(name.body.error.message).toContain('"name"');
+    expect(name.body.error.fields).toEqual([{ field: 'name', message: 'must be valid text: it holds half of a UTF-16 surrogate pair' }]);
+    const low = await sup.post('/api/sites', site({ accessNotes: 'gate code \udc00' })).expect(400);
+    expect(low.body.error.fields[0].field).toBe('accessNotes');
+    expect(await Site.count()).toBe(before);
+    const user = await admin.post('/api/users', { email: 'pat.lone@example.com', name: 'Pat \udbff', role: 'technician' }).expect(400);
+    expect(user.body.error.fields[0].field).toBe('name');
+    const marker = await sup.put(`/api/cable-runs/${fx.run.id}/markers`, { markers: [{ label: 'MH-\ud83d', kind: 'manhole', chainageM: 10, slackM: 0, notes: null }] }).expect(400);
+    expect(marker.body.error.fields[0].field).toBe('markers.0.label');
+    // A whole pair is a real character (U+1F50C, an electric plug) and is kept.
+    const ok = await sup.post('/api/sites', site({ name: 'Plug \ud83d\udd0c house' })).expect(201);
+    expect(ok.body.name).toBe('Plug \u{1F50C} house');
+  });
+});
