@@ -57,7 +57,16 @@ function uploadMiddleware(ctx: AppContext): RequestHandler {
       cb(null, true);
     },
   }).array('file', MAX_FILES_PER_UPLOAD);
-  return (req, res, next) =>
+  return (req, res, next) => {
+    const type = (req.get('content-type') ?? '').trim();
+    if (!/^multipart\/form-data(;|$)/i.test(type)) {
+      const sent = type ? `as ${capMessage(type.split(';')[0], 60)}` : 'without a content type';
+      return next(
+        new AppError(415, 'not_multipart', `The upload was sent ${sent}. Send the trace as multipart/form-data: the CSV file in the "file" field, cableRunId and end as form fields. Nothing was stored.`, {
+          fields: [{ field: 'Content-Type', message: 'must be multipart/form-data' }],
+        }),
+      );
+    }
     upload(req, res, (err: unknown) => {
       if (!err) return next();
       if (err instanceof multer.MulterError && err.code === 'LIMIT_FILE_SIZE') {
@@ -79,6 +88,7 @@ function uploadMiddleware(ctx: AppContext): RequestHandler {
       if (isMalformedMultipart(err)) return next(malformedMultipartError(err as Error));
       next(err);
     });
+  };
 }
 
 /** The optional Idempotency-Key header: the client makes one per file it sends, so a retry of the same upload reuses it. */

@@ -240,6 +240,18 @@ describe('broken multipart bodies', () => {
     expect(filesIn(api, 'incoming')).toEqual([]);
   });
 
+  it('answers a JSON body or a body without a content type with 415 saying to send multipart/form-data', async () => {
+    const traces = await Trace.count();
+    const json = await tech.post('/api/traces', { cableRunId: runId, end: 'A', file: 'time_ns,voltage_V\n0,0.5\n' }).expect(415);
+    expect(json.body.error.code).toBe('not_multipart');
+    expect(json.body.error.message).toContain('sent as application/json');
+    expect(json.body.error.message).toContain('multipart/form-data');
+    expect(json.body.error.fields).toEqual([{ field: 'Content-Type', message: 'must be multipart/form-data' }]);
+    const bare = await tech.postRaw('/api/traces').expect(415);
+    expect(bare.body.error.message).toContain('without a content type');
+    expect(await Trace.count()).toBe(traces);
+  });
+
   it('answers 413 for a field value over the limit and 400 for too many fields or a file in the wrong field', async () => {
     const long = await raw(`${part('vfOverrideReason', 'x'.repeat(3000))}--XyZ--\r\n`).expect(413);
     expect(long.body.error.code).toBe('field_too_large');
