@@ -17,6 +17,7 @@ import { connect } from './db/connection';
 import { seedDemo } from './db/demo/seed';
 import { migrate } from './db/migrations';
 import { initModels } from './db/models';
+import { startJobs } from './jobs';
 import { startMail } from './mail';
 import { sessionSecret } from './db/settings';
 import { AppError, errorHandler } from './errors';
@@ -54,7 +55,8 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
   initModels(sequelize);
   await migrate(sequelize);
   const mail = await startMail(config, log);
-  const ctx: AppContext = { config, sequelize, onClose: [], log, logger, security: securityLog(logger), mail };
+  const jobs = await startJobs(config, log);
+  const ctx: AppContext = { config, sequelize, onClose: [], log, logger, security: securityLog(logger), mail, jobs };
   ctx.onClose.push(() => sequelize.close());
   ctx.onClose.unshift(() => mail.close());
   fs.mkdirSync(config.uploadDir, { recursive: true, mode: 0o750 });
@@ -145,6 +147,8 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
   app.use(errorHandler({ exposeInternals: config.env === 'development', log: (err) => logger.error({ err }, 'request failed') }));
 
   const close = async () => {
+    // Running jobs first: they finish, or are handed back to the queue, while the database and the analysis pool are still there.
+    await jobs.stop(config.jobs.shutdownGraceMs);
     for (const fn of ctx.onClose) await fn();
   };
   return { app, ctx, routes, close };

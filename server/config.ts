@@ -64,6 +64,15 @@ const EnvSchema = z.object({
     .max(1_048_576, 'must be a power of two from 1024 to 1048576')
     .refine((n) => (n & (n - 1)) === 0, 'must be a power of two from 1024 to 1048576')
     .default(2 ** 15),
+  /** Raw trace files: unset = the UPLOAD_DIR folder; s3://bucket/prefix?endpoint=…&region=…&forcePathStyle=on for S3-compatible object storage. */
+  STORAGE_URL: z.string().regex(/^(file:|s3:\/\/)/, 'must start with file: or s3://').optional(),
+  /** How often some instance hands out again the jobs of an instance that died (PostgreSQL). */
+  JOB_MAINTENANCE_S: z.coerce.number({ error: 'must be a whole number of seconds' }).int().min(1).max(3600).default(30),
+  JOB_POLL_S: z.coerce.number({ error: 'must be a number of seconds' }).min(0.5).max(60).default(2),
+  /** How long one step of a background job may run before another instance takes it over. */
+  JOB_LEASE_S: z.coerce.number({ error: 'must be a whole number of seconds' }).int().min(1).max(3600).default(300),
+  /** On SIGTERM: how long running jobs get to finish before they are handed back to the queue. */
+  SHUTDOWN_GRACE_S: z.coerce.number({ error: 'must be a number of seconds' }).min(1).max(600).default(20),
   LOG_LEVEL: z
     .enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent'], { error: 'must be one of fatal, error, warn, info, debug, trace, silent' })
     .default('info'),
@@ -113,6 +122,9 @@ export interface AppConfig {
   /** scrypt's N (CPU/memory cost) for new password hashes; stored hashes keep their own. */
   scryptCost: number;
   logLevel: 'fatal' | 'error' | 'warn' | 'info' | 'debug' | 'trace' | 'silent';
+  /** Where raw trace files are kept: undefined = uploadDir on this machine. */
+  storageUrl?: string;
+  jobs: { maintenanceSeconds: number; pollSeconds: number; leaseSeconds: number; shutdownGraceMs: number };
   /** Serve the built client from dist/client (production) or Vite in middleware mode (development). */
   client: 'static' | 'vite' | 'none';
 }
@@ -164,6 +176,8 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     session: { idleMs: Math.round(e.SESSION_IDLE_HOURS * 3_600_000), absoluteMs: Math.round(e.SESSION_MAX_DAYS * 86_400_000) },
     scryptCost: e.SCRYPT_COST,
     logLevel: e.LOG_LEVEL,
+    storageUrl: e.STORAGE_URL,
+    jobs: { maintenanceSeconds: e.JOB_MAINTENANCE_S, pollSeconds: e.JOB_POLL_S, leaseSeconds: e.JOB_LEASE_S, shutdownGraceMs: Math.round(e.SHUTDOWN_GRACE_S * 1000) },
     client: e.NODE_ENV === 'production' ? 'static' : e.NODE_ENV === 'development' ? 'vite' : 'none',
   };
 }

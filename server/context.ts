@@ -1,6 +1,7 @@
 import type { Sequelize } from 'sequelize';
 import type { AppConfig } from './config';
 import type { Logger, SecurityLog } from './log';
+import type { JobQueue } from './jobs/queue';
 import type { MailSystem } from './mail';
 
 /** What route modules and services get from createApp(); features add their long-lived pieces here. */
@@ -17,4 +18,6 @@ export interface AppContext {
   security: SecurityLog;
   /** Outgoing mail: ctx.mail.queue.enqueue(job, transaction) inside the change's transaction. */
   mail: MailSystem;
+  /** Background jobs: ctx.jobs.send(name, data) after the change that asks for them has committed. */
+  jobs: JobQueue;
 }

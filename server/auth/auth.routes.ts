@@ -11,6 +11,7 @@ import { currentUser } from './guards';
 import { assertStrongPassword } from './password-strength';
 import { WRONG_CREDENTIALS } from './passport';
 import { hashPassword, verifyPassword } from './passwords';
+import { limitStore } from './shared-limit-store';
 import { signInLimits } from './sign-in-limits';
 
 export function authRoutes(ctx: AppContext, deps: { passport: PassportStatic; csrf: Csrf }) {
@@ -26,6 +27,7 @@ export function authRoutes(ctx: AppContext, deps: { passport: PassportStatic; cs
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     keyGenerator: (req) => `pw:${req.user?.id ?? 0}`,
+    ...(ctx.sequelize.getDialect() === 'postgres' ? { store: limitStore(ctx.sequelize, 'password-change:') } : {}),
     requestWasSuccessful: (_req, res) => res.locals.wrongCurrentPassword !== true,
     skipSuccessfulRequests: true,
     handler: (req, res) => {
@@ -43,7 +45,7 @@ export function authRoutes(ctx: AppContext, deps: { passport: PassportStatic; cs
     res.json({ csrfToken: deps.csrf.token(req, res) });
   });
 
-  r.post('/login', 'public', ...signInLimits(ctx.config.login, ctx.security), (req, res, next) => {
+  r.post('/login', 'public', ...signInLimits(ctx.config.login, ctx.security, (prefix) => limitStore(ctx.sequelize, prefix)), (req, res, next) => {
     req.body = LoginSchema.parse(req.body);
     const email = (req.body as { email: string }).email;
     deps.passport.authenticate('local', (err: unknown, user: Express.User | false, info?: { message?: string; reason?: string }) => {

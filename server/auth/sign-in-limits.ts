@@ -1,5 +1,5 @@
 import type { Request, RequestHandler } from 'express';
-import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
+import { ipKeyGenerator, rateLimit, type Store } from 'express-rate-limit';
 import { slowDown } from 'express-slow-down';
 import type { AppConfig } from '../config';
 import type { SecurityLog } from '../log';
@@ -39,7 +39,11 @@ function refuse(security: SecurityLog, scope: 'address' | 'account-and-address',
  *
  * Only failures count: a crew signing in all morning from one depot address is never held up.
  */
-export function signInLimits(limits: LoginLimits, security: SecurityLog): RequestHandler[] {
+export function signInLimits(limits: LoginLimits, security: SecurityLog, storeFor: (prefix: string) => Store | undefined = () => undefined): RequestHandler[] {
+  const store = (prefix: string) => {
+    const s = storeFor(prefix);
+    return s ? { store: s } : {};
+  };
   const minutes = Math.max(1, Math.round(limits.windowMs / 60_000));
   const wait = `Wait ${minutes} minute${minutes === 1 ? '' : 's'} and try again.`;
   const perAddress = rateLimit({
@@ -49,6 +53,7 @@ export function signInLimits(limits: LoginLimits, security: SecurityLog): Reques
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     keyGenerator: (req) => `addr:${addressOf(req)}`,
+    ...store('signin-address:'),
     handler: refuse(security, 'address', `Too many failed sign-ins from this address. ${wait}`),
   });
   const perPair = rateLimit({
@@ -58,6 +63,7 @@ export function signInLimits(limits: LoginLimits, security: SecurityLog): Reques
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     keyGenerator: (req) => `pair:${accountOf(req)}|${addressOf(req)}`,
+    ...store('signin-pair:'),
     handler: refuse(security, 'account-and-address', `Too many failed sign-ins for this account from this address. ${wait}`),
   });
   const perAccount = slowDown({
@@ -65,6 +71,7 @@ export function signInLimits(limits: LoginLimits, security: SecurityLog): Reques
     delayAfter: limits.slowAfter,
     skipSuccessfulRequests: true,
     keyGenerator: (req) => `acct:${accountOf(req)}`,
+    ...store('signin-account:'),
     // `used` counts this try too: the failures before it are one fewer.
     delayMs: (used: number, req: Request) => {
       const delayMs = signInDelayMs(used - 1, limits);

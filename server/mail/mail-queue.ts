@@ -20,6 +20,8 @@ export interface MailQueueOptions {
   log: (message: string) => void;
   /** Longest sleep between looks at the table (jobs are normally picked up at once via kick()). */
   pollMs?: number;
+  /** How long a claimed job is held by the instance sending it; if that instance dies, the job is due again after this. */
+  leaseMs?: number;
 }
 
 const MAX_DELAY_MS = 60 * 60 * 1000;
@@ -40,12 +42,14 @@ export class MailQueue {
   private again = false;
   private stopped = false;
   private readonly pollMs: number;
+  private readonly leaseMs: number;
 
   constructor(
     private readonly mailer: Mailer,
     private readonly options: MailQueueOptions,
   ) {
     this.pollMs = options.pollMs ?? 30_000;
+    this.leaseMs = options.leaseMs ?? 5 * 60_000;
   }
 
   start() {
@@ -136,12 +140,29 @@ export class MailQueue {
       if (due.length === 0) break;
       for (const job of due) {
         if (this.stopped) return this.pollMs;
-        await this.sendOne(job);
+        if (await this.claim(job)) await this.sendOne(job);
       }
     }
     const next = await MailJob.findOne({ where: { status: 'queued' }, order: [['nextAttemptAt', 'ASC']] });
     if (!next) return this.pollMs;
     return Math.min(this.pollMs, next.nextAttemptAt.getTime() - Date.now());
+  }
+
+  /**
+   * Take a due job for this instance: one conditional UPDATE moves its next
+   * attempt to the end of a lease. Several instances may read the same due
+   * row, but the database applies the updates one after another and only the
+   * first still finds the row due, so exactly one instance sends it. An
+   * instance that dies while sending leaves the lease to run out, and the
+   * job falls due again for the others.
+   */
+  private async claim(job: MailJob): Promise<boolean> {
+    const now = new Date();
+    const [count] = await MailJob.update(
+      { nextAttemptAt: new Date(now.getTime() + this.leaseMs) },
+      { where: { id: job.id, status: 'queued', nextAttemptAt: { [Op.lte]: now } } },
+    );
+    return count === 1;
   }
 
   private async sendOne(job: MailJob) {

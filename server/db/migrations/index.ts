@@ -15,6 +15,7 @@ import * as m0012 from './0012-outcomes';
 import * as m0013 from './0013-method-scores';
 import * as m0014 from './0014-device-analysis';
 import * as m0015 from './0015-list-indexes';
+import * as m0016 from './0016-shared-limits-and-cable-reanalysis';
 
 export type Migration = MigrationFn<QueryInterface>;
 
@@ -38,6 +39,7 @@ const MIGRATIONS: Array<{ name: string; up: Migration; down: Migration }> = [
   { name: '0013-method-scores', ...m0013 },
   { name: '0014-device-analysis', ...m0014 },
   { name: '0015-list-indexes', ...m0015 },
+  { name: '0016-shared-limits-and-cable-reanalysis', ...m0016 },
 ];
 
 export function migrator(sequelize: Sequelize) {
@@ -49,6 +51,23 @@ export function migrator(sequelize: Sequelize) {
   });
 }
 
+/** Any fixed number: the PostgreSQL advisory lock that lets one instance at a time run the migrations. */
+const MIGRATION_LOCK = 7_460_301;
+
+/**
+ * Bring the schema up to date. On PostgreSQL, instances starting together
+ * take turns through an advisory lock held on one connection for the whole
+ * run; the next one then finds nothing left to do.
+ */
 export async function migrate(sequelize: Sequelize) {
-  return migrator(sequelize).up();
+  if (sequelize.getDialect() !== 'postgres') return migrator(sequelize).up();
+  return sequelize.transaction(async (transaction) => {
+    await sequelize.query('SELECT pg_advisory_xact_lock(:key)', { replacements: { key: MIGRATION_LOCK }, transaction });
+    return migrator(sequelize).up();
+  });
+}
+
+/** Migrations not yet run (for /api/ready). */
+export async function pendingMigrations(sequelize: Sequelize): Promise<string[]> {
+  return (await migrator(sequelize).pending()).map((m) => m.name);
 }
