@@ -27,6 +27,7 @@ import {
   lineKernel,
   lossModelFromPoints,
   NO_LOSS,
+  zeroPhaseLineKernel,
   type LineKernel,
   type LossModel,
   type LossPoint,
@@ -464,10 +465,12 @@ function eventWindow(ctx: FitContext, events: Measured[], k: number): EventWindo
   // The arrival is sought from a rise before the tangent reading (a third of one on step records, whose
   // baseline creeps on lossy lines and so cannot be stretched far back) to half a rise after it.
   const before = Math.max(8, 2 * riseL, ctx.shape.step ? riseE / 3 : riseE);
-  const earliest = ref + d0 - before;
+  // On a slow edge the middle can lie far past the onset: the arrival is sought before both.
+  const first = Math.min(d0, m.onsetIdx - ref);
+  const earliest = ref + first - before;
   const from = Math.max(sig.start, Math.round(prev + 2), Math.round(Math.min(m.onsetIdx, earliest) - pre));
   const to = Math.min(rec.n, Math.round(m.onsetIdx + post), Math.round(next - Math.max(2, 0.5 * riseL)));
-  const lo = Math.max(d0 - before, from + 2 - ref);
+  const lo = Math.max(first - before, from + 2 - ref);
   return { from, to, lo, hi: Math.max(lo + 8, d0 + Math.max(8, 0.5 * riseE)), sign: Math.sign(m.height) || 1 };
 }
 
@@ -504,7 +507,7 @@ function fitWindow(
   win: EventWindow,
   model: LossModel,
   twoWayM: number,
-  opts: { withMiddle?: boolean; maxPoints?: number } = {},
+  opts: { withMiddle?: boolean; maxPoints?: number; zeroPhase?: boolean } = {},
 ): ModelFit | null {
   const { rec } = ctx.input;
   const withMiddle = opts.withMiddle ?? true;
@@ -513,8 +516,9 @@ function fitWindow(
   if (w.y.length < 6) return null;
   const launch = coarseLaunch(ctx.input, ctx.shape, q);
   const span = w.y.length + (win.hi - win.lo) / q + 8;
-  const kernel =
-    (model.resistiveNpPerM ?? 0) > 0 && ctx.input.vf
+  const kernel = opts.zeroPhase
+    ? zeroPhaseLineKernel(model, Math.max(0, twoWayM), rec.dt * q, span)
+    : (model.resistiveNpPerM ?? 0) > 0 && ctx.input.vf
       ? exactLineKernel(model, Math.max(0, twoWayM), rec.dt * q, span, ctx.input.vf)
       : lineKernel(model, Math.max(0, twoWayM), rec.dt * q, span);
   const t = buildTemplate(launch, kernel, ctx.shape.step);
@@ -537,11 +541,27 @@ function fitWindow(
 const twoWayOf = (ctx: FitContext, delaySamples: number) => Math.max(0, delaySamples) * ctx.twoWayMPerSample;
 
 /** Fit with the model's spread for the event's own distance, once more if the fitted distance moved it. */
-function fitAtDistance(ctx: FitContext, win: EventWindow, model: LossModel): ModelFit | null {
+function fitAtDistance(ctx: FitContext, win: EventWindow, model: LossModel, zeroPhase = false): ModelFit | null {
   const guess = (win.lo + win.hi) / 2;
-  let f = fitWindow(ctx, win, model, twoWayOf(ctx, guess));
-  if (f && model !== NO_LOSS && Math.abs(f.d - guess) > 0.02 * Math.abs(guess)) f = fitWindow(ctx, win, model, twoWayOf(ctx, f.d)) ?? f;
+  let f = fitWindow(ctx, win, model, twoWayOf(ctx, guess), { zeroPhase });
+  if (f && model !== NO_LOSS && Math.abs(f.d - guess) > 0.02 * Math.abs(guess)) f = fitWindow(ctx, win, model, twoWayOf(ctx, f.d), { zeroPhase }) ?? f;
   return f;
+}
+
+/**
+ * A record whose edges are symmetric about their middle (zero-phase loss) fits the zero-phase shape
+ * clearly better than the causal one; its arrival is then sought up to the middle of the edge.
+ * The zero-phase fit is kept only when it leaves less than ZERO_PHASE_GAIN of the causal residual.
+ */
+const ZERO_PHASE_GAIN = 0.5;
+
+function bestShapeFit(ctx: FitContext, win: EventWindow, model: LossModel, m: Measured): { f: ModelFit | null; zeroPhase: boolean } {
+  const f = fitAtDistance(ctx, win, model);
+  if (model === NO_LOSS || !f) return { f, zeroPhase: false };
+  const wide = { ...win, hi: win.hi + Math.max(8, m.riseSamples) };
+  const z = fitAtDistance(ctx, wide, model, true);
+  if (z && z.ss < ZERO_PHASE_GAIN * f.ss && acceptable(z, m, wide)) return { f: z, zeroPhase: true };
+  return { f, zeroPhase: false };
 }
 
 /**
@@ -610,9 +630,9 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     if (m.blip || m.onsetIdx < input.signal.blindIdx) continue;
     const win = eventWindow(ctx, events, k);
     if (win.to - win.from < 8) continue;
-    const f = fitAtDistance(ctx, win, model);
+    const { f, zeroPhase } = bestShapeFit(ctx, win, model, m);
     if (!f || !acceptable(f, m, win)) continue;
-    const probe = model === NO_LOSS ? null : fitWindow(ctx, win, scaled(model, 1 + LOSS_PROBE), twoWayOf(ctx, f.d), { withMiddle: false });
+    const probe = model === NO_LOSS ? null : fitWindow(ctx, win, scaled(model, 1 + LOSS_PROBE), twoWayOf(ctx, f.d), { withMiddle: false, zeroPhase });
     m.fit = {
       reference: shape.reference,
       lossSource,

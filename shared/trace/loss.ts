@@ -324,3 +324,32 @@ export function exactLineKernel(model: LossModel, twoWayM: number, dtS: number, 
   }
   return { values, offset: half };
 }
+
+/**
+ * The same loss taken with zero phase: the impulse response whose spectrum is
+ * |H| = exp(−2d·(r + s·√f + g·f)) with no phase at all, even about the delay.
+ * No cable behaves so (its loss and its phase go together, as the causal
+ * kernels above have it), but a record computed from a loss model that left
+ * the phase out, or filtered forwards and backwards, shows edges symmetric
+ * about their middle: there the arrival is the edge's middle, not its foot.
+ * The edge fit tries this shape beside the causal one and keeps the better fit.
+ */
+export function zeroPhaseLineKernel(model: LossModel, twoWayM: number, dtS: number, spanSamples: number): LineKernel {
+  const half = Math.max(8, Math.ceil(spanSamples));
+  let n = 256;
+  while (n < 4 * half && n < 1 << 17) n <<= 1;
+  const re = new Float64Array(n);
+  const im = new Float64Array(n);
+  const r = model.resistiveNpPerM ?? 0;
+  for (let k = 0; k <= n / 2; k++) {
+    const f = k / (n * dtS);
+    const amp = Math.exp(-twoWayM * (r + model.skinNpPerMRootHz * Math.sqrt(f) + model.dielectricNpPerMPerHz * f));
+    re[k] = amp;
+    if (k > 0 && k < n / 2) re[n - k] = amp;
+  }
+  fft(re, im, true);
+  const h = Math.min(half, n / 2 - 1);
+  const values = new Float64Array(2 * h + 1);
+  for (let j = -h; j <= h; j++) values[j + h] = re[(j + n) % n];
+  return { values, offset: h };
+}
