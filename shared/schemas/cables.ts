@@ -8,6 +8,7 @@ import {
   type LineConstants,
   type PulseVf,
 } from './cable-loss';
+import { textId, textInt } from './input';
 
 export * from './cable-loss';
 
@@ -143,8 +144,8 @@ export type CableSort = (typeof CABLE_SORTS)[number];
 export const CableListQuerySchema = z.object({
   q: z.string().trim().max(100, 'must be at most 100 characters').optional(),
   construction: z.enum(CONSTRUCTIONS, { error: `must be one of ${CONSTRUCTIONS.join(', ')}` }).optional(),
-  page: z.coerce.number({ error: 'must be a number' }).int('must be a whole number').min(1, 'must be at least 1').default(1),
-  pageSize: z.coerce.number({ error: 'must be a number' }).int('must be a whole number').min(1, 'must be at least 1').max(200, 'must be at most 200').default(25),
+  page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
+  pageSize: textInt({ min: 1, max: 200, what: 'a page size' }).default(25),
   sort: z.enum(CABLE_SORTS, { error: `must be one of ${CABLE_SORTS.join(', ')}` }).default('name'),
   dir: z.enum(['asc', 'desc'], { error: 'must be asc or desc' }).default('asc'),
 });
@@ -162,9 +163,9 @@ export type CalibrationSubmitInput = z.input<typeof CalibrationSubmitSchema>;
 
 export const CalibrationListQuerySchema = z.object({
   status: z.enum([...CALIBRATION_STATUSES, 'all'], { error: `must be one of ${CALIBRATION_STATUSES.join(', ')}, all` }).default('pending'),
-  cableTypeId: z.coerce.number().int().positive().optional(),
-  page: z.coerce.number({ error: 'must be a number' }).int().min(1, 'must be at least 1').default(1),
-  pageSize: z.coerce.number({ error: 'must be a number' }).int().min(1).max(100, 'must be at most 100').default(25),
+  cableTypeId: textId('a cable type id').optional(),
+  page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
+  pageSize: textInt({ min: 1, max: 100, what: 'a page size' }).default(25),
 });
 
 export const CalibrationAcceptSchema = z.object({

@@ -96,6 +96,27 @@ describe('query strings and paths', () => {
     expect(res.body.error.fields).toEqual([{ field, message }]);
   });
 
+  it.each([
+    ['/api/cables?page=', 'page', 'must be a page number, written in digits'],
+    ['/api/cables?page=%20', 'page', 'must be a page number, written in digits'],
+    ['/api/cables?pageSize=0x10', 'pageSize', 'must be a page size, written in digits'],
+    ['/api/cables?pageSize=1e3', 'pageSize', 'must be a page size, written in digits'],
+    ['/api/cables?pageSize=201', 'pageSize', 'must be at most 200'],
+    ['/api/calibrations?cableTypeId=0x10', 'cableTypeId', 'must be a cable type id, written in digits'],
+    ['/api/calibrations?cableTypeId=', 'cableTypeId', 'must be a cable type id, written in digits'],
+    ['/api/calibrations?page=%207', 'page', 'must be a page number, written in digits'],
+    ['/api/calibrations?pageSize=1e1', 'pageSize', 'must be a page size, written in digits'],
+  ])('refuses %s in the cable library and calibration lists', async (url, field, message) => {
+    const res = await admin.get(url).expect(400);
+    expect(res.body.error.fields).toEqual([{ field, message }]);
+  });
+
+  it('reads plain digits in the cable library and calibration lists', async () => {
+    const cables = await admin.get('/api/cables?page=1&pageSize=200').expect(200);
+    expect(cables.body.items.map((c: { id: number }) => c.id)).toContain(fx.cable.id);
+    await admin.get(`/api/calibrations?status=all&cableTypeId=${fx.cable.id}&page=1&pageSize=10`).expect(200);
+  });
+
   it('reads plain digits', async () => {
     const res = await sup.get(`/api/cable-runs?siteId=${fx.site.id}&page=1&pageSize=10`).expect(200);
     expect(res.body.items.map((r: { id: number }) => r.id)).toContain(fx.run.id);
