@@ -54,12 +54,13 @@ describe('a technician on a phone', () => {
     expect(Math.abs(number(await page.getByTestId('cursor-1').textContent()) - 300)).toBeLessThan(0.5);
     expect(Math.abs(number(await gap.textContent()) - 100)).toBeLessThan(1.5);
     // A tap on the chart moves the chosen cursor too.
+    await page.getByTestId('trace-chart').scrollIntoViewIfNeeded();
     const box = (await page.getByTestId('trace-chart').boundingBox())!;
-    await page.mouse.click(box.x + box.width * 0.3, box.y + box.height / 2);
+    await page.mouse.click(box.x + box.width * 0.2, box.y + box.height / 2);
     await expect.poll(async () => number(await page.getByTestId('cursor-1').textContent())).not.toBe(300);
 
     await page.getByRole('button', { name: 'Confirm fault' }).click();
-    await page.getByText('Confirmed as a fault').waitFor();
+    await page.getByRole('status').filter({ hasText: 'Confirmed as a fault' }).waitFor();
     await page.getByRole('link', { name: /^finding \d+$/ }).click();
     await page.getByRole('heading', { name: /Finding \d+: Open conductor/ }).waitFor();
     expect(await page.getByRole('note', { name: 'Safety caution' }).isVisible()).toBe(true);

@@ -85,11 +85,11 @@ describe('a repair from assignment to calibration', () => {
     const rows = page.getByTestId('ticket-row');
     await rows.first().waitFor();
     // Their own tickets come first: every "yours" row before any other.
-    const mine = (await rows.allTextContents()).map((t) => t.includes('yours'));
+    const mine = (await rows.allTextContents()).map((t) => t.includes('Yours'));
     expect(mine[0]).toBe(true);
     expect(mine.indexOf(false) === -1 || mine.lastIndexOf(true) < mine.indexOf(false)).toBe(true);
     const ours = rows.filter({ hasText: 'Water in the cable on Feeder HN-3 to Ashby Lane' });
-    expect(await ours.textContent()).toContain('yours');
+    expect(await ours.textContent()).toContain('Yours');
     await e2e.screenshot(page, 'tickets-technician-phone');
     await ours.click();
     await page.waitForURL((u) => u.pathname === ticketPath);
@@ -180,6 +180,11 @@ describe('a repair from assignment to calibration', () => {
     await signIn(adminPhone, e2e.baseUrl, 'admin@example.com');
     await adminPhone.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
     await adminPhone.goto(`${e2e.baseUrl}/outbox`);
+    // On a phone the formatted part opens first (it wraps to the screen); the plain text is one tap away.
+    await adminPhone.getByRole('article', { name: 'Message' }).waitFor();
+    expect(await adminPhone.getByTestId('outbox-body').count()).toBe(0);
+    expect(await adminPhone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(PHONE.width);
+    await adminPhone.getByRole('button', { name: 'Plain text' }).click();
     await adminPhone.getByTestId('outbox-body').waitFor();
     expect(await adminPhone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(PHONE.width);
     await e2e.screenshot(adminPhone, 'outbox-admin-phone');
