@@ -2,7 +2,7 @@ import type { TraceAnalysis } from '../../shared/schemas/trace-analysis';
 import type { TraceSettings } from '../../shared/schemas/traces';
 import { analyzeTrace, parseTraceCsv, TraceInputError, type ParsedTrace } from '../../shared/trace';
 import { libraryAnalysisOptions, type LibraryLoss } from '../cables/cable-loss';
-import { capMessage } from '../http/messages';
+import { capMessage, MAX_MESSAGE_CHARS } from '../http/messages';
 
 /** The cable values an analysis uses, as plain data (it crosses into a worker thread). */
 export type AnalysisCable = { vf: number; vfTolerance: number; z0Ohm: number | null } & LibraryLoss;
@@ -21,6 +21,19 @@ export interface Outcome {
   error: TraceOutcomeError | null;
   /** For the server log only: what went wrong inside the engine. */
   internal?: string;
+}
+
+/**
+ * The engine's warnings as Rholog stores and shows them: each message cut to
+ * 300 characters (and each code to 60), however much of the file a message
+ * quotes. Applied where an analysis leaves the engine and where a stored one
+ * is sent back, so rows written before the cap are bounded too.
+ */
+export function boundedAnalysis<A extends TraceAnalysis | null>(analysis: A): A {
+  if (!analysis) return analysis;
+  const long = analysis.warnings.some((w) => w.message.length > MAX_MESSAGE_CHARS || w.code.length > 60);
+  if (!long) return analysis;
+  return { ...analysis, warnings: analysis.warnings.map((w) => ({ ...w, code: capMessage(w.code, 60), message: capMessage(w.message) })) };
 }
 
 export function failedOutcome(code: string, message: string, extra: Partial<TraceOutcomeError> = {}): Outcome {
@@ -50,7 +63,7 @@ export function analyseBytes(bytes: Uint8Array, settings: TraceSettings, cable: 
       ...(settings.leadLengthM !== undefined ? { leadLengthM: settings.leadLengthM } : {}),
       ...(settings.pulseWidthNs !== undefined ? { pulseWidthNs: settings.pulseWidthNs } : {}),
     });
-    return { outcome: { status: 'ok', analysis, error: null }, parsed };
+    return { outcome: { status: 'ok', analysis: boundedAnalysis(analysis), error: null }, parsed };
   } catch (err) {
     if (err instanceof TraceInputError) {
       return { outcome: failedOutcome(err.code, err.message, { line: err.line ?? null, field: err.field ?? null }), parsed: null };

@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto';
 import { createReadStream } from 'node:fs';
 import fs from 'node:fs/promises';
+import path from 'node:path';
 import { Op, UniqueConstraintError, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { matchEvents, resampleOnto } from '../../shared/field/compare';
@@ -21,9 +22,9 @@ import type { AppContext } from '../context';
 import { CableRun, CableType, Finding, RouteMarker, Site, Trace, UploadReceipt, User } from '../db/models';
 import { markerView } from '../cable-runs/cable-runs.service';
 import { AppError } from '../errors';
-import { parseOptions, type AnalysisCable, type Outcome } from './analysis';
+import { boundedAnalysis, parseOptions, type AnalysisCable, type Outcome } from './analysis';
 import { analysisPool } from './analysis-pool';
-import { adoptRaw, rawAbsolutePath, removeRaw, sweepOrphans, writeInbox } from './trace-store';
+import { inboxDir, sweepOrphans, writeInbox } from './trace-store';
 import { idsContaining } from '../db/text-search';
 
 export type UploadFields = z.output<typeof TraceUploadSchema>;
@@ -185,7 +186,7 @@ export async function receiveUpload(
       if (first < index) plan.push({ kind: 'repeat', of: first });
       else if (earlier) plan.push({ kind: 'copy', of: duplicateOf(files[index].originalName, earlier) });
       else {
-        const rawPath = await adoptRaw(ctx.config.uploadDir, inbox[index]);
+        const rawPath = await ctx.storage.adopt(inbox[index]);
         adopted.push(rawPath);
         plan.push({ kind: 'new', rawPath });
       }
@@ -243,12 +244,12 @@ export async function receiveUpload(
     const kept = new Set((await Trace.findAll({ where: { id: outcome.traceIds }, attributes: ['rawPath'] })).map((t) => t.rawPath));
     for (const [index, step] of plan.entries()) {
       if (step.kind !== 'new') continue;
-      if (!kept.has(step.rawPath)) await removeRaw(ctx.config.uploadDir, step.rawPath).catch(() => undefined);
+      if (!kept.has(step.rawPath)) await ctx.storage.remove(step.rawPath).catch(() => undefined);
       else if (results[index].parsed) rememberParsed(ctx, step.rawPath, settings, results[index].parsed!);
     }
     return outcome;
   } catch (err) {
-    if (!committed) for (const rel of adopted) await removeRaw(ctx.config.uploadDir, rel).catch(() => undefined);
+    if (!committed) for (const rel of adopted) await ctx.storage.remove(rel).catch(() => undefined);
     if (idempotencyKey && err instanceof UniqueConstraintError) {
       // The same key committed first from another request: answer with its outcome.
       const earlier = await earlierReceipt(uploadedById, idempotencyKey, fields, hashes);
@@ -281,12 +282,10 @@ export async function reanalyseTrace(ctx: AppContext, id: number, userId: number
   const cable = run ? await CableType.findByPk(run.cableTypeId) : null;
   if (!run || !cable) throw new AppError(422, 'no_cable_type', `The cable run of trace ${id} has no cable type in the library.`);
   const { vfOverride: _dropped, ...settings } = earlier.settings;
-  const result = await analysisPool(ctx).analyse({
-    path: rawAbsolutePath(ctx.config.uploadDir, earlier.rawPath),
-    settings,
-    cable: analysisCable(cable),
-    maxBytes: ctx.config.maxUploadBytes,
-  });
+  const copy = await ctx.storage.checkout(earlier.rawPath, earlier.sha256);
+  const result = await analysisPool(ctx)
+    .analyse({ path: copy.path, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes })
+    .finally(() => copy.release());
   if (result.sha256 !== earlier.sha256) {
     throw new AppError(409, 'raw_file_changed', `The stored file of trace ${id} no longer matches its SHA-256; it will not be analysed again.`);
   }
@@ -312,7 +311,17 @@ export async function reanalyseTrace(ctx: AppContext, id: number, userId: number
  */
 export async function sweepUploads(ctx: AppContext): Promise<number> {
   const rows = await Trace.findAll({ attributes: ['rawPath'], raw: true });
-  const removed = await sweepOrphans(ctx.config.uploadDir, rows.map((r) => r.rawPath), ctx.config.uploadSweepMinAgeMs);
+  const known = new Set(rows.map((r) => r.rawPath));
+  // This instance's inbox (and, with the folder store, the stored files)…
+  const removed = await sweepOrphans(ctx.config.uploadDir, ctx.storage.kind === 'folder' ? known : [], ctx.config.uploadSweepMinAgeMs, Date.now(), ctx.storage.kind === 'folder' ? undefined : [inboxDir(ctx.config.uploadDir), path.join(ctx.config.uploadDir, 'scratch')]);
+  // …and, with object storage, the objects no trace names.
+  if (ctx.storage.kind !== 'folder') {
+    for (const o of await ctx.storage.list()) {
+      if (known.has(o.key) || Date.now() - o.modifiedMs < ctx.config.uploadSweepMinAgeMs) continue;
+      await ctx.storage.remove(o.key);
+      removed.push(o.key);
+    }
+  }
   ctx.log(`Upload clean-up: removed ${removed.length} file${removed.length === 1 ? '' : 's'} no trace refers to.`);
   return removed.length;
 }
@@ -411,7 +420,16 @@ export async function parsedSamples(ctx: AppContext, trace: Trace): Promise<Pars
   if (trace.status !== 'ok') return null;
   const hit = parsedCache.get(parsedKey(ctx, trace.rawPath, trace.settings));
   if (hit) return hit;
-  const parsed = await analysisPool(ctx).read({ path: rawAbsolutePath(ctx.config.uploadDir, trace.rawPath), settings: trace.settings, maxBytes: ctx.config.maxUploadBytes });
+  let copy;
+  try {
+    copy = await ctx.storage.checkout(trace.rawPath, trace.sha256);
+  } catch (err) {
+    ctx.log(`a stored trace could not be read again (${trace.rawPath})`, (err as Error).message);
+    return null;
+  }
+  const parsed = await analysisPool(ctx)
+    .read({ path: copy.path, settings: trace.settings, maxBytes: ctx.config.maxUploadBytes })
+    .finally(() => copy.release());
   if (parsed) rememberParsed(ctx, trace.rawPath, trace.settings, parsed);
   return parsed;
 }
@@ -494,7 +512,7 @@ export async function getTrace(ctx: AppContext, id: number, opts: { points: numb
         ? libraryRevision > trace.cableTypeRevision
         : trace.settings.vfOverride === undefined && (cable.vf !== trace.vf || cable.vfTolerance !== trace.vfTolerance)),
     error: trace.status === 'failed' ? { code: trace.errorCode ?? 'UNKNOWN', message: trace.errorMessage ?? '', line: trace.errorLine, field: trace.errorField } : null,
-    analysis: trace.analysis,
+    analysis: boundedAnalysis(trace.analysis),
     zeroNs: trace.analysis ? zeroTimeNs(trace.analysis, trace.settings) : 0,
     samples: parsed ? toPoints(scaled(parsed.timeS, 1e9), parsed.amplitude, opts.points) : [],
     sampleCount: parsed?.amplitude.length ?? 0,
@@ -516,7 +534,7 @@ export async function getTrace(ctx: AppContext, id: number, opts: { points: numb
 export async function rawFile(ctx: AppContext, id: number) {
   const trace = await Trace.findByPk(id);
   if (!trace) throw AppError.notFound(`Trace ${id}`);
-  return { path: rawAbsolutePath(ctx.config.uploadDir, trace.rawPath), name: trace.originalName, sha256: trace.sha256 };
+  return { bytes: await ctx.storage.read(trace.rawPath, trace.sha256), name: trace.originalName, sha256: trace.sha256 };
 }
 
 /** At most one reference per run and end; setting one clears the previous. */

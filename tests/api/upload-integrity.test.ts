@@ -3,6 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Trace, UploadReceipt } from '../../server/db/models';
+import { boundedAnalysis } from '../../server/traces/analysis';
 import { makeRun, stepTraceCsv } from './support/field-fixtures';
 import { startApi, type Client, type TestApi } from './support/api';
 
@@ -141,6 +142,24 @@ describe('uploads that are retried or repeated', () => {
     ]);
     expect(await Trace.count()).toBe(traces + 1);
     expect(filesIn(api, 'incoming')).toEqual([]);
+  });
+
+  it('cuts each engine warning to 300 characters where it is stored and where it is sent back', async () => {
+    const up = await send(Buffer.from(stepTraceCsv({ faultM: 66, vf: 0.66 })), 'long-warning.csv').expect(201);
+    const id = up.body.traces[0].id;
+    const row = (await Trace.findByPk(id))!;
+    // A warning as long as a quoted 5000-character header cell, stored before messages were cut.
+    const quoted = `the column '${'x'.repeat(5000)}' names no unit`;
+    await row.update({ analysis: { ...row.analysis!, warnings: [...row.analysis!.warnings, { code: 'TIME_UNIT_ASSUMED', message: quoted }] } });
+    const got = await tech.get(`/api/traces/${id}`).expect(200);
+    const shown = got.body.analysis.warnings.find((w: { code: string }) => w.code === 'TIME_UNIT_ASSUMED');
+    expect(shown.message).toHaveLength(300);
+    expect(shown.message).toBe(`${quoted.slice(0, 299)}…`);
+    expect(got.body.analysis.warnings.every((w: { message: string }) => w.message.length <= 300)).toBe(true);
+    // The same cut on the way into the store.
+    const stored = boundedAnalysis({ ...row.analysis!, warnings: [{ code: 'EXTRA_COLUMNS', message: quoted }] });
+    expect(stored.warnings[0].message).toBe(`${quoted.slice(0, 299)}…`);
+    expect(boundedAnalysis(null)).toBeNull();
   });
 
   it('turns a hostile 19.5 MB one-line file into a failed trace with a short message', async () => {
