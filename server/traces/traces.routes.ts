@@ -116,8 +116,8 @@ async function uploadAnswer(ctx: AppContext, res: Response, outcome: traces.Uplo
       409,
       'duplicate_upload',
       duplicates.length === 1
-        ? `${duplicateWords(duplicates[0])}; it was not stored again.`
-        : `All ${duplicates.length} files were already uploaded for this run and end; none was stored again. ${duplicates.map(duplicateWords).join('; ')}.`,
+        ? `${duplicateWords(duplicates[0])}; it was not stored again. Archived traces do not count as earlier uploads.`
+        : `All ${duplicates.length} files were already uploaded for this run and end; none was stored again. ${duplicates.map(duplicateWords).join('; ')}. Archived traces do not count as earlier uploads.`,
       { duplicates, replayed },
     );
   }
@@ -190,11 +190,8 @@ export function traceRoutes(ctx: AppContext) {
         'content-disposition': `attachment; filename="${raw.name.replace(/[^\w.\- ]/g, '_')}"`,
         'x-content-sha256': raw.sha256,
       };
-      await new Promise<void>((resolve, reject) =>
-        res.sendFile(raw.path, { headers, dotfiles: 'allow' }, (err) =>
-          !err ? resolve() : (err as NodeJS.ErrnoException).code === 'ENOENT' ? reject(new AppError(410, 'raw_file_missing', `The stored file of this trace is missing from the upload directory.`)) : reject(err),
-        ),
-      );
+      // Read whole and checked against its SHA-256 before the first byte goes out.
+      res.set(headers).send(raw.bytes);
       return undefined;
     }),
   );

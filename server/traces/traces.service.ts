@@ -124,10 +124,14 @@ async function earlierReceipt(userId: number, key: string, fields: UploadFields,
   return { traceIds: receipt.traceIds, duplicates: receipt.duplicates, replayed: true };
 }
 
-/** The first trace holding these bytes on this run and end, uploaded within the duplicate window. */
+/**
+ * The first trace holding these bytes on this run and end, uploaded within the
+ * duplicate window. An archived trace does not count: it was set aside (a bad
+ * shot, the wrong run), so the same file uploaded again is stored as new.
+ */
 async function earlierCopy(sha256: string, cableRunId: number, end: CableEnd, transaction?: Transaction) {
   return Trace.findOne({
-    where: { sha256, cableRunId, end, reanalysisOfId: null, createdAt: { [Op.gte]: new Date(Date.now() - DUPLICATE_WINDOW_MS) } },
+    where: { sha256, cableRunId, end, reanalysisOfId: null, archivedAt: null, createdAt: { [Op.gte]: new Date(Date.now() - DUPLICATE_WINDOW_MS) } },
     order: [['id', 'ASC']],
     attributes: ['id', 'createdAt'],
     transaction,

@@ -121,6 +121,21 @@ describe('uploads that are retried or repeated', () => {
     expect(await Trace.count({ where: { sha256: sha(csv) } })).toBe(2);
   });
 
+  it('stores the same bytes again once the earlier trace is archived, and says archived traces do not count', async () => {
+    const csv = Buffer.from(stepTraceCsv({ faultM: 92, vf: 0.66 }));
+    const first = await send(csv, 'pole-22.csv').expect(201);
+    const blocked = await send(csv, 'pole-22.csv').expect(409);
+    expect(blocked.body.error.message).toContain('Archived traces do not count as earlier uploads.');
+    await tech.post(`/api/traces/${first.body.traces[0].id}/archive`, { reason: 'Shot on the wrong pair' }).expect(200);
+    const again = await send(csv, 'pole-22.csv').expect(201);
+    expect(again.body.duplicates).toEqual([]);
+    expect(again.body.traces[0].id).not.toBe(first.body.traces[0].id);
+    expect(await Trace.count({ where: { sha256: sha(csv), end: 'A' } })).toBe(2);
+    // The new copy is live, so it is the one a further upload meets.
+    const third = await send(csv, 'pole-22.csv').expect(409);
+    expect(third.body.error.duplicates[0].traceId).toBe(again.body.traces[0].id);
+  });
+
   it('stores the new files of a mixed upload and lists the repeated ones', async () => {
     const known = Buffer.from(stepTraceCsv({ faultM: 80, vf: 0.66 }));
     const fresh = Buffer.from(stepTraceCsv({ faultM: 85, vf: 0.66 }));
