@@ -19,11 +19,14 @@ function randomKey() {
 
 /**
  * The Idempotency-Key of an upload: each chosen file gets a key of its own,
- * and sending the same files again (a retry after a lost answer) sends the
- * same key, so the server answers with the first result instead of storing
- * the files twice.
+ * and sending the same files with the same form again (a retry after a lost
+ * answer) sends the same key, so the server answers with the first result
+ * instead of storing the files twice. The same files sent with a changed form
+ * (another run or end, another pulse width or VF) are a new upload with a new
+ * key: the server refuses a key reused for another run or end, and would
+ * otherwise answer with the first settings' result.
  */
-export function uploadKey(files: File[]): string {
+export function uploadKey(files: File[], fields: Record<string, string | undefined> = {}): string {
   const perFile = files
     .map((f) => {
       const key = fileKeys.get(f) ?? randomKey();
@@ -31,8 +34,14 @@ export function uploadKey(files: File[]): string {
       return key;
     })
     .join('.');
-  const key = uploadKeys.get(perFile) ?? randomKey();
-  uploadKeys.set(perFile, key);
+  const form = JSON.stringify(
+    Object.entries(fields)
+      .filter(([, v]) => v !== undefined && v !== '')
+      .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)),
+  );
+  const sent = `${perFile}|${form}`;
+  const key = uploadKeys.get(sent) ?? randomKey();
+  uploadKeys.set(sent, key);
   return key;
 }
 
@@ -40,7 +49,7 @@ export function uploadTraces({ files, fields, onProgress }: UploadInput) {
   const form = new FormData();
   for (const [k, v] of Object.entries(fields)) if (v !== undefined && v !== '') form.append(k, v);
   for (const f of files) form.append('file', f, f.name);
-  return uploadWithProgress<UploadResult>('/api/traces', form, onProgress, { 'Idempotency-Key': uploadKey(files) });
+  return uploadWithProgress<UploadResult>('/api/traces', form, onProgress, { 'Idempotency-Key': uploadKey(files, fields) });
 }
 
 export function useUploadTraces() {
