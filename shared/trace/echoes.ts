@@ -138,21 +138,25 @@ export function resolveCableEnd(events: ReflectionEvent[]): TraceWarning[] {
   if (endIdx >= 0) {
     const end = events[endIdx];
     const renumber = new Map<number, number>();
-    const kept = events.filter((e, k) => {
-      const drop = k > endIdx && e.likelyMultipleOf === null && Math.abs(seen(e)) < 0.3 * Math.abs(seen(end));
-      return !drop;
+    // Past the end the line is not seen: a weak feature there is an echo or the end's own
+    // spread tail, flagged or not; an echo whose source was dropped goes with it.
+    const dropped = new Set<number>();
+    events.forEach((e, k) => {
+      const weak = k > endIdx && Math.abs(seen(e)) < 0.3 * Math.abs(seen(end));
+      const orphan = e.likelyMultipleOf !== null && dropped.has(e.likelyMultipleOf);
+      if (weak || orphan) dropped.add(e.index);
     });
-    const dropped = events.length - kept.length;
+    const kept = events.filter((e) => !dropped.has(e.index));
     kept.forEach((e, k) => renumber.set(e.index, k));
     for (const e of kept) {
       e.index = renumber.get(e.index)!;
       if (e.likelyMultipleOf !== null) e.likelyMultipleOf = renumber.get(e.likelyMultipleOf) ?? null;
     }
     events.splice(0, events.length, ...kept);
-    if (dropped > 0) {
+    if (dropped.size > 0) {
       warnings.push({
         code: 'AFTER_END_IGNORED',
-        message: `${dropped} weak feature(s) after the ${end.type} at ${end.distanceM.toFixed(1)} m were ignored as its echoes`,
+        message: `${dropped.size} weak feature(s) after the ${end.type} at ${end.distanceM.toFixed(1)} m were ignored as its echoes`,
       });
     }
   }

@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { analyzeTrace, type ParsedTrace } from '../../../shared/trace';
+import type { ReflectionEvent } from '../../../shared/schemas/trace-analysis';
 import { classifyEvent, ownReflections } from '../../../shared/trace/classify';
 import { detectEdges } from '../../../shared/trace/detection';
-import { findEchoes } from '../../../shared/trace/echoes';
+import { findEchoes, resolveCableEnd } from '../../../shared/trace/echoes';
 import { extremes, findLaunch } from '../../../shared/trace/launch';
 import { estimateNoise, estimateSlowNoise } from '../../../shared/trace/noise';
 import { buildWorkingSignal } from '../../../shared/trace/signal';
@@ -234,5 +235,30 @@ describe('echoes', () => {
       edge(-0.05, { onsetIdx: 530 }),
     ];
     expect(findEchoes(merged, (m) => m.onsetIdx).of).toEqual([null, null, null, 2]);
+  });
+  it('drops weak features past the cable’s end, flagged or not, and the echoes of what it drops', () => {
+    // A step record's open end read at 0.26 after loss: past it the line is not seen (Bewley,
+    // "Traveling Waves on Transmission Systems", ch. 3), so a feature under 0.3 of it is an
+    // echo or the end's own tail. Features: series 0.31 at 289 m, open 0.26 at 331 m, a
+    // strong echo 0.11 at 368 m (kept, flagged), weak ones at 405, 500 (echo of 405) and 623 m
+    // (flagged echo of the end): the last three go.
+    const ev = (distanceM: number, rho: number, type: ReflectionEvent['type'], likelyMultipleOf: number | null, index: number) =>
+      ({ index, distanceM, reflectionCoefficient: rho, reflectionCoefficientRaw: rho, type, likelyMultipleOf, isCableEnd: false }) as ReflectionEvent;
+    const events = [
+      ev(289, 0.31, 'impedance-rise', null, 0),
+      ev(331, 0.26, 'open', null, 1),
+      ev(368, 0.11, 'open', 1, 2),
+      ev(405, 0.059, 'open', null, 3),
+      ev(500, 0.029, 'open', 3, 4),
+      ev(623, -0.02, 'impedance-drop', 1, 5),
+    ];
+    const warnings = resolveCableEnd(events);
+    expect(events.map((e) => [e.distanceM, e.index, e.likelyMultipleOf, e.isCableEnd])).toEqual([
+      [289, 0, null, false],
+      [331, 1, null, true],
+      [368, 2, 1, false],
+    ]);
+    expect(warnings.map((w) => w.code)).toEqual(['AFTER_END_IGNORED']);
+    expect(warnings[0].message).toMatch(/^3 weak feature/);
   });
 });
