@@ -33,9 +33,28 @@ export function setUnauthenticatedHandler(fn: () => void) {
   onUnauthenticated = fn;
 }
 
+const OFFLINE_MESSAGE = 'Could not reach Rholog. Check the connection and try again.';
+
+/**
+ * The CSRF token for state-changing requests. With no network the fetch itself
+ * fails (or a cached page answers instead of JSON): both become the same
+ * 'offline' ApiError every other request gives, so callers see one kind of error.
+ */
 async function fetchCsrfToken(): Promise<string> {
-  const res = await fetch('/api/auth/csrf', { credentials: 'same-origin' });
-  const body = (await res.json()) as { csrfToken: string };
+  let res: Response;
+  try {
+    res = await fetch('/api/auth/csrf', { credentials: 'same-origin' });
+  } catch {
+    throw new ApiError(0, 'offline', OFFLINE_MESSAGE);
+  }
+  if (!res.ok) throw await toError(res);
+  let body: { csrfToken?: unknown };
+  try {
+    body = (await res.json()) as { csrfToken?: unknown };
+  } catch {
+    throw new ApiError(0, 'offline', OFFLINE_MESSAGE);
+  }
+  if (typeof body.csrfToken !== 'string') throw new ApiError(0, 'offline', OFFLINE_MESSAGE);
   csrfToken = body.csrfToken;
   return csrfToken;
 }
@@ -90,7 +109,7 @@ export async function api<T>(path: string, options: RequestOptions = {}, retried
     });
   } catch (err) {
     if ((err as Error).name === 'AbortError') throw err;
-    throw new ApiError(0, 'offline', 'Could not reach Rholog. Check the connection and try again.');
+    throw new ApiError(0, 'offline', OFFLINE_MESSAGE);
   }
   if (res.ok) {
     if (res.status === 204) return undefined as T;
@@ -112,30 +131,40 @@ export async function uploadWithProgress<T>(
   form: FormData,
   onProgress: (fraction: number) => void,
   headers: Record<string, string> = {},
+  retried = false,
 ): Promise<T> {
   const token = csrfToken ?? (await fetchCsrfToken());
-  return new Promise<T>((resolve, reject) => {
-    const xhr = new XMLHttpRequest();
-    xhr.open('POST', path);
-    xhr.setRequestHeader('x-csrf-token', token);
-    xhr.setRequestHeader('accept', 'application/json');
-    for (const [name, value] of Object.entries(headers)) xhr.setRequestHeader(name, value);
-    xhr.upload.onprogress = (e) => e.lengthComputable && onProgress(e.loaded / e.total);
-    xhr.onerror = () => reject(new ApiError(0, 'offline', 'The upload did not reach Rholog. Check the connection and try again.'));
-    xhr.onload = () => {
-      let body: unknown;
-      try {
-        body = JSON.parse(xhr.responseText);
-      } catch {
-        body = undefined;
-      }
-      if (xhr.status >= 200 && xhr.status < 300) return resolve(body as T);
-      const e = (body as { error?: { code?: string; message?: string } } | undefined)?.error;
-      if (xhr.status === 401) onUnauthenticated?.();
-      reject(new ApiError(xhr.status, e?.code ?? `http_${xhr.status}`, e?.message ?? `Upload failed (${xhr.status}).`, e as ApiError['body']));
-    };
-    xhr.send(form);
-  });
+  try {
+    return await new Promise<T>((resolve, reject) => {
+      const xhr = new XMLHttpRequest();
+      xhr.open('POST', path);
+      xhr.setRequestHeader('x-csrf-token', token);
+      xhr.setRequestHeader('accept', 'application/json');
+      for (const [name, value] of Object.entries(headers)) xhr.setRequestHeader(name, value);
+      xhr.upload.onprogress = (e) => e.lengthComputable && onProgress(e.loaded / e.total);
+      xhr.onerror = () => reject(new ApiError(0, 'offline', 'The upload did not reach Rholog. Check the connection and try again.'));
+      xhr.onload = () => {
+        let body: unknown;
+        try {
+          body = JSON.parse(xhr.responseText);
+        } catch {
+          body = undefined;
+        }
+        if (xhr.status >= 200 && xhr.status < 300) return resolve(body as T);
+        const e = (body as { error?: { code?: string; message?: string } } | undefined)?.error;
+        if (xhr.status === 401) onUnauthenticated?.();
+        reject(new ApiError(xhr.status, e?.code ?? `http_${xhr.status}`, e?.message ?? `Upload failed (${xhr.status}).`, e as ApiError['body']));
+      };
+      xhr.send(form);
+    });
+  } catch (err) {
+    // A token that went stale (the session was renewed) is fetched again once; the idempotency key makes the retry safe.
+    if (err instanceof ApiError && err.code === 'csrf_invalid' && !retried) {
+      await fetchCsrfToken();
+      return uploadWithProgress<T>(path, form, onProgress, headers, true);
+    }
+    throw err;
+  }
 }
 
 /**

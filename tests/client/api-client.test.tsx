@@ -41,6 +41,22 @@ describe('the API client', () => {
     expect(err.fields).toEqual([{ field: 'name', message: 'is required' }]);
   });
 
+  it('says the network is gone, as an ApiError, when even the CSRF token cannot be fetched', async () => {
+    server.use(http.get('*/api/auth/csrf', () => HttpResponse.error()));
+    const err = (await api('/api/things', { method: 'POST', body: {} }).catch((e: unknown) => e)) as ApiError;
+    expect(err).toBeInstanceOf(ApiError);
+    expect(err.status).toBe(0);
+    expect(err.code).toBe('offline');
+    expect(err.message).toMatch(/Could not reach Rholog/);
+  });
+
+  it('treats a page served in place of the CSRF token (an offline fallback) as offline, not as a crash', async () => {
+    server.use(http.get('*/api/auth/csrf', () => new HttpResponse('<!doctype html><title>Rholog</title>', { headers: { 'content-type': 'text/html' } })));
+    const err = (await api('/api/things', { method: 'POST', body: {} }).catch((e: unknown) => e)) as ApiError;
+    expect(err).toBeInstanceOf(ApiError);
+    expect(err.code).toBe('offline');
+  });
+
   it('fetches a fresh CSRF token and retries once when the server says the token is stale', async () => {
     setCsrfToken('stale');
     tokens.current = 'token-2';
