@@ -19,6 +19,7 @@ import { migrate } from './db/migrations';
 import { initModels } from './db/models';
 import { startJobs } from './jobs';
 import { startMail } from './mail';
+import { openStorage } from './storage';
 import { sessionSecret } from './db/settings';
 import { AppError, errorHandler } from './errors';
 import type { ApiRouter, RouteRecord } from './http/api-router';
@@ -56,7 +57,9 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
   await migrate(sequelize);
   const mail = await startMail(config, log);
   const jobs = await startJobs(config, log);
-  const ctx: AppContext = { config, sequelize, onClose: [], log, logger, security: securityLog(logger), mail, jobs };
+  const storage = openStorage(config);
+  const ctx: AppContext = { config, sequelize, onClose: [], log, logger, security: securityLog(logger), mail, jobs, storage };
+  if (storage.close) ctx.onClose.push(storage.close.bind(storage));
   ctx.onClose.push(() => sequelize.close());
   ctx.onClose.unshift(() => mail.close());
   fs.mkdirSync(config.uploadDir, { recursive: true, mode: 0o750 });

@@ -65,7 +65,7 @@ const EnvSchema = z.object({
     .refine((n) => (n & (n - 1)) === 0, 'must be a power of two from 1024 to 1048576')
     .default(2 ** 15),
   /** Raw trace files: unset = the UPLOAD_DIR folder; s3://bucket/prefix?endpoint=…&region=…&forcePathStyle=on for S3-compatible object storage. */
-  STORAGE_URL: z.string().regex(/^(file:|s3:\/\/)/, 'must start with file: or s3://').optional(),
+  STORAGE_URL: z.url({ error: 'must be an s3:// URL' }).regex(/^s3:\/\/[^/?#]+/, 'must look like s3://bucket/prefix').optional(),
   /** How often some instance hands out again the jobs of an instance that died (PostgreSQL). */
   JOB_MAINTENANCE_S: z.coerce.number({ error: 'must be a whole number of seconds' }).int().min(1).max(3600).default(30),
   JOB_POLL_S: z.coerce.number({ error: 'must be a number of seconds' }).min(0.5).max(60).default(2),

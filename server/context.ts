@@ -3,6 +3,7 @@ import type { AppConfig } from './config';
 import type { Logger, SecurityLog } from './log';
 import type { JobQueue } from './jobs/queue';
 import type { MailSystem } from './mail';
+import type { RawStorage } from './storage/raw-storage';
 
 /** What route modules and services get from createApp(); features add their long-lived pieces here. */
 export interface AppContext {
@@ -20,4 +21,6 @@ export interface AppContext {
   mail: MailSystem;
   /** Background jobs: ctx.jobs.send(name, data) after the change that asks for them has committed. */
   jobs: JobQueue;
+  /** Raw trace files (a local folder or S3-compatible object storage); every read checks the SHA-256. */
+  storage: RawStorage;
 }

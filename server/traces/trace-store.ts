@@ -61,10 +61,16 @@ async function filesUnder(dir: string): Promise<string[]> {
  * what a crash between writing a file and committing its row leaves behind.
  * Files younger than `minAgeMs` are left alone (an upload may be arriving).
  */
-export async function sweepOrphans(uploadDir: string, storedPaths: Iterable<string>, minAgeMs: number, now = Date.now()): Promise<string[]> {
+export async function sweepOrphans(
+  uploadDir: string,
+  storedPaths: Iterable<string>,
+  minAgeMs: number,
+  now = Date.now(),
+  folders = [path.join(uploadDir, 'traces'), inboxDir(uploadDir)],
+): Promise<string[]> {
   const known = new Set<string>();
   for (const rel of storedPaths) known.add(path.resolve(uploadDir, rel));
-  const candidates = [...(await filesUnder(path.join(uploadDir, 'traces'))), ...(await filesUnder(inboxDir(uploadDir)))];
+  const candidates = (await Promise.all(folders.map(filesUnder))).flat();
   const removed: string[] = [];
   for (const abs of candidates) {
     if (known.has(abs)) continue;
