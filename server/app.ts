@@ -37,7 +37,8 @@ import { traceRoutes } from './traces/traces.routes';
 import { traceOutcomeRoutes } from './trace-outcomes/trace-outcomes.routes';
 import { sweepUploads } from './traces/traces.service';
 import { userRoutes } from './users/users.routes';
-import { createLogger, securityLog } from './log';
+import { createLogger, requestIds, securityLog } from './log';
+import { healthRoutes } from './health/health';
 import { hardenFiles } from './startup';
 
 export interface RhologApp {
@@ -45,6 +46,8 @@ export interface RhologApp {
   ctx: AppContext;
   routes: RouteRecord[];
   close: () => Promise<void>;
+  /** From now on /api/ready answers 503, so the proxy sends new requests to the other instances. */
+  beginShutdown: () => void;
 }
 
 /** The whole Express app on a migrated database; listen() is the caller's business. */
@@ -68,8 +71,10 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
 
   if (config.demoData) await seedDemo(ctx);
 
+  const lifecycle = { stopping: false };
   const app = express();
   app.disable('x-powered-by');
+  app.use(requestIds);
   // A hop count, never `true`: the client address is the one the nearest trusted proxy saw, so a
   // visitor cannot choose theirs by sending X-Forwarded-For.
   app.set('trust proxy', config.trustProxyHops);
@@ -118,14 +123,12 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
   const csrf = createCsrf({ sessionSecret: secret, cookieSecure: config.cookieSecure });
   app.use('/api', csrf.protection);
 
-  app.get('/api/health', (_req, res) => {
-    res.json({ status: 'ok' });
-  });
+  const healthRouteList = healthRoutes(app, ctx, lifecycle);
 
   const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(ctx), cableRoutes(), calibrationRoutes(ctx), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceOutcomeRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx), measurementRoutes(ctx), ticketRoutes(ctx), dashboardRoutes()];
   subscribeFindingNotices(ctx);
   for (const r of routers) app.use(r.prefix, r.router);
-  const routes = [{ method: 'get' as const, path: '/api/health', access: 'public' as const }, ...routers.flatMap((r) => r.routes)];
+  const routes = [...healthRouteList, ...routers.flatMap((r) => r.routes)];
 
   app.use('/api', (req, _res, next) => {
     next(new AppError(404, 'no_such_route', `There is no API route ${req.method} ${req.originalUrl}.`));
@@ -150,9 +153,10 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
   app.use(errorHandler({ exposeInternals: config.env === 'development', log: (err) => logger.error({ err }, 'request failed') }));
 
   const close = async () => {
+    lifecycle.stopping = true;
     // Running jobs first: they finish, or are handed back to the queue, while the database and the analysis pool are still there.
     await jobs.stop(config.jobs.shutdownGraceMs);
     for (const fn of ctx.onClose) await fn();
   };
-  return { app, ctx, routes, close };
+  return { app, ctx, routes, close, beginShutdown: () => void (lifecycle.stopping = true) };
 }

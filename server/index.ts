@@ -16,7 +16,7 @@ async function main() {
     }
     throw err;
   }
-  const { app, close, ctx } = await createApp(config);
+  const { app, close, ctx, beginShutdown } = await createApp(config);
   for (const warning of exposureWarnings(config)) ctx.logger.warn({ host: config.host, demoData: config.demoData }, warning);
   const server = app.listen(config.port, config.host, () => {
     const address = server.address();
@@ -31,6 +31,10 @@ async function main() {
     if (stopping) return;
     stopping = true;
     ctx.log(`${signal} received, shutting down.`);
+    // /api/ready turns 503 at once; requests under way are answered; running jobs finish within the grace period
+    // (SHUTDOWN_GRACE_S) or go back to the queue for another instance.
+    beginShutdown();
+    server.closeIdleConnections();
     server.close(() => {
       close().then(
         () => process.exit(0),
@@ -40,7 +44,7 @@ async function main() {
         },
       );
     });
-    setTimeout(() => process.exit(1), 10_000).unref();
+    setTimeout(() => process.exit(1), config.jobs.shutdownGraceMs + 10_000).unref();
   };
   process.on('SIGINT', () => stop('SIGINT'));
   process.on('SIGTERM', () => stop('SIGTERM'));

@@ -1,3 +1,6 @@
+import { AsyncLocalStorage } from 'node:async_hooks';
+import { randomUUID } from 'node:crypto';
+import type { RequestHandler } from 'express';
 import pino, { type DestinationStream, type Logger } from 'pino';
 import type { AppConfig } from './config';
 
@@ -43,11 +46,29 @@ export function createLogger(config: Pick<AppConfig, 'logLevel'>, destination?: 
     {
       level: config.logLevel,
       base: { app: 'rholog' },
+      // Every line written while a request is handled names it, across instances behind one proxy.
+      mixin: () => {
+        const requestId = requestContext.getStore();
+        return requestId ? { requestId } : {};
+      },
       redact: { paths: ['password', 'newPassword', 'currentPassword', '*.password', 'headers.cookie', 'req.headers.cookie'], censor: '[hidden]' },
     },
     destination ?? pino.destination({ dest: 1, sync: true }),
   );
 }
+
+const requestContext = new AsyncLocalStorage<string>();
+
+/** A proxy's X-Request-Id when it looks like one (so one id follows a request through proxy and app logs), or a new one. */
+const REQUEST_ID = /^[\w.:-]{8,128}$/;
+
+/** Give each request an id: answered in X-Request-Id and written on every log line made while handling it. */
+export const requestIds: RequestHandler = (req, res, next) => {
+  const given = req.get('x-request-id');
+  const id = given && REQUEST_ID.test(given) ? given : randomUUID();
+  res.setHeader('X-Request-Id', id);
+  requestContext.run(id, next);
+};
 
 export function securityLog(logger: Logger): SecurityLog {
   return (event, fields = {}) => {
