@@ -58,6 +58,13 @@ describe('the best location in the browser', () => {
     const rows = page.getByTestId('location-methods').locator('tbody tr');
     expect(await rows.count()).toBe(4);
     expect(await page.getByTestId('location-methods').textContent()).toContain('counted through the two-ended reading');
+    // The finding's own reading comes after, every line of it labelled as this reading alone: one window to dig by.
+    const alone = page.getByTestId('reading-alone');
+    expect(await alone.count()).toBe(1);
+    expect(await alone.textContent()).toMatch(/^This reading alone \(dig by the best location above\)/);
+    expect(await alone.textContent()).toContain('Cable-length window of this reading alone');
+    expect(await alone.textContent()).toContain('Along the route, this reading alone:');
+    expect(await page.getByRole('heading', { name: 'This TDR reading alone' }).count()).toBe(1);
     await page.getByTestId('route-strip').locator('svg').waitFor();
     expect(await page.getByTestId('ground-note').textContent()).toMatch(/No route marker of this run has coordinates/);
     await e2e.screenshot(page, 'best-location-finding-desktop');
@@ -130,6 +137,9 @@ describe('the best location in the browser', () => {
     await page.getByTestId('best-distance').waitFor();
     expect(await page.getByTestId('best-distance').textContent()).toBe(formatLength(best.distanceFromAM, 'ft'));
     expect(await page.getByTestId('ticket-distance').count()).toBe(2);
+    // Each reading under it is labelled as that reading alone.
+    expect(await page.getByTestId('reading-alone').count()).toBe(2);
+    expect(await page.getByTestId('reading-alone').first().textContent()).toContain('Cable-length window of this reading alone');
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(PHONE.width);
     await e2e.screenshot(page, 'best-location-ticket-phone-feet');
     await shoot(page.getByTestId('best-location'), 'best-location-ticket-headline-phone-feet');
@@ -146,6 +156,9 @@ describe('the best location in the browser', () => {
     expect(await sheet.getByTestId('best-window').textContent()).toContain(formatLengthRange(best.windowStartM!, best.windowEndM!, 'ft'));
     // Both findings of the fault share one best location: it is printed once.
     expect(await sheet.getByTestId('best-distance').count()).toBe(1);
+    // The two readings' own windows are printed as theirs alone.
+    expect(await page.getByTestId('sheet-reading-alone').count()).toBe(2);
+    expect(await page.locator('dt', { hasText: 'Cable-length window, this reading alone' }).count()).toBe(2);
     expect(await sheet.textContent()).not.toMatch(/\d m\b/);
     await page.getByTestId('sheet-trace').first().locator('canvas').waitFor();
     await e2e.screenshot(page, 'best-location-sheet-phone-feet');

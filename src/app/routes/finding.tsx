@@ -8,12 +8,12 @@ import { useSession } from '../../features/auth/use-session';
 import { useFinding } from '../../features/findings/api/get-finding';
 import { useFindingTwoEnded } from '../../features/findings/api/get-two-ended';
 import { DecisionHistory } from '../../features/findings/components/decision-history';
-import { DistanceBlock, RouteSentence } from '../../features/findings/components/where-to-dig';
+import { DistanceBlock, ReadingAlone, RouteSentence } from '../../features/findings/components/where-to-dig';
 import { useBestLocation } from '../../features/locate/api/get-best-location';
 import { BestLocationHeadline, LocationMethods } from '../../features/locate/components/best-location';
 import { MeasurementPanel } from '../../features/locate/components/measurement-panel';
 import { useCableRun } from '../../features/sites/api/get-cable-run';
-import { formatDateTime, formatLength, formatLengthRange, formatSignedLength } from '../../lib/format';
+import { formatDateTime, formatLength, formatSignedLength } from '../../lib/format';
 import { paths } from '../paths';
 
 export function FindingPage() {
@@ -77,18 +77,20 @@ export function FindingPage() {
               />
             </Card>
           )}
-          <Card title={best ? 'This TDR reading' : 'Where to dig'}>
+          <Card title={best ? 'This TDR reading alone' : 'Where to dig'}>
             {best ? (
-              // One of the readings behind the best location: smaller, so the crew reads the headline first.
-              <div className="space-y-1 text-sm tabular">
-                <p className="text-lg font-semibold">
-                  {formatLength(f.distanceM, unit)} along the cable from end {f.end} ({f.endLabel}), ± {formatLength(f.uncertaintyM, unit)}
-                </p>
-                <p>Cable-length window {formatLengthRange(f.windowStartM, f.windowEndM, unit)} from end {f.end}, slack included</p>
-                <p>
-                  <RouteSentence pos={f.routePosition} storedText={f.routePositionText} unit={unit} />
-                </p>
-              </div>
+              // One of the readings behind the best location: smaller and labelled, so the crew digs by the headline.
+              <ReadingAlone
+                distanceM={f.distanceM}
+                uncertaintyM={f.uncertaintyM}
+                windowStartM={f.windowStartM}
+                windowEndM={f.windowEndM}
+                end={f.end}
+                endLabel={f.endLabel}
+                unit={unit}
+                pos={f.routePosition}
+                storedText={f.routePositionText}
+              />
             ) : (
               <DistanceBlock distanceM={f.distanceM} windowStartM={f.windowStartM} windowEndM={f.windowEndM} end={f.end} endLabel={f.endLabel} unit={unit} pos={f.routePosition} storedText={f.routePositionText} />
             )}

@@ -43,21 +43,28 @@ function TraceSnapshot({ f, unit }: { f: TicketFindingView; unit: LengthUnit }) 
 
 function FindingBlock({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; unit: LengthUnit }) {
   const endLabel = f.measuredFrom === 'A' ? t.cableRun.endALabel : t.cableRun.endBLabel;
+  // Under a best location, this reading's narrower window is labelled as its own, never as where to dig.
+  const alone = f.bestLocation !== null && f.bestLocation !== undefined;
   return (
     <section className="break-inside-avoid space-y-2 border-t border-ink pt-3">
       <h2 className="text-lg font-bold">
         {kindLabel(f.kind)} <span className="text-sm font-normal text-mist">(finding {f.id})</span>
       </h2>
+      {alone && (
+        <p className="text-sm font-semibold" data-testid="sheet-reading-alone">
+          This reading alone: dig by the best location above.
+        </p>
+      )}
       <dl className="grid gap-x-6 gap-y-1 text-sm sm:grid-cols-[auto_1fr] print:grid-cols-[auto_1fr]">
-        <dt className="font-semibold">{f.bestLocation ? 'This TDR reading' : 'Distance'}</dt>
+        <dt className="font-semibold">{alone ? 'This reading alone' : 'Distance'}</dt>
         <dd className="tabular" data-testid="sheet-distance">
           {formatLength(f.distanceM, unit)} along the cable from end {f.measuredFrom} ({endLabel}), ± {formatLength(f.uncertaintyM, unit)}
         </dd>
-        <dt className="font-semibold">Route position</dt>
-        <dd className="text-base font-bold">
-          <RouteSentence pos={f.routePosition} storedText={f.routePositionText} unit={unit} testId="sheet-route-position" />
+        <dt className="font-semibold">{alone ? 'Route position, this reading alone' : 'Route position'}</dt>
+        <dd className={alone ? 'text-sm' : 'text-base font-bold'}>
+          <RouteSentence pos={f.routePosition} storedText={f.routePositionText} unit={unit} testId="sheet-route-position" warn={!alone} />
         </dd>
-        <dt className="font-semibold">Cable-length window</dt>
+        <dt className="font-semibold">{alone ? 'Cable-length window, this reading alone' : 'Cable-length window'}</dt>
         <dd className="tabular">
           {formatLengthRange(f.windowStartM, f.windowEndM, unit)} along the cable from end {f.measuredFrom}, slack included
         </dd>

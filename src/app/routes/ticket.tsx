@@ -19,7 +19,7 @@ import { CloseoutForm } from '../../features/tickets/components/closeout-form';
 import { EditTicketForm } from '../../features/tickets/components/edit-ticket-form';
 import { PriorityBadge, TicketStatusBadge } from '../../features/tickets/components/ticket-badges';
 import { TicketTimeline } from '../../features/tickets/components/ticket-timeline';
-import { RouteSentence } from '../../features/findings/components/where-to-dig';
+import { ReadingAlone, RouteSentence } from '../../features/findings/components/where-to-dig';
 import { formatDate, formatDateTime, formatLength, formatLengthRange, formatSignedLength, type LengthUnit } from '../../lib/format';
 import { describeError } from '../../lib/api-client';
 import { paths } from '../paths';
@@ -39,18 +39,36 @@ function FindingCard({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; un
         </Link>{' '}
         · {kindLabel(f.kind)} · confirmed by {f.confirmedBy.name}, {formatDateTime(f.confirmedAt)}
       </p>
-      <p className="text-2xl font-bold tabular" data-testid="ticket-distance">
-        {formatLength(f.distanceM, unit)}
-        <span className="ml-2 text-sm font-normal text-ink-soft">
-          along the cable from end {f.measuredFrom} ({endLabel}), ± {formatLength(f.uncertaintyM, unit)}
-        </span>
-      </p>
-      <p className="font-semibold text-copper-dark">
-        <RouteSentence pos={f.routePosition} storedText={f.routePositionText} unit={unit} testId="ticket-route-position" />
-      </p>
-      <p className="text-sm text-ink-soft tabular">
-        Cable-length window: {formatLengthRange(f.windowStartM, f.windowEndM, unit)} along the cable from end {f.measuredFrom}, slack included
-      </p>
+      {f.bestLocation ? (
+        <ReadingAlone
+          distanceM={f.distanceM}
+          uncertaintyM={f.uncertaintyM}
+          windowStartM={f.windowStartM}
+          windowEndM={f.windowEndM}
+          end={f.measuredFrom}
+          endLabel={endLabel}
+          unit={unit}
+          pos={f.routePosition}
+          storedText={f.routePositionText}
+          distanceTestId="ticket-distance"
+          routeTestId="ticket-route-position"
+        />
+      ) : (
+        <>
+          <p className="text-2xl font-bold tabular" data-testid="ticket-distance">
+            {formatLength(f.distanceM, unit)}
+            <span className="ml-2 text-sm font-normal text-ink-soft">
+              along the cable from end {f.measuredFrom} ({endLabel}), ± {formatLength(f.uncertaintyM, unit)}
+            </span>
+          </p>
+          <p className="font-semibold text-copper-dark">
+            <RouteSentence pos={f.routePosition} storedText={f.routePositionText} unit={unit} testId="ticket-route-position" />
+          </p>
+          <p className="text-sm text-ink-soft tabular">
+            Cable-length window: {formatLengthRange(f.windowStartM, f.windowEndM, unit)} along the cable from end {f.measuredFrom}, slack included
+          </p>
+        </>
+      )}
       {f.note && <p className="text-sm">Note: {f.note}</p>}
     </div>
   );

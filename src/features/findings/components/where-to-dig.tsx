@@ -16,13 +16,25 @@ export function routeWords(pos: RoutePosition | null | undefined, storedText: st
   return { sentence: lengthsInText(storedText ?? '', unit), crossing: null };
 }
 
-/** The route sentence, and the marker warning when the dig window runs over one. */
-export function RouteSentence({ pos, storedText, unit, testId = 'route-position' }: { pos: RoutePosition | null | undefined; storedText?: string | null; unit: LengthUnit; testId?: string }) {
+/** The route sentence, and the marker warning when the dig window runs over one (unless `warn` is off). */
+export function RouteSentence({
+  pos,
+  storedText,
+  unit,
+  testId = 'route-position',
+  warn = true,
+}: {
+  pos: RoutePosition | null | undefined;
+  storedText?: string | null;
+  unit: LengthUnit;
+  testId?: string;
+  warn?: boolean;
+}) {
   const { sentence, crossing } = routeWords(pos, storedText, unit);
   return (
     <>
       <span data-testid={testId}>{sentence}</span>
-      {crossing && (
+      {warn && crossing && (
         <span className="mt-1 block text-base font-semibold text-danger" data-testid="window-crossing">
           {crossing}
         </span>
@@ -68,6 +80,53 @@ export function DistanceBlock({
       </p>
       <p className="rounded-md bg-copper-light px-3 py-2 text-lg font-semibold text-ink">
         <RouteSentence pos={pos} storedText={storedText} unit={unit} />
+      </p>
+    </div>
+  );
+}
+
+/**
+ * One TDR reading's own distance and windows, shown under a best location.
+ * Every line says "this reading alone", so the crew never takes its narrower
+ * window for the one to dig by; the marker warning belongs to the best
+ * location's window and is left out here.
+ */
+export function ReadingAlone({
+  distanceM,
+  uncertaintyM,
+  windowStartM,
+  windowEndM,
+  end,
+  endLabel,
+  unit,
+  pos,
+  storedText,
+  distanceTestId,
+  routeTestId = 'route-position',
+}: {
+  distanceM: number;
+  uncertaintyM: number;
+  windowStartM: number;
+  windowEndM: number;
+  end: 'A' | 'B';
+  endLabel: string;
+  unit: LengthUnit;
+  pos: RoutePosition | null | undefined;
+  storedText?: string | null;
+  distanceTestId?: string;
+  routeTestId?: string;
+}) {
+  return (
+    <div className="space-y-1 text-sm tabular text-ink-soft" data-testid="reading-alone">
+      <p className="font-semibold text-ink">This reading alone (dig by the best location above)</p>
+      <p data-testid={distanceTestId}>
+        {formatLength(distanceM, unit)} along the cable from end {end} ({endLabel}), ± {formatLength(uncertaintyM, unit)}
+      </p>
+      <p>
+        Cable-length window of this reading alone: {formatLengthRange(windowStartM, windowEndM, unit)} from end {end}, slack included
+      </p>
+      <p>
+        Along the route, this reading alone: <RouteSentence pos={pos} storedText={storedText} unit={unit} testId={routeTestId} warn={false} />
       </p>
     </div>
   );
