@@ -26,7 +26,7 @@ export function findingRoutes(ctx: AppContext) {
     'findings:read',
     handle(async (req) => {
       const id = IdParam.parse(req.params).id;
-      return { ...(await findings.getFinding(id)), bestLocation: await bestLocationFor(id) };
+      return { ...(await findings.getFinding(id)), bestLocation: await bestLocationFor(id), tickets: await findings.ticketsFor(id) };
     }),
   );
   r.get('/:id/decisions', 'findings:read', handle((req) => decisions.decisionHistory(IdParam.parse(req.params).id)));

@@ -6,7 +6,7 @@ import { can } from '../../shared/auth/permissions';
 import type { FindingInputSchema, FindingListQuerySchema, FindingView, TwoEndedView } from '../../shared/schemas/findings';
 import type { Page } from '../../shared/schemas/users';
 import type { AppContext } from '../context';
-import { CableRun, Finding, FindingDecision, RouteMarker, Site, Trace, User } from '../db/models';
+import { CableRun, Finding, FindingDecision, RouteMarker, Site, Ticket, TicketFinding, Trace, User } from '../db/models';
 import { AppError } from '../errors';
 import { emitFindingConfirmed } from './events';
 import { idsContaining } from '../db/text-search';
@@ -143,6 +143,18 @@ export async function recordFinding(ctx: AppContext, input: FindingInput, userId
   });
   if (input.status === 'confirmed') emitFindingConfirmed(id, ctx.log);
   return getFinding(id);
+}
+
+/** The repair tickets acting on a finding: any not withdrawn, oldest first. */
+export async function ticketsFor(findingId: number): Promise<NonNullable<FindingView['tickets']>> {
+  const links = await TicketFinding.findAll({ where: { findingId }, attributes: ['ticketId'] });
+  if (links.length === 0) return [];
+  const tickets = await Ticket.findAll({
+    where: { id: links.map((l) => l.ticketId), status: { [Op.ne]: 'withdrawn' } },
+    attributes: ['id', 'title', 'status'],
+    order: [['id', 'ASC']],
+  });
+  return tickets.map((t) => ({ id: t.id, title: t.title, status: t.status }));
 }
 
 export async function getFinding(id: number): Promise<FindingView> {

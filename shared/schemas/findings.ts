@@ -3,6 +3,7 @@ import { jsonId, textId, textInt } from './input';
 import type { RoutePosition } from '../field/route-position';
 import type { BestLocationView } from './measurements';
 import type { CableEnd } from './traces';
+import type { TicketStatus } from '../tickets/status';
 
 export const FINDING_STATUSES = ['confirmed', 'dismissed'] as const;
 export type FindingStatus = (typeof FINDING_STATUSES)[number];
@@ -97,6 +98,8 @@ export interface FindingView {
   engineVersion: string;
   /** The best location from every reading of this fault; only GET /api/findings/:id fills it in. */
   bestLocation?: BestLocationView | null;
+  /** The repair tickets acting on this finding (any not withdrawn); only GET /api/findings/:id fills it in. */
+  tickets?: Array<{ id: number; title: string; status: TicketStatus }>;
 }
 
 export interface TwoEndedView {

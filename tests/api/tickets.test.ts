@@ -248,11 +248,17 @@ describe('repair tickets', () => {
 
   it('frees a withdrawn ticket’s findings, and a reopened repair takes a fresh close-out', async () => {
     const f = await confirmedFinding(api, fx.run.id, 120);
+    // The finding names the tickets acting on it, so its page links to one instead of offering another.
+    const ticketsOf = async () => (await tech.get(`/api/findings/${f.id}`).expect(200)).body.tickets;
+    expect(await ticketsOf()).toEqual([]);
     const first = (await sup.post('/api/tickets', { findingIds: [f.id], assigneeId: api.users.technician.id }).expect(201)).body as TicketDetail;
+    expect(await ticketsOf()).toEqual([{ id: first.id, title: first.title, status: 'assigned' }]);
     const gone = await sup.post(`/api/tickets/${first.id}/status`, { to: 'withdrawn', comment: 'Raised twice' }).expect(200);
     expect(gone.body.can).toEqual({ edit: false, moves: [], closeOut: false, comment: false });
+    expect(await ticketsOf()).toEqual([]);
     await tech.post(`/api/tickets/${first.id}/status`, { to: 'under-way' }).expect(409);
     const again = (await sup.post('/api/tickets', { findingIds: [f.id], assigneeId: api.users.technician.id }).expect(201)).body as TicketDetail;
+    expect(await ticketsOf()).toEqual([{ id: again.id, title: again.title, status: 'assigned' }]);
     const found = (m: number) => ({ found: { method: 'distance', fromEnd: 'A', distanceM: m }, cause: 'open-conductor', workDone: 'Joint' });
     await tech.post(`/api/tickets/${again.id}/closeout`, found(121)).expect(200);
     const reopened = await sup.post(`/api/tickets/${again.id}/status`, { to: 'under-way', comment: 'Still open-circuit' }).expect(200);

@@ -58,6 +58,12 @@ describe('the best location in the browser', () => {
     const rows = page.getByTestId('location-methods').locator('tbody tr');
     expect(await rows.count()).toBe(4);
     expect(await page.getByTestId('location-methods').textContent()).toContain('counted through the two-ended reading');
+    // The finding is on the demo's repair ticket: a link to it, and no offer to raise another.
+    const onTicket = page.getByTestId('finding-ticket-link');
+    expect(await onTicket.count()).toBe(1);
+    expect(await onTicket.textContent()).toMatch(new RegExp(`^On repair ticket ${ticketId} \\(`));
+    expect(await onTicket.getAttribute('href')).toBe(`/tickets/${ticketId}`);
+    expect(await page.getByRole('link', { name: 'Raise a repair ticket' }).count()).toBe(0);
     // The finding's own reading comes after, every line of it labelled as this reading alone: one window to dig by.
     const alone = page.getByTestId('reading-alone');
     expect(await alone.count()).toBe(1);

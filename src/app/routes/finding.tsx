@@ -1,5 +1,6 @@
 import { Link, useParams } from 'react-router-dom';
 import { FINDING_KIND_LABELS } from '../../../shared/schemas/findings';
+import { TICKET_STATUS_LABELS } from '../../../shared/tickets/status';
 import { Card, PageHeader } from '../../components/ui/card';
 import { ErrorNotice, Loading } from '../../components/ui/notice';
 import { StatusBadge } from '../../components/ui/status-badge';
@@ -42,7 +43,18 @@ export function FindingPage() {
         actions={
           <>
             <StatusBadge kind="finding" status={f.status} />
-            {f.status === 'confirmed' && can('tickets:manage') && (
+            {/* A finding a ticket already acts on links to it; a second ticket would be refused. */}
+            {(f.tickets ?? []).map((t) => (
+              <Link
+                key={t.id}
+                to={paths.ticket.to(t.id)}
+                className="inline-flex min-h-11 items-center rounded-md border border-teal px-4 text-sm font-semibold text-teal hover:bg-teal/10"
+                data-testid="finding-ticket-link"
+              >
+                On repair ticket {t.id} ({TICKET_STATUS_LABELS[t.status].toLowerCase()})
+              </Link>
+            ))}
+            {f.status === 'confirmed' && can('tickets:manage') && !f.tickets?.length && (
               <Link
                 to={`${paths.tickets.to()}?finding=${f.id}`}
                 className="inline-flex min-h-11 items-center rounded-md bg-copper px-4 text-sm font-semibold text-white hover:bg-copper-dark"
