@@ -102,6 +102,7 @@ export function FindingPage() {
                 unit={unit}
                 pos={f.routePosition}
                 storedText={f.routePositionText}
+                fused={best.distanceFromAM !== null}
               />
             ) : (
               <DistanceBlock distanceM={f.distanceM} windowStartM={f.windowStartM} windowEndM={f.windowEndM} end={f.end} endLabel={f.endLabel} unit={unit} pos={f.routePosition} storedText={f.routePositionText} />

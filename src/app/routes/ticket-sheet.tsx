@@ -45,6 +45,7 @@ function FindingBlock({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; u
   const endLabel = f.measuredFrom === 'A' ? t.cableRun.endALabel : t.cableRun.endBLabel;
   // Under a best location, this reading's narrower window is labelled as its own, never as where to dig.
   const alone = f.bestLocation !== null && f.bestLocation !== undefined;
+  const fused = alone && f.bestLocation!.distanceFromAM !== null;
   return (
     <section className="break-inside-avoid space-y-2 border-t border-ink pt-3">
       <h2 className="text-lg font-bold">
@@ -52,7 +53,7 @@ function FindingBlock({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; u
       </h2>
       {alone && (
         <p className="text-sm font-semibold" data-testid="sheet-reading-alone">
-          This reading alone: dig by the best location above.
+          {fused ? 'This reading alone: dig by the best location above.' : 'This reading alone: the readings disagree, check them before digging.'}
         </p>
       )}
       <dl className="grid gap-x-6 gap-y-1 text-sm sm:grid-cols-[auto_1fr] print:grid-cols-[auto_1fr]">
@@ -61,8 +62,8 @@ function FindingBlock({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; u
           {formatLength(f.distanceM, unit)} along the cable from end {f.measuredFrom} ({endLabel}), ± {formatLength(f.uncertaintyM, unit)}
         </dd>
         <dt className="font-semibold">{alone ? 'Route position, this reading alone' : 'Route position'}</dt>
-        <dd className={alone ? 'text-sm' : 'text-base font-bold'}>
-          <RouteSentence pos={f.routePosition} storedText={f.routePositionText} unit={unit} testId="sheet-route-position" warn={!alone} />
+        <dd className={fused ? 'text-sm' : 'text-base font-bold'}>
+          <RouteSentence pos={f.routePosition} storedText={f.routePositionText} unit={unit} testId="sheet-route-position" warn={!fused} />
         </dd>
         <dt className="font-semibold">{alone ? 'Cable-length window, this reading alone' : 'Cable-length window'}</dt>
         <dd className="tabular">

@@ -52,6 +52,7 @@ function FindingCard({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; un
           storedText={f.routePositionText}
           distanceTestId="ticket-distance"
           routeTestId="ticket-route-position"
+          fused={f.bestLocation.distanceFromAM !== null}
         />
       ) : (
         <>

@@ -88,8 +88,9 @@ export function DistanceBlock({
 /**
  * One TDR reading's own distance and windows, shown under a best location.
  * Every line says "this reading alone", so the crew never takes its narrower
- * window for the one to dig by; the marker warning belongs to the best
- * location's window and is left out here.
+ * window for the one to dig by. When the readings give a best location
+ * (`fused`), the marker warning belongs to its window and is left out here;
+ * when they disagree, this reading's own warning stays.
  */
 export function ReadingAlone({
   distanceM,
@@ -103,6 +104,7 @@ export function ReadingAlone({
   storedText,
   distanceTestId,
   routeTestId = 'route-position',
+  fused,
 }: {
   distanceM: number;
   uncertaintyM: number;
@@ -115,10 +117,11 @@ export function ReadingAlone({
   storedText?: string | null;
   distanceTestId?: string;
   routeTestId?: string;
+  fused: boolean;
 }) {
   return (
     <div className="space-y-1 text-sm tabular text-ink-soft" data-testid="reading-alone">
-      <p className="font-semibold text-ink">This reading alone (dig by the best location above)</p>
+      <p className="font-semibold text-ink">{fused ? 'This reading alone (dig by the best location above)' : 'This reading alone (the readings disagree: check them before digging)'}</p>
       <p data-testid={distanceTestId}>
         {formatLength(distanceM, unit)} along the cable from end {end} ({endLabel}), ± {formatLength(uncertaintyM, unit)}
       </p>
@@ -126,7 +129,7 @@ export function ReadingAlone({
         Cable-length window of this reading alone: {formatLengthRange(windowStartM, windowEndM, unit)} from end {end}, slack included
       </p>
       <p>
-        Along the route, this reading alone: <RouteSentence pos={pos} storedText={storedText} unit={unit} testId={routeTestId} warn={false} />
+        Along the route, this reading alone: <RouteSentence pos={pos} storedText={storedText} unit={unit} testId={routeTestId} warn={!fused} />
       </p>
     </div>
   );
