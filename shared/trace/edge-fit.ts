@@ -32,6 +32,7 @@ import {
   type LossModel,
   type LossPoint,
 } from './loss';
+import { estimateFromIncident } from './loss-estimate';
 import { launchOnsetTimer, measureOnset, type Onset } from './onset';
 import { lineFit, sampleMedian } from './stats';
 import type { Candidate, Launch, Measured, TraceRecord, WorkingSignal } from './steps';
@@ -499,6 +500,8 @@ interface ModelFit {
   q: number;
   dq: number;
   middle: number;
+  /** Points in the fitted window. */
+  points: number;
 }
 
 /** Fit one window with one loss model; `twoWayM` sets the size of the loss spread. */
@@ -535,6 +538,7 @@ function fitWindow(
     q,
     dq: best.d,
     middle: middle * q,
+    points: w.y.length,
   };
 }
 
@@ -558,6 +562,10 @@ const ZERO_PHASE_GAIN = 0.5;
 function bestShapeFit(ctx: FitContext, win: EventWindow, model: LossModel, m: Measured): { f: ModelFit | null; zeroPhase: boolean } {
   const f = fitAtDistance(ctx, win, model);
   if (model === NO_LOSS || !f) return { f, zeroPhase: false };
+  // A causal fit that leaves no more than the noise needs no other shape.
+  const sig = ctx.input.signal;
+  const perSample = sig.mode === 'step' ? sig.sigmaU : sig.scaleForPulse * sig.unitArea;
+  if (f.ss / Math.max(1, f.points - 3) <= (4 * perSample ** 2) / f.q) return { f, zeroPhase: false };
   const wide = { ...win, hi: win.hi + Math.max(8, m.riseSamples) };
   const z = fitAtDistance(ctx, wide, model, true);
   if (z && z.ss < ZERO_PHASE_GAIN * f.ss && acceptable(z, m, wide)) return { f: z, zeroPhase: true };
@@ -571,7 +579,7 @@ function bestShapeFit(ctx: FitContext, win: EventWindow, model: LossModel, m: Me
  * Null when the best fit is no better than the lossless one by more than the
  * noise (the loss is not measurable on this trace).
  */
-function estimateSkin(ctx: FitContext, events: Measured[]): LossModel | null {
+function estimateSkin(ctx: FitContext, events: Measured[], resistiveNpPerM = 0): LossModel | null {
   const fittable = events.map((m, k) => ({ m, k })).filter(({ m }) => !m.blip);
   if (fittable.length === 0) return null;
   const { k, m } = fittable.reduce((a, b) => (Math.abs(b.m.height) * b.m.snr > Math.abs(a.m.height) * a.m.snr ? b : a));
@@ -584,10 +592,11 @@ function estimateSkin(ctx: FitContext, events: Measured[]): LossModel | null {
   const dt = ctx.input.rec.dt;
   const modelFor = (t50Samples: number): LossModel => {
     const kParam = Math.sqrt((t50Samples * dt) / 1.099);
-    return { skinNpPerMRootHz: (kParam * Math.sqrt(Math.PI)) / twoWayM, dielectricNpPerMPerHz: 0 };
+    return { skinNpPerMRootHz: (kParam * Math.sqrt(Math.PI)) / twoWayM, dielectricNpPerMPerHz: 0, resistiveNpPerM };
   };
+  const base: LossModel = resistiveNpPerM > 0 ? { ...NO_LOSS, resistiveNpPerM } : NO_LOSS;
   const ssAt = (t50: number) =>
-    fitWindow(ctx, win, t50 > 0 ? modelFor(t50) : NO_LOSS, twoWayM, { withMiddle: false, maxPoints: ESTIMATE_POINTS })?.ss ?? Infinity;
+    fitWindow(ctx, win, t50 > 0 ? modelFor(t50) : base, twoWayM, { withMiddle: false, maxPoints: ESTIMATE_POINTS })?.ss ?? Infinity;
   // First guess from the widening: the erfc edge's 10–90 % time is 28.6 times its t50
   // (31.48·K² against 1.099·K²), and the launch's own rise adds to it.
   const guess = Math.max(0.25, (m.riseSamples - Math.max(1, ctx.input.launch.riseSamples)) / 28.6);
@@ -603,6 +612,36 @@ function estimateSkin(ctx: FitContext, events: Measured[]): LossModel | null {
   // Keep the estimate only if it fits better than no loss by clearly more than the noise.
   if (lossless - best.ss < 9 * (best.ss / dof)) return null;
   return modelFor(best.t50);
+}
+
+/** How far the fitted loss must lower the residual of the incident stretch, in units of its noise (residual per degree of freedom). */
+const INCIDENT_SIGNIFICANCE = 25;
+
+/**
+ * Series loss from the stretch of incident step between the launch and the first event
+ * (loss-estimate.ts), when it shows clearly more than noise. Step records only: a pulse
+ * record's tail is too faint against drift and quantisation to carry the resistive term.
+ */
+function incidentLoss(input: EdgeFitInput, events: Measured[]): LossModel | null {
+  const { launch: L, signal: sig, rec } = input;
+  if (!input.vf || !L.found || sig.mode !== 'step') return null;
+  const from = sig.blindIdx + 2 * sig.w0;
+  // Only events past the stretch have a height to correct.
+  if (!events.some((m) => !m.blip && m.onsetIdx > from)) return null;
+  let to = rec.n;
+  for (const m of events) if (m.onsetIdx > from) to = Math.min(to, m.onsetIdx - Math.max(8, 2 * m.w));
+  const est = estimateFromIncident({
+    y: sig.u,
+    dt: rec.dt,
+    t0Idx: L.onsetInRecord ? L.idx : L.zeroIdx,
+    from,
+    to,
+    vf: input.vf,
+  });
+  if (!est) return null;
+  const dof = Math.max(1, est.points - 3);
+  if (!(est.ssFlat - est.ssFit > INCIDENT_SIGNIFICANCE * (est.ssFit / dof))) return null;
+  return est.model;
 }
 
 export interface LineFitResult {
@@ -621,7 +660,12 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
   const library = input.loss && input.loss.length > 0 ? lossModelFromPoints(input.loss) : null;
   if (!shape || !input.vf) return { events, lossSource: library ? 'library' : 'none', loss: library ?? NO_LOSS };
   const ctx: FitContext = { input, shape, twoWayMPerSample: input.vf * SPEED_OF_LIGHT_M_PER_S * input.rec.dt, peeled: [] };
-  const estimated = library ? null : estimateSkin(ctx, events);
+  const incident = library ? null : incidentLoss(input, events);
+  const estimated = library
+    ? null
+    : incident
+      ? (estimateSkin(ctx, events, incident.resistiveNpPerM) ?? incident)
+      : estimateSkin(ctx, events);
   const model = library ?? estimated ?? NO_LOSS;
   const lossSource: LossSource = library ? 'library' : estimated ? 'estimated' : 'none';
   const launchOnset = launchOnsetTimer(input.launch, input.signal);
