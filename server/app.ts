@@ -18,6 +18,8 @@ import { seedDemo } from './db/demo/seed';
 import { migrate } from './db/migrations';
 import { initModels } from './db/models';
 import { startJobs } from './jobs';
+import { registerCableReanalysis } from './jobs/cable-reanalysis';
+import { cableReanalysisRoutes } from './jobs/cable-reanalysis.routes';
 import { startMail } from './mail';
 import { openStorage } from './storage';
 import { sessionSecret } from './db/settings';
@@ -70,6 +72,7 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
   await sweepUploads(ctx);
 
   if (config.demoData) await seedDemo(ctx);
+  await registerCableReanalysis(ctx);
 
   const lifecycle = { stopping: false };
   const app = express();
@@ -125,7 +128,7 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
 
   const healthRouteList = healthRoutes(app, ctx, lifecycle);
 
-  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(ctx), cableRoutes(), calibrationRoutes(ctx), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceOutcomeRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx), measurementRoutes(ctx), ticketRoutes(ctx), dashboardRoutes()];
+  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(ctx), cableRoutes(), cableReanalysisRoutes(ctx), calibrationRoutes(ctx), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceOutcomeRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx), measurementRoutes(ctx), ticketRoutes(ctx), dashboardRoutes()];
   subscribeFindingNotices(ctx);
   for (const r of routers) app.use(r.prefix, r.router);
   const routes = [...healthRouteList, ...routers.flatMap((r) => r.routes)];

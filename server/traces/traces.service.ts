@@ -36,7 +36,7 @@ export type IncomingFile = { originalName: string } & ({ path: string } | { byte
 export const DUPLICATE_WINDOW_MS = 24 * 60 * 60 * 1000;
 
 /** The columns that record one analysis: its outcome and the cable values and engine it was made with. */
-function analysisColumns(outcome: Outcome, cable: CableType, settings: TraceSettings) {
+export function analysisColumns(outcome: Outcome, cable: CableType, settings: TraceSettings) {
   return {
     status: outcome.status,
     errorCode: outcome.error?.code ?? null,
@@ -54,7 +54,7 @@ function analysisColumns(outcome: Outcome, cable: CableType, settings: TraceSett
 }
 
 /** The cable type's values as the analysis worker takes them (plain data). */
-function analysisCable(cable: CableType): AnalysisCable {
+export function analysisCable(cable: CableType): AnalysisCable {
   return cable.get({ plain: true }) as AnalysisCable;
 }
 

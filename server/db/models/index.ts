@@ -1,5 +1,6 @@
 import type { Sequelize } from 'sequelize';
 import { associateCableCalibration, initCableCalibration } from './cable-calibration';
+import { initCableReanalysis } from './cable-reanalysis';
 import { CableType, initCableType } from './cable-type';
 import { associateCableTypeChange, initCableTypeChange } from './cable-type-change';
 import { initMailJob } from './mail-job';
@@ -28,6 +29,7 @@ export function initModels(sequelize: Sequelize) {
   initUser(sequelize);
   initSession(sequelize);
   initCableType(sequelize);
+  initCableReanalysis(sequelize);
   initCableTypeChange(sequelize);
   initCableCalibration(sequelize);
   initSite(sequelize);
@@ -63,6 +65,7 @@ export { Session } from './session';
 export { CableType } from './cable-type';
 export { CableTypeChange } from './cable-type-change';
 export { CableCalibration } from './cable-calibration';
+export { CableReanalysis, CableReanalysisItem } from './cable-reanalysis';
 export { MailJob } from './mail-job';
 export { OutboxMessage } from './outbox-message';
 export { Site } from './site';

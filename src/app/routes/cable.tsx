@@ -14,6 +14,7 @@ import { constructionLabel, formatDelay, formatPercent, formatTolerance, formatV
 import { CableForm, changedFields } from '../../features/cables/components/cable-form';
 import { CableHistory } from '../../features/cables/components/cable-history';
 import { CableLossDetails } from '../../features/cables/components/cable-loss-details';
+import { ReanalysisPanel } from '../../features/cables/components/reanalysis-panel';
 import { CalibrationChart } from '../../features/calibrations/components/calibration-chart';
 import { CalibrationForm, type TraceCalibrationSource } from '../../features/calibrations/components/calibration-form';
 import { getTrace } from '../../features/traces/api/get-trace';
@@ -211,6 +212,9 @@ export function CablePage() {
               />
             </Card>
           )}
+          <Card title="Traces of this cable type">
+            <ReanalysisPanel cableId={c.id} revision={c.revision} unit={unit} canStart={can('cables:write')} />
+          </Card>
           <Card title="History">
             {history.isPending ? <Loading /> : history.error ? <ErrorNotice error={history.error} /> : <CableHistory entries={history.data} unit={unit} />}
           </Card>
