@@ -73,6 +73,11 @@ describe('the best location in the browser', () => {
     expect(await page.getByRole('heading', { name: 'This TDR reading alone' }).count()).toBe(1);
     await page.getByTestId('route-strip').locator('svg').waitFor();
     expect(await page.getByTestId('ground-note').textContent()).toMatch(/No route marker of this run has coordinates/);
+    // The safety caution beside the page keeps its own height instead of stretching down the long column.
+    const caution = (await page.getByRole('note', { name: 'Safety caution' }).boundingBox())!;
+    const column = (await page.getByTestId('best-location').boundingBox())!;
+    expect(caution.height).toBeLessThan(400);
+    expect(caution.height).toBeLessThan(column.height);
     await e2e.screenshot(page, 'best-location-finding-desktop');
     await shoot(page.getByTestId('best-location'), 'best-location-headline-desktop');
     // The trace the finding came from leads with the same location.
@@ -96,6 +101,27 @@ describe('the best location in the browser', () => {
     await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
     await page.goto(`${e2e.baseUrl}/findings/${findingA}`);
     await page.getByTestId('best-distance').waitFor();
+    // No text of the route strips runs into another on a 390 px phone: marker names, lengths, "best location".
+    await page.getByTestId('route-strip').locator('svg').waitFor();
+    const clashes = await page.evaluate(() => {
+      const out: string[] = [];
+      for (const svg of document.querySelectorAll('[data-testid^="route-strip"] svg')) {
+        const texts = [...svg.querySelectorAll('text')].map((t) => ({ text: t.textContent ?? '', box: t.getBoundingClientRect() }));
+        const lines = [...svg.querySelectorAll('line')].filter((l) => l.getAttribute('stroke-width') === '1').map((l) => l.getBoundingClientRect());
+        texts.forEach((a, i) => {
+          texts.slice(i + 1).forEach((b) => {
+            if (a.box.left < b.box.right && b.box.left < a.box.right && a.box.top < b.box.bottom && b.box.top < a.box.bottom) out.push(`${a.text} / ${b.text}`);
+          });
+          // A leader line drawn through a label's letters (its ends may touch the label it leads to).
+          for (const l of lines) {
+            const inside = l.left > a.box.left + 1 && l.right < a.box.right - 1 && l.top < a.box.bottom - 3 && l.bottom > a.box.top + 3 && l.top < a.box.top;
+            if (inside) out.push(`leader through ${a.text}`);
+          }
+        });
+      }
+      return out;
+    });
+    expect(clashes).toEqual([]);
     await e2e.screenshot(page, 'best-location-finding-phone');
     await shoot(page.getByTestId('best-location'), 'best-location-headline-phone');
     await shoot(page.getByTestId('location-methods-list'), 'best-location-methods-phone');

@@ -166,7 +166,8 @@ export function FindingPage() {
           </Card>
           <DecisionHistory finding={f} mayReverse={can('findings:review')} />
         </div>
-        <SafetyCaution />
+        {/* Its own height beside the long column, not stretched to it. */}
+        <SafetyCaution className="self-start lg:sticky lg:top-4" />
       </div>
     </>
   );

@@ -3,9 +3,9 @@
  * instrument or act on a fault location. Wording follows common practice for
  * work on de-energised cables; it defers to local codes and the employer.
  */
-export function SafetyCaution({ compact = false }: { compact?: boolean }) {
+export function SafetyCaution({ compact = false, className = '' }: { compact?: boolean; className?: string }) {
   return (
-    <aside role="note" aria-label="Safety caution" className="rounded-md border-2 border-warn bg-warn-light px-4 py-3 text-sm text-ink">
+    <aside role="note" aria-label="Safety caution" className={`rounded-md border-2 border-warn bg-warn-light px-4 py-3 text-sm text-ink ${className}`}>
       <p className="font-bold">Safety first</p>
       <ul className={`mt-1 list-disc space-y-0.5 pl-5 ${compact ? 'text-xs' : ''}`}>
         <li>De-energise the cable, lock out and tag out, and verify it is dead before connecting any instrument.</li>

@@ -39,22 +39,105 @@ interface Place {
   kind: 'end' | 'marker';
 }
 
-const LABEL_PX = 7.5; // width of a 13 px character, roughly
+const LABEL_PX = 7.5; // width of a 13 px semibold character, roughly (generous for Source Sans 3)
+const SMALL_PX = 6.8; // a 12 px character
+const BOLD_PX = 7.8; // a 13 px bold character
+const GAP = 6;
 
-/** Two label rows above the line; a label that fits neither is left to its tick. */
-function labelRows(places: Array<{ x: number; label: string }>, width: number) {
-  const lastEnd = [-Infinity, -Infinity];
+/** The line the strip is drawn on, and the two label rows above it (text baselines). */
+export const LINE_Y = 74;
+export const ROW_Y = [36, 18] as const;
+/** Where a leader line ends under each row. */
+const LEADER_TOP = [40, 22] as const;
+/** The band a row-0 label's text takes up, top to bottom. */
+const ROW0_BAND = [24, 40] as const;
+
+export interface PlacedLabel {
+  x: number;
+  label: string;
+  /** 0 next to the line, 1 above it; -1: no room, not drawn. */
+  row: number;
+  anchorX: number;
+  /** The text's box, left and right, padding included. */
+  left: number;
+  right: number;
+}
+
+/** Where a row-1 leader, from the marker up to its label, crosses the band of row-0 text: an x range. */
+function leaderSpan(x: number, anchorX: number): [number, number] {
+  const at = (y: number) => x + ((anchorX - x) * (LINE_Y - 8 - y)) / (LINE_Y - 8 - LEADER_TOP[1]);
+  const a = at(ROW0_BAND[0]);
+  const b = at(ROW0_BAND[1]);
+  return [Math.min(a, b) - 2, Math.max(a, b) + 2];
+}
+
+const overlaps = (a: [number, number], b: [number, number]) => a[0] < b[1] && b[0] < a[1];
+
+/** How far along a row-1 leader (from the marker up to its label) the top of the row-0 text band lies. */
+const BAND_FRACTION = (LINE_Y - 8 - ROW0_BAND[1]) / (LINE_Y - 8 - LEADER_TOP[1]);
+
+/**
+ * Two label rows above the line. A label takes the row next to the line when
+ * it clears the labels there and every leader line passing through; else the
+ * row above, moved sideways as little as needed so that it clears that row
+ * and its leader passes no label below; a label that fits neither is left to
+ * its tick, never drawn over another.
+ */
+export function labelRows(places: Array<{ x: number; label: string }>, width: number): PlacedLabel[] {
+  const boxes: Array<Array<[number, number]>> = [[], []];
+  const leaders: Array<[number, number]> = [];
   return places.map((p) => {
     const w = p.label.length * LABEL_PX + 8;
-    const start = Math.min(Math.max(p.x - w / 2, 0), width - w);
-    for (const row of [0, 1]) {
-      if (start > lastEnd[row]) {
-        lastEnd[row] = start + w;
-        return { ...p, row, anchorX: start + w / 2 };
-      }
+    const startAt = (anchor: number) => Math.min(Math.max(anchor - w / 2, 0), width - w);
+    const start = startAt(p.x);
+    const box: [number, number] = [start, start + w];
+    if (!boxes[0].some((b) => overlaps(b, box)) && !leaders.some((l) => overlaps(l, box))) {
+      boxes[0].push(box);
+      return { ...p, row: 0, anchorX: start + w / 2, left: box[0], right: box[1] };
     }
-    return { ...p, row: -1, anchorX: p.x };
+    // Row 1: the natural place, then places that bend the leader just clear of each label below.
+    const anchors = [start + w / 2];
+    for (const [b0, b1] of boxes[0]) {
+      anchors.push(p.x + (b1 + 3 - p.x) / BAND_FRACTION, p.x - (p.x - b0 + 3) / BAND_FRACTION);
+    }
+    anchors.sort((a, b) => Math.abs(a - p.x) - Math.abs(b - p.x));
+    for (const anchor of anchors) {
+      const s = startAt(anchor);
+      const upper: [number, number] = [s, s + w];
+      const leader = leaderSpan(p.x, s + w / 2);
+      if (boxes[1].some((b) => overlaps(b, upper)) || boxes[0].some((b) => overlaps(b, leader))) continue;
+      boxes[1].push(upper);
+      leaders.push(leader);
+      return { ...p, row: 1, anchorX: s + w / 2, left: upper[0], right: upper[1] };
+    }
+    return { ...p, row: -1, anchorX: p.x, left: p.x, right: p.x };
   });
+}
+
+export interface BottomLabels {
+  /** The start and end of the strip, or null when the best-location label needs the room. */
+  from: { text: string; left: number; right: number } | null;
+  to: { text: string; left: number; right: number } | null;
+  best: { x: number; left: number; right: number };
+}
+
+/**
+ * The row under the line: the strip's start and end lengths at its corners and
+ * "best location" under the mark, moved in from the edges; an end length the
+ * best-location label would run into is left out (the whole route's ends are
+ * named above the line anyway).
+ */
+export function bottomLabels(fromText: string, toText: string, at: number, width: number, pad: number): BottomLabels {
+  const bw = 'best location'.length * BOLD_PX;
+  const x = Math.min(Math.max(at, pad + bw / 2), width - pad - bw / 2);
+  const best = { x, left: x - bw / 2, right: x + bw / 2 };
+  const fromBox = { text: fromText, left: pad, right: pad + fromText.length * SMALL_PX };
+  const toBox = { text: toText, left: width - pad - toText.length * SMALL_PX, right: width - pad };
+  return {
+    best,
+    from: fromBox.right + GAP <= best.left ? fromBox : null,
+    to: best.right + GAP <= toBox.left && fromBox.right + GAP <= toBox.left ? toBox : null,
+  };
 }
 
 /** A coil of slack drawn as three loops above the marker. */
@@ -90,7 +173,7 @@ function Strip({
   const pad = 14;
   const span = Math.max(toM - fromM, 1e-6);
   const x = (m: number) => pad + ((m - fromM) / span) * (width - 2 * pad);
-  const lineY = 74;
+  const lineY = LINE_Y;
   const shown = places.filter((p) => p.chainageM >= fromM - 1e-9 && p.chainageM <= toM + 1e-9);
   const labels = labelRows(
     shown.map((p) => ({ x: x(p.chainageM), label: p.label })),
@@ -100,6 +183,7 @@ function Strip({
   const we = x(Math.min(toM, pos.windowEndChainageM));
   const at = x(pos.chainageM);
   const height = 128;
+  const bottom = bottomLabels(formatLength(fromM, unit), formatLength(toM, unit), at, width, pad);
   return (
     <figure className="space-y-1" data-testid={testId}>
       <figcaption className="text-xs font-semibold uppercase tracking-wide text-mist">{title}</figcaption>
@@ -122,8 +206,8 @@ function Strip({
         {labels.map((l) =>
           l.row < 0 ? null : (
             <g key={`label-${l.label}`}>
-              <line x1={l.x} x2={l.anchorX} y1={lineY - 8} y2={l.row === 0 ? 40 : 22} stroke={MIST} strokeWidth={1} />
-              <text x={l.anchorX} y={l.row === 0 ? 36 : 18} textAnchor="middle" fontSize={13} fontWeight={600} fill={INK}>
+              <line x1={l.x} x2={l.anchorX} y1={lineY - 8} y2={LEADER_TOP[l.row]} stroke={MIST} strokeWidth={1} />
+              <text x={l.anchorX} y={ROW_Y[l.row]} textAnchor="middle" fontSize={13} fontWeight={600} fill={INK}>
                 {l.label}
               </text>
             </g>
@@ -133,13 +217,17 @@ function Strip({
           <line x1={at} x2={at} y1={lineY - 22} y2={lineY + 22} stroke={COPPER} strokeWidth={3} />
           <path d={`M ${at - 7} ${lineY - 34} L ${at + 7} ${lineY - 34} L ${at} ${lineY - 22} Z`} fill={COPPER} />
         </g>
-        <text x={pad} y={height - 6} fontSize={12} fill={MIST}>
-          {formatLength(fromM, unit)}
-        </text>
-        <text x={width - pad} y={height - 6} fontSize={12} fill={MIST} textAnchor="end">
-          {formatLength(toM, unit)}
-        </text>
-        <text x={Math.min(Math.max(at, pad + 70), width - pad - 70)} y={height - 6} fontSize={13} fontWeight={700} fill={COPPER} textAnchor="middle">
+        {bottom.from && (
+          <text x={pad} y={height - 6} fontSize={12} fill={MIST}>
+            {bottom.from.text}
+          </text>
+        )}
+        {bottom.to && (
+          <text x={width - pad} y={height - 6} fontSize={12} fill={MIST} textAnchor="end">
+            {bottom.to.text}
+          </text>
+        )}
+        <text x={bottom.best.x} y={height - 6} fontSize={13} fontWeight={700} fill={COPPER} textAnchor="middle">
           best location
         </text>
       </svg>
