@@ -102,6 +102,8 @@ export const traceAnalysisSchema = z.object({
   windowCoverage: z.number().min(0).max(1).optional(),
   /** Where the cable loss the events were fitted with came from: the cable library, estimated from this trace, or none. */
   lossSource: z.enum(['library', 'estimated', 'none']).optional(),
+  /** For an estimated loss, what in the trace it was read from: the rise of the incident step, the shape of the reflections' edges. */
+  lossEstimatedFrom: z.array(z.enum(['incident-step', 'edge-shape'])).optional(),
   /** That loss, as attenuation at a few frequencies (dB per 100 m). */
   lossDbPer100m: z.array(z.object({ frequencyHz: z.number().positive(), dbPer100m: z.number().nonnegative() })).optional(),
   events: z.array(reflectionEventSchema),

@@ -644,10 +644,15 @@ function incidentLoss(input: EdgeFitInput, events: Measured[]): LossModel | null
   return est.model;
 }
 
+/** What in the trace an estimated loss was read from: the rise of the incident step, the shape of the reflections' edges. */
+export type LossEvidence = 'incident-step' | 'edge-shape';
+
 export interface LineFitResult {
   events: Measured[];
   lossSource: LossSource;
   loss: LossModel;
+  /** For an estimated loss, what it was read from. */
+  estimatedFrom?: LossEvidence[];
 }
 
 /**
@@ -661,11 +666,9 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
   if (!shape || !input.vf) return { events, lossSource: library ? 'library' : 'none', loss: library ?? NO_LOSS };
   const ctx: FitContext = { input, shape, twoWayMPerSample: input.vf * SPEED_OF_LIGHT_M_PER_S * input.rec.dt, peeled: [] };
   const incident = library ? null : incidentLoss(input, events);
-  const estimated = library
-    ? null
-    : incident
-      ? (estimateSkin(ctx, events, incident.resistiveNpPerM) ?? incident)
-      : estimateSkin(ctx, events);
+  const edgeShape = library ? null : estimateSkin(ctx, events, incident?.resistiveNpPerM ?? 0);
+  const estimated = library ? null : (edgeShape ?? incident);
+  const estimatedFrom: LossEvidence[] = [...(incident ? ['incident-step' as const] : []), ...(edgeShape ? ['edge-shape' as const] : [])];
   const model = library ?? estimated ?? NO_LOSS;
   const lossSource: LossSource = library ? 'library' : estimated ? 'estimated' : 'none';
   const launchOnset = launchOnsetTimer(input.launch, input.signal);
@@ -696,7 +699,7 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     if (shape.reference === 'axis') m.t50Idx = onset;
     ctx.peeled.push({ t: f.t, q: f.q, d: f.dq, h: f.h });
   }
-  return { events, lossSource, loss: model };
+  return { events, lossSource, loss: model, estimatedFrom };
 }
 
 const scaled = (m: LossModel, k: number): LossModel => ({
@@ -728,10 +731,15 @@ export function pathLossDb(m: Measured): number | null {
 /** The frequencies the loss used is reported at. */
 const SUMMARY_FREQUENCIES_HZ = [1e6, 1e7, 1e8];
 
-/** Where the loss came from, and the loss itself at a few frequencies, for the analysis. */
-export function lossSummary(r: LineFitResult): { lossSource: LossSource; lossDbPer100m: Array<{ frequencyHz: number; dbPer100m: number }> } {
+/** Where the loss came from (and, estimated, from what), and the loss itself at a few frequencies, for the analysis. */
+export function lossSummary(r: LineFitResult): {
+  lossSource: LossSource;
+  lossEstimatedFrom?: LossEvidence[];
+  lossDbPer100m: Array<{ frequencyHz: number; dbPer100m: number }>;
+} {
   return {
     lossSource: r.lossSource,
+    ...(r.lossSource === 'estimated' ? { lossEstimatedFrom: r.estimatedFrom ?? [] } : {}),
     lossDbPer100m:
       r.lossSource === 'none' ? [] : SUMMARY_FREQUENCIES_HZ.map((f) => ({ frequencyHz: f, dbPer100m: Number(attenuationDbPer100m(r.loss, f).toPrecision(4)) })),
   };

@@ -1,4 +1,8 @@
 import { describe, expect, it } from 'vitest';
+import { PAIR_04 } from '../../../scripts/sim/cables';
+import { writeLayout } from '../../../scripts/sim/layouts';
+import { defaultAcquisition, simulateScenario } from '../../../scripts/sim/scenario';
+import { analyzeCsv } from '../../../shared/trace';
 import { estimateFromIncident, incidentStep, nelderMead } from '../../../shared/trace/loss-estimate';
 
 const C = 299_792_458;
@@ -87,5 +91,30 @@ describe('the simplex search', () => {
     const m = nelderMead(f, [-1.2, 1], 0.5, 2000);
     expect(m.x[0]).toBeCloseTo(1, 2);
     expect(m.x[1]).toBeCloseTo(1, 2);
+  });
+});
+
+describe('an analysis of a lossy pair with no loss in the library', () => {
+  // A 0.4 mm telecom pair (0.27 Ω/m loop, 120 Ω: r = 0.27/240 = 1.1e-3 Np/m, so the far end's step comes
+  // back at about exp(−2 · 400 · 1.1e-3) = 0.41 of its height) 400 m long, ending in a short (ρ = −1,
+  // common practice), simulated by scripts/sim with the line's exact RLGC propagation.
+  const scenario = { name: 'pair-04-400m-short', cable: PAIR_04, lengthM: 400, end: 'short' as const, features: [] };
+
+  it('reads the loss from the incident step and the edge, and the short as a short at its place', () => {
+    const sim = simulateScenario(scenario, defaultAcquisition(scenario, 'step', 4242, 0.002, 12));
+    const csv = writeLayout({ layout: 'time-ns-mv', timeS: sim.timeS, volts: sim.volts, incidentV: sim.incidentV, instrumentVf: PAIR_04.vf, cableName: PAIR_04.name });
+    const a = analyzeCsv(csv, {}, { vf: PAIR_04.vf, z0Ohm: PAIR_04.z0Ohm });
+    expect(a.lossSource).toBe('estimated');
+    expect(a.lossEstimatedFrom).toContain('incident-step');
+    const end = a.events.find((e) => Math.abs(e.distanceM - 400) < 8);
+    expect(end).toBeDefined();
+    // Distance within 1 % (scripts/sim/sweep.ts tolerance), ρ within ±(0.05 + 20 %) of −1.
+    expect(Math.abs(end!.distanceM - 400)).toBeLessThanOrEqual(4);
+    expect(Math.abs(end!.reflectionCoefficient + 1)).toBeLessThanOrEqual(0.25);
+    expect(end!.lossCorrected).toBe(true);
+    expect(end!.windowStartM).toBeLessThanOrEqual(400);
+    expect(end!.windowEndM).toBeGreaterThanOrEqual(400);
+    // The same trace read without the loss model would put the short at about 0.4 of its ρ.
+    expect(Math.abs(end!.reflectionCoefficient)).toBeGreaterThan(0.75);
   });
 });
