@@ -126,6 +126,9 @@ function traceLaunchEdge(y: Float64Array, ic: number, bStart: number): LaunchEdg
   let maxDev = sign * (ys(ic) - bStart);
   let imax = ic;
   let iTop = ic;
+  // Where the edge left the starting level: its climb so far is timed from here.
+  let foot = ic;
+  while (foot > 0 && sign * (ys(foot) - bStart) > 0.1 * maxDev) foot--;
   for (let i = ic + 1; i < n; i++) {
     const d = sign * (ys(i) - bStart);
     if (d > maxDev) {
@@ -136,6 +139,11 @@ function traceLaunchEdge(y: Float64Array, ic: number, bStart: number): LaunchEdg
     }
     if (d < 0.75 * maxDev) break;
     if (i - iTop > Math.max(20, 6 * (iTop - ic + 1))) break;
+    // A plateau: over twice the climb so far (from the edge's foot) the level has moved by
+    // under a tenth of the launch. A lossy line's creep there is not the launch, and a second
+    // rise after it is an event near the instrument, not more of the launch.
+    const span = Math.max(4, 2 * (iTop - foot + 1));
+    if (i - iTop >= span && sign * (ys(i) - ys(i - span)) < 0.1 * maxDev) break;
   }
   imax = Math.min(imax, iTop);
   // Start of the edge: walk back to where it left the starting level.

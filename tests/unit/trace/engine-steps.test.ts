@@ -158,6 +158,33 @@ describe('launch and mode', () => {
     expect(Math.abs(a.events[0].distanceM - 0.8)).toBeLessThanOrEqual(0.5);
   });
 
+  it('ends the launch at its plateau, so a rise soon after it is an event near the instrument', () => {
+    // Series 100 Ω at 2.5 m on 50 Ω coax: ρ = R/(R + 2·Z0) = 0.5 (lumped series element,
+    // Pozar, "Microwave Engineering", 4th ed., §2.3), returning 2·2.5/(0.66·c) = 25 ns after a
+    // launch that rises in about 4 ns: the level holds for some 20 ns, then rises again.
+    const near: Scenario = {
+      name: 's',
+      cable: COAX_50,
+      lengthM: 40,
+      end: 'matched',
+      features: [{ kind: 'series', atM: 2.5, rOhm: 100 }],
+    };
+    const acq = { ...defaultAcquisition(near, 'step', 12, 0.002, 12), sampleIntervalS: 1e-9, riseTimeS: 4e-9 };
+    acq.samples = 1000;
+    acq.preTriggerSamples = 100;
+    acq.timeOfFirstSampleS = -100e-9;
+    const sim = simulateScenario(near, acq);
+    const rec = record(sim.volts, 1e-9, acq.timeOfFirstSampleS);
+    const L = findLaunch(rec, 'auto', null);
+    expect(L.mode).toBe('step');
+    expect(L.riseSamples).toBeLessThanOrEqual(8);
+    const a = analyzeTrace(parsed(rec), { vf: COAX_50.vf, z0Ohm: 50 });
+    expect(a.events).toHaveLength(1);
+    expect(a.events[0].type).toBe('impedance-rise');
+    expect(Math.abs(a.events[0].distanceM - 2.5)).toBeLessThanOrEqual(0.5);
+    expect(Math.abs(a.events[0].reflectionCoefficient - 0.5)).toBeLessThanOrEqual(0.05 + 0.2 * 0.5);
+  });
+
   it('flags a clipped launch and never reports |ρ| above 1 from it', () => {
     const acq = defaultAcquisition(route, 'pulse', 12, 0.002, 12);
     acq.impairments.fullScaleV = 0.7;
