@@ -84,6 +84,13 @@ export interface RoutePosition {
   beyondEnd: boolean;
   /** How far past the far end, in cable length (0 when on the cable). */
   beyondByM?: number;
+  /**
+   * How far the window's near and far edges lie past the far end of the cable,
+   * in cable length (negative: short of it). Only the far edge past it: the
+   * fault may be beyond the far end; both: it is. Absent on positions stored
+   * before it was kept.
+   */
+  windowPastFarEndM?: [number, number];
   /** Total slack taken off before the point. */
   slackDeductedM: number;
 }
@@ -179,6 +186,7 @@ export function routePosition(
     .map((p) => ({ place: p, offsetM: along(p.chainageM) - base }))
     .sort((a, b) => Math.abs(a.offsetM) - Math.abs(b.offsetM));
   const beyondByM = Math.max(0, distanceM - run.installedLengthM);
+  const [nearM, farM] = [window.startM, window.endM].sort((a, b) => a - b);
   return {
     distanceFromAM: dA,
     chainageM,
@@ -194,6 +202,7 @@ export function routePosition(
     crossed,
     beyondEnd: beyondByM > 0,
     beyondByM,
+    windowPastFarEndM: [nearM - run.installedLengthM, farM - run.installedLengthM],
     slackDeductedM: place.slackDeductedM,
   };
 }
@@ -228,15 +237,36 @@ export function describeDigWindow(pos: RoutePosition, style: LengthStyle): strin
   return `on the ground from ${len(-pos.windowStartOffsetM)} before ${at} to ${len(pos.windowEndOffsetM)} past it`;
 }
 
-/** "The dig window crosses road crossing RC-1, 145.0 m past MH-2 …", or null when it stays between two markers. */
+/** The far end, seen from the end measured. */
+function farEndName(pos: RoutePosition): string {
+  const far = pos.measuredFrom === 'B' ? 'A' : 'B';
+  return pos.toward.kind === 'end' && pos.toward.label === far ? placeName(pos.toward) : `end ${far}`;
+}
+
+/** Whether the window, not the point, runs past the far end: the fault may be beyond it. */
+function windowOnlyPastEnd(pos: RoutePosition): boolean {
+  const past = pos.windowPastFarEndM;
+  return !!past && !pos.beyondEnd && past[1] > 0;
+}
+
+/**
+ * "The dig window crosses road crossing RC-1, 145.0 m past MH-2 …", and, when
+ * the window runs past the far end of the cable, that the fault may be beyond
+ * it; null when the window stays between two markers on the cable.
+ */
 export function describeCrossings(pos: RoutePosition, style: LengthStyle): string | null {
   const crossed = pos.crossed ?? [];
-  if (pos.beyondEnd || crossed.length === 0) return null;
+  if (pos.beyondEnd) return null;
   const { len } = styleOf(style);
+  const farEnd = windowOnlyPastEnd(pos)
+    ? `The window runs ${len(pos.windowPastFarEndM![1])} of cable past the far end, ${farEndName(pos)}: the fault may be beyond the far end of the cable; check the installed length and the velocity factor.`
+    : null;
+  if (crossed.length === 0) return farEnd;
   const at = shortName(pos.from);
   const each = crossed.map((c) => `${placeName(c.place)} (${len(Math.abs(c.offsetM))} ${c.offsetM >= 0 ? 'past' : 'before'} ${at})`);
   const list = each.length === 1 ? each[0] : `${each.slice(0, -1).join(', ')} and ${each[each.length - 1]}`;
-  return `The dig window crosses ${list}: the fault may be on either side of ${crossed.length === 1 ? 'it' : 'them'}.`;
+  const markers = `The dig window crosses ${list}: the fault may be on either side of ${crossed.length === 1 ? 'it' : 'them'}.`;
+  return farEnd ? `${markers} ${farEnd}` : markers;
 }
 
 /**
@@ -248,6 +278,11 @@ export function describeRoutePosition(pos: RoutePosition, style: LengthStyle): s
   const { len } = styleOf(style);
   if (pos.beyondEnd) {
     const by = pos.beyondByM ?? pos.distanceFromAM - pos.chainageM - pos.slackDeductedM;
+    const past = pos.windowPastFarEndM;
+    // Only the point is past the far end, not the whole window: it may be at the far end or beyond it.
+    if (past && past[0] <= 0) {
+      return `may be beyond the far end of the cable: the reading is ${len(by)} past it, its window from ${len(-past[0])} short of it to ${len(past[1])} past it; check the installed length and the velocity factor`;
+    }
     return `beyond the far end of the cable by ${len(by)}: check the installed length and the velocity factor`;
   }
   const dig = `dig ${describeDigWindow(pos, style)}`;

@@ -114,6 +114,30 @@ describe('route position with slack (hand-worked)', () => {
     expect(describeRoute(b, 'm')).toBe('beyond the far end of the cable by 12.0 m: check the installed length and the velocity factor');
   });
 
+  it('says the fault may be beyond the far end when only its window is past it, and is beyond only when the whole window is', () => {
+    // 503 m of a 500 m cable from A, window 496–510 m: the point is 3 m past end B, the window from 4 m short of it to 10 m past.
+    const point = routePosition(run, 'A', 503, { startM: 496, endM: 510 });
+    expect(point.windowPastFarEndM).toEqual([-4, 10]);
+    expect(describeRoute(point, 'm')).toBe(
+      'may be beyond the far end of the cable: the reading is 3.00 m past it, its window from 4.00 m short of it to 10.0 m past it; ' +
+        'check the installed length and the velocity factor',
+    );
+    // 497 m from A is on the cable: 497 − 13 m of coils = 484 m of route, 184 m past P-7 (at 300 m). Its window, 490–504 m of
+    // cable, is 477 m of route (177 m past P-7) to the end of the route (487 m, 187 m past P-7), and runs 4 m of cable past end B.
+    const window = routePosition(run, 'A', 497, { startM: 490, endM: 504 });
+    expect(window.beyondEnd).toBe(false);
+    expect(describeRoutePosition(window, 'm')).toBe('184.0 m past pedestal P-7 toward end B (Cabinet 12); dig on the ground 177.0–187.0 m past P-7');
+    expect(describeCrossings(window, 'm')).toBe(
+      'The window runs 4.00 m of cable past the far end, end B (Cabinet 12): the fault may be beyond the far end of the cable; ' +
+        'check the installed length and the velocity factor.',
+    );
+    // From B the far end is A: 502 m of a 500 m cable with a window of 495–509 m.
+    const fromB = routePosition(run, 'B', 502, { startM: 495, endM: 509 });
+    expect(describeRoutePosition(fromB, 'm')).toMatch(/^may be beyond the far end of the cable: the reading is 2\.00 m past it, its window from 5\.00 m short of it to 9\.00 m past it/);
+    // A window wholly on the cable says nothing of the far end.
+    expect(describeCrossings(routePosition(run, 'A', 250, { startM: 247, endM: 253 }), 'm')).toBeNull();
+  });
+
   it('names the marker a wide window crosses, with the marker it is measured from', () => {
     // 240 m of cable from A is 230 m of route (MH-3 and SP-1 coils, 10 m, passed): 30 m past SP-1.
     // Window 215–330 m of cable: 215 − 10 = 205 m of route; 330 m is past P-7's coil
@@ -155,6 +179,10 @@ describe('route position with slack (hand-worked)', () => {
     delete stored.crossed;
     delete stored.beyondByM;
     expect(describeRoute(stored, 'm')).toBe('40.0 m past splice SP-1 toward pedestal P-7; dig on the ground 37.0–43.0 m past SP-1');
+    // A position stored before the window's reach past the far end was kept reads as it did.
+    const beyond = routePosition(run, 'A', 503, { startM: 496, endM: 510 });
+    delete beyond.windowPastFarEndM;
+    expect(describeRoutePosition(beyond, 'm')).toBe('beyond the far end of the cable by 3.00 m: check the installed length and the velocity factor');
   });
 
   it('inverts: cable length at a chainage', () => {
