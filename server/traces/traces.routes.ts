@@ -199,9 +199,9 @@ export function traceRoutes(ctx: AppContext) {
     '/:id/reanalyse',
     'traces:upload',
     handle(async (req, res) => {
-      const id = await traces.reanalyseTrace(ctx, IdParam.parse(req.params).id, currentUser(req).id);
-      res.status(201);
-      return traces.getTrace(ctx, id);
+      const done = await traces.reanalyseTrace(ctx, IdParam.parse(req.params).id, currentUser(req));
+      res.status(done.created ? 201 : 200);
+      return traces.getTrace(ctx, done.id);
     }),
   );
   r.put(

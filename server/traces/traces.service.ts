@@ -18,6 +18,7 @@ import type {
 } from '../../shared/schemas/traces';
 import type { Page } from '../../shared/schemas/users';
 import { decimateMinMax, ENGINE_VERSION, type ParsedTrace } from '../../shared/trace';
+import { can, type Role } from '../../shared/auth/permissions';
 import type { AppContext } from '../context';
 import { CableRun, CableType, Finding, RouteMarker, Site, Trace, UploadReceipt, User } from '../db/models';
 import { markerView } from '../cable-runs/cable-runs.service';
@@ -279,13 +280,48 @@ export async function storeTraces(ctx: AppContext, fields: UploadFields, files: 
  * analysis is a new trace row over the same stored bytes, pointing back.
  * A VF override of the earlier upload is dropped: the point is the library value.
  */
-export async function reanalyseTrace(ctx: AppContext, id: number, userId: number): Promise<number> {
+/** Re-analyses under way, by earlier trace and library revision: a second request waits for the first. */
+const reanalysesInFlight = new Map<string, Promise<{ id: number; created: boolean }>>();
+
+/**
+ * Analyse a stored trace again with the library's current values. The new row
+ * stays the evidence of whoever uploaded the file (deciding its events stays
+ * theirs or a supervisor's), and only they or a supervisor may ask for it. An
+ * archived trace is restored first. Asking again while nothing changed (same
+ * library revision and engine) returns the re-analysis already made.
+ */
+export async function reanalyseTrace(
+  ctx: AppContext,
+  id: number,
+  user: { id: number; role: Role },
+): Promise<{ id: number; created: boolean }> {
   const earlier = await Trace.findByPk(id);
   if (!earlier) throw AppError.notFound(`Trace ${id}`);
+  if (earlier.uploadedById !== user.id && !can(user.role, 'findings:review')) {
+    throw new AppError(403, 'not_your_trace', `Someone else uploaded trace ${id}: they or a supervisor may have it analysed again.`);
+  }
+  if (earlier.archivedAt) {
+    throw AppError.conflict('trace_archived', `Trace ${id} is archived: an administrator restores it before it is analysed again.`);
+  }
   const run = await CableRun.findByPk(earlier.cableRunId);
   const cable = run ? await CableType.findByPk(run.cableTypeId) : null;
   if (!run || !cable) throw new AppError(422, 'no_cable_type', `The cable run of trace ${id} has no cable type in the library.`);
+  const key = `${earlier.id}:${cable.id}:${cable.revision}:${ENGINE_VERSION}`;
+  const running = reanalysesInFlight.get(key);
+  if (running) return { id: (await running).id, created: false };
+  const job = reanalyseOnce(ctx, earlier, cable).finally(() => reanalysesInFlight.delete(key));
+  reanalysesInFlight.set(key, job);
+  return job;
+}
+
+async function reanalyseOnce(ctx: AppContext, earlier: Trace, cable: CableType): Promise<{ id: number; created: boolean }> {
+  const id = earlier.id;
   const { vfOverride: _dropped, ...settings } = earlier.settings;
+  const done = await Trace.findOne({
+    where: { reanalysisOfId: id, cableTypeRevision: cable.revision, engineVersion: ENGINE_VERSION, archivedAt: null },
+    order: [['id', 'DESC']],
+  });
+  if (done && JSON.stringify(done.settings) === JSON.stringify(settings)) return { id: done.id, created: false };
   const copy = await ctx.storage.checkout(earlier.rawPath, earlier.sha256);
   const result = await analysisPool(ctx)
     .analyse({ path: copy.path, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes })
@@ -297,7 +333,7 @@ export async function reanalyseTrace(ctx: AppContext, id: number, userId: number
   const trace = await Trace.create({
     cableRunId: earlier.cableRunId,
     end: earlier.end,
-    uploadedById: userId,
+    uploadedById: earlier.uploadedById,
     originalName: earlier.originalName,
     rawPath: earlier.rawPath,
     sha256: earlier.sha256,
@@ -306,7 +342,7 @@ export async function reanalyseTrace(ctx: AppContext, id: number, userId: number
     vfOverrideReason: null,
     reanalysisOfId: earlier.id,
   });
-  return trace.id;
+  return { id: trace.id, created: true };
 }
 
 /**

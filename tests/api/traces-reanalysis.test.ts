@@ -1,6 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeRun, stepTraceCsv } from './support/field-fixtures';
-import { startApi, type TestApi } from './support/api';
+import { hashPassword } from '../../server/auth/passwords';
+import { User } from '../../server/db/models';
+import { startApi, TEST_PASSWORD, type TestApi } from './support/api';
 
 let api: TestApi;
 let runId: number;
@@ -54,6 +56,38 @@ describe('POST /api/traces/:id/reanalyse', () => {
     expect(earlier.body.reanalysedAs).toEqual([again.id]);
     const raw = await tech.get(`/api/traces/${again.id}/raw`).expect(200);
     expect(raw.headers['x-content-sha256']).toBe(first.sha256);
+  });
+
+  it('keeps the uploader as the owner, lets only them or a supervisor ask, returns the same re-analysis while nothing changed, and leaves archived traces alone', async () => {
+    const tech = await api.as('technician');
+    const up = await tech
+      .postRaw('/api/traces')
+      .field('cableRunId', String(runId))
+      .field('end', 'B')
+      .attach('file', Buffer.from(stepTraceCsv({ faultM: 80, vf: 0.7 })), 'owner-check.csv')
+      .expect(201);
+    const first = up.body.traces[0];
+
+    // Another technician may not take over someone else's evidence by asking for a re-analysis.
+    await User.create({ email: 'other.tech.reanalysis@example.com', name: 'Otto Other', role: 'technician', passwordHash: await hashPassword(TEST_PASSWORD) });
+    const other = await api.signIn('other.tech.reanalysis@example.com', TEST_PASSWORD);
+    const refused = await other.post(`/api/traces/${first.id}/reanalyse`).expect(403);
+    expect(refused.body.error.code).toBe('not_your_trace');
+
+    // A supervisor may; the new row is still the uploader's.
+    const supervisor = await api.as('supervisor');
+    const again = await supervisor.post(`/api/traces/${first.id}/reanalyse`).expect(201);
+    expect(again.body.uploadedBy.id).toBe(first.uploadedBy.id);
+    // Asked again with the same library values: the same re-analysis, no new row, from several at once too.
+    const repeats = await Promise.all([0, 1, 2].map(() => tech.post(`/api/traces/${first.id}/reanalyse`).expect(200)));
+    expect(repeats.map((r) => r.body.id)).toEqual([again.body.id, again.body.id, again.body.id]);
+    const earlier = await tech.get(`/api/traces/${first.id}`).expect(200);
+    expect(earlier.body.reanalysedAs).toEqual([again.body.id]);
+
+    // An archived trace is not analysed again (that would bring it back into the lists).
+    await tech.post(`/api/traces/${again.body.id}/archive`, { reason: 'duplicate of the first reading' }).expect(200);
+    const archived = await supervisor.post(`/api/traces/${again.body.id}/reanalyse`).expect(409);
+    expect(archived.body.error.code).toBe('trace_archived');
   });
 
   it('answers 404 for an unknown trace', async () => {
