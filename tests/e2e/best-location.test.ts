@@ -229,6 +229,9 @@ describe('the best location in the browser', () => {
     await place(4, '-30.001439', '-15');
     await page.getByRole('button', { name: 'Save markers' }).click();
     await expect.poll(async () => (await RouteMarker.findOne({ where: { cableRunId: run.id, label: 'P-7' } }))?.latitude).toBe(-30.001439);
+    // The editor stays on screen after the save and says it worked.
+    await page.getByText(/^Markers saved\. New findings use them/).waitFor();
+    expect(await page.getByText(/marker P-7 is 11\d\d\d m from SP-1/).count()).toBe(0);
     await lat.nth(4).waitFor();
     expect(await lat.nth(4).inputValue()).toBe('-30.001439');
     await e2e.screenshot(page, 'best-location-markers-desktop');

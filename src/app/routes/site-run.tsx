@@ -63,7 +63,7 @@ export function SiteRunPage() {
               length {formatLength(routeLengthM(r), unit)} = installed {formatLength(r.installedLengthM, unit)} less slack.
             </p>
             {can('sites:write') ? (
-              <MarkerEditor key={r.markers.map((m) => m.id).join()} run={r} unit={unit} />
+              <MarkerEditor key={r.id} run={r} unit={unit} />
             ) : (
               <table className="w-full text-left text-sm tabular">
                 <thead className="text-xs uppercase text-mist">

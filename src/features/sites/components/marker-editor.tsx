@@ -49,19 +49,23 @@ export function MarkerEditor({ run, unit }: { run: CableRunView; unit: LengthUni
   const save = useSaveMarkers();
   const errors = fieldErrors(save.error, unit);
   const edit = (i: number, patch: Partial<Row>) => setRows(rows.map((r, j) => (j === i ? { ...r, ...patch } : r)));
+  // The editor stays mounted across a save (so its "saved" notice shows); its rows take the markers as stored.
   const submit = () =>
-    save.mutate({
-      runId: run.id,
-      markers: rows.map((r) => ({
-        label: r.label,
-        kind: r.kind,
-        chainageM: fromUnit(Number(r.chainage), unit),
-        slackM: fromUnit(Number(r.slack || 0), unit),
-        notes: r.notes,
-        latitude: degrees(r.latitude),
-        longitude: degrees(r.longitude),
-      })),
-    });
+    save.mutate(
+      {
+        runId: run.id,
+        markers: rows.map((r) => ({
+          label: r.label,
+          kind: r.kind,
+          chainageM: fromUnit(Number(r.chainage), unit),
+          slackM: fromUnit(Number(r.slack || 0), unit),
+          notes: r.notes,
+          latitude: degrees(r.latitude),
+          longitude: degrees(r.longitude),
+        })),
+      },
+      { onSuccess: (saved) => setRows(saved.markers.map(toRow)) },
+    );
   return (
     <div className="space-y-3">
       <div className="space-y-3">
