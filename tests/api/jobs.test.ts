@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { MailJob, OutboxMessage } from '../../server/db/models';
 import { JobReleased, retryDelaySeconds } from '../../server/jobs';
 import { InProcessQueue } from '../../server/jobs/in-process-queue';
+import { PgBossQueue } from '../../server/jobs/pg-boss-queue';
 import { MailQueue } from '../../server/mail';
 import { startApi, type TestApi } from './support/api';
 import { eventually } from './mail.support';
@@ -74,6 +75,40 @@ describe('background jobs', () => {
     expect(perJob.size).toBe(20);
     expect([...perJob.values()].every((n) => n === 1)).toBe(true);
     expect((await MailJob.findAll({ where: { id: ids } })).map((j) => j.attempts)).toEqual(ids.map(() => 1));
+  });
+});
+
+describe.runIf(isPostgres)('pg-boss across two instances', () => {
+  let api: TestApi;
+  beforeAll(async () => {
+    api = await startApi();
+  });
+  afterAll(() => api?.close());
+
+  it('hands a job that outlasts a stopping instance to the other one, which finishes it', async () => {
+    const options = { connectionString: api.app.ctx.config.databaseUrl, maintenanceSeconds: 1, pollSeconds: 0.5, log: () => undefined };
+    const kind = { retryLimit: 2, retryDelaySeconds: 1, leaseSeconds: 60 };
+    const first = await PgBossQueue.start(options);
+    const second = await PgBossQueue.start(options);
+    const ranOn: string[] = [];
+    try {
+      await first.define('test-handover', kind, async (_data, job) => {
+        ranOn.push('first');
+        await new Promise<void>((resolve) => job.signal.addEventListener('abort', () => resolve()));
+        throw new JobReleased();
+      });
+      const id = await first.send('test-handover', { step: 1 });
+      await eventually(async () => (await first.state('test-handover', id)) === 'running', 'the first instance to take the job', 20_000);
+      await first.stop(1000);
+      await second.define('test-handover', kind, async () => {
+        ranOn.push('second');
+      });
+      await eventually(async () => (await second.state('test-handover', id)) === 'done', 'the second instance to finish it', 30_000);
+      expect(ranOn).toEqual(['first', 'second']);
+    } finally {
+      await first.stop(1000);
+      await second.stop(1000);
+    }
   });
 });
 
