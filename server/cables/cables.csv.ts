@@ -6,7 +6,7 @@ import { CableType } from '../db/models';
 import type { FieldChange } from '../db/models/cable-type-change';
 import { AppError, type FieldIssue } from '../errors';
 import { protectCell, unprotectCell } from './csv-cells';
-import { CABLE_FIELDS, createCable, diffCable, historyValue, LIST_FIELDS, updateCable, type CableField } from './cables.service';
+import { CABLE_FIELDS, cableNameKey, createCable, diffCable, historyValue, LIST_FIELDS, updateCable, type CableField } from './cables.service';
 
 /**
  * The library as CSV: one row per cable type, SI units named in the header.
@@ -158,7 +158,7 @@ export async function parseImport(text: string, transaction?: Transaction): Prom
   if (records.length - 1 > MAX_IMPORT_ROWS) throw fileError(`The file has ${records.length - 1} rows; import at most ${MAX_IMPORT_ROWS} at a time.`);
 
   const existing = await CableType.findAll({ transaction });
-  const byName = new Map(existing.map((c) => [c.name.toLowerCase(), c]));
+  const byName = new Map(existing.map((c) => [cableNameKey(c.name), c]));
   const seen = new Map<string, number>();
   const rows: ParsedRow[] = [];
 
@@ -174,7 +174,7 @@ export async function parseImport(text: string, transaction?: Transaction): Prom
       continue;
     }
     const candidate: Record<string, unknown> = {};
-    const stored = byName.get(name.trim().toLowerCase());
+    const stored = byName.get(cableNameKey(name));
     if (stored) for (const f of KEPT_WHEN_ABSENT) if (!headerFields.includes(f)) candidate[f] = stored[f];
     headerFields.forEach((field, i) => {
       const { value, error } = cellToValue(field!, record[i], delimiter === ';');
@@ -192,7 +192,7 @@ export async function parseImport(text: string, transaction?: Transaction): Prom
         if (!unreadable.has(column)) errors.push({ field: column, message: issue.message, line });
       }
     }
-    const key = name.trim().toLowerCase();
+    const key = cableNameKey(name);
     if (key && seen.has(key)) errors.push({ field: 'name', message: `appears again (first on line ${seen.get(key)})`, line });
     else if (key) seen.set(key, line);
 

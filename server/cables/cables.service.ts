@@ -1,4 +1,4 @@
-import { col, fn, Op, where, type Transaction, type WhereOptions } from 'sequelize';
+import { Op, type Transaction, type WhereOptions } from 'sequelize';
 import { containsText } from '../db/search';
 import {
   formatAttenuationList,
@@ -129,9 +129,21 @@ export async function getCable(id: number) {
   return cableView(await loadCable(id));
 }
 
+/**
+ * The form of a cable type's name two entries may not share: Unicode
+ * compatibility-normalised (NFKC), case-folded in every script (the database's
+ * lower() folds ASCII only, so "Ω" and "ω" would pass it; lower, upper, lower
+ * again also folds "ß" with "ss") and with runs of spaces as one.
+ */
+export function cableNameKey(name: string): string {
+  return name.normalize('NFKC').toLowerCase().toUpperCase().toLowerCase().replace(/\s+/g, ' ').trim();
+}
+
 async function assertNameFree(name: string, exceptId: number | null, transaction?: Transaction) {
-  const other = await CableType.findOne({ where: where(fn('lower', col('name')), name.toLowerCase()), transaction });
-  if (other && other.id !== exceptId) {
+  const key = cableNameKey(name);
+  const all = await CableType.findAll({ attributes: ['id', 'name'], transaction });
+  const other = all.find((c) => c.id !== exceptId && cableNameKey(c.name) === key);
+  if (other) {
     throw new AppError(409, 'name_taken', `The library already has a cable type named "${other.name}".`, {
       fields: [{ field: 'name', message: 'is already in the library' }],
     });
@@ -183,6 +195,8 @@ export async function createCable(
   by: { userId: number | null; reason?: string; kind?: 'create' | 'import' },
   transaction?: Transaction,
 ): Promise<CableTypeView> {
+  // The name check and the insert are one transaction, so two entries made at once cannot share a name.
+  if (!transaction) return CableType.sequelize!.transaction((t) => createCable(input, by, t));
   await assertNameFree(input.name, null, transaction);
   const cable = await CableType.create({ ...input, revision: 1 }, { transaction });
   await record(cable, by.kind ?? 'create', diffCable(null, input), by.reason ?? 'Added to the library', by.userId, transaction);
@@ -200,8 +214,13 @@ export async function updateCable(
   by: { userId: number | null; kind?: ChangeKind; calibrationId?: number | null },
   transaction?: Transaction,
 ): Promise<{ cable: CableTypeView; changes: FieldChange[] }> {
+  // Read, compare and write in one transaction with the row locked (FOR UPDATE on PostgreSQL; SQLite
+  // runs write transactions one at a time), so changes made at once apply one after another and each
+  // history row says what it really changed from.
+  if (!transaction) return CableType.sequelize!.transaction((t) => updateCable(id, input, by, t));
   const { reason, ...given } = input;
-  const cable = await loadCable(id, transaction);
+  const cable = await CableType.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
+  if (!cable) throw AppError.notFound(`Cable type ${id}`);
   const patch = lossPatch(cable, given);
   const changes = diffCable(cable, patch);
   if (changes.length === 0) {

@@ -76,6 +76,15 @@ describe('POST /api/cables validation', () => {
     const res = await planner.post('/api/cables', solidPe('UNIQUE name COAX')).expect(409);
     expect(res.body.error.fields).toEqual([{ field: 'name', message: 'is already in the library' }]);
   });
+
+  it('folds the case of every script, not only ASCII, and refuses two entries of one name made at once', async () => {
+    await planner.post('/api/cables', solidPe('Foam feeder, 75 Ω')).expect(201);
+    // "ω" is the lower case of "Ω"; SQLite's lower() leaves both alone.
+    expect((await planner.post('/api/cables', solidPe('foam feeder, 75 ω')).expect(409)).body.error.code).toBe('name_taken');
+    expect((await planner.post('/api/cables', solidPe('FOAM  FEEDER, 75 Ω')).expect(409)).body.error.code).toBe('name_taken');
+    const at = await Promise.all([0, 1, 2, 3].map((i) => planner.post('/api/cables', solidPe(i % 2 ? 'Twin drop, ÄÖ' : 'twin drop, äö'))));
+    expect(at.map((r) => r.status).sort()).toEqual([201, 409, 409, 409]);
+  });
 });
 
 describe('PATCH /api/cables/:id', () => {
@@ -114,6 +123,27 @@ describe('PATCH /api/cables/:id', () => {
     expect(v).toMatchObject({ revision: 2, vf: 0.672, vfTolerance: 0.02, z0Ohm: 50 });
     expect((await changesSince(c.id, 1)).map((e) => e.reason)).toEqual(['Drum measured at the yard']);
     expect(await changesSince(c.id, 2)).toEqual([]);
+  });
+
+  it('applies changes made at once one after another, each history row saying what it changed from', async () => {
+    const { body: c } = await planner.post('/api/cables', solidPe('Concurrent edit coax')).expect(201);
+    const vfs = [0.6, 0.61, 0.62, 0.63, 0.64, 0.65];
+    const answers = await Promise.all(vfs.map((vf) => planner.patch(`/api/cables/${c.id}`, { vf, reason: `yard check ${vf}` })));
+    expect(answers.map((r) => r.status)).toEqual([200, 200, 200, 200, 200, 200]);
+    // Each change bumped the revision once: six distinct revisions after the first.
+    expect(answers.map((r) => r.body.revision).sort()).toEqual([2, 3, 4, 5, 6, 7]);
+    const h = (await planner.get(`/api/cables/${c.id}/history?pageSize=20`).expect(200)).body as Array<{
+      revision: number;
+      changes: Array<{ field: string; from: number; to: number }>;
+    }>;
+    const updates = h.filter((e) => e.revision > 1).sort((a, b) => a.revision - b.revision);
+    expect(updates).toHaveLength(6);
+    // A chain: each change starts from the value the one before left.
+    expect(updates[0].changes[0].from).toBe(0.66);
+    for (let i = 1; i < updates.length; i++) expect(updates[i].changes[0].from).toBe(updates[i - 1].changes[0].to);
+    const final = (await planner.get(`/api/cables/${c.id}`).expect(200)).body;
+    expect(final.vf).toBe(updates[5].changes[0].to);
+    expect(final.revision).toBe(7);
   });
 
   it('answers 422 when nothing would change, and 404 for an unknown entry', async () => {
