@@ -192,13 +192,24 @@ function loopNotes(loop: Loop, end: CableEnd, run: CableRunInput, measuredOhm: n
   ];
 }
 
+/** Where the Murray loop's balance formula is published, for the forms that show it. */
+export const MURRAY_FORMULA_SOURCE = 'V. K. Mehta & R. Mehta, Principles of Power System, ch. "Underground cables", Murray loop test';
+
+/**
+ * The Murray balance ratio Q/(P+Q) from the two ratio arms at balance: P on
+ * the sound side, Q on the faulty side (balance P/Q = R/X, see above).
+ */
+export function murrayRatioFromArms(soundSideArmOhm: number, faultySideArmOhm: number): number {
+  return faultySideArmOhm / (soundSideArmOhm + faultySideArmOhm);
+}
+
 export function murrayLoop(id: string, run: CableRunInput, r: MurrayReading, field = id): LocationEstimate {
   let ratio: number;
   if (r.ratio !== undefined) ratio = finite(`${field}.ratio`, r.ratio, 'Murray bridge ratio');
   else if (r.faultySideArmOhm !== undefined || r.soundSideArmOhm !== undefined) {
     const q = positive(`${field}.faultySideArmOhm`, r.faultySideArmOhm, 'ratio arm on the faulty side');
     const p = positive(`${field}.soundSideArmOhm`, r.soundSideArmOhm, 'ratio arm on the sound side');
-    ratio = q / (p + q);
+    ratio = murrayRatioFromArms(p, q);
   } else throw new LocateInputError('MISSING', `${field}.ratio`, 'Murray loop: give the bridge ratio (or both ratio arms)');
   if (!(ratio > 0 && ratio < 1))
     throw new LocateInputError('OUT_OF_RANGE', `${field}.ratio`, `Murray bridge ratio must be between 0 and 1, got ${ratio}`);

@@ -1,4 +1,5 @@
 import { useState, type FormEvent } from 'react';
+import { MURRAY_FORMULA_SOURCE, murrayRatioFromArms } from '../../../../shared/locate/bridge';
 import { IEC60228_CLASS2_OHM_PER_KM, type ConductorMaterial } from '../../../../shared/locate/conductors';
 import {
   MEASUREMENT_KIND_LABELS,
@@ -25,7 +26,12 @@ export interface MeasurementFormState {
   instrument: string;
   measuredAt: string;
   note: string;
+  /** How the Murray balance is entered: as the ratio Q/(P+Q), or as the two ratio arms P and Q. */
+  murrayEntry: 'ratio' | 'arms';
   ratio: string;
+  /** Murray ratio arms at balance, Ω: P on the sound side, Q on the faulty side. */
+  armP: string;
+  armQ: string;
   armRatio: string;
   rheostatOhm: string;
   loopOhm: string;
@@ -51,7 +57,10 @@ export function emptyMeasurementForm(installedLengthM: number, unit: LengthUnit)
     instrument: '',
     measuredAt: localInput(new Date()),
     note: '',
+    murrayEntry: 'ratio',
     ratio: '',
+    armP: '',
+    armQ: '',
     armRatio: '1',
     rheostatOhm: '',
     loopOhm: '',
@@ -81,7 +90,10 @@ export function measurementToForm(m: MeasurementView, installedLengthM: number, 
     instrument: m.instrument,
     measuredAt: localInput(new Date(m.measuredAt)),
     note: m.note ?? '',
+    murrayEntry: typeof r.faultySideArmOhm === 'number' ? 'arms' : 'ratio',
     ratio: num('ratio'),
+    armP: num('soundSideArmOhm'),
+    armQ: num('faultySideArmOhm'),
     armRatio: num('armRatio') || '1',
     rheostatOhm: num('rheostatOhm'),
     loopOhm: num('loopOhm'),
@@ -103,8 +115,10 @@ export function formToReadings(f: MeasurementFormState, unit: LengthUnit): Pick<
   const sections = f.sections.map((s) => ({ lengthM: fromUnit(n(s.length) ?? NaN, unit), material: s.material, sizeMm2: n(s.size) }));
   const temperature = n(f.temperatureC) === undefined ? {} : { temperatureC: n(f.temperatureC) };
   switch (f.kind) {
-    case 'murray':
-      return { kind: 'murray', readings: { fromEnd: f.fromEnd, ratio: n(f.ratio), loopOhm: n(f.loopOhm), faulty: sections, sound: f.sound, ...temperature } };
+    case 'murray': {
+      const balance = f.murrayEntry === 'arms' ? { soundSideArmOhm: n(f.armP), faultySideArmOhm: n(f.armQ) } : { ratio: n(f.ratio) };
+      return { kind: 'murray', readings: { fromEnd: f.fromEnd, ...balance, loopOhm: n(f.loopOhm), faulty: sections, sound: f.sound, ...temperature } };
+    }
     case 'varley':
       return {
         kind: 'varley',
@@ -165,6 +179,28 @@ function SectionsEditor({ f, set, unit, errors }: { f: MeasurementFormState; set
   );
 }
 
+/** The Murray balance as its two ratio arms, with the ratio they give and where the formula is published. */
+function MurrayArms({ f, set, errors }: { f: MeasurementFormState; set: (p: Partial<MeasurementFormState>) => void; errors: Record<string, string> }) {
+  const p = n(f.armP);
+  const q = n(f.armQ);
+  const ratio = p !== undefined && q !== undefined && p > 0 && q > 0 ? murrayRatioFromArms(p, q) : null;
+  return (
+    <>
+      <div className="grid gap-3 sm:grid-cols-2">
+        <TextField label="Ratio arm P, sound side (Ω)" inputMode="decimal" value={f.armP} error={errors['readings.soundSideArmOhm']} onChange={(e) => set({ armP: e.target.value })} />
+        <TextField label="Ratio arm Q, faulty side (Ω)" inputMode="decimal" value={f.armQ} error={errors['readings.faultySideArmOhm']} onChange={(e) => set({ armQ: e.target.value })} />
+      </div>
+      <p className="text-sm" data-testid="murray-arms-ratio">
+        {ratio === null ? 'Give both arms to see the ratio.' : `Ratio Q/(P+Q) = ${ratio.toFixed(4)}: the share of the loop between the test end and the fault.`}
+      </p>
+      {errors['readings.ratio'] && <p className="text-sm font-semibold text-danger">{errors['readings.ratio']}</p>}
+      <p className="text-xs text-mist">
+        At balance P/Q = R/X, so the faulty conductor up to the fault is X = Q/(P+Q) of the loop ({MURRAY_FORMULA_SOURCE}).
+      </p>
+    </>
+  );
+}
+
 /** The fields of one kind of reading. */
 function KindFields({ f, set, unit, errors }: { f: MeasurementFormState; set: (p: Partial<MeasurementFormState>) => void; unit: LengthUnit; errors: Record<string, string> }) {
   const temperature = (
@@ -184,7 +220,15 @@ function KindFields({ f, set, unit, errors }: { f: MeasurementFormState; set: (p
     case 'murray':
       return (
         <>
-          <TextField label="Ratio at balance, Q/(P+Q)" hint="The share of the loop between the test end and the fault, 0 to 1." inputMode="decimal" value={f.ratio} error={errors['readings.ratio']} onChange={(e) => set({ ratio: e.target.value })} />
+          <SelectField label="Balance entered as" value={f.murrayEntry} onChange={(e) => set({ murrayEntry: e.target.value as MeasurementFormState['murrayEntry'] })}>
+            <option value="ratio">The ratio Q/(P+Q)</option>
+            <option value="arms">The ratio arms P and Q (Ω)</option>
+          </SelectField>
+          {f.murrayEntry === 'ratio' ? (
+            <TextField label="Ratio at balance, Q/(P+Q)" hint="The share of the loop between the test end and the fault, 0 to 1." inputMode="decimal" value={f.ratio} error={errors['readings.ratio']} onChange={(e) => set({ ratio: e.target.value })} />
+          ) : (
+            <MurrayArms f={f} set={set} errors={errors} />
+          )}
           <TextField label="Loop resistance (Ω), if measured" inputMode="decimal" value={f.loopOhm} error={errors['readings.loopOhm']} onChange={(e) => set({ loopOhm: e.target.value })} />
           {loopPart}
         </>
