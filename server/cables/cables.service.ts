@@ -141,6 +141,11 @@ export function cableNameKey(name: string): string {
 
 async function assertNameFree(name: string, exceptId: number | null, transaction?: Transaction) {
   const key = cableNameKey(name);
+  // PostgreSQL runs transactions side by side: hold off other writers of the library until this one
+  // commits, so two names that fold alike cannot both pass the check (SQLite writes one at a time anyway).
+  if (transaction && CableType.sequelize!.getDialect() === 'postgres') {
+    await CableType.sequelize!.query('LOCK TABLE cable_types IN SHARE ROW EXCLUSIVE MODE', { transaction });
+  }
   const all = await CableType.findAll({ attributes: ['id', 'name'], transaction });
   const other = all.find((c) => c.id !== exceptId && cableNameKey(c.name) === key);
   if (other) {
