@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { CALIBRATION_VF_MIN } from '../cable/calibration';
 import { deviceAnalysisField, type DeviceAnalysis } from './device-analysis';
 import { formNumber, textId, textInt } from './input';
 import type { TraceAnalysis } from './trace-analysis';
@@ -24,8 +25,10 @@ export const TraceUploadSchema = z
     pulseWidthNs: optionalNumber('pulse width', (v) => v > 0 && v < 1e6, 'must be more than 0 ns'),
     zeroOffsetNs: optionalNumber('zero offset', (v) => Math.abs(v) < 1e6, 'must be under 1 ms'),
     leadLengthM: optionalNumber('test-lead length', (v) => v >= 0 && v < 1000, 'must be between 0 and 1000 m'),
-    sampleIntervalNs: optionalNumber('sample interval', (v) => v > 0 && v < 1e9, 'must be more than 0 ns and under 1 s'),
-    vfOverride: optionalNumber('velocity factor', (v) => v > 0 && v <= 1, 'must be more than 0 and at most 1'),
+    // 1 ps is finer than any field TDR samples (common practice); smaller is a unit slip.
+    sampleIntervalNs: optionalNumber('sample interval', (v) => v >= 0.001 && v < 1e9, 'must be at least 0.001 ns (1 ps) and under 1 s'),
+    // Below VF 0.2 no practical cable is that slow: almost always a unit slip (see shared/cable/calibration.ts).
+    vfOverride: optionalNumber('velocity factor', (v) => v >= CALIBRATION_VF_MIN && v <= 1, `must be between ${CALIBRATION_VF_MIN} and 1 (no practical cable is slower, nothing is faster than light)`),
     vfOverrideReason: z
       .string()
       .trim()

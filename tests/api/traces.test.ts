@@ -141,6 +141,29 @@ describe('POST /api/traces', () => {
     expect(t.analysis.events[0].distanceM).toBeCloseTo(90.9, 0);
   });
 
+  it('refuses a velocity factor no cable has and a sample interval finer than any instrument, naming the field', async () => {
+    const c = await api.as('technician');
+    const csv = Buffer.from(stepTraceCsv({ faultM: 100, vf: 0.66 }));
+    for (const [field, value] of [
+      ['vfOverride', '1e-300'],
+      ['vfOverride', '0.19'],
+      ['sampleIntervalNs', '1e-300'],
+      ['sampleIntervalNs', '0.0005'],
+    ]) {
+      const res = await c
+        .postRaw('/api/traces')
+        .field('cableRunId', String(runId))
+        .field('end', 'A')
+        .field(field, value)
+        .field('vfOverrideReason', 'checking the bounds')
+        .attach('file', csv, 'bounds.csv')
+        .expect(400);
+      expect(res.body.error.fields.map((f: { field: string }) => f.field)).toEqual([field]);
+    }
+    // The edges of the ranges are accepted.
+    await c.postRaw('/api/traces').field('cableRunId', String(runId)).field('end', 'A').field('vfOverride', '0.2').field('vfOverrideReason', 'slowest practical cable').attach('file', Buffer.from(stepTraceCsv({ faultM: 37, vf: 0.66 })), 'slow.csv').expect(201);
+  });
+
   it('stores several files of one upload together', async () => {
     const c = await api.as('supervisor');
     const res = await c
