@@ -559,9 +559,16 @@ function fitAtDistance(ctx: FitContext, win: EventWindow, model: LossModel, zero
  */
 const ZERO_PHASE_GAIN = 0.5;
 
-function bestShapeFit(ctx: FitContext, win: EventWindow, model: LossModel, m: Measured): { f: ModelFit | null; zeroPhase: boolean } {
+function bestShapeFit(
+  ctx: FitContext,
+  win: EventWindow,
+  model: LossModel,
+  m: Measured,
+  lossSource: LossSource,
+): { f: ModelFit | null; zeroPhase: boolean } {
   const f = fitAtDistance(ctx, win, model);
-  if (model === NO_LOSS || !f) return { f, zeroPhase: false };
+  // Only a loss known beforehand tells the two shapes apart: one estimated from the edges took the causal shape.
+  if (lossSource !== 'library' || !f) return { f, zeroPhase: false };
   // A causal fit that leaves no more than the noise needs no other shape.
   const sig = ctx.input.signal;
   const perSample = sig.mode === 'step' ? sig.sigmaU : sig.scaleForPulse * sig.unitArea;
@@ -677,7 +684,7 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     if (m.blip || m.onsetIdx < input.signal.blindIdx) continue;
     const win = eventWindow(ctx, events, k);
     if (win.to - win.from < 8) continue;
-    const { f, zeroPhase } = bestShapeFit(ctx, win, model, m);
+    const { f, zeroPhase } = bestShapeFit(ctx, win, model, m, lossSource);
     if (!f || !acceptable(f, m, win)) continue;
     const probe = model === NO_LOSS ? null : fitWindow(ctx, win, scaled(model, 1 + LOSS_PROBE), twoWayOf(ctx, f.d), { withMiddle: false, zeroPhase });
     m.fit = {

@@ -27,7 +27,7 @@ const SPEED_OF_LIGHT = 299_792_458;
 
 /** Points the stretch is reduced to (block means), and the transform's length. */
 const FIT_POINTS = 160;
-const FFT_POINTS = 1024;
+const FFT_POINTS = 512;
 
 export interface IncidentInput {
   /** The working signal of a step record, in ρ. */
@@ -155,7 +155,7 @@ export function estimateFromIncident(x: IncidentInput): IncidentEstimate | null 
   // Scales of the simplex: the guess, or the loss of a common telecom pair where the guess is nil.
   const rScale = Math.max(r0, 1e-4);
   const sScale = Math.max(s0, 2e-7);
-  const best = nelderMead((p) => ssAt(p[0] * rScale, p[1] * sScale), [r0 / rScale, s0 / sScale], 0.5, 60);
+  const best = nelderMead((p) => ssAt(p[0] * rScale, p[1] * sScale), [r0 / rScale, s0 / sScale], 0.5, 60, 1e-4);
   const r = best.x[0] * rScale;
   const s = best.x[1] * sScale;
   return { model: { skinNpPerMRootHz: s, dielectricNpPerMPerHz: 0, resistiveNpPerM: r }, ssFlat, ssFit: best.fx, points: ys.length };
@@ -190,8 +190,8 @@ function linearGuess(y: readonly number[], b: ReadonlyArray<[number, number]>): 
   return [m[1][3] / m[1][1], m[2][3] / m[2][2]];
 }
 
-/** Nelder–Mead simplex minimum of f near x0 (2 parameters), steps of `step`, at most `maxEval` evaluations. */
-export function nelderMead(f: (p: number[]) => number, x0: number[], step: number, maxEval: number): { x: number[]; fx: number } {
+/** Nelder–Mead simplex minimum of f near x0, first steps of `step`, at most `maxEval` evaluations, until the simplex's values agree to `tol` relative. */
+export function nelderMead(f: (p: number[]) => number, x0: number[], step: number, maxEval: number, tol = 1e-9): { x: number[]; fx: number } {
   const dim = x0.length;
   let pts = [x0.slice()];
   for (let i = 0; i < dim; i++) {
@@ -205,7 +205,7 @@ export function nelderMead(f: (p: number[]) => number, x0: number[], step: numbe
     const order = vals.map((_, i) => i).sort((a, b) => vals[a] - vals[b]);
     pts = order.map((i) => pts[i]);
     vals = order.map((i) => vals[i]);
-    if (Math.abs(vals[dim] - vals[0]) <= 1e-9 * Math.abs(vals[0]) + 1e-300) break;
+    if (Math.abs(vals[dim] - vals[0]) <= tol * Math.abs(vals[0]) + 1e-300) break;
     const centroid = new Array<number>(dim).fill(0);
     for (let i = 0; i < dim; i++) for (let j = 0; j < dim; j++) centroid[j] += pts[i][j] / dim;
     const along = (t: number) => centroid.map((c, j) => c + t * (pts[dim][j] - c));

@@ -283,26 +283,35 @@ export function fft(re: Float64Array, im: Float64Array, inverse = false): void {
 export function exactLineKernel(model: LossModel, twoWayM: number, dtS: number, spanSamples: number, vf: number): LineKernel {
   const span = Math.max(8, Math.ceil(spanSamples));
   let n = 256;
-  while (n < 8 * span && n < 1 << 17) n <<= 1;
+  while (n < 2 * span && n < 1 << 17) n <<= 1;
   const re = new Float64Array(n);
   const im = new Float64Array(n);
   const v = vf * SPEED_OF_LIGHT;
   const d = twoWayM / 2;
   const r = model.resistiveNpPerM ?? 0;
+  // Evaluated along p = σ + jω and restored by e^(σt) afterwards (a damped transform): the slow
+  // tail that would wrap round the period comes back weighed by e^(−σ·period) = 1e-4, and the
+  // kernel's end, half a period on, is restored by e^(σ·period/2) = 100 at most.
+  const period = n * dtS;
+  const sigma = Math.log(1e4) / period;
   for (let k = 0; k <= n / 2; k++) {
-    const f = k / (n * dtS);
-    const w = 2 * Math.PI * f;
-    const sq = model.skinNpPerMRootHz * Math.sqrt(f);
-    // (2α_R + jω/v)·(jω/v): the conductors' part, causal; the dielectric spread is added after.
-    const ar = 2 * (r + sq);
-    const ai = 2 * sq + w / v;
+    const w = (2 * Math.PI * k) / period;
+    // √(p/π)·√π = √p, so s·√f·(1 + j) at p = jω is s·√(p/π); principal root.
+    const pm = Math.sqrt(sigma * sigma + w * w);
+    const sqr = model.skinNpPerMRootHz * Math.sqrt((pm + sigma) / 2 / Math.PI);
+    const sqi = model.skinNpPerMRootHz * Math.sqrt(Math.max(0, (pm - sigma) / 2) / Math.PI);
+    // (2α_R + p/v)·(p/v) with 2α_R = 2(r + s√(p/π)): the conductors' part, causal.
+    const ar = 2 * (r + sqr) + sigma / v;
+    const ai = 2 * sqi + w / v;
+    const br = sigma / v;
     const bi = w / v;
-    const pr = -ai * bi;
-    const pi = ar * bi;
-    const mag = Math.hypot(pr, pi);
+    const pr = ar * br - ai * bi;
+    const pi = ar * bi + ai * br;
+    const mag = Math.sqrt(pr * pr + pi * pi);
     const gr = Math.sqrt(Math.max(0, (mag + pr) / 2));
-    const gi = Math.sqrt(Math.max(0, (mag - pr) / 2));
-    const amp = Math.exp(-2 * d * gr);
+    const gi = (pi < 0 ? -1 : 1) * Math.sqrt(Math.max(0, (mag - pr) / 2));
+    // H = exp(−2d(γ − p/v)), the lossless delay taken out.
+    const amp = Math.exp(-2 * d * (gr - sigma / v));
     const ph = -2 * d * (gi - w / v);
     re[k] = amp * Math.cos(ph);
     im[k] = amp * Math.sin(ph);
@@ -312,11 +321,8 @@ export function exactLineKernel(model: LossModel, twoWayM: number, dtS: number, 
     }
   }
   fft(re, im, true);
-  // The response is causal: what the inverse transform puts at negative times is the slow tail
-  // wrapped round from beyond the buffer, nearly level there; take that level off every sample.
-  const wrapped = re.slice((3 * n) / 4).reduce((a, b) => a + b, 0) / (n / 4);
   const conductors = new Float64Array(span + 1);
-  for (let i = 0; i <= span; i++) conductors[i] = re[i] - wrapped;
+  for (let i = 0; i <= span; i++) conductors[i] = re[i] * Math.exp(sigma * i * dtS);
   const c = dielectricSpread(model, twoWayM);
   if (!(c > 0.02 * dtS)) return { values: conductors, offset: 0 };
   const half = Math.min(span, Math.ceil(Math.max(4, 50 * (c / dtS))));
