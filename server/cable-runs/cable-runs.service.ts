@@ -1,4 +1,4 @@
-import { type Sequelize, type Transaction } from 'sequelize';
+import { Op, type Sequelize, type Transaction } from 'sequelize';
 import { containsText } from '../db/search';
 import type { z } from 'zod';
 import type {
@@ -54,7 +54,7 @@ async function views(runs: CableRun[]): Promise<CableRunView[]> {
 export async function listRuns(opts: { siteId?: number; q?: string; page: number; pageSize: number }): Promise<Page<CableRunView>> {
   const where = {
     ...(opts.siteId ? { siteId: opts.siteId } : {}),
-    ...(opts.q ? { name: containsText(CableRun.sequelize!, opts.q) } : {}),
+    ...(opts.q ? { [Op.and]: [containsText(CableRun, 'name', opts.q)] } : {}),
   };
   const { rows, count } = await CableRun.findAndCountAll({
     where,

@@ -102,8 +102,7 @@ export async function listCables(query: CableListQuery) {
   if (query.q) {
     const words = query.q.split(/\s+/).filter(Boolean).slice(0, 6);
     for (const w of words) {
-      const has = containsText(CableType.sequelize!, w);
-      clauses.push({ [Op.or]: [{ name: has }, { dielectric: has }, { construction: has }, { vfReference: has }] });
+      clauses.push({ [Op.or]: (['name', 'dielectric', 'construction', 'vfReference'] as const).map((a) => containsText(CableType, a, w)) });
     }
   }
   if (query.construction) clauses.push({ construction: query.construction });

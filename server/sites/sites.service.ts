@@ -59,7 +59,7 @@ async function summaries(sites: Site[]): Promise<SiteSummary[]> {
 
 export async function listSites(opts: { q?: string; page: number; pageSize: number }): Promise<Page<SiteSummary>> {
   const where = opts.q
-    ? { [Op.or]: [{ name: containsText(Site.sequelize!, opts.q) }, { address: containsText(Site.sequelize!, opts.q) }] }
+    ? { [Op.or]: [containsText(Site, 'name', opts.q), containsText(Site, 'address', opts.q)] }
     : {};
   const { rows, count } = await Site.findAndCountAll({
     where,

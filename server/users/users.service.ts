@@ -12,7 +12,7 @@ import { hashPassword, temporaryPassword } from '../auth/passwords';
 
 export async function listUsers(opts: { q?: string; page: number; pageSize: number }) {
   const where = opts.q
-    ? { [Op.or]: [{ name: containsText(User.sequelize!, opts.q) }, { email: containsText(User.sequelize!, opts.q.toLowerCase()) }] }
+    ? { [Op.or]: [containsText(User, 'name', opts.q), containsText(User, 'email', opts.q.toLowerCase())] }
     : {};
   const { rows, count } = await User.findAndCountAll({
     where,

@@ -82,4 +82,19 @@ describe('site counts', () => {
     expect(list.body.items[0].cableRunCount).toBe(1);
     expect(list.body.items[0].openFindingCount).toBe(2);
   });
+
+  it('takes % and _ in a search of sites, runs, users and cables as letters, not wildcards', async () => {
+    const c = await api.as('admin');
+    for (const url of ['/api/sites', '/api/cable-runs', '/api/users', '/api/cables']) {
+      const all = await c.get(url).expect(200);
+      expect(all.body.items.length).toBeGreaterThan(0);
+      for (const q of ['%%%', '_', '%']) {
+        const res = await c.get(`${url}?q=${encodeURIComponent(q)}`).expect(200);
+        expect({ url, q, total: res.body.total }).toEqual({ url, q, total: 0 });
+      }
+    }
+    // Letters still match in any ASCII case.
+    const list = await c.get(`/api/sites?q=${encodeURIComponent(fx.site.name.toUpperCase())}`).expect(200);
+    expect(list.body.items.map((s: { id: number }) => s.id)).toContain(fx.site.id);
+  });
 });
