@@ -45,6 +45,34 @@ export function loneSurrogateError(where: string, field: string): AppError {
 }
 
 /**
+ * Explicit bidirectional embeddings, overrides and isolates (U+202A–U+202E,
+ * U+2066–U+2069): they make text display in an order other than the one
+ * stored, so a name, title or file name could read as something else in a
+ * list, an e-mail or a crew sheet (CVE-2021-42574 describes the attack on
+ * source code). Ordinary right-to-left text needs none of them.
+ */
+const BIDI_CONTROL = /[\u202A-\u202E\u2066-\u2069]/;
+
+export function findBidiControl(value: unknown, path = '', depth = 0): string | null {
+  if (typeof value === 'string') return BIDI_CONTROL.test(value) ? path || '(value)' : null;
+  if (depth > 20 || value === null || typeof value !== 'object') return null;
+  for (const [key, v] of Object.entries(value)) {
+    const here = path ? `${path}.${key}` : key;
+    if (BIDI_CONTROL.test(key)) return here.replace(new RegExp(BIDI_CONTROL.source, 'g'), '\uFFFD');
+    const found = findBidiControl(v, here, depth + 1);
+    if (found) return found;
+  }
+  return null;
+}
+
+export function bidiControlError(where: string, field: string): AppError {
+  const name = field.slice(0, 60);
+  return AppError.badRequest('hidden_direction_mark', `The ${where} has a hidden text-direction control in "${name}", which would make the text show in another order than it is stored. Retype the text and send again.`, {
+    fields: [{ field: name, message: 'must not contain text-direction controls (U+202A–U+202E, U+2066–U+2069)' }],
+  });
+}
+
+/**
  * No text Rholog takes in may hold a NUL character (databases refuse it or
  * cut the text there) or a lone UTF-16 surrogate (no character; it cannot be
  * stored as UTF-8 and comes back as something else). Query parameters and
@@ -60,5 +88,9 @@ export const refuseNulBytes: RequestHandler = (req, _res, next) => {
   if (brokenQuery) return next(loneSurrogateError('query', brokenQuery));
   const brokenBody = findLoneSurrogate(req.body);
   if (brokenBody) return next(loneSurrogateError('request body', brokenBody));
+  const bidiQuery = findBidiControl(req.query);
+  if (bidiQuery) return next(bidiControlError('query', bidiQuery));
+  const bidiBody = findBidiControl(req.body);
+  if (bidiBody) return next(bidiControlError('request body', bidiBody));
   next();
 };

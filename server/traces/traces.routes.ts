@@ -26,8 +26,17 @@ import * as traces from './traces.service';
 export const MAX_FILES_PER_UPLOAD = 10;
 const CSV_TYPES = new Set(['text/csv', 'text/plain', 'application/csv', 'application/vnd.ms-excel', 'application/octet-stream', 'text/comma-separated-values', '']);
 
-/** The uploader's file name: multipart sends it as UTF-8 bytes that the form reader hands over as Latin-1. */
-const fileName = (f: Express.Multer.File) => Buffer.from(f.originalname, 'latin1').toString('utf8');
+/**
+ * The uploader's file name: multipart sends it as UTF-8 bytes that the form
+ * reader hands over as Latin-1. Text-direction controls are dropped (a phone
+ * user cannot easily rename a file, and they would make "cdb.csv" show as
+ * another name in the lists), and so are other control characters.
+ */
+const fileName = (f: Express.Multer.File) =>
+  Buffer.from(f.originalname, 'latin1')
+    .toString('utf8')
+    // eslint-disable-next-line no-control-regex
+    .replace(/[\u0000-\u001F\u007F\u202A-\u202E\u2066-\u2069]/g, '');
 
 /**
  * The multipart reader: files are streamed straight to the upload inbox on

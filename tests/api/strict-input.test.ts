@@ -187,3 +187,32 @@ describe('lone UTF-16 surrogates', () => {
     expect(ok.body.name).toBe('Plug \u{1F50C} house');
   });
 });
+
+describe('text-direction controls', () => {
+  // U+202A–U+202E and U+2066–U+2069 reorder how text is shown (Unicode Standard Annex #9); CVE-2021-42574 shows the attack.
+  it('refuses them in names, titles and nested fields, naming the field, and drops them from an uploaded file name', async () => {
+    const before = await Site.count();
+    const name = await sup.post('/api/sites', site({ name: 'Pump \u202ehouse' })).expect(400);
+    expect(name.body.error.code).toBe('hidden_direction_mark');
+    expect(name.body.error.fields[0].field).toBe('name');
+    const user = await admin.post('/api/users', { email: 'ada.rlo@example.com', name: 'Ad\u202emin', role: 'technician' }).expect(400);
+    expect(user.body.error.fields[0].field).toBe('name');
+    const marker = await sup.put(`/api/cable-runs/${fx.run.id}/markers`, { markers: [{ label: 'MH-\u2066 1', kind: 'manhole', chainageM: 10, slackM: 0, notes: null }] }).expect(400);
+    expect(marker.body.error.fields[0].field).toBe('markers.0.label');
+    const search = await sup.get(`/api/sites?q=${encodeURIComponent('a\u2069')}`).expect(400);
+    expect(search.body.error.code).toBe('hidden_direction_mark');
+    expect(await Site.count()).toBe(before);
+    // Right-to-left letters themselves are text, and are kept.
+    const rtl = await sup.post('/api/sites', site({ name: 'محطة الضخ' })).expect(201);
+    expect(rtl.body.name).toBe('محطة الضخ');
+
+    const tech = await api.as('technician');
+    const up = await tech
+      .postRaw('/api/traces')
+      .field('cableRunId', String(fx.run.id))
+      .field('end', 'A')
+      .attach('file', Buffer.from(stepTraceCsv({ faultM: 42, vf: 0.66 })), 'pole\u202evsc.csv')
+      .expect(201);
+    expect(up.body.traces[0].originalName).toBe('polevsc.csv');
+  });
+});
