@@ -142,6 +142,14 @@ export async function updateTicket(ctx: AppContext, actor: SessionUser, id: numb
     for (const field of ['title', 'priority', 'dueDate', 'notes'] as const) {
       if (input[field] !== undefined && input[field] !== t[field]) changes[field] = [t[field], input[field]];
     }
+    // A new due date cannot be in the past (a day's grace for time zones, as when a ticket is raised);
+    // an overdue ticket keeps its date while other fields change.
+    const due = changes.dueDate?.[1];
+    if (typeof due === 'string' && Date.parse(`${due}T00:00:00Z`) < Date.now() - 2 * 86_400_000) {
+      throw AppError.badRequest('invalid_input', `The due date ${due} is in the past: choose today or a later day.`, {
+        fields: [{ field: 'dueDate', message: 'is in the past' }],
+      });
+    }
     const oldAssigneeId = t.assigneeId;
     const oldStatus = t.status;
     const assigneeChanged = input.assigneeId !== undefined && input.assigneeId !== oldAssigneeId;

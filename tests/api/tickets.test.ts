@@ -110,6 +110,15 @@ describe('repair tickets', () => {
     expect((await Ticket.findByPk(ticketId))!.status).toBe('under-way');
   });
 
+  it('refuses moving the due date into the past, and changes nothing', async () => {
+    const before = (await Ticket.findByPk(ticketId))!.get({ plain: true });
+    for (const dueDate of ['0000-01-01', '2020-01-01']) {
+      const res = await sup.patch(`/api/tickets/${ticketId}`, { dueDate, priority: 'low' }).expect(400);
+      expect(res.body.error.fields).toEqual([{ field: 'dueDate', message: 'is in the past' }]);
+    }
+    expect((await Ticket.findByPk(ticketId))!.get({ plain: true })).toEqual(before);
+  });
+
   it('e-mails the assignee when a supervisor changes their ticket, not when they change it themselves', async () => {
     await sup.patch(`/api/tickets/${ticketId}`, { priority: 'urgent', comment: 'Hospital feeder' }).expect(200);
     const mail = await outboxFor(api, 'technician.test@example.com', new RegExp(`^Ticket ${ticketId} changed`));
