@@ -10,7 +10,7 @@ import {
 import { updateCable } from '../cables/cables.service';
 import { can } from '../../shared/auth/permissions';
 import type { SessionUser } from '../auth/guards';
-import { CableCalibration, CableType, User } from '../db/models';
+import { CableCalibration, CableType, Trace, User } from '../db/models';
 import { AppError } from '../errors';
 import type { SecurityLog } from '../log';
 
@@ -85,6 +85,11 @@ export async function submitCalibration(input: SubmitCalibrationInput, transacti
   if (!cable) {
     throw new AppError(422, 'unknown_cable_type', `There is no cable type ${data.cableTypeId} in the library.`, {
       fields: [{ field: 'cableTypeId', message: 'is not a cable type in the library' }],
+    });
+  }
+  if (data.traceId !== null && data.traceId !== undefined && !(await Trace.findByPk(data.traceId, { attributes: ['id'], transaction }))) {
+    throw new AppError(422, 'unknown_trace', `There is no trace ${data.traceId} to base this calibration on.`, {
+      fields: [{ field: 'traceId', message: 'is not a stored trace' }],
     });
   }
   if (!(await User.findByPk(submittedById, { attributes: ['id'], transaction }))) {

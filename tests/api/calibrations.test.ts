@@ -53,6 +53,9 @@ describe('POST /api/calibrations', () => {
     expect(fast.body.error.fields[0].field).toBe('roundTripNs');
     const ghost = await tech.post('/api/calibrations', { cableTypeId: 987654, knownLengthM: 100, roundTripNs: 1000 }).expect(422);
     expect(ghost.body.error.fields).toEqual([{ field: 'cableTypeId', message: 'is not a cable type in the library' }]);
+    // A calibration may name the trace it was read from; one that does not exist is refused, not stored as a dangling link.
+    const noTrace = await tech.post('/api/calibrations', { cableTypeId: cableId, knownLengthM: 250, roundTripNs: roundTripNs(250, 0.645), traceId: 99999 }).expect(422);
+    expect(noTrace.body.error).toMatchObject({ code: 'unknown_trace', fields: [{ field: 'traceId', message: 'is not a stored trace' }] });
   });
 
   it('is open to every role that may submit, and the queue only to reviewers', async () => {
