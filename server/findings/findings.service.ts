@@ -87,6 +87,11 @@ export async function recordFinding(ctx: AppContext, input: FindingInput, userId
         fields: [{ field: 'traceId', message: `there is no trace ${input.traceId}` }],
       });
     }
+    if (trace.archivedAt) {
+      throw new AppError(409, 'trace_archived', `Trace ${trace.id} is archived as junk: an administrator restores it before a finding is made from it.`, {
+        fields: [{ field: 'traceId', message: 'the trace is archived' }],
+      });
+    }
     if (trace.status !== 'ok') {
       throw new AppError(422, 'trace_failed', `Trace ${trace.id} could not be read, so no finding can be made from it.`, {
         fields: [{ field: 'traceId', message: 'the trace was not readable' }],

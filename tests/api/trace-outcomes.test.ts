@@ -173,6 +173,9 @@ describe('archiving a trace', () => {
     await supervisor.post(`/api/traces/${t.id}/archive`, { reason: 'Uploaded to the wrong run' }).expect(200);
     const planner = await api.as('planner');
     expect((await planner.post(`/api/traces/${t.id}/archive`, { reason: 'x'.repeat(5) })).status).toBe(403);
+    // Nor is a finding made from a trace once it is archived: it would bring junk back into the record.
+    const onArchived = await supervisor.post('/api/findings', { traceId: t.id, eventIndex: farEnd(t).index, status: 'confirmed', kind: 'open-conductor', note: null }).expect(409);
+    expect(onArchived.body.error).toMatchObject({ code: 'trace_archived', fields: [{ field: 'traceId', message: 'the trace is archived' }] });
 
     const decided = await upload(tech, stepTraceCsv({ faultM: 75, vf: 0.66 }), 'has-finding.csv');
     await tech.post('/api/findings', { traceId: decided.id, eventIndex: farEnd(decided).index, status: 'dismissed', kind: 'not-a-fault', note: null }).expect(201);
