@@ -11,7 +11,7 @@ export const emailSchema = z
 
 export const LoginSchema = z.object({
   email: emailSchema,
-  password: z.string({ error: 'is required' }).min(1, 'is required').max(200),
+  password: z.string({ error: 'is required' }).min(1, 'is required').max(200, 'must be at most 200 characters (no Rholog password is longer)'),
 });
 
 export const passwordSchema = z

@@ -101,6 +101,9 @@ describe('POST /api/auth/login', () => {
     const c = await api.anonymous();
     const res = await c.post('/api/auth/login', { email: 'supervisor.test@example.com', password: 'nope' }).expect(401);
     expect(res.body.error).toEqual({ code: 'wrong_credentials', message: 'The e-mail address or password is not right.' });
+    // A password longer than any Rholog accepts is refused for its length, not called missing.
+    const long = await c.post('/api/auth/login', { email: 'supervisor.test@example.com', password: 'x'.repeat(200_000) }).expect(400);
+    expect(long.body.error.fields).toEqual([{ field: 'password', message: 'must be at most 200 characters (no Rholog password is longer)' }]);
   });
 
   it('gives the same answer for an unknown e-mail (no account probing)', async () => {
