@@ -179,7 +179,7 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
       windowEndM: distanceM + uncertaintyM,
       reflectionCoefficient: rho,
       reflectionCoefficientRaw: rhoRaw,
-      lossCorrected: m.lossCorrected ?? false,
+      lossCorrected: (m.lossCorrected ?? false) && !m.areaUncorrected,
       pathLossDb: pathLossDb(m),
       uncertaintyBudget: budgetView(budget),
       insideBlindZone: L.found && m.onsetIdx < sig.blindIdx,
@@ -200,7 +200,9 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
     if (sig.mode === 'pulse' && L.found && !m.blip && Math.abs(m.echoPeak) < 0.6 * Math.abs(rhoRaw)) {
       warnings.push({
         code: 'PULSE_LOSS',
-        message: `the echo at ${distanceM.toFixed(1)} m is spread by cable loss (peak ${m.echoPeak.toFixed(2)} of the launch); its ρ is taken from the echo's area`,
+        message: `the echo at ${distanceM.toFixed(1)} m is spread by cable loss (peak ${m.echoPeak.toFixed(2)} of the launch); its ρ is taken from the echo's area${
+          m.areaUncorrected ? ", not corrected for the cable's DC resistance (give the cable's attenuation in the library to correct it), so its size is a lower bound" : ''
+        }`,
       });
     }
   }

@@ -699,7 +699,11 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     };
     m.heightRaw = m.height;
     m.height = f.h;
+    // A pulse's ρ comes from the echo's area, which only the line's DC resistance lowers (skin loss spreads
+    // the echo but keeps its area). A loss estimated from the edges' shape alone has no resistive term,
+    // so such a reading is not corrected for the loss that lowers it, and says so.
     m.lossCorrected = lossSource !== 'none';
+    m.areaUncorrected = input.signal.mode === 'pulse' && lossSource === 'estimated' && !((model.resistiveNpPerM ?? 0) > 0);
     // Timed from the launch's onset (or the trace's zero), so the location step reads the fitted delay.
     const onset = shape.reference === 'launch' ? launchOnset(m.fLo) + f.d : input.launch.zeroIdx + f.d;
     m.onsetIdx = onset;

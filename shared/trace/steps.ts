@@ -94,6 +94,12 @@ export interface Measured {
   heightRaw?: number;
   /** True when the edge fit modelled the cable's loss and `height` is corrected for it. */
   lossCorrected?: boolean;
+  /**
+   * A pulse echo's ρ (read from its area) that the loss model could not correct: the model was
+   * estimated from the edges' shape, which carries no DC-resistance term, and only that term lowers
+   * the area. The ρ is then a lower bound on its size, and the event is reported as not corrected.
+   */
+  areaUncorrected?: boolean;
   peakDev: number;
   blip: boolean;
   snr: number;
