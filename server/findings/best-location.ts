@@ -12,6 +12,7 @@ import {
   type LocationEstimate,
 } from '../../shared/locate';
 import type { BestLocationView, LocationMethodView, MeasurementReadings } from '../../shared/schemas/measurements';
+import { COVERAGE_FACTOR } from '../../shared/trace/uncertainty';
 import { CableRun, Finding, Measurement, RouteMarker, Trace } from '../db/models';
 import { INSTALLED_LENGTH_RELATIVE_U, measurementEstimate, runInput } from '../measurements/measurement-estimate';
 
@@ -58,12 +59,22 @@ async function sameFaultReadings(f: Finding, run: CableRun, transaction?: Transa
   return [...byFile.values()];
 }
 
+/**
+ * A reading's uncertainties as the fusion takes them (standard uncertainties). The engine states
+ * a finding's uncertaintyM as the expanded half-width of its 95 % window (k = COVERAGE_FACTOR), and
+ * the library's VF tolerance as the half-width of a rectangular range (u = T/√3, JCGM 100:2008
+ * §4.3.7), as in shared/trace/uncertainty.ts; taking either as a standard uncertainty would widen
+ * the fused window about twofold over the reading's own.
+ */
+const standardOfReading = (r: TdrReading) => r.finding.uncertaintyM / COVERAGE_FACTOR;
+const vfRelativeStandard = (r: TdrReading) => r.trace.vfTolerance / Math.sqrt(3);
+
 function singleEnded(r: TdrReading, run: CableRun, runIn: CableRunInput): LocationEstimate {
   return singleEndedTdr(`finding-${r.finding.id}`, runIn, {
     fromEnd: r.trace.end,
     distanceM: r.finding.distanceM,
-    standardUncertaintyM: r.finding.uncertaintyM,
-    vfRelativeU: r.trace.vfTolerance,
+    standardUncertaintyM: standardOfReading(r),
+    vfRelativeU: vfRelativeStandard(r),
     // Readings with the same library VF on the same cable share its error.
     vfSource: `vf:cable-type-${run.cableTypeId}:${r.trace.vf}`,
     timingSource: `round-trip:trace-${r.trace.id}`,
@@ -169,8 +180,8 @@ export async function bestLocationFor(findingId: number, transaction?: Transacti
       twoEndedTdr(`two-ended-${a.finding.id}-${b.finding.id}`, runIn, {
         roundTripANs: a.finding.roundTripNs,
         roundTripBNs: b.finding.roundTripNs,
-        roundTripAUNs: timingUncertaintyNs(a.finding.distanceM, a.finding.uncertaintyM, a.trace.vf, a.trace.vfTolerance),
-        roundTripBUNs: timingUncertaintyNs(b.finding.distanceM, b.finding.uncertaintyM, b.trace.vf, b.trace.vfTolerance),
+        roundTripAUNs: timingUncertaintyNs(a.finding.distanceM, standardOfReading(a), a.trace.vf, vfRelativeStandard(a)),
+        roundTripBUNs: timingUncertaintyNs(b.finding.distanceM, standardOfReading(b), b.trace.vf, vfRelativeStandard(b)),
         label: `TDR from both ends (findings ${a.finding.id} and ${b.finding.id})`,
       }),
     );
