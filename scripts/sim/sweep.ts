@@ -189,7 +189,8 @@ export function scoreCase(c: SweepCase, events: ScoredEvent[]): CaseResult {
   let windowHits = 0;
   let windowChecks = 0;
   const used = new Set<number>();
-  for (const e of c.expected) {
+  const matchedExpected = new Set<number>();
+  for (const [k, e] of c.expected.entries()) {
     const tol = distanceTolerance(e.distanceM);
     let best = -1;
     let bestErr = Infinity;
@@ -208,6 +209,7 @@ export function scoreCase(c: SweepCase, events: ScoredEvent[]): CaseResult {
       continue;
     }
     used.add(best);
+    matchedExpected.add(k);
     const g = events[best];
     worstErrorM = Math.max(worstErrorM, bestErr);
     worstErrorOfTolerance = Math.max(worstErrorOfTolerance, bestErr / tol);
@@ -220,8 +222,21 @@ export function scoreCase(c: SweepCase, events: ScoredEvent[]): CaseResult {
     if (rhoProblem) problems.push(rhoProblem);
   }
   const echoes = echoPositions(c.expected);
+  // An optional feature (one too weak to require) may be missed; so it may also be reported less
+  // precisely than a required one must be, as long as the reported window holds it and ρ has its
+  // sign: that tells the crew more than missing it, and is not a phantom.
+  const optionalLeft = c.expected.filter((e, k) => e.optional && !matchedExpected.has(k));
   events.forEach((g, i) => {
     if (used.has(i)) return;
+    const loose = optionalLeft.findIndex(
+      (e) => g.likelyMultipleOf === null && g.windowStartM <= e.distanceM && e.distanceM <= g.windowEndM && Math.sign(g.reflectionCoefficient) === Math.sign(e.rho),
+    );
+    if (loose >= 0) {
+      optionalLeft.splice(loose, 1);
+      windowChecks++;
+      windowHits++;
+      return;
+    }
     if (g.likelyMultipleOf === null) problems.push(`false event ${g.type} at ${g.distanceM.toFixed(2)} m`);
     else if (!echoes.some((d) => Math.abs(g.distanceM - d) <= 2 * distanceTolerance(d)))
       problems.push(`${g.type} at ${g.distanceM.toFixed(2)} m flagged as an echo where none can fall`);
