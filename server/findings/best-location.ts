@@ -21,6 +21,21 @@ function sameFaultToleranceM(installedLengthM: number) {
   return Math.max(5, 0.05 * installedLengthM);
 }
 
+/** Whether two confirmed findings on one run are readings of the same fault (the pairing the best location uses). */
+export function sameFault(a: Pick<Finding, 'distanceFromAM' | 'uncertaintyM'>, b: Pick<Finding, 'distanceFromAM' | 'uncertaintyM'>, installedLengthM: number) {
+  return Math.abs(a.distanceFromAM - b.distanceFromAM) <= sameFaultToleranceM(installedLengthM) + a.uncertaintyM + b.uncertaintyM;
+}
+
+/** The ids of the confirmed findings on the finding's run that read the same fault, itself included. */
+export async function sameFaultFindingIds(findingId: number, transaction?: Transaction): Promise<number[]> {
+  const f = await Finding.findByPk(findingId, { transaction });
+  if (!f) return [];
+  const run = await CableRun.findByPk(f.cableRunId, { attributes: ['id', 'installedLengthM'], transaction });
+  if (!run || f.status !== 'confirmed') return [f.id];
+  const others = await Finding.findAll({ where: { cableRunId: run.id, status: 'confirmed' }, attributes: ['id', 'distanceFromAM', 'uncertaintyM'], transaction });
+  return others.filter((o) => o.id === f.id || sameFault(o, f, run.installedLengthM)).map((o) => o.id);
+}
+
 interface TdrReading {
   finding: Finding;
   trace: Trace;
@@ -40,12 +55,7 @@ interface Source {
  */
 async function sameFaultReadings(f: Finding, run: CableRun, transaction?: Transaction): Promise<TdrReading[]> {
   const candidates = await Finding.findAll({ where: { cableRunId: run.id, status: 'confirmed' }, order: [['id', 'ASC']], transaction });
-  const near = candidates.filter(
-    (o) =>
-      o.id === f.id ||
-      Math.abs(o.distanceFromAM - f.distanceFromAM) <=
-        sameFaultToleranceM(run.installedLengthM) + o.uncertaintyM + f.uncertaintyM,
-  );
+  const near = candidates.filter((o) => o.id === f.id || sameFault(o, f, run.installedLengthM));
   const traces = await Trace.findAll({ where: { id: near.map((o) => o.traceId) }, transaction });
   const byFile = new Map<string, TdrReading>();
   for (const finding of near) {

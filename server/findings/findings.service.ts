@@ -7,6 +7,7 @@ import type { FindingInputSchema, FindingListQuerySchema, FindingView, TwoEndedV
 import type { Page } from '../../shared/schemas/users';
 import type { AppContext } from '../context';
 import { CableRun, Finding, FindingDecision, RouteMarker, Site, Ticket, TicketFinding, Trace, User } from '../db/models';
+import { sameFaultFindingIds } from './best-location';
 import { AppError } from '../errors';
 import { emitFindingConfirmed } from './events';
 import { idsContaining } from '../db/text-search';
@@ -150,9 +151,14 @@ export async function recordFinding(ctx: AppContext, input: FindingInput, userId
   return getFinding(id);
 }
 
-/** The repair tickets acting on a finding: any not withdrawn, oldest first. */
+/**
+ * The repair tickets acting on a finding: any not withdrawn, oldest first —
+ * also those raised for another reading of the same fault (from the other end,
+ * or a later upload), so a fault already on a ticket is not ticketed twice.
+ */
 export async function ticketsFor(findingId: number): Promise<NonNullable<FindingView['tickets']>> {
-  const links = await TicketFinding.findAll({ where: { findingId }, attributes: ['ticketId'] });
+  const ids = await sameFaultFindingIds(findingId);
+  const links = await TicketFinding.findAll({ where: { findingId: ids.length ? ids : [findingId] }, attributes: ['ticketId'] });
   if (links.length === 0) return [];
   const tickets = await Ticket.findAll({
     where: { id: links.map((l) => l.ticketId), status: { [Op.ne]: 'withdrawn' } },

@@ -21,7 +21,7 @@ import type { AppContext } from '../context';
 import { CableRun, Finding, MailJob, RouteMarker, Site, Ticket, TicketCloseout, TicketEvent, TicketFinding, Trace, User } from '../db/models';
 import { AppError } from '../errors';
 import { formatDate } from '../../shared/units/format-date';
-import { bestLocationFor } from '../findings/best-location';
+import { bestLocationFor, sameFault } from '../findings/best-location';
 import { scoreMethodsAtCloseout, scoresOfCloseout } from '../findings/method-scores';
 import { mailTicket } from './tickets.mail';
 import { closeoutView, eventView, findingView, mailDetailsFor, mailInTrouble, permissionsFor, summaryView } from './tickets.views';
@@ -452,8 +452,12 @@ export async function unticketedFindings(limit = 50) {
     order: [['confirmedAt', 'DESC']],
   });
   const taken = new Set((await findingsOnActiveTickets(findings.map((f) => f.id))).map((l) => l.findingId));
+  // A reading of a fault already on a ticket (another end, a later upload) needs no ticket of its own.
+  const lengths = new Map((await CableRun.findAll({ where: { id: [...new Set(findings.map((f) => f.cableRunId))] }, attributes: ['id', 'installedLengthM'] })).map((r) => [r.id, r.installedLengthM]));
+  const covered = (f: Finding) =>
+    taken.has(f.id) || findings.some((o) => taken.has(o.id) && o.cableRunId === f.cableRunId && sameFault(o, f, lengths.get(f.cableRunId) ?? 0));
   return findings
-    .filter((f) => !taken.has(f.id))
+    .filter((f) => !covered(f))
     .slice(0, limit)
     .map((f) => ({ ...findingView(f), site: { id: f.siteId, name: f.site?.name ?? '' }, cableRun: { id: f.cableRunId, name: f.cableRun?.name ?? '' } }));
 }

@@ -30,3 +30,23 @@ describe('a best location from one TDR reading', () => {
     expect(fusedHalf / readingHalf).toBeCloseTo(0.98, 2);
   });
 });
+
+describe('a second reading of a fault already on a ticket', () => {
+  it('shows that ticket on its finding and is not listed as needing one', async () => {
+    const fx = await supervisedRun(api, 'Same fault run');
+    const sup = await api.as('supervisor');
+    // The open at 150 m of cable from end A, read once from each end (the run is 200 m: 50 m from B).
+    const fromA = await confirmedFinding(api, fx.run.id, 150, 'A');
+    const ticket = (await sup.post('/api/tickets', { findingIds: [fromA.id], title: 'Open on the same-fault run' }).expect(201)).body as { id: number };
+    const fromB = await confirmedFinding(api, fx.run.id, 50, 'B');
+    const view = (await sup.get(`/api/findings/${fromB.id}`).expect(200)).body as { tickets: Array<{ id: number }> };
+    expect(view.tickets.map((t) => t.id)).toEqual([ticket.id]);
+    const dash = (await sup.get('/api/dashboard').expect(200)).body as { unticketed: Array<{ id: number }> };
+    expect(dash.unticketed.map((f) => f.id)).not.toContain(fromB.id);
+    // A fault elsewhere on the run still needs its own ticket.
+    const elsewhere = await confirmedFinding(api, fx.run.id, 40, 'A');
+    expect(((await sup.get(`/api/findings/${elsewhere.id}`).expect(200)).body as { tickets: unknown[] }).tickets).toEqual([]);
+    expect(((await sup.get('/api/dashboard').expect(200)).body as { unticketed: Array<{ id: number }> }).unticketed.map((f) => f.id)).toContain(elsewhere.id);
+  });
+});
+
