@@ -16,8 +16,8 @@ function arg(name: string): string | undefined {
 }
 
 const setName = arg('--set');
-if (setName !== 'tuning' && setName !== 'heldout' && setName !== 'heldout2') {
-  process.stderr.write('usage: run.ts --set tuning|heldout|heldout2 [--json] [--quiet] [--only TEXT]\n');
+if (setName !== 'tuning' && setName !== 'heldout' && setName !== 'heldout2' && setName !== 'heldout3') {
+  process.stderr.write('usage: run.ts --set tuning|heldout|heldout2|heldout3 [--json] [--quiet] [--only TEXT]\n');
   process.exit(2);
 }
 const json = process.argv.includes('--json');

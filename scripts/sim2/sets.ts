@@ -11,7 +11,7 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { drawCase, type Sim2Case } from './cases';
 
-export type SetName = 'tuning' | 'heldout' | 'heldout2';
+export type SetName = 'tuning' | 'heldout' | 'heldout2' | 'heldout3';
 
 const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   tuning: { seed: 0x51a7e, count: 80 },
@@ -19,6 +19,8 @@ const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   heldout: { seed: 0x2b7e15, count: 120 },
   // A second held-out set, drawn after the first had been measured once: the same rules apply.
   heldout2: { seed: 0x6a09e6, count: 120 },
+  // A third, drawn after the second had been measured once: the same rules apply.
+  heldout3: { seed: 0x3c6ef3, count: 120 },
 };
 
 /** Seed of case i of a set: a splitmix-style scramble of the set's seed and the index. */
