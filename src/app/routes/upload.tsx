@@ -8,6 +8,7 @@ import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useCableRuns } from '../../features/sites/api/list-cable-runs';
 import { useSites } from '../../features/sites/api/list-sites';
 import { useUploadTraces } from '../../features/traces/api/upload-traces';
+import { EndPicker } from '../../features/traces/components/end-picker';
 import { fileAtFault, sameBytes, UploadOutcome } from '../../features/traces/components/upload-outcome';
 import { countOf, formatLength, fromUnit, lengthsInText } from '../../lib/format';
 import { useSession } from '../../features/auth/use-session';
@@ -144,24 +145,7 @@ export function UploadPage() {
                 {countOf(run.markers.length, 'route marker')}
               </p>
             )}
-            <fieldset className="mt-3">
-              <legend className="text-sm font-semibold text-ink-soft">Instrument connected at</legend>
-              <div className="mt-1 grid grid-cols-2 gap-2">
-                {(['A', 'B'] as const).map((e) => (
-                  <button
-                    key={e}
-                    type="button"
-                    aria-pressed={end === e}
-                    onClick={() => setEnd(e)}
-                    className={`min-h-14 rounded-md border-2 px-3 py-2 text-left ${end === e ? 'border-copper bg-copper-light' : 'border-rule bg-white'}`}
-                  >
-                    <span className="block text-lg font-bold">End {e}</span>
-                    <span className="block text-sm text-ink-soft">{run ? (e === 'A' ? run.endALabel : run.endBLabel) : '—'}</span>
-                  </button>
-                ))}
-              </div>
-              {errors.end && <p className="mt-1 text-xs font-semibold text-danger">{errors.end}</p>}
-            </fieldset>
+            <EndPicker end={end} onChange={setEnd} labels={run ? { A: run.endALabel, B: run.endBLabel } : null} error={errors.end} />
           </Card>
 
           <Card title="2. Trace files">

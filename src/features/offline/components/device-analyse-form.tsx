@@ -6,6 +6,7 @@ import { Card } from '../../../components/ui/card';
 import { SelectField, TextField } from '../../../components/ui/field';
 import { Notice } from '../../../components/ui/notice';
 import { countOf, formatLength, fromUnit, type LengthUnit } from '../../../lib/format';
+import { EndPicker } from '../../traces/components/end-picker';
 import { analyseOnDevice, startEngine } from '../analyse-on-device';
 import { analysisCableOf } from '../cable-values';
 import { useDevice } from '../device-context';
@@ -177,23 +178,7 @@ export function DeviceAnalyseForm({ unit, onAnalysed }: { unit: LengthUnit; onAn
             · installed {formatLength(run.installedLengthM, unit)} · {countOf(run.markers.length, 'route marker')}
           </p>
         )}
-        <fieldset className="mt-3">
-          <legend className="text-sm font-semibold text-ink-soft">Instrument connected at</legend>
-          <div className="mt-1 grid grid-cols-2 gap-2">
-            {(['A', 'B'] as const).map((e) => (
-              <button
-                key={e}
-                type="button"
-                aria-pressed={end === e}
-                onClick={() => setEnd(e)}
-                className={`min-h-14 rounded-md border-2 px-3 py-2 text-left ${end === e ? 'border-copper bg-copper-light' : 'border-rule bg-white'}`}
-              >
-                <span className="block text-lg font-bold">End {e}</span>
-                <span className="block text-sm text-ink-soft">{run ? (e === 'A' ? run.endALabel : run.endBLabel) : '—'}</span>
-              </button>
-            ))}
-          </div>
-        </fieldset>
+        <EndPicker end={end} onChange={setEnd} labels={run ? { A: run.endALabel, B: run.endBLabel } : null} />
       </Card>
 
       <Card title="2. Trace file">
