@@ -28,17 +28,8 @@ import { createApp } from '../server/app';
 import { CableRun, CableType } from '../server/db/models';
 import { stepTraceCsv } from '../tests/support/step-trace';
 import { freshDatabase, testConfig } from '../tests/support/test-config';
+import { CHROMIUM_ARGS, CHROMIUM_PATH } from '../tests/e2e/support/chromium';
 
-const ARGS = [
-  '--headless',
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-];
 const PHONE = { width: 390, height: 844 };
 
 const db = await freshDatabase();
@@ -62,9 +53,9 @@ const kib = (b: number) => `${(b / 1024).toFixed(0)} KiB (${b.toLocaleString('en
 async function context(serviceWorkers: 'allow' | 'block'): Promise<{ ctx: BrowserContext; dir: string }> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'rholog-measure-'));
   const ctx = await chromium.launchPersistentContext(dir, {
-    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    executablePath: CHROMIUM_PATH,
     headless: true,
-    args: ARGS,
+    args: CHROMIUM_ARGS,
     serviceWorkers,
   });
   return { ctx, dir };

@@ -6,6 +6,7 @@ import type { Server } from 'node:http';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { createApp, type RhologApp } from '../../../server/app';
 import { freshDatabase, testConfig } from '../../support/test-config';
+import { CHROMIUM_ARGS, CHROMIUM_PATH } from './chromium';
 import type { AppConfig } from '../../../server/config';
 
 export interface E2E {
@@ -34,18 +35,9 @@ export async function startE2E(overrides: Partial<AppConfig> = {}): Promise<E2E>
     });
     const baseUrl = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
     context = await chromium.launchPersistentContext(profile, {
-      executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+      executablePath: CHROMIUM_PATH,
       headless: true,
-      args: [
-        '--headless',
-        '--no-sandbox',
-        '--disable-gpu',
-        '--disable-quic',
-        '--no-first-run',
-        '--disable-background-networking',
-        '--disable-component-update',
-        '--disable-sync',
-      ],
+      args: CHROMIUM_ARGS,
     });
     const ctx = context;
     fs.mkdirSync(SCREENSHOT_DIR, { recursive: true });
