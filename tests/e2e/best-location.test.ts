@@ -92,6 +92,14 @@ describe('the best location in the browser', () => {
     await table.waitFor();
     expect(await table.locator('tbody tr').first().textContent()).toMatch(/^Best location \(all readings\)1/);
     await shoot(table, 'best-location-method-accuracy-desktop');
+    // On a phone the same rows are stacked blocks, and nothing on the dashboard is wider than the screen.
+    await page.setViewportSize(PHONE);
+    const list = page.getByTestId('method-accuracy-list');
+    await list.waitFor();
+    expect(await list.locator('li').first().textContent()).toMatch(/^Best location \(all readings\)Repairs1/);
+    expect(await table.isVisible()).toBe(false);
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(PHONE.width);
+    await shoot(list, 'best-location-method-accuracy-phone');
     await page.close();
   });
 

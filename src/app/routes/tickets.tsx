@@ -34,7 +34,8 @@ function TicketRow({ t }: { t: TicketSummary }) {
           {t.site.name} · {t.cableRun.name}
         </p>
         <p className="text-xs text-mist">
-          {t.assignee ? `Assigned to ${t.assignee.name}` : 'Nobody assigned'} · {t.dueDate ? `due ${formatDate(t.dueDate)}` : 'no due date'} · raised {formatAge(t.createdAt)}
+          {t.assignee ? `Assigned to ${t.assignee.name}` : 'Nobody assigned'} ·{' '}
+          {t.dueDate ? `due ${formatDate(t.dueDate)}` : 'no due date'} · raised {formatAge(t.createdAt)}
         </p>
       </Link>
     </li>
@@ -57,7 +58,11 @@ export function TicketsPage() {
     <>
       <PageHeader
         title="Tickets"
-        subtitle={can('tickets:work') && !manage ? 'Your repairs come first, then the rest of the crew’s.' : 'Repairs raised from confirmed findings, yours first.'}
+        subtitle={
+          can('tickets:work') && !manage
+            ? 'Your repairs come first, then the rest of the crew’s.'
+            : 'Repairs raised from confirmed findings, yours first.'
+        }
       />
       <div className={`grid gap-4 ${manage ? 'lg:grid-cols-[3fr_2fr]' : ''}`}>
         <Card title="Repairs">
@@ -72,7 +77,12 @@ export function TicketsPage() {
               ))}
             </SelectField>
             <label className="flex min-h-11 items-center gap-3 self-end text-sm font-semibold text-ink-soft">
-              <input type="checkbox" className="h-5 w-5 accent-copper" checked={onlyMine} onChange={(e) => (setOnlyMine(e.target.checked), setPage(1))} />
+              <input
+                type="checkbox"
+                className="h-5 w-5 accent-copper"
+                checked={onlyMine}
+                onChange={(e) => (setOnlyMine(e.target.checked), setPage(1))}
+              />
               Only tickets assigned to me
             </label>
           </div>
@@ -94,7 +104,8 @@ export function TicketsPage() {
           )}
         </Card>
         {manage && (
-          <Card title="Raise a ticket">
+          // Opened to raise a ticket for one finding (from the dashboard or a finding): on a phone the form comes first.
+          <Card title="Raise a ticket" className={preselect ? 'order-first lg:order-none' : undefined}>
             <NewTicketForm unit={unit} preselect={preselect} onCreated={(t) => navigate(paths.ticket.to(t.id))} />
           </Card>
         )}
