@@ -11,7 +11,11 @@ const USAGE = `usage: rholog analyze FILE... [options]
        rholog locate [options]
        rholog <analyze|locate> --help`;
 
-const commands: Record<string, string> = { analyze: './analyze.js', locate: './locate.js' };
+// Each subcommand is loaded only when it is asked for (the build turns these into synchronous requires).
+const commands: Record<string, () => Promise<unknown>> = {
+  analyze: () => import('./analyze.js'),
+  locate: () => import('./locate.js'),
+};
 
 async function main() {
   const sub = process.argv[2];
@@ -28,9 +32,12 @@ async function main() {
   }
   // The subcommand reads its options from process.argv, as when it runs alone.
   process.argv.splice(2, 1);
-  await import(target);
+  await target();
 }
 
 export {};
 
-await main();
+main().catch((err: unknown) => {
+  process.stderr.write(`rholog: ${err instanceof Error ? err.message : String(err)}\n`);
+  process.exitCode = 1;
+});
