@@ -94,6 +94,7 @@ describe('the best location in the browser', () => {
     await shoot(table, 'best-location-method-accuracy-desktop');
     // On a phone the same rows are stacked blocks, and nothing on the dashboard is wider than the screen.
     await page.setViewportSize(PHONE);
+    await page.reload();
     const list = page.getByTestId('method-accuracy-list');
     await list.waitFor();
     expect(await list.locator('li').first().textContent()).toMatch(/^Best location \(all readings\)Repairs1/);
@@ -130,6 +131,19 @@ describe('the best location in the browser', () => {
       return out;
     });
     expect(clashes).toEqual([]);
+    // Each strip says both of its end lengths: under its ends, or in the line below it when the best-location label took the room.
+    const missingEnds = await page.evaluate(() => {
+      const out: string[] = [];
+      for (const fig of document.querySelectorAll('figure[data-testid^="route-strip"]')) {
+        const svg = fig.querySelector('svg')!;
+        const m = /route from (.+) to (.+) along the ground/.exec(svg.getAttribute('aria-label') ?? '');
+        if (!m) continue;
+        const said = [...svg.querySelectorAll('text')].map((t) => t.textContent).join(' | ') + ' | ' + (fig.querySelector('p')?.textContent ?? '');
+        for (const len of [m[1], m[2]]) if (!said.includes(len)) out.push(`${fig.getAttribute('data-testid')}: ${len}`);
+      }
+      return out;
+    });
+    expect(missingEnds).toEqual([]);
     await e2e.screenshot(page, 'best-location-finding-phone');
     await shoot(page.getByTestId('best-location'), 'best-location-headline-phone');
     await shoot(page.getByTestId('location-methods-list'), 'best-location-methods-phone');

@@ -231,6 +231,12 @@ function Strip({
           best location
         </text>
       </svg>
+      {(!bottom.from || !bottom.to) && (
+        // An end length the best-location label would have covered is said here instead, so no length is lost on a narrow screen.
+        <p className="text-xs text-mist tabular" data-testid={`${testId}-span`}>
+          From {formatLength(fromM, unit)} to {formatLength(toM, unit)} along the ground
+        </p>
+      )}
     </figure>
   );
 }
