@@ -55,7 +55,7 @@ export function ConfirmDialog({
         e.preventDefault();
         if (!pending) onCancel();
       }}
-      className="m-auto w-[calc(100%-2rem)] max-w-lg rounded-lg border-2 border-ink bg-card p-0 text-ink shadow-xl backdrop:bg-ink/60"
+      className="m-auto max-h-[calc(100dvh-2rem)] w-[calc(100%-2rem)] max-w-lg overflow-y-auto rounded-lg border-2 border-ink bg-card p-0 text-ink shadow-xl backdrop:bg-ink/60"
     >
       {open && (
         <div className="space-y-4 p-5">

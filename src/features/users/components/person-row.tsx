@@ -185,7 +185,7 @@ export function PersonRow({
                   onChange={(e) => setHandTo(e.target.value)}
                   hint={handTo ? 'Each goes back to “Assigned” with the new person, who is e-mailed.' : 'Left with them, a supervisor has to reassign each one on its ticket page.'}
                 >
-                  <option value="">Nobody now: leave them with {person.name}</option>
+                  <option value="">Nobody yet (leave with {person.name})</option>
                   {others.map((t) => (
                     <option key={t.id} value={t.id}>
                       {t.name}
