@@ -175,6 +175,12 @@ function fractionNear(y: Float64Array, from: number, level: number, band: number
   return near / all;
 }
 
+/**
+ * Longest 10–90 % fall of a launch pulse, in its rise times. An instrument's pulse falls about
+ * as fast as it rises; a fall of more than five rise times is a reflection that crossed the line.
+ */
+const FALL_OVER_RISE_MAX = 5;
+
 /** Pulse or step: does the launch fall back below half its height soon, stay down, and the record rest at the baseline? */
 function launchFall(
   y: Float64Array,
@@ -198,7 +204,11 @@ function launchFall(
   // A pulse record rests at its baseline after the launch, apart from sparse echoes; a step
   // into a near fault rests at 1 + ρ of the launch, off the baseline unless ρ is near −1.
   const rests = fractionNear(y, Math.min(n, end), baseline, Math.max(0.1 * peak, 4 * noise)) >= 0.6;
-  return { iFall, looksPulse: short && rests };
+  // The instrument's pulse falls back to the baseline as fast as it rose. A fall many rise
+  // times long, down to the baseline, has come back along the line: it is a step's reflection
+  // from a near fault, spread by the line's loss on the way.
+  const fallsLikeLaunch = fallSamples(y, iFall, sign, baseline, peak).fall <= FALL_OVER_RISE_MAX * riseSamples;
+  return { iFall, looksPulse: short && rests && fallsLikeLaunch };
 }
 
 /** 10–90 % duration of the falling edge that starts near `from` (sign·(y − level) falling from `peak`). */
