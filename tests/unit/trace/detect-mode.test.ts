@@ -62,9 +62,7 @@ describe('step or pulse, from the whole record', () => {
 
   it('keeps a pulse of the same width a pulse: it falls as fast as it rose', () => {
     const rnd = gaussianSource(12);
-    const y = new Float64Array(N).map(
-      (_, i) => ramp(i, LAUNCH, RISE) - ramp(i, LAUNCH + ROUND_TRIP, RISE) + 0.002 * rnd(),
-    );
+    const y = new Float64Array(N).map((_, i) => ramp(i, LAUNCH, RISE) - ramp(i, LAUNCH + ROUND_TRIP, RISE) + 0.002 * rnd());
     const L = findLaunch(record(y), 'auto', null, estimateSlowNoise(y));
     expect(L.mode).toBe('pulse');
     // Its width at half height is the 800 samples between its two edges.
