@@ -19,6 +19,7 @@ import { migrate } from './db/migrations';
 import { initModels } from './db/models';
 import { startJobs } from './jobs';
 import { registerCableReanalysis } from './jobs/cable-reanalysis';
+import { registerTraceAnalysis } from './traces/background-analysis';
 import { cableReanalysisRoutes } from './jobs/cable-reanalysis.routes';
 import { startMail } from './mail';
 import { openStorage } from './storage';
@@ -73,6 +74,7 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
 
   if (config.demoData) await seedDemo(ctx);
   await registerCableReanalysis(ctx);
+  await registerTraceAnalysis(ctx);
 
   const lifecycle = { stopping: false };
   const app = express();

@@ -42,6 +42,11 @@ const EnvSchema = z.object({
   ANALYSIS_THREADS: z.coerce.number({ error: 'must be a whole number from 1 to 32' }).int().min(1).max(32).optional(),
   ANALYSIS_TIMEOUT_S: z.coerce.number({ error: 'must be a number of seconds' }).min(0).max(600).default(20),
   ANALYSIS_MEMORY_MB: z.coerce.number({ error: 'must be a number of megabytes' }).int().min(16).max(8192).default(256),
+  /**
+   * Files up to this size (KiB) are analysed inside the upload request; larger ones are stored at once as
+   * "pending" and analysed by a background job. 4096 KiB holds about 200,000 samples at about 20 bytes a row.
+   */
+  ANALYSIS_INLINE_MAX_KB: z.coerce.number({ error: 'must be a whole number of KiB' }).int().min(1).max(524_288).default(4096),
   /** Start-up clean-up leaves files younger than this alone (an upload may be arriving). */
   /** How long an SQLite statement waits for another process's write lock (this process queues its own writes). */
   SQLITE_BUSY_TIMEOUT_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(0).max(600_000).default(10_000),
@@ -99,6 +104,8 @@ export interface AppConfig {
   maxUploadBytes: number;
   /** The worker pool that analyses traces: threads, and each file's time and memory budget. */
   analysis: { threads: number; timeoutMs: number; memoryMb: number };
+  /** Uploads larger than this are answered 202 and analysed in the background. */
+  analysisInlineMaxBytes: number;
   uploadSweepMinAgeMs: number;
   sqliteBusyTimeoutMs: number;
   cookieSecure: 'auto' | boolean;
@@ -155,6 +162,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     mailMaxAttempts: e.MAIL_MAX_ATTEMPTS,
     uploadDir: path.resolve(e.UPLOAD_DIR),
     maxUploadBytes: Math.round(e.MAX_UPLOAD_MB * 1024 * 1024),
+    analysisInlineMaxBytes: e.ANALYSIS_INLINE_MAX_KB * 1024,
     analysis: {
       threads: e.ANALYSIS_THREADS ?? Math.min(8, Math.max(1, os.availableParallelism() - 1)),
       timeoutMs: Math.round(e.ANALYSIS_TIMEOUT_S * 1000),

@@ -1,4 +1,4 @@
-import { Op, type WhereOptions } from 'sequelize';
+import { literal, Op, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { describeRoutePosition, distanceFromA, metresText, routePosition } from '../../shared/field/route-position';
 import { twoEndedLocation } from '../../shared/field/two-ended';
@@ -10,7 +10,9 @@ import { CableRun, Finding, FindingDecision, RouteMarker, Site, Ticket, TicketFi
 import { sameFaultFindingIds } from './best-location';
 import { AppError } from '../errors';
 import { emitFindingConfirmed } from './events';
-import { idsContaining } from '../db/text-search';
+import { containsPattern, idsContaining } from '../db/text-search';
+import { FINDINGS_TEXT_FTS } from '../db/migrations/0018-findings-text-index';
+import { pendingConflict } from '../traces/traces.service';
 
 export { findingEvents } from './events';
 
@@ -93,6 +95,7 @@ export async function recordFinding(ctx: AppContext, input: FindingInput, userId
         fields: [{ field: 'traceId', message: 'the trace is archived' }],
       });
     }
+    if (trace.status === 'pending') throw pendingConflict(trace.id, 'decided on');
     if (trace.status !== 'ok') {
       throw new AppError(422, 'trace_failed', `Trace ${trace.id} could not be read, so no finding can be made from it.`, {
         fields: [{ field: 'traceId', message: 'the trace was not readable' }],
@@ -174,6 +177,30 @@ export async function getFinding(id: number): Promise<FindingView> {
   return (await views([f]))[0];
 }
 
+const TEXT_COLUMNS = ['note', 'kind', 'route_position_text'];
+
+/**
+ * Findings whose note, kind or route position sentence contains `text`, as
+ * `idsContaining` finds them. On SQLite, text of three characters or more is
+ * looked up first in the trigram index (migration 0018), which answers with
+ * every finding that may hold it (it folds case more widely than LIKE), and
+ * only those are given the LIKE test; on PostgreSQL the trigram indexes serve
+ * ILIKE directly.
+ */
+function findingsContaining(text: string) {
+  const sequelize = Finding.sequelize!;
+  if (sequelize.getDialect() !== 'sqlite' || [...text].length < 3) return idsContaining(Finding, TEXT_COLUMNS, text);
+  const qi = sequelize.getQueryInterface();
+  const pattern = sequelize.escape(containsPattern(text));
+  const phrase = sequelize.escape(`"${text.replace(/"/g, '""')}"`);
+  const tests = TEXT_COLUMNS.map((c) => `f.${qi.quoteIdentifier(c)} LIKE ${pattern} ESCAPE '\\'`).join(' OR ');
+  return literal(
+    `+${qi.quoteIdentifier(Finding.name)}.${qi.quoteIdentifier('id')} IN (SELECT f.${qi.quoteIdentifier('id')} FROM ${FINDINGS_TEXT_FTS} ` +
+      `JOIN ${qi.quoteIdentifier('findings')} f ON f.${qi.quoteIdentifier('id')} = ${FINDINGS_TEXT_FTS}.rowid ` +
+      `WHERE ${FINDINGS_TEXT_FTS} MATCH ${phrase} AND (${tests}))`,
+  );
+}
+
 export async function listFindings(q: z.output<typeof FindingListQuerySchema>): Promise<Page<FindingView>> {
   const where: WhereOptions<Finding> = {
     ...(q.siteId ? { siteId: q.siteId } : {}),
@@ -181,7 +208,7 @@ export async function listFindings(q: z.output<typeof FindingListQuerySchema>): 
     ...(q.traceId ? { traceId: q.traceId } : {}),
     ...(q.status ? { status: q.status } : {}),
     // Text search: the note, the kind and the route position sentence.
-    ...(q.q ? { [Op.and]: [idsContaining(Finding, ['note', 'kind', 'route_position_text'], q.q)] } : {}),
+    ...(q.q ? { [Op.and]: [findingsContaining(q.q)] } : {}),
   };
   const { rows, count } = await Finding.findAndCountAll({
     where,

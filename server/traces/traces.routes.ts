@@ -148,7 +148,10 @@ async function uploadAnswer(ctx: AppContext, res: Response, outcome: traces.Uplo
       },
     );
   }
-  res.status(201);
+  // Large files are analysed in the background: 202, and Location names the (first) trace to follow.
+  const pending = stored.filter((t) => t.status === 'pending');
+  if (pending.length) res.setHeader('location', `/api/traces/${pending[0].id}`);
+  res.status(pending.length ? 202 : 201);
   return { traces: stored, duplicates, replayed };
 }
 

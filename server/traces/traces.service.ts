@@ -54,6 +54,17 @@ export function analysisColumns(outcome: Outcome, cable: CableType, settings: Tr
   };
 }
 
+/** The job that analyses a large upload in the background (server/traces/background-analysis.ts). */
+export const TRACE_ANALYSIS_JOB = 'trace-analysis';
+
+/** A large upload's row before its analysis: the settings and the cable values it is to be analysed with. */
+export function pendingColumns(cable: CableType, settings: TraceSettings) {
+  return {
+    ...analysisColumns({ status: 'ok', analysis: null, error: null }, cable, settings),
+    status: 'pending' as const,
+  };
+}
+
 /** The cable type's values as the analysis worker takes them (plain data). */
 export function analysisCable(cable: CableType): AnalysisCable {
   return cable.get({ plain: true }) as AnalysisCable;
@@ -179,8 +190,13 @@ export async function receiveUpload(
     const { run, cable } = await runAndCable(fields);
     const settings = settingsFrom(fields);
     const pool = analysisPool(ctx);
-    const results = await Promise.all(
-      inbox.map((p) => pool.analyse({ path: p, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes })),
+    // Small files are analysed now; a large one is only hashed, stored as pending and analysed by a background job.
+    const results: Array<{ sha256: string; sizeBytes: number; outcome: Outcome | null; parsed: ParsedTrace | null }> = await Promise.all(
+      inbox.map(async (p, i) => {
+        const sizeBytes = (await fs.stat(p)).size;
+        if (sizeBytes > ctx.config.analysisInlineMaxBytes) return { sha256: hashes[i] ?? (await fileSha256(p)), sizeBytes, outcome: null, parsed: null };
+        return pool.analyse({ path: p, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes });
+      }),
     );
 
     // Each file is new (moved into the store), a copy of a trace stored earlier, or a repeat of a file earlier in this upload.
@@ -229,7 +245,7 @@ export async function receiveUpload(
             rawPath: step.rawPath,
             sha256: r.sha256,
             sizeBytes: r.sizeBytes,
-            ...analysisColumns(r.outcome, cable, settings),
+            ...(r.outcome ? analysisColumns(r.outcome, cable, settings) : pendingColumns(cable, settings)),
             vfOverrideReason: fields.vfOverrideReason ?? null,
             deviceAnalysis: fields.deviceAnalysis ?? null,
           },
@@ -252,6 +268,7 @@ export async function receiveUpload(
       if (!kept.has(step.rawPath)) await ctx.storage.remove(step.rawPath).catch(() => undefined);
       else if (results[index].parsed) rememberParsed(ctx, step.rawPath, settings, results[index].parsed!);
     }
+    await queueAnalyses(ctx, outcome.traceIds);
     return outcome;
   } catch (err) {
     if (!committed) for (const rel of adopted) await ctx.storage.remove(rel).catch(() => undefined);
@@ -263,6 +280,30 @@ export async function receiveUpload(
     throw err;
   } finally {
     await Promise.all(inbox.map((p) => fs.rm(p, { force: true })));
+  }
+}
+
+/** 409 for anything that needs the analysis of a trace still waiting for it. */
+export function pendingConflict(id: number, what: string) {
+  return new AppError(409, 'trace_pending', `Trace ${id} is still being analysed; it can be ${what} once its analysis has finished (the trace page shows when).`, {
+    fields: [{ field: 'traceId', message: 'the trace is still being analysed' }],
+  });
+}
+
+/**
+ * Queue the background analysis of those of these traces still pending. Sent
+ * after commit; if the queue cannot take it now, the start-up of the next
+ * instance queues every pending trace again, so none is left pending.
+ */
+export async function queueAnalyses(ctx: AppContext, traceIds: number[]) {
+  if (!traceIds.length) return;
+  const pending = await Trace.findAll({ where: { id: traceIds, status: 'pending' }, attributes: ['id'], order: [['id', 'ASC']] });
+  for (const t of pending) {
+    try {
+      await ctx.jobs.send(TRACE_ANALYSIS_JOB, { traceId: t.id });
+    } catch (err) {
+      ctx.log(`the analysis of trace ${t.id} could not be queued now; it is queued again at the next start`, (err as Error).message);
+    }
   }
 }
 
@@ -303,6 +344,7 @@ export async function reanalyseTrace(
   if (earlier.archivedAt) {
     throw AppError.conflict('trace_archived', `Trace ${id} is archived: an administrator restores it before it is analysed again.`);
   }
+  if (earlier.status === 'pending') throw pendingConflict(id, 'analysed again');
   const run = await CableRun.findByPk(earlier.cableRunId);
   const cable = run ? await CableType.findByPk(run.cableTypeId) : null;
   if (!run || !cable) throw new AppError(422, 'no_cable_type', `The cable run of trace ${id} has no cable type in the library.`);
@@ -442,7 +484,7 @@ function parsedKey(ctx: AppContext, rawPath: string, settings: TraceSettings) {
   return `${ctx.config.uploadDir}:${rawPath}:${JSON.stringify(parseOptions(settings, ctx.config.maxUploadBytes))}`;
 }
 
-function rememberParsed(ctx: AppContext, rawPath: string, settings: TraceSettings, parsed: ParsedTrace) {
+export function rememberParsed(ctx: AppContext, rawPath: string, settings: TraceSettings, parsed: ParsedTrace) {
   const key = parsedKey(ctx, rawPath, settings);
   parsedCache.delete(key);
   parsedCache.set(key, parsed);
@@ -582,6 +624,7 @@ export async function setReference(sequelize: Sequelize, id: number, isReference
   await sequelize.transaction(async (transaction) => {
     const trace = await Trace.findByPk(id, { transaction });
     if (!trace) throw AppError.notFound(`Trace ${id}`);
+    if (isReference && trace.status === 'pending') throw pendingConflict(id, 'used as the reference');
     if (isReference && trace.status !== 'ok') {
       throw new AppError(422, 'trace_failed', 'A trace the engine could not read cannot be the reference.');
     }

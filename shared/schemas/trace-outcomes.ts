@@ -104,7 +104,7 @@ export interface ArchivedTraceView {
   siteName: string;
   cableRunName: string;
   end: 'A' | 'B';
-  status: 'ok' | 'failed';
+  status: 'ok' | 'failed' | 'pending';
   uploadedBy: { id: number; name: string };
   createdAt: string;
   archivedAt: string;

@@ -7,7 +7,8 @@ import type { RouteMarkerView } from './sites';
 
 export const CABLE_ENDS = ['A', 'B'] as const;
 export type CableEnd = (typeof CABLE_ENDS)[number];
-export const TRACE_STATUSES = ['ok', 'failed'] as const;
+/** 'ok': analysed; 'failed': could not be analysed (the reason is kept); 'pending': a large upload waiting for its background analysis. */
+export const TRACE_STATUSES = ['ok', 'failed', 'pending'] as const;
 export type TraceStatus = (typeof TRACE_STATUSES)[number];
 
 /**

@@ -16,6 +16,8 @@ import * as m0013 from './0013-method-scores';
 import * as m0014 from './0014-device-analysis';
 import * as m0015 from './0015-list-indexes';
 import * as m0016 from './0016-shared-limits-and-cable-reanalysis';
+import * as m0017 from './0017-background-analysis';
+import * as m0018 from './0018-findings-text-index';
 
 export type Migration = MigrationFn<QueryInterface>;
 
@@ -40,6 +42,8 @@ const MIGRATIONS: Array<{ name: string; up: Migration; down: Migration }> = [
   { name: '0014-device-analysis', ...m0014 },
   { name: '0015-list-indexes', ...m0015 },
   { name: '0016-shared-limits-and-cable-reanalysis', ...m0016 },
+  { name: '0017-background-analysis', ...m0017 },
+  { name: '0018-findings-text-index', ...m0018 },
 ];
 
 export function migrator(sequelize: Sequelize) {

@@ -50,6 +50,9 @@ export class Trace extends Model<InferAttributes<Trace>, InferCreationAttributes
   declare archivedAt: CreationOptional<Date | null>;
   /** What the phone made of the file before it was uploaded (analysed on a device while offline). */
   declare deviceAnalysis: CreationOptional<DeviceAnalysis | null>;
+  /** Background analysis (large uploads): tries so far, and until when the instance analysing it holds it. */
+  declare analysisAttempts: CreationOptional<number>;
+  declare analysisLeaseUntil: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare cableRun?: NonAttribute<CableRun>;
@@ -84,6 +87,8 @@ export function initTrace(sequelize: Sequelize) {
       reanalysisOfId: { type: DataTypes.INTEGER, allowNull: true },
       archivedAt: { type: DataTypes.DATE, allowNull: true },
       deviceAnalysis: { type: DataTypes.JSON, allowNull: true },
+      analysisAttempts: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+      analysisLeaseUntil: { type: DataTypes.DATE, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },
