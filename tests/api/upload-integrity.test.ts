@@ -19,7 +19,8 @@ describe('uploads that are retried or repeated', () => {
   let tech: Client;
   let runId: number;
   beforeAll(async () => {
-    api = await startApi();
+    // Every file here is analysed inside the request, up to the upload limit (tests/api/trace-pending.test.ts covers larger ones).
+    api = await startApi({ analysisInlineMaxBytes: 20 * 1024 * 1024 });
     tech = await api.as('technician');
     runId = (await makeRun('Retry run')).run.id;
   });
