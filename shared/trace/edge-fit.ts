@@ -307,8 +307,11 @@ interface WindowData {
   q: number;
 }
 
-/** Residual sum of squares of y ≈ b + h·template at delay d, with b and h solved exactly. */
-function profile(w: WindowData, t: Template, d: number): { ss: number; b: number; h: number } {
+/**
+ * Residual sum of squares of y ≈ b + h·template at delay d, with b and h solved exactly;
+ * with `fixedH`, the height is held at that value and only the baseline is solved.
+ */
+function profile(w: WindowData, t: Template, d: number, fixedH?: number): { ss: number; b: number; h: number } {
   const { y, j0 } = w;
   const n = y.length;
   // Normal equations for y ≈ b + c·x + h·e, x centred on the window (step records creep on lossy lines).
@@ -328,6 +331,7 @@ function profile(w: WindowData, t: Template, d: number): { ss: number; b: number
     sey += e * yk;
     syy += yk * yk;
   }
+  if (fixedH !== undefined) return profileAtHeight({ n, sx, sxx, se, see, sxe, sy, sxy, sey, syy }, slope, fixedH);
   const sol = slope
     ? solve3([n, sx, se, sx, sxx, sxe, se, sxe, see], [sy, sxy, sey])
     : solve2(n, se, see, sy, sey);
@@ -337,6 +341,25 @@ function profile(w: WindowData, t: Template, d: number): { ss: number; b: number
   }
   const [b, c, h] = sol;
   return { ss: Math.max(0, syy - b * sy - c * sxy - h * sey), b, h };
+}
+
+/** The residual of y − h·e ≈ b + c·x from the normal equations' sums, h given. */
+function profileAtHeight(
+  s: { n: number; sx: number; sxx: number; se: number; see: number; sxe: number; sy: number; sxy: number; sey: number; syy: number },
+  slope: boolean,
+  h: number,
+): { ss: number; b: number; h: number } {
+  const sy = s.sy - h * s.se;
+  const sxy = s.sxy - h * s.sxe;
+  const syy = s.syy - 2 * h * s.sey + h * h * s.see;
+  const det = s.n * s.sxx - s.sx * s.sx;
+  if (!slope || !(det > 1e-12 * s.n * Math.max(s.sxx, 1e-300))) {
+    const b = sy / s.n;
+    return { ss: Math.max(0, syy - b * sy), b, h };
+  }
+  const b = (s.sxx * sy - s.sx * sxy) / det;
+  const c = (s.n * sxy - s.sx * sy) / det;
+  return { ss: Math.max(0, syy - b * sy - c * sxy), b, h };
 }
 
 function solve2(n: number, se: number, see: number, sy: number, sey: number): [number, number, number] | null {
@@ -383,26 +406,26 @@ function goldenMin(f: (x: number) => number, a: number, b: number, tol: number, 
 }
 
 /** Delay of least residual in [lo, hi]: a grid of at most 24 steps (none over a few samples), then golden-section search around its best point. */
-function bestDelay(w: WindowData, t: Template, lo: number, hi: number, sign: number): { d: number; ss: number; h: number } {
+function bestDelay(w: WindowData, t: Template, lo: number, hi: number, sign: number, fixedH?: number): { d: number; ss: number; h: number } {
   const steps = Math.max(8, Math.min(24, Math.ceil((hi - lo) / 0.5)));
   const step = (hi - lo) / steps;
   let best = { d: lo, ss: Infinity, h: 0 };
   for (let k = 0; k <= steps; k++) {
     const d = lo + k * step;
-    const p = profile(w, t, d);
+    const p = profile(w, t, d, fixedH);
     if (Math.sign(p.h) === sign && p.ss < best.ss) best = { d, ss: p.ss, h: p.h };
   }
   if (!Number.isFinite(best.ss)) return best;
-  const g = goldenMin((d) => profile(w, t, d).ss, Math.max(lo, best.d - step), Math.min(hi, best.d + step), 1e-3);
-  const p = profile(w, t, g.x);
+  const g = goldenMin((d) => profile(w, t, d, fixedH).ss, Math.max(lo, best.d - step), Math.min(hi, best.d + step), 1e-3);
+  const p = profile(w, t, g.x, fixedH);
   return p.ss <= best.ss && Math.sign(p.h) === sign ? { d: g.x, ss: p.ss, h: p.h } : best;
 }
 
 /** Standard uncertainty of the delay: σ√(2/S''), σ² from the residual (N − 3 degrees of freedom). */
-function delaySigma(w: WindowData, t: Template, d: number, ss: number, fallback: number): number {
+function delaySigma(w: WindowData, t: Template, d: number, ss: number, fallback: number, fixedH?: number): number {
   const delta = 0.5;
-  const curv = (profile(w, t, d + delta).ss - 2 * ss + profile(w, t, d - delta).ss) / (delta * delta);
-  const dof = Math.max(1, w.y.length - 3);
+  const curv = (profile(w, t, d + delta, fixedH).ss - 2 * ss + profile(w, t, d - delta, fixedH).ss) / (delta * delta);
+  const dof = Math.max(1, w.y.length - (fixedH === undefined ? 3 : 2));
   if (!(curv > 0)) return fallback;
   return Math.min(fallback, Math.sqrt((2 * (ss / dof)) / curv));
 }
@@ -504,6 +527,9 @@ interface ModelFit {
   points: number;
 }
 
+/** Largest height a reflection can have at the port, in units of the incident wave. */
+const MAX_HEIGHT = 1;
+
 /** Fit one window with one loss model; `twoWayM` sets the size of the loss spread. */
 function fitWindow(
   ctx: FitContext,
@@ -525,9 +551,19 @@ function fitWindow(
       ? exactLineKernel(model, Math.max(0, twoWayM), rec.dt * q, span, ctx.input.vf)
       : lineKernel(model, Math.max(0, twoWayM), rec.dt * q, span);
   const t = buildTemplate(launch, kernel, ctx.shape.step);
-  const best = bestDelay(w, t, win.lo / q, win.hi / q, win.sign);
+  let best = bestDelay(w, t, win.lo / q, win.hi / q, win.sign);
   if (!Number.isFinite(best.ss)) return null;
-  const sigma = delaySigma(w, t, best.d, best.ss, (win.hi - win.lo) / q / 2);
+  // No reflection exceeds the wave that met it (|ρ| ≤ 1): a fitted height past that means the model's
+  // edge is off (a record ending on the rise, a baseline creeping), and the delay that went with it is
+  // pulled too; the delay is then fitted again with the height held at the bound.
+  let heldAt: number | undefined;
+  if (Math.abs(best.h) > MAX_HEIGHT) {
+    heldAt = Math.sign(best.h) * MAX_HEIGHT;
+    const held = bestDelay(w, t, win.lo / q, win.hi / q, win.sign, heldAt);
+    if (!Number.isFinite(held.ss)) return null;
+    best = held;
+  }
+  const sigma = delaySigma(w, t, best.d, best.ss, (win.hi - win.lo) / q / 2, heldAt);
   const middle = withMiddle ? middleOf(t) - kernel.offset - middleOf(buildTemplate(launch, { values: Float64Array.of(1), offset: 0 }, ctx.shape.step)) : 0;
   return {
     d: best.d * q,

@@ -99,6 +99,24 @@ describe('the line fit', () => {
     expect(Math.abs(a.events[0].distanceM - truthM)).toBeLessThan(0.002 * truthM);
   });
 
+  it('keeps the line fit of a far end the record stops on mid-rise when the library overstates the loss, holding |ρ| ≤ 1', () => {
+    // The open arrives 300 ns before the record ends with an edge faster (t50 = 60 ns) than the library's
+    // loss gives (t50 = 150 ns): a free fit reads its height past 1 to match the slow model's tail, which
+    // no reflection can have (|ρ| ≤ 1, the wave it met), so the height is held at 1 and the delay refitted.
+    const far = 3500;
+    const farM = metresFor(far); // 346.26 m
+    for (const seed of [21, 22, 23]) {
+      const a = analyzeTrace(skinTrace({ rho: 1, roundTripNs: far, t50Ns: 60, noise: 0.002, seed }), { vf: VF, loss: lossPoints(far, 150) });
+      const e = a.events[a.events.length - 1];
+      expect(e.pathLossDb).not.toBeNull();
+      expect(e.lossCorrected).toBe(true);
+      expect(e.reflectionCoefficient).toBeCloseTo(1, 6);
+      expect(Math.abs(e.distanceM - farM)).toBeLessThan(0.01 * farM); // the product's requirement: max(0.5 m, 1 %)
+      expect(e.windowStartM).toBeLessThanOrEqual(farM);
+      expect(e.windowEndM).toBeGreaterThanOrEqual(farM);
+    }
+  });
+
   it('reports no loss on a lossless edge', () => {
     const a = analyzeTrace(skinTrace({ rho: 0.5, roundTripNs: 1000, t50Ns: 0, noise: 0.001, seed: 3 }), { vf: VF });
     expect(a.lossSource).toBe('none');
