@@ -8,8 +8,9 @@
  * back; a change of line impedance passes 1 + ρ one way and 1 − ρ the other,
  * T·T′ = 1 − ρ² (D. M. Pozar, "Microwave Engineering", 4th ed., §2.3). One edge
  * cannot tell the two apart, so an edge is taken as a change of line when it
- * starts a section (an opposite edge of like size follows, with more line after
- * it: a wet stretch, a splice) and as a lumped fault otherwise.
+ * starts a section (an opposite edge of like size follows: a wet stretch, a
+ * splice, a bridged tap's junction and stub end), whether or not more line shows
+ * after it, and as a lumped fault otherwise.
  *
  * Bands on the event's own ρ (common practice): open at ρ ≥ +0.8, short at
  * ρ ≤ −0.8, otherwise an impedance rise or drop. A last event (nothing real
@@ -37,7 +38,7 @@ export interface OwnReflection {
 
 const clampRho = (r: number) => Math.max(-1, Math.min(1, r));
 
-/** Is merged[k] the first edge of a section: an opposite edge of like size follows, then more line? */
+/** Is merged[k] the first edge of a section: is the next real edge an opposite one of like size? */
 function startsSection(merged: Measured[], primary: boolean[], k: number): boolean {
   const m = merged[k];
   for (let j = k + 1; j < merged.length; j++) {
@@ -45,8 +46,7 @@ function startsSection(merged: Measured[], primary: boolean[], k: number): boole
     const o = merged[j];
     if (Math.sign(o.height) === Math.sign(m.height)) return false;
     const ratio = Math.abs(o.height) / Math.abs(m.height);
-    const more = merged.some((later, l) => l > j && primary[l] && Math.abs(later.height) >= 0.5 * Math.abs(o.height));
-    return ratio > 0.6 && ratio < 1.4 && more;
+    return ratio > 0.6 && ratio < 1.4;
   }
   return false;
 }
