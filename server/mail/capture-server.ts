@@ -60,6 +60,11 @@ export async function startCaptureServer(options: { port: number; log: (m: strin
       simpleParser(stream)
         .then(async (mail) => {
           const receivedAt = new Date();
+          // A notification sent again after its sender stopped mid-send carries the same Message-ID: keep the first copy only.
+          if (mail.messageId && (await OutboxMessage.findOne({ where: { messageId: mail.messageId }, attributes: ['id'] }))) {
+            options.log(`capture server: ${mail.messageId} was already received; the repeat is not stored again`);
+            return callback();
+          }
           await OutboxMessage.create({
             messageId: mail.messageId ?? null,
             fromAddress: addressText(mail.from) ?? (session.envelope.mailFrom ? session.envelope.mailFrom.address : ''),

@@ -1,7 +1,7 @@
 import type { AppConfig } from '../config';
 import { startCaptureServer, type CaptureServer } from './capture-server';
 import { createMailer, type Mailer } from './mailer';
-import { MailQueue } from './mail-queue';
+import { MailQueue, messageIdDomain } from './mail-queue';
 
 export interface MailSystem {
   queue: MailQueue;
@@ -24,7 +24,7 @@ export async function startMail(config: AppConfig, log: (m: string) => void): Pr
     log(`Mail is captured locally (SMTP on 127.0.0.1:${capture.port}); admins read it on the Outbox page.`);
   }
   const mailer = createMailer({ from: config.mailFrom, smtpUrl: config.smtpUrl, capture: capture ?? undefined });
-  const queue = new MailQueue(mailer, { retryBaseMs: config.mailRetryBaseMs, maxAttempts: config.mailMaxAttempts, log });
+  const queue = new MailQueue(mailer, { retryBaseMs: config.mailRetryBaseMs, maxAttempts: config.mailMaxAttempts, log, messageIdDomain: messageIdDomain(config.mailFrom) });
   queue.start();
   return {
     queue,
@@ -45,4 +45,4 @@ export function appLink(config: AppConfig, path: string): string {
   return `${base}${path.startsWith('/') ? path : `/${path}`}`;
 }
 
-export { MailQueue, retryDelayMs, type MailJobInput } from './mail-queue';
+export { MailQueue, messageIdDomain, messageIdOf, retryDelayMs, type MailJobInput } from './mail-queue';

@@ -1,3 +1,4 @@
+import { randomUUID } from 'node:crypto';
 import { Op, type Transaction } from 'sequelize';
 import { MailJob } from '../db/models/mail-job';
 import type { Mailer } from './mailer';
@@ -22,6 +23,28 @@ export interface MailQueueOptions {
   pollMs?: number;
   /** How long a claimed job is held by the instance sending it; if that instance dies, the job is due again after this. */
   leaseMs?: number;
+  /** The domain part of the Message-IDs (the sender address's domain). */
+  messageIdDomain?: string;
+}
+
+/** The domain of a From address such as "Rholog <rholog@example.com>", for Message-IDs. */
+export function messageIdDomain(from: string): string {
+  const m = /@([A-Za-z0-9.-]+)>?\s*$/.exec(from.trim());
+  return m ? m[1].toLowerCase() : 'rholog.invalid';
+}
+
+/**
+ * The Message-ID of a queued notification: made once and kept on the row, so
+ * every try (a retry, or a resend after an instance died mid-send) carries
+ * the same one and a receiver can recognise the repeat (RFC 5322 §3.6.4).
+ * Rows queued before Message-IDs were kept get one made from their own id and
+ * creation time, the same whichever instance makes it.
+ */
+export function newMessageId(domain: string): string {
+  return `<${randomUUID()}@${domain}>`;
+}
+export function messageIdOf(job: Pick<MailJob, 'id' | 'createdAt' | 'messageId'>, domain: string): string {
+  return job.messageId ?? `<mail.${job.id}.${job.createdAt.getTime()}@${domain}>`;
 }
 
 const MAX_DELAY_MS = 60 * 60 * 1000;
@@ -43,6 +66,7 @@ export class MailQueue {
   private stopped = false;
   private readonly pollMs: number;
   private readonly leaseMs: number;
+  private readonly domain: string;
 
   constructor(
     private readonly mailer: Mailer,
@@ -50,6 +74,7 @@ export class MailQueue {
   ) {
     this.pollMs = options.pollMs ?? 30_000;
     this.leaseMs = options.leaseMs ?? 5 * 60_000;
+    this.domain = options.messageIdDomain ?? 'rholog.invalid';
   }
 
   start() {
@@ -67,6 +92,7 @@ export class MailQueue {
         text: input.text,
         html: input.html ?? null,
         nextAttemptAt: new Date(),
+        messageId: newMessageId(this.domain),
         ticketId: input.ticketId ?? null,
         findingId: input.findingId ?? null,
       },
@@ -77,10 +103,10 @@ export class MailQueue {
     return job;
   }
 
-  /** Try a failed job again now. */
+  /** Try a failed job again now (one being sent is left to its sender). */
   async retry(jobId: number): Promise<MailJob | null> {
     const job = await MailJob.findByPk(jobId);
-    if (!job || job.status === 'sent') return job;
+    if (!job || job.status === 'sent' || job.status === 'sending') return job;
     await job.update({ status: 'queued', nextAttemptAt: new Date() });
     this.kick();
     return job;
@@ -132,8 +158,9 @@ export class MailQueue {
   private async drain(): Promise<number> {
     for (;;) {
       if (this.stopped) return this.pollMs;
+      // Queued and due, or being sent by an instance whose lease ran out (it died mid-send).
       const due = await MailJob.findAll({
-        where: { status: 'queued', nextAttemptAt: { [Op.lte]: new Date() } },
+        where: { status: ['queued', 'sending'], nextAttemptAt: { [Op.lte]: new Date() } },
         order: [['nextAttemptAt', 'ASC'], ['id', 'ASC']],
         limit: 20,
       });
@@ -143,50 +170,74 @@ export class MailQueue {
         if (await this.claim(job)) await this.sendOne(job);
       }
     }
-    const next = await MailJob.findOne({ where: { status: 'queued' }, order: [['nextAttemptAt', 'ASC']] });
+    const next = await MailJob.findOne({ where: { status: ['queued', 'sending'] }, order: [['nextAttemptAt', 'ASC']] });
     if (!next) return this.pollMs;
     return Math.min(this.pollMs, next.nextAttemptAt.getTime() - Date.now());
   }
 
   /**
-   * Take a due job for this instance: one conditional UPDATE moves its next
-   * attempt to the end of a lease. Several instances may read the same due
-   * row, but the database applies the updates one after another and only the
-   * first still finds the row due, so exactly one instance sends it. An
-   * instance that dies while sending leaves the lease to run out, and the
-   * job falls due again for the others.
+   * Take a due job for this instance: one conditional UPDATE marks it
+   * 'sending' and sets the lease (nextAttemptAt) before any byte goes to the
+   * relay. Several instances may read the same due row, but
+   * the database applies the updates one after another and only the first
+   * still finds it as read, so exactly one instance sends it. An instance that
+   * dies while sending leaves the row 'sending' until the lease ends; only
+   * then is it due again, with the same Message-ID, and the lost try counts
+   * as one. A job whose last try was lost that way is marked failed
+   * instead: the relay may or may not have it.
    */
   private async claim(job: MailJob): Promise<boolean> {
     const now = new Date();
+    const attempts = job.status === 'sending' ? job.attempts + 1 : job.attempts;
+    const asRead = { id: job.id, status: job.status, attempts: job.attempts, nextAttemptAt: { [Op.lte]: now } };
+    if (job.status === 'sending' && attempts >= this.options.maxAttempts) {
+      await MailJob.update(
+        {
+          status: 'failed',
+          attempts,
+          lastError: 'The server sending it stopped during the last try; the relay may or may not have taken it (check before sending it again).',
+        },
+        { where: asRead },
+      );
+      return false;
+    }
+    const messageId = messageIdOf(job, this.domain);
     const [count] = await MailJob.update(
-      { nextAttemptAt: new Date(now.getTime() + this.leaseMs) },
-      { where: { id: job.id, status: 'queued', nextAttemptAt: { [Op.lte]: now } } },
+      { status: 'sending', attempts, lastAttemptAt: now, nextAttemptAt: new Date(now.getTime() + this.leaseMs), messageId },
+      { where: asRead },
     );
-    return count === 1;
+    if (count !== 1) return false;
+    if (job.status === 'sending') this.options.log(`mail job ${job.id}: its sender stopped mid-send; sending it again with the same Message-ID ${messageId}`);
+    Object.assign(job, { status: 'sending', attempts, lastAttemptAt: now, messageId });
+    return true;
   }
 
   private async sendOne(job: MailJob) {
     const attempts = job.attempts + 1;
-    const at = new Date();
+    const at = job.lastAttemptAt ?? new Date();
     try {
-      const { messageId } = await this.mailer.send({
+      await this.mailer.send({
         to: job.toAddresses,
         subject: job.subject,
         text: job.text,
         html: job.html,
         headers: { 'X-Rholog-Mail-Job': String(job.id) },
+        messageId: job.messageId ?? undefined,
       });
-      await job.update({ status: 'sent', attempts, lastAttemptAt: at, sentAt: new Date(), messageId: messageId || null });
+      await MailJob.update({ status: 'sent', attempts, sentAt: new Date() }, { where: { id: job.id } });
     } catch (err) {
       const message = (err as Error).message || String(err);
       const giveUp = attempts >= this.options.maxAttempts;
-      await job.update({
-        status: giveUp ? 'failed' : 'queued',
-        attempts,
-        lastAttemptAt: at,
-        lastError: message.slice(0, 2000),
-        nextAttemptAt: new Date(at.getTime() + retryDelayMs(attempts, this.options.retryBaseMs)),
-      });
+      // Only while still ours: if the lease ran out and another instance took the job over, its outcome stands.
+      await MailJob.update(
+        {
+          status: giveUp ? 'failed' : 'queued',
+          attempts,
+          lastError: message.slice(0, 2000),
+          nextAttemptAt: new Date(at.getTime() + retryDelayMs(attempts, this.options.retryBaseMs)),
+        },
+        { where: { id: job.id, status: 'sending', attempts: job.attempts } },
+      );
       this.options.log(
         `mail job ${job.id} to ${job.toAddresses} failed (try ${attempts} of ${this.options.maxAttempts}${giveUp ? ', giving up' : ''}): ${message}`,
       );

@@ -6,6 +6,8 @@ export interface OutgoingMail {
   text: string;
   html?: string | null;
   headers?: Record<string, string>;
+  /** The Message-ID header, "<local@domain>": the same on every try of one notification, so receivers can drop a repeat. */
+  messageId?: string;
 }
 
 export interface Mailer {
@@ -53,6 +55,7 @@ export function createMailer(options: { from: string; smtpUrl?: string; capture?
         text: mail.text,
         html: mail.html ?? undefined,
         headers: mail.headers,
+        ...(mail.messageId ? { messageId: mail.messageId } : {}),
       });
       return { messageId: String(info.messageId ?? '') };
     },

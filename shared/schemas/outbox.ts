@@ -8,7 +8,7 @@ export const OutboxQuerySchema = z.object({
 });
 
 export const MailQueueQuerySchema = z.object({
-  status: z.enum(['queued', 'sent', 'failed'], { error: 'must be queued, sent or failed' }).optional(),
+  status: z.enum(['queued', 'sending', 'sent', 'failed'], { error: 'must be queued, sending, sent or failed' }).optional(),
   page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
   pageSize: textInt({ min: 1, max: 100, what: 'a page size' }).default(25),
 });
@@ -34,7 +34,8 @@ export interface OutboxMessageView {
   headers: OutboxHeader[];
 }
 
-export type MailJobStatus = 'queued' | 'sent' | 'failed';
+/** 'sending': an instance is handing it to the relay (until the lease in nextAttemptAt ends). */
+export type MailJobStatus = 'queued' | 'sending' | 'sent' | 'failed';
 
 /** One entry of the send queue: what was (or will be) sent and how it went. */
 export interface MailJobView {

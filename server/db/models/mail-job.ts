@@ -7,7 +7,8 @@ import {
   type Sequelize,
 } from 'sequelize';
 
-export const MAIL_JOB_STATUSES = ['queued', 'sent', 'failed'] as const;
+/** 'sending': claimed by an instance that is handing it to the relay; its lease ends at nextAttemptAt. */
+export const MAIL_JOB_STATUSES = ['queued', 'sending', 'sent', 'failed'] as const;
 export type MailJobStatus = (typeof MAIL_JOB_STATUSES)[number];
 
 /**
