@@ -208,10 +208,13 @@ const eventsOf = (t: TraceAnswer): DeviceEvent[] =>
     windowEndM: e.windowEndM,
   }));
 
-/** An upload the server had already (events not in its answer) learns the server's events from the trace itself. */
+/**
+ * An upload the server had already (events not in its answer) learns the server's events from the trace itself.
+ * A large file still being analysed there ('pending') has none yet: they stay unknown and are read again later.
+ */
 export function withServerEvents(item: UploadItem, trace: TraceAnswer): UploadItem {
   if (!item.result) return item;
-  return { ...item, result: { ...item.result, traceStatus: trace.status, events: eventsOf(trace) } };
+  return { ...item, result: { ...item.result, traceStatus: trace.status, events: trace.status === 'pending' ? null : eventsOf(trace) } };
 }
 
 function sentUpload(item: UploadItem, now: Date, result: UploadItem['result']): UploadItem {
@@ -223,13 +226,14 @@ export function settleUpload(item: UploadItem, answer: Answer, now: Date): Uploa
   if (item.state !== 'sending') throw new Error(`Upload ${item.id} is ${item.state}, not sending.`);
   if (answer.kind === 'http') {
     const body = answer.body as { traces?: TraceAnswer[]; replayed?: boolean } | null;
+    // 201, or 202 for a large file stored and analysed in the background ('pending'): delivered either way.
     if (answer.status >= 200 && answer.status < 300 && body?.traces?.length) {
       const t = body.traces[0];
       return sentUpload(item, now, {
         traceId: t.id,
         alreadyThere: body.replayed === true,
         traceStatus: t.status,
-        events: eventsOf(t),
+        events: t.status === 'pending' ? null : eventsOf(t),
       });
     }
     const { code, extra } = errorOf(answer.body);
