@@ -15,7 +15,7 @@
 import { distanceFromRoundTrip, SPEED_OF_LIGHT_M_PER_S } from '../cable/propagation';
 import type { ReflectionEvent, TraceAnalysis, TraceWarning } from '../schemas/trace-analysis';
 import { classifyEvent, impedanceOf, ownReflections } from './classify';
-import { detectEdges, FALSE_EVENTS_PER_TRACE, mergeEdges } from './detection';
+import { detectEdges, dropQuantiserStairs, FALSE_EVENTS_PER_TRACE, mergeEdges } from './detection';
 import { findEchoes, resolveCableEnd } from './echoes';
 import { fitEdges, fitLineEdges, lossSummary, pathLossDb } from './edge-fit';
 import { TraceInputError } from './errors';
@@ -252,7 +252,8 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     rhoMin,
   });
   const edgeInput = { rec, launch: L, signal, rhoMin, vf: options.vf, loss: options.loss };
-  const line = fitLineEdges(edgeInput, mergeEdges(fitEdges(edgeInput, detection.candidates), signal.w0, L));
+  const fitted = dropQuantiserStairs(fitEdges(edgeInput, detection.candidates), signal);
+  const line = fitLineEdges(edgeInput, mergeEdges(fitted, signal.w0, L));
   const merged = line.events;
   const launchOnset = launchOnsetTimer(L, signal);
   const zeroOverride = options.zeroOffsetNs !== undefined ? (options.zeroOffsetNs * 1e-9 - rec.t[0]) / rec.dt : null;

@@ -242,6 +242,16 @@ export function detectEdges(sig: WorkingSignal, settings: DetectionSettings): De
 }
 
 /**
+ * Drop edges no taller than a step and a half of the recorder's quantiser: where the noise is
+ * below one step, a slow creep or drift crosses each level as a clean one-step stair, which is
+ * no evidence of a reflection.
+ */
+export function dropQuantiserStairs(measured: Measured[], sig: WorkingSignal): Measured[] {
+  if (!(sig.quantU > 0)) return measured;
+  return measured.filter((m) => Math.abs(m.height) > 1.5 * sig.quantU);
+}
+
+/**
  * Merge a pair of opposite steps closer than their own width into one blip (a
  * splice, a short section), and same-sign steps closer than a window into one.
  */

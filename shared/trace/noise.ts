@@ -50,6 +50,18 @@ function onGrid(y: Float64Array, q: number): boolean {
 }
 
 export function estimateNoise(y: Float64Array): number {
+  return noiseAndStep(y).sigma0;
+}
+
+/**
+ * The recorder's quantiser step where it shows (it recurs among the differences, or the
+ * samples sit on its grid), else 0.
+ */
+export function adcStep(y: Float64Array): number {
+  return noiseAndStep(y).q;
+}
+
+function noiseAndStep(y: Float64Array): { sigma0: number; q: number } {
   const n = y.length;
   const clipped = saturated(y);
   const diffStep = Math.max(1, Math.floor((n - 1) / 8001));
@@ -63,13 +75,16 @@ export function estimateNoise(y: Float64Array): number {
     const a = Math.abs(d);
     if (a > 0 && a < minStep) minStep = a;
   }
-  if (m < 2) return 0;
+  if (m < 2) return { sigma0: 0, q: 0 };
   let sigma0 = madSigma(diffs, 0, m) / Math.SQRT2;
   let atStep = 0;
   for (let j = 0; j < m; j++) if (Math.abs(Math.abs(diffs[j]) - minStep) <= 1e-9 * minStep) atStep++;
-  if (Number.isFinite(minStep) && (atStep >= Math.max(3, 0.002 * m) || onGrid(y, minStep)))
+  let q = 0;
+  if (Number.isFinite(minStep) && (atStep >= Math.max(3, 0.002 * m) || onGrid(y, minStep))) {
+    q = minStep;
     sigma0 = Math.max(sigma0, minStep / Math.sqrt(12));
-  return sigma0;
+  }
+  return { sigma0, q };
 }
 
 /**

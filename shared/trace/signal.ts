@@ -8,7 +8,7 @@
  * becomes a step whose height is its area ratio. Cable loss spreads an echo but
  * keeps its area (the line's DC gain), so area is the loss-robust measure of ρ.
  */
-import { noiseExcess } from './noise';
+import { adcStep, noiseExcess } from './noise';
 import { boxcar, sampleMedian } from './stats';
 import type { Launch, TraceRecord, WorkingSignal } from './steps';
 
@@ -92,5 +92,6 @@ export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number):
     start,
     blindIdx,
     noiseExcess: noiseExcess(rec.y, sigma0),
+    quantU: mode === 'step' ? adcStep(rec.y) / Math.abs(L.found || rec.unit !== 'rho' ? L.height : 1) : 0,
   };
 }
