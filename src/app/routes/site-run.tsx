@@ -102,7 +102,7 @@ export function SiteRunPage() {
                   <Link className="font-semibold text-teal underline" to={paths.trace.to(t.id)}>
                     {t.originalName}
                   </Link>{' '}
-                  from {t.end} {t.isReference && <StatusBadge kind="trace" status="reference" />} {t.status === 'failed' && <StatusBadge kind="trace" status="failed" />}
+                  from {t.end} {t.isReference && <StatusBadge kind="trace" status="reference" />} {t.status !== 'ok' && <StatusBadge kind="trace" status={t.status} />}
                   <span className="block text-xs text-mist">{formatDateTime(t.createdAt)}</span>
                 </li>
               ))}

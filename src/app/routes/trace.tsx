@@ -16,6 +16,7 @@ import { useReanalyseTrace } from '../../features/traces/api/reanalyse-trace';
 import { useSetReference } from '../../features/traces/api/set-reference';
 import { TraceChart, type XAxis } from '../../features/traces/components/trace-chart';
 import { ArchiveControl } from '../../features/traces/components/archive-control';
+import { AnalysisPending } from '../../features/traces/components/analysis-pending';
 import { CursorPanel } from '../../features/traces/components/cursor-panel';
 import { EventCard } from '../../features/traces/components/event-card';
 import { eventTitle } from '../../features/traces/reflection-words';
@@ -117,6 +118,7 @@ export function TracePage() {
         }
       />
       <ArchiveControl trace={t} userId={user.id} can={can} />
+      <AnalysisPending trace={t} />
       {t.status === 'failed' && (
         <Notice tone="danger" title="This file could not be read" className="mb-4">
           <p>{sentence(lengthsInText(t.error?.message ?? '', unit))}</p>

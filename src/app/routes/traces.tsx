@@ -56,6 +56,7 @@ export function TracesPage() {
             <option value="">Any</option>
             <option value="ok">Read</option>
             <option value="failed">Could not be read</option>
+            <option value="pending">Analysing</option>
           </SelectField>
           <SelectField label="Uploaded by" value={q.uploadedById ? 'me' : ''} onChange={(e) => set({ uploadedById: e.target.value ? user.id : undefined })}>
             <option value="">Anyone</option>
@@ -79,7 +80,7 @@ export function TracesPage() {
                       {t.siteName} · {t.cableRunName} · end {t.end}
                     </span>
                     <span className="block text-sm">
-                      {t.status === 'ok' ? `${t.eventCount} event${t.eventCount === 1 ? '' : 's'}${t.findingCount ? `, ${t.findingCount} decided` : ''}` : 'Could not be read'} ·{' '}
+                      {t.status === 'ok' ? `${t.eventCount} event${t.eventCount === 1 ? '' : 's'}${t.findingCount ? `, ${t.findingCount} decided` : ''}` : t.status === 'pending' ? 'Analysing…' : 'Could not be read'} ·{' '}
                       {formatDateTime(t.createdAt)}, {t.uploadedBy.name}
                     </span>
                   </Link>
@@ -130,7 +131,7 @@ export function TracesPage() {
                             {t.findingCount ? `, ${t.findingCount} decided` : ''}
                           </span>
                         ) : (
-                          <StatusBadge kind="trace" status="failed" />
+                          <StatusBadge kind="trace" status={t.status} />
                         )}
                       </td>
                       <td className="tabular">

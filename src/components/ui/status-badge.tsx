@@ -35,6 +35,7 @@ export const STATUS_BADGES = {
   },
   trace: {
     failed: ['danger', 'Could not be read'],
+    pending: ['info', 'Analysing…'],
     reference: ['info', 'Reference'],
   },
   person: {

@@ -85,14 +85,19 @@ export function UploadOutcome({
   return (
     <>
       {data.traces.length > 0 && (
-        <Notice tone={data.traces.every((t) => t.status === 'ok') ? 'ok' : 'warn'} title="Uploaded">
+        <Notice tone={data.traces.every((t) => t.status !== 'failed') ? 'ok' : 'warn'} title="Uploaded">
           <ul>
             {data.traces.map((t) => (
               <li key={t.id}>
                 <Link className="font-semibold text-teal underline" to={traceLink(t.id)}>
                   {t.originalName}
                 </Link>{' '}
-                — {t.status === 'ok' ? `${t.eventCount} event${t.eventCount === 1 ? '' : 's'}` : `could not be read: ${t.errorMessage}`}
+                —{' '}
+                {t.status === 'ok'
+                  ? `${t.eventCount} event${t.eventCount === 1 ? '' : 's'}`
+                  : t.status === 'pending'
+                    ? 'large file: analysing in the background (its page shows the result when ready)'
+                    : `could not be read: ${t.errorMessage}`}
               </li>
             ))}
           </ul>
