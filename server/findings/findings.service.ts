@@ -11,7 +11,7 @@ import { sameFaultFindingIds } from './best-location';
 import { AppError } from '../errors';
 import { emitFindingConfirmed } from './events';
 import { containsPattern, idsContaining } from '../db/text-search';
-import { FINDINGS_TEXT_FTS } from '../db/migrations/0018-findings-text-index';
+import { FINDINGS_FOLDED_WHERE, FINDINGS_TEXT_FTS } from '../db/migrations/0018-findings-text-index';
 import { pendingConflict } from '../traces/traces.service';
 
 export { findingEvents } from './events';
@@ -181,23 +181,26 @@ const TEXT_COLUMNS = ['note', 'kind', 'route_position_text'];
 
 /**
  * Findings whose note, kind or route position sentence contains `text`, as
- * `idsContaining` finds them. On SQLite, text of three characters or more is
- * looked up first in the trigram index (migration 0018), which answers with
- * every finding that may hold it (it folds case more widely than LIKE), and
- * only those are given the LIKE test; on PostgreSQL the trigram indexes serve
- * ILIKE directly.
+ * `idsContaining` finds them. On SQLite, ASCII text of three characters or
+ * more is looked up in the trigram index (migration 0018); the index folds
+ * case more widely than LIKE, so the few findings holding a letter it folds
+ * into ASCII (listed in their own partial index) are kept only if LIKE
+ * matches them too. On PostgreSQL the trigram indexes serve ILIKE directly.
  */
 function findingsContaining(text: string) {
   const sequelize = Finding.sequelize!;
-  if (sequelize.getDialect() !== 'sqlite' || [...text].length < 3) return idsContaining(Finding, TEXT_COLUMNS, text);
+  // Shorter text has no trigram; LIKE matches letters beyond ASCII in their own case only, so such text is
+  // not looked up in the index (which would find every case of it) but matched by LIKE alone.
+  const ascii = ![...text].some((ch) => ch.charCodeAt(0) > 0x7f);
+  if (sequelize.getDialect() !== 'sqlite' || text.length < 3 || !ascii) return idsContaining(Finding, TEXT_COLUMNS, text);
   const qi = sequelize.getQueryInterface();
+  const id = `${qi.quoteIdentifier(Finding.name)}.${qi.quoteIdentifier('id')}`;
   const pattern = sequelize.escape(containsPattern(text));
   const phrase = sequelize.escape(`"${text.replace(/"/g, '""')}"`);
-  const tests = TEXT_COLUMNS.map((c) => `f.${qi.quoteIdentifier(c)} LIKE ${pattern} ESCAPE '\\'`).join(' OR ');
+  const like = TEXT_COLUMNS.map((c) => `${qi.quoteIdentifier(c)} LIKE ${pattern} ESCAPE '\\'`).join(' OR ');
   return literal(
-    `+${qi.quoteIdentifier(Finding.name)}.${qi.quoteIdentifier('id')} IN (SELECT f.${qi.quoteIdentifier('id')} FROM ${FINDINGS_TEXT_FTS} ` +
-      `JOIN ${qi.quoteIdentifier('findings')} f ON f.${qi.quoteIdentifier('id')} = ${FINDINGS_TEXT_FTS}.rowid ` +
-      `WHERE ${FINDINGS_TEXT_FTS} MATCH ${phrase} AND (${tests}))`,
+    `+${id} IN (SELECT rowid FROM ${FINDINGS_TEXT_FTS} WHERE ${FINDINGS_TEXT_FTS} MATCH ${phrase}) ` +
+      `AND +${id} NOT IN (SELECT id FROM findings WHERE (${FINDINGS_FOLDED_WHERE}) AND NOT coalesce(${like}, 0))`,
   );
 }
 
