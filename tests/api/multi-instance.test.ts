@@ -7,7 +7,7 @@ import { createApp, type RhologApp } from '../../server/app';
 import { TRACES_PER_STEP } from '../../server/jobs/cable-reanalysis';
 import type { AppConfig } from '../../server/config';
 import { hashPassword } from '../../server/auth/passwords';
-import { CableReanalysis, CableReanalysisItem, MailJob, OutboxMessage, Trace, User } from '../../server/db/models';
+import { CableReanalysis, CableReanalysisItem, CableRun, CableType, MailJob, OutboxMessage, Trace, User } from '../../server/db/models';
 import { startFakeS3, type FakeS3 } from '../support/fake-s3';
 import { freshDatabase, testConfig } from '../support/test-config';
 import { closedPort, eventually } from './mail.support';
@@ -27,6 +27,9 @@ const JOBS = { maintenanceSeconds: 1, pollSeconds: 0.5, leaseSeconds: 5, shutdow
 const UPLOADS = 50;
 const MAILS = 20;
 const WRONG_SIGN_INS = 40;
+/** Uploads above this are analysed by a background job (a 3000-sample test file is about 38 kB, a 12,000-sample one about 157 kB). */
+const INLINE_MAX_KB = 100;
+const LARGE_UPLOADS = 6;
 
 let db: Awaited<ReturnType<typeof freshDatabase>>;
 let s3: FakeS3;
@@ -58,6 +61,7 @@ async function startChild(port: number) {
       JOB_MAINTENANCE_S: String(JOBS.maintenanceSeconds),
       JOB_POLL_S: String(JOBS.pollSeconds),
       JOB_LEASE_S: String(JOBS.leaseSeconds),
+      ANALYSIS_INLINE_MAX_KB: String(INLINE_MAX_KB),
     },
     stdio: ['ignore', 'ignore', 'pipe'],
   });
@@ -83,7 +87,7 @@ beforeAll(async () => {
   db = await freshDatabase();
   s3 = await startFakeS3();
   const base = testConfig(db.url, db.dir, {});
-  config = { ...base, storageUrl: s3.storageUrl('multi'), trustProxyHops: 1, login: { ...base.login, delayMs: 0 }, jobs: JOBS };
+  config = { ...base, storageUrl: s3.storageUrl('multi'), trustProxyHops: 1, login: { ...base.login, delayMs: 0 }, jobs: JOBS, analysisInlineMaxBytes: INLINE_MAX_KB * 1024 };
   b = await createApp(config);
   const hash = await hashPassword(TEST_PASSWORD);
   for (const role of ['technician', 'planner'] as const) await User.create({ email: `${role}.multi@example.com`, name: `Multi ${role}`, role, passwordHash: hash });
@@ -146,6 +150,47 @@ describe(isPostgres ? 'two instances on one PostgreSQL database' : 'one instance
     }
     expect([...perJob.keys()].sort()).toEqual(jobIds.sort());
     expect([...perJob.values()]).toEqual(jobIds.map(() => 1));
+  });
+
+  it(`analyses each of ${LARGE_UPLOADS} large uploads once in the background, whichever instance took them`, async () => {
+    // A run of its own cable type, so the re-analysis below still covers the first run's traces only.
+    const cable = await CableType.create({
+      name: 'Multi foam PE coax',
+      construction: 'coax',
+      dielectric: 'foamed polyethylene',
+      z0Ohm: 50,
+      vf: 0.82,
+      vfTolerance: 0.02,
+      attenuationDbPer100m: null,
+      attenuationFreqMhz: null,
+      vfSource: 'handbook',
+      vfReference: 'foamed PE, common practice',
+      notes: null,
+    });
+    const run = await CableRun.create({ siteId: (await CableRun.findByPk(runId))!.siteId, name: 'Multi long run', cableTypeId: cable.id, endALabel: 'Vault V-2', endBLabel: 'Pole 31', installedLengthM: 900, notes: null });
+    const clients = await Promise.all(instances.map((i) => signIn(i.target(), 'technician.multi@example.com')));
+    const files = Array.from({ length: LARGE_UPLOADS }, (_, i) => Buffer.from(stepTraceCsv({ faultM: 300 + 40 * i, vf: 0.82, samples: 12_000 }), 'utf8'));
+    const answers = await Promise.all(
+      files.map((csv, i) => {
+        const c = clients[i % clients.length];
+        return c.agent.post('/api/traces').set('x-csrf-token', c.csrf).field('cableRunId', String(run.id)).field('end', 'A').attach('file', csv, `long-${i}.csv`);
+      }),
+    );
+    expect(answers.map((a) => [a.status, a.body.traces[0].status])).toEqual(files.map(() => [202, 'pending']));
+    await eventually(async () => (await Trace.count({ where: { cableRunId: run.id, status: 'ok' } })) === LARGE_UPLOADS, 'every large upload analysed', 120_000);
+    const rows = await Trace.findAll({ where: { cableRunId: run.id }, order: [['id', 'ASC']] });
+    // Each analysed by one try: no instance analysed a trace another was analysing.
+    expect(rows.map((r) => [r.status, r.analysisAttempts, r.analysisLeaseUntil])).toEqual(files.map(() => ['ok', 1, null]));
+    // The open placed at 300 + 40·i m when the file was made (d = VF·c·t/2, hand-worked); engine goal max(0.5 m, 1 %).
+    for (const r of rows) {
+      const i = Number(/^long-(\d+)\.csv$/.exec(r.originalName)![1]);
+      const open = r.analysis!.events.find((e) => e.type === 'open')!;
+      expect(Math.abs(open.distanceM - (300 + 40 * i))).toBeLessThan(Math.max(0.5, 0.01 * (300 + 40 * i)));
+    }
+    if (isPostgres) {
+      const [done] = await b.ctx.sequelize.query("SELECT count(*)::int AS n FROM pgboss.job WHERE name = 'trace-analysis' AND state = 'completed'");
+      expect((done as Array<{ n: number }>)[0].n).toBe(LARGE_UPLOADS);
+    }
   });
 
   it(`locks an account and address pair after the same number of failures, however ${WRONG_SIGN_INS} wrong sign-ins are spread`, async () => {
