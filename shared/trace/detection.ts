@@ -252,6 +252,18 @@ export function dropQuantiserStairs(measured: Measured[], sig: WorkingSignal): M
 }
 
 /**
+ * Is m the way back from the blip before it? An edge against the blip's excursion, no larger
+ * than it, starting within two windows of the blip's end, that only brings the level back to
+ * where it was before the blip (within half the edge): a loss-spread blip returns slowly, and
+ * its tail, measured from inside the dip, reads as an edge of its own.
+ */
+function returnsFromBlip(blip: Measured, m: Measured): boolean {
+  if (Math.sign(m.height) === Math.sign(blip.peakDev) || Math.abs(m.height) > Math.abs(blip.peakDev)) return false;
+  if (m.onsetIdx - blip.endIdx > 2 * Math.max(blip.w, m.w)) return false;
+  return Math.abs(m.levelBefore + m.height - blip.levelBefore) < 0.5 * Math.abs(m.height);
+}
+
+/**
  * Merge a pair of opposite steps closer than their own width into one blip (a
  * splice, a short section), and same-sign steps closer than a window into one.
  */
@@ -259,6 +271,10 @@ export function mergeEdges(measured: Measured[], w0: number, L: Launch): Measure
   const merged: Measured[] = [];
   for (const m of measured) {
     const last = merged[merged.length - 1];
+    if (last && last.blip && returnsFromBlip(last, m)) {
+      last.endIdx = m.endIdx;
+      continue;
+    }
     if (
       last &&
       Math.sign(last.height) !== Math.sign(m.height) &&
