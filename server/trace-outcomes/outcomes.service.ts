@@ -9,6 +9,7 @@ import { CableCalibration, CableRun, Finding, Trace, TraceOutcome, User } from '
 import { AppError } from '../errors';
 import { submitCalibration } from '../calibrations/calibrations.service';
 import { archiveView } from './archive.service';
+import { pendingConflict } from '../traces/traces.service';
 
 const person = (u: User | undefined, id: number) => ({ id, name: u?.name ?? `user ${id}` });
 
@@ -43,6 +44,7 @@ async function traceAndEvent(traceId: number, eventIndex: number) {
   const trace = await Trace.findByPk(traceId);
   if (!trace) throw AppError.notFound(`Trace ${traceId}`);
   if (trace.archivedAt) throw new AppError(422, 'trace_archived', `Trace ${traceId} is archived: an administrator restores it before anything is recorded from it.`);
+  if (trace.status === 'pending') throw pendingConflict(traceId, 'recorded against');
   if (trace.status !== 'ok' || !trace.analysis) {
     throw new AppError(422, 'trace_failed', `Trace ${traceId} could not be read, so nothing can be taken from it.`);
   }

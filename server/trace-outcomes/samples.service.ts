@@ -3,7 +3,7 @@ import { decimateMinMax } from '../../shared/trace';
 import type { AppContext } from '../context';
 import { Trace } from '../db/models';
 import { AppError } from '../errors';
-import { parsedSamples } from '../traces/traces.service';
+import { parsedSamples, pendingConflict } from '../traces/traces.service';
 
 /** First index whose value is at least `v` in an ascending array. */
 function lowerBound(a: Float64Array, v: number): number {
@@ -25,6 +25,7 @@ function lowerBound(a: Float64Array, v: number): number {
 export async function sampleWindow(ctx: AppContext, id: number, q: { fromNs: number; toNs: number; points: number }): Promise<SampleWindowView> {
   const trace = await Trace.findByPk(id);
   if (!trace) throw AppError.notFound(`Trace ${id}`);
+  if (trace.status === 'pending') throw pendingConflict(id, 'drawn');
   if (trace.status !== 'ok') throw new AppError(422, 'trace_failed', `Trace ${id} could not be read, so it has no samples to draw.`);
   const parsed = await parsedSamples(ctx, trace);
   if (!parsed) throw new AppError(422, 'trace_failed', `Trace ${id} could not be read again from its stored file.`);

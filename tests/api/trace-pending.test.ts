@@ -89,6 +89,7 @@ describe('uploads above the inline limit', () => {
     expect(finding.body.error.message).toMatch(/still being analysed/);
     expect((await c.put(`/api/traces/${id}/reference`, { isReference: true }).expect(409)).body.error.code).toBe('trace_pending');
     expect((await c.post(`/api/traces/${id}/reanalyse`, {}).expect(409)).body.error.code).toBe('trace_pending');
+    expect((await c.get(`/api/traces/${id}/samples`).query({ fromNs: 0, toNs: 500 }).expect(409)).body.error.code).toBe('trace_pending');
     // Released (the holder's lease ends): the next try analyses it.
     await Trace.update({ analysisLeaseUntil: null }, { where: { id } });
     await analysePending(api.app.ctx, id, new AbortController().signal);
