@@ -98,7 +98,8 @@ export function UploadPage() {
       {
         onSuccess: (r) => {
           setFiles([]);
-          const ok = r.traces.filter((t) => t.status === 'ok');
+          // Read, or large and analysed in the background (its page says "Analysing…" until the result is in).
+          const ok = r.traces.filter((t) => t.status !== 'failed');
           if (r.traces.length === 1 && ok.length === 1 && r.duplicates.length === 0) navigate(paths.trace.to(ok[0].id));
         },
         onError: (err) => {
