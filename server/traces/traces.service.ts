@@ -268,7 +268,8 @@ export async function receiveUpload(
       if (!kept.has(step.rawPath)) await ctx.storage.remove(step.rawPath).catch(() => undefined);
       else if (results[index].parsed) rememberParsed(ctx, step.rawPath, settings, results[index].parsed!);
     }
-    await queueAnalyses(ctx, outcome.traceIds);
+    // Only a large file is left pending (analysed by a background job); an upload of small files has nothing to queue.
+    if (results.some((r) => r.outcome === null)) await queueAnalyses(ctx, outcome.traceIds);
     return outcome;
   } catch (err) {
     if (!committed) for (const rel of adopted) await ctx.storage.remove(rel).catch(() => undefined);
@@ -414,10 +415,13 @@ function endLabel(run: CableRun, end: CableEnd) {
 
 async function summaries(traces: Trace[]): Promise<TraceSummary[]> {
   if (!traces.length) return [];
-  const runs = await CableRun.findAll({ where: { id: [...new Set(traces.map((t) => t.cableRunId))] } });
+  // Independent reads side by side: one wait instead of one per query.
+  const [runs, users, findings] = await Promise.all([
+    CableRun.findAll({ where: { id: [...new Set(traces.map((t) => t.cableRunId))] } }),
+    User.findAll({ where: { id: [...new Set(traces.map((t) => t.uploadedById))] } }),
+    Finding.findAll({ where: { traceId: traces.map((t) => t.id) }, attributes: ['id', 'traceId'] }),
+  ]);
   const sites = await Site.findAll({ where: { id: [...new Set(runs.map((r) => r.siteId))] } });
-  const users = await User.findAll({ where: { id: [...new Set(traces.map((t) => t.uploadedById))] } });
-  const findings = await Finding.findAll({ where: { traceId: traces.map((t) => t.id) }, attributes: ['id', 'traceId'] });
   return traces.map((t) => {
     const run = runs.find((r) => r.id === t.cableRunId)!;
     const site = sites.find((s) => s.id === run.siteId)!;
@@ -569,14 +573,16 @@ async function comparison(ctx: AppContext, trace: Trace, parsed: ParsedTrace, po
 export async function getTrace(ctx: AppContext, id: number, opts: { points: number; compareTo?: number } = { points: 2000 }): Promise<TraceDetail> {
   const trace = await Trace.findByPk(id);
   if (!trace) throw AppError.notFound(`Trace ${id}`);
-  const [summary] = await summaries([trace]);
-  const run = (await CableRun.findByPk(trace.cableRunId))!;
-  const cable = await CableType.findByPk(run.cableTypeId);
-  const markers = await RouteMarker.findAll({ where: { cableRunId: run.id }, order: [['chainageM', 'ASC']] });
-  const findings = await Finding.findAll({ where: { traceId: id }, order: [['eventIndex', 'ASC']] });
-  const parsed = await parsedSamples(ctx, trace);
+  // Independent reads side by side: one wait instead of one per query.
+  const [[summary], { run, cable }, markers, findings, parsed, newer] = await Promise.all([
+    summaries([trace]),
+    CableRun.findByPk(trace.cableRunId).then(async (r) => ({ run: r!, cable: await CableType.findByPk(r!.cableTypeId) })),
+    RouteMarker.findAll({ where: { cableRunId: trace.cableRunId }, order: [['chainageM', 'ASC']] }),
+    Finding.findAll({ where: { traceId: id }, order: [['eventIndex', 'ASC']] }),
+    parsedSamples(ctx, trace),
+    Trace.findAll({ where: { reanalysisOfId: id }, attributes: ['id'], order: [['id', 'ASC']] }),
+  ]);
   const libraryRevision = cable?.revision;
-  const newer = await Trace.findAll({ where: { reanalysisOfId: id }, attributes: ['id'], order: [['id', 'ASC']] });
   return {
     ...summary,
     settings: trace.settings,
