@@ -8,7 +8,9 @@ import type { Migration } from './index';
  *    holding no copy of the text (content = the findings table), kept in step
  *    by triggers. The search takes what it finds, less the findings where
  *    its wider case folding matched and LIKE would not, so the results are
- *    those of LIKE as before.
+ *    those of LIKE as before. Sequelize rebuilds a SQLite table to change or
+ *    remove a column, which drops its triggers: a later migration doing that
+ *    to findings must create these triggers again (and 'rebuild' the index).
  *  - PostgreSQL: pg_trgm GIN indexes on the three columns, which ILIKE uses
  *    as it is. pg_trgm ships with PostgreSQL and may be created by a
  *    database's owner; where it cannot be created the search still works,
