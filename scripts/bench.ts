@@ -9,7 +9,7 @@
  * numbers in a tight loop, nothing else), the script and the whole built
  * command (`node dist/cli/rholog.js analyze FILE`), the last two timed as
  * whole processes in alternating rounds; and the command's start-up on a
- * 200-sample file. Needs `npm run build` for the command.
+ * 200-sample file beside node's own start-up. Needs `npm run build` for the command.
  *
  *   npm run bench
  */
@@ -181,8 +181,16 @@ function sideBySide(dir: string, file: string): string[] {
     lines.push(row('rholog analyze (built, node), whole process', cli));
     const tiny = join(dir, 'tiny.csv');
     writeFileSync(tiny, demoCsv(200));
-    const [startUp] = wallTimes([[process.execPath, [bin, 'analyze', tiny, '--vf', '0.66']]], 9);
+    // Alternating with node's own start, the floor no command can go under on this machine.
+    const [startUp, nodeAlone] = wallTimes(
+      [
+        [process.execPath, [bin, 'analyze', tiny, '--vf', '0.66']],
+        [process.execPath, ['-e', '0']],
+      ],
+      11,
+    );
     lines.push(row('rholog analyze start-up, 200-sample file', startUp));
+    lines.push(row('node alone (node -e 0), start-up', nodeAlone));
   }
   return lines;
 }
