@@ -203,11 +203,14 @@ function resolveScales(kept: Candidate[]): Candidate[] {
   return accepted.sort((a, b) => a.i - b.i);
 }
 
-/** The filter's scales: w0, 3w0, 9w0, … while four windows fit the search, at most seven. */
+/**
+ * The filter's scales: w0, 3w0, 9w0, … while four windows fit the search (at most twelve, so a
+ * record whose finest scale is a couple of samples still reaches edges spread over thousands).
+ */
 function scalesOf(sig: WorkingSignal): number[] {
   const searchLen = sig.u.length - sig.start;
   const scales: number[] = [];
-  for (let w = sig.w0; 4 * w <= searchLen && scales.length < 7; w *= 3) scales.push(w);
+  for (let w = sig.w0; 4 * w <= searchLen && scales.length < 12; w *= 3) scales.push(w);
   if (scales.length === 0) scales.push(Math.max(1, Math.floor(searchLen / 4)));
   return scales;
 }
