@@ -251,7 +251,7 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     falseEventsPerTrace: FALSE_EVENTS_PER_TRACE,
     rhoMin,
   });
-  const edgeInput = { rec, launch: L, signal, rhoMin, vf: options.vf, loss: options.loss };
+  const edgeInput = { rec, launch: L, signal, rhoMin, vf: options.vf, loss: options.loss, vfPulseWidthNs: options.vfPulseWidthNs };
   const fitted = dropQuantiserStairs(fitEdges(edgeInput, detection.candidates), signal);
   const line = fitLineEdges(edgeInput, mergeEdges(fitted, signal.w0, L));
   const merged = line.events;

@@ -47,6 +47,8 @@ export interface EdgeFitInput {
   vf?: number;
   /** The cable's attenuation at stated frequencies, when known. */
   loss?: readonly LossPoint[];
+  /** The pulse width `vf` was measured at, ns: the speed it gives is that of this pulse's frequencies. */
+  vfPulseWidthNs?: number;
 }
 
 const lowFraction = (sigmaLocal: number, height: number) => Math.min(0.3, Math.max(0.1, (3 * sigmaLocal) / Math.abs(height)));
@@ -527,6 +529,16 @@ interface ModelFit {
   points: number;
 }
 
+/**
+ * The frequency the velocity factor holds at. A dielectric whose loss rises as f slows the lower
+ * frequencies (causalDielectric in loss.ts), so a speed is a speed at some frequency: that of the
+ * pulse the VF was measured with, 1/(2·width), when the library says; otherwise the fastest the record
+ * can show, its Nyquist frequency 1/(2·dt), the VF being taken as the line's high-frequency speed.
+ */
+function vfReferenceHz(input: EdgeFitInput): number {
+  return input.vfPulseWidthNs ? 1 / (2 * input.vfPulseWidthNs * 1e-9) : 1 / (2 * input.rec.dt);
+}
+
 /** Largest height a reflection can have at the port, in units of the incident wave. */
 const MAX_HEIGHT = 1;
 
@@ -548,8 +560,8 @@ function fitWindow(
   const kernel = opts.zeroPhase
     ? zeroPhaseLineKernel(model, Math.max(0, twoWayM), rec.dt * q, span)
     : (model.resistiveNpPerM ?? 0) > 0 && ctx.input.vf
-      ? exactLineKernel(model, Math.max(0, twoWayM), rec.dt * q, span, ctx.input.vf)
-      : lineKernel(model, Math.max(0, twoWayM), rec.dt * q, span);
+      ? exactLineKernel(model, Math.max(0, twoWayM), rec.dt * q, span, ctx.input.vf, vfReferenceHz(ctx.input))
+      : lineKernel(model, Math.max(0, twoWayM), rec.dt * q, span, vfReferenceHz(ctx.input));
   const t = buildTemplate(launch, kernel, ctx.shape.step);
   let best = bestDelay(w, t, win.lo / q, win.hi / q, win.sign);
   if (!Number.isFinite(best.ss)) return null;

@@ -10,8 +10,11 @@
  *    erfc(K / 2√t) after the delay (R. L. Wigington and N. S. Nahman,
  *    "Transient analysis of coaxial cables considering skin effect",
  *    Proc. IRE 45 (1957) 166); |H| = exp(−K·√(πf)) = exp(−2d·s·√f);
- *  - dielectric: |H| = exp(−2d·g·f) = exp(−c·|ω|), c = d·g/π, taken with zero
- *    phase: a Cauchy (Lorentzian) spread c/(π(c² + t²)) centred on the delay.
+ *  - dielectric: |H| = exp(−2d·g·f) = exp(−c·|ω|), c = d·g/π, either with
+ *    zero phase, a Cauchy (Lorentzian) spread c/(π(c² + t²)) centred on the
+ *    delay, or causal, with the phase a loss rising as f must have
+ *    (causalDielectric): lower frequencies travel slower than the speed given,
+ *    which is that at a stated reference frequency.
  *
  * A reflection is then the launch convolved with both, so it arrives at the
  * lossless delay but rises slowly and reads low for a while; edge-fit.ts fits
@@ -189,11 +192,11 @@ export interface LineKernel {
 /**
  * Weight of each sample cell [(i − ½)dt, (i + ½)dt] of the skin response (an
  * erfc difference) convolved with that of the dielectric spread (an arctan
- * difference), out to `spanSamples` after the delay or until less than 1e-4
+ * difference, or the causal spread when a reference frequency is given), out to `spanSamples` after the delay or until less than 1e-4
  * of the step is left. The weights sum to the part of the response inside that
  * (less than 1 by the slow tail).
  */
-export function lineKernel(model: LossModel, twoWayM: number, dtS: number, spanSamples: number): LineKernel {
+export function lineKernel(model: LossModel, twoWayM: number, dtS: number, spanSamples: number, dielectricReferenceHz?: number): LineKernel {
   const k = skinParameter(model, twoWayM);
   const c = dielectricSpread(model, twoWayM);
   const span = Math.max(1, Math.ceil(spanSamples));
@@ -210,15 +213,53 @@ export function lineKernel(model: LossModel, twoWayM: number, dtS: number, spanS
   if (!(c > 0.02 * dtS)) return { values: skin, offset: 0 };
   // A Cauchy spread narrower than 2 % of a sample changes nothing worth the work.
   const half = Math.min(span, Math.ceil(Math.max(4, 50 * (c / dtS))));
-  const diel = new Float64Array(2 * half + 1);
-  for (let j = -half; j <= half; j++) diel[j + half] = (Math.atan(((j + 0.5) * dtS) / c) - Math.atan(((j - 0.5) * dtS) / c)) / Math.PI;
-  const values = new Float64Array(last + 1 + 2 * half);
+  const diel = dielectricReferenceHz ? causalDielectric(c, dtS, half, dielectricReferenceHz) : cauchySpread(c, dtS, half);
+  const values = new Float64Array(last + 1 + diel.values.length - 1);
   for (let i = 0; i <= last; i++) {
     const a = skin[i];
     if (a === 0) continue;
-    for (let j = 0; j < diel.length; j++) values[i + j] += a * diel[j];
+    for (let j = 0; j < diel.values.length; j++) values[i + j] += a * diel.values[j];
   }
+  return { values, offset: diel.offset };
+}
+
+/** The zero-phase dielectric spread: Cauchy cell weights over ±half samples. */
+function cauchySpread(c: number, dtS: number, half: number): LineKernel {
+  const values = new Float64Array(2 * half + 1);
+  for (let j = -half; j <= half; j++) values[j + half] = (Math.atan(((j + 0.5) * dtS) / c) - Math.atan(((j - 0.5) * dtS) / c)) / Math.PI;
   return { values, offset: half };
+}
+
+/**
+ * The causal dielectric spread: |H| = exp(−c·|ω|) with the phase the Hilbert transform
+ * gives it, φ(ω) = (2c/π)·ω·ln(ω/ω_ref), so that lower frequencies travel slower and the
+ * speed given is that at ω_ref (the minimum-phase constant-Q response of W. I. Futterman,
+ * J. Geophys. Res. 67 (1962) 5279; the same law as a constant loss tangent's wideband
+ * permittivity, A. R. Djordjevic et al., IEEE Trans. EMC 43 (2001) 662). Samples −4 … post.
+ */
+function causalDielectric(c: number, dtS: number, post: number, referenceHz: number): LineKernel {
+  const pre = 4;
+  let n = 256;
+  while (n < 4 * (pre + post) && n < 1 << 16) n <<= 1;
+  const re = new Float64Array(n);
+  const im = new Float64Array(n);
+  const wRef = 2 * Math.PI * referenceHz;
+  re[0] = 1;
+  for (let k = 1; k <= n / 2; k++) {
+    const w = (2 * Math.PI * k) / (n * dtS);
+    const amp = Math.exp(-c * w);
+    const ph = ((2 * c) / Math.PI) * w * Math.log(w / wRef);
+    re[k] = amp * Math.cos(ph);
+    im[k] = amp * Math.sin(ph);
+    if (k < n / 2) {
+      re[n - k] = re[k];
+      im[n - k] = -im[k];
+    } else im[k] = 0;
+  }
+  fft(re, im, true);
+  const values = new Float64Array(pre + post + 1);
+  for (let j = -pre; j <= post; j++) values[j + pre] = re[(j + n) % n];
+  return { values, offset: pre };
 }
 
 /**
@@ -278,9 +319,9 @@ export function fft(re: Float64Array, im: Float64Array, inverse = false): void {
  * (telegrapher's equations, Pozar §2.1 and §2.7). At high frequency it is the
  * skin edge attenuated by e^(−2d·r); at low frequency the line turns diffusive and
  * the response creeps up to its full height. The dielectric spread is the same
- * Cauchy spread as lineKernel's.
+ * spread as lineKernel's (Cauchy, or causal about a reference frequency).
  */
-export function exactLineKernel(model: LossModel, twoWayM: number, dtS: number, spanSamples: number, vf: number): LineKernel {
+export function exactLineKernel(model: LossModel, twoWayM: number, dtS: number, spanSamples: number, vf: number, dielectricReferenceHz?: number): LineKernel {
   const span = Math.max(8, Math.ceil(spanSamples));
   let n = 256;
   while (n < 2 * span && n < 1 << 17) n <<= 1;
@@ -326,13 +367,14 @@ export function exactLineKernel(model: LossModel, twoWayM: number, dtS: number, 
   const c = dielectricSpread(model, twoWayM);
   if (!(c > 0.02 * dtS)) return { values: conductors, offset: 0 };
   const half = Math.min(span, Math.ceil(Math.max(4, 50 * (c / dtS))));
-  const values = new Float64Array(span + 1 + 2 * half);
+  const diel = dielectricReferenceHz ? causalDielectric(c, dtS, half, dielectricReferenceHz) : cauchySpread(c, dtS, half);
+  const values = new Float64Array(span + diel.values.length);
   for (let i = 0; i <= span; i++) {
     const a = conductors[i];
     if (a === 0) continue;
-    for (let j = -half; j <= half; j++) values[i + j + half] += (a * (Math.atan(((j + 0.5) * dtS) / c) - Math.atan(((j - 0.5) * dtS) / c))) / Math.PI;
+    for (let j = 0; j < diel.values.length; j++) values[i + j] += a * diel.values[j];
   }
-  return { values, offset: half };
+  return { values, offset: diel.offset };
 }
 
 /**
