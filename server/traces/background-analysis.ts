@@ -30,8 +30,17 @@ interface AnalysisJob {
 async function claim(ctx: AppContext, traceId: number): Promise<Trace | null> {
   const now = new Date();
   const [claimed] = await Trace.update(
-    { analysisAttempts: literal('analysis_attempts + 1'), analysisLeaseUntil: new Date(now.getTime() + ctx.config.jobs.leaseSeconds * 1000) },
-    { where: { id: traceId, status: 'pending', [Op.or]: [{ analysisLeaseUntil: null }, { analysisLeaseUntil: { [Op.lte]: now } }] } },
+    {
+      analysisAttempts: literal('analysis_attempts + 1'),
+      analysisLeaseUntil: new Date(now.getTime() + ctx.config.jobs.leaseSeconds * 1000),
+    },
+    {
+      where: {
+        id: traceId,
+        status: 'pending',
+        [Op.or]: [{ analysisLeaseUntil: null }, { analysisLeaseUntil: { [Op.lte]: now } }],
+      },
+    },
   );
   return claimed === 1 ? Trace.findByPk(traceId) : null;
 }
@@ -40,7 +49,14 @@ async function claim(ctx: AppContext, traceId: number): Promise<Trace | null> {
 async function record(trace: Trace, outcome: Outcome, cable: CableType | null): Promise<boolean> {
   const columns = cable
     ? analysisColumns(outcome, cable, trace.settings)
-    : { status: outcome.status, errorCode: outcome.error?.code ?? null, errorMessage: outcome.error?.message ?? null, errorLine: outcome.error?.line ?? null, errorField: outcome.error?.field ?? null, analysis: null };
+    : {
+        status: outcome.status,
+        errorCode: outcome.error?.code ?? null,
+        errorMessage: outcome.error?.message ?? null,
+        errorLine: outcome.error?.line ?? null,
+        errorField: outcome.error?.field ?? null,
+        analysis: null,
+      };
   const [written] = await Trace.update({ ...columns, analysisLeaseUntil: null }, { where: { id: trace.id, status: 'pending' } });
   return written === 1;
 }
@@ -49,7 +65,14 @@ async function analyseOnce(ctx: AppContext, trace: Trace, signal: AbortSignal): 
   const run = await CableRun.findByPk(trace.cableRunId);
   const cable = run ? await CableType.findByPk(run.cableTypeId) : null;
   if (!cable) {
-    await record(trace, failedOutcome('NO_CABLE_TYPE', `The cable run of trace ${trace.id} has no cable type in the library, so the file could not be analysed.`), null);
+    await record(
+      trace,
+      failedOutcome(
+        'NO_CABLE_TYPE',
+        `The cable run of trace ${trace.id} has no cable type in the library, so the file could not be analysed.`,
+      ),
+      null,
+    );
     return;
   }
   if (signal.aborted) throw new JobReleased();
@@ -59,7 +82,11 @@ async function analyseOnce(ctx: AppContext, trace: Trace, signal: AbortSignal): 
   } catch (err) {
     // The stored file is gone or altered: trying again cannot help.
     if (err instanceof RawFileMissing || err instanceof RawFileChanged) {
-      await record(trace, failedOutcome(err instanceof RawFileMissing ? 'RAW_FILE_MISSING' : 'RAW_FILE_CHANGED', err.message), cable);
+      await record(
+        trace,
+        failedOutcome(err instanceof RawFileMissing ? 'RAW_FILE_MISSING' : 'RAW_FILE_CHANGED', err.message),
+        cable,
+      );
       return;
     }
     throw err;
@@ -71,7 +98,9 @@ async function analyseOnce(ctx: AppContext, trace: Trace, signal: AbortSignal): 
   if (code && TRY_AGAIN.has(code)) throw new Error(result.outcome.error!.message);
   if (await record(trace, result.outcome, cable)) {
     if (result.parsed) rememberParsed(ctx, trace.rawPath, trace.settings, result.parsed);
-    ctx.log(`trace ${trace.id} analysed in the background: ${result.outcome.status}${code ? ` (${code})` : ''}, try ${trace.analysisAttempts}, ${Math.round(result.elapsedMs)} ms`);
+    ctx.log(
+      `trace ${trace.id} analysed in the background: ${result.outcome.status}${code ? ` (${code})` : ''}, try ${trace.analysisAttempts}, ${Math.round(result.elapsedMs)} ms`,
+    );
   }
 }
 
@@ -89,7 +118,10 @@ export async function analysePending(ctx: AppContext, traceId: number, signal: A
   const giveUp = (why: string) =>
     record(
       trace,
-      failedOutcome('ANALYSIS_GAVE_UP', `The background analysis of this file did not finish after ${ANALYSIS_MAX_TRIES} tries (the last: ${why}). The file is kept; analyse it again later.`),
+      failedOutcome(
+        'ANALYSIS_GAVE_UP',
+        `The background analysis of this file did not finish after ${ANALYSIS_MAX_TRIES} tries (the last: ${why}). The file is kept; analyse it again later.`,
+      ),
       null,
     );
   if (tries > ANALYSIS_MAX_TRIES) {
@@ -101,7 +133,10 @@ export async function analysePending(ctx: AppContext, traceId: number, signal: A
   } catch (err) {
     if (err instanceof JobReleased) {
       // This instance is stopping: hand the trace back without counting the try.
-      await Trace.update({ analysisLeaseUntil: null, analysisAttempts: literal('analysis_attempts - 1') }, { where: { id: traceId, status: 'pending' } });
+      await Trace.update(
+        { analysisLeaseUntil: null, analysisAttempts: literal('analysis_attempts - 1') },
+        { where: { id: traceId, status: 'pending' } },
+      );
       throw err;
     }
     const why = ((err as Error)?.message || String(err)).slice(0, 200);
@@ -117,11 +152,36 @@ export async function analysePending(ctx: AppContext, traceId: number, signal: A
 }
 
 /**
- * Declare the job on this instance's queue, and queue again every pending
- * trace nobody holds: on SQLite the queue lives in memory and ended with the
- * last process (whose leases are void), and on PostgreSQL an instance may
- * have died between storing an upload and queueing its analysis. A trace
- * queued twice is analysed once (the claim's lease).
+ * Queue again the pending traces nobody holds that have not changed for
+ * `idleMs`: their job was lost (the queue in memory ended with its process,
+ * or an instance died between storing the upload and queueing its analysis).
+ * A trace queued twice is still analysed once (the claim's lease).
+ */
+export async function requeueWaiting(ctx: AppContext, idleMs: number): Promise<number[]> {
+  const now = Date.now();
+  const waiting = await Trace.findAll({
+    where: {
+      status: 'pending',
+      updatedAt: { [Op.lte]: new Date(now - idleMs) },
+      [Op.or]: [{ analysisLeaseUntil: null }, { analysisLeaseUntil: { [Op.lte]: new Date(now) } }],
+    },
+    attributes: ['id'],
+  });
+  if (waiting.length)
+    ctx.log(`${waiting.length} uploaded trace${waiting.length === 1 ? '' : 's'} waiting for analysis queued again`);
+  const ids = waiting.map((t) => t.id);
+  await queueAnalyses(ctx, ids);
+  return ids;
+}
+
+/**
+ * Declare the job on this instance's queue and queue again every pending
+ * trace nobody holds (on SQLite the leases of the last process are void).
+ * On PostgreSQL each instance also looks every lease period for a pending
+ * trace left idle for two leases: longer than any retry's back-off, so a
+ * trace whose job was lost, not one waiting for its retry (under a backlog
+ * longer than that, a trace still waiting may be queued twice: it is still
+ * analysed once).
  */
 export async function registerTraceAnalysis(ctx: AppContext) {
   await ctx.jobs.define<AnalysisJob>(
@@ -130,13 +190,14 @@ export async function registerTraceAnalysis(ctx: AppContext) {
     (data, job) => analysePending(ctx, data.traceId, job.signal),
   );
   if (ctx.jobs.engine === 'in-process') await Trace.update({ analysisLeaseUntil: null }, { where: { status: 'pending' } });
-  const waiting = await Trace.findAll({
-    where: { status: 'pending', [Op.or]: [{ analysisLeaseUntil: null }, { analysisLeaseUntil: { [Op.lte]: new Date() } }] },
-    attributes: ['id'],
-  });
-  if (waiting.length) ctx.log(`${waiting.length} uploaded trace${waiting.length === 1 ? '' : 's'} waiting for analysis queued again`);
-  await queueAnalyses(
-    ctx,
-    waiting.map((t) => t.id),
-  );
+  await requeueWaiting(ctx, 0);
+  if (ctx.jobs.engine !== 'pg-boss') return;
+  const leaseMs = ctx.config.jobs.leaseSeconds * 1000;
+  const timer = setInterval(() => {
+    requeueWaiting(ctx, 2 * leaseMs).catch((err: Error) =>
+      ctx.log('looking for uploads waiting for analysis failed', err.message),
+    );
+  }, leaseMs);
+  timer.unref();
+  ctx.onClose.unshift(async () => clearInterval(timer));
 }

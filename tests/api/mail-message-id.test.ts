@@ -36,7 +36,12 @@ describe('one Message-ID per notification, kept across tries', () => {
       return info;
     };
     try {
-      const job = await api.app.ctx.mail.queue.enqueue({ kind: 'test', to: ['crew.two@example.com'], subject: 'Pit 7 open', text: 'Bring cones.' });
+      const job = await api.app.ctx.mail.queue.enqueue({
+        kind: 'test',
+        to: ['crew.two@example.com'],
+        subject: 'Pit 7 open',
+        text: 'Bring cones.',
+      });
       expect(job!.messageId).toMatch(MSG_ID);
       expect(job!.messageId!.endsWith('@example.com>')).toBe(true);
       const sent = await eventually(async () => {
@@ -54,10 +59,23 @@ describe('one Message-ID per notification, kept across tries', () => {
   });
 
   it('leaves a job another instance is sending alone until its lease ends, then sends it with the same Message-ID', async () => {
-    const held = await api.app.ctx.mail.queue.enqueue({ kind: 'test', to: ['crew.three@example.com'], subject: 'Held', text: 'x' });
+    const held = await api.app.ctx.mail.queue.enqueue({
+      kind: 'test',
+      to: ['crew.three@example.com'],
+      subject: 'Held',
+      text: 'x',
+    });
     // As if another instance claimed it and is still within its lease (it may be talking to the relay right now).
-    await MailJob.update({ status: 'sending', attempts: 0, nextAttemptAt: new Date(Date.now() + 60_000) }, { where: { id: held!.id } });
-    const other = await api.app.ctx.mail.queue.enqueue({ kind: 'test', to: ['crew.four@example.com'], subject: 'Not held', text: 'y' });
+    await MailJob.update(
+      { status: 'sending', attempts: 0, nextAttemptAt: new Date(Date.now() + 60_000) },
+      { where: { id: held!.id } },
+    );
+    const other = await api.app.ctx.mail.queue.enqueue({
+      kind: 'test',
+      to: ['crew.four@example.com'],
+      subject: 'Not held',
+      text: 'y',
+    });
     await eventually(async () => (await MailJob.findByPk(other!.id))?.status === 'sent', 'the other job sent');
     const still = await MailJob.findByPk(held!.id);
     expect([still!.status, still!.attempts]).toEqual(['sending', 0]);
@@ -75,9 +93,17 @@ describe('one Message-ID per notification, kept across tries', () => {
   });
 
   it('marks failed, without sending again, a job whose last try was lost with its instance', async () => {
-    const job = await api.app.ctx.mail.queue.enqueue({ kind: 'test', to: ['crew.five@example.com'], subject: 'Last try lost', text: 'z' });
+    const job = await api.app.ctx.mail.queue.enqueue({
+      kind: 'test',
+      to: ['crew.five@example.com'],
+      subject: 'Last try lost',
+      text: 'z',
+    });
     // Two tries failed; the third (the last of 3) was being sent when its instance died.
-    await MailJob.update({ status: 'sending', attempts: 2, nextAttemptAt: new Date(Date.now() - 1000) }, { where: { id: job!.id } });
+    await MailJob.update(
+      { status: 'sending', attempts: 2, nextAttemptAt: new Date(Date.now() - 1000) },
+      { where: { id: job!.id } },
+    );
     api.app.ctx.mail.queue.kick();
     const failed = await eventually(async () => {
       const r = await MailJob.findByPk(job!.id);
@@ -89,7 +115,12 @@ describe('one Message-ID per notification, kept across tries', () => {
   });
 
   it('gives a job queued before Message-IDs were kept one made from its row, the same on every instance', async () => {
-    const job = await api.app.ctx.mail.queue.enqueue({ kind: 'test', to: ['crew.six@example.com'], subject: 'Old row', text: 'w' });
+    const job = await api.app.ctx.mail.queue.enqueue({
+      kind: 'test',
+      to: ['crew.six@example.com'],
+      subject: 'Old row',
+      text: 'w',
+    });
     const row = await MailJob.findByPk(job!.id);
     const made = messageIdOf({ id: row!.id, createdAt: row!.createdAt, messageId: null }, 'example.com');
     expect(made).toBe(`<mail.${row!.id}.${row!.createdAt.getTime()}@example.com>`);
@@ -106,7 +137,12 @@ describe('the capture server as a receiver', () => {
 
   it('keeps one copy of a notification delivered twice under one Message-ID', async () => {
     const mailer = api.app.ctx.mail.mailer;
-    const one = { to: 'crew.seven@example.com', subject: 'Twice', text: 'Same notification.', messageId: '<repeat-test-1@example.com>' };
+    const one = {
+      to: 'crew.seven@example.com',
+      subject: 'Twice',
+      text: 'Same notification.',
+      messageId: '<repeat-test-1@example.com>',
+    };
     await mailer.send(one);
     await mailer.send(one);
     await mailer.send({ ...one, messageId: '<repeat-test-2@example.com>' });

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Trace } from '../../server/db/models';
-import { analysePending, ANALYSIS_MAX_TRIES } from '../../server/traces/background-analysis';
+import { analysePending, ANALYSIS_MAX_TRIES, requeueWaiting } from '../../server/traces/background-analysis';
 import { eventually } from './mail.support';
 import { makeRun, stepTraceCsv } from './support/field-fixtures';
 import { startApi, type TestApi } from './support/api';
@@ -15,26 +15,52 @@ let runId: number;
 const INLINE_MAX = 20_000;
 
 beforeAll(async () => {
-  api = await startApi({ analysisInlineMaxBytes: INLINE_MAX, jobs: { maintenanceSeconds: 1, pollSeconds: 0.5, leaseSeconds: 30, shutdownGraceMs: 2000 } });
+  api = await startApi({
+    analysisInlineMaxBytes: INLINE_MAX,
+    jobs: { maintenanceSeconds: 1, pollSeconds: 0.5, leaseSeconds: 30, shutdownGraceMs: 2000 },
+  });
   runId = (await makeRun()).run.id;
 });
 afterAll(() => api.close());
 
-type Ev = { type: string; distanceM: number; roundTripNs: number; reflectionCoefficient: number; windowStartM: number; windowEndM: number };
+type Ev = {
+  type: string;
+  distanceM: number;
+  roundTripNs: number;
+  reflectionCoefficient: number;
+  windowStartM: number;
+  windowEndM: number;
+};
 const eventsOf = (t: { analysis: { events: Ev[] } }) =>
-  t.analysis.events.map((e) => ({ type: e.type, distanceM: e.distanceM, roundTripNs: e.roundTripNs, rho: e.reflectionCoefficient, from: e.windowStartM, to: e.windowEndM }));
+  t.analysis.events.map((e) => ({
+    type: e.type,
+    distanceM: e.distanceM,
+    roundTripNs: e.roundTripNs,
+    rho: e.reflectionCoefficient,
+    from: e.windowStartM,
+    to: e.windowEndM,
+  }));
 
 async function upload(csv: string | Buffer, name: string, end: 'A' | 'B', expected: number) {
   const c = await api.as('technician');
-  return c.postRaw('/api/traces').field('cableRunId', String(runId)).field('end', end).attach('file', Buffer.from(csv), name).expect(expected);
+  return c
+    .postRaw('/api/traces')
+    .field('cableRunId', String(runId))
+    .field('end', end)
+    .attach('file', Buffer.from(csv), name)
+    .expect(expected);
 }
 
 async function settled(id: number) {
   const c = await api.as('technician');
-  return eventually(async () => {
-    const res = await c.get(`/api/traces/${id}`).expect(200);
-    return res.body.status === 'pending' ? undefined : res.body;
-  }, `trace ${id} to leave "pending"`, 30_000);
+  return eventually(
+    async () => {
+      const res = await c.get(`/api/traces/${id}`).expect(200);
+      return res.body.status === 'pending' ? undefined : res.body;
+    },
+    `trace ${id} to leave "pending"`,
+    30_000,
+  );
 }
 
 describe('uploads above the inline limit', () => {
@@ -78,18 +104,25 @@ describe('uploads above the inline limit', () => {
     const id = res.body.traces[0].id as number;
     await settled(id);
     // Back to pending and held by another instance (a live lease on the row), so it stays pending while we look.
-    await Trace.update({ status: 'pending', analysis: null, analysisAttempts: 1, analysisLeaseUntil: new Date(Date.now() + 60_000) }, { where: { id } });
+    await Trace.update(
+      { status: 'pending', analysis: null, analysisAttempts: 1, analysisLeaseUntil: new Date(Date.now() + 60_000) },
+      { where: { id } },
+    );
     await analysePending(api.app.ctx, id, new AbortController().signal);
     expect((await Trace.findByPk(id))!.status).toBe('pending');
     const c = await api.as('supervisor');
     const list = await c.get('/api/traces').query({ status: 'pending' }).expect(200);
     expect(list.body.items.map((i: { id: number; status: string }) => [i.id, i.status])).toContainEqual([id, 'pending']);
-    const finding = await c.post('/api/findings', { traceId: id, eventIndex: 0, status: 'confirmed', kind: 'open-conductor' }).expect(409);
+    const finding = await c
+      .post('/api/findings', { traceId: id, eventIndex: 0, status: 'confirmed', kind: 'open-conductor' })
+      .expect(409);
     expect(finding.body.error.code).toBe('trace_pending');
     expect(finding.body.error.message).toMatch(/still being analysed/);
     expect((await c.put(`/api/traces/${id}/reference`, { isReference: true }).expect(409)).body.error.code).toBe('trace_pending');
     expect((await c.post(`/api/traces/${id}/reanalyse`, {}).expect(409)).body.error.code).toBe('trace_pending');
-    expect((await c.get(`/api/traces/${id}/samples`).query({ fromNs: 0, toNs: 500 }).expect(409)).body.error.code).toBe('trace_pending');
+    expect((await c.get(`/api/traces/${id}/samples`).query({ fromNs: 0, toNs: 500 }).expect(409)).body.error.code).toBe(
+      'trace_pending',
+    );
     // Released (the holder's lease ends): the next try analyses it.
     await Trace.update({ analysisLeaseUntil: null }, { where: { id } });
     await analysePending(api.app.ctx, id, new AbortController().signal);
@@ -147,11 +180,44 @@ describe('uploads above the inline limit', () => {
     );
   });
 
+  it('queues again a pending trace left idle past the limit, and leaves one that changed lately or is held', async () => {
+    const ids: number[] = [];
+    for (const [i, faultM] of [150, 160, 170].entries()) {
+      const res = await upload(stepTraceCsv({ faultM, vf: 0.66, samples: 3400 + i }), `idle-${i}.csv`, 'A', 202);
+      ids.push(res.body.traces[0].id);
+      await settled(ids[i]);
+    }
+    const [idle, recent, held] = ids;
+    await Trace.update(
+      { status: 'pending', analysis: null, analysisAttempts: 1, analysisLeaseUntil: null },
+      { where: { id: [idle, recent] } },
+    );
+    await Trace.update(
+      { status: 'pending', analysis: null, analysisAttempts: 1, analysisLeaseUntil: new Date(Date.now() + 600_000) },
+      { where: { id: held } },
+    );
+    const tenMinutesAgo = new Date(Date.now() - 600_000);
+    await api.app.ctx.sequelize.query('UPDATE traces SET updated_at = :at WHERE id IN (:ids)', {
+      replacements: { at: tenMinutesAgo, ids: [idle, held] },
+    });
+    expect(await requeueWaiting(api.app.ctx, 300_000)).toEqual([idle]);
+    expect((await settled(idle)).status).toBe('ok');
+    expect((await Trace.findByPk(recent))!.status).toBe('pending');
+    expect((await Trace.findByPk(held))!.status).toBe('pending');
+    // Leave none pending for the tests after this one.
+    await Trace.update({ analysisLeaseUntil: null }, { where: { id: held } });
+    for (const id of [recent, held]) await analysePending(api.app.ctx, id, new AbortController().signal);
+    expect(await Trace.count({ where: { id: ids, status: 'ok' } })).toBe(3);
+  });
+
   it('queues again at start-up a pending trace nobody holds (its instance stopped before the job ran)', async () => {
     const res = await upload(stepTraceCsv({ faultM: 140, vf: 0.66, samples: 3300 }), 'left-pending.csv', 'A', 202);
     const id = res.body.traces[0].id as number;
     await settled(id);
-    await Trace.update({ status: 'pending', analysis: null, analysisAttempts: 1, analysisLeaseUntil: new Date(Date.now() + 600_000) }, { where: { id } });
+    await Trace.update(
+      { status: 'pending', analysis: null, analysisAttempts: 1, analysisLeaseUntil: new Date(Date.now() + 600_000) },
+      { where: { id } },
+    );
     // A fresh start on SQLite: the lease of the process that held it is void; on PostgreSQL it would wait for it to end.
     if (api.app.ctx.jobs.engine === 'in-process') {
       const { registerTraceAnalysis } = await import('../../server/traces/background-analysis');

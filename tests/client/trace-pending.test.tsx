@@ -23,7 +23,14 @@ afterEach(() => {
 });
 afterAll(() => server.close());
 
-const trace = (status: string, extra: object = {}) => ({ id: 5, status, sizeBytes: 6_291_456, createdAt: '2026-12-02T07:00:00.000Z', originalName: 'long.csv', ...extra });
+const trace = (status: string, extra: object = {}) => ({
+  id: 5,
+  status,
+  sizeBytes: 6_291_456,
+  createdAt: '2026-12-02T07:00:00.000Z',
+  originalName: 'long.csv',
+  ...extra,
+});
 
 /** The trace page's polling and its pending notice, without the chart. */
 function Probe() {
@@ -58,7 +65,13 @@ describe('a trace analysed in the background', () => {
 
   it('shows "Analysing…" while pending, asks again, and shows the result once analysed', async () => {
     asked = 0;
-    answers.splice(0, answers.length, trace('pending', { analysis: null }), trace('pending', { analysis: null }), trace('ok', { analysis: { events: [{}, {}, {}] } }));
+    answers.splice(
+      0,
+      answers.length,
+      trace('pending', { analysis: null }),
+      trace('pending', { analysis: null }),
+      trace('ok', { analysis: { events: [{}, {}, {}] } }),
+    );
     show();
     expect(await screen.findByText('Analysing…')).toBeTruthy();
     expect(screen.getByText(/6\.0 MB/)).toBeTruthy();
@@ -71,7 +84,12 @@ describe('a trace analysed in the background', () => {
   it('shows the reason when the background analysis could not read the file', async () => {
     asked = 0;
     const reason = 'Line 1501: "about a volt" in voltage_V is not a number.';
-    answers.splice(0, answers.length, trace('pending', { analysis: null }), trace('failed', { analysis: null, error: { code: 'BAD_NUMBER', message: reason, line: 1501, field: 'voltage_V' } }));
+    answers.splice(
+      0,
+      answers.length,
+      trace('pending', { analysis: null }),
+      trace('failed', { analysis: null, error: { code: 'BAD_NUMBER', message: reason, line: 1501, field: 'voltage_V' } }),
+    );
     show();
     expect((await screen.findByRole('alert', {}, { timeout: 10_000 })).textContent).toBe(reason);
     expect(screen.queryByText('Analysing…')).toBeNull();

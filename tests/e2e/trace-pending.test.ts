@@ -40,7 +40,9 @@ describe('a large upload', () => {
       await page.getByLabel('Site').selectOption({ label: 'Harrowmere North substation' });
       await page.getByLabel('Cable run').selectOption({ label: 'Feeder HN-3 to Ashby Lane' });
       await page.getByRole('button', { name: /End A/ }).click();
-      await page.getByLabel('Trace files').setInputFiles({ name: 'hn3-long-record.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+      await page
+        .getByLabel('Trace files')
+        .setInputFiles({ name: 'hn3-long-record.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
       await page.getByText('hn3-long-record.csv').waitFor();
       await page.getByRole('button', { name: 'Upload and analyse' }).click();
 

@@ -84,7 +84,11 @@ describe('an upload the server answers 202 (analysed in the background)', () => 
     expect(waiting).toBe(decision);
     expect(isDue(waiting, T0, true)).toBe(false);
     // Analysed: the events arrive and the decision binds to the open of the same type within its window.
-    const analysed = withServerEvents(stillPending, { id: 77, status: 'ok', analysis: { events: [{ ...OPEN_AT_400, index: 2, distanceM: 400.6 }] } });
+    const analysed = withServerEvents(stillPending, {
+      id: 77,
+      status: 'ok',
+      analysis: { events: [{ ...OPEN_AT_400, index: 2, distanceM: 400.6 }] },
+    });
     const bound = bindDecision(decision, analysed);
     expect(bound.target).toEqual({ traceId: 77, eventIndex: 2 });
     expect(isDue(bound, T0)).toBe(true);

@@ -9,12 +9,15 @@ import { formatDateTime } from '../../../lib/format';
  */
 export function AnalysisPending({ trace }: { trace: Pick<TraceDetail, 'status' | 'sizeBytes' | 'createdAt'> }) {
   if (trace.status !== 'pending') return null;
-  const size = trace.sizeBytes >= 1024 * 1024 ? `${(trace.sizeBytes / 1024 / 1024).toFixed(1)} MB` : `${Math.round(trace.sizeBytes / 1024)} kB`;
+  const size =
+    trace.sizeBytes >= 1024 * 1024
+      ? `${(trace.sizeBytes / 1024 / 1024).toFixed(1)} MB`
+      : `${Math.round(trace.sizeBytes / 1024)} kB`;
   return (
     <Notice tone="info" title="Analysing…" className="mb-4">
       <p>
-        This file ({size}, uploaded {formatDateTime(trace.createdAt)}) is large, so the server analyses it in the background. This page shows the
-        result as soon as it is ready; you can leave it and come back.
+        This file ({size}, uploaded {formatDateTime(trace.createdAt)}) is large, so the server analyses it in the background. This
+        page shows the result as soon as it is ready; you can leave it and come back.
       </p>
       <p className="mt-1 text-xs">Events can be decided once the analysis has finished.</p>
     </Notice>
