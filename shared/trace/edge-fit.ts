@@ -466,7 +466,7 @@ interface FitContext {
 }
 
 /** Full-rate window and delay range for event k of `events`. */
-function eventWindow(ctx: FitContext, events: Measured[], k: number): EventWindow {
+function eventWindow(ctx: FitContext, events: Measured[], k: number, extraBefore = 0): EventWindow {
   const { launch: L, signal: sig, rec } = ctx.input;
   const m = events[k];
   const riseL = Math.max(1, L.riseSamples);
@@ -490,7 +490,7 @@ function eventWindow(ctx: FitContext, events: Measured[], k: number): EventWindo
   // onset (whose fitted shape is taken out of it); no arrival is tried before the window.
   // The arrival is sought from a rise before the tangent reading (a third of one on step records, whose
   // baseline creeps on lossy lines and so cannot be stretched far back) to half a rise after it.
-  const before = Math.max(8, 2 * riseL, ctx.shape.step ? riseE / 3 : riseE);
+  const before = Math.max(8, 2 * riseL, ctx.shape.step ? riseE / 3 : riseE) + extraBefore;
   // On a slow edge the middle can lie far past the onset: the arrival is sought before both.
   const first = Math.min(d0, m.onsetIdx - ref);
   const earliest = ref + first - before;
@@ -613,18 +613,18 @@ function bestShapeFit(
   model: LossModel,
   m: Measured,
   lossSource: LossSource,
-): { f: ModelFit | null; zeroPhase: boolean } {
+): { f: ModelFit | null; zeroPhase: boolean; causal: ModelFit | null } {
   const f = fitAtDistance(ctx, win, model);
   // Only a loss known beforehand tells the two shapes apart: one estimated from the edges took the causal shape.
-  if (lossSource !== 'library' || !f) return { f, zeroPhase: false };
+  if (lossSource !== 'library' || !f) return { f, zeroPhase: false, causal: f };
   // A causal fit that leaves no more than the noise needs no other shape.
   const sig = ctx.input.signal;
   const perSample = sig.mode === 'step' ? sig.sigmaU : sig.scaleForPulse * sig.unitArea;
-  if (f.ss / Math.max(1, f.points - 3) <= (4 * perSample ** 2) / f.q) return { f, zeroPhase: false };
+  if (f.ss / Math.max(1, f.points - 3) <= (4 * perSample ** 2) / f.q) return { f, zeroPhase: false, causal: f };
   const wide = { ...win, hi: win.hi + Math.max(8, m.riseSamples) };
   const z = fitAtDistance(ctx, wide, model, true);
-  if (z && z.ss < ZERO_PHASE_GAIN * f.ss && acceptable(z, m, wide)) return { f: z, zeroPhase: true };
-  return { f, zeroPhase: false };
+  if (z && z.ss < ZERO_PHASE_GAIN * f.ss && acceptable(z, m, wide)) return { f: z, zeroPhase: true, causal: f };
+  return { f, zeroPhase: false, causal: f };
 }
 
 /**
@@ -730,9 +730,22 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
   for (const [k, m] of events.entries()) {
     // A blip is two edges, and an event inside the blind zone rides on the launch's own tail: their readings stand.
     if (m.blip || m.onsetIdx < input.signal.blindIdx) continue;
-    const win = eventWindow(ctx, events, k);
+    let win = eventWindow(ctx, events, k);
     if (win.to - win.from < 8) continue;
-    const { f, zeroPhase } = bestShapeFit(ctx, win, model, m, lossSource);
+    const shaped = bestShapeFit(ctx, win, model, m, lossSource);
+    let { f, zeroPhase } = shaped;
+    // A fit that runs into the earliest arrival tried (a lossy edge's foot lies further back than its
+    // tangent reading suggests) is tried once more with the search reaching a range further back.
+    if (shaped.causal && shaped.causal.d < win.lo + 0.01 * (win.hi - win.lo)) {
+      const wider = eventWindow(ctx, events, k, win.hi - win.lo);
+      if (wider.lo < win.lo - 1) {
+        const again = bestShapeFit(ctx, wider, model, m, lossSource);
+        if (again.f && acceptable(again.f, m, wider)) {
+          ({ f, zeroPhase } = again);
+          win = wider;
+        }
+      }
+    }
     if (!f || !acceptable(f, m, win)) continue;
     const probe = model === NO_LOSS ? null : fitWindow(ctx, win, scaled(model, 1 + LOSS_PROBE), twoWayOf(ctx, f.d), { withMiddle: false, zeroPhase });
     m.fit = {
