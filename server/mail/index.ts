@@ -24,7 +24,12 @@ export async function startMail(config: AppConfig, log: (m: string) => void): Pr
     log(`Mail is captured locally (SMTP on 127.0.0.1:${capture.port}); admins read it on the Outbox page.`);
   }
   const mailer = createMailer({ from: config.mailFrom, smtpUrl: config.smtpUrl, capture: capture ?? undefined });
-  const queue = new MailQueue(mailer, { retryBaseMs: config.mailRetryBaseMs, maxAttempts: config.mailMaxAttempts, log, messageIdDomain: messageIdDomain(config.mailFrom) });
+  const queue = new MailQueue(mailer, {
+    retryBaseMs: config.mailRetryBaseMs,
+    maxAttempts: config.mailMaxAttempts,
+    log,
+    messageIdDomain: messageIdDomain(config.mailFrom),
+  });
   queue.start();
   return {
     queue,

@@ -214,7 +214,10 @@ const eventsOf = (t: TraceAnswer): DeviceEvent[] =>
  */
 export function withServerEvents(item: UploadItem, trace: TraceAnswer): UploadItem {
   if (!item.result) return item;
-  return { ...item, result: { ...item.result, traceStatus: trace.status, events: trace.status === 'pending' ? null : eventsOf(trace) } };
+  return {
+    ...item,
+    result: { ...item.result, traceStatus: trace.status, events: trace.status === 'pending' ? null : eventsOf(trace) },
+  };
 }
 
 function sentUpload(item: UploadItem, now: Date, result: UploadItem['result']): UploadItem {
