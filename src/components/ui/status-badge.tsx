@@ -44,6 +44,7 @@ export const STATUS_BADGES = {
   },
   mail: {
     queued: ['warn', 'Waiting to send'],
+    sending: ['info', 'Sending'],
     retrying: ['warn', 'Retrying'],
     sent: ['ok', 'Sent'],
     failed: ['danger', 'Not delivered'],

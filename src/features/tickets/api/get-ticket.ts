@@ -9,7 +9,7 @@ export const getTicketQueryOptions = (id: number) =>
     queryKey: ['tickets', 'one', id],
     queryFn: () => getTicket(id),
     // Keep watching while an e-mail about it is still on its way.
-    refetchInterval: (q) => (q.state.data?.mail.some((m) => m.status === 'queued') ? 4_000 : false),
+    refetchInterval: (q) => (q.state.data?.mail.some((m) => m.status === 'queued' || m.status === 'sending') ? 4_000 : false),
   });
 
 export function useTicket(id: number) {
