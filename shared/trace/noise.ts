@@ -61,7 +61,19 @@ export function adcStep(y: Float64Array): number {
   return noiseAndStep(y).q;
 }
 
+/** Both are read from one pass; an analysis asks for each of the same record once. */
+const measured = new WeakMap<Float64Array, { sigma0: number; q: number }>();
+
 function noiseAndStep(y: Float64Array): { sigma0: number; q: number } {
+  let r = measured.get(y);
+  if (!r) {
+    r = measureNoise(y);
+    measured.set(y, r);
+  }
+  return r;
+}
+
+function measureNoise(y: Float64Array): { sigma0: number; q: number } {
   const n = y.length;
   const clipped = saturated(y);
   const diffStep = Math.max(1, Math.floor((n - 1) / 8001));
