@@ -178,13 +178,13 @@ export class MailQueue {
   /**
    * Take a due job for this instance: one conditional UPDATE marks it
    * 'sending' and sets the lease (nextAttemptAt) before any byte goes to the
-   * relay. Several instances may read the same due row, but
-   * the database applies the updates one after another and only the first
-   * still finds it as read, so exactly one instance sends it. An instance that
-   * dies while sending leaves the row 'sending' until the lease ends; only
-   * then is it due again, with the same Message-ID, and the lost try counts
-   * as one. A job whose last try was lost that way is marked failed
-   * instead: the relay may or may not have it.
+   * relay. Several instances may read the same due row, but the database
+   * applies the updates one after another and only the first still finds it
+   * as read, so exactly one instance sends it. An instance that dies while
+   * sending leaves the row 'sending' until the lease ends; only then is it
+   * due again, with the same Message-ID, and the lost try counts as one. A
+   * job whose last try was lost that way is marked failed instead: the relay
+   * may or may not have it.
    */
   private async claim(job: MailJob): Promise<boolean> {
     const now = new Date();
