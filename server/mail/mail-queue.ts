@@ -161,7 +161,10 @@ export class MailQueue {
       // Queued and due, or being sent by an instance whose lease ran out (it died mid-send).
       const due = await MailJob.findAll({
         where: { status: ['queued', 'sending'], nextAttemptAt: { [Op.lte]: new Date() } },
-        order: [['nextAttemptAt', 'ASC'], ['id', 'ASC']],
+        order: [
+          ['nextAttemptAt', 'ASC'],
+          ['id', 'ASC'],
+        ],
         limit: 20,
       });
       if (due.length === 0) break;
@@ -195,7 +198,8 @@ export class MailQueue {
         {
           status: 'failed',
           attempts,
-          lastError: 'The server sending it stopped during the last try; the relay may or may not have taken it (check before sending it again).',
+          lastError:
+            'The server sending it stopped during the last try; the relay may or may not have taken it (check before sending it again).',
         },
         { where: asRead },
       );
@@ -207,7 +211,8 @@ export class MailQueue {
       { where: asRead },
     );
     if (count !== 1) return false;
-    if (job.status === 'sending') this.options.log(`mail job ${job.id}: its sender stopped mid-send; sending it again with the same Message-ID ${messageId}`);
+    if (job.status === 'sending')
+      this.options.log(`mail job ${job.id}: its sender stopped mid-send; sending it again with the same Message-ID ${messageId}`);
     Object.assign(job, { status: 'sending', attempts, lastAttemptAt: now, messageId });
     return true;
   }
