@@ -27,7 +27,9 @@ export function ArchivedTraces({ traceLink }: { traceLink: (id: number) => strin
                 <Link to={traceLink(t.id)} className="block min-h-11 py-3">
                   <span className="block break-all font-semibold text-teal underline">{t.originalName}</span>
                   <span className="block text-sm text-ink-soft">
-                    {t.siteName} · {t.cableRunName} · end {t.end} · {t.status === 'ok' ? 'read' : 'could not be read'} · uploaded by {t.uploadedBy.name}
+                    {t.siteName} · {t.cableRunName} · end {t.end} ·{' '}
+                    {t.status === 'ok' ? 'read' : t.status === 'pending' ? 'analysing' : 'could not be read'} · uploaded by{' '}
+                    {t.uploadedBy.name}
                   </span>
                   <span className="block text-sm">
                     Archived by {t.archivedBy.name}, {formatDateTime(t.archivedAt)}: {t.reason}
