@@ -269,9 +269,12 @@ function returnsFromBlip(blip: Measured, m: Measured): boolean {
 /**
  * Merge a pair of opposite steps closer than their own width into one blip (a
  * splice, a short section), and same-sign steps closer than a window into one.
+ * In a pulse record two echoes are apart once they arrive more than one launch
+ * edge apart (its width and two rise times): closer, they overlap into one blip.
  */
 export function mergeEdges(measured: Measured[], w0: number, L: Launch): Measured[] {
   const merged: Measured[] = [];
+  const pulseEdge = L.widthSamples !== null ? L.widthSamples + 2 * L.riseSamples : 0;
   for (const m of measured) {
     const last = merged[merged.length - 1];
     if (last && last.blip && returnsFromBlip(last, m)) {
@@ -281,8 +284,7 @@ export function mergeEdges(measured: Measured[], w0: number, L: Launch): Measure
     if (
       last &&
       Math.sign(last.height) !== Math.sign(m.height) &&
-      m.onsetIdx - last.onsetIdx <
-        Math.max(1.5 * Math.max(last.w, m.w), 2 * w0, 1.5 * last.riseSamples, 3 * (L.widthSamples ?? 0)) &&
+      m.onsetIdx - last.onsetIdx < Math.max(1.5 * Math.max(last.w, m.w), 2 * w0, 1.5 * last.riseSamples, pulseEdge) &&
       Math.abs(last.height + m.height) < 0.75 * Math.abs(last.height)
     ) {
       last.blip = true;

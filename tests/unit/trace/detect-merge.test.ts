@@ -47,4 +47,22 @@ describe('merging edges', () => {
     const rise = edge(0.2, { onsetIdx: 1060, endIdx: 1090, levelBefore: -0.2 });
     expect(mergeEdges([drop, rise], 5, launch)).toHaveLength(2);
   });
+
+  describe('in a pulse record', () => {
+    // A launch pulse 79 samples wide at half height with rises of 23: one edge is 79 + 2·23 = 125 samples.
+    const pulse = { widthSamples: 79, riseSamples: 23 } as Launch;
+    const drop = (at: number) => edge(-0.17, { onsetIdx: at, endIdx: at + 170, riseSamples: 90, w: 32 });
+    const rise = (at: number) => edge(0.17, { onsetIdx: at, endIdx: at + 170, riseSamples: 90, w: 32 });
+
+    it('keeps the two echoes of a splice apart once they arrive more than one launch edge apart', () => {
+      // 192 samples apart (a splice 2.2 m long on a line of VF 0.52 sampled every 0.145 ns).
+      expect(mergeEdges([drop(13170), rise(13362)], 32, pulse)).toHaveLength(2);
+    });
+
+    it('merges them into one blip when they overlap within one launch edge', () => {
+      const merged = mergeEdges([drop(13170), rise(13270)], 32, pulse);
+      expect(merged).toHaveLength(1);
+      expect(merged[0].blip).toBe(true);
+    });
+  });
 });
