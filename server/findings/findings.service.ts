@@ -1,4 +1,4 @@
-import { literal, Op, type WhereOptions } from 'sequelize';
+import { literal, Op, QueryTypes, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { describeRoutePosition, distanceFromA, metresText, routePosition } from '../../shared/field/route-position';
 import { twoEndedLocation } from '../../shared/field/two-ended';
@@ -178,6 +178,8 @@ export async function getFinding(id: number): Promise<FindingView> {
 }
 
 const TEXT_COLUMNS = ['note', 'kind', 'route_position_text'];
+/** Up to this many findings holding the text are read by id rather than by walking a sort index. */
+const FEW_MATCHES = 2000;
 
 /**
  * Findings whose note, kind or route position sentence contains `text`, as
@@ -187,7 +189,7 @@ const TEXT_COLUMNS = ['note', 'kind', 'route_position_text'];
  * into ASCII (listed in their own partial index) are kept only if LIKE
  * matches them too. On PostgreSQL the trigram indexes serve ILIKE directly.
  */
-function findingsContaining(text: string) {
+async function findingsContaining(text: string) {
   const sequelize = Finding.sequelize!;
   // Shorter text has no trigram; LIKE matches letters beyond ASCII in their own case only, so such text is
   // not looked up in the index (which would find every case of it) but matched by LIKE alone.
@@ -198,8 +200,14 @@ function findingsContaining(text: string) {
   const pattern = sequelize.escape(containsPattern(text));
   const phrase = sequelize.escape(`"${text.replace(/"/g, '""')}"`);
   const like = TEXT_COLUMNS.map((c) => `${qi.quoteIdentifier(c)} LIKE ${pattern} ESCAPE '\\'`).join(' OR ');
+  const found = `SELECT rowid FROM ${FINDINGS_TEXT_FTS} WHERE ${FINDINGS_TEXT_FTS} MATCH ${phrase}`;
+  // A few matches are read by id and sorted; many are met walking the list's sort index (the unary plus
+  // keeps the id test from driving the query), which stops at the end of the page.
+  const [{ n }] = await sequelize.query<{ n: number }>(`SELECT count(*) AS n FROM (${found} LIMIT ${FEW_MATCHES + 1})`, {
+    type: QueryTypes.SELECT,
+  });
   return literal(
-    `+${id} IN (SELECT rowid FROM ${FINDINGS_TEXT_FTS} WHERE ${FINDINGS_TEXT_FTS} MATCH ${phrase}) ` +
+    `${n > FEW_MATCHES ? '+' : ''}${id} IN (${found}) ` +
       `AND +${id} NOT IN (SELECT id FROM findings WHERE (${FINDINGS_FOLDED_WHERE}) AND NOT coalesce(${like}, 0))`,
   );
 }
@@ -211,7 +219,7 @@ export async function listFindings(q: z.output<typeof FindingListQuerySchema>): 
     ...(q.traceId ? { traceId: q.traceId } : {}),
     ...(q.status ? { status: q.status } : {}),
     // Text search: the note, the kind and the route position sentence.
-    ...(q.q ? { [Op.and]: [findingsContaining(q.q)] } : {}),
+    ...(q.q ? { [Op.and]: [await findingsContaining(q.q)] } : {}),
   };
   const { rows, count } = await Finding.findAndCountAll({
     where,
