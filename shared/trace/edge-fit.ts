@@ -567,15 +567,18 @@ function fitWindow(
   if (!Number.isFinite(best.ss)) return null;
   // No reflection exceeds the wave that met it (|ρ| ≤ 1): a fitted height past that means the model's
   // edge is off (a record ending on the rise, a baseline creeping), and the delay that went with it is
-  // pulled too; the delay is then fitted again with the height held at the bound.
+  // pulled too; the delay is then fitted again with the height held at the bound. Neither delay can be
+  // trusted over the other, so the held one carries the gap between them as a uniform spread (±gap, u = gap/√3).
   let heldAt: number | undefined;
+  let heldGap = 0;
   if (Math.abs(best.h) > MAX_HEIGHT) {
     heldAt = Math.sign(best.h) * MAX_HEIGHT;
     const held = bestDelay(w, t, win.lo / q, win.hi / q, win.sign, heldAt);
     if (!Number.isFinite(held.ss)) return null;
+    heldGap = Math.abs(held.d - best.d);
     best = held;
   }
-  const sigma = delaySigma(w, t, best.d, best.ss, (win.hi - win.lo) / q / 2, heldAt);
+  const sigma = Math.hypot(delaySigma(w, t, best.d, best.ss, (win.hi - win.lo) / q / 2, heldAt), heldGap / Math.sqrt(3));
   const middle = withMiddle ? middleOf(t) - kernel.offset - middleOf(buildTemplate(launch, { values: Float64Array.of(1), offset: 0 }, ctx.shape.step)) : 0;
   return {
     d: best.d * q,
