@@ -178,6 +178,12 @@ export function fitEdges(input: EdgeFitInput, accepted: Candidate[]): Measured[]
 const MAX_FIT_POINTS = 600;
 /** The same for the fits that estimate an unknown loss. */
 const ESTIMATE_POINTS = 300;
+/**
+ * How closely those fits place the delay, in blocks: only their residual is used, and near its minimum
+ * the residual changes with the square of the delay's error, so a twentieth of a block changes it by
+ * far less than the noise does (the full fits go to a thousandth).
+ */
+const ESTIMATE_DELAY_TOL = 0.05;
 /** Relative change of the loss parameter used to measure a delay's sensitivity to the loss model. */
 export const LOSS_PROBE = 0.25;
 
@@ -408,7 +414,15 @@ function goldenMin(f: (x: number) => number, a: number, b: number, tol: number, 
 }
 
 /** Delay of least residual in [lo, hi]: a grid of at most 24 steps (none over a few samples), then golden-section search around its best point. */
-function bestDelay(w: WindowData, t: Template, lo: number, hi: number, sign: number, fixedH?: number): { d: number; ss: number; h: number } {
+function bestDelay(
+  w: WindowData,
+  t: Template,
+  lo: number,
+  hi: number,
+  sign: number,
+  fixedH?: number,
+  tol = 1e-3,
+): { d: number; ss: number; h: number } {
   const steps = Math.max(8, Math.min(24, Math.ceil((hi - lo) / 0.5)));
   const step = (hi - lo) / steps;
   let best = { d: lo, ss: Infinity, h: 0 };
@@ -418,7 +432,7 @@ function bestDelay(w: WindowData, t: Template, lo: number, hi: number, sign: num
     if (Math.sign(p.h) === sign && p.ss < best.ss) best = { d, ss: p.ss, h: p.h };
   }
   if (!Number.isFinite(best.ss)) return best;
-  const g = goldenMin((d) => profile(w, t, d, fixedH).ss, Math.max(lo, best.d - step), Math.min(hi, best.d + step), 1e-3);
+  const g = goldenMin((d) => profile(w, t, d, fixedH).ss, Math.max(lo, best.d - step), Math.min(hi, best.d + step), tol);
   const p = profile(w, t, g.x, fixedH);
   return p.ss <= best.ss && Math.sign(p.h) === sign ? { d: g.x, ss: p.ss, h: p.h } : best;
 }
@@ -548,7 +562,7 @@ function fitWindow(
   win: EventWindow,
   model: LossModel,
   twoWayM: number,
-  opts: { withMiddle?: boolean; maxPoints?: number; zeroPhase?: boolean } = {},
+  opts: { withMiddle?: boolean; maxPoints?: number; zeroPhase?: boolean; delayTol?: number } = {},
 ): ModelFit | null {
   const { rec } = ctx.input;
   const withMiddle = opts.withMiddle ?? true;
@@ -563,7 +577,7 @@ function fitWindow(
       ? exactLineKernel(model, Math.max(0, twoWayM), rec.dt * q, span, ctx.input.vf, vfReferenceHz(ctx.input))
       : lineKernel(model, Math.max(0, twoWayM), rec.dt * q, span, vfReferenceHz(ctx.input));
   const t = buildTemplate(launch, kernel, ctx.shape.step);
-  let best = bestDelay(w, t, win.lo / q, win.hi / q, win.sign);
+  let best = bestDelay(w, t, win.lo / q, win.hi / q, win.sign, undefined, opts.delayTol);
   if (!Number.isFinite(best.ss)) return null;
   // No reflection exceeds the wave that met it (|ρ| ≤ 1): a fitted height past that means the model's
   // edge is off (a record ending on the rise, a baseline creeping), and the delay that went with it is
@@ -573,7 +587,7 @@ function fitWindow(
   let heldGap = 0;
   if (Math.abs(best.h) > MAX_HEIGHT) {
     heldAt = Math.sign(best.h) * MAX_HEIGHT;
-    const held = bestDelay(w, t, win.lo / q, win.hi / q, win.sign, heldAt);
+    const held = bestDelay(w, t, win.lo / q, win.hi / q, win.sign, heldAt, opts.delayTol);
     if (!Number.isFinite(held.ss)) return null;
     heldGap = Math.abs(held.d - best.d);
     best = held;
@@ -654,7 +668,7 @@ function estimateSkin(ctx: FitContext, events: Measured[], resistiveNpPerM = 0):
   };
   const base: LossModel = resistiveNpPerM > 0 ? { ...NO_LOSS, resistiveNpPerM } : NO_LOSS;
   const ssAt = (t50: number) =>
-    fitWindow(ctx, win, t50 > 0 ? modelFor(t50) : base, twoWayM, { withMiddle: false, maxPoints: ESTIMATE_POINTS })?.ss ?? Infinity;
+    fitWindow(ctx, win, t50 > 0 ? modelFor(t50) : base, twoWayM, { withMiddle: false, maxPoints: ESTIMATE_POINTS, delayTol: ESTIMATE_DELAY_TOL })?.ss ?? Infinity;
   // First guess from the widening: the erfc edge's 10–90 % time is 28.6 times its t50
   // (31.48·K² against 1.099·K²), and the launch's own rise adds to it.
   const guess = Math.max(0.25, (m.riseSamples - Math.max(1, ctx.input.launch.riseSamples)) / 28.6);
