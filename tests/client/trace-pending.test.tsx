@@ -5,6 +5,8 @@ import { setupServer } from 'msw/node';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { pendingPollInterval, PENDING_POLL_MS, useTrace } from '../../src/features/traces/api/get-trace';
 import { AnalysisPending } from '../../src/features/traces/components/analysis-pending';
+import { LIST_PENDING_POLL_MS, listPollInterval } from '../../src/features/traces/api/list-traces';
+import type { TraceSummary } from '../../shared/schemas/traces';
 
 /** The server's answers for trace 5, one per request: pending twice, then analysed. */
 const answers: Array<Record<string, unknown>> = [];
@@ -95,4 +97,15 @@ describe('a trace analysed in the background', () => {
     expect(screen.queryByText('Analysing…')).toBeNull();
     expect(asked).toBe(2);
   }, 20_000);
+});
+
+describe('a list of traces with one still being analysed', () => {
+  const row = (status: string) => ({ ...trace(status), status }) as unknown as TraceSummary;
+
+  it('is asked for again while any row is pending, and not once every row has its result', () => {
+    expect(listPollInterval([row('ok'), row('pending')])).toBe(LIST_PENDING_POLL_MS);
+    expect(listPollInterval([row('ok'), row('failed')])).toBe(false);
+    expect(listPollInterval([])).toBe(false);
+    expect(listPollInterval(undefined)).toBe(false);
+  });
 });
