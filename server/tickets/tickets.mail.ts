@@ -31,7 +31,7 @@ function findingRows(f: Finding, trace: Trace | null, run: CableRun, unit: Lengt
   const endLabel = end === 'A' ? run.endALabel : run.endBLabel;
   return [
     // Under a best location these rows are the one TDR reading this finding was made from.
-    [underBest ? 'This TDR reading' : 'Distance', `${formatLength(f.distanceM, unit)} along the cable from end ${end} (${endLabel}), ± ${formatLength(f.uncertaintyM, unit)}`],
+    [underBest ? 'This TDR reading' : 'Distance', `${formatLength(f.distanceM, unit)} along the cable from end ${end} (${endLabel}), ± ${formatLength(f.uncertaintyM, unit)} (95 %)`],
     ['Route position', whereText(f, unit)],
     ['Cable-length window', `${formatLengthRange(f.windowStartM, f.windowEndM, unit)} along the cable from end ${end}, slack included`],
   ];

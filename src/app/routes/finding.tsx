@@ -150,7 +150,7 @@ export function FindingPage() {
               <dd>
                 {f.vf} ± {(f.vfTolerance * 100).toFixed(1)} %
               </dd>
-              <dt className="text-mist">Uncertainty</dt>
+              <dt className="text-mist">Uncertainty (95 %)</dt>
               <dd>± {formatLength(f.uncertaintyM, unit)}</dd>
               <dt className="text-mist">From end A</dt>
               <dd>{formatLength(f.distanceFromAM, unit)} along the cable</dd>

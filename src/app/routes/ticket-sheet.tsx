@@ -59,7 +59,7 @@ function FindingBlock({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; u
       <dl className="grid gap-x-6 gap-y-1 text-sm sm:grid-cols-[auto_1fr] print:grid-cols-[auto_1fr]">
         <dt className="font-semibold">{alone ? 'This reading alone' : 'Distance'}</dt>
         <dd className="tabular" data-testid="sheet-distance">
-          {formatLength(f.distanceM, unit)} along the cable from end {f.measuredFrom} ({endLabel}), ± {formatLength(f.uncertaintyM, unit)}
+          {formatLength(f.distanceM, unit)} along the cable from end {f.measuredFrom} ({endLabel}), ± {formatLength(f.uncertaintyM, unit)} (95 %)
         </dd>
         <dt className="font-semibold">{alone ? 'Route position, this reading alone' : 'Route position'}</dt>
         <dd className={fused ? 'text-sm' : 'text-base font-bold'}>

@@ -59,7 +59,7 @@ function FindingCard({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; un
           <p className="text-2xl font-bold tabular" data-testid="ticket-distance">
             {formatLength(f.distanceM, unit)}
             <span className="ml-2 text-sm font-normal text-ink-soft">
-              along the cable from end {f.measuredFrom} ({endLabel}), ± {formatLength(f.uncertaintyM, unit)}
+              along the cable from end {f.measuredFrom} ({endLabel}), ± {formatLength(f.uncertaintyM, unit)} (95 %)
             </span>
           </p>
           <p className="font-semibold text-copper-dark">

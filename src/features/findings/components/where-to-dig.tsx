@@ -123,7 +123,7 @@ export function ReadingAlone({
     <div className="space-y-1 text-sm tabular text-ink-soft" data-testid="reading-alone">
       <p className="font-semibold text-ink">{fused ? 'This reading alone (dig by the best location above)' : 'This reading alone (the readings disagree: check them before digging)'}</p>
       <p data-testid={distanceTestId}>
-        {formatLength(distanceM, unit)} along the cable from end {end} ({endLabel}), ± {formatLength(uncertaintyM, unit)}
+        {formatLength(distanceM, unit)} along the cable from end {end} ({endLabel}), ± {formatLength(uncertaintyM, unit)} (95 %)
       </p>
       <p>
         Cable-length window of this reading alone: {formatLengthRange(windowStartM, windowEndM, unit)} from end {end}, slack included
