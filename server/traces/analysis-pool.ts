@@ -86,6 +86,8 @@ export class AnalysisPool {
     const pool: Pool = new Piscina({
       filename: workerEntry(),
       minThreads: this.keepOneReady ? 1 : 0,
+      // A server that keeps a worker ready also has each worker compile the engine as it starts.
+      workerData: { warmEngine: this.keepOneReady },
       maxThreads: this.budget.threads,
       idleTimeout: 60_000,
       resourceLimits: { maxOldGenerationSizeMb: this.budget.memoryMb, maxYoungGenerationSizeMb: Math.max(4, Math.round(this.budget.memoryMb / 8)) },
