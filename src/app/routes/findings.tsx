@@ -10,6 +10,7 @@ import { Pager } from '../../components/ui/pager';
 import { useSession } from '../../features/auth/use-session';
 import { useFindings } from '../../features/findings/api/list-findings';
 import { useSites } from '../../features/sites/api/list-sites';
+import { ListSearch, NoMatches, searchError, useListSearch } from '../../features/findings/components/list-search';
 import { RouteSentence } from '../../features/findings/components/where-to-dig';
 import { formatDateTime, formatLength } from '../../lib/format';
 import { paths } from '../paths';
@@ -18,9 +19,13 @@ type Sort = NonNullable<FindingListQuery['sort']>;
 
 export function FindingsPage() {
   const { unit } = useSession();
-  const [q, setQ] = useState<FindingListQuery>({ page: 1, status: 'confirmed', sort: 'confirmedAt', dir: 'desc' });
+  const { text, setText, search, clear } = useListSearch();
+  const [state, setQ] = useState<FindingListQuery>({ page: 1, status: 'confirmed', sort: 'confirmedAt', dir: 'desc' });
+  // The page number belongs to the search it was chosen under: a new search starts at page 1.
+  const q: FindingListQuery = { ...state, q: search || undefined, page: (state.q ?? '') === search ? state.page : 1 };
   const sites = useSites({ pageSize: 100 });
   const findings = useFindings(q);
+  const badSearch = searchError(findings.error);
   const set = (patch: Partial<FindingListQuery>) => setQ({ ...q, page: 1, ...patch });
   const sortBy = (sort: Sort) => setQ({ ...q, sort, dir: q.sort === sort && q.dir === 'desc' ? 'asc' : 'desc' });
   const arrow = (s: Sort) => (q.sort === s ? (q.dir === 'asc' ? ' ▲' : ' ▼') : '');
@@ -28,7 +33,15 @@ export function FindingsPage() {
     <>
       <PageHeader title="Findings" subtitle="Events confirmed as faults (or dismissed), with where to dig." />
       <Card>
-        <div className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
+        <ListSearch
+          label="Search findings"
+          placeholder="Marker, kind or note"
+          text={text}
+          onText={setText}
+          onClear={clear}
+          error={badSearch}
+        />
+        <div className="mt-3 grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
           <SelectField label="Site" value={q.siteId ?? ''} onChange={(e) => set({ siteId: e.target.value ? Number(e.target.value) : undefined })}>
             <option value="">All sites</option>
             {sites.data?.items.map((s) => (
@@ -52,7 +65,9 @@ export function FindingsPage() {
         {findings.isPending ? (
           <Loading />
         ) : findings.error ? (
-          <ErrorNotice error={findings.error} />
+          badSearch ? null : <ErrorNotice error={findings.error} />
+        ) : findings.data.items.length === 0 && search ? (
+          <NoMatches what="findings" search={search} />
         ) : (
           <>
             <ul className="mt-2 divide-y divide-rule">

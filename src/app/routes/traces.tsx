@@ -11,6 +11,7 @@ import { useSession } from '../../features/auth/use-session';
 import { useCableRuns } from '../../features/sites/api/list-cable-runs';
 import { useSites } from '../../features/sites/api/list-sites';
 import { useTraces } from '../../features/traces/api/list-traces';
+import { ListSearch, NoMatches, searchError, useListSearch } from '../../features/findings/components/list-search';
 import { ArchivedTraces } from '../../features/traces/components/archived-traces';
 import { formatDateTime } from '../../lib/format';
 import { paths } from '../paths';
@@ -19,10 +20,14 @@ type Sort = NonNullable<TraceListQuery['sort']>;
 
 export function TracesPage() {
   const { user, can } = useSession();
-  const [q, setQ] = useState<TraceListQuery>({ page: 1, sort: 'createdAt', dir: 'desc' });
+  const { text, setText, search, clear } = useListSearch();
+  const [state, setQ] = useState<TraceListQuery>({ page: 1, sort: 'createdAt', dir: 'desc' });
+  // The page number belongs to the search it was chosen under: a new search starts at page 1.
+  const q: TraceListQuery = { ...state, q: search || undefined, page: (state.q ?? '') === search ? state.page : 1 };
   const sites = useSites({ pageSize: 100 });
   const runs = useCableRuns({ siteId: q.siteId }, !!q.siteId);
   const traces = useTraces(q);
+  const badSearch = searchError(traces.error);
   const set = (patch: Partial<TraceListQuery>) => setQ({ ...q, page: 1, ...patch });
   const sortBy = (sort: Sort) => setQ({ ...q, sort, dir: q.sort === sort && q.dir === 'desc' ? 'asc' : 'desc' });
   const arrow = (s: Sort) => (q.sort === s ? (q.dir === 'asc' ? ' ▲' : ' ▼') : '');
@@ -35,7 +40,8 @@ export function TracesPage() {
         actions={can('traces:upload') && <Link className="inline-flex min-h-11 items-center rounded-md bg-copper px-4 text-sm font-semibold text-white" to={paths.upload.to()}>Upload a trace</Link>}
       />
       <Card>
-        <div className="grid gap-3 sm:grid-cols-3 lg:grid-cols-6">
+        <ListSearch label="Search traces" placeholder="File name" text={text} onText={setText} onClear={clear} error={badSearch} />
+        <div className="mt-3 grid gap-3 sm:grid-cols-3 lg:grid-cols-6">
           <SelectField label="Site" value={q.siteId ?? ''} onChange={(e) => set({ siteId: e.target.value ? Number(e.target.value) : undefined, cableRunId: undefined })}>
             <option value="">All sites</option>
             {sites.data?.items.map((s) => (
@@ -68,7 +74,9 @@ export function TracesPage() {
         {traces.isPending ? (
           <Loading />
         ) : traces.error ? (
-          <ErrorNotice error={traces.error} />
+          badSearch ? null : <ErrorNotice error={traces.error} />
+        ) : traces.data.items.length === 0 && search ? (
+          <NoMatches what="traces" search={search} />
         ) : (
           <>
             <ul className="mt-4 divide-y divide-rule sm:hidden">
