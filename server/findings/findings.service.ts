@@ -71,6 +71,13 @@ export async function placeEvent(trace: Trace, eventIndex: number) {
       fields: [{ field: 'eventIndex', message: `trace ${trace.id} has no event ${eventIndex}` }],
     });
   }
+  // An analysis stored before the engine refused absurd time axes may hold overflowed or missing numbers.
+  const values = [event.roundTripNs, event.distanceM, event.uncertaintyM, event.windowStartM, event.windowEndM];
+  if (!values.every((v) => typeof v === 'number' && Number.isFinite(v)) || !(event.uncertaintyM >= 0 && event.windowEndM >= event.windowStartM)) {
+    throw new AppError(422, 'implausible_event', `Event ${eventIndex} of trace ${trace.id} has no usable distance or window (its analysis holds numbers out of range); re-upload the file with a correct time axis.`, {
+      fields: [{ field: 'eventIndex', message: `event ${eventIndex} of trace ${trace.id} has no finite distance and window` }],
+    });
+  }
   const run = (await CableRun.findByPk(trace.cableRunId))!;
   const markers = await RouteMarker.findAll({ where: { cableRunId: run.id } });
   const pos = routePosition(

@@ -14,6 +14,7 @@
  */
 import { distanceFromRoundTrip, SPEED_OF_LIGHT_M_PER_S } from '../cable/propagation';
 import type { ReflectionEvent, TraceAnalysis, TraceWarning } from '../schemas/trace-analysis';
+import { checkTimeAxisBounds } from './bounds';
 import { classifyEvent, impedanceOf, ownReflections } from './classify';
 import { detectEdges, dropQuantiserStairs, FALSE_EVENTS_PER_TRACE, mergeEdges } from './detection';
 import { findEchoes, resolveCableEnd } from './echoes';
@@ -212,6 +213,7 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
 /** Analyse a parsed trace. Throws TraceInputError for bad options. */
 export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): TraceAnalysis {
   validateOptions(options);
+  checkTimeAxisBounds(trace);
   const rec = recordOf(trace);
   const warnings: TraceWarning[] = [...trace.warnings];
   const sigma0 = estimateNoise(rec.y);

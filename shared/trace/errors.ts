@@ -24,7 +24,8 @@ export type TraceInputErrorCode =
   | 'FLAT_TRACE'
   | 'LINE_TOO_LONG'
   | 'TOO_MANY_COLUMNS'
-  | 'UNKNOWN_CHANNEL';
+  | 'UNKNOWN_CHANNEL'
+  | 'IMPLAUSIBLE_TIME_AXIS';
 
 /** Longest message a TraceInputError carries, line prefix included; it is stored and shown as is. */
 export const MAX_MESSAGE_CHARS = 300;

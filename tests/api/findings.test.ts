@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { findingEvents } from '../../server/findings/events';
-import { SiteSupervisor } from '../../server/db/models';
+import { Finding, SiteSupervisor, Trace } from '../../server/db/models';
 import { makeRun, stepTraceCsv } from './support/field-fixtures';
 import { startApi, type TestApi } from './support/api';
 
@@ -64,6 +64,37 @@ describe('POST /api/findings', () => {
     expect(res.body.error.fields[0].field).toBe('eventIndex');
     const kind = await c.post('/api/findings', { traceId: trace.id, eventIndex: 0, status: 'confirmed', kind: 'gremlins' }).expect(400);
     expect(kind.body.error.fields[0].field).toBe('kind');
+  });
+
+  it('refuses a record whose time axis spans 1e302 ns, naming the time column and line', async () => {
+    const rows = Array.from({ length: 600 }, (_, i) => `${i * 1e300},${i > 300 ? 0.9 : 0.4}`);
+    const c = await api.as('technician');
+    const res = await c
+      .postRaw('/api/traces')
+      .field('cableRunId', String(fx.run.id))
+      .field('end', 'A')
+      .attach('file', Buffer.from(['time_ns,volts', ...rows].join('\n')), 'long.csv')
+      .expect(422);
+    expect(res.body.error.code).toBe('trace_unreadable');
+    const stored = res.body.error.traces[0];
+    expect(stored.error.code).toBe('IMPLAUSIBLE_TIME_AXIS');
+    // Header on line 1, 600 samples: the last is on line 601.
+    expect(stored.error.line).toBe(601);
+    expect(stored.error.message).toContain("time column 'time_ns'");
+  });
+
+  it('refuses, with a 422 and no finding, an event whose stored values are not finite numbers', async () => {
+    const trace = await upload('A', 60);
+    const row = (await Trace.findByPk(trace.id))!;
+    const analysis = structuredClone(row.analysis)!;
+    // What an analysis of an overflowing time axis stored: the window's NaN became null in JSON.
+    analysis.events[0] = { ...analysis.events[0], distanceM: 3.04e301, uncertaintyM: null as unknown as number, windowEndM: null as unknown as number };
+    await row.update({ analysis });
+    const c = await api.as('technician');
+    const res = await c.post('/api/findings', { traceId: trace.id, eventIndex: 0, status: 'confirmed', kind: 'open-conductor' }).expect(422);
+    expect(res.body.error.code).toBe('implausible_event');
+    expect(res.body.error.fields[0].field).toBe('eventIndex');
+    expect(await Finding.count({ where: { traceId: trace.id } })).toBe(0);
   });
 });
 
