@@ -48,6 +48,7 @@ export function PersonRow({
   const repairs = useOpenRepairs(person.id, asking?.what === 'deactivate');
   const movable = repairs.data?.tickets.filter((t) => t.movable) ?? [];
   const others = technicians.filter((t) => t.id !== person.id);
+  const handToName = others.find((t) => String(t.id) === handTo)?.name ?? null;
   const pending = update.isPending || reset.isPending || handOver.isPending;
   const failure = update.error ?? reset.error ?? handOver.error;
   const close = () => {
@@ -170,20 +171,29 @@ export function PersonRow({
         ) : (
           <div className="space-y-2 rounded-md border border-rule p-3" data-testid="open-repairs">
             <p className="font-semibold">They still have {countOf(repairs.data.tickets.length, 'open repair')}:</p>
-            <ul className="list-disc pl-5 text-sm">
+            <ul className="list-disc space-y-1 pl-5 text-sm" data-testid="repair-fates">
               {repairs.data.tickets.map((t) => (
                 <li key={t.id}>
-                  Ticket {t.id}: {t.title} ({TICKET_STATUS_LABELS[t.status]})
+                  Ticket {t.id}: {t.title} ({TICKET_STATUS_LABELS[t.status]}){' '}
+                  <span className={t.movable && handToName ? 'font-semibold text-ink' : 'text-ink-soft'}>— {repairFate(t.movable, person.name, handToName)}</span>
                 </li>
               ))}
             </ul>
             {movable.length > 0 &&
               (others.length > 0 ? (
                 <SelectField
-                  label={`Hand ${movable.length === 1 ? 'it' : `the ${movable.length} not yet fixed`} to`}
+                  label={
+                    movable.length === repairs.data.tickets.length
+                      ? `Hand ${movable.length === 1 ? 'it' : 'them'} to`
+                      : `Hand the ${movable.length === 1 ? 'one' : movable.length} not yet fixed to`
+                  }
                   value={handTo}
                   onChange={(e) => setHandTo(e.target.value)}
-                  hint={handTo ? 'Each goes back to “Assigned” with the new person, who is e-mailed.' : 'Left with them, a supervisor has to reassign each one on its ticket page.'}
+                  hint={
+                    handTo
+                      ? `${movable.length === 1 ? 'It goes' : 'Each goes'} back to “Assigned” with the new person, who is e-mailed.`
+                      : 'Left with them, a supervisor has to reassign each one on its ticket page.'
+                  }
                 >
                   <option value="">Nobody yet (leave with {person.name})</option>
                   {others.map((t) => (
@@ -200,6 +210,16 @@ export function PersonRow({
       </ConfirmDialog>
     </li>
   );
+}
+
+/**
+ * What deactivating does to one open repair: one not yet fixed moves to the
+ * chosen person (or waits for a supervisor); a fixed one keeps its close-out's
+ * author and waits for a supervisor's sign-off, so it never moves.
+ */
+export function repairFate(movable: boolean, from: string, handTo: string | null): string {
+  if (!movable) return `stays with ${from}: it is fixed and only waits for a supervisor's sign-off`;
+  return handTo ? `moves to ${handTo}, back to “Assigned”` : `stays with ${from} until a supervisor reassigns it`;
 }
 
 /** A role in a sentence: "a supervisor", "an administrator". */
