@@ -160,7 +160,7 @@ async function reanalyseOne(ctx: AppContext, run: CableReanalysis, cable: CableT
     throw err;
   }
   const { vfOverride: _dropped, ...settings } = earlier.settings;
-  const result = await analysisPool(ctx)
+  const result = await analysisPool(ctx, 'background')
     .analyse({ path: copy.path, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes })
     .finally(() => copy.release());
   const findings = await Finding.findAll({ where: { traceId }, attributes: ['roundTripNs', 'distanceM'] });

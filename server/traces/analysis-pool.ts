@@ -191,14 +191,29 @@ export class AnalysisPool {
   }
 }
 
-const pools = new WeakMap<AppContext, AnalysisPool>();
+/**
+ * Which pool a piece of work runs in. `request`: a file someone is waiting
+ * for (an upload analysed at once, a re-analysis, reading a stored trace for
+ * a page), with every thread of the budget. `background`: the analyses of
+ * jobs (large uploads, a cable's re-analysis), in a pool of its own with one
+ * thread, so a file someone is waiting for never queues behind them.
+ */
+export type AnalysisLane = 'request' | 'background';
 
-/** The app's analysis pool, made on first use and closed with the app. */
-export function analysisPool(ctx: AppContext): AnalysisPool {
-  let pool = pools.get(ctx);
+const pools = new WeakMap<AppContext, Partial<Record<AnalysisLane, AnalysisPool>>>();
+
+/** The app's analysis pool for a lane, made on first use and closed with the app. */
+export function analysisPool(ctx: AppContext, lane: AnalysisLane = 'request'): AnalysisPool {
+  let lanes = pools.get(ctx);
+  if (!lanes) {
+    lanes = {};
+    pools.set(ctx, lanes);
+  }
+  let pool = lanes[lane];
   if (!pool) {
-    const made = new AnalysisPool(ctx.config.analysis, ctx.log);
-    pools.set(ctx, made);
+    const budget = lane === 'background' ? { ...ctx.config.analysis, threads: 1 } : ctx.config.analysis;
+    const made = new AnalysisPool(budget, ctx.log);
+    lanes[lane] = made;
     ctx.onClose.unshift(() => made.close());
     pool = made;
   }

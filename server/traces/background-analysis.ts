@@ -91,7 +91,7 @@ async function analyseOnce(ctx: AppContext, trace: Trace, signal: AbortSignal): 
     }
     throw err;
   }
-  const result = await analysisPool(ctx)
+  const result = await analysisPool(ctx, 'background')
     .analyse({ path: copy.path, settings: trace.settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes })
     .finally(() => copy.release());
   const code = result.outcome.error?.code;
