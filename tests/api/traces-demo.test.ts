@@ -3,7 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { seedFieldTraces } from '../../server/db/demo/field';
-import { CableRun, CableType, Finding, Site, SiteSupervisor, Trace, User } from '../../server/db/models';
+import { CableRun, CableType, Finding, RouteMarker, Site, SiteSupervisor, Trace, User } from '../../server/db/models';
 import { stepTraceCsv } from '../support/step-trace';
 import { startApi, type TestApi } from './support/api';
 
@@ -29,6 +29,19 @@ describe('demo field data', () => {
     const runs = await CableRun.findAll();
     const kinds = new Set((await CableType.findAll({ where: { id: runs.map((r) => r.cableTypeId) } })).map((t) => t.construction));
     expect(kinds.size).toBeGreaterThanOrEqual(3);
+    // Every marker lies on its route: chainage at most the installed length less the slack coiled along it.
+    const markers = await RouteMarker.findAll();
+    for (const r of runs) {
+      const own = markers.filter((m) => m.cableRunId === r.id);
+      const route = r.installedLengthM - own.reduce((s, m) => s + m.slackM, 0);
+      for (const m of own) expect(m.chainageM, `${r.name} ${m.label}`).toBeLessThanOrEqual(route);
+    }
+    // HN-C2: 182 m installed, 2 m coiled at each of its two handholes (demo data) → 178 m of route.
+    const hnc2 = runs.find((r) => r.name === 'Control pair HN-C2')!;
+    expect(markers.filter((m) => m.cableRunId === hnc2.id).map((m) => [m.label, m.chainageM])).toEqual([
+      ['HH-1', 90],
+      ['HH-2', 170],
+    ]);
   });
 
   it('loads trace files through the upload service and confirms a finding on a faulted one', async () => {
@@ -52,7 +65,7 @@ describe('demo field data', () => {
     expect(broken?.status).toBe('failed');
     const mine = await Trace.findOne({ where: { originalName: 'hnc2-open.csv' } });
     const f = await Finding.findOne({ where: { traceId: mine!.id } });
-    // 150 m of cable from A passes HH-1 (chainage 90 m, 2 m coiled): 148 m of route, 58 m past HH-1, heading for end B (hand-worked).
-    expect(f?.routePositionText).toMatch(/^5[78]\.\d m past handhole HH-1 toward end B/);
+    // 150 m of cable from A passes HH-1 (chainage 90 m, 2 m coiled): 148 m of route, 58 m past HH-1, heading for HH-2 at 170 m (hand-worked).
+    expect(f?.routePositionText).toMatch(/^5[78]\.\d m past handhole HH-1 toward handhole HH-2;/);
   });
 });

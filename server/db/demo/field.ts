@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import type { Transaction } from 'sequelize';
 import type { MarkerKind } from '../../../shared/schemas/sites';
+import { checkMarkers } from '../../cable-runs/cable-runs.service';
 import type { AppContext } from '../../context';
 import { recordFinding } from '../../findings/findings.service';
 import { storeTraces } from '../../traces/traces.service';
@@ -55,7 +56,8 @@ const SITES: Array<{ name: string; address: string; access: string; supervisors:
         lengthM: 182,
         markers: [
           ['HH-1', 'handhole', 90, 2],
-          ['HH-2', 'handhole', 180, 2],
+          // 182 m installed less 4 m of coils leaves 178 m of route; HH-2 sits 8 m short of the marshalling box.
+          ['HH-2', 'handhole', 170, 2],
         ],
       },
     ],
@@ -178,6 +180,11 @@ export async function seedField(users: Map<string, User>, transaction: Transacti
       const run = await CableRun.create(
         { siteId: site.id, name: r.name, cableTypeId: cable.id, endALabel: r.endA, endBLabel: r.endB, installedLengthM: r.lengthM, notes: null },
         { transaction },
+      );
+      // The same rule an edit of the run's markers meets: every marker on the route.
+      checkMarkers(
+        r.lengthM,
+        r.markers.map(([label, , chainageM, slackM]) => ({ label, chainageM, slackM })),
       );
       for (const [label, kind, chainageM, slackM] of r.markers) {
         await RouteMarker.create({ cableRunId: run.id, label, kind, chainageM, slackM, notes: null }, { transaction });
