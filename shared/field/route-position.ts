@@ -208,7 +208,19 @@ export function routePosition(
 }
 
 function placeName(p: RoutePlace): string {
-  return p.kind === 'end' ? `end ${p.label} (${p.name})` : `${p.description} ${p.label}`;
+  return p.kind === 'end' ? `end ${p.label} (${p.name})` : markerPhrase(p.description, p.label);
+}
+
+/**
+ * A marker named with its kind, "manhole MH-2"; a label that already begins
+ * with its kind's word, in any case ("Pole 9", "pole-9"), stands alone rather
+ * than "pole Pole 9".
+ */
+export function markerPhrase(kindWords: string, label: string): string {
+  const k = kindWords.trim().toLowerCase();
+  const l = label.trim().toLowerCase();
+  const saysKind = k !== '' && l.startsWith(k) && !/[\p{L}]/u.test(l.charAt(k.length));
+  return saysKind ? label : `${kindWords} ${label}`;
 }
 
 /** A marker by its label alone ("MH-2"), an end by its letter ("end B"). */

@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
-import { routeLengthM } from '../../../shared/field/route-position';
+import { markerPhrase, routeLengthM } from '../../../shared/field/route-position';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
 import { ErrorNotice, Loading } from '../../components/ui/notice';
@@ -77,7 +77,7 @@ export function SiteRunPage() {
                   {r.markers.map((m) => (
                     <tr key={m.id} className="border-t border-rule">
                       <td className="py-2">
-                        {markerKindTitle(m.kind)} {m.label}
+                        {markerPhrase(markerKindTitle(m.kind), m.label)}
                       </td>
                       <td>{formatLength(m.chainageM, unit)}</td>
                       <td>{formatLength(m.slackM, unit)}</td>
