@@ -39,7 +39,10 @@ export async function decisionHistory(findingId: number): Promise<FindingDecisio
 
 /**
  * A supervisor turns a confirmed event into a dismissed one, or a dismissed one
- * into a confirmed fault, with a reason kept in the event's history. A fault
+ * into a confirmed fault, with a reason kept in the event's history. The
+ * request names the status it wants: one that is already the finding's
+ * (someone reversed it meanwhile, or the request was sent twice) is refused
+ * with 409 `decision_changed` and changes nothing. A fault
  * on an open repair ticket is not dismissed under the crew's feet: the ticket
  * is withdrawn or closed first. A new confirmation tells the site's
  * supervisors, as a first one does.
@@ -54,7 +57,8 @@ export async function reverseDecision(
     const finding = await Finding.findByPk(findingId, { transaction });
     if (!finding) throw AppError.notFound(`Finding ${findingId}`);
     const from = finding.status;
-    const to: FindingStatus = from === 'confirmed' ? 'dismissed' : 'confirmed';
+    const to: FindingStatus = input.to;
+    if (from === to) throw alreadyThere(findingId, to);
     let kind: string;
     if (to === 'dismissed') {
       const openTicketIds = await openTicketsOf(findingId, transaction);
@@ -75,7 +79,12 @@ export async function reverseDecision(
       }
       kind = faultKind;
     }
-    await finding.update({ status: to, kind, confirmedById: reviewer.id, confirmedAt: new Date() }, { transaction });
+    // Conditional on the status read above, so of two reversals at once only one moves it (PostgreSQL runs them side by side).
+    const [moved] = await Finding.update(
+      { status: to, kind, confirmedById: reviewer.id, confirmedAt: new Date() },
+      { where: { id: findingId, status: from }, transaction },
+    );
+    if (moved !== 1) throw alreadyThere(findingId, to);
     await FindingDecision.create(
       { findingId, action: 'reversed', fromStatus: from, toStatus: to, kind, reason: input.reason, decidedById: reviewer.id },
       { transaction },
@@ -85,6 +94,15 @@ export async function reverseDecision(
   ctx.security('finding-reversed', { findingId, actorId: reviewer.id, to, reason: input.reason });
   if (to === 'confirmed') emitFindingConfirmed(findingId, ctx.log);
   return { finding: await getFinding(findingId), history: await decisionHistory(findingId) };
+}
+
+function alreadyThere(findingId: number, to: FindingStatus): AppError {
+  return new AppError(
+    409,
+    'decision_changed',
+    `Finding ${findingId} is already ${to}: someone reversed it meanwhile, or this request was sent twice. Nothing was changed; reload the finding to see its history.`,
+    { fields: [{ field: 'to', message: `the finding is already ${to}` }] },
+  );
 }
 
 async function openTicketsOf(findingId: number, transaction: Transaction): Promise<number[]> {

@@ -6,6 +6,12 @@ export type FindingDecisionAction = (typeof FINDING_DECISION_ACTIONS)[number];
 
 /** A supervisor turns a confirmed event into a dismissed one or back, saying why. */
 export const FindingReverseSchema = z.object({
+  /**
+   * The status the finding is to have. A reversal names it, so a request sent
+   * twice, or after someone else reversed the finding, is refused (409
+   * `decision_changed`) instead of turning it back.
+   */
+  to: z.enum(['confirmed', 'dismissed'], { error: "is required: the status the finding is to have, 'confirmed' or 'dismissed'" }),
   reason: z
     .string({ error: 'is required: say why the decision is reversed' })
     .trim()

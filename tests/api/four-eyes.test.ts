@@ -117,23 +117,23 @@ describe('deciding an event', () => {
     const sup = await api.as('supervisor');
 
     // The technician may not reverse, even their own decision.
-    const techTry = await tess.post(`/api/findings/${f.id}/reverse`, { reason: 'changed my mind about it' }).expect(403);
+    const techTry = await tess.post(`/api/findings/${f.id}/reverse`, { to: 'confirmed', reason: 'changed my mind about it' }).expect(403);
     expect(techTry.body.error.code).toBe('forbidden');
-    const noReason = await sup.post(`/api/findings/${f.id}/reverse`, { reason: 'short' }).expect(400);
+    const noReason = await sup.post(`/api/findings/${f.id}/reverse`, { to: 'confirmed', reason: 'short' }).expect(400);
     expect(noReason.body.error.fields).toEqual([{ field: 'reason', message: 'must be at least 10 characters: say why the decision is reversed' }]);
-    const noKind = await sup.post(`/api/findings/${f.id}/reverse`, { reason: 'No splice on the as-built at that distance' }).expect(400);
+    const noKind = await sup.post(`/api/findings/${f.id}/reverse`, { to: 'confirmed', reason: 'No splice on the as-built at that distance' }).expect(400);
     expect(noKind.body.error).toMatchObject({ code: 'kind_required', fields: [{ field: 'kind', message: 'is required: what kind of fault it is' }] });
     expect((await Finding.findByPk(f.id))!.status).toBe('dismissed');
 
     const heard: number[] = [];
     const listener = (id: number) => heard.push(id);
     findingEvents.on('confirmed', listener);
-    const confirmed = await sup.post(`/api/findings/${f.id}/reverse`, { reason: 'No splice on the as-built at that distance', kind: 'splice-fault' }).expect(200);
+    const confirmed = await sup.post(`/api/findings/${f.id}/reverse`, { to: 'confirmed', reason: 'No splice on the as-built at that distance', kind: 'splice-fault' }).expect(200);
     findingEvents.off('confirmed', listener);
     expect(heard).toEqual([f.id]);
     expect(confirmed.body.finding).toMatchObject({ id: f.id, status: 'confirmed', kind: 'splice-fault', confirmedBy: { id: api.users.supervisor.id } });
 
-    const dismissed = await sup.post(`/api/findings/${f.id}/reverse`, { reason: 'Crew found the splice dry and sound' }).expect(200);
+    const dismissed = await sup.post(`/api/findings/${f.id}/reverse`, { to: 'dismissed', reason: 'Crew found the splice dry and sound' }).expect(200);
     expect(dismissed.body.finding).toMatchObject({ status: 'dismissed', kind: 'not-a-fault' });
     const history = (await sup.get(`/api/findings/${f.id}/decisions`).expect(200)).body;
     expect(history.map((d: { action: string; fromStatus: string | null; toStatus: string; reason: string | null; decidedBy: { name: string } }) => [d.action, d.fromStatus, d.toStatus, d.reason, d.decidedBy.name])).toEqual([
@@ -152,7 +152,7 @@ describe('deciding an event', () => {
     const f = (await tess.post('/api/findings', { traceId, eventIndex: 0, status: 'confirmed', kind: 'open-conductor' }).expect(201)).body;
     const sup = await api.as('supervisor');
     const ticket = (await sup.post('/api/tickets', { findingIds: [f.id] }).expect(201)).body;
-    const res = await sup.post(`/api/findings/${f.id}/reverse`, { reason: 'Second look says it is the cable end' }).expect(409);
+    const res = await sup.post(`/api/findings/${f.id}/reverse`, { to: 'dismissed', reason: 'Second look says it is the cable end' }).expect(409);
     expect(res.body.error).toEqual({
       code: 'on_open_ticket',
       message: `Finding ${f.id} is on open repair ticket #${ticket.id}: withdraw or close the ticket before dismissing it.`,

@@ -89,7 +89,7 @@ function ReverseForm({ finding }: { finding: FindingView }) {
         error={reverse.error ? describeError(reverse.error) : null}
         onCancel={() => (setChecking(false), reverse.reset())}
         onConfirm={() =>
-          reverse.mutate({ id: finding.id, reason: reason.trim(), kind }, { onSuccess: () => (setOpen(false), setChecking(false), setReason('')) })
+          reverse.mutate({ id: finding.id, to: toConfirm ? 'confirmed' : 'dismissed', reason: reason.trim(), kind }, { onSuccess: () => (setOpen(false), setChecking(false), setReason('')) })
         }
       >
         <p>
