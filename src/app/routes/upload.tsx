@@ -9,6 +9,7 @@ import { useCableRuns } from '../../features/sites/api/list-cable-runs';
 import { useSites } from '../../features/sites/api/list-sites';
 import { useUploadTraces } from '../../features/traces/api/upload-traces';
 import { EndPicker } from '../../features/traces/components/end-picker';
+import { formatFileSize } from '../../features/traces/components/file-size';
 import { fileAtFault, sameBytes, UploadOutcome } from '../../features/traces/components/upload-outcome';
 import { countOf, formatLength, fromUnit, lengthsInText } from '../../lib/format';
 import { useSession } from '../../features/auth/use-session';
@@ -177,7 +178,7 @@ export function UploadPage() {
                   <li key={f.name + f.size} className="flex items-center justify-between gap-2 px-3 py-2 text-sm">
                     <span className="truncate font-semibold">{f.name}</span>
                     <span className="flex items-center gap-2 text-mist tabular">
-                      {(f.size / 1024).toFixed(0)} KB
+                      {formatFileSize(f.size)}
                       <Button variant="ghost" aria-label={`Remove ${f.name}`} onClick={() => setFiles(files.filter((x) => x !== f))}>
                         Remove
                       </Button>

@@ -1,6 +1,7 @@
 import type { TraceDetail } from '../../../../shared/schemas/traces';
 import { Notice } from '../../../components/ui/notice';
 import { formatDateTime } from '../../../lib/format';
+import { formatFileSize } from './file-size';
 
 /**
  * A large upload waiting for its background analysis. The page asks for the
@@ -9,10 +10,7 @@ import { formatDateTime } from '../../../lib/format';
  */
 export function AnalysisPending({ trace }: { trace: Pick<TraceDetail, 'status' | 'sizeBytes' | 'createdAt'> }) {
   if (trace.status !== 'pending') return null;
-  const size =
-    trace.sizeBytes >= 1024 * 1024
-      ? `${(trace.sizeBytes / 1024 / 1024).toFixed(1)} MB`
-      : `${Math.round(trace.sizeBytes / 1024)} kB`;
+  const size = formatFileSize(trace.sizeBytes);
   return (
     <Notice tone="info" title="Analysing…" className="mb-4">
       <p>
