@@ -250,6 +250,12 @@ export async function twoEnded(q: { traceA: number; eventA: number; traceB: numb
       fields: [{ field: a.end !== 'A' ? 'traceA' : 'traceB', message: 'must be a trace of the same run from the other end' }],
     });
   }
+  const pending = [a, b].find((t) => t.status === 'pending');
+  if (pending) {
+    const conflict = pendingConflict(pending.id, 'located from both ends');
+    conflict.details = { fields: [{ field: pending === a ? 'traceA' : 'traceB', message: 'the trace is still being analysed' }] };
+    throw conflict;
+  }
   const ea = a.analysis?.events.find((e) => e.index === q.eventA);
   const eb = b.analysis?.events.find((e) => e.index === q.eventB);
   if (!ea || !eb) {

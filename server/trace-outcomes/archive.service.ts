@@ -5,6 +5,7 @@ import { Op } from 'sequelize';
 import type { SessionUser } from '../auth/guards';
 import { CableRun, Finding, Site, Trace, TraceArchiveEvent, User } from '../db/models';
 import { AppError } from '../errors';
+import { pendingConflict } from '../traces/traces.service';
 
 const person = (u: User | undefined, id: number) => ({ id, name: u?.name ?? `user ${id}` });
 const BY = [{ association: 'by', attributes: ['id', 'name'] }];
@@ -25,7 +26,8 @@ export async function archiveView(traceId: number): Promise<TraceArchiveView> {
  * Archive a junk or unreadable trace: it stays stored (file, row, analysis)
  * but leaves the lists. Its uploader may archive it, or anyone allowed to
  * archive others' traces. A trace behind a finding, or a run's reference, is
- * part of the record and is not archived.
+ * part of the record and is not archived; a trace still being analysed is
+ * archived once its analysis is in (409 `trace_pending`).
  */
 export async function archiveTrace(traceId: number, reason: string, user: SessionUser): Promise<TraceArchiveView> {
   await Trace.sequelize!.transaction(async (transaction) => {
@@ -35,6 +37,8 @@ export async function archiveTrace(traceId: number, reason: string, user: Sessio
       throw new AppError(403, 'not_your_trace', `Someone else uploaded trace ${traceId}: they or a supervisor may archive it.`);
     }
     if (trace.archivedAt) throw AppError.conflict('already_archived', `Trace ${traceId} is already archived.`);
+    // Its background analysis would still run and write to it: it is archived once that is done.
+    if (trace.status === 'pending') throw pendingConflict(traceId, 'archived');
     if (trace.isReference) {
       throw AppError.conflict('is_reference', `Trace ${traceId} is the reference for end ${trace.end} of its run: stop using it as the reference before archiving it.`);
     }

@@ -129,6 +129,35 @@ describe('uploads above the inline limit', () => {
     expect((await settled(id)).status).toBe('ok');
   });
 
+  it('refuses a two-ended location and archiving while a trace is pending with 409 trace_pending', async () => {
+    const fromA = await upload(stepTraceCsv({ faultM: 90, vf: 0.66, samples: 3200 }), 'pending-a.csv', 'A', 202);
+    const fromB = await upload(stepTraceCsv({ faultM: 110, vf: 0.66, samples: 3200 }), 'pending-b.csv', 'B', 202);
+    const [a, b] = [fromA.body.traces[0].id as number, fromB.body.traces[0].id as number];
+    await settled(a);
+    await settled(b);
+    // Back to pending and held by another instance, so it stays pending while we look.
+    await Trace.update(
+      { status: 'pending', analysis: null, analysisAttempts: 1, analysisLeaseUntil: new Date(Date.now() + 60_000) },
+      { where: { id: b } },
+    );
+    const c = await api.as('technician');
+    const two = await c.get('/api/findings/two-ended').query({ traceA: a, eventA: 0, traceB: b, eventB: 0 }).expect(409);
+    expect(two.body.error.code).toBe('trace_pending');
+    expect(two.body.error.message).toBe(
+      `Trace ${b} is still being analysed; it can be located from both ends once its analysis has finished (the trace page shows when).`,
+    );
+    expect(two.body.error.fields).toEqual([{ field: 'traceB', message: 'the trace is still being analysed' }]);
+    const archive = await c.post(`/api/traces/${b}/archive`, { reason: 'Wrong cable clipped on, junk record' }).expect(409);
+    expect(archive.body.error.code).toBe('trace_pending');
+    const row = (await Trace.findByPk(b))!;
+    expect([row.status, row.archivedAt]).toEqual(['pending', null]);
+    // Released: the next try analyses it, and then it may be archived.
+    await Trace.update({ analysisLeaseUntil: null }, { where: { id: b } });
+    await analysePending(api.app.ctx, b, new AbortController().signal);
+    expect((await settled(b)).status).toBe('ok');
+    await c.post(`/api/traces/${b}/archive`, { reason: 'Wrong cable clipped on, junk record' }).expect(200);
+  });
+
   it('ends a large file the engine cannot read as failed, with the reason and the line', async () => {
     const lines = csv.split('\n');
     lines[1500] = '1499.5,about a volt';
