@@ -1,4 +1,4 @@
-import { Op, type Transaction, type WhereOptions } from 'sequelize';
+import { col, fn, Op, type Transaction, type WhereOptions } from 'sequelize';
 import { containsText } from '../db/search';
 import {
   formatAttenuationList,
@@ -97,6 +97,8 @@ export function changeView(h: CableTypeChange): CableTypeChangeView {
   };
 }
 
+const TEXT_SORTS = new Set<CableListQuery['sort']>(['name', 'construction', 'dielectric', 'vfSource']);
+
 export async function listCables(query: CableListQuery) {
   const clauses: WhereOptions<CableType>[] = [];
   if (query.q) {
@@ -109,7 +111,10 @@ export async function listCables(query: CableListQuery) {
   const { rows, count } = await CableType.findAndCountAll({
     where: clauses.length ? { [Op.and]: clauses } : {},
     order: [
-      [query.sort, query.dir.toUpperCase()],
+      // Names and words sort as a reader expects, "Paper…" before "PVC…", on SQLite as on PostgreSQL.
+      TEXT_SORTS.has(query.sort)
+        ? [fn('lower', col(CableType.getAttributes()[query.sort].field!)), query.dir.toUpperCase()]
+        : [query.sort, query.dir.toUpperCase()],
       ['id', 'ASC'],
     ],
     limit: query.pageSize,

@@ -187,6 +187,18 @@ describe('GET /api/cables', () => {
     const bad = await planner.get('/api/cables?sort=colour').expect(400);
     expect(bad.body.error.fields[0].field).toBe('sort');
   });
+
+  it('sorts names and words whatever their letter case, as a reader expects', async () => {
+    for (const name of ['Casefold PVC-insulated pair', 'Casefold Paper-insulated cable', 'casefold plain coax']) {
+      await planner.post('/api/cables', solidPe(name, { dielectric: name.endsWith('coax') ? 'Air-spaced' : 'paper' })).expect(201);
+    }
+    const up = await planner.get('/api/cables?q=casefold&sort=name&dir=asc').expect(200);
+    expect(up.body.items.map((i: { name: string }) => i.name)).toEqual(['Casefold Paper-insulated cable', 'casefold plain coax', 'Casefold PVC-insulated pair']);
+    const down = await planner.get('/api/cables?q=casefold&sort=name&dir=desc').expect(200);
+    expect(down.body.items.map((i: { name: string }) => i.name)).toEqual(['Casefold PVC-insulated pair', 'casefold plain coax', 'Casefold Paper-insulated cable']);
+    const byDielectric = await planner.get('/api/cables?q=casefold&sort=dielectric&dir=asc').expect(200);
+    expect(byDielectric.body.items.map((i: { dielectric: string }) => i.dielectric)).toEqual(['Air-spaced', 'paper', 'paper']);
+  });
 });
 
 describe('loss and pulse-width VFs', () => {
