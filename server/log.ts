@@ -46,18 +46,25 @@ export function createLogger(config: Pick<AppConfig, 'logLevel'>, destination?: 
     {
       level: config.logLevel,
       base: { app: 'rholog' },
-      // Every line written while a request is handled names it, across instances behind one proxy.
-      mixin: () => {
-        const requestId = requestContext.getStore();
-        return requestId ? { requestId } : {};
-      },
+      // Every line written while a request is handled names it, across instances behind one proxy;
+      // every line written by a background job's run names that run instead.
+      mixin: () => requestContext.getStore() ?? {},
       redact: { paths: ['password', 'newPassword', 'currentPassword', '*.password', 'headers.cookie', 'req.headers.cookie'], censor: '[hidden]' },
     },
     destination ?? pino.destination({ dest: 1, sync: true }),
   );
 }
 
-const requestContext = new AsyncLocalStorage<string>();
+const requestContext = new AsyncLocalStorage<{ requestId: string } | { job: string; jobId: string; jobRunId: string }>();
+
+/**
+ * Run one try of a background job with its own ids on every log line it
+ * writes (the job's name, its id, and an id for this run), never the id of
+ * the request that happened to queue or wake it.
+ */
+export function runAsJob<T>(ids: { job: string; jobId: string; jobRunId: string }, fn: () => T): T {
+  return requestContext.run(ids, fn);
+}
 
 /** A proxy's X-Request-Id when it looks like one (so one id follows a request through proxy and app logs), or a new one. */
 const REQUEST_ID = /^[\w.:-]{8,128}$/;
@@ -67,7 +74,7 @@ export const requestIds: RequestHandler = (req, res, next) => {
   const given = req.get('x-request-id');
   const id = given && REQUEST_ID.test(given) ? given : randomUUID();
   res.setHeader('X-Request-Id', id);
-  requestContext.run(id, next);
+  requestContext.run({ requestId: id }, next);
 };
 
 export function securityLog(logger: Logger): SecurityLog {

@@ -1,4 +1,5 @@
 import { randomUUID } from 'node:crypto';
+import { runAsJob } from '../log';
 import { JobReleased, retryDelaySeconds, type JobHandler, type JobKind, type JobQueue, type JobState } from './queue';
 
 interface Entry {
@@ -10,18 +11,27 @@ interface Entry {
   timer?: NodeJS.Timeout;
 }
 
+/** How many finished jobs' ends state() still answers for. */
+const FINISHED_KEPT = 1000;
+
 /**
  * Jobs run in this process (SQLite: one instance). Same behaviour as the
  * database-backed queue inside one process: one job of a kind at a time,
  * retries with back-off, and a stop that waits for running jobs and then
  * calls them off. Jobs waiting in memory end with the process; work that
  * must survive a restart keeps its own record in the database and is queued
- * again at start (the cable re-analysis does).
+ * again at start (the cable re-analysis does). A finished job is dropped
+ * (only how it ended is kept, for the last 1000), so a long-running server
+ * does not gather every job it ever ran; each run of a job logs with its own
+ * ids (`runAsJob`), not those of the request that queued it.
  */
 export class InProcessQueue implements JobQueue {
   readonly engine = 'in-process' as const;
   private readonly kinds = new Map<string, { kind: JobKind; handler: JobHandler<object>; waiting: Entry[]; running: Promise<void> | null }>();
+  /** Jobs not yet finished: waiting, running or waiting for a retry. A finished job leaves, with its data. */
   private readonly jobs = new Map<string, Entry>();
+  /** How the last FINISHED_KEPT finished jobs ended, for state(); older ones are forgotten. */
+  private readonly finished = new Map<string, 'done' | 'failed'>();
   private readonly abort = new AbortController();
   private stopped = false;
 
@@ -42,7 +52,19 @@ export class InProcessQueue implements JobQueue {
   }
 
   async state(_name: string, id: string): Promise<JobState | null> {
-    return this.jobs.get(id)?.state ?? null;
+    return this.jobs.get(id)?.state ?? this.finished.get(id) ?? null;
+  }
+
+  /** How many jobs the queue holds in memory (not yet finished). */
+  get held(): number {
+    return this.jobs.size;
+  }
+
+  private finish(entry: Entry, state: 'done' | 'failed') {
+    entry.state = state;
+    this.jobs.delete(entry.id);
+    this.finished.set(entry.id, state);
+    if (this.finished.size > FINISHED_KEPT) this.finished.delete(this.finished.keys().next().value!);
   }
 
   async ping() {
@@ -55,18 +77,18 @@ export class InProcessQueue implements JobQueue {
     const entry = k.waiting.shift();
     if (!entry) return;
     entry.state = 'running';
-    k.running = k
-      .handler(entry.data, { id: entry.id, signal: this.abort.signal })
-      .then(
-        () => {
-          entry.state = 'done';
-        },
-        (err: unknown) => this.failed(entry, k.kind, err),
-      )
-      .finally(() => {
-        k.running = null;
-        this.next(name);
-      });
+    k.running = runAsJob({ job: name, jobId: entry.id, jobRunId: randomUUID() }, () =>
+      k
+        .handler(entry.data, { id: entry.id, signal: this.abort.signal })
+        .then(
+          () => this.finish(entry, 'done'),
+          (err: unknown) => this.failed(entry, k.kind, err),
+        )
+        .finally(() => {
+          k.running = null;
+          this.next(name);
+        }),
+    );
   }
 
   private failed(entry: Entry, kind: JobKind, err: unknown) {
@@ -75,7 +97,7 @@ export class InProcessQueue implements JobQueue {
       return;
     }
     if (entry.retries >= kind.retryLimit) {
-      entry.state = 'failed';
+      this.finish(entry, 'failed');
       this.log(`job ${entry.name} ${entry.id} failed for good after ${entry.retries + 1} tries`, (err as Error)?.message ?? String(err));
       return;
     }
