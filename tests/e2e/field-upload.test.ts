@@ -45,6 +45,20 @@ describe('a technician on a phone', () => {
     expect(where).toMatch(/^(79|80)\.\d m past manhole MH-2 toward road crossing RC-1; dig on the ground/);
     await page.locator('canvas').first().waitFor();
     await e2e.screenshot(page, 'field-trace-phone');
+    // The header's site link is a 44 px target on a phone: it has a row of its own, and the words after it
+    // keep the body's line spacing instead of a 44 px gap after their first line.
+    const head = await page.getByTestId('trace-subtitle').evaluate((el) => {
+      const link = el.querySelector('a')!.getBoundingClientRect();
+      const words = el.querySelector(':scope > span')!;
+      const range = document.createRange();
+      range.selectNodeContents(words);
+      const tops = [...new Set([...range.getClientRects()].map((r) => Math.round(r.top)))].sort((a, b) => a - b);
+      return { linkBottom: link.bottom, wordsTop: words.getBoundingClientRect().top, tops };
+    });
+    expect(head.wordsTop).toBeGreaterThanOrEqual(head.linkBottom - 1);
+    expect(head.tops.length).toBeGreaterThanOrEqual(2);
+    // 15 px text at a line height of about 1.4 is 21 px a line (common practice); 30 px leaves room and still fails a 44 px gap.
+    for (let i = 1; i < head.tops.length; i += 1) expect(head.tops[i]! - head.tops[i - 1]!).toBeLessThan(30);
 
     // Cursor 2 starts on the event; slide cursor 1 to about 300 m and read the gap.
     const gap = page.getByTestId('cursor-gap');

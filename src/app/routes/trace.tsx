@@ -96,12 +96,18 @@ export function TracePage() {
       <PageHeader
         title={t.originalName}
         subtitle={
-          <>
+          // The site link is a 44 px target on a phone: it gets a row of its own there, so the words after it keep their line height.
+          <span className="flex flex-wrap items-center gap-x-1.5" data-testid="trace-subtitle">
             <Link className="text-teal underline" to={paths.site.to(t.siteId)}>
               {t.siteName}
-            </Link>{' '}
-            · {t.cableRunName} · from end {t.end} ({t.endLabel}) · {t.uploadedBy.name}, {formatDateTime(t.createdAt)}
-          </>
+            </Link>
+            <span>
+              <span aria-hidden="true" className="hidden sm:inline">
+                ·{' '}
+              </span>
+              {t.cableRunName} · from end {t.end} ({t.endLabel}) · {t.uploadedBy.name}, {formatDateTime(t.createdAt)}
+            </span>
+          </span>
         }
         actions={
           <>
