@@ -7,10 +7,26 @@ import type { Logger } from './log';
 /** Remove every permission for other users (0755 → 0750, 0644 → 0640), and optionally the group's too. */
 function tighten(file: string, mask: number) {
   try {
-    const mode = fs.statSync(file).mode & 0o777;
+    const mode = fs.statSync(file).mode & 0o7777;
     if ((mode & mask) !== 0) fs.chmodSync(file, mode & ~mask);
   } catch (err) {
     if ((err as NodeJS.ErrnoException).code !== 'ENOENT') throw err;
+  }
+}
+
+/**
+ * A folder Rholog may close to others: its own. A folder shared by everyone
+ * (the sticky bit, as /tmp has) or owned by another user is left exactly as it
+ * is: closing it would break every other program that uses it.
+ */
+function ownFolder(dir: string): boolean {
+  try {
+    const st = fs.statSync(dir);
+    const uid = typeof process.getuid === 'function' ? process.getuid() : st.uid;
+    return (st.mode & 0o1000) === 0 && st.uid === uid;
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code === 'ENOENT') return false;
+    throw err;
   }
 }
 
@@ -23,9 +39,12 @@ export function hardenFiles(config: Pick<AppConfig, 'databaseUrl' | 'uploadDir'>
   if (dialectOf(config.databaseUrl) === 'sqlite') {
     const db = sqlitePath(config.databaseUrl);
     for (const f of [db, `${db}-wal`, `${db}-shm`]) tighten(f, 0o077);
-    tighten(path.dirname(db), 0o007);
+    const dir = path.dirname(db);
+    if (ownFolder(dir)) tighten(dir, 0o007);
+    else logger?.warn({ folder: dir }, 'the database sits in a folder shared with others; it is left open as it is: give Rholog a folder of its own');
   }
-  tighten(config.uploadDir, 0o007);
+  if (ownFolder(config.uploadDir)) tighten(config.uploadDir, 0o007);
+  else logger?.warn({ folder: config.uploadDir }, 'the upload folder is shared with others; it is left open as it is: give Rholog a folder of its own');
   logger?.debug({ uploadDir: config.uploadDir }, 'file permissions checked');
 }
 
