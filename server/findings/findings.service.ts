@@ -11,6 +11,7 @@ import { sameFaultFindingIds } from './best-location';
 import { AppError } from '../errors';
 import { emitFindingConfirmed } from './events';
 import { containsPattern, idsContaining } from '../db/text-search';
+import { containsText } from '../db/search';
 import { FINDINGS_FOLDED_WHERE, FINDINGS_TEXT_FTS } from '../db/migrations/0018-findings-text-index';
 import { pendingConflict } from '../traces/traces.service';
 
@@ -219,14 +220,31 @@ async function findingsContaining(text: string) {
   );
 }
 
+/**
+ * Findings holding the text, or on a site or cable run whose name holds it
+ * (matched as the site and run lists match names). Sites and runs are few:
+ * their ids are read first, and a text naming none leaves the query as it was.
+ */
+async function findingsMatching(text: string): Promise<WhereOptions<Finding>> {
+  const [own, sites, runs] = await Promise.all([
+    findingsContaining(text),
+    Site.findAll({ attributes: ['id'], where: containsText(Site, 'name', text) }),
+    CableRun.findAll({ attributes: ['id'], where: containsText(CableRun, 'name', text) }),
+  ]);
+  const places: WhereOptions<Finding>[] = [];
+  if (sites.length) places.push({ siteId: { [Op.in]: sites.map((x) => x.id) } });
+  if (runs.length) places.push({ cableRunId: { [Op.in]: runs.map((x) => x.id) } });
+  return places.length ? { [Op.or]: [own, ...places] } : own;
+}
+
 export async function listFindings(q: z.output<typeof FindingListQuerySchema>): Promise<Page<FindingView>> {
   const where: WhereOptions<Finding> = {
     ...(q.siteId ? { siteId: q.siteId } : {}),
     ...(q.cableRunId ? { cableRunId: q.cableRunId } : {}),
     ...(q.traceId ? { traceId: q.traceId } : {}),
     ...(q.status ? { status: q.status } : {}),
-    // Text search: the note, the kind and the route position sentence.
-    ...(q.q ? { [Op.and]: [await findingsContaining(q.q)] } : {}),
+    // Text search: the note, the kind and the route position sentence, and the site's and the run's names.
+    ...(q.q ? { [Op.and]: [await findingsMatching(q.q)] } : {}),
   };
   const { rows, count } = await Finding.findAndCountAll({
     where,

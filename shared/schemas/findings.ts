@@ -52,7 +52,7 @@ export const FindingListQuerySchema = z.object({
   cableRunId: textId().optional(),
   traceId: textId().optional(),
   status: z.enum(FINDING_STATUSES).optional(),
-  /** Text search in the note, the kind and the route position. */
+  /** Text search in the note, the kind and the route position, and the site and run names. */
   q: z.string().trim().max(100, 'must be at most 100 characters').optional(),
   sort: z.enum(FINDING_SORTS).default('confirmedAt'),
   dir: z.enum(['asc', 'desc']).default('desc'),

@@ -22,13 +22,14 @@ const NOTES: Record<string, string | null> = {
   umlaut: 'Ärger at the Öffnung',
 };
 
-/** Today's search written out: LIKE (SQLite) or ILIKE (PostgreSQL) over the three columns, every row tested. */
+/** Today's search written out: LIKE (SQLite) or ILIKE (PostgreSQL) over the three columns and the site's and run's names, every row tested. */
 async function scan(text: string): Promise<number[]> {
   const s = Finding.sequelize!;
   const like = s.getDialect() === 'postgres' ? 'ILIKE' : 'LIKE';
   const pattern = s.escape(`%${text.replace(/[\\%_]/g, (c) => `\\${c}`)}%`);
   const [rows] = await s.query(
-    `SELECT id FROM findings WHERE cable_run_id = ${fx.run.id} AND (note ${like} ${pattern} ESCAPE '\\' OR kind ${like} ${pattern} ESCAPE '\\' OR route_position_text ${like} ${pattern} ESCAPE '\\') ORDER BY id`,
+    `SELECT id FROM findings WHERE cable_run_id = ${fx.run.id} AND (note ${like} ${pattern} ESCAPE '\\' OR kind ${like} ${pattern} ESCAPE '\\' OR route_position_text ${like} ${pattern} ESCAPE '\\'` +
+      ` OR site_id IN (SELECT id FROM sites WHERE name ${like} ${pattern} ESCAPE '\\') OR cable_run_id IN (SELECT id FROM cable_runs WHERE name ${like} ${pattern} ESCAPE '\\')) ORDER BY id`,
   );
   return (rows as Array<{ id: number }>).map((r) => Number(r.id));
 }
@@ -42,6 +43,7 @@ async function search(text: string): Promise<{ ids: number[]; total: number }> {
 const QUERIES = [
   'hedge', 'HEDGE', 'Hedge', 'kerb', 'KERB', 'stile', 'tile', 'by the', 'the', 'pumphouse', '"x"', 'Quote "x', '100%', 'b_1',
   'e b', 'no', 'Ärger', 'ärger', 'ÄRGER', '\u212aerb', '\u017ftile', 'open-conductor', 'OPEN-COND', 'past end', 'xyz',
+  'text search run', 'SEARCH RUN SITE', 'run site',
 ];
 
 beforeAll(async () => {

@@ -35,7 +35,7 @@ export function FindingsPage() {
       <Card>
         <ListSearch
           label="Search findings"
-          placeholder="Marker, kind or note"
+          placeholder="Site, run, marker, kind or note"
           text={text}
           onText={setText}
           onClear={clear}
