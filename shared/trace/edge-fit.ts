@@ -752,9 +752,9 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     const shaped = bestShapeFit(ctx, win, model, m, lossSource);
     let { f, zeroPhase } = shaped;
     // A causal fit that runs into the earliest arrival tried (a lossy edge's foot lies further back than
-    // its tangent reading suggests) would be refused, or lose to the zero-phase shape unfairly: both are
-    // tried once more with the search reaching a range further back.
-    if (shaped.causal && shaped.causal.d < win.lo + 0.01 * (win.hi - win.lo)) {
+    // its tangent reading suggests) has lost to the zero-phase shape unfairly: both are tried once more
+    // with the search reaching a range further back.
+    if (zeroPhase && shaped.causal && shaped.causal.d < win.lo + 0.01 * (win.hi - win.lo)) {
       const wider = eventWindow(ctx, events, k, win.hi - win.lo);
       if (wider.lo < win.lo - 1) {
         const again = bestShapeFit(ctx, wider, model, m, lossSource);
