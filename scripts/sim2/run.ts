@@ -16,8 +16,9 @@ function arg(name: string): string | undefined {
 }
 
 const setName = arg('--set');
-if (setName !== 'tuning' && setName !== 'heldout' && setName !== 'heldout2' && setName !== 'heldout3') {
-  process.stderr.write('usage: run.ts --set tuning|heldout|heldout2|heldout3 [--json] [--quiet] [--only TEXT]\n');
+const SET_NAMES: readonly string[] = ['tuning', 'tuning2', 'heldout', 'heldout2', 'heldout3', 'heldout4'];
+if (!setName || !SET_NAMES.includes(setName)) {
+  process.stderr.write(`usage: run.ts --set ${SET_NAMES.join('|')} [--json] [--quiet] [--only TEXT]\n`);
   process.exit(2);
 }
 const json = process.argv.includes('--json');
