@@ -1,23 +1,16 @@
 import { describe, expect, it } from 'vitest';
-import { analyzeTrace, type ParsedTrace } from '../../../shared/trace';
+import { analyzeTrace } from '../../../shared/trace';
 import { findLaunch } from '../../../shared/trace/launch';
 import { estimateSlowNoise } from '../../../shared/trace/noise';
 import type { TraceRecord } from '../../../shared/trace/steps';
 import { gaussianSource } from '../../../scripts/sim/line-model';
+import { parsedTrace } from '../../support/parsed-trace';
 
 const record = (y: Float64Array, dt = 1e-9): TraceRecord => {
   const n = y.length;
   return { y, t: new Float64Array(n).map((_, i) => i * dt), n, dt, unit: 'V' };
 };
-const parsed = (r: TraceRecord): ParsedTrace => ({
-  timeS: r.t,
-  amplitude: r.y,
-  amplitudeUnit: 'V',
-  metadata: {},
-  hints: {},
-  layout: {} as ParsedTrace['layout'],
-  warnings: [],
-});
+const parsed = (r: TraceRecord) => parsedTrace(r.y, { timeS: r.t });
 
 /** erfc by Abramowitz and Stegun, "Handbook of Mathematical Functions" (1964), eq. 7.1.26 (error under 1.5e-7). */
 function erfc(x: number): number {

@@ -1,18 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { analyzeTrace, type ParsedTrace } from '../../../shared/trace';
+import { analyzeTrace } from '../../../shared/trace';
+import { parsedTrace } from '../../support/parsed-trace';
 import { adcStep, estimateNoise } from '../../../shared/trace/noise';
 import { gaussianSource } from '../../../scripts/sim/line-model';
 
 const DT = 1e-9;
-const parsed = (y: Float64Array): ParsedTrace => ({
-  timeS: new Float64Array(y.length).map((_, i) => i * DT),
-  amplitude: y,
-  amplitudeUnit: 'V',
-  metadata: {},
-  hints: {},
-  layout: {} as ParsedTrace['layout'],
-  warnings: [],
-});
+const parsed = (y: Float64Array) => parsedTrace(y, { dtS: DT });
 
 /** An 8-bit recorder over ±4 V: a step of 8/256 = 0.03125 V, rounding to the nearest level. */
 const Q = 8 / 256;

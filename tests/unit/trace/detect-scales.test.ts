@@ -1,17 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { analyzeTrace, type ParsedTrace } from '../../../shared/trace';
+import { analyzeTrace } from '../../../shared/trace';
+import { parsedTrace } from '../../support/parsed-trace';
 import { gaussianSource } from '../../../scripts/sim/line-model';
 
 const DT = 1e-9;
-const parsed = (y: Float64Array): ParsedTrace => ({
-  timeS: new Float64Array(y.length).map((_, i) => i * DT),
-  amplitude: y,
-  amplitudeUnit: 'V',
-  metadata: {},
-  hints: {},
-  layout: {} as ParsedTrace['layout'],
-  warnings: [],
-});
+const parsed = (y: Float64Array) => parsedTrace(y, { dtS: DT });
 
 describe('the step filter’s scales', () => {
   it('reach a smooth far edge spread over thousands of samples, however fine the finest scale is', () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { analyzeTrace, type ParsedTrace } from '../../../shared/trace';
+import { analyzeTrace } from '../../../shared/trace';
 import type { ReflectionEvent } from '../../../shared/schemas/trace-analysis';
 import { classifyEvent, ownReflections } from '../../../shared/trace/classify';
 import { detectEdges } from '../../../shared/trace/detection';
@@ -12,20 +12,13 @@ import type { Measured, TraceRecord } from '../../../shared/trace/steps';
 import { COAX_50 } from '../../../scripts/sim/cables';
 import { gaussianSource } from '../../../scripts/sim/line-model';
 import { defaultAcquisition, simulateScenario, type Scenario } from '../../../scripts/sim/scenario';
+import { parsedTrace } from '../../support/parsed-trace';
 
 const record = (y: Float64Array, dt = 1e-9, t0 = 0): TraceRecord => {
   const n = y.length;
   return { y, t: new Float64Array(n).map((_, i) => t0 + i * dt), n, dt, unit: 'V' };
 };
-const parsed = (r: TraceRecord, unit: 'V' | 'rho' = 'V'): ParsedTrace => ({
-  timeS: r.t,
-  amplitude: r.y,
-  amplitudeUnit: unit,
-  metadata: {},
-  hints: {},
-  layout: {} as ParsedTrace['layout'],
-  warnings: [],
-});
+const parsed = (r: TraceRecord, unit: 'V' | 'rho' = 'V') => parsedTrace(r.y, { timeS: r.t, unit });
 const edge = (h: number, opts: Partial<Measured> = {}): Measured => ({
   onsetIdx: 0,
   t50Idx: 0,

@@ -5,6 +5,7 @@ import { COAX_50, POWER_MV } from '../../../scripts/sim/cables';
 import { impair, simulate } from '../../../scripts/sim/line-model';
 import { writeLayout } from '../../../scripts/sim/layouts';
 import { defaultAcquisition, simulateScenario, type Scenario } from '../../../scripts/sim/scenario';
+import { parsedTrace } from '../../support/parsed-trace';
 
 // Ground truth is the simulated geometry: a 50 Ω coax with a 100 Ω shunt fault at
 // 23.5 m (ρ = (ZL − Z0)/(ZL + Z0) with ZL = 100 ∥ 50 = 33.3 Ω gives −0.2) and an open end at 60 m.
@@ -18,15 +19,7 @@ const route: Scenario = {
 const tol = (d: number) => Math.max(0.5, 0.01 * d);
 
 function traceOf(t: Float64Array, v: Float64Array, unit: 'V' | 'rho' = 'V'): ParsedTrace {
-  return {
-    timeS: t,
-    amplitude: v,
-    amplitudeUnit: unit,
-    metadata: {},
-    hints: {},
-    layout: {} as ParsedTrace['layout'],
-    warnings: [],
-  };
+  return parsedTrace(v, { timeS: t, unit });
 }
 
 function expectRoute(events: Array<{ distanceM: number; type: string }>, offsetM = 0) {
