@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InProcessQueue } from '../../server/jobs/in-process-queue';
 import { eventually } from './mail.support';
-import { startApi, type TestApi } from './support/api';
+import { startApi, type TestApi, isPostgres } from './support/api';
 import { captureLog } from './support/log-capture';
 import { makeRun, stepTraceCsv } from './support/field-fixtures';
 
@@ -32,7 +32,6 @@ describe('the in-process job queue', () => {
 });
 
 /** The in-process queue runs on SQLite only; on PostgreSQL pg-boss runs the jobs, and its log lines do not carry run ids yet. */
-const isPostgres = /^postgres(ql)?:\/\//.test(process.env.DATABASE_URL ?? '');
 
 describe.skipIf(isPostgres)('background job log lines of the in-process queue', () => {
   let api: TestApi;

@@ -4,10 +4,9 @@ import { JobReleased, retryDelaySeconds } from '../../server/jobs';
 import { InProcessQueue } from '../../server/jobs/in-process-queue';
 import { PgBossQueue } from '../../server/jobs/pg-boss-queue';
 import { MailQueue } from '../../server/mail';
-import { startApi, type TestApi } from './support/api';
+import { startApi, type TestApi, isPostgres } from './support/api';
 import { eventually } from './mail.support';
 
-const isPostgres = /^postgres(ql)?:\/\//.test(process.env.DATABASE_URL ?? '');
 
 describe('background jobs', () => {
   let api: TestApi;

@@ -12,7 +12,7 @@ import { startFakeS3, type FakeS3 } from '../support/fake-s3';
 import { freshDatabase, testConfig } from '../support/test-config';
 import { closedPort, eventually } from './mail.support';
 import { makeRun, stepTraceCsv } from './support/field-fixtures';
-import { TEST_PASSWORD } from './support/api';
+import { TEST_PASSWORD, isPostgres } from './support/api';
 
 /**
  * Rholog as several instances behind a proxy on one database and one object
@@ -21,7 +21,6 @@ import { TEST_PASSWORD } from './support/api';
  * the rule, the same work goes to the one instance, with its in-process jobs
  * and an interrupted re-analysis finished after a restart.
  */
-const isPostgres = /^postgres(ql)?:\/\//.test(process.env.DATABASE_URL ?? '');
 
 const JOBS = { maintenanceSeconds: 1, pollSeconds: 0.5, leaseSeconds: 5, shutdownGraceMs: 1 };
 const UPLOADS = 50;

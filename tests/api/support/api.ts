@@ -9,6 +9,9 @@ import { freshDatabase, testConfig } from '../../support/test-config';
 
 export const TEST_PASSWORD = 'correct-horse-battery';
 
+/** Whether this run's API tests use PostgreSQL (`npm run test:pg` sets DATABASE_URL) rather than SQLite. */
+export const isPostgres = /^postgres(ql)?:\/\//.test(process.env.DATABASE_URL ?? '');
+
 export interface Client {
   agent: ReturnType<typeof supertest.agent>;
   csrf: string;
