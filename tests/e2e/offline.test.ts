@@ -35,6 +35,8 @@ async function analyseOnPhone(page: Page, fileName: string, csv: string) {
   await page.getByRole('button', { name: /End A/ }).click();
   await page.getByLabel('Trace file').setInputFiles({ name: fileName, mimeType: 'text/csv', buffer: Buffer.from(csv) });
   await page.getByText(fileName).waitFor();
+  // The file's size reads as everywhere else in Rholog (binary kilobytes, lower-case k).
+  expect(await page.getByTestId('device-file-size').textContent()).toBe(`${Math.round(Buffer.byteLength(csv) / 1024)} kB`);
   await page.getByRole('button', { name: 'Analyse on this phone' }).click();
   await page.getByText('Analysed on this device, not yet uploaded').waitFor({ timeout: 20_000 });
 }

@@ -7,6 +7,7 @@ import { SelectField, TextField } from '../../../components/ui/field';
 import { Notice } from '../../../components/ui/notice';
 import { countOf, formatLength, fromUnit, type LengthUnit } from '../../../lib/format';
 import { EndPicker } from '../../traces/components/end-picker';
+import { formatFileSize } from '../../traces/components/file-size';
 import { analyseOnDevice, startEngine } from '../analyse-on-device';
 import { analysisCableOf } from '../cable-values';
 import { useDevice } from '../device-context';
@@ -196,7 +197,9 @@ export function DeviceAnalyseForm({ unit, onAnalysed }: { unit: LengthUnit; onAn
         {file && (
           <p className="mt-3 flex justify-between gap-2 rounded-md border border-rule px-3 py-2 text-sm">
             <span className="truncate font-semibold">{file.name}</span>
-            <span className="text-mist tabular">{(file.size / 1024).toFixed(0)} KB</span>
+            <span className="text-mist tabular" data-testid="device-file-size">
+              {formatFileSize(file.size)}
+            </span>
           </p>
         )}
       </Card>
