@@ -109,6 +109,8 @@ describe('a repair from assignment to calibration', () => {
     await page.getByText('Under way', { exact: true }).first().waitFor();
     const form = page.getByRole('form', { name: 'Close-out' });
     await form.getByLabel('Route marker').selectOption(String(mh2Id));
+    // The marker reads as it does on the route page: its kind once, then where it lies.
+    expect(await form.getByLabel('Route marker').locator('option:checked').textContent()).toBe('Manhole MH-2 (310.0 m from end A on the ground)');
     await form.getByLabel('Distance past it toward end B (m)').fill('85');
     // Hand-worked: 85 m past MH-2 (310 m) is 395 m of route; the 4 + 6 m coils lie before it → 405 m of cable.
     const preview = form.getByTestId('closeout-preview');

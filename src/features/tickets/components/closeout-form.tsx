@@ -6,6 +6,7 @@ import { compareLocatedFound, type FoundPosition } from '../../../../shared/tick
 import { Button } from '../../../components/ui/button';
 import { fieldErrors, SelectField, TextAreaField, TextField } from '../../../components/ui/field';
 import { ErrorNotice, Notice } from '../../../components/ui/notice';
+import { markerPhrase } from '../../../../shared/field/route-position';
 import { formatLength, formatSignedLength, fromUnit, lengthsInText, markerKindTitle, type LengthUnit } from '../../../lib/format';
 import { useCloseOutTicket } from '../api/save-ticket';
 
@@ -91,7 +92,7 @@ export function CloseoutForm({ ticket, unit, onDone }: { ticket: TicketDetail; u
             <SelectField label="Route marker" value={markerId} onChange={(e) => setMarkerId(Number(e.target.value))} error={errors['found.markerId']}>
               {run.markers.map((m) => (
                 <option key={m.id} value={m.id}>
-                  {m.label} ({markerKindTitle(m.kind)}, {formatLength(m.chainageM, unit)} from end A on the ground)
+                  {markerPhrase(markerKindTitle(m.kind), m.label)} ({formatLength(m.chainageM, unit)} from end A on the ground)
                 </option>
               ))}
             </SelectField>
