@@ -1,4 +1,6 @@
+import { randomUUID } from 'node:crypto';
 import PgBoss from 'pg-boss';
+import { runAsJob } from '../log';
 import type { JobHandler, JobKind, JobQueue, JobState } from './queue';
 
 export interface PgBossOptions {
@@ -66,7 +68,8 @@ export class PgBossQueue implements JobQueue {
       }
     }
     await this.boss.work<T>(name, { batchSize: 1, pollingIntervalSeconds: this.options.pollSeconds }, async ([job]) => {
-      await handler(job.data, { id: job.id, signal: this.abort.signal });
+      // Each run logs with its own ids (a retry is a new run of the same job), never a request's.
+      await runAsJob({ job: name, jobId: job.id, jobRunId: randomUUID() }, () => handler(job.data, { id: job.id, signal: this.abort.signal }));
     });
   }
 

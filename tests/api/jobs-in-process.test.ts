@@ -31,9 +31,8 @@ describe('the in-process job queue', () => {
   });
 });
 
-/** The in-process queue runs on SQLite only; on PostgreSQL pg-boss runs the jobs, and its log lines do not carry run ids yet. */
-
-describe.skipIf(isPostgres)('background job log lines of the in-process queue', () => {
+/** The in-process queue runs the jobs on SQLite, pg-boss on PostgreSQL: each run logs with its own ids either way. */
+describe(`background job log lines (${isPostgres ? 'pg-boss' : 'in-process queue'})`, () => {
   let api: TestApi;
   const log = captureLog();
   beforeAll(async () => {
