@@ -6,59 +6,12 @@ import {
   startSending,
   withServerEvents,
   type Answer,
-  type DecisionItem,
-  type DeviceEvent,
-  type UploadItem,
 } from '../../../src/features/offline/outbox-machine';
+import { decision as makeDecision, OPEN_AT_400, T0, upload as makeUpload } from './outbox-items';
 
 /** A large file sent from the phone is answered 202: stored, analysed on the server later. */
-const T0 = new Date('2031-05-14T08:00:00Z');
-const OPEN_AT_400: DeviceEvent = { index: 0, type: 'open', distanceM: 400.0, windowStartM: 396.0, windowEndM: 404.0 };
-
-const upload: UploadItem = {
-  kind: 'upload',
-  id: 'u1',
-  key: 'device-upload-0001',
-  userId: 7,
-  userName: 'Tess Tech',
-  createdAt: T0.toISOString(),
-  state: 'queued',
-  attempts: 0,
-  lastAttemptAt: null,
-  nextAttemptAt: null,
-  problem: null,
-  sentAt: null,
-  fileName: 'long-shot.csv',
-  bytes: new TextEncoder().encode('time_ns,voltage_V\n0,0.01\n').buffer as ArrayBuffer,
-  sizeBytes: 25,
-  fields: { cableRunId: '3', end: 'A', mode: 'auto' },
-  where: { siteId: 1, siteName: 'Harrowmere North', cableRunId: 3, cableRunName: 'Feeder HN-3', end: 'A', endLabel: 'Bay 3' },
-  analysis: null,
-  deviceError: null,
-  summary: null,
-  result: null,
-};
-
-const decision: DecisionItem = {
-  kind: 'decision',
-  id: 'd1',
-  uploadId: 'u1',
-  userId: 7,
-  userName: 'Tess Tech',
-  createdAt: T0.toISOString(),
-  state: 'queued',
-  attempts: 0,
-  lastAttemptAt: null,
-  nextAttemptAt: null,
-  problem: null,
-  sentAt: null,
-  event: OPEN_AT_400,
-  status: 'confirmed',
-  findingKind: 'open-conductor',
-  note: null,
-  target: null,
-  result: null,
-};
+const upload = makeUpload({ fileName: 'long-shot.csv' });
+const decision = makeDecision(upload, { note: null });
 
 const accepted: Answer = {
   kind: 'http',
