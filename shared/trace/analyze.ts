@@ -242,7 +242,9 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
         'the launch is flat at the recorder’s limit (clipped); reflection coefficients read against it are too large and are capped at ±1',
     });
   }
-  const signal = buildWorkingSignal(rec, L, sigma0);
+  // One record-length buffer for the temporary running sums of the noise measure and of detection, in turn.
+  const scratch = new Float64Array(rec.n + 1);
+  const signal = buildWorkingSignal(rec, L, sigma0, scratch);
   if (rec.n - signal.start < 16) {
     const msg = 'no reflection above noise (the record ends inside the blind zone)';
     return emptyAnalysis(rec, L, options, sigma0, [...warnings, { code: 'NO_REFLECTION', message: msg }]);
@@ -252,6 +254,7 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     thresholdSigma: options.thresholdSigma,
     falseEventsPerTrace: FALSE_EVENTS_PER_TRACE,
     rhoMin,
+    scratch,
   });
   const edgeInput = { rec, launch: L, signal, rhoMin, vf: options.vf, loss: options.loss, vfPulseWidthNs: options.vfPulseWidthNs };
   const fitted = dropQuantiserStairs(fitEdges(edgeInput, detection.candidates), signal);

@@ -37,6 +37,8 @@ export interface DetectionSettings {
   falseEventsPerTrace: number;
   /** Smallest |ρ| reported. */
   rhoMin: number;
+  /** A buffer of at least n + 1 values the prefix sums may be written into (its contents are overwritten). */
+  scratch?: Float64Array;
 }
 
 export interface Detection {
@@ -62,8 +64,15 @@ function whiteNoiseOfF(w: number, sig: WorkingSignal): number {
   return white * sig.noiseExcess(w);
 }
 
-/** Robust noise of F at one scale (see the header). */
-function filterNoise(F: Float64Array, count: number, w: number, stride: number, sig: WorkingSignal, excess: number): ScaleNoise {
+/** Robust noise of F at one scale (see the header); F(k) is the filter's k-th output of `count`. */
+function filterNoise(
+  F: (k: number) => number,
+  count: number,
+  w: number,
+  stride: number,
+  sig: WorkingSignal,
+  excess: number,
+): ScaleNoise {
   const white = Math.max(whiteNoiseOfF(w, sig), 1e-12);
   const lag = Math.max(1, Math.round((4 * w) / stride));
   let measured: number;
@@ -71,12 +80,65 @@ function filterNoise(F: Float64Array, count: number, w: number, stride: number, 
     const m = count - lag;
     const step = Math.max(1, Math.floor(m / 4001));
     const dF = new Float64Array(Math.ceil(m / step));
-    for (let k = 0, j = 0; k < m; k += step, j++) dF[j] = F[k] - F[k + lag];
+    for (let k = 0, j = 0; k < m; k += step, j++) dF[j] = F(k) - F(k + lag);
     measured = madSigma(dF, 0, dF.length) / Math.SQRT2;
-  } else measured = madSigma(F, 0, count);
+  } else {
+    const all = new Float64Array(count);
+    for (let k = 0; k < count; k++) all[k] = F(k);
+    measured = madSigma(all, 0, count);
+  }
   // Enough independent outputs (twelve lags' worth) for the robust spread to hold.
   if (count >= 12 * lag) return { sigmaF: Math.max(measured, white), excess: Math.max(1, measured / white) };
   return { sigmaF: Math.max(white, Math.min(measured, 3 * excess * white)), excess: null };
+}
+
+/**
+ * Extreme of each run of |F| above thr, where F is the step filter at scale w read from the
+ * prefix sums at positions from + k·stride, k < count: computed as it is scanned, never stored.
+ */
+function filterRunsAbove(
+  P: Float64Array,
+  count: number,
+  from: number,
+  stride: number,
+  w: number,
+  thr: number,
+  sigmaF: number,
+): Candidate[] {
+  const candidates: Candidate[] = [];
+  const inv = 1 / (2 * w);
+  const w2 = 2 * w;
+  let runStart = -1;
+  let runSign = 0;
+  let best = -1;
+  let bestAbs = 0;
+  let bestF = 0;
+  for (let k = 0, i = from; k < count; k++, i += stride) {
+    const v = (-P[i - w2] + 4 * P[i - w] - 6 * P[i] + 4 * P[i + w] - P[i + w2]) * inv;
+    const a = v < 0 ? -v : v;
+    if (a > thr) {
+      const sg = v < 0 ? -1 : 1;
+      if (runStart < 0 || sg !== runSign) {
+        if (best >= 0) candidates.push({ i: from + best * stride, w, sign: runSign, f: bestF, snr: bestAbs / sigmaF });
+        best = -1;
+        bestAbs = 0;
+        runStart = k;
+        runSign = sg;
+      }
+      if (a > bestAbs) {
+        bestAbs = a;
+        best = k;
+        bestF = v;
+      }
+    } else if (runStart >= 0) {
+      if (best >= 0) candidates.push({ i: from + best * stride, w, sign: runSign, f: bestF, snr: bestAbs / sigmaF });
+      best = -1;
+      bestAbs = 0;
+      runStart = -1;
+    }
+  }
+  if (best >= 0) candidates.push({ i: from + best * stride, w, sign: runSign, f: bestF, snr: bestAbs / sigmaF });
+  return candidates;
 }
 
 /** Extreme of each run of |F| above thr, as candidates at positions from + k·stride. */
@@ -129,7 +191,6 @@ interface ScaleResult {
 /** The filter at scale w, its threshold, and the extreme of each run above it. */
 function filterScale(
   P: Float64Array,
-  Fbuf: Float64Array,
   w: number,
   sig: WorkingSignal,
   k: number,
@@ -143,20 +204,20 @@ function filterScale(
   // Coarse scales change slowly; a stride of w/4 keeps their peaks and saves most of the work.
   const stride = Math.max(1, Math.floor(w / 4));
   const count = Math.floor((to - 1 - from) / stride) + 1;
-  const F = Fbuf.subarray(0, count);
   const inv = 1 / (2 * w);
-  // (A − 3B + 3C − D)/2 over window means, written on the prefix sums.
-  for (let j = 0, i = from; j < count; j++, i += stride) {
-    F[j] = (-P[i - 2 * w] + 4 * P[i - w] - 6 * P[i] + 4 * P[i + w] - P[i + 2 * w]) * inv;
-  }
+  // (A − 3B + 3C − D)/2 over window means, written on the prefix sums; read where needed, not stored.
+  const F = (j: number) => {
+    const i = from + j * stride;
+    return (-P[i - 2 * w] + 4 * P[i - w] - 6 * P[i] + 4 * P[i + w] - P[i + 2 * w]) * inv;
+  };
   const noise = filterNoise(F, count, w, stride, sig, excess);
   const thr = Math.max(k * noise.sigmaF, rhoMin);
-  const candidates = runsAbove(F, count, from, stride, w, thr, noise.sigmaF);
+  const candidates = filterRunsAbove(P, count, from, stride, w, thr, noise.sigmaF);
   // The record's last two windows: C − 2B + A, with noise √6/√5 that of F for white noise.
   const tailFrom = Math.max(from, to);
   const tailCount = Math.floor((n - w - tailFrom) / stride);
   if (tailCount > 0) {
-    const T = Fbuf.subarray(0, tailCount);
+    const T = new Float64Array(tailCount);
     const invW = 1 / w;
     for (let j = 0, i = tailFrom; j < tailCount; j++, i += stride)
       T[j] = (P[i + w] - 3 * P[i] + 3 * P[i - w] - P[i - 2 * w]) * invW;
@@ -225,13 +286,12 @@ export function detectEdges(sig: WorkingSignal, settings: DetectionSettings): De
   const independentTests = scales.reduce((acc, w) => acc + Math.max(1, (2 * (searchLen - 3 * w)) / w), 0);
   const k = settings.thresholdSigma ?? normalUpperQuantile(settings.falseEventsPerTrace / (2 * independentTests));
   const rhoMin = settings.rhoMin;
-  const P = prefixSums(sig.u);
+  const P = prefixSums(sig.u, settings.scratch);
   const candidates: Candidate[] = [];
   const thresholds: number[] = [];
-  const Fbuf = new Float64Array(Math.max(1, n));
   let excess = 1;
   for (const w of scales) {
-    const r = filterScale(P, Fbuf, w, sig, k, rhoMin, excess);
+    const r = filterScale(P, w, sig, k, rhoMin, excess);
     if (!r) continue;
     if (r.excess !== null) excess = r.excess;
     thresholds.push(r.thr);

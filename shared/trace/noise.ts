@@ -13,23 +13,18 @@
  */
 import { madSigma } from './stats';
 
-/** Samples inside runs of eight or more equal values at the record's maximum or minimum. */
-function saturated(y: Float64Array): Uint8Array {
-  const n = y.length;
-  const out = new Uint8Array(n);
-  let hi = -Infinity;
-  let lo = Infinity;
-  for (let i = 0; i < n; i++) {
-    if (y[i] > hi) hi = y[i];
-    if (y[i] < lo) lo = y[i];
-  }
-  for (let i = 0; i < n;) {
-    let j = i;
-    while (j < n && y[j] === y[i]) j++;
-    if (j - i >= 8 && (y[i] === hi || y[i] === lo)) out.fill(1, i, j);
-    i = j;
-  }
-  return out;
+/**
+ * Is sample i inside a run of eight or more equal values at the record's maximum (hi) or
+ * minimum (lo)? Asked only of the few samples the noise is read from, so no mask of the
+ * whole record is built: the run is counted outwards from i, at most seven each way.
+ */
+function saturatedAt(y: Float64Array, i: number, hi: number, lo: number): boolean {
+  const v = y[i];
+  if (v !== hi && v !== lo) return false;
+  let run = 1;
+  for (let j = i - 1; j >= 0 && run < 8 && y[j] === v; j--) run++;
+  for (let j = i + 1; j < y.length && run < 8 && y[j] === v; j++) run++;
+  return run >= 8;
 }
 
 /** Do (nearly) all samples lie on a grid of step q, using at least eight of its levels, as an ADC's output does? */
@@ -75,13 +70,18 @@ function noiseAndStep(y: Float64Array): { sigma0: number; q: number } {
 
 function measureNoise(y: Float64Array): { sigma0: number; q: number } {
   const n = y.length;
-  const clipped = saturated(y);
+  let hi = -Infinity;
+  let lo = Infinity;
+  for (let i = 0; i < n; i++) {
+    if (y[i] > hi) hi = y[i];
+    if (y[i] < lo) lo = y[i];
+  }
   const diffStep = Math.max(1, Math.floor((n - 1) / 8001));
   const diffs = new Float64Array(Math.ceil((n - 1) / diffStep));
   let m = 0;
   let minStep = Infinity;
   for (let i = 1; i < n; i += diffStep) {
-    if (clipped[i] && clipped[i - 1]) continue;
+    if (saturatedAt(y, i, hi, lo) && saturatedAt(y, i - 1, hi, lo)) continue;
     const d = y[i] - y[i - 1];
     diffs[m++] = d;
     const a = Math.abs(d);
@@ -124,12 +124,14 @@ export function estimateSlowNoise(y: Float64Array): number {
  * sizes b = 1, 2, 4, … while at least 48 blocks remain. A scale beyond the largest block
  * takes that block's factor. Always at least 1.
  */
-export function noiseExcess(y: Float64Array, sigma0: number): (w: number) => number {
+export function noiseExcess(y: Float64Array, sigma0: number, scratch?: Float64Array): (w: number) => number {
   const n = y.length;
   const sizes: number[] = [];
   const factors: number[] = [];
   if (sigma0 > 0) {
-    const P = new Float64Array(n + 1);
+    // The prefix sums are needed only here: in the caller's scratch buffer when it gives one.
+    const P = scratch && scratch.length >= n + 1 ? scratch : new Float64Array(n + 1);
+    P[0] = 0;
     for (let i = 0; i < n; i++) P[i + 1] = P[i] + y[i];
     for (let b = 1; n / b >= 48; b *= 2) {
       const blocks = Math.floor(n / b);

@@ -58,7 +58,8 @@ function pulseSignal(rec: TraceRecord, L: Launch): { u: Float64Array; pulseRaw: 
   return { u, pulseRaw, unitArea };
 }
 
-export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number): WorkingSignal {
+/** `scratch`, when given (n + 1 values), holds the noise measure's temporary sums instead of a new array. */
+export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number, scratch?: Float64Array): WorkingSignal {
   const mode = L.mode;
   const { n } = rec;
   const { u, pulseRaw, unitArea } =
@@ -91,7 +92,7 @@ export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number):
     smoothW,
     start,
     blindIdx,
-    noiseExcess: noiseExcess(rec.y, sigma0),
+    noiseExcess: noiseExcess(rec.y, sigma0, scratch),
     quantU: mode === 'step' ? adcStep(rec.y) / Math.abs(L.found || rec.unit !== 'rho' ? L.height : 1) : 0,
   };
 }

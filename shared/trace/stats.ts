@@ -76,7 +76,13 @@ export function percentileOf(sorted: Float64Array, p: number): number {
   return sorted[Math.min(sorted.length - 1, Math.max(0, Math.round(p * (sorted.length - 1))))];
 }
 
-/** Centred moving average of width w (shrinking at the ends). */
+/**
+ * Centred moving average of width w (shrinking at the ends). The window at i
+ * is [i − ⌊w/2⌋, i − ⌊w/2⌋ + w) clipped to the record; the running sum adds
+ * the sample entering before it drops the one leaving, in the same order at
+ * every i, so the three stretches below (the window cut by the start, whole,
+ * cut by the end) give the same sums as one loop checking both ends each time.
+ */
 export function boxcar(x: Float64Array, w: number): Float64Array {
   if (w <= 1) return x;
   const n = x.length;
@@ -86,7 +92,27 @@ export function boxcar(x: Float64Array, w: number): Float64Array {
   let count = 0;
   let lo = 0;
   let hi = 0;
-  for (let i = 0; i < n; i++) {
+  // While the window's start is clipped at 0 (i ≤ h), or its end at n: add only.
+  const headEnd = Math.min(n, h + 1);
+  let i = 0;
+  for (; i < headEnd; i++) {
+    const b = Math.min(n, i - h + w);
+    while (hi < b) {
+      acc += x[hi++];
+      count++;
+    }
+    out[i] = acc / count;
+  }
+  // Whole windows: one sample in at i − h + w − 1, one out at i − h − 1 (count stays w).
+  const midEnd = Math.max(i, n + h - w + 1);
+  for (; i < midEnd; i++) {
+    acc += x[i - h + w - 1];
+    acc -= x[i - h - 1];
+    out[i] = acc / count;
+  }
+  hi = Math.min(n, i - h - 1 + w);
+  lo = i - h - 1;
+  for (; i < n; i++) {
     const a = Math.max(0, i - h);
     const b = Math.min(n, i - h + w);
     while (hi < b) {
@@ -103,8 +129,10 @@ export function boxcar(x: Float64Array, w: number): Float64Array {
 }
 
 /** p[i] = x[0] + … + x[i−1]; the mean of x[a, b) is (p[b] − p[a])/(b − a). */
-export function prefixSums(x: Float64Array): Float64Array {
-  const p = new Float64Array(x.length + 1);
+export function prefixSums(x: Float64Array, into?: Float64Array): Float64Array {
+  // Into the caller's buffer when it has room (a view of exactly x.length + 1 values).
+  const p = into && into.length >= x.length + 1 ? into.subarray(0, x.length + 1) : new Float64Array(x.length + 1);
+  p[0] = 0;
   let acc = 0;
   for (let i = 0; i < x.length; i++) {
     acc += x[i];
