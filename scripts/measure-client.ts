@@ -1,9 +1,15 @@
 /**
- * Measure the installable app with Debian's Chromium (a measurement, not a
- * test: the figures depend on the machine):
+ * Measure the client with Debian's Chromium (a measurement, not a test: the
+ * figures depend on the machine):
  *
  * - bytes the server sends for a first visit to the sign-in page, with the
  *   service worker kept out (what a browser must fetch to show Rholog);
+ * - bytes for a technician's first load: the sign-in page, signing in, and
+ *   the start page, service worker kept out (goal: under 250 kB);
+ * - time for the trace page to draw a 100,000-sample trace, from navigation
+ *   to the chart's first drawing, at desktop and phone sizes, over five
+ *   loads (goal: under 1 s), and time for a zoom to about 11× to fetch the
+ *   record's own detail for the view and draw it;
  * - bytes for an offline-ready install: the first visit, signing in as a
  *   technician, the service worker's precache of the app shell and fonts, and
  *   the field data kept in IndexedDB — everything until the phone could work
@@ -16,14 +22,14 @@
  * Bytes are counted on the server's sockets: headers and bodies as sent, the
  * built client compressed as the server serves it. Needs `npm run build` first.
  *
- *   npx tsx scripts/measure-offline.ts
+ *   npm run measure:client   (npx tsx scripts/measure-client.ts)
  */
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import type { Server, Socket } from 'node:net';
 import type { AddressInfo } from 'node:net';
-import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { chromium, type BrowserContext, type Page, type Request } from 'playwright-core';
 import { createApp } from '../server/app';
 import { CableRun, CableType } from '../server/db/models';
 import { stepTraceCsv } from '../tests/support/step-trace';
@@ -31,6 +37,7 @@ import { freshDatabase, testConfig } from '../tests/support/test-config';
 import { CHROMIUM_ARGS, CHROMIUM_PATH } from '../tests/e2e/support/chromium';
 
 const PHONE = { width: 390, height: 844 };
+const DESKTOP = { width: 1366, height: 900 };
 
 const db = await freshDatabase();
 const app = await createApp(testConfig(db.url, db.dir, { client: 'static', demoData: true }));
@@ -95,6 +102,67 @@ try {
   await first.ctx.close();
   fs.rmSync(first.dir, { recursive: true, force: true });
 
+  // 1b. A technician's first load, no service worker: the sign-in page, signing in, the start page.
+  const tech = await context('block');
+  const before1b = sentBytes();
+  const tp = await tech.ctx.newPage();
+  await tp.setViewportSize(PHONE);
+  // The same bytes by kind, as the browser counts them (headers and compressed bodies).
+  const byKind = { app: 0, data: 0, other: 0 };
+  const counting = async (req: Request) => {
+    const s = await req.sizes();
+    const type = req.resourceType();
+    const kind = ['document', 'script', 'stylesheet', 'font'].includes(type) ? 'app' : ['fetch', 'xhr'].includes(type) ? 'data' : 'other';
+    byKind[kind] += s.responseHeadersSize + s.responseBodySize;
+  };
+  tp.on('requestfinished', counting);
+  await tp.goto(`${baseUrl}/sign-in`);
+  await tp.getByLabel('E-mail').fill('tech@example.com');
+  await tp.getByLabel('Password').fill('rholog-demo');
+  await tp.getByRole('button', { name: 'Sign in' }).click();
+  await tp.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+  await settle(tp);
+  const techFirstLoad = sentBytes() - before1b;
+  const startPath = new URL(tp.url()).pathname;
+  tp.off('requestfinished', counting);
+
+  // 1c. The trace page drawing a 100,000-sample trace (uploaded once, then opened afresh five times per size).
+  const hn3 = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
+  const hn3Cable = (await CableType.findByPk(hn3.cableTypeId))!;
+  const bigCsv = stepTraceCsv({ faultM: 2000, vf: hn3Cable.vf, samples: 100_000 });
+  await tp.goto(`${baseUrl}/upload?site=${hn3.siteId}&run=${hn3.id}&end=A`);
+  await tp.getByRole('heading', { name: 'Upload a trace' }).waitFor();
+  await tp.getByLabel('Trace files').setInputFiles({ name: 'measure-100k.csv', mimeType: 'text/csv', buffer: Buffer.from(bigCsv) });
+  await tp.getByText('measure-100k.csv').first().waitFor();
+  await tp.getByRole('button', { name: 'Upload and analyse' }).click();
+  await tp.waitForURL(/\/traces\/\d+$/, { timeout: 120_000 });
+  const tracePath = new URL(tp.url()).pathname;
+  const drawn = '[data-testid="trace-chart-frame"][data-x-min]';
+  const drawMs: Record<'desktop' | 'phone', number[]> = { desktop: [], phone: [] };
+  for (const [size, viewport] of [['desktop', DESKTOP], ['phone', PHONE]] as const) {
+    await tp.setViewportSize(viewport);
+    for (let i = 0; i < 5; i++) {
+      await tp.goto(`${baseUrl}${tracePath}`);
+      await tp.waitForSelector(drawn, { timeout: 60_000 });
+      drawMs[size].push(Math.round(await tp.evaluate(() => performance.now())));
+    }
+  }
+  // Zoom to about 11× (six steps of 1.5×): the chart asks for the record's own samples in view and draws them.
+  await tp.setViewportSize(DESKTOP);
+  await tp.goto(`${baseUrl}${tracePath}`);
+  await tp.waitForSelector(drawn, { timeout: 60_000 });
+  const closer = tp.getByRole('button', { name: 'Closer', exact: true });
+  for (let i = 0; i < 5; i++) await closer.click();
+  const detail = tp.waitForResponse((r) => /\/api\/traces\/\d+\/samples\?/.test(r.url()), { timeout: 30_000 });
+  const zoomT0 = Date.now();
+  await closer.click();
+  const detailAnswer = await detail;
+  const detailPoints = ((await detailAnswer.json()) as { samples: unknown[] }).samples.length;
+  await tp.evaluate(() => new Promise((resolve) => requestAnimationFrame(() => requestAnimationFrame(resolve))));
+  const zoomMs = Date.now() - zoomT0;
+  await tech.ctx.close();
+  fs.rmSync(tech.dir, { recursive: true, force: true });
+
   // 2. Offline-ready install: first visit with the service worker, sign in, field data saved.
   const install = await context('allow');
   const before2 = sentBytes();
@@ -130,6 +198,17 @@ try {
     `Chromium at ${PHONE.width}×${PHONE.height}; load average ${os.loadavg()[0].toFixed(2)} on ${os.cpus().length} cores`,
   );
   console.log(`First visit (sign-in page, no service worker): ${kib(firstVisit)}`);
+  console.log(`Technician's first load (sign-in page, sign-in, start page ${startPath}; no service worker): ${kib(techFirstLoad)} in all`);
+  console.log(
+    `  of which the app's own files (page, scripts, styles, fonts) ${kib(byKind.app)} — goal under 250 kB; the API's answers (the field data kept for use without signal among them) ${kib(byKind.data)}; icons and manifest ${kib(byKind.other)}`,
+  );
+  for (const size of ['desktop', 'phone'] as const) {
+    const v = size === 'desktop' ? DESKTOP : PHONE;
+    console.log(
+      `Trace page, 100,000-sample trace, ${size} ${v.width}×${v.height}: drawn ${median(drawMs[size])} ms after navigation (median of 5: [${drawMs[size].join(', ')}]) — goal under 1000 ms`,
+    );
+  }
+  console.log(`Zoom to about 11× on the desktop: the view's own samples (${detailPoints} points) fetched and drawn in ${zoomMs} ms`);
   console.log(`Offline-ready install (first visit, sign-in, precache of ${precached} files, field data): ${kib(offlineReady)}`);
   console.log(
     `100,000-sample trace (${(csv.length / 1024).toFixed(0)} KiB CSV) analysed on the device: median ${median(plain)} ms [${plain.join(', ')}]`,
