@@ -3,10 +3,11 @@
  * "3 Jun 2025" and "3 Jun 2025, 14:05", 24-hour clock. A date-only value
  * ("2025-06-03", a due date) is a calendar day, read without a time zone.
  */
-import { format, parseISO } from 'date-fns';
+import { lightFormat, parseISO } from 'date-fns';
 
-const DATE = 'd MMM yyyy';
-const DATE_TIME = 'd MMM yyyy, HH:mm';
+/** English month abbreviations, as date-fns's en-US locale writes them (`MMM`); lightFormat carries no locale, so a first load need not either. */
+const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+const day = (d: Date) => `${d.getDate()} ${MONTHS[d.getMonth()]} ${lightFormat(d, 'yyyy')}`;
 
 function toDate(value: string | Date): Date {
   return typeof value === 'string' ? parseISO(value) : value;
@@ -15,11 +16,11 @@ function toDate(value: string | Date): Date {
 export function formatDate(value: string | Date | null | undefined): string {
   if (!value) return '—';
   const d = toDate(value);
-  return Number.isNaN(d.getTime()) ? '—' : format(d, DATE);
+  return Number.isNaN(d.getTime()) ? '—' : day(d);
 }
 
 export function formatDateTime(value: string | Date | null | undefined): string {
   if (!value) return '—';
   const d = toDate(value);
-  return Number.isNaN(d.getTime()) ? '—' : format(d, DATE_TIME);
+  return Number.isNaN(d.getTime()) ? '—' : `${day(d)}, ${lightFormat(d, 'HH:mm')}`;
 }
