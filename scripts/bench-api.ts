@@ -7,7 +7,10 @@
  * source under tsx with --source or when nothing is built) as its own process
  * on 127.0.0.1, and prints:
  *   - upload to result of a 10,000-sample trace at concurrency 1, 4 and 16:
- *     p50, p95 and uploads per second;
+ *     p50, p95 and uploads per second, after unmeasured warm-up uploads (the
+ *     first uploads to a fresh server run cold code), with enough uploads per
+ *     level for a p95 to mean something, and the server's CPU time per upload
+ *     (request thread, analysis and other threads) where /proc shows it;
  *   - p50/p95 of every list: first page, deep page, each sort, each filter and
  *     text search, for traces and findings, and the sites list.
  * Every loop has a fixed count and the run stops itself after RUN_LIMIT_MS.
@@ -27,6 +30,10 @@ const HOST = '127.0.0.1';
 const RUN_LIMIT_MS = 10 * 60 * 1000;
 const LIST_ROUNDS = 30;
 const LIST_GOAL_MS = 50;
+const UPLOAD_GOAL_MS = 50;
+/** Uploads measured at each concurrency, and the unmeasured ones before the first level. */
+const UPLOADS: Record<number, number> = { 1: 80, 4: 120, 16: 160 };
+const WARM_UPLOADS = 12;
 
 const { values } = parseArgs({ options: { database: { type: 'string' }, source: { type: 'boolean', default: false } } });
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'rholog-bench-api-'));
@@ -47,6 +54,22 @@ const percentile = (v: number[], p: number) => {
   return s[Math.min(s.length - 1, Math.ceil((p / 100) * s.length) - 1)] ?? NaN;
 };
 const load = () => os.loadavg().map((l) => l.toFixed(2)).join(' ');
+
+/** CPU time (ms) of each thread of a process so far, by thread id, from /proc (Linux); null elsewhere. */
+function threadCpuMs(pid: number | undefined): Map<number, number> | null {
+  if (pid === undefined || !fs.existsSync(`/proc/${pid}/task`)) return null;
+  const tick = 10; // USER_HZ is 100 on Linux: utime and stime count 10 ms ticks
+  const out = new Map<number, number>();
+  for (const tid of fs.readdirSync(`/proc/${pid}/task`)) {
+    try {
+      const fields = fs.readFileSync(`/proc/${pid}/task/${tid}/stat`, 'utf8').split(') ')[1].split(' ');
+      out.set(Number(tid), (Number(fields[11]) + Number(fields[12])) * tick);
+    } catch {
+      // the thread ended between the listing and the read
+    }
+  }
+  return out;
+}
 
 async function freePort(): Promise<number> {
   const s = net.createServer();
@@ -93,29 +116,51 @@ async function main() {
   // Each upload a different recording (the same bytes again would be answered as a duplicate).
   let fault = 0;
   const nextCsv = () => Buffer.from(stepTraceCsv({ faultM: 100 + 0.25 * fault++, vf: 0.66, samples: 10_000 }));
-  console.log('\nupload to result, 10,000-sample trace');
+  const upload = async () => {
+    const csv = nextCsv();
+    const s = performance.now();
+    const r = await agent.post('/api/traces').set('x-csrf-token', csrf).field('cableRunId', String(someTrace.cableRunId)).field('end', 'B').attach('file', csv, 'bench.csv');
+    return { ms: performance.now() - s, status: r.status, body: r.body as unknown, bytes: Number(r.headers['content-length'] ?? 0) };
+  };
+  for (let i = 0; i < WARM_UPLOADS; i++) {
+    const r = await upload();
+    if (r.status !== 201) throw new Error(`a warm-up upload answered ${r.status}: ${JSON.stringify(r.body).slice(0, 200)}`);
+  }
+  const threads = Math.min(8, Math.max(1, os.availableParallelism() - 1));
+  console.log(`\nupload to result, 10,000-sample trace (after ${WARM_UPLOADS} unmeasured; the server's default analysis pool here: ${threads} worker thread${threads === 1 ? '' : 's'})`);
   for (const concurrency of [1, 4, 16]) {
-    const total = Math.max(24, concurrency * 4);
+    const total = UPLOADS[concurrency];
     const times: number[] = [];
     let next = 0;
     let failed = 0;
+    let answerBytes = 0;
+    const cpu0 = threadCpuMs(server.pid);
     const t0 = performance.now();
     await Promise.all(
       Array.from({ length: concurrency }, async () => {
         while (next < total) {
           next++;
-          const csv = nextCsv();
-          const s = performance.now();
-          const r = await agent.post('/api/traces').set('x-csrf-token', csrf).field('cableRunId', String(someTrace.cableRunId)).field('end', 'B').attach('file', csv, 'bench.csv');
+          const r = await upload();
           if (r.status !== 201 && failed++ === 0) console.log(`  (an upload answered ${r.status}: ${JSON.stringify(r.body).slice(0, 200)})`);
-          times.push(performance.now() - s);
+          times.push(r.ms);
+          answerBytes = r.bytes;
         }
       }),
     );
     const wall = (performance.now() - t0) / 1000;
+    const cpu1 = threadCpuMs(server.pid);
+    const p95 = percentile(times, 95);
     console.log(
-      `  concurrency ${String(concurrency).padStart(2)}: ${total} uploads, p50 ${percentile(times, 50).toFixed(1)} ms, p95 ${percentile(times, 95).toFixed(1)} ms, ${(total / wall).toFixed(1)} uploads/s${failed ? `, ${failed} FAILED` : ''} (load ${load()})`,
+      `  concurrency ${String(concurrency).padStart(2)}: ${total} uploads, p50 ${percentile(times, 50).toFixed(1)} ms, p95 ${p95.toFixed(1)} ms, ${(total / wall).toFixed(1)} uploads/s${failed ? `, ${failed} FAILED` : ''}${concurrency === 1 && p95 >= UPLOAD_GOAL_MS ? `  over the ${UPLOAD_GOAL_MS} ms goal` : ''} (load ${load()})`,
     );
+    if (cpu0 && cpu1) {
+      // The request thread is the process's own id; the busiest other thread is the analysis worker.
+      const used = [...cpu1].map(([tid, ms]) => [tid, (ms - (cpu0.get(tid) ?? 0)) / total] as const);
+      const main = used.find(([tid]) => tid === server!.pid)?.[1] ?? 0;
+      const others = used.filter(([tid]) => tid !== server!.pid).map(([, ms]) => ms).sort((a, b) => b - a);
+      const rest = others.slice(1).reduce((a, b) => a + b, 0);
+      console.log(`      server CPU per upload: request thread ${main.toFixed(1)} ms, busiest other thread ${(others[0] ?? 0).toFixed(1)} ms, the rest ${rest.toFixed(1)} ms; answer ${(answerBytes / 1024).toFixed(0)} KiB`);
+    }
   }
 
   const lists: Array<[string, string]> = [
