@@ -25,6 +25,7 @@
  * too few independent outputs for a robust spread, the ratio of measured to
  * white noise found at the finer scales is carried over.
  */
+import { touchesHeld } from './noise';
 import { madSigma, normalUpperQuantile, prefixSums } from './stats';
 import type { Candidate, Launch, Measured, WorkingSignal } from './steps';
 
@@ -68,6 +69,7 @@ function whiteNoiseOfF(w: number, sig: WorkingSignal): number {
 function filterNoise(
   F: (k: number) => number,
   count: number,
+  from: number,
   w: number,
   stride: number,
   sig: WorkingSignal,
@@ -75,20 +77,28 @@ function filterNoise(
 ): ScaleNoise {
   const white = Math.max(whiteNoiseOfF(w, sig), 1e-12);
   const lag = Math.max(1, Math.round((4 * w) / stride));
-  let measured: number;
+  let measured = 0;
+  let used = count;
   if (count > lag + 8) {
     const m = count - lag;
     const step = Math.max(1, Math.floor(m / 4001));
     const dF = new Float64Array(Math.ceil(m / step));
-    for (let k = 0, j = 0; k < m; k += step, j++) dF[j] = F(k) - F(k + lag);
-    measured = madSigma(dF, 0, dF.length) / Math.SQRT2;
+    // Pairs whose windows touch a stretch held at the recorder's limit are left out: it holds no noise.
+    const held = sig.held;
+    let j = 0;
+    for (let k = 0; k < m; k += step) {
+      if (held !== null && touchesHeld(held, from + k * stride - 2 * w, from + (k + lag) * stride + 2 * w)) continue;
+      dF[j++] = F(k) - F(k + lag);
+    }
+    if (held !== null) used = Math.round((j / dF.length) * count);
+    if (j >= 8) measured = madSigma(dF, 0, j) / Math.SQRT2;
   } else {
     const all = new Float64Array(count);
     for (let k = 0; k < count; k++) all[k] = F(k);
     measured = madSigma(all, 0, count);
   }
   // Enough independent outputs (twelve lags' worth) for the robust spread to hold.
-  if (count >= 12 * lag) return { sigmaF: Math.max(measured, white), excess: Math.max(1, measured / white) };
+  if (used >= 12 * lag) return { sigmaF: Math.max(measured, white), excess: Math.max(1, measured / white) };
   return { sigmaF: Math.max(white, Math.min(measured, 3 * excess * white)), excess: null };
 }
 
@@ -210,7 +220,7 @@ function filterScale(
     const i = from + j * stride;
     return (-P[i - 2 * w] + 4 * P[i - w] - 6 * P[i] + 4 * P[i + w] - P[i + 2 * w]) * inv;
   };
-  const noise = filterNoise(F, count, w, stride, sig, excess);
+  const noise = filterNoise(F, count, from, w, stride, sig, excess);
   const thr = Math.max(k * noise.sigmaF, rhoMin);
   const candidates = filterRunsAbove(P, count, from, stride, w, thr, noise.sigmaF);
   // The record's last two windows: C − 2B + A, with noise √6/√5 that of F for white noise.

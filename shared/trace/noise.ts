@@ -27,6 +27,49 @@ function saturatedAt(y: Float64Array, i: number, hi: number, lo: number): boolea
   return run >= 8;
 }
 
+/**
+ * Stretches held at the recorder's limit, as [start, end) sample pairs in order (runs of eight or
+ * more equal values at the record's maximum or minimum), or null when there are none or when the
+ * noise is below half a quantiser step. A stretch held flat carries no noise, so noise measured
+ * at a scale leaves out whatever touches one. Noise of half a step or more keeps a sample on one
+ * level with a chance of about 0.4, so eight in a row come by chance about once in 10⁴ runs (from
+ * memory); on a quieter recorder a level held at the record's extreme is just the signal.
+ */
+export function heldStretches(y: Float64Array): Int32Array | null {
+  const { sigma0, q } = noiseAndStep(y);
+  if (!(sigma0 > 0.5 * q)) return null;
+  const n = y.length;
+  let hi = -Infinity;
+  let lo = Infinity;
+  for (let i = 0; i < n; i++) {
+    if (y[i] > hi) hi = y[i];
+    if (y[i] < lo) lo = y[i];
+  }
+  const runs: number[] = [];
+  for (let i = 0; i < n; ) {
+    const v = y[i];
+    let j = i + 1;
+    while (j < n && y[j] === v) j++;
+    if (j - i >= 8 && (v === hi || v === lo)) runs.push(i, j);
+    i = j;
+  }
+  return runs.length > 0 ? Int32Array.from(runs) : null;
+}
+
+/** Does [a, b) touch one of the held stretches (from heldStretches)? A binary search. */
+export function touchesHeld(held: Int32Array | null, a: number, b: number): boolean {
+  if (held === null) return false;
+  // The first stretch that ends after a.
+  let lo = 0;
+  let hi = held.length / 2;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (held[2 * mid + 1] <= a) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo < held.length / 2 && held[2 * lo] < b;
+}
+
 /** Do (nearly) all samples lie on a grid of step q, using at least eight of its levels, as an ADC's output does? */
 function onGrid(y: Float64Array, q: number): boolean {
   const n = y.length;
@@ -121,10 +164,16 @@ export function estimateSlowNoise(y: Float64Array): number {
  * How much the noise at a scale of w samples exceeds white noise of σ0: the robust spread
  * of second differences of b-sample block means (which cancel a baseline's slope, so a
  * lossy line's creep does not count), over their white-noise value √6·σ0/√b, for block
- * sizes b = 1, 2, 4, … while at least 48 blocks remain. A scale beyond the largest block
- * takes that block's factor. Always at least 1.
+ * sizes b = 1, 2, 4, … while at least 48 blocks remain. Blocks that touch a stretch held at
+ * the recorder's limit (`held`, from heldStretches) are left out: it has no noise to measure.
+ * A scale beyond the largest block takes that block's factor. Always at least 1.
  */
-export function noiseExcess(y: Float64Array, sigma0: number, scratch?: Float64Array): (w: number) => number {
+export function noiseExcess(
+  y: Float64Array,
+  sigma0: number,
+  scratch?: Float64Array,
+  held: Int32Array | null = null,
+): (w: number) => number {
   const n = y.length;
   const sizes: number[] = [];
   const factors: number[] = [];
@@ -139,12 +188,15 @@ export function noiseExcess(y: Float64Array, sigma0: number, scratch?: Float64Ar
       const d2 = new Float64Array(Math.ceil((blocks - 2) / step));
       let m = 0;
       for (let j = 1; j < blocks - 1; j += step) {
+        if (held !== null && touchesHeld(held, (j - 1) * b, (j + 2) * b)) continue;
         const a = P[(j - 1) * b];
         const c = P[j * b];
         const d = P[(j + 1) * b];
         const e = P[(j + 2) * b];
         d2[m++] = (e - d - 2 * (d - c) + (c - a)) / b;
       }
+      // Too few blocks left clear of the recorder's limit for a robust spread.
+      if (held !== null && m < 46) break;
       sizes.push(b);
       factors.push(Math.max(1, madSigma(d2, 0, m) / ((Math.sqrt(6) * sigma0) / Math.sqrt(b))));
     }

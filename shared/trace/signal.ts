@@ -8,7 +8,7 @@
  * becomes a step whose height is its area ratio. Cable loss spreads an echo but
  * keeps its area (the line's DC gain), so area is the loss-robust measure of ρ.
  */
-import { adcStep, noiseExcess } from './noise';
+import { adcStep, heldStretches, noiseExcess } from './noise';
 import { boxcar, sampleMedian } from './stats';
 import type { Launch, TraceRecord, WorkingSignal } from './steps';
 
@@ -73,6 +73,7 @@ export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number, 
   // Smoothing for onset timing: a short boxcar, the same for the launch and every event.
   const smoothW = Math.max(1, Math.round(w0 / 3));
   const us = boxcar(u, smoothW);
+  const held = mode === 'step' ? heldStretches(rec.y) : null;
   // The blind zone ends one filter window past the launch's settling. The search starts
   // earlier (a step: one rise past its 90 % point), so an event inside the blind zone that
   // stands out of it can still be reported.
@@ -92,7 +93,10 @@ export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number, 
     smoothW,
     start,
     blindIdx,
-    noiseExcess: noiseExcess(rec.y, sigma0, scratch),
+    // A step record clipped after the cable end holds a long flat stretch with no noise in it.
+    // (A pulse record's u is a running sum, never held flat by a clipped peak.)
+    noiseExcess: noiseExcess(rec.y, sigma0, scratch, held),
+    held,
     quantU: mode === 'step' ? adcStep(rec.y) / Math.abs(L.found || rec.unit !== 'rho' ? L.height : 1) : 0,
   };
 }

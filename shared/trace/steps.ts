@@ -69,6 +69,8 @@ export interface WorkingSignal {
   blindIdx: number;
   /** Coloured-noise factor at a scale of w samples (noise.ts). */
   noiseExcess: (w: number) => number;
+  /** Step records: stretches held at the recorder's limit, [start, end) pairs (noise.ts), or null when none are. */
+  held: Int32Array | null;
   /**
    * Step records: the recorder's quantiser step in units of ρ (0 where none shows). A slow
    * creep crosses it as a clean one-step stair, so no event is read from a step that small.
