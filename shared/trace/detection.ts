@@ -65,11 +65,16 @@ function whiteNoiseOfF(w: number, sig: WorkingSignal): number {
   return white * sig.noiseExcess(w);
 }
 
-/** Robust noise of F at one scale (see the header); F(k) is the filter's k-th output of `count`. */
+/** The step filter at scale w from the prefix sums, centred on sample i. */
+function stepFilterAt(P: Float64Array, i: number, w: number, inv: number): number {
+  return (-P[i - 2 * w] + 4 * P[i - w] - 6 * P[i] + 4 * P[i + w] - P[i + 2 * w]) * inv;
+}
+
+/** Robust noise of F at one scale (see the header); F's k-th output (k < count) is centred on from + k·stride. */
 function filterNoise(
-  F: (k: number) => number,
-  count: number,
+  P: Float64Array,
   from: number,
+  count: number,
   w: number,
   stride: number,
   sig: WorkingSignal,
@@ -77,6 +82,7 @@ function filterNoise(
 ): ScaleNoise {
   const white = Math.max(whiteNoiseOfF(w, sig), 1e-12);
   const lag = Math.max(1, Math.round((4 * w) / stride));
+  const inv = 1 / (2 * w);
   let measured = 0;
   let used = count;
   if (count > lag + 8) {
@@ -88,13 +94,13 @@ function filterNoise(
     let j = 0;
     for (let k = 0; k < m; k += step) {
       if (held !== null && touchesHeld(held, from + k * stride - 2 * w, from + (k + lag) * stride + 2 * w)) continue;
-      dF[j++] = F(k) - F(k + lag);
+      dF[j++] = stepFilterAt(P, from + k * stride, w, inv) - stepFilterAt(P, from + (k + lag) * stride, w, inv);
     }
     if (held !== null) used = Math.round((j / dF.length) * count);
     if (j >= 8) measured = madSigma(dF, 0, j) / Math.SQRT2;
   } else {
     const all = new Float64Array(count);
-    for (let k = 0; k < count; k++) all[k] = F(k);
+    for (let k = 0; k < count; k++) all[k] = stepFilterAt(P, from + k * stride, w, inv);
     measured = madSigma(all, 0, count);
   }
   // Enough independent outputs (twelve lags' worth) for the robust spread to hold.
@@ -117,14 +123,13 @@ function filterRunsAbove(
 ): Candidate[] {
   const candidates: Candidate[] = [];
   const inv = 1 / (2 * w);
-  const w2 = 2 * w;
   let runStart = -1;
   let runSign = 0;
   let best = -1;
   let bestAbs = 0;
   let bestF = 0;
   for (let k = 0, i = from; k < count; k++, i += stride) {
-    const v = (-P[i - w2] + 4 * P[i - w] - 6 * P[i] + 4 * P[i + w] - P[i + w2]) * inv;
+    const v = stepFilterAt(P, i, w, inv);
     const a = v < 0 ? -v : v;
     if (a > thr) {
       const sg = v < 0 ? -1 : 1;
@@ -214,13 +219,8 @@ function filterScale(
   // Coarse scales change slowly; a stride of w/4 keeps their peaks and saves most of the work.
   const stride = Math.max(1, Math.floor(w / 4));
   const count = Math.floor((to - 1 - from) / stride) + 1;
-  const inv = 1 / (2 * w);
   // (A − 3B + 3C − D)/2 over window means, written on the prefix sums; read where needed, not stored.
-  const F = (j: number) => {
-    const i = from + j * stride;
-    return (-P[i - 2 * w] + 4 * P[i - w] - 6 * P[i] + 4 * P[i + w] - P[i + 2 * w]) * inv;
-  };
-  const noise = filterNoise(F, count, from, w, stride, sig, excess);
+  const noise = filterNoise(P, from, count, w, stride, sig, excess);
   const thr = Math.max(k * noise.sigmaF, rhoMin);
   const candidates = filterRunsAbove(P, count, from, stride, w, thr, noise.sigmaF);
   // The record's last two windows: C − 2B + A, with noise √6/√5 that of F for white noise.

@@ -23,10 +23,13 @@
 import { boxcar, percentileOf, sampleMedian, sortedSample } from './stats';
 import type { Launch, Mode, TraceRecord } from './steps';
 
-/** Three-point average, computed where needed rather than stored. */
-function smoothedAt(y: Float64Array): (i: number) => number {
+/**
+ * Three-point average at i, computed where needed rather than stored. A plain function, not a
+ * closure made per call, so the loops that scan with it stay optimised from one call to the next.
+ */
+function ys3(y: Float64Array, i: number): number {
   const n = y.length;
-  return (i) => (i <= 0 || i >= n - 1 ? y[Math.min(n - 1, Math.max(0, i))] : (y[i - 1] + y[i] + y[i + 1]) / 3);
+  return i <= 0 || i >= n - 1 ? y[Math.min(n - 1, Math.max(0, i))] : (y[i - 1] + y[i] + y[i + 1]) / 3;
 }
 
 interface Levels {
@@ -65,25 +68,27 @@ export function extremes(y: Float64Array, k: number): { lo: number; hi: number }
   if (n === 0) return { lo: NaN, hi: NaN };
   const top: number[] = [];
   const bottom: number[] = [];
+  // The k-th largest value and the k-th smallest so far (±Infinity until k are held). The lists
+  // are updated by plain calls, not a closure made on each call, so the loop stays optimised.
   let above = -Infinity;
   let below = Infinity;
-  const take = (v: number) => {
-    if (v > above || top.length < k) {
-      keepLargest(top, k, v);
-      above = top.length < k ? -Infinity : top[0];
+  let v = y[0];
+  for (let i = 0; i < n; i++) {
+    if (i === n - 1) v = y[i];
+    else if (i > 0) {
+      v = (y[i - 1] + y[i] + y[i + 1]) / 3;
+      if (!(v > above || v < below)) continue;
     }
-    if (v < below || bottom.length < k) {
-      keepLargest(bottom, k, -v);
-      below = bottom.length < k ? Infinity : -bottom[0];
-    }
-  };
-  take(y[0]);
-  for (let i = 1; i < n - 1; i++) {
-    const v = (y[i - 1] + y[i] + y[i + 1]) / 3;
-    if (v > above || v < below) take(v);
+    if (v > above || top.length < k) above = kthLargest(top, k, v);
+    if (v < below || bottom.length < k) below = -kthLargest(bottom, k, -v);
   }
-  if (n > 1) take(y[n - 1]);
   return { lo: -bottom[0], hi: top[0] };
+}
+
+/** Offer v to the k largest so far; the k-th largest, or −Infinity while fewer than k are held. */
+function kthLargest(top: number[], k: number, v: number): number {
+  keepLargest(top, k, v);
+  return top.length < k ? -Infinity : top[0];
 }
 
 function recordLevels(rec: TraceRecord, slowNoise: number): Levels {
@@ -121,16 +126,15 @@ interface LaunchEdge {
 /** Follow the launch edge from its first clear crossing `ic` to its top and back to its foot. */
 function traceLaunchEdge(y: Float64Array, ic: number, bStart: number): LaunchEdge {
   const n = y.length;
-  const ys = smoothedAt(y);
-  const sign = Math.sign(ys(ic) - bStart) || 1;
-  let maxDev = sign * (ys(ic) - bStart);
+  const sign = Math.sign(ys3(y, ic) - bStart) || 1;
+  let maxDev = sign * (ys3(y, ic) - bStart);
   let imax = ic;
   let iTop = ic;
   // Where the edge left the starting level: its climb so far is timed from here.
   let foot = ic;
-  while (foot > 0 && sign * (ys(foot) - bStart) > 0.1 * maxDev) foot--;
+  while (foot > 0 && sign * (ys3(y, foot) - bStart) > 0.1 * maxDev) foot--;
   for (let i = ic + 1; i < n; i++) {
-    const d = sign * (ys(i) - bStart);
+    const d = sign * (ys3(y, i) - bStart);
     if (d > maxDev) {
       // Only a clear rise counts as still climbing; a lossy line's slow creep does not.
       if (d > 1.02 * maxDev) iTop = i;
@@ -143,24 +147,23 @@ function traceLaunchEdge(y: Float64Array, ic: number, bStart: number): LaunchEdg
     // under a tenth of the launch. A lossy line's creep there is not the launch, and a second
     // rise after it is an event near the instrument, not more of the launch.
     const span = Math.max(4, 2 * (iTop - foot + 1));
-    if (i - iTop >= span && sign * (ys(i) - ys(i - span)) < 0.1 * maxDev) break;
+    if (i - iTop >= span && sign * (ys3(y, i) - ys3(y, i - span)) < 0.1 * maxDev) break;
   }
   imax = Math.min(imax, iTop);
   // Start of the edge: walk back to where it left the starting level.
   let i10 = ic;
-  while (i10 > 0 && sign * (ys(i10) - bStart) > 0.1 * maxDev) i10--;
+  while (i10 > 0 && sign * (ys3(y, i10) - bStart) > 0.1 * maxDev) i10--;
   const preEnd = Math.max(0, i10 - 2);
   const baseline = preEnd >= 1 ? sampleMedian(y, Math.max(0, preEnd - 2000), preEnd) : bStart;
-  const peak = sign * (ys(imax) - baseline);
+  const peak = sign * (ys3(y, imax) - baseline);
   let i90 = i10;
-  while (i90 < imax && sign * (ys(i90) - baseline) < 0.9 * peak) i90++;
+  while (i90 < imax && sign * (ys3(y, i90) - baseline) < 0.9 * peak) i90++;
   return { ic, sign, imax, i10, i90, baseline, peak, riseSamples: Math.max(1, i90 - i10) };
 }
 
 /** First index from `from` where sign·(y − level) drops below `frac`·peak, or −1. */
 function firstBelow(y: Float64Array, from: number, sign: number, level: number, frac: number, peak: number): number {
-  const ys = smoothedAt(y);
-  for (let i = from; i < y.length; i++) if (sign * (ys(i) - level) < frac * peak) return i;
+  for (let i = from; i < y.length; i++) if (sign * (ys3(y, i) - level) < frac * peak) return i;
   return -1;
 }
 
@@ -189,14 +192,13 @@ function launchFall(
   noise: number,
 ): { iFall: number; looksPulse: boolean } {
   const n = y.length;
-  const ys = smoothedAt(y);
   const { sign, baseline, peak, riseSamples, ic } = e;
   const iFall = firstBelow(y, e.imax, sign, baseline, 0.5, peak);
   if (iFall <= 0) return { iFall, looksPulse: false };
   const width = iFall - ic;
   const end = Math.min(n, iFall + Math.max(width, 4 * riseSamples));
   for (let i = iFall + riseSamples * 2; i < end; i++) {
-    if (sign * (ys(i) - baseline) > 0.5 * peak) return { iFall, looksPulse: false };
+    if (sign * (ys3(y, i) - baseline) > 0.5 * peak) return { iFall, looksPulse: false };
   }
   // Without a stated width, an excursion over a third of the record is taken as a step into
   // a near short: instruments set pulses much shorter than the record.
@@ -213,11 +215,10 @@ function launchFall(
 
 /** 10–90 % duration of the falling edge that starts near `from` (sign·(y − level) falling from `peak`). */
 function fallSamples(y: Float64Array, from: number, sign: number, level: number, peak: number): { i10: number; fall: number } {
-  const ys = smoothedAt(y);
   let i90 = from;
-  while (i90 > 0 && sign * (ys(i90) - level) < 0.9 * peak) i90--;
+  while (i90 > 0 && sign * (ys3(y, i90) - level) < 0.9 * peak) i90--;
   let i10 = from;
-  while (i10 < y.length - 1 && sign * (ys(i10) - level) > 0.1 * peak) i10++;
+  while (i10 < y.length - 1 && sign * (ys3(y, i10) - level) > 0.1 * peak) i10++;
   return { i10, fall: Math.max(1, i10 - i90) };
 }
 
@@ -243,14 +244,13 @@ function launchLevels(y: Float64Array, e: LaunchEdge, mode: Mode, iFall: number)
  */
 function launchBeforeRecord(rec: TraceRecord, lv: Levels, positiveOnly: boolean): Launch | null {
   const { y, n } = rec;
-  const ys = smoothedAt(y);
   const sign = Math.sign(lv.bStart - lv.rest) || 1;
   if (positiveOnly && sign < 0) return null;
   if (Math.abs(lv.bStart - lv.rest) < 0.5 * lv.launchMin) return null;
   let peak = 0;
   let iFall = -1;
   for (let i = 0; i < n; i++) {
-    const d = sign * (ys(i) - lv.rest);
+    const d = sign * (ys3(y, i) - lv.rest);
     if (d > peak) peak = d;
     if (d < 0.5 * peak) {
       iFall = i;
@@ -326,9 +326,8 @@ function noLaunch(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, baseline
 /** The launch found from its edge inside the record, or null when there is no clear excursion. */
 function launchInRecord(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hint: number | null): Launch | null {
   const { y, n } = rec;
-  const ys = smoothedAt(y);
   let ic = -1;
-  const beyond = (i: number) => Math.abs(ys(i) - lv.bStart) > lv.launchMin;
+  const beyond = (i: number) => Math.abs(ys3(y, i) - lv.bStart) > lv.launchMin;
   for (let i = 0; i < n - 1; i++) {
     if (beyond(i) && beyond(i + 1)) {
       ic = i;

@@ -11,7 +11,7 @@
  * Stretches held flat at the record's extreme (a saturated recorder) carry no
  * noise and are left out.
  */
-import { madSigma } from './stats';
+import { madSigma, prefixSums } from './stats';
 
 /**
  * Is sample i inside a run of eight or more equal values at the record's maximum (hi) or
@@ -179,9 +179,7 @@ export function noiseExcess(
   const factors: number[] = [];
   if (sigma0 > 0) {
     // The prefix sums are needed only here: in the caller's scratch buffer when it gives one.
-    const P = scratch && scratch.length >= n + 1 ? scratch : new Float64Array(n + 1);
-    P[0] = 0;
-    for (let i = 0; i < n; i++) P[i + 1] = P[i] + y[i];
+    const P = prefixSums(y, scratch);
     for (let b = 1; n / b >= 48; b *= 2) {
       const blocks = Math.floor(n / b);
       const step = Math.max(1, Math.floor((blocks - 2) / 4001));

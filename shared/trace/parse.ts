@@ -41,6 +41,11 @@ function checkOptions(options: ParseOptions): void {
   }
 }
 
+/** values[0, count) ×= scale; a loop of its own, so it is optimised apart from the reader's setup code around it. */
+function scaleInPlace(values: Float64Array, count: number, scale: number): void {
+  for (let i = 0; i < count; i++) values[i] *= scale;
+}
+
 /**
  * Read a TDR trace from CSV, given as text or as the file's bytes (faster:
  * the numbers are read straight from the bytes). Throws TraceInputError with
@@ -85,7 +90,7 @@ export function parseTraceCsv(input: string | Uint8Array, options: ParseOptions 
 
   const amplitude = plan.xCol >= 0 ? body.columns[1] : body.columns[0];
   const amp = amplitudeUnitOf(plan.infos?.[plan.ampCol], scan.amplitudeUnit);
-  if (amp.scale !== 1) for (let i = 0; i < count; i++) amplitude[i] *= amp.scale;
+  if (amp.scale !== 1) scaleInPlace(amplitude, count, amp.scale);
 
   const axis = buildTimeAxis({
     x: plan.xCol >= 0 ? body.columns[0] : null,
