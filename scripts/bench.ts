@@ -153,6 +153,22 @@ function wallTimes(commands: Array<[string, string[]]>, rounds: number): number[
   return times.map(median);
 }
 
+/**
+ * Peak resident memory of one whole run of the built command, as the operating system counts it: a
+ * preloaded hook writes the process's own maxRSS to stderr as it exits (a separate run from the timed ones).
+ */
+function cliPeakRssMb(dir: string, bin: string, file: string): number {
+  const hook = join(dir, 'peak-rss.cjs');
+  writeFileSync(hook, "process.on('exit', () => process.stderr.write(`\\npeak-rss-kb ${process.resourceUsage().maxRSS}\\n`));\n");
+  const p = spawnSync(process.execPath, ['--require', hook, bin, 'analyze', file, '--vf', '0.66', '--z0', '50'], {
+    stdio: ['ignore', 'ignore', 'pipe'],
+    encoding: 'utf8',
+  });
+  const m = /peak-rss-kb (\d+)/.exec(p.stderr);
+  if (p.status !== 0 || !m) throw new Error(`measuring the command's peak memory failed: ${p.stderr}`);
+  return Number(m[1]) / 1024;
+}
+
 function sideBySide(dir: string, file: string): string[] {
   const bin = join(import.meta.dirname, '../dist/cli/rholog.js');
   const lines = ['', `side by side on the 1,000,000-sample file (load average ${loadavg().map((l) => l.toFixed(2)).join(' ')}):`];
@@ -179,6 +195,7 @@ function sideBySide(dir: string, file: string): string[] {
   else lines.push('  (numpy/scipy script skipped: /usr/bin/python3 with numpy and scipy not found)');
   if (Number.isFinite(cli)) {
     lines.push(row('rholog analyze (built, node), whole process', cli));
+    lines.push(`  rholog analyze peak RSS, whole process: ${cliPeakRssMb(dir, bin, file).toFixed(0)} MB (the product's own memory figure)`);
     const tiny = join(dir, 'tiny.csv');
     writeFileSync(tiny, demoCsv(200));
     // Alternating with node's own start, the floor no command can go under on this machine.
