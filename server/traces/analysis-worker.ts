@@ -3,7 +3,7 @@ import fs from 'node:fs/promises';
 import type { MessagePort } from 'node:worker_threads';
 import type { TraceSettings } from '../../shared/schemas/traces';
 import type { ParsedTrace } from '../../shared/trace';
-import { workerData } from 'piscina';
+import { move, transferableSymbol, valueSymbol, workerData } from 'piscina';
 import { analyseBytes, readBytes, type AnalysisCable, type Outcome } from './analysis';
 
 interface TaskBase {
@@ -44,6 +44,22 @@ export interface ReadResult {
 }
 
 /**
+ * A result whose sample arrays are moved to the request thread, not copied:
+ * their memory changes hands (the worker is done with them), so a 200,000-
+ * sample trace does not cost a 3 MB copy on the thread that answers requests.
+ * Each buffer is listed once (two arrays may share one).
+ */
+function movingSamples<R extends { parsed: ParsedTrace | null }>(result: R): R {
+  const buffers = new Set<ArrayBuffer>();
+  for (const a of result.parsed ? [result.parsed.timeS, result.parsed.amplitude] : []) {
+    if (a.buffer instanceof ArrayBuffer) buffers.add(a.buffer);
+  }
+  if (!buffers.size) return result;
+  // piscina unwraps this on the way out and sends the value with the buffers in its transfer list.
+  return move({ [transferableSymbol]: [...buffers], [valueSymbol]: result }) as unknown as R;
+}
+
+/**
  * One task in a worker thread of the analysis pool. The file is read once,
  * hashed, parsed and analysed here; its bytes never reach the request thread.
  */
@@ -52,10 +68,10 @@ export default async function runTask(task: WorkerTask): Promise<AnalyseResult |
   task.started?.postMessage('started');
   task.started?.close();
   const bytes = await fs.readFile(task.path);
-  if (task.kind === 'read') return { parsed: readBytes(bytes, task.settings, task.maxBytes), elapsedMs: performance.now() - start };
+  if (task.kind === 'read') return movingSamples({ parsed: readBytes(bytes, task.settings, task.maxBytes), elapsedMs: performance.now() - start });
   const sha256 = createHash('sha256').update(bytes).digest('hex');
   const { outcome, parsed } = analyseBytes(bytes, task.settings, task.cable, task.maxBytes);
-  return { sha256, sizeBytes: bytes.length, outcome, parsed, elapsedMs: performance.now() - start };
+  return movingSamples({ sha256, sizeBytes: bytes.length, outcome, parsed, elapsedMs: performance.now() - start });
 }
 
 /**
