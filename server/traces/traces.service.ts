@@ -86,6 +86,8 @@ export interface UploadOutcome {
   duplicates: DuplicateFile[];
   /** Answered from an earlier upload with the same idempotency key. */
   replayed: boolean;
+  /** The cable run and cable type this upload was read and analysed with (not on a replay), for its answer. */
+  readWith?: TraceRows;
 }
 
 async function runAndCable(fields: Pick<UploadFields, 'cableRunId'>) {
@@ -221,6 +223,7 @@ export async function receiveUpload(
       const traceIds: number[] = [];
       const duplicates: DuplicateFile[] = [];
       const recordedAs = new Map<number, Pick<Trace, 'id' | 'createdAt'>>();
+      const storedPaths = new Set<string>();
       for (const [index, step] of plan.entries()) {
         const r = results[index];
         const name = files[index].originalName;
@@ -253,24 +256,24 @@ export async function receiveUpload(
         );
         recordedAs.set(index, trace);
         traceIds.push(trace.id);
+        storedPaths.add(step.rawPath);
       }
       if (idempotencyKey) {
         await UploadReceipt.create({ userId: uploadedById, idempotencyKey, cableRunId: run.id, end: fields.end, traceIds, duplicates }, { transaction });
       }
-      return { traceIds, duplicates, replayed: false };
+      return { traceIds, duplicates, replayed: false, storedPaths };
     });
     committed = true;
 
-    // A file that turned out to be a copy inside the transaction is not kept; the others' samples are, to draw them.
-    const kept = new Set((await Trace.findAll({ where: { id: outcome.traceIds }, attributes: ['rawPath'] })).map((t) => t.rawPath));
+    // A file that turned out to be a copy inside the transaction is not kept (no committed row names it); the others' samples are, to draw them.
     for (const [index, step] of plan.entries()) {
       if (step.kind !== 'new') continue;
-      if (!kept.has(step.rawPath)) await ctx.storage.remove(step.rawPath).catch(() => undefined);
+      if (!outcome.storedPaths.has(step.rawPath)) await ctx.storage.remove(step.rawPath).catch(() => undefined);
       else if (results[index].parsed) rememberParsed(ctx, step.rawPath, settings, results[index].parsed!);
     }
     // Only a large file is left pending (analysed by a background job); an upload of small files has nothing to queue.
     if (results.some((r) => r.outcome === null)) await queueAnalyses(ctx, outcome.traceIds);
-    return outcome;
+    return { traceIds: outcome.traceIds, duplicates: outcome.duplicates, replayed: false, readWith: { run, cable } };
   } catch (err) {
     if (!committed) for (const rel of adopted) await ctx.storage.remove(rel).catch(() => undefined);
     if (idempotencyKey && err instanceof UniqueConstraintError) {
@@ -413,13 +416,25 @@ function endLabel(run: CableRun, end: CableEnd) {
   return end === 'A' ? run.endALabel : run.endBLabel;
 }
 
-async function summaries(traces: Trace[]): Promise<TraceSummary[]> {
+/** A trace's cable run and the run's cable type, when the caller has read them already. */
+export interface TraceRows {
+  run: CableRun;
+  cable: CableType | null;
+}
+
+/** Rows a caller has already read for these traces (their runs, their findings), so they are not read twice. */
+interface SummaryRows {
+  runs?: CableRun[];
+  findings?: Array<Pick<Finding, 'id' | 'traceId'>>;
+}
+
+async function summaries(traces: Trace[], known: SummaryRows = {}): Promise<TraceSummary[]> {
   if (!traces.length) return [];
   // Independent reads side by side: one wait instead of one per query.
   const [runs, users, findings] = await Promise.all([
-    CableRun.findAll({ where: { id: [...new Set(traces.map((t) => t.cableRunId))] } }),
+    known.runs ?? CableRun.findAll({ where: { id: [...new Set(traces.map((t) => t.cableRunId))] } }),
     User.findAll({ where: { id: [...new Set(traces.map((t) => t.uploadedById))] } }),
-    Finding.findAll({ where: { traceId: traces.map((t) => t.id) }, attributes: ['id', 'traceId'] }),
+    known.findings ?? Finding.findAll({ where: { traceId: traces.map((t) => t.id) }, attributes: ['id', 'traceId'] }),
   ]);
   const sites = await Site.findAll({ where: { id: [...new Set(runs.map((r) => r.siteId))] } });
   return traces.map((t) => {
@@ -570,15 +585,30 @@ async function comparison(ctx: AppContext, trace: Trace, parsed: ParsedTrace, po
   };
 }
 
-export async function getTrace(ctx: AppContext, id: number, opts: { points: number; compareTo?: number } = { points: 2000 }): Promise<TraceDetail> {
+/**
+ * One trace as its page shows it. `readWith` is the cable run and cable type
+ * when the caller has just read them (an upload's answer): the run, the cable
+ * and the trace's findings are each read once, not again for its summary.
+ */
+export async function getTrace(
+  ctx: AppContext,
+  id: number,
+  opts: { points: number; compareTo?: number } = { points: 2000 },
+  readWith?: TraceRows,
+): Promise<TraceDetail> {
   const trace = await Trace.findByPk(id);
   if (!trace) throw AppError.notFound(`Trace ${id}`);
+  const rows: Promise<TraceRows> =
+    readWith && readWith.run.id === trace.cableRunId
+      ? Promise.resolve(readWith)
+      : CableRun.findByPk(trace.cableRunId).then(async (r) => ({ run: r!, cable: await CableType.findByPk(r!.cableTypeId) }));
+  const findingRows = Finding.findAll({ where: { traceId: id }, order: [['eventIndex', 'ASC']] });
   // Independent reads side by side: one wait instead of one per query.
   const [[summary], { run, cable }, markers, findings, parsed, newer] = await Promise.all([
-    summaries([trace]),
-    CableRun.findByPk(trace.cableRunId).then(async (r) => ({ run: r!, cable: await CableType.findByPk(r!.cableTypeId) })),
+    Promise.all([rows, findingRows]).then(([r, f]) => summaries([trace], { runs: [r.run], findings: f })),
+    rows,
     RouteMarker.findAll({ where: { cableRunId: trace.cableRunId }, order: [['chainageM', 'ASC']] }),
-    Finding.findAll({ where: { traceId: id }, order: [['eventIndex', 'ASC']] }),
+    findingRows,
     parsedSamples(ctx, trace),
     Trace.findAll({ where: { reanalysisOfId: id }, attributes: ['id'], order: [['id', 'ASC']] }),
   ]);

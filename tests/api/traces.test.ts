@@ -178,6 +178,27 @@ describe('POST /api/traces', () => {
       ['empty.csv', 'failed'],
     ]);
   });
+
+  it('answers with each stored trace as its page shows it: run, markers, cable, findings and samples', async () => {
+    const { run } = await makeRun('Answer run');
+    const c = await api.as('technician');
+    const res = await c
+      .postRaw('/api/traces')
+      .field('cableRunId', String(run.id))
+      .field('end', 'B')
+      .attach('file', Buffer.from(stepTraceCsv({ faultM: 130, vf: 0.66 })), 'answer-good.csv')
+      .attach('file', Buffer.from('time_ns,voltage_V\n1,0.1\n'), 'answer-short.csv')
+      .expect(201);
+    const [good, short] = res.body.traces;
+    expect(good.cableRun).toMatchObject({ id: run.id, name: 'Answer run', endBLabel: 'Pole 14', cableTypeName: 'Test solid PE coax' });
+    expect(good.cableRun.markers.map((m: { label: string }) => m.label)).toEqual(['MH-1', 'MH-2', 'P-7']);
+    expect(good.endLabel).toBe('Pole 14');
+    expect(good.libraryChangedSince).toBe(false);
+    expect([good.findingCount, good.findings]).toEqual([0, []]);
+    expect(good.sampleCount).toBeGreaterThan(100);
+    expect(short.status).toBe('failed');
+    for (const t of res.body.traces) expect((await c.get(`/api/traces/${t.id}`).expect(200)).body).toEqual(t);
+  });
 });
 
 describe('GET /api/traces', () => {
