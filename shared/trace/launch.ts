@@ -47,15 +47,25 @@ interface Levels {
   noise: number;
 }
 
-/** Insert v into `top`, the k largest so far in ascending order (top[0] is the k-th largest). */
-function keepLargest(top: number[], k: number, v: number): void {
-  if (top.length === k) {
-    if (v <= top[0]) return;
-    top.shift();
+/**
+ * Offer v to `top`, the `held` largest values so far in ascending order (top[0] is the smallest
+ * of them), keeping at most k; returns how many it holds now. A typed array and a count rather
+ * than a growing list, so the scan that calls it stays optimised.
+ */
+function keepLargest(top: Float64Array, held: number, k: number, v: number): number {
+  let c = held;
+  if (c === k) {
+    if (v <= top[0]) return c;
+    for (let m = 1; m < c; m++) top[m - 1] = top[m];
+    c--;
   }
-  let j = top.length;
-  while (j > 0 && top[j - 1] > v) j--;
-  top.splice(j, 0, v);
+  let j = c;
+  while (j > 0 && top[j - 1] > v) {
+    top[j] = top[j - 1];
+    j--;
+  }
+  top[j] = v;
+  return c + 1;
 }
 
 /**
@@ -66,10 +76,11 @@ function keepLargest(top: number[], k: number, v: number): void {
 export function extremes(y: Float64Array, k: number): { lo: number; hi: number } {
   const n = y.length;
   if (n === 0) return { lo: NaN, hi: NaN };
-  const top: number[] = [];
-  const bottom: number[] = [];
-  // The k-th largest value and the k-th smallest so far (±Infinity until k are held). The lists
-  // are updated by plain calls, not a closure made on each call, so the loop stays optimised.
+  const top = new Float64Array(k);
+  const bottom = new Float64Array(k);
+  let nTop = 0;
+  let nBottom = 0;
+  // The k-th largest value and the k-th smallest so far (±Infinity until k are held).
   let above = -Infinity;
   let below = Infinity;
   let v = y[0];
@@ -79,16 +90,16 @@ export function extremes(y: Float64Array, k: number): { lo: number; hi: number }
       v = (y[i - 1] + y[i] + y[i + 1]) / 3;
       if (!(v > above || v < below)) continue;
     }
-    if (v > above || top.length < k) above = kthLargest(top, k, v);
-    if (v < below || bottom.length < k) below = -kthLargest(bottom, k, -v);
+    if (v > above || nTop < k) {
+      nTop = keepLargest(top, nTop, k, v);
+      above = nTop < k ? -Infinity : top[0];
+    }
+    if (v < below || nBottom < k) {
+      nBottom = keepLargest(bottom, nBottom, k, -v);
+      below = nBottom < k ? Infinity : -bottom[0];
+    }
   }
-  return { lo: -bottom[0], hi: top[0] };
-}
-
-/** Offer v to the k largest so far; the k-th largest, or −Infinity while fewer than k are held. */
-function kthLargest(top: number[], k: number, v: number): number {
-  keepLargest(top, k, v);
-  return top.length < k ? -Infinity : top[0];
+  return { lo: nBottom > 0 ? -bottom[0] : NaN, hi: nTop > 0 ? top[0] : NaN };
 }
 
 function recordLevels(rec: TraceRecord, slowNoise: number): Levels {
@@ -327,9 +338,9 @@ function noLaunch(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, baseline
 function launchInRecord(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hint: number | null): Launch | null {
   const { y, n } = rec;
   let ic = -1;
-  const beyond = (i: number) => Math.abs(ys3(y, i) - lv.bStart) > lv.launchMin;
+  const { bStart, launchMin } = lv;
   for (let i = 0; i < n - 1; i++) {
-    if (beyond(i) && beyond(i + 1)) {
+    if (Math.abs(ys3(y, i) - bStart) > launchMin && Math.abs(ys3(y, i + 1) - bStart) > launchMin) {
       ic = i;
       break;
     }
