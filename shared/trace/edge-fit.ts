@@ -220,6 +220,8 @@ interface LaunchShape {
   /** Synthetic: centre and σ of a Gaussian edge, samples. */
   centre: number;
   sigma: number;
+  /** Synthetic pulse: width at half height, samples (0 for a step). */
+  width: number;
 }
 
 function launchShape(input: EdgeFitInput): LaunchShape | null {
@@ -229,12 +231,17 @@ function launchShape(input: EdgeFitInput): LaunchShape | null {
   if (L.found && L.onsetInRecord && !L.clipped) {
     const from = Math.max(0, L.idx - Math.max(4, 2 * rise));
     const to = Math.min(rec.n - 1, Math.max(L.settleIdx, L.idx + 2 * rise) + rise);
-    return { kind: 'measured', step, reference: 'launch', from, to, centre: 0, sigma: 0 };
+    return { kind: 'measured', step, reference: 'launch', from, to, centre: 0, sigma: 0, width: 0 };
   }
   // No usable launch: a Gaussian edge centred on time zero (a reference-plane trace's edges are
   // symmetric about their delay), as sharp as the record's own rise allows (10–90 % is 2.5631 σ).
-  if (!step) return null;
-  return { kind: 'synthetic', step, reference: 'axis', from: 0, to: 0, centre: L.zeroIdx, sigma: Math.max(0.5, rise / 2.5631) };
+  const sigma = Math.max(0.5, rise / 2.5631);
+  if (step) return { kind: 'synthetic', step, reference: 'axis', from: 0, to: 0, centre: L.zeroIdx, sigma, width: 0 };
+  // A pulse record that starts during its launch: the launch as its measured width and rise, its
+  // leading edge's half height at time zero (where the file's axis puts the launch).
+  if (L.found && !L.onsetInRecord && L.widthSamples !== null && L.widthSamples > 0 && !L.clipped)
+    return { kind: 'synthetic', step, reference: 'axis', from: 0, to: 0, centre: L.zeroIdx, sigma, width: L.widthSamples };
+  return null;
 }
 
 /** Block means of x over the blocks J0 … J1−1 of q samples (block J covers [Jq, Jq + q)). */
@@ -260,10 +267,16 @@ function coarseLaunch(input: EdgeFitInput, shape: LaunchShape, q: number): { val
     // Block J's mean sits at sample Jq + (q − 1)/2.
     const c = (shape.centre - (q - 1) / 2) / q;
     const sg = Math.max(0.3, shape.sigma / q);
+    const wq = shape.width / q;
     const start = Math.floor(c - 5 * sg);
-    const len = Math.ceil(10 * sg) + 2;
+    const len = Math.ceil(10 * sg + wq) + 2;
     const values = new Float64Array(len);
-    for (let j = 0; j < len; j++) values[j] = gaussCdf((start + j - c) / sg) - gaussCdf((start + j - 1 - c) / sg);
+    for (let j = 0; j < len; j++) {
+      const x = start + j - c;
+      // Step: the edge's impulse (block differences of its rise). Pulse: the pulse itself, a rise up
+      // at time zero and a fall width w later, both Gaussian-edged.
+      values[j] = shape.step ? gaussCdf(x / sg) - gaussCdf((x - 1) / sg) : gaussCdf(x / sg) - gaussCdf((x - wq) / sg);
+    }
     return { values, start };
   }
   const j0 = Math.floor(shape.from / q);
