@@ -74,10 +74,20 @@ function keepLargest(top: Float64Array, held: number, k: number, v: number): num
  * it beats their current k-th, which on a long record almost never happens.
  */
 export function extremes(y: Float64Array, k: number): { lo: number; hi: number } {
-  const n = y.length;
-  if (n === 0) return { lo: NaN, hi: NaN };
+  if (y.length === 0 || !(k >= 1)) return { lo: NaN, hi: NaN };
   const top = new Float64Array(k);
   const bottom = new Float64Array(k);
+  scanExtremes(y, k, top, bottom);
+  return { lo: -bottom[0], hi: top[0] };
+}
+
+/**
+ * The scan behind extremes: top ends holding the k largest three-point averages, bottom the k
+ * smallest negated (the first sample holds a place in both, so neither is empty). It returns
+ * nothing, so the optimised loop leaves by a plain return and keeps its code from trace to trace.
+ */
+function scanExtremes(y: Float64Array, k: number, top: Float64Array, bottom: Float64Array): void {
+  const n = y.length;
   let nTop = 0;
   let nBottom = 0;
   // The k-th largest value and the k-th smallest so far (±Infinity until k are held).
@@ -99,7 +109,6 @@ export function extremes(y: Float64Array, k: number): { lo: number; hi: number }
       below = nBottom < k ? Infinity : -bottom[0];
     }
   }
-  return { lo: nBottom > 0 ? -bottom[0] : NaN, hi: nTop > 0 ? top[0] : NaN };
 }
 
 function recordLevels(rec: TraceRecord, slowNoise: number): Levels {
