@@ -204,6 +204,12 @@ function fractionNear(y: Float64Array, from: number, level: number, band: number
  */
 const FALL_OVER_RISE_MAX = 5;
 
+/**
+ * Farthest the median of a pulse record after its launch lies from the baseline, in launch
+ * heights, when under 60 % of it rests there (a step into a fault of ρ ≥ −0.88 rests further off).
+ */
+const RESTING_MEDIAN_MAX = 0.12;
+
 /** Pulse or step: does the launch fall back below half its height soon, stay down, and the record rest at the baseline? */
 function launchFall(
   y: Float64Array,
@@ -223,9 +229,14 @@ function launchFall(
   // Without a stated width, an excursion over a third of the record is taken as a step into
   // a near short: instruments set pulses much shorter than the record.
   const short = pulseHintSamples !== null ? width < 3 * pulseHintSamples + 4 * riseSamples : width < 0.35 * (n - ic);
-  // A pulse record rests at its baseline after the launch, apart from sparse echoes; a step
-  // into a near fault rests at 1 + ρ of the launch, off the baseline unless ρ is near −1.
-  const rests = fractionNear(y, Math.min(n, end), baseline, Math.max(0.1 * peak, 4 * noise)) >= 0.6;
+  // A pulse record rests at its baseline after the launch, apart from its echoes; a step into
+  // a near fault rests at 1 + ρ of the launch, off the baseline unless ρ is near −1. Wide
+  // pulses on a low-loss line fill much of the record with echoes and their bounces, of both
+  // signs: there the record's median still sits on the baseline.
+  const near = fractionNear(y, Math.min(n, end), baseline, Math.max(0.1 * peak, 4 * noise));
+  const rests =
+    near >= 0.6 ||
+    (near >= 0.3 && Math.abs(sampleMedian(y, Math.min(n - 1, end), n) - baseline) < RESTING_MEDIAN_MAX * peak);
   // The instrument's pulse falls back to the baseline as fast as it rose. A fall many rise
   // times long, down to the baseline, has come back along the line: it is a step's reflection
   // from a near fault, spread by the line's loss on the way.
