@@ -47,12 +47,14 @@ export interface ReadResult {
  * A result whose sample arrays are moved to the request thread, not copied:
  * their memory changes hands (the worker is done with them), so a 200,000-
  * sample trace does not cost a 3 MB copy on the thread that answers requests.
- * Each buffer is listed once (two arrays may share one).
+ * The engine allocates each array for its record (then cuts it to length),
+ * so an array at the start of a plain ArrayBuffer is moved with its buffer;
+ * any other (shared memory, a view into the middle of a block) is copied.
  */
 function movingSamples<R extends { parsed: ParsedTrace | null }>(result: R): R {
   const buffers = new Set<ArrayBuffer>();
   for (const a of result.parsed ? [result.parsed.timeS, result.parsed.amplitude] : []) {
-    if (a.buffer instanceof ArrayBuffer) buffers.add(a.buffer);
+    if (a.buffer instanceof ArrayBuffer && a.byteOffset === 0) buffers.add(a.buffer);
   }
   if (!buffers.size) return result;
   // piscina unwraps this on the way out and sends the value with the buffers in its transfer list.
