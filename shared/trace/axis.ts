@@ -106,27 +106,22 @@ export function buildTimeAxis(a: AxisInput): Axis {
   return axisFromTime(a, a.x);
 }
 
-/** Refuse a time axis that repeats or goes backwards, naming the row's line. */
-export function checkRising(timeS: Float64Array, axisName: string, lineOfRow: (row: number) => number): void {
-  for (let i = 1; i < timeS.length; i++) {
-    const d = timeS[i] - timeS[i - 1];
-    if (d > 0) continue;
-    const line = lineOfRow(i);
-    if (d === 0) {
-      throw new TraceInputError(
-        'DUPLICATE_TIME',
-        `${axisName} repeats the previous row's value; expected each row to be later than the one before`,
-        { line },
-      );
-    }
-    throw new TraceInputError(
-      'NON_MONOTONIC_TIME',
-      `${axisName} goes backwards; expected each row to be later than the one before`,
-      {
-        line,
-      },
+/** The error for a step d ≤ 0 (or not a number) of the time axis at a row on `line`. */
+function notRising(d: number, axisName: string, line: number): TraceInputError {
+  if (d === 0) {
+    return new TraceInputError(
+      'DUPLICATE_TIME',
+      `${axisName} repeats the previous row's value; expected each row to be later than the one before`,
+      { line },
     );
   }
+  return new TraceInputError(
+    'NON_MONOTONIC_TIME',
+    `${axisName} goes backwards; expected each row to be later than the one before`,
+    {
+      line,
+    },
+  );
 }
 
 export interface EvenTrace {
@@ -136,16 +131,39 @@ export interface EvenTrace {
   warning?: TraceWarning;
 }
 
+/** Largest departure of a step from meanDt. */
+function spread(timeS: Float64Array, meanDt: number): number {
+  let worst = 0;
+  for (let i = 1; i < timeS.length; i++) worst = Math.max(worst, Math.abs(timeS[i] - timeS[i - 1] - meanDt));
+  return worst;
+}
+
+/** spread, refusing the first step that is not later than the one before (checkRising in the same pass). */
+function risingSpread(timeS: Float64Array, meanDt: number, axisName: string, lineOfRow: (row: number) => number): number {
+  let worst = 0;
+  for (let i = 1; i < timeS.length; i++) {
+    const d = timeS[i] - timeS[i - 1];
+    if (!(d > 0)) throw notRising(d, axisName, lineOfRow(i));
+    worst = Math.max(worst, Math.abs(d - meanDt));
+  }
+  return worst;
+}
+
 /**
  * Uneven spacing (gaps or jitter beyond a quarter of a step): put the trace
  * on a uniform grid at the median step by linear interpolation. Evenly spaced
  * traces are returned as they are.
  */
-export function evenlySpaced(timeS: Float64Array, amplitude: Float64Array, axisName: string): EvenTrace {
+export function evenlySpaced(
+  timeS: Float64Array,
+  amplitude: Float64Array,
+  axisName: string,
+  lineOfRow?: (row: number) => number,
+): EvenTrace {
   const count = timeS.length;
   const meanDt = (timeS[count - 1] - timeS[0]) / (count - 1);
-  let worst = 0;
-  for (let i = 1; i < count; i++) worst = Math.max(worst, Math.abs(timeS[i] - timeS[i - 1] - meanDt));
+  // With lineOfRow, the same pass refuses a repeat or a step back first, as checkRising does.
+  const worst = lineOfRow ? risingSpread(timeS, meanDt, axisName, lineOfRow) : spread(timeS, meanDt);
   if (worst <= 0.25 * meanDt) return { timeS, amplitude, resampled: false };
   const diffs = new Float64Array(count - 1);
   for (let i = 1; i < count; i++) diffs[i - 1] = timeS[i] - timeS[i - 1];

@@ -9,7 +9,7 @@
  *   bytes (lines.ts) → head and first rows (head.ts) → columns (layout.ts)
  *   → settings (metadata.ts) → numbers (numeric-rows.ts) → time axis (axis.ts)
  */
-import { buildTimeAxis, checkRising, evenlySpaced } from './axis';
+import { buildTimeAxis, evenlySpaced } from './axis';
 import { TraceInputError } from './errors';
 import { readHead } from './head';
 import { amplitudeUnitOf, planColumns, readLayout } from './layout';
@@ -102,8 +102,8 @@ export function parseTraceCsv(input: string | Uint8Array, options: ParseOptions 
     dataLine: head.dataLine,
   });
   const axisName = axis.kind === 'distance-amplitude' ? 'distance' : 'time';
-  checkRising(axis.timeS, axisName, body.lineOfRow);
-  const even = evenlySpaced(axis.timeS, amplitude, axisName);
+  // One pass: refuse a time that repeats or goes back (naming its line), and measure the spacing.
+  const even = evenlySpaced(axis.timeS, amplitude, axisName, body.lineOfRow);
 
   const metadata: Record<string, string> = {};
   for (const e of entries) metadata[e.key] = e.value;
