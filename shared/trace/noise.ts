@@ -36,21 +36,21 @@ function saturatedAt(y: Float64Array, i: number, hi: number, lo: number): boolea
  * memory); on a quieter recorder a level held at the record's extreme is just the signal.
  */
 export function heldStretches(y: Float64Array): Int32Array | null {
-  const { sigma0, q } = noiseAndStep(y);
+  // The record's extremes come with its noise (one pass over it for both).
+  const { sigma0, q, lo, hi } = noiseAndStep(y);
   if (!(sigma0 > 0.5 * q)) return null;
   const n = y.length;
-  let hi = -Infinity;
-  let lo = Infinity;
-  for (let i = 0; i < n; i++) {
-    if (y[i] > hi) hi = y[i];
-    if (y[i] < lo) lo = y[i];
-  }
   const runs: number[] = [];
   for (let i = 0; i < n; ) {
     const v = y[i];
+    // A sample off the extremes starts no held run (and the one after it starts a run of its own).
+    if (v !== hi && v !== lo) {
+      i++;
+      continue;
+    }
     let j = i + 1;
     while (j < n && y[j] === v) j++;
-    if (j - i >= 8 && (v === hi || v === lo)) runs.push(i, j);
+    if (j - i >= 8) runs.push(i, j);
     i = j;
   }
   return runs.length > 0 ? Int32Array.from(runs) : null;
@@ -100,9 +100,17 @@ export function adcStep(y: Float64Array): number {
 }
 
 /** Both are read from one pass; an analysis asks for each of the same record once. */
-const measured = new WeakMap<Float64Array, { sigma0: number; q: number }>();
+interface NoiseAndRange {
+  sigma0: number;
+  q: number;
+  /** The record's smallest and largest sample. */
+  lo: number;
+  hi: number;
+}
 
-function noiseAndStep(y: Float64Array): { sigma0: number; q: number } {
+const measured = new WeakMap<Float64Array, NoiseAndRange>();
+
+function noiseAndStep(y: Float64Array): NoiseAndRange {
   let r = measured.get(y);
   if (!r) {
     r = measureNoise(y);
@@ -111,14 +119,24 @@ function noiseAndStep(y: Float64Array): { sigma0: number; q: number } {
   return r;
 }
 
-function measureNoise(y: Float64Array): { sigma0: number; q: number } {
-  const n = y.length;
+/** out[0] = the smallest of y, out[1] = the largest (±Infinity when empty); a loop of its own, so it stays optimised. */
+function rangeInto(y: Float64Array, out: Float64Array): void {
   let hi = -Infinity;
   let lo = Infinity;
-  for (let i = 0; i < n; i++) {
+  for (let i = 0; i < y.length; i++) {
     if (y[i] > hi) hi = y[i];
     if (y[i] < lo) lo = y[i];
   }
+  out[0] = lo;
+  out[1] = hi;
+}
+
+function measureNoise(y: Float64Array): NoiseAndRange {
+  const n = y.length;
+  const range = new Float64Array(2);
+  rangeInto(y, range);
+  const lo = range[0];
+  const hi = range[1];
   const diffStep = Math.max(1, Math.floor((n - 1) / 8001));
   const diffs = new Float64Array(Math.ceil((n - 1) / diffStep));
   let m = 0;
@@ -130,7 +148,7 @@ function measureNoise(y: Float64Array): { sigma0: number; q: number } {
     const a = Math.abs(d);
     if (a > 0 && a < minStep) minStep = a;
   }
-  if (m < 2) return { sigma0: 0, q: 0 };
+  if (m < 2) return { sigma0: 0, q: 0, lo, hi };
   let sigma0 = madSigma(diffs, 0, m) / Math.SQRT2;
   let atStep = 0;
   for (let j = 0; j < m; j++) if (Math.abs(Math.abs(diffs[j]) - minStep) <= 1e-9 * minStep) atStep++;
@@ -139,7 +157,7 @@ function measureNoise(y: Float64Array): { sigma0: number; q: number } {
     q = minStep;
     sigma0 = Math.max(sigma0, minStep / Math.sqrt(12));
   }
-  return { sigma0, q };
+  return { sigma0, q, lo, hi };
 }
 
 /**
