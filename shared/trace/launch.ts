@@ -143,13 +143,19 @@ interface LaunchEdge {
   riseSamples: number;
 }
 
-/** Follow the launch edge from its first clear crossing `ic` to its top and back to its foot. */
-function traceLaunchEdge(y: Float64Array, ic: number, bStart: number): LaunchEdge {
+/**
+ * Follow the launch edge from its first clear crossing `ic` to its top and back to its foot.
+ * `steady`: the edge has no creep after it (a ρ trace's launch pulse), so it is still climbing
+ * while it gains 2 % over its last top, however many samples that takes; otherwise each new
+ * top must be 2 % over the one before, so a lossy line's slow creep is not taken as the launch.
+ */
+function traceLaunchEdge(y: Float64Array, ic: number, bStart: number, steady = false): LaunchEdge {
   const n = y.length;
   const sign = Math.sign(ys3(y, ic) - bStart) || 1;
   let maxDev = sign * (ys3(y, ic) - bStart);
   let imax = ic;
   let iTop = ic;
+  let topDev = maxDev;
   // Where the edge left the starting level: its climb so far is timed from here.
   let foot = ic;
   while (foot > 0 && sign * (ys3(y, foot) - bStart) > 0.1 * maxDev) foot--;
@@ -157,7 +163,10 @@ function traceLaunchEdge(y: Float64Array, ic: number, bStart: number): LaunchEdg
     const d = sign * (ys3(y, i) - bStart);
     if (d > maxDev) {
       // Only a clear rise counts as still climbing; a lossy line's slow creep does not.
-      if (d > 1.02 * maxDev) iTop = i;
+      if (d > 1.02 * (steady ? topDev : maxDev)) {
+        iTop = i;
+        topDev = d;
+      }
       maxDev = d;
       imax = i;
     }
@@ -355,7 +364,7 @@ function noLaunch(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, baseline
 }
 
 /** The launch found from its edge inside the record, or null when there is no clear excursion. */
-function launchInRecord(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hint: number | null): Launch | null {
+function launchInRecord(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hint: number | null, steady = false): Launch | null {
   const { y, n } = rec;
   let ic = -1;
   const { bStart, launchMin } = lv;
@@ -366,7 +375,7 @@ function launchInRecord(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hi
     }
   }
   if (ic < 0) return null;
-  const edge = traceLaunchEdge(y, ic, lv.bStart);
+  const edge = traceLaunchEdge(y, ic, lv.bStart, steady);
   const { iFall, looksPulse } = launchFall(y, edge, hint, lv.noise);
   const mode: Mode = modeOpt === 'auto' ? (looksPulse ? 'pulse' : 'step') : modeOpt;
   const { height, settleIdx } = launchLevels(y, edge, mode, iFall);
@@ -393,7 +402,8 @@ function rhoLaunch(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hint: n
   if (modeOpt !== 'step') {
     const before = launchBeforeRecord(rec, lv, true);
     if (before && before.height >= 0.5) return { ...before, modeDetected: modeOpt === 'auto' };
-    const inRecord = launchInRecord(rec, lv, 'auto', hint);
+    // A ρ trace's launch pulse: a finely sampled edge is followed to its top.
+    const inRecord = launchInRecord(rec, lv, 'auto', hint, true);
     if (inRecord && inRecord.mode === 'pulse' && inRecord.height >= 0.5 && inRecord.idx < 0.3 * n) {
       return { ...inRecord, modeDetected: modeOpt === 'auto' };
     }
