@@ -18,6 +18,7 @@ import * as m0015 from './0015-list-indexes';
 import * as m0016 from './0016-shared-limits-and-cable-reanalysis';
 import * as m0017 from './0017-background-analysis';
 import * as m0018 from './0018-findings-text-index';
+import * as m0019 from './0019-trace-reference-index';
 
 export type Migration = MigrationFn<QueryInterface>;
 
@@ -44,6 +45,7 @@ const MIGRATIONS: Array<{ name: string; up: Migration; down: Migration }> = [
   { name: '0016-shared-limits-and-cable-reanalysis', ...m0016 },
   { name: '0017-background-analysis', ...m0017 },
   { name: '0018-findings-text-index', ...m0018 },
+  { name: '0019-trace-reference-index', ...m0019 },
 ];
 
 export function migrator(sequelize: Sequelize) {
