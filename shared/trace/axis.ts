@@ -15,6 +15,8 @@ export interface AxisInput {
   /** The x column's values as read (converted in place), or null for amplitude alone. */
   x: Float64Array | null;
   xInfo: ColumnInfo | undefined;
+  /** A time column already converted to seconds as it was read (its unit was named). */
+  xInSeconds?: boolean;
   count: number;
   scan: MetaScan;
   options: ParseOptions;
@@ -95,7 +97,7 @@ function axisFromTime(a: AxisInput, x: Float64Array): Axis {
     scale = 1;
     warnings.push({ code: 'TIME_UNIT_ASSUMED', message: `the ${xLabel} column names no unit; its values were read as seconds` });
   }
-  if (scale !== 1) for (let i = 0; i < a.count; i++) x[i] *= scale;
+  if (scale !== 1 && !a.xInSeconds) for (let i = 0; i < a.count; i++) x[i] *= scale;
   return { timeS: x, kind: 'time-amplitude', warnings };
 }
 

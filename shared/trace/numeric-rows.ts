@@ -31,6 +31,8 @@ export interface BodySpec {
   columnCount: number;
   /** Columns to keep, by position. */
   keep: number[];
+  /** A factor for each kept column (its unit), applied as each value is stored; 1 when absent. */
+  scales?: number[];
   columnNames: string[];
   /** Size hint for the arrays. */
   rowEstimate: number;
@@ -207,6 +209,8 @@ export function readBodyFast(spec: BodySpec, store: RowStore): Resume | null {
   const keepSlot = new Int32Array(columnCount).fill(-1);
   spec.keep.forEach((col, k) => (keepSlot[col] = k));
   // Up to two kept columns (x and amplitude), written straight into the store's arrays.
+  const scale0 = spec.scales?.[0] ?? 1;
+  const scale1 = spec.scales?.[1] ?? 1;
   let col0 = store.data[0];
   let col1 = store.data.length > 1 ? store.data[1] : col0;
   let capacity = store.capacity;
@@ -323,8 +327,8 @@ export function readBodyFast(spec: BodySpec, store: RowStore): Resume | null {
       } else v = slowNumber(b, fieldStart, fieldEnd, decimalComma);
       if (!Number.isFinite(v)) return decline();
       const slot = field < columnCount ? keepSlot[field] : -1;
-      if (slot === 0) col0[row] = v;
-      else if (slot === 1) col1[row] = v;
+      if (slot === 0) col0[row] = v * scale0;
+      else if (slot === 1) col1[row] = v * scale1;
       field++;
       // After a number: blanks, then a delimiter or the end of the line.
       const before = i;
@@ -378,7 +382,7 @@ function storeRow(spec: BodySpec, store: RowStore, slotOf: Int32Array, cells: st
   if (store.rows === store.capacity) store.grow();
   for (let k = 0; k < cells.length; k++) {
     const v = numberFromField(cells[k], spec.decimalComma, line, columnLabel(spec.columnNames, k));
-    if (slotOf[k] >= 0) store.data[slotOf[k]][store.rows] = v;
+    if (slotOf[k] >= 0) store.data[slotOf[k]][store.rows] = v * (spec.scales?.[slotOf[k]] ?? 1);
   }
   store.endRow(line);
 }

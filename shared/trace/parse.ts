@@ -14,9 +14,10 @@ import { TraceInputError } from './errors';
 import { readHead } from './head';
 import { amplitudeUnitOf, planColumns, readLayout } from './layout';
 import { DEFAULT_MAX_BYTES, estimateLines, traceBytes } from './lines';
-import { metadataEntries, readMetadata } from './metadata';
+import { metadataEntries, type MetaScan, readMetadata } from './metadata';
 import { type BodySpec, readBody } from './numeric-rows';
 import type { ParseOptions, ParsedTrace } from './reader-types';
+import type { ColumnInfo } from './units';
 
 export type { ParseOptions, ParsedTrace, TraceChannel, TraceHints, TraceLayout, TraceLayoutKind } from './reader-types';
 export { DEFAULT_MAX_BYTES, MAX_COLUMNS, MAX_DATA_LINE_BYTES, MAX_HEAD_LINES, MAX_HEADER_LINE_BYTES } from './lines';
@@ -41,9 +42,13 @@ function checkOptions(options: ParseOptions): void {
   }
 }
 
-/** values[0, count) ×= scale; a loop of its own, so it is optimised apart from the reader's setup code around it. */
-function scaleInPlace(values: Float64Array, count: number, scale: number): void {
-  for (let i = 0; i < count; i++) values[i] *= scale;
+/**
+ * The factor to seconds of an x column read as time, when the header or metadata names its unit
+ * (as buildTimeAxis would take it); undefined for an index or distance column, or an unnamed unit.
+ */
+function knownTimeScale(xInfo: ColumnInfo | undefined, scan: MetaScan): number | undefined {
+  if (xInfo?.role === 'index' || xInfo?.role === 'distance') return undefined;
+  return xInfo && xInfo.unit !== null ? xInfo.scale : scan.timeScale;
 }
 
 /**
@@ -61,6 +66,11 @@ export function parseTraceCsv(input: string | Uint8Array, options: ParseOptions 
   const plan = planColumns(layout, options.channel);
 
   const keep = plan.xCol >= 0 ? [plan.xCol, plan.ampCol] : [plan.ampCol];
+  // Units known from the header and metadata are applied as the numbers are stored, not in passes
+  // of their own afterwards: the amplitude's, and a time column's when its unit is named.
+  const xInfo = plan.infos && plan.xCol >= 0 ? plan.infos[plan.xCol] : undefined;
+  const amp = amplitudeUnitOf(plan.infos?.[plan.ampCol], scan.amplitudeUnit);
+  const xScale = plan.xCol >= 0 ? knownTimeScale(xInfo, scan) : undefined;
   const spec: BodySpec = {
     bytes: src.bytes,
     start: head.dataStart,
@@ -72,6 +82,7 @@ export function parseTraceCsv(input: string | Uint8Array, options: ParseOptions 
     columnNames: layout.header ?? [],
     // Sized from the length of lines through the file; the arrays grow if the guess is short.
     rowEstimate: estimateLines(src.bytes, head.dataStart),
+    scales: plan.xCol >= 0 ? [xScale ?? 1, amp.scale] : [amp.scale],
   };
   const body = readBody(spec, options.reader === 'csv-parse');
   const count = body.rows;
@@ -89,12 +100,11 @@ export function parseTraceCsv(input: string | Uint8Array, options: ParseOptions 
   }
 
   const amplitude = plan.xCol >= 0 ? body.columns[1] : body.columns[0];
-  const amp = amplitudeUnitOf(plan.infos?.[plan.ampCol], scan.amplitudeUnit);
-  if (amp.scale !== 1) scaleInPlace(amplitude, count, amp.scale);
 
   const axis = buildTimeAxis({
     x: plan.xCol >= 0 ? body.columns[0] : null,
-    xInfo: plan.infos && plan.xCol >= 0 ? plan.infos[plan.xCol] : undefined,
+    xInfo,
+    xInSeconds: xScale !== undefined,
     count,
     scan,
     options,
