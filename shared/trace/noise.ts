@@ -71,7 +71,7 @@ export function touchesHeld(held: Int32Array | null, a: number, b: number): bool
 }
 
 /** Do (nearly) all samples lie on a grid of step q, using at least eight of its levels, as an ADC's output does? */
-function onGrid(y: Float64Array, q: number): boolean {
+function onGrid(y: Float64Array, q: number, tol = 1e-3): boolean {
   const n = y.length;
   const step = Math.max(1, Math.floor(n / 4001));
   let on = 0;
@@ -79,7 +79,7 @@ function onGrid(y: Float64Array, q: number): boolean {
   const levels = new Set<number>();
   for (let i = 0; i < n; i += step, all++) {
     const r = (y[i] - y[0]) / q;
-    if (Math.abs(r - Math.round(r)) < 1e-3) {
+    if (Math.abs(r - Math.round(r)) < tol) {
       on++;
       levels.add(Math.round(r));
     }
@@ -153,10 +153,24 @@ function measureNoise(y: Float64Array): NoiseAndRange {
   let atStep = 0;
   for (let j = 0; j < m; j++) if (Math.abs(Math.abs(diffs[j]) - minStep) <= 1e-9 * minStep) atStep++;
   let q = 0;
-  if (Number.isFinite(minStep) && (atStep >= Math.max(3, 0.002 * m) || onGrid(y, minStep))) {
-    q = minStep;
-    sigma0 = Math.max(sigma0, minStep / Math.sqrt(12));
+  if (Number.isFinite(minStep) && (atStep >= Math.max(3, 0.002 * m) || onGrid(y, minStep))) q = minStep;
+  else if (Number.isFinite(minStep)) {
+    // A file written with a few significant digits in other units (ρ, say) rounds each level, so
+    // its steps differ in the last digits: take the mean of the differences within 0.1 % of the
+    // smallest as the step, and ask the samples to sit within 1 % of a step of its grid.
+    let sum = 0;
+    let near = 0;
+    for (let j = 0; j < m; j++) {
+      const a = Math.abs(diffs[j]);
+      if (a > 0 && a <= 1.001 * minStep) {
+        sum += a;
+        near++;
+      }
+    }
+    const qMean = near > 0 ? sum / near : minStep;
+    if (near >= Math.max(3, 0.002 * m) && onGrid(y, qMean, 0.01)) q = qMean;
   }
+  if (q > 0) sigma0 = Math.max(sigma0, q / Math.sqrt(12));
   return { sigma0, q, lo, hi };
 }
 
