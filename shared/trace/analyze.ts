@@ -16,7 +16,7 @@ import { distanceFromRoundTrip, SPEED_OF_LIGHT_M_PER_S } from '../cable/propagat
 import type { ReflectionEvent, TraceAnalysis, TraceWarning } from '../schemas/trace-analysis';
 import { checkTimeAxisBounds } from './bounds';
 import { classifyEvent, impedanceOf, ownReflections } from './classify';
-import { detectEdges, dropQuantiserStairs, FALSE_EVENTS_PER_TRACE, mergeEdges } from './detection';
+import { detectEdges, dropClutter, dropQuantiserStairs, FALSE_EVENTS_PER_TRACE, mergeEdges } from './detection';
 import { findEchoes, resolveCableEnd } from './echoes';
 import { fitEdges, fitLineEdges, lossSummary, pathLossDb } from './edge-fit';
 import { TraceInputError } from './errors';
@@ -265,6 +265,13 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
   const tb: Timebase = { rec, launch: L, signal, launchOnset, zeroOverride, zeroShift: referencePlaneShift(L, merged) };
   const events = describeEvents(merged, tb, options, warnings);
   warnings.push(...resolveCableEnd(events));
+  const clutter = dropClutter(events);
+  if (clutter.length > 0) {
+    warnings.push(...clutter);
+    // The cable's end is found again among what is left.
+    for (const e of events) e.isCableEnd = false;
+    warnings.push(...resolveCableEnd(events));
+  }
   const mPerSample = (options.vf * SPEED_OF_LIGHT_M_PER_S * rec.dt) / 2;
   const blindZoneM = L.found ? Math.max(0, (signal.blindIdx - launchOnset(0.1)) * mPerSample - (options.leadLengthM ?? 0)) : 0;
   if (events.length === 0) warnings.push({ code: 'NO_REFLECTION', message: 'no reflection above noise' });

@@ -25,6 +25,7 @@
  * too few independent outputs for a robust spread, the ratio of measured to
  * white noise found at the finer scales is carried over.
  */
+import type { ReflectionEvent, TraceWarning } from '../schemas/trace-analysis';
 import { touchesHeld } from './noise';
 import { madSigma, normalUpperQuantile, prefixSums } from './stats';
 import type { Candidate, Launch, Measured, WorkingSignal } from './steps';
@@ -312,6 +313,43 @@ export function detectEdges(sig: WorkingSignal, settings: DetectionSettings): De
   // stands twice the threshold out of it.
   const clear = candidates.filter((c) => c.i - 2 * c.w >= sig.blindIdx || c.snr >= 2 * k);
   return { candidates: resolveScales(dropSideLobes(clear, P, thrOf, rhoMin)), thresholdSigma: k, independentTests };
+}
+
+/** More events than this in one record means its threshold is wrong for it (see dropClutter). */
+export const CLUTTER_EVENTS = 12;
+
+/**
+ * A record that yields more than a dozen events (after those past the cable's end are dropped)
+ * is full of something its noise measure did not see (ringing, bursts of interference, spikes,
+ * coloured noise the threshold was not set for): its events are then mostly that clutter, of
+ * about one size. Keep only those standing at least twice the median event's signal-to-noise
+ * ratio; the rest are read as the record's own clutter. The list is renumbered in place (and
+ * the echoes of what is dropped go with it); returns the warning, if any.
+ */
+export function dropClutter(events: ReflectionEvent[]): TraceWarning[] {
+  if (events.length <= CLUTTER_EVENTS) return [];
+  // A signal-to-noise ratio of 0 stands for one that could not be measured (a noise-free record).
+  const snrOf = (e: ReflectionEvent) => (e.snr > 0 ? e.snr : Infinity);
+  const snrs = events.map(snrOf).sort((a, b) => a - b);
+  const median = snrs[Math.floor(snrs.length / 2)];
+  const dropped = new Set<number>();
+  for (const e of events) {
+    if (snrOf(e) < 2 * median || (e.likelyMultipleOf !== null && dropped.has(e.likelyMultipleOf))) dropped.add(e.index);
+  }
+  const kept = events.filter((e) => !dropped.has(e.index));
+  const renumber = new Map(kept.map((e, k) => [e.index, k]));
+  for (const e of kept) {
+    e.index = renumber.get(e.index)!;
+    if (e.likelyMultipleOf !== null) e.likelyMultipleOf = renumber.get(e.likelyMultipleOf) ?? null;
+  }
+  const total = events.length;
+  events.splice(0, events.length, ...kept);
+  return [
+    {
+      code: 'CLUTTER',
+      message: `the record holds ${total} small features of about one size (ringing, interference or noise the threshold was not set for); ${dropped.size} of them are not reported, only those standing at least twice as far above the noise as the typical one`,
+    },
+  ];
 }
 
 /**
