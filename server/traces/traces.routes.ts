@@ -130,7 +130,7 @@ async function uploadAnswer(ctx: AppContext, res: Response, outcome: traces.Uplo
       { duplicates, replayed },
     );
   }
-  const stored = await Promise.all(outcome.traceIds.map((id) => traces.getTrace(ctx, id, undefined, outcome.readWith)));
+  const stored = await Promise.all(outcome.traceIds.map((id) => traces.getTrace(ctx, id)));
   const failed = stored.filter((t) => t.status === 'failed');
   if (failed.length === stored.length) {
     const first = failed[0];

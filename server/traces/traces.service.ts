@@ -86,8 +86,6 @@ export interface UploadOutcome {
   duplicates: DuplicateFile[];
   /** Answered from an earlier upload with the same idempotency key. */
   replayed: boolean;
-  /** The cable run and cable type this upload was read and analysed with (not on a replay), for its answer. */
-  readWith?: TraceRows;
 }
 
 async function runAndCable(fields: Pick<UploadFields, 'cableRunId'>) {
@@ -273,7 +271,7 @@ export async function receiveUpload(
     }
     // Only a large file is left pending (analysed by a background job); an upload of small files has nothing to queue.
     if (results.some((r) => r.outcome === null)) await queueAnalyses(ctx, outcome.traceIds);
-    return { traceIds: outcome.traceIds, duplicates: outcome.duplicates, replayed: false, readWith: { run, cable } };
+    return { traceIds: outcome.traceIds, duplicates: outcome.duplicates, replayed: false };
   } catch (err) {
     if (!committed) for (const rel of adopted) await ctx.storage.remove(rel).catch(() => undefined);
     if (idempotencyKey && err instanceof UniqueConstraintError) {
@@ -416,8 +414,8 @@ function endLabel(run: CableRun, end: CableEnd) {
   return end === 'A' ? run.endALabel : run.endBLabel;
 }
 
-/** A trace's cable run and the run's cable type, when the caller has read them already. */
-export interface TraceRows {
+/** A trace's cable run and the run's cable type. */
+interface TraceRows {
   run: CableRun;
   cable: CableType | null;
 }
@@ -586,22 +584,17 @@ async function comparison(ctx: AppContext, trace: Trace, parsed: ParsedTrace, po
 }
 
 /**
- * One trace as its page shows it. `readWith` is the cable run and cable type
- * when the caller has just read them (an upload's answer): the run, the cable
- * and the trace's findings are each read once, not again for its summary.
+ * One trace as its page shows it (and as an upload's answer shows it): the
+ * run, the cable and the trace's findings are each read once, now, so a cable
+ * or run changed while the file was being analysed shows as changed.
  */
-export async function getTrace(
-  ctx: AppContext,
-  id: number,
-  opts: { points: number; compareTo?: number } = { points: 2000 },
-  readWith?: TraceRows,
-): Promise<TraceDetail> {
+export async function getTrace(ctx: AppContext, id: number, opts: { points: number; compareTo?: number } = { points: 2000 }): Promise<TraceDetail> {
   const trace = await Trace.findByPk(id);
   if (!trace) throw AppError.notFound(`Trace ${id}`);
-  const rows: Promise<TraceRows> =
-    readWith && readWith.run.id === trace.cableRunId
-      ? Promise.resolve(readWith)
-      : CableRun.findByPk(trace.cableRunId).then(async (r) => ({ run: r!, cable: await CableType.findByPk(r!.cableTypeId) }));
+  const rows: Promise<TraceRows> = CableRun.findByPk(trace.cableRunId).then(async (r) => ({
+    run: r!,
+    cable: await CableType.findByPk(r!.cableTypeId),
+  }));
   const findingRows = Finding.findAll({ where: { traceId: id }, order: [['eventIndex', 'ASC']] });
   // Independent reads side by side: one wait instead of one per query.
   const [[summary], { run, cable }, markers, findings, parsed, newer] = await Promise.all([

@@ -1,8 +1,9 @@
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Finding, Trace } from '../../server/db/models';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { CableRun, CableType, Finding, Trace } from '../../server/db/models';
+import { analysisPool } from '../../server/traces/analysis-pool';
 import { makeRun, stepTraceCsv } from './support/field-fixtures';
 import { startApi, type TestApi } from './support/api';
 
@@ -177,6 +178,34 @@ describe('POST /api/traces', () => {
       ['one.csv', 'ok'],
       ['empty.csv', 'failed'],
     ]);
+  });
+
+  it('answers with the run and cable as they are when the answer is made, not as they were read before the analysis', async () => {
+    const { run, cable } = await makeRun('Renamed while analysing');
+    const pool = analysisPool(api.app.ctx);
+    const analyse = pool.analyse.bind(pool);
+    // Someone edits the cable's library entry and renames the run while the file is in the analysis worker.
+    const spy = vi.spyOn(pool, 'analyse').mockImplementationOnce(async (job) => {
+      const out = await analyse(job);
+      await CableType.update({ vfTolerance: cable.vfTolerance + 0.001, revision: cable.revision + 1 }, { where: { id: cable.id } });
+      await CableRun.update({ name: 'Renamed mid-analysis', endBLabel: 'Pole 15' }, { where: { id: run.id } });
+      return out;
+    });
+    try {
+      const c = await api.as('technician');
+      const res = await c
+        .postRaw('/api/traces')
+        .field('cableRunId', String(run.id))
+        .field('end', 'B')
+        .attach('file', Buffer.from(stepTraceCsv({ faultM: 95, vf: 0.66 })), 'mid-edit.csv')
+        .expect(201);
+      expect(spy).toHaveBeenCalledTimes(1);
+      const [t] = res.body.traces;
+      expect([t.cableRunName, t.endLabel, t.cableRun.name, t.libraryChangedSince]).toEqual(['Renamed mid-analysis', 'Pole 15', 'Renamed mid-analysis', true]);
+      expect((await c.get(`/api/traces/${t.id}`).expect(200)).body).toEqual(t);
+    } finally {
+      spy.mockRestore();
+    }
   });
 
   it('answers with each stored trace as its page shows it: run, markers, cable, findings and samples', async () => {
