@@ -27,7 +27,7 @@ import { launchOnsetTimer } from './onset';
 import type { ParsedTrace } from './parse';
 import { buildWorkingSignal } from './signal';
 import { percentileOf, sortedSample } from './stats';
-import type { Launch, Measured, TraceRecord } from './steps';
+import type { Candidate, Launch, Measured, TraceRecord } from './steps';
 import { budgetView, uncertaintyBudget, WINDOW_COVERAGE } from './uncertainty';
 import { ENGINE_VERSION } from './version';
 
@@ -210,6 +210,24 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
   return events;
 }
 
+/**
+ * More candidate edges than fitting could use on any real cable: a record of
+ * thousands of like features (a repeating pattern, ringing, interference)
+ * would otherwise be fitted edge by edge for seconds before the clutter rule
+ * drops them. The strongest are fitted, in time order, and the record says so.
+ */
+export const MAX_FITTED_CANDIDATES = 200;
+
+function strongestCandidates(all: Candidate[], warnings: TraceWarning[]): Candidate[] {
+  if (all.length <= MAX_FITTED_CANDIDATES) return all;
+  const kept = [...all].sort((a, b) => b.snr - a.snr).slice(0, MAX_FITTED_CANDIDATES).sort((a, b) => a.i - b.i);
+  warnings.push({
+    code: 'CLUTTER',
+    message: `the record holds ${all.length} candidate edges, far more than a cable holds; only the ${MAX_FITTED_CANDIDATES} standing highest above the noise were examined`,
+  });
+  return kept;
+}
+
 /** Analyse a parsed trace. Throws TraceInputError for bad options. */
 export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): TraceAnalysis {
   validateOptions(options);
@@ -257,7 +275,8 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     scratch,
   });
   const edgeInput = { rec, launch: L, signal, rhoMin, vf: options.vf, loss: options.loss, vfPulseWidthNs: options.vfPulseWidthNs };
-  const fitted = dropQuantiserStairs(fitEdges(edgeInput, detection.candidates), signal);
+  const candidates = strongestCandidates(detection.candidates, warnings);
+  const fitted = dropQuantiserStairs(fitEdges(edgeInput, candidates), signal);
   const line = fitLineEdges(edgeInput, mergeEdges(fitted, signal.w0, L));
   const merged = line.events;
   const launchOnset = launchOnsetTimer(L, signal);

@@ -9,7 +9,7 @@ import { analyzeTrace, type AnalyzeOptions } from './analyze';
 import { parseTraceCsv, type ParseOptions } from './parse';
 import type { TraceAnalysis } from '../schemas/trace-analysis';
 
-export { analyzeTrace, type AnalyzeOptions } from './analyze';
+export { analyzeTrace, MAX_FITTED_CANDIDATES, type AnalyzeOptions } from './analyze';
 export {
   parseTraceCsv,
   DEFAULT_MAX_BYTES,

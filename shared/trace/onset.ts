@@ -83,7 +83,9 @@ export function launchOnsetTimer(L: Launch, sig: WorkingSignal): (fLo: number) =
       iRef = Math.min(n - 1, L.settleIdx);
     }
     const r = measureOnset(us, iRef, flat, h, fLo, Math.max(0, preStart), Math.min(n - 1, iRef + L.riseSamples));
-    cache.set(fLo, r.onset);
-    return r.onset;
+    // A launch at the record's very first samples leaves no baseline to measure its onset from: time from the launch's own zero.
+    const onset = Number.isFinite(r.onset) ? r.onset : L.zeroIdx;
+    cache.set(fLo, onset);
+    return onset;
   };
 }
