@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import { createReadStream } from 'node:fs';
 import fs from 'node:fs/promises';
 import path from 'node:path';
-import { Op, UniqueConstraintError, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
+import { literal, Op, UniqueConstraintError, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { matchEvents, resampleOnto } from '../../shared/field/compare';
 import type { TraceAnalysis } from '../../shared/schemas/trace-analysis';
@@ -455,10 +455,17 @@ async function summaries(traces: Trace[], known: SummaryRows = {}): Promise<Trac
       uploadedBy: { id: t.uploadedById, name: user?.name ?? `user ${t.uploadedById}` },
       createdAt: t.createdAt.toISOString(),
       isReference: t.isReference,
-      eventCount: t.analysis?.events.length ?? 0,
+      eventCount: Number(t.get('eventCount') ?? t.analysis?.events.length ?? 0),
       findingCount: findings.filter((f) => f.traceId === t.id).length,
     };
   });
+}
+
+/** The number of events in a trace's stored analysis, counted by the database (0 with no analysis). */
+function eventCountSql() {
+  return Trace.sequelize!.getDialect() === 'postgres'
+    ? literal(`COALESCE(json_array_length("analysis"->'events'), 0)`)
+    : literal(`COALESCE(json_array_length("analysis", '$.events'), 0)`);
 }
 
 export async function listTraces(q: z.output<typeof TraceListQuerySchema>): Promise<Page<TraceSummary>> {
@@ -479,6 +486,9 @@ export async function listTraces(q: z.output<typeof TraceListQuerySchema>): Prom
   if (and.length) Object.assign(where, { [Op.and]: and });
   const { rows, count } = await Trace.findAndCountAll({
     where,
+    // A list row needs the number of events, not the analysis: the database counts them, so a page
+    // never reads (or parses) analyses that can run to megabytes each.
+    attributes: { exclude: ['analysis', 'deviceAnalysis'], include: [[eventCountSql(), 'eventCount']] },
     order: [
       [q.sort, q.dir.toUpperCase()],
       ['id', q.dir.toUpperCase()],

@@ -244,6 +244,26 @@ describe('GET /api/traces', () => {
     const bad = await c.get('/api/traces?from=yesterday').expect(400);
     expect(bad.body.error.fields[0].field).toBe('from');
   });
+
+  it('gives each row its number of events, counted from the stored analysis, and 0 for a file that could not be read', async () => {
+    const { run } = await makeRun('Counted run');
+    const c = await api.as('technician');
+    const res = await c
+      .postRaw('/api/traces')
+      .field('cableRunId', String(run.id))
+      .field('end', 'A')
+      .attach('file', Buffer.from(stepTraceCsv({ faultM: 140, vf: 0.66 })), 'counted-good.csv')
+      .attach('file', Buffer.from('time_ns,voltage_V\n1,0.1\n'), 'counted-short.csv')
+      .expect(201);
+    const [good, short] = res.body.traces;
+    const stored = (await Trace.findByPk(good.id))!;
+    expect(stored.analysis!.events.length).toBeGreaterThan(0);
+    const list = await c.get(`/api/traces?cableRunId=${run.id}&sort=originalName&dir=asc`).expect(200);
+    expect(list.body.items.map((t: { id: number; eventCount: number }) => [t.id, t.eventCount])).toEqual([
+      [good.id, stored.analysis!.events.length],
+      [short.id, 0],
+    ]);
+  });
 });
 
 describe('PUT /api/traces/:id/reference', () => {
