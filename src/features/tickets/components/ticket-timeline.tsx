@@ -1,6 +1,6 @@
 import type { TicketEventView } from '../../../../shared/schemas/tickets';
-import { TICKET_STATUS_LABELS } from '../../../../shared/tickets/status';
-import { formatDateTime } from '../../../lib/format';
+import { TICKET_PRIORITY_LABELS, TICKET_STATUS_LABELS, type TicketPriority } from '../../../../shared/tickets/status';
+import { formatDate, formatDateTime } from '../../../lib/format';
 
 const KIND_WORDS: Record<TicketEventView['kind'], string> = {
   created: 'raised the ticket',
@@ -13,8 +13,11 @@ const KIND_WORDS: Record<TicketEventView['kind'], string> = {
 
 const FIELD_WORDS: Record<string, string> = { title: 'Title', priority: 'Priority', dueDate: 'Due date', notes: 'Notes', assignee: 'Assignee' };
 
-function show(v: unknown): string {
+/** A changed value as the rest of the page writes it: a priority by its label, a due date as a date. */
+function show(field: string, v: unknown): string {
   if (v === null || v === undefined || v === '') return 'none';
+  if (field === 'priority') return TICKET_PRIORITY_LABELS[v as TicketPriority] ?? String(v);
+  if (field === 'dueDate') return formatDate(String(v));
   return String(v);
 }
 
@@ -38,7 +41,7 @@ export function TicketTimeline({ events }: { events: TicketEventView[] }) {
             <ul className="mt-1 text-xs text-ink-soft">
               {Object.entries(e.changes).map(([field, [before, after]]) => (
                 <li key={field}>
-                  {FIELD_WORDS[field] ?? field}: {field === 'notes' ? 'updated' : `${show(before)} → ${show(after)}`}
+                  {FIELD_WORDS[field] ?? field}: {field === 'notes' ? 'updated' : `${show(field, before)} → ${show(field, after)}`}
                 </li>
               ))}
             </ul>
