@@ -144,6 +144,13 @@ describe('the best location in the browser', () => {
       return out;
     });
     expect(missingEnds).toEqual([]);
+    // On a phone the page's full safety caution comes screens later: a short one stands right under the place to dig.
+    const dig = page.getByTestId('dig-caution');
+    expect(await dig.textContent()).toMatch(/^Before anyone digs: cable de-energised, locked out and proven dead/);
+    const digBox = (await dig.boundingBox())!;
+    const placeBox = (await page.getByTestId('best-route-position').boundingBox())!;
+    expect(digBox.y).toBeGreaterThan(placeBox.y);
+    expect(digBox.y - placeBox.y).toBeLessThan(200);
     await e2e.screenshot(page, 'best-location-finding-phone');
     await shoot(page.getByTestId('best-location'), 'best-location-headline-phone');
     await shoot(page.getByTestId('location-methods-list'), 'best-location-methods-phone');
