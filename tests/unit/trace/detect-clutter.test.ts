@@ -1,18 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { analyzeTrace, type ParsedTrace } from '../../../shared/trace';
+import { analyzeTrace } from '../../../shared/trace';
 import { gaussianSource } from '../../../scripts/sim/line-model';
+import { parsedTrace } from '../../support/parsed-trace';
 
 const DT = 1e-9;
 const N = 20000;
-const parsed = (y: Float64Array): ParsedTrace => ({
-  timeS: new Float64Array(y.length).map((_, i) => i * DT),
-  amplitude: y,
-  amplitudeUnit: 'V',
-  metadata: {},
-  hints: {},
-  layout: {} as ParsedTrace['layout'],
-  warnings: [],
-});
+const parsed = (y: Float64Array) => parsedTrace(y, { dtS: DT });
 
 /** A 1 V step launched at sample 500 into a line with a 0.5 V rise at sample 12000, white noise of 0.01 V. */
 function record(seed: number): Float64Array {

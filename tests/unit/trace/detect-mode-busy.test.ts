@@ -1,28 +1,13 @@
 import { describe, expect, it } from 'vitest';
-import { analyzeTrace, type ParsedTrace } from '../../../shared/trace';
+import { analyzeTrace } from '../../../shared/trace';
 import { gaussianSource } from '../../../scripts/sim/line-model';
+import { gaussianShapes, parsedTrace } from '../../support/parsed-trace';
 
 const DT = 1e-9;
-const parsed = (y: Float64Array): ParsedTrace => ({
-  timeS: new Float64Array(y.length).map((_, i) => i * DT),
-  amplitude: y,
-  amplitudeUnit: 'V',
-  metadata: {},
-  hints: {},
-  layout: {} as ParsedTrace['layout'],
-  warnings: [],
-});
+const parsed = (y: Float64Array) => parsedTrace(y, { dtS: DT });
 
 /** A pulse from sample a, w samples wide at half height, Gaussian-edged (10–90 % in 20 samples). */
-const SIGMA = 20 / 2.5631;
-const erf = (x: number) => {
-  // Abramowitz and Stegun 7.1.26 (|error| < 1.5e-7).
-  const t = 1 / (1 + 0.3275911 * Math.abs(x));
-  const y = 1 - ((((1.061405429 * t - 1.453152027) * t + 1.421413741) * t - 0.284496736) * t + 0.254829592) * t * Math.exp(-x * x);
-  return x >= 0 ? y : -y;
-};
-const edge = (i: number) => 0.5 * (1 + erf(i / (SIGMA * Math.SQRT2)));
-const pulse = (i: number, a: number, w: number) => edge(i - a) - edge(i - a - w);
+const { pulse } = gaussianShapes(20);
 
 describe('a pulse record whose echoes fill much of it', () => {
   it('is read as a pulse record when its median after the launch sits on the baseline', () => {

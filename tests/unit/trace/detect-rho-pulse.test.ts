@@ -1,29 +1,14 @@
 import { describe, expect, it } from 'vitest';
-import { analyzeTrace, type ParsedTrace } from '../../../shared/trace';
+import { analyzeTrace } from '../../../shared/trace';
 import { gaussianSource } from '../../../scripts/sim/line-model';
+import { gaussianShapes, parsedTrace } from '../../support/parsed-trace';
 
 const DT = 1e-10;
 /** A ρ-unit export: time zero at the launch's half height, sample 1000. */
-const parsed = (y: Float64Array): ParsedTrace => ({
-  timeS: new Float64Array(y.length).map((_, i) => (i - 1000) * DT),
-  amplitude: y,
-  amplitudeUnit: 'rho',
-  metadata: {},
-  hints: {},
-  layout: {} as ParsedTrace['layout'],
-  warnings: [],
-});
+const parsed = (y: Float64Array) => parsedTrace(y, { timeS: new Float64Array(y.length).map((_, i) => (i - 1000) * DT), unit: 'rho' });
 
 /** Gaussian-edged pulse (10–90 % rise in 150 samples) from sample a, w samples wide at half height. */
-const SIGMA = 150 / 2.5631;
-const erf = (x: number) => {
-  // Abramowitz and Stegun 7.1.26 (|error| < 1.5e-7).
-  const t = 1 / (1 + 0.3275911 * Math.abs(x));
-  const y = 1 - ((((1.061405429 * t - 1.453152027) * t + 1.421413741) * t - 0.284496736) * t + 0.254829592) * t * Math.exp(-x * x);
-  return x >= 0 ? y : -y;
-};
-const edge = (i: number) => 0.5 * (1 + erf(i / (SIGMA * Math.SQRT2)));
-const pulse = (i: number, a: number, w: number) => edge(i - a) - edge(i - a - w);
+const { pulse } = gaussianShapes(150);
 
 describe('a ρ-unit pulse record sampled finely', () => {
   it('follows the launch pulse to its top (+1), so the record is read as a pulse record', () => {

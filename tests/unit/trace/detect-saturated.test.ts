@@ -1,18 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { analyzeTrace, type ParsedTrace } from '../../../shared/trace';
+import { analyzeTrace } from '../../../shared/trace';
 import { heldStretches, touchesHeld } from '../../../shared/trace/noise';
 import { gaussianSource } from '../../../scripts/sim/line-model';
+import { parsedTrace } from '../../support/parsed-trace';
 
 const DT = 1e-9;
-const parsed = (y: Float64Array): ParsedTrace => ({
-  timeS: new Float64Array(y.length).map((_, i) => i * DT),
-  amplitude: y,
-  amplitudeUnit: 'V',
-  metadata: {},
-  hints: {},
-  layout: {} as ParsedTrace['layout'],
-  warnings: [],
-});
+const parsed = (y: Float64Array) => parsedTrace(y, { dtS: DT });
 
 const N = 6000;
 const LAUNCH = 400;
