@@ -66,7 +66,7 @@ export function FindingsPage() {
           <Loading />
         ) : findings.error ? (
           badSearch ? null : <ErrorNotice error={findings.error} />
-        ) : findings.data.items.length === 0 && search ? (
+        ) : findings.data.items.length === 0 && search && !findings.isPlaceholderData ? (
           <NoMatches what="findings" search={search} />
         ) : (
           <>

@@ -75,7 +75,7 @@ export function TracesPage() {
           <Loading />
         ) : traces.error ? (
           badSearch ? null : <ErrorNotice error={traces.error} />
-        ) : traces.data.items.length === 0 && search ? (
+        ) : traces.data.items.length === 0 && search && !traces.isPlaceholderData ? (
           <NoMatches what="traces" search={search} />
         ) : (
           <>
