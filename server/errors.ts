@@ -92,6 +92,11 @@ const MULTER_MESSAGES: Record<string, [status: number, code: string, message: st
 
 /** A multer limit error as an AppError whose message says which limit and which field. */
 export function multerAppError(err: InstanceType<typeof multer.MulterError>): AppError {
+  // A file part sent with an empty file name is read as a text field: its contents then overrun a field's limit.
+  if (err.code === 'LIMIT_FIELD_VALUE' && err.field === 'file') {
+    const message = 'The file part has no file name, so it was read as text; send the trace as a file with its name (filename="trace.csv").';
+    return new AppError(400, 'file_without_name', `${message} Nothing was stored.`, { fields: [{ field: 'file', message: 'has no file name' }] });
+  }
   const [status, code, message] = MULTER_MESSAGES[err.code] ?? [400, 'bad_upload', 'The upload is not a valid form.'];
   const field = err.field ? capMessage(err.field, 60) : undefined;
   return new AppError(status, code, `${message}${field ? ` (field "${field}")` : ''} Nothing was stored.`, {

@@ -275,6 +275,16 @@ describe('broken multipart bodies', () => {
     expect(filesIn(api, 'incoming')).toEqual([]);
   });
 
+  it('answers 400 naming the missing file name for a file part sent with an empty one, and stores nothing', async () => {
+    const traces = await Trace.count();
+    const res = await raw(`${part('cableRunId', String(runId))}${part('end', 'A')}${filePart('', '0,0.5\n'.repeat(1000))}--XyZ--\r\n`).expect(400);
+    expect(res.body.error.code).toBe('file_without_name');
+    expect(res.body.error.message).toMatch(/^The file part has no file name, so it was read as text; .* Nothing was stored\.$/);
+    expect(res.body.error.fields).toEqual([{ field: 'file', message: 'has no file name' }]);
+    expect(await Trace.count()).toBe(traces);
+    expect(filesIn(api, 'incoming')).toEqual([]);
+  });
+
   it('answers a JSON body or a body without a content type with 415 saying to send multipart/form-data', async () => {
     const traces = await Trace.count();
     const json = await tech.post('/api/traces', { cableRunId: runId, end: 'A', file: 'time_ns,voltage_V\n0,0.5\n' }).expect(415);
