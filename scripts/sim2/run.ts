@@ -16,7 +16,7 @@ function arg(name: string): string | undefined {
 }
 
 const setName = arg('--set');
-const SET_NAMES: readonly string[] = ['tuning', 'tuning2', 'heldout', 'heldout2', 'heldout3', 'heldout4'];
+const SET_NAMES: readonly string[] = ['tuning', 'tuning2', 'tuning3', 'heldout', 'heldout2', 'heldout3', 'heldout4', 'heldout5'];
 if (!setName || !SET_NAMES.includes(setName)) {
   process.stderr.write(`usage: run.ts --set ${SET_NAMES.join('|')} [--json] [--quiet] [--only TEXT]\n`);
   process.exit(2);

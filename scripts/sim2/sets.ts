@@ -11,12 +11,14 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { drawCase, type Sim2Case } from './cases';
 
-export type SetName = 'tuning' | 'tuning2' | 'heldout' | 'heldout2' | 'heldout3' | 'heldout4';
+export type SetName = 'tuning' | 'tuning2' | 'tuning3' | 'heldout' | 'heldout2' | 'heldout3' | 'heldout4' | 'heldout5';
 
 const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   tuning: { seed: 0x51a7e, count: 80 },
   // A second set for developing the engine, drawn the same way from its own seed: more cases to tune on.
   tuning2: { seed: 0x510e52, count: 80 },
+  // A third set to tune on, drawn when the fifth held-out set was: more cases to tune on.
+  tuning3: { seed: 0x9b05688c, count: 80 },
   // Held out: for measuring the engine only. Never tune on it, print it or read its results.
   heldout: { seed: 0x2b7e15, count: 120 },
   // A second held-out set, drawn after the first had been measured once: the same rules apply.
@@ -25,6 +27,8 @@ const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   heldout3: { seed: 0x3c6ef3, count: 120 },
   // A fourth, drawn after the third had been measured: the same rules apply.
   heldout4: { seed: 0xa54ff5, count: 120 },
+  // A fifth, drawn after the fourth had been measured once, before this round's engine changes: the same rules apply.
+  heldout5: { seed: 0x1f83d9ab, count: 120 },
 };
 
 /** Seed of case i of a set: a splitmix-style scramble of the set's seed and the index. */
