@@ -52,6 +52,8 @@ export interface Sim2Event {
   rhoCheck: boolean;
   alsoAccept?: ReflectionType[];
   physicalM: number;
+  /** Where the noise rule was applied: the echo's expected amplitude after loss over σeff (see the header). */
+  snrEff?: number;
 }
 
 export interface Sim2Echo {
@@ -421,6 +423,7 @@ export function drawCase(seed: number, index: number, prefix: string): Sim2Case 
     else if (seenBefore.some((b) => t - b.t < 5 * edgeS && Math.abs(seen) < 0.03 * Math.abs(b.seen)))
       why = 'masked by the tail of a larger echo before it';
     let rhoCheck = !rec.clipped;
+    let snrEff: number | undefined;
     if (ev.spanS !== undefined && 2 * ev.spanS < edgeS) {
       rhoCheck = false;
       if (ev.closes !== undefined) why ??= 'second edge of a section shorter than the edge';
@@ -440,6 +443,7 @@ export function drawCase(seed: number, index: number, prefix: string): Sim2Case 
       const spanSamples = Math.min(16, Math.max(1, (su.mode === 'pulse' ? shape.halfWidthS : gap) / su.dtOutS));
       const sigmaEff = Math.sqrt(whiteVar / spanSamples + q.colouredSigmaV ** 2);
       const a = Math.abs(seen) * vPlus * h;
+      snrEff = Number((a / sigmaEff).toFixed(2));
       if (a < 6 * sigmaEff) why = `below the noise (${(a / sigmaEff).toFixed(1)} σeff)`;
     }
     expected.push({
@@ -453,6 +457,7 @@ export function drawCase(seed: number, index: number, prefix: string): Sim2Case 
       rhoCheck,
       ...(ev.alsoAccept ? { alsoAccept: ev.alsoAccept } : {}),
       physicalM: ev.physicalM,
+      ...(snrEff !== undefined ? { snrEff } : {}),
     });
     lastT = t;
     lastD = ev.distanceM;
