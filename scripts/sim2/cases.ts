@@ -20,7 +20,10 @@
  *  - below the noise: its expected amplitude A after loss is under 6 σeff.
  *    A is |ρ seen| · V+ times the pulse's lossy peak ratio (pulse) or the
  *    fraction of the step reached before the next event or the record's end
- *    (step), from ./loss.ts. σeff is the noise an ideal detector sees after
+ *    (step), from ./loss.ts. The first edge of a section shorter than the
+ *    edge is measured together with its closing edge, which arrives inside
+ *    it with the opposite sign: A is the peak of their sum (a step record
+ *    then shows a blip, averaged over its width at half height). σeff is the noise an ideal detector sees after
  *    averaging over the N samples the echo spans (pulse: its lossy width at
  *    half height; step: the time to the next event), N capped at 16:
  *    σeff² = (σwhite² + LSB²/12)/N + σcoloured² (coloured noise does not
@@ -432,15 +435,25 @@ export function drawCase(seed: number, index: number, prefix: string): Sim2Case 
       const path = pathTo(phys, ev.node);
       const next = evs.find((o) => o.delayS > ev.delayS + 1e-15);
       const gap = Math.min(next ? 2 * (next.delayS - ev.delayS) : Infinity, recordAfterLaunch - t);
+      // The first edge of a section shorter than the edge: its closing edge, of opposite sign, arrives
+      // inside it and the two nearly cancel; the port sees their sum.
+      const evIndex = phys.events.indexOf(ev);
+      const closer = ev.spanS !== undefined && 2 * ev.spanS < edgeS ? evs.find((o) => o.closes === evIndex) : undefined;
+      const closerSeen = closer
+        ? arrivals.filter((a) => a.reflections === 1 && a.node === closer.node).reduce((s, a) => s + a.amplitude, 0)
+        : 0;
+      const pair = closer && seen !== 0 ? { delayS: 2 * (closer.delayS - ev.delayS), ratio: closerSeen / seen } : undefined;
       const shape = echoShape(
         path,
         { mode: su.mode, riseS: su.riseS, widthS: su.widthS },
         Math.max(4 * gap, 40 * su.riseS),
         su.dtSimS,
         omegaMin,
+        pair,
       );
-      const h = su.mode === 'pulse' ? shape.peakRatio : shape.stepReached(gap);
-      const spanSamples = Math.min(16, Math.max(1, (su.mode === 'pulse' ? shape.halfWidthS : gap) / su.dtOutS));
+      const h = su.mode === 'pulse' || pair ? shape.peakRatio : shape.stepReached(gap);
+      const spanS = su.mode === 'pulse' || pair ? shape.halfWidthS : gap;
+      const spanSamples = Math.min(16, Math.max(1, spanS / su.dtOutS));
       const sigmaEff = Math.sqrt(whiteVar / spanSamples + q.colouredSigmaV ** 2);
       const a = Math.abs(seen) * vPlus * h;
       snrEff = Number((a / sigmaEff).toFixed(2));

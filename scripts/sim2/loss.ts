@@ -30,6 +30,11 @@ export function echoShape(
   windowS: number,
   dtS: number,
   omegaMin: number,
+  /**
+   * A second echo `delayS` later, `ratio` times this one's size (the closing edge of a section
+   * shorter than the edge): the shape is then the sum of both, as the port sees it.
+   */
+  pair?: { delayS: number; ratio: number },
 ): EchoShape {
   let n = 1024;
   while (windowS / n > excitation.riseS / 5 && n < 1 << 17) n *= 2;
@@ -73,6 +78,17 @@ export function echoShape(
   }
   // Lossless reference: the same edge without the line.
   const final = step[n - 1] > 0 ? step[n - 1] : 1;
+  if (pair) {
+    // The closing edge's copy, linearly interpolated to its delay, added in place (back to front).
+    const d = pair.delayS / h;
+    for (let i = n - 1; i >= 0; i--) {
+      const x = i - d;
+      if (x < 0) continue;
+      const k = Math.floor(x);
+      const f = x - k;
+      step[i] += pair.ratio * (step[k] + (k + 1 < n ? (step[k + 1] - step[k]) * f : 0));
+    }
+  }
   const at = (t: number) => {
     const x = Math.min(n - 1, Math.max(0, (t + lead) / h));
     const i = Math.floor(x);
@@ -103,6 +119,21 @@ export function echoShape(
       delayOfMiddleS: tPeak - wd / 2,
       halfWidthS: above * h,
     };
+  }
+  if (pair) {
+    // Step record: the section shows as a blip (the two edges nearly cancel); its peak and width
+    // at half height stand for the echo the detector sees.
+    let peak = 0;
+    let tPeak = 0;
+    for (let i = 0; i < n; i++) {
+      if (Math.abs(step[i]) > peak) {
+        peak = Math.abs(step[i]);
+        tPeak = i * h - lead;
+      }
+    }
+    let above = 0;
+    for (let i = 0; i < n; i++) if (Math.abs(step[i]) >= peak / 2) above++;
+    return { peakRatio: peak / final, stepReached: (t) => at(t) / final, delayOfMiddleS: tPeak, halfWidthS: above * h };
   }
   let t50 = 0;
   for (let i = 0; i < n; i++) {
