@@ -5,7 +5,10 @@
  * t_b − t_a after the wave it copies, with about ρ_a·ρ_b of it, so every event e
  * at or beyond b has an echo at t_e + (t_b − t_a), and a weaker one at
  * t_e + 2(t_b − t_a) (the bounce, or lattice, diagram: L. V. Bewley, "Traveling
- * Waves on Transmission Systems", 2nd ed., Wiley 1951, ch. 3). An instrument whose source impedance differs from the cable's
+ * Waves on Transmission Systems", 2nd ed., Wiley 1951, ch. 3). b's own echo
+ * (e = b) is A_b·ρ_a′·ρ_b: b's ρ is read only through what stands in front (a
+ * junction splits the wave, loss lowers it), so its second reflection is
+ * bounded by |ρ_b| ≤ 1, not by that reading. An instrument whose source impedance differs from the cable's
  * reflects every returning wave back down the line with its own ρ_s, so an
  * echo of events a and b arrives at t_a + t_b (2·t_a for one event). At the
  * port a returning wave of ρ shows as (1 + ρ_s)·ρ, and its first source echo
@@ -77,7 +80,8 @@ function bounceOf(cx: EchoContext, of: Array<number | null>, k: number, s: numbe
     if (of[b] !== null) continue;
     for (let a = 0; a < b; a++) {
       if (of[a] !== null) continue;
-      const gain = Math.min(1, Math.abs(own[a] * own[b]));
+      // b's own echo (s = b) carries b's reflection twice; only |ρ_b| ≤ 1 bounds the second one.
+      const gain = Math.min(1, Math.abs(own[a]) * (s === b ? 1 : Math.abs(own[b])));
       const gap = rt[b] - rt[a];
       if (near(rt[s] + gap) && he < 1.5 * gain * hs + 0.02) return true;
       if (near(rt[s] + 2 * gap) && he < 1.5 * gain * gain * hs + 0.02) return true;

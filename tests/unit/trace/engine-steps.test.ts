@@ -256,6 +256,21 @@ describe('echoes', () => {
     ];
     expect(findEchoes(merged, (m) => m.onsetIdx).of).toEqual([null, null, null, 2]);
   });
+  it('sizes a reflector’s own bounce with |ρ| ≤ 1 for its second reflection, and keeps what is larger', () => {
+    // Bridged tap: junction ρ = −1/3 at 100 samples, the stub's open end at 400 seen 0.43 (the junction
+    // splits the wave, so its own ρ reads 0.45 though the stub end reflects all of it). Its bounce off the
+    // junction's back returns at 400 + 300 with A_b·ρ_a'·ρ_b = 0.43·(1/3)·1 ≈ 0.14 (Bewley, ch. 3); the
+    // product of the read ρ (0.3·0.45) would bound it at 0.10 and leave it unflagged.
+    const merged = (echo: number) => [
+      edge(-0.3, { onsetIdx: 100 }),
+      edge(0.43, { onsetIdx: 400 }),
+      edge(echo, { onsetIdx: 700 }),
+    ];
+    const own = [-0.3, 0.45, 0];
+    expect(findEchoes(merged(-0.14), (m) => m.onsetIdx, own).of).toEqual([null, null, 1]);
+    // A feature there larger than any bounce could be (|ρ_a|·A_b ≈ 0.13, with the 1.5 allowance 0.21) stays a fault.
+    expect(findEchoes(merged(-0.3), (m) => m.onsetIdx, own).of).toEqual([null, null, null]);
+  });
   it('drops weak features past the cable’s end, flagged or not, and the echoes of what it drops', () => {
     // A step record's open end read at 0.26 after loss: past it the line is not seen (Bewley,
     // "Traveling Waves on Transmission Systems", ch. 3), so a feature under 0.3 of it is an
