@@ -57,7 +57,7 @@ const lowFraction = (sigmaLocal: number, height: number) => Math.min(0.3, Math.m
  * A lossy edge keeps rising long after the filter window: widen the level window
  * to a few times the edge's own 10–90 % time until the level stops changing.
  */
-function settleLossyEdge(
+export function settleLossyEdge(
   us: Float64Array,
   first: { r: Onset; height: number; fLo: number },
   base: number,
@@ -69,6 +69,7 @@ function settleLossyEdge(
   let { r, height, fLo } = first;
   let settleTo: number | null = null;
   let stillMoving = 0;
+  let prevChange = Infinity;
   const n = us.length;
   for (let iter = 0; iter < 6; iter++) {
     const base0 = base;
@@ -82,6 +83,10 @@ function settleLossyEdge(
     if (midAB > a && b > midAB) stillMoving = (sampleMedian(us, midAB, b) - sampleMedian(us, a, midAB)) / (hNext || 1);
     if (Math.sign(hNext) !== Math.sign(height)) break;
     const change = Math.abs(hNext - height) / Math.abs(height);
+    // A lossy edge settles: each widening adds less than the one before. A level that keeps
+    // running away is a slope in the working signal (drift, a neighbour's tail), not this edge.
+    if (iter > 0 && change > 0.25 && change >= prevChange) break;
+    prevChange = change;
     height = hNext;
     fLo = lowFraction(sigmaLocal, height);
     r = measureOnset(us, a, () => base, height, fLo, preFrom, Math.min(n - 1, b));
