@@ -22,10 +22,13 @@
 import { SPEED_OF_LIGHT_M_PER_S } from '../cable/propagation';
 import {
   attenuationDbPer100m,
+  DB_PER_NEPER,
+  exactAttenuationNpPerM,
   erfc,
   exactLineKernel,
   lineKernel,
   lossModelFromPoints,
+  lossModelThroughLine,
   NO_LOSS,
   zeroPhaseLineKernel,
   type LineKernel,
@@ -743,6 +746,8 @@ export interface LineFitResult {
   loss: LossModel;
   /** For an estimated loss, what it was read from. */
   estimatedFrom?: LossEvidence[];
+  /** The velocity factor the loss was read with: its attenuation is then reported through the exact propagation. */
+  vf?: number;
 }
 
 /**
@@ -752,8 +757,10 @@ export interface LineFitResult {
  */
 export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitResult {
   const shape = launchShape(input);
-  const library = input.loss && input.loss.length > 0 ? lossModelFromPoints(input.loss) : null;
-  if (!shape || !input.vf) return { events, lossSource: library ? 'library' : 'none', loss: library ?? NO_LOSS };
+  // The library's figures are read through the line's exact propagation where the speed is known (a thin
+  // pair's low-frequency figures lie where it is already diffusive), else as the sum of the loss terms.
+  const library = input.loss && input.loss.length > 0 ? (input.vf ? lossModelThroughLine(input.loss, input.vf) : lossModelFromPoints(input.loss)) : null;
+  if (!shape || !input.vf) return { events, lossSource: library ? 'library' : 'none', loss: library ?? NO_LOSS, vf: input.vf };
   const ctx: FitContext = { input, shape, twoWayMPerSample: input.vf * SPEED_OF_LIGHT_M_PER_S * input.rec.dt, peeled: [] };
   const incident = library ? null : incidentLoss(input, events);
   const edgeShape = library ? null : estimateSkin(ctx, events, incident?.resistiveNpPerM ?? 0);
@@ -807,7 +814,7 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     if (shape.reference === 'axis') m.t50Idx = onset;
     ctx.peeled.push({ t: f.t, q: f.q, d: f.dq, h: f.h });
   }
-  return { events, lossSource, loss: model, estimatedFrom };
+  return { events, lossSource, loss: model, estimatedFrom, vf: input.vf };
 }
 
 const scaled = (m: LossModel, k: number): LossModel => ({
@@ -849,6 +856,11 @@ export function lossSummary(r: LineFitResult): {
     lossSource: r.lossSource,
     ...(r.lossSource === 'estimated' ? { lossEstimatedFrom: r.estimatedFrom ?? [] } : {}),
     lossDbPer100m:
-      r.lossSource === 'none' ? [] : SUMMARY_FREQUENCIES_HZ.map((f) => ({ frequencyHz: f, dbPer100m: Number(attenuationDbPer100m(r.loss, f).toPrecision(4)) })),
+      r.lossSource === 'none'
+        ? []
+        : SUMMARY_FREQUENCIES_HZ.map((f) => ({
+            frequencyHz: f,
+            dbPer100m: Number((r.vf ? exactAttenuationNpPerM(r.loss, f, r.vf) * 100 * DB_PER_NEPER : attenuationDbPer100m(r.loss, f)).toPrecision(4)),
+          })),
   };
 }

@@ -87,6 +87,111 @@ export function lossModelFromPoints(points: readonly LossPoint[]): LossModel {
   return best ? { skinNpPerMRootHz: best.coef[1], dielectricNpPerMPerHz: best.coef[2], resistiveNpPerM: best.coef[0] } : NO_LOSS;
 }
 
+/**
+ * One-way attenuation of the model from the exact propagation constant, nepers per metre:
+ * α = Re √((2α_R + jω/v)(2α_G + jω/v)) with 2α_R = 2(r + s√f·(1 + j)) and 2α_G = 2g·f, the same
+ * line exactLineKernel propagates (telegrapher's equations, Pozar §2.1). Where ωL ≫ R it is
+ * r + s√f + g·f; where the conductors' resistance nears ωL (a thin pair below a few hundred kHz)
+ * the line turns diffusive and its attenuation falls below that sum.
+ */
+export function exactAttenuationNpPerM(model: LossModel, frequencyHz: number, vf: number): number {
+  const bi = (2 * Math.PI * frequencyHz) / (vf * SPEED_OF_LIGHT);
+  const sk = model.skinNpPerMRootHz * Math.sqrt(frequencyHz);
+  const ar = 2 * ((model.resistiveNpPerM ?? 0) + sk);
+  const ai = 2 * sk + bi;
+  const br = 2 * model.dielectricNpPerMPerHz * frequencyHz;
+  const pr = ar * br - ai * bi;
+  const pi = ar * bi + ai * br;
+  return Math.sqrt(Math.max(0, (Math.hypot(pr, pi) + pr) / 2));
+}
+
+/**
+ * The model through attenuation points with each point read through the exact propagation
+ * (exactAttenuationNpPerM) instead of the sum r + s√f + g·f: starting from lossModelFromPoints,
+ * the terms it kept are adjusted by damped Gauss–Newton steps on the points' relative errors
+ * (the Levenberg–Marquardt method, D. W. Marquardt, J. SIAM 11 (1963) 431), each kept
+ * non-negative. On a thin pair a point at 100 kHz lies where the line is already diffusive;
+ * read as R/2Z0 it gives too small a DC resistance, and the edges and the incident step's creep
+ * built from that model come out too fast. Returns the starting model when no step improves it.
+ */
+export function lossModelThroughLine(points: readonly LossPoint[], vf: number): LossModel {
+  const start = lossModelFromPoints(points);
+  const pts = points.filter((p) => p.frequencyHz > 0 && p.dbPer100m > 0 && Number.isFinite(p.dbPer100m));
+  if (pts.length === 0 || !(vf > 0 && vf <= 1)) return start;
+  const toModel0 = (m: LossModel) => [m.resistiveNpPerM ?? 0, m.skinNpPerMRootHz, m.dielectricNpPerMPerHz];
+  const toModel = (x: number[]): LossModel => ({ resistiveNpPerM: x[0], skinNpPerMRootHz: x[1], dielectricNpPerMPerHz: x[2] });
+  const x0 = [start.resistiveNpPerM ?? 0, start.skinNpPerMRootHz, start.dielectricNpPerMPerHz];
+  // With three points or more every term is free; a term the first fit set to zero starts at a
+  // twentieth of the lowest point's attenuation (a relative step cannot leave zero).
+  if (pts.length >= 3) {
+    const fMin = Math.min(...pts.map((p) => p.frequencyHz));
+    const aMin = Math.min(...pts.map((p) => npPerM(p.dbPer100m)));
+    const seed = [aMin / 20, aMin / 20 / Math.sqrt(fMin), aMin / 20 / fMin];
+    for (let j = 0; j < 3; j++) if (!(x0[j] > 0)) x0[j] = seed[j];
+  }
+  const free = [0, 1, 2].filter((j) => x0[j] > 0);
+  if (free.length === 0) return start;
+  const residuals = (x: number[]) => pts.map((p) => exactAttenuationNpPerM(toModel(x), p.frequencyHz, vf) / npPerM(p.dbPer100m) - 1);
+  const cost = (x: number[]) => residuals(x).reduce((a, r) => a + r * r, 0);
+  let x = x0;
+  let c = cost(x);
+  let lambda = 1e-3;
+  for (let it = 0; it < 60 && c > 1e-14; it++) {
+    const r = residuals(x);
+    // Jacobian in each term's relative change (the terms differ by orders of magnitude).
+    const J = pts.map(() => new Array<number>(free.length).fill(0));
+    free.forEach((j, col) => {
+      const xp = [...x];
+      xp[j] = x[j] * (1 + 1e-6);
+      const rp = residuals(xp);
+      for (let i = 0; i < pts.length; i++) J[i][col] = (rp[i] - r[i]) / 1e-6;
+    });
+    let improved = false;
+    for (let tries = 0; tries < 12 && !improved; tries++) {
+      const k = free.length;
+      const a = Array.from({ length: k }, () => new Array<number>(k + 1).fill(0));
+      for (let i = 0; i < pts.length; i++)
+        for (let p = 0; p < k; p++) {
+          for (let q = 0; q < k; q++) a[p][q] += J[i][p] * J[i][q];
+          a[p][k] -= J[i][p] * r[i];
+        }
+      for (let p = 0; p < k; p++) a[p][p] *= 1 + lambda;
+      for (let p = 0; p < k; p++) a[p][p] += 1e-12;
+      const step = solveDense(a);
+      if (!step) break;
+      // A relative step, at most halving or doubling a term at once, never below zero.
+      const xn = [...x];
+      free.forEach((j, col) => (xn[j] = x[j] * Math.exp(Math.max(-0.7, Math.min(0.7, step[col])))));
+      const cn = cost(xn);
+      if (cn < c) {
+        x = xn;
+        c = cn;
+        lambda = Math.max(1e-9, lambda / 4);
+        improved = true;
+      } else lambda *= 8;
+    }
+    if (!improved) break;
+  }
+  return c < cost(toModel0(start)) ? toModel(x) : start;
+}
+
+/** Solves the k × (k + 1) augmented system in place by Gaussian elimination; null when singular. */
+function solveDense(a: number[][]): number[] | null {
+  const k = a.length;
+  for (let c = 0; c < k; c++) {
+    let p = c;
+    for (let i = c + 1; i < k; i++) if (Math.abs(a[i][c]) > Math.abs(a[p][c])) p = i;
+    if (!(Math.abs(a[p][c]) > 1e-300)) return null;
+    [a[c], a[p]] = [a[p], a[c]];
+    for (let i = 0; i < k; i++) {
+      if (i === c) continue;
+      const f = a[i][c] / a[c][c];
+      for (let j = c; j <= k; j++) a[i][j] -= f * a[c][j];
+    }
+  }
+  return a.map((row, i) => row[k] / row[i]);
+}
+
 /** Least squares with only the terms in `set`; the others are 0. Null when singular. */
 function solveSubset(rows: Array<{ x: number[]; y: number }>, set: number[]): number[] | null {
   const k = set.length;
