@@ -193,7 +193,12 @@ export function buildPhysical(route: Route): PhysicalNetwork {
     } else if (e.kind === 'resistor') {
       shunt.set(cur, e.rOhm);
       event(cur, `cable end (${fmt(e.rOhm)} Ω)`, reflection(e.rOhm, z));
-    } else shunt.set(cur, z);
+    } else {
+      shunt.set(cur, z);
+      // A resistor of the nominal impedance: no reflection on a lossless line, but a lossy line's
+      // impedance departs from nominal at low frequencies, so a small one shows; either reading is right.
+      event(cur, 'cable end (matched)', 0, { alsoAccept: ['impedance-rise', 'impedance-drop'] });
+    }
   }
   return { nodeCount: delay.length, edges, shunt, series, delay, events, vfNominal: vfNom };
 }

@@ -91,7 +91,10 @@ describe('cable routes: solver against the lossless lattice', () => {
     expect(p.events.map((e) => [e.what.split(' (')[0], e.distanceM])).toEqual([
       ['bridged tap junction', expect.closeTo(6, 9)],
       ['bridged tap end', expect.closeTo(11, 9)],
+      ['cable end', expect.closeTo(30, 9)],
     ]);
+    // The matched end is listed with ρ 0 on a lossless line, so a reading of it is not taken as false.
+    expect(p.events[2].rho).toBe(0);
     const T = (2 * 11) / (0.66 * C0);
     const { at } = solve(tap, 50, 1.3 * T);
     expect(at(0.5 * T)).toBeCloseTo(1, 3);
