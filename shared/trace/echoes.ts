@@ -8,7 +8,9 @@
  * Waves on Transmission Systems", 2nd ed., Wiley 1951, ch. 3). b's own echo
  * (e = b) is A_b·ρ_a′·ρ_b: b's ρ is read only through what stands in front (a
  * junction splits the wave, loss lowers it), so its second reflection is
- * bounded by |ρ_b| ≤ 1, not by that reading. An instrument whose source impedance differs from the cable's
+ * bounded by |ρ_b| ≤ 1, not by that reading. An echo's path is longer than
+ * its copy's, so it is never sharper and never early (causality): it may start
+ * late by its own spread, early only by the sharper edge's timing error. An instrument whose source impedance differs from the cable's
  * reflects every returning wave back down the line with its own ρ_s, so an
  * echo of events a and b arrives at t_a + t_b (2·t_a for one event). At the
  * port a returning wave of ρ shows as (1 + ρ_s)·ρ, and its first source echo
@@ -55,10 +57,13 @@ function echoOf(cx: EchoContext, of: Array<number | null>, k: number): number | 
   const e = merged[k];
   const tol = tolerance(e, rt[k]);
   const he = seenAt(e);
-  const near = (t: number) => Math.abs(rt[k] - t) < tol;
   for (let s = 0; s < k; s++) {
     const hs = seenAt(merged[s]);
     if (of[s] !== null || he > hs) continue;
+    // An echo travels further than the wave it copies, so it is no sharper and cannot come early:
+    // it may start late by its own spread, early only by the timing error of the sharper edge.
+    const early = tolerance(e.riseSamples <= merged[s].riseSamples ? e : merged[s], rt[k]);
+    const near = (t: number) => rt[k] - t < tol && t - rt[k] < early;
     if (hs >= STRONG && (near(2 * rt[s]) || near(3 * rt[s]))) return s;
     for (let a = 0; a <= s; a++) {
       if (of[a] !== null) continue;

@@ -271,6 +271,14 @@ describe('echoes', () => {
     // A feature there larger than any bounce could be (|ρ_a|·A_b ≈ 0.13, with the 1.5 allowance 0.21) stays a fault.
     expect(findEchoes(merged(-0.3), (m) => m.onsetIdx, own).of).toEqual([null, null, null]);
   });
+  it('never takes for an echo a feature that arrives before the path it would have travelled', () => {
+    // A shunt read −0.37 at 1000 samples (rise 100) and a spread far end, −0.06 with a 600-sample rise. Its
+    // re-reflection at the source would return at 2000 or later (a longer path only spreads it more), so an end
+    // at 1850 is no echo of it, however slow its own edge; the same edge at 2150 may be.
+    const merged = (at: number) => [edge(-0.37, { onsetIdx: 1000, riseSamples: 100 }), edge(-0.06, { onsetIdx: at, riseSamples: 600 })];
+    expect(findEchoes(merged(1850), (m) => m.onsetIdx).of).toEqual([null, null]);
+    expect(findEchoes(merged(2150), (m) => m.onsetIdx).of).toEqual([null, 0]);
+  });
   it('drops weak features past the cable’s end, flagged or not, and the echoes of what it drops', () => {
     // A step record's open end read at 0.26 after loss: past it the line is not seen (Bewley,
     // "Traveling Waves on Transmission Systems", ch. 3), so a feature under 0.3 of it is an
