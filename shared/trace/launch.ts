@@ -20,6 +20,7 @@
  * it back to the baseline). A launch whose top is flat at the record's extreme
  * while its edge is still steep has been clipped by the recorder.
  */
+import { estimateSlowNoise } from './noise';
 import { boxcar, percentileOf, sampleMedian, sortedSample } from './stats';
 import type { Launch, Mode, TraceRecord } from './steps';
 
@@ -416,19 +417,32 @@ function rhoLaunch(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hint: n
 /**
  * A noisy record is averaged over k samples before its launch is looked for, k chosen so
  * the noise falls to 3 % of the record's range (σ/√k ≤ 0.03·range): the quarter-range
- * crossing that finds the launch is then eight noise deviations out.
+ * crossing that finds the launch is then eight noise deviations out. k is at most a 200th of
+ * the record, or a third of the stated pulse width when that is more (a short record of a
+ * wide pulse); the noise the launch is then held against is that of the averaged record.
  */
-function forLaunchSearch(rec: TraceRecord, sigma0: number): TraceRecord {
+function forLaunchSearch(rec: TraceRecord, sigma0: number, pulseHintSamples: number | null): { rec: TraceRecord; noise: number } {
   const sorted = sortedSample(rec.y);
   const range = percentileOf(sorted, 0.998) - percentileOf(sorted, 0.002);
-  if (!(range > 0) || sigma0 <= 0.03 * range) return rec;
-  const k = Math.min(Math.max(1, Math.floor(rec.n / 200)), Math.ceil((sigma0 / (0.03 * range)) ** 2));
-  return k > 1 ? { ...rec, y: boxcar(rec.y, k) } : rec;
+  if (!(range > 0) || sigma0 <= 0.03 * range) return { rec, noise: sigma0 };
+  // At most a 200th of the record, or a third of a stated pulse width (a boxcar that short keeps
+  // the pulse's top): a short record of a wide pulse may be averaged over more than its 200th.
+  const kRecord = Math.max(1, Math.floor(rec.n / 200));
+  const kPulse = pulseHintSamples !== null ? Math.floor(pulseHintSamples / 3) : 1;
+  const k = Math.min(Math.max(kRecord, kPulse), Math.ceil((sigma0 / (0.03 * range)) ** 2));
+  if (k <= 1) return { rec, noise: sigma0 };
+  const y = boxcar(rec.y, k);
+  // Averaged over more than the record's 200th, for a stated pulse, the launch is looked for
+  // against the averaged record's noise: white noise falls as 1/√k; the slow part that
+  // averaging keeps is read from the averaged record itself (its differences over lags shorter
+  // than k see less than it holds, hence the white floor).
+  const noise = k > kRecord ? Math.max(sigma0 / Math.sqrt(k), estimateSlowNoise(y)) : sigma0;
+  return { rec: { ...rec, y }, noise };
 }
 
 export function findLaunch(record: TraceRecord, modeOpt: 'auto' | Mode, pulseHintSamples: number | null, sigma0 = 0): Launch {
-  const rec = forLaunchSearch(record, sigma0);
-  const lv = recordLevels(rec, sigma0);
+  const { rec, noise } = forLaunchSearch(record, sigma0, pulseHintSamples);
+  const lv = recordLevels(rec, noise);
   if (rec.unit === 'rho' && Math.abs(lv.bStart + 1) > 0.35) return rhoLaunch(rec, lv, modeOpt, pulseHintSamples);
   if (modeOpt !== 'step') {
     const before = launchBeforeRecord(rec, lv, false);
