@@ -4,7 +4,8 @@
  *
  *  1. Noise (noise.ts): robust σ of the record.
  *  2. Launch and mode (launch.ts): the instrument's edge or pulse, step or pulse record.
- *  3. Working signal (signal.ts): the trace in units of ρ.
+ *  3. Working signal (signal.ts): the trace in units of ρ; on a step record with the
+ *     cable's loss known, less the incident step's own creep (creep.ts).
  *  4. Detection (detection.ts): multi-scale step filter against a noise threshold.
  *  5. Edge fit (edge-fit.ts): arrival time and height of each event.
  *  6. Location (locate.ts): round trip from the launch, distance d = VF·c·t/2.
@@ -15,11 +16,13 @@
 import { distanceFromRoundTrip, SPEED_OF_LIGHT_M_PER_S } from '../cable/propagation';
 import type { ReflectionEvent, TraceAnalysis, TraceWarning } from '../schemas/trace-analysis';
 import { checkTimeAxisBounds } from './bounds';
+import { removeIncidentCreep } from './creep';
 import { classifyEvent, impedanceOf, ownReflections } from './classify';
 import { detectEdges, dropClutter, dropQuantiserStairs, FALSE_EVENTS_PER_TRACE, mergeEdges } from './detection';
 import { findEchoes, resolveCableEnd } from './echoes';
 import { fitEdges, fitLineEdges, lossSummary, pathLossDb } from './edge-fit';
 import { TraceInputError } from './errors';
+import { lossModelThroughLine } from './loss';
 import { findLaunch } from './launch';
 import { referencePlaneShift, roundTripSamples, type Timebase, zeroIndex } from './locate';
 import { estimateNoise, estimateSlowNoise } from './noise';
@@ -267,6 +270,9 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
     const msg = 'no reflection above noise (the record ends inside the blind zone)';
     return emptyAnalysis(rec, L, options, sigma0, [...warnings, { code: 'NO_REFLECTION', message: msg }]);
   }
+  // A known loss tells how the incident step creeps on its own; the reflections are read without it.
+  if (options.loss && options.loss.length > 0)
+    removeIncidentCreep(rec, L, signal, lossModelThroughLine(options.loss, options.vf), options.vf);
   const rhoMin = options.minReflection ?? 0.005;
   const detection = detectEdges(signal, {
     thresholdSigma: options.thresholdSigma,

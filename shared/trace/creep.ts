@@ -1,0 +1,68 @@
+/**
+ * The incident step's creep on a line with series loss, taken out of a step record.
+ *
+ * A step launched into a long line whose conductors have resistance does not stay
+ * flat: the line's input impedance Zc = √((R + jωL)/(jωC)) grows at low frequency,
+ * so the level creeps up from the matched level towards the open-circuit one as the
+ * wave travels out (telegrapher's equations, D. M. Pozar, "Microwave Engineering",
+ * 4th ed., §2.1 and §2.7). In units of the incident step the creep is the step
+ * response of ρ_in = (Zc − Z0)/(Zc + Z0), computed from the cable's loss by
+ * incidentStep (loss-estimate.ts) with no free parameter. On a thin pair a kilometre
+ * long it climbs by half the incident step over the record: far reflections, spread
+ * over thousands of samples by the same loss, ride on it and read early, late or not
+ * at all. With the cable's loss known, the creep is subtracted from the working
+ * signal before detection and the edge fit, which then see the reflections alone.
+ *
+ * The response is computed on a few nested time grids, each eight times finer than
+ * the one before over the first eighth of its span, so the square-root rise just
+ * after the launch is followed as closely as the slow climb at the record's end.
+ */
+import type { LossModel } from './loss';
+import { incidentStep } from './loss-estimate';
+import { boxcar } from './stats';
+import type { Launch, TraceRecord, WorkingSignal } from './steps';
+
+/** Nested grids: spans T, T/8, T/64, T/512 of the record after time zero. */
+const LEVELS = 4;
+
+/** The creep ρ_in(t) at every sample of the record, time zero at sample t0 (0 before it). */
+export function incidentCreep(model: LossModel, vf: number, rec: TraceRecord, t0: number): Float64Array {
+  const n = rec.n;
+  const out = new Float64Array(n);
+  const r = model.resistiveNpPerM ?? 0;
+  const s = model.skinNpPerMRootHz;
+  const span = (n - 1 - t0) * rec.dt;
+  if (!(span > 0) || !(r > 0 || s > 0)) return out;
+  // From the coarsest grid to the finest, each overwriting the early part it resolves better.
+  for (let level = 0; level < LEVELS; level++) {
+    const tMax = span / 8 ** level;
+    const last = Math.min(n - 1, Math.floor(t0 + tMax / rec.dt));
+    const first = Math.max(0, Math.ceil(t0));
+    if (last <= first) break;
+    const ts: number[] = [];
+    for (let i = first; i <= last; i++) ts.push((i - t0) * rec.dt);
+    const c = incidentStep(r, s, vf, ts);
+    for (let i = first; i <= last; i++) out[i] = c[i - first];
+  }
+  return out;
+}
+
+/**
+ * Subtract the incident creep from a step record's working signal (u and its smoothed copy), in
+ * place. Only with a loss known beforehand (the cable library's), a step record, and a time zero
+ * the record shows: a launch in the record, or the record's own start at the launch.
+ */
+export function removeIncidentCreep(rec: TraceRecord, L: Launch, sig: WorkingSignal, model: LossModel | null, vf: number): boolean {
+  if (sig.mode !== 'step' || !model || !(vf > 0)) return false;
+  const t0 = L.found && L.onsetInRecord ? L.idx : L.zeroIdx;
+  if (!(t0 >= 0 && t0 < rec.n - 1)) return false;
+  const c = incidentCreep(model, vf, rec, t0);
+  let any = false;
+  for (let i = 0; i < rec.n; i++) {
+    if (c[i] !== 0) any = true;
+    sig.u[i] -= c[i];
+  }
+  if (!any) return false;
+  sig.us.set(boxcar(sig.u, sig.smoothW));
+  return true;
+}
