@@ -449,8 +449,16 @@ export function findLaunch(record: TraceRecord, modeOpt: 'auto' | Mode, pulseHin
     if (before) return { ...before, modeDetected: modeOpt === 'auto' };
   }
   if (rec.unit === 'V' && Math.abs(lv.bStart) > 0.35 * lv.range && Math.sign(lv.bStart) === Math.sign(lv.hi + lv.lo)) {
-    // The record begins after the launch, at the incident level.
-    return noLaunch(rec, lv, modeOpt, 0, lv.bStart);
+    // The record begins after the launch's onset, at the incident level or still on the launch
+    // edge (a record without pre-trigger opens on it, its axis zero at the edge's middle): the
+    // incident level is where that opening climb settles, as for an edge inside the record.
+    const opening = traceLaunchEdge(rec.y, 0, 0);
+    const climbed = opening.imax > 0 && opening.sign === Math.sign(lv.bStart) ? launchLevels(rec.y, opening, 'step', -1) : null;
+    // Only a climb that stands clear of the noise (five deviations) moves the level.
+    const rises = climbed !== null && Math.abs(climbed.height) - Math.abs(lv.bStart) > 5 * lv.noise;
+    const height = rises ? climbed.height : lv.bStart;
+    const launch = noLaunch(rec, lv, modeOpt, 0, height);
+    return rises ? { ...launch, settleIdx: Math.max(launch.settleIdx, climbed.settleIdx) } : launch;
   }
   return (
     launchInRecord(rec, lv, modeOpt, pulseHintSamples) ??
