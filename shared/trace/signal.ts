@@ -9,7 +9,7 @@
  * keeps its area (the line's DC gain), so area is the loss-robust measure of ρ.
  */
 import { adcStep, heldStretches, noiseExcess } from './noise';
-import { boxcar, sampleMedian } from './stats';
+import { boxcar, madSigma, sampleMedian } from './stats';
 import type { Launch, TraceRecord, WorkingSignal } from './steps';
 
 function stepSignal(rec: TraceRecord, L: Launch): Float64Array {
@@ -21,21 +21,84 @@ function stepSignal(rec: TraceRecord, L: Launch): Float64Array {
   return u;
 }
 
+/**
+ * Most a pulse record's baseline drifts over the record, in launch heights (an instrument's
+ * drift is a few per cent of its pulse; common practice, from memory).
+ */
+const DRIFT_MAX = 0.1;
+
+/** Blocks the record after the launch is cut into, to find where it rests. */
+const RESTING_BLOCKS = 16;
+
+/**
+ * Where a pulse record rests, when its echoes fill one of its halves: the record after the
+ * launch in sixteen blocks, a block resting where its robust spread is the sample noise's and
+ * the means of its halves agree within four deviations of their difference; the baseline is
+ * then the line through the resting blocks' medians by Theil–Sen (the median of the slopes
+ * between pairs, H. Theil 1950; P. K. Sen, J. Amer. Statist. Assoc. 63 (1968) 1379), which a
+ * few echo tops that look flat cannot tilt. Null when fewer than three blocks rest there.
+ */
+function restingLine(y: Float64Array, a0: number, sigma0: number): { level: number; at: number; slope: number } | null {
+  const n = y.length;
+  const len = Math.floor((n - a0) / RESTING_BLOCKS);
+  if (len < 16 || !(sigma0 > 0)) return null;
+  const half = len >> 1;
+  const mean = (a: number, b: number) => {
+    let s = 0;
+    for (let i = a; i < b; i++) s += y[i];
+    return s / (b - a);
+  };
+  const centres: number[] = [];
+  const levels: number[] = [];
+  for (let b = 0; b < RESTING_BLOCKS; b++) {
+    const from = a0 + b * len;
+    const to = from + len;
+    const spread = madSigma(y, from, to);
+    const drift = Math.abs(mean(from + half, to) - mean(from, from + half));
+    if (spread <= 1.5 * sigma0 && drift <= 4 * sigma0 * Math.sqrt(2 / half)) {
+      centres.push((from + to) / 2);
+      levels.push(sampleMedian(y, from, to));
+    }
+  }
+  // An echo's flat top rests too, at its own level: the baseline is the level most resting
+  // blocks share (within three sample deviations).
+  let best: number[] = [];
+  for (const l of levels) {
+    const near = levels.flatMap((m, k) => (Math.abs(m - l) <= 3 * sigma0 ? [k] : []));
+    if (near.length > best.length) best = near;
+  }
+  if (best.length < 3) return null;
+  centres.splice(0, centres.length, ...best.map((k) => centres[k]));
+  levels.splice(0, levels.length, ...best.map((k) => levels[k]));
+  const slopes: number[] = [];
+  for (let i = 0; i < centres.length; i++)
+    for (let j = i + 1; j < centres.length; j++) slopes.push((levels[j] - levels[i]) / (centres[j] - centres[i]));
+  const slope = sampleMedian(Float64Array.from(slopes).sort(), 0, slopes.length);
+  const at = sampleMedian(Float64Array.from(centres), 0, centres.length);
+  const level = sampleMedian(Float64Array.from(levels.map((l, k) => l - slope * (centres[k] - at))), 0, levels.length);
+  return { level, at, slope };
+}
+
 /** Pulse mode: baseline-free trace (in launch peaks) and its running integral in launch areas. */
-function pulseSignal(rec: TraceRecord, L: Launch): { u: Float64Array; pulseRaw: Float64Array; unitArea: number } {
+function pulseSignal(rec: TraceRecord, L: Launch, sigma0: number): { u: Float64Array; pulseRaw: Float64Array; unitArea: number } {
   const { y, n } = rec;
   const u = new Float64Array(n);
   const pulseRaw = new Float64Array(n);
   const scale = L.found ? L.height : 1;
-  // After the launch a pulse trace sits on its baseline except for sparse echoes, so a
-  // line through the medians of the two halves is a robust baseline and drift estimate.
+  // After the launch a pulse trace sits on its baseline except for its echoes, so a line
+  // through the medians of the two halves is a robust baseline and drift estimate; on a short
+  // cable read with a wide pulse the echoes fill a half, and the line is drawn through the
+  // stretches where the trace rests instead (see restingLine).
   const a0 = Math.min(n - 1, L.settleIdx);
   const mid = Math.floor((a0 + n) / 2);
-  const m1 = sampleMedian(y, a0, mid);
+  const h1 = sampleMedian(y, a0, mid);
   const m2 = sampleMedian(y, mid, n);
-  const c1 = (a0 + mid) / 2;
+  // Halves whose medians lie more than a tenth of the launch apart hold an echo, not drift.
+  const resting = Math.abs(m2 - h1) > DRIFT_MAX * Math.abs(scale) ? restingLine(y, a0, sigma0) : null;
+  const m1 = resting?.level ?? h1;
+  const c1 = resting?.at ?? (a0 + mid) / 2;
   const c2 = (mid + n) / 2;
-  const slope = Number.isFinite(m1) && Number.isFinite(m2) && c2 > c1 ? (m2 - m1) / (c2 - c1) : 0;
+  const slope = resting?.slope ?? (Number.isFinite(m1) && Number.isFinite(m2) && c2 > c1 ? (m2 - m1) / (c2 - c1) : 0);
   const baseAt = (i: number) => (i < a0 ? L.baseline : m1 + slope * (i - c1));
   let acc = 0;
   for (let i = 0; i < n; i++) {
@@ -63,7 +126,7 @@ export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number, 
   const mode = L.mode;
   const { n } = rec;
   const { u, pulseRaw, unitArea } =
-    mode === 'step' ? { u: stepSignal(rec, L), pulseRaw: new Float64Array(0), unitArea: 1 } : pulseSignal(rec, L);
+    mode === 'step' ? { u: stepSignal(rec, L), pulseRaw: new Float64Array(0), unitArea: 1 } : pulseSignal(rec, L, sigma0);
   const sigmaU = mode === 'step' ? sigma0 / Math.abs(L.found || rec.unit !== 'rho' ? L.height : 1) : 0;
   const scaleForPulse = mode === 'pulse' ? sigma0 / Math.abs(L.found ? L.height : 1) / unitArea : 0;
   // The shortest edge in u: the launch's rise (step), or the ramp an echo of the launch
