@@ -428,6 +428,12 @@ export function fft(re: Float64Array, im: Float64Array, inverse = false): void {
  * skin edge attenuated by e^(−2d·r); at low frequency the line turns diffusive and
  * the response creeps up to its full height. The dielectric spread is the same
  * spread as lineKernel's (Cauchy, or causal about a reference frequency).
+ * The reflection is taken as the port sees it, from a source of the cable's nominal
+ * impedance: the wave launched is 2z/(1 + z) of the nominal one and the port passes
+ * 2/(1 + z) of the wave coming back, z = Zc/Z0 = √((2α_R + p/v)/(p/v)) the line's own
+ * impedance over its nominal one, so H carries 4z/(1 + z)²: at high frequency 1, at low
+ * frequency, where a resistive line's impedance grows, less (the incident step's creep,
+ * creep.ts, already holds that part of the level).
  */
 export function exactLineKernel(model: LossModel, twoWayM: number, dtS: number, spanSamples: number, vf: number, dielectricReferenceHz?: number): LineKernel {
   const span = Math.max(8, Math.ceil(spanSamples));
@@ -464,6 +470,10 @@ export function exactLineKernel(model: LossModel, twoWayM: number, dtS: number, 
     const ph = -2 * d * (gi - w / v);
     re[k] = amp * Math.cos(ph);
     im[k] = amp * Math.sin(ph);
+    const [fr, fi] = portFactor(ar, ai, br, bi);
+    const h0 = re[k];
+    re[k] = h0 * fr - im[k] * fi;
+    im[k] = h0 * fi + im[k] * fr;
     if (k > 0 && k < n / 2) {
       re[n - k] = re[k];
       im[n - k] = -im[k];
@@ -483,6 +493,21 @@ export function exactLineKernel(model: LossModel, twoWayM: number, dtS: number, 
     for (let j = 0; j < diel.values.length; j++) values[i + j] += a * diel.values[j];
   }
   return { values, offset: diel.offset };
+}
+
+/** The port's factor 4z/(1 + z)² with z² = (ar + j·ai)/(br + j·bi), principal root (see exactLineKernel). */
+function portFactor(ar: number, ai: number, br: number, bi: number): [number, number] {
+  const den = br * br + bi * bi;
+  const z2r = (ar * br + ai * bi) / den;
+  const z2i = (ai * br - ar * bi) / den;
+  const zm = Math.sqrt(z2r * z2r + z2i * z2i);
+  const zr = Math.sqrt(Math.max(0, (zm + z2r) / 2));
+  const zi = (z2i < 0 ? -1 : 1) * Math.sqrt(Math.max(0, (zm - z2r) / 2));
+  // 4z/(1 + z)².
+  const ur = (1 + zr) * (1 + zr) - zi * zi;
+  const ui = 2 * (1 + zr) * zi;
+  const ud = ur * ur + ui * ui;
+  return [(4 * (zr * ur + zi * ui)) / ud, (4 * (zi * ur - zr * ui)) / ud];
 }
 
 /**

@@ -2,12 +2,12 @@ import { describe, expect, it } from 'vitest';
 import { SPEED_OF_LIGHT_M_PER_S } from '../../../shared/cable/propagation';
 import { analyzeCsv } from '../../../shared/trace';
 import { incidentCreep } from '../../../shared/trace/creep';
-import { attenuationFromLineConstants, lossModelThroughLine } from '../../../shared/trace/loss';
+import { attenuationFromLineConstants, exactLineKernel, lossModelThroughLine } from '../../../shared/trace/loss';
 import { incidentStep } from '../../../shared/trace/loss-estimate';
 import { PAIR_04 } from '../../../scripts/sim/cables';
-import type { CableModel } from '../../../scripts/sim/line-model';
+import { type CableModel, simulate } from '../../../scripts/sim/line-model';
 import { writeLayout } from '../../../scripts/sim/layouts';
-import { defaultAcquisition, type Scenario, simulateScenario } from '../../../scripts/sim/scenario';
+import { buildNetwork, defaultAcquisition, type Scenario, simulateScenario } from '../../../scripts/sim/scenario';
 
 /**
  * A step launched into a long thin pair creeps up on its own (the line's input impedance grows at
@@ -53,5 +53,37 @@ describe('the incident step’s creep on a lossy pair', () => {
     expect(series!.type).toBe('impedance-rise');
     // Nothing before it is taken for the cable's end.
     expect(a.events.filter((e) => e.distanceM < 400 && e.type === 'open')).toEqual([]);
+  });
+
+  it('with an open end’s reflection as the port passes it, follows the simulator’s port voltage until the wave’s second round trip', () => {
+    // A noise-free step into 1 km of 0.4 mm pair from a source of its nominal impedance, open at the far end.
+    const cable = PAIR_04;
+    const d = 1000;
+    const scenario: Scenario = { name: 'pair-04-1000m-open', cable, lengthM: d, end: 'open', features: [] };
+    const acq = defaultAcquisition(scenario, 'step', 1, 0, 16);
+    const dt = acq.sampleIntervalS;
+    const n = acq.samples;
+    const t0 = acq.preTriggerSamples;
+    const port = simulate(buildNetwork(scenario).net, { samples: n, sampleIntervalS: dt, launchAtS: t0 * dt, riseTimeS: acq.riseTimeS, sourceV: 2, sourceOhm: cable.z0Ohm, excitation: { kind: 'step' } });
+    const model = lossModelThroughLine(libraryLoss(cable), cable.vf);
+    const creep = incidentCreep(model, cable.vf, { y: new Float64Array(n), t: new Float64Array(n), n, dt, unit: 'V' }, t0);
+    const kernel = exactLineKernel(model, 2 * d, dt, n, cable.vf);
+    const reflection = new Float64Array(kernel.values.length);
+    for (let i = 0, acc = 0; i < reflection.length; i++) reflection[i] = acc += kernel.values[i];
+    const delay = (2 * d) / (cable.vf * SPEED_OF_LIGHT_M_PER_S) / dt;
+    // From a few rise times after the lossless arrival to the second round trip (the port's re-reflection).
+    let ss = 0;
+    let count = 0;
+    for (let i = Math.ceil(t0 + delay + 4 * acq.riseTimeS / dt); i < Math.min(n, t0 + 2 * delay); i++) {
+      const x = i - t0 - delay + kernel.offset;
+      const j = Math.floor(x);
+      const r = reflection[j] + (x - j) * (reflection[j + 1] - reflection[j]);
+      // The simulator's incident level is 1 V (2 V behind the matched source): u = V − 1.
+      ss += (port[i] - 1 - creep[i] - r) ** 2;
+      count++;
+    }
+    expect(count).toBeGreaterThan(500);
+    // A thousandth of the incident step, where the reflection has risen to a fifth of it.
+    expect(Math.sqrt(ss / count)).toBeLessThan(0.001);
   });
 });
