@@ -10,7 +10,11 @@
  * junction splits the wave, loss lowers it), so its second reflection is
  * bounded by |ρ_b| ≤ 1, not by that reading. An echo's path is longer than
  * its copy's, so it is never sharper and never early (causality): it may start
- * late by its own spread, early only by the sharper edge's timing error. An instrument whose source impedance differs from the cable's
+ * late by its own spread, early only by the sharper edge's timing error. An
+ * echo of a strong event at twice (three times) its round trip from a source
+ * not yet measured is at most r·A² (r²·A³), |r| = |ρ_s/(1 + ρ_s)| ≤ 1.5 for
+ * a source from ρ_s = −0.6 (a quarter of the cable's impedance) to an open;
+ * a measured ρ_s outside that range is not believed. An instrument whose source impedance differs from the cable's
  * reflects every returning wave back down the line with its own ρ_s, so an
  * echo of events a and b arrives at t_a + t_b (2·t_a for one event). At the
  * port a returning wave of ρ shows as (1 + ρ_s)·ρ, and its first source echo
@@ -31,6 +35,13 @@ export interface EchoFindings {
 }
 
 const STRONG = 0.3;
+/**
+ * Lowest source ρ believed: −0.6, a source of a quarter of the cable's impedance (from memory, common
+ * practice: instruments drive from 50 Ω or from a source matched to the cable; 25 Ω on a 100 Ω pair is −0.6).
+ */
+const SOURCE_RHO_MIN = -0.6;
+/** Largest |ρ_s/(1 + ρ_s)| for a source from SOURCE_RHO_MIN to an open: 1.5. */
+const SOURCE_R = -SOURCE_RHO_MIN / (1 + SOURCE_RHO_MIN);
 
 /**
  * Echo sizes are compared as read at the instrument: an echo has lost at least as much to
@@ -64,7 +75,10 @@ function echoOf(cx: EchoContext, of: Array<number | null>, k: number): number | 
     // it may start late by its own spread, early only by the timing error of the sharper edge.
     const early = tolerance(e.riseSamples <= merged[s].riseSamples ? e : merged[s], rt[k]);
     const near = (t: number) => rt[k] - t < tol && t - rt[k] < early;
-    if (hs >= STRONG && (near(2 * rt[s]) || near(3 * rt[s]))) return s;
+    // Re-reflected at the source once or twice: A₂ = r·A², A₃ = r²·A³ with r = ρ_s/(1 + ρ_s), |r| ≤ 1.5 for any
+    // source from ρ_s = −0.6 to an open; anything larger at those times is no source echo and stays a fault.
+    const viaSourceOnly = (near(2 * rt[s]) && he < SOURCE_R * hs * hs + 0.02) || (near(3 * rt[s]) && he < SOURCE_R ** 2 * hs ** 3 + 0.02);
+    if (hs >= STRONG && viaSourceOnly) return s;
     for (let a = 0; a <= s; a++) {
       if (of[a] !== null) continue;
       const ha = seenAt(merged[a]);
@@ -120,7 +134,7 @@ function sourceReflection(merged: Measured[], rt: number[], of: Array<number | n
     const raw = (m: Measured) => m.heightRaw ?? m.height;
     const r = raw(merged[k]) / ((a === b ? 1 : 2) * raw(merged[a]) * raw(merged[b]));
     const rhoS = r / (1 - r);
-    return Math.abs(rhoS) >= 0.05 && Math.abs(rhoS) <= 0.9 ? rhoS : 0;
+    return Math.abs(rhoS) >= 0.05 && rhoS >= SOURCE_RHO_MIN && rhoS <= 0.9 ? rhoS : 0;
   }
   return 0;
 }

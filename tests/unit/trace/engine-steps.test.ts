@@ -279,6 +279,14 @@ describe('echoes', () => {
     expect(findEchoes(merged(1850), (m) => m.onsetIdx).of).toEqual([null, null]);
     expect(findEchoes(merged(2150), (m) => m.onsetIdx).of).toEqual([null, 0]);
   });
+  it('takes for a source echo at twice a strong event’s round trip only what the source could return', () => {
+    // An event read 0.4 at 1000 samples: re-reflected at an unmeasured source it returns at 2000 with r·0.4²,
+    // |r| = |ρ_s/(1 + ρ_s)| ≤ 1.5 (ρ_s from −0.6 to 1), so at most 0.24 (+0.02 for the reading). A −0.1 there may
+    // be that echo; a −0.35 is a fault of its own, which a flag would hide.
+    const merged = (echo: number) => [edge(0.4, { onsetIdx: 1000 }), edge(echo, { onsetIdx: 2000 })];
+    expect(findEchoes(merged(-0.1), (m) => m.onsetIdx).of).toEqual([null, 0]);
+    expect(findEchoes(merged(-0.35), (m) => m.onsetIdx).of).toEqual([null, null]);
+  });
   it('drops weak features past the cable’s end, flagged or not, and the echoes of what it drops', () => {
     // A step record's open end read at 0.26 after loss: past it the line is not seen (Bewley,
     // "Traveling Waves on Transmission Systems", ch. 3), so a feature under 0.3 of it is an
