@@ -10,7 +10,8 @@
  * coarse scales its windows match the slow, loss-spread edges of far events.
  * Within two windows of the record's end, where the four windows do not fit, a
  * three-window filter C − 2B + A (zero for a linear baseline) takes over, so an
- * edge the record cuts short is still seen.
+ * edge the record cuts short is still seen; the coarsest scale may be one where only
+ * that filter fits (three windows), with its noise carried over from the finer scale.
  *
  * The threshold is set for a stated rate of false events per trace from noise
  * (by default 1 in 100): each scale contributes about 2L/w independent outputs
@@ -216,7 +217,7 @@ function filterScale(
   const n = P.length - 1;
   const from = sig.start + 2 * w;
   const to = n - 2 * w;
-  if (to <= from) return null;
+  if (to <= from) return tailOnlyScale(P, w, sig, k, rhoMin, excess);
   // Coarse scales change slowly; a stride of w/4 keeps their peaks and saves most of the work.
   const stride = Math.max(1, Math.floor(w / 4));
   const count = Math.floor((to - 1 - from) / stride) + 1;
@@ -236,6 +237,28 @@ function filterScale(
     candidates.push(...runsAbove(T, tailCount, tailFrom, stride, w, Math.max(k * sigmaT, rhoMin), sigmaT));
   }
   return { candidates, thr, excess: noise.excess };
+}
+
+/**
+ * A scale whose four windows no longer fit the search but three do: only the record-end filter
+ * C − 2B + A runs, so an edge spread over more than the finer windows and cut short by the
+ * record's end (a short cable's far echo) is still seen. Its noise cannot be measured there, so
+ * it is carried over from the finer scale (white noise of the measured σ times the excess found
+ * there) and taken three times over: noise as slow as a random walk raises the excess in
+ * proportion to the scale, three times from one scale to the next.
+ */
+function tailOnlyScale(P: Float64Array, w: number, sig: WorkingSignal, k: number, rhoMin: number, excess: number): ScaleResult | null {
+  const n = P.length - 1;
+  const from = sig.start + 2 * w;
+  const stride = Math.max(1, Math.floor(w / 4));
+  if (n - w < from) return null;
+  const count = Math.floor((n - w - from) / stride) + 1;
+  const T = new Float64Array(count);
+  const invW = 1 / w;
+  for (let j = 0, i = from; j < count; j++, i += stride) T[j] = (P[i + w] - 3 * P[i] + 3 * P[i - w] - P[i - 2 * w]) * invW;
+  const sigmaT = 3 * Math.max(whiteNoiseOfF(w, sig), 1e-12) * Math.max(1, excess) * Math.sqrt(6 / 5);
+  const thr = Math.max(k * sigmaT, rhoMin);
+  return { candidates: runsAbove(T, count, from, stride, w, thr, sigmaT), thr, excess: null };
 }
 
 /** Drop side lobes: a step gives −½ of its height at ±w on the same scale, and the level across it moves against F. */
@@ -282,7 +305,8 @@ function resolveScales(kept: Candidate[]): Candidate[] {
 function scalesOf(sig: WorkingSignal): number[] {
   const searchLen = sig.u.length - sig.start;
   const scales: number[] = [];
-  for (let w = sig.w0; 4 * w <= searchLen && scales.length < 12; w *= 3) scales.push(w);
+  // Four windows for the step filter; the last scale may fit only three (the record-end filter).
+  for (let w = sig.w0; 3 * w <= searchLen && scales.length < 12; w *= 3) scales.push(w);
   if (scales.length === 0) scales.push(Math.max(1, Math.floor(searchLen / 4)));
   return scales;
 }
