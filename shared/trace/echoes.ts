@@ -14,7 +14,9 @@
  * echo of a strong event at twice (three times) its round trip from a source
  * not yet measured is at most r·A² (r²·A³), |r| = |ρ_s/(1 + ρ_s)| ≤ 1.5 for
  * a source from ρ_s = −0.6 (a quarter of the cable's impedance) to an open;
- * a measured ρ_s outside that range is not believed. An instrument whose source impedance differs from the cable's
+ * a measured ρ_s outside that range is not believed. Such a copy of a
+ * loss-spread edge may start late by the spread its longer path adds (up to
+ * the path squared, for skin loss). An instrument whose source impedance differs from the cable's
  * reflects every returning wave back down the line with its own ρ_s, so an
  * echo of events a and b arrives at t_a + t_b (2·t_a for one event). At the
  * port a returning wave of ρ shows as (1 + ρ_s)·ρ, and its first source echo
@@ -75,9 +77,16 @@ function echoOf(cx: EchoContext, of: Array<number | null>, k: number): number | 
     // it may start late by its own spread, early only by the timing error of the sharper edge.
     const early = tolerance(e.riseSamples <= merged[s].riseSamples ? e : merged[s], rt[k]);
     const near = (t: number) => rt[k] - t < tol && t - rt[k] < early;
+    // s's copy after n trips (n = 2, 3, re-reflected at the source): a loss-spread edge is timed at its foot,
+    // which lags the arrival by up to 0.6 of its spread, and the spread grows at most as the square of the
+    // path (skin loss), so the copy's foot may lag n times s's by up to 0.6·rise_s·(n² − n).
+    const nearCopy = (n: number) => {
+      const lateBy = Math.max(tol, 0.6 * merged[s].riseSamples * (n * n - n));
+      return rt[k] - n * rt[s] < lateBy && n * rt[s] - rt[k] < early;
+    };
     // Re-reflected at the source once or twice: A₂ = r·A², A₃ = r²·A³ with r = ρ_s/(1 + ρ_s), |r| ≤ 1.5 for any
     // source from ρ_s = −0.6 to an open; anything larger at those times is no source echo and stays a fault.
-    const viaSourceOnly = (near(2 * rt[s]) && he < SOURCE_R * hs * hs + 0.02) || (near(3 * rt[s]) && he < SOURCE_R ** 2 * hs ** 3 + 0.02);
+    const viaSourceOnly = (nearCopy(2) && he < SOURCE_R * hs * hs + 0.02) || (nearCopy(3) && he < SOURCE_R ** 2 * hs ** 3 + 0.02);
     if (hs >= STRONG && viaSourceOnly) return s;
     for (let a = 0; a <= s; a++) {
       if (of[a] !== null) continue;

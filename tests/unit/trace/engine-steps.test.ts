@@ -287,6 +287,14 @@ describe('echoes', () => {
     expect(findEchoes(merged(-0.1), (m) => m.onsetIdx).of).toEqual([null, 0]);
     expect(findEchoes(merged(-0.35), (m) => m.onsetIdx).of).toEqual([null, null]);
   });
+  it('lets a loss-spread event’s source echo start late by the spread its doubled path adds', () => {
+    // A shunt read −0.54 at 3660 samples whose lossy edge rises over 283: its copy re-reflected at the source
+    // travels twice the path, spread up to four times as much (skin loss grows as the path squared), so its foot
+    // may lag 2·3660 by up to 0.6·283·(4 − 2) = 340 samples. A weak edge 300 late is that copy; 400 late it is not.
+    const merged = (at: number) => [edge(-0.54, { onsetIdx: 3660, riseSamples: 283 }), edge(0.007, { onsetIdx: at, riseSamples: 48 })];
+    expect(findEchoes(merged(7620), (m) => m.onsetIdx).of).toEqual([null, 0]);
+    expect(findEchoes(merged(7720), (m) => m.onsetIdx).of).toEqual([null, null]);
+  });
   it('drops weak features past the cable’s end, flagged or not, and the echoes of what it drops', () => {
     // A step record's open end read at 0.26 after loss: past it the line is not seen (Bewley,
     // "Traveling Waves on Transmission Systems", ch. 3), so a feature under 0.3 of it is an
