@@ -4,8 +4,8 @@
  *
  *  1. Noise (noise.ts): robust σ of the record.
  *  2. Launch and mode (launch.ts): the instrument's edge or pulse, step or pulse record.
- *  3. Working signal (signal.ts): the trace in units of ρ; on a step record with the
- *     cable's loss known, less the incident step's own creep (creep.ts).
+ *  3. Working signal (signal.ts): the trace in units of ρ; with the cable's loss known,
+ *     less the creep the launch leaves on a line with series loss (creep.ts).
  *  4. Detection (detection.ts): multi-scale step filter against a noise threshold.
  *  5. Edge fit (edge-fit.ts): arrival time and height of each event.
  *  6. Location (locate.ts): round trip from the launch, distance d = VF·c·t/2.
@@ -16,7 +16,7 @@
 import { distanceFromRoundTrip, SPEED_OF_LIGHT_M_PER_S } from '../cable/propagation';
 import type { ReflectionEvent, TraceAnalysis, TraceWarning } from '../schemas/trace-analysis';
 import { checkTimeAxisBounds } from './bounds';
-import { removeIncidentCreep } from './creep';
+import { pulseCreepRemoved, removeIncidentCreep } from './creep';
 import { classifyEvent, impedanceOf, ownReflections } from './classify';
 import { detectEdges, dropClutter, dropQuantiserStairs, FALSE_EVENTS_PER_TRACE, mergeEdges } from './detection';
 import { findEchoes, resolveCableEnd } from './echoes';
@@ -265,7 +265,9 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
   }
   // One record-length buffer for the temporary running sums of the noise measure and of detection, in turn.
   const scratch = new Float64Array(rec.n + 1);
-  const signal = buildWorkingSignal(rec, L, sigma0, scratch);
+  // A pulse record's launch leaves the same creep behind it, as a slow tail: taken out of the trace itself.
+  const pulseFixed = options.loss && options.loss.length > 0 ? pulseCreepRemoved(rec, L, lossModelThroughLine(options.loss, options.vf), options.vf) : null;
+  const signal = buildWorkingSignal(pulseFixed ? { ...rec, y: pulseFixed } : rec, L, sigma0, scratch);
   if (rec.n - signal.start < 16) {
     const msg = 'no reflection above noise (the record ends inside the blind zone)';
     return emptyAnalysis(rec, L, options, sigma0, [...warnings, { code: 'NO_REFLECTION', message: msg }]);

@@ -12,6 +12,9 @@
  * over thousands of samples by the same loss, ride on it and read early, late or not
  * at all. With the cable's loss known, the creep is subtracted from the working
  * signal before detection and the edge fit, which then see the reflections alone.
+ * A pulse is a step up and a step down: its creep is the launch pulse convolved with
+ * the creep's increments, a slow tail behind the pulse, taken out of the trace itself
+ * before the pulse record's baseline is read.
  *
  * The response is computed on a few nested time grids, each eight times finer than
  * the one before over the first eighth of its span, so the square-root rise just
@@ -65,4 +68,29 @@ export function removeIncidentCreep(rec: TraceRecord, L: Launch, sig: WorkingSig
   if (!any) return false;
   sig.us.set(boxcar(sig.u, sig.smoothW));
   return true;
+}
+
+/**
+ * A pulse record's trace less the creep its launch pulse leaves behind on a line with series loss:
+ * the pulse is a step up and a step down, each creeping as incidentCreep has it, so the port shows
+ * the launch pulse convolved with the creep's increments. Returns the corrected trace, or null where
+ * it does not apply (no launch in the record, a clipped one, no series loss).
+ */
+export function pulseCreepRemoved(rec: TraceRecord, L: Launch, model: LossModel | null, vf: number): Float64Array | null {
+  if (L.mode !== 'pulse' || !model || !(vf > 0) || !L.found || !L.onsetInRecord || L.clipped) return null;
+  const n = rec.n;
+  const from = Math.max(0, Math.floor(L.idx - 2 * Math.max(1, L.riseSamples)));
+  const to = Math.min(n - 1, Math.ceil(L.settleIdx));
+  if (!(to > from)) return null;
+  const c = incidentCreep(model, vf, rec, 0);
+  const dc = new Float64Array(n);
+  for (let i = 1; i < n; i++) dc[i] = c[i] - c[i - 1];
+  if (!dc.some((x) => x !== 0)) return null;
+  const y = Float64Array.from(rec.y);
+  for (let k = from; k <= to; k++) {
+    const p = rec.y[k] - L.baseline;
+    if (p === 0) continue;
+    for (let t = k + 1; t < n; t++) y[t] -= p * dc[t - k];
+  }
+  return y;
 }

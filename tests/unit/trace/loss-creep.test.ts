@@ -1,7 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { SPEED_OF_LIGHT_M_PER_S } from '../../../shared/cable/propagation';
 import { analyzeCsv } from '../../../shared/trace';
-import { incidentCreep } from '../../../shared/trace/creep';
+import { incidentCreep, pulseCreepRemoved } from '../../../shared/trace/creep';
+import { findLaunch } from '../../../shared/trace/launch';
+import { estimateSlowNoise } from '../../../shared/trace/noise';
 import { attenuationFromLineConstants, exactLineKernel, lossModelThroughLine } from '../../../shared/trace/loss';
 import { incidentStep } from '../../../shared/trace/loss-estimate';
 import { PAIR_04 } from '../../../scripts/sim/cables';
@@ -85,5 +87,36 @@ describe('the incident step’s creep on a lossy pair', () => {
     expect(count).toBeGreaterThan(500);
     // A thousandth of the incident step, where the reflection has risen to a fifth of it.
     expect(Math.sqrt(ss / count)).toBeLessThan(0.001);
+  });
+});
+
+describe('the creep a launch pulse leaves on a lossy pair', () => {
+  it('is taken out of the trace: the tail behind the pulse falls to the simulator’s own level before the echo', () => {
+    // A noise-free pulse into 1 km of 0.4 mm pair from a source of its nominal impedance; the echo of the
+    // open end arrives one round trip after the launch, and before it the line shows only the launch's creep.
+    const cable = PAIR_04;
+    const d = 1000;
+    const scenario: Scenario = { name: 'pair-04-1000m-open', cable, lengthM: d, end: 'open', features: [] };
+    const acq = defaultAcquisition(scenario, 'pulse', 1, 0, 16);
+    const dt = acq.sampleIntervalS;
+    const n = acq.samples;
+    const t0 = acq.preTriggerSamples;
+    const widthS = acq.pulseWidthS ?? 2 * acq.riseTimeS;
+    const y = simulate(buildNetwork(scenario).net, { samples: n, sampleIntervalS: dt, launchAtS: t0 * dt, riseTimeS: acq.riseTimeS, sourceV: 2, sourceOhm: cable.z0Ohm, excitation: { kind: 'pulse', widthS } });
+    const rec = { y, t: new Float64Array(n).map((_, i) => (i - t0) * dt), n, dt, unit: 'V' as const };
+    const L = findLaunch(rec, 'pulse', widthS / dt, estimateSlowNoise(y));
+    expect(L.found).toBe(true);
+    const fixed = pulseCreepRemoved(rec, L, lossModelThroughLine(libraryLoss(cable), cable.vf), cable.vf);
+    expect(fixed).not.toBeNull();
+    const arrival = t0 + (2 * d) / (cable.vf * SPEED_OF_LIGHT_M_PER_S) / dt;
+    let raw = 0;
+    let left = 0;
+    for (let i = Math.ceil(L.settleIdx + 20); i < arrival - 10; i++) {
+      raw = Math.max(raw, Math.abs(y[i] - L.baseline));
+      left = Math.max(left, Math.abs(fixed![i] - L.baseline));
+    }
+    // The tail is a hundredth of the launch's peak; under a thousandth of it is left.
+    expect(raw).toBeGreaterThan(0.005 * L.height);
+    expect(left).toBeLessThan(0.001 * L.height);
   });
 });
