@@ -305,7 +305,11 @@ function launchBeforeRecord(rec: TraceRecord, lv: Levels, positiveOnly: boolean)
   if (lv.zeroIdx > 0.5 * iFall || (Math.abs(lv.zeroIdx) < 0.5 && sign < 0)) return null;
   const { i10, fall } = fallSamples(y, iFall, sign, lv.rest, peak);
   if (iFall < fall) return null;
-  if (fractionNear(y, Math.min(n, i10 + 2 * fall), lv.rest, 0.25 * peak) < 0.6) return null;
+  // It rests there after the launch, apart from its echoes; a wide pulse on a short line fills
+  // much of the record with echoes and their bounces, and then the median still sits on the level.
+  const after = Math.min(n - 1, i10 + 2 * fall);
+  const near = fractionNear(y, after, lv.rest, 0.25 * peak);
+  if (!(near >= 0.6 || (near >= 0.3 && Math.abs(sampleMedian(y, after, n) - lv.rest) < RESTING_MEDIAN_MAX * peak))) return null;
   return {
     found: true,
     onsetInRecord: false,
