@@ -169,7 +169,7 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
       vfAtPulseWidth: options.vfPulseWidthNs !== undefined,
     });
     const uncertaintyM = budget.expandedM;
-    const type = classifyEvent(m, own[mi], L.found ? L.riseSamples : sig.w0);
+    const type = classifyEvent(m, own[mi], L.found ? L.riseSamples : sig.w0, rec.n - 1);
     const amplitude =
       sig.mode === 'step'
         ? rhoRaw * Math.abs(L.found || rec.unit !== 'rho' ? L.height : 1)

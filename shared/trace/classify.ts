@@ -72,13 +72,15 @@ export function ownReflections(merged: Measured[], isEcho: boolean[], sourceRho 
   });
 }
 
-/** Open, short, or an impedance rise or drop, from the event's own ρ. */
-export function classifyEvent(m: Measured, own: OwnReflection, launchRiseSamples: number): ReflectionType {
+/** Open, short, or an impedance rise or drop, from the event's own ρ; `recordEnd` is the record's last sample. */
+export function classifyEvent(m: Measured, own: OwnReflection, launchRiseSamples: number, recordEnd = Infinity): ReflectionType {
   const rho = own.rho;
   if (!m.blip) {
     if (rho >= OPEN_MIN_RHO) return 'open';
     if (rho <= SHORT_MAX_RHO) return 'short';
-    const settling = m.stillMoving > 0.05;
+    // Still rising where its level window meets the record's end: the reading is cut short. A level
+    // still moving inside the record is the next feature arriving (one too weak to report), not this edge.
+    const settling = m.stillMoving > 0.05 && m.endIdx >= recordEnd - 2;
     const spread = m.riseSamples >= 4 * Math.max(1, launchRiseSamples) || settling;
     if (own.isLast && spread) {
       // A loss-corrected ρ has had most of the loss given back, so it must come nearer ±1.

@@ -233,6 +233,15 @@ describe('classification', () => {
     expect(classifyEvent(edge(-0.85), { rho: -0.85, transmission: 1, isLast: false }, 4)).toBe('short');
     expect(classifyEvent(edge(0.79), { rho: 0.79, transmission: 1, isLast: false }, 4)).toBe('impedance-rise');
   });
+
+  it('reads a last edge still rising as cut short only where its level window meets the record’s end', () => {
+    // A bridged tap's junction, ρ −0.30, the last edge reported: its level still moves 15 % because the stub's
+    // end arrives (too weak to report). Inside the record that is no cut-short end; at the record's end it may be.
+    const junction = (endIdx: number) => edge(-0.3, { riseSamples: 130, stillMoving: 0.15, endIdx, lossCorrected: true });
+    const last = { rho: -0.3, transmission: 1, isLast: true };
+    expect(classifyEvent(junction(2200), last, 78, 9999)).toBe('impedance-drop');
+    expect(classifyEvent(junction(9999), last, 78, 9999)).toBe('short');
+  });
 });
 
 describe('echoes', () => {
