@@ -11,7 +11,7 @@
  * Stretches held flat at the record's extreme (a saturated recorder) carry no
  * noise and are left out.
  */
-import { madSigma, prefixSums } from './stats';
+import { clippedMadSigma, madSigma, prefixSums } from './stats';
 
 /**
  * Is sample i inside a run of eight or more equal values at the record's maximum (hi) or
@@ -199,12 +199,18 @@ export function estimateSlowNoise(y: Float64Array): number {
  * sizes b = 1, 2, 4, … while at least 48 blocks remain. Blocks that touch a stretch held at
  * the recorder's limit (`held`, from heldStretches) are left out: it has no noise to measure.
  * A scale beyond the largest block takes that block's factor. Always at least 1.
+ * Up to blocks of `clipUpTo` samples the spread is clipped (clippedMadSigma): a pulse record
+ * of a short cable is mostly launch and echoes at block sizes near the pulse's width, more
+ * than half of its second differences, which the plain MAD cannot see past. Beyond that the
+ * shapes that survive a second difference are the line's own slow creep, which the engine does
+ * not model, and the plain spread keeps them in the noise.
  */
 export function noiseExcess(
   y: Float64Array,
   sigma0: number,
   scratch?: Float64Array,
   held: Int32Array | null = null,
+  clipUpTo = 0,
 ): (w: number) => number {
   const n = y.length;
   const sizes: number[] = [];
@@ -228,7 +234,8 @@ export function noiseExcess(
       // Too few blocks left clear of the recorder's limit for a robust spread.
       if (held !== null && m < 46) break;
       sizes.push(b);
-      factors.push(Math.max(1, madSigma(d2, 0, m) / ((Math.sqrt(6) * sigma0) / Math.sqrt(b))));
+      const spread = b <= clipUpTo ? clippedMadSigma(d2, 0, m) : madSigma(d2, 0, m);
+      factors.push(Math.max(1, spread / ((Math.sqrt(6) * sigma0) / Math.sqrt(b))));
     }
   }
   return (w) => {

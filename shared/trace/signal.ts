@@ -158,7 +158,7 @@ export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number, 
     blindIdx,
     // A step record clipped after the cable end holds a long flat stretch with no noise in it.
     // (A pulse record's u is a running sum, never held flat by a clipped peak.)
-    noiseExcess: noiseExcess(rec.y, sigma0, scratch, held),
+    noiseExcess: noiseExcess(rec.y, sigma0, scratch, held, mode === 'pulse' && L.found ? 2 * (L.widthSamples ?? 0) : 0),
     held,
     quantU: mode === 'step' ? adcStep(rec.y) / Math.abs(L.found || rec.unit !== 'rho' ? L.height : 1) : 0,
   };

@@ -63,6 +63,28 @@ export function madSigma(values: ArrayLike<number>, from: number, to: number): n
   return MAD_TO_SIGMA * select(tmp, mid);
 }
 
+/**
+ * Robust σ of values[from, to) that holds when more than half of them are signal standing far
+ * out of the noise (where the plain MAD breaks down): 1.4826·MAD, then again over the values
+ * within 3σ of the median, until no more are left out
+ * (iterative κσ clipping with κ = 3, as used to measure a sky background under the sources on
+ * it, E. Bertin and S. Arnouts, Astron. Astrophys. Suppl. 117 (1996) 393; from memory). On
+ * Gaussian noise alone a 3σ clip leaves out 0.3 % of it and lowers σ by well under 1 %.
+ */
+export function clippedMadSigma(values: ArrayLike<number>, from: number, to: number, minKept = 8): number {
+  let kept = Float64Array.from({ length: Math.max(0, to - from) }, (_, k) => values[from + k]);
+  let sigma = madSigma(kept, 0, kept.length);
+  for (let iter = 0; iter < 20 && sigma > 0; iter++) {
+    const tmp = Float64Array.from(kept);
+    const med = select(tmp, tmp.length >> 1);
+    const next = kept.filter((v) => Math.abs(v - med) <= 3 * sigma);
+    if (next.length === kept.length || next.length < minKept) break;
+    kept = next;
+    sigma = madSigma(kept, 0, kept.length);
+  }
+  return sigma;
+}
+
 /** Evenly spaced sample of up to 4001 values, sorted, for percentiles of a long trace. */
 export function sortedSample(values: ArrayLike<number>): Float64Array {
   const n = values.length;
