@@ -22,13 +22,15 @@
  * filter's own output (robust 1.4826·MAD, Hampel 1974, of differences four
  * windows apart, where the creep of a lossy line cancels), so coloured noise is
  * met at the scale it acts on; it is never taken below what white noise of the
- * measured sample noise would give. At coarse scales, where the record holds
+ * measured sample noise would give. Where a coarse recorder's levels show
+ * through (the differences tie), the median sits on a tie and the spread is
+ * read from their 90th percentile instead. At coarse scales, where the record holds
  * too few independent outputs for a robust spread, the ratio of measured to
  * white noise found at the finer scales is carried over.
  */
 import type { ReflectionEvent, TraceWarning } from '../schemas/trace-analysis';
 import { touchesHeld } from './noise';
-import { madSigma, normalUpperQuantile, prefixSums } from './stats';
+import { madSigma, normalUpperQuantile, prefixSums, select } from './stats';
 import type { Candidate, Launch, Measured, WorkingSignal } from './steps';
 
 /** Target rate of false events per trace, from noise. */
@@ -100,6 +102,7 @@ function filterNoise(
     }
     if (held !== null) used = Math.round((j / dF.length) * count);
     if (j >= 8) measured = madSigma(dF, 0, j) / Math.SQRT2;
+    if (j >= 8) measured = Math.max(measured, quantisedSpread(dF.subarray(0, j)));
   } else {
     const all = new Float64Array(count);
     for (let k = 0; k < count; k++) all[k] = stepFilterAt(P, from + k * stride, w, inv);
@@ -108,6 +111,25 @@ function filterNoise(
   // Enough independent outputs (twelve lags' worth) for the robust spread to hold.
   if (used >= 12 * lag) return { sigmaF: Math.max(measured, white), excess: Math.max(1, measured / white) };
   return { sigmaF: Math.max(white, Math.min(measured, 3 * excess * white)), excess: null };
+}
+
+/**
+ * Where the recorder's quantiser shows through the filter (its output differences take fewer distinct
+ * values than half their number), the median of |dF| sits on a tie and understates the spread (the
+ * MAD's implosion on discrete data: P. J. Rousseeuw and C. Croux, "Alternatives to the median absolute
+ * deviation", JASA 88 (1993) 1273): σ is then read from the 90th percentile of |dF| (1.645σ for Gaussian
+ * noise, past the ties). 0 where the outputs are continuous. Reorders `dF`.
+ */
+function quantisedSpread(dF: Float64Array): number {
+  const n = dF.length;
+  dF.sort();
+  // Equal up to the rounding of the running sums the filter is read from.
+  const eps = 1e-9 * Math.max(Math.abs(dF[0]), Math.abs(dF[n - 1]));
+  let distinct = 1;
+  for (let k = 1; k < n; k++) if (dF[k] - dF[k - 1] > eps) distinct++;
+  if (distinct >= 0.5 * n) return 0;
+  for (let k = 0; k < n; k++) dF[k] = Math.abs(dF[k]);
+  return select(dF, Math.floor(0.9 * (n - 1))) / 1.645 / Math.SQRT2;
 }
 
 /**
