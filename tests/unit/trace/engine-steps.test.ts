@@ -300,7 +300,8 @@ describe('echoes', () => {
     // A shunt read −0.54 at 3660 samples whose lossy edge rises over 283: its copy re-reflected at the source
     // travels twice the path, spread up to four times as much (skin loss grows as the path squared), so its foot
     // may lag 2·3660 by up to 0.6·283·(4 − 2) = 340 samples. A weak edge 300 late is that copy; 400 late it is not.
-    const merged = (at: number) => [edge(-0.54, { onsetIdx: 3660, riseSamples: 283 }), edge(0.007, { onsetIdx: at, riseSamples: 48 })];
+    // The weak edge stands 7.9 deviations out, as read on the record this came from.
+    const merged = (at: number) => [edge(-0.54, { onsetIdx: 3660, riseSamples: 283 }), edge(0.007, { onsetIdx: at, riseSamples: 48, snr: 7.9 })];
     expect(findEchoes(merged(7620), (m) => m.onsetIdx).of).toEqual([null, 0]);
     expect(findEchoes(merged(7720), (m) => m.onsetIdx).of).toEqual([null, null]);
   });
