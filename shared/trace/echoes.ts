@@ -64,6 +64,9 @@ interface EchoContext {
   sourceRho: number;
 }
 
+/** Signal-to-noise above which an edge's own rise is read well enough to bound how late it can be. */
+const COPY_RISE_SNR = 20;
+
 /** Which earlier edge `merged[k]` echoes, given the echoes found so far. */
 function echoOf(cx: EchoContext, of: Array<number | null>, k: number): number | null {
   const { merged, rt, sourceRho } = cx;
@@ -79,9 +82,13 @@ function echoOf(cx: EchoContext, of: Array<number | null>, k: number): number | 
     const near = (t: number) => rt[k] - t < tol && t - rt[k] < early;
     // s's copy after n trips (n = 2, 3, re-reflected at the source): a loss-spread edge is timed at its foot,
     // which lags the arrival by up to 0.6 of its spread, and the spread grows at most as the square of the
-    // path (skin loss), so the copy's foot may lag n times s's by up to 0.6·rise_s·(n² − n).
+    // path (skin loss), so the copy's foot may lag n times s's by up to 0.6·rise_s·(n² − n); and by no more
+    // than 0.6 of the copy's own spread where that is read well (an edge standing 20 deviations out), so an
+    // edge sharper than s is not its late copy.
+    const copyRiseKnown = e.snr >= COPY_RISE_SNR;
     const nearCopy = (n: number) => {
-      const lateBy = Math.max(tol, 0.6 * merged[s].riseSamples * (n * n - n));
+      const spreadLag = merged[s].riseSamples * (n * n - n);
+      const lateBy = Math.max(tol, 0.6 * (copyRiseKnown ? Math.min(spreadLag, e.riseSamples) : spreadLag));
       return rt[k] - n * rt[s] < lateBy && n * rt[s] - rt[k] < early;
     };
     // Re-reflected at the source once or twice: A₂ = r·A², A₃ = r²·A³ with r = ρ_s/(1 + ρ_s), |r| ≤ 1.5 for any

@@ -305,6 +305,19 @@ describe('echoes', () => {
     expect(findEchoes(merged(7620), (m) => m.onsetIdx).of).toEqual([null, 0]);
     expect(findEchoes(merged(7720), (m) => m.onsetIdx).of).toEqual([null, null]);
   });
+  it('does not take a well-read edge sharper than a spread event for its late source copy', () => {
+    // An event read −0.44 at 713 samples rising over 185, and a strong open 102 samples after twice that round
+    // trip rising over only 119: a copy that travelled twice as far is no sharper, so its foot lags by at most
+    // 0.6 of its own rise (71 samples) and the open stays a fault. The same edge as spread as the event would be
+    // its copy, and so would a weak edge whose rise is read too poorly to tell.
+    const merged = (rise: number, snr: number) => [
+      edge(-0.44, { onsetIdx: 713, riseSamples: 185 }),
+      edge(0.24, { onsetIdx: 1528, riseSamples: rise, snr }),
+    ];
+    expect(findEchoes(merged(119, 60), (m) => m.onsetIdx).of).toEqual([null, null]);
+    expect(findEchoes(merged(200, 60), (m) => m.onsetIdx).of).toEqual([null, 0]);
+    expect(findEchoes(merged(119, 8), (m) => m.onsetIdx).of).toEqual([null, 0]);
+  });
   it('drops weak features past the cable’s end, flagged or not, and the echoes of what it drops', () => {
     // A step record's open end read at 0.26 after loss: past it the line is not seen (Bewley,
     // "Traveling Waves on Transmission Systems", ch. 3), so a feature under 0.3 of it is an
