@@ -17,7 +17,7 @@ import { distanceFromRoundTrip, SPEED_OF_LIGHT_M_PER_S } from '../cable/propagat
 import type { ReflectionEvent, TraceAnalysis, TraceWarning } from '../schemas/trace-analysis';
 import { checkTimeAxisBounds } from './bounds';
 import { pulseCreepRemoved, removeIncidentCreep } from './creep';
-import { classifyEvent, impedanceOf, ownReflections } from './classify';
+import { classifyEvent, impedanceOf, ownReflections, SHORT_MAX_RHO } from './classify';
 import { detectEdges, dropClutter, dropQuantiserStairs, FALSE_EVENTS_PER_TRACE, mergeEdges } from './detection';
 import { findEchoes, resolveCableEnd } from './echoes';
 import { fitEdges, fitLineEdges, lossSummary, pathLossDb } from './edge-fit';
@@ -231,8 +231,40 @@ function strongestCandidates(all: Candidate[], warnings: TraceWarning[]): Candid
   return kept;
 }
 
+/**
+ * A step reading no line can give: a total reflection (a short, ρ ≤ −0.8 read at the instrument)
+ * followed by a strong event that is no echo. A short returns the whole wave, so what lies beyond it
+ * shows at most (1 − |ρ|)² of its size (Pozar §2.3) and a step record stays at its level; a record that
+ * falls to the baseline and climbs back is a wide pulse. `strong` is in units of the launch.
+ */
+export function impossibleStepReading(a: TraceAnalysis, strong = 0.3): boolean {
+  if (a.mode !== 'step') return false;
+  const raw = (e: ReflectionEvent) => e.reflectionCoefficientRaw ?? e.reflectionCoefficient;
+  const k = a.events.findIndex((e) => e.likelyMultipleOf === null && raw(e) <= SHORT_MAX_RHO);
+  return k >= 0 && a.events.some((e, j) => j > k && e.likelyMultipleOf === null && Math.abs(raw(e)) >= strong);
+}
+
 /** Analyse a parsed trace. Throws TraceInputError for bad options. */
 export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): TraceAnalysis {
+  const a = analyzeOnce(trace, options);
+  if ((options.mode ?? 'auto') !== 'auto' || !a.modeDetected || !impossibleStepReading(a)) return a;
+  // Read as a step record, it has a line seen past a short: it is a pulse record whose launch is wide.
+  const p = analyzeOnce(trace, { ...options, mode: 'pulse' });
+  return {
+    ...p,
+    modeDetected: true,
+    warnings: [
+      ...p.warnings,
+      {
+        code: 'MODE_FROM_ECHOES',
+        message:
+          'read as a pulse record: as a step record it would show the line beyond a short, which no cable can; give the mode if this is wrong',
+      },
+    ],
+  };
+}
+
+function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): TraceAnalysis {
   validateOptions(options);
   checkTimeAxisBounds(trace);
   const rec = recordOf(trace);
