@@ -7,7 +7,9 @@
  * multiscale edges", IEEE Trans. PAMI 14 (1992) 710). It returns the step
  * height for a step and zero for any constant, linear or quadratic baseline,
  * so the slow creep of a lossy line and DC drift do not raise events; at the
- * coarse scales its windows match the slow, loss-spread edges of far events.
+ * coarse scales its windows match the slow, loss-spread edges of far events. In a
+ * pulse record the scale 2w is added: an echo's ramp in the running sum is the pulse's
+ * whole width, twice the finest window, which reads only the ramp's two corners.
  * Within two windows of the record's end, where the four windows do not fit, a
  * three-window filter C − 2B + A (zero for a linear baseline) takes over, so an
  * edge the record cuts short is still seen; the coarsest scale may be one where only
@@ -329,6 +331,9 @@ function scalesOf(sig: WorkingSignal): number[] {
   const scales: number[] = [];
   // Four windows for the step filter; the last scale may fit only three (the record-end filter).
   for (let w = sig.w0; 3 * w <= searchLen && scales.length < 12; w *= 3) scales.push(w);
+  // A pulse echo's ramp in the running sum is its whole width, twice the finest window: that
+  // scale too, where the finest reads only the ramp's two corners.
+  if (sig.mode === 'pulse' && 4 * 2 * sig.w0 <= searchLen) scales.splice(1, 0, 2 * sig.w0);
   if (scales.length === 0) scales.push(Math.max(1, Math.floor(searchLen / 4)));
   return scales;
 }
