@@ -65,7 +65,7 @@ interface EchoContext {
 }
 
 /** Signal-to-noise above which an edge's own rise is read well enough to bound how late it can be. */
-const COPY_RISE_SNR = 20;
+const COPY_RISE_SNR = 10;
 
 /** Which earlier edge `merged[k]` echoes, given the echoes found so far. */
 function echoOf(cx: EchoContext, of: Array<number | null>, k: number): number | null {
@@ -83,7 +83,7 @@ function echoOf(cx: EchoContext, of: Array<number | null>, k: number): number | 
     // s's copy after n trips (n = 2, 3, re-reflected at the source): a loss-spread edge is timed at its foot,
     // which lags the arrival by up to 0.6 of its spread, and the spread grows at most as the square of the
     // path (skin loss), so the copy's foot may lag n times s's by up to 0.6·rise_s·(n² − n); and by no more
-    // than 0.6 of the copy's own spread where that is read well (an edge standing 20 deviations out), so an
+    // than 0.6 of the copy's own spread where that is read well (an edge standing 10 deviations out), so an
     // edge sharper than s is not its late copy.
     const copyRiseKnown = e.snr >= COPY_RISE_SNR;
     const nearCopy = (n: number) => {

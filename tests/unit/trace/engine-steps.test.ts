@@ -315,6 +315,8 @@ describe('echoes', () => {
       edge(0.24, { onsetIdx: 1528, riseSamples: rise, snr }),
     ];
     expect(findEchoes(merged(119, 60), (m) => m.onsetIdx).of).toEqual([null, null]);
+    // The same open read 19.8 deviations out at another filter scale: its rise is still read well.
+    expect(findEchoes(merged(119, 19.8), (m) => m.onsetIdx).of).toEqual([null, null]);
     expect(findEchoes(merged(200, 60), (m) => m.onsetIdx).of).toEqual([null, 0]);
     expect(findEchoes(merged(119, 8), (m) => m.onsetIdx).of).toEqual([null, 0]);
   });
