@@ -31,6 +31,8 @@ describe('a far echo that the record cuts short, spread over more than the fines
     // Found at a scale coarser than the finest (twice it, the echo ramp's scale, where four
     // windows fit, or the record-end filter's three times it).
     expect(far[0].w).toBeGreaterThan(sig.w0);
+    // And by the record-end filter: the four windows of that scale would run past the record's end.
+    expect(far[0].i + 2 * far[0].w).toBeGreaterThan(N);
   });
 
   it('reads the open at its distance', () => {
