@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { analyzeTrace, type ParsedTrace } from '../../../shared/trace';
+import { gaussianSource } from '../../../scripts/sim/line-model';
+import { gaussianShapes, parsedTrace } from '../../support/parsed-trace';
 
 /**
  * A pulse record whose launch is wide (150 samples of 4 ns, rise 28) beside a cable that is short
@@ -9,36 +11,10 @@ import { analyzeTrace, type ParsedTrace } from '../../../shared/trace';
  */
 function record(echoAt: number | null): ParsedTrace {
   const n = 700;
-  const dt = 4e-9;
-  const erf = (x: number) => {
-    // Abramowitz & Stegun 7.1.26
-    const s = Math.sign(x);
-    const a = Math.abs(x);
-    const t = 1 / (1 + 0.3275911 * a);
-    return s * (1 - ((((1.061405429 * t - 1.453152027) * t + 1.421413741) * t - 0.284496736) * t + 0.254829592) * t * Math.exp(-a * a));
-  };
-  const edge = (i: number, at: number) => 0.5 * (1 + erf((i - at) / 12));
-  const pulse = (i: number, at: number) => edge(i, at) - edge(i, at + 150);
-  let seed = 3;
-  const rnd = () => {
-    seed = (seed * 16807) % 2147483647;
-    return seed / 2147483647 - 0.5;
-  };
-  const timeS = new Float64Array(n);
-  const amplitude = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    timeS[i] = (i - 50) * dt;
-    amplitude[i] = pulse(i, 50) + (echoAt === null ? 0 : 0.97 * pulse(i, 50 + echoAt)) + 0.02 * rnd();
-  }
-  return {
-    timeS,
-    amplitude,
-    amplitudeUnit: 'V',
-    metadata: {},
-    hints: {},
-    layout: { kind: 'time-amplitude', delimiter: ',', decimal: '.', timeUnit: 's', amplitudeUnit: 'V' },
-    warnings: [],
-  } as unknown as ParsedTrace;
+  const { pulse } = gaussianShapes(22);
+  const rnd = gaussianSource(3);
+  const y = new Float64Array(n).map((_, i) => pulse(i, 50, 150) + (echoAt === null ? 0 : 0.97 * pulse(i, 50 + echoAt, 150)) + 0.006 * rnd());
+  return parsedTrace(y, { dtS: 4e-9, t0S: -50 * 4e-9 });
 }
 
 describe('a wide pulse record with no stated width', () => {
