@@ -178,7 +178,7 @@ export function lossModelThroughLine(points: readonly LossPoint[], vf: number): 
   return c < cost(toModel0(start)) && residuals(x).every((r) => Math.abs(r) <= 0.01) ? toModel(x) : start;
 }
 
-/** Solves the k × (k + 1) augmented system in place by Gaussian elimination; null when singular. */
+/** Solves the k × (k + 1) augmented system in place by Gaussian elimination with partial pivoting; null when singular. */
 function solveDense(a: number[][]): number[] | null {
   const k = a.length;
   for (let c = 0; c < k; c++) {
@@ -205,20 +205,10 @@ function solveSubset(rows: Array<{ x: number[]; y: number }>, set: number[]): nu
       a[i][k] += r.x[set[i]] * r.y;
     }
   }
-  // Gaussian elimination with partial pivoting.
-  for (let c = 0; c < k; c++) {
-    let p = c;
-    for (let i = c + 1; i < k; i++) if (Math.abs(a[i][c]) > Math.abs(a[p][c])) p = i;
-    if (!(Math.abs(a[p][c]) > 1e-300)) return null;
-    [a[c], a[p]] = [a[p], a[c]];
-    for (let i = 0; i < k; i++) {
-      if (i === c) continue;
-      const f = a[i][c] / a[c][c];
-      for (let j = c; j <= k; j++) a[i][j] -= f * a[c][j];
-    }
-  }
+  const x = solveDense(a);
+  if (!x) return null;
   const coef = [0, 0, 0];
-  set.forEach((term, i) => (coef[term] = a[i][k] / a[i][i]));
+  set.forEach((term, i) => (coef[term] = x[i]));
   return coef;
 }
 
