@@ -802,7 +802,10 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
       dielectricNpPerMPerHz: model.dielectricNpPerMPerHz,
     };
     m.heightRaw = m.height;
-    m.height = f.h;
+    // With no loss model the fitted shape is the launch's own, narrower than an echo the line has spread,
+    // and a narrow shape fitted to a spread echo reads its height short; the echo's area, which the skin
+    // effect does not change, is the pulse reading's ρ (as the header of this module and analyze say).
+    if (!(input.signal.mode === 'pulse' && lossSource === 'none')) m.height = f.h;
     // A pulse's ρ comes from the echo's area, which only the line's DC resistance lowers (skin loss spreads
     // the echo but keeps its area). A loss estimated from the edges' shape alone has no resistive term,
     // so such a reading is not corrected for the loss that lowers it, and says so.
