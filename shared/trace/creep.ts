@@ -20,7 +20,7 @@
  * the one before over the first eighth of its span, so the square-root rise just
  * after the launch is followed as closely as the slow climb at the record's end.
  */
-import type { LossModel } from './loss';
+import { fft, type LossModel } from './loss';
 import { incidentStep } from './loss-estimate';
 import { boxcar } from './stats';
 import type { Launch, TraceRecord, WorkingSignal } from './steps';
@@ -87,10 +87,36 @@ export function pulseCreepRemoved(rec: TraceRecord, L: Launch, model: LossModel 
   for (let i = 1; i < n; i++) dc[i] = c[i] - c[i - 1];
   if (!dc.some((x) => x !== 0)) return null;
   const y = Float64Array.from(rec.y);
-  for (let k = from; k <= to; k++) {
-    const p = rec.y[k] - L.baseline;
-    if (p === 0) continue;
-    for (let t = k + 1; t < n; t++) y[t] -= p * dc[t - k];
+  const m = to - from + 1;
+  if (m * (n - from) <= DIRECT_WORK) {
+    for (let k = from; k <= to; k++) {
+      const p = rec.y[k] - L.baseline;
+      if (p === 0) continue;
+      for (let t = k + 1; t < n; t++) y[t] -= p * dc[t - k];
+    }
+    return y;
   }
+  // A wide launch pulse on a long record: the same convolution by FFT (Cooley–Tukey), not m·n products.
+  const span = n - from;
+  let size = 1;
+  while (size < m + span) size <<= 1;
+  const pr = new Float64Array(size);
+  const pi = new Float64Array(size);
+  const dr = new Float64Array(size);
+  const di = new Float64Array(size);
+  for (let j = 0; j < m; j++) pr[j] = rec.y[from + j] - L.baseline;
+  for (let s = 1; s < span; s++) dr[s] = dc[s];
+  fft(pr, pi);
+  fft(dr, di);
+  for (let k = 0; k < size; k++) {
+    const re = pr[k] * dr[k] - pi[k] * di[k];
+    pi[k] = pr[k] * di[k] + pi[k] * dr[k];
+    pr[k] = re;
+  }
+  fft(pr, pi, true);
+  for (let s = 1; s < span; s++) y[from + s] -= pr[s];
   return y;
 }
+
+/** Products a launch pulse's creep is convolved with directly; past that, by FFT. */
+const DIRECT_WORK = 5e7;

@@ -120,3 +120,26 @@ describe('the creep a launch pulse leaves on a lossy pair', () => {
     expect(left).toBeLessThan(0.001 * L.height);
   });
 });
+
+describe('the creep a wide launch pulse leaves behind', () => {
+  it('is taken out by FFT with the direct convolution’s result', () => {
+    // A 3,000-sample launch pulse at 1 ns on 60,000 samples of a thin pair: 1.8e8 products directly.
+    const model = lossModelThroughLine(libraryLoss(PAIR_04), PAIR_04.vf);
+    const n = 60_000;
+    const dt = 1e-9;
+    const y = new Float64Array(n).map((_, i) => (i >= 200 && i < 3200 ? 1 : 0) + 0.01 * Math.sin(i / 37));
+    const rec = { y, t: new Float64Array(n).map((_, i) => i * dt), n, dt, unit: 'V' as const };
+    const L = { ...findLaunch(rec, 'pulse', 3000, estimateSlowNoise(y)), mode: 'pulse' as const, found: true, onsetInRecord: true, clipped: false };
+    const got = pulseCreepRemoved(rec, L, model, PAIR_04.vf);
+    expect(got).not.toBeNull();
+    // The direct sum, y[t] − Σ_k p_k·Δc[t − k] over the launch's samples k, at a few times.
+    const c = incidentCreep(model, PAIR_04.vf, rec, 0);
+    const from = Math.max(0, Math.floor(L.idx - 2 * Math.max(1, L.riseSamples)));
+    const to = Math.min(n - 1, Math.ceil(L.settleIdx));
+    for (const t of [3300, 10_000, 40_000, n - 1]) {
+      let sum = 0;
+      for (let k = from; k <= Math.min(to, t - 1); k++) sum += (y[k] - L.baseline) * (c[t - k] - c[t - k - 1]);
+      expect(got![t]).toBeCloseTo(y[t] - sum, 9);
+    }
+  });
+});
