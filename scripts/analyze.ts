@@ -29,7 +29,31 @@ function parseLoss(raw: string): { dbPer100m: number; frequencyHz: number } {
     throw new TraceInputError('BAD_OPTION', `--loss-db-per-100m needs a frequency above 0, got '${raw}'`, {
       field: 'loss-db-per-100m',
     });
-  return { dbPer100m: Number(m[1]), frequencyHz };
+  // Datasheets state attenuation from about 100 kHz up (common practice); under 1 kHz is a slipped unit.
+  if (!(frequencyHz >= 1e3 && frequencyHz <= 1e11))
+    throw new TraceInputError('BAD_OPTION', `--loss-db-per-100m needs a frequency from 1 kHz to 100 GHz, got '${raw}'`, {
+      field: 'loss-db-per-100m',
+    });
+  const dbPer100m = Number(m[1]);
+  // The cable library's own limit.
+  if (!(dbPer100m <= 1000))
+    throw new TraceInputError('BAD_OPTION', `--loss-db-per-100m needs at most 1000 dB per 100 m, got '${raw}'`, {
+      field: 'loss-db-per-100m',
+    });
+  return { dbPer100m, frequencyHz };
+}
+
+/** Each frequency once, as the cable library keeps them: two figures at one frequency are a typing slip. */
+function distinctFrequencies(loss: Array<{ dbPer100m: number; frequencyHz: number }> | undefined) {
+  const seen = new Set<number>();
+  for (const l of loss ?? []) {
+    if (seen.has(l.frequencyHz))
+      throw new TraceInputError('BAD_OPTION', `--loss-db-per-100m gives ${l.frequencyHz} Hz twice; give each frequency once`, {
+        field: 'loss-db-per-100m',
+      });
+    seen.add(l.frequencyHz);
+  }
+  return loss;
 }
 
 /** A channel by its 1-based number when the option is a whole number, else by its column name. */
@@ -200,7 +224,7 @@ function main(argv: string[]): number {
   for (const file of positionals) {
     try {
       const vfArg = numberOption('vf', values.vf);
-      const loss = values['loss-db-per-100m']?.map(parseLoss);
+      const loss = distinctFrequencies(values['loss-db-per-100m']?.map(parseLoss));
       // Bytes straight to the reader: no decoded copy of the whole file.
       const trace = parseTraceCsv(readFileSync(file), {
         sampleIntervalNs: numberOption('sample-interval-ns', values['sample-interval-ns']),

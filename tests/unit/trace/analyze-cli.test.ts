@@ -84,12 +84,17 @@ describe('analyze command', () => {
     ]);
     expect(ok.status).toBe(0);
     expect(JSON.parse(ok.stdout).events[0].type).toBe('open');
-    for (const bad of ['5.2', '5.2@10', 'fast@10MHz', '5.2@0MHz']) {
+    // A slipped unit (10 Hz for 10 MHz), a figure past the library's 1000 dB/100 m and past 100 GHz are refused too.
+    for (const bad of ['5.2', '5.2@10', 'fast@10MHz', '5.2@0MHz', '5.2@10Hz', '2000@10MHz', '5@1e12Hz', '1e999@10MHz']) {
       const r = run([ref('pe-coax-10m-open.csv'), '--vf', '0.66', '--loss-db-per-100m', bad]);
       expect(r.status).not.toBe(0);
       expect(r.stderr.trim().split('\n')).toHaveLength(1);
       expect(r.stderr).toContain('--loss-db-per-100m');
     }
+    const twice = run([ref('pe-coax-10m-open.csv'), '--vf', '0.66', '--loss-db-per-100m', '5@10MHz', '--loss-db-per-100m', '5@10MHz']);
+    expect(twice.status).not.toBe(0);
+    expect(twice.stderr.trim().split('\n')).toHaveLength(1);
+    expect(twice.stderr).toContain('twice');
   });
 
   it('reads the channel asked for from an oscilloscope export and says which one it read', () => {
