@@ -311,20 +311,12 @@ function dropSideLobes(candidates: Candidate[], P: Float64Array, thrOf: Map<numb
   return kept;
 }
 
-/**
- * Finer scales first; a coarser detection only adds an event where no finer one lies. A step reads
- * its own height at every scale wider than it, and a side lobe of the opposite sign is at most half
- * of it: a coarser detection of the opposite sign over four times a finer one's height, standing
- * well clear of the noise (four thresholds), is another event, not that one seen wider.
- */
-function resolveScales(kept: Candidate[], k: number): Candidate[] {
+/** Finer scales first; a coarser detection only adds an event where no finer one lies. */
+function resolveScales(kept: Candidate[]): Candidate[] {
   kept.sort((a, b) => a.w - b.w || b.snr - a.snr);
   const accepted: Candidate[] = [];
   for (const c of kept) {
-    const another = (a: Candidate) => Math.abs(c.f) > 4 * Math.abs(a.f) && c.snr >= 4 * k;
-    const clash = accepted.some(
-      (a) => Math.abs(a.i - c.i) < 2 * Math.max(a.w, c.w) && (a.sign === c.sign || (a.w < c.w && !another(a))),
-    );
+    const clash = accepted.some((a) => Math.abs(a.i - c.i) < 2 * Math.max(a.w, c.w) && (a.sign === c.sign || a.w < c.w));
     if (!clash) accepted.push(c);
   }
   return accepted.sort((a, b) => a.i - b.i);
@@ -371,7 +363,7 @@ export function detectEdges(sig: WorkingSignal, settings: DetectionSettings): De
   // Inside the blind zone the launch's own settling is still in the signal: keep only what
   // stands twice the threshold out of it.
   const clear = candidates.filter((c) => c.i - 2 * c.w >= sig.blindIdx || c.snr >= 2 * k);
-  return { candidates: resolveScales(dropSideLobes(clear, P, thrOf, rhoMin), k), thresholdSigma: k, independentTests };
+  return { candidates: resolveScales(dropSideLobes(clear, P, thrOf, rhoMin)), thresholdSigma: k, independentTests };
 }
 
 /** More events than this in one record means its threshold is wrong for it (see dropClutter). */
