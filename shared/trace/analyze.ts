@@ -247,9 +247,7 @@ export function impossibleStepReading(a: TraceAnalysis, strong = 0.3): boolean {
 /** Analyse a parsed trace. Throws TraceInputError for bad options. */
 export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): TraceAnalysis {
   const a = analyzeOnce(trace, options);
-  if ((options.mode ?? 'auto') !== 'auto' || !a.modeDetected) return a;
-  if (a.mode === 'pulse' && a.events.length === 0) return withStepReadingNoted(trace, options, a);
-  if (!impossibleStepReading(a)) return a;
+  if ((options.mode ?? 'auto') !== 'auto' || !a.modeDetected || !impossibleStepReading(a)) return a;
   // Read as a step record, it has a line seen past a short: it is a pulse record whose launch is wide.
   const p = analyzeOnce(trace, { ...options, mode: 'pulse' });
   return {
@@ -261,28 +259,6 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
         code: 'MODE_FROM_ECHOES',
         message:
           'read as a pulse record: as a step record it would show the line beyond a short, which no cable can; give the mode if this is wrong',
-      },
-    ],
-  };
-}
-
-/**
- * A record read as a pulse with no echo at all is also a step into a short at the launch's far
- * edge: the two are the same samples, and nothing in them tells which the instrument sent. "No
- * reflection" must not stand alone there: the step reading's short is named, and the mode asked for.
- */
-function withStepReadingNoted(trace: ParsedTrace, options: AnalyzeOptions, a: TraceAnalysis): TraceAnalysis {
-  const s = analyzeOnce(trace, { ...options, mode: 'step' });
-  const raw = (e: ReflectionEvent) => e.reflectionCoefficientRaw ?? e.reflectionCoefficient;
-  const short = s.events.find((e) => e.likelyMultipleOf === null && raw(e) <= SHORT_MAX_RHO);
-  if (!short || s.events.some((e) => e.distanceM < short.distanceM && e.likelyMultipleOf === null && Math.abs(raw(e)) >= 0.3)) return a;
-  return {
-    ...a,
-    warnings: [
-      ...a.warnings,
-      {
-        code: 'MODE_AMBIGUOUS',
-        message: `read as a pulse record it shows no echo, but read as a step record it is a short at ${short.distanceM.toFixed(2)} m; give the mode the instrument used (step or pulse)`,
       },
     ],
   };
