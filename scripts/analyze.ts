@@ -174,11 +174,25 @@ function table(file: string, a: TraceAnalysis, units: 'm' | 'ft', trace?: Parsed
   return lines.join('\n');
 }
 
+/** Options that take a value: a negative number after one is its value (`--vf -1`), not another option. */
+const VALUE_OPTIONS = new Set(['--vf', '--z0', '--zero-ns', '--lead-m', '--sample-interval-ns', '--instrument-vf', '--vf-tolerance']);
+
+function joinNegativeValues(argv: string[]): string[] {
+  const out: string[] = [];
+  for (let i = 0; i < argv.length; i++) {
+    if (VALUE_OPTIONS.has(argv[i]) && i + 1 < argv.length && /^-[0-9.]/.test(argv[i + 1])) {
+      out.push(`${argv[i]}=${argv[i + 1]}`);
+      i++;
+    } else out.push(argv[i]);
+  }
+  return out;
+}
+
 function main(argv: string[]): number {
   let parsed;
   try {
     parsed = parseArgs({
-      args: argv,
+      args: joinNegativeValues(argv),
       allowPositionals: true,
       options: {
         vf: { type: 'string' },
@@ -197,7 +211,9 @@ function main(argv: string[]): number {
       },
     });
   } catch (err) {
-    process.stderr.write(`analyze: ${(err as Error).message}\n${USAGE}\n`);
+    // One line, as for every bad input: the option parser's first sentence and where the options are listed.
+    const first = (err as Error).message.split('\n')[0].replace(/\. To specify .*$/, '.');
+    process.stderr.write(`analyze: ${first} (analyze --help lists the options)\n`);
     return 2;
   }
   const { values, positionals } = parsed;
@@ -206,7 +222,7 @@ function main(argv: string[]): number {
     return 0;
   }
   if (positionals.length === 0) {
-    process.stderr.write(`analyze: no trace file given\n${USAGE}\n`);
+    process.stderr.write(`analyze: no trace file given (analyze --help lists the options)\n`);
     return 2;
   }
   const units = (values.units ?? 'm') as 'm' | 'ft';

@@ -69,6 +69,19 @@ describe('analyze command', () => {
     const bad = run([ref('pe-coax-10m-open.csv'), '--vf', 'fast']);
     expect(bad.status).not.toBe(0);
     expect(bad.stderr).toContain('--vf expects a number');
+    // A negative value is read as the option's value and refused by its own rule; an unknown option and
+    // a missing file also take one line each.
+    for (const [args, says] of [
+      [[ref('pe-coax-10m-open.csv'), '--vf', '-1'], 'vf must be a velocity factor'],
+      [[ref('pe-coax-10m-open.csv'), '--vf', '0.66', '--z0', '-50'], 'z0Ohm must be a positive impedance'],
+      [[ref('pe-coax-10m-open.csv'), '--bogus'], "Unknown option '--bogus'"],
+      [[], 'no trace file given'],
+    ] as const) {
+      const r2 = run([...args]);
+      expect(r2.status, args.join(' ')).not.toBe(0);
+      expect(r2.stderr.trim().split('\n'), args.join(' ')).toHaveLength(1);
+      expect(r2.stderr).toContain(says);
+    }
   });
 
   it('takes the cable loss as dB per 100 m at a frequency, and refuses a value it cannot read', () => {
