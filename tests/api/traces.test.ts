@@ -211,13 +211,7 @@ describe('POST /api/traces', () => {
   it('answers with each stored trace as its page shows it: run, markers, cable, findings and samples', async () => {
     const { run } = await makeRun('Answer run');
     const c = await api.as('technician');
-    const res = await c
-      .postRaw('/api/traces')
-      .field('cableRunId', String(run.id))
-      .field('end', 'B')
-      .attach('file', Buffer.from(stepTraceCsv({ faultM: 130, vf: 0.66 })), 'answer-good.csv')
-      .attach('file', Buffer.from('time_ns,voltage_V\n1,0.1\n'), 'answer-short.csv')
-      .expect(201);
+    const res = await uploadGoodAndUnreadable(c, run.id, 'B', 130, 'answer');
     const [good, short] = res.body.traces;
     expect(good.cableRun).toMatchObject({ id: run.id, name: 'Answer run', endBLabel: 'Pole 14', cableTypeName: 'Test solid PE coax' });
     expect(good.cableRun.markers.map((m: { label: string }) => m.label)).toEqual(['MH-1', 'MH-2', 'P-7']);
@@ -229,6 +223,17 @@ describe('POST /api/traces', () => {
     for (const t of res.body.traces) expect((await c.get(`/api/traces/${t.id}`).expect(200)).body).toEqual(t);
   });
 });
+
+/** One upload of two files: a step trace with a fault at `faultM` (VF 0.66) and a one-row file too short to read. */
+async function uploadGoodAndUnreadable(c: Awaited<ReturnType<TestApi['as']>>, runId: number, end: 'A' | 'B', faultM: number, prefix: string) {
+  return c
+    .postRaw('/api/traces')
+    .field('cableRunId', String(runId))
+    .field('end', end)
+    .attach('file', Buffer.from(stepTraceCsv({ faultM, vf: 0.66 })), `${prefix}-good.csv`)
+    .attach('file', Buffer.from('time_ns,voltage_V\n1,0.1\n'), `${prefix}-short.csv`)
+    .expect(201);
+}
 
 describe('GET /api/traces', () => {
   it('pages, filters by status and sorts by name', async () => {
@@ -248,13 +253,7 @@ describe('GET /api/traces', () => {
   it('gives each row its number of events, counted from the stored analysis, and 0 for a file that could not be read', async () => {
     const { run } = await makeRun('Counted run');
     const c = await api.as('technician');
-    const res = await c
-      .postRaw('/api/traces')
-      .field('cableRunId', String(run.id))
-      .field('end', 'A')
-      .attach('file', Buffer.from(stepTraceCsv({ faultM: 140, vf: 0.66 })), 'counted-good.csv')
-      .attach('file', Buffer.from('time_ns,voltage_V\n1,0.1\n'), 'counted-short.csv')
-      .expect(201);
+    const res = await uploadGoodAndUnreadable(c, run.id, 'A', 140, 'counted');
     const [good, short] = res.body.traces;
     const stored = (await Trace.findByPk(good.id))!;
     expect(stored.analysis!.events.length).toBeGreaterThan(0);
