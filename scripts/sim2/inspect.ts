@@ -14,7 +14,7 @@ import type { TraceRecord } from '../../shared/trace/steps';
 import { buildSet, type SetName } from './sets';
 
 const [setName, id] = process.argv.slice(2);
-if (!setName?.startsWith('tuning') || !id) throw new Error('usage: inspect.ts tuning|tuning2|tuning3 CASE-ID (held-out sets are not for looking at)');
+if (!setName?.startsWith('tuning') || !id) throw new Error('usage: inspect.ts tuning|tuning2|tuning3|tuning4 CASE-ID (held-out sets are not for looking at)');
 const c = buildSet(setName as SetName).find((x) => x.id.includes(id))!;
 console.log(c.id, 'vf', c.vf, 'z0', c.z0Ohm, 'mode', c.mode);
 for (const e of c.expected) console.log('  exp', e.distanceM.toFixed(2), e.type, e.what, e.required ? `(snrEff ${e.snrEff})` : `(opt: ${e.why})`, 'rho', e.rho.toFixed(3), 'seen', e.rhoSeen.toFixed(3));

@@ -11,7 +11,7 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { drawCase, type Sim2Case } from './cases';
 
-export type SetName = 'tuning' | 'tuning2' | 'tuning3' | 'heldout' | 'heldout2' | 'heldout3' | 'heldout4' | 'heldout5';
+export type SetName = 'tuning' | 'tuning2' | 'tuning3' | 'heldout' | 'heldout2' | 'heldout3' | 'heldout4' | 'heldout5' | 'tuning4' | 'heldout6';
 
 const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   tuning: { seed: 0x51a7e, count: 80 },
@@ -29,6 +29,10 @@ const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   heldout4: { seed: 0xa54ff5, count: 120 },
   // A fifth, drawn after the fourth had been measured once, before this round's engine changes: the same rules apply.
   heldout5: { seed: 0x1f83d9ab, count: 120 },
+  // A fourth set to tune on, drawn when the sixth held-out set was: more cases to tune on.
+  tuning4: { seed: 0x1a3a49ef, count: 80 },
+  // A sixth, drawn after the fifth had been measured once, before this round's engine changes: the same rules apply.
+  heldout6: { seed: 0x8622ec4d, count: 120 },
 };
 
 /** Seed of case i of a set: a splitmix-style scramble of the set's seed and the index. */
