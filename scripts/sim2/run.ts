@@ -19,7 +19,19 @@ function arg(name: string): string | undefined {
 }
 
 const setName = arg('--set');
-const SET_NAMES: readonly string[] = ['tuning', 'tuning2', 'tuning3', 'heldout', 'heldout2', 'heldout3', 'heldout4', 'heldout5', 'tuning4', 'heldout6'];
+const SET_NAMES: readonly string[] = [
+  'tuning',
+  'tuning2',
+  'tuning3',
+  'heldout',
+  'heldout2',
+  'heldout3',
+  'heldout4',
+  'heldout5',
+  'tuning4',
+  'heldout6',
+  'heldout7',
+];
 if (!setName || !SET_NAMES.includes(setName)) {
   process.stderr.write(`usage: run.ts --set ${SET_NAMES.join('|')} [--json] [--quiet] [--only TEXT] [--no-loss]\n`);
   process.exit(2);

@@ -11,7 +11,18 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { drawCase, type Sim2Case } from './cases';
 
-export type SetName = 'tuning' | 'tuning2' | 'tuning3' | 'heldout' | 'heldout2' | 'heldout3' | 'heldout4' | 'heldout5' | 'tuning4' | 'heldout6';
+export type SetName =
+  | 'tuning'
+  | 'tuning2'
+  | 'tuning3'
+  | 'heldout'
+  | 'heldout2'
+  | 'heldout3'
+  | 'heldout4'
+  | 'heldout5'
+  | 'tuning4'
+  | 'heldout6'
+  | 'heldout7';
 
 const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   tuning: { seed: 0x51a7e, count: 80 },
@@ -33,6 +44,8 @@ const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   tuning4: { seed: 0x1a3a49ef, count: 80 },
   // A sixth, drawn after the fifth had been measured once, before this round's engine changes: the same rules apply.
   heldout6: { seed: 0x8622ec4d, count: 120 },
+  // A seventh, drawn after the sixth had been run once on the engine as this round began: the same rules apply.
+  heldout7: { seed: 0xb1176e92, count: 120 },
 };
 
 /** Seed of case i of a set: a splitmix-style scramble of the set's seed and the index. */
