@@ -31,7 +31,7 @@ for (const set of ['tuning', 'tuning2', 'tuning3', 'tuning4']) {
       if (eCor < eRaw) better++;
       else worse++;
       rows.push(
-        `${c.id.slice(0, 40).padEnd(40)} ${c.mode.padEnd(5)} ${a.lossSource.padEnd(9)} d ${e.distanceM.toFixed(1).padStart(7)} true ${e.rho.toFixed(3).padStart(6)} raw ${raw.toFixed(3).padStart(6)} cor ${cor.toFixed(3).padStart(6)} ${eCor < eRaw ? 'better' : 'WORSE'}`,
+        `${c.id.slice(0, 40).padEnd(40)} ${c.mode.padEnd(5)} ${(a.lossSource ?? 'none').padEnd(9)} d ${e.distanceM.toFixed(1).padStart(7)} true ${e.rho.toFixed(3).padStart(6)} raw ${raw.toFixed(3).padStart(6)} cor ${cor.toFixed(3).padStart(6)} ${eCor < eRaw ? 'better' : 'WORSE'}`,
       );
     }
   }
