@@ -9,6 +9,7 @@
 import { readFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
 import { analyzeTrace, parseTraceCsv, TraceInputError, type ParsedTrace, type TraceAnalysis } from '../shared/trace';
+import { CALIBRATION_VF_MAX, CALIBRATION_VF_MIN } from '../shared/cable/calibration';
 import { M_PER_FT } from '../shared/cable/propagation';
 
 const USAGE = `usage: analyze FILE... [--vf 0.66] [--z0 50] [--mode auto|step|pulse] [--zero-ns N] [--lead-m N]
@@ -68,6 +69,25 @@ function numberOption(name: string, raw: string | undefined): number | undefined
   if (raw.trim() === '' || !Number.isFinite(v))
     throw new TraceInputError('BAD_OPTION', `--${name} expects a number, got '${raw}'`);
   return v;
+}
+
+/**
+ * A velocity factor a cable can have. Above 1 is faster than light; below 0.2 no practical cable is that slow
+ * (common practice: the slowest field cables, water-filled or paper-insulated pairs, run about 0.4–0.6), so a
+ * value there is almost always a slipped unit or decimal point. The web upload form takes the same range.
+ */
+function checkVf(what: string, vf: number, raw: string | number = vf, then = ''): number {
+  if (!(vf >= CALIBRATION_VF_MIN && vf <= CALIBRATION_VF_MAX))
+    throw new TraceInputError(
+      'BAD_OPTION',
+      `${what} must be a velocity factor from ${CALIBRATION_VF_MIN} to ${CALIBRATION_VF_MAX} (no practical cable is slower, nothing is faster than light), got '${raw}'${then}`,
+    );
+  return vf;
+}
+
+function vfOption(name: string, raw: string | undefined): number | undefined {
+  const v = numberOption(name, raw);
+  return v === undefined ? undefined : checkVf(`--${name}`, v, raw);
 }
 
 /** The JSON shape: snake_case, one object per file. */
@@ -239,16 +259,17 @@ function main(argv: string[]): number {
   const results: ReturnType<typeof toJson>[] = [];
   for (const file of positionals) {
     try {
-      const vfArg = numberOption('vf', values.vf);
+      const vfArg = vfOption('vf', values.vf);
       const loss = distinctFrequencies(values['loss-db-per-100m']?.map(parseLoss));
       // Bytes straight to the reader: no decoded copy of the whole file.
       const trace = parseTraceCsv(readFileSync(file), {
         sampleIntervalNs: numberOption('sample-interval-ns', values['sample-interval-ns']),
-        instrumentVf: numberOption('instrument-vf', values['instrument-vf']),
+        instrumentVf: vfOption('instrument-vf', values['instrument-vf']),
         channel: channelOption(values.channel),
       });
       const vf = vfArg ?? trace.hints.instrumentVf ?? trace.instrumentVf;
       if (vf === undefined) throw new TraceInputError('MISSING_VF', 'no velocity factor: give --vf (the file names none)');
+      if (vfArg === undefined) checkVf('the velocity factor the file names', vf, vf, '; give --vf');
       const analysis = analyzeTrace(trace, {
         vf,
         vfTolerance: numberOption('vf-tolerance', values['vf-tolerance']),
