@@ -90,6 +90,29 @@ function vfOption(name: string, raw: string | undefined): number | undefined {
   return v === undefined ? undefined : checkVf(`--${name}`, v, raw);
 }
 
+/**
+ * A number option with its own range: the web upload form's limits (shared/schemas/traces.ts) for the
+ * settings it shares, and the cable library's for Z0 (shared/schemas/cables.ts).
+ */
+const RANGES: Record<string, { ok: (v: number) => boolean; rule: string }> = {
+  'zero-ns': { ok: (v) => Math.abs(v) < 1e6, rule: 'must be a zero offset under 1 ms (1000000 ns) either way' },
+  'lead-m': { ok: (v) => v >= 0 && v < 1000, rule: 'must be a test-lead length from 0 to under 1000 m' },
+  'sample-interval-ns': {
+    // 1 ps is finer than any field TDR samples (common practice); smaller is a unit slip.
+    ok: (v) => v >= 0.001 && v < 1e9,
+    rule: 'must be a sample interval from 0.001 ns (1 ps) to under 1 s',
+  },
+  z0: { ok: (v) => v > 0 && v <= 10_000, rule: 'must be an impedance above 0 and at most 10000 Ω' },
+  'vf-tolerance': { ok: (v) => v >= 0 && v < 0.5, rule: 'must be a fraction from 0 to under 0.5 (±50 %)' },
+};
+
+function rangedOption(name: keyof typeof RANGES & string, raw: string | undefined): number | undefined {
+  const v = numberOption(name, raw);
+  if (v !== undefined && !RANGES[name].ok(v))
+    throw new TraceInputError('BAD_OPTION', `--${name} ${RANGES[name].rule}, got '${raw}'`, { field: name });
+  return v;
+}
+
 /** The JSON shape: snake_case, one object per file. */
 function toJson(file: string, a: TraceAnalysis, units: 'm' | 'ft', trace?: ParsedTrace) {
   const ft = (m: number) => m / M_PER_FT;
@@ -194,13 +217,13 @@ function table(file: string, a: TraceAnalysis, units: 'm' | 'ft', trace?: Parsed
   return lines.join('\n');
 }
 
-/** Options that take a value: a negative number after one is its value (`--vf -1`), not another option. */
+/** Options that take a value: a negative number after one is its value (`--vf -1`, `--zero-ns -Infinity`), not another option. */
 const VALUE_OPTIONS = new Set(['--vf', '--z0', '--zero-ns', '--lead-m', '--sample-interval-ns', '--instrument-vf', '--vf-tolerance']);
 
 function joinNegativeValues(argv: string[]): string[] {
   const out: string[] = [];
   for (let i = 0; i < argv.length; i++) {
-    if (VALUE_OPTIONS.has(argv[i]) && i + 1 < argv.length && /^-[0-9.]/.test(argv[i + 1])) {
+    if (VALUE_OPTIONS.has(argv[i]) && i + 1 < argv.length && /^-([0-9.]|inf|nan)/i.test(argv[i + 1])) {
       out.push(`${argv[i]}=${argv[i + 1]}`);
       i++;
     } else out.push(argv[i]);
@@ -263,7 +286,7 @@ function main(argv: string[]): number {
       const loss = distinctFrequencies(values['loss-db-per-100m']?.map(parseLoss));
       // Bytes straight to the reader: no decoded copy of the whole file.
       const trace = parseTraceCsv(readFileSync(file), {
-        sampleIntervalNs: numberOption('sample-interval-ns', values['sample-interval-ns']),
+        sampleIntervalNs: rangedOption('sample-interval-ns', values['sample-interval-ns']),
         instrumentVf: vfOption('instrument-vf', values['instrument-vf']),
         channel: channelOption(values.channel),
       });
@@ -272,11 +295,11 @@ function main(argv: string[]): number {
       if (vfArg === undefined) checkVf('the velocity factor the file names', vf, vf, '; give --vf');
       const analysis = analyzeTrace(trace, {
         vf,
-        vfTolerance: numberOption('vf-tolerance', values['vf-tolerance']),
-        z0Ohm: numberOption('z0', values.z0) ?? trace.hints.z0Ohm,
+        vfTolerance: rangedOption('vf-tolerance', values['vf-tolerance']),
+        z0Ohm: rangedOption('z0', values.z0) ?? trace.hints.z0Ohm,
         mode,
-        zeroOffsetNs: numberOption('zero-ns', values['zero-ns']),
-        leadLengthM: numberOption('lead-m', values['lead-m']),
+        zeroOffsetNs: rangedOption('zero-ns', values['zero-ns']),
+        leadLengthM: rangedOption('lead-m', values['lead-m']),
         loss,
       });
       if (vfArg === undefined)

@@ -55,4 +55,35 @@ describe('analyze command: option values', () => {
       expect(JSON.parse(r.stdout).vf).toBe(Number(vf));
     }
   });
+
+  it('refuses a zero offset, lead length, sample interval or impedance no measurement has, naming the option', () => {
+    // The web upload form's limits (shared/schemas/traces.ts): a zero offset under 1 ms either way,
+    // a test lead from 0 to under 1000 m, a sample interval from 1 ps to under 1 s; a cable's Z0 at most 10 kΩ
+    // (shared/schemas/cables.ts).
+    const cases: Array<[string, string, string]> = [
+      ['--zero-ns', 'NaN', 'expects a number'],
+      ['--zero-ns', '-Infinity', 'expects a number'],
+      ['--zero-ns', '1e300', '1 ms'],
+      ['--zero-ns', '-1e300', '1 ms'],
+      ['--zero-ns', '1000000', '1 ms'],
+      ['--lead-m', 'Infinity', 'expects a number'],
+      ['--lead-m', '-1', '1000 m'],
+      ['--lead-m', '1e12', '1000 m'],
+      ['--lead-m', '1000', '1000 m'],
+      ['--sample-interval-ns', '1e-300', '1 ps'],
+      ['--sample-interval-ns', '1e9', '1 s'],
+      ['--z0', '1e300', '10000'],
+      ['--z0', '-50', '10000'],
+      ['--vf-tolerance', '0.5', '0.5'],
+    ];
+    for (const [option, value, rule] of cases) expectRefused([good, '--vf', '0.66', option, value, '--json'], option, rule, `'${value}'`);
+    // In range, each is used as given.
+    const plain = JSON.parse(run([good, '--vf', String(1 / 1.5), '--json']).stdout);
+    const moved = JSON.parse(run([good, '--vf', String(1 / 1.5), '--zero-ns', '-5', '--lead-m', '2', '--json']).stdout);
+    expect(moved.zero_offset_ns).toBe(-5);
+    expect(moved.lead_length_m).toBe(2);
+    expect(plain.events[0].distance_m).toBeCloseTo(10, 0);
+    // Time zero 5 ns earlier adds 5 ns of round trip, 5 ns · c · (1/1.5) / 2 = 0.50 m; the 2 m lead comes off.
+    expect(moved.events[0].distance_m - plain.events[0].distance_m).toBeCloseTo(0.5 - 2, 1);
+  });
 });

@@ -73,7 +73,7 @@ describe('analyze command', () => {
     // a missing file also take one line each.
     for (const [args, says] of [
       [[ref('pe-coax-10m-open.csv'), '--vf', '-1'], 'vf must be a velocity factor'],
-      [[ref('pe-coax-10m-open.csv'), '--vf', '0.66', '--z0', '-50'], 'z0Ohm must be a positive impedance'],
+      [[ref('pe-coax-10m-open.csv'), '--vf', '0.66', '--z0', '-50'], '--z0 must be an impedance above 0'],
       [[ref('pe-coax-10m-open.csv'), '--bogus'], "Unknown option '--bogus'"],
       [[], 'no trace file given'],
     ] as const) {
