@@ -6,9 +6,16 @@
  *     [--vf-tolerance F] [--loss-db-per-100m 5.2@10MHz]... [--channel NAME|N]
  *     [--units m|ft] [--json]
  */
-import { readFileSync } from 'node:fs';
+import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
 import { parseArgs } from 'node:util';
-import { analyzeTrace, parseTraceCsv, TraceInputError, type ParsedTrace, type TraceAnalysis } from '../shared/trace';
+import {
+  analyzeTrace,
+  DEFAULT_MAX_BYTES,
+  parseTraceCsv,
+  TraceInputError,
+  type ParsedTrace,
+  type TraceAnalysis,
+} from '../shared/trace';
 import { CALIBRATION_VF_MAX, CALIBRATION_VF_MIN } from '../shared/cable/calibration';
 import { M_PER_FT } from '../shared/cable/propagation';
 
@@ -111,6 +118,62 @@ function rangedOption(name: keyof typeof RANGES & string, raw: string | undefine
   if (v !== undefined && !RANGES[name].ok(v))
     throw new TraceInputError('BAD_OPTION', `--${name} ${RANGES[name].rule}, got '${raw}'`, { field: name });
   return v;
+}
+
+/** What a failed open or read means for the person who typed the name. */
+const FILE_ERRORS: Record<string, string> = {
+  ENOENT: 'no such file',
+  ENOTDIR: 'no such file',
+  EACCES: 'permission denied; the file cannot be read',
+  EPERM: 'permission denied; the file cannot be read',
+  EISDIR: 'is a folder, not a trace file',
+  ENAMETOOLONG: 'the file name is too long',
+  ELOOP: 'the file name loops through symbolic links',
+};
+
+function fileError(err: unknown): TraceInputError {
+  const code = (err as NodeJS.ErrnoException).code ?? '';
+  return new TraceInputError('NOT_TEXT', FILE_ERRORS[code] ?? `the file cannot be read (${code || (err as Error).message})`);
+}
+
+function tooLarge(maxBytes: number): TraceInputError {
+  return new TraceInputError('FILE_TOO_LARGE', `the file is larger than the ${maxBytes / 1048576} MiB limit`);
+}
+
+/**
+ * The file's bytes, never more than the reader's limit: a file is refused from its size before it is read,
+ * and a device or pipe that has no size (/dev/zero never ends) is read only to one byte past the limit.
+ */
+function readTraceFile(file: string, maxBytes = DEFAULT_MAX_BYTES): Uint8Array {
+  let fd: number;
+  try {
+    fd = openSync(file, 'r');
+  } catch (err) {
+    throw fileError(err);
+  }
+  try {
+    const st = fstatSync(fd);
+    if (st.isDirectory()) throw fileError({ code: 'EISDIR' });
+    if (st.isFile() && st.size > maxBytes) throw tooLarge(maxBytes);
+    const chunks: Buffer[] = [];
+    let total = 0;
+    for (;;) {
+      const buf = Buffer.allocUnsafe(Math.min(1 << 20, maxBytes + 1 - total));
+      let n: number;
+      try {
+        n = readSync(fd, buf, 0, buf.length, null);
+      } catch (err) {
+        throw fileError(err);
+      }
+      if (n === 0) break;
+      chunks.push(buf.subarray(0, n));
+      total += n;
+      if (total > maxBytes) throw tooLarge(maxBytes);
+    }
+    return Buffer.concat(chunks, total);
+  } finally {
+    closeSync(fd);
+  }
 }
 
 /** The JSON shape: snake_case, one object per file. */
@@ -285,7 +348,7 @@ function main(argv: string[]): number {
       const vfArg = vfOption('vf', values.vf);
       const loss = distinctFrequencies(values['loss-db-per-100m']?.map(parseLoss));
       // Bytes straight to the reader: no decoded copy of the whole file.
-      const trace = parseTraceCsv(readFileSync(file), {
+      const trace = parseTraceCsv(readTraceFile(file), {
         sampleIntervalNs: rangedOption('sample-interval-ns', values['sample-interval-ns']),
         instrumentVf: vfOption('instrument-vf', values['instrument-vf']),
         channel: channelOption(values.channel),
@@ -308,12 +371,7 @@ function main(argv: string[]): number {
       else process.stdout.write(`${table(file, analysis, units, trace)}\n`);
     } catch (err) {
       failed++;
-      const msg =
-        err instanceof TraceInputError
-          ? err.message
-          : (err as NodeJS.ErrnoException).code === 'ENOENT'
-            ? 'no such file'
-            : (err as Error).message;
+      const msg = err instanceof TraceInputError ? err.message : (err as Error).message;
       process.stderr.write(`analyze: ${file}: ${msg.replace(/\s+/g, ' ')}\n`);
     }
   }

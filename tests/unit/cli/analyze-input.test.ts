@@ -1,5 +1,5 @@
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, truncateSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -12,7 +12,8 @@ const ref = (f: string) => join(root, 'tests/fixtures/traces/reference', f);
 const good = ref('pe-coax-10m-open.csv');
 
 function run(args: string[]) {
-  return spawnSync(tsx, [cli, ...args], { cwd: root, encoding: 'utf8' });
+  // The time limit only stops a run that would never end, so that it fails here instead of holding the suite.
+  return spawnSync(tsx, [cli, ...args], { cwd: root, encoding: 'utf8', timeout: 60_000 });
 }
 
 /** Runs `body` with a fresh temporary folder, removed afterwards. */
@@ -86,4 +87,21 @@ describe('analyze command: option values', () => {
     // Time zero 5 ns earlier adds 5 ns of round trip, 5 ns · c · (1/1.5) / 2 = 0.50 m; the 2 m lead comes off.
     expect(moved.events[0].distance_m - plain.events[0].distance_m).toBeCloseTo(0.5 - 2, 1);
   });
+});
+
+describe('analyze command: the file', () => {
+  it('refuses a never-ending input, a file over the size limit and a folder, each with one line', () => {
+    // /dev/zero never ends: read up to the reader's 64 MiB limit, no further.
+    expectRefused(['/dev/zero', '--vf', '0.66', '--json'], '/dev/zero', 'larger than the 64 MiB limit');
+    withDir((dir) => {
+      // A sparse 3 GiB file: refused from its size, before any of it is read.
+      const huge = join(dir, 'huge.csv');
+      writeFileSync(huge, '');
+      truncateSync(huge, 3 * 1024 ** 3);
+      expectRefused([huge, '--vf', '0.66', '--json'], 'huge.csv', 'larger than the 64 MiB limit');
+      const folder = join(dir, 'traces.csv');
+      mkdirSync(folder);
+      expectRefused([folder, '--vf', '0.66', '--json'], 'traces.csv', 'is a folder, not a trace file');
+    });
+  }, 180_000);
 });
