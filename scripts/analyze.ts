@@ -341,31 +341,47 @@ function main(argv: string[]): number {
     process.stderr.write(`analyze: --mode must be auto, step or pulse\n`);
     return 2;
   }
+  // The options once, before any file: a bad one is one line however many files follow.
+  let opts;
+  try {
+    opts = {
+      vf: vfOption('vf', values.vf),
+      loss: distinctFrequencies(values['loss-db-per-100m']?.map(parseLoss)),
+      sampleIntervalNs: rangedOption('sample-interval-ns', values['sample-interval-ns']),
+      instrumentVf: vfOption('instrument-vf', values['instrument-vf']),
+      channel: channelOption(values.channel),
+      vfTolerance: rangedOption('vf-tolerance', values['vf-tolerance']),
+      z0Ohm: rangedOption('z0', values.z0),
+      zeroOffsetNs: rangedOption('zero-ns', values['zero-ns']),
+      leadLengthM: rangedOption('lead-m', values['lead-m']),
+    };
+  } catch (err) {
+    process.stderr.write(`analyze: ${(err as Error).message.replace(/\s+/g, ' ')}\n`);
+    return 2;
+  }
   let failed = 0;
   const results: ReturnType<typeof toJson>[] = [];
   for (const file of positionals) {
     try {
-      const vfArg = vfOption('vf', values.vf);
-      const loss = distinctFrequencies(values['loss-db-per-100m']?.map(parseLoss));
       // Bytes straight to the reader: no decoded copy of the whole file.
       const trace = parseTraceCsv(readTraceFile(file), {
-        sampleIntervalNs: rangedOption('sample-interval-ns', values['sample-interval-ns']),
-        instrumentVf: vfOption('instrument-vf', values['instrument-vf']),
-        channel: channelOption(values.channel),
+        sampleIntervalNs: opts.sampleIntervalNs,
+        instrumentVf: opts.instrumentVf,
+        channel: opts.channel,
       });
-      const vf = vfArg ?? trace.hints.instrumentVf ?? trace.instrumentVf;
+      const vf = opts.vf ?? trace.hints.instrumentVf ?? trace.instrumentVf;
       if (vf === undefined) throw new TraceInputError('MISSING_VF', 'no velocity factor: give --vf (the file names none)');
-      if (vfArg === undefined) checkVf('the velocity factor the file names', vf, vf, '; give --vf');
+      if (opts.vf === undefined) checkVf('the velocity factor the file names', vf, vf, '; give --vf');
       const analysis = analyzeTrace(trace, {
         vf,
-        vfTolerance: rangedOption('vf-tolerance', values['vf-tolerance']),
-        z0Ohm: rangedOption('z0', values.z0) ?? trace.hints.z0Ohm,
+        vfTolerance: opts.vfTolerance,
+        z0Ohm: opts.z0Ohm ?? trace.hints.z0Ohm,
         mode,
-        zeroOffsetNs: rangedOption('zero-ns', values['zero-ns']),
-        leadLengthM: rangedOption('lead-m', values['lead-m']),
-        loss,
+        zeroOffsetNs: opts.zeroOffsetNs,
+        leadLengthM: opts.leadLengthM,
+        loss: opts.loss,
       });
-      if (vfArg === undefined)
+      if (opts.vf === undefined)
         analysis.warnings.push({ code: 'VF_FROM_FILE', message: `velocity factor ${vf} taken from the file` });
       if (values.json) results.push(toJson(file, analysis, units, trace));
       else process.stdout.write(`${table(file, analysis, units, trace)}\n`);

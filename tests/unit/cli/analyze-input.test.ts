@@ -89,6 +89,29 @@ describe('analyze command: option values', () => {
   });
 });
 
+describe('analyze command: one line for one mistake', () => {
+  it('says a bad option once, not once for every file, and before reading any file', () => {
+    const second = ref('pe-coax-25m-short.csv');
+    for (const [args, says] of [
+      [['--vf', 'abc'], "--vf expects a number, got 'abc'"],
+      [['--vf', '0.66', '--lead-m', '-1'], '--lead-m'],
+      [['--vf', '0.66', '--loss-db-per-100m', '5.2'], '--loss-db-per-100m'],
+    ] as const) {
+      const r = run([good, second, ...args]);
+      expect(r.status, says).toBe(2);
+      expect(r.stdout, says).toBe('');
+      expect(r.stderr.trim().split('\n'), says).toHaveLength(1);
+      expect(r.stderr, says).toContain(says);
+      // The option is at fault, not a file: no file is named.
+      expect(r.stderr, says).not.toContain('.csv');
+    }
+    // A bad option is found even when the file is missing.
+    const missing = run([join(root, 'no-such-trace.csv'), '--vf', '7']);
+    expect(missing.stderr.trim().split('\n')).toHaveLength(1);
+    expect(missing.stderr).toContain('--vf must be a velocity factor');
+  });
+});
+
 describe('analyze command: the file', () => {
   it('refuses a never-ending input, a file over the size limit and a folder, each with one line', () => {
     // /dev/zero never ends: read up to the reader's 64 MiB limit, no further.
