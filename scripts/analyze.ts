@@ -70,10 +70,13 @@ function channelOption(raw: string | undefined): string | number | undefined {
   return /^\s*\d+\s*$/.test(raw) ? Number(raw) : raw;
 }
 
+/** A plain decimal, as the trace reader reads the file's numbers: not 0x32 or 0o62, which Number() would take. */
+const DECIMAL = /^[-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?$/;
+
 function numberOption(name: string, raw: string | undefined): number | undefined {
   if (raw === undefined) return undefined;
   const v = Number(raw);
-  if (raw.trim() === '' || !Number.isFinite(v))
+  if (!DECIMAL.test(raw.trim()) || !Number.isFinite(v))
     throw new TraceInputError('BAD_OPTION', `--${name} expects a number, got '${raw}'`);
   return v;
 }

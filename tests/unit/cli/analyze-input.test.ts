@@ -57,6 +57,25 @@ describe('analyze command: option values', () => {
     }
   });
 
+  it('reads option values as plain decimal numbers only', () => {
+    // Number() would read 0x1 as 1 and 0o62 as 50; a number typed for a cable is written in decimal.
+    for (const [option, value] of [
+      ['--vf', '0x1'],
+      ['--vf', '0b1'],
+      ['--z0', '0o62'],
+      ['--z0', '0x32'],
+      ['--zero-ns', '1_0'],
+    ]) {
+      const vf = option === '--vf' ? [] : ['--vf', '0.66'];
+      expectRefused([good, ...vf, option, value, '--json'], `${option} expects a number, got '${value}'`);
+    }
+    // Signs, exponents and a leading point are decimals too.
+    const r = run([good, '--vf', '.66', '--z0', '5e1', '--zero-ns', '+0', '--json']);
+    expect(r.status).toBe(0);
+    const json = JSON.parse(r.stdout);
+    expect([json.vf, json.z0_ohm, json.zero_offset_ns]).toEqual([0.66, 50, 0]);
+  });
+
   it('refuses a zero offset, lead length, sample interval or impedance no measurement has, naming the option', () => {
     // The web upload form's limits (shared/schemas/traces.ts): a zero offset under 1 ms either way,
     // a test lead from 0 to under 1000 m, a sample interval from 1 ps to under 1 s; a cable's Z0 at most 10 kΩ
