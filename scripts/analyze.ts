@@ -318,7 +318,15 @@ function main(argv: string[]): number {
         json: { type: 'boolean' },
         help: { type: 'boolean', short: 'h' },
       },
+      tokens: true,
     });
+    // An option that takes one value, given twice, is a slip: the parser would keep the last one silently.
+    const seen = new Set<string>();
+    for (const t of parsed.tokens) {
+      if (t.kind !== 'option' || t.value === undefined || t.name === 'loss-db-per-100m') continue;
+      if (seen.has(t.name)) throw new Error(`--${t.name} is given twice; give it once.`);
+      seen.add(t.name);
+    }
   } catch (err) {
     // One line, as for every bad input: the option parser's first sentence and where the options are listed.
     const first = (err as Error).message.split('\n')[0].replace(/\. To specify .*$/, '.');

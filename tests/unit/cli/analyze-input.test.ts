@@ -124,6 +124,21 @@ describe('analyze command: one line for one mistake', () => {
       // The option is at fault, not a file: no file is named.
       expect(r.stderr, says).not.toContain('.csv');
     }
+    // An option that takes one value, given twice, is a slip: which one was meant is not known.
+    for (const args of [
+      ['--vf', '0.5', '--vf', '0.7'],
+      ['--vf=0.66', '--vf', '0.66'],
+      ['--vf', '0.66', '--zero-ns', '-3', '--zero-ns=4'],
+      ['--vf', '0.66', '--mode', 'step', '--mode', 'pulse'],
+    ]) {
+      const twice = run([good, ...args, '--json']);
+      expect(twice.status, args.join(' ')).toBe(2);
+      expect(twice.stdout, args.join(' ')).toBe('');
+      expect(twice.stderr.trim().split('\n'), args.join(' ')).toHaveLength(1);
+      expect(twice.stderr, args.join(' ')).toMatch(/--(vf|zero-ns|mode) is given twice/);
+    }
+    // A switch given twice still means the same.
+    expect(run([good, '--vf', '0.66', '--json', '--json']).status).toBe(0);
     // A bad option is found even when the file is missing.
     const missing = run([join(root, 'no-such-trace.csv'), '--vf', '7']);
     expect(missing.stderr.trim().split('\n')).toHaveLength(1);
