@@ -54,6 +54,14 @@ const POW10 = [
 ];
 
 const NON_FINITE = /^[+-]?(nan|inf|infinity|∞)$/i;
+/**
+ * SCPI instruments write +9.9E37 for a reading over range, -9.9E37 under it and 9.91E37 for no reading
+ * (SCPI 1999, common practice): these values in a column that is read are codes, not measurements.
+ */
+export function isOverRangeCode(v: number): boolean {
+  const a = Math.abs(v);
+  return a === 9.9e37 || a === 9.91e37;
+}
 // One way to match each number, so a long run of digits is never backtracked over.
 const NUMBER = /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/;
 
@@ -325,7 +333,8 @@ export function readBodyFast(spec: BodySpec, store: RowStore): Resume | null {
         v = scale >= 0 ? mant * POW10[scale] : mant / POW10[-scale];
         if (neg) v = -v;
       } else v = slowNumber(b, fieldStart, fieldEnd, decimalComma);
-      if (!Number.isFinite(v)) return decline();
+      // Not finite, or an over-range code: the general reader says which, or passes it in a column not read.
+      if (!Number.isFinite(v) || isOverRangeCode(v)) return decline();
       const slot = field < columnCount ? keepSlot[field] : -1;
       if (slot === 0) col0[row] = v * scale0;
       else if (slot === 1) col1[row] = v * scale1;
@@ -382,7 +391,16 @@ function storeRow(spec: BodySpec, store: RowStore, slotOf: Int32Array, cells: st
   if (store.rows === store.capacity) store.grow();
   for (let k = 0; k < cells.length; k++) {
     const v = numberFromField(cells[k], spec.decimalComma, line, columnLabel(spec.columnNames, k));
-    if (slotOf[k] >= 0) store.data[slotOf[k]][store.rows] = v * (spec.scales?.[slotOf[k]] ?? 1);
+    if (slotOf[k] < 0) continue;
+    if (isOverRangeCode(v)) {
+      const column = columnLabel(spec.columnNames, k);
+      throw new TraceInputError(
+        'NOT_FINITE',
+        `value '${shorten(cells[k].trim())}' in column ${column} is an instrument's over-range or no-reading code (±9.9E37, 9.91E37); expected a measured value`,
+        { line, field: column },
+      );
+    }
+    store.data[slotOf[k]][store.rows] = v * (spec.scales?.[slotOf[k]] ?? 1);
   }
   store.endRow(line);
 }

@@ -42,7 +42,8 @@ describe('analyze command: option values', () => {
   it('refuses a velocity factor slower than any practical cable, and says the floor', () => {
     // VF is in (0, 1]; below 0.2 is no field cable (common practice), almost always a slipped unit.
     for (const vf of ['1e-300', '0.01', '0.05', '0.19']) expectRefused([good, '--vf', vf, '--json'], '--vf', '0.2', `'${vf}'`);
-    for (const vf of ['1e-300', '0.1']) expectRefused([good, '--vf', '0.66', '--instrument-vf', vf, '--json'], '--instrument-vf', '0.2');
+    for (const vf of ['1e-300', '0.1'])
+      expectRefused([good, '--vf', '0.66', '--instrument-vf', vf, '--json'], '--instrument-vf', '0.2');
     // The same rule for a velocity factor the file names in its metadata.
     withDir((dir) => {
       const file = join(dir, 'slow.csv');
@@ -96,7 +97,8 @@ describe('analyze command: option values', () => {
       ['--z0', '-50', '10000'],
       ['--vf-tolerance', '0.5', '0.5'],
     ];
-    for (const [option, value, rule] of cases) expectRefused([good, '--vf', '0.66', option, value, '--json'], option, rule, `'${value}'`);
+    for (const [option, value, rule] of cases)
+      expectRefused([good, '--vf', '0.66', option, value, '--json'], option, rule, `'${value}'`);
     // In range, each is used as given.
     const plain = JSON.parse(run([good, '--vf', String(1 / 1.5), '--json']).stdout);
     const moved = JSON.parse(run([good, '--vf', String(1 / 1.5), '--zero-ns', '-5', '--lead-m', '2', '--json']).stdout);
@@ -161,4 +163,52 @@ describe('analyze command: the file', () => {
       expectRefused([folder, '--vf', '0.66', '--json'], 'traces.csv', 'is a folder, not a trace file');
     });
   }, 180_000);
+});
+
+describe('analyze command: over-range codes', () => {
+  it("refuses an instrument's over-range code in the column it reads, naming the line", () => {
+    // SCPI instruments write +9.9E37 for a reading over range, -9.9E37 under it and 9.91E37 for
+    // no reading (SCPI 1999, common practice); none is a measured value, however it is written.
+    const lines = readFileSync(good, 'utf8').split('\n');
+    const [t, rho] = lines[200].split(',');
+    withDir((dir) => {
+      for (const code of ['9.9E37', '-9.9e+37', '9.91E37', '99.0E36']) {
+        const file = join(dir, 'over.csv');
+        lines[200] = `${t},${code}`;
+        writeFileSync(file, lines.join('\n'));
+        expectRefused([file, '--vf', '0.66', '--json'], 'line 201', `'${code}'`, 'over-range');
+        // The same with every field quoted, which the general CSV reader reads.
+        const quoted = join(dir, 'over-quoted.csv');
+        writeFileSync(
+          quoted,
+          lines
+            .map((l, i) =>
+              i < 3 || l === ''
+                ? l
+                : l
+                    .split(',')
+                    .map((f) => `"${f.trim()}"`)
+                    .join(','),
+            )
+            .join('\n'),
+        );
+        expectRefused([quoted, '--vf', '0.66', '--json'], 'line 201', `'${code}'`, 'over-range');
+      }
+      // A code in a column that is not read does not stop the file: CH1 is clipped, rho is analysed.
+      const scope = join(dir, 'scope.csv');
+      lines[200] = `${t},${rho}`;
+      const rows = lines
+        .slice(3)
+        .filter((l) => l !== '')
+        .map((l, i) => {
+          const [a, b] = l.split(',');
+          return `${a},${i === 198 ? '9.9E37' : '0.1'},${b}`;
+        });
+      writeFileSync(scope, ['time (ps),CH1,rho', ...rows].join('\n'));
+      const r = run([scope, '--vf', String(1 / 1.5), '--channel', 'rho', '--json']);
+      expect(r.stderr).toBe('');
+      expect(r.status).toBe(0);
+      expect(JSON.parse(r.stdout).events[0].distance_m).toBeCloseTo(10, 0);
+    });
+  });
 });
