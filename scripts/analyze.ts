@@ -179,6 +179,17 @@ function readTraceFile(file: string, maxBytes = DEFAULT_MAX_BYTES): Uint8Array {
   }
 }
 
+/**
+ * A file name as it is shown on the error line: control characters (a line break, a terminal escape) written
+ * as \n, \t or \uXXXX, so the name can neither break the one line nor drive the terminal.
+ */
+function shownName(file: string): string {
+  // eslint-disable-next-line no-control-regex
+  return file.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, (c) =>
+    c === '\n' ? '\\n' : c === '\t' ? '\\t' : `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`,
+  );
+}
+
 /** The JSON shape: snake_case, one object per file. */
 function toJson(file: string, a: TraceAnalysis, units: 'm' | 'ft', trace?: ParsedTrace) {
   const ft = (m: number) => m / M_PER_FT;
@@ -399,7 +410,7 @@ function main(argv: string[]): number {
     } catch (err) {
       failed++;
       const msg = err instanceof TraceInputError ? err.message : (err as Error).message;
-      process.stderr.write(`analyze: ${file}: ${msg.replace(/\s+/g, ' ')}\n`);
+      process.stderr.write(`analyze: ${shownName(file)}: ${msg.replace(/\s+/g, ' ')}\n`);
     }
   }
   if (values.json && results.length > 0) {

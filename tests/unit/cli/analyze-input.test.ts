@@ -163,6 +163,16 @@ describe('analyze command: the file', () => {
       expectRefused([folder, '--vf', '0.66', '--json'], 'traces.csv', 'is a folder, not a trace file');
     });
   }, 180_000);
+
+  it('keeps a file name with a line break or a terminal escape in it on its one line', () => {
+    withDir((dir) => {
+      const name = join(dir, 'a\nb\u001b[31m.csv');
+      expectRefused([name, '--vf', '0.66'], 'a\\nb\\u001b[31m.csv: no such file');
+      // The same name, when the file exists and is empty.
+      writeFileSync(name, '');
+      expectRefused([name, '--vf', '0.66'], 'a\\nb\\u001b[31m.csv: the file is empty');
+    });
+  });
 });
 
 describe('analyze command: over-range codes', () => {
