@@ -11,6 +11,7 @@ import { parseArgs } from 'node:util';
 import {
   analyzeTrace,
   DEFAULT_MAX_BYTES,
+  MAX_COLUMNS,
   parseTraceCsv,
   TraceInputError,
   type ParsedTrace,
@@ -67,7 +68,15 @@ function distinctFrequencies(loss: Array<{ dbPer100m: number; frequencyHz: numbe
 /** A channel by its 1-based number when the option is a whole number, else by its column name. */
 function channelOption(raw: string | undefined): string | number | undefined {
   if (raw === undefined) return undefined;
-  return /^\s*\d+\s*$/.test(raw) ? Number(raw) : raw;
+  const isNumber = /^\s*\d+\s*$/.test(raw);
+  // No file has more than MAX_COLUMNS columns, so no channel number past it can be found.
+  if (raw.trim() === '' || (isNumber && !(Number(raw) >= 1 && Number(raw) <= MAX_COLUMNS)))
+    throw new TraceInputError(
+      'BAD_OPTION',
+      `--channel must be a channel number from 1 to ${MAX_COLUMNS} or a column name, got '${raw}'`,
+      { field: 'channel' },
+    );
+  return isNumber ? Number(raw) : raw;
 }
 
 /** A plain decimal, as the trace reader reads the file's numbers: not 0x32 or 0o62, which Number() would take. */

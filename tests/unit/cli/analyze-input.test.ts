@@ -58,6 +58,15 @@ describe('analyze command: option values', () => {
     }
   });
 
+  it('refuses a channel that no file can have, naming the option and the value as typed', () => {
+    // Channels are numbered from 1; a file has at most 64 columns (the reader's MAX_COLUMNS).
+    for (const channel of ['', '  ', '0', '65', '99999999999999999999']) {
+      expectRefused([good, '--vf', '0.66', '--channel', channel, '--json'], '--channel', `'${channel.trim()}`, '1 to 64');
+    }
+    // A number in range is still looked for in the file, which says what it has.
+    expectRefused([good, '--vf', '0.66', '--channel', '2', '--json'], "channel '2' is not in the file; its channels are 1 'rho'");
+  });
+
   it('reads option values as plain decimal numbers only', () => {
     // Number() would read 0x1 as 1 and 0o62 as 50; a number typed for a cable is written in decimal.
     for (const [option, value] of [
