@@ -428,4 +428,11 @@ function main(argv: string[]): number {
   return failed > 0 ? 1 : 0;
 }
 
+// A reader that stops early (analyze … | head) closes the pipe: nothing more is wanted, so end quietly,
+// with the exit code the run already has, instead of with node's stack trace for EPIPE.
+process.stdout.on('error', (err: NodeJS.ErrnoException) => {
+  if (err.code !== 'EPIPE') process.stderr.write(`analyze: the output cannot be written (${err.code ?? err.message})\n`);
+  process.exit(err.code === 'EPIPE' ? Number(process.exitCode ?? 0) : 1);
+});
+
 process.exitCode = main(process.argv.slice(2));

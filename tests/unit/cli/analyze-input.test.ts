@@ -231,3 +231,18 @@ describe('analyze command: over-range codes', () => {
     });
   });
 });
+
+describe('analyze command: output', () => {
+  it('stops quietly when the program reading its output stops first', () => {
+    // 200 results (about 350 kB of JSON) overfill a pipe's 64 KiB buffer, so writing to a reader that has
+    // gone ends in EPIPE whichever comes first; 'true' reads nothing and exits.
+    const files = Array.from({ length: 200 }, () => `'${good}'`).join(' ');
+    const r = spawnSync('bash', ['-c', `'${tsx}' '${cli}' ${files} --vf 0.66 --json | true; exit \${PIPESTATUS[0]}`], {
+      cwd: root,
+      encoding: 'utf8',
+      timeout: 120_000,
+    });
+    expect(r.stderr).toBe('');
+    expect(r.status).toBe(0);
+  }, 180_000);
+});
