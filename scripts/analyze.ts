@@ -125,6 +125,13 @@ const RANGES: Record<string, { ok: (v: number) => boolean; rule: string }> = {
   'vf-tolerance': { ok: (v) => v >= 0 && v < 0.5, rule: 'must be a fraction from 0 to under 0.5 (±50 %)' },
 };
 
+/** A value the file names for a setting an option can give: the option's own range, or that option is the way out. */
+function checkFromFile(name: keyof typeof RANGES & string, what: string, v: number | undefined): number | undefined {
+  if (v !== undefined && !RANGES[name].ok(v))
+    throw new TraceInputError('BAD_OPTION', `${what} ${RANGES[name].rule}, got '${v}'; give --${name}`);
+  return v;
+}
+
 function rangedOption(name: keyof typeof RANGES & string, raw: string | undefined): number | undefined {
   const v = numberOption(name, raw);
   if (v !== undefined && !RANGES[name].ok(v))
@@ -406,7 +413,7 @@ function main(argv: string[]): number {
       const analysis = analyzeTrace(trace, {
         vf,
         vfTolerance: opts.vfTolerance,
-        z0Ohm: opts.z0Ohm ?? trace.hints.z0Ohm,
+        z0Ohm: opts.z0Ohm ?? checkFromFile('z0', 'the impedance the file names', trace.hints.z0Ohm),
         mode,
         zeroOffsetNs: opts.zeroOffsetNs,
         leadLengthM: opts.leadLengthM,

@@ -108,6 +108,15 @@ describe('analyze command: option values', () => {
     ];
     for (const [option, value, rule] of cases)
       expectRefused([good, '--vf', '0.66', option, value, '--json'], option, rule, `'${value}'`);
+    // The same rule for an impedance the file names in its metadata, when --z0 does not set one.
+    withDir((dir) => {
+      const file = join(dir, 'z0.csv');
+      writeFileSync(file, `# z0=1e300\n${readFileSync(good, 'utf8')}`);
+      expectRefused([file, '--vf', '0.66', '--json'], 'impedance the file names', '10000', 'give --z0');
+      const r = run([file, '--vf', '0.66', '--z0', '50', '--json']);
+      expect(r.status).toBe(0);
+      expect(JSON.parse(r.stdout).z0_ohm).toBe(50);
+    });
     // In range, each is used as given.
     const plain = JSON.parse(run([good, '--vf', String(1 / 1.5), '--json']).stdout);
     const moved = JSON.parse(run([good, '--vf', String(1 / 1.5), '--zero-ns', '-5', '--lead-m', '2', '--json']).stdout);
