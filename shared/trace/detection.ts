@@ -32,7 +32,7 @@
  */
 import type { ReflectionEvent, TraceWarning } from '../schemas/trace-analysis';
 import { touchesHeld } from './noise';
-import { madSigma, normalUpperQuantile, prefixSums, select } from './stats';
+import { madSigma, normalUpperQuantile, prefixSums, sampleMedian, select } from './stats';
 import type { Candidate, Launch, Measured, WorkingSignal } from './steps';
 
 /** Target rate of false events per trace, from noise. */
@@ -409,8 +409,30 @@ export function dropClutter(events: ReflectionEvent[]): TraceWarning[] {
  * no evidence of a reflection.
  */
 export function dropQuantiserStairs(measured: Measured[], sig: WorkingSignal): Measured[] {
+  if (sig.mode === 'pulse') {
+    if (!(sig.quantRaw > 0)) return measured;
+    return measured.filter((m) => Math.abs(pulseExcursion(sig, m)) > 1.5 * sig.quantRaw);
+  }
   if (!(sig.quantU > 0)) return measured;
   return measured.filter((m) => Math.abs(m.height) > 1.5 * sig.quantU);
+}
+
+/**
+ * Largest departure of a pulse record's raw trace, over an echo's span, from the level it rests at
+ * just before the echo (the median over two windows before its onset), in launch peaks. An echo of a
+ * quiet, coarse recorder that departs by no more than a level and a half is a run of the neighbouring
+ * level, which drift or slow noise near a rounding point makes as well (see quantRaw).
+ */
+function pulseExcursion(sig: WorkingSignal, m: Measured): number {
+  const raw = sig.pulseRaw;
+  const n = raw.length;
+  const onset = Math.max(0, Math.min(n - 1, Math.floor(m.onsetIdx)));
+  const from = Math.max(0, onset - 2 * m.w);
+  const ref = onset > from ? sampleMedian(raw, from, onset) : raw[onset];
+  const to = Math.min(n, Math.max(onset + 1, Math.ceil(m.endIdx)));
+  let peak = 0;
+  for (let i = onset; i < to; i++) if (Math.abs(raw[i] - ref) > Math.abs(peak)) peak = raw[i] - ref;
+  return peak;
 }
 
 /**

@@ -121,6 +121,17 @@ function pulseSignal(rec: TraceRecord, L: Launch, sigma0: number): { u: Float64A
   return { u, pulseRaw, unitArea };
 }
 
+/**
+ * A pulse record's quantiser step where its noise is below half of it (0 elsewhere). Noise of half a
+ * step or more dithers the recorder, so its levels read a small echo in proportion; quieter, a sample
+ * only changes level where the signal crosses the rounding point, and slow noise or drift near that
+ * point makes runs of one level up or down that no echo is needed to explain.
+ */
+function pulseQuantiserStep(y: Float64Array, sigma0: number): number {
+  const q = adcStep(y);
+  return q > 0 && sigma0 < 0.5 * q ? q : 0;
+}
+
 /** `scratch`, when given (n + 1 values), holds the noise measure's temporary sums instead of a new array. */
 export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number, scratch?: Float64Array): WorkingSignal {
   const mode = L.mode;
@@ -161,5 +172,6 @@ export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number, 
     noiseExcess: noiseExcess(rec.y, sigma0, scratch, held, mode === 'pulse' && L.found ? 2 * (L.widthSamples ?? 0) : 0),
     held,
     quantU: mode === 'step' ? adcStep(rec.y) / Math.abs(L.found || rec.unit !== 'rho' ? L.height : 1) : 0,
+    quantRaw: mode === 'pulse' ? pulseQuantiserStep(rec.y, sigma0) / Math.abs(L.found ? L.height : 1) : 0,
   };
 }

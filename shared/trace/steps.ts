@@ -76,6 +76,11 @@ export interface WorkingSignal {
    * creep crosses it as a clean one-step stair, so no event is read from a step that small.
    */
   quantU: number;
+  /**
+   * Pulse records: the recorder's quantiser step in launch peaks (pulseRaw's units), where the noise is
+   * below half of it (0 elsewhere). A run of one level up or down is then no evidence of an echo.
+   */
+  quantRaw: number;
 }
 
 /** A detection: the step filter's extreme at scale w. */
