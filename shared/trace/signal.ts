@@ -9,7 +9,7 @@
  * keeps its area (the line's DC gain), so area is the loss-robust measure of ρ.
  */
 import { adcStep, heldStretches, noiseExcess } from './noise';
-import { boxcar, madSigma, sampleMedian } from './stats';
+import { boxcar, madSigma, restingLevel, sampleMedian } from './stats';
 import type { Launch, TraceRecord, WorkingSignal } from './steps';
 
 function stepSignal(rec: TraceRecord, L: Launch): Float64Array {
@@ -91,8 +91,13 @@ function pulseSignal(rec: TraceRecord, L: Launch, sigma0: number): { u: Float64A
   // stretches where the trace rests instead (see restingLine).
   const a0 = Math.min(n - 1, L.settleIdx);
   const mid = Math.floor((a0 + n) / 2);
-  const h1 = sampleMedian(y, a0, mid);
-  const m2 = sampleMedian(y, mid, n);
+  // Each half's level: the median, which on a recorder with a visible quantiser step sits on one of its
+  // levels, up to half a step from where the line rests (a bias the running sum turns into a ramp); there
+  // the mean of the samples on the median's level and its two neighbours (restingLevel), which the noise
+  // dithers about the resting level and an echo standing clear of it does not reach.
+  const q = adcStep(y);
+  const h1 = restingLevel(y, a0, mid, 1.5 * q);
+  const m2 = restingLevel(y, mid, n, 1.5 * q);
   // Halves whose medians lie more than a tenth of the launch apart hold an echo, not drift.
   const resting = Math.abs(m2 - h1) > DRIFT_MAX * Math.abs(scale) ? restingLine(y, a0, sigma0) : null;
   const m1 = resting?.level ?? h1;

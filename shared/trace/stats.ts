@@ -25,6 +25,29 @@ export function sampleMedian(values: ArrayLike<number>, from: number, to: number
 }
 
 /** k-th smallest of a (reordered in place), by quickselect. */
+/**
+ * Level a stretch rests at: the mean of the samples within `halfWidth` of their median (every sample,
+ * or a regular subsample of at most maxPoints). The median alone is robust to echoes but, on a recorder
+ * whose noise is about a quantiser step or less, it sits on one of the recorder's levels, up to half a
+ * step from the level the noise dithers about; the mean of the samples near it is not held to the
+ * levels and still leaves out the echoes that stand clear of the noise.
+ */
+export function restingLevel(values: ArrayLike<number>, from: number, to: number, halfWidth: number, maxPoints = 4001): number {
+  const med = sampleMedian(values, from, to, maxPoints);
+  if (!(halfWidth > 0) || !Number.isFinite(med)) return med;
+  const step = Math.max(1, Math.floor((to - from) / maxPoints));
+  let sum = 0;
+  let count = 0;
+  for (let i = from; i < to; i += step) {
+    const v = values[i];
+    if (Math.abs(v - med) <= halfWidth) {
+      sum += v;
+      count++;
+    }
+  }
+  return count > 0 ? sum / count : med;
+}
+
 export function select(a: Float64Array, k: number): number {
   let lo = 0;
   let hi = a.length - 1;
