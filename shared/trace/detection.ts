@@ -295,11 +295,28 @@ function dropSideLobes(candidates: Candidate[], P: Float64Array, thrOf: Map<numb
     list.push(c);
     byScale.set(c.w, list);
   }
+  // c, against the stronger m beside it, is the lobe of one edge when the level moves across the two of
+  // them, from before the first to after the second, by more than m's own response: a real step against
+  // m would take its height off that move, and add to m's response (F's lobe, −½ of a step at ±w, is
+  // against c's sign at m), while one spread edge moves the level by its whole height and its response
+  // at any point is less than that.
+  const spreadEdgeLobe = (c: Candidate, m: Candidate) => {
+    const w = c.w;
+    const first = Math.min(c.i, m.i);
+    const last = Math.max(c.i, m.i);
+    if (first - 2 * w < 0 || last + 2 * w > n) return false;
+    const net = mean(last + w, last + 2 * w) - mean(first - 2 * w, first - w);
+    return Math.sign(net) === m.sign && Math.abs(net) > Math.abs(m.f) + (thrOf.get(w) ?? rhoMin);
+  };
   const kept: Candidate[] = [];
   for (const [w, list] of byScale) {
     for (const c of list) {
       const lobe = list.some(
-        (m) => m !== c && m.sign !== c.sign && Math.abs(m.f) > 1.6 * Math.abs(c.f) && Math.abs(m.i - c.i) <= 2 * w,
+        (m) =>
+          m !== c &&
+          m.sign !== c.sign &&
+          Math.abs(m.i - c.i) <= 2 * w &&
+          (Math.abs(m.f) > 1.6 * Math.abs(c.f) || (Math.abs(m.f) > Math.abs(c.f) && spreadEdgeLobe(c, m))),
       );
       const before = mean(Math.max(0, c.i - 2 * w), Math.max(1, c.i - w));
       const after = mean(Math.min(n - 1, c.i + w), Math.min(n, c.i + 2 * w));
