@@ -285,8 +285,17 @@ function tailOnlyScale(P: Float64Array, w: number, sig: WorkingSignal, k: number
   return { candidates: runsAbove(T, count, from, stride, w, thr, sigmaT), thr, excess: null };
 }
 
-/** Drop side lobes: a step gives −½ of its height at ±w on the same scale, and the level across it moves against F. */
-function dropSideLobes(candidates: Candidate[], P: Float64Array, thrOf: Map<number, number>, rhoMin: number): Candidate[] {
+/**
+ * Drop side lobes: a step gives −½ of its height at ±w on the same scale, and the level across it moves against F.
+ * `pulse`: the working signal is a pulse record's running sum (see the lobe test below).
+ */
+function dropSideLobes(
+  candidates: Candidate[],
+  P: Float64Array,
+  thrOf: Map<number, number>,
+  rhoMin: number,
+  pulse: boolean,
+): Candidate[] {
   const n = P.length - 1;
   const mean = (a: number, b: number) => (P[b] - P[a]) / (b - a);
   const byScale = new Map<number, Candidate[]>();
@@ -309,7 +318,11 @@ function dropSideLobes(candidates: Candidate[], P: Float64Array, thrOf: Map<numb
     return Math.sign(net) === m.sign && Math.abs(net) > Math.abs(m.f) + (thrOf.get(w) ?? rhoMin);
   };
   const kept: Candidate[] = [];
-  for (const [w, list] of byScale) {
+  // Coarsest scale first, so a lobe's exemption below can see what the coarser scales kept.
+  const scales = [...byScale.keys()].sort((x, y) => y - x);
+  for (const w of scales) {
+    const list = byScale.get(w)!;
+    const keptCoarser = kept.length;
     for (const c of list) {
       const lobe = list.some(
         (m) =>
@@ -321,8 +334,22 @@ function dropSideLobes(candidates: Candidate[], P: Float64Array, thrOf: Map<numb
       const before = mean(Math.max(0, c.i - 2 * w), Math.max(1, c.i - w));
       const after = mean(Math.min(n - 1, c.i + w), Math.min(n, c.i + 2 * w));
       const net = after - before;
-      const against = Math.sign(net) === -c.sign && Math.abs(net) > (thrOf.get(w) ?? rhoMin);
-      if (!lobe && !against) kept.push(c);
+      const thr = thrOf.get(w) ?? rhoMin;
+      const against = Math.sign(net) === -c.sign && Math.abs(net) > thr;
+      // A lobe leaves the level where it was or moves it the larger edge's way. In a pulse record
+      // an echo is a ramp in u as long as the pulse, which a window shorter than that reads at a
+      // fraction of its height (F vanishes on a straight stretch): where the level across c moves
+      // c's own way by more than twice what F reads there, c is an echo of its own beside a larger
+      // one of the other sign, not its lobe, unless the next coarser scales (up to three times
+      // this one, which span a ramp 2.5 windows long) already hold it within a window of their
+      // own. (A step record's level also creeps after a lossy edge, so there the test is not made.)
+      const moves =
+        lobe &&
+        pulse &&
+        Math.sign(net) === c.sign &&
+        Math.abs(net) > Math.max(thr, 2 * Math.abs(c.f)) &&
+        !kept.slice(0, keptCoarser).some((o) => o.w <= 3 * w && o.sign === c.sign && Math.abs(o.i - c.i) < o.w);
+      if ((!lobe || moves) && !against) kept.push(c);
     }
   }
   return kept;
@@ -380,7 +407,8 @@ export function detectEdges(sig: WorkingSignal, settings: DetectionSettings): De
   // Inside the blind zone the launch's own settling is still in the signal: keep only what
   // stands twice the threshold out of it.
   const clear = candidates.filter((c) => c.i - 2 * c.w >= sig.blindIdx || c.snr >= 2 * k);
-  return { candidates: resolveScales(dropSideLobes(clear, P, thrOf, rhoMin)), thresholdSigma: k, independentTests };
+  const kept = dropSideLobes(clear, P, thrOf, rhoMin, sig.mode === 'pulse');
+  return { candidates: resolveScales(kept), thresholdSigma: k, independentTests };
 }
 
 /** More events than this in one record means its threshold is wrong for it (see dropClutter). */
