@@ -7,6 +7,7 @@ import { currentUser } from '../auth/guards';
 import { calibrationsForCable } from '../calibrations/calibrations.service';
 import { AppError } from '../errors';
 import { ApiRouter, handle } from '../http/api-router';
+import { refuseBadFormText } from '../http/strict-input';
 import { commitImport, exportCsv, previewImport } from './cables.csv';
 import * as cables from './cables.service';
 
@@ -39,11 +40,12 @@ export function cableRoutes() {
         .send(csv);
     }),
   );
-  r.post('/import/preview', 'cables:write', upload, handle((req) => previewImport(csvText(req).text)));
+  r.post('/import/preview', 'cables:write', upload, refuseBadFormText, handle((req) => previewImport(csvText(req).text)));
   r.post(
     '/import',
     'cables:write',
     upload,
+    refuseBadFormText,
     handle((req) => {
       const { reason } = CommitBody.parse(req.body ?? {});
       const { text, fileName } = csvText(req);

@@ -94,3 +94,18 @@ export const refuseNulBytes: RequestHandler = (req, _res, next) => {
   if (bidiBody) return next(bidiControlError('request body', bidiBody));
   next();
 };
+
+/**
+ * The same checks for the text fields of a multipart form, which the form
+ * reader (multer) fills in only after `refuseNulBytes` has run: put it right
+ * after the form reader of a route.
+ */
+export const refuseBadFormText: RequestHandler = (req, _res, next) => {
+  const nul = findNulByte(req.body);
+  if (nul) return next(nulByteError('form', nul));
+  const broken = findLoneSurrogate(req.body);
+  if (broken) return next(loneSurrogateError('form', broken));
+  const bidi = findBidiControl(req.body);
+  if (bidi) return next(bidiControlError('form', bidi));
+  next();
+};
