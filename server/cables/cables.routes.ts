@@ -7,7 +7,7 @@ import { currentUser } from '../auth/guards';
 import { calibrationsForCable } from '../calibrations/calibrations.service';
 import { AppError } from '../errors';
 import { ApiRouter, handle } from '../http/api-router';
-import { refuseBadFormText } from '../http/strict-input';
+import { refuseBadFormText, uploadedFileName } from '../http/strict-input';
 import { commitImport, exportCsv, previewImport } from './cables.csv';
 import * as cables from './cables.service';
 
@@ -18,7 +18,7 @@ export const MAX_IMPORT_BYTES = 1024 * 1024;
 
 /** The CSV from a multipart field "file", or from a JSON body { csv }. */
 function csvText(req: Request): { text: string; fileName?: string } {
-  if (req.file) return { text: req.file.buffer.toString('utf8'), fileName: req.file.originalname };
+  if (req.file) return { text: req.file.buffer.toString('utf8'), fileName: uploadedFileName(req.file.originalname) };
   const csv = (req.body as { csv?: unknown } | undefined)?.csv;
   if (typeof csv === 'string' && csv.length > 0) return { text: csv };
   throw AppError.badRequest('file_missing', 'Attach the CSV file (form field "file").', { fields: [{ field: 'file', message: 'is required' }] });

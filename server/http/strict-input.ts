@@ -109,3 +109,19 @@ export const refuseBadFormText: RequestHandler = (req, _res, next) => {
   if (bidi) return next(bidiControlError('form', bidi));
   next();
 };
+
+/**
+ * An uploaded file's name as its sender wrote it: multipart sends it as UTF-8
+ * bytes that the form reader hands over as Latin-1. Text-direction controls
+ * are dropped (a phone user cannot easily rename a file, and they would make
+ * "cdb.csv" show as another name in the lists), and so are other control
+ * characters.
+ */
+export function uploadedFileName(originalname: string): string {
+  return (
+    Buffer.from(originalname, 'latin1')
+      .toString('utf8')
+      // eslint-disable-next-line no-control-regex
+      .replace(/[\u0000-\u001F\u007F\u202A-\u202E\u2066-\u2069]/g, '')
+  );
+}

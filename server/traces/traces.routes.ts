@@ -18,7 +18,7 @@ import type { AppContext } from '../context';
 import { AppError, capMessage, isMalformedMultipart, malformedMultipartError, multerAppError } from '../errors';
 import { ApiRouter, handle } from '../http/api-router';
 import { IdParam } from '../http/params';
-import { findNulByte, nulByteError } from '../http/strict-input';
+import { findNulByte, nulByteError, uploadedFileName } from '../http/strict-input';
 import { analysisPool } from './analysis-pool';
 import { inboxDir } from './trace-store';
 import * as traces from './traces.service';
@@ -26,17 +26,8 @@ import * as traces from './traces.service';
 export const MAX_FILES_PER_UPLOAD = 10;
 const CSV_TYPES = new Set(['text/csv', 'text/plain', 'application/csv', 'application/vnd.ms-excel', 'application/octet-stream', 'text/comma-separated-values', '']);
 
-/**
- * The uploader's file name: multipart sends it as UTF-8 bytes that the form
- * reader hands over as Latin-1. Text-direction controls are dropped (a phone
- * user cannot easily rename a file, and they would make "cdb.csv" show as
- * another name in the lists), and so are other control characters.
- */
-const fileName = (f: Express.Multer.File) =>
-  Buffer.from(f.originalname, 'latin1')
-    .toString('utf8')
-    // eslint-disable-next-line no-control-regex
-    .replace(/[\u0000-\u001F\u007F\u202A-\u202E\u2066-\u2069]/g, '');
+/** The uploader's file name, as they wrote it (see `uploadedFileName`). */
+const fileName = (f: Express.Multer.File) => uploadedFileName(f.originalname);
 
 /**
  * The multipart reader: files are streamed straight to the upload inbox on

@@ -29,4 +29,13 @@ describe('POST /api/cables/import form fields', () => {
     expect(await CableType.count({ where: { name: ['Form NUL coax', 'Form bidi coax'] } })).toBe(0);
     expect(await CableTypeChange.count()).toBe(0);
   });
+
+  it('records the file name as the user sees it: UTF-8 read as such, direction controls dropped', async () => {
+    // "kábel" (UTF-8 á = C3 A1) with a right-to-left override: the override would show "bil.csv" reversed in the history.
+    const res = await planner.postRaw('/api/cables/import').field('reason', 'yearly update').attach('file', csv('Form name coax'), 'k\u00e1bel-\u202Ebil.csv').expect(200);
+    expect(res.body.counts.create).toBe(1);
+    const cable = await CableType.findOne({ where: { name: 'Form name coax' } });
+    const change = await CableTypeChange.findOne({ where: { cableTypeId: cable!.id } });
+    expect(change!.reason).toBe('Import of k\u00e1bel-bil.csv: yearly update');
+  });
 });
