@@ -26,7 +26,11 @@ function csvText(req: Request): { text: string; fileName?: string } {
 
 export function cableRoutes() {
   const r = new ApiRouter('/api/cables');
-  const upload: RequestHandler = multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_IMPORT_BYTES, files: 1 } }).single('file');
+  // The whole form is held in memory: a file of at most 1 MiB and a few short text fields (the reason is at most 2000 characters).
+  const upload: RequestHandler = multer({
+    storage: multer.memoryStorage(),
+    limits: { fileSize: MAX_IMPORT_BYTES, files: 1, fields: 5, fieldSize: 16 * 1024, parts: 6, headerPairs: 200 },
+  }).single('file');
 
   r.get('/', 'cables:read', handle((req) => cables.listCables(CableListQuerySchema.parse(req.query))));
   r.get(

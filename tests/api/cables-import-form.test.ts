@@ -38,4 +38,18 @@ describe('POST /api/cables/import form fields', () => {
     const change = await CableTypeChange.findOne({ where: { cableTypeId: cable!.id } });
     expect(change!.reason).toBe('Import of k\u00e1bel-bil.csv: yearly update');
   });
+
+  it('refuses a form with many fields or an over-long field (held in memory) with a 4xx naming the limit, and imports nothing', async () => {
+    let many = planner.postRaw('/api/cables/import/preview');
+    for (let i = 0; i < 200; i++) many = many.field(`extra${i}`, 'x'.repeat(1000));
+    const res = await many.attach('file', csv('Form many coax'), 'library.csv').expect(400);
+    expect(res.body.error.code).toBe('bad_upload');
+    expect(res.body.error.message).toMatch(/too many fields/);
+
+    // The reason may be 2000 characters (reasonSchema); 64 KiB of it is no reason.
+    const long = await planner.postRaw('/api/cables/import').field('reason', 'y'.repeat(65_000)).attach('file', csv('Form long coax'), 'library.csv').expect(413);
+    expect(long.body.error.code).toBe('field_too_large');
+    expect(long.body.error.fields[0].field).toBe('reason');
+    expect(await CableType.count({ where: { name: ['Form many coax', 'Form long coax'] } })).toBe(0);
+  });
 });
