@@ -1,5 +1,6 @@
 import multer from 'multer';
 import { IdParam } from '../http/params';
+import { textInt } from '../../shared/schemas/input';
 import type { Request, RequestHandler } from 'express';
 import { z } from 'zod';
 import { CableListQuerySchema, CableTypeInputSchema, CableTypeUpdateSchema, reasonSchema } from '../../shared/schemas/cables';
@@ -11,7 +12,7 @@ import { refuseBadFormText, uploadedFileName } from '../http/strict-input';
 import { commitImport, exportCsv, previewImport } from './cables.csv';
 import * as cables from './cables.service';
 
-const HistoryQuery = z.object({ sinceRevision: z.coerce.number().int().min(0, 'must not be negative').optional() });
+const HistoryQuery = z.object({ sinceRevision: textInt({ min: 0, what: 'a revision number' }).optional() });
 const CommitBody = z.object({ reason: reasonSchema });
 
 export const MAX_IMPORT_BYTES = 1024 * 1024;

@@ -117,6 +117,16 @@ describe('query strings and paths', () => {
     await admin.get(`/api/calibrations?status=all&cableTypeId=${fx.cable.id}&page=1&pageSize=10`).expect(200);
   });
 
+  it('refuses a cable history revision in hexadecimal, empty, listed twice or negative, and reads plain digits', async () => {
+    for (const query of ['sinceRevision=0x10', 'sinceRevision=', 'sinceRevision=1e1', 'sinceRevision=1&sinceRevision=2']) {
+      const res = await admin.get(`/api/cables/${fx.cable.id}/history?${query}`).expect(400);
+      expect(res.body.error.fields, query).toEqual([{ field: 'sinceRevision', message: 'must be a revision number, written in digits' }]);
+    }
+    const negative = await admin.get(`/api/cables/${fx.cable.id}/history?sinceRevision=-1`).expect(400);
+    expect(negative.body.error.fields).toEqual([{ field: 'sinceRevision', message: 'must be 0 or more' }]);
+    await admin.get(`/api/cables/${fx.cable.id}/history?sinceRevision=0`).expect(200);
+  });
+
   it('reads plain digits', async () => {
     const res = await sup.get(`/api/cable-runs?siteId=${fx.site.id}&page=1&pageSize=10`).expect(200);
     expect(res.body.items.map((r: { id: number }) => r.id)).toContain(fx.run.id);
