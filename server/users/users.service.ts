@@ -1,4 +1,4 @@
-import { Op } from 'sequelize';
+import { Op, UniqueConstraintError } from 'sequelize';
 import { containsText } from '../db/search';
 import type { z } from 'zod';
 import type { CreateUserSchema, UpdateUserSchema } from '../../shared/schemas/users';
@@ -24,19 +24,23 @@ export async function listUsers(opts: { q?: string; page: number; pageSize: numb
 }
 
 export async function createUser(ctx: AppContext, input: z.output<typeof CreateUserSchema>, actorId: number) {
-  if (await User.findOne({ where: { email: input.email } })) {
-    throw new AppError(409, 'email_taken', `A user with e-mail ${input.email} already exists.`, {
+  const taken = () =>
+    new AppError(409, 'email_taken', `A user with e-mail ${input.email} already exists.`, {
       fields: [{ field: 'email', message: 'is already in use' }],
     });
-  }
+  if (await User.findOne({ where: { email: input.email } })) throw taken();
   const password = temporaryPassword();
+  const passwordHash = await hashPassword(password);
+  // The same e-mail sent twice at once passes the check above both times: the unique index decides.
   const user = await User.create({
     email: input.email,
     name: input.name,
     role: input.role,
     phone: input.phone ?? null,
-    passwordHash: await hashPassword(password),
+    passwordHash,
     mustChangePassword: true,
+  }).catch((err: unknown) => {
+    throw err instanceof UniqueConstraintError ? taken() : err;
   });
   if (input.role === 'admin') ctx.security('admin-created', { userId: user.id, actorId, email: user.email });
   return { user: user.toPublic(), temporaryPassword: password };

@@ -30,6 +30,16 @@ describe('POST /api/users', () => {
     expect(res.body.error.fields).toEqual([{ field: 'email', message: 'is already in use' }]);
   });
 
+  it('answers 409 to all but one of the same new e-mail sent at once (a double-click), and stores one user', async () => {
+    const admin = await api.as('admin');
+    const emails = ['twice@example.com', 'twice@example.com', 'Twice@Example.com'];
+    const answers = await Promise.all(emails.map((email) => admin.post('/api/users', { email, name: 'Twice Sent', role: 'technician' })));
+    expect(answers.map((r) => r.status).sort()).toEqual([201, 409, 409]);
+    for (const r of answers.filter((a) => a.status === 409)) expect(r.body.error.fields).toEqual([{ field: 'email', message: 'is already in use' }]);
+    const list = await admin.get('/api/users?q=twice').expect(200);
+    expect(list.body.items.map((u: { email: string }) => u.email)).toEqual(['twice@example.com']);
+  });
+
   it('rejects an unknown role', async () => {
     const admin = await api.as('admin');
     const res = await admin.post('/api/users', { email: 'x@example.com', name: 'X', role: 'boss' }).expect(400);
