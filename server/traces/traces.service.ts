@@ -374,17 +374,27 @@ async function reanalyseOnce(ctx: AppContext, earlier: Trace, cable: CableType):
     throw new AppError(409, 'raw_file_changed', `The stored file of trace ${id} no longer matches its SHA-256; it will not be analysed again.`);
   }
   if (result.parsed) rememberParsed(ctx, earlier.rawPath, settings, result.parsed);
-  const trace = await Trace.create({
-    cableRunId: earlier.cableRunId,
-    end: earlier.end,
-    uploadedById: earlier.uploadedById,
-    originalName: earlier.originalName,
-    rawPath: earlier.rawPath,
-    sha256: earlier.sha256,
-    sizeBytes: earlier.sizeBytes,
-    ...analysisColumns(result.outcome, cable, settings),
-    vfOverrideReason: null,
-    reanalysisOfId: earlier.id,
+  const trace = await ctx.sequelize.transaction(async (transaction) => {
+    // Archived while it was in the worker: a new row would bring the junk back into the lists.
+    const now = await Trace.findByPk(id, { attributes: ['id', 'archivedAt'], lock: transaction.LOCK.UPDATE, transaction });
+    if (!now || now.archivedAt) {
+      throw AppError.conflict('trace_archived', `Trace ${id} was archived while it was being analysed again, so the new analysis was not stored. An administrator restores it before it is analysed again.`);
+    }
+    return Trace.create(
+      {
+        cableRunId: earlier.cableRunId,
+        end: earlier.end,
+        uploadedById: earlier.uploadedById,
+        originalName: earlier.originalName,
+        rawPath: earlier.rawPath,
+        sha256: earlier.sha256,
+        sizeBytes: earlier.sizeBytes,
+        ...analysisColumns(result.outcome, cable, settings),
+        vfOverrideReason: null,
+        reanalysisOfId: earlier.id,
+      },
+      { transaction },
+    );
   });
   return { id: trace.id, created: true };
 }

@@ -1,7 +1,8 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { makeRun, stepTraceCsv } from './support/field-fixtures';
 import { hashPassword } from '../../server/auth/passwords';
-import { User } from '../../server/db/models';
+import { Trace, User } from '../../server/db/models';
+import { analysisPool } from '../../server/traces/analysis-pool';
 import { startApi, TEST_PASSWORD, type TestApi } from './support/api';
 
 let api: TestApi;
@@ -88,6 +89,35 @@ describe('POST /api/traces/:id/reanalyse', () => {
     await tech.post(`/api/traces/${again.body.id}/archive`, { reason: 'duplicate of the first reading' }).expect(200);
     const archived = await supervisor.post(`/api/traces/${again.body.id}/reanalyse`).expect(409);
     expect(archived.body.error.code).toBe('trace_archived');
+  });
+
+  it('does not bring back a trace archived while its re-analysis was in the worker', async () => {
+    const tech = await api.as('technician');
+    const up = await tech
+      .postRaw('/api/traces')
+      .field('cableRunId', String(runId))
+      .field('end', 'A')
+      .attach('file', Buffer.from(stepTraceCsv({ faultM: 66, vf: 0.7 })), 'archived-mid-analysis.csv')
+      .expect(201);
+    const id = up.body.traces[0].id;
+    const pool = analysisPool(api.app.ctx);
+    const analyse = pool.analyse.bind(pool);
+    // The uploader archives the trace as junk while a supervisor's re-analysis of it is in the worker.
+    const spy = vi.spyOn(pool, 'analyse').mockImplementationOnce(async (job) => {
+      const out = await analyse(job);
+      await tech.post(`/api/traces/${id}/archive`, { reason: 'wrong pair on the set' }).expect(200);
+      return out;
+    });
+    try {
+      const supervisor = await api.as('supervisor');
+      const res = await supervisor.post(`/api/traces/${id}/reanalyse`).expect(409);
+      expect(res.body.error.code).toBe('trace_archived');
+    } finally {
+      spy.mockRestore();
+    }
+    expect(await Trace.count({ where: { reanalysisOfId: id } })).toBe(0);
+    const earlier = await tech.get(`/api/traces/${id}`).expect(200);
+    expect(earlier.body.reanalysedAs).toEqual([]);
   });
 
   it('answers 404 for an unknown trace', async () => {
