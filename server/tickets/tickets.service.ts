@@ -208,6 +208,13 @@ export async function moveTicket(ctx: AppContext, actor: SessionUser, id: number
     const who = checkMover(t, actor);
     const from = t.status;
     const to = input.to;
+    if (from === to) {
+      // A second click, or two people making the same step at once: say so, rather than why the step is not allowed.
+      const now = TICKET_STATUS_LABELS[to].toLowerCase();
+      throw new AppError(409, 'status_step_not_allowed', `Ticket ${id} is already ${now}; nothing was changed.`, {
+        fields: [{ field: 'to', message: `the ticket is already ${now}` }],
+      });
+    }
     const move = findMove(from, to);
     if (!move) {
       const why =

@@ -209,6 +209,12 @@ describe('repair tickets', () => {
     expect(t.timeline[3].changes).toEqual({ priority: ['high', 'urgent'] });
     expect(await TicketEvent.count({ where: { ticketId } })).toBe(7);
     await sup.patch(`/api/tickets/${ticketId}`, { priority: 'low' }).expect(409);
+    // Signed off a second time (a double-click, or two supervisors at once): the answer says it already is.
+    const twice = await sup.post(`/api/tickets/${ticketId}/status`, { to: 'signed-off' }).expect(409);
+    expect(twice.body.error.code).toBe('status_step_not_allowed');
+    expect(twice.body.error.message).toBe(`Ticket ${ticketId} is already signed off; nothing was changed.`);
+    expect(twice.body.error.fields).toEqual([{ field: 'to', message: 'the ticket is already signed off' }]);
+    expect(await TicketEvent.count({ where: { ticketId } })).toBe(7);
   });
 
   it('answers bad input with a 400 naming the field', async () => {
