@@ -100,15 +100,18 @@ export const refuseNulBytes: RequestHandler = (req, _res, next) => {
  * reader (multer) fills in only after `refuseNulBytes` has run: put it right
  * after the form reader of a route.
  */
-export const refuseBadFormText: RequestHandler = (req, _res, next) => {
-  const nul = findNulByte(req.body);
-  if (nul) return next(nulByteError('form', nul));
-  const broken = findLoneSurrogate(req.body);
-  if (broken) return next(loneSurrogateError('form', broken));
-  const bidi = findBidiControl(req.body);
-  if (bidi) return next(bidiControlError('form', bidi));
-  next();
-};
+export const refuseBadFormText: RequestHandler = (req, _res, next) => next(textTrouble('form', req.body) ?? undefined);
+
+/** The first NUL, lone surrogate or direction control in a value (e.g. JSON read out of a form field), as the error to answer with. */
+export function textTrouble(where: string, value: unknown): AppError | null {
+  const nul = findNulByte(value);
+  if (nul) return nulByteError(where, nul);
+  const broken = findLoneSurrogate(value);
+  if (broken) return loneSurrogateError(where, broken);
+  const bidi = findBidiControl(value);
+  if (bidi) return bidiControlError(where, bidi);
+  return null;
+}
 
 /**
  * An uploaded file's name as its sender wrote it: multipart sends it as UTF-8

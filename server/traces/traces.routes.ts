@@ -18,7 +18,7 @@ import type { AppContext } from '../context';
 import { AppError, capMessage, isMalformedMultipart, malformedMultipartError, multerAppError } from '../errors';
 import { ApiRouter, handle } from '../http/api-router';
 import { IdParam } from '../http/params';
-import { findNulByte, nulByteError, uploadedFileName } from '../http/strict-input';
+import { nulByteError, textTrouble, uploadedFileName } from '../http/strict-input';
 import { analysisPool } from './analysis-pool';
 import { inboxDir } from './trace-store';
 import * as traces from './traces.service';
@@ -158,9 +158,12 @@ export function traceRoutes(ctx: AppContext) {
     handle(async (req, res) => {
       const files = (req.files as Express.Multer.File[] | undefined) ?? [];
       try {
-        const nul = findNulByte(req.body ?? {});
-        if (nul) throw nulByteError('form', nul);
+        const inForm = textTrouble('form', req.body ?? {});
+        if (inForm) throw inForm;
         const fields = TraceUploadSchema.parse(req.body ?? {});
+        // The phone's summary is JSON text: "\u0000" and the like only appear once it is read.
+        const inSummary = textTrouble('form', { deviceAnalysis: fields.deviceAnalysis });
+        if (inSummary) throw inSummary;
         const key = idempotencyKey(req);
         if (!files.length) {
           throw AppError.badRequest('no_file', 'Choose at least one CSV trace file to upload.', { fields: [{ field: 'file', message: 'is required' }] });

@@ -91,6 +91,39 @@ describe('POST /api/traces with the phone’s own analysis', () => {
     expect(await Trace.count()).toBe(before);
   });
 
+  it('refuses a NUL, half a surrogate pair or a direction control written as a JSON escape in the summary, naming the field, and stores nothing', async () => {
+    const csv = Buffer.from(stepTraceCsv({ faultM: 62, vf: 0.66 }));
+    const before = await Trace.count();
+    // The form field itself is plain ASCII: the characters only appear once its JSON is read.
+    const withVersion = (escaped: string) => JSON.stringify({ ...phoneSummary(csv, 0.66), engineVersion: 'VERSION' }).replace('VERSION', escaped);
+    const nul = await send(csv, 'esc.csv', withVersion('1.0\\u0000')).expect(400);
+    expect(nul.body.error.code).toBe('nul_byte');
+    expect(nul.body.error.fields[0].field).toBe('deviceAnalysis.engineVersion');
+    const half = await send(csv, 'esc.csv', withVersion('1.0\\ud800')).expect(400);
+    expect(half.body.error.code).toBe('broken_text');
+    expect(half.body.error.fields[0].field).toBe('deviceAnalysis.engineVersion');
+    const bidi = await send(csv, 'esc.csv', withVersion('\\u202e0.1')).expect(400);
+    expect(bidi.body.error.code).toBe('hidden_direction_mark');
+    expect(bidi.body.error.fields[0].field).toBe('deviceAnalysis.engineVersion');
+    expect(await Trace.count()).toBe(before);
+  });
+
+  it('refuses a direction control in the VF override reason, naming the field', async () => {
+    const csv = Buffer.from(stepTraceCsv({ faultM: 64, vf: 0.66 }));
+    const before = await Trace.count();
+    const res = await tech
+      .postRaw('/api/traces')
+      .field('cableRunId', String(runId))
+      .field('end', 'A')
+      .field('vfOverride', '0.7')
+      .field('vfOverrideReason', 'datasheet \u202Eevoba')
+      .attach('file', csv, 'override.csv')
+      .expect(400);
+    expect(res.body.error.code).toBe('hidden_direction_mark');
+    expect(res.body.error.fields[0].field).toBe('vfOverrideReason');
+    expect(await Trace.count()).toBe(before);
+  });
+
   it('leaves deviceAnalysis empty on a trace uploaded from the desk', async () => {
     const csv = Buffer.from(stepTraceCsv({ faultM: 65, vf: 0.66 }));
     const res = await tech
