@@ -7,6 +7,7 @@ import type { FieldChange } from '../db/models/cable-type-change';
 import { AppError, type FieldIssue } from '../errors';
 import { protectCell, unprotectCell } from './csv-cells';
 import { CABLE_FIELDS, cableNameKey, createCable, diffCable, historyValue, LIST_FIELDS, updateCable, type CableField } from './cables.service';
+import { findBidiControl } from '../http/strict-input';
 
 /**
  * The library as CSV: one row per cable type, SI units named in the header.
@@ -130,6 +131,8 @@ function cellToValue(field: CableField, cell: string, decimalComma: boolean): { 
     return read.ok ? { value: read.value } : { error: read.error };
   }
   if (raw === '') return NULLABLE.includes(field) ? { value: null } : { error: 'is required' };
+  // As in a JSON body (strict-input.ts): the text would show in another order than it is stored.
+  if (!NUMERIC.includes(field) && findBidiControl(raw)) return { error: 'must not contain text-direction controls (U+202A–U+202E, U+2066–U+2069)' };
   if (!NUMERIC.includes(field)) return { value: raw };
   // In a semicolon file the comma is the decimal mark ("0,66"); in a comma file it cannot be.
   if (decimalComma && /^[-+]?\d+,\d+([eE][-+]?\d+)?$/.test(raw)) return cellToValue(field, raw.replace(',', '.'), false);

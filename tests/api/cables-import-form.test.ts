@@ -52,4 +52,13 @@ describe('POST /api/cables/import form fields', () => {
     expect(long.body.error.fields[0].field).toBe('reason');
     expect(await CableType.count({ where: { name: ['Form many coax', 'Form long coax'] } })).toBe(0);
   });
+
+  it('refuses a direction control inside a cell of the file, naming the line and column, and imports nothing', async () => {
+    // "Foam coax" with a right-to-left override: the library list would show the name in another order than stored.
+    const text = [HEADER, row('Form \u202Exaoc'), row('Form plain coax')].join('\n');
+    const res = await planner.postRaw('/api/cables/import').field('reason', 'yearly update').attach('file', Buffer.from(text, 'utf8'), 'library.csv').expect(422);
+    expect(res.body.error.code).toBe('import_invalid');
+    expect(res.body.error.fields).toEqual([{ field: 'name', line: 2, message: 'must not contain text-direction controls (U+202A–U+202E, U+2066–U+2069)' }]);
+    expect(await CableType.count({ where: { name: ['Form \u202Exaoc', 'Form plain coax'] } })).toBe(0);
+  });
 });
