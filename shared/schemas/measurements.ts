@@ -119,7 +119,11 @@ const record = {
     .min(1, 'is required: the instrument used')
     .max(200, 'must be at most 200 characters'),
   /** When the reading was taken (ISO 8601); defaults to now. */
-  measuredAt: z.iso.datetime({ offset: true, error: 'must be a date and time (ISO 8601)' }).optional(),
+  measuredAt: z.iso
+    .datetime({ offset: true, error: 'must be a date and time (ISO 8601)' })
+    // A year typed with two digits ("0026") is a valid ISO date; no reading entered here predates 1900.
+    .refine((v) => Date.parse(v) >= Date.UTC(1900, 0, 1), 'must be in 1900 or later (check the year)')
+    .optional(),
   note: z
     .string()
     .trim()

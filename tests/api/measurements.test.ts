@@ -187,6 +187,14 @@ describe('best location of a finding from traces at both ends and a bridge readi
       .post('/api/measurements', { ...murray(fa.id, 0.3), measuredAt: '2999-01-01T00:00:00Z' })
       .expect(422);
     expect(future.body.error.fields[0].field).toBe('measuredAt');
+    // A year typed with two digits ("26" for 2026) is a valid ISO date in year 26: it was stored, and then no list of
+    // the finding's readings could be shown (500). Refused, naming the field, and nothing stored.
+    const before = await tech.get(`/api/measurements?findingId=${fa.id}&all=true`).expect(200);
+    for (const measuredAt of ['0026-03-02T10:15:00Z', '0000-01-01T00:00:00Z', '1899-12-31T23:59:59Z']) {
+      const ancient = await tech.post('/api/measurements', { ...murray(fa.id, 0.3), measuredAt }).expect(400);
+      expect(ancient.body.error.fields, measuredAt).toEqual([{ field: 'measuredAt', message: 'must be in 1900 or later (check the year)' }]);
+    }
+    expect((await tech.get(`/api/measurements?findingId=${fa.id}&all=true`).expect(200)).body).toHaveLength(before.body.length);
     const strange = await tech
       .post('/api/measurements', { ...murray(fa.id, 0.3), readings: { ...murray(fa.id, 0.3).readings, colour: 'red' } })
       .expect(400);
