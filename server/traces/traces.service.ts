@@ -673,6 +673,12 @@ export async function setReference(sequelize: Sequelize, id: number, isReference
   await sequelize.transaction(async (transaction) => {
     const trace = await Trace.findByPk(id, { transaction });
     if (!trace) throw AppError.notFound(`Trace ${id}`);
+    if (isReference && trace.archivedAt) {
+      // Archiving refuses the reference trace; an archived one does not become it either.
+      throw new AppError(409, 'trace_archived', `Trace ${id} is archived as junk: an administrator restores it before it can be the reference.`, {
+        fields: [{ field: 'traceId', message: 'the trace is archived' }],
+      });
+    }
     if (isReference && trace.status === 'pending') throw pendingConflict(id, 'used as the reference');
     if (isReference && trace.status !== 'ok') {
       throw new AppError(422, 'trace_failed', 'A trace the engine could not read cannot be the reference.');

@@ -185,6 +185,21 @@ describe('archiving a trace', () => {
   });
 });
 
+describe('the reference trace and archiving', () => {
+  it('does not make an archived trace the reference of its run end, and changes nothing', async () => {
+    const t = await upload(tech, stepTraceCsv({ faultM: 85, vf: 0.66 }), 'junk-reference.csv', 'B');
+    await tech.post(`/api/traces/${t.id}/archive`, { reason: 'Probe slipped off the pair' }).expect(200);
+    const supervisor = await api.as('supervisor');
+    // Archiving refuses the reference (is_reference); the other way round must hold too.
+    const res = await supervisor.put(`/api/traces/${t.id}/reference`, { isReference: true }).expect(409);
+    expect(res.body.error.code).toBe('trace_archived');
+    expect(res.body.error.fields).toEqual([{ field: 'traceId', message: 'the trace is archived' }]);
+    expect((await Trace.findByPk(t.id))!.isReference).toBe(false);
+    // Taking the mark off is still allowed (nothing to protect).
+    await supervisor.put(`/api/traces/${t.id}/reference`, { isReference: false }).expect(200);
+  });
+});
+
 describe('GET /api/traces/:id/samples', () => {
   it('draws a zoomed window of a 100 000-sample record at the file’s own detail, and a wide one min/max decimated', async () => {
     // 1 ns per sample (the fixture's grid), a one-sample spike at 61 237 ns.
