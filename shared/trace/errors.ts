@@ -25,7 +25,8 @@ export type TraceInputErrorCode =
   | 'LINE_TOO_LONG'
   | 'TOO_MANY_COLUMNS'
   | 'UNKNOWN_CHANNEL'
-  | 'IMPLAUSIBLE_TIME_AXIS';
+  | 'IMPLAUSIBLE_TIME_AXIS'
+  | 'GLITCH_SAMPLE';
 
 /** Longest message a TraceInputError carries, line prefix included; it is stored and shown as is. */
 export const MAX_MESSAGE_CHARS = 300;

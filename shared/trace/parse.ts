@@ -17,6 +17,7 @@ import { DEFAULT_MAX_BYTES, estimateLines, traceBytes } from './lines';
 import { metadataEntries, type MetaScan, readMetadata } from './metadata';
 import { type BodySpec, readBody } from './numeric-rows';
 import type { ParseOptions, ParsedTrace } from './reader-types';
+import { percentileOf, sortedSample } from './stats';
 import type { ColumnInfo } from './units';
 
 export type { ParseOptions, ParsedTrace, TraceChannel, TraceHints, TraceLayout, TraceLayoutKind } from './reader-types';
@@ -100,6 +101,7 @@ export function parseTraceCsv(input: string | Uint8Array, options: ParseOptions 
   }
 
   const amplitude = plan.xCol >= 0 ? body.columns[1] : body.columns[0];
+  refuseGlitch(amplitude, body.lineOfRow, plan.channel.name);
 
   const axis = buildTimeAxis({
     x: plan.xCol >= 0 ? body.columns[0] : null,
@@ -143,4 +145,32 @@ export function parseTraceCsv(input: string | Uint8Array, options: ParseOptions 
     channel: plan.channel,
     warnings: [...plan.warnings, ...axis.warnings, ...(even.warning ? [even.warning] : [])],
   };
+}
+
+/**
+ * How far past the rest of the trace one amplitude may lie before it is a recorder's glitch rather than a
+ * reading: a million times the spread of the 99.9 % of samples nearest the median (120 dB; no recorder's
+ * launch stands that far out of its own baseline and noise, common practice). One such sample would set
+ * the scale the whole record is read at and hide every real reflection in it.
+ */
+const GLITCH_RATIO = 1e6;
+
+function refuseGlitch(y: Float64Array, lineOfRow: (row: number) => number, column: string | null | undefined): void {
+  const sorted = sortedSample(y);
+  const mid = percentileOf(sorted, 0.5);
+  const dev = new Float64Array(sorted.length);
+  for (let i = 0; i < sorted.length; i++) dev[i] = Math.abs(sorted[i] - mid);
+  dev.sort();
+  const spread = percentileOf(dev, 0.999);
+  if (!(spread > 0)) return;
+  const limit = GLITCH_RATIO * spread;
+  for (let i = 0; i < y.length; i++) {
+    if (Math.abs(y[i] - mid) > limit) {
+      throw new TraceInputError(
+        'GLITCH_SAMPLE',
+        `the amplitude ${y[i].toPrecision(3)}${column ? ` in column '${column}'` : ''} is more than a million times beyond the rest of the trace (around ${mid.toPrecision(3)}); it is a recorder glitch or an over-range code, not a reading: fix or remove that row`,
+        { line: lineOfRow(i) },
+      );
+    }
+  }
 }
