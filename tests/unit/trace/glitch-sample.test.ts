@@ -31,7 +31,9 @@ describe('a glitch sample far beyond the rest of the trace', () => {
     const err = failure(stepCsv(700));
     expect(err.code).toBe('GLITCH_SAMPLE');
     expect(err.line).toBe(702);
-    expect(err.message).toMatch(/^line 702: the amplitude 1\.00e\+308 in column 'amplitude_V' is more than a million times beyond/);
+    expect(err.message).toMatch(
+      /^line 702: the amplitude 1\.00e\+308 in column 'amplitude_V' is more than a million times beyond/,
+    );
   });
 
   it('is refused below zero too, and at the first row', () => {
