@@ -1,5 +1,6 @@
 import type { ErrorRequestHandler } from 'express';
 import multer from 'multer';
+import { UniqueConstraintError } from 'sequelize';
 import { ZodError } from 'zod';
 import { capMessage } from './http/messages';
 
@@ -52,7 +53,13 @@ function describeFields(fields: FieldIssue[]): string {
  * serialization failure (40001), deadlock (40P01) and lock-not-available (55P03).
  */
 export function isBusyError(err: unknown): boolean {
-  const e = err as { name?: string; code?: string; parent?: { code?: string }; original?: { code?: string }; message?: string } | null;
+  const e = err as {
+    name?: string;
+    code?: string;
+    parent?: { code?: string };
+    original?: { code?: string };
+    message?: string;
+  } | null;
   if (!e || typeof e !== 'object') return false;
   const code = e.parent?.code ?? e.original?.code ?? e.code;
   if (code === 'SQLITE_BUSY' || code === 'SQLITE_LOCKED' || code === '40001' || code === '40P01' || code === '55P03') return true;
@@ -61,7 +68,11 @@ export function isBusyError(err: unknown): boolean {
 
 /** What a write that stayed busy through every retry answers: 503, nothing changed. */
 export function databaseBusy(): AppError {
-  return new AppError(503, 'database_busy', 'The database is busy with other changes and this one could not be saved. Nothing was changed; try again in a moment.');
+  return new AppError(
+    503,
+    'database_busy',
+    'The database is busy with other changes and this one could not be saved. Nothing was changed; try again in a moment.',
+  );
 }
 
 type BodyParserError = Error & { type?: string; status?: number; expose?: boolean };
@@ -76,7 +87,12 @@ export function isMalformedMultipart(err: unknown): boolean {
   if (!(e instanceof Error) || e instanceof AppError || e.syscall || err instanceof multer.MulterError) return false;
   // Made by the form reader itself: the first frame of its stack is in busboy.
   const firstFrame = (e.stack ?? '').split('\n').find((l) => l.trimStart().startsWith('at ')) ?? '';
-  return /[\\/]busboy[\\/]/.test(firstFrame) || /^(Malformed part header|Unexpected end of (form|file)|Multipart: Boundary not found|Malformed urlencoded form)/.test(e.message);
+  return (
+    /[\\/]busboy[\\/]/.test(firstFrame) ||
+    /^(Malformed part header|Unexpected end of (form|file)|Multipart: Boundary not found|Malformed urlencoded form)/.test(
+      e.message,
+    )
+  );
 }
 
 const MULTER_MESSAGES: Record<string, [status: number, code: string, message: string]> = {
@@ -94,8 +110,11 @@ const MULTER_MESSAGES: Record<string, [status: number, code: string, message: st
 export function multerAppError(err: InstanceType<typeof multer.MulterError>): AppError {
   // A file part sent with an empty file name is read as a text field: its contents then overrun a field's limit.
   if (err.code === 'LIMIT_FIELD_VALUE' && err.field === 'file') {
-    const message = 'The file part has no file name, so it was read as text; send the trace as a file with its name (filename="trace.csv").';
-    return new AppError(400, 'file_without_name', `${message} Nothing was stored.`, { fields: [{ field: 'file', message: 'has no file name' }] });
+    const message =
+      'The file part has no file name, so it was read as text; send the trace as a file with its name (filename="trace.csv").';
+    return new AppError(400, 'file_without_name', `${message} Nothing was stored.`, {
+      fields: [{ field: 'file', message: 'has no file name' }],
+    });
   }
   const [status, code, message] = MULTER_MESSAGES[err.code] ?? [400, 'bad_upload', 'The upload is not a valid form.'];
   const field = err.field ? capMessage(err.field, 60) : undefined;
@@ -105,10 +124,32 @@ export function multerAppError(err: InstanceType<typeof multer.MulterError>): Ap
 }
 
 export function malformedMultipartError(err: Error): AppError {
-  return AppError.badRequest('malformed_form', `The upload is not a well-formed multipart form (${capMessage(err.message, 80)}). Nothing was stored; send the form again.`);
+  return AppError.badRequest(
+    'malformed_form',
+    `The upload is not a well-formed multipart form (${capMessage(err.message, 80)}). Nothing was stored; send the form again.`,
+  );
 }
 
 /** Every error leaves as JSON { error: { code, message, fields? } }; internals stay hidden in production. */
+const camel = (column: string) => column.replace(/_([a-z])/g, (_m, c: string) => c.toUpperCase());
+
+/** A unique index's refusal as a 409 naming the fields that must differ (snake_case columns as the API's camelCase). */
+export function uniqueConflict(err: UniqueConstraintError): AppError {
+  // PostgreSQL names them as { column: value }, SQLite as a list of columns.
+  const raw: unknown = err.fields ?? {};
+  const columns = Array.isArray(raw) ? raw.map(String) : Object.keys(raw as object);
+  const fields = [...new Set(columns.map((c) => camel(c.replace(/^.*\./, ''))))].filter((f) => f !== 'id');
+  const list = fields.length > 0 ? fields.join(', ') : 'these values';
+  return new AppError(
+    409,
+    'already_exists',
+    `Another record already has the same ${list}; nothing was changed. Reload to see it.`,
+    {
+      fields: fields.map((field) => ({ field, message: 'is already used by another record' })),
+    },
+  );
+}
+
 export function errorHandler(options: { exposeInternals: boolean; log?: (err: unknown) => void }): ErrorRequestHandler {
   return (err, _req, res, _next) => {
     let status = 500;
@@ -128,6 +169,12 @@ export function errorHandler(options: { exposeInternals: boolean; log?: (err: un
       const e = malformedMultipartError(err as Error);
       status = e.status;
       body = { code: e.code, message: e.message };
+    } else if (err instanceof UniqueConstraintError) {
+      // A check-then-insert that lost a race to another request (two people adding the same name at
+      // once): the database's own unique index refused the second; nothing of it was stored.
+      const e = uniqueConflict(err);
+      status = e.status;
+      body = { code: e.code, message: e.message, ...(e.details ?? {}) };
     } else if (isBusyError(err)) {
       const e = databaseBusy();
       status = e.status;
@@ -152,7 +199,8 @@ export function errorHandler(options: { exposeInternals: boolean; log?: (err: un
       };
     }
     body.message = capMessage(body.message);
-    if (Array.isArray(body.fields)) body.fields = (body.fields as FieldIssue[]).map((f) => ({ ...f, message: capMessage(String(f.message)) }));
+    if (Array.isArray(body.fields))
+      body.fields = (body.fields as FieldIssue[]).map((f) => ({ ...f, message: capMessage(String(f.message)) }));
     if (status === 503) res.setHeader('retry-after', '2');
     res.status(status).json({ error: body });
   };
