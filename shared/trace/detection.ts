@@ -355,6 +355,46 @@ function dropSideLobes(
   return kept;
 }
 
+/**
+ * Drop the fine-scale lobes of a coarse edge. An edge spread over many finer windows (a loss-spread echo)
+ * is seen whole only at a coarse scale; a finer filter reads its curvature, which turns sign at the edge's
+ * flanks, and finer scales are kept first (resolveScales). A finer candidate c is such a lobe when all hold:
+ * - a coarser candidate m of the other sign, stronger than c, lies within one of m's windows of it (the span
+ *   of m's flanks);
+ * - m is spread at c's scale: the finer filter answers it nowhere there with half its height (a step shorter
+ *   than the window gets F = its whole height at every scale);
+ * - the level across c on its own scale moves by less than c's response: a step of height h gives F = h and
+ *   moves the level from the windows before it to those after it by h, while a flank's curvature answers F
+ *   with no such move of its own.
+ */
+function dropCoarseEdgeLobes(kept: Candidate[], P: Float64Array): Candidate[] {
+  const n = P.length - 1;
+  const mean = (a: number, b: number) => (P[b] - P[a]) / (b - a);
+  // The finer filter's strongest answer, of m's sign, within one coarser window of m.
+  const peakAt = (m: Candidate, w: number) => {
+    const inv = 1 / (2 * w);
+    const step = Math.max(1, Math.floor(w / 4));
+    let peak = -Infinity;
+    for (let i = Math.max(2 * w, m.i - m.w); i <= Math.min(n - 2 * w, m.i + m.w); i += step) peak = Math.max(peak, m.sign * stepFilterAt(P, i, w, inv));
+    return peak;
+  };
+  return kept.filter((c) => {
+    const w = c.w;
+    const before = mean(Math.max(0, c.i - 2 * w), Math.max(1, c.i - w));
+    const after = mean(Math.min(n - 1, c.i + w), Math.min(n, c.i + 2 * w));
+    const own = (after - before) * c.sign;
+    if (own >= Math.abs(c.f)) return true;
+    return !kept.some(
+      (m) =>
+        m.w >= 3 * w &&
+        m.sign !== c.sign &&
+        Math.abs(m.i - c.i) <= m.w &&
+        Math.abs(m.f) > Math.abs(c.f) &&
+        peakAt(m, w) < 0.5 * Math.abs(m.f),
+    );
+  });
+}
+
 /** Finer scales first; a coarser detection only adds an event where no finer one lies. */
 function resolveScales(kept: Candidate[]): Candidate[] {
   kept.sort((a, b) => a.w - b.w || b.snr - a.snr);
@@ -408,7 +448,7 @@ export function detectEdges(sig: WorkingSignal, settings: DetectionSettings): De
   // stands twice the threshold out of it.
   const clear = candidates.filter((c) => c.i - 2 * c.w >= sig.blindIdx || c.snr >= 2 * k);
   const kept = dropSideLobes(clear, P, thrOf, rhoMin, sig.mode === 'pulse');
-  return { candidates: resolveScales(kept), thresholdSigma: k, independentTests };
+  return { candidates: resolveScales(dropCoarseEdgeLobes(kept, P)), thresholdSigma: k, independentTests };
 }
 
 /** More events than this in one record means its threshold is wrong for it (see dropClutter). */
