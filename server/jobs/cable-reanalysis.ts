@@ -6,7 +6,7 @@ import { CableReanalysis, CableReanalysisItem, CableRun, CableType, Finding, Tra
 import { AppError } from '../errors';
 import { RawFileChanged, RawFileMissing } from '../storage';
 import { analysisPool } from '../traces/analysis-pool';
-import { analysisCable, analysisColumns } from '../traces/traces.service';
+import { analysisCable, reanalysisColumns } from '../traces/traces.service';
 import { JobReleased } from './queue';
 
 export const CABLE_REANALYSIS_JOB = 'cable-reanalysis';
@@ -171,21 +171,7 @@ async function reanalyseOne(ctx: AppContext, run: CableReanalysis, cable: CableT
       note: result.outcome.error?.message ?? null,
     },
     (transaction) =>
-      Trace.create(
-        {
-          cableRunId: earlier.cableRunId,
-          end: earlier.end,
-          uploadedById: run.requestedById,
-          originalName: earlier.originalName,
-          rawPath: earlier.rawPath,
-          sha256: earlier.sha256,
-          sizeBytes: earlier.sizeBytes,
-          ...analysisColumns(result.outcome, cable, settings),
-          vfOverrideReason: null,
-          reanalysisOfId: earlier.id,
-        },
-        { transaction },
-      ),
+      Trace.create(reanalysisColumns(earlier, result.outcome, cable, settings, run.requestedById), { transaction }),
   );
 }
 

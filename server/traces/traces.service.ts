@@ -54,6 +54,28 @@ export function analysisColumns(outcome: Outcome, cable: CableType, settings: Tr
   };
 }
 
+/** A new analysis of a stored trace: the same file on the same run and end, analysed again by `analysedById`. */
+export function reanalysisColumns(
+  earlier: Trace,
+  outcome: Outcome,
+  cable: CableType,
+  settings: TraceSettings,
+  analysedById: number,
+) {
+  return {
+    cableRunId: earlier.cableRunId,
+    end: earlier.end,
+    uploadedById: analysedById,
+    originalName: earlier.originalName,
+    rawPath: earlier.rawPath,
+    sha256: earlier.sha256,
+    sizeBytes: earlier.sizeBytes,
+    ...analysisColumns(outcome, cable, settings),
+    vfOverrideReason: null,
+    reanalysisOfId: earlier.id,
+  };
+}
+
 /** The job that analyses a large upload in the background (server/traces/background-analysis.ts). */
 export const TRACE_ANALYSIS_JOB = 'trace-analysis';
 
@@ -112,13 +134,23 @@ async function fileSha256(p: string): Promise<string> {
  * to the same run and end with the same bytes (file names may differ); a key
  * reused for other files is refused, never answered with the first files' result.
  */
-async function earlierReceipt(userId: number, key: string, fields: UploadFields, hashes: string[]): Promise<UploadOutcome | null> {
+async function earlierReceipt(
+  userId: number,
+  key: string,
+  fields: UploadFields,
+  hashes: string[],
+): Promise<UploadOutcome | null> {
   const receipt = await UploadReceipt.findOne({ where: { userId, idempotencyKey: key } });
   if (!receipt) return null;
   if (receipt.cableRunId !== fields.cableRunId || receipt.end !== fields.end) {
-    throw new AppError(422, 'idempotency_key_reused', 'This Idempotency-Key was already used for an upload to another cable run or end. Send a new key for a new upload.', {
-      fields: [{ field: 'Idempotency-Key', message: 'already used for a different upload' }],
-    });
+    throw new AppError(
+      422,
+      'idempotency_key_reused',
+      'This Idempotency-Key was already used for an upload to another cable run or end. Send a new key for a new upload.',
+      {
+        fields: [{ field: 'Idempotency-Key', message: 'already used for a different upload' }],
+      },
+    );
   }
   const ids = [...receipt.traceIds, ...receipt.duplicates.map((d) => d.traceId)];
   const rows = await Trace.findAll({ where: { id: ids }, attributes: ['id', 'sha256'] });
@@ -143,7 +175,14 @@ async function earlierReceipt(userId: number, key: string, fields: UploadFields,
  */
 async function earlierCopy(sha256: string, cableRunId: number, end: CableEnd, transaction?: Transaction) {
   return Trace.findOne({
-    where: { sha256, cableRunId, end, reanalysisOfId: null, archivedAt: null, createdAt: { [Op.gte]: new Date(Date.now() - DUPLICATE_WINDOW_MS) } },
+    where: {
+      sha256,
+      cableRunId,
+      end,
+      reanalysisOfId: null,
+      archivedAt: null,
+      createdAt: { [Op.gte]: new Date(Date.now() - DUPLICATE_WINDOW_MS) },
+    },
     order: [['id', 'ASC']],
     attributes: ['id', 'createdAt'],
     transaction,
@@ -191,16 +230,19 @@ export async function receiveUpload(
     const settings = settingsFrom(fields);
     const pool = analysisPool(ctx);
     // Small files are analysed now; a large one is only hashed, stored as pending and analysed by a background job.
-    const results: Array<{ sha256: string; sizeBytes: number; outcome: Outcome | null; parsed: ParsedTrace | null }> = await Promise.all(
-      inbox.map(async (p, i) => {
-        const sizeBytes = (await fs.stat(p)).size;
-        if (sizeBytes > ctx.config.analysisInlineMaxBytes) return { sha256: hashes[i] ?? (await fileSha256(p)), sizeBytes, outcome: null, parsed: null };
-        return pool.analyse({ path: p, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes });
-      }),
-    );
+    const results: Array<{ sha256: string; sizeBytes: number; outcome: Outcome | null; parsed: ParsedTrace | null }> =
+      await Promise.all(
+        inbox.map(async (p, i) => {
+          const sizeBytes = (await fs.stat(p)).size;
+          if (sizeBytes > ctx.config.analysisInlineMaxBytes)
+            return { sha256: hashes[i] ?? (await fileSha256(p)), sizeBytes, outcome: null, parsed: null };
+          return pool.analyse({ path: p, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes });
+        }),
+      );
 
     // Each file is new (moved into the store), a copy of a trace stored earlier, or a repeat of a file earlier in this upload.
-    const plan: Array<{ kind: 'new'; rawPath: string } | { kind: 'copy'; of: DuplicateFile } | { kind: 'repeat'; of: number }> = [];
+    const plan: Array<{ kind: 'new'; rawPath: string } | { kind: 'copy'; of: DuplicateFile } | { kind: 'repeat'; of: number }> =
+      [];
     for (const [index, r] of results.entries()) {
       const first = results.findIndex((o) => o.sha256 === r.sha256);
       const earlier = first < index ? null : await earlierCopy(r.sha256, run.id, fields.end);
@@ -257,7 +299,10 @@ export async function receiveUpload(
         storedPaths.add(step.rawPath);
       }
       if (idempotencyKey) {
-        await UploadReceipt.create({ userId: uploadedById, idempotencyKey, cableRunId: run.id, end: fields.end, traceIds, duplicates }, { transaction });
+        await UploadReceipt.create(
+          { userId: uploadedById, idempotencyKey, cableRunId: run.id, end: fields.end, traceIds, duplicates },
+          { transaction },
+        );
       }
       return { traceIds, duplicates, replayed: false, storedPaths };
     });
@@ -287,9 +332,14 @@ export async function receiveUpload(
 
 /** 409 for anything that needs the analysis of a trace still waiting for it. */
 export function pendingConflict(id: number, what: string) {
-  return new AppError(409, 'trace_pending', `Trace ${id} is still being analysed; it can be ${what} once its analysis has finished (the trace page shows when).`, {
-    fields: [{ field: 'traceId', message: 'the trace is still being analysed' }],
-  });
+  return new AppError(
+    409,
+    'trace_pending',
+    `Trace ${id} is still being analysed; it can be ${what} once its analysis has finished (the trace page shows when).`,
+    {
+      fields: [{ field: 'traceId', message: 'the trace is still being analysed' }],
+    },
+  );
 }
 
 /**
@@ -304,16 +354,28 @@ export async function queueAnalyses(ctx: AppContext, traceIds: number[]) {
     try {
       await ctx.jobs.send(TRACE_ANALYSIS_JOB, { traceId: t.id });
     } catch (err) {
-      ctx.log(`the analysis of trace ${t.id} could not be queued now; it is queued again at the next start`, (err as Error).message);
+      ctx.log(
+        `the analysis of trace ${t.id} could not be queued now; it is queued again at the next start`,
+        (err as Error).message,
+      );
     }
   }
 }
 
 /** For the demo seed: store files and return, per file, the trace it is recorded as (new or the earlier copy). */
-export async function storeTraces(ctx: AppContext, fields: UploadFields, files: IncomingFile[], uploadedById: number): Promise<number[]> {
+export async function storeTraces(
+  ctx: AppContext,
+  fields: UploadFields,
+  files: IncomingFile[],
+  uploadedById: number,
+): Promise<number[]> {
   const result = await receiveUpload(ctx, fields, files, uploadedById);
   const stored = await Trace.findAll({ where: { id: result.traceIds }, order: [['id', 'ASC']] });
-  return files.map((f) => stored.find((t) => t.originalName === f.originalName.slice(0, 255))?.id ?? result.duplicates.find((d) => d.originalName === f.originalName)!.traceId);
+  return files.map(
+    (f) =>
+      stored.find((t) => t.originalName === f.originalName.slice(0, 255))?.id ??
+      result.duplicates.find((d) => d.originalName === f.originalName)!.traceId,
+  );
 }
 
 /**
@@ -341,10 +403,17 @@ export async function reanalyseTrace(
   const earlier = await Trace.findByPk(id);
   if (!earlier) throw AppError.notFound(`Trace ${id}`);
   if (earlier.uploadedById !== user.id && !can(user.role, 'findings:review')) {
-    throw new AppError(403, 'not_your_trace', `Someone else uploaded trace ${id}: they or a supervisor may have it analysed again.`);
+    throw new AppError(
+      403,
+      'not_your_trace',
+      `Someone else uploaded trace ${id}: they or a supervisor may have it analysed again.`,
+    );
   }
   if (earlier.archivedAt) {
-    throw AppError.conflict('trace_archived', `Trace ${id} is archived: an administrator restores it before it is analysed again.`);
+    throw AppError.conflict(
+      'trace_archived',
+      `Trace ${id} is archived: an administrator restores it before it is analysed again.`,
+    );
   }
   if (earlier.status === 'pending') throw pendingConflict(id, 'analysed again');
   const run = await CableRun.findByPk(earlier.cableRunId);
@@ -371,30 +440,23 @@ async function reanalyseOnce(ctx: AppContext, earlier: Trace, cable: CableType):
     .analyse({ path: copy.path, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes })
     .finally(() => copy.release());
   if (result.sha256 !== earlier.sha256) {
-    throw new AppError(409, 'raw_file_changed', `The stored file of trace ${id} no longer matches its SHA-256; it will not be analysed again.`);
+    throw new AppError(
+      409,
+      'raw_file_changed',
+      `The stored file of trace ${id} no longer matches its SHA-256; it will not be analysed again.`,
+    );
   }
   if (result.parsed) rememberParsed(ctx, earlier.rawPath, settings, result.parsed);
   const trace = await ctx.sequelize.transaction(async (transaction) => {
     // Archived while it was in the worker: a new row would bring the junk back into the lists.
     const now = await Trace.findByPk(id, { attributes: ['id', 'archivedAt'], lock: transaction.LOCK.UPDATE, transaction });
     if (!now || now.archivedAt) {
-      throw AppError.conflict('trace_archived', `Trace ${id} was archived while it was being analysed again, so the new analysis was not stored. An administrator restores it before it is analysed again.`);
+      throw AppError.conflict(
+        'trace_archived',
+        `Trace ${id} was archived while it was being analysed again, so the new analysis was not stored. An administrator restores it before it is analysed again.`,
+      );
     }
-    return Trace.create(
-      {
-        cableRunId: earlier.cableRunId,
-        end: earlier.end,
-        uploadedById: earlier.uploadedById,
-        originalName: earlier.originalName,
-        rawPath: earlier.rawPath,
-        sha256: earlier.sha256,
-        sizeBytes: earlier.sizeBytes,
-        ...analysisColumns(result.outcome, cable, settings),
-        vfOverrideReason: null,
-        reanalysisOfId: earlier.id,
-      },
-      { transaction },
-    );
+    return Trace.create(reanalysisColumns(earlier, result.outcome, cable, settings, earlier.uploadedById), { transaction });
   });
   return { id: trace.id, created: true };
 }
@@ -407,7 +469,13 @@ export async function sweepUploads(ctx: AppContext): Promise<number> {
   const rows = await Trace.findAll({ attributes: ['rawPath'], raw: true });
   const known = new Set(rows.map((r) => r.rawPath));
   // This instance's inbox (and, with the folder store, the stored files)…
-  const removed = await sweepOrphans(ctx.config.uploadDir, ctx.storage.kind === 'folder' ? known : [], ctx.config.uploadSweepMinAgeMs, Date.now(), ctx.storage.kind === 'folder' ? undefined : [inboxDir(ctx.config.uploadDir), path.join(ctx.config.uploadDir, 'scratch')]);
+  const removed = await sweepOrphans(
+    ctx.config.uploadDir,
+    ctx.storage.kind === 'folder' ? known : [],
+    ctx.config.uploadSweepMinAgeMs,
+    Date.now(),
+    ctx.storage.kind === 'folder' ? undefined : [inboxDir(ctx.config.uploadDir), path.join(ctx.config.uploadDir, 'scratch')],
+  );
   // …and, with object storage, the objects no trace names.
   if (ctx.storage.kind !== 'folder') {
     for (const o of await ctx.storage.list()) {
@@ -569,15 +637,26 @@ function toPoints(x: Float64Array, y: Float64Array, buckets: number) {
   return decimateMinMax(x, y, buckets).map((p) => ({ t: p.x, y: p.y }));
 }
 
-async function comparison(ctx: AppContext, trace: Trace, parsed: ParsedTrace, points: number, compareTo?: number): Promise<TraceComparison | null> {
+async function comparison(
+  ctx: AppContext,
+  trace: Trace,
+  parsed: ParsedTrace,
+  points: number,
+  compareTo?: number,
+): Promise<TraceComparison | null> {
   let ref: Trace | null = null;
   if (compareTo) {
     ref = await Trace.findByPk(compareTo);
     if (!ref) throw AppError.notFound(`Trace ${compareTo}`);
     if (ref.cableRunId !== trace.cableRunId || ref.end !== trace.end) {
-      throw new AppError(422, 'not_comparable', 'A trace can only be compared with another of the same cable run, taken from the same end.', {
-        fields: [{ field: 'compareTo', message: 'must be a trace of the same run and end' }],
-      });
+      throw new AppError(
+        422,
+        'not_comparable',
+        'A trace can only be compared with another of the same cable run, taken from the same end.',
+        {
+          fields: [{ field: 'compareTo', message: 'must be a trace of the same run and end' }],
+        },
+      );
     }
   } else {
     ref = await Trace.findOne({ where: { cableRunId: trace.cableRunId, end: trace.end, isReference: true, status: 'ok' } });
@@ -608,7 +687,11 @@ async function comparison(ctx: AppContext, trace: Trace, parsed: ParsedTrace, po
  * run, the cable and the trace's findings are each read once, now, so a cable
  * or run changed while the file was being analysed shows as changed.
  */
-export async function getTrace(ctx: AppContext, id: number, opts: { points: number; compareTo?: number } = { points: 2000 }): Promise<TraceDetail> {
+export async function getTrace(
+  ctx: AppContext,
+  id: number,
+  opts: { points: number; compareTo?: number } = { points: 2000 },
+): Promise<TraceDetail> {
   const trace = await Trace.findByPk(id);
   if (!trace) throw AppError.notFound(`Trace ${id}`);
   const rows: Promise<TraceRows> = CableRun.findByPk(trace.cableRunId).then(async (r) => ({
@@ -642,7 +725,15 @@ export async function getTrace(ctx: AppContext, id: number, opts: { points: numb
       (trace.cableTypeRevision !== null && libraryRevision !== undefined
         ? libraryRevision > trace.cableTypeRevision
         : trace.settings.vfOverride === undefined && (cable.vf !== trace.vf || cable.vfTolerance !== trace.vfTolerance)),
-    error: trace.status === 'failed' ? { code: trace.errorCode ?? 'UNKNOWN', message: trace.errorMessage ?? '', line: trace.errorLine, field: trace.errorField } : null,
+    error:
+      trace.status === 'failed'
+        ? {
+            code: trace.errorCode ?? 'UNKNOWN',
+            message: trace.errorMessage ?? '',
+            line: trace.errorLine,
+            field: trace.errorField,
+          }
+        : null,
     analysis: boundedAnalysis(trace.analysis),
     zeroNs: trace.analysis ? zeroTimeNs(trace.analysis, trace.settings) : 0,
     samples: parsed ? toPoints(scaled(parsed.timeS, 1e9), parsed.amplitude, opts.points) : [],
@@ -675,16 +766,24 @@ export async function setReference(sequelize: Sequelize, id: number, isReference
     if (!trace) throw AppError.notFound(`Trace ${id}`);
     if (isReference && trace.archivedAt) {
       // Archiving refuses the reference trace; an archived one does not become it either.
-      throw new AppError(409, 'trace_archived', `Trace ${id} is archived as junk: an administrator restores it before it can be the reference.`, {
-        fields: [{ field: 'traceId', message: 'the trace is archived' }],
-      });
+      throw new AppError(
+        409,
+        'trace_archived',
+        `Trace ${id} is archived as junk: an administrator restores it before it can be the reference.`,
+        {
+          fields: [{ field: 'traceId', message: 'the trace is archived' }],
+        },
+      );
     }
     if (isReference && trace.status === 'pending') throw pendingConflict(id, 'used as the reference');
     if (isReference && trace.status !== 'ok') {
       throw new AppError(422, 'trace_failed', 'A trace the engine could not read cannot be the reference.');
     }
     if (isReference) {
-      await Trace.update({ isReference: false }, { where: { cableRunId: trace.cableRunId, end: trace.end, isReference: true }, transaction });
+      await Trace.update(
+        { isReference: false },
+        { where: { cableRunId: trace.cableRunId, end: trace.end, isReference: true }, transaction },
+      );
     }
     await trace.update({ isReference }, { transaction });
   });
