@@ -323,6 +323,7 @@ function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): TraceAnalysis
   const zeroOverride = options.zeroOffsetNs !== undefined ? (options.zeroOffsetNs * 1e-9 - rec.t[0]) / rec.dt : null;
   const tb: Timebase = { rec, launch: L, signal, launchOnset, zeroOverride, zeroShift: referencePlaneShift(L, merged) };
   const events = describeEvents(merged, tb, options, warnings);
+  if (!L.clipped) warnings.push(...dropOverUnity(events));
   warnings.push(...resolveCableEnd(events));
   const clutter = dropClutter(events);
   if (clutter.length > 0) {
@@ -352,6 +353,33 @@ function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): TraceAnalysis
       independentTests: Math.round(detection.independentTests),
     },
   };
+}
+
+/**
+ * A passive line returns at most the wave sent into it: a reflection read at the instrument
+ * is at most (1 + ρ_s) of the launch, ≤ 2 for any source up to an open (Pozar §2.3). An edge
+ * read larger is the launch's own ringing or a misread scale, not a reflection.
+ */
+export function dropOverUnity(events: ReflectionEvent[], bound = 2): TraceWarning[] {
+  const raw = (e: ReflectionEvent) => e.reflectionCoefficientRaw ?? e.reflectionCoefficient;
+  const dropped = new Set<number>();
+  for (const e of events) {
+    if (Math.abs(raw(e)) > bound || (e.likelyMultipleOf !== null && dropped.has(e.likelyMultipleOf))) dropped.add(e.index);
+  }
+  if (dropped.size === 0) return [];
+  const kept = events.filter((e) => !dropped.has(e.index));
+  const renumber = new Map(kept.map((e, k) => [e.index, k]));
+  for (const e of kept) {
+    e.index = renumber.get(e.index)!;
+    if (e.likelyMultipleOf !== null) e.likelyMultipleOf = renumber.get(e.likelyMultipleOf) ?? null;
+  }
+  events.splice(0, events.length, ...kept);
+  return [
+    {
+      code: 'OVER_UNITY_IGNORED',
+      message: `${dropped.size} edge(s) read larger than a passive line can return were ignored as the launch's ringing`,
+    },
+  ];
 }
 
 function noLaunchWarning(rec: TraceRecord): TraceWarning {
