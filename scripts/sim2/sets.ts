@@ -22,7 +22,8 @@ export type SetName =
   | 'heldout5'
   | 'tuning4'
   | 'heldout6'
-  | 'heldout7';
+  | 'heldout7'
+  | 'heldout8';
 
 const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   tuning: { seed: 0x51a7e, count: 80 },
@@ -46,6 +47,8 @@ const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   heldout6: { seed: 0x8622ec4d, count: 120 },
   // A seventh, drawn after the sixth had been run once on the engine as this round began: the same rules apply.
   heldout7: { seed: 0xb1176e92, count: 120 },
+  // An eighth, drawn after the seventh had been run once on the final engine of its round, before this round's engine changes: the same rules apply.
+  heldout8: { seed: 0x3f09f272, count: 120 },
 };
 
 /** Seed of case i of a set: a splitmix-style scramble of the set's seed and the index. */
