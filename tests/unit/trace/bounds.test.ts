@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { analyzeTrace, parseTraceCsv, TraceInputError } from '../../../shared/trace';
+import { analyzeTrace, parseTraceCsv, type TraceInputError } from '../../../shared/trace';
+import { traceInputError } from '../../support/trace-input-error';
 import { MAX_RECORD_SPAN_S, MIN_SAMPLE_INTERVAL_S } from '../../../shared/trace/bounds';
 
 /** A step record: 600 samples `stepNs` apart, the level rising half way (header on line 1). */
@@ -10,13 +11,7 @@ function stepCsv(stepNs: number, rows = 600, header = 'time_ns,volts'): string {
 }
 
 function refusal(csv: string): TraceInputError {
-  try {
-    analyzeTrace(parseTraceCsv(csv), { vf: 0.66 });
-  } catch (err) {
-    if (err instanceof TraceInputError) return err;
-    throw err;
-  }
-  throw new Error('analysed without error');
+  return traceInputError(() => analyzeTrace(parseTraceCsv(csv), { vf: 0.66 }));
 }
 
 describe('time axis bounds', () => {

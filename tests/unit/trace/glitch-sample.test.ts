@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { analyzeCsv, parseTraceCsv, TraceInputError } from '../../../shared/trace';
+import { analyzeCsv, parseTraceCsv, type TraceInputError } from '../../../shared/trace';
+import { traceInputError } from '../../support/trace-input-error';
 
 /**
  * A step record of a 1 ns-per-sample recorder on a line open at sample 400 (the level doubles there, an
@@ -17,13 +18,7 @@ function stepCsv(glitchAt?: number, glitch = 1e308): string {
 }
 
 function failure(text: string): TraceInputError {
-  try {
-    parseTraceCsv(text);
-  } catch (err) {
-    if (err instanceof TraceInputError) return err;
-    throw err;
-  }
-  throw new Error('parsed without error');
+  return traceInputError(() => parseTraceCsv(text));
 }
 
 describe('a glitch sample far beyond the rest of the trace', () => {

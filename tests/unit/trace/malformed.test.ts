@@ -1,7 +1,8 @@
 import { readFileSync, readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { MAX_MESSAGE_CHARS, parseTraceCsv, TraceInputError, type ParseOptions } from '../../../shared/trace';
+import { MAX_MESSAGE_CHARS, parseTraceCsv, type TraceInputError, type ParseOptions } from '../../../shared/trace';
+import { traceInputError } from '../../support/trace-input-error';
 
 // Each file in the corpus was written by hand to break one rule; expected.json
 // names the error code, the line and words the message must contain.
@@ -12,13 +13,7 @@ const expected = JSON.parse(readFileSync(join(dir, 'expected.json'), 'utf8')) as
 >;
 
 function failure(text: string | Uint8Array, options: ParseOptions): TraceInputError {
-  try {
-    parseTraceCsv(text, options);
-  } catch (err) {
-    if (err instanceof TraceInputError) return err;
-    throw err;
-  }
-  throw new Error('parsed without error');
+  return traceInputError(() => parseTraceCsv(text, options));
 }
 
 describe('malformed trace corpus', () => {
