@@ -163,7 +163,15 @@ export async function updateTicket(ctx: AppContext, actor: SessionUser, id: numb
       newStatus = input.assigneeId ? 'assigned' : 'raised';
     }
     if (!assigneeChanged && Object.keys(changes).length === 0) {
-      throw AppError.badRequest('nothing_changed', 'Nothing to change: every value given is the same as now.');
+      // Every value is as it was: a comment sent with them is still the editor's word on the ticket, so it is
+      // kept as a comment rather than lost with the unchanged fields.
+      const comment = input.comment?.trim();
+      if (!comment) throw AppError.badRequest('nothing_changed', 'Nothing to change: every value given is the same as now.');
+      await record(t.id, actor.id, { kind: 'comment', comment }, transaction);
+      t.changed('updatedAt', true);
+      await t.save({ transaction });
+      await mailTicket(ctx, t.id, actor, { kind: 'comment', comment }, transaction);
+      return;
     }
     await t.update(
       {

@@ -131,6 +131,19 @@ describe('repair tickets', () => {
     expect(own.length).toBe(0);
   });
 
+  it('keeps a comment sent with values that are all as they were, and still refuses an empty change', async () => {
+    const now = (await sup.get(`/api/tickets/${ticketId}`).expect(200)).body;
+    const kept = await sup.patch(`/api/tickets/${ticketId}`, { priority: now.priority, comment: '  Crew booked for Tuesday ' }).expect(200);
+    expect(kept.body.priority).toBe(now.priority);
+    expect(kept.body.timeline.at(-1)).toMatchObject({ kind: 'comment', comment: 'Crew booked for Tuesday' });
+    expect(kept.body.timeline.length).toBe(now.timeline.length + 1);
+    const mail = await outboxFor(api, 'technician.test@example.com', new RegExp(`^Ticket ${ticketId}: a comment from`));
+    expect(mail.body).toContain('Crew booked for Tuesday');
+    const res = await sup.patch(`/api/tickets/${ticketId}`, { priority: now.priority, comment: '   ' }).expect(400);
+    expect(res.body.error.code).toBe('nothing_changed');
+    expect((await sup.get(`/api/tickets/${ticketId}`).expect(200)).body.timeline.length).toBe(kept.body.timeline.length);
+  });
+
   it('rejects a found position off the route without changing anything', async () => {
     const calibrations = await CableCalibration.count();
     // The route is 200 − 5 = 195 m long; P-7 is at 120 m, so 80 m past it is off the end.
@@ -203,18 +216,19 @@ describe('repair tickets', () => {
       'status:assigned→under-way:Tess Tech',
       'updated:→:Sol Super',
       'comment:→:Tess Tech',
+      'comment:→:Sol Super',
       'closeout:under-way→fixed:Tess Tech',
       'status:fixed→signed-off:Sol Super',
     ]);
     expect(t.timeline[3].changes).toEqual({ priority: ['high', 'urgent'] });
-    expect(await TicketEvent.count({ where: { ticketId } })).toBe(7);
+    expect(await TicketEvent.count({ where: { ticketId } })).toBe(8);
     await sup.patch(`/api/tickets/${ticketId}`, { priority: 'low' }).expect(409);
     // Signed off a second time (a double-click, or two supervisors at once): the answer says it already is.
     const twice = await sup.post(`/api/tickets/${ticketId}/status`, { to: 'signed-off' }).expect(409);
     expect(twice.body.error.code).toBe('status_step_not_allowed');
     expect(twice.body.error.message).toBe(`Ticket ${ticketId} is already signed off; nothing was changed.`);
     expect(twice.body.error.fields).toEqual([{ field: 'to', message: 'the ticket is already signed off' }]);
-    expect(await TicketEvent.count({ where: { ticketId } })).toBe(7);
+    expect(await TicketEvent.count({ where: { ticketId } })).toBe(8);
   });
 
   it('answers bad input with a 400 naming the field', async () => {
