@@ -1,4 +1,4 @@
-import { Op, type Transaction } from 'sequelize';
+import { col, fn, Op, where, type Transaction } from 'sequelize';
 import { containsText } from '../db/search';
 import type { z } from 'zod';
 import type { SiteInputSchema, SiteSummary } from '../../shared/schemas/sites';
@@ -76,10 +76,15 @@ export async function getSite(id: number): Promise<SiteSummary> {
   return (await summaries([site]))[0];
 }
 
+/** A site's name is free unless another site has it, ignoring case ("North Yard" and "north yard" are one place to a reader). */
 async function nameFree(name: string, exceptId?: number, transaction?: Transaction) {
-  const other = await Site.findOne({ where: { name }, transaction });
-  if (other && other.id !== exceptId) {
-    throw new AppError(409, 'site_name_taken', `There is already a site called "${name}".`, {
+  const other = await Site.findOne({
+    where: { [Op.and]: [where(fn('lower', col('name')), name.toLowerCase()), ...(exceptId ? [{ id: { [Op.ne]: exceptId } }] : [])] },
+    transaction,
+  });
+  if (other) {
+    const same = other.name === name ? '' : ` (as "${other.name}")`;
+    throw new AppError(409, 'site_name_taken', `There is already a site called "${name}"${same}.`, {
       fields: [{ field: 'name', message: 'is already used by another site' }],
     });
   }

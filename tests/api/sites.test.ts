@@ -36,6 +36,13 @@ describe('sites and cable runs', () => {
     expect(site.supervisors.map((s: { email: string }) => s.email)).toEqual(['supervisor.test@example.com']);
     const dup = await sup.post('/api/sites', { name: 'Brookfold pumping station' }).expect(409);
     expect(dup.body.error.fields[0].field).toBe('name');
+    // The same name in other letters' case is the same place to a reader; renaming another site to it is refused too.
+    const caseDup = await sup.post('/api/sites', { name: 'BROOKFOLD Pumping Station' }).expect(409);
+    expect(caseDup.body.error.message).toBe('There is already a site called "BROOKFOLD Pumping Station" (as "Brookfold pumping station").');
+    const other = (await sup.post('/api/sites', { name: 'Millrace weir' }).expect(201)).body;
+    await sup.put(`/api/sites/${other.id}`, { name: 'brookfold pumping station' }).expect(409);
+    // A site may change the case of its own name.
+    expect((await sup.put(`/api/sites/${other.id}`, { name: 'Millrace Weir' }).expect(200)).body.name).toBe('Millrace Weir');
     const notSup = await sup.post('/api/sites', { name: 'Other', supervisorIds: [api.users.technician.id] }).expect(422);
     expect(notSup.body.error.fields[0].field).toBe('supervisorIds');
 
