@@ -44,6 +44,12 @@ function parseLoss(raw: string): { dbPer100m: number; frequencyHz: number } {
       field: 'loss-db-per-100m',
     });
   const dbPer100m = Number(m[1]);
+  // A figure written with a non-zero digit that reads as 0 (1e-400) fell below what a number can hold: it would
+  // quietly mean a lossless cable.
+  if (dbPer100m === 0 && /[1-9]/.test(m[1].split(/e/i)[0]))
+    throw new TraceInputError('BAD_OPTION', `--loss-db-per-100m figure is too small to read, got '${raw}'; write 0 for no loss`, {
+      field: 'loss-db-per-100m',
+    });
   // The cable library's own limit.
   if (!(dbPer100m <= 1000))
     throw new TraceInputError('BAD_OPTION', `--loss-db-per-100m needs at most 1000 dB per 100 m, got '${raw}'`, {

@@ -108,6 +108,11 @@ describe('analyze command', () => {
     expect(twice.status).not.toBe(0);
     expect(twice.stderr.trim().split('\n')).toHaveLength(1);
     expect(twice.stderr).toContain('twice');
+    // A figure with a non-zero digit too small for a number to hold would read as a lossless cable; 0 itself is allowed.
+    const tiny = run([ref('pe-coax-10m-open.csv'), '--vf', '0.66', '--loss-db-per-100m', '1e-400@10MHz']);
+    expect(tiny.status).toBe(2);
+    expect(tiny.stderr.trim()).toBe("analyze: --loss-db-per-100m figure is too small to read, got '1e-400@10MHz'; write 0 for no loss");
+    expect(run([ref('pe-coax-10m-open.csv'), '--vf', '0.66', '--loss-db-per-100m', '0.0e-5@10MHz']).status).toBe(0);
   });
 
   it('reads the channel asked for from an oscilloscope export and says which one it read', () => {
