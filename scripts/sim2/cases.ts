@@ -19,10 +19,13 @@
  *  - masked: it is under 3 % of an earlier event's size (both as seen at the
  *    port) that arrives less than 5 edges before it, whose lossy tail it
  *    sits on;
+ *  - hidden by clipping: the recorder is held at its limit from 2 samples
+ *    before its arrival to 2 samples past its edge;
  *  - below the noise: its expected amplitude A after loss is under 6 σeff.
  *    A is |ρ seen| · V+ times the pulse's lossy peak ratio (pulse) or the
  *    fraction of the step reached before the next event or the record's end
- *    (step), from ./loss.ts. The first edge of a section shorter than the
+ *    (step), from ./loss.ts (a step's share over a window grown until it
+ *    settles, so a long pair's slow tail does not wrap round into it). The first edge of a section shorter than the
  *    edge is measured together with its closing edge, which arrives inside
  *    it with the opposite sign: A is the peak of their sum (a step record
  *    then shows a blip, averaged over its width at half height). σeff is the noise an ideal detector sees after
@@ -37,7 +40,7 @@ import { type Cable, type CableKind, drawCable, drawOtherType } from './cables';
 import { C0, edge, simulatePort } from './fdtd';
 import { interpolate, type Quirks, record } from './instrument';
 import { ALL_LAYOUTS, decorate, PULSE_ONLY, type Sim2Layout, STARTS_AT_LAUNCH, writeTrace } from './layouts';
-import { dbPer100m, echoShape } from './loss';
+import { dbPer100m, echoShape, settledShape } from './loss';
 import { makeRng, type Rng } from './rng';
 import { buildPhysical, type End, type Feature, lattice, type ReflectionType, type Route, toFdtd } from './route';
 
@@ -444,6 +447,15 @@ export function drawCase(seed: number, index: number, prefix: string): Sim2Case 
       why = 'not resolved from the event before';
     else if (seenBefore.some((b) => t - b.t < 5 * edgeS && Math.abs(seen) < 0.03 * Math.abs(b.seen)))
       why = 'masked by the tail of a larger echo before it';
+    // Held at the recorder's limit from before its arrival to past its edge: the record does not show it.
+    if (!why && rec.clipped) {
+      const at = Math.round((tL + t - recordStart) / su.dtOutS);
+      const from = Math.max(0, at - 2);
+      const to = Math.min(n - 1, at + Math.ceil(edgeS / su.dtOutS) + 2);
+      let held = to >= from;
+      for (let i = from; i <= to && held; i++) held = rec.atLimit[i] === 1;
+      if (held) why = 'hidden where the recorder is clipped';
+    }
     let rhoCheck = !rec.clipped;
     let snrEff: number | undefined;
     if (ev.spanS !== undefined && 2 * ev.spanS < edgeS) {
@@ -462,14 +474,12 @@ export function drawCase(seed: number, index: number, prefix: string): Sim2Case 
         ? arrivals.filter((a) => a.reflections === 1 && a.node === closer.node).reduce((s, a) => s + a.amplitude, 0)
         : 0;
       const pair = closer && seen !== 0 ? { delayS: 2 * (closer.delayS - ev.delayS), ratio: closerSeen / seen } : undefined;
-      const shape = echoShape(
-        path,
-        { mode: su.mode, riseS: su.riseS, widthS: su.widthS },
-        Math.max(4 * gap, 40 * su.riseS),
-        su.dtSimS,
-        omegaMin,
-        pair,
-      );
+      const exc = { mode: su.mode, riseS: su.riseS, widthS: su.widthS };
+      const firstWindowS = Math.max(4 * gap, 40 * su.riseS);
+      const shape =
+        su.mode === 'step' && !pair
+          ? settledShape(path, exc, gap, firstWindowS, su.dtSimS, omegaMin)
+          : echoShape(path, exc, firstWindowS, su.dtSimS, omegaMin, pair);
       const h = su.mode === 'pulse' || pair ? shape.peakRatio : shape.stepReached(gap);
       const spanS = su.mode === 'pulse' || pair ? shape.halfWidthS : gap;
       const spanSamples = Math.min(16, Math.max(1, spanS / su.dtOutS));

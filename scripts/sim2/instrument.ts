@@ -77,6 +77,8 @@ function colouredNoise(n: number, q: Quirks, rng: Rng): Float64Array {
 export interface Recorded {
   volts: Float64Array;
   clipped: boolean;
+  /** 1 where the sample was held at the recorder's limit. */
+  atLimit: Uint8Array;
 }
 
 export function record(clean: Float64Array, q: Quirks, rng: Rng): Recorded {
@@ -86,13 +88,17 @@ export function record(clean: Float64Array, q: Quirks, rng: Rng): Recorded {
   const top = 2 ** (q.bits - 1) - 1;
   const out = new Float64Array(n);
   let clipped = false;
+  const atLimit = new Uint8Array(n);
   for (let i = 0; i < n; i++) {
     let v = clean[i] + q.offsetV + (q.driftV * i) / Math.max(1, n - 1) + q.whiteSigmaV * rng.normal();
     if (col) v += q.colouredSigmaV * col[i];
     let code = Math.round(v / lsb);
-    if (code > top || code < -top - 1) clipped = true;
+    if (code > top || code < -top - 1) {
+      clipped = true;
+      atLimit[i] = 1;
+    }
     code = Math.min(top, Math.max(-top - 1, code));
     out[i] = code * lsb;
   }
-  return { volts: out, clipped };
+  return { volts: out, clipped, atLimit };
 }

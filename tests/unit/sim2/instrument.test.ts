@@ -42,6 +42,12 @@ describe('instrument quirks', () => {
     expect(Math.min(...r.volts)).toBe(-1);
     expect(Math.max(...r.volts)).toBeCloseTo(1 - lsb, 12);
     expect(r.clipped).toBe(true);
+    // Held at the limit: the samples of the ramp beyond the codes −128…+127 (below −1 − lsb/2 and above
+    // 1 − lsb/2): the first 166 and the last 168 of the 1001.
+    const held = [...r.atLimit].map((x, i) => (x ? i : -1)).filter((i) => i >= 0);
+    expect(held.filter((i) => i < 500).length).toBe(Math.ceil((-1 - lsb / 2 + 1.5) / 0.003));
+    expect(held.filter((i) => i > 500).length).toBe(1001 - Math.ceil((1 - lsb / 2 + 1.5) / 0.003));
+    expect(r.atLimit[500]).toBe(0);
   });
 
   it('adds drift linearly from the first sample to the last', () => {
