@@ -205,7 +205,9 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
       warnings.push({
         code: 'PULSE_LOSS',
         message: `the echo at ${distanceM.toFixed(1)} m is spread by cable loss (peak ${m.echoPeak.toFixed(2)} of the launch); its ρ is taken from the echo's area${
-          m.areaUncorrected ? ", not corrected for the cable's DC resistance (give the cable's attenuation in the library to correct it), so its size is a lower bound" : ''
+          m.areaUncorrected
+            ? ", not corrected for the cable's DC resistance (give the cable's attenuation in the library to correct it), so its size is a lower bound"
+            : ''
         }`,
       });
     }
@@ -223,7 +225,10 @@ export const MAX_FITTED_CANDIDATES = 200;
 
 function strongestCandidates(all: Candidate[], warnings: TraceWarning[]): Candidate[] {
   if (all.length <= MAX_FITTED_CANDIDATES) return all;
-  const kept = [...all].sort((a, b) => b.snr - a.snr).slice(0, MAX_FITTED_CANDIDATES).sort((a, b) => a.i - b.i);
+  const kept = [...all]
+    .sort((a, b) => b.snr - a.snr)
+    .slice(0, MAX_FITTED_CANDIDATES)
+    .sort((a, b) => a.i - b.i);
   warnings.push({
     code: 'CLUTTER',
     message: `the record holds ${all.length} candidate edges, far more than a cable holds; only the ${MAX_FITTED_CANDIDATES} standing highest above the noise were examined`,
@@ -244,27 +249,72 @@ export function impossibleStepReading(a: TraceAnalysis, strong = 0.3): boolean {
   return k >= 0 && a.events.some((e, j) => j > k && e.likelyMultipleOf === null && Math.abs(raw(e)) >= strong);
 }
 
+/**
+ * Shortest launch, as a share of the record from the launch on, that a pulse reading returning
+ * nothing at all gives up for a step into a short. An instrument's pulse is set short against its
+ * range, so that the line's echoes can be told apart from it; a launch filling over a quarter of the
+ * record after it, with nothing coming back in the rest, is as well read as a step whose wave came
+ * back whole from a short at its fall. Of the two readings a missed short is the worse mistake.
+ */
+export const WIDE_LAUNCH_SHARE = 0.25;
+
 /** Analyse a parsed trace. Throws TraceInputError for bad options. */
 export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): TraceAnalysis {
-  const a = analyzeOnce(trace, options);
-  if ((options.mode ?? 'auto') !== 'auto' || !a.modeDetected || !impossibleStepReading(a)) return a;
-  // Read as a step record, it has a line seen past a short: it is a pulse record whose launch is wide.
-  const p = analyzeOnce(trace, { ...options, mode: 'pulse' });
+  const { analysis: a, launch, n } = analyzeOnce(trace, options);
+  if ((options.mode ?? 'auto') !== 'auto' || !a.modeDetected) return a;
+  if (impossibleStepReading(a)) {
+    // Read as a step record, it has a line seen past a short: it is a pulse record whose launch is wide.
+    const p = analyzeOnce(trace, { ...options, mode: 'pulse' }).analysis;
+    return {
+      ...p,
+      modeDetected: true,
+      warnings: [
+        ...p.warnings,
+        {
+          code: 'MODE_FROM_ECHOES',
+          message:
+            'read as a pulse record: as a step record it would show the line beyond a short, which no cable can; give the mode if this is wrong',
+        },
+      ],
+    };
+  }
+  return stepIntoShort(trace, options, a, launch, n) ?? a;
+}
+
+/**
+ * A wide launch with nothing after it, read as a pulse, is also a step into a short at the launch's
+ * fall (ρ ≈ −1 returns the whole wave and hides the line beyond). Without a stated pulse width, and
+ * when the launch fills over WIDE_LAUNCH_SHARE of the record after it, the step reading is given
+ * with a warning, provided it holds that short first and nothing a line beyond a short cannot show.
+ */
+function stepIntoShort(
+  trace: ParsedTrace,
+  options: AnalyzeOptions,
+  a: TraceAnalysis,
+  L: Launch,
+  n: number,
+): TraceAnalysis | null {
+  if (a.mode !== 'pulse' || a.events.length > 0 || !L.found || L.widthSamples === null) return null;
+  if ((options.pulseWidthNs ?? trace.hints.pulseWidthNs) !== undefined) return null;
+  if (L.widthSamples < WIDE_LAUNCH_SHARE * (n - L.idx)) return null;
+  const s = analyzeOnce(trace, { ...options, mode: 'step' }).analysis;
+  const first = s.events[0];
+  if (first === undefined || first.type !== 'short') return null;
+  if (impossibleStepReading(s)) return null;
   return {
-    ...p,
+    ...s,
     modeDetected: true,
     warnings: [
-      ...p.warnings,
+      ...s.warnings,
       {
         code: 'MODE_FROM_ECHOES',
-        message:
-          'read as a pulse record: as a step record it would show the line beyond a short, which no cable can; give the mode if this is wrong',
+        message: `read as a step record into a short at ${first.distanceM.toFixed(2)} m: read as a pulse record the launch would fill much of the record and nothing would come back from the line; give the mode or the pulse width if this is wrong`,
       },
     ],
   };
 }
 
-function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): TraceAnalysis {
+function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): { analysis: TraceAnalysis; launch: Launch; n: number } {
   validateOptions(options);
   checkTimeAxisBounds(trace);
   const rec = recordOf(trace);
@@ -275,11 +325,12 @@ function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): TraceAnalysis
   const L = findLaunch(rec, options.mode ?? 'auto', pulseHintSamples, estimateSlowNoise(rec.y));
   const ySorted = sortedSample(rec.y);
   if (!(percentileOf(ySorted, 0.999) - percentileOf(ySorted, 0.001) > 0) || !(Math.abs(L.height) > 0)) {
-    return emptyAnalysis(rec, L, options, sigma0, [
+    const analysis = emptyAnalysis(rec, L, options, sigma0, [
       ...warnings,
       { code: 'FLAT_TRACE', message: 'the trace is flat' },
       { code: 'NO_REFLECTION', message: 'no reflection above noise' },
     ]);
+    return { analysis, launch: L, n: rec.n };
   }
   if (!L.found) warnings.push(noLaunchWarning(rec));
   else if (!L.onsetInRecord) {
@@ -302,7 +353,11 @@ function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): TraceAnalysis
   const signal = buildWorkingSignal(pulseFixed ? { ...rec, y: pulseFixed } : rec, L, sigma0, scratch);
   if (rec.n - signal.start < 16) {
     const msg = 'no reflection above noise (the record ends inside the blind zone)';
-    return emptyAnalysis(rec, L, options, sigma0, [...warnings, { code: 'NO_REFLECTION', message: msg }]);
+    return {
+      analysis: emptyAnalysis(rec, L, options, sigma0, [...warnings, { code: 'NO_REFLECTION', message: msg }]),
+      launch: L,
+      n: rec.n,
+    };
   }
   // A known loss tells how the incident step creeps on its own; the reflections are read without it.
   if (options.loss && options.loss.length > 0)
@@ -341,7 +396,7 @@ function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): TraceAnalysis
       message: `the launch hides events closer than ${blindZoneM.toFixed(2)} m; only ones standing well out of it are reported there, with less certain distance and ρ`,
     });
   }
-  return {
+  const analysis: TraceAnalysis = {
     ...emptyAnalysis(rec, L, options, sigma0, warnings),
     blindZoneM,
     events,
@@ -353,6 +408,7 @@ function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): TraceAnalysis
       independentTests: Math.round(detection.independentTests),
     },
   };
+  return { analysis, launch: L, n: rec.n };
 }
 
 /**
