@@ -220,6 +220,13 @@ const FALL_OVER_RISE_MAX = 5;
  */
 const RESTING_MEDIAN_MAX = 0.12;
 
+/**
+ * Farthest from 0 V, in launch heights, that a pulse record in volts with no pre-trigger may rest on
+ * the launch's side. A pulse generator's line idles at ground between pulses; a step into a fault of
+ * ρ ≥ −0.5 rests at least half the incident level off it.
+ */
+const RESTING_OFFSET_MAX = 0.5;
+
 /** Pulse or step: does the launch fall back below half its height soon, stay down, and the record rest at the baseline? */
 function launchFall(
   y: Float64Array,
@@ -299,6 +306,10 @@ function launchBeforeRecord(rec: TraceRecord, lv: Levels, positiveOnly: boolean)
     }
   }
   if (iFall < 3 || iFall > 0.3 * n || peak < lv.launchMin) return null;
+  // In volts, a pulse record rests where the line idles between pulses, at the recorder's 0 V; a
+  // record resting further from it than RESTING_OFFSET_MAX of the launch, on the launch's side, is
+  // a step record whose level dropped at a fault past the launch (it rests at 1 + ρ of the step).
+  if (rec.unit === 'V' && sign * lv.rest > RESTING_OFFSET_MAX * peak) return null;
   // A pre-trigger stretch before a step looks the same, but its axis zero is at the edge,
   // not at or before the record's start; where the axis just starts at 0, a positive
   // excursion is read as a launch pulse and a negative one as a pre-trigger baseline.
