@@ -250,6 +250,34 @@ export function impossibleStepReading(a: TraceAnalysis, strong = 0.3): boolean {
 }
 
 /**
+ * Smallest edge, in launch heights, taken as the line seen past a short (see lineSeenPastShort): a
+ * floor under (1 − |ρ|)² for a short read a little under its size (from memory: a step's level is
+ * read to a few hundredths of the launch on a lossy line).
+ */
+const PAST_SHORT_MIN = 0.05;
+
+/**
+ * The same test on the events as read, before the weak ones past the cable's end are dropped as its
+ * echoes: past a short read at ρ the line shows at most (1 − |ρ|)² of its size (Pozar §2.3), so an
+ * edge clear of the short's own timing (two of its uncertainties) that is no echo and stands larger
+ * than that is no step record's, however small beside the launch.
+ */
+function lineSeenPastShort(events: readonly ReflectionEvent[]): boolean {
+  const raw = (e: ReflectionEvent) => e.reflectionCoefficientRaw ?? e.reflectionCoefficient;
+  const k = events.findIndex((e) => e.likelyMultipleOf === null && raw(e) <= SHORT_MAX_RHO);
+  if (k < 0) return false;
+  const short = events[k];
+  const beyond = (1 - Math.min(1, Math.abs(raw(short)))) ** 2;
+  return events.some(
+    (e, j) =>
+      j > k &&
+      e.likelyMultipleOf === null &&
+      e.distanceM > short.distanceM + 2 * short.uncertaintyM &&
+      Math.abs(raw(e)) > Math.max(PAST_SHORT_MIN, beyond),
+  );
+}
+
+/**
  * Shortest launch, as a share of the record from the launch on, that a pulse reading returning
  * nothing at all gives up for a step into a short. An instrument's pulse is set short against its
  * range, so that the line's echoes can be told apart from it; a launch filling over a quarter of the
@@ -260,9 +288,9 @@ export const WIDE_LAUNCH_SHARE = 0.25;
 
 /** Analyse a parsed trace. Throws TraceInputError for bad options. */
 export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): TraceAnalysis {
-  const { analysis: a, launch, n } = analyzeOnce(trace, options);
+  const { analysis: a, launch, n, seenPastShort } = analyzeOnce(trace, options);
   if ((options.mode ?? 'auto') !== 'auto' || !a.modeDetected) return a;
-  if (impossibleStepReading(a)) {
+  if (seenPastShort || impossibleStepReading(a)) {
     // Read as a step record, it has a line seen past a short: it is a pulse record whose launch is wide.
     const p = analyzeOnce(trace, { ...options, mode: 'pulse' }).analysis;
     return {
@@ -297,10 +325,10 @@ function stepIntoShort(
   if (a.mode !== 'pulse' || a.events.length > 0 || !L.found || L.widthSamples === null) return null;
   if ((options.pulseWidthNs ?? trace.hints.pulseWidthNs) !== undefined) return null;
   if (L.widthSamples < WIDE_LAUNCH_SHARE * (n - L.idx)) return null;
-  const s = analyzeOnce(trace, { ...options, mode: 'step' }).analysis;
+  const { analysis: s, seenPastShort } = analyzeOnce(trace, { ...options, mode: 'step' });
   const first = s.events[0];
   if (first === undefined || first.type !== 'short') return null;
-  if (impossibleStepReading(s)) return null;
+  if (seenPastShort || impossibleStepReading(s)) return null;
   return {
     ...s,
     modeDetected: true,
@@ -314,7 +342,11 @@ function stepIntoShort(
   };
 }
 
-function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): { analysis: TraceAnalysis; launch: Launch; n: number } {
+/** One reading in the given (or detected) mode, its launch and length, and whether as a step record it shows the line past a short. */
+function analyzeOnce(
+  trace: ParsedTrace,
+  options: AnalyzeOptions,
+): { analysis: TraceAnalysis; launch: Launch; n: number; seenPastShort: boolean } {
   validateOptions(options);
   checkTimeAxisBounds(trace);
   const rec = recordOf(trace);
@@ -330,7 +362,7 @@ function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): { analysis: T
       { code: 'FLAT_TRACE', message: 'the trace is flat' },
       { code: 'NO_REFLECTION', message: 'no reflection above noise' },
     ]);
-    return { analysis, launch: L, n: rec.n };
+    return { analysis, launch: L, n: rec.n, seenPastShort: false };
   }
   if (!L.found) warnings.push(noLaunchWarning(rec));
   else if (!L.onsetInRecord) {
@@ -349,7 +381,10 @@ function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): { analysis: T
   // One record-length buffer for the temporary running sums of the noise measure and of detection, in turn.
   const scratch = new Float64Array(rec.n + 1);
   // A pulse record's launch leaves the same creep behind it, as a slow tail: taken out of the trace itself.
-  const pulseFixed = options.loss && options.loss.length > 0 ? pulseCreepRemoved(rec, L, lossModelThroughLine(options.loss, options.vf), options.vf) : null;
+  const pulseFixed =
+    options.loss && options.loss.length > 0
+      ? pulseCreepRemoved(rec, L, lossModelThroughLine(options.loss, options.vf), options.vf)
+      : null;
   const signal = buildWorkingSignal(pulseFixed ? { ...rec, y: pulseFixed } : rec, L, sigma0, scratch);
   if (rec.n - signal.start < 16) {
     const msg = 'no reflection above noise (the record ends inside the blind zone)';
@@ -357,6 +392,7 @@ function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): { analysis: T
       analysis: emptyAnalysis(rec, L, options, sigma0, [...warnings, { code: 'NO_REFLECTION', message: msg }]),
       launch: L,
       n: rec.n,
+      seenPastShort: false,
     };
   }
   // A known loss tells how the incident step creeps on its own; the reflections are read without it.
@@ -369,7 +405,15 @@ function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): { analysis: T
     rhoMin,
     scratch,
   });
-  const edgeInput = { rec, launch: L, signal, rhoMin, vf: options.vf, loss: options.loss, vfPulseWidthNs: options.vfPulseWidthNs };
+  const edgeInput = {
+    rec,
+    launch: L,
+    signal,
+    rhoMin,
+    vf: options.vf,
+    loss: options.loss,
+    vfPulseWidthNs: options.vfPulseWidthNs,
+  };
   const candidates = strongestCandidates(detection.candidates, warnings);
   const fitted = dropQuantiserStairs(fitEdges(edgeInput, candidates), signal);
   const line = fitLineEdges(edgeInput, mergeEdges(fitted, signal.w0, L));
@@ -379,6 +423,7 @@ function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): { analysis: T
   const tb: Timebase = { rec, launch: L, signal, launchOnset, zeroOverride, zeroShift: referencePlaneShift(L, merged) };
   const events = describeEvents(merged, tb, options, warnings);
   if (!L.clipped) warnings.push(...dropOverUnity(events));
+  const seenPastShort = L.mode === 'step' && lineSeenPastShort(events);
   warnings.push(...resolveCableEnd(events));
   const clutter = dropClutter(events);
   if (clutter.length > 0) {
@@ -408,7 +453,7 @@ function analyzeOnce(trace: ParsedTrace, options: AnalyzeOptions): { analysis: T
       independentTests: Math.round(detection.independentTests),
     },
   };
-  return { analysis, launch: L, n: rec.n };
+  return { analysis, launch: L, n: rec.n, seenPastShort };
 }
 
 /**

@@ -29,6 +29,25 @@ describe('a wide pulse record with no stated width', () => {
     expect(Math.abs(open[0].distanceM - 86.9)).toBeLessThan(1.5);
   });
 
+  it('is read as a pulse record when a short record shows a smaller echo past the fall', () => {
+    // A record of 460 samples, too short beside the 150-sample launch for it to be taken as a pulse
+    // at once, with the far end's echo of 0.25 of the launch 200 samples after it. Past a short read
+    // at ρ ≈ −1 a step record shows at most (1 − |ρ|)² ≈ 0 of what lies beyond (Pozar §2.3), so an
+    // echo of that size already rules the step reading out. Round trip 200 samples of 4 ns at
+    // VF 0.58: d = VF·c·t/2 = 69.5 m. The check values are the generator's inputs.
+    const { pulse } = gaussianShapes(22);
+    const rnd = gaussianSource(3);
+    const y = new Float64Array(460).map((_, i) => pulse(i, 50, 150) + 0.25 * pulse(i, 250, 150) + 0.006 * rnd());
+    const a = analyzeTrace(parsedTrace(y, { dtS: 4e-9, t0S: -50 * 4e-9 }), { vf: 0.58 });
+    expect(a.mode).toBe('pulse');
+    expect(a.warnings.map((w) => w.code)).toContain('MODE_FROM_ECHOES');
+    expect(a.events.some((e) => e.type === 'short')).toBe(false);
+    const end = a.events.filter((e) => e.likelyMultipleOf === null);
+    expect(end).toHaveLength(1);
+    expect(end[0].type).toBe('impedance-rise');
+    expect(Math.abs(end[0].distanceM - 69.5)).toBeLessThan(1.5);
+  });
+
   it('keeps a step reading that ends at a short with nothing past it', () => {
     // The same launch with no echo: nothing past the fall, so whatever mode the launch gives stands.
     const a = analyzeTrace(record(null), { vf: 0.58 });
