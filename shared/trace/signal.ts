@@ -79,6 +79,74 @@ function restingLine(y: Float64Array, a0: number, sigma0: number): { level: numb
   return { level, at, slope };
 }
 
+/** Fewest pre-trigger samples whose median is taken as the level the record starts from (common practice, from memory). */
+const PRE_TRIGGER_MIN = 16;
+
+/**
+ * How many more samples must rest on the line through the pre-trigger level than on the line through
+ * the halves' levels for it to be taken instead: a quarter more (a judgement, not a published value), so
+ * that where both fit the record about as well (the halves' medians hold), the reading stays as it was.
+ */
+const RESTING_MARGIN = 1.25;
+
+/**
+ * The line a pulse record rests on after its launch, through the level of its pre-trigger stretch
+ * (`level` at sample `at`): the record's baseline is its offset plus a linear drift (DRIFT_MAX), the
+ * same before the launch as after it, so only the drift is unknown. Between its echoes the record
+ * rests on that line, apart from its noise; the drift is the one, within ±DRIFT_MAX over the record,
+ * that the most samples after the launch rest on (within `tol`), refined by least squares through
+ * the pre-trigger level over those samples. The most samples, not half of them: on a short cable
+ * read with a wide pulse, or a record full of long echoes, the echoes can fill more than half of
+ * the record (or of either half), and a median then sits on an echo.
+ */
+export function restingDrift(
+  y: Float64Array,
+  a0: number,
+  anchor: { level: number; at: number },
+  tol: number,
+  slopeMax: number,
+): number {
+  const n = y.length;
+  const step = Math.max(1, Math.floor((n - a0) / 4001));
+  const xs: number[] = [];
+  const rs: number[] = [];
+  for (let i = a0; i < n; i += step) {
+    xs.push(i - anchor.at);
+    rs.push(y[i] - anchor.level);
+  }
+  if (xs.length < 8 || !(tol > 0) || !(slopeMax > 0)) return 0;
+  const reach = Math.max(...xs.map(Math.abs));
+  // Slopes a step apart move the line by at most half the band over the record.
+  const count = Math.min(801, Math.max(3, 2 * Math.ceil((2 * slopeMax * reach) / tol) + 1));
+  const resting = (s: number) => {
+    let c = 0;
+    for (let k = 0; k < xs.length; k++) if (Math.abs(rs[k] - s * xs[k]) <= tol) c++;
+    return c;
+  };
+  let best = 0;
+  let bestCount = resting(0);
+  for (let j = 0; j < count; j++) {
+    const s = slopeMax * ((2 * j) / (count - 1) - 1);
+    const c = resting(s);
+    if (c > bestCount || (c === bestCount && Math.abs(s) < Math.abs(best))) {
+      best = s;
+      bestCount = c;
+    }
+  }
+  // Least squares through the pre-trigger level over the samples resting on the line, twice.
+  for (let it = 0; it < 2; it++) {
+    let sxr = 0;
+    let sxx = 0;
+    for (let k = 0; k < xs.length; k++) {
+      if (Math.abs(rs[k] - best * xs[k]) > tol) continue;
+      sxr += xs[k] * rs[k];
+      sxx += xs[k] * xs[k];
+    }
+    if (sxx > 0) best = sxr / sxx;
+  }
+  return best;
+}
+
 /** Pulse mode: baseline-free trace (in launch peaks) and its running integral in launch areas. */
 function pulseSignal(rec: TraceRecord, L: Launch, sigma0: number): { u: Float64Array; pulseRaw: Float64Array; unitArea: number } {
   const { y, n } = rec;
@@ -89,6 +157,9 @@ function pulseSignal(rec: TraceRecord, L: Launch, sigma0: number): { u: Float64A
   // through the medians of the two halves is a robust baseline and drift estimate; on a short
   // cable read with a wide pulse the echoes fill a half, and the line is drawn through the
   // stretches where the trace rests instead (see restingLine).
+  // After a pre-trigger stretch the baseline is also known where the record starts: where
+  // clearly more of the record rests on the line through that level (restingDrift) than on
+  // the halves' line, the echoes filled a half's median and that line is taken instead.
   const a0 = Math.min(n - 1, L.settleIdx);
   const mid = Math.floor((a0 + n) / 2);
   // Each half's level: the median, which on a recorder with a visible quantiser step sits on one of its
@@ -104,7 +175,23 @@ function pulseSignal(rec: TraceRecord, L: Launch, sigma0: number): { u: Float64A
   const c1 = resting?.at ?? (a0 + mid) / 2;
   const c2 = (mid + n) / 2;
   const slope = resting?.slope ?? (Number.isFinite(m1) && Number.isFinite(m2) && c2 > c1 ? (m2 - m1) / (c2 - c1) : 0);
-  const baseAt = (i: number) => (i < a0 ? L.baseline : m1 + slope * (i - c1));
+  // A launch after a pre-trigger stretch: the line continues the level the record starts from
+  // (the median of up to 2000 samples before the launch's foot, as launch.ts reads it).
+  const preEnd = L.idx - 2;
+  const anchored = L.found && L.onsetInRecord && preEnd >= PRE_TRIGGER_MIN && a0 < n - 8;
+  const anchor = { level: L.baseline, at: (Math.max(0, preEnd - 2000) + preEnd) / 2 };
+  const tol = Math.max(3 * sigma0, 1.5 * q);
+  const drift = anchored ? restingDrift(y, a0, anchor, tol, (DRIFT_MAX * Math.abs(scale)) / Math.max(1, n - 1)) : 0;
+  const halvesAt = (i: number) => (i < a0 ? L.baseline : m1 + slope * (i - c1));
+  const lineAt = (i: number) => anchor.level + drift * (i - anchor.at);
+  const restOn = (f: (i: number) => number) => {
+    let c = 0;
+    const st = Math.max(1, Math.floor((n - a0) / 4001));
+    for (let i = a0; i < n; i += st) if (Math.abs(y[i] - f(i)) <= tol) c++;
+    return c;
+  };
+  const useLine = anchored && restOn(lineAt) > RESTING_MARGIN * restOn(halvesAt);
+  const baseAt = useLine ? lineAt : halvesAt;
   let acc = 0;
   for (let i = 0; i < n; i++) {
     const v = (y[i] - baseAt(i)) / scale;
