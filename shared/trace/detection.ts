@@ -22,7 +22,9 @@
  * Bonferroni bound, e.g. R. G. Miller, "Simultaneous Statistical Inference",
  * 2nd ed., Springer 1981, ch. 1). The noise at each scale is measured on the
  * filter's own output (robust 1.4826·MAD, Hampel 1974, of differences four
- * windows apart, where the creep of a lossy line cancels), so coloured noise is
+ * windows apart, where the creep of a lossy line cancels; in a pulse record, up to
+ * twice the pulse's width, iteratively 3σ-clipped as the record's noise measure is,
+ * since there echoes can fill most of those differences), so coloured noise is
  * met at the scale it acts on; it is never taken below what white noise of the
  * measured sample noise would give. Where a coarse recorder's levels show
  * through (the differences tie), the median sits on a tie and the spread is
@@ -32,7 +34,7 @@
  */
 import type { ReflectionEvent, TraceWarning } from '../schemas/trace-analysis';
 import { touchesHeld } from './noise';
-import { madSigma, normalUpperQuantile, prefixSums, sampleMedian, select } from './stats';
+import { clippedMadSigma, madSigma, normalUpperQuantile, prefixSums, sampleMedian, select } from './stats';
 import type { Candidate, Launch, Measured, WorkingSignal } from './steps';
 
 /** Target rate of false events per trace, from noise. */
@@ -103,7 +105,9 @@ function filterNoise(
       dF[j++] = stepFilterAt(P, from + k * stride, w, inv) - stepFilterAt(P, from + (k + lag) * stride, w, inv);
     }
     if (held !== null) used = Math.round((j / dF.length) * count);
-    if (j >= 8) measured = madSigma(dF, 0, j) / Math.SQRT2;
+    // Up to twice a pulse's width a short cable's record is mostly launch and echoes, and so are
+    // more than half of these differences: the plain MAD breaks down there and reads them as noise.
+    if (j >= 8) measured = (w <= sig.clipNoiseUpTo ? clippedMadSigma(dF, 0, j) : madSigma(dF, 0, j)) / Math.SQRT2;
     if (j >= 8) measured = Math.max(measured, quantisedSpread(dF.subarray(0, j)));
   } else {
     const all = new Float64Array(count);

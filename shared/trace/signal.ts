@@ -240,6 +240,7 @@ export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number, 
   const smoothW = Math.max(1, Math.round(w0 / 3));
   const us = boxcar(u, smoothW);
   const held = mode === 'step' ? heldStretches(rec.y) : null;
+  const clipNoiseUpTo = mode === 'pulse' && L.found ? 2 * (L.widthSamples ?? 0) : 0;
   // The blind zone ends one filter window past the launch's settling. The search starts
   // earlier (a step: one rise past its 90 % point), so an event inside the blind zone that
   // stands out of it can still be reported.
@@ -261,7 +262,8 @@ export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number, 
     blindIdx,
     // A step record clipped after the cable end holds a long flat stretch with no noise in it.
     // (A pulse record's u is a running sum, never held flat by a clipped peak.)
-    noiseExcess: noiseExcess(rec.y, sigma0, scratch, held, mode === 'pulse' && L.found ? 2 * (L.widthSamples ?? 0) : 0),
+    clipNoiseUpTo,
+    noiseExcess: noiseExcess(rec.y, sigma0, scratch, held, clipNoiseUpTo),
     held,
     quantU: mode === 'step' ? adcStep(rec.y) / Math.abs(L.found || rec.unit !== 'rho' ? L.height : 1) : 0,
     quantRaw: mode === 'pulse' ? pulseQuantiserStep(rec.y, sigma0) / Math.abs(L.found ? L.height : 1) : 0,

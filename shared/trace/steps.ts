@@ -67,6 +67,11 @@ export interface WorkingSignal {
   start: number;
   /** End of the blind zone, samples: before it only events standing well out of the launch are kept. */
   blindIdx: number;
+  /**
+   * Pulse records: up to this scale (twice the launch's width) a short cable's record is mostly launch and
+   * echoes, and the noise at a scale is read past them (clippedMadSigma); 0 for step records.
+   */
+  clipNoiseUpTo: number;
   /** Coloured-noise factor at a scale of w samples (noise.ts). */
   noiseExcess: (w: number) => number;
   /** Step records: stretches held at the recorder's limit, [start, end) pairs (noise.ts), or null when none are. */
