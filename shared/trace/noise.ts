@@ -201,7 +201,9 @@ export function estimateSlowNoise(y: Float64Array): number {
  * A scale beyond the largest block takes that block's factor. Always at least 1.
  * Up to blocks of `clipUpTo` samples the spread is clipped (clippedMadSigma): a pulse record
  * of a short cable is mostly launch and echoes at block sizes near the pulse's width, more
- * than half of its second differences, which the plain MAD cannot see past. Beyond that the
+ * than half of its second differences, which the plain MAD cannot see past; where they fill so
+ * much that even the clipped spread reads them, its factor rises faster than any noise up to a
+ * random walk's can (in proportion to the block), and is held to that rise. Beyond that the
  * shapes that survive a second difference are the line's own slow creep, which the engine does
  * not model, and the plain spread keeps them in the noise.
  */
@@ -235,7 +237,11 @@ export function noiseExcess(
       if (held !== null && m < 46) break;
       sizes.push(b);
       const spread = b <= clipUpTo ? clippedMadSigma(d2, 0, m) : madSigma(d2, 0, m);
-      factors.push(Math.max(1, spread / ((Math.sqrt(6) * sigma0) / Math.sqrt(b))));
+      const factor = Math.max(1, spread / ((Math.sqrt(6) * sigma0) / Math.sqrt(b)));
+      // Noise no slower than a random walk raises the factor at most in proportion to the block:
+      // twice from one block size to the next. Where the spread is clipped (the pulses' shapes fill
+      // most blocks) a steeper rise is those shapes still showing through, not noise.
+      factors.push(b <= clipUpTo && factors.length > 0 ? Math.min(factor, 2 * factors[factors.length - 1]) : factor);
     }
   }
   return (w) => {
