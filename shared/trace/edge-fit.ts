@@ -670,14 +670,25 @@ function bestShapeFit(
  * best: the erfc parameter whose fit leaves the least residual, searched over
  * the edge's half-height delay t50 = 1.0990·K² on a doubling grid, then refined.
  * Null when the best fit is no better than the lossless one by more than the
- * noise (the loss is not measurable on this trace).
+ * noise (the loss is not measurable on this trace). A step record that starts
+ * after its launch has no edge to take the instrument's rise from: there the
+ * nearest event, fitted with the same loss per metre, joins the fit, and the
+ * instrument's rise is tried at fractions of that event's own rise.
  */
+/**
+ * The nearest event is a second view of the instrument's rise when its loss spread is clearly smaller than the
+ * clearest event's: its two-way length at most this share of the other's (the skin spread's t50 grows with the
+ * square of the length, so 0.7 gives it under half the spread).
+ */
+const NEAR_SPREAD_SHARE = 0.7;
+
 function estimateSkin(ctx: FitContext, events: Measured[], resistiveNpPerM = 0): LossModel | null {
   const fittable = events.map((m, k) => ({ m, k })).filter(({ m }) => !m.blip);
   if (fittable.length === 0) return null;
   const { k, m } = fittable.reduce((a, b) => (Math.abs(b.m.height) * b.m.snr > Math.abs(a.m.height) * a.m.snr ? b : a));
+  const instRise = Math.max(1, ctx.input.launch.riseSamples);
   // An edge no wider than the launch shows no loss worth a fit.
-  if (m.riseSamples <= 1.5 * Math.max(1, ctx.input.launch.riseSamples) + 1) return null;
+  if (m.riseSamples <= 1.5 * instRise + 1) return null;
   const win = eventWindow(ctx, events, k);
   const d0 = (win.lo + win.hi) / 2;
   const twoWayM = twoWayOf(ctx, d0);
@@ -688,20 +699,49 @@ function estimateSkin(ctx: FitContext, events: Measured[], resistiveNpPerM = 0):
     return { skinNpPerMRootHz: (kParam * Math.sqrt(Math.PI)) / twoWayM, dielectricNpPerMPerHz: 0, resistiveNpPerM };
   };
   const base: LossModel = resistiveNpPerM > 0 ? { ...NO_LOSS, resistiveNpPerM } : NO_LOSS;
-  const ssAt = (t50: number) =>
-    fitWindow(ctx, win, t50 > 0 ? modelFor(t50) : base, twoWayM, { withMiddle: false, maxPoints: ESTIMATE_POINTS, delayTol: ESTIMATE_DELAY_TOL })?.ss ?? Infinity;
-  // First guess from the widening: the erfc edge's 10–90 % time is 28.6 times its t50
-  // (31.48·K² against 1.099·K²), and the launch's own rise adds to it.
-  const guess = Math.max(0.25, (m.riseSamples - Math.max(1, ctx.input.launch.riseSamples)) / 28.6);
-  const lossless = ssAt(0);
-  // A look a factor 2 apart within 16 times either side of the guess, then golden-section between the best one's neighbours.
-  const grid = [1 / 16, 1 / 8, 1 / 4, 1 / 2, 1, 2, 4, 8, 16].map((f) => guess * f);
-  const scores = grid.map(ssAt);
-  let bi = 0;
-  for (let i = 1; i < grid.length; i++) if (scores[i] < scores[bi]) bi = i;
-  const g = goldenMin((x) => ssAt(Math.exp(x)), Math.log(grid[bi] / 2), Math.log(grid[bi] * 2), 0.05, 7);
-  const best = g.fx < scores[bi] ? { t50: Math.exp(g.x), ss: g.fx } : { t50: grid[bi], ss: scores[bi] };
-  const dof = Math.max(1, Math.min(ESTIMATE_POINTS, win.to - win.from) - 3);
+  // With no launch edge in the record, the instrument's own rise is unknown: it is fitted together with the
+  // loss on the clearest event and the nearest one, whose loss spread is smaller by the square of their distances.
+  let near: { win: EventWindow; twoWayM: number; rise: number } | null = null;
+  if (ctx.shape.kind === 'synthetic' && ctx.shape.step) {
+    const nearest = fittable
+      .filter(({ m: e }) => e.onsetIdx >= ctx.input.signal.blindIdx)
+      .reduce((a, b) => (b.m.onsetIdx < a.m.onsetIdx ? b : a), fittable[0]);
+    if (nearest.k !== k) {
+      const nw = eventWindow(ctx, events, nearest.k);
+      const nTwo = twoWayOf(ctx, (nw.lo + nw.hi) / 2);
+      if (nw.to - nw.from >= 8 && nTwo > 0 && nTwo < NEAR_SPREAD_SHARE * twoWayM)
+        near = { win: nw, twoWayM: nTwo, rise: nearest.m.riseSamples };
+    }
+  }
+  const search = (c: FitContext) => {
+    const ssAt = (t50: number) => {
+      const model = t50 > 0 ? modelFor(t50) : base;
+      const opts = { withMiddle: false, maxPoints: ESTIMATE_POINTS, delayTol: ESTIMATE_DELAY_TOL };
+      const a = fitWindow(c, win, model, twoWayM, opts)?.ss ?? Infinity;
+      return near ? a + (fitWindow(c, near.win, model, near.twoWayM, opts)?.ss ?? Infinity) : a;
+    };
+    const lossless = ssAt(0);
+    const grid = [1 / 16, 1 / 8, 1 / 4, 1 / 2, 1, 2, 4, 8, 16].map((f) => guess * f);
+    const scores = grid.map(ssAt);
+    let bi = 0;
+    for (let i = 1; i < grid.length; i++) if (scores[i] < scores[bi]) bi = i;
+    const g = goldenMin((x) => ssAt(Math.exp(x)), Math.log(grid[bi] / 2), Math.log(grid[bi] * 2), 0.05, 7);
+    const best = g.fx < scores[bi] ? { t50: Math.exp(g.x), ss: g.fx } : { t50: grid[bi], ss: scores[bi] };
+    return { lossless, best };
+  };
+  const guess = Math.max(0.25, (m.riseSamples - instRise) / 28.6);
+  let { lossless, best } = search(ctx);
+  if (near) {
+    // The instrument's rise is tried as a quarter, half, three quarters and all of the nearest edge's own rise.
+    for (const f of [0.25, 0.5, 0.75, 1]) {
+      const sg = Math.max(ctx.shape.sigma, (f * near.rise) / 2.5631);
+      const r = search({ ...ctx, shape: { ...ctx.shape, sigma: sg } });
+      if (r.lossless < lossless) lossless = r.lossless;
+      if (r.best.ss < best.ss) best = r.best;
+    }
+  }
+  const pointsIn = (w: EventWindow) => Math.min(ESTIMATE_POINTS, w.to - w.from);
+  const dof = Math.max(1, pointsIn(win) + (near ? pointsIn(near.win) - 3 : 0) - 3);
   // Keep the estimate only if it fits better than no loss by clearly more than the noise.
   if (lossless - best.ss < 9 * (best.ss / dof)) return null;
   return modelFor(best.t50);
