@@ -17,7 +17,8 @@
  * Step or pulse is decided from the whole record: a pulse falls back below half
  * its height and the record then rests near the pre-launch level; a step keeps
  * away from it (a fault near the instrument lowers the level but does not bring
- * it back to the baseline). A launch whose top is flat at the record's extreme
+ * it back to the baseline). A record that opens on the launch's edge holds no pre-launch level:
+ * there the level it rests at stands in for it. A launch whose top is flat at the record's extreme
  * while its edge is still steep has been clipped by the recorder.
  */
 import { estimateSlowNoise } from './noise';
@@ -379,6 +380,40 @@ function noLaunch(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, baseline
   };
 }
 
+/**
+ * Smallest climb, in launch heights, of the stretch before a launch edge's foot that shows the
+ * record opening on the edge itself rather than on a pre-trigger level (from memory: a pre-trigger
+ * stretch holds its level to within its noise, and a few hundredths of the launch allow for drift).
+ */
+const OPENING_CLIMB_MIN = 0.05;
+
+/**
+ * A record whose stretch before the launch edge's foot already climbs towards the launch opens on the
+ * edge: the level before the launch is not in it, and the first samples are no baseline. Where the
+ * record rests further back than where it opened (on the far side of the edge's start), that resting
+ * level is the baseline a pre-trigger would have shown: the edge read against it, or null.
+ */
+function restingBaseline(y: Float64Array, e: LaunchEdge, lv: Levels): LaunchEdge | null {
+  const preEnd = e.i10 - 2;
+  if (preEnd < 6) return null;
+  const third = Math.max(2, Math.floor(preEnd / 3));
+  const climb = e.sign * (sampleMedian(y, preEnd - third, preEnd) - sampleMedian(y, 0, third));
+  if (!(climb > Math.max(5 * lv.noise, OPENING_CLIMB_MIN * e.peak))) return null;
+  if (!(e.sign * (lv.rest - ys3(y, 0)) < 0)) return null;
+  // The launch's top against that level: the highest it climbs before falling back below half of it.
+  let peak = 0;
+  let imax = e.ic;
+  for (let i = e.ic; i < y.length; i++) {
+    const d = e.sign * (ys3(y, i) - lv.rest);
+    if (d > peak) {
+      peak = d;
+      imax = i;
+    } else if (d < 0.5 * peak) break;
+  }
+  if (!(peak > e.peak)) return null;
+  return { ...e, imax, baseline: lv.rest, peak };
+}
+
 /** The launch found from its edge inside the record, or null when there is no clear excursion. */
 function launchInRecord(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hint: number | null, steady = false): Launch | null {
   const { y, n } = rec;
@@ -392,7 +427,16 @@ function launchInRecord(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hi
   }
   if (ic < 0) return null;
   const edge = traceLaunchEdge(y, ic, lv.bStart, steady);
-  const { iFall, looksPulse } = launchFall(y, edge, hint, lv.noise);
+  const fell = launchFall(y, edge, hint, lv.noise);
+  const { iFall } = fell;
+  let { looksPulse } = fell;
+  const unknownBase = !looksPulse && modeOpt === 'auto' ? restingBaseline(y, edge, lv) : null;
+  if (unknownBase) {
+    // The record opens on the launch's edge, so the level before it is not in the record: the level
+    // the record rests at stands in for it, as a pre-trigger would have shown it, to tell a pulse
+    // from a step; the launch's own levels are still read from the edge as the record holds it.
+    looksPulse = launchFall(y, unknownBase, hint, lv.noise).looksPulse;
+  }
   const mode: Mode = modeOpt === 'auto' ? (looksPulse ? 'pulse' : 'step') : modeOpt;
   const { height, settleIdx } = launchLevels(y, edge, mode, iFall);
   return {
