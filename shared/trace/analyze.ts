@@ -29,7 +29,7 @@ import { estimateNoise, estimateSlowNoise } from './noise';
 import { launchOnsetTimer } from './onset';
 import type { ParsedTrace } from './parse';
 import { buildWorkingSignal } from './signal';
-import { percentileOf, sortedSample } from './stats';
+import { percentileOf, sampleMedian, sortedSample } from './stats';
 import type { Candidate, Launch, Measured, TraceRecord } from './steps';
 import { budgetView, uncertaintyBudget, WINDOW_COVERAGE } from './uncertainty';
 import { ENGINE_VERSION } from './version';
@@ -278,6 +278,37 @@ function lineSeenPastShort(events: readonly ReflectionEvent[]): boolean {
 }
 
 /**
+ * Smallest sink, in launch heights, of a step record past a short below both its pre-launch level and
+ * the level it held just past the short, taken as no step record's: past a short at −1 the level sits
+ * on the pre-launch level (1 + ρ of the step), and what lies beyond shows at most (1 − |ρ|)² of its
+ * size (Pozar §2.3). A source that does not match the line sends the short's reflection back, but
+ * each trip is smaller, so the level moves back towards the pre-launch level, never further from it.
+ * The floor allows for a lossy line's slow creep after the short's edge (from memory: a few hundredths
+ * of the launch).
+ */
+const SINK_PAST_SHORT_MIN = 0.05;
+
+/**
+ * A step reading whose record, past its first short, sinks over one of eight stretches below both its
+ * pre-launch level (measured before the launch's edge in the record) and the level just past the
+ * short: the negative echo of a wide launch pulse, read past a short that no cable can show. Each
+ * stretch's median is held against SINK_PAST_SHORT_MIN of the launch and five of its own noise
+ * deviations. `shortEnd`: the sample where the first short's edge has settled, or null.
+ */
+function sinksPastShort(rec: TraceRecord, L: Launch, sigma0: number, shortEnd: number | null): boolean {
+  if (L.mode !== 'step' || !L.found || !L.onsetInRecord || shortEnd === null) return false;
+  const from = Math.max(0, Math.min(rec.n, Math.ceil(shortEnd)));
+  const len = Math.floor((rec.n - from) / 8);
+  if (len < 16) return false;
+  const sign = Math.sign(L.height) || 1;
+  const margin = Math.max(SINK_PAST_SHORT_MIN * Math.abs(L.height), (5 * sigma0) / Math.sqrt(len));
+  const level = (k: number) => sign * (sampleMedian(rec.y, from + k * len, from + (k + 1) * len) - L.baseline);
+  const after = Math.min(0, level(0));
+  for (let k = 1; k < 8; k++) if (level(k) < after - margin) return true;
+  return false;
+}
+
+/**
  * Shortest launch, as a share of the record from the launch on, that a pulse reading returning
  * nothing at all gives up for a step into a short. An instrument's pulse is set short against its
  * range, so that the line's echoes can be told apart from it; a launch filling over a quarter of the
@@ -340,6 +371,16 @@ function stepIntoShort(
       },
     ],
   };
+}
+
+/** Where the first short among the events (no echo) has settled: its edge's onset plus three of its rise times, or null. */
+function shortEnd(events: readonly ReflectionEvent[], merged: readonly Measured[], tb: Timebase): number | null {
+  const raw = (e: ReflectionEvent) => e.reflectionCoefficientRaw ?? e.reflectionCoefficient;
+  const short = events.find((e) => e.likelyMultipleOf === null && raw(e) <= SHORT_MAX_RHO);
+  if (short === undefined) return null;
+  const dtNs = tb.rec.dt * 1e9;
+  const m = merged.find((x) => Math.abs(roundTripSamples(tb, x) * dtNs - short.roundTripNs) < 1e-6 * Math.max(1, dtNs));
+  return m === undefined ? null : m.onsetIdx + 3 * Math.max(1, m.riseSamples);
 }
 
 /** One reading in the given (or detected) mode, its launch and length, and whether as a step record it shows the line past a short. */
@@ -423,7 +464,8 @@ function analyzeOnce(
   const tb: Timebase = { rec, launch: L, signal, launchOnset, zeroOverride, zeroShift: referencePlaneShift(L, merged) };
   const events = describeEvents(merged, tb, options, warnings);
   if (!L.clipped) warnings.push(...dropOverUnity(events));
-  const seenPastShort = L.mode === 'step' && lineSeenPastShort(events);
+  const seenPastShort =
+    L.mode === 'step' && (lineSeenPastShort(events) || sinksPastShort(rec, L, sigma0, shortEnd(events, merged, tb)));
   warnings.push(...resolveCableEnd(events));
   const clutter = dropClutter(events);
   if (clutter.length > 0) {
