@@ -291,7 +291,7 @@ function launchLevels(y: Float64Array, e: LaunchEdge, mode: Mode, iFall: number)
  * A pulse record that starts during the launch: it opens far from its resting level,
  * holds there for longer than its falling edge lasts, then rests at that level.
  */
-function launchBeforeRecord(rec: TraceRecord, lv: Levels, positiveOnly: boolean): Launch | null {
+function launchBeforeRecord(rec: TraceRecord, lv: Levels, positiveOnly: boolean, smear = 0): Launch | null {
   const { y, n } = rec;
   const sign = Math.sign(lv.bStart - lv.rest) || 1;
   if (positiveOnly && sign < 0) return null;
@@ -316,7 +316,9 @@ function launchBeforeRecord(rec: TraceRecord, lv: Levels, positiveOnly: boolean)
   // excursion is read as a launch pulse and a negative one as a pre-trigger baseline.
   if (lv.zeroIdx > 0.5 * iFall || (Math.abs(lv.zeroIdx) < 0.5 && sign < 0)) return null;
   const { i10, fall } = fallSamples(y, iFall, sign, lv.rest, peak);
-  if (iFall < fall) return null;
+  // A record averaged over k samples for the search shows each edge up to k − 1 samples longer
+  // than it is, and its 50 % point where it was.
+  if (iFall < fall - smear) return null;
   // It rests there after the launch, apart from its echoes; a wide pulse on a short line fills
   // much of the record with echoes and their bounces, and then the median still sits on the level.
   const after = Math.min(n - 1, i10 + 2 * fall);
@@ -480,31 +482,35 @@ function rhoLaunch(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hint: n
  * the record, or a third of the stated pulse width when that is more (a short record of a
  * wide pulse); the noise the launch is then held against is that of the averaged record.
  */
-function forLaunchSearch(rec: TraceRecord, sigma0: number, pulseHintSamples: number | null): { rec: TraceRecord; noise: number } {
+function forLaunchSearch(
+  rec: TraceRecord,
+  sigma0: number,
+  pulseHintSamples: number | null,
+): { rec: TraceRecord; noise: number; k: number } {
   const sorted = sortedSample(rec.y);
   const range = percentileOf(sorted, 0.998) - percentileOf(sorted, 0.002);
-  if (!(range > 0) || sigma0 <= 0.03 * range) return { rec, noise: sigma0 };
+  if (!(range > 0) || sigma0 <= 0.03 * range) return { rec, noise: sigma0, k: 1 };
   // At most a 200th of the record, or a third of a stated pulse width (a boxcar that short keeps
   // the pulse's top): a short record of a wide pulse may be averaged over more than its 200th.
   const kRecord = Math.max(1, Math.floor(rec.n / 200));
   const kPulse = pulseHintSamples !== null ? Math.floor(pulseHintSamples / 3) : 1;
   const k = Math.min(Math.max(kRecord, kPulse), Math.ceil((sigma0 / (0.03 * range)) ** 2));
-  if (k <= 1) return { rec, noise: sigma0 };
+  if (k <= 1) return { rec, noise: sigma0, k: 1 };
   const y = boxcar(rec.y, k);
   // Averaged over more than the record's 200th, for a stated pulse, the launch is looked for
   // against the averaged record's noise: white noise falls as 1/√k; the slow part that
   // averaging keeps is read from the averaged record itself (its differences over lags shorter
   // than k see less than it holds, hence the white floor).
   const noise = k > kRecord ? Math.max(sigma0 / Math.sqrt(k), estimateSlowNoise(y)) : sigma0;
-  return { rec: { ...rec, y }, noise };
+  return { rec: { ...rec, y }, noise, k };
 }
 
 export function findLaunch(record: TraceRecord, modeOpt: 'auto' | Mode, pulseHintSamples: number | null, sigma0 = 0): Launch {
-  const { rec, noise } = forLaunchSearch(record, sigma0, pulseHintSamples);
+  const { rec, noise, k } = forLaunchSearch(record, sigma0, pulseHintSamples);
   const lv = recordLevels(rec, noise);
   if (rec.unit === 'rho' && Math.abs(lv.bStart + 1) > 0.35) return rhoLaunch(rec, lv, modeOpt, pulseHintSamples);
   if (modeOpt !== 'step') {
-    const before = launchBeforeRecord(rec, lv, false);
+    const before = launchBeforeRecord(rec, lv, false, k - 1);
     if (before) return { ...before, modeDetected: modeOpt === 'auto' };
   }
   if (rec.unit === 'V' && Math.abs(lv.bStart) > 0.35 * lv.range && Math.sign(lv.bStart) === Math.sign(lv.hi + lv.lo)) {
