@@ -486,31 +486,33 @@ function forLaunchSearch(
   rec: TraceRecord,
   sigma0: number,
   pulseHintSamples: number | null,
-): { rec: TraceRecord; noise: number; k: number } {
+): { rec: TraceRecord; noise: number; k: number; averagedNoise: number } {
   const sorted = sortedSample(rec.y);
   const range = percentileOf(sorted, 0.998) - percentileOf(sorted, 0.002);
-  if (!(range > 0) || sigma0 <= 0.03 * range) return { rec, noise: sigma0, k: 1 };
+  if (!(range > 0) || sigma0 <= 0.03 * range) return { rec, noise: sigma0, k: 1, averagedNoise: sigma0 };
   // At most a 200th of the record, or a third of a stated pulse width (a boxcar that short keeps
   // the pulse's top): a short record of a wide pulse may be averaged over more than its 200th.
   const kRecord = Math.max(1, Math.floor(rec.n / 200));
   const kPulse = pulseHintSamples !== null ? Math.floor(pulseHintSamples / 3) : 1;
   const k = Math.min(Math.max(kRecord, kPulse), Math.ceil((sigma0 / (0.03 * range)) ** 2));
-  if (k <= 1) return { rec, noise: sigma0, k: 1 };
+  if (k <= 1) return { rec, noise: sigma0, k: 1, averagedNoise: sigma0 };
   const y = boxcar(rec.y, k);
   // Averaged over more than the record's 200th, for a stated pulse, the launch is looked for
   // against the averaged record's noise: white noise falls as 1/√k; the slow part that
   // averaging keeps is read from the averaged record itself (its differences over lags shorter
   // than k see less than it holds, hence the white floor).
-  const noise = k > kRecord ? Math.max(sigma0 / Math.sqrt(k), estimateSlowNoise(y)) : sigma0;
-  return { rec: { ...rec, y }, noise, k };
+  const averagedNoise = Math.max(sigma0 / Math.sqrt(k), estimateSlowNoise(y));
+  const noise = k > kRecord ? averagedNoise : sigma0;
+  return { rec: { ...rec, y }, noise, k, averagedNoise };
 }
 
 export function findLaunch(record: TraceRecord, modeOpt: 'auto' | Mode, pulseHintSamples: number | null, sigma0 = 0): Launch {
-  const { rec, noise, k } = forLaunchSearch(record, sigma0, pulseHintSamples);
+  const { rec, noise, k, averagedNoise } = forLaunchSearch(record, sigma0, pulseHintSamples);
   const lv = recordLevels(rec, noise);
   if (rec.unit === 'rho' && Math.abs(lv.bStart + 1) > 0.35) return rhoLaunch(rec, lv, modeOpt, pulseHintSamples);
   if (modeOpt !== 'step') {
-    const before = launchBeforeRecord(rec, lv, false, k - 1);
+    // A launch before the record is read from the averaged record alone: against its own noise.
+    const before = launchBeforeRecord(rec, k > 1 ? recordLevels(rec, averagedNoise) : lv, false, k - 1);
     if (before) return { ...before, modeDetected: modeOpt === 'auto' };
   }
   if (rec.unit === 'V' && Math.abs(lv.bStart) > 0.35 * lv.range && Math.sign(lv.bStart) === Math.sign(lv.hi + lv.lo)) {
