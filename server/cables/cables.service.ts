@@ -1,4 +1,5 @@
 import { col, fn, Op, type Transaction, type WhereOptions } from 'sequelize';
+import { nameKey } from '../db/name-key';
 import { containsText } from '../db/search';
 import {
   formatAttenuationList,
@@ -133,15 +134,8 @@ export async function getCable(id: number) {
   return cableView(await loadCable(id));
 }
 
-/**
- * The form of a cable type's name two entries may not share: Unicode
- * compatibility-normalised (NFKC), case-folded in every script (the database's
- * lower() folds ASCII only, so "Ω" and "ω" would pass it; lower, upper, lower
- * again also folds "ß" with "ss") and with runs of spaces as one.
- */
-export function cableNameKey(name: string): string {
-  return name.normalize('NFKC').toLowerCase().toUpperCase().toLowerCase().replace(/\s+/g, ' ').trim();
-}
+/** The form of a cable type's name two entries may not share (see nameKey). */
+export const cableNameKey = nameKey;
 
 async function assertNameFree(name: string, exceptId: number | null, transaction?: Transaction) {
   const key = cableNameKey(name);

@@ -1,4 +1,5 @@
-import { col, fn, Op, where, type Transaction } from 'sequelize';
+import { Op, type Transaction } from 'sequelize';
+import { nameKey } from '../db/name-key';
 import { containsText } from '../db/search';
 import type { z } from 'zod';
 import type { SiteInputSchema, SiteSummary } from '../../shared/schemas/sites';
@@ -76,12 +77,20 @@ export async function getSite(id: number): Promise<SiteSummary> {
   return (await summaries([site]))[0];
 }
 
-/** A site's name is free unless another site has it, ignoring case ("North Yard" and "north yard" are one place to a reader). */
+/**
+ * A site's name is free unless another site has it as a reader sees it: ignoring case in every
+ * script, Unicode form and runs of spaces ("North Yard" and "north yard", "Écluse" and "écluse" are
+ * one place to a reader). The database's lower() folds ASCII only, so the names are compared here.
+ */
 async function nameFree(name: string, exceptId?: number, transaction?: Transaction) {
-  const other = await Site.findOne({
-    where: { [Op.and]: [where(fn('lower', col('name')), name.toLowerCase()), ...(exceptId ? [{ id: { [Op.ne]: exceptId } }] : [])] },
-    transaction,
-  });
+  // PostgreSQL runs transactions side by side: hold off other writers of sites until this one
+  // commits, so two names that fold alike cannot both pass the check (SQLite writes one at a time anyway).
+  if (transaction && Site.sequelize!.getDialect() === 'postgres') {
+    await Site.sequelize!.query('LOCK TABLE sites IN SHARE ROW EXCLUSIVE MODE', { transaction });
+  }
+  const key = nameKey(name);
+  const all = await Site.findAll({ attributes: ['id', 'name'], transaction });
+  const other = all.find((s) => s.id !== exceptId && nameKey(s.name) === key);
   if (other) {
     const same = other.name === name ? '' : ` (as "${other.name}")`;
     throw new AppError(409, 'site_name_taken', `There is already a site called "${name}"${same}.`, {
