@@ -89,6 +89,60 @@ function fileError(message: string, line?: number): AppError {
 }
 
 /**
+ * Offset of the first byte that does not belong to well-formed UTF-8 (RFC 3629,
+ * table 3-7 of the Unicode standard: no overlong forms, no surrogates, nothing
+ * past U+10FFFF), or -1 when all of it is.
+ */
+function firstNonUtf8Byte(b: Uint8Array): number {
+  let i = 0;
+  while (i < b.length) {
+    const c = b[i];
+    if (c < 0x80) {
+      i++;
+      continue;
+    }
+    // The continuation bytes each lead byte needs, and the range its first one must fall in.
+    let need: number;
+    let lo = 0x80;
+    let hi = 0xbf;
+    if (c >= 0xc2 && c <= 0xdf) need = 1;
+    else if (c >= 0xe0 && c <= 0xef) {
+      need = 2;
+      if (c === 0xe0) lo = 0xa0;
+      if (c === 0xed) hi = 0x9f;
+    } else if (c >= 0xf0 && c <= 0xf4) {
+      need = 3;
+      if (c === 0xf0) lo = 0x90;
+      if (c === 0xf4) hi = 0x8f;
+    } else return i;
+    for (let k = 1; k <= need; k++) {
+      const d = b[i + k];
+      if (d === undefined || d < (k === 1 ? lo : 0x80) || d > (k === 1 ? hi : 0xbf)) return i;
+    }
+    i += need + 1;
+  }
+  return -1;
+}
+
+/**
+ * An uploaded library file as text. It must be UTF-8 (what the export writes, and what spreadsheets
+ * save as "CSV UTF-8"): bytes of another encoding would otherwise be read as replacement characters
+ * and stored in names and references for good. Refused with the line and the byte.
+ */
+export function csvFileText(bytes: Uint8Array): string {
+  const bad = firstNonUtf8Byte(bytes);
+  if (bad >= 0) {
+    const lineStart = bytes.lastIndexOf(0x0a, bad - 1) + 1;
+    let line = 1;
+    for (let i = 0; i < lineStart; i++) if (bytes[i] === 0x0a) line++;
+    const before = new TextDecoder('utf-8').decode(bytes.subarray(lineStart, bad)).replace(/^\uFEFF/, '').slice(-20);
+    const byte = `0x${bytes[bad].toString(16).toUpperCase().padStart(2, '0')}`;
+    throw fileError(`Line ${line}: the file is not UTF-8 text (byte ${byte}${before ? ` after "${before}"` : ' at the start of the line'}). Save it from the spreadsheet as "CSV UTF-8" and import it again.`, line);
+  }
+  return new TextDecoder('utf-8').decode(bytes);
+}
+
+/**
  * The cell separator: a comma, or a semicolon as spreadsheets write CSV
  * where the comma is the decimal mark. Decided from the header line, outside
  * quotes: whichever of the two it has more of.

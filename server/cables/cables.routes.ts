@@ -9,7 +9,7 @@ import { calibrationsForCable } from '../calibrations/calibrations.service';
 import { AppError } from '../errors';
 import { ApiRouter, handle } from '../http/api-router';
 import { refuseBadFormText, uploadedFileName } from '../http/strict-input';
-import { commitImport, exportCsv, previewImport } from './cables.csv';
+import { commitImport, csvFileText, exportCsv, previewImport } from './cables.csv';
 import * as cables from './cables.service';
 
 const HistoryQuery = z.object({ sinceRevision: textInt({ min: 0, what: 'a revision number' }).optional() });
@@ -19,7 +19,7 @@ export const MAX_IMPORT_BYTES = 1024 * 1024;
 
 /** The CSV from a multipart field "file", or from a JSON body { csv }. */
 function csvText(req: Request): { text: string; fileName?: string } {
-  if (req.file) return { text: req.file.buffer.toString('utf8'), fileName: uploadedFileName(req.file.originalname) };
+  if (req.file) return { text: csvFileText(req.file.buffer), fileName: uploadedFileName(req.file.originalname) };
   const csv = (req.body as { csv?: unknown } | undefined)?.csv;
   if (typeof csv === 'string' && csv.length > 0) return { text: csv };
   throw AppError.badRequest('file_missing', 'Attach the CSV file (form field "file").', { fields: [{ field: 'file', message: 'is required' }] });
