@@ -8,7 +8,7 @@ import {
   type LineConstants,
   type PulseVf,
 } from './cable-loss';
-import { textId, textInt } from './input';
+import { oneLine, textId, textInt } from './input';
 
 export * from './cable-loss';
 
@@ -45,9 +45,9 @@ const num = (what = 'must be a number') => z.number({ error: what }).finite({ er
 
 /** The fields of one library entry, all in SI. Shared by the form, the API and the CSV import. */
 export const cableFields = {
-  name: z.string({ error: 'is required' }).trim().min(1, 'is required').max(120, 'must be at most 120 characters'),
+  name: oneLine(z.string({ error: 'is required' }).trim().min(1, 'is required').max(120, 'must be at most 120 characters')),
   construction: z.enum(CONSTRUCTIONS, { error: `must be one of ${CONSTRUCTIONS.join(', ')}` }),
-  dielectric: z.string({ error: 'is required' }).trim().min(1, 'is required').max(120, 'must be at most 120 characters'),
+  dielectric: oneLine(z.string({ error: 'is required' }).trim().min(1, 'is required').max(120, 'must be at most 120 characters')),
   z0Ohm: num().gt(0, 'must be greater than 0 Ω').max(10_000, 'must be at most 10000 Ω'),
   vf: num().gt(0, 'must be greater than 0').max(1, 'must be at most 1 (nothing is faster than light)'),
   vfTolerance: num().min(0, 'must not be negative').max(0.5, 'must be at most 0.5 (±50 %)'),

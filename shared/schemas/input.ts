@@ -92,3 +92,19 @@ export function lengthM(what: string, opts: { positive?: boolean; max?: number }
   const n = z.number({ error: `${what} must be a number of metres` }).max(max, { error: rule });
   return opts.positive ? n.positive({ error: rule }) : n.min(0, { error: rule });
 }
+
+/** Line breaks and other control characters: C0 (tab, CR, LF among them), DEL, C1 (NEL among them), and the Unicode line and paragraph separators. */
+// eslint-disable-next-line no-control-regex -- finding control characters is the point
+const NOT_ONE_LINE = /[\u0000-\u001F\u007F-\u009F\u2028\u2029]/;
+
+/**
+ * A name, title or label: one line of text. Each is shown after its label on
+ * a line of its own (lists, crew sheets, the plain-text e-mails), so a line
+ * break inside one would print a line Rholog never wrote. Notes, comments and
+ * reasons are not one-line fields and keep their line breaks.
+ */
+export function oneLine<T extends z.ZodType<string | null | undefined>>(schema: T): T {
+  return schema.refine((v) => typeof v !== 'string' || !NOT_ONE_LINE.test(v), {
+    error: 'must be one line: no line breaks, tabs or other control characters',
+  }) as T;
+}

@@ -2,6 +2,7 @@ import { z } from 'zod';
 import type { RoutePosition } from '../field/route-position';
 import type { GroundPlace } from '../locate/route-geo';
 import { CONDUCTOR_MATERIALS, type ConductorMaterial, type LocateMethod } from '../locate';
+import { oneLine } from './input';
 
 /** Readings other than TDR traces, kept with who took them, when and with what. */
 export const MEASUREMENT_KINDS = ['murray', 'varley', 'capacitance', 'loop-resistance'] as const;
@@ -113,11 +114,13 @@ export type MeasurementReadings =
 
 const record = {
   /** Make, model and serial of the bridge or meter. */
-  instrument: z
-    .string({ error: 'is required: the instrument used' })
-    .trim()
-    .min(1, 'is required: the instrument used')
-    .max(200, 'must be at most 200 characters'),
+  instrument: oneLine(
+    z
+      .string({ error: 'is required: the instrument used' })
+      .trim()
+      .min(1, 'is required: the instrument used')
+      .max(200, 'must be at most 200 characters'),
+  ),
   /** When the reading was taken (ISO 8601); defaults to now. */
   measuredAt: z.iso
     .datetime({ offset: true, error: 'must be a date and time (ISO 8601)' })

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { jsonId, lengthM, MAX_LENGTH_M, textId, textInt } from './input';
+import { jsonId, lengthM, MAX_LENGTH_M, oneLine, textId, textInt } from './input';
 
 const text = (max: number) => z.string().trim().max(max, `must be at most ${max} characters`);
 const optionalText = (max: number) =>
@@ -22,8 +22,8 @@ export const MARKER_KIND_LABELS: Record<MarkerKind, string> = {
 };
 
 export const SiteInputSchema = z.object({
-  name: text(120).min(1, 'is required'),
-  address: optionalText(300),
+  name: oneLine(text(120).min(1, 'is required')),
+  address: oneLine(optionalText(300)),
   latitude: z
     .number({ error: 'must be a number of degrees, or null' })
     .min(-90, 'must be between -90 and 90')
@@ -48,7 +48,7 @@ export const SiteListQuerySchema = z.object({
 });
 
 export const RouteMarkerInputSchema = z.object({
-  label: text(60).min(1, 'is required'),
+  label: oneLine(text(60).min(1, 'is required')),
   kind: z.enum(MARKER_KINDS, { error: `must be one of ${MARKER_KINDS.join(', ')}` }),
   chainageM: lengthM('chainage'),
   slackM: lengthM('slack', { max: 10_000 }).default(0),
@@ -71,10 +71,10 @@ export type RouteMarkerInput = z.input<typeof RouteMarkerInputSchema>;
 
 export const CableRunInputSchema = z.object({
   siteId: id,
-  name: text(120).min(1, 'is required'),
+  name: oneLine(text(120).min(1, 'is required')),
   cableTypeId: id,
-  endALabel: text(120).min(1, 'is required'),
-  endBLabel: text(120).min(1, 'is required'),
+  endALabel: oneLine(text(120).min(1, 'is required')),
+  endBLabel: oneLine(text(120).min(1, 'is required')),
   installedLengthM: lengthM('installed length', { positive: true, max: MAX_LENGTH_M }),
   notes: optionalText(4000),
 });

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { jsonId, lengthM, textId, textInt } from './input';
+import { jsonId, lengthM, oneLine, textId, textInt } from './input';
 import type { RoutePosition } from '../field/route-position';
 import { FINDING_KINDS } from './findings';
 import type { MailJobView } from './outbox';
@@ -28,7 +28,7 @@ export const TicketCreateSchema = z.object({
     .array(id('a finding id'), { error: 'must list at least one finding' })
     .min(1, 'must list at least one finding')
     .max(20, 'may list at most 20 findings'),
-  title: text(160),
+  title: oneLine(text(160)),
   assigneeId: id('a user id').nullish().transform((v) => v ?? null),
   priority: priority.default('normal'),
   // A new ticket cannot be due in the past (a day's grace for time zones).
@@ -39,7 +39,7 @@ export type TicketCreateInput = z.input<typeof TicketCreateSchema>;
 
 export const TicketUpdateSchema = z
   .object({
-    title: z.string({ error: 'must be text' }).trim().min(1, 'is required').max(160, 'must be at most 160 characters'),
+    title: oneLine(z.string({ error: 'must be text' }).trim().min(1, 'is required').max(160, 'must be at most 160 characters')),
     assigneeId: id('a user id').nullable(),
     priority,
     dueDate,

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { textInt } from './input';
+import { oneLine, textInt } from './input';
 import { ROLES } from '../auth/permissions';
 import type { TicketStatus } from '../tickets/status';
 
@@ -26,14 +26,14 @@ export const ChangePasswordSchema = z.object({
 
 export const CreateUserSchema = z.object({
   email: emailSchema,
-  name: z.string({ error: 'is required' }).trim().min(1, 'is required').max(120),
+  name: oneLine(z.string({ error: 'is required' }).trim().min(1, 'is required').max(120)),
   role: z.enum(ROLES, { error: `must be one of ${ROLES.join(', ')}` }),
   phone: z.string().trim().max(40).optional(),
 });
 
 export const UpdateUserSchema = z
   .object({
-    name: z.string().trim().min(1, 'is required').max(120),
+    name: oneLine(z.string().trim().min(1, 'is required').max(120)),
     role: z.enum(ROLES, { error: `must be one of ${ROLES.join(', ')}` }),
     active: z.boolean({ error: 'must be true or false' }),
     phone: z.string().trim().max(40).nullable(),
