@@ -2,7 +2,7 @@ import { z } from 'zod';
 import type { RoutePosition } from '../field/route-position';
 import type { GroundPlace } from '../locate/route-geo';
 import { CONDUCTOR_MATERIALS, type ConductorMaterial, type LocateMethod } from '../locate';
-import { oneLine } from './input';
+import { MAX_LENGTH_M, oneLine } from './input';
 
 /** Readings other than TDR traces, kept with who took them, when and with what. */
 export const MEASUREMENT_KINDS = ['murray', 'varley', 'capacitance', 'loop-resistance'] as const;
@@ -21,6 +21,18 @@ export type MeasurementStatus = (typeof MEASUREMENT_STATUSES)[number];
 const num = (what: string) => z.number({ error: `must be a number (${what})` });
 const positive = (what: string) => num(what).gt(0, `must be more than 0 (${what})`);
 const nonNegative = (what: string) => num(what).min(0, `must not be negative (${what})`);
+
+/*
+ * Upper bounds, so that no reading is large enough to overflow the location formulas (two arms of
+ * 1e308 Ω sum to Infinity): common practice, each far above any real reading. Resistances at most
+ * 1 TΩ (the top of insulation testers' ranges), capacitances at most 1 mF (a 100 km cable at
+ * 100 pF/m holds 10 µF), lengths at most 100 km as everywhere in Rholog.
+ */
+const MAX_OHM = 1e12;
+const MAX_FARAD = 1e-3;
+const ohm = (reading: z.ZodNumber) => reading.max(MAX_OHM, 'must be at most 1e12 Ω (1 TΩ)');
+const farad = (reading: z.ZodNumber) => reading.max(MAX_FARAD, 'must be at most 0.001 F (1 mF)');
+const share = (reading: z.ZodNumber) => reading.max(1, 'must be at most 1 (a share of the loop)');
 const id = (what: string) =>
   z
     .number({ error: `must be ${what}` })
@@ -28,7 +40,7 @@ const id = (what: string) =>
     .positive(`must be ${what}`);
 
 const sectionSchema = z.strictObject({
-  lengthM: positive('metres'),
+  lengthM: positive('metres').max(MAX_LENGTH_M, `must be at most ${MAX_LENGTH_M} m`),
   material: z.enum(CONDUCTOR_MATERIALS as [ConductorMaterial, ...ConductorMaterial[]], { error: 'must be copper or aluminium' }),
   sizeMm2: positive('mm²').max(5000, 'must be at most 5000 mm²').optional(),
   ohmPerM20: positive('Ω/m at 20 °C').max(100, 'must be at most 100 Ω/m').optional(),
@@ -57,47 +69,47 @@ const loop = {
 export const MurrayReadingsSchema = z.strictObject({
   ...loop,
   ratio: num('a share of the loop, 0–1').optional(),
-  faultySideArmOhm: positive('Ω').optional(),
-  soundSideArmOhm: positive('Ω').optional(),
-  ratioStep: nonNegative('the ratio resolution').optional(),
-  ratioAccuracy: nonNegative('± the ratio').optional(),
-  loopOhm: positive('Ω').optional(),
-  ohmStep: nonNegative('Ω').optional(),
+  faultySideArmOhm: ohm(positive('Ω')).optional(),
+  soundSideArmOhm: ohm(positive('Ω')).optional(),
+  ratioStep: share(nonNegative('the ratio resolution')).optional(),
+  ratioAccuracy: share(nonNegative('± the ratio')).optional(),
+  loopOhm: ohm(positive('Ω')).optional(),
+  ohmStep: ohm(nonNegative('Ω')).optional(),
   accuracyPct: nonNegative('%').max(100, 'must be at most 100 %').optional(),
 });
 
 export const VarleyReadingsSchema = z.strictObject({
   ...loop,
-  armRatio: positive('a/b'),
-  rheostatOhm: nonNegative('Ω'),
-  loopOhm: positive('Ω').optional(),
-  ohmStep: nonNegative('Ω').optional(),
+  armRatio: positive('a/b').max(1e6, 'must be at most 1000000 (a/b)'),
+  rheostatOhm: ohm(nonNegative('Ω')),
+  loopOhm: ohm(positive('Ω')).optional(),
+  ohmStep: ohm(nonNegative('Ω')).optional(),
   accuracyPct: nonNegative('%').max(100, 'must be at most 100 %').optional(),
 });
 
 export const CapacitanceReadingsSchema = z.strictObject({
   fromEnd: endSchema,
-  measuredF: positive('F'),
-  soundF: positive('F').optional(),
-  otherEndF: positive('F').optional(),
-  perMF: positive('F/m').optional(),
+  measuredF: farad(positive('F')),
+  soundF: farad(positive('F')).optional(),
+  otherEndF: farad(positive('F')).optional(),
+  perMF: positive('F/m').max(MAX_FARAD, 'must be at most 0.001 F/m').optional(),
   perMRelativeU: nonNegative('a fraction').max(1, 'must be at most 1').optional(),
   uniformityRelativeU: nonNegative('a fraction').max(1, 'must be at most 1').optional(),
-  leadF: nonNegative('F').optional(),
-  leadUF: nonNegative('F').optional(),
-  stepF: nonNegative('F').optional(),
+  leadF: farad(nonNegative('F')).optional(),
+  leadUF: farad(nonNegative('F')).optional(),
+  stepF: farad(nonNegative('F')).optional(),
   accuracyPct: nonNegative('%').max(100, 'must be at most 100 %').optional(),
 });
 
 export const LoopResistanceReadingsSchema = z.strictObject({
   fromEnd: endSchema,
-  loopOhm: positive('Ω'),
-  leadOhm: nonNegative('Ω').optional(),
-  faultOhmMax: nonNegative('Ω').optional(),
+  loopOhm: ohm(positive('Ω')),
+  leadOhm: ohm(nonNegative('Ω')).optional(),
+  faultOhmMax: ohm(nonNegative('Ω')).optional(),
   first: sectionsSchema,
   second: z.union([z.literal('same'), sectionsSchema], { error: "must be 'same' or a list of sections" }).optional(),
   ...temperature,
-  ohmStep: nonNegative('Ω').optional(),
+  ohmStep: ohm(nonNegative('Ω')).optional(),
   accuracyPct: nonNegative('%').max(100, 'must be at most 100 %').optional(),
 });
 
