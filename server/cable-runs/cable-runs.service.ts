@@ -1,4 +1,5 @@
 import { Op, type Sequelize, type Transaction } from 'sequelize';
+import { nameKey } from '../db/name-key';
 import { containsText } from '../db/search';
 import type { z } from 'zod';
 import type {
@@ -73,12 +74,23 @@ export async function getRun(id: number): Promise<CableRunView> {
 
 async function checkRefs(input: { siteId: number; cableTypeId: number; name: string }, exceptId: number | undefined, transaction: Transaction) {
   const fields: FieldIssue[] = [];
-  if (!(await Site.findByPk(input.siteId, { transaction }))) fields.push({ field: 'siteId', message: `there is no site ${input.siteId}` });
+  // The site's row is held (FOR UPDATE on PostgreSQL; SQLite writes one at a time) so that two runs whose
+  // names fold alike cannot both pass the check below at once.
+  if (!(await Site.findByPk(input.siteId, { transaction, lock: transaction.LOCK.UPDATE }))) {
+    fields.push({ field: 'siteId', message: `there is no site ${input.siteId}` });
+  }
   if (!(await CableType.findByPk(input.cableTypeId, { transaction }))) {
     fields.push({ field: 'cableTypeId', message: `there is no cable type ${input.cableTypeId} in the library` });
   }
-  const other = await CableRun.findOne({ where: { siteId: input.siteId, name: input.name }, transaction });
-  if (other && other.id !== exceptId) fields.push({ field: 'name', message: 'is already used by another run at this site' });
+  // Names are compared as a reader sees them: "Feeder 1" and "feeder 1", "Écluse" and "ÉCLUSE" are one run
+  // (the database's lower() folds ASCII only, so the comparison is made here).
+  const key = nameKey(input.name);
+  const runs = await CableRun.findAll({ where: { siteId: input.siteId }, attributes: ['id', 'name'], transaction });
+  const other = runs.find((r) => r.id !== exceptId && nameKey(r.name) === key);
+  if (other) {
+    const as = other.name === input.name ? '' : ` (as "${other.name}")`;
+    fields.push({ field: 'name', message: `is already used by another run at this site${as}` });
+  }
   if (fields.length) {
     throw new AppError(422, 'invalid_cable_run', fields.map((f) => `${f.field}: ${f.message}`).join('; '), { fields });
   }
