@@ -115,7 +115,8 @@ export function checkMarkers(
         message: `marker ${m.label} is at ${m.chainageM} m, past the end of the route (${routeLength.toFixed(1)} m = installed length less slack)`,
       });
     }
-    const key = m.label.toLowerCase();
+    // As a reader sees it: case in every script, full-width forms, Unicode form and runs of spaces folded.
+    const key = nameKey(m.label);
     if (seen.has(key)) fields.push({ field: `markers.${i}.label`, message: `the label ${m.label} is used twice` });
     seen.add(key);
   });
