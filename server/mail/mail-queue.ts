@@ -103,13 +103,16 @@ export class MailQueue {
     return job;
   }
 
-  /** Try a failed job again now (one being sent is left to its sender). */
-  async retry(jobId: number): Promise<MailJob | null> {
+  /**
+   * Try a failed job again now. One conditional UPDATE, as a claim is: a job that is no longer failed
+   * (sent, queued, or claimed by a sender meanwhile, e.g. after someone else's retry) is left as it is,
+   * so its lease is never undone. `retried` says whether this call queued it.
+   */
+  async retry(jobId: number): Promise<{ job: MailJob | null; retried: boolean }> {
+    const [count] = await MailJob.update({ status: 'queued', nextAttemptAt: new Date() }, { where: { id: jobId, status: 'failed' } });
     const job = await MailJob.findByPk(jobId);
-    if (!job || job.status === 'sent' || job.status === 'sending') return job;
-    await job.update({ status: 'queued', nextAttemptAt: new Date() });
-    this.kick();
-    return job;
+    if (count === 1) this.kick();
+    return { job, retried: count === 1 };
   }
 
   kick() {

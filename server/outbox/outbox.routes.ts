@@ -22,8 +22,12 @@ export function outboxRoutes(ctx: AppContext) {
     'outbox:read',
     handle(async (req) => {
       const id = IdParam.parse(req.params).id;
-      const job = await ctx.mail.queue.retry(id);
+      const { job, retried } = await ctx.mail.queue.retry(id);
       if (!job) throw AppError.notFound(`Mail job ${id}`);
+      if (!retried) {
+        const state = job.status === 'sent' ? 'was already sent' : job.status === 'sending' ? 'is being sent now' : 'is already waiting to be sent';
+        throw new AppError(409, 'not_failed', `Mail job ${id} ${state}; nothing was changed.`);
+      }
       return outbox.mailJobView(job);
     }),
   );

@@ -6,5 +6,6 @@ export const retryMailJob = (id: number) => api<MailJobView>(`/api/outbox/queue/
 
 export function useRetryMailJob() {
   const qc = useQueryClient();
-  return useMutation({ mutationFn: retryMailJob, onSuccess: () => qc.invalidateQueries({ queryKey: ['outbox'] }) });
+  // Refreshed after a refusal too (409 not_failed): the list then shows where the job really is.
+  return useMutation({ mutationFn: retryMailJob, onSettled: () => qc.invalidateQueries({ queryKey: ['outbox'] }) });
 }
