@@ -1,14 +1,15 @@
 import { can } from '../../shared/auth/permissions';
-import type { ArchivedTraceView, TraceArchiveView } from '../../shared/schemas/trace-outcomes';
+import type { ArchivedTraceView, TraceArchiveView, TraceOutcomeKind } from '../../shared/schemas/trace-outcomes';
 import type { Page } from '../../shared/schemas/users';
 import { Op } from 'sequelize';
 import type { SessionUser } from '../auth/guards';
-import { CableRun, Finding, Site, Trace, TraceArchiveEvent, User } from '../db/models';
+import { CableRun, Finding, Site, Trace, TraceArchiveEvent, TraceOutcome, User } from '../db/models';
 import { AppError } from '../errors';
 import { pendingConflict } from '../traces/traces.service';
 
 const person = (u: User | undefined, id: number) => ({ id, name: u?.name ?? `user ${id}` });
 const BY = [{ association: 'by', attributes: ['id', 'name'] }];
+const OUTCOME_WORDS: Record<TraceOutcomeKind, string> = { 'far-end-healthy': 'far end of a healthy cable', 'calibration-filed': 'field calibration filed' };
 
 export async function archiveView(traceId: number): Promise<TraceArchiveView> {
   const trace = await Trace.findByPk(traceId, { attributes: ['id', 'archivedAt'] });
@@ -45,6 +46,11 @@ export async function archiveTrace(traceId: number, reason: string, user: Sessio
     const finding = await Finding.findOne({ where: { traceId }, attributes: ['id'], transaction });
     if (finding) {
       throw AppError.conflict('has_findings', `Finding ${finding.id} was made from trace ${traceId}, so the trace stays in the lists as part of that record.`);
+    }
+    // A recorded outcome (the run's measured length, a filed calibration) rests on the trace as a finding does.
+    const outcome = await TraceOutcome.findOne({ where: { traceId }, attributes: ['id', 'kind'], order: [['id', 'ASC']], transaction });
+    if (outcome) {
+      throw AppError.conflict('has_outcomes', `Trace ${traceId} holds a recorded outcome (${OUTCOME_WORDS[outcome.kind]}), so it stays in the lists as part of that record.`);
     }
     await trace.update({ archivedAt: new Date() }, { transaction });
     await TraceArchiveEvent.create({ traceId, action: 'archived', reason, byId: user.id }, { transaction });
