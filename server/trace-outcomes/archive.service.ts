@@ -32,7 +32,8 @@ export async function archiveView(traceId: number): Promise<TraceArchiveView> {
  */
 export async function archiveTrace(traceId: number, reason: string, user: SessionUser): Promise<TraceArchiveView> {
   await Trace.sequelize!.transaction(async (transaction) => {
-    const trace = await Trace.findByPk(traceId, { transaction });
+    // Held while the checks run, so that an outcome recorded at the same time waits for this and then sees it archived.
+    const trace = await Trace.findByPk(traceId, { transaction, lock: transaction.LOCK.UPDATE });
     if (!trace) throw AppError.notFound(`Trace ${traceId}`);
     if (trace.uploadedById !== user.id && !can(user.role, 'traces:archive')) {
       throw new AppError(403, 'not_your_trace', `Someone else uploaded trace ${traceId}: they or a supervisor may archive it.`);
@@ -61,7 +62,8 @@ export async function archiveTrace(traceId: number, reason: string, user: Sessio
 /** Put an archived trace back in the lists, with a reason; the history keeps both steps. */
 export async function restoreTrace(traceId: number, reason: string, user: SessionUser): Promise<TraceArchiveView> {
   await Trace.sequelize!.transaction(async (transaction) => {
-    const trace = await Trace.findByPk(traceId, { transaction });
+    // Held while the checks run, so that an outcome recorded at the same time waits for this and then sees it archived.
+    const trace = await Trace.findByPk(traceId, { transaction, lock: transaction.LOCK.UPDATE });
     if (!trace) throw AppError.notFound(`Trace ${traceId}`);
     if (!trace.archivedAt) throw AppError.conflict('not_archived', `Trace ${traceId} is not archived.`);
     await trace.update({ archivedAt: null }, { transaction });

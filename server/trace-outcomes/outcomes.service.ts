@@ -3,6 +3,7 @@ import { can } from '../../shared/auth/permissions';
 import type { ReflectionEvent } from '../../shared/schemas/trace-analysis';
 import type { TraceCalibrationSchema, HealthyOutcomeSchema, TraceOutcomeView, TraceOutcomesView } from '../../shared/schemas/trace-outcomes';
 import type { z } from 'zod';
+import type { Transaction } from 'sequelize';
 import type { SessionUser } from '../auth/guards';
 import type { AppContext } from '../context';
 import { CableCalibration, CableRun, Finding, Trace, TraceOutcome, User } from '../db/models';
@@ -40,10 +41,23 @@ export async function traceOutcomes(traceId: number): Promise<TraceOutcomesView>
 }
 
 /** A readable trace and one of its events that is not an echo; 404 or 422 saying which is wrong. */
+/**
+ * The trace read again inside the recording transaction, its row held (FOR UPDATE on PostgreSQL; SQLite
+ * writes one at a time): one archived since traceAndEvent read it takes nothing more.
+ */
+async function stillListed(traceId: number, transaction: Transaction) {
+  const now = await Trace.findByPk(traceId, { attributes: ['id', 'archivedAt'], lock: transaction.LOCK.UPDATE, transaction });
+  if (!now) throw AppError.notFound(`Trace ${traceId}`);
+  if (now.archivedAt) throw archivedError(traceId);
+}
+
+const archivedError = (traceId: number) =>
+  new AppError(422, 'trace_archived', `Trace ${traceId} is archived: an administrator restores it before anything is recorded from it.`);
+
 async function traceAndEvent(traceId: number, eventIndex: number) {
   const trace = await Trace.findByPk(traceId);
   if (!trace) throw AppError.notFound(`Trace ${traceId}`);
-  if (trace.archivedAt) throw new AppError(422, 'trace_archived', `Trace ${traceId} is archived: an administrator restores it before anything is recorded from it.`);
+  if (trace.archivedAt) throw archivedError(traceId);
   if (trace.status === 'pending') throw pendingConflict(traceId, 'recorded against');
   if (trace.status !== 'ok' || !trace.analysis) {
     throw new AppError(422, 'trace_failed', `Trace ${traceId} could not be read, so nothing can be taken from it.`);
@@ -87,6 +101,7 @@ export async function recordHealthy(traceId: number, input: z.output<typeof Heal
   }
   const sequelize = Trace.sequelize!;
   const id = await sequelize.transaction(async (transaction) => {
+    await stillListed(traceId, transaction);
     const confirmed = await Finding.findOne({ where: { traceId, status: 'confirmed' }, attributes: ['id', 'eventIndex'], transaction });
     if (confirmed) {
       throw AppError.conflict('fault_confirmed', `Event ${confirmed.eventIndex + 1} of this trace is confirmed as a fault (finding ${confirmed.id}): the cable is not healthy on this trace.`);
@@ -130,6 +145,7 @@ export async function fileCalibration(ctx: AppContext, traceId: number, input: z
     `Far end (event ${event.index + 1}) of trace ${traceId} on ${run.name}, from end ${trace.end}; known length ${Number(input.knownLengthM.toFixed(2))} m` +
       (leadM > 0 ? `; test lead of ${Number(leadM.toFixed(2))} m taken out.` : '.');
   return ctx.sequelize.transaction(async (transaction) => {
+    await stillListed(traceId, transaction);
     const pending = await CableCalibration.findOne({ where: { traceId, status: 'pending' }, attributes: ['id'], transaction });
     if (pending) throw AppError.conflict('calibration_pending', `Calibration #${pending.id} from this trace is already waiting for review.`);
     const calibration = await submitCalibration(
