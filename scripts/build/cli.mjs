@@ -6,6 +6,7 @@
 import fs from 'node:fs';
 import { createRequire } from 'node:module';
 import path from 'node:path';
+import { newest } from './newest.mjs';
 import { fileURLToPath } from 'node:url';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
@@ -23,19 +24,6 @@ const sources = [
   'scripts/build/cli-build.mjs',
   'package-lock.json',
 ];
-
-function newest(p) {
-  let st;
-  try {
-    st = fs.statSync(p);
-  } catch {
-    return 0;
-  }
-  if (!st.isDirectory()) return st.mtimeMs;
-  let m = 0;
-  for (const e of fs.readdirSync(p)) m = Math.max(m, newest(path.join(p, e)));
-  return m;
-}
 
 let builtAt = 0;
 try {

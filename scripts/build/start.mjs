@@ -4,24 +4,12 @@
 import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
+import { newest } from './newest.mjs';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 const outputs = ['dist/client/index.html', 'dist/server/index.js', 'dist/server/analysis-worker.js'];
 const sources = ['src', 'server', 'shared', 'public', 'index.html', 'vite.config.ts', 'package.json', 'package-lock.json'];
-
-function newest(p) {
-  let st;
-  try {
-    st = fs.statSync(p);
-  } catch {
-    return 0;
-  }
-  if (!st.isDirectory()) return st.mtimeMs;
-  let m = 0;
-  for (const e of fs.readdirSync(p)) m = Math.max(m, newest(path.join(p, e)));
-  return m;
-}
 
 function builtAt() {
   let oldest = Infinity;

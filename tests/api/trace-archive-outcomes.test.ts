@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Trace } from '../../server/db/models';
-import { makeRun, stepTraceCsv } from './support/field-fixtures';
+import { makeRun, uploadStepTrace } from './support/field-fixtures';
 import { startApi, type Client, type TestApi } from './support/api';
 
 // A trace whose far end was recorded as the run's measured length, or from which a field calibration
@@ -18,14 +18,7 @@ beforeAll(async () => {
 });
 afterAll(() => api.close());
 
-type Ev = { index: number; distanceM: number; likelyMultipleOf: number | null };
-
-async function upload(faultM: number) {
-  const res = await tech.postRaw('/api/traces').field('cableRunId', String(runId)).field('end', 'A').attach('file', Buffer.from(stepTraceCsv({ faultM, vf: 0.66 })), `end-${faultM}.csv`).expect(201);
-  const t = res.body.traces[0] as { id: number; analysis: { events: Ev[] } };
-  const far = t.analysis.events.filter((e) => e.likelyMultipleOf === null).reduce((a, b) => (b.distanceM > a.distanceM ? b : a));
-  return { id: t.id, far };
-}
+const upload = (faultM: number) => uploadStepTrace(tech, runId, faultM);
 
 describe('archiving a trace something was recorded from', () => {
   it('is refused once its far end is recorded as the measured length, and the trace stays listed', async () => {
@@ -33,7 +26,9 @@ describe('archiving a trace something was recorded from', () => {
     await tech.post(`/api/traces/${t.id}/healthy`, { eventIndex: t.far.index }).expect(201);
     const res = await tech.post(`/api/traces/${t.id}/archive`, { reason: 'Looks like junk' }).expect(409);
     expect(res.body.error.code).toBe('has_outcomes');
-    expect(res.body.error.message).toBe(`Trace ${t.id} holds a recorded outcome (far end of a healthy cable), so it stays in the lists as part of that record.`);
+    expect(res.body.error.message).toBe(
+      `Trace ${t.id} holds a recorded outcome (far end of a healthy cable), so it stays in the lists as part of that record.`,
+    );
     expect((await Trace.findByPk(t.id))!.archivedAt).toBeNull();
   });
 
@@ -41,6 +36,8 @@ describe('archiving a trace something was recorded from', () => {
     const t = await upload(170);
     await tech.post(`/api/traces/${t.id}/calibration`, { eventIndex: t.far.index, knownLengthM: 170 }).expect(201);
     const res = await tech.post(`/api/traces/${t.id}/archive`, { reason: 'Looks like junk' }).expect(409);
-    expect(res.body.error.message).toBe(`Trace ${t.id} holds a recorded outcome (field calibration filed), so it stays in the lists as part of that record.`);
+    expect(res.body.error.message).toBe(
+      `Trace ${t.id} holds a recorded outcome (field calibration filed), so it stays in the lists as part of that record.`,
+    );
   });
 });

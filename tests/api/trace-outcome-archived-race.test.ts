@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableCalibration, Trace, TraceOutcome } from '../../server/db/models';
-import { makeRun, stepTraceCsv } from './support/field-fixtures';
+import { makeRun, uploadStepTrace } from './support/field-fixtures';
 import { startApi, type Client, type TestApi } from './support/api';
 
 // The far end of a healthy cable, or a calibration, recorded from a trace that someone archived as junk
@@ -18,14 +18,7 @@ beforeAll(async () => {
 });
 afterAll(() => api.close());
 
-type Ev = { index: number; distanceM: number; likelyMultipleOf: number | null };
-
-async function upload(faultM: number) {
-  const res = await tech.postRaw('/api/traces').field('cableRunId', String(runId)).field('end', 'A').attach('file', Buffer.from(stepTraceCsv({ faultM, vf: 0.66 })), `end-${faultM}.csv`).expect(201);
-  const t = res.body.traces[0] as { id: number; analysis: { events: Ev[] } };
-  const far = t.analysis.events.filter((e) => e.likelyMultipleOf === null).reduce((a, b) => (b.distanceM > a.distanceM ? b : a));
-  return { id: t.id, far };
-}
+const upload = (faultM: number) => uploadStepTrace(tech, runId, faultM);
 
 /** Archive the trace right after the request's first read of it, as a second person's archive would land. */
 async function archivedAfterFirstRead<T>(traceId: number, request: () => Promise<T>): Promise<T> {
@@ -48,13 +41,18 @@ describe('recording from a trace archived meanwhile', () => {
     const t = await upload(160);
     const res = await archivedAfterFirstRead(t.id, () => tech.post(`/api/traces/${t.id}/healthy`, { eventIndex: t.far.index }));
     expect(res.status).toBe(422);
-    expect(res.body.error).toMatchObject({ code: 'trace_archived', message: `Trace ${t.id} is archived: an administrator restores it before anything is recorded from it.` });
+    expect(res.body.error).toMatchObject({
+      code: 'trace_archived',
+      message: `Trace ${t.id} is archived: an administrator restores it before anything is recorded from it.`,
+    });
     expect(await TraceOutcome.count({ where: { traceId: t.id } })).toBe(0);
   });
 
   it('files no calibration', async () => {
     const t = await upload(150);
-    const res = await archivedAfterFirstRead(t.id, () => tech.post(`/api/traces/${t.id}/calibration`, { eventIndex: t.far.index, knownLengthM: 150 }));
+    const res = await archivedAfterFirstRead(t.id, () =>
+      tech.post(`/api/traces/${t.id}/calibration`, { eventIndex: t.far.index, knownLengthM: 150 }),
+    );
     expect(res.status).toBe(422);
     expect(res.body.error.code).toBe('trace_archived');
     expect(await TraceOutcome.count({ where: { traceId: t.id } })).toBe(0);

@@ -29,7 +29,7 @@ function freshCheckout(): string {
   mkdirSync(join(dir, 'scripts/build'), { recursive: true });
   for (const e of readdirSync(join(root, 'scripts')))
     if (e !== 'build') symlinkSync(join(root, 'scripts', e), join(dir, 'scripts', e));
-  for (const f of ['cli.mjs', 'cli-build.mjs']) copyFileSync(join(root, 'scripts/build', f), join(dir, 'scripts/build', f));
+  for (const f of ['cli.mjs', 'cli-build.mjs', 'newest.mjs']) copyFileSync(join(root, 'scripts/build', f), join(dir, 'scripts/build', f));
   return dir;
 }
 
