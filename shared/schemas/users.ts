@@ -28,7 +28,7 @@ export const CreateUserSchema = z.object({
   email: emailSchema,
   name: oneLine(z.string({ error: 'is required' }).trim().min(1, 'is required').max(120)),
   role: z.enum(ROLES, { error: `must be one of ${ROLES.join(', ')}` }),
-  phone: z.string().trim().max(40).optional(),
+  phone: oneLine(z.string().trim().max(40)).optional(),
 });
 
 export const UpdateUserSchema = z
@@ -36,7 +36,7 @@ export const UpdateUserSchema = z
     name: oneLine(z.string().trim().min(1, 'is required').max(120)),
     role: z.enum(ROLES, { error: `must be one of ${ROLES.join(', ')}` }),
     active: z.boolean({ error: 'must be true or false' }),
-    phone: z.string().trim().max(40).nullable(),
+    phone: oneLine(z.string().trim().max(40)).nullable(),
   })
   .partial()
   .refine((v) => Object.keys(v).length > 0, 'give at least one field to change');

@@ -60,6 +60,9 @@ describe('names, titles and labels are one line', () => {
 
     refusedOn(await admin.post('/api/users', { email: 'nl@example.com', name: 'Nia\nLane', role: 'technician' }), 'name');
     refusedOn(await admin.patch(`/api/users/${api.users.technician.id}`, { name: 'Tess\u0007Tech' }), 'name');
+    // A phone number is one line too: a line break or tab in one is a typing slip, not part of a number.
+    refusedOn(await admin.post('/api/users', { email: 'np@example.com', name: 'Nia Park', role: 'technician', phone: '0100 555\n0199' }), 'phone');
+    refusedOn(await admin.patch(`/api/users/${api.users.technician.id}`, { phone: '0100\r555 0199' }), 'phone');
 
     const cable = { name: 'RG-6\nfoam', construction: 'coax', dielectric: 'foam PE', z0Ohm: 75, vf: 0.85, vfTolerance: 0.02, vfSource: 'handbook', vfReference: 'Foam PE, from the\nmaker\'s sheet' };
     refusedOn(await planner.post('/api/cables', cable), 'name');
