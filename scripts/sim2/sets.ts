@@ -23,7 +23,8 @@ export type SetName =
   | 'tuning4'
   | 'heldout6'
   | 'heldout7'
-  | 'heldout8';
+  | 'heldout8'
+  | 'heldout9';
 
 const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   tuning: { seed: 0x51a7e, count: 80 },
@@ -49,6 +50,8 @@ const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   heldout7: { seed: 0xb1176e92, count: 120 },
   // An eighth, drawn after the seventh had been run once on the final engine of its round, before this round's engine changes: the same rules apply.
   heldout8: { seed: 0x3f09f272, count: 120 },
+  // A ninth, drawn after the eighth had been run once on the final engine of its round, for the next round: the same rules apply.
+  heldout9: { seed: 0x00646396, count: 120 },
 };
 
 /** Seed of case i of a set: a splitmix-style scramble of the set's seed and the index. */
