@@ -236,6 +236,13 @@ function strongestCandidates(all: Candidate[], warnings: TraceWarning[]): Candid
   return kept;
 }
 
+/** An event's ρ as read at the instrument, before the corrections for what stands in front of it. */
+const rawRho = (e: ReflectionEvent) => e.reflectionCoefficientRaw ?? e.reflectionCoefficient;
+
+/** Index of the first short among the events that are not echoes (ρ read at or below SHORT_MAX_RHO), or −1. */
+const firstShortIndex = (events: readonly ReflectionEvent[]) =>
+  events.findIndex((e) => e.likelyMultipleOf === null && rawRho(e) <= SHORT_MAX_RHO);
+
 /**
  * A step reading no line can give: a total reflection (a short, ρ ≤ −0.8 read at the instrument)
  * followed by a strong event that is no echo. A short returns the whole wave, so what lies beyond it
@@ -244,9 +251,8 @@ function strongestCandidates(all: Candidate[], warnings: TraceWarning[]): Candid
  */
 export function impossibleStepReading(a: TraceAnalysis, strong = 0.3): boolean {
   if (a.mode !== 'step') return false;
-  const raw = (e: ReflectionEvent) => e.reflectionCoefficientRaw ?? e.reflectionCoefficient;
-  const k = a.events.findIndex((e) => e.likelyMultipleOf === null && raw(e) <= SHORT_MAX_RHO);
-  return k >= 0 && a.events.some((e, j) => j > k && e.likelyMultipleOf === null && Math.abs(raw(e)) >= strong);
+  const k = firstShortIndex(a.events);
+  return k >= 0 && a.events.some((e, j) => j > k && e.likelyMultipleOf === null && Math.abs(rawRho(e)) >= strong);
 }
 
 /**
@@ -263,17 +269,16 @@ const PAST_SHORT_MIN = 0.05;
  * than that is no step record's, however small beside the launch.
  */
 function lineSeenPastShort(events: readonly ReflectionEvent[]): boolean {
-  const raw = (e: ReflectionEvent) => e.reflectionCoefficientRaw ?? e.reflectionCoefficient;
-  const k = events.findIndex((e) => e.likelyMultipleOf === null && raw(e) <= SHORT_MAX_RHO);
+  const k = firstShortIndex(events);
   if (k < 0) return false;
   const short = events[k];
-  const beyond = (1 - Math.min(1, Math.abs(raw(short)))) ** 2;
+  const beyond = (1 - Math.min(1, Math.abs(rawRho(short)))) ** 2;
   return events.some(
     (e, j) =>
       j > k &&
       e.likelyMultipleOf === null &&
       e.distanceM > short.distanceM + 2 * short.uncertaintyM &&
-      Math.abs(raw(e)) > Math.max(PAST_SHORT_MIN, beyond),
+      Math.abs(rawRho(e)) > Math.max(PAST_SHORT_MIN, beyond),
   );
 }
 
@@ -375,8 +380,7 @@ function stepIntoShort(
 
 /** Where the first short among the events (no echo) has settled: its edge's onset plus three of its rise times, or null. */
 function shortEnd(events: readonly ReflectionEvent[], merged: readonly Measured[], tb: Timebase): number | null {
-  const raw = (e: ReflectionEvent) => e.reflectionCoefficientRaw ?? e.reflectionCoefficient;
-  const short = events.find((e) => e.likelyMultipleOf === null && raw(e) <= SHORT_MAX_RHO);
+  const short = events[firstShortIndex(events)];
   if (short === undefined) return null;
   const dtNs = tb.rec.dt * 1e9;
   const m = merged.find((x) => Math.abs(roundTripSamples(tb, x) * dtNs - short.roundTripNs) < 1e-6 * Math.max(1, dtNs));
@@ -504,10 +508,9 @@ function analyzeOnce(
  * read larger is the launch's own ringing or a misread scale, not a reflection.
  */
 export function dropOverUnity(events: ReflectionEvent[], bound = 2): TraceWarning[] {
-  const raw = (e: ReflectionEvent) => e.reflectionCoefficientRaw ?? e.reflectionCoefficient;
   const dropped = new Set<number>();
   for (const e of events) {
-    if (Math.abs(raw(e)) > bound || (e.likelyMultipleOf !== null && dropped.has(e.likelyMultipleOf))) dropped.add(e.index);
+    if (Math.abs(rawRho(e)) > bound || (e.likelyMultipleOf !== null && dropped.has(e.likelyMultipleOf))) dropped.add(e.index);
   }
   if (dropped.size === 0) return [];
   const kept = events.filter((e) => !dropped.has(e.index));
