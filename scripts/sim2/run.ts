@@ -33,6 +33,7 @@ const SET_NAMES: readonly string[] = [
   'heldout7',
   'heldout8',
   'heldout9',
+  'check',
 ];
 if (!setName || !SET_NAMES.includes(setName)) {
   process.stderr.write(`usage: run.ts --set ${SET_NAMES.join('|')} [--json] [--quiet] [--only TEXT] [--no-loss]\n`);

@@ -24,7 +24,8 @@ export type SetName =
   | 'heldout6'
   | 'heldout7'
   | 'heldout8'
-  | 'heldout9';
+  | 'heldout9'
+  | 'check';
 
 const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   tuning: { seed: 0x51a7e, count: 80 },
@@ -52,6 +53,9 @@ const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   heldout8: { seed: 0x3f09f272, count: 120 },
   // A ninth, drawn after the eighth had been run once on the final engine of its round, for the next round: the same rules apply.
   heldout9: { seed: 0x00646396, count: 120 },
+  // A check set for judging each engine change during a round, so a change that helps only the cases it was
+  // tuned on shows up before the held-out run: its summary lines may be read, its cases never printed or inspected.
+  check: { seed: 0x7c4a9e31, count: 120 },
 };
 
 /** Seed of case i of a set: a splitmix-style scramble of the set's seed and the index. */
