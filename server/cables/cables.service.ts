@@ -221,9 +221,10 @@ export async function updateCable(
   // runs write transactions one at a time), so changes made at once apply one after another and each
   // history row says what it really changed from.
   if (!transaction) return CableType.sequelize!.transaction((t) => updateCable(id, input, by, t));
-  const { reason, ...given } = input;
+  const { reason, basedOn, ...given } = input;
   const cable = await CableType.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
   if (!cable) throw AppError.notFound(`Cable type ${id}`);
+  if (basedOn) await assertNotChangedMeanwhile(cable, basedOn, Object.keys(given), transaction);
   const patch = lossPatch(cable, given);
   const changes = diffCable(cable, patch);
   if (changes.length === 0) {
@@ -236,6 +237,31 @@ export async function updateCable(
   await cable.update({ ...patch, revision: bump ? cable.revision + 1 : cable.revision }, { transaction });
   await record(cable, by.kind ?? 'update', changes, reason, by.userId, transaction, by.calibrationId ?? null);
   return { cable: cableView(cable), changes };
+}
+
+/**
+ * Refuses a change (409) where a field it sets was changed by someone else after the editor read it: the stored
+ * value is no longer the one the editor started from. Saving would overwrite their value unseen. Fields the
+ * change does not set, or that still hold the starting value, merge as usual.
+ */
+async function assertNotChangedMeanwhile(cable: CableType, basedOn: Partial<CableTypeInput>, setting: string[], transaction: Transaction) {
+  const stale = diffCable(cable, basedOn).filter((c) => setting.includes(c.field));
+  if (stale.length === 0) return;
+  const last = await CableTypeChange.findOne({
+    where: { cableTypeId: cable.id },
+    order: [['id', 'DESC']],
+    include: [{ association: 'changedBy', attributes: ['name'] }],
+    transaction,
+  });
+  const who = (last as unknown as { changedBy?: { name: string } | null })?.changedBy?.name;
+  const byWhom = last ? ` (last saved${who ? ` by ${who}` : ''} at ${last.createdAt.toISOString()})` : '';
+  const shown = (v: string | number | null) => (v === null ? 'empty' : String(v));
+  throw new AppError(
+    409,
+    'changed_meanwhile',
+    `Someone else changed ${stale.map((c) => c.field).join(', ')} after you opened this entry${byWhom}. Nothing was saved: open the entry again to see the current values, then make your change.`,
+    { fields: stale.map((c) => ({ field: c.field, message: `is now ${shown(c.from)}; you started from ${shown(c.to)}` })) },
+  );
 }
 
 function unpaired(missing: 'attenuationDbPer100m' | 'attenuationFreqMhz'): AppError {

@@ -133,9 +133,15 @@ export const CableTypeUpdateSchema = z
     ...cableFields,
   })
   .partial()
-  .extend({ reason: reasonSchema })
+  .extend({
+    reason: reasonSchema,
+    // The values the editor started from, for the fields it changes: where the stored value has moved on since
+    // (someone else saved meanwhile), the change is refused with 409 rather than overwriting theirs unseen.
+    // Fields nobody else touched merge. Optional, so a script that sends no snapshot still works.
+    basedOn: z.object(cableFields).partial().strict().optional(),
+  })
   // Attenuation and its frequency are checked against the stored entry by the service: a change may give one of them.
-  .refine((v) => Object.keys(v).some((k) => k !== 'reason'), { message: 'give at least one field to change', path: ['(body)'] });
+  .refine((v) => Object.keys(v).some((k) => k !== 'reason' && k !== 'basedOn'), { message: 'give at least one field to change', path: ['(body)'] });
 export type CableTypeUpdate = z.output<typeof CableTypeUpdateSchema>;
 
 export const CABLE_SORTS = ['name', 'construction', 'dielectric', 'z0Ohm', 'vf', 'vfSource', 'updatedAt'] as const;

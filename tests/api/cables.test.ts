@@ -146,6 +146,28 @@ describe('PATCH /api/cables/:id', () => {
     expect(final.revision).toBe(7);
   });
 
+  it('refuses a change to a value someone else changed after the editor opened the entry, and merges other fields', async () => {
+    const { body: c } = await planner.post('/api/cables', solidPe('Two planners coax')).expect(201);
+    const other = await api.as('planner');
+    // Both open the entry at VF 0.66 and note "x"; the other planner saves first.
+    await other.patch(`/api/cables/${c.id}`, { vf: 0.67, reason: 'yard check', basedOn: { vf: 0.66 } }).expect(200);
+    const late = await planner.patch(`/api/cables/${c.id}`, { vf: 0.68, reason: 'my check', basedOn: { vf: 0.66 } }).expect(409);
+    expect(late.body.error.code).toBe('changed_meanwhile');
+    expect(late.body.error.fields).toEqual([{ field: 'vf', message: 'is now 0.67; you started from 0.66' }]);
+    expect(late.body.error.message).toMatch(/Someone else changed vf after you opened this entry \(last saved by .+ at \d{4}-\d\d-\d\dT/);
+    let now = (await planner.get(`/api/cables/${c.id}`).expect(200)).body;
+    expect(now.vf).toBe(0.67);
+    expect(now.revision).toBe(2);
+    // A field the other planner did not touch merges; starting again from the saved value goes through.
+    await planner.patch(`/api/cables/${c.id}`, { vfTolerance: 0.03, reason: 'wider', basedOn: { vfTolerance: 0.02 } }).expect(200);
+    await planner.patch(`/api/cables/${c.id}`, { vf: 0.68, reason: 'my check', basedOn: { vf: 0.67 } }).expect(200);
+    now = (await planner.get(`/api/cables/${c.id}`).expect(200)).body;
+    expect([now.vf, now.vfTolerance, now.revision]).toEqual([0.68, 0.03, 4]);
+    // The snapshot names only fields of the library.
+    const bad = await planner.patch(`/api/cables/${c.id}`, { vf: 0.69, reason: 'x y z', basedOn: { velocity: 0.68 } }).expect(400);
+    expect(bad.body.error.fields[0].field).toMatch(/^basedOn/);
+  });
+
   it('answers 422 when nothing would change, and 404 for an unknown entry', async () => {
     const { body: c } = await planner.post('/api/cables', solidPe('Same again coax')).expect(201);
     const res = await planner.patch(`/api/cables/${c.id}`, { vf: 0.66, reason: 'no-op' }).expect(422);

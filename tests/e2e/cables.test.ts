@@ -51,6 +51,60 @@ describe('the cable library in the browser', () => {
     await page.close();
   });
 
+  it('keeps a planner from overwriting a VF someone else saved while the form was open', async () => {
+    const page = await e2e.newPage(DESKTOP);
+    await signIn(page, e2e.baseUrl, PLANNER);
+    await page.getByTestId('signed-in-name').first().waitFor();
+    // An entry of this test's own, so the other tests' edits do not matter.
+    const id = await page.evaluate(async () => {
+      const csrf = (await (await fetch('/api/auth/csrf')).json()).csrfToken as string;
+      const res = await fetch('/api/cables', {
+        method: 'POST',
+        headers: { 'content-type': 'application/json', 'x-csrf-token': csrf },
+        body: JSON.stringify({
+          name: 'Foam PE drop coax, 75 Ω',
+          construction: 'coax',
+          dielectric: 'foamed polyethylene',
+          z0Ohm: 75,
+          vf: 0.82,
+          vfTolerance: 0.02,
+          vfSource: 'handbook',
+          vfReference: 'Foamed PE, typical VF 0.80–0.85 (common practice)',
+        }),
+      });
+      return ((await res.json()) as { id: number }).id;
+    });
+    await page.goto(`${e2e.baseUrl}/cables/${id}`);
+    await page.getByRole('button', { name: 'Edit' }).click();
+    const form = page.getByRole('form', { name: 'Edit Foam PE drop coax, 75 Ω' });
+    await form.getByLabel('Velocity factor').fill('0.83');
+    await form.getByLabel('Reason for the change').fill('Yard drum, 200 m');
+
+    // Meanwhile another planner saves VF 0.84.
+    await page.evaluate(async (cableId) => {
+      const csrf = (await (await fetch('/api/auth/csrf')).json()).csrfToken as string;
+      await fetch(`/api/cables/${cableId}`, {
+        method: 'PATCH',
+        headers: { 'content-type': 'application/json', 'x-csrf-token': csrf },
+        body: JSON.stringify({ vf: 0.84, reason: 'Second drum' }),
+      });
+    }, id);
+    await form.getByRole('button', { name: 'Save the change' }).click();
+    await page.getByText('Your change was not saved: someone else saved this entry after you opened it.').waitFor();
+    await page.getByText('is now 0.84; you started from 0.82').waitFor();
+    // Their change shows in the history beside the open form.
+    await page.getByTestId('history-entry').first().getByText('Second drum').waitFor();
+    await e2e.screenshot(page, 'cable-entry-changed-meanwhile');
+    // The refused change is still in the form, so nothing typed is lost before starting again.
+    expect(await form.getByLabel('Velocity factor').inputValue()).toBe('0.83');
+    await page.getByRole('button', { name: 'Start again from the saved values' }).click();
+    await page.getByText('Your change was not saved').waitFor({ state: 'detached' });
+    expect(await form.getByLabel('Velocity factor').inputValue()).toBe('0.84');
+    const stored = await page.evaluate(async (cableId) => ((await (await fetch(`/api/cables/${cableId}`)).json()) as { vf: number }).vf, id);
+    expect(stored).toBe(0.84);
+    await page.close();
+  });
+
   it('does not let a technician edit, but lets them send a calibration', async () => {
     const page = await e2e.newPage(PHONE);
     await signIn(page, e2e.baseUrl, TECH);

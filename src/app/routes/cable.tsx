@@ -1,11 +1,13 @@
 import { useState, type ReactNode } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { roundTripFromDistance } from '../../../shared/cable/propagation';
+import type { CableTypeView } from '../../../shared/schemas/cables';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
 import { ErrorNotice, Loading, Notice } from '../../components/ui/notice';
 import { StatusBadge } from '../../components/ui/status-badge';
 import { useSession } from '../../features/auth/use-session';
+import { ApiError } from '../../lib/api-client';
 import { useCable } from '../../features/cables/api/get-cable';
 import { useCableCalibrations } from '../../features/cables/api/get-cable-calibrations';
 import { useCableHistory } from '../../features/cables/api/get-cable-history';
@@ -58,7 +60,11 @@ export function CablePage() {
   const history = useCableHistory(id);
   const calibrations = useCableCalibrations(id);
   const update = useUpdateCable();
-  const [editing, setEditing] = useState(false);
+  // The entry as it stood when editing began: the change is computed against it and sent with it, so a save
+  // made by someone else meanwhile is neither overwritten unseen nor wiped from the open form by a refetch.
+  const [editFrom, setEditFrom] = useState<CableTypeView | null>(null);
+  const editing = editFrom !== null;
+  const setEditing = (on: boolean) => setEditFrom(on && cable.data ? cable.data : null);
   const [nothingChanged, setNothingChanged] = useState(false);
 
   if (!Number.isInteger(id) || id <= 0) return <NotFoundPage />;
@@ -87,23 +93,39 @@ export function CablePage() {
           <Card title={editing ? 'Edit the entry' : 'Values'}>
             {editing ? (
               <>
+                {update.error instanceof ApiError && update.error.code === 'changed_meanwhile' && (
+                  <Notice tone="warn" className="mb-3">
+                    <span className="block">Your change was not saved: someone else saved this entry after you opened it.</span>
+                    <Button
+                      className="mt-2"
+                      onClick={async () => {
+                        const now = await cable.refetch();
+                        if (now.data) setEditFrom(now.data);
+                        update.reset();
+                      }}
+                    >
+                      Start again from the saved values
+                    </Button>
+                  </Notice>
+                )}
                 {nothingChanged && (
                   <Notice tone="warn" className="mb-3">
                     Nothing changed: every value is the one already stored.
                   </Notice>
                 )}
                 <CableForm
-                  key={c.updatedAt}
+                  key={editFrom.updatedAt}
                   unit={unit}
-                  cable={c}
+                  cable={editFrom}
                   pending={update.isPending}
                   error={update.error}
                   submitLabel="Save the change"
                   onCancel={() => setEditing(false)}
                   onSubmit={(values, reason) => {
-                    const patch = changedFields(c, values);
+                    const patch = changedFields(editFrom, values);
                     if (Object.keys(patch).length === 0) return setNothingChanged(true);
-                    update.mutate({ id: c.id, ...patch, reason }, { onSuccess: () => setEditing(false) });
+                    const basedOn = Object.fromEntries(Object.keys(patch).map((k) => [k, editFrom[k as keyof typeof patch]]));
+                    update.mutate({ id: c.id, ...patch, reason, basedOn }, { onSuccess: () => setEditing(false) });
                   }}
                 />
               </>
