@@ -19,6 +19,8 @@ const dueDate = z
   .string({ error: 'must be a date (YYYY-MM-DD)' })
   .regex(/^\d{4}-\d{2}-\d{2}$/, 'must be a date (YYYY-MM-DD)')
   .refine((v) => !Number.isNaN(Date.parse(`${v}T00:00:00Z`)) && new Date(`${v}T00:00:00Z`).toISOString().startsWith(v), 'is not a real date')
+  // A repair due more than five years out is a slip of the keyboard (9999-12-31), not a plan.
+  .refine((v) => Date.parse(`${v}T00:00:00Z`) <= Date.now() + 5 * 366 * 86_400_000, 'is more than five years ahead')
   .nullish()
   .transform((v) => v ?? null);
 const priority = z.enum(TICKET_PRIORITIES, { error: `must be one of ${TICKET_PRIORITIES.join(', ')}` });

@@ -90,6 +90,8 @@ describe('repair tickets', () => {
     expect(empty.body.error.fields.map((f: { field: string }) => f.field).sort()).toEqual(['dueDate', 'findingIds']);
     const past = await sup.post('/api/tickets', { findingIds: [other.id], dueDate: '2020-01-01' }).expect(400);
     expect(past.body.error.fields).toEqual([{ field: 'dueDate', message: 'is in the past' }]);
+    const far = await sup.post('/api/tickets', { findingIds: [other.id], dueDate: '9999-12-31' }).expect(400);
+    expect(far.body.error.fields).toEqual([{ field: 'dueDate', message: 'is more than five years ahead' }]);
     expect(await Ticket.count()).toBe(1);
   });
 
@@ -118,6 +120,8 @@ describe('repair tickets', () => {
       const res = await sup.patch(`/api/tickets/${ticketId}`, { dueDate, priority: 'low' }).expect(400);
       expect(res.body.error.fields).toEqual([{ field: 'dueDate', message: 'is in the past' }]);
     }
+    const far = await sup.patch(`/api/tickets/${ticketId}`, { dueDate: '9999-12-31', priority: 'low' }).expect(400);
+    expect(far.body.error.fields).toEqual([{ field: 'dueDate', message: 'is more than five years ahead' }]);
     expect((await Ticket.findByPk(ticketId))!.get({ plain: true })).toEqual(before);
   });
 
