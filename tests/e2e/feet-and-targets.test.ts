@@ -67,7 +67,7 @@ beforeAll(async () => {
   const t = await supAgent
     .post('/api/tickets')
     .set('x-csrf-token', sup.body.csrfToken)
-    .send({ findingIds: [f.body.id], assigneeId: (await User.findOne({ where: { email: PEOPLE.technician } }))!.id, priority: 'urgent', dueDate: '2031-05-20' })
+    .send({ findingIds: [f.body.id], assigneeId: (await User.findOne({ where: { email: PEOPLE.technician } }))!.id, priority: 'urgent', dueDate: `${new Date().getUTCFullYear() + 1}-05-20` })
     .expect(201);
   crossing = { traceId: trace.id, findingId: f.body.id, ticketId: t.body.id };
 
