@@ -130,6 +130,24 @@ function firstNonUtf8Byte(b: Uint8Array): number {
  * and stored in names and references for good. Refused with the line and the byte.
  */
 export function csvFileText(bytes: Uint8Array): string {
+  // UTF-16 with its byte-order mark (some spreadsheets' "Unicode text") says what it is: read it as such.
+  if (bytes.length >= 2 && ((bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff))) {
+    try {
+      return new TextDecoder(bytes[0] === 0xff ? 'utf-16le' : 'utf-16be', { fatal: true }).decode(bytes.subarray(2));
+    } catch {
+      throw fileError('The file starts as UTF-16 text but holds bytes that are not UTF-16. Save it from the spreadsheet as "CSV UTF-8" and import it again.', 1);
+    }
+  }
+  // A NUL byte is valid UTF-8 but never in a library file: UTF-16 without its mark, or not text at all.
+  const nul = bytes.indexOf(0);
+  if (nul >= 0) {
+    let line = 1;
+    for (let i = 0; i < nul; i++) if (bytes[i] === 0x0a) line++;
+    throw fileError(
+      `Line ${line}: the file holds a NUL byte (0x00), so it is not UTF-8 text: it looks like UTF-16 saved without its byte-order mark, or not a text file at all. Save it from the spreadsheet as "CSV UTF-8" and import it again.`,
+      line,
+    );
+  }
   const bad = firstNonUtf8Byte(bytes);
   if (bad >= 0) {
     const lineStart = bytes.lastIndexOf(0x0a, bad - 1) + 1;

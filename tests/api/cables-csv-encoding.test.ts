@@ -46,6 +46,32 @@ describe('a cable library file that is not UTF-8', () => {
     expect(res.body.error.message).toBe('Line 2: the file is not UTF-8 text (byte 0xED after "RG"). Save it from the spreadsheet as "CSV UTF-8" and import it again.');
   });
 
+  it('reads UTF-16 that carries its byte-order mark, and names UTF-16 without one', async () => {
+    const text = `${HEADER}Câble blindé ß,coax,PE,75,0.82,0.02,handbook,εr ≈ 1.5\n`;
+    const le = Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(text, 'utf16le')]);
+    const be = Buffer.from(le);
+    be.swap16();
+    for (const bytes of [le, be]) {
+      const res = await send('/api/cables/import/preview', bytes).expect(200);
+      expect(res.body.rows.map((r: { name: string; action: string }) => [r.name, r.action])).toEqual([['Câble blindé ß', 'create']]);
+    }
+    const bare = await send('/api/cables/import/preview', Buffer.from(text, 'utf16le')).expect(422);
+    expect(bare.body.error.code).toBe('csv_unreadable');
+    expect(bare.body.error.fields).toEqual([
+      {
+        field: 'file',
+        line: 1,
+        message:
+          'Line 1: the file holds a NUL byte (0x00), so it is not UTF-8 text: it looks like UTF-16 saved without its byte-order mark, or not a text file at all. Save it from the spreadsheet as "CSV UTF-8" and import it again.',
+      },
+    ]);
+    // A lone surrogate (0xD800 with no partner) is not UTF-16.
+    const broken = Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(HEADER, 'utf16le'), Buffer.from([0x00, 0xd8, 0x41, 0x00])]);
+    const res = await send('/api/cables/import/preview', broken).expect(422);
+    expect(res.body.error.message).toContain('holds bytes that are not UTF-16');
+    expect((await planner.get('/api/cables?pageSize=100').expect(200)).body.total).toBe(0);
+  });
+
   it('still reads real UTF-8, with or without a byte-order mark', async () => {
     const text = `${HEADER}Câble blindé ß,coax,PE,75,0.82,0.02,handbook,εr ≈ 1.5\n`;
     for (const bytes of [Buffer.from(text, 'utf8'), Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(text, 'utf8')])]) {
