@@ -150,8 +150,14 @@ export function uniqueConflict(err: UniqueConstraintError): AppError {
   );
 }
 
+/** A compressed request body that zlib could not inflate (gzip, deflate or brotli data that is not). */
+function isDecompressionError(err: unknown): boolean {
+  const code = (err as { code?: unknown })?.code;
+  return typeof code === 'string' && (code.startsWith('Z_') || code.startsWith('ERR_BROTLI') || code.startsWith('ERR__ERROR')) && typeof (err as { status?: unknown }).status === 'number';
+}
+
 export function errorHandler(options: { exposeInternals: boolean; log?: (err: unknown) => void }): ErrorRequestHandler {
-  return (err, _req, res, _next) => {
+  return (err, req, res, _next) => {
     let status = 500;
     let body: { code: string; message: string; [key: string]: unknown };
     if (err instanceof AppError) {
@@ -185,6 +191,21 @@ export function errorHandler(options: { exposeInternals: boolean; log?: (err: un
     } else if ((err as BodyParserError)?.type === 'entity.parse.failed') {
       status = 400;
       body = { code: 'invalid_json', message: 'The request body is not valid JSON.' };
+    } else if ((err as BodyParserError)?.type === 'encoding.unsupported') {
+      status = 415;
+      body = {
+        code: 'body_encoding_unsupported',
+        message: `The request body's Content-Encoding "${String((err as { encoding?: string }).encoding ?? '')}" is not one the server reads: send it uncompressed, or as gzip, deflate or br.`,
+      };
+    } else if ((err as BodyParserError)?.type === 'charset.unsupported') {
+      status = 415;
+      body = { code: 'body_charset_unsupported', message: `The request body's charset "${String((err as { charset?: string }).charset ?? '')}" is not one the server reads: send UTF-8.` };
+    } else if (isDecompressionError(err)) {
+      status = 400;
+      body = {
+        code: 'body_not_decompressed',
+        message: `The request body says it is compressed (Content-Encoding: ${String(req.headers['content-encoding'] ?? '')}) but it could not be decompressed (${(err as Error).message}). Send it uncompressed, or compressed whole.`,
+      };
     } else if ((err as { code?: string })?.code === 'EBADCSRFTOKEN') {
       status = 403;
       body = { code: 'csrf_invalid', message: 'The form has expired or the security token is missing. Reload and try again.' };

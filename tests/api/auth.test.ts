@@ -1,3 +1,4 @@
+import { gzipSync } from 'node:zlib';
 import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Session } from '../../server/db/models';
@@ -153,6 +154,33 @@ describe('POST /api/auth/login', () => {
     const c = await api.anonymous();
     const res = await c.agent.post('/api/auth/login').set('x-csrf-token', c.csrf).set('content-type', 'application/json').send('{"email":').expect(400);
     expect(res.body.error.code).toBe('invalid_json');
+  });
+
+  it('says what is wrong with a compressed body that does not decompress, or an encoding it does not read', async () => {
+    const c = await api.anonymous();
+    const send = (encoding: string, body: Buffer) =>
+      c.agent
+        .post('/api/auth/login')
+        .set('x-csrf-token', c.csrf)
+        .set('content-type', 'application/json')
+        .set('content-encoding', encoding)
+        .serialize((b: unknown) => b as string)
+        .send(body as unknown as string);
+    const notGzip = await send('gzip', Buffer.from('{"email": "a@example.com"}')).expect(400);
+    expect(notGzip.body.error).toEqual({
+      code: 'body_not_decompressed',
+      message: 'The request body says it is compressed (Content-Encoding: gzip) but it could not be decompressed (incorrect header check). Send it uncompressed, or compressed whole.',
+    });
+    const cut = await send('gzip', gzipSync(Buffer.from('{"email": "a@example.com", "password": "x"}')).subarray(0, 20)).expect(400);
+    expect(cut.body.error.message).toContain('(unexpected end of file)');
+    const unknown = await send('compress', Buffer.from('{}')).expect(415);
+    expect(unknown.body.error).toEqual({
+      code: 'body_encoding_unsupported',
+      message: 'The request body\'s Content-Encoding "compress" is not one the server reads: send it uncompressed, or as gzip, deflate or br.',
+    });
+    // A whole gzip body is read as usual: the wrong password is the only complaint.
+    const whole = await send('gzip', gzipSync(Buffer.from(JSON.stringify({ email: 'planner.test@example.com', password: 'not-the-password' })))).expect(401);
+    expect(whole.body.error.code).not.toBe('body_not_decompressed');
   });
 });
 
