@@ -92,7 +92,9 @@ export async function placeEvent(trace: Trace, eventIndex: number) {
 
 export async function recordFinding(ctx: AppContext, input: FindingInput, userId: number): Promise<FindingView> {
   const id = await ctx.sequelize.transaction(async (transaction) => {
-    const trace = await Trace.findByPk(input.traceId, { transaction });
+    // The trace row is held (FOR UPDATE on PostgreSQL; SQLite runs write transactions one at a time) while the
+    // checks run, so an archive made at the same moment waits and then sees the finding, or this sees it archived.
+    const trace = await Trace.findByPk(input.traceId, { transaction, lock: transaction.LOCK.UPDATE });
     if (!trace) {
       throw new AppError(422, 'no_such_trace', `There is no trace ${input.traceId}.`, {
         fields: [{ field: 'traceId', message: `there is no trace ${input.traceId}` }],
