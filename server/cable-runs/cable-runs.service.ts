@@ -83,10 +83,12 @@ async function checkRefs(input: { siteId: number; cableTypeId: number; name: str
     fields.push({ field: 'cableTypeId', message: `there is no cable type ${input.cableTypeId} in the library` });
   }
   // Names are compared as a reader sees them: "Feeder 1" and "feeder 1", "Écluse" and "ÉCLUSE" are one run
-  // (the database's lower() folds ASCII only, so the comparison is made here).
-  const key = nameKey(input.name);
-  const runs = await CableRun.findAll({ where: { siteId: input.siteId }, attributes: ['id', 'name'], transaction });
-  const other = runs.find((r) => r.id !== exceptId && nameKey(r.name) === key);
+  // (the folded form is stored, name_key, under a unique index with the site).
+  const other = await CableRun.findOne({
+    where: { siteId: input.siteId, nameKey: nameKey(input.name), ...(exceptId !== undefined ? { id: { [Op.ne]: exceptId } } : {}) },
+    attributes: ['id', 'name'],
+    transaction,
+  });
   if (other) {
     const as = other.name === input.name ? '' : ` (as "${other.name}")`;
     fields.push({ field: 'name', message: `is already used by another run at this site${as}` });

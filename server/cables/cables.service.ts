@@ -144,8 +144,12 @@ async function assertNameFree(name: string, exceptId: number | null, transaction
   if (transaction && CableType.sequelize!.getDialect() === 'postgres') {
     await CableType.sequelize!.query('LOCK TABLE cable_types IN SHARE ROW EXCLUSIVE MODE', { transaction });
   }
-  const all = await CableType.findAll({ attributes: ['id', 'name'], transaction });
-  const other = all.find((c) => c.id !== exceptId && cableNameKey(c.name) === key);
+  // One lookup in the unique index of the stored folded names (name_key).
+  const other = await CableType.findOne({
+    where: { nameKey: key, ...(exceptId !== null ? { id: { [Op.ne]: exceptId } } : {}) },
+    attributes: ['id', 'name'],
+    transaction,
+  });
   if (other) {
     throw new AppError(409, 'name_taken', `The library already has a cable type named "${other.name}".`, {
       fields: [{ field: 'name', message: 'is already in the library' }],

@@ -80,7 +80,7 @@ export async function getSite(id: number): Promise<SiteSummary> {
 /**
  * A site's name is free unless another site has it as a reader sees it: ignoring case in every
  * script, Unicode form and runs of spaces ("North Yard" and "north yard", "Écluse" and "écluse" are
- * one place to a reader). The database's lower() folds ASCII only, so the names are compared here.
+ * one place to a reader). The folded form is stored (name_key) under a unique index.
  */
 async function nameFree(name: string, exceptId?: number, transaction?: Transaction) {
   // PostgreSQL runs transactions side by side: hold off other writers of sites until this one
@@ -88,9 +88,12 @@ async function nameFree(name: string, exceptId?: number, transaction?: Transacti
   if (transaction && Site.sequelize!.getDialect() === 'postgres') {
     await Site.sequelize!.query('LOCK TABLE sites IN SHARE ROW EXCLUSIVE MODE', { transaction });
   }
-  const key = nameKey(name);
-  const all = await Site.findAll({ attributes: ['id', 'name'], transaction });
-  const other = all.find((s) => s.id !== exceptId && nameKey(s.name) === key);
+  // One lookup in the unique index of the stored folded names.
+  const other = await Site.findOne({
+    where: { nameKey: nameKey(name), ...(exceptId !== undefined ? { id: { [Op.ne]: exceptId } } : {}) },
+    attributes: ['id', 'name'],
+    transaction,
+  });
   if (other) {
     const same = other.name === name ? '' : ` (as "${other.name}")`;
     throw new AppError(409, 'site_name_taken', `There is already a site called "${name}"${same}.`, {

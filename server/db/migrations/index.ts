@@ -19,6 +19,7 @@ import * as m0016 from './0016-shared-limits-and-cable-reanalysis';
 import * as m0017 from './0017-background-analysis';
 import * as m0018 from './0018-findings-text-index';
 import * as m0019 from './0019-trace-reference-index';
+import * as m0020 from './0020-name-keys';
 
 export type Migration = MigrationFn<QueryInterface>;
 
@@ -46,6 +47,7 @@ const MIGRATIONS: Array<{ name: string; up: Migration; down: Migration }> = [
   { name: '0017-background-analysis', ...m0017 },
   { name: '0018-findings-text-index', ...m0018 },
   { name: '0019-trace-reference-index', ...m0019 },
+  { name: '0020-name-keys', ...m0020 },
 ];
 
 export function migrator(sequelize: Sequelize) {

@@ -7,6 +7,7 @@ import {
   type NonAttribute,
   type Sequelize,
 } from 'sequelize';
+import { keepNameKey } from '../name-key';
 import type { CableType } from './cable-type';
 import type { RouteMarker } from './route-marker';
 import type { Site } from './site';
@@ -16,6 +17,8 @@ export class CableRun extends Model<InferAttributes<CableRun>, InferCreationAttr
   declare id: CreationOptional<number>;
   declare siteId: number;
   declare name: string;
+  /** The name as a reader sees it (nameKey), kept by a hook; unique within its scope. */
+  declare nameKey: CreationOptional<string>;
   declare cableTypeId: number;
   declare endALabel: string;
   declare endBLabel: string;
@@ -35,6 +38,7 @@ export function initCableRun(sequelize: Sequelize) {
       id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
       siteId: { type: DataTypes.INTEGER, allowNull: false },
       name: { type: DataTypes.STRING(120), allowNull: false },
+      nameKey: { type: DataTypes.STRING(480), allowNull: true },
       cableTypeId: { type: DataTypes.INTEGER, allowNull: false },
       endALabel: { type: DataTypes.STRING(120), allowNull: false },
       endBLabel: { type: DataTypes.STRING(120), allowNull: false },
@@ -45,4 +49,5 @@ export function initCableRun(sequelize: Sequelize) {
     },
     { sequelize, tableName: 'cable_runs', modelName: 'CableRun', underscored: true },
   );
+  keepNameKey(CableRun);
 }

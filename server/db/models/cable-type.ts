@@ -6,6 +6,7 @@ import {
   type InferCreationAttributes,
   type Sequelize,
 } from 'sequelize';
+import { keepNameKey } from '../name-key';
 
 import type { AttenuationPoint, Construction, PulseVf, VfSource } from '../../../shared/schemas/cables';
 
@@ -15,6 +16,8 @@ export { CONSTRUCTIONS, VF_SOURCES, type Construction, type VfSource } from '../
 export class CableType extends Model<InferAttributes<CableType>, InferCreationAttributes<CableType>> {
   declare id: CreationOptional<number>;
   declare name: string;
+  /** The name as a reader sees it (nameKey), kept by a hook; unique within its scope. */
+  declare nameKey: CreationOptional<string>;
   declare construction: Construction;
   declare dielectric: string;
   declare z0Ohm: number;
@@ -74,6 +77,7 @@ export function initCableType(sequelize: Sequelize) {
     {
       id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
       name: { type: DataTypes.STRING(120), allowNull: false, unique: true },
+      nameKey: { type: DataTypes.STRING(480), allowNull: true },
       construction: { type: DataTypes.STRING(20), allowNull: false },
       dielectric: { type: DataTypes.STRING(120), allowNull: false },
       z0Ohm: { type: DataTypes.DOUBLE, allowNull: false },
@@ -99,4 +103,5 @@ export function initCableType(sequelize: Sequelize) {
     },
     { sequelize, tableName: 'cable_types', modelName: 'CableType', underscored: true },
   );
+  keepNameKey(CableType);
 }

@@ -7,12 +7,15 @@ import {
   type NonAttribute,
   type Sequelize,
 } from 'sequelize';
+import { keepNameKey } from '../name-key';
 import type { User } from './user';
 
 /** A place where cables are tested: a substation, a cabinet, a street. */
 export class Site extends Model<InferAttributes<Site>, InferCreationAttributes<Site>> {
   declare id: CreationOptional<number>;
   declare name: string;
+  /** The name as a reader sees it (nameKey), kept by a hook; unique within its scope. */
+  declare nameKey: CreationOptional<string>;
   declare address: string | null;
   declare latitude: number | null;
   declare longitude: number | null;
@@ -27,6 +30,7 @@ export function initSite(sequelize: Sequelize) {
     {
       id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
       name: { type: DataTypes.STRING(120), allowNull: false, unique: true },
+      nameKey: { type: DataTypes.STRING(480), allowNull: true },
       address: { type: DataTypes.STRING(300), allowNull: true },
       latitude: { type: DataTypes.DOUBLE, allowNull: true },
       longitude: { type: DataTypes.DOUBLE, allowNull: true },
@@ -36,4 +40,5 @@ export function initSite(sequelize: Sequelize) {
     },
     { sequelize, tableName: 'sites', modelName: 'Site', underscored: true },
   );
+  keepNameKey(Site);
 }
