@@ -346,10 +346,21 @@ export function analyzeTrace(trace: ParsedTrace, options: AnalyzeOptions): Trace
 }
 
 /**
+ * Does a pulse reading show nothing coming back from the line? Only events inside the launch's blind
+ * zone, or none: what lies there stands out of the launch's own settling, and for a "launch" that is
+ * a step's wave returned whole by a short, that settling is the level past the short (the source's
+ * re-reflection and the line's creep moving it), not an echo of the line.
+ */
+export function nothingReturned(events: readonly ReflectionEvent[]): boolean {
+  return events.every((e) => e.insideBlindZone);
+}
+
+/**
  * A wide launch with nothing after it, read as a pulse, is also a step into a short at the launch's
  * fall (ρ ≈ −1 returns the whole wave and hides the line beyond). Without a stated pulse width, and
- * when the launch fills over WIDE_LAUNCH_SHARE of the record after it, the step reading is given
- * with a warning, provided it holds that short first and nothing a line beyond a short cannot show.
+ * when the launch fills over WIDE_LAUNCH_SHARE of the record after it with nothing returned
+ * (nothingReturned), the step reading is given with a warning, provided it holds that short first
+ * and nothing a line beyond a short cannot show.
  */
 function stepIntoShort(
   trace: ParsedTrace,
@@ -358,7 +369,7 @@ function stepIntoShort(
   L: Launch,
   n: number,
 ): TraceAnalysis | null {
-  if (a.mode !== 'pulse' || a.events.length > 0 || !L.found || L.widthSamples === null) return null;
+  if (a.mode !== 'pulse' || !nothingReturned(a.events) || !L.found || L.widthSamples === null) return null;
   if ((options.pulseWidthNs ?? trace.hints.pulseWidthNs) !== undefined) return null;
   if (L.widthSamples < WIDE_LAUNCH_SHARE * (n - L.idx)) return null;
   const { analysis: s, seenPastShort } = analyzeOnce(trace, { ...options, mode: 'step' });
