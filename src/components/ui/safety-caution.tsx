@@ -16,3 +16,16 @@ export function SafetyCaution({ compact = false, className = '' }: { compact?: b
     </aside>
   );
 }
+
+/**
+ * The short caution that stands right under a place to dig, where a phone
+ * shows it long before the page's full safety caution.
+ */
+export function DigCaution({ className = '' }: { className?: string }) {
+  return (
+    <p className={`rounded-md border-l-4 border-warn bg-warn-light px-3 py-2 text-sm text-ink ${className}`} data-testid="dig-caution">
+      Before anyone digs: cable de-energised, locked out and proven dead, stored charge discharged, and other utilities located. Follow local
+      codes and the permit for the work.
+    </p>
+  );
+}

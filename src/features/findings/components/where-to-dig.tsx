@@ -1,5 +1,6 @@
 import { describeCrossings, describeRoutePosition, routePosition, type RoutePosition, type RunLike } from '../../../../shared/field/route-position';
 import type { ReflectionEvent } from '../../../../shared/schemas/trace-analysis';
+import { DigCaution } from '../../../components/ui/safety-caution';
 import { formatLength, formatLengthRange, lengthsInText, type LengthUnit } from '../../../lib/format';
 
 /** Where an event of a trace is on the ground, with the run's markers as they are now. */
@@ -81,6 +82,7 @@ export function DistanceBlock({
       <p className="rounded-md bg-copper-light px-3 py-2 text-lg font-semibold text-ink">
         <RouteSentence pos={pos} storedText={storedText} unit={unit} />
       </p>
+      <DigCaution className="mt-2" />
     </div>
   );
 }

@@ -2,6 +2,7 @@ import { Link } from 'react-router-dom';
 import type { BestLocationView, LocationMethodView } from '../../../../shared/schemas/measurements';
 import { methodShareText, weightText } from '../../../../shared/locate/words';
 import { Notice } from '../../../components/ui/notice';
+import { DigCaution } from '../../../components/ui/safety-caution';
 import { formatLength, formatLengthRange, lengthsInText, type LengthUnit } from '../../../lib/format';
 import { describeCrossings, describeRoutePosition } from '../../../../shared/field/route-position';
 import { GroundLinks } from './ground-links';
@@ -63,11 +64,7 @@ export function BestLocationHeadline({
               )}
             </p>
           )}
-          {/* Beside the place to dig, where a phone shows it long before the page's full safety caution. */}
-          <p className="rounded-md border-l-4 border-warn bg-warn-light px-3 py-2 text-sm text-ink" data-testid="dig-caution">
-            Before anyone digs: cable de-energised, locked out and proven dead, stored charge discharged, and other utilities located.
-            Follow local codes and the permit for the work.
-          </p>
+          <DigCaution />
           <p className="text-sm" data-testid="best-methods">
             <span className="font-semibold">From: </span>
             {used.map(methodShareText).join(' · ')}
