@@ -86,7 +86,7 @@ export function DashboardPage() {
                 <li key={f.id} className="flex flex-wrap items-center justify-between gap-2 rounded border border-rule px-3 py-2">
                   <span>
                     <Link to={paths.finding.to(f.id)} className="font-semibold text-teal underline">
-                      {kindLabel(f.kind)} at {formatLength(f.distanceM, unit)}
+                      {kindLabel(f.kind)} at {formatLength(f.distanceM, unit)} from end {f.measuredFrom}
                     </Link>
                     <span className="block text-xs text-mist">
                       {f.site.name} · {f.cableRun.name} · confirmed {formatDateTime(f.confirmedAt)} by {f.confirmedBy.name}

@@ -57,7 +57,7 @@ export function NewTicketForm({ unit, preselect, onCreated }: { unit: LengthUnit
                   <input type="checkbox" className="mt-1 h-5 w-5 accent-copper" checked={picked.includes(f.id)} disabled={otherRun} onChange={() => toggle(f)} aria-label={`Finding ${f.id}`} />
                   <span>
                     <span className="font-semibold">
-                      {kindLabel(f.kind)} at {formatLength(f.distanceM, unit)}
+                      {kindLabel(f.kind)} at {formatLength(f.distanceM, unit)} from end {f.measuredFrom}
                     </span>
                     <span className="block text-xs text-mist">
                       {f.site.name} · {f.cableRun.name} · confirmed {formatDateTime(f.confirmedAt)} by {f.confirmedBy.name}

@@ -1,0 +1,49 @@
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { cleanup, render, screen } from '@testing-library/react';
+import { http, HttpResponse } from 'msw';
+import { setupServer } from 'msw/node';
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { NewTicketForm } from '../../src/features/tickets/components/new-ticket-form';
+
+const finding = (id: number, measuredFrom: 'A' | 'B', distanceM: number, kind: string) => ({
+  id,
+  kind,
+  note: null,
+  traceId: id,
+  eventIndex: 0,
+  measuredFrom,
+  roundTripNs: 449.1,
+  distanceM,
+  uncertaintyM: 1.07,
+  windowStartM: distanceM - 1,
+  windowEndM: distanceM + 1,
+  routePosition: null,
+  routePositionText: '',
+  vf: 0.66,
+  confirmedBy: { id: 2, name: 'Ines Ravelo' },
+  confirmedAt: '2026-12-03T06:22:00.000Z',
+  site: { id: 1, name: 'Brookfold pumping station' },
+  cableRun: { id: 3, name: 'Radio mast feeder BF-R1' },
+});
+
+const server = setupServer(
+  http.get('*/api/tickets/unticketed-findings', () => HttpResponse.json([finding(5, 'B', 44.4, 'short-circuit'), finding(6, 'A', 143.2, 'open-conductor')])),
+  http.get('*/api/users/assignable', () => HttpResponse.json([])),
+);
+beforeAll(() => server.listen({ onUnhandledRequest: 'error' }));
+afterEach(cleanup);
+afterAll(() => server.close());
+
+describe('raising a ticket', () => {
+  it('names the end each finding was measured from, as the ticket and the e-mail do', async () => {
+    const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
+    render(
+      <QueryClientProvider client={qc}>
+        <NewTicketForm unit="m" onCreated={() => {}} />
+      </QueryClientProvider>,
+    );
+    // 44.4 m from end B is 75.6 m from end A on a 120 m run: a bare "at 44.4 m" reads as the wrong place.
+    expect((await screen.findByText(/^Short circuit at/)).textContent).toBe('Short circuit at 44.4 m from end B');
+    expect(screen.getByText(/^Open conductor at/).textContent).toBe('Open conductor at 143.2 m from end A');
+  });
+});
