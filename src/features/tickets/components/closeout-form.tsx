@@ -2,10 +2,10 @@ import { useMemo, useState, type FormEvent } from 'react';
 import type { MarkerKind } from '../../../../shared/schemas/sites';
 import { FINDING_KIND_LABELS, FINDING_KINDS } from '../../../../shared/schemas/findings';
 import type { CloseoutInput, TicketDetail } from '../../../../shared/schemas/tickets';
-import { compareLocatedFound, type FoundPosition } from '../../../../shared/tickets/closeout';
+import { CloseoutInputError, compareLocatedFound, type FoundPosition } from '../../../../shared/tickets/closeout';
 import { Button } from '../../../components/ui/button';
 import { fieldErrors, SelectField, TextAreaField, TextField } from '../../../components/ui/field';
-import { ErrorNotice, Notice } from '../../../components/ui/notice';
+import { ErrorNotice } from '../../../components/ui/notice';
 import { markerPhrase } from '../../../../shared/field/route-position';
 import { formatLength, formatSignedLength, fromUnit, lengthsInText, markerKindTitle, type LengthUnit } from '../../../lib/format';
 import { useCloseOutTicket } from '../api/save-ticket';
@@ -53,9 +53,18 @@ export function CloseoutForm({ ticket, unit, onDone }: { ticket: TicketDetail; u
         ),
       };
     } catch (e) {
-      return { ok: false as const, message: (e as Error).message };
+      return { ok: false as const, field: e instanceof CloseoutInputError ? e.field : 'found', message: (e as Error).message };
     }
   }, [found, finding, run]);
+  // What is wrong with the position as typed, under the field it is about: the server's answer to the same
+  // position says the same thing in the same place, so it is never shown twice.
+  const positionError = (field: string): string | undefined =>
+    preview && !preview.ok && preview.field === field ? lengthsInText(preview.message, unit) : errors[field];
+  // A change to the position makes the last answer about it out of date.
+  const editing = <T,>(set: (v: T) => void) => (v: T) => {
+    if (save.error) save.reset();
+    set(v);
+  };
 
   const submit = (e: FormEvent) => {
     e.preventDefault();
@@ -80,16 +89,16 @@ export function CloseoutForm({ ticket, unit, onDone }: { ticket: TicketDetail; u
       <fieldset className="space-y-3">
         <legend className="text-sm font-semibold text-ink-soft">Where was the fault found?</legend>
         <div className="flex flex-wrap gap-2" role="radiogroup" aria-label="How the position is given">
-          <Button variant={method === 'marker' ? 'primary' : 'secondary'} aria-pressed={method === 'marker'} onClick={() => setMethod('marker')} disabled={!run.markers.length}>
+          <Button variant={method === 'marker' ? 'primary' : 'secondary'} aria-pressed={method === 'marker'} onClick={() => editing(setMethod)('marker')} disabled={!run.markers.length}>
             From a route marker
           </Button>
-          <Button variant={method === 'distance' ? 'primary' : 'secondary'} aria-pressed={method === 'distance'} onClick={() => setMethod('distance')}>
+          <Button variant={method === 'distance' ? 'primary' : 'secondary'} aria-pressed={method === 'distance'} onClick={() => editing(setMethod)('distance')}>
             Cable length from an end
           </Button>
         </div>
         {method === 'marker' ? (
           <div className="grid gap-3 sm:grid-cols-2">
-            <SelectField label="Route marker" value={markerId} onChange={(e) => setMarkerId(Number(e.target.value))} error={errors['found.markerId']}>
+            <SelectField label="Route marker" value={markerId} onChange={(e) => editing(setMarkerId)(Number(e.target.value))} error={positionError('found.markerId')}>
               {run.markers.map((m) => (
                 <option key={m.id} value={m.id}>
                   {markerPhrase(markerKindTitle(m.kind), m.label)} ({formatLength(m.chainageM, unit)} from end A on the ground)
@@ -100,15 +109,15 @@ export function CloseoutForm({ ticket, unit, onDone }: { ticket: TicketDetail; u
               label={`Distance past it toward end B (${unit})`}
               inputMode="decimal"
               value={offset}
-              onChange={(e) => setOffset(e.target.value)}
-              error={errors['found.offsetM']}
+              onChange={(e) => editing(setOffset)(e.target.value)}
+              error={positionError('found.offsetM')}
               hint="Measured along the ground, as you walked it."
               required
             />
           </div>
         ) : (
           <div className="grid gap-3 sm:grid-cols-2">
-            <SelectField label="Measured from" value={fromEnd} onChange={(e) => setFromEnd(e.target.value as 'A' | 'B')}>
+            <SelectField label="Measured from" value={fromEnd} onChange={(e) => editing(setFromEnd)(e.target.value as 'A' | 'B')}>
               <option value="A">{endLabel('A')}</option>
               <option value="B">{endLabel('B')}</option>
             </SelectField>
@@ -116,14 +125,14 @@ export function CloseoutForm({ ticket, unit, onDone }: { ticket: TicketDetail; u
               label={`Cable length to the fault (${unit})`}
               inputMode="decimal"
               value={distance}
-              onChange={(e) => setDistance(e.target.value)}
-              error={errors['found.distanceM']}
+              onChange={(e) => editing(setDistance)(e.target.value)}
+              error={positionError('found.distanceM')}
               hint="Length of cable, slack included."
               required
             />
           </div>
         )}
-        {errors.found && <p className="text-xs font-semibold text-danger">{errors.found}</p>}
+        {positionError('found') && <p className="text-xs font-semibold text-danger">{positionError('found')}</p>}
       </fieldset>
 
       {preview?.ok && finding && (
@@ -149,7 +158,6 @@ export function CloseoutForm({ ticket, unit, onDone }: { ticket: TicketDetail; u
           <p className="col-span-full text-xs text-mist">Cable length from end {finding.measuredFrom}, the end the reading was taken from. The reading used VF {finding.vf.toFixed(3)}.</p>
         </div>
       )}
-      {preview && !preview.ok && <Notice tone="warn">{lengthsInText(preview.message, unit)}</Notice>}
 
       <SelectField label="What was it?" value={cause} onChange={(e) => setCause(e.target.value as typeof cause)} error={errors.cause}>
         {FINDING_KINDS.map((k) => (

@@ -1,0 +1,68 @@
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { cleanup, fireEvent, render, screen, waitFor } from '@testing-library/react';
+import { http, HttpResponse } from 'msw';
+import { setupServer } from 'msw/node';
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import type { TicketDetail } from '../../shared/schemas/tickets';
+import { CloseoutForm } from '../../src/features/tickets/components/closeout-form';
+
+const MESSAGE = 'must be 0 or more and stay on the route: Mast foot is at 110 m and the route ends at 116.5 m';
+let posted = 0;
+const server = setupServer(
+  http.get('*/api/auth/csrf', () => HttpResponse.json({ csrfToken: 'token-1' })),
+  // What the server answers for a found position past the end of the route.
+  http.post('*/api/tickets/4/closeout', () => {
+    posted++;
+    return HttpResponse.json(
+      { error: { code: 'invalid_input', message: `found.offsetM: ${MESSAGE}`, fields: [{ field: 'found.offsetM', message: MESSAGE }] } },
+      { status: 422 },
+    );
+  }),
+);
+beforeAll(() => server.listen({ onUnhandledRequest: 'error' }));
+afterEach(cleanup);
+afterAll(() => server.close());
+
+// Radio mast feeder BF-R1 of the demo: 120 m installed, 1.5 m and 2 m coiled at its two markers → 116.5 m of route.
+const ticket = {
+  id: 4,
+  cableRun: {
+    id: 3,
+    name: 'Radio mast feeder BF-R1',
+    installedLengthM: 120,
+    endALabel: 'Control kiosk',
+    endBLabel: 'Telemetry radio mast',
+    markers: [
+      { id: 11, label: 'HH-A', kind: 'handhole', chainageM: 48, slackM: 1.5 },
+      { id: 12, label: 'Mast foot', kind: 'other', chainageM: 110, slackM: 2 },
+    ],
+  },
+  findings: [{ id: 5, kind: 'short-circuit', measuredFrom: 'B', distanceM: 44.4, roundTripNs: 449.1, vf: 0.66 }],
+} as unknown as TicketDetail;
+
+const shown = () => screen.queryAllByText((_, el) => !!el && el.children.length === 0 && (el.textContent ?? '').includes('stay on the route'));
+
+describe('close-out: a found position off the route', () => {
+  it('is said once, under the distance, before and after the server has answered', async () => {
+    const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
+    render(
+      <QueryClientProvider client={qc}>
+        <CloseoutForm ticket={ticket} unit="m" />
+      </QueryClientProvider>,
+    );
+    fireEvent.change(screen.getByLabelText('Route marker'), { target: { value: '12' } });
+    const distance = screen.getByLabelText(/^Distance past it toward end B/);
+    fireEvent.change(distance, { target: { value: '27' } });
+    expect(shown()).toHaveLength(1);
+    fireEvent.change(screen.getByLabelText('What was done'), { target: { value: 'New straight joint' } });
+    fireEvent.click(screen.getByRole('button', { name: 'Record the repair' }));
+    await waitFor(() => expect(qc.getMutationCache().getAll()[0]?.state.status).toBe('error'));
+    expect(posted).toBe(1);
+    expect(distance.getAttribute('aria-invalid')).toBe('true');
+    expect(shown()).toHaveLength(1);
+    // A position on the route clears it.
+    fireEvent.change(distance, { target: { value: '5' } });
+    expect(shown()).toHaveLength(0);
+    expect(screen.getByTestId('closeout-preview').textContent).toContain('Found');
+  });
+});
