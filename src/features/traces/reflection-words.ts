@@ -8,10 +8,15 @@ export const TYPE_WORDS: Record<ReflectionEvent['type'], string> = {
   'impedance-drop': 'Impedance drop',
 };
 
+/** A ρ value with its sign always written and a true minus: "−0.54", "+0.723", "0.00". */
+export function signedRho(rho: number, digits = 2): string {
+  const s = Math.abs(rho).toFixed(digits);
+  return `${rho < 0 && Number(s) !== 0 ? '−' : rho > 0 && Number(s) !== 0 ? '+' : ''}${s}`;
+}
+
 /** ρ with its sign always written and a true minus: "ρ −0.54". */
 export function rhoText(rho: number): string {
-  const s = Math.abs(rho).toFixed(2);
-  return `ρ ${rho < 0 && Number(s) !== 0 ? '−' : rho > 0 && Number(s) !== 0 ? '+' : ''}${s}`;
+  return `ρ ${signedRho(rho)}`;
 }
 
 /** "Impedance drop · ρ −0.54": the engine's kind and the ρ it was named from. */

@@ -8,6 +8,7 @@ import { Card } from '../../../components/ui/card';
 import { SelectField, TextAreaField } from '../../../components/ui/field';
 import { formatLength, type LengthUnit } from '../../../lib/format';
 import { DistanceBlock, placeEvent } from '../../findings/components/where-to-dig';
+import { signedRho } from '../../traces/reflection-words';
 import { useDevice } from '../device-context';
 import type { DecisionItem, UploadItem } from '../outbox-machine';
 import { stateWords } from '../outbox-words';
@@ -228,7 +229,7 @@ export function DeviceResult({
                 storedText={run ? null : 'The route markers of this run are not on this phone.'}
               />
               <p className="mt-2 text-sm text-ink-soft tabular">
-                ρ = {selected.reflectionCoefficient.toFixed(3).replace('-', '−')} · round-trip {selected.roundTripNs.toFixed(1)} ns
+                ρ = {signedRho(selected.reflectionCoefficient, 3)} · round-trip {selected.roundTripNs.toFixed(1)} ns
                 {selected.likelyMultipleOf !== null ? ` · probably an echo of event ${selected.likelyMultipleOf + 1}` : ''}
               </p>
               <div className="mt-3">

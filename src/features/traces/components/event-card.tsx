@@ -3,7 +3,7 @@ import type { ReflectionEvent } from '../../../../shared/schemas/trace-analysis'
 import type { TraceDetail } from '../../../../shared/schemas/traces';
 import { Card } from '../../../components/ui/card';
 import type { LengthUnit } from '../../../lib/format';
-import { eventMeaning, eventTitle } from '../reflection-words';
+import { eventMeaning, eventTitle, signedRho } from '../reflection-words';
 import { FarEndPanel, isLastReflection, windowHoldsLength } from './far-end-panel';
 
 /**
@@ -39,7 +39,7 @@ export function EventCard({
   const reading = (
     <>
       <p className="mt-2 text-sm text-ink-soft tabular" data-testid="event-reading">
-        ρ = {event.reflectionCoefficient.toFixed(3)}
+        ρ = {signedRho(event.reflectionCoefficient, 3)}
         {event.impedanceOhm !== null && Number.isFinite(event.impedanceOhm) && event.impedanceOhm < 1e5 ? ` · Z ≈ ${event.impedanceOhm.toFixed(0)} Ω` : ''} · round-trip{' '}
         {event.roundTripNs.toFixed(1)} ns
         {event.likelyMultipleOf !== null ? ` · probably an echo of event ${event.likelyMultipleOf + 1}` : ''}
