@@ -70,10 +70,11 @@ export function composeMail(opts: {
     `${opts.link.label}: ${opts.link.url}`,
     ...(opts.footer ? ['', ...wrapText(opts.footer, TEXT_WIDTH)] : []),
   ].join('\n');
+  // A label may wrap ("Cable-length / window"): kept on one line, it took half a phone's width from the value.
   const html = [
     `<p>${escapeHtml(opts.intro)}</p>`,
     '<table cellpadding="4" style="border-collapse:collapse;max-width:640px">',
-    ...opts.rows.map(([k, v]) => `<tr><th align="left" valign="top" style="color:#3b4a57;white-space:nowrap">${escapeHtml(k)}</th><td>${escapeHtml(v)}</td></tr>`),
+    ...opts.rows.map(([k, v]) => `<tr><th align="left" valign="top" style="color:#3b4a57;width:30%">${escapeHtml(k)}</th><td>${escapeHtml(v)}</td></tr>`),
     '</table>',
     ...(opts.paragraph ? [`<p>${escapeHtml(opts.paragraph)}</p>`] : []),
     `<p><a href="${escapeHtml(opts.link.url)}" style="color:#1f6f78">${escapeHtml(opts.link.label)}</a></p>`,

@@ -42,3 +42,18 @@ describe('plain-text e-mail columns', () => {
     expect(mail.text).toContain('Cable-length window: 1296–1328 ft along the cable from end A, slack');
   });
 });
+
+describe('the formatted part of an e-mail', () => {
+  it('lets a label wrap and keeps it under a third of the table, so a phone shows the value on most of its width', () => {
+    const mail = composeMail({
+      subject: 's',
+      intro: 'i',
+      rows: [['Cable-length window', '136.8–149.5 m along the cable from end A, slack included']],
+      link: { label: 'Open the finding', url: 'http://127.0.0.1/findings/1' },
+    });
+    const th = mail.html.match(/<th [^>]*>Cable-length window<\/th>/)?.[0] ?? '';
+    expect(th).not.toBe('');
+    expect(th).not.toContain('nowrap');
+    expect(th).toContain('width:30%');
+  });
+});
