@@ -62,16 +62,15 @@ export async function mailFindingConfirmed(ctx: AppContext, findingId: number) {
   for (const r of recipients) {
     const mail = composeMail({
       subject: `Fault confirmed at ${site.name}: ${run.name}, ${headlineDistance(finding, best, r.unitPreference)}`,
-      intro: `${finding.confirmedBy?.name ?? 'A technician'} confirmed a fault (${kindLabel(finding.kind)}) at ${site.name}.`,
+      // Who else got it is said with who sent it, apart from the technician's note, which may end without a full stop.
+      intro: `${finding.confirmedBy?.name ?? 'A technician'} confirmed a fault (${kindLabel(finding.kind)}) at ${site.name}.${fallback ? ' No supervisor is named for this site, so every supervisor gets this message.' : ''}`,
       rows: [
         ['Site', site.name],
         ['Cable run', `${run.name} (${run.endALabel} → ${run.endBLabel})`],
         ...(best ? bestLocationRows(best, run, r.unitPreference) : []),
         ...findingRows(finding, finding.trace ?? null, run, r.unitPreference, best !== null),
       ],
-      paragraph: [finding.note ? `Note: ${finding.note}` : '', fallback ? 'No supervisor is named for this site, so every supervisor gets this message.' : '']
-        .filter(Boolean)
-        .join(' ') || null,
+      paragraph: finding.note ? `Note: ${finding.note}` : null,
       link: { label: 'Open the finding', url: link },
       footer: SAFETY_LINE,
     });
