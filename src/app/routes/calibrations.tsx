@@ -23,7 +23,7 @@ const TABS: Array<{ status: CalibrationStatus | 'all'; label: string }> = [
   { status: 'all', label: 'All' },
 ];
 
-function Decide({ c }: { c: CalibrationView }) {
+function Decide({ c, onDone }: { c: CalibrationView; onDone: (said: string) => void }) {
   const { user, can } = useSession();
   const accept = useAcceptCalibration();
   const reject = useRejectCalibration();
@@ -70,7 +70,12 @@ function Decide({ c }: { c: CalibrationView }) {
           <>
             {(!own || override) && (
               <Button
-                onClick={() => accept.mutate({ id: c.id, note: note.trim() || undefined, ...(chosen ?? {}) })}
+                onClick={() =>
+                  accept.mutate(
+                    { id: c.id, note: note.trim() || undefined, ...(chosen ?? {}) },
+                    { onSuccess: (r) => onDone(`Calibration #${c.id} accepted: ${r.cable.name} is now VF ${formatVf(r.cable.vf, 4)} ± ${(r.cable.vfTolerance * 100).toFixed(1)} % in the library. It is listed under Accepted.`) },
+                  )
+                }
                 disabled={accept.isPending || (override && note.trim().length < 10) || (values !== null && chosen === null)}
               >
                 {override ? 'Accept my own, with this reason' : chosen ? `Accept into the library: VF ${chosen.vf.toFixed(4)} ± ${(chosen.vfTolerance * 100).toFixed(1)} %` : 'Accept into the library'}
@@ -82,7 +87,7 @@ function Decide({ c }: { c: CalibrationView }) {
           </>
         ) : (
           <>
-            <Button variant="danger" onClick={() => reject.mutate({ id: c.id, reason: note })} disabled={reject.isPending}>
+            <Button variant="danger" onClick={() => reject.mutate({ id: c.id, reason: note }, { onSuccess: () => onDone(`Calibration #${c.id} rejected: the library is unchanged. It is listed under Rejected.`) })} disabled={reject.isPending}>
               Reject with this reason
             </Button>
             <Button variant="secondary" onClick={() => (setRejecting(false), reject.reset())}>
@@ -97,7 +102,7 @@ function Decide({ c }: { c: CalibrationView }) {
   );
 }
 
-function CalibrationItem({ c, unit }: { c: CalibrationView; unit: LengthUnit }) {
+function CalibrationItem({ c, unit, onDone }: { c: CalibrationView; unit: LengthUnit; onDone: (said: string) => void }) {
   const large = Math.abs(c.deviation) > 0.05;
   return (
     <li className="grid gap-3 border-t border-rule py-4 first:border-t-0 md:grid-cols-[3fr_2fr]" data-testid={`calibration-${c.id}`}>
@@ -133,7 +138,7 @@ function CalibrationItem({ c, unit }: { c: CalibrationView; unit: LengthUnit }) 
           </p>
         )}
       </div>
-      {c.status === 'pending' && <Decide c={c} />}
+      {c.status === 'pending' && <Decide c={c} onDone={onDone} />}
     </li>
   );
 }
@@ -144,6 +149,8 @@ export function CalibrationsPage() {
   const [status, setStatus] = useState<CalibrationStatus | 'all'>('pending');
   const [page, setPage] = useState(1);
   const list = useCalibrations({ status, page });
+  // A decided calibration leaves the Waiting list at once: what became of it is said here.
+  const [done, setDone] = useState<string | null>(null);
   return (
     <>
       <PageHeader title="Calibrations" subtitle="Field calibrations on known lengths. Accepting one sets the cable type's VF; the history keeps the old value." />
@@ -155,13 +162,18 @@ export function CalibrationsPage() {
               role="tab"
               type="button"
               aria-selected={status === t.status}
-              onClick={() => (setStatus(t.status), setPage(1))}
+              onClick={() => (setStatus(t.status), setPage(1), setDone(null))}
               className={`min-h-11 rounded-md px-4 text-sm font-semibold ${status === t.status ? 'bg-ink text-white' : 'border border-rule bg-card hover:border-ink-soft'}`}
             >
               {t.label}
             </button>
           ))}
         </div>
+        {done && (
+          <Notice tone="ok" className="mb-2">
+            {done}
+          </Notice>
+        )}
         {list.isPending ? (
           <Loading />
         ) : list.error ? (
@@ -172,7 +184,7 @@ export function CalibrationsPage() {
           <>
             <ul>
               {list.data.items.map((c) => (
-                <CalibrationItem key={c.id} c={c} unit={unit} />
+                <CalibrationItem key={c.id} c={c} unit={unit} onDone={setDone} />
               ))}
             </ul>
             <Pager page={page} pageSize={list.data.pageSize} total={list.data.total} onPage={setPage} />

@@ -1,0 +1,65 @@
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { cleanup, fireEvent, render, screen } from '@testing-library/react';
+import { http, HttpResponse } from 'msw';
+import { setupServer } from 'msw/node';
+import { MemoryRouter } from 'react-router-dom';
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { CalibrationsPage } from '../../src/app/routes/calibrations';
+
+const none = { count: 0, mean: null, stdDev: null, min: null, max: null };
+const pending = {
+  id: 2,
+  cableType: { id: 3, name: 'Solid PE coax, 50 Ω', currentVf: 0.66 },
+  knownLengthM: 43.5,
+  roundTripNs: 449.1,
+  vf: 0.6462,
+  libraryVf: 0.66,
+  deviation: -0.0209,
+  source: 'repair-closeout',
+  traceId: 6,
+  note: null,
+  status: 'pending',
+  submittedBy: { id: 2, name: 'Ines Ravelo' },
+  reviewedBy: null,
+  reviewedAt: null,
+  reviewReason: null,
+  createdAt: '2026-12-03T06:28:00.000Z',
+};
+const planner = { id: 4, email: 'planner@example.com', name: 'Priya Castellanos', role: 'planner', active: true, mustChangePassword: false, unitPreference: 'm' };
+let accepted = false;
+const server = setupServer(
+  http.get('*/api/auth/me', () => HttpResponse.json(planner)),
+  http.get('*/api/auth/csrf', () => HttpResponse.json({ csrfToken: 'token-1' })),
+  http.get('*/api/calibrations', () => HttpResponse.json({ items: accepted ? [] : [pending], total: accepted ? 0 : 1, page: 1, pageSize: 20 })),
+  http.get('*/api/cables/3/calibrations', () =>
+    HttpResponse.json({ libraryVf: 0.66, libraryVfTolerance: 0.02, stats: none, acceptedStats: none, counts: { pending: 1, accepted: 0, rejected: 0 }, items: [pending] }),
+  ),
+  http.post('*/api/calibrations/2/accept', async () => {
+    accepted = true;
+    return HttpResponse.json({ calibration: { ...pending, status: 'accepted' }, cable: { id: 3, name: 'Solid PE coax, 50 Ω', vf: 0.6462, vfTolerance: 0.02 } });
+  }),
+);
+beforeAll(() => server.listen({ onUnhandledRequest: 'error' }));
+afterEach(cleanup);
+afterAll(() => server.close());
+
+describe('the calibration review queue', () => {
+  it('says what became of a calibration once it has left the Waiting list', async () => {
+    const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
+    // Signed in, as under the signed-in layout.
+    qc.setQueryData(['auth', 'me'], planner);
+    render(
+      <QueryClientProvider client={qc}>
+        <MemoryRouter>
+          <CalibrationsPage />
+        </MemoryRouter>
+      </QueryClientProvider>,
+    );
+    fireEvent.click(await screen.findByRole('button', { name: /^Accept into the library: VF 0\.6462/ }));
+    // The queue is empty now; without a word, the planner cannot tell an accepted calibration from a lost one.
+    await screen.findByText('Nothing is waiting for review.');
+    expect(screen.getByText(/^Calibration #2 accepted/).textContent).toBe(
+      'Calibration #2 accepted: Solid PE coax, 50 Ω is now VF 0.6462 ± 2.0 % in the library. It is listed under Accepted.',
+    );
+  });
+});
