@@ -241,6 +241,7 @@ function filterScale(
   k: number,
   rhoMin: number,
   excess: number,
+  floorF = rhoMin,
 ): ScaleResult | null {
   const n = P.length - 1;
   const from = sig.start + 2 * w;
@@ -251,7 +252,7 @@ function filterScale(
   const count = Math.floor((to - 1 - from) / stride) + 1;
   // (A − 3B + 3C − D)/2 over window means, written on the prefix sums; read where needed, not stored.
   const noise = filterNoise(P, from, count, w, stride, sig, excess);
-  const thr = Math.max(k * noise.sigmaF, rhoMin);
+  const thr = Math.max(k * noise.sigmaF, floorF);
   const candidates = filterRunsAbove(P, count, from, stride, w, thr, noise.sigmaF);
   // The record's last two windows: C − 2B + A, with noise √6/√5 that of F for white noise.
   const tailFrom = Math.max(from, to);
@@ -411,6 +412,26 @@ function resolveScales(kept: Candidate[]): Candidate[] {
 }
 
 /**
+ * Largest |F| that a unit edge rising linearly over `ramp` samples gives at scale w (F reads a
+ * step shorter than its window whole, a ramp over several windows only at its two corners:
+ * 0.14 of its height for a ramp 2.5 windows long). Computed on a model of 32 samples a window.
+ */
+export function rampResponse(ramp: number, w: number): number {
+  const W = 32;
+  const R = Math.max(1, Math.round(Math.min(ramp / w, 32) * W));
+  const n = 4 * W + R + 4 * W;
+  const P = new Float64Array(n + 1);
+  for (let i = 0, acc = 0; i < n; i++) {
+    acc += Math.min(1, Math.max(0, (i - 4 * W + 1) / R));
+    P[i + 1] = acc;
+  }
+  const inv = 1 / (2 * W);
+  let best = 0;
+  for (let i = 2 * W; i <= n - 2 * W; i++) best = Math.max(best, Math.abs(stepFilterAt(P, i, W, inv)));
+  return best;
+}
+
+/**
  * The filter's scales: w0, 3w0, 9w0, … while four windows fit the search (at most twelve, so a
  * record whose finest scale is a couple of samples still reaches edges spread over thousands).
  */
@@ -440,8 +461,16 @@ export function detectEdges(sig: WorkingSignal, settings: DetectionSettings): De
   const candidates: Candidate[] = [];
   const thresholds: number[] = [];
   let excess = 1;
+  // A pulse record too short for the scale 2·w0 has no scale that reads an echo's ramp in the running
+  // sum (the pulse's width, 2.5 w0) whole: the finest reads it at 0.14 of its height, so a floor of
+  // rhoMin there keeps out echoes seven times larger. Its floor is then what an echo of rhoMin gives
+  // it. (The fitted height is still held to rhoMin, edge-fit.ts; where the scale 2·w0 runs, the finest
+  // keeps the plain floor, against which its fractional reading of large echoes' flanks is weighed.)
+  const rampScaleMissing = sig.mode === 'pulse' && !scales.includes(2 * sig.w0);
   for (const w of scales) {
-    const r = filterScale(P, w, sig, k, rhoMin, excess);
+    // Only F's floor: the record-end filter reads an echo the record cuts short, at no known share of it.
+    const floorF = rampScaleMissing && w === sig.w0 ? rhoMin * rampResponse(2.5 * sig.w0, w) : rhoMin;
+    const r = filterScale(P, w, sig, k, rhoMin, excess, floorF);
     if (!r) continue;
     if (r.excess !== null) excess = r.excess;
     thresholds.push(r.thr);
