@@ -147,6 +147,32 @@ export function restingDrift(
   return best;
 }
 
+/**
+ * The level most of values[from, to) rest on: the centre of the interval 2·tol wide that holds the
+ * most of them (the modal interval, H. Chernoff, "Estimation of the mode", Ann. Inst. Statist. Math.
+ * 16 (1964) 31), as the median of the values in it; from a regular subsample of at most 4001. Unlike
+ * the median it stays on the line when echoes of several levels together fill most of the record.
+ */
+export function modalLevel(values: ArrayLike<number>, from: number, to: number, tol: number): number {
+  const len = to - from;
+  if (len <= 0 || !(tol > 0)) return NaN;
+  const step = Math.max(1, Math.floor(len / 4001));
+  const v = new Float64Array(Math.ceil(len / step));
+  for (let i = from, j = 0; i < to; i += step, j++) v[j] = values[i];
+  v.sort();
+  let best = 0;
+  let bestCount = 0;
+  for (let a = 0, b = 0; a < v.length; a++) {
+    while (b < v.length && v[b] - v[a] <= 2 * tol) b++;
+    if (b - a > bestCount) {
+      bestCount = b - a;
+      best = a;
+    }
+  }
+  const m = best + ((bestCount - 1) >> 1);
+  return bestCount % 2 ? v[m] : (v[m] + v[m + 1]) / 2;
+}
+
 /** Pulse mode: baseline-free trace (in launch peaks) and its running integral in launch areas. */
 function pulseSignal(rec: TraceRecord, L: Launch, sigma0: number): { u: Float64Array; pulseRaw: Float64Array; unitArea: number } {
   const { y, n } = rec;
@@ -191,7 +217,13 @@ function pulseSignal(rec: TraceRecord, L: Launch, sigma0: number): { u: Float64A
     return c;
   };
   const useLine = anchored && restOn(lineAt) > RESTING_MARGIN * restOn(halvesAt);
-  const baseAt = useLine ? lineAt : halvesAt;
+  // Halves that agree may both sit on echoes (a short cable's echoes and their bounces filling most
+  // of the record): the level the most samples after the launch rest on (modalLevel) is taken
+  // instead where clearly more of the record rests on it, as the pre-trigger's line is.
+  const modal = !useLine && resting === null ? modalLevel(y, a0, n, tol) : NaN;
+  const modalAt = (i: number) => (i < a0 ? L.baseline : modal);
+  const useModal = Number.isFinite(modal) && restOn(modalAt) > RESTING_MARGIN * restOn(halvesAt);
+  const baseAt = useLine ? lineAt : useModal ? modalAt : halvesAt;
   let acc = 0;
   for (let i = 0; i < n; i++) {
     const v = (y[i] - baseAt(i)) / scale;
