@@ -18,7 +18,23 @@ async function main() {
   }
   const { app, close, ctx, beginShutdown } = await createApp(config);
   for (const warning of exposureWarnings(config)) ctx.logger.warn({ host: config.host, demoData: config.demoData }, warning);
-  const server = app.listen(config.port, config.host, () => {
+  // Express 5 calls this back with the error when the server cannot listen (the port is taken, the address is not
+  // this machine's, a port below 1024 without the right): say so and stop, rather than report a start that did not happen.
+  const server = app.listen(config.port, config.host, (err?: NodeJS.ErrnoException) => {
+    if (err) {
+      const why =
+        err.code === 'EADDRINUSE'
+          ? `port ${config.port} on ${config.host} is already in use by another program (set PORT to a free port)`
+          : err.code === 'EADDRNOTAVAIL'
+            ? `the address ${config.host} is not one of this machine's (check HOST)`
+            : err.code === 'EACCES'
+              ? `this user may not listen on port ${config.port} (ports below 1024 need extra rights; set PORT)`
+              : err.message;
+      process.stderr.write(`Rholog cannot start: ${why}.\n`);
+      ctx.logger.fatal({ err, host: config.host, port: config.port }, `cannot listen: ${why}`);
+      void close().finally(() => process.exit(1));
+      return;
+    }
     const address = server.address();
     const port = typeof address === 'object' && address ? address.port : config.port;
     ctx.logger.info(
