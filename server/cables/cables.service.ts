@@ -249,7 +249,17 @@ export async function updateCable(
  * change does not set, or that still hold the starting value, merge as usual.
  */
 async function assertNotChangedMeanwhile(cable: CableType, basedOn: Partial<CableTypeInput>, setting: string[], transaction: Transaction) {
-  const stale = diffCable(cable, basedOn).filter((c) => setting.includes(c.field));
+  // The attenuation list and its one-point pair (attenuationDbPer100m, attenuationFreqMhz) are one value: a change
+  // to either is checked against whichever of them the snapshot holds.
+  const LOSS = ['attenuation', 'attenuationDbPer100m', 'attenuationFreqMhz'];
+  const checked = new Set(setting.some((f) => LOSS.includes(f)) ? [...setting, ...LOSS] : setting);
+  const stale: FieldChange[] = [];
+  for (const field of CABLE_FIELDS) {
+    if (!(field in basedOn) || !checked.has(field)) continue;
+    const now = valueOf(cable, field);
+    const then = historyValue(field, (basedOn as Record<string, unknown>)[field]);
+    if (now !== then) stale.push({ field, from: now, to: then });
+  }
   if (stale.length === 0) return;
   const last = await CableTypeChange.findOne({
     where: { cableTypeId: cable.id },

@@ -168,6 +168,40 @@ describe('PATCH /api/cables/:id', () => {
     expect(bad.body.error.fields[0].field).toMatch(/^basedOn/);
   });
 
+  it('refuses a one-point attenuation set from a stale value when someone else changed the attenuation list meanwhile', async () => {
+    const one = { attenuationDbPer100m: 1.3, attenuationFreqMhz: 10, lossSource: 'common practice' };
+    const { body: c } = await planner.post('/api/cables', solidPe('One-point loss coax', one)).expect(201);
+    const other = await api.as('planner');
+    // The other planner saves a new loss through the list; this one opened the entry at 1.3 dB and sets the pair.
+    await other
+      .patch(`/api/cables/${c.id}`, {
+        attenuation: [{ frequencyMhz: 10, dbPer100m: 1.5 }],
+        reason: 'new datasheet',
+        basedOn: { attenuation: [{ frequencyMhz: 10, dbPer100m: 1.3 }] },
+      })
+      .expect(200);
+    const late = await planner
+      .patch(`/api/cables/${c.id}`, { attenuationDbPer100m: 2, reason: 'my reading', basedOn: { attenuationDbPer100m: 1.3 } })
+      .expect(409);
+    expect(late.body.error.code).toBe('changed_meanwhile');
+    expect(late.body.error.fields).toEqual([{ field: 'attenuationDbPer100m', message: 'is now 1.5; you started from 1.3' }]);
+    let now = (await planner.get(`/api/cables/${c.id}`).expect(200)).body;
+    expect(now.attenuation).toEqual([{ frequencyMhz: 10, dbPer100m: 1.5 }]);
+    // The other way round: the list set from a stale snapshot of the pair is refused too.
+    const late2 = await planner
+      .patch(`/api/cables/${c.id}`, {
+        attenuation: [{ frequencyMhz: 10, dbPer100m: 2 }],
+        reason: 'my reading',
+        basedOn: { attenuationDbPer100m: 1.3, attenuationFreqMhz: 10 },
+      })
+      .expect(409);
+    expect(late2.body.error.fields).toEqual([{ field: 'attenuationDbPer100m', message: 'is now 1.5; you started from 1.3' }]);
+    // Started from the saved value, the change goes through.
+    await planner.patch(`/api/cables/${c.id}`, { attenuationDbPer100m: 2, reason: 'my reading', basedOn: { attenuationDbPer100m: 1.5 } }).expect(200);
+    now = (await planner.get(`/api/cables/${c.id}`).expect(200)).body;
+    expect(now.attenuation).toEqual([{ frequencyMhz: 10, dbPer100m: 2 }]);
+  });
+
   it('answers 422 when nothing would change, and 404 for an unknown entry', async () => {
     const { body: c } = await planner.post('/api/cables', solidPe('Same again coax')).expect(201);
     const res = await planner.patch(`/api/cables/${c.id}`, { vf: 0.66, reason: 'no-op' }).expect(422);
