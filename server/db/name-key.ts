@@ -1,13 +1,14 @@
 import type { Model, ModelStatic } from 'sequelize';
+import { foldName } from '../../shared/schemas/input';
+
 /**
  * The form of a name two rows may not share: Unicode compatibility-normalised
  * (NFKC), case-folded in every script (the database's lower() folds ASCII
  * only, so "É" and "é" or "Ω" and "ω" would pass it; lower, upper, lower again
- * also folds "ß" with "ss") and with runs of spaces as one.
+ * also folds "ß" with "ss") and with runs of spaces as one. The schemas refuse
+ * a name whose folded form is longer than the stored key (FOLDED_NAME_MAX).
  */
-export function nameKey(name: string): string {
-  return name.normalize('NFKC').toLowerCase().toUpperCase().toLowerCase().replace(/\s+/g, ' ').trim();
-}
+export const nameKey = foldName;
 
 /**
  * Keeps a model's stored `nameKey` (column name_key, unique within its scope) equal to nameKey(name)

@@ -8,7 +8,7 @@ import {
   type LineConstants,
   type PulseVf,
 } from './cable-loss';
-import { oneLine, textId, textInt } from './input';
+import { foldedNameFits, oneLine, textId, textInt } from './input';
 
 export * from './cable-loss';
 
@@ -45,7 +45,7 @@ const num = (what = 'must be a number') => z.number({ error: what }).finite({ er
 
 /** The fields of one library entry, all in SI. Shared by the form, the API and the CSV import. */
 export const cableFields = {
-  name: oneLine(z.string({ error: 'is required' }).trim().min(1, 'is required').max(120, 'must be at most 120 characters')),
+  name: foldedNameFits(oneLine(z.string({ error: 'is required' }).trim().min(1, 'is required').max(120, 'must be at most 120 characters'))),
   construction: z.enum(CONSTRUCTIONS, { error: `must be one of ${CONSTRUCTIONS.join(', ')}` }),
   dielectric: oneLine(z.string({ error: 'is required' }).trim().min(1, 'is required').max(120, 'must be at most 120 characters')),
   z0Ohm: num().gt(0, 'must be greater than 0 Ω').max(10_000, 'must be at most 10000 Ω'),

@@ -108,3 +108,30 @@ export function oneLine<T extends z.ZodType<string | null | undefined>>(schema: 
     error: 'must be one line: no line breaks, tabs or other control characters',
   }) as T;
 }
+
+/**
+ * The form of a name two rows may not share (stored as name_key): Unicode compatibility-normalised (NFKC),
+ * case-folded in every script (lower, upper, lower again also folds "ß" with "ss") and with runs of spaces as one.
+ */
+export function foldName(name: string): string {
+  return name.normalize('NFKC').toLowerCase().toUpperCase().toLowerCase().replace(/\s+/g, ' ').trim();
+}
+
+/** The longest folded name the stored key holds (its column is 480 characters long). */
+export const FOLDED_NAME_MAX = 480;
+
+/**
+ * A name whose folded form fits its stored key. A few characters stand for many when written out in full
+ * (U+FDFA for 18, "ß" for 2), so a name within its own length limit can fold to more than the key holds.
+ */
+export function foldedNameFits<T extends z.ZodType<string>>(schema: T): T {
+  return schema.superRefine((v, ctx) => {
+    const n = foldName(v).length;
+    if (n > FOLDED_NAME_MAX) {
+      ctx.addIssue({
+        code: 'custom',
+        message: `is too long once written out in full: its characters stand for ${n} letters and signs, at most ${FOLDED_NAME_MAX}`,
+      });
+    }
+  }) as unknown as T;
+}

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { jsonId, lengthM, MAX_LENGTH_M, oneLine, textId, textInt } from './input';
+import { foldedNameFits, jsonId, lengthM, MAX_LENGTH_M, oneLine, textId, textInt } from './input';
 
 const text = (max: number) => z.string().trim().max(max, `must be at most ${max} characters`);
 const optionalText = (max: number) =>
@@ -22,7 +22,7 @@ export const MARKER_KIND_LABELS: Record<MarkerKind, string> = {
 };
 
 export const SiteInputSchema = z.object({
-  name: oneLine(text(120).min(1, 'is required')),
+  name: foldedNameFits(oneLine(text(120).min(1, 'is required'))),
   address: oneLine(optionalText(300)),
   latitude: z
     .number({ error: 'must be a number of degrees, or null' })
@@ -71,7 +71,7 @@ export type RouteMarkerInput = z.input<typeof RouteMarkerInputSchema>;
 
 export const CableRunInputSchema = z.object({
   siteId: id,
-  name: oneLine(text(120).min(1, 'is required')),
+  name: foldedNameFits(oneLine(text(120).min(1, 'is required'))),
   cableTypeId: id,
   endALabel: oneLine(text(120).min(1, 'is required')),
   endBLabel: oneLine(text(120).min(1, 'is required')),

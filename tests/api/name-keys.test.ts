@@ -61,6 +61,38 @@ describe('stored name keys', () => {
     expect((await Site.findByPk(b.id))!.nameKey).toBe('harbour éast');
   });
 
+  it('refuse, with the field named, a name whose folded form would not fit its stored key', async () => {
+    // U+FDFA is one character that NFKC writes out as 18: 120 of them fold to 2160, more than the 480 the key holds
+    // (and on PostgreSQL more than its varchar(480) column and its index accept).
+    const long = '\uFDFA'.repeat(120);
+    expect(long.normalize('NFKC')).toHaveLength(2160);
+    const sup = await api.as('supervisor');
+    const site = await sup.post('/api/sites', { name: long }).expect(400);
+    expect(site.body.error.fields).toEqual([{ field: 'name', message: 'is too long once written out in full: its characters stand for 2160 letters and signs, at most 480' }]);
+    const cable = await planner.post('/api/cables', {
+      name: long,
+      construction: 'coax',
+      dielectric: 'solid polyethylene',
+      z0Ohm: 50,
+      vf: 0.66,
+      vfTolerance: 0.02,
+      vfSource: 'handbook',
+      vfReference: 'common practice',
+    });
+    expect(cable.status).toBe(400);
+    expect(cable.body.error.fields).toEqual([{ field: 'name', message: 'is too long once written out in full: its characters stand for 2160 letters and signs, at most 480' }]);
+    const { body: s } = await sup.post('/api/sites', { name: 'Long-name yard' }).expect(201);
+    const run = await sup.post('/api/cable-runs', { siteId: s.id, name: long, cableTypeId: 1, endALabel: 'A', endBLabel: 'B', installedLengthM: 100 });
+    expect(run.status).toBe(400);
+    expect(run.body.error.fields).toEqual([{ field: 'name', message: 'is too long once written out in full: its characters stand for 2160 letters and signs, at most 480' }]);
+    // Nothing was stored; a name that folds to 480 exactly is kept.
+    expect(await Site.count({ where: { name: long } })).toBe(0);
+    const fits = '\uFDFA'.repeat(26) + 'a'.repeat(12);
+    await sup.post('/api/sites', { name: fits }).expect(201);
+    const over = await sup.post('/api/sites', { name: `${fits}a` }).expect(400);
+    expect(over.body.error.fields[0].message).toBe('is too long once written out in full: its characters stand for 481 letters and signs, at most 480');
+  });
+
   it('make a search find a name whatever the letter case of any script', async () => {
     const sup = await api.as('supervisor');
     await sup.post('/api/sites', { name: 'ÉCOLE DU PONT' }).expect(201);
