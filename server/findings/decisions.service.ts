@@ -54,7 +54,9 @@ export async function reverseDecision(
   reviewer: SessionUser,
 ): Promise<{ finding: FindingView; history: FindingDecisionView[] }> {
   const to = await ctx.sequelize.transaction(async (transaction) => {
-    const finding = await Finding.findByPk(findingId, { transaction });
+    // Held until the decision is stored, as createTicket holds it: a ticket raised for the finding at the same
+    // moment either comes first (and the dismissal sees it) or sees the finding dismissed.
+    const finding = await Finding.findByPk(findingId, { transaction, lock: transaction.LOCK.UPDATE });
     if (!finding) throw AppError.notFound(`Finding ${findingId}`);
     const from = finding.status;
     const to: FindingStatus = input.to;

@@ -83,6 +83,10 @@ async function findingsOnActiveTickets(findingIds: number[], transaction?: Trans
 export async function createTicket(ctx: AppContext, actor: SessionUser, input: CreateInput): Promise<TicketDetail> {
   const ticketId = await ctx.sequelize.transaction(async (transaction) => {
     const ids = [...new Set(input.findingIds)];
+    // The findings' rows are held (in id order) until the ticket is stored: PostgreSQL runs transactions side by
+    // side, and without the hold two supervisors could each put the same finding on a ticket of their own, or a
+    // reviewer dismiss it while it goes on one (reverseDecision holds the same row). SQLite writes one at a time.
+    await Finding.findAll({ where: { id: ids }, attributes: ['id'], order: [['id', 'ASC']], lock: transaction.LOCK.UPDATE, transaction });
     const findings = await Finding.findAll({ where: { id: ids }, include: [{ association: 'cableRun' }, { association: 'site' }], transaction });
     const missing = ids.filter((id) => !findings.some((f) => f.id === id));
     if (missing.length) throw fieldError(422, 'unknown_finding', 'findingIds', `finding ${missing.join(', ')} does not exist`);
