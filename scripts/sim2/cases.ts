@@ -42,7 +42,7 @@ import { interpolate, type Quirks, record } from './instrument';
 import { ALL_LAYOUTS, decorate, PULSE_ONLY, type Sim2Layout, STARTS_AT_LAUNCH, writeTrace } from './layouts';
 import { dbPer100m, echoShape, settledShape } from './loss';
 import { makeRng, type Rng } from './rng';
-import { buildPhysical, type End, type Feature, lattice, type ReflectionType, type Route, toFdtd } from './route';
+import { type Arrival, buildPhysical, type End, type Feature, lattice, type ReflectionType, type Route, toFdtd } from './route';
 
 export interface Sim2Event {
   distanceM: number;
@@ -132,6 +132,25 @@ function drawRhoMagnitude(rng: Rng): number {
 }
 
 const tolerance = (d: number) => Math.max(0.5, 0.01 * d);
+
+/**
+ * Multiple reflections: every arrival after more than one bounce, at its apparent distance at the
+ * nominal VF, merged within half a tolerance. On a straight line a wave needs an odd number of bounces
+ * to come home (three at least), but where a line branches (a bridged tap) one can come home after
+ * two: back from the far end, into the stub at the junction without a bounce, and back from the stub's
+ * end. Such an arrival is a multiple like any other.
+ */
+export function echoList(arrivals: readonly Arrival[], vfNominal: number): Sim2Echo[] {
+  const echoes: Sim2Echo[] = [];
+  for (const a of arrivals) {
+    if (a.reflections < 2 || Math.abs(a.amplitude) < 3e-3) continue;
+    const d = (a.timeS * vfNominal * C0) / 2;
+    const near = echoes.find((e) => Math.abs(e.distanceM - d) < tolerance(d) / 2);
+    if (near) near.rho += a.amplitude;
+    else echoes.push({ distanceM: d, rho: a.amplitude });
+  }
+  return echoes;
+}
 
 interface Setup {
   mode: 'step' | 'pulse';
@@ -505,15 +524,7 @@ export function drawCase(seed: number, index: number, prefix: string): Sim2Case 
     lastD = ev.distanceM;
     seenBefore.push({ t, seen });
   }
-  // Multiple reflections: arrivals after three or more bounces, merged within a tolerance.
-  const echoes: Sim2Echo[] = [];
-  for (const a of arrivals) {
-    if (a.reflections < 3 || Math.abs(a.amplitude) < 3e-3) continue;
-    const d = (a.timeS * phys.vfNominal * C0) / 2;
-    const near = echoes.find((e) => Math.abs(e.distanceM - d) < tolerance(d) / 2);
-    if (near) near.rho += a.amplitude;
-    else echoes.push({ distanceM: d, rho: a.amplitude });
-  }
+  const echoes = echoList(arrivals, phys.vfNominal);
 
   const id = `${prefix}-${String(index).padStart(3, '0')}-${kind}-${Math.round(lengthM)}m-${su.mode}-${layout}`;
   return {

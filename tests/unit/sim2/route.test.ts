@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { Cable } from '../../../scripts/sim2/cables';
 import { C0, edge, simulatePort } from '../../../scripts/sim2/fdtd';
+import { echoList } from '../../../scripts/sim2/cases';
 import { buildPhysical, lattice, type Route, toFdtd } from '../../../scripts/sim2/route';
 
 const coax: Cable = {
@@ -113,5 +114,25 @@ describe('cable routes: solver against the lossless lattice', () => {
     const p = buildPhysical(wet);
     expect(p.events.map((e) => e.distanceM)).toEqual([12, expect.closeTo(24.5, 9), expect.closeTo(42.5, 9)]);
     expect(p.events[0].rho).toBeCloseTo(-1 / 9, 12); // (40 − 50)/(40 + 50)
+  });
+});
+
+describe('multiples through a bridged tap', () => {
+  it('come home after two bounces, and the case lists them as multiples', () => {
+    // 20 m of line shorted at its end, a 4 m open stub of the same line at 6 m. A junction of three equal
+    // lines passes 2/3 of a wave into each other line and sends back −1/3 (Pozar §2.3 with two lines in
+    // parallel as the load). Far end, then stub: 2/3 · (−1) · 2/3 · (+1) · 2/3 = −8/27, and the same
+    // the other way round (stub first): −16/27 in all, at 20 + 4 = 24 m apparent.
+    const route: Route = { cable: coax, lengthM: 20, end: { kind: 'short' }, features: [{ kind: 'tap', atM: 6, lengthM: 4 }] };
+    const arrivals = lattice(buildPhysical(route), 50, 1e-6, 1e-6);
+    const v = coax.vf * C0;
+    const twice = arrivals.filter((a) => a.reflections === 2 && Math.abs((a.timeS * v) / 2 - 24) < 1e-6);
+    expect(twice).toHaveLength(2);
+    expect(twice.reduce((s, a) => s + a.amplitude, 0)).toBeCloseTo(-16 / 27, 9);
+    const echoes = echoList(arrivals, coax.vf);
+    const at24 = echoes.find((e) => Math.abs(e.distanceM - 24) < 0.01);
+    expect(at24?.rho).toBeCloseTo(-16 / 27, 9);
+    // First-order arrivals are events, never multiples.
+    for (const e of echoes) expect(e.distanceM).not.toBeCloseTo(20, 1);
   });
 });
