@@ -54,6 +54,16 @@ export function calibrationView(c: CableCalibration): CalibrationView {
   };
 }
 
+/**
+ * The calibration to decide, its row held until the decision is stored: PostgreSQL runs transactions side by side,
+ * and without the hold two reviewers deciding it at once would both find it pending (one accepting it into the
+ * library while the other marks it rejected). SQLite writes one at a time.
+ */
+async function loadForDecision(id: number, transaction: Transaction) {
+  await CableCalibration.findByPk(id, { attributes: ['id'], lock: transaction.LOCK.UPDATE, transaction });
+  return loadCalibration(id, transaction);
+}
+
 export async function loadCalibration(id: number, transaction?: Transaction) {
   const c = await CableCalibration.findByPk(id, { include: INCLUDE, transaction });
   if (!c) throw AppError.notFound(`Calibration ${id}`);
@@ -206,7 +216,7 @@ export async function acceptCalibration(
   const sequelize = CableCalibration.sequelize!;
   const reviewerId = reviewer.id;
   const result = await sequelize.transaction(async (transaction) => {
-    const c = await loadCalibration(id, transaction);
+    const c = await loadForDecision(id, transaction);
     assertPending(c);
     const override = ownCalibrationOverride(c, reviewer, opts.note);
     const submitted = new Date(c.createdAt).toISOString().slice(0, 10);
@@ -245,7 +255,7 @@ export async function acceptCalibration(
 export async function rejectCalibration(id: number, reviewerId: number, reason: string) {
   const sequelize = CableCalibration.sequelize!;
   return sequelize.transaction(async (transaction) => {
-    const c = await loadCalibration(id, transaction);
+    const c = await loadForDecision(id, transaction);
     assertPending(c);
     await c.update({ status: 'rejected', reviewedById: reviewerId, reviewedAt: new Date(), reviewReason: reason }, { transaction });
     return calibrationView(await loadCalibration(id, transaction));
