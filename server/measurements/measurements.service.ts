@@ -186,6 +186,16 @@ export async function getMeasurement(id: number): Promise<{ measurement: Measure
   return { measurement: await view(m), history: await Promise.all(chain.map(view)) };
 }
 
+/**
+ * The reading to correct or withdraw, its row held until the change is stored: PostgreSQL runs transactions side
+ * by side, and without the hold two changes made at once would both find it active and fork its chain of versions
+ * (two corrections of one reading, or a correction of a withdrawn one). SQLite writes one at a time.
+ */
+async function loadForChange(id: number, transaction: Transaction) {
+  await Measurement.findByPk(id, { attributes: ['id'], lock: transaction.LOCK.UPDATE, transaction });
+  return load(id, transaction);
+}
+
 function mayChange(m: Measurement, user: SessionUser) {
   if (m.recordedById !== user.id && !can(user.role, 'findings:review'))
     throw AppError.forbidden('Only the person who recorded this reading, or a reviewer, may change it.');
@@ -202,7 +212,7 @@ export async function correctMeasurement(
   user: SessionUser,
 ): Promise<{ measurement: MeasurementView; history: MeasurementView[] }> {
   const newId = await ctx.sequelize.transaction(async (transaction) => {
-    const old = await load(id, transaction);
+    const old = await loadForChange(id, transaction);
     mayChange(old, user);
     if (input.kind !== old.kind)
       throw new AppError(422, 'wrong_kind', `Measurement ${id} is a ${old.kind} reading; a correction keeps its kind.`, {
@@ -242,7 +252,7 @@ export async function withdrawMeasurement(
   user: SessionUser,
 ): Promise<{ measurement: MeasurementView; history: MeasurementView[] }> {
   await ctx.sequelize.transaction(async (transaction) => {
-    const m = await load(id, transaction);
+    const m = await loadForChange(id, transaction);
     mayChange(m, user);
     await m.update(
       { status: 'withdrawn', withdrawnById: user.id, withdrawnAt: new Date(), withdrawReason: input.reason },
