@@ -36,5 +36,8 @@ describe('the readings of a fault, as a phone lists them', () => {
     const item = screen.getByTestId('location-methods-list').querySelector('li')!;
     // Beside a 95 % window, a bare "± 1.31 m" reads as that window's half-width.
     expect(item.textContent).toContain('44.4 m from end B · standard uncertainty ± 1.31 m · weight 100 %');
+    // The figure stays with its sign and unit when the line wraps on a phone.
+    const figure = [...item.querySelectorAll('span')].find((el) => el.textContent === '± 1.31 m');
+    expect(figure?.className).toContain('whitespace-nowrap');
   });
 });

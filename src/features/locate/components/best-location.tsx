@@ -111,7 +111,7 @@ export function LocationMethods({ best, unit, findingLink }: { best: BestLocatio
           <li key={m.id} className={`rounded-md border border-rule p-2 text-sm tabular ${m.used ? '' : 'text-ink-soft'}`}>
             <p className="font-semibold">{sourceLink(m, findingLink)}</p>
             <p>
-              {formatLength(m.distanceFromEndM, unit)} from end {m.fromEnd} · standard uncertainty ± {formatLength(m.standardUncertaintyM, unit)}
+              {formatLength(m.distanceFromEndM, unit)} from end {m.fromEnd} · standard uncertainty <span className="whitespace-nowrap">± {formatLength(m.standardUncertaintyM, unit)}</span>
               {m.weight !== null && ` · weight ${weightText(m.weight)}`}
             </p>
             <p className="text-xs">
