@@ -1,7 +1,7 @@
 import { cleanup, render, screen } from '@testing-library/react';
 import { afterEach, describe, expect, it } from 'vitest';
 import type { BestLocationView } from '../../shared/schemas/measurements';
-import { LocationMethods } from '../../src/features/locate/components/best-location';
+import { BestLocationHeadline, LocationMethods } from '../../src/features/locate/components/best-location';
 
 afterEach(cleanup);
 
@@ -25,6 +25,15 @@ const best = {
       note: null,
     },
   ],
+  distanceFromAM: 75.6,
+  windowStartM: 73.0,
+  windowEndM: 78.1,
+  standardUncertaintyM: 1.31,
+  routePosition: null,
+  consistent: true,
+  verdict: 'One reading only: nothing to compare it with.',
+  outlier: null,
+  checks: [],
   test: null,
   excluded: [],
   assumptions: [],
@@ -38,6 +47,17 @@ describe('the readings of a fault, as a phone lists them', () => {
     expect(item.textContent).toContain('44.4 m from end B · standard uncertainty ± 1.31 m · weight 100 %');
     // The figure stays with its sign and unit when the line wraps on a phone.
     const figure = [...item.querySelectorAll('span')].find((el) => el.textContent === '± 1.31 m');
+    expect(figure?.className).toContain('whitespace-nowrap');
+  });
+});
+
+describe('the best location headline', () => {
+  it('keeps the ± of the standard uncertainty with its figure and unit when the line wraps', () => {
+    const run = { name: 'Radio mast feeder BF-R1', endALabel: 'Control kiosk', endBLabel: 'Telemetry radio mast', installedLengthM: 120, markers: [] };
+    render(<BestLocationHeadline best={best} run={run as never} unit="m" strip={false} />);
+    const line = screen.getByTestId('best-window');
+    expect(line.textContent).toBe('95 % window: 73.0–78.1 m along the cable from end A · standard uncertainty ± 1.31 m');
+    const figure = [...line.querySelectorAll('span')].find((el) => el.textContent === '± 1.31 m');
     expect(figure?.className).toContain('whitespace-nowrap');
   });
 });

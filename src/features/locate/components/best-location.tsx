@@ -54,7 +54,7 @@ export function BestLocationHeadline({
           </p>
           <p className="text-base tabular" data-testid="best-window">
             <span className="font-semibold">95 % window:</span> {formatLengthRange(best.windowStartM!, best.windowEndM!, unit)} along the cable from end A
-            <span className="text-ink-soft"> · standard uncertainty ± {formatLength(best.standardUncertaintyM, unit)}</span>
+            <span className="text-ink-soft"> · standard uncertainty <span className="whitespace-nowrap">± {formatLength(best.standardUncertaintyM, unit)}</span></span>
           </p>
           {best.routePosition && (
             <p className="rounded-md bg-copper-light px-3 py-2 text-lg font-semibold text-ink">
