@@ -762,7 +762,9 @@ export async function rawFile(ctx: AppContext, id: number) {
 /** At most one reference per run and end; setting one clears the previous. */
 export async function setReference(sequelize: Sequelize, id: number, isReference: boolean) {
   await sequelize.transaction(async (transaction) => {
-    const trace = await Trace.findByPk(id, { transaction });
+    // Held while the checks run, as archiveTrace holds it: an archive at the same moment either comes first (and
+    // this sees the trace archived) or waits and sees it is the reference. PostgreSQL runs the two side by side.
+    const trace = await Trace.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
     if (!trace) throw AppError.notFound(`Trace ${id}`);
     if (isReference && trace.archivedAt) {
       // Archiving refuses the reference trace; an archived one does not become it either.
