@@ -33,6 +33,19 @@ describe('signing in', () => {
     });
   }
 
+  it('keeps the start page’s safety caution as tall as its words beside a longer column on a wide screen', async () => {
+    const page = await e2e.newPage(DESKTOP);
+    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor();
+    const caution = page.getByRole('note', { name: 'Safety caution' });
+    await caution.waitFor();
+    // Stretched to the height of the open repairs and links beside it, it was a tall empty yellow box.
+    const box = (await caution.boundingBox())!;
+    const words = (await caution.locator('ul').boundingBox())!;
+    expect(words.y + words.height).toBeGreaterThan(box.y + box.height - 40);
+    await page.close();
+  });
+
   it('refuses a wrong password with a clear message and stays on the sign-in page', async () => {
     const page = await e2e.newPage(PHONE);
     await signIn(page, e2e.baseUrl, 'tech@example.com', 'not-the-password');

@@ -110,7 +110,7 @@ export function HomePage() {
             </ul>
           </Card>
         </div>
-        {(fieldWorker || can('tickets:work')) && <SafetyCaution compact />}
+        {(fieldWorker || can('tickets:work')) && <SafetyCaution compact className="self-start" />}
       </div>
     </>
   );
