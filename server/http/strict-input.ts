@@ -128,3 +128,21 @@ export function uploadedFileName(originalname: string): string {
       .replace(/[\u0000-\u001F\u007F\u202A-\u202E\u2066-\u2069]/g, '')
   );
 }
+
+/**
+ * A file upload (multipart/form-data) is read as it arrives, uncompressed: the form reader does not undo a
+ * Content-Encoding. A compressed form would otherwise be refused as "not well-formed", and a form labelled
+ * compressed but sent plain would be stored as if the label were true; both are a 415 that says what to send.
+ */
+export const refuseEncodedForms: RequestHandler = (req, _res, next) => {
+  const encoding = String(req.headers['content-encoding'] ?? '').trim().toLowerCase();
+  if (!encoding || encoding === 'identity' || !req.is('multipart/form-data')) return next();
+  next(
+    new AppError(
+      415,
+      'body_encoding_unsupported',
+      `A file upload (multipart/form-data) is read uncompressed, and this one says Content-Encoding "${encoding}": send the form without Content-Encoding. Nothing was stored.`,
+      { fields: [{ field: 'Content-Encoding', message: 'must be absent (or identity) on a file upload' }] },
+    ),
+  );
+};
