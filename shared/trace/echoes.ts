@@ -75,7 +75,12 @@ function echoOf(cx: EchoContext, of: Array<number | null>, k: number): number | 
   const he = seenAt(e);
   for (let s = 0; s < k; s++) {
     const hs = seenAt(merged[s]);
-    if (of[s] !== null || he > hs) continue;
+    if (of[s] !== null) continue;
+    // Larger than the arrival it would copy: only a bridged tap's two ways round can make that.
+    if (he > hs) {
+      if (branchOf(cx, of, k, s)) return s;
+      continue;
+    }
     // An echo travels further than the wave it copies, so it is no sharper and cannot come early:
     // it may start late by its own spread, early only by the timing error of the sharper edge.
     const early = tolerance(e.riseSamples <= merged[s].riseSamples ? e : merged[s], rt[k]);
@@ -120,6 +125,37 @@ function bounceOf(cx: EchoContext, of: Array<number | null>, k: number, s: numbe
       const gap = rt[b] - rt[a];
       if (near(rt[s] + gap) && he < 1.5 * gain * hs + 0.02) return true;
       if (near(rt[s] + 2 * gap) && he < 1.5 * gain * gain * hs + 0.02) return true;
+    }
+  }
+  return false;
+}
+
+/**
+ * Is merged[k] the copy of merged[s] that went round a bridged tap: a junction a (a branch in parallel
+ * lowers the impedance, so a drop) and the stub's end b beyond it? The wave back from s passes the
+ * junction into the stub with 1 + ρ_a, is sent back by the stub's end with ρ_b (|ρ_b| ≤ 1; seen at the
+ * instrument through the junction both ways, as (1 + ρ_a)²·ρ_b) and leaves the junction as the copy did; the wave can also visit the stub first and s second, so the copy arrives
+ * rt_b − rt_a after s with 2·(1 + ρ_a)·ρ_b of it (Pozar §2.3, three lines at a node) and the sign of
+ * s times the sign of ρ_b. For three equal lines (ρ_a = −1/3) and an open stub that is 4/3 of s: larger
+ * than the arrival it copies, which a bounce between two reflectors on one line never is.
+ */
+function branchOf(cx: EchoContext, of: Array<number | null>, k: number, s: number): boolean {
+  const { merged, rt, own } = cx;
+  const e = merged[k];
+  const he = seenAt(e);
+  const hs = seenAt(merged[s]);
+  const sign = (m: Measured) => Math.sign(m.heightRaw ?? m.height);
+  const tol = tolerance(e, rt[k]);
+  for (let b = 1; b < k; b++) {
+    if (of[b] !== null || b === s) continue;
+    for (let a = 0; a < b; a++) {
+      if (of[a] !== null || a === s || own[a] >= 0 || own[a] < -0.6) continue;
+      if (sign(e) !== sign(merged[s]) * Math.sign(own[b])) continue;
+      const t = rt[s] + (rt[b] - rt[a]);
+      if (Math.abs(rt[k] - t) > tol) continue;
+      // b is seen through the junction both ways, (1 + ρ_a)²·ρ_b, whatever its own ρ was read as.
+      const gain = 2 * Math.min(1 + own[a], seenAt(merged[b]) / (1 + own[a]));
+      if (he < 1.2 * gain * hs + 0.02) return true;
     }
   }
   return false;

@@ -280,6 +280,29 @@ describe('echoes', () => {
     // A feature there larger than any bounce could be (|ρ_a|·A_b ≈ 0.13, with the 1.5 allowance 0.21) stays a fault.
     expect(findEchoes(merged(-0.3), (m) => m.onsetIdx, own).of).toEqual([null, null, null]);
   });
+  it('takes a bridged tap’s two ways round for an echo, though it is larger than the arrival it copies', () => {
+    // Three equal lines at the junction: ρ_a = −1/3, 2/3 passes into each other line (Pozar §2.3). An open
+    // stub's end at 400 samples is seen (2/3)²·1 = 0.444; the shorted far end at 900 is seen (2/3)²·(−1).
+    // Back from the far end, into the stub and back, and the other way round: 2·(2/3)³·(−1) = −0.593 at
+    // 900 + (400 − 100), larger than the −0.444 it copies.
+    const merged = (echo: number, at = 1200) => [
+      edge(-1 / 3, { onsetIdx: 100 }),
+      edge(4 / 9, { onsetIdx: 400 }),
+      edge(-4 / 9, { onsetIdx: 900 }),
+      edge(echo, { onsetIdx: at }),
+    ];
+    const own = [-1 / 3, 0.5, -0.5, 0];
+    // Seen from the junction the stub and the line beyond are alike (either is "the branch"), so the copy
+    // may be tied to either arrival.
+    const of = findEchoes(merged(-16 / 27), (m) => m.onsetIdx, own).of;
+    expect(of.slice(0, 3)).toEqual([null, null, null]);
+    expect([1, 2]).toContain(of[3]);
+    // The wrong sign (an open stub keeps the far end's sign), the wrong time or more than the two ways
+    // round can give (2·(2/3)·0.444 with a 1.2 allowance: 0.73) stays a fault.
+    expect(findEchoes(merged(+16 / 27), (m) => m.onsetIdx, own).of).toEqual([null, null, null, null]);
+    expect(findEchoes(merged(-16 / 27, 1290), (m) => m.onsetIdx, own).of).toEqual([null, null, null, null]);
+    expect(findEchoes(merged(-0.8), (m) => m.onsetIdx, own).of).toEqual([null, null, null, null]);
+  });
   it('never takes for an echo a feature that arrives before the path it would have travelled', () => {
     // A shunt read −0.37 at 1000 samples (rise 100) and a spread far end, −0.06 with a 600-sample rise. Its
     // re-reflection at the source would return at 2000 or later (a longer path only spreads it more), so an end
