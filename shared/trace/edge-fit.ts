@@ -816,11 +816,22 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     if (win.to - win.from < 8) continue;
     const shaped = bestShapeFit(ctx, win, model, m, lossSource);
     let { f, zeroPhase } = shaped;
+    const atFloor = (g: ModelFit | null) => g !== null && g.d < win.lo + 0.01 * (win.hi - win.lo);
+    let extra = 0;
     // A causal fit that runs into the earliest arrival tried (a lossy edge's foot lies further back than
     // its tangent reading suggests) has lost to the zero-phase shape unfairly: both are tried once more
     // with the search reaching a range further back.
-    if (zeroPhase && shaped.causal && shaped.causal.d < win.lo + 0.01 * (win.hi - win.lo)) {
-      const wider = eventWindow(ctx, events, k, win.hi - win.lo);
+    if (zeroPhase && atFloor(shaped.causal)) extra = win.hi - win.lo;
+    // A causal fit on the earliest arrival tried found no minimum, and would be dropped for the tangent
+    // reading (which a neighbour's tail or a spread pulse echo can put late). With the cable's loss known, the
+    // modelled edge says how far back its arrival can lie (earliestArrival): the search reaches back to there, once.
+    else if (!zeroPhase && f && atFloor(f) && lossSource === 'library') {
+      const ref = shape.reference === 'launch' ? input.launch.idx : shape.centre;
+      const reading = Math.min(m.onsetIdx, shape.reference === 'launch' ? m.onsetIdx : m.t50Idx) - ref;
+      extra = win.lo - earliestArrival(reading, f.middle, input.launch.riseSamples);
+    }
+    if (extra > 0) {
+      const wider = eventWindow(ctx, events, k, extra);
       if (wider.lo < win.lo - 1) {
         const again = bestShapeFit(ctx, wider, model, m, lossSource);
         if (again.f && acceptable(again.f, m, wider)) {
@@ -865,6 +876,17 @@ const scaled = (m: LossModel, k: number): LossModel => ({
   dielectricNpPerMPerHz: m.dielectricNpPerMPerHz * k,
   resistiveNpPerM: (m.resistiveNpPerM ?? 0) * k,
 });
+
+/**
+ * The earliest arrival an edge read by the tangent construction can have, in samples of delay: the
+ * construction lands before the edge's middle (on the skin effect's erfc edge, 0.04–0.5·a² before the
+ * arrival for a low point of 10–30 %, while the middle is 1.1·a² after it; onset.ts), and the launch it is
+ * timed from was read by the same construction, good to its own rise. So the arrival lies no further before the reading than
+ * the modelled edge's lag from arrival to middle (`middleLag`, the line's share only) plus the launch's rise.
+ */
+export function earliestArrival(reading: number, middleLag: number, launchRise: number): number {
+  return reading - Math.max(0, middleLag) - Math.max(1, launchRise);
+}
 
 /** A fit is kept when its delay is inside the searched range and its height is a believable correction of the reading. */
 function acceptable(f: ModelFit, m: Measured, win: EventWindow): boolean {
