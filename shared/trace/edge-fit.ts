@@ -467,6 +467,20 @@ function delaySigma(w: WindowData, t: Template, d: number, ss: number, fallback:
   return Math.min(fallback, Math.sqrt((2 * (ss / dof)) / curv));
 }
 
+/**
+ * Samples from the start of a step's values to its half height; for a pulse (`integrate`), to the half height
+ * of its running sum, the step it integrates to (half its area: on a skin-spread echo, far past its peak).
+ */
+export function halfHeightLag(values: Float64Array, integrate: boolean): number {
+  let v = values;
+  if (integrate) {
+    v = new Float64Array(values.length);
+    let acc = 0;
+    for (let i = 0; i < v.length; i++) v[i] = acc += values[i];
+  }
+  return middleOf({ values: v, start: 0, step: true });
+}
+
 /** Samples from the arrival to the template's half height (step) or peak (pulse). */
 function middleOf(t: Template): number {
   const v = t.values;
@@ -560,6 +574,8 @@ interface ModelFit {
   q: number;
   dq: number;
   middle: number;
+  /** Full-rate samples from the arrival to the half height of the edge in the step domain (a pulse's integral). */
+  halfLag: number;
   /** Points in the fitted window. */
   points: number;
 }
@@ -614,7 +630,11 @@ function fitWindow(
     best = held;
   }
   const sigma = Math.hypot(delaySigma(w, t, best.d, best.ss, (win.hi - win.lo) / q / 2, heldAt), heldGap / Math.sqrt(3));
-  const middle = withMiddle ? middleOf(t) - kernel.offset - middleOf(buildTemplate(launch, { values: Float64Array.of(1), offset: 0 }, ctx.shape.step)) : 0;
+  const launchOnly = buildTemplate(launch, { values: Float64Array.of(1), offset: 0 }, ctx.shape.step);
+  const middle = withMiddle ? middleOf(t) - kernel.offset - middleOf(launchOnly) : 0;
+  // The tangent reading is taken on the step-domain signal (a pulse record's integral): the lag it is bounded by
+  // is that of the integrated edge's half height, which a skin-spread pulse echo's long tail puts past its peak.
+  const halfLag = !withMiddle ? 0 : ctx.shape.step ? middle : halfHeightLag(t.values, true) - kernel.offset - halfHeightLag(launchOnly.values, true);
   return {
     d: best.d * q,
     sigma: sigma * q,
@@ -624,6 +644,7 @@ function fitWindow(
     q,
     dq: best.d,
     middle: middle * q,
+    halfLag: halfLag * q,
     points: w.y.length,
   };
 }
@@ -828,7 +849,7 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     else if (!zeroPhase && f && atFloor(f) && lossSource === 'library') {
       const ref = shape.reference === 'launch' ? input.launch.idx : shape.centre;
       const reading = Math.min(m.onsetIdx, shape.reference === 'launch' ? m.onsetIdx : m.t50Idx) - ref;
-      extra = win.lo - earliestArrival(reading, f.middle, input.launch.riseSamples);
+      extra = win.lo - earliestArrival(reading, f.halfLag, input.launch.riseSamples);
     }
     if (extra > 0) {
       const wider = eventWindow(ctx, events, k, extra);

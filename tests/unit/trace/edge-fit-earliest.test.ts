@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { earliestArrival } from '../../../shared/trace/edge-fit';
+import { earliestArrival, halfHeightLag } from '../../../shared/trace/edge-fit';
 import { erfc } from '../../../shared/trace/loss';
 import { measureOnset } from '../../../shared/trace/onset';
 
@@ -37,5 +37,36 @@ describe('the earliest arrival a tangent reading allows', () => {
       expect(earliest).toBeLessThan(arrival);
       expect(earliest).toBeCloseTo(reading - middleLag - 1, 9);
     }
+  });
+
+  it('bounds a pulse echo by the half area of its integral, which a skin-spread echo puts far past its peak', () => {
+    // The skin effect's echo of an impulse is the derivative of erfc(a / 2√t): it peaks at a²/6 and holds half
+    // its area at 1.0990·a² (Wigington and Nahman). Here a² = 400, as exact increments of the step over
+    // 200 000 samples, whose running sum then reaches erfc(a / 2√200000) = 0.9748 of the whole.
+    const a = 20;
+    const n = 200000;
+    const step = (t: number) => (t > 0 ? erfc(a / (2 * Math.sqrt(t))) : 0);
+    const echo = new Float64Array(n);
+    for (let i = 1; i < n; i++) echo[i] = step(i) - step(i - 1);
+    let peak = 0;
+    for (let i = 1; i < n; i++) if (echo[i] > echo[peak]) peak = i;
+    expect(Math.abs(peak - (a * a) / 6)).toBeLessThanOrEqual(1);
+    // Half of what the sum reaches: erfc(x) = 0.9748/2 by bisection, t = (a / 2x)².
+    const half = step(n - 1) / 2;
+    let lo = 0;
+    let hi = 2;
+    for (let it = 0; it < 60; it++) {
+      const mid = (lo + hi) / 2;
+      if (erfc(mid) > half) lo = mid;
+      else hi = mid;
+    }
+    const expected = (a / (2 * lo)) ** 2;
+    expect(expected).toBeCloseTo(414.7, 1);
+    expect(Math.abs(halfHeightLag(echo, true) - expected)).toBeLessThan(1);
+    expect(halfHeightLag(echo, true)).toBeGreaterThan(6 * peak);
+    // A step's own values need no integrating: the same half height, read straight off them.
+    const stepValues = new Float64Array(n);
+    for (let i = 0; i < n; i++) stepValues[i] = step(i);
+    expect(Math.abs(halfHeightLag(stepValues, false) - expected)).toBeLessThan(1);
   });
 });
