@@ -26,7 +26,7 @@ import { openStorage } from './storage';
 import { sessionSecret } from './db/settings';
 import { AppError, errorHandler } from './errors';
 import type { ApiRouter, RouteRecord } from './http/api-router';
-import { refuseEncodedForms, refuseNulBytes } from './http/strict-input';
+import { refuseEncodedForms, refuseNulBytes, refuseUnreadBodies } from './http/strict-input';
 import { staticClient } from './static-client';
 import { outboxRoutes } from './outbox/outbox.routes';
 import { dashboardRoutes } from './dashboard/dashboard.routes';
@@ -110,6 +110,7 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
   app.use(express.urlencoded({ extended: false, limit: '64kb' }));
   app.use('/api', refuseNulBytes);
   app.use('/api', refuseEncodedForms);
+  app.use('/api', refuseUnreadBodies);
 
   const secret = await sessionSecret(sequelize, config.sessionSecret);
   const sessions = createSessionMiddleware(config, sequelize, secret);

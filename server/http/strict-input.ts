@@ -146,3 +146,23 @@ export const refuseEncodedForms: RequestHandler = (req, _res, next) => {
     ),
   );
 };
+
+/**
+ * A request body in a type the server does not read (text/plain, text/csv, XML …) would reach the
+ * route as no body at all and be refused for its missing fields; say what is wrong instead: 415
+ * naming the type and what to send. Requests without a body pass.
+ */
+export const refuseUnreadBodies: RequestHandler = (req, _res, next) => {
+  if (req.headers['content-length'] === '0') return next(); // an empty body, whatever its type
+  const read = req.is(['application/json', 'application/x-www-form-urlencoded', 'multipart/form-data']);
+  if (read === null || read !== false) return next(); // null: no body
+  const type = String(req.headers['content-type'] ?? '').split(';')[0].trim() || 'no Content-Type';
+  next(
+    new AppError(
+      415,
+      'body_type_unsupported',
+      `The request body is sent as "${type}", which the server does not read: send JSON with Content-Type: application/json (a file upload as multipart/form-data). Nothing was stored.`,
+      { fields: [{ field: 'Content-Type', message: 'must be application/json, or multipart/form-data for a file upload' }] },
+    ),
+  );
+};

@@ -156,6 +156,25 @@ describe('POST /api/auth/login', () => {
     expect(res.body.error.code).toBe('invalid_json');
   });
 
+  it('says so when a body is sent in a type it does not read, and lets a body-less request through', async () => {
+    const c = await api.anonymous();
+    const res = await c.agent
+      .post('/api/auth/login')
+      .set('x-csrf-token', c.csrf)
+      .set('content-type', 'text/plain')
+      .send(JSON.stringify({ email: 'planner.test@example.com', password: TEST_PASSWORD }))
+      .expect(415);
+    expect(res.body.error).toEqual({
+      code: 'body_type_unsupported',
+      message:
+        'The request body is sent as "text/plain", which the server does not read: send JSON with Content-Type: application/json (a file upload as multipart/form-data). Nothing was stored.',
+      fields: [{ field: 'Content-Type', message: 'must be application/json, or multipart/form-data for a file upload' }],
+    });
+    // No body at all: the route answers for itself (here, the missing fields).
+    const empty = await c.agent.post('/api/auth/login').set('x-csrf-token', c.csrf).expect(400);
+    expect(empty.body.error.code).not.toBe('body_type_unsupported');
+  });
+
   it('says what is wrong with a compressed body that does not decompress, or an encoding it does not read', async () => {
     const c = await api.anonymous();
     const send = (encoding: string, body: Buffer) =>
