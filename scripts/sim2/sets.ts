@@ -25,7 +25,8 @@ export type SetName =
   | 'heldout7'
   | 'heldout8'
   | 'heldout9'
-  | 'check';
+  | 'check'
+  | 'heldout10';
 
 const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   tuning: { seed: 0x51a7e, count: 80 },
@@ -56,6 +57,8 @@ const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   // A check set for judging each engine change during a round, so a change that helps only the cases it was
   // tuned on shows up before the held-out run: its summary lines may be read, its cases never printed or inspected.
   check: { seed: 0x7c4a9e31, count: 120 },
+  // A tenth, drawn after the ninth had been run once on the final engine of its round, for the next round: the same rules apply.
+  heldout10: { seed: 0x5be0cd19, count: 120 },
 };
 
 /** Seed of case i of a set: a splitmix-style scramble of the set's seed and the index. */
