@@ -846,7 +846,10 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     // A causal fit on the earliest arrival tried found no minimum, and would be dropped for the tangent
     // reading (which a neighbour's tail or a spread pulse echo can put late). With the cable's loss known, the
     // modelled edge says how far back its arrival can lie (earliestArrival): the search reaches back to there, once.
-    else if (!zeroPhase && f && atFloor(f) && lossSource === 'library') {
+    // Only where the edge is as slow as that loss makes it: a recorded edge sharper than the model's lag from
+    // arrival to middle says the library's loss overstates this line's, and its modelled lag would put the
+    // arrival early by the difference; the tangent reading stands there.
+    else if (!zeroPhase && f && atFloor(f) && lossSource === 'library' && m.riseSamples >= f.middle) {
       const ref = shape.reference === 'launch' ? input.launch.idx : shape.centre;
       const reading = Math.min(m.onsetIdx, shape.reference === 'launch' ? m.onsetIdx : m.t50Idx) - ref;
       extra = win.lo - earliestArrival(reading, f.halfLag, input.launch.riseSamples);
