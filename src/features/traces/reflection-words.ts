@@ -1,6 +1,9 @@
 import type { ReflectionEvent } from '../../../shared/schemas/trace-analysis';
 
-/** The engine's kinds, in words. The engine types them from the event's own ρ: open ≥ +0.8, short ≤ −0.8. */
+/**
+ * The engine's kinds, in words. The engine types them from the event's own ρ: open ≥ +0.8, short ≤ −0.8,
+ * with wider bands for a last, loss-spread end (shared/trace/classify.ts), which the meaning then says.
+ */
 export const TYPE_WORDS: Record<ReflectionEvent['type'], string> = {
   open: 'Open',
   short: 'Short',
@@ -34,8 +37,12 @@ export function eventMeaning(e: Pick<ReflectionEvent, 'type' | 'reflectionCoeffi
   const size = Math.abs(rho);
   switch (e.type) {
     case 'open':
+      if (rho < 0.8)
+        return 'Read as an open though ρ is below +0.80: nothing real follows it and its edge is spread by the cable’s loss, which takes more of a far end than the correction can be sure to give back. Likely the cable ends or a conductor is broken here; confirm from the other end.';
       return 'A full open: the cable ends or a conductor is broken here.';
     case 'short':
+      if (rho > -0.8)
+        return 'Read as a short though ρ is above −0.80: nothing real follows it and its edge is spread by the cable’s loss, which takes more of a far end than the correction can be sure to give back. Likely the conductors touch here; confirm from the other end.';
       return 'A full short: the conductors touch, or nearly, here.';
     case 'impedance-drop':
       if (size >= 0.3) return 'A strong drop, short of a full short (that reads beyond −0.80): a low-resistance fault, heavy water or a crushed section.';
