@@ -59,6 +59,24 @@ function isBlank(c: number): boolean {
   return c === 32 || c === 9 || c === LF || c === CR || c === 11 || c === 12;
 }
 
+/**
+ * The byte order of UTF-16 text saved without its byte-order mark, or null: over the first 512 byte
+ * pairs, the NUL sits on the same side of every pair and the other side is printable ASCII or a line
+ * break, as CSV text in UTF-16 is. Anything less regular is not taken for text.
+ */
+function bareUtf16(bytes: Uint8Array): 'utf-16le' | 'utf-16be' | null {
+  const n = Math.min(bytes.length, 1024) & ~1;
+  if (n < 8) return null;
+  const ascii = (c: number) => c === 9 || c === 10 || c === 13 || (c >= 32 && c < 127);
+  let le = true;
+  let be = true;
+  for (let i = 0; i < n; i += 2) {
+    le &&= bytes[i + 1] === 0 && ascii(bytes[i]);
+    be &&= bytes[i] === 0 && ascii(bytes[i + 1]);
+  }
+  return le ? 'utf-16le' : be ? 'utf-16be' : null;
+}
+
 /** The trace file as UTF-8 bytes, checked for size, emptiness and binary content. */
 export function traceBytes(input: string | Uint8Array, maxBytes: number): TraceBytes {
   let bytes: Uint8Array;
@@ -83,6 +101,13 @@ export function traceBytes(input: string | Uint8Array, maxBytes: number): TraceB
   while (first < bytes.length && isBlank(bytes[first])) first++;
   if (first >= bytes.length) throw new TraceInputError('EMPTY_FILE', 'the file is empty; expected a header and rows of numbers');
   if (bytes.subarray(start, start + 65536).indexOf(0) >= 0) {
+    // UTF-16 saved without its byte-order mark: text of this kind is ASCII, so every other byte is NUL.
+    const order = bareUtf16(bytes);
+    if (order) {
+      bytes = new TextEncoder().encode(new TextDecoder(order).decode(bytes));
+      if (bytes.length > maxBytes) throw tooLarge(maxBytes);
+      return traceBytes(bytes, maxBytes);
+    }
     throw new TraceInputError('NOT_TEXT', 'the file is not text (it contains NUL bytes); expected a CSV export');
   }
   if (bytes.indexOf(LF, start) < 0 && bytes.indexOf(CR, start) >= 0) {

@@ -492,6 +492,14 @@ describe('parseTraceCsv from bytes', () => {
     const text = ['time_ns,voltage_V', ...col((i) => `${i},${i / 2}`)].join('\n');
     const utf16 = Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(text, 'utf16le')]);
     expect(parseTraceCsv(utf16)).toEqual(parseTraceCsv(text));
+    // Saved without the mark, in either byte order: every other byte is NUL, the rest ASCII text.
+    const bare = Buffer.from(text, 'utf16le');
+    expect(parseTraceCsv(bare)).toEqual(parseTraceCsv(text));
+    const swapped = Buffer.from(bare);
+    swapped.swap16();
+    expect(parseTraceCsv(swapped)).toEqual(parseTraceCsv(text));
+    // A NUL in text that is not UTF-16 is still refused as binary.
+    expect(() => parseTraceCsv(Buffer.concat([Buffer.from('time_ns,v\n0,1\n1'), Buffer.from([0]), Buffer.from(',2\n')]))).toThrow(/not text/);
   });
 });
 
