@@ -283,7 +283,8 @@ export function describeCrossings(pos: RoutePosition, style: LengthStyle): strin
 
 /**
  * The sentence a crew digs by, e.g.
- * "18.4 m past manhole MH-3 toward pedestal P-7; dig on the ground 17.2–19.6 m past MH-3".
+ * "18.4 m past manhole MH-3 toward pedestal P-7; dig on the ground 17.2–19.6 m past MH-3";
+ * between two poles, "… search the span 17.2–19.6 m past P-8".
  * It reads from the end the trace was taken at.
  */
 export function describeRoutePosition(pos: RoutePosition, style: LengthStyle): string {
@@ -297,7 +298,9 @@ export function describeRoutePosition(pos: RoutePosition, style: LengthStyle): s
     }
     return `beyond the far end of the cable by ${len(by)}: check the installed length and the velocity factor`;
   }
-  const dig = `dig ${describeDigWindow(pos, style)}`;
+  // Between two poles the cable is in the air: the window is searched along the span, not dug.
+  const aerial = pos.from.kind === 'marker' && pos.toward.kind === 'marker' && pos.from.description === 'pole' && pos.toward.description === 'pole';
+  const dig = aerial ? `search the span ${describeDigWindow(pos, style).replace(/^on the ground /, '')}` : `dig ${describeDigWindow(pos, style)}`;
   if (pos.inSlackAt) {
     return `in the slack coil at ${placeName(pos.from)} (toward ${placeName(pos.toward)}); ${dig}`;
   }

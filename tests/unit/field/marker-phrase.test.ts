@@ -36,6 +36,6 @@ describe('a marker named with its kind', () => {
     expect(describeRoutePosition(p, 'm')).toBe('161.0 m past Pole 9 toward splice SP-4; dig on the ground 158.0–164.0 m past Pole 9');
     // 300 m from A: 295 m of route, between Pole 3 and Pole 9.
     const q = routePosition(run, 'A', 300, { startM: 299, endM: 301 });
-    expect(describeRoutePosition(q, 'm')).toBe('85.0 m past Pole 3 toward Pole 9; dig on the ground 84.0–86.0 m past Pole 3');
+    expect(describeRoutePosition(q, 'm')).toBe('85.0 m past Pole 3 toward Pole 9; search the span 84.0–86.0 m past Pole 3');
   });
 });

@@ -192,3 +192,24 @@ describe('route position with slack (hand-worked)', () => {
     expect(routeLengthM(run)).toBe(487);
   });
 });
+
+describe('an aerial span', () => {
+  it('is searched along the span between two poles, not dug; a buried stretch is still dug', () => {
+    // Poles at 100 m and 150 m, a handhole at 250 m, no slack: 120 m of cable from A is 20 m past P-1.
+    const overhead: RunLike = {
+      installedLengthM: 300,
+      endALabel: 'Yard',
+      endBLabel: 'Cabinet',
+      markers: [
+        { label: 'P-1', kind: 'pole', chainageM: 100, slackM: 0 },
+        { label: 'P-2', kind: 'pole', chainageM: 150, slackM: 0 },
+        { label: 'HH-1', kind: 'handhole', chainageM: 250, slackM: 0 },
+      ],
+    };
+    const span = routePosition(overhead, 'A', 120, { startM: 118, endM: 122 });
+    expect(describeRoutePosition(span, 'm')).toBe('20.0 m past pole P-1 toward pole P-2; search the span 18.0–22.0 m past P-1');
+    // Between the second pole and a handhole the cable goes underground somewhere: dug as before.
+    const down = routePosition(overhead, 'A', 200, { startM: 198, endM: 202 });
+    expect(describeRoutePosition(down, 'm')).toBe('50.0 m past pole P-2 toward handhole HH-1; dig on the ground 48.0–52.0 m past P-2');
+  });
+});
