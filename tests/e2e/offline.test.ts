@@ -57,6 +57,8 @@ describe('a technician with no signal', () => {
     expect(await page.getByTestId('field-data-age').textContent()).toMatch(
       /^Saved .* ago .*: \d+ sites?, \d+ cable runs? with their route markers, \d+ cable types? of the library\.$/,
     );
+    // Nothing has been sent from this phone yet, which the sync line says in words beside the saved field data.
+    expect(await page.getByTestId('device-last-sync').textContent()).toBe('Nothing sent from this phone yet');
     await offlineReady(page);
 
     await e2e.context.setOffline(true);

@@ -99,7 +99,7 @@ export function DevicePage() {
               <dd data-testid="device-last-sync">
                 {d.last
                   ? `${formatDateTime(d.last.at)} (${formatAge(d.last.at)}), ${d.last.problem ? 'stopped' : `${countOf(d.last.sent, 'item')} sent`}`
-                  : 'Not yet'}
+                  : 'Nothing sent from this phone yet'}
               </dd>
             </dl>
             {d.last?.problem && (
