@@ -33,7 +33,8 @@ function findingRows(f: Finding, trace: Trace | null, run: CableRun, unit: Lengt
     // Under a best location these rows are the one TDR reading this finding was made from.
     [underBest ? 'This TDR reading' : 'Distance', `${formatLength(f.distanceM, unit)} along the cable from end ${end} (${endLabel}), ± ${formatLength(f.uncertaintyM, unit)} (95 %)`],
     ['Route position', whereText(f, unit)],
-    ['Cable-length window', `${formatLengthRange(f.windowStartM, f.windowEndM, unit)} along the cable from end ${end}, slack included`],
+    // Beside the best location's dig window, this one is said to be the one reading's own (under "This TDR reading").
+    [underBest ? 'Its own window' : 'Cable-length window', `${formatLengthRange(f.windowStartM, f.windowEndM, unit)} along the cable from end ${end}, slack included`],
   ];
 }
 
