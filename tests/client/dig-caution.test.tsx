@@ -21,7 +21,7 @@ describe('the distance block of an event not yet decided', () => {
     const place = screen.getByTestId('route-position');
     expect(place.textContent).toMatch(/past marker Mast foot toward handhole HH-A; dig on the ground/);
     const caution = screen.getByTestId('dig-caution');
-    expect(caution.textContent).toMatch(/^Before anyone digs: cable de-energised, locked out and proven dead, stored charge discharged/);
+    expect(caution.textContent).toMatch(/^Before anyone digs or climbs: cable de-energised, locked out and proven dead, stored charge discharged/);
     // The caution follows the sentence in reading order, within the same block.
     expect(place.closest('p')!.nextElementSibling).toBe(caution);
   });

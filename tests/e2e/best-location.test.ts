@@ -146,7 +146,7 @@ describe('the best location in the browser', () => {
     expect(missingEnds).toEqual([]);
     // On a phone the page's full safety caution comes screens later: a short one stands right under the place to dig.
     const dig = page.getByTestId('dig-caution');
-    expect(await dig.textContent()).toMatch(/^Before anyone digs: cable de-energised, locked out and proven dead/);
+    expect(await dig.textContent()).toMatch(/^Before anyone digs or climbs: cable de-energised, locked out and proven dead/);
     const digBox = (await dig.boundingBox())!;
     const placeBox = (await page.getByTestId('best-route-position').boundingBox())!;
     expect(digBox.y).toBeGreaterThan(placeBox.y);

@@ -24,8 +24,8 @@ export function SafetyCaution({ compact = false, className = '' }: { compact?: b
 export function DigCaution({ className = '' }: { className?: string }) {
   return (
     <p className={`rounded-md border-l-4 border-warn bg-warn-light px-3 py-2 text-sm text-ink ${className}`} data-testid="dig-caution">
-      Before anyone digs: cable de-energised, locked out and proven dead, stored charge discharged, and other utilities located. Follow local
-      codes and the permit for the work.
+      Before anyone digs or climbs: cable de-energised, locked out and proven dead, stored charge discharged, and other utilities and lines
+      located. Follow local codes and the permit for the work.
     </p>
   );
 }
