@@ -3,6 +3,7 @@ import { Op } from 'sequelize';
 import type { PassportStatic } from 'passport';
 import { ChangePasswordSchema, LoginSchema, PreferencesSchema } from '../../shared/schemas/users';
 import type { AppContext } from '../context';
+import { DEMO_PASSWORD, DEMO_USERS } from '../db/demo/organisation';
 import { Session, User } from '../db/models';
 import { AppError } from '../errors';
 import { ApiRouter, handle } from '../http/api-router';
@@ -44,6 +45,20 @@ export function authRoutes(ctx: AppContext, deps: { passport: PassportStatic; cs
   r.get('/csrf', 'public', (req, res) => {
     res.json({ csrfToken: deps.csrf.token(req, res) });
   });
+
+  // While the demo scenario is on (a loopback-only server unless told otherwise), the sign-in page lists its
+  // accounts and their published password; the accounts still active are listed, nothing otherwise.
+  r.get(
+    '/demo',
+    'public',
+    handle(async () => {
+      if (!ctx.config.demoData) return { demo: false };
+      const active = await User.findAll({ where: { email: DEMO_USERS.map((u) => u.email), active: true }, attributes: ['email', 'role'] });
+      const order = DEMO_USERS.map((u) => u.email as string);
+      const accounts = active.map((u) => ({ email: u.email, role: u.role })).sort((a, b) => order.indexOf(a.email) - order.indexOf(b.email));
+      return accounts.length ? { demo: true, password: DEMO_PASSWORD, accounts } : { demo: false };
+    }),
+  );
 
   r.post('/login', 'public', ...signInLimits(ctx.config.login, ctx.security, (prefix) => limitStore(ctx.sequelize, prefix)), (req, res, next) => {
     req.body = LoginSchema.parse(req.body);

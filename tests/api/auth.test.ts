@@ -203,6 +203,14 @@ describe('POST /api/auth/login', () => {
   });
 });
 
+describe('GET /api/auth/demo', () => {
+  it('lists no accounts when the server runs without its demo data', async () => {
+    const c = await api.anonymous();
+    const res = await c.get('/api/auth/demo').expect(200);
+    expect(res.body).toEqual({ demo: false });
+  });
+});
+
 describe('GET /api/auth/me', () => {
   it('answers 401 without a session', async () => {
     const c = await api.anonymous();

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ROLE_PERMISSIONS } from '../../shared/auth/permissions';
+import { ROLE_LABELS as ROLE_LABEL, ROLE_PERMISSIONS } from '../../shared/auth/permissions';
 import { NAV } from '../../src/app/nav';
 import { DEMO_USERS } from '../../server/db/demo/organisation';
 import { hashPassword } from '../../server/auth/passwords';
@@ -15,6 +15,23 @@ afterAll(async () => {
 });
 
 const roles = ['technician', 'supervisor', 'planner', 'admin'] as const;
+
+describe('the demo accounts on the sign-in page', () => {
+  it('lists the demo accounts while the demo data is on, and one tap fills the form', async () => {
+    const page = await e2e.newPage(PHONE);
+    await page.goto(`${e2e.baseUrl}/sign-in`);
+    const panel = page.getByTestId('demo-accounts');
+    await panel.waitFor();
+    expect(await panel.getByRole('button').allTextContents()).toEqual(DEMO_USERS.map((u) => `${u.email}${ROLE_LABEL[u.role]}`));
+    await e2e.screenshot(page, 'sign-in-demo-accounts-phone');
+    await panel.getByRole('button', { name: /^supervisor@example\.com/ }).click();
+    expect(await page.getByLabel('E-mail').inputValue()).toBe('supervisor@example.com');
+    expect(await page.getByLabel('Password').inputValue()).toBe('rholog-demo');
+    await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.close();
+  });
+});
 
 describe('signing in', () => {
   for (const role of roles) {

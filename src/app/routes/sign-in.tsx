@@ -1,3 +1,4 @@
+import { useQuery } from '@tanstack/react-query';
 import { useState, type FormEvent } from 'react';
 import { Navigate, useNavigate, useSearchParams } from 'react-router-dom';
 import { Button } from '../../components/ui/button';
@@ -5,7 +6,25 @@ import { TextField } from '../../components/ui/field';
 import { Notice } from '../../components/ui/notice';
 import { useMe } from '../../features/auth/api/get-me';
 import { useLogin } from '../../features/auth/api/login';
+import { ROLE_LABELS, type Role } from '../../../shared/auth/permissions';
+import { api } from '../../lib/api-client';
 import { paths } from '../paths';
+
+interface DemoAccounts {
+  demo: boolean;
+  password?: string;
+  accounts?: Array<{ email: string; role: Role }>;
+}
+
+/** The demo scenario's accounts, listed on the sign-in page only while the server runs with its demo data. */
+function useDemoAccounts() {
+  return useQuery({
+    queryKey: ['auth', 'demo'],
+    queryFn: () => api<DemoAccounts>('/api/auth/demo', { allowUnauthenticated: true }),
+    staleTime: Infinity,
+    retry: false,
+  });
+}
 
 export function SignInPage() {
   const [params] = useSearchParams();
@@ -16,6 +35,7 @@ export function SignInPage() {
   const login = useLogin();
   const [email, setEmail] = useState('');
   const [password, setPassword] = useState('');
+  const demo = useDemoAccounts().data;
 
   if (me.data) return <Navigate to={safeNext} replace />;
 
@@ -55,6 +75,29 @@ export function SignInPage() {
             {login.isPending ? 'Signing in…' : 'Sign in'}
           </Button>
         </form>
+        {demo?.demo && demo.accounts && (
+          <section className="mt-4 rounded-lg bg-card p-5 text-sm shadow-lg" aria-label="Demo accounts" data-testid="demo-accounts">
+            <h2 className="font-bold">Demo data is on</h2>
+            <p className="mt-1 text-mist">
+              An invented utility to try Rholog with. Every demo account has the password <strong className="text-ink">{demo.password}</strong>; pick one
+              to fill the form.
+            </p>
+            <ul className="mt-3 space-y-2">
+              {demo.accounts.map((a) => (
+                <li key={a.email}>
+                  <button
+                    type="button"
+                    className="flex min-h-11 w-full items-center justify-between rounded-md border border-rule px-3 text-left hover:bg-paper"
+                    onClick={() => (setEmail(a.email), setPassword(demo.password ?? ''))}
+                  >
+                    <span className="font-semibold">{a.email}</span>
+                    <span className="text-mist">{ROLE_LABELS[a.role]}</span>
+                  </button>
+                </li>
+              ))}
+            </ul>
+          </section>
+        )}
       </div>
     </div>
   );
