@@ -27,8 +27,27 @@ export async function freshDatabase(): Promise<{ url: string; dir: string; clean
       cleanup: async () => {
         const c = new pg.Client({ connectionString: base });
         await c.connect();
-        await c.query(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`);
-        await c.end();
+        try {
+          // FORCE ends this role's own sessions on the database, but not a server process of another role: an
+          // autovacuum worker busy on it is refused (42501), one still leaving holds it (55006). Such a worker
+          // is gone within moments, so the drop is tried again for a few seconds; a database still there after
+          // that is one unique name left on the test server, which no other test file uses.
+          for (let attempt = 0; ; attempt++) {
+            try {
+              await c.query(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`);
+              break;
+            } catch (err) {
+              const code = (err as { code?: string }).code;
+              if ((code !== '42501' && code !== '55006') || attempt >= 30) {
+                if (code === '42501' || code === '55006') break;
+                throw err;
+              }
+              await new Promise((r) => setTimeout(r, 200));
+            }
+          }
+        } finally {
+          await c.end();
+        }
         fs.rmSync(dir, { recursive: true, force: true });
       },
     };
