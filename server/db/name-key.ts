@@ -28,6 +28,7 @@ export function keepNameKey(model: ModelStatic<Model>): void {
     hooks.removeHook(kind, 'nameKey'); // models are initialised again in tests: one hook of each kind
     hooks.addHook(kind, 'nameKey', fn);
   };
+  add('beforeValidate', (row: Row) => set(row));
   add('beforeSave', (row: Row, options: { fields?: string[] }) => {
     set(row);
     if (options.fields && row.changed('nameKey') && !options.fields.includes('nameKey')) options.fields.push('nameKey');

@@ -155,7 +155,7 @@ export const refuseEncodedForms: RequestHandler = (req, _res, next) => {
 export const refuseUnreadBodies: RequestHandler = (req, _res, next) => {
   if (req.headers['content-length'] === '0') return next(); // an empty body, whatever its type
   const read = req.is(['application/json', 'application/x-www-form-urlencoded', 'multipart/form-data']);
-  if (read !== false) return next(); // null: no body; a type name: one the server reads
+  if (read === null || read !== false) return next(); // null: no body
   const type = String(req.headers['content-type'] ?? '').split(';')[0].trim() || 'no Content-Type';
   next(
     new AppError(
