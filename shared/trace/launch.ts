@@ -342,6 +342,98 @@ function launchBeforeRecord(rec: TraceRecord, lv: Levels, positiveOnly: boolean,
   };
 }
 
+/**
+ * Smallest move, in launch heights beyond what the line past a fault can return (see
+ * wideLaunchBeforeRecord), that a step record cannot show: a floor for a lossy line's slow creep
+ * after the fault's edge (from memory: a few hundredths of the launch).
+ */
+const RETURN_MARGIN = 0.05;
+
+/**
+ * Deepest fall, as the level left after it in launch heights from 0 V, that a step reading would take
+ * as a short (ρ ≤ SHORT_MAX_RHO of classify.ts, −0.8).
+ */
+const SHORT_LEVEL_MAX = 0.2;
+
+/**
+ * A pulse record in volts that starts during a launch too wide for launchBeforeRecord (its echoes fill
+ * the record after it, so it rests nowhere for long): it opens on the launch, falls back near 0 V, where
+ * a pulse generator's line idles, rests there, and then moves again sooner and further than a step
+ * record can. Read as a step (whose level before its launch is 0 V), the fall is a fault of
+ * ρ = −1 + ε, ε the level left after it in launch heights. What the line beyond returns crosses that
+ * fault twice, each arrival at most (1 + ρ)(1 − ρ) ≤ 2ε of its size (Pozar §2.3), and arrivals follow
+ * one another no faster than the quiet stretch after the fall lasted (the round trip from the fault to
+ * the first thing beyond it): by a window's end, at most 2ε for each such stretch since the fall. The
+ * source's re-reflection of the fault's wave comes back at twice the fault's round trip: since the
+ * record began after the launch's onset, no sooner than twice the fall's sample. A move larger than
+ * that bound (plus RETURN_MARGIN and five deviations of the noise over the window), held over a window
+ * as long as the fall, before then, is an echo: the launch is the pulse before it.
+ */
+function wideLaunchBeforeRecord(rec: TraceRecord, lv: Levels): Launch | null {
+  const { y, n } = rec;
+  const sign = Math.sign(lv.bStart) || 1;
+  let top = 0;
+  let iDown = -1;
+  for (let i = 0; i < n; i++) {
+    const d = sign * ys3(y, i);
+    if (d > top) top = d;
+    if (d < 0.5 * top) {
+      iDown = i;
+      break;
+    }
+  }
+  if (iDown < 3 || top < lv.launchMin) return null;
+  const down = fallSamples(y, iDown, sign, 0, top);
+  // The fall has settled half its length past its 10 % point: the level there, over one fall.
+  const from = down.i10 + Math.ceil(down.fall / 2);
+  const len = down.fall;
+  if (from + 2 * len > n) return null;
+  const rest = sampleMedian(y, from, from + len);
+  const eps = Math.abs(rest) / top;
+  if (!(eps <= SHORT_LEVEL_MAX)) return null;
+  const noise = (5 * lv.noise) / Math.sqrt(len);
+  const last = Math.min(n, 2 * iDown) - len;
+  const stride = Math.max(1, Math.floor(len / 4));
+  // The quiet stretch: up to the first window that leaves the level by more than its noise.
+  let quiet = -1;
+  let returns = false;
+  for (let j = from + len; j <= last && !returns; j += stride) {
+    const move = Math.abs(sampleMedian(y, j, j + len) - rest);
+    if (quiet < 0 && move > noise) quiet = j - iDown;
+    if (quiet > 0) returns = move > (2 * eps * Math.max(1, (j + len - iDown) / quiet) + RETURN_MARGIN) * top + noise;
+  }
+  if (!returns) return null;
+  // The launch against the level the line rests at.
+  let peak = 0;
+  let iFall = -1;
+  for (let i = 0; i < n; i++) {
+    const d = sign * (ys3(y, i) - rest);
+    if (d > peak) peak = d;
+    if (d < 0.5 * peak) {
+      iFall = i;
+      break;
+    }
+  }
+  if (iFall < 3) return null;
+  const { i10, fall } = fallSamples(y, iFall, sign, rest, peak);
+  return {
+    found: true,
+    onsetInRecord: false,
+    settleIdx: Math.min(n - 1, i10 + fall),
+    idx: 0,
+    sign,
+    baseline: rest,
+    height: sign * peak,
+    mode: 'pulse',
+    modeDetected: true,
+    riseSamples: fall,
+    widthSamples: iFall - Math.min(0, lv.zeroIdx),
+    zeroIdx: lv.zeroIdx,
+    clipped: false,
+    restAt: from + len / 2,
+  };
+}
+
 /** A flat run at the record's own extreme that the edge hits while still steep. */
 function isClipped(y: Float64Array, from: number, to: number, sign: number): boolean {
   // A noise-free record's tops are flat anyway: only a noisy baseline makes flatness telling.
@@ -516,6 +608,9 @@ export function findLaunch(record: TraceRecord, modeOpt: 'auto' | Mode, pulseHin
     if (before) return { ...before, modeDetected: modeOpt === 'auto' };
   }
   if (rec.unit === 'V' && Math.abs(lv.bStart) > 0.35 * lv.range && Math.sign(lv.bStart) === Math.sign(lv.hi + lv.lo)) {
+    // A launch too wide for launchBeforeRecord, with an echo no step record can show after it.
+    const wide = modeOpt !== 'step' ? wideLaunchBeforeRecord(rec, lv) : null;
+    if (wide) return { ...wide, modeDetected: modeOpt === 'auto' };
     // The record begins after the launch's onset, at the incident level or still on the launch
     // edge (a record without pre-trigger opens on it, its axis zero at the edge's middle): the
     // incident level is where that opening climb settles, as for an edge inside the record.

@@ -203,9 +203,12 @@ function pulseSignal(rec: TraceRecord, L: Launch, sigma0: number): { u: Float64A
   const slope = resting?.slope ?? (Number.isFinite(m1) && Number.isFinite(m2) && c2 > c1 ? (m2 - m1) / (c2 - c1) : 0);
   // A launch after a pre-trigger stretch: the line continues the level the record starts from
   // (the median of up to 2000 samples before the launch's foot, as launch.ts reads it).
+  // A wide launch before the record was seen resting just past it (Launch.restAt): the line continues
+  // that level, however long its echoes rest elsewhere, since that stretch is what told the launch apart.
   const preEnd = L.idx - 2;
-  const anchored = L.found && L.onsetInRecord && preEnd >= PRE_TRIGGER_MIN && a0 < n - 8;
-  const anchor = { level: L.baseline, at: (Math.max(0, preEnd - 2000) + preEnd) / 2 };
+  const restSeen = L.found && L.restAt !== undefined && a0 < n - 8;
+  const anchored = restSeen || (L.found && L.onsetInRecord && preEnd >= PRE_TRIGGER_MIN && a0 < n - 8);
+  const anchor = { level: L.baseline, at: L.restAt ?? (Math.max(0, preEnd - 2000) + preEnd) / 2 };
   const tol = Math.max(3 * sigma0, 1.5 * q);
   const drift = anchored ? restingDrift(y, a0, anchor, tol, (DRIFT_MAX * Math.abs(scale)) / Math.max(1, n - 1)) : 0;
   const halvesAt = (i: number) => (i < a0 ? L.baseline : m1 + slope * (i - c1));
@@ -216,7 +219,7 @@ function pulseSignal(rec: TraceRecord, L: Launch, sigma0: number): { u: Float64A
     for (let i = a0; i < n; i += st) if (Math.abs(y[i] - f(i)) <= tol) c++;
     return c;
   };
-  const useLine = anchored && restOn(lineAt) > RESTING_MARGIN * restOn(halvesAt);
+  const useLine = restSeen || (anchored && restOn(lineAt) > RESTING_MARGIN * restOn(halvesAt));
   // Halves that agree may both sit on echoes (a short cable's echoes and their bounces filling most
   // of the record): the level the most samples after the launch rest on (modalLevel) is taken
   // instead where clearly more of the record rests on it, as the pre-trigger's line is.

@@ -41,6 +41,12 @@ export interface Launch {
   onsetInRecord: boolean;
   /** The launch reaches the recorder's limit: a flat top at the record's extreme. */
   clipped: boolean;
+  /**
+   * A pulse launch that began before the record and fills much of it: the middle of the stretch just
+   * past it where the record was seen resting on `baseline`, the level the pulse reading's baseline
+   * passes through (its echoes may rest longer elsewhere). Absent for every other launch.
+   */
+  restAt?: number;
 }
 
 /**
