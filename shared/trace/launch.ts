@@ -10,7 +10,9 @@
  *  - the launch edge or pulse inside the record, after a pre-trigger stretch;
  *  - a pulse record that starts during the launch (no pre-trigger, as distance
  *    exports that begin at 0 m are): the record opens far from the level it
- *    rests at for most of its length and falls back to it within a pulse;
+ *    rests at for most of its length and falls back to it within a pulse; or,
+ *    in volts, a launch filling much of the record falls back near 0 V and an
+ *    echo follows that no step record could show there;
  *  - a step record that starts after the launch, at the incident level;
  *  - a ρ trace with no launch at all (time zero is the reference plane, as in
  *    VNA-derived step responses), unless it holds a launch pulse of about +1.
