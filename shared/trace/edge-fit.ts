@@ -514,6 +514,19 @@ interface FitContext {
   peeled: Array<{ t: Template; q: number; d: number; h: number }>;
 }
 
+/**
+ * Where event k's fit window must end at the latest: the onset of the next event in time, or `end`. The events keep
+ * the detection's order, but a slow edge's tangent reading can land before the reading of the event detected ahead
+ * of it (a lossy pulse echo's long tail, read back towards its foot). Such an event lies before event k, not after
+ * it, and does not end its window: taken as the next one, it would end the window before the window starts, and
+ * event k would not be fitted at all.
+ */
+export function nextOnsetAfter(events: ReadonlyArray<{ onsetIdx: number }>, k: number, end: number): number {
+  let next = end;
+  for (let j = k + 1; j < events.length; j++) if (events[j].onsetIdx > events[k].onsetIdx) next = Math.min(next, events[j].onsetIdx);
+  return next;
+}
+
 /** Full-rate window and delay range for event k of `events`. */
 function eventWindow(ctx: FitContext, events: Measured[], k: number, extraBefore = 0): EventWindow {
   const { launch: L, signal: sig, rec } = ctx.input;
@@ -530,7 +543,7 @@ function eventWindow(ctx: FitContext, events: Measured[], k: number, extraBefore
       break;
     }
   }
-  const next = k + 1 < events.length ? events[k + 1].onsetIdx : rec.n;
+  const next = nextOnsetAfter(events, k, rec.n);
   const pre = Math.max(8, 2 * m.w, 3 * riseL);
   const post = Math.max(24, 8 * m.w, 6 * riseE, 3 * (L.widthSamples ?? 0));
   const ref = ctx.shape.reference === 'launch' ? L.idx : ctx.shape.centre;
@@ -763,9 +776,17 @@ function estimateSkin(ctx: FitContext, events: Measured[], resistiveNpPerM = 0):
   }
   const pointsIn = (w: EventWindow) => Math.min(ESTIMATE_POINTS, w.to - w.from);
   const dof = Math.max(1, pointsIn(win) + (near ? pointsIn(near.win) - 3 : 0) - 3);
-  // Keep the estimate only if it fits better than no loss by clearly more than the noise.
-  if (lossless - best.ss < 9 * (best.ss / dof)) return null;
-  return modelFor(best.t50);
+  return lossFitSignificant(lossless, best.ss, dof) ? modelFor(best.t50) : null;
+}
+
+/**
+ * An estimated loss is kept only if it fits better than no loss by clearly more than the noise: its residual lower
+ * than the lossless one by nine times the residual per degree of freedom. A search whose fits all failed (no finite
+ * residual, as when the event's window is empty) has measured nothing, and gives no estimate either.
+ */
+export function lossFitSignificant(losslessSs: number, bestSs: number, dof: number): boolean {
+  if (!(Number.isFinite(losslessSs) && Number.isFinite(bestSs))) return false;
+  return losslessSs - bestSs >= 9 * (bestSs / Math.max(1, dof));
 }
 
 /** How far the fitted loss must lower the residual of the incident stretch, in units of its noise (residual per degree of freedom). */
