@@ -19,7 +19,43 @@ declare module 'express-session' {
   }
 }
 
-const SessionStore = connectSessionSequelize(session.Store);
+const SequelizeStore = connectSessionSequelize(session.Store);
+type StoreCallback = (err?: unknown) => void;
+type StoredSession = session.SessionData & { passport?: { user?: number } };
+
+/**
+ * The sessions read from the database by this process, as express-session holds them for a request: a session is
+ * created (a row inserted) only at sign-in; one read from its row is only ever written back to that row.
+ */
+const readFromRow = new WeakSet<object>();
+
+/**
+ * The database store, except that it never brings an ended session back. A request that read its session before
+ * the session was ended elsewhere (a password change on another phone, an administrator's reset, a deactivation,
+ * a sign-out) and changed it (the idle clock moves on once a minute) saves it when it finishes; the store's own
+ * save would insert the row again, and the ended session would sign its holder in once more. Here the save of a
+ * session read from its row updates that row only, and finds nothing to update once the row is gone.
+ */
+class SessionStore extends SequelizeStore {
+  createSession(req: Parameters<session.Store['createSession']>[0], data: Parameters<session.Store['createSession']>[1]) {
+    const s = super.createSession(req, data);
+    readFromRow.add(s);
+    return s;
+  }
+
+  set(sid: string, data: StoredSession, callback?: StoreCallback) {
+    if (!readFromRow.has(data)) return super.set(sid, data, callback);
+    const self = this as unknown as { sessionModel: { update: (v: object, o: object) => Promise<unknown> }; expiration: (d: StoredSession) => Date };
+    const done = self.sessionModel.update(
+      { data: JSON.stringify(data), expires: self.expiration(data), userId: data.passport?.user ?? null },
+      { where: { sid } },
+    );
+    return done.then(
+      () => callback?.(),
+      (err: unknown) => callback?.(err),
+    );
+  }
+}
 
 /**
  * Sessions in the database (they survive a restart). A row is written only
