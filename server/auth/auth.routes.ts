@@ -137,12 +137,22 @@ export function authRoutes(ctx: AppContext, deps: { passport: PassportStatic; cs
       assertStrongPassword(body.newPassword, user);
       const passwordHash = await hashPassword(body.newPassword);
       // Every other session of the account ends with the old password; this one goes on.
-      const endedSessions = await ctx.sequelize.transaction(async (transaction) => {
-        await user.update({ passwordHash, mustChangePassword: false }, { transaction });
-        return Session.destroy({ where: { userId: user.id, sid: { [Op.ne]: req.sessionID } }, transaction });
+      const done = await ctx.sequelize.transaction(async (transaction) => {
+        // The password checked above must still be the one in force: an administrator's reset, or a change made on
+        // another phone, while the new one was being hashed is not overwritten unseen.
+        const now = await User.findByPk(user.id, { transaction, lock: transaction.LOCK.UPDATE });
+        if (!now || now.passwordHash !== user.passwordHash) {
+          throw new AppError(
+            409,
+            'password_changed_meanwhile',
+            'Your password was changed or reset (on another device, or by an administrator) while this change was being made. Nothing was changed: sign in with the password now in force.',
+          );
+        }
+        await now.update({ passwordHash, mustChangePassword: false }, { transaction });
+        return { changed: now, ended: await Session.destroy({ where: { userId: user.id, sid: { [Op.ne]: req.sessionID } }, transaction }) };
       });
-      ctx.security('password-changed', { userId: user.id, ip: req.ip, endedSessions });
-      return user.toPublic();
+      ctx.security('password-changed', { userId: user.id, ip: req.ip, endedSessions: done.ended });
+      return done.changed.toPublic();
     }),
   );
 
