@@ -43,7 +43,10 @@ async function loadTicket(id: number, transaction?: Transaction) {
 }
 
 async function checkAssignee(assigneeId: number, transaction: Transaction) {
-  const u = await User.findByPk(assigneeId, { transaction });
+  // The person's row is held (FOR SHARE on PostgreSQL; SQLite writes one at a time) until the ticket is stored: a
+  // deactivation or change of role made at the same moment waits, then counts this repair among theirs, or comes
+  // first and this sees it. Without the hold a repair could go to someone who can no longer sign in, unseen.
+  const u = await User.findByPk(assigneeId, { transaction, lock: transaction.LOCK.SHARE });
   if (!u || !u.active || u.role !== 'technician') {
     throw fieldError(422, 'not_a_technician', 'assigneeId', `user ${assigneeId} is not an active field technician`);
   }

@@ -33,7 +33,8 @@ export async function handOverRepairs(ctx: AppContext, fromUserId: number, toUse
   return ctx.sequelize.transaction(async (transaction) => {
     const from = await User.findByPk(fromUserId, { transaction });
     if (!from) throw AppError.notFound(`User ${fromUserId}`);
-    const to = await User.findByPk(toUserId, { transaction });
+    // Held as a ticket's assignee is (see checkAssignee in tickets.service.ts): a deactivation at the same moment waits.
+    const to = await User.findByPk(toUserId, { transaction, lock: transaction.LOCK.SHARE });
     if (!to || !to.active || to.role !== 'technician') {
       throw new AppError(422, 'not_a_technician', `${to?.name ?? `User ${toUserId}`} is not an active field technician.`, {
         fields: [{ field: 'toUserId', message: 'must be an active field technician' }],
