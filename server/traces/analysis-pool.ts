@@ -68,6 +68,8 @@ interface Waiting {
 export class AnalysisPool {
   private pool: Pool | null = null;
   private readonly waiting = new Set<Waiting>();
+  /** Per owner, the end of the last piece of work handed in (see `analyse`). */
+  private readonly owners = new Map<string, Promise<void>>();
   private keepOneReady = false;
 
   constructor(
@@ -79,6 +81,22 @@ export class AnalysisPool {
   warm() {
     this.keepOneReady = true;
     this.current();
+  }
+
+  /** Runs `fn` after the work of `owner` handed in before it: each owner's files enter the pool's queue one at a time. */
+  private async inTurn<T>(owner: string, fn: () => Promise<T>): Promise<T> {
+    const before = this.owners.get(owner) ?? Promise.resolve();
+    const mine = before.then(fn, fn);
+    const settled = mine.then(
+      () => undefined,
+      () => undefined,
+    );
+    this.owners.set(owner, settled);
+    try {
+      return await mine;
+    } finally {
+      if (this.owners.get(owner) === settled) this.owners.delete(owner);
+    }
   }
 
   private current(): Pool {
@@ -110,8 +128,16 @@ export class AnalysisPool {
     pool.close().catch(() => undefined);
   }
 
-  /** Hash, parse and analyse one file. Never throws for the file's sake: a file over budget is a failed outcome. */
-  async analyse(task: Omit<AnalyseTask, 'kind' | 'started'>): Promise<AnalyseResult> {
+  /**
+   * Hash, parse and analyse one file. Never throws for the file's sake: a file over budget is a failed outcome.
+   * Files of one `owner` (the person waiting for them) go to the threads one at a time, so one person sending many
+   * files, in one upload or in several, makes another person's file wait for at most one of theirs, not all.
+   */
+  async analyse(task: Omit<AnalyseTask, 'kind' | 'started'>, options: { owner?: string } = {}): Promise<AnalyseResult> {
+    return options.owner === undefined ? this.analyseNow(task) : this.inTurn(options.owner, () => this.analyseNow(task));
+  }
+
+  private async analyseNow(task: Omit<AnalyseTask, 'kind' | 'started'>): Promise<AnalyseResult> {
     const run = await this.run<AnalyseResult>({ ...task, kind: 'analyse' });
     if ('error' in run) return { ...(await hashFile(task.path)), outcome: run.error, parsed: null, elapsedMs: 0 };
     if (run.result.outcome.internal) this.log('the trace engine failed on a file', run.result.outcome.internal);

@@ -236,7 +236,7 @@ export async function receiveUpload(
           const sizeBytes = (await fs.stat(p)).size;
           if (sizeBytes > ctx.config.analysisInlineMaxBytes)
             return { sha256: hashes[i] ?? (await fileSha256(p)), sizeBytes, outcome: null, parsed: null };
-          return pool.analyse({ path: p, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes });
+          return pool.analyse({ path: p, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes }, { owner: `user ${uploadedById}` });
         }),
       );
 
@@ -422,12 +422,12 @@ export async function reanalyseTrace(
   const key = `${earlier.id}:${cable.id}:${cable.revision}:${ENGINE_VERSION}`;
   const running = reanalysesInFlight.get(key);
   if (running) return { id: (await running).id, created: false };
-  const job = reanalyseOnce(ctx, earlier, cable).finally(() => reanalysesInFlight.delete(key));
+  const job = reanalyseOnce(ctx, earlier, cable, user.id).finally(() => reanalysesInFlight.delete(key));
   reanalysesInFlight.set(key, job);
   return job;
 }
 
-async function reanalyseOnce(ctx: AppContext, earlier: Trace, cable: CableType): Promise<{ id: number; created: boolean }> {
+async function reanalyseOnce(ctx: AppContext, earlier: Trace, cable: CableType, askedBy: number): Promise<{ id: number; created: boolean }> {
   const id = earlier.id;
   const { vfOverride: _dropped, ...settings } = earlier.settings;
   const done = await Trace.findOne({
@@ -437,7 +437,7 @@ async function reanalyseOnce(ctx: AppContext, earlier: Trace, cable: CableType):
   if (done && JSON.stringify(done.settings) === JSON.stringify(settings)) return { id: done.id, created: false };
   const copy = await ctx.storage.checkout(earlier.rawPath, earlier.sha256);
   const result = await analysisPool(ctx)
-    .analyse({ path: copy.path, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes })
+    .analyse({ path: copy.path, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes }, { owner: `user ${askedBy}` })
     .finally(() => copy.release());
   if (result.sha256 !== earlier.sha256) {
     throw new AppError(
