@@ -135,22 +135,29 @@ export function findingShifts(findings: Array<Pick<Finding, 'roundTripNs' | 'dis
 /** Analyse one trace again into a new trace row and record it, once: the item's unique index refuses a second result. */
 async function reanalyseOne(ctx: AppContext, run: CableReanalysis, cable: CableType, traceId: number) {
   const earlier = await Trace.findByPk(traceId);
+  const none = { findings: 0, findingsMoved: 0, findingsUnmatched: 0, maxShiftM: null, sumShiftM: 0 };
+  const archived = { ...none, outcome: 'skipped' as const, note: 'the trace was archived as junk; it is not analysed again' };
   const record = async (fields: ItemFields, makeTrace?: (transaction: Transaction) => Promise<Trace>) => {
     try {
       await ctx.sequelize.transaction(async (transaction) => {
-        const made = makeTrace ? await makeTrace(transaction) : null;
-        await CableReanalysisItem.create(
-          { ...fields, resultTraceId: made?.id ?? null, reanalysisId: run.id, traceId },
-          { transaction },
-        );
+        let item = fields;
+        let made: Trace | null = null;
+        if (makeTrace) {
+          // Archived while it was in the worker: a new row would bring the junk back into the lists. The row is
+          // held (FOR UPDATE on PostgreSQL) as archiveTrace holds it, so an archive at the same moment comes first or after.
+          const now = await Trace.findByPk(traceId, { attributes: ['id', 'archivedAt'], lock: transaction.LOCK.UPDATE, transaction });
+          if (!now || now.archivedAt) item = archived;
+          else made = await makeTrace(transaction);
+        }
+        await CableReanalysisItem.create({ ...item, resultTraceId: made?.id ?? null, reanalysisId: run.id, traceId }, { transaction });
       });
     } catch (err) {
       // Another instance recorded this trace first (its step was handed out again while it was still running): keep theirs.
       if (!(err instanceof UniqueConstraintError)) throw err;
     }
   };
-  const none = { findings: 0, findingsMoved: 0, findingsUnmatched: 0, maxShiftM: null, sumShiftM: 0 };
   if (!earlier) return record({ ...none, outcome: 'skipped', note: 'the trace no longer exists' });
+  if (earlier.archivedAt) return record(archived);
   let copy;
   try {
     copy = await ctx.storage.checkout(earlier.rawPath, earlier.sha256);
