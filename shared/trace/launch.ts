@@ -510,6 +510,38 @@ function restingBaseline(y: Float64Array, e: LaunchEdge, lv: Levels): LaunchEdge
   return { ...e, imax, baseline: lv.rest, peak };
 }
 
+/**
+ * The launch edge that crosses the search's bar at ic, or the first of two edges. The launch is the
+ * first excursion larger than a quarter of the record's range; the bar is raised above that against
+ * slow noise, and a noisy launch smaller than the bar is passed over for a larger rise after it: the
+ * edge traced back from there would take in the launch, its plateau and the rise together (an event
+ * near the instrument inside the launch's rise). Where the record already stood a quarter of its
+ * range off its starting level without a break back to ic, rested there on a plateau (at least twice
+ * that first edge's climb long, its halves' medians within a tenth of its height, the test
+ * traceLaunchEdge makes going forward), and then rose by another quarter of the range, the first
+ * edge is the launch and the second rise an event.
+ */
+function firstOfTwo(y: Float64Array, ic: number, lv: Levels, steady: boolean): LaunchEdge {
+  const edge = traceLaunchEdge(y, ic, lv.bStart, steady);
+  const quarter = 0.25 * lv.range;
+  const side = Math.sign(ys3(y, ic) - lv.bStart) || 1;
+  let iq = ic;
+  while (iq > 0 && side * (ys3(y, iq - 1) - lv.bStart) > quarter) iq--;
+  if (iq >= ic) return edge;
+  const first = traceLaunchEdge(y, iq, lv.bStart, steady);
+  // The plateau, from the first edge's top to ic.
+  const from = first.imax + 1;
+  const climb = Math.max(1, first.imax - first.i10);
+  if (ic - from < Math.max(4, 2 * climb)) return edge;
+  const mid = (from + ic) >> 1;
+  const a = sampleMedian(y, from, mid);
+  const b = sampleMedian(y, mid, ic);
+  if (!(Math.abs(b - a) < 0.1 * first.peak)) return edge;
+  // The second rise stands another quarter of the range above the plateau.
+  if (!(side * (ys3(y, edge.imax) - b) > quarter)) return edge;
+  return first;
+}
+
 /** The launch found from its edge inside the record, or null when there is no clear excursion. */
 function launchInRecord(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hint: number | null, steady = false): Launch | null {
   const { y, n } = rec;
@@ -522,7 +554,7 @@ function launchInRecord(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hi
     }
   }
   if (ic < 0) return null;
-  const edge = traceLaunchEdge(y, ic, lv.bStart, steady);
+  const edge = firstOfTwo(y, ic, lv, steady);
   const fell = launchFall(y, edge, hint, lv.noise);
   const { iFall } = fell;
   let { looksPulse } = fell;
@@ -546,7 +578,7 @@ function launchInRecord(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hi
     mode,
     modeDetected: modeOpt === 'auto',
     riseSamples: edge.riseSamples,
-    widthSamples: mode === 'pulse' && iFall > 0 ? iFall - ic : null,
+    widthSamples: mode === 'pulse' && iFall > 0 ? iFall - edge.ic : null,
     zeroIdx: lv.zeroIdx,
     clipped: isClipped(y, edge.i10, Math.min(n, settleIdx + 1), edge.sign),
   };
