@@ -30,7 +30,6 @@ import { refuseEncodedForms, refuseNulBytes, refuseUnreadBodies } from './http/s
 import { staticClient } from './static-client';
 import { outboxRoutes } from './outbox/outbox.routes';
 import { dashboardRoutes } from './dashboard/dashboard.routes';
-import { subscribeFindingNotices } from './tickets/finding-notices';
 import { ticketRoutes } from './tickets/tickets.routes';
 import { cableRunRoutes } from './cable-runs/cable-runs.routes';
 import { findingRoutes } from './findings/findings.routes';
@@ -133,7 +132,6 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
   const healthRouteList = healthRoutes(app, ctx, lifecycle);
 
   const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(ctx), cableRoutes(), cableReanalysisRoutes(ctx), calibrationRoutes(ctx), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceOutcomeRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx), measurementRoutes(ctx), ticketRoutes(ctx), dashboardRoutes()];
-  subscribeFindingNotices(ctx);
   for (const r of routers) app.use(r.prefix, r.router);
   const routes = [...healthRouteList, ...routers.flatMap((r) => r.routes)];
 

@@ -9,6 +9,7 @@ import { Finding, FindingDecision, Ticket, TicketFinding } from '../db/models';
 import { AppError } from '../errors';
 import { emitFindingConfirmed } from './events';
 import { getFinding } from './findings.service';
+import { mailFindingConfirmed } from '../tickets/tickets.mail';
 
 export function decisionView(d: FindingDecision): FindingDecisionView {
   return {
@@ -91,6 +92,8 @@ export async function reverseDecision(
       { findingId, action: 'reversed', fromStatus: from, toStatus: to, kind, reason: input.reason, decidedById: reviewer.id },
       { transaction },
     );
+    // A new confirmation tells the site's supervisors as a first one does, in the same transaction.
+    if (to === 'confirmed') await mailFindingConfirmed(ctx, findingId, transaction);
     return to;
   });
   ctx.security('finding-reversed', { findingId, actorId: reviewer.id, to, reason: input.reason });

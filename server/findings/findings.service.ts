@@ -14,6 +14,7 @@ import { containsPattern, idsContaining } from '../db/text-search';
 import { containsText } from '../db/search';
 import { FINDINGS_FOLDED_WHERE, FINDINGS_TEXT_FTS } from '../db/migrations/0018-findings-text-index';
 import { pendingConflict } from '../traces/traces.service';
+import { mailFindingConfirmed } from '../tickets/tickets.mail';
 
 export { findingEvents } from './events';
 
@@ -158,6 +159,9 @@ export async function recordFinding(ctx: AppContext, input: FindingInput, userId
       { findingId: finding.id, action: 'decided', fromStatus: null, toStatus: input.status, kind: input.kind, reason: null, decidedById: userId },
       { transaction },
     );
+    // The site supervisors' e-mail is stored with the finding, never after it: a server stopped in between would
+    // leave a confirmed fault nobody was told about.
+    if (input.status === 'confirmed') await mailFindingConfirmed(ctx, finding.id, transaction);
     return finding.id;
   });
   if (input.status === 'confirmed') emitFindingConfirmed(id, ctx.log);

@@ -40,10 +40,11 @@ function findingRows(f: Finding, trace: Trace | null, run: CableRun, unit: Lengt
 
 /**
  * The site's supervisors get one e-mail each (in their own unit) when a
- * finding is confirmed. A site with no supervisor named falls back to every
+ * finding is confirmed, queued in the transaction that confirms it (a first
+ * decision or a reversal), so a confirmed fault is never left untold. A site with no supervisor named falls back to every
  * active supervisor, so the news is never dropped.
  */
-export async function mailFindingConfirmed(ctx: AppContext, findingId: number) {
+export async function mailFindingConfirmed(ctx: AppContext, findingId: number, transaction: Transaction) {
   const finding = await Finding.findByPk(findingId, {
     include: [
       { association: 'site', include: [{ association: 'supervisors', where: { active: true }, required: false }] },
@@ -51,15 +52,16 @@ export async function mailFindingConfirmed(ctx: AppContext, findingId: number) {
       { association: 'trace' },
       { association: 'confirmedBy' },
     ],
+    transaction,
   });
   if (!finding || finding.status !== 'confirmed') return;
   const site = finding.site as Site;
   const run = finding.cableRun as CableRun;
   let recipients = site.supervisors ?? [];
   const fallback = recipients.length === 0;
-  if (fallback) recipients = await User.findAll({ where: { role: 'supervisor', active: true } });
+  if (fallback) recipients = await User.findAll({ where: { role: 'supervisor', active: true }, transaction });
   const link = appLink(ctx.config, `/findings/${finding.id}`);
-  const best = await bestLocationFor(finding.id);
+  const best = await bestLocationFor(finding.id, transaction);
   for (const r of recipients) {
     const mail = composeMail({
       subject: `Fault confirmed at ${site.name}: ${run.name}, ${headlineDistance(finding, best, r.unitPreference)}`,
@@ -75,7 +77,7 @@ export async function mailFindingConfirmed(ctx: AppContext, findingId: number) {
       link: { label: 'Open the finding', url: link },
       footer: SAFETY_LINE,
     });
-    await ctx.mail.queue.enqueue({ kind: 'finding-confirmed', to: [r.email], ...mail, findingId: finding.id });
+    await ctx.mail.queue.enqueue({ kind: 'finding-confirmed', to: [r.email], ...mail, findingId: finding.id }, transaction);
   }
 }
 
