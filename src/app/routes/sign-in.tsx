@@ -45,7 +45,7 @@ export function SignInPage() {
   };
 
   return (
-    <div className="flex min-h-screen flex-col items-center justify-center bg-ink px-4 py-10">
+    <main className="flex min-h-screen flex-col items-center justify-center bg-ink px-4 py-10">
       <div className="w-full max-w-sm">
         <div className="mb-6 flex items-center gap-3 text-white">
           <img src="/rholog-mark.svg" alt="" className="h-10 w-10" />
@@ -99,7 +99,7 @@ export function SignInPage() {
           </section>
         )}
       </div>
-    </div>
+    </main>
   );
 }
 export default SignInPage;
