@@ -78,7 +78,7 @@ export function composeMail(opts: {
     '</table>',
     ...(opts.paragraph ? [`<p>${escapeHtml(opts.paragraph)}</p>`] : []),
     `<p><a href="${escapeHtml(opts.link.url)}" style="color:#1f6f78">${escapeHtml(opts.link.label)}</a></p>`,
-    ...(opts.footer ? [`<p style="color:#6b7a86;font-size:13px">${escapeHtml(opts.footer)}</p>`] : []),
+    ...(opts.footer ? [`<p style="color:#5a6874;font-size:13px">${escapeHtml(opts.footer)}</p>`] : []),
   ].join('\n');
   return { subject: opts.subject, text, html };
 }

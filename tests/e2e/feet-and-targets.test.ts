@@ -251,7 +251,7 @@ describe('words and look', () => {
     expect(await kind.locator('option').allTextContents()).not.toContain('road-crossing');
     const chainage = page.getByLabel(/^Chainage/).first();
     expect(await chainage.inputValue()).not.toBe('');
-    // Ink is #1d2731 = rgb(29, 39, 49); the grey of a placeholder is mist #6b7a86.
+    // Ink is #1d2731 = rgb(29, 39, 49); the grey of a placeholder is mist #5a6874.
     expect(await chainage.evaluate((el) => getComputedStyle(el).color)).toBe('rgb(29, 39, 49)');
     // The demo's Data link OH-D1 has one marker, the duct pit.
     const one = (await CableRun.findOne({ where: { name: 'Data link OH-D1' } }))!;

@@ -9,8 +9,8 @@ ChartJS.register(LinearScale, PointElement, LineElement, Tooltip, Legend);
 const INK = '#1d2731';
 const COPPER = '#b8561f';
 const TEAL = '#1f6f78';
-const OK = '#2f7d5b';
-const MIST = '#6b7a86';
+const OK = '#2a7052';
+const MIST = '#5a6874';
 
 type Point = { x: number; y: number };
 

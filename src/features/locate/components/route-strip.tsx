@@ -4,7 +4,7 @@ import { formatLength, formatLengthRange, type LengthUnit } from '../../../lib/f
 
 /** Colours from the palette (src/index.css): the route in ink, markers in teal, the location and window in copper. */
 const INK = '#1d2731';
-const MIST = '#6b7a86';
+const MIST = '#5a6874';
 const TEAL = '#1f6f78';
 const COPPER = '#b8561f';
 const COPPER_LIGHT = '#f6e2d2';

@@ -29,7 +29,7 @@ ChartJS.register(LineElement, PointElement, LinearScale, Tooltip, Legend, annota
 const INK = '#1d2731';
 const COPPER = '#b8561f';
 const TEAL = '#1f6f78';
-const MIST = '#6b7a86';
+const MIST = '#5a6874';
 
 export type { XAxis };
 
