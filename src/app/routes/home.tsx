@@ -4,6 +4,7 @@ import { Card, PageHeader } from '../../components/ui/card';
 import { ErrorNotice, Loading } from '../../components/ui/notice';
 import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useSession } from '../../features/auth/use-session';
+import { useOnline } from '../../features/offline/device-context';
 import { useCalibrations } from '../../features/calibrations/api/list-calibrations';
 import { useTickets } from '../../features/tickets/api/list-tickets';
 import { PriorityBadge, TicketStatusBadge } from '../../features/tickets/components/ticket-badges';
@@ -82,18 +83,26 @@ export function HomePage() {
   const { user, can } = useSession();
   const items = NAV.filter((i) => i.to !== '/' && (!i.permission || can(i.permission)));
   const fieldWorker = can('traces:upload') && !can('users:manage');
+  const online = useOnline();
   return (
     <>
       <PageHeader title={`Hello, ${user.name.split(' ')[0]}`} subtitle={`Signed in as ${ROLE_LABELS[user.role].toLowerCase()}.`} />
       <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
         <div className="space-y-4">
           {can('traces:upload') && (
-            <Link
-              to={paths.upload.to()}
-              className="flex min-h-16 items-center justify-center rounded-lg bg-copper px-6 text-lg font-bold text-white shadow hover:bg-copper-dark"
-            >
-              Upload a trace from site
-            </Link>
+            // Without signal the upload cannot reach the server: the big button goes where a trace can be read now.
+            <div>
+              <Link
+                to={online ? paths.upload.to() : paths.deviceAnalyse.to()}
+                className="flex min-h-16 items-center justify-center rounded-lg bg-copper px-6 text-lg font-bold text-white shadow hover:bg-copper-dark"
+                data-testid="home-upload"
+              >
+                {online ? 'Upload a trace from site' : 'Analyse a trace on this phone'}
+              </Link>
+              {!online && (
+                <p className="mt-1 text-sm text-ink-soft">No signal: the trace is read on this phone and sent to the server when the signal is back.</p>
+              )}
+            </div>
           )}
           {can('tickets:work') && !can('tickets:manage') && <OpenTickets mine />}
           {can('tickets:manage') && <OpenTickets mine={false} />}

@@ -1,9 +1,10 @@
 import { useRef, useState, type DragEvent, type FormEvent } from 'react';
-import { useNavigate, useSearchParams } from 'react-router-dom';
+import { Link, useNavigate, useSearchParams } from 'react-router-dom';
 import { ApiError, describeError, type FieldLabels } from '../../lib/api-client';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
 import { fieldErrors, SelectField, TextField } from '../../components/ui/field';
+import { Notice } from '../../components/ui/notice';
 import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useCableRuns } from '../../features/sites/api/list-cable-runs';
 import { useSites } from '../../features/sites/api/list-sites';
@@ -13,6 +14,7 @@ import { formatFileSize } from '../../features/traces/components/file-size';
 import { fileAtFault, sameBytes, UploadOutcome } from '../../features/traces/components/upload-outcome';
 import { countOf, formatLength, fromUnit, lengthsInText } from '../../lib/format';
 import { useSession } from '../../features/auth/use-session';
+import { useOnline } from '../../features/offline/device-context';
 import { paths } from '../paths';
 
 const LAST = 'rholog.upload.last';
@@ -65,6 +67,7 @@ export function UploadPage() {
   const upload = useUploadTraces();
   const run = runs.data?.items.find((r) => String(r.id) === runId);
   const errors = fieldErrors(upload.error, unit);
+  const online = useOnline();
 
   const addFiles = async (list: FileList | null) => {
     if (!list) return;
@@ -122,6 +125,19 @@ export function UploadPage() {
       <PageHeader title="Upload a trace" subtitle="Choose where you measured from, add the CSV from the instrument, and read where the fault is." />
       <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
         <form onSubmit={submit} className="space-y-4" aria-label="Upload traces">
+          {!online && (
+            <div data-testid="upload-offline">
+              <Notice tone="warn" title="No signal: this page needs the server">
+                <p>The phone can read the trace now, with the fault's distance and route position, and send it when the signal is back.</p>
+                <Link
+                  to={paths.deviceAnalyse.to()}
+                  className="mt-2 inline-flex min-h-11 items-center rounded-md bg-copper px-4 font-semibold text-white hover:bg-copper-dark"
+                >
+                  Analyse the trace on this phone
+                </Link>
+              </Notice>
+            </div>
+          )}
           <Card title="1. Where">
             <div className="grid gap-3 sm:grid-cols-2">
               <SelectField label="Site" value={siteId} onChange={(e) => (setSiteId(e.target.value), setRunId(''))} required>

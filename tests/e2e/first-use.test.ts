@@ -1,0 +1,60 @@
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { PHONE, signIn, startE2E, type E2E } from './support/browser';
+
+/** What someone new to Rholog meets first: the sign-in page, the upload form, and a phone with no signal. */
+let e2e: E2E;
+beforeAll(async () => {
+  e2e = await startE2E();
+});
+afterEach(async () => {
+  await e2e?.context.setOffline(false);
+});
+afterAll(async () => {
+  await e2e?.stop();
+});
+
+describe('the first screens', () => {
+  it('puts the sign-in form in the page’s main landmark', async () => {
+    const page = await e2e.newPage(PHONE);
+    await page.goto(`${e2e.baseUrl}/sign-in`);
+    await page.getByRole('main').getByRole('form', { name: 'Sign in' }).waitFor();
+    expect(await page.getByRole('main').count()).toBe(1);
+    await page.close();
+  });
+
+  it('sends a technician with no signal to the analysis on the phone, from the start page and from the upload page', async () => {
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'tech@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/device`);
+    await page.getByTestId('field-data-age').waitFor();
+    await page.evaluate(async () => (await navigator.serviceWorker.ready).active?.state);
+
+    const start = page.getByTestId('home-upload');
+    await page.goto(`${e2e.baseUrl}/`);
+    expect(await start.textContent()).toBe('Upload a trace from site');
+    expect(await start.getAttribute('href')).toBe('/upload');
+
+    await e2e.context.setOffline(true);
+    await page.reload();
+    await page.getByTestId('connection-state').getByText('Offline').waitFor();
+    expect(await start.textContent()).toBe('Analyse a trace on this phone');
+    expect(await start.getAttribute('href')).toBe('/device/analyse');
+    await e2e.screenshot(page, 'first-use-offline-home-phone');
+
+    await page.getByRole('link', { name: 'Upload trace' }).first().click();
+    const notice = page.getByTestId('upload-offline');
+    await notice.waitFor();
+    expect(await notice.textContent()).toMatch(/^No signal: this page needs the server/);
+    await e2e.screenshot(page, 'first-use-offline-upload-phone');
+    await notice.getByRole('link', { name: 'Analyse the trace on this phone' }).click();
+    await page.getByRole('heading', { name: 'Analyse on this phone' }).waitFor();
+
+    // With the signal back, the start page's button uploads again.
+    await e2e.context.setOffline(false);
+    await page.goto(`${e2e.baseUrl}/`);
+    await page.getByTestId('connection-state').getByText('Online').waitFor();
+    expect(await start.textContent()).toBe('Upload a trace from site');
+    await page.close();
+  });
+});
