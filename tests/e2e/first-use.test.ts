@@ -13,12 +13,41 @@ afterAll(async () => {
   await e2e?.stop();
 });
 
+const TRACE = 'time_ns,voltage_V\n0,0.5\n1,0.5\n2,0.5\n';
+
 describe('the first screens', () => {
   it('puts the sign-in form in the page’s main landmark', async () => {
     const page = await e2e.newPage(PHONE);
     await page.goto(`${e2e.baseUrl}/sign-in`);
     await page.getByRole('main').getByRole('form', { name: 'Sign in' }).waitFor();
     expect(await page.getByRole('main').count()).toBe(1);
+    await page.close();
+  });
+
+  it('says under the grey upload button what is still needed, until nothing is', async () => {
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'tech2@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/upload`);
+    const button = page.getByRole('button', { name: 'Upload and analyse' });
+    const missing = page.getByTestId('upload-missing');
+    await missing.waitFor();
+    expect(await button.isDisabled()).toBe(true);
+    expect(await missing.textContent()).toBe('Still needed: the site and cable run, the end the instrument is connected at and a trace file.');
+    // A screen reader reads the same words with the button.
+    expect(await button.getAttribute('aria-describedby')).toBe('upload-missing');
+
+    await page.getByLabel('Site').selectOption({ label: 'Oakhollow cabinet row' });
+    await page.getByLabel('Cable run').selectOption({ label: 'Data link OH-D1' });
+    expect(await missing.textContent()).toBe('Still needed: the end the instrument is connected at and a trace file.');
+    await page.getByRole('button', { name: /End B/ }).click();
+    expect(await missing.textContent()).toBe('Still needed: a trace file.');
+    await page.getByLabel('Trace files').setInputFiles({ name: 'oh-d1-first.csv', mimeType: 'text/csv', buffer: Buffer.from(TRACE) });
+    await page.getByText('oh-d1-first.csv').waitFor();
+    expect(await missing.count()).toBe(0);
+    expect(await button.isDisabled()).toBe(false);
+    expect(await button.getAttribute('aria-describedby')).toBeNull();
+    await e2e.screenshot(page, 'first-use-upload-ready-phone');
     await page.close();
   });
 

@@ -68,6 +68,12 @@ export function UploadPage() {
   const run = runs.data?.items.find((r) => String(r.id) === runId);
   const errors = fieldErrors(upload.error, unit);
   const online = useOnline();
+  // Said under the button while it cannot be pressed, so nobody is left guessing why it is grey.
+  const missing = [
+    !run && (siteId ? 'the cable run' : 'the site and cable run'),
+    !end && 'the end the instrument is connected at',
+    !files.length && 'a trace file',
+  ].filter((m): m is string => !!m);
 
   const addFiles = async (list: FileList | null) => {
     if (!list) return;
@@ -239,9 +245,19 @@ export function UploadPage() {
             </div>
           )}
           <UploadOutcome error={upload.error} data={upload.data} describe={(err) => lengthsInText(describeError(err, LABELS), unit)} traceLink={paths.trace.to} />
-          <Button type="submit" className="min-h-14 w-full text-lg" disabled={!files.length || !run || !end || upload.isPending}>
+          <Button
+            type="submit"
+            className="min-h-14 w-full text-lg"
+            disabled={missing.length > 0 || upload.isPending}
+            aria-describedby={missing.length > 0 ? 'upload-missing' : undefined}
+          >
             {upload.isPending ? 'Uploading…' : files.length > 1 ? `Upload ${files.length} traces` : 'Upload and analyse'}
           </Button>
+          {missing.length > 0 && (
+            <p id="upload-missing" className="text-center text-sm text-ink-soft" data-testid="upload-missing">
+              Still needed: {missing.join(', ').replace(/, ([^,]*)$/, ' and $1')}.
+            </p>
+          )}
         </form>
         <div className="order-first space-y-4 lg:order-none">
           <SafetyCaution compact />
