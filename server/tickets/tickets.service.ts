@@ -13,7 +13,7 @@ import type {
   TicketUpdateSchema,
 } from '../../shared/schemas/tickets';
 import type { Page } from '../../shared/schemas/users';
-import { CloseoutInputError, compareLocatedFound } from '../../shared/tickets/closeout';
+import { closeoutCalibrationNote, CloseoutInputError, compareLocatedFound } from '../../shared/tickets/closeout';
 import { CLOSEOUT_FROM, findMove, OPEN_STATUSES, TICKET_PRIORITY_LABELS, TICKET_STATUS_LABELS, type TicketStatus } from '../../shared/tickets/status';
 import type { SessionUser } from '../auth/guards';
 import { submitCalibration } from '../calibrations/calibrations.service';
@@ -319,8 +319,7 @@ export async function closeOutTicket(ctx: AppContext, actor: SessionUser, id: nu
           submittedById: actor.id,
           source: 'repair-closeout',
           traceId: finding!.traceId,
-          // Kept in metres to the centimetre; each reader sees it in their own unit and precision (lengthsInText).
-          note: `Repair close-out of ticket ${t.id} (finding ${finding!.id}): located ${result.locatedDistanceM.toFixed(2)} m, found ${result.foundDistanceM.toFixed(2)} m along the cable from end ${measuredFrom}.`,
+          note: closeoutCalibrationNote(t.id, finding!.id, result.locatedDistanceM, result.foundDistanceM, measuredFrom),
         },
         transaction,
       );

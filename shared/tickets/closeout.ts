@@ -108,3 +108,14 @@ export function compareLocatedFound(
     impliedVf: place.foundDistanceM > 0 && finding.roundTripNs > 0 ? impliedVf(place.foundDistanceM, finding.roundTripNs) : null,
   };
 }
+
+/**
+ * The note a close-out files with its calibration. Lengths in metres to the
+ * millimetre: each reader sees them in their own unit and precision
+ * (lengthsInText), and the millimetre keeps that rounding the one the ticket
+ * shows for the same figures (to the centimetre, 45.2477 m was written
+ * "45.25 m" and then read "45.3 m" beside the ticket's "45.2 m").
+ */
+export function closeoutCalibrationNote(ticketId: number, findingId: number, locatedM: number, foundM: number, measuredFrom: CableEnd): string {
+  return `Repair close-out of ticket ${ticketId} (finding ${findingId}): located ${locatedM.toFixed(3)} m, found ${foundM.toFixed(3)} m along the cable from end ${measuredFrom}.`;
+}

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { CloseoutInputError, compareLocatedFound, foundPlace, impliedVf } from '../../../shared/tickets/closeout';
+import { closeoutCalibrationNote, CloseoutInputError, compareLocatedFound, foundPlace, impliedVf } from '../../../shared/tickets/closeout';
+import { formatLength, lengthsInText } from '../../../shared/units/format-length';
 import { allowedMoves, findMove, mayCloseOut } from '../../../shared/tickets/status';
 
 // A 500 m run: MH-1 at 100 m of route with 5 m coiled, MH-2 at 250 m with 10 m coiled (route 485 m).
@@ -84,5 +85,18 @@ describe('status rules', () => {
     expect(mayCloseOut('under-way', assignee)).toBe(true);
     expect(mayCloseOut('raised', assignee)).toBe(false);
     expect(mayCloseOut('under-way', { isAssignee: false, isSupervisor: false })).toBe(false);
+  });
+});
+
+describe('the note a close-out files with its calibration', () => {
+  it('reads, in each unit, the same located and found lengths as the ticket shows', () => {
+    // Ticket 4 of a demo run: located 45.2477 m, found 45.0 m from end B. To the centimetre the note read "45.3 m".
+    const located = 45.2476764264338;
+    const note = closeoutCalibrationNote(4, 6, located, 45, 'B');
+    expect(note).toBe('Repair close-out of ticket 4 (finding 6): located 45.248 m, found 45.000 m along the cable from end B.');
+    for (const unit of ['m', 'ft'] as const) {
+      expect(lengthsInText(note, unit)).toContain(`located ${formatLength(located, unit)}, found ${formatLength(45, unit)} along`);
+    }
+    expect(lengthsInText(closeoutCalibrationNote(3, 2, 143.24808755767899, 145, 'A'), 'm')).toContain('located 143.2 m, found 145.0 m');
   });
 });
