@@ -13,7 +13,7 @@ import {
 } from '../../shared/locate';
 import type { BestLocationView, LocationMethodView, MeasurementReadings } from '../../shared/schemas/measurements';
 import { COVERAGE_FACTOR } from '../../shared/trace/uncertainty';
-import { CableRun, Finding, Measurement, RouteMarker, Trace } from '../db/models';
+import { CableRun, Finding, Measurement, RouteMarker, Ticket, TicketCloseout, TicketFinding, Trace } from '../db/models';
 import { INSTALLED_LENGTH_RELATIVE_U, measurementEstimate, runInput } from '../measurements/measurement-estimate';
 
 /** Readings of the same fault: within this of each other, beyond their own uncertainties (as the two-ended pairing does). */
@@ -26,14 +26,51 @@ export function sameFault(a: Pick<Finding, 'distanceFromAM' | 'uncertaintyM'>, b
   return Math.abs(a.distanceFromAM - b.distanceFromAM) <= sameFaultToleranceM(installedLengthM) + a.uncertaintyM + b.uncertaintyM;
 }
 
+/**
+ * When each finding's fault was recorded as repaired: the last close-out of a
+ * ticket the finding is on that stands fixed or signed off (a ticket reopened
+ * as not fixed records no repair). Milliseconds; absent when not repaired.
+ */
+export async function repairTimes(findingIds: number[], transaction?: Transaction): Promise<Map<number, number>> {
+  const out = new Map<number, number>();
+  if (findingIds.length === 0) return out;
+  const links = await TicketFinding.findAll({ where: { findingId: findingIds }, attributes: ['ticketId', 'findingId'], transaction });
+  if (links.length === 0) return out;
+  const fixed = await Ticket.findAll({ where: { id: [...new Set(links.map((l) => l.ticketId))], status: ['fixed', 'signed-off'] }, attributes: ['id'], transaction });
+  if (fixed.length === 0) return out;
+  const closeouts = await TicketCloseout.findAll({ where: { ticketId: fixed.map((t) => t.id) }, attributes: ['ticketId', 'createdAt'], transaction });
+  const closedAt = new Map<number, number>();
+  for (const c of closeouts) closedAt.set(c.ticketId, Math.max(closedAt.get(c.ticketId) ?? 0, c.createdAt.getTime()));
+  for (const l of links) {
+    const at = closedAt.get(l.ticketId);
+    if (at !== undefined) out.set(l.findingId, Math.max(out.get(l.findingId) ?? 0, at));
+  }
+  return out;
+}
+
+/**
+ * Whether a repair of the fault near them (`repairs`: when readings of it were
+ * closed out) was recorded between two findings' confirmations: the later one
+ * read the cable after the repair, so it is a new fault (or the repair did not
+ * hold), not another reading of the old one.
+ */
+export function repairedBetween(a: Pick<Finding, 'confirmedAt'>, b: Pick<Finding, 'confirmedAt'>, repairs: Iterable<number>): boolean {
+  const lo = Math.min(a.confirmedAt.getTime(), b.confirmedAt.getTime());
+  const hi = Math.max(a.confirmedAt.getTime(), b.confirmedAt.getTime());
+  for (const at of repairs) if (at > lo && at < hi) return true;
+  return false;
+}
+
 /** The ids of the confirmed findings on the finding's run that read the same fault, itself included. */
 export async function sameFaultFindingIds(findingId: number, transaction?: Transaction): Promise<number[]> {
   const f = await Finding.findByPk(findingId, { transaction });
   if (!f) return [];
   const run = await CableRun.findByPk(f.cableRunId, { attributes: ['id', 'installedLengthM'], transaction });
   if (!run || f.status !== 'confirmed') return [f.id];
-  const others = await Finding.findAll({ where: { cableRunId: run.id, status: 'confirmed' }, attributes: ['id', 'distanceFromAM', 'uncertaintyM'], transaction });
-  return others.filter((o) => o.id === f.id || sameFault(o, f, run.installedLengthM)).map((o) => o.id);
+  const others = await Finding.findAll({ where: { cableRunId: run.id, status: 'confirmed' }, attributes: ['id', 'distanceFromAM', 'uncertaintyM', 'confirmedAt'], transaction });
+  const near = others.filter((o) => o.id === f.id || sameFault(o, f, run.installedLengthM));
+  const repairs = [...(await repairTimes(near.map((o) => o.id), transaction)).values()];
+  return near.filter((o) => o.id === f.id || !repairedBetween(o, f, repairs)).map((o) => o.id);
 }
 
 interface TdrReading {
@@ -55,7 +92,9 @@ interface Source {
  */
 async function sameFaultReadings(f: Finding, run: CableRun, transaction?: Transaction): Promise<TdrReading[]> {
   const candidates = await Finding.findAll({ where: { cableRunId: run.id, status: 'confirmed' }, order: [['id', 'ASC']], transaction });
-  const near = candidates.filter((o) => o.id === f.id || sameFault(o, f, run.installedLengthM));
+  const close = candidates.filter((o) => o.id === f.id || sameFault(o, f, run.installedLengthM));
+  const repairs = [...(await repairTimes(close.map((o) => o.id), transaction)).values()];
+  const near = close.filter((o) => o.id === f.id || !repairedBetween(o, f, repairs));
   const traces = await Trace.findAll({ where: { id: near.map((o) => o.traceId) }, transaction });
   const byFile = new Map<string, TdrReading>();
   for (const finding of near) {

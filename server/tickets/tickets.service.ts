@@ -21,7 +21,7 @@ import type { AppContext } from '../context';
 import { CableRun, Finding, MailJob, RouteMarker, Site, Ticket, TicketCloseout, TicketEvent, TicketFinding, Trace, User } from '../db/models';
 import { AppError } from '../errors';
 import { formatDate } from '../../shared/units/format-date';
-import { bestLocationFor, sameFault } from '../findings/best-location';
+import { bestLocationFor, repairedBetween, repairTimes, sameFault } from '../findings/best-location';
 import { scoreMethodsAtCloseout, scoresOfCloseout } from '../findings/method-scores';
 import { mailTicket } from './tickets.mail';
 import { closeoutView, eventView, findingView, mailDetailsFor, mailInTrouble, permissionsFor, summaryView } from './tickets.views';
@@ -473,10 +473,16 @@ export async function unticketedFindings(limit = 50) {
     order: [['confirmedAt', 'DESC']],
   });
   const taken = new Set((await findingsOnActiveTickets(findings.map((f) => f.id))).map((l) => l.findingId));
-  // A reading of a fault already on a ticket (another end, a later upload) needs no ticket of its own.
+  // A reading of a fault already on a ticket (another end, a later upload) needs no ticket of its own,
+  // unless that ticket's repair was recorded before the reading was confirmed: then it reads a new fault.
+  const repaired = await repairTimes([...taken]);
   const lengths = new Map((await CableRun.findAll({ where: { id: [...new Set(findings.map((f) => f.cableRunId))] }, attributes: ['id', 'installedLengthM'] })).map((r) => [r.id, r.installedLengthM]));
-  const covered = (f: Finding) =>
-    taken.has(f.id) || findings.some((o) => taken.has(o.id) && o.cableRunId === f.cableRunId && sameFault(o, f, lengths.get(f.cableRunId) ?? 0));
+  const near = (o: Finding, f: Finding) => o.cableRunId === f.cableRunId && sameFault(o, f, lengths.get(f.cableRunId) ?? 0);
+  const covered = (f: Finding) => {
+    if (taken.has(f.id)) return true;
+    const repairs = findings.filter((r) => repaired.has(r.id) && near(r, f)).map((r) => repaired.get(r.id)!);
+    return findings.some((o) => taken.has(o.id) && near(o, f) && !repairedBetween(o, f, repairs));
+  };
   return findings
     .filter((f) => !covered(f))
     .slice(0, limit)
