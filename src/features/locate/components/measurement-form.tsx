@@ -159,7 +159,10 @@ function SectionsEditor({ f, set, unit, errors }: { f: MeasurementFormState; set
           </SelectField>
           <SelectField label="Size (mm²)" value={s.size} error={errors[`readings.${field}.${i}.sizeMm2`]} onChange={(e) => edit(i, { size: e.target.value })}>
             <option value="">Choose</option>
-            {Object.keys(IEC60228_CLASS2_OHM_PER_KM[s.material]).map((size) => (
+            {/* Smallest first: object keys list whole numbers before 1.5 and 2.5, so they are sorted as numbers. */}
+            {Object.keys(IEC60228_CLASS2_OHM_PER_KM[s.material])
+              .sort((x, y) => Number(x) - Number(y))
+              .map((size) => (
               <option key={size} value={size}>
                 {size}
               </option>
