@@ -1,5 +1,5 @@
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { DESKTOP, PHONE, signIn, startE2E, type E2E } from './support/browser';
 
 /** What someone new to Rholog meets first: the sign-in page, the upload form, and a phone with no signal. */
 let e2e: E2E;
@@ -48,6 +48,24 @@ describe('the first screens', () => {
     expect(await button.isDisabled()).toBe(false);
     expect(await button.getAttribute('aria-describedby')).toBeNull();
     await e2e.screenshot(page, 'first-use-upload-ready-phone');
+    await page.close();
+  });
+
+  it('lets a keyboard skip the navigation: the first Tab offers the page itself', async () => {
+    const page = await e2e.newPage(DESKTOP);
+    await signIn(page, e2e.baseUrl, 'tech2@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/upload`);
+    await page.getByLabel('Site').waitFor();
+    await page.keyboard.press('Tab');
+    const focused = () => page.evaluate(() => ({ id: document.activeElement?.id ?? '', text: document.activeElement?.textContent?.trim() ?? '' }));
+    expect((await focused()).text).toBe('Skip to the page');
+    expect(await page.getByTestId('skip-to-page').isVisible()).toBe(true);
+    await page.keyboard.press('Enter');
+    expect((await focused()).id).toBe('page');
+    // The next Tab is inside the page, not in the navigation.
+    await page.keyboard.press('Tab');
+    expect(await page.evaluate(() => !!document.activeElement?.closest('main') && !document.activeElement?.closest('nav'))).toBe(true);
     await page.close();
   });
 

@@ -71,6 +71,14 @@ export function AppShell() {
 
   return (
     <DeviceProvider user={user}>
+      {/* The first stop of the Tab key: past the navigation to the page itself, seen only when focused. */}
+      <a
+        href="#page"
+        className="no-print sr-only z-30 rounded-md bg-copper px-4 py-2 font-semibold text-white focus:not-sr-only focus:fixed focus:left-2 focus:top-2"
+        data-testid="skip-to-page"
+      >
+        Skip to the page
+      </a>
       <div className="min-h-screen lg:flex">
         <aside className="no-print hidden w-60 shrink-0 flex-col gap-6 bg-ink px-4 py-5 lg:flex">
           <Wordmark />
@@ -100,7 +108,7 @@ export function AppShell() {
             {who}
           </div>
         )}
-        <main className="mx-auto w-full max-w-6xl flex-1 px-4 py-5 sm:px-6 lg:py-8">
+        <main id="page" tabIndex={-1} className="mx-auto w-full max-w-6xl flex-1 px-4 py-5 outline-none sm:px-6 lg:py-8">
           <UpdatePrompt />
           <ConnectionBar devicePath={paths.device.to()} />
           <Outlet />
