@@ -12,6 +12,7 @@ import { can } from '../../shared/auth/permissions';
 import type { SessionUser } from '../auth/guards';
 import { CableCalibration, CableType, Trace, User } from '../db/models';
 import { AppError } from '../errors';
+import { formatDate } from '../../shared/units/format-date';
 import type { SecurityLog } from '../log';
 
 export interface SubmitCalibrationInput {
@@ -219,7 +220,8 @@ export async function acceptCalibration(
     const c = await loadForDecision(id, transaction);
     assertPending(c);
     const override = ownCalibrationOverride(c, reviewer, opts.note);
-    const submitted = new Date(c.createdAt).toISOString().slice(0, 10);
+    // In the one date style of the screens and e-mails ("3 Dec 2026"), not ISO beside them.
+    const submitted = formatDate(c.createdAt);
     const vf = roundVf(opts.vf ?? c.vf);
     const vfReference =
       (vf !== roundVf(c.vf) ? `Mean of the accepted field calibrations of this cable type, the last #${c.id}: ` : `Field calibration #${c.id}: `) +

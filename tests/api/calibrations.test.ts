@@ -87,6 +87,8 @@ describe('the review queue', () => {
     expect(res.body.calibration).toMatchObject({ status: 'accepted', reviewedBy: { name: 'Pat Plan' }, reviewReason: 'matches the as-built' });
     expect(res.body.cable).toMatchObject({ vf: 0.6437, vfSource: 'field-calibrated', revision: before.revision + 1 });
     expect(res.body.cable.vfReference).toContain(`Field calibration #${cal.id}: 412.5 m known length, ${Number(cal.roundTripNs.toFixed(2))} ns round trip`);
+    // Dated as every screen and e-mail dates things ("3 Dec 2026"), not in ISO form.
+    expect(res.body.cable.vfReference).toMatch(/, submitted by [^,]+ on \d{1,2} [A-Z][a-z]{2} \d{4}\.$/);
 
     const after = await cableTypeVersion(cableId);
     expect(after.vf).toBe(0.6437);
