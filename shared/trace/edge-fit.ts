@@ -340,7 +340,7 @@ interface WindowData {
  * Residual sum of squares of y ≈ b + h·template at delay d, with b and h solved exactly;
  * with `fixedH`, the height is held at that value and only the baseline is solved.
  */
-function profile(w: WindowData, t: Template, d: number, fixedH?: number): { ss: number; b: number; h: number } {
+function profile(w: WindowData, t: Template, d: number, fixedH?: number, extra?: Extra): { ss: number; b: number; h: number } {
   const { y, j0 } = w;
   const n = y.length;
   // Normal equations for y ≈ b + c·x + h·e, x centred on the window (step records creep on lossy lines).
@@ -349,7 +349,7 @@ function profile(w: WindowData, t: Template, d: number, fixedH?: number): { ss: 
   for (let k = 0; k < n; k++) {
     const e = templateAt(t, j0 + k - t.start - d);
     const x = slope ? (k - (n - 1) / 2) / n : 0;
-    const yk = y[k];
+    const yk = extra ? y[k] - extra.g * templateAt(extra.t, j0 + k - extra.t.start - d) : y[k];
     sx += x;
     sxx += x * x;
     se += e;
@@ -370,6 +370,12 @@ function profile(w: WindowData, t: Template, d: number, fixedH?: number): { ss: 
   }
   const [b, c, h] = sol;
   return { ss: Math.max(0, syy - b * sy - c * sxy - h * sey), b, h };
+}
+
+/** A second shape at the same delay with its height given (a terminated end's mismatch to the line, terminatedFit). */
+interface Extra {
+  t: Template;
+  g: number;
 }
 
 /** The residual of y − h·e ≈ b + c·x from the normal equations' sums, h given. */
@@ -443,25 +449,32 @@ function bestDelay(
   sign: number,
   fixedH?: number,
   tol = 1e-3,
+  extra?: Extra,
 ): { d: number; ss: number; h: number } {
+  return searchDelay((d) => profile(w, t, d, fixedH, extra), lo, hi, sign, tol);
+}
+
+/** The delay search of bestDelay for any profile; `sign` 0 takes a height of either sign. */
+function searchDelay<P extends { ss: number; h: number }>(prof: (d: number) => P, lo: number, hi: number, sign: number, tol: number): P & { d: number } {
   const steps = Math.max(8, Math.min(24, Math.ceil((hi - lo) / 0.5)));
   const step = (hi - lo) / steps;
-  let best = { d: lo, ss: Infinity, h: 0 };
-  for (let k = 0; k <= steps; k++) {
+  let best: P & { d: number } = { ...prof(lo), d: lo };
+  if (!(sign === 0 || Math.sign(best.h) === sign)) best.ss = Infinity;
+  for (let k = 1; k <= steps; k++) {
     const d = lo + k * step;
-    const p = profile(w, t, d, fixedH);
-    if (Math.sign(p.h) === sign && p.ss < best.ss) best = { d, ss: p.ss, h: p.h };
+    const p = prof(d);
+    if ((sign === 0 || Math.sign(p.h) === sign) && p.ss < best.ss) best = { ...p, d };
   }
   if (!Number.isFinite(best.ss)) return best;
-  const g = goldenMin((d) => profile(w, t, d, fixedH).ss, Math.max(lo, best.d - step), Math.min(hi, best.d + step), tol);
-  const p = profile(w, t, g.x, fixedH);
-  return p.ss <= best.ss && Math.sign(p.h) === sign ? { d: g.x, ss: p.ss, h: p.h } : best;
+  const g = goldenMin((d) => prof(d).ss, Math.max(lo, best.d - step), Math.min(hi, best.d + step), tol);
+  const p = prof(g.x);
+  return p.ss <= best.ss && (sign === 0 || Math.sign(p.h) === sign) ? { ...p, d: g.x } : best;
 }
 
 /** Standard uncertainty of the delay: σ√(2/S''), σ² from the residual (N − 3 degrees of freedom). */
-function delaySigma(w: WindowData, t: Template, d: number, ss: number, fallback: number, fixedH?: number): number {
+function delaySigma(w: WindowData, t: Template, d: number, ss: number, fallback: number, fixedH?: number, extra?: Extra): number {
   const delta = 0.5;
-  const curv = (profile(w, t, d + delta, fixedH).ss - 2 * ss + profile(w, t, d - delta, fixedH).ss) / (delta * delta);
+  const curv = (profile(w, t, d + delta, fixedH, extra).ss - 2 * ss + profile(w, t, d - delta, fixedH, extra).ss) / (delta * delta);
   const dof = Math.max(1, w.y.length - (fixedH === undefined ? 3 : 2));
   if (!(curv > 0)) return fallback;
   return Math.min(fallback, Math.sqrt((2 * (ss / dof)) / curv));
@@ -603,6 +616,14 @@ function vfReferenceHz(input: EdgeFitInput): number {
   return input.vfPulseWidthNs ? 1 / (2 * input.vfPulseWidthNs * 1e-9) : 1 / (2 * input.rec.dt);
 }
 
+/** The round trip's causal response on the grid of q-sample blocks: exact propagation with a resistive term, else the sum of the loss terms. */
+function causalKernel(ctx: FitContext, model: LossModel, twoWayM: number, q: number, span: number): LineKernel {
+  const { rec, vf } = ctx.input;
+  return (model.resistiveNpPerM ?? 0) > 0 && vf
+    ? exactLineKernel(model, Math.max(0, twoWayM), rec.dt * q, span, vf, vfReferenceHz(ctx.input))
+    : lineKernel(model, Math.max(0, twoWayM), rec.dt * q, span, vfReferenceHz(ctx.input));
+}
+
 /** Largest height a reflection can have at the port, in units of the incident wave. */
 const MAX_HEIGHT = 1;
 
@@ -621,11 +642,7 @@ function fitWindow(
   if (w.y.length < 6) return null;
   const launch = coarseLaunch(ctx.input, ctx.shape, q);
   const span = w.y.length + (win.hi - win.lo) / q + 8;
-  const kernel = opts.zeroPhase
-    ? zeroPhaseLineKernel(model, Math.max(0, twoWayM), rec.dt * q, span)
-    : (model.resistiveNpPerM ?? 0) > 0 && ctx.input.vf
-      ? exactLineKernel(model, Math.max(0, twoWayM), rec.dt * q, span, ctx.input.vf, vfReferenceHz(ctx.input))
-      : lineKernel(model, Math.max(0, twoWayM), rec.dt * q, span, vfReferenceHz(ctx.input));
+  const kernel = opts.zeroPhase ? zeroPhaseLineKernel(model, Math.max(0, twoWayM), rec.dt * q, span) : causalKernel(ctx, model, twoWayM, q, span);
   const t = buildTemplate(launch, kernel, ctx.shape.step);
   let best = bestDelay(w, t, win.lo / q, win.hi / q, win.sign, undefined, opts.delayTol);
   if (!Number.isFinite(best.ss)) return null;
@@ -662,6 +679,80 @@ function fitWindow(
   };
 }
 
+/**
+ * A resistive end on a line with series loss. The line's own impedance Zc(ω) is not its nominal Z0:
+ * it grows at low frequency (creep.ts), so a resistor R = Z0·(1 + ρ)/(1 − ρ) at the far end reflects,
+ * against the line that meets it, Γ = (R − Zc)/(R + Zc) = (ρ − ρ_in)/(1 − ρ·ρ_in), with
+ * ρ_in = (Zc − Z0)/(Zc + Z0) the line's input reflection (the change of reference impedance of a
+ * reflection coefficient; D. M. Pozar, "Microwave Engineering", 4th ed., §2.3 and §2.7). To first order
+ * in ρ·ρ_in that is ρ − (1 − ρ²)·ρ_in: the usual edge of height ρ, plus the incident creep reversed,
+ * both through the round trip. An end matched to Z0 (ρ = 0) sends back the reversed creep alone, a slow
+ * drop from the end's round trip on that reads late, and smaller, on the edge of a plain reflection.
+ * The fit is the plain one with the second shape added at the same delay, its height −(1 − ρ²) taken
+ * from the height fitted the pass before (two passes).
+ * A lumped fault along the line meets the line's own impedance too, with the line going on past it:
+ * a series resistor reflects Γ = R/(R + 2Zc), a shunt one −Zc/(Zc + 2R), to first order
+ * ρ − 2|ρ|(1 − |ρ|)·ρ_in (ρ read against Z0; Pozar §2.3, §4.4). `element` 'fault' fits that share
+ * instead: an end is told from a fault by which of the two the record follows. The second shape follows the line's exact
+ * propagation (exactLineKernel); the first is the plain fit's own.
+ */
+function terminatedFit(
+  ctx: FitContext,
+  win: EventWindow,
+  model: LossModel,
+  twoWayM: number,
+  element: 'end' | 'fault' = 'end',
+): (ModelFit & { g: number; tb: Template }) | null {
+  const { rec, vf } = ctx.input;
+  if (!vf || !((model.resistiveNpPerM ?? 0) > 0 || model.skinNpPerMRootHz > 0)) return null;
+  const q = Math.max(1, Math.ceil((win.to - win.from) / MAX_FIT_POINTS));
+  const w = windowData(ctx, win, q);
+  if (w.y.length < 6) return null;
+  const launch = coarseLaunch(ctx.input, ctx.shape, q);
+  const span = w.y.length + (win.hi - win.lo) / q + 8;
+  const ref = vfReferenceHz(ctx.input);
+  const ta = buildTemplate(launch, causalKernel(ctx, model, twoWayM, q, span), ctx.shape.step);
+  const tb = buildTemplate(launch, exactLineKernel(model, Math.max(0, twoWayM), rec.dt * q, span, vf, ref, 'inputReflection'), ctx.shape.step);
+  const creepShare = (h: number) => (element === 'end' ? -(1 - h * h) : -2 * Math.abs(h) * (1 - Math.abs(h)));
+  let g = element === 'end' ? -1 : 0;
+  let best: { d: number; ss: number; h: number } = { d: win.lo / q, ss: Infinity, h: 0 };
+  for (let pass = 0; pass < 2; pass++) {
+    best = bestDelay(w, ta, win.lo / q, win.hi / q, 0, undefined, undefined, { t: tb, g });
+    if (!Number.isFinite(best.ss) || !(Math.abs(best.h) <= MAX_HEIGHT)) return null;
+    if (pass === 0) g = creepShare(best.h);
+  }
+  const extra = { t: tb, g };
+  const sigma = delaySigma(w, ta, best.d, best.ss, (win.hi - win.lo) / q / 2, undefined, extra);
+  const launchOnly = buildTemplate(launch, { values: Float64Array.of(1), offset: 0 }, ctx.shape.step);
+  const middle = middleOf(ta) - middleOf(launchOnly);
+  return { d: best.d * q, sigma: sigma * q, h: best.h, ss: best.ss, t: ta, q, dq: best.d, middle: middle * q, halfLag: middle * q, points: w.y.length, g, tb };
+}
+
+/** The echo a terminated fit models, as the record shows it: its level at the window's end (step) or its area (pulse). */
+function terminatedSeen(f: ModelFit & { g: number; tb: Template }, win: EventWindow): number {
+  const last = Math.floor(win.to / f.q) - f.dq;
+  const at = (x: number) => f.h * templateAt(f.t, x - f.t.start) + f.g * templateAt(f.tb, x - f.tb.start);
+  if (f.t.step) return at(last);
+  let area = 0;
+  for (let x = Math.floor(win.from / f.q) - f.dq; x <= last; x++) area += at(x);
+  return area;
+}
+
+/**
+ * A terminated end's fit replaces the plain one where the data favour it by these odds. The two have the
+ * same free parameters (delay, height, level and slope: the creep's height is tied to the edge's), so the
+ * ratio of their likelihoods, (S_plain/S_terminated)^(N/2) for Gaussian residuals of unknown spread over
+ * N points, compares them directly; 100 is "decisive" on H. Jeffreys' scale ("Theory of Probability",
+ * 3rd ed., 1961, appendix B).
+ */
+const TERMINATED_ODDS = 100;
+/**
+ * Largest |ρ| read as a resistive end: a resistor within a factor of three of Z0. Further out the edge
+ * itself outweighs the reversed creep (whose share 1 − ρ² falls towards an open or a short), and the
+ * plain edge reads the end as well.
+ */
+const TERMINATED_MAX_RHO = 0.5;
+
 const twoWayOf = (ctx: FitContext, delaySamples: number) => Math.max(0, delaySamples) * ctx.twoWayMPerSample;
 
 /** Fit with the model's spread for the event's own distance, once more if the fitted distance moved it. */
@@ -679,6 +770,13 @@ function fitAtDistance(ctx: FitContext, win: EventWindow, model: LossModel, zero
  */
 const ZERO_PHASE_GAIN = 0.5;
 
+/** A fit of `params` free parameters whose residual per point is no more than twice the noise's (four times its variance). */
+function withinNoise(ctx: FitContext, f: ModelFit, params: number): boolean {
+  const sig = ctx.input.signal;
+  const perSample = sig.mode === 'step' ? sig.sigmaU : sig.scaleForPulse * sig.unitArea;
+  return f.ss / Math.max(1, f.points - params) <= (4 * perSample ** 2) / f.q;
+}
+
 function bestShapeFit(
   ctx: FitContext,
   win: EventWindow,
@@ -690,9 +788,7 @@ function bestShapeFit(
   // Only a loss known beforehand tells the two shapes apart: one estimated from the edges took the causal shape.
   if (lossSource !== 'library' || !f) return { f, zeroPhase: false, causal: f };
   // A causal fit that leaves no more than the noise needs no other shape.
-  const sig = ctx.input.signal;
-  const perSample = sig.mode === 'step' ? sig.sigmaU : sig.scaleForPulse * sig.unitArea;
-  if (f.ss / Math.max(1, f.points - 3) <= (4 * perSample ** 2) / f.q) return { f, zeroPhase: false, causal: f };
+  if (withinNoise(ctx, f, 3)) return { f, zeroPhase: false, causal: f };
   const wide = { ...win, hi: win.hi + Math.max(8, m.riseSamples) };
   const z = fitAtDistance(ctx, wide, model, true);
   if (z && z.ss < ZERO_PHASE_GAIN * f.ss && acceptable(z, m, wide)) return { f: z, zeroPhase: true, causal: f };
@@ -885,8 +981,20 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
         }
       }
     }
-    if (!f || !acceptable(f, m, win)) continue;
-    const probe = model === NO_LOSS ? null : fitWindow(ctx, win, scaled(model, 1 + LOSS_PROBE), twoWayOf(ctx, f.d), { withMiddle: false, zeroPhase });
+    // The last event may be a resistive end, read with the line's own impedance (terminatedEnd); only with
+    // the cable's loss known, whose creep was taken out of the signal and which the reversed creep follows.
+    const term = lossSource === 'library' && k === events.length - 1 ? terminatedEnd(ctx, events, k, model, win) : null;
+    if (term) {
+      f = term.f;
+      win = term.win;
+      zeroPhase = false;
+    } else if (!f || !acceptable(f, m, win)) continue;
+    const probe =
+      model === NO_LOSS
+        ? null
+        : term
+          ? terminatedFit(ctx, win, scaled(model, 1 + LOSS_PROBE), twoWayOf(ctx, f.d))
+          : fitWindow(ctx, win, scaled(model, 1 + LOSS_PROBE), twoWayOf(ctx, f.d), { withMiddle: false, zeroPhase });
     m.fit = {
       reference: shape.reference,
       lossSource,
@@ -912,8 +1020,41 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     m.onsetIdx = onset;
     if (shape.reference === 'axis') m.t50Idx = onset;
     ctx.peeled.push({ t: f.t, q: f.q, d: f.dq, h: f.h });
+    if (term) ctx.peeled.push({ t: term.f.tb, q: f.q, d: f.dq, h: term.f.g });
   }
   return { events, lossSource, loss: model, estimatedFrom, vf: input.vf };
+}
+
+/**
+ * Event k read as a resistive end (terminatedFit) where that shape explains its window clearly better
+ * than a plain reflection does. The window reaches back further than the plain fit's: the reversed
+ * creep starts slowly, and its tangent reading lies well after the end's round trip.
+ */
+function terminatedEnd(
+  ctx: FitContext,
+  events: Measured[],
+  k: number,
+  model: LossModel,
+  win: EventWindow,
+): { f: ModelFit & { g: number; tb: Template }; win: EventWindow } | null {
+  const m = events[k];
+  const wide = eventWindow(ctx, events, k, Math.max(win.hi - win.lo, m.riseSamples));
+  if (wide.to - wide.from < 8) return null;
+  const guess = (wide.lo + wide.hi) / 2;
+  let tf = terminatedFit(ctx, wide, model, twoWayOf(ctx, guess));
+  if (tf && Math.abs(tf.d - guess) > 0.02 * Math.abs(guess)) tf = terminatedFit(ctx, wide, model, twoWayOf(ctx, tf.d)) ?? tf;
+  if (!tf) return null;
+  const inside = tf.d > wide.lo + 0.01 * (wide.hi - wide.lo) && tf.d < wide.hi - 0.01 * (wide.hi - wide.lo);
+  if (!inside || Math.abs(tf.h) > TERMINATED_MAX_RHO || Math.sign(terminatedSeen(tf, wide)) !== Math.sign(m.height)) return null;
+  // Only a shape that explains its window to the noise is taken: where it leaves more, the window holds
+  // more than an end (a neighbour, a change of cable, a loss the library misstates), and the odds
+  // between two wrong shapes say little.
+  if (!withinNoise(ctx, tf, 4)) return null;
+  // Decisively better than a plain edge, and than a fault with the line going on past it.
+  const favoured = (other: ModelFit | null) => !other || (tf.points / 2) * Math.log(other.ss / tf.ss) > Math.log(TERMINATED_ODDS);
+  if (!favoured(fitWindow(ctx, wide, model, twoWayOf(ctx, tf.d)))) return null;
+  if (!favoured(terminatedFit(ctx, wide, model, twoWayOf(ctx, tf.d), 'fault'))) return null;
+  return { f: tf, win: wide };
 }
 
 const scaled = (m: LossModel, k: number): LossModel => ({

@@ -424,8 +424,18 @@ export function fft(re: Float64Array, im: Float64Array, inverse = false): void {
  * impedance over its nominal one, so H carries 4z/(1 + z)²: at high frequency 1, at low
  * frequency, where a resistive line's impedance grows, less (the incident step's creep,
  * creep.ts, already holds that part of the level).
+ * With `times` 'inputReflection' the response is H·ρ_in, ρ_in = (z − 1)/(z + 1): the part of a
+ * resistive end's echo that its mismatch to the line's own impedance adds (edge-fit.ts, terminated ends).
  */
-export function exactLineKernel(model: LossModel, twoWayM: number, dtS: number, spanSamples: number, vf: number, dielectricReferenceHz?: number): LineKernel {
+export function exactLineKernel(
+  model: LossModel,
+  twoWayM: number,
+  dtS: number,
+  spanSamples: number,
+  vf: number,
+  dielectricReferenceHz?: number,
+  times: 'line' | 'inputReflection' = 'line',
+): LineKernel {
   const span = Math.max(8, Math.ceil(spanSamples));
   let n = 256;
   while (n < 2 * span && n < 1 << 17) n <<= 1;
@@ -464,6 +474,12 @@ export function exactLineKernel(model: LossModel, twoWayM: number, dtS: number, 
     const h0 = re[k];
     re[k] = h0 * fr - im[k] * fi;
     im[k] = h0 * fi + im[k] * fr;
+    if (times === 'inputReflection') {
+      const [qr, qi] = inputReflection(ar, ai, br, bi);
+      const h1 = re[k];
+      re[k] = h1 * qr - im[k] * qi;
+      im[k] = h1 * qi + im[k] * qr;
+    }
     if (k > 0 && k < n / 2) {
       re[n - k] = re[k];
       im[n - k] = -im[k];
@@ -485,14 +501,28 @@ export function exactLineKernel(model: LossModel, twoWayM: number, dtS: number, 
   return { values, offset: diel.offset };
 }
 
-/** The port's factor 4z/(1 + z)² with z² = (ar + j·ai)/(br + j·bi), principal root (see exactLineKernel). */
-function portFactor(ar: number, ai: number, br: number, bi: number): [number, number] {
+/** z = Zc/Z0 with z² = (ar + j·ai)/(br + j·bi), principal root (see exactLineKernel). */
+function impedanceRatio(ar: number, ai: number, br: number, bi: number): [number, number] {
   const den = br * br + bi * bi;
   const z2r = (ar * br + ai * bi) / den;
   const z2i = (ai * br - ar * bi) / den;
   const zm = Math.sqrt(z2r * z2r + z2i * z2i);
   const zr = Math.sqrt(Math.max(0, (zm + z2r) / 2));
   const zi = (z2i < 0 ? -1 : 1) * Math.sqrt(Math.max(0, (zm - z2r) / 2));
+  return [zr, zi];
+}
+
+/** The line's input reflection against its nominal impedance, ρ_in = (z − 1)/(z + 1) (creep.ts, loss-estimate.ts). */
+function inputReflection(ar: number, ai: number, br: number, bi: number): [number, number] {
+  const [zr, zi] = impedanceRatio(ar, ai, br, bi);
+  const dr = zr + 1;
+  const dd = dr * dr + zi * zi;
+  return [((zr - 1) * dr + zi * zi) / dd, (zi * dr - (zr - 1) * zi) / dd];
+}
+
+/** The port's factor 4z/(1 + z)² with z² = (ar + j·ai)/(br + j·bi), principal root (see exactLineKernel). */
+function portFactor(ar: number, ai: number, br: number, bi: number): [number, number] {
+  const [zr, zi] = impedanceRatio(ar, ai, br, bi);
   // 4z/(1 + z)².
   const ur = (1 + zr) * (1 + zr) - zi * zi;
   const ui = 2 * (1 + zr) * zi;
