@@ -87,6 +87,9 @@ describe('the first screens', () => {
     await page.getByTestId('connection-state').getByText('Offline').waitFor();
     expect(await start.textContent()).toBe('Analyse a trace on this phone');
     expect(await start.getAttribute('href')).toBe('/device/analyse');
+    // The repairs list that cannot load says so calmly, with no failure notice on the page.
+    expect(await page.getByTestId('repairs-offline').textContent()).toBe('Not shown without signal: the list comes back with the signal.');
+    expect(await page.getByText('That did not work').count()).toBe(0);
     await e2e.screenshot(page, 'first-use-offline-home-phone');
 
     await page.getByRole('link', { name: 'Upload trace' }).first().click();

@@ -14,12 +14,23 @@ import { paths } from '../paths';
 
 function OpenTickets({ mine }: { mine: boolean }) {
   const tickets = useTickets({ status: 'open', assignee: mine ? 'me' : 'any', page: 1 });
+  const online = useOnline();
+  const title = mine ? 'Your open repairs' : 'Open repairs';
+  // Without signal the list cannot come: said calmly, not as a failure.
+  if (!online && !tickets.data)
+    return (
+      <Card title={title}>
+        <p className="text-sm text-ink-soft" data-testid="repairs-offline">
+          Not shown without signal: the list comes back with the signal.
+        </p>
+      </Card>
+    );
   if (tickets.isPending) return <Loading what="Loading repairs" />;
   if (tickets.error) return <ErrorNotice error={tickets.error} />;
   const items = tickets.data.items.slice(0, 5);
   return (
     <Card
-      title={mine ? 'Your open repairs' : 'Open repairs'}
+      title={title}
       actions={
         <Link to={paths.tickets.to()} className="text-sm font-semibold text-teal underline">
           All tickets ({tickets.data.total})
