@@ -1,7 +1,9 @@
+import { createHash } from 'node:crypto';
+import { createReadStream } from 'node:fs';
 import fs from 'node:fs/promises';
 import path from 'node:path';
 import { adoptRaw, rawAbsolutePath, removeRaw } from '../traces/trace-store';
-import { checkBytes, RawFileMissing, type RawStorage } from './raw-storage';
+import { checkBytes, RawFileChanged, RawFileMissing, type RawStorage } from './raw-storage';
 
 async function readOrMissing(key: string, abs: string): Promise<Buffer> {
   try {
@@ -31,7 +33,15 @@ export class FolderStorage implements RawStorage {
 
   async checkout(key: string, sha256: string) {
     const abs = rawAbsolutePath(this.dir, key);
-    checkBytes(key, await readOrMissing(key, abs), sha256);
+    // Hashed as it is read: a stored file of up to the upload limit is never held whole for the check.
+    const hash = createHash('sha256');
+    try {
+      for await (const chunk of createReadStream(abs)) hash.update(chunk as Buffer);
+    } catch (err) {
+      if ((err as NodeJS.ErrnoException).code === 'ENOENT') throw new RawFileMissing(key);
+      throw err;
+    }
+    if (hash.digest('hex') !== sha256) throw new RawFileChanged(key);
     return { path: abs, release: async () => undefined };
   }
 

@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto';
 import fs from 'node:fs';
 import fsp from 'node:fs/promises';
 import path from 'node:path';
+import { pipeline } from 'node:stream/promises';
 import type { Request, RequestHandler, Response } from 'express';
 import multer from 'multer';
 import {
@@ -191,13 +192,23 @@ export function traceRoutes(ctx: AppContext) {
     'traces:read',
     handle(async (req, res) => {
       const raw = await traces.rawFile(ctx, IdParam.parse(req.params).id);
-      const headers = {
-        'content-type': 'text/csv; charset=utf-8',
-        'content-disposition': `attachment; filename="${raw.name.replace(/[^\w.\- ]/g, '_')}"`,
-        'x-content-sha256': raw.sha256,
-      };
-      // Read whole and checked against its SHA-256 before the first byte goes out.
-      res.set(headers).send(raw.bytes);
+      try {
+        const { size } = await fsp.stat(raw.path);
+        res.set({
+          'content-type': 'text/csv; charset=utf-8',
+          'content-length': String(size),
+          'content-disposition': `attachment; filename="${raw.name.replace(/[^\w.\- ]/g, '_')}"`,
+          'x-content-sha256': raw.sha256,
+        });
+        // Checked against its SHA-256 before the first byte goes out, then sent as the client takes it: a slow or
+        // stalled reader holds a small buffer of the server's memory, not the whole file.
+        await pipeline(fs.createReadStream(raw.path), res).catch((err: unknown) => {
+          // The client went away mid-file: nothing to answer. Before the first byte, the error is answered as usual.
+          if (!res.headersSent) throw err;
+        });
+      } finally {
+        await raw.release();
+      }
       return undefined;
     }),
   );

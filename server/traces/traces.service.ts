@@ -753,10 +753,15 @@ export async function getTrace(
   };
 }
 
+/**
+ * A stored trace's file for download: a local copy checked against its SHA-256 (the stored file itself with the
+ * folder store), to be sent as the client reads it, then released. Never the whole file held in memory per download.
+ */
 export async function rawFile(ctx: AppContext, id: number) {
   const trace = await Trace.findByPk(id);
   if (!trace) throw AppError.notFound(`Trace ${id}`);
-  return { bytes: await ctx.storage.read(trace.rawPath, trace.sha256), name: trace.originalName, sha256: trace.sha256 };
+  const copy = await ctx.storage.checkout(trace.rawPath, trace.sha256);
+  return { ...copy, name: trace.originalName, sha256: trace.sha256 };
 }
 
 /** At most one reference per run and end; setting one clears the previous. */
