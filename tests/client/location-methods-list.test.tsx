@@ -55,6 +55,8 @@ describe('the best location headline', () => {
   it('keeps the ± of the standard uncertainty with its figure and unit when the line wraps', () => {
     const run = { name: 'Radio mast feeder BF-R1', endALabel: 'Control kiosk', endBLabel: 'Telemetry radio mast', installedLengthM: 120, markers: [] };
     render(<BestLocationHeadline best={best} run={run as never} unit="m" strip={false} />);
+    // The percentage beside each reading is its share of the location, and says so.
+    expect(screen.getByTestId('best-methods').textContent).toBe("Made from, with each reading's share: TDR from end B (finding 5), 100 %");
     const line = screen.getByTestId('best-window');
     expect(line.textContent).toBe('95 % window: 73.0–78.1 m along the cable from end A · standard uncertainty ± 1.31 m');
     const figure = [...line.querySelectorAll('span')].find((el) => el.textContent === '± 1.31 m');

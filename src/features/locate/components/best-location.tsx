@@ -66,7 +66,8 @@ export function BestLocationHeadline({
           )}
           <DigCaution />
           <p className="text-sm" data-testid="best-methods">
-            <span className="font-semibold">From: </span>
+            {/* Each reading's share of the location (its weight), named as such: a bare "100 %" read as a confidence. */}
+            <span className="font-semibold">Made from, with each reading's share: </span>
             {used.map(methodShareText).join(' · ')}
           </p>
         </>
