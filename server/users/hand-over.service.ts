@@ -40,7 +40,15 @@ export async function handOverRepairs(ctx: AppContext, fromUserId: number, toUse
         fields: [{ field: 'toUserId', message: 'must be an active field technician' }],
       });
     }
-    const tickets = await Ticket.findAll({ where: { assigneeId: fromUserId, status: [...HANDED_OVER] }, order: [['id', 'ASC']], transaction });
+    // Held (FOR UPDATE on PostgreSQL; SQLite writes one at a time) until they are moved, as every change to a ticket
+    // holds it: a close-out or a status step at the same moment comes first (and the ticket, no longer open, is not
+    // taken), or waits and finds the ticket with its new assignee.
+    const tickets = await Ticket.findAll({
+      where: { assigneeId: fromUserId, status: [...HANDED_OVER] },
+      order: [['id', 'ASC']],
+      lock: transaction.LOCK.UPDATE,
+      transaction,
+    });
     for (const t of tickets) {
       const fromStatus = t.status;
       await t.update({ assigneeId: to.id, status: 'assigned' }, { transaction });
