@@ -136,7 +136,9 @@ export async function createRun(input: RunInput, sequelize: Sequelize) {
 
 export async function updateRun(id: number, input: RunUpdate, sequelize: Sequelize) {
   await sequelize.transaction(async (transaction) => {
-    const run = await CableRun.findByPk(id, { transaction });
+    // The run's row is held (FOR UPDATE on PostgreSQL; SQLite writes one at a time) while its markers are checked
+    // against the new length, as replaceMarkers holds it while the new markers are checked against the length.
+    const run = await CableRun.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
     if (!run) throw AppError.notFound(`Cable run ${id}`);
     await checkRefs({ ...input, siteId: run.siteId }, id, transaction);
     const markers = await RouteMarker.findAll({ where: { cableRunId: id }, transaction });
@@ -149,7 +151,9 @@ export async function updateRun(id: number, input: RunUpdate, sequelize: Sequeli
 /** Replace a run's route markers in one go (the editor saves the whole list). */
 export async function replaceMarkers(id: number, input: z.output<typeof MarkersInputSchema>, sequelize: Sequelize) {
   await sequelize.transaction(async (transaction) => {
-    const run = await CableRun.findByPk(id, { transaction });
+    // Held as updateRun holds it: a change of length at the same moment comes first (and these markers are checked
+    // against it) or waits and checks its length against these markers.
+    const run = await CableRun.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
     if (!run) throw AppError.notFound(`Cable run ${id}`);
     checkMarkers(run.installedLengthM, input.markers);
     await RouteMarker.destroy({ where: { cableRunId: id }, transaction });
