@@ -1,9 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { QueryTypes } from 'sequelize';
 import { Ticket, User } from '../../server/db/models';
 import { OPEN_STATUSES } from '../../shared/tickets/status';
-import { isPostgres, startApi, type TestApi } from './support/api';
+import { startApi, type TestApi } from './support/api';
 import { eventually } from './mail.support';
+import { foundId, pauseFirstRead, someoneWaitsForALock } from './support/pause';
 import { confirmedFinding, supervisedRun } from './tickets.support';
 
 /**
@@ -20,37 +20,7 @@ beforeAll(async () => {
 afterAll(() => api.close());
 
 /** Pauses the first read of user `id` made inside a transaction until `release()`; `reached` resolves when it happens. */
-function pauseReadOf(id: number) {
-  let reached!: () => void;
-  let release!: () => void;
-  const reachedP = new Promise<void>((r) => (reached = r));
-  const released = new Promise<void>((r) => (release = r));
-  let armed = true;
-  User.addHook('afterFind', 'pause-read-of-assignee', async (result: unknown, options: { transaction?: unknown }) => {
-    const rows = Array.isArray(result) ? result : [result];
-    if (!armed || !options.transaction || !rows.some((u) => (u as User | null)?.id === id)) return;
-    armed = false;
-    reached();
-    await released;
-  });
-  return {
-    reached: reachedP,
-    release: () => {
-      User.removeHook('afterFind', 'pause-read-of-assignee');
-      release();
-    },
-  };
-}
-
-/** True once a database session waits for a row lock (PostgreSQL); SQLite runs one write transaction at a time anyway. */
-async function someoneWaitsForALock() {
-  if (!isPostgres) return true;
-  const [row] = await api.app.ctx.sequelize.query<{ n: string }>(
-    "SELECT count(*) AS n FROM pg_stat_activity WHERE datname = current_database() AND wait_event_type = 'Lock'",
-    { type: QueryTypes.SELECT },
-  );
-  return Number(row.n) > 0;
-}
+const pauseReadOf = (id: number) => pauseFirstRead(User, 'pause-read-of-assignee', (result) => foundId(result, id));
 
 describe('deactivating a technician while a repair is given to them', () => {
   it('tells the administrator the true number of open repairs still theirs', async () => {
@@ -67,7 +37,7 @@ describe('deactivating a technician while a repair is given to them', () => {
     let deactivated: { status: number; body: { openTicketCount?: number } } | null = null;
     const deactivating = admin.patch(`/api/users/${techId}`, { active: false }).then((r) => (deactivated = r));
     // The deactivation either is done, or waits for the assignment's hold on the person's row.
-    await eventually(async () => deactivated !== null || (await someoneWaitsForALock()), 'the deactivation to finish or wait');
+    await eventually(async () => deactivated !== null || (await someoneWaitsForALock(api)), 'the deactivation to finish or wait');
     pause.release();
     const [ticket] = await Promise.all([assigning, deactivating]);
 

@@ -1,9 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { QueryTypes } from 'sequelize';
 import { hashPassword } from '../../server/auth/passwords';
 import { Ticket, TicketCloseout, User } from '../../server/db/models';
-import { isPostgres, startApi, TEST_PASSWORD, type TestApi } from './support/api';
+import { startApi, TEST_PASSWORD, type TestApi } from './support/api';
 import { eventually } from './mail.support';
+import { pauseFirstRead, someoneWaitsForALock } from './support/pause';
 import { confirmedFinding, supervisedRun } from './tickets.support';
 
 /**
@@ -20,37 +20,13 @@ beforeAll(async () => {
 afterAll(() => api.close());
 
 /** Pauses the hand-over's read of `userId`'s tickets until `release()`; `reached` resolves when it happens. */
-function pauseTicketsOf(userId: number) {
-  let reached!: () => void;
-  let release!: () => void;
-  const reachedP = new Promise<void>((r) => (reached = r));
-  const released = new Promise<void>((r) => (release = r));
-  let armed = true;
-  Ticket.addHook('afterFind', 'pause-hand-over', async (result: unknown, options: { transaction?: unknown; where?: unknown }) => {
+const pauseTicketsOf = (userId: number) =>
+  pauseFirstRead(
+    Ticket,
+    'pause-hand-over',
     // By then the condition names the column (assignee_id).
-    const where = options.where as { assignee_id?: unknown } | undefined;
-    if (!armed || !Array.isArray(result) || !options.transaction || where?.assignee_id !== userId) return;
-    armed = false;
-    reached();
-    await released;
-  });
-  return {
-    reached: reachedP,
-    release: () => {
-      Ticket.removeHook('afterFind', 'pause-hand-over');
-      release();
-    },
-  };
-}
-
-async function someoneWaitsForALock() {
-  if (!isPostgres) return true;
-  const [row] = await api.app.ctx.sequelize.query<{ n: string }>(
-    "SELECT count(*) AS n FROM pg_stat_activity WHERE datname = current_database() AND wait_event_type = 'Lock'",
-    { type: QueryTypes.SELECT },
+    (result, options) => Array.isArray(result) && (options.where as { assignee_id?: unknown } | undefined)?.assignee_id === userId,
   );
-  return Number(row.n) > 0;
-}
 
 describe('handing over repairs while one of them is closed out', () => {
   it('never leaves a closed-out repair assigned again', async () => {
@@ -70,7 +46,7 @@ describe('handing over repairs while one of them is closed out', () => {
     const closing = tess
       .post(`/api/tickets/${ticket}/closeout`, { found: { method: 'distance', fromEnd: 'A', distanceM: 71 }, cause: 'open-conductor', workDone: 'Remade the joint' })
       .then((r) => (closed = r));
-    await eventually(async () => closed !== null || (await someoneWaitsForALock()), 'the close-out to finish or wait');
+    await eventually(async () => closed !== null || (await someoneWaitsForALock(api)), 'the close-out to finish or wait');
     pause.release();
     const [handed] = await Promise.all([handing, closing]);
 

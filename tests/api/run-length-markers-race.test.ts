@@ -1,9 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { QueryTypes } from 'sequelize';
 import { CableRun, RouteMarker } from '../../server/db/models';
-import { isPostgres, startApi, type TestApi } from './support/api';
+import { startApi, type TestApi } from './support/api';
 import { eventually } from './mail.support';
 import { makeRun } from './support/field-fixtures';
+import { foundId, pauseFirstRead, someoneWaitsForALock } from './support/pause';
 
 /**
  * One supervisor saves a run's route markers while another shortens the run. Each change is checked against the
@@ -18,35 +18,7 @@ beforeAll(async () => {
 afterAll(() => api.close());
 
 /** Pauses the first read of run `id` made inside a transaction until `release()`; `reached` resolves when it happens. */
-function pauseReadOfRun(id: number) {
-  let reached!: () => void;
-  let release!: () => void;
-  const reachedP = new Promise<void>((r) => (reached = r));
-  const released = new Promise<void>((r) => (release = r));
-  let armed = true;
-  CableRun.addHook('afterFind', 'pause-read-of-run', async (result: unknown, options: { transaction?: unknown }) => {
-    if (!armed || !options.transaction || (result as CableRun | null)?.id !== id) return;
-    armed = false;
-    reached();
-    await released;
-  });
-  return {
-    reached: reachedP,
-    release: () => {
-      CableRun.removeHook('afterFind', 'pause-read-of-run');
-      release();
-    },
-  };
-}
-
-async function someoneWaitsForALock() {
-  if (!isPostgres) return true;
-  const [row] = await api.app.ctx.sequelize.query<{ n: string }>(
-    "SELECT count(*) AS n FROM pg_stat_activity WHERE datname = current_database() AND wait_event_type = 'Lock'",
-    { type: QueryTypes.SELECT },
-  );
-  return Number(row.n) > 0;
-}
+const pauseReadOfRun = (id: number) => pauseFirstRead(CableRun, 'pause-read-of-run', (result) => foundId(result, id));
 
 describe('saving route markers while the run is shortened', () => {
   it('ends with every marker on the route', async () => {
@@ -64,7 +36,7 @@ describe('saving route markers while the run is shortened', () => {
     await pause.reached;
     let shortened: { status: number } | null = null;
     const shortening = other.put(`/api/cable-runs/${run.id}`, shorter).then((r) => (shortened = r));
-    await eventually(async () => shortened !== null || (await someoneWaitsForALock()), 'the length change to finish or wait');
+    await eventually(async () => shortened !== null || (await someoneWaitsForALock(api)), 'the length change to finish or wait');
     pause.release();
     const [saved] = await Promise.all([saving, shortening]);
 
