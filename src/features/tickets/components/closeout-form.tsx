@@ -73,6 +73,13 @@ export function CloseoutForm({ ticket, unit, onDone }: { ticket: TicketDetail; u
     save.mutate({ id: ticket.id, ...input }, { onSuccess: () => onDone?.() });
   };
 
+  // Said under the button while it cannot be pressed, so nobody is left guessing why it is grey.
+  const missing = found
+    ? []
+    : method === 'marker'
+      ? [!markerId && 'the route marker', parseNumber(offset) === null && 'the distance past it toward end B'].filter((m): m is string => !!m)
+      : ['the cable length to the fault'];
+
   const endLabel = (end: 'A' | 'B') => `End ${end} (${end === 'A' ? run.endALabel : run.endBLabel})`;
 
   return (
@@ -176,9 +183,14 @@ export function CloseoutForm({ ticket, unit, onDone }: { ticket: TicketDetail; u
         </span>
       </label>
       {save.error && !Object.keys(errors).length && <ErrorNotice error={save.error} unit={unit} />}
-      <Button type="submit" disabled={save.isPending || !found}>
+      <Button type="submit" disabled={save.isPending || missing.length > 0} aria-describedby={missing.length > 0 ? 'closeout-missing' : undefined}>
         Record the repair
       </Button>
+      {missing.length > 0 && (
+        <p id="closeout-missing" className="text-sm text-ink-soft" data-testid="closeout-missing">
+          Still needed: {missing.join(', ').replace(/, ([^,]*)$/, ' and $1')}.
+        </p>
+      )}
     </form>
   );
 }
