@@ -242,10 +242,32 @@ function Strip({
 }
 
 /**
+ * The second strip's stretch and its title: from the last place (end or marker)
+ * before the dig window to the first one after it, titled by those two places;
+ * or, where they are closer than three windows, three windows centred on it,
+ * so a narrow window is still a band and not a line.
+ */
+export function closeUpSpan(
+  places: ReadonlyArray<Pick<Place, 'label' | 'chainageM' | 'kind'>>,
+  pos: Pick<RoutePosition, 'windowStartChainageM' | 'windowEndChainageM'>,
+  routeM: number,
+): { fromM: number; toM: number; title: string } {
+  const before = places.filter((p) => p.chainageM <= pos.windowStartChainageM).pop() ?? places[0];
+  const after = places.find((p) => p.chainageM >= pos.windowEndChainageM) ?? places[places.length - 1];
+  const windowM = Math.max(pos.windowEndChainageM - pos.windowStartChainageM, 1);
+  if (after.chainageM - before.chainageM < 3 * windowM) {
+    const mid = (pos.windowStartChainageM + pos.windowEndChainageM) / 2;
+    return { fromM: Math.max(0, mid - 1.5 * windowM), toM: Math.min(routeM, mid + 1.5 * windowM), title: 'Close-up of the dig window' };
+  }
+  const name = (p: Pick<Place, 'label' | 'kind'>) => (p.kind === 'end' ? `end ${p.label}` : p.label);
+  return { fromM: before.chainageM, toM: after.chainageM, title: `Between ${name(before)} and ${name(after)}, around the dig window` };
+}
+
+/**
  * The route drawn as a strip, along the ground from end A: the ends, the
  * markers, the slack coiled at them, the dig window and the best location.
- * The first strip is the whole route; the second is the stretch from the last
- * marker before the window to the first one after it. Drawn from the page's
+ * The first strip is the whole route; the second is the stretch around the
+ * dig window (closeUpSpan). Drawn from the page's
  * own data, so it works without a signal.
  */
 export function RouteStrip({ run, pos, unit }: { run: StripRun; pos: RoutePosition; unit: LengthUnit }) {
@@ -256,24 +278,14 @@ export function RouteStrip({ run, pos, unit }: { run: StripRun; pos: RoutePositi
     ...[...run.markers].sort((a, b) => a.chainageM - b.chainageM).map((m) => ({ label: m.label, chainageM: m.chainageM, slackM: m.slackM, kind: 'marker' as const })),
     { label: 'B', chainageM: routeM, slackM: 0, kind: 'end' as const },
   ];
-  const before = places.filter((p) => p.chainageM <= pos.windowStartChainageM).pop() ?? places[0];
-  const after = places.find((p) => p.chainageM >= pos.windowEndChainageM) ?? places[places.length - 1];
-  // The close-up spans at least three windows, so a narrow window is still a band and not a line.
-  const windowM = Math.max(pos.windowEndChainageM - pos.windowStartChainageM, 1);
-  let lo = before.chainageM;
-  let hi = after.chainageM;
-  if (hi - lo < 3 * windowM) {
-    const mid = (pos.windowStartChainageM + pos.windowEndChainageM) / 2;
-    lo = Math.max(0, mid - 1.5 * windowM);
-    hi = Math.min(routeM, mid + 1.5 * windowM);
-  }
+  const { fromM: lo, toM: hi, title: closeUpTitle } = closeUpSpan(places, pos, routeM);
   const closeUp = lo > 0 || hi < routeM;
   return (
     <div ref={ref} className="space-y-3" aria-label="Route strip">
       {width > 0 && (
         <>
           <Strip places={places} fromM={0} toM={routeM} pos={pos} width={width} unit={unit} title="Whole route, along the ground from end A" testId="route-strip" />
-          {closeUp && <Strip places={places} fromM={lo} toM={hi} pos={pos} width={width} unit={unit} title="Close-up of the dig window" testId="route-strip-close" />}
+          {closeUp && <Strip places={places} fromM={lo} toM={hi} pos={pos} width={width} unit={unit} title={closeUpTitle} testId="route-strip-close" />}
         </>
       )}
       <p className="text-xs text-ink-soft">
