@@ -24,7 +24,7 @@ const TABS: Array<{ status: CalibrationStatus | 'all'; label: string }> = [
 ];
 
 function Decide({ c, onDone }: { c: CalibrationView; onDone: (said: string) => void }) {
-  const { user, can } = useSession();
+  const { user, can, unit } = useSession();
   const accept = useAcceptCalibration();
   const reject = useRejectCalibration();
   const [note, setNote] = useState('');
@@ -57,6 +57,7 @@ function Decide({ c, onDone }: { c: CalibrationView; onDone: (said: string) => v
           values={values}
           onValues={setEdited}
           errors={errors}
+          unit={unit}
         />
       )}
       <TextField

@@ -2,6 +2,7 @@ import type { CalibrationStats } from '../../../../shared/cable/calibration';
 import { proposeVf, SINGLE_CALIBRATION_TOLERANCE, TOLERANCE_FLOOR } from '../../../../shared/cable/calibration-proposal';
 import type { CalibrationView } from '../../../../shared/schemas/cables';
 import { TextField } from '../../../components/ui/field';
+import { formatLength, type LengthUnit } from '../../../lib/format';
 
 export interface ProposalValues {
   vf: string;
@@ -10,6 +11,9 @@ export interface ProposalValues {
 }
 
 const pct = (f: number) => `${(f * 100).toFixed(1)} %`;
+
+/** The example error in a calibration's length that the single-calibration caution works through. */
+export const EXAMPLE_LENGTH_ERROR_M = 0.5;
 
 /** The library values the form starts from: the proposal's. */
 export function proposalDefaults(c: CalibrationView, acceptedVfs: number[], libraryVfTolerance: number): ProposalValues {
@@ -39,6 +43,7 @@ export function CalibrationProposal({
   values,
   onValues,
   errors,
+  unit,
 }: {
   calibration: CalibrationView;
   accepted: CalibrationStats;
@@ -48,6 +53,7 @@ export function CalibrationProposal({
   values: ProposalValues;
   onValues: (v: ProposalValues) => void;
   errors: Record<string, string>;
+  unit: LengthUnit;
 }) {
   const p = proposeVf(acceptedVfs, calibration.vf, libraryVfTolerance);
   const rule =
@@ -68,6 +74,17 @@ export function CalibrationProposal({
         <span className="font-semibold">Proposed on accepting:</span> VF {p.vf.toFixed(4)}, the mean of {p.count === 1 ? 'this calibration alone' : `the ${p.count} accepted with this one`} (library
         now {libraryVf.toFixed(4)} ± {pct(libraryVfTolerance)}); tolerance ±{pct(p.vfTolerance)}: {rule}.
       </p>
+      {p.count === 1 && (
+        // VF = 2L / (c·t), so an error in L moves the VF by the same share of it.
+        <p className="rounded-md border-l-4 border-warn bg-warn-light px-3 py-2 text-ink" role="note" data-testid="single-calibration-caution">
+          <span className="font-semibold">Caution: this rests on a single calibration.</span>{' '}
+          {`One cable shows nothing of the spread between cables of this type. On a short run a small error in the ${
+            calibration.source === 'repair-closeout' ? 'found position' : 'known length'
+          } is a large share of the length: as an example, ±${formatLength(EXAMPLE_LENGTH_ERROR_M, unit)} on this ${formatLength(calibration.knownLengthM, unit)} is ±${pct(
+            EXAMPLE_LENGTH_ERROR_M / calibration.knownLengthM,
+          )}, and the VF it gives moves by the same share. You decide what to store.`}
+        </p>
+      )}
       <div className="grid gap-2 sm:grid-cols-2">
         <TextField label="VF to store" inputMode="decimal" value={values.vf} error={errors.vf} onChange={(e) => onValues({ ...values, vf: e.target.value })} />
         <TextField label="Tolerance (± %)" inputMode="decimal" value={values.tolerancePct} error={errors.vfTolerance} onChange={(e) => onValues({ ...values, tolerancePct: e.target.value })} />
