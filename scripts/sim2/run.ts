@@ -35,6 +35,7 @@ const SET_NAMES: readonly string[] = [
   'heldout9',
   'check',
   'heldout10',
+  'heldout11',
 ];
 if (!setName || !SET_NAMES.includes(setName)) {
   process.stderr.write(`usage: run.ts --set ${SET_NAMES.join('|')} [--json] [--quiet] [--only TEXT] [--no-loss]\n`);

@@ -26,7 +26,8 @@ export type SetName =
   | 'heldout8'
   | 'heldout9'
   | 'check'
-  | 'heldout10';
+  | 'heldout10'
+  | 'heldout11';
 
 const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   tuning: { seed: 0x51a7e, count: 80 },
@@ -59,6 +60,8 @@ const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   check: { seed: 0x7c4a9e31, count: 120 },
   // A tenth, drawn after the ninth had been run once on the final engine of its round, for the next round: the same rules apply.
   heldout10: { seed: 0x5be0cd19, count: 120 },
+  // An eleventh, drawn after the tenth had been run once on the final engine of its round, for the next round: the same rules apply.
+  heldout11: { seed: 0x714f7121, count: 120 },
 };
 
 /** Seed of case i of a set: a splitmix-style scramble of the set's seed and the index. */
