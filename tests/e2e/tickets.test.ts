@@ -110,7 +110,18 @@ describe('a repair from assignment to calibration', () => {
     const form = page.getByRole('form', { name: 'Close-out' });
     await form.getByLabel('Route marker').selectOption(String(mh2Id));
     // The marker reads as it does on the route page: its kind once, then where it lies.
-    expect(await form.getByLabel('Route marker').locator('option:checked').textContent()).toBe('Manhole MH-2 (310.0 m from end A on the ground)');
+    // The marker reads as it does on the route page, after where it lies: the distance leads, so a narrow select still shows it.
+    expect(await form.getByLabel('Route marker').locator('option:checked').textContent()).toBe('310.0 m · Manhole MH-2');
+    expect(await form.getByText('Distances from end A (Substation bay 3), on the ground.').isVisible()).toBe(true);
+    // On the phone every marker's words fit the closed select (its padding and arrow kept clear), so none is cut off.
+    const cut = await form.getByLabel('Route marker').evaluate((el: HTMLSelectElement) => {
+      const style = getComputedStyle(el);
+      const pen = document.createElement('canvas').getContext('2d')!;
+      pen.font = style.font;
+      const room = el.clientWidth - parseFloat(style.paddingLeft) - parseFloat(style.paddingRight) - 24;
+      return [...el.options].filter((o) => pen.measureText(o.text).width > room).map((o) => o.text);
+    });
+    expect(cut).toEqual([]);
     await form.getByLabel('Distance past it toward end B (m)').fill('85');
     // Hand-worked: 85 m past MH-2 (310 m) is 395 m of route; the 4 + 6 m coils lie before it → 405 m of cable.
     const preview = form.getByTestId('closeout-preview');

@@ -105,10 +105,17 @@ export function CloseoutForm({ ticket, unit, onDone }: { ticket: TicketDetail; u
         </div>
         {method === 'marker' ? (
           <div className="grid gap-3 sm:grid-cols-2">
-            <SelectField label="Route marker" value={markerId} onChange={(e) => editing(setMarkerId)(Number(e.target.value))} error={positionError('found.markerId')}>
+            {/* The distance leads and the words about it sit under the field, so a phone's narrow select still shows it. */}
+            <SelectField
+              label="Route marker"
+              value={markerId}
+              onChange={(e) => editing(setMarkerId)(Number(e.target.value))}
+              error={positionError('found.markerId')}
+              hint={`Distances from end A (${run.endALabel}), on the ground.`}
+            >
               {run.markers.map((m) => (
                 <option key={m.id} value={m.id}>
-                  {markerPhrase(markerKindTitle(m.kind), m.label)} ({formatLength(m.chainageM, unit)} from end A on the ground)
+                  {formatLength(m.chainageM, unit)} · {markerPhrase(markerKindTitle(m.kind), m.label)}
                 </option>
               ))}
             </SelectField>
