@@ -290,6 +290,8 @@ describe('accepting a calibration', () => {
         const stats = page.getByTestId('calibration-stats');
         await stats.waitFor();
         expect(await stats.textContent()).toBe('Accepted (n)3Mean VF0.6590Spread (s.d.)0.0036');
+        // The library's reference to the calibration gives its length as every length on the page is given.
+        expect(await page.getByTestId('vf-reference').textContent()).toMatch(/^Mean of the accepted field calibrations of this cable type, the last #\d+: 120\.0 m known length, 1212\.95 ns round trip /);
         await part(page.locator('section').filter({ has: stats }), 'cable-calibrations-desktop');
       }
       await page.close();

@@ -20,7 +20,7 @@ import { ReanalysisPanel } from '../../features/cables/components/reanalysis-pan
 import { CalibrationChart } from '../../features/calibrations/components/calibration-chart';
 import { CalibrationForm, type TraceCalibrationSource } from '../../features/calibrations/components/calibration-form';
 import { getTrace } from '../../features/traces/api/get-trace';
-import { formatDate, formatDateTime, formatLength, type LengthUnit } from '../../lib/format';
+import { formatDate, formatDateTime, formatLength, lengthsInText, type LengthUnit } from '../../lib/format';
 import { NotFoundPage } from './not-found';
 import { paths } from '../paths';
 
@@ -144,7 +144,10 @@ export function CablePage() {
                 <CableLossDetails cable={c} unit={unit} />
                 <Row label="VF source">
                   <StatusBadge kind="vfSource" status={c.vfSource} label={vfSourceLabel(c.vfSource)} />
-                  <span className="mt-1 block">{c.vfReference}</span>
+                  {/* A calibration's reference is Rholog's own sentence, stored in metres with every digit: shown in the reader's unit and precision. */}
+                  <span className="mt-1 block" data-testid="vf-reference">
+                    {c.vfSource === 'field-calibrated' ? lengthsInText(c.vfReference, unit) : c.vfReference}
+                  </span>
                 </Row>
                 {c.notes && <Row label="Notes">{c.notes}</Row>}
                 <Row label="Revision">
@@ -180,7 +183,7 @@ export function CablePage() {
                 </p>
                 {calibrations.data.items.length > 0 ? (
                   <>
-                    <CalibrationChart items={calibrations.data.items} stats={calibrations.data.stats} libraryVf={c.vf} animate={!navigator.webdriver} />
+                    <CalibrationChart items={calibrations.data.items} stats={calibrations.data.stats} libraryVf={c.vf} unit={unit} animate={!navigator.webdriver} />
                     <div className="mt-3 overflow-x-auto">
                       <table className="w-full min-w-[32rem] text-left text-sm">
                         <thead className="text-xs uppercase text-mist">

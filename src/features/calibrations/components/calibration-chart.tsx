@@ -2,7 +2,7 @@ import { Chart as ChartJS, Legend, LinearScale, LineElement, PointElement, Toolt
 import { Scatter } from 'react-chartjs-2';
 import type { CalibrationStats } from '../../../../shared/cable/calibration';
 import type { CalibrationView } from '../../../../shared/schemas/cables';
-import { formatDate } from '../../../lib/format';
+import { formatDate, formatLength, type LengthUnit } from '../../../lib/format';
 
 ChartJS.register(LinearScale, PointElement, LineElement, Tooltip, Legend);
 
@@ -32,11 +32,13 @@ export function CalibrationChart({
   items,
   stats,
   libraryVf,
+  unit,
   animate = true,
 }: {
   items: CalibrationView[];
   stats: CalibrationStats;
   libraryVf: number;
+  unit: LengthUnit;
   animate?: boolean;
 }) {
   const ordered = [...items].reverse();
@@ -92,7 +94,7 @@ export function CalibrationChart({
           label: (ctx) => {
             if (ctx.dataset.showLine) return `${ctx.dataset.label}: ${(ctx.parsed.y ?? 0).toFixed(4)}`;
             const c = ordered[Math.round(ctx.parsed.x ?? 0) - 1];
-            return c ? `#${c.id} ${c.status}: VF ${c.vf.toFixed(4)} · ${c.knownLengthM} m · ${formatDate(c.createdAt)}` : '';
+            return c ? `#${c.id} ${c.status}: VF ${c.vf.toFixed(4)} · ${formatLength(c.knownLengthM, unit)} · ${formatDate(c.createdAt)}` : '';
           },
         },
       },
