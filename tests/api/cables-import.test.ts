@@ -54,7 +54,7 @@ describe('POST /api/cables/import/preview', () => {
     expect(issues).toEqual({
       z0_ohm: '3: must be greater than 0 Ω',
       vf: '3: must be at most 1 (nothing is faster than light)',
-      vf_source: '3: is required: one of datasheet, handbook, calculated, field-calibrated',
+      vf_source: '3: must be one of datasheet, handbook, calculated, field-calibrated',
       vf_reference: '3: is required',
     });
     expect(r3).toMatchObject({ line: 4, action: 'update', name: 'Existing PTFE coax' });
