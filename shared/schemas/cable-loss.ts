@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { required } from './input';
 import { SPEED_OF_LIGHT_M_PER_S } from '../cable/propagation';
 
 /**
@@ -13,7 +14,7 @@ import { SPEED_OF_LIGHT_M_PER_S } from '../cable/propagation';
  * Every figure carries its source.
  */
 
-const num = (what = 'must be a number') => z.number({ error: what }).finite({ error: what });
+const num = (what = 'must be a number') => z.number({ error: required(what) }).finite({ error: what });
 
 export const MAX_ATTENUATION_POINTS = 12;
 export const MAX_PULSE_VFS = 12;
@@ -36,7 +37,7 @@ const balanced = (s: string) => {
 };
 
 const sourceText = z
-  .string({ error: 'is required: say where the figure comes from' })
+  .string({ error: required('is required: say where the figure comes from') })
   .trim()
   .min(1, 'is required: say where the figure comes from')
   .max(500, 'must be at most 500 characters')

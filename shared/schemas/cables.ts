@@ -8,7 +8,7 @@ import {
   type LineConstants,
   type PulseVf,
 } from './cable-loss';
-import { foldedNameFits, oneLine, textId, textInt } from './input';
+import { foldedNameFits, oneLine, required, textId, textInt } from './input';
 
 export * from './cable-loss';
 
@@ -41,20 +41,20 @@ export const CALIBRATION_SOURCE_LABELS: Record<CalibrationSource, string> = {
 export const CALIBRATION_STATUSES = ['pending', 'accepted', 'rejected'] as const;
 export type CalibrationStatus = (typeof CALIBRATION_STATUSES)[number];
 
-const num = (what = 'must be a number') => z.number({ error: what }).finite({ error: what });
+const num = (what = 'must be a number') => z.number({ error: required(what) }).finite({ error: what });
 
 /** The fields of one library entry, all in SI. Shared by the form, the API and the CSV import. */
 export const cableFields = {
-  name: foldedNameFits(oneLine(z.string({ error: 'is required' }).trim().min(1, 'is required').max(120, 'must be at most 120 characters'))),
+  name: foldedNameFits(oneLine(z.string({ error: required('is required') }).trim().min(1, 'is required').max(120, 'must be at most 120 characters'))),
   construction: z.enum(CONSTRUCTIONS, { error: `must be one of ${CONSTRUCTIONS.join(', ')}` }),
-  dielectric: oneLine(z.string({ error: 'is required' }).trim().min(1, 'is required').max(120, 'must be at most 120 characters')),
+  dielectric: oneLine(z.string({ error: required('is required') }).trim().min(1, 'is required').max(120, 'must be at most 120 characters')),
   z0Ohm: num().gt(0, 'must be greater than 0 Ω').max(10_000, 'must be at most 10000 Ω'),
   vf: num().gt(0, 'must be greater than 0').max(1, 'must be at most 1 (nothing is faster than light)'),
   vfTolerance: num().min(0, 'must not be negative').max(0.5, 'must be at most 0.5 (±50 %)'),
   attenuationDbPer100m: num().min(0, 'must not be negative').max(1000, 'must be at most 1000 dB/100 m').nullable(),
   attenuationFreqMhz: num().gt(0, 'must be greater than 0 MHz').max(100_000, 'must be at most 100000 MHz').nullable(),
-  vfSource: z.enum(VF_SOURCES, { error: `is required: one of ${VF_SOURCES.join(', ')}` }),
-  vfReference: z.string({ error: 'is required' }).trim().min(1, 'is required: say where the VF comes from').max(2000),
+  vfSource: z.enum(VF_SOURCES, { error: required(`is required: one of ${VF_SOURCES.join(', ')}`) }),
+  vfReference: z.string({ error: required('is required') }).trim().min(1, 'is required: say where the VF comes from').max(2000),
   notes: z.string().trim().max(4000, 'must be at most 4000 characters').nullable(),
   /** Attenuation at stated frequencies, dB per 100 m; the engine corrects distance and ρ for it. */
   attenuation: attenuationListSchema,
@@ -123,7 +123,7 @@ export function headlinePoint(points: readonly AttenuationPoint[]): { attenuatio
 }
 
 export const reasonSchema = z
-  .string({ error: 'is required: say why' })
+  .string({ error: required('is required: say why') })
   .trim()
   .min(3, 'is required: say why (at least 3 characters)')
   .max(2000, 'must be at most 2000 characters');
@@ -158,7 +158,7 @@ export const CableListQuerySchema = z.object({
 export type CableListQuery = z.output<typeof CableListQuerySchema>;
 
 export const CalibrationSubmitSchema = z.object({
-  cableTypeId: z.number({ error: 'is required' }).int('must be a whole number').positive('must be a positive whole number'),
+  cableTypeId: z.number({ error: required('is required') }).int('must be a whole number').positive('must be a positive whole number'),
   knownLengthM: num('is required: a number of metres').gt(0, 'must be greater than 0 m').max(100_000, 'must be at most 100 km'),
   roundTripNs: num('is required: a number of nanoseconds').gt(0, 'must be greater than 0 ns').max(10_000_000, 'must be at most 10 ms'),
   source: z.enum(CALIBRATION_SOURCES, { error: `must be one of ${CALIBRATION_SOURCES.join(', ')}` }).default('manual'),

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { required } from './input';
 import { FINDING_KINDS, type FindingStatus } from './findings';
 
 export const FINDING_DECISION_ACTIONS = ['decided', 'reversed'] as const;
@@ -11,9 +12,9 @@ export const FindingReverseSchema = z.object({
    * twice, or after someone else reversed the finding, is refused (409
    * `decision_changed`) instead of turning it back.
    */
-  to: z.enum(['confirmed', 'dismissed'], { error: "is required: the status the finding is to have, 'confirmed' or 'dismissed'" }),
+  to: z.enum(['confirmed', 'dismissed'], { error: required("is required: the status the finding is to have, 'confirmed' or 'dismissed'") }),
   reason: z
-    .string({ error: 'is required: say why the decision is reversed' })
+    .string({ error: required('is required: say why the decision is reversed') })
     .trim()
     .min(10, 'must be at least 10 characters: say why the decision is reversed')
     .max(2000, 'must be at most 2000 characters'),

@@ -135,3 +135,26 @@ export function foldedNameFits<T extends z.ZodType<string>>(schema: T): T {
     }
   }) as unknown as T;
 }
+
+const TYPE_WORDS: Record<string, string> = {
+  string: 'text',
+  number: 'a number',
+  int: 'a whole number',
+  boolean: 'true or false',
+  array: 'a list',
+  object: 'an object',
+};
+
+/**
+ * The error of a field that must be given: `message` ("is required", "is required: say why") when it is missing
+ * (absent or null), and what it must be when it is there as something else — {"comment": 7} is told "must be
+ * text", not "is required". Checks chained on the field (min, max, …) keep their own messages.
+ */
+export function required(message: string) {
+  return (iss: { code?: string; input?: unknown; expected?: string; values?: readonly unknown[] }) => {
+    if (iss.input === undefined || iss.input === null) return message;
+    if (iss.code === 'invalid_type') return `must be ${TYPE_WORDS[iss.expected ?? ''] ?? iss.expected}`;
+    if (iss.code === 'invalid_value' && iss.values) return `must be one of ${iss.values.map(String).join(', ')}`;
+    return message;
+  };
+}

@@ -2,7 +2,7 @@ import { z } from 'zod';
 import type { RoutePosition } from '../field/route-position';
 import type { GroundPlace } from '../locate/route-geo';
 import { CONDUCTOR_MATERIALS, type ConductorMaterial, type LocateMethod } from '../locate';
-import { MAX_LENGTH_M, oneLine } from './input';
+import { MAX_LENGTH_M, oneLine, required } from './input';
 
 /** Readings other than TDR traces, kept with who took them, when and with what. */
 export const MEASUREMENT_KINDS = ['murray', 'varley', 'capacitance', 'loop-resistance'] as const;
@@ -128,7 +128,7 @@ const record = {
   /** Make, model and serial of the bridge or meter. */
   instrument: oneLine(
     z
-      .string({ error: 'is required: the instrument used' })
+      .string({ error: required('is required: the instrument used') })
       .trim()
       .min(1, 'is required: the instrument used')
       .max(200, 'must be at most 200 characters'),
@@ -180,7 +180,7 @@ export type MeasurementInput = z.input<typeof MeasurementInputSchema>;
 /** A corrected version: the same kind, new readings, and why. */
 export const MeasurementCorrectionSchema = byKind({
   reason: z
-    .string({ error: 'is required: why it is corrected' })
+    .string({ error: required('is required: why it is corrected') })
     .trim()
     .min(3, 'is required: why it is corrected')
     .max(2000, 'must be at most 2000 characters'),
@@ -188,7 +188,7 @@ export const MeasurementCorrectionSchema = byKind({
 
 export const MeasurementWithdrawSchema = z.strictObject({
   reason: z
-    .string({ error: 'is required: why it is withdrawn' })
+    .string({ error: required('is required: why it is withdrawn') })
     .trim()
     .min(3, 'is required: why it is withdrawn')
     .max(2000, 'must be at most 2000 characters'),

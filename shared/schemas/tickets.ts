@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { jsonId, lengthM, oneLine, textId, textInt } from './input';
+import { jsonId, lengthM, oneLine, required, textId, textInt } from './input';
 import type { RoutePosition } from '../field/route-position';
 import { FINDING_KINDS } from './findings';
 import type { MailJobView } from './outbox';
@@ -58,7 +58,7 @@ export const TicketMoveSchema = z.object({
 });
 
 export const TicketCommentSchema = z.object({
-  comment: z.string({ error: 'is required' }).trim().min(1, 'is required').max(2000, 'must be at most 2000 characters'),
+  comment: z.string({ error: required('is required') }).trim().min(1, 'is required').max(2000, 'must be at most 2000 characters'),
 });
 
 export const FoundPositionSchema = z.discriminatedUnion(
@@ -83,7 +83,7 @@ export const CloseoutSchema = z.object({
   findingId: id('a finding id of this ticket').optional(),
   found: FoundPositionSchema,
   cause: z.enum(FINDING_KINDS, { error: `must be one of ${FINDING_KINDS.join(', ')}` }),
-  workDone: z.string({ error: 'is required' }).trim().min(1, 'is required: say what was done').max(4000, 'must be at most 4000 characters'),
+  workDone: z.string({ error: required('is required') }).trim().min(1, 'is required: say what was done').max(4000, 'must be at most 4000 characters'),
   /** File the implied VF as a field calibration (turn off when the fault found was not the one located). */
   fileCalibration: z.boolean({ error: 'must be true or false' }).default(true),
   comment: text(2000),

@@ -1,8 +1,8 @@
 import { z } from 'zod';
-import { textInt, textNumber } from './input';
+import { required, textInt, textNumber } from './input';
 
 const eventIndex = z
-  .number({ error: 'is required: the number of the event (counting from 0)' })
+  .number({ error: required('is required: the number of the event (counting from 0)') })
   .int('must be a whole number')
   .min(0, 'must be 0 or more')
   .max(100_000, 'must be an event of this trace');
@@ -22,7 +22,7 @@ export type HealthyOutcomeInput = z.input<typeof HealthyOutcomeSchema>;
 export const TraceCalibrationSchema = z.object({
   eventIndex,
   knownLengthM: z
-    .number({ error: 'is required: the known length of the run, in metres' })
+    .number({ error: required('is required: the known length of the run, in metres') })
     .finite('must be a number')
     .gt(0, 'must be more than 0 m')
     .max(100_000, 'must be at most 100 km'),
@@ -33,7 +33,7 @@ export type TraceCalibrationInput = z.input<typeof TraceCalibrationSchema>;
 /** Archiving or restoring a trace always says why. */
 export const ArchiveReasonSchema = z.object({
   reason: z
-    .string({ error: 'is required: say why' })
+    .string({ error: required('is required: say why') })
     .trim()
     .min(3, 'is required: say why (at least 3 characters)')
     .max(2000, 'must be at most 2000 characters'),

@@ -1,32 +1,32 @@
 import { z } from 'zod';
-import { oneLine, textInt } from './input';
+import { oneLine, required, textInt } from './input';
 import { ROLES } from '../auth/permissions';
 import type { TicketStatus } from '../tickets/status';
 
 export const emailSchema = z
-  .string({ error: 'is required' })
+  .string({ error: required('is required') })
   .trim()
   .toLowerCase()
   .pipe(z.email({ error: 'must be an e-mail address' }).max(254));
 
 export const LoginSchema = z.object({
   email: emailSchema,
-  password: z.string({ error: 'is required' }).min(1, 'is required').max(200, 'must be at most 200 characters (no Rholog password is longer)'),
+  password: z.string({ error: required('is required') }).min(1, 'is required').max(200, 'must be at most 200 characters (no Rholog password is longer)'),
 });
 
 export const passwordSchema = z
-  .string({ error: 'is required' })
+  .string({ error: required('is required') })
   .min(10, 'must be at least 10 characters')
   .max(200, 'must be at most 200 characters');
 
 export const ChangePasswordSchema = z.object({
-  currentPassword: z.string({ error: 'is required' }).min(1, 'is required').max(200, 'must be at most 200 characters'),
+  currentPassword: z.string({ error: required('is required') }).min(1, 'is required').max(200, 'must be at most 200 characters'),
   newPassword: passwordSchema,
 });
 
 export const CreateUserSchema = z.object({
   email: emailSchema,
-  name: oneLine(z.string({ error: 'is required' }).trim().min(1, 'is required').max(120)),
+  name: oneLine(z.string({ error: required('is required') }).trim().min(1, 'is required').max(120)),
   role: z.enum(ROLES, { error: `must be one of ${ROLES.join(', ')}` }),
   phone: oneLine(z.string().trim().max(40)).optional(),
 });
