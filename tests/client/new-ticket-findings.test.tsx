@@ -1,5 +1,5 @@
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { cleanup, render, screen } from '@testing-library/react';
+import { cleanup, fireEvent, render, screen } from '@testing-library/react';
 import { http, HttpResponse } from 'msw';
 import { setupServer } from 'msw/node';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
@@ -45,5 +45,22 @@ describe('raising a ticket', () => {
     // 44.4 m from end B is 75.6 m from end A on a 120 m run: a bare "at 44.4 m" reads as the wrong place.
     expect((await screen.findByText(/^Short circuit at/)).textContent).toBe('Short circuit at 44.4 m from end B');
     expect(screen.getByText(/^Open conductor at/).textContent).toBe('Open conductor at 143.2 m from end A');
+  });
+
+  it('says under the grey "Raise ticket" button that a finding is still needed, until one is picked', async () => {
+    render(
+      <QueryClientProvider client={new QueryClient({ defaultOptions: { queries: { retry: false } } })}>
+        <NewTicketForm unit="m" onCreated={() => {}} />
+      </QueryClientProvider>,
+    );
+    await screen.findByText(/^Short circuit at/);
+    const button = screen.getByRole('button', { name: 'Raise ticket' }) as HTMLButtonElement;
+    expect(button.disabled).toBe(true);
+    expect(screen.getByTestId('new-ticket-missing').textContent).toBe('Still needed: at least one finding to repair.');
+    expect(button.getAttribute('aria-describedby')).toBe('new-ticket-missing');
+    fireEvent.click(screen.getByLabelText('Finding 5'));
+    expect(button.disabled).toBe(false);
+    expect(screen.queryByTestId('new-ticket-missing')).toBeNull();
+    expect(button.getAttribute('aria-describedby')).toBeNull();
   });
 });

@@ -90,9 +90,15 @@ export function NewTicketForm({ unit, preselect, onCreated }: { unit: LengthUnit
       </div>
       <TextAreaField label="Notes for the crew" value={notes} onChange={(e) => setNotes(e.target.value)} error={errors.notes} />
       {create.error && !Object.keys(errors).length && <ErrorNotice error={create.error} />}
-      <Button type="submit" disabled={create.isPending || picked.length === 0}>
+      <Button type="submit" disabled={create.isPending || picked.length === 0} aria-describedby={picked.length === 0 ? 'new-ticket-missing' : undefined}>
         Raise ticket
       </Button>
+      {/* Said under the button while it cannot be pressed, so nobody is left guessing why it is grey. */}
+      {picked.length === 0 && (
+        <p id="new-ticket-missing" className="text-sm text-ink-soft" data-testid="new-ticket-missing">
+          Still needed: at least one finding to repair.
+        </p>
+      )}
     </form>
   );
 }
