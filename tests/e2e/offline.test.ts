@@ -33,8 +33,12 @@ async function analyseOnPhone(page: Page, fileName: string, csv: string) {
   await page.getByLabel('Site').selectOption({ label: 'Harrowmere North substation' });
   await page.getByLabel('Cable run').selectOption({ label: 'Feeder HN-3 to Ashby Lane' });
   await page.getByRole('button', { name: /End A/ }).click();
+  const missing = page.getByTestId('device-analyse-missing');
+  expect(await missing.textContent()).toBe('Still needed: a trace file.');
   await page.getByLabel('Trace file').setInputFiles({ name: fileName, mimeType: 'text/csv', buffer: Buffer.from(csv) });
   await page.getByText(fileName).waitFor();
+  expect(await missing.count()).toBe(0);
+  expect(await page.getByRole('button', { name: 'Analyse on this phone' }).getAttribute('aria-describedby')).toBeNull();
   // The file's size reads as everywhere else in Rholog (binary kilobytes, lower-case k).
   expect(await page.getByTestId('device-file-size').textContent()).toBe(`${Math.round(Buffer.byteLength(csv) / 1024)} kB`);
   await page.getByRole('button', { name: 'Analyse on this phone' }).click();
@@ -71,6 +75,13 @@ describe('a technician with no signal', () => {
     await page.getByRole('link', { name: 'Analyse a trace on this phone' }).click();
     await page.getByRole('heading', { name: 'Analyse on this phone' }).waitFor();
     expect(await page.getByRole('note', { name: 'Safety caution' }).isVisible()).toBe(true);
+    // Nothing chosen yet: the grey button says why, in words a screen reader reads with it.
+    const analyse = page.getByRole('button', { name: 'Analyse on this phone' });
+    expect(await analyse.isDisabled()).toBe(true);
+    expect(await page.getByTestId('device-analyse-missing').textContent()).toBe(
+      'Still needed: the site and cable run, the end the instrument is connected at and a trace file.',
+    );
+    expect(await analyse.getAttribute('aria-describedby')).toBe('device-analyse-missing');
     await e2e.screenshot(page, 'offline-analyse-phone');
     await analyseOnPhone(page, 'hn3-no-signal.csv', csv);
 

@@ -63,6 +63,14 @@ export function DeviceAnalyseForm({ unit, onAnalysed }: { unit: LengthUnit; onAn
   const run = runs.find((r) => String(r.id) === runId);
   const cable = run ? d.field?.cables.find((c) => c.id === run.cableTypeId) : undefined;
 
+  // Said under the button while it cannot be pressed, so nobody is left guessing why it is grey.
+  const missing = [
+    !run && (siteId ? 'the cable run' : 'the site and cable run'),
+    run && !cable && 'the cable type of this run, which is not in the field data on this phone',
+    !end && 'the end the instrument is connected at',
+    !file && 'a trace file',
+  ].filter((m): m is string => !!m);
+
   const submit = async (e: FormEvent) => {
     e.preventDefault();
     if (!run || !end || !file || !cable) return;
@@ -255,9 +263,19 @@ export function DeviceAnalyseForm({ unit, onAnalysed }: { unit: LengthUnit; onAn
           {failure}
         </Notice>
       )}
-      <Button type="submit" className="min-h-14 w-full text-lg" disabled={!file || !run || !end || !cable || busy}>
+      <Button
+        type="submit"
+        className="min-h-14 w-full text-lg"
+        disabled={missing.length > 0 || busy}
+        aria-describedby={missing.length > 0 ? 'device-analyse-missing' : undefined}
+      >
         {busy ? 'Analysing on this phone…' : 'Analyse on this phone'}
       </Button>
+      {missing.length > 0 && (
+        <p id="device-analyse-missing" className="text-center text-sm text-ink-soft" data-testid="device-analyse-missing">
+          Still needed: {missing.join(', ').replace(/, ([^,]*)$/, ' and $1')}.
+        </p>
+      )}
     </form>
   );
 }
