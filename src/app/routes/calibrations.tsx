@@ -39,6 +39,12 @@ function Decide({ c, onDone }: { c: CalibrationView; onDone: (said: string) => v
   // Four eyes: whoever filed a calibration does not accept it, except an administrator who gives the reason.
   const own = c.submittedBy?.id === user.id;
   const override = own && can('calibrations:override');
+  // Said under the accept button while it cannot be pressed, so nobody is left guessing why it is grey.
+  const missing = [
+    override && note.trim().length < 10 && 'a reason of at least 10 characters for accepting your own calibration',
+    values !== null && proposalInput({ ...values, tolerancePct: '1' }) === null && 'a VF to store above 0 and at most 1',
+    values !== null && proposalInput({ ...values, vf: '0.5' }) === null && 'a tolerance of 0 to 50 %',
+  ].filter((m): m is string => !!m);
   return (
     <div className="space-y-2">
       {own && (
@@ -77,7 +83,8 @@ function Decide({ c, onDone }: { c: CalibrationView; onDone: (said: string) => v
                     { onSuccess: (r) => onDone(`Calibration #${c.id} accepted: ${r.cable.name} is now VF ${formatVf(r.cable.vf, 4)} ± ${(r.cable.vfTolerance * 100).toFixed(1)} % in the library. It is listed under Accepted.`) },
                   )
                 }
-                disabled={accept.isPending || (override && note.trim().length < 10) || (values !== null && chosen === null)}
+                disabled={accept.isPending || missing.length > 0}
+                aria-describedby={missing.length > 0 ? `accept-missing-${c.id}` : undefined}
               >
                 {override ? 'Accept my own, with this reason' : chosen ? `Accept into the library: VF ${chosen.vf.toFixed(4)} ± ${(chosen.vfTolerance * 100).toFixed(1)} %` : 'Accept into the library'}
               </Button>
@@ -85,6 +92,11 @@ function Decide({ c, onDone }: { c: CalibrationView; onDone: (said: string) => v
             <Button variant="secondary" onClick={() => setRejecting(true)}>
               Reject…
             </Button>
+            {(!own || override) && missing.length > 0 && (
+              <p id={`accept-missing-${c.id}`} className="basis-full text-sm text-ink-soft" data-testid={`accept-missing-${c.id}`}>
+                Still needed: {missing.join(', ').replace(/, ([^,]*)$/, ' and $1')}.
+              </p>
+            )}
           </>
         ) : (
           <>

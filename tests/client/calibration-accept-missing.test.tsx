@@ -1,0 +1,86 @@
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { cleanup, fireEvent, render, screen } from '@testing-library/react';
+import { http, HttpResponse } from 'msw';
+import { setupServer } from 'msw/node';
+import { MemoryRouter } from 'react-router-dom';
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { CalibrationsPage } from '../../src/app/routes/calibrations';
+
+const none = { count: 0, mean: null, stdDev: null, min: null, max: null };
+const pending = (submittedBy: { id: number; name: string }) => ({
+  id: 2,
+  cableType: { id: 3, name: 'Solid PE coax, 50 Ω', currentVf: 0.66 },
+  knownLengthM: 43.5,
+  roundTripNs: 449.1,
+  vf: 0.6462,
+  libraryVf: 0.66,
+  deviation: -0.0209,
+  source: 'repair-closeout',
+  traceId: 6,
+  note: null,
+  status: 'pending',
+  submittedBy,
+  reviewedBy: null,
+  reviewedAt: null,
+  reviewReason: null,
+  createdAt: '2026-12-03T06:28:00.000Z',
+});
+const planner = { id: 4, email: 'planner@example.com', name: 'Priya Castellanos', role: 'planner', active: true, mustChangePassword: false, unitPreference: 'm' };
+const admin = { id: 1, email: 'admin@example.com', name: 'Dana Okafor', role: 'admin', active: true, mustChangePassword: false, unitPreference: 'm' };
+let item = pending({ id: 2, name: 'Ines Ravelo' });
+const server = setupServer(
+  http.get('*/api/auth/csrf', () => HttpResponse.json({ csrfToken: 'token-1' })),
+  http.get('*/api/calibrations', () => HttpResponse.json({ items: [item], total: 1, page: 1, pageSize: 20 })),
+  http.get('*/api/cables/3/calibrations', () =>
+    HttpResponse.json({ libraryVf: 0.66, libraryVfTolerance: 0.02, stats: none, acceptedStats: none, counts: { pending: 1, accepted: 0, rejected: 0 }, items: [item] }),
+  ),
+);
+beforeAll(() => server.listen({ onUnhandledRequest: 'error' }));
+afterEach(cleanup);
+afterAll(() => server.close());
+
+function page(user: typeof planner) {
+  const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
+  // Signed in, as under the signed-in layout.
+  qc.setQueryData(['auth', 'me'], user);
+  render(
+    <QueryClientProvider client={qc}>
+      <MemoryRouter>
+        <CalibrationsPage />
+      </MemoryRouter>
+    </QueryClientProvider>,
+  );
+}
+
+describe('the grey accept button of the calibration review', () => {
+  it('says which of the VF and the tolerance is out of range, until both are in range', async () => {
+    item = pending({ id: 2, name: 'Ines Ravelo' });
+    page(planner);
+    const vf = await screen.findByLabelText('VF to store');
+    expect(screen.queryByTestId('accept-missing-2')).toBeNull();
+    fireEvent.change(vf, { target: { value: '1.2' } });
+    const button = screen.getByRole('button', { name: 'Accept into the library' }) as HTMLButtonElement;
+    expect(button.disabled).toBe(true);
+    expect(screen.getByTestId('accept-missing-2').textContent).toBe('Still needed: a VF to store above 0 and at most 1.');
+    expect(button.getAttribute('aria-describedby')).toBe('accept-missing-2');
+    fireEvent.change(screen.getByLabelText('Tolerance (± %)'), { target: { value: '' } });
+    expect(screen.getByTestId('accept-missing-2').textContent).toBe('Still needed: a VF to store above 0 and at most 1 and a tolerance of 0 to 50 %.');
+    fireEvent.change(vf, { target: { value: '0.6462' } });
+    expect(screen.getByTestId('accept-missing-2').textContent).toBe('Still needed: a tolerance of 0 to 50 %.');
+    fireEvent.change(screen.getByLabelText('Tolerance (± %)'), { target: { value: '2.0' } });
+    expect(screen.queryByTestId('accept-missing-2')).toBeNull();
+    expect((screen.getByRole('button', { name: /^Accept into the library: VF 0\.6462/ }) as HTMLButtonElement).disabled).toBe(false);
+  });
+
+  it('asks an administrator accepting their own calibration for the reason, until it is long enough', async () => {
+    item = pending({ id: 1, name: 'Dana Okafor' });
+    page(admin);
+    const button = (await screen.findByRole('button', { name: 'Accept my own, with this reason' })) as HTMLButtonElement;
+    expect(button.disabled).toBe(true);
+    expect(screen.getByTestId('accept-missing-2').textContent).toBe('Still needed: a reason of at least 10 characters for accepting your own calibration.');
+    expect(button.getAttribute('aria-describedby')).toBe('accept-missing-2');
+    fireEvent.change(screen.getByLabelText('Why you accept your own calibration'), { target: { value: 'Only planner away this week' } });
+    expect(button.disabled).toBe(false);
+    expect(screen.queryByTestId('accept-missing-2')).toBeNull();
+  });
+});
