@@ -40,7 +40,13 @@ export class AppError extends Error {
 }
 
 export function zodFields(error: ZodError): FieldIssue[] {
-  return error.issues.map((i) => ({ field: i.path.join('.') || '(body)', message: i.message }));
+  return error.issues.flatMap((i) =>
+    // A key the input may not hold (a strict object: a list's query, a reading's fields) is named as the field,
+    // one by one, rather than as "(body): Unrecognized keys: …".
+    i.code === 'unrecognized_keys'
+      ? i.keys.map((k) => ({ field: [...i.path, k].join('.'), message: 'is not expected here' }))
+      : [{ field: i.path.join('.') || '(body)', message: i.message }],
+  );
 }
 
 function describeFields(fields: FieldIssue[]): string {

@@ -147,7 +147,7 @@ export type CableTypeUpdate = z.output<typeof CableTypeUpdateSchema>;
 export const CABLE_SORTS = ['name', 'construction', 'dielectric', 'z0Ohm', 'vf', 'vfSource', 'updatedAt'] as const;
 export type CableSort = (typeof CABLE_SORTS)[number];
 
-export const CableListQuerySchema = z.object({
+export const CableListQuerySchema = z.strictObject({
   q: z.string().trim().max(100, 'must be at most 100 characters').optional(),
   construction: z.enum(CONSTRUCTIONS, { error: `must be one of ${CONSTRUCTIONS.join(', ')}` }).optional(),
   page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
@@ -167,7 +167,7 @@ export const CalibrationSubmitSchema = z.object({
 });
 export type CalibrationSubmitInput = z.input<typeof CalibrationSubmitSchema>;
 
-export const CalibrationListQuerySchema = z.object({
+export const CalibrationListQuerySchema = z.strictObject({
   status: z.enum([...CALIBRATION_STATUSES, 'all'], { error: `must be one of ${CALIBRATION_STATUSES.join(', ')}, all` }).default('pending'),
   cableTypeId: textId('a cable type id').optional(),
   page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),

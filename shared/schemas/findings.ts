@@ -47,7 +47,7 @@ export type FindingInput = z.input<typeof FindingInputSchema>;
 
 export const FINDING_SORTS = ['confirmedAt', 'distanceM', 'status'] as const;
 
-export const FindingListQuerySchema = z.object({
+export const FindingListQuerySchema = z.strictObject({
   siteId: textId().optional(),
   cableRunId: textId().optional(),
   traceId: textId().optional(),

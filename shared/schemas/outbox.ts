@@ -1,13 +1,13 @@
 import { z } from 'zod';
 import { textInt } from './input';
 
-export const OutboxQuerySchema = z.object({
+export const OutboxQuerySchema = z.strictObject({
   to: z.string().trim().max(254).optional(),
   page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
   pageSize: textInt({ min: 1, max: 100, what: 'a page size' }).default(25),
 });
 
-export const MailQueueQuerySchema = z.object({
+export const MailQueueQuerySchema = z.strictObject({
   status: z.enum(['queued', 'sending', 'sent', 'failed'], { error: 'must be queued, sending, sent or failed' }).optional(),
   page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
   pageSize: textInt({ min: 1, max: 100, what: 'a page size' }).default(25),

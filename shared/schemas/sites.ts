@@ -41,7 +41,7 @@ export const SiteInputSchema = z.object({
 });
 export type SiteInput = z.input<typeof SiteInputSchema>;
 
-export const SiteListQuerySchema = z.object({
+export const SiteListQuerySchema = z.strictObject({
   q: z.string().trim().max(100).optional(),
   page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
   pageSize: textInt({ min: 1, max: 100, what: 'a page size' }).default(25),
@@ -86,7 +86,7 @@ export const MarkersInputSchema = z.object({
   markers: z.array(RouteMarkerInputSchema).max(500, 'at most 500 markers per run'),
 });
 
-export const CableRunListQuerySchema = z.object({
+export const CableRunListQuerySchema = z.strictObject({
   siteId: textId().optional(),
   q: z.string().trim().max(100).optional(),
   page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),

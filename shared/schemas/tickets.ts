@@ -90,7 +90,7 @@ export const CloseoutSchema = z.object({
 });
 export type CloseoutInput = z.input<typeof CloseoutSchema>;
 
-export const TicketListQuerySchema = z.object({
+export const TicketListQuerySchema = z.strictObject({
   status: z.enum([...TICKET_STATUSES, 'open', 'all'], { error: `must be open, all or one of ${TICKET_STATUSES.join(', ')}` }).default('open'),
   assignee: z.enum(['me', 'any'], { error: 'must be me or any' }).default('any'),
   siteId: textId('a site id').optional(),

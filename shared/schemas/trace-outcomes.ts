@@ -49,7 +49,7 @@ export const SampleWindowQuerySchema = z
   .refine((q) => q.toNs > q.fromNs, { path: ['toNs'], message: 'must be later than fromNs' });
 
 export const ARCHIVED_LIST_PAGE_SIZE = 25;
-export const ArchivedListQuerySchema = z.object({
+export const ArchivedListQuerySchema = z.strictObject({
   page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
 });
 

@@ -58,7 +58,7 @@ export interface TraceSettings {
 
 export const TRACE_SORTS = ['createdAt', 'originalName', 'status', 'end'] as const;
 
-export const TraceListQuerySchema = z.object({
+export const TraceListQuerySchema = z.strictObject({
   siteId: textId().optional(),
   cableRunId: textId().optional(),
   end: z.enum(CABLE_ENDS).optional(),

@@ -56,7 +56,7 @@ export const PreferencesSchema = z.object({
   unitPreference: z.enum(['m', 'ft'], { error: 'must be m or ft' }),
 });
 
-export const ListQuerySchema = z.object({
+export const ListQuerySchema = z.strictObject({
   q: z.string().trim().max(100).optional(),
   page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
   pageSize: textInt({ min: 1, max: 100, what: 'a page size' }).default(25),
