@@ -5,26 +5,10 @@ import { setupServer } from 'msw/node';
 import { MemoryRouter } from 'react-router-dom';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { CalibrationsPage } from '../../src/app/routes/calibrations';
+import { noCalibrations, pendingCalibration } from './support/fixtures';
 
-const none = { count: 0, mean: null, stdDev: null, min: null, max: null };
-const pending = (submittedBy: { id: number; name: string }) => ({
-  id: 2,
-  cableType: { id: 3, name: 'Solid PE coax, 50 Ω', currentVf: 0.66 },
-  knownLengthM: 43.5,
-  roundTripNs: 449.1,
-  vf: 0.6462,
-  libraryVf: 0.66,
-  deviation: -0.0209,
-  source: 'repair-closeout',
-  traceId: 6,
-  note: null,
-  status: 'pending',
-  submittedBy,
-  reviewedBy: null,
-  reviewedAt: null,
-  reviewReason: null,
-  createdAt: '2026-12-03T06:28:00.000Z',
-});
+const none = noCalibrations;
+const pending = (submittedBy: { id: number; name: string }) => pendingCalibration({ submittedBy });
 const planner = { id: 4, email: 'planner@example.com', name: 'Priya Castellanos', role: 'planner', active: true, mustChangePassword: false, unitPreference: 'm' };
 const admin = { id: 1, email: 'admin@example.com', name: 'Dana Okafor', role: 'admin', active: true, mustChangePassword: false, unitPreference: 'm' };
 let item = pending({ id: 2, name: 'Ines Ravelo' });

@@ -1,26 +1,14 @@
 import { cleanup, render, screen } from '@testing-library/react';
 import { afterEach, describe, expect, it } from 'vitest';
-import type { CalibrationView } from '../../shared/schemas/cables';
 import { CalibrationProposal, proposalDefaults } from '../../src/features/calibrations/components/calibration-proposal';
+import { noCalibrations, pendingCalibration } from './support/fixtures';
 
 afterEach(cleanup);
 
-const none = { count: 0, mean: null, stdDev: null, min: null, max: null };
+const none = noCalibrations;
 const one = { count: 1, mean: 0.655, stdDev: null, min: 0.655, max: 0.655 };
 // A close-out on a 45 m run: the found position is the known length.
-const calibration = {
-  id: 2,
-  cableType: { id: 3, name: 'Solid PE coax, 50 Ω', currentVf: 0.66 },
-  knownLengthM: 45,
-  roundTripNs: 464.6,
-  vf: 0.6462,
-  libraryVf: 0.66,
-  deviation: -0.0209,
-  source: 'repair-closeout',
-  traceId: 6,
-  note: null,
-  status: 'pending',
-} as unknown as CalibrationView;
+const calibration = pendingCalibration({ knownLengthM: 45, roundTripNs: 464.6 });
 
 function proposal(acceptedVfs: number[], unit: 'm' | 'ft' = 'm') {
   render(

@@ -1,27 +1,12 @@
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { cleanup, fireEvent, render, screen } from '@testing-library/react';
 import { afterEach, describe, expect, it } from 'vitest';
-import type { TicketDetail } from '../../shared/schemas/tickets';
 import { CloseoutForm } from '../../src/features/tickets/components/closeout-form';
+import { mastFeederTicket } from './support/fixtures';
 
 afterEach(cleanup);
 
-// Radio mast feeder BF-R1 of the demo: 120 m installed, two markers on the route.
-const ticket = {
-  id: 4,
-  cableRun: {
-    id: 3,
-    name: 'Radio mast feeder BF-R1',
-    installedLengthM: 120,
-    endALabel: 'Control kiosk',
-    endBLabel: 'Telemetry radio mast',
-    markers: [
-      { id: 11, label: 'HH-A', kind: 'handhole', chainageM: 48, slackM: 1.5 },
-      { id: 12, label: 'Mast foot', kind: 'other', chainageM: 110, slackM: 2 },
-    ],
-  },
-  findings: [{ id: 5, kind: 'short-circuit', measuredFrom: 'B', distanceM: 44.4, roundTripNs: 449.1, vf: 0.66 }],
-} as unknown as TicketDetail;
+const ticket = mastFeederTicket;
 
 const form = () =>
   render(

@@ -3,8 +3,8 @@ import { cleanup, fireEvent, render, screen, waitFor } from '@testing-library/re
 import { http, HttpResponse } from 'msw';
 import { setupServer } from 'msw/node';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import type { TicketDetail } from '../../shared/schemas/tickets';
 import { CloseoutForm } from '../../src/features/tickets/components/closeout-form';
+import { mastFeederTicket } from './support/fixtures';
 
 const MESSAGE = 'must be 0 or more and stay on the route: Mast foot is at 110 m and the route ends at 116.5 m';
 let posted = 0;
@@ -23,22 +23,7 @@ beforeAll(() => server.listen({ onUnhandledRequest: 'error' }));
 afterEach(cleanup);
 afterAll(() => server.close());
 
-// Radio mast feeder BF-R1 of the demo: 120 m installed, 1.5 m and 2 m coiled at its two markers → 116.5 m of route.
-const ticket = {
-  id: 4,
-  cableRun: {
-    id: 3,
-    name: 'Radio mast feeder BF-R1',
-    installedLengthM: 120,
-    endALabel: 'Control kiosk',
-    endBLabel: 'Telemetry radio mast',
-    markers: [
-      { id: 11, label: 'HH-A', kind: 'handhole', chainageM: 48, slackM: 1.5 },
-      { id: 12, label: 'Mast foot', kind: 'other', chainageM: 110, slackM: 2 },
-    ],
-  },
-  findings: [{ id: 5, kind: 'short-circuit', measuredFrom: 'B', distanceM: 44.4, roundTripNs: 449.1, vf: 0.66 }],
-} as unknown as TicketDetail;
+const ticket = mastFeederTicket;
 
 const shown = () => screen.queryAllByText((_, el) => !!el && el.children.length === 0 && (el.textContent ?? '').includes('stay on the route'));
 
