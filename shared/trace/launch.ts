@@ -289,6 +289,36 @@ function launchLevels(y: Float64Array, e: LaunchEdge, mode: Mode, iFall: number)
   return { height, settleIdx: Math.min(n - 1, i90 + 2 * riseSamples) };
 }
 
+/** The launch's peak against the level `rest` and the first sample (3-point smoothed) back below half of it, or −1. */
+function launchPeak(y: Float64Array, n: number, sign: number, rest: number): { peak: number; iFall: number } {
+  let peak = 0;
+  for (let i = 0; i < n; i++) {
+    const d = sign * (ys3(y, i) - rest);
+    if (d > peak) peak = d;
+    if (d < 0.5 * peak) return { peak, iFall: i };
+  }
+  return { peak, iFall: -1 };
+}
+
+/** A pulse launch that opened before the record, read from its fall: width at half height, taking the axis zero as the rising 50 % point. */
+function pulseOpenedBefore(n: number, sign: number, rest: number, peak: number, iFall: number, i10: number, fall: number, zeroIdx: number): Launch {
+  return {
+    found: true,
+    onsetInRecord: false,
+    settleIdx: Math.min(n - 1, i10 + fall),
+    idx: 0,
+    sign,
+    baseline: rest,
+    height: sign * peak,
+    mode: 'pulse',
+    modeDetected: true,
+    riseSamples: fall,
+    widthSamples: iFall - Math.min(0, zeroIdx),
+    zeroIdx,
+    clipped: false,
+  };
+}
+
 /**
  * A pulse record that starts during the launch: it opens far from its resting level,
  * holds there for longer than its falling edge lasts, then rests at that level.
@@ -298,16 +328,7 @@ function launchBeforeRecord(rec: TraceRecord, lv: Levels, positiveOnly: boolean,
   const sign = Math.sign(lv.bStart - lv.rest) || 1;
   if (positiveOnly && sign < 0) return null;
   if (Math.abs(lv.bStart - lv.rest) < 0.5 * lv.launchMin) return null;
-  let peak = 0;
-  let iFall = -1;
-  for (let i = 0; i < n; i++) {
-    const d = sign * (ys3(y, i) - lv.rest);
-    if (d > peak) peak = d;
-    if (d < 0.5 * peak) {
-      iFall = i;
-      break;
-    }
-  }
+  const { peak, iFall } = launchPeak(y, n, sign, lv.rest);
   if (iFall < 3 || iFall > 0.3 * n || peak < lv.launchMin) return null;
   // In volts, a pulse record rests where the line idles between pulses, at the recorder's 0 V; a
   // record resting further from it than RESTING_OFFSET_MAX of the launch, on the launch's side, is
@@ -326,22 +347,7 @@ function launchBeforeRecord(rec: TraceRecord, lv: Levels, positiveOnly: boolean,
   const after = Math.min(n - 1, i10 + 2 * fall);
   const near = fractionNear(y, after, lv.rest, 0.25 * peak);
   if (!(near >= 0.6 || (near >= 0.3 && Math.abs(sampleMedian(y, after, n) - lv.rest) < RESTING_MEDIAN_MAX * peak))) return null;
-  return {
-    found: true,
-    onsetInRecord: false,
-    settleIdx: Math.min(n - 1, i10 + fall),
-    idx: 0,
-    sign,
-    baseline: lv.rest,
-    height: sign * peak,
-    mode: 'pulse',
-    modeDetected: true,
-    riseSamples: fall,
-    // Width at half height, taking the axis zero as the launch's rising 50 % point.
-    widthSamples: iFall - Math.min(0, lv.zeroIdx),
-    zeroIdx: lv.zeroIdx,
-    clipped: false,
-  };
+  return pulseOpenedBefore(n, sign, lv.rest, peak, iFall, i10, fall, lv.zeroIdx);
 }
 
 /**
@@ -406,34 +412,10 @@ function wideLaunchBeforeRecord(rec: TraceRecord, lv: Levels): Launch | null {
   }
   if (!returns) return null;
   // The launch against the level the line rests at.
-  let peak = 0;
-  let iFall = -1;
-  for (let i = 0; i < n; i++) {
-    const d = sign * (ys3(y, i) - rest);
-    if (d > peak) peak = d;
-    if (d < 0.5 * peak) {
-      iFall = i;
-      break;
-    }
-  }
+  const { peak, iFall } = launchPeak(y, n, sign, rest);
   if (iFall < 3) return null;
   const { i10, fall } = fallSamples(y, iFall, sign, rest, peak);
-  return {
-    found: true,
-    onsetInRecord: false,
-    settleIdx: Math.min(n - 1, i10 + fall),
-    idx: 0,
-    sign,
-    baseline: rest,
-    height: sign * peak,
-    mode: 'pulse',
-    modeDetected: true,
-    riseSamples: fall,
-    widthSamples: iFall - Math.min(0, lv.zeroIdx),
-    zeroIdx: lv.zeroIdx,
-    clipped: false,
-    restAt: from + len / 2,
-  };
+  return { ...pulseOpenedBefore(n, sign, rest, peak, iFall, i10, fall, lv.zeroIdx), restAt: from + len / 2 };
 }
 
 /** A flat run at the record's own extreme that the edge hits while still steep. */
