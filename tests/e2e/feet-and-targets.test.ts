@@ -127,12 +127,13 @@ async function settle(page: Page) {
 
 /**
  * What a person reads: the visible text, the values in the form fields and
- * the chosen options. An e-mail shown in the Outbox is left out: it is a copy
- * of what was sent to someone else, in their unit (checked on its own below).
+ * the chosen options. An e-mail shown in the Outbox, its subject as well as its
+ * body, is left out: it is a copy of what was sent to someone else, in their
+ * unit (checked on its own below).
  */
 async function readableText(page: Page): Promise<string> {
   return page.evaluate(() => {
-    const skip = document.querySelectorAll('[data-testid="outbox-body"], iframe');
+    const skip = document.querySelectorAll('[data-testid="outbox-body"], [data-testid="outbox-subject"], iframe');
     skip.forEach((el) => ((el as HTMLElement).dataset.hiddenForScan = (el as HTMLElement).style.visibility || 'shown'));
     skip.forEach((el) => ((el as HTMLElement).style.visibility = 'hidden'));
     const text = [document.body.innerText];

@@ -52,7 +52,9 @@ function MessageView({ message }: { message: OutboxMessageView }) {
         <dt className="text-mist">Sent</dt>
         <dd className="tabular">{formatDateTime(message.sentAt)}</dd>
       </dl>
-      <h3 className="text-lg font-semibold">{message.subject || '(no subject)'}</h3>
+      <h3 className="text-lg font-semibold" data-testid="outbox-subject">
+        {message.subject || '(no subject)'}
+      </h3>
       {message.html && (
         <div className="flex gap-2">
           <Button variant={formatted ? 'secondary' : 'primary'} onClick={() => setFormatted(false)}>
@@ -123,7 +125,9 @@ export function OutboxPage() {
                       aria-current={selected?.id === m.id ? 'true' : undefined}
                       className={`block min-h-11 w-full px-2 py-2 text-left hover:bg-paper ${selected?.id === m.id ? 'border-l-4 border-copper bg-copper-light/40' : 'border-l-4 border-transparent'}`}
                     >
-                      <span className="block truncate font-semibold">{m.subject || '(no subject)'}</span>
+                      <span className="block truncate font-semibold" data-testid="outbox-subject">
+                        {m.subject || '(no subject)'}
+                      </span>
                       <span className="block truncate text-xs text-mist">
                         {m.to} · <span className="tabular">{formatDateTime(m.sentAt)}</span>
                       </span>
