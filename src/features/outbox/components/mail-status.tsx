@@ -8,7 +8,9 @@ export function MailStatusLine({ job }: { job: MailJobView }) {
     <div className="space-y-0.5 text-sm">
       <div className="flex flex-wrap items-center gap-2">
         <StatusBadge kind="mail" status={job.status === 'queued' && job.lastError ? 'retrying' : job.status} />
-        <span className="font-semibold">{job.subject}</span>
+        <span className="font-semibold" data-testid="outbox-subject">
+          {job.subject}
+        </span>
       </div>
       <p className="text-xs text-mist">
         to {job.to}
