@@ -9,13 +9,22 @@ import { AppError } from '../errors';
 
 type SiteInput = z.output<typeof SiteInputSchema>;
 
-async function checkSupervisors(ids: number[], transaction?: Transaction) {
+/** Who may be put on a site: an active supervisor or administrator. */
+const supervising = (u: User) => u.active && (u.role === 'supervisor' || u.role === 'admin');
+
+/**
+ * The site's new supervisor list. Everyone added must be an active supervisor or administrator; someone already
+ * on the site (`kept`) who has since been deactivated or moved to another role stays as they are, so the edit
+ * form, which sends back the list it loaded, still saves the site's other changes.
+ */
+async function checkSupervisors(ids: number[], transaction?: Transaction, kept: number[] = []) {
   const unique = [...new Set(ids)];
-  if (unique.length === 0) return unique;
-  const found = await User.findAll({ where: { id: unique, active: true }, transaction });
-  const bad = unique.filter((id) => {
+  const added = unique.filter((id) => !kept.includes(id));
+  if (added.length === 0) return unique;
+  const found = await User.findAll({ where: { id: added }, transaction });
+  const bad = added.filter((id) => {
     const u = found.find((f) => f.id === id);
-    return !u || (u.role !== 'supervisor' && u.role !== 'admin');
+    return !u || !supervising(u);
   });
   if (bad.length) {
     throw new AppError(422, 'not_a_supervisor', `User ${bad.join(', ')} is not an active supervisor.`, {
@@ -51,7 +60,7 @@ async function summaries(sites: Site[]): Promise<SiteSummary[]> {
       .filter((l) => l.siteId === s.id)
       .map((l) => users.find((u) => u.id === l.userId)!)
       .filter(Boolean)
-      .map((u) => ({ id: u.id, name: u.name, email: u.email }))
+      .map((u) => ({ id: u.id, name: u.name, email: u.email, active: supervising(u) }))
       .sort((a, b) => a.name.localeCompare(b.name)),
     cableRunCount: runCounts.get(s.id) ?? 0,
     openFindingCount: findingCounts.get(s.id) ?? 0,
@@ -119,7 +128,12 @@ export async function updateSite(id: number, input: SiteInput, sequelize: import
     const site = await Site.findByPk(id, { transaction });
     if (!site) throw AppError.notFound(`Site ${id}`);
     await nameFree(input.name, id, transaction);
-    const supervisorIds = await checkSupervisors(input.supervisorIds, transaction);
+    const linked = await SiteSupervisor.findAll({ where: { siteId: id }, attributes: ['userId'], transaction });
+    const supervisorIds = await checkSupervisors(
+      input.supervisorIds,
+      transaction,
+      linked.map((l) => l.userId),
+    );
     const { supervisorIds: _ignored, ...fields } = input;
     await site.update(fields, { transaction });
     await SiteSupervisor.destroy({ where: { siteId: id }, transaction });
@@ -133,10 +147,10 @@ export async function siteSupervisors(siteId: number, transaction?: Transaction)
   const links = await SiteSupervisor.findAll({ where: { siteId }, transaction });
   if (!links.length) return [];
   const users = await User.findAll({ where: { id: links.map((l) => l.userId), active: true }, transaction });
-  return users.map((u) => ({ id: u.id, name: u.name, email: u.email }));
+  return users.map((u) => ({ id: u.id, name: u.name, email: u.email, active: true }));
 }
 
 export async function supervisorChoices() {
   const users = await User.findAll({ where: { active: true, role: ['supervisor', 'admin'] }, order: [['name', 'ASC']] });
-  return users.map((u) => ({ id: u.id, name: u.name, email: u.email }));
+  return users.map((u) => ({ id: u.id, name: u.name, email: u.email, active: true }));
 }

@@ -47,7 +47,7 @@ function findingRows(f: Finding, trace: Trace | null, run: CableRun, unit: Lengt
 export async function mailFindingConfirmed(ctx: AppContext, findingId: number, transaction: Transaction) {
   const finding = await Finding.findByPk(findingId, {
     include: [
-      { association: 'site', include: [{ association: 'supervisors', where: { active: true }, required: false }] },
+      { association: 'site', include: [{ association: 'supervisors', where: { active: true, role: ['supervisor', 'admin'] }, required: false }] },
       { association: 'cableRun' },
       { association: 'trace' },
       { association: 'confirmedBy' },

@@ -97,6 +97,11 @@ export interface SupervisorSummary {
   id: number;
   name: string;
   email: string;
+  /**
+   * Still an active supervisor or administrator. A site keeps its link to someone deactivated or moved to
+   * another role (false) until a planner takes them off; no one new can be added who is not.
+   */
+  active: boolean;
 }
 
 export interface SiteSummary {

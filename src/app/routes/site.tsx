@@ -87,6 +87,7 @@ export function SitePage() {
               {s.supervisors.map((u) => (
                 <li key={u.id}>
                   {u.name} · <a className="text-teal underline" href={`mailto:${u.email}`}>{u.email}</a>
+                  {!u.active && <span className="text-xs font-semibold text-warn"> · no longer a supervisor: gets no e-mail from this site</span>}
                 </li>
               ))}
               {s.supervisors.length === 0 && <li className="text-mist">Nobody yet: confirmed findings here reach no one by e-mail.</li>}

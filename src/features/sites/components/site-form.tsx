@@ -41,7 +41,7 @@ export function SiteForm({ site, onSaved }: { site?: SiteSummary; onSaved?: (s: 
       <TextAreaField label="Access notes" hint="Keys, gates, permits, hazards" value={form.accessNotes} error={errors.accessNotes} onChange={(e) => setForm({ ...form, accessNotes: e.target.value })} />
       <fieldset>
         <legend className="text-sm font-semibold text-ink-soft">Supervisors responsible</legend>
-        {choices.data?.map((u) => (
+        {[...(choices.data ?? []), ...(site?.supervisors.filter((s) => !s.active) ?? [])].map((u) => (
           <label key={u.id} className="flex min-h-11 items-center gap-2">
             <input
               type="checkbox"
@@ -52,6 +52,7 @@ export function SiteForm({ site, onSaved }: { site?: SiteSummary; onSaved?: (s: 
               }
             />
             {u.name} <span className="text-xs text-mist">{u.email}</span>
+            {!u.active && <span className="text-xs font-semibold text-warn">no longer a supervisor: untick to take off this site</span>}
           </label>
         ))}
         {errors.supervisorIds && <p className="text-xs font-semibold text-danger">{errors.supervisorIds}</p>}
