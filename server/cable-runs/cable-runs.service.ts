@@ -13,6 +13,7 @@ import type { Page } from '../../shared/schemas/users';
 import { CableRun, CableType, RouteMarker, Site, Trace } from '../db/models';
 import { AppError, type FieldIssue } from '../errors';
 import { coordinateProblems } from '../../shared/locate/route-geo';
+import { mergeOverStored, sameValue } from '../http/based-on';
 
 type RunInput = z.output<typeof CableRunInputSchema>;
 type RunUpdate = z.output<typeof CableRunUpdateSchema>;
@@ -134,12 +135,22 @@ export async function createRun(input: RunInput, sequelize: Sequelize) {
   return getRun(id);
 }
 
-export async function updateRun(id: number, input: RunUpdate, sequelize: Sequelize) {
+export async function updateRun(id: number, update: RunUpdate, sequelize: Sequelize) {
   await sequelize.transaction(async (transaction) => {
     // The run's row is held (FOR UPDATE on PostgreSQL; SQLite writes one at a time) while its markers are checked
     // against the new length, as replaceMarkers holds it while the new markers are checked against the length.
     const run = await CableRun.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
     if (!run) throw AppError.notFound(`Cable run ${id}`);
+    // A field someone else saved after the form was opened is kept, or the save refused if this one changed it too.
+    const { basedOn, ...given } = update;
+    const input = mergeOverStored(`cable run ${id}`, given, basedOn, {
+      name: run.name,
+      cableTypeId: run.cableTypeId,
+      endALabel: run.endALabel,
+      endBLabel: run.endBLabel,
+      installedLengthM: run.installedLengthM,
+      notes: run.notes,
+    });
     await checkRefs({ ...input, siteId: run.siteId }, id, transaction);
     const markers = await RouteMarker.findAll({ where: { cableRunId: id }, transaction });
     checkMarkers(input.installedLengthM, markers);
@@ -155,11 +166,30 @@ export async function replaceMarkers(id: number, input: z.output<typeof MarkersI
     // against it) or waits and checks its length against these markers.
     const run = await CableRun.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
     if (!run) throw AppError.notFound(`Cable run ${id}`);
+    if (input.basedOn) {
+      const stored = await RouteMarker.findAll({ where: { cableRunId: id }, transaction });
+      // The list is one value: another planner's saved list is never replaced unseen by one edited from the old list.
+      if (!sameValue(markerSet(stored), markerSet(input.basedOn.markers)) && !sameValue(markerSet(stored), markerSet(input.markers))) {
+        throw new AppError(
+          409,
+          'changed_meanwhile',
+          `Someone else saved the route markers of cable run ${id} after you opened them (they now list ${stored.length}). Nothing was saved: open the run again to see their markers, then make your change.`,
+          { fields: [{ field: 'markers', message: 'were changed by someone else after you opened them' }] },
+        );
+      }
+    }
     checkMarkers(run.installedLengthM, input.markers);
     await RouteMarker.destroy({ where: { cableRunId: id }, transaction });
     for (const m of input.markers) await RouteMarker.create({ ...m, cableRunId: id }, { transaction });
   });
   return getRun(id);
+}
+
+/** A marker list as a comparable value: what each marker says, in a fixed order (ids and list order aside). */
+function markerSet(markers: Array<{ label: string | null; kind: string | null; chainageM: number | null; slackM: number | null; notes?: string | null; latitude?: number | null; longitude?: number | null }>) {
+  return markers
+    .map((m) => JSON.stringify([m.label, m.kind, m.chainageM, m.slackM, m.notes ?? null, m.latitude ?? null, m.longitude ?? null]))
+    .sort();
 }
 
 export async function cableTypeChoices() {

@@ -1,6 +1,6 @@
 import type { AppContext } from '../context';
 import { IdParam } from '../http/params';
-import { SiteInputSchema, SiteListQuerySchema } from '../../shared/schemas/sites';
+import { SiteInputSchema, SiteListQuerySchema, SiteUpdateSchema } from '../../shared/schemas/sites';
 import { ApiRouter, handle } from '../http/api-router';
 import * as sites from './sites.service';
 
@@ -19,6 +19,6 @@ export function siteRoutes(ctx: AppContext) {
       return site;
     }),
   );
-  r.put('/:id', 'sites:write', handle((req) => sites.updateSite(IdParam.parse(req.params).id, SiteInputSchema.parse(req.body), ctx.sequelize)));
+  r.put('/:id', 'sites:write', handle((req) => sites.updateSite(IdParam.parse(req.params).id, SiteUpdateSchema.parse(req.body), ctx.sequelize)));
   return r;
 }

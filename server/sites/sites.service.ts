@@ -2,12 +2,14 @@ import { Op, type Transaction } from 'sequelize';
 import { nameKey } from '../db/name-key';
 import { containsText } from '../db/search';
 import type { z } from 'zod';
-import type { SiteInputSchema, SiteSummary } from '../../shared/schemas/sites';
+import type { SiteInputSchema, SiteSummary, SiteUpdateSchema } from '../../shared/schemas/sites';
+import { mergeOverStored, sameValue } from '../http/based-on';
 import type { Page } from '../../shared/schemas/users';
 import { CableRun, Finding, Site, SiteSupervisor, User } from '../db/models';
 import { AppError } from '../errors';
 
 type SiteInput = z.output<typeof SiteInputSchema>;
+type SiteUpdate = z.output<typeof SiteUpdateSchema>;
 
 /** Who may be put on a site: an active supervisor or administrator. */
 const supervising = (u: User) => u.active && (u.role === 'supervisor' || u.role === 'admin');
@@ -123,17 +125,31 @@ export async function createSite(input: SiteInput, sequelize: import('sequelize'
   return getSite(id);
 }
 
-export async function updateSite(id: number, input: SiteInput, sequelize: import('sequelize').Sequelize) {
+export async function updateSite(id: number, update: SiteUpdate, sequelize: import('sequelize').Sequelize) {
   await sequelize.transaction(async (transaction) => {
-    const site = await Site.findByPk(id, { transaction });
+    // The row is held (FOR UPDATE on PostgreSQL; SQLite writes one at a time), so a save made at the same moment
+    // is compared with what this one stores, not with what was there before it.
+    const site = await Site.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
     if (!site) throw AppError.notFound(`Site ${id}`);
+    const linked = (await SiteSupervisor.findAll({ where: { siteId: id }, attributes: ['userId'], transaction })).map((l) => l.userId);
+    const { basedOn, ...given } = update;
+    const stored = {
+      name: site.name,
+      address: site.address,
+      latitude: site.latitude,
+      longitude: site.longitude,
+      accessNotes: site.accessNotes,
+      supervisorIds: linked,
+    };
+    const input = mergeOverStored(`site ${id}`, given, basedOn, stored, {
+      // The supervisors are a set: the order they are listed in changes nothing.
+      same: (field, a, b) =>
+        field === 'supervisorIds' && Array.isArray(a) && Array.isArray(b)
+          ? sameValue([...new Set(a as number[])].sort((x, y) => x - y), [...new Set(b as number[])].sort((x, y) => x - y))
+          : sameValue(a, b),
+    });
     await nameFree(input.name, id, transaction);
-    const linked = await SiteSupervisor.findAll({ where: { siteId: id }, attributes: ['userId'], transaction });
-    const supervisorIds = await checkSupervisors(
-      input.supervisorIds,
-      transaction,
-      linked.map((l) => l.userId),
-    );
+    const supervisorIds = await checkSupervisors(input.supervisorIds, transaction, linked);
     const { supervisorIds: _ignored, ...fields } = input;
     await site.update(fields, { transaction });
     await SiteSupervisor.destroy({ where: { siteId: id }, transaction });

@@ -41,6 +41,28 @@ export const SiteInputSchema = z.object({
 });
 export type SiteInput = z.input<typeof SiteInputSchema>;
 
+/**
+ * What an edit form loaded, sent back with the save as `basedOn`: a field someone else changed meanwhile is kept
+ * if the form left it as it was, and the save is refused (409 changed_meanwhile) if the form changed it too.
+ */
+const snapshotText = z.string({ error: 'must be text or null' }).max(4000, 'must be at most 4000 characters').nullable();
+const snapshotNumber = z.number({ error: 'must be a number or null' }).nullable();
+
+export const SiteUpdateSchema = SiteInputSchema.extend({
+  basedOn: z
+    .strictObject({
+      name: snapshotText,
+      address: snapshotText,
+      latitude: snapshotNumber,
+      longitude: snapshotNumber,
+      accessNotes: snapshotText,
+      supervisorIds: z.array(id, { error: 'must be a list of user ids' }).max(100, 'at most 100 supervisors'),
+    })
+    .partial()
+    .optional(),
+});
+export type SiteUpdate = z.input<typeof SiteUpdateSchema>;
+
 export const SiteListQuerySchema = z.strictObject({
   q: z.string().trim().max(100).optional(),
   page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
@@ -80,10 +102,37 @@ export const CableRunInputSchema = z.object({
 });
 export type CableRunInput = z.input<typeof CableRunInputSchema>;
 
-export const CableRunUpdateSchema = CableRunInputSchema.omit({ siteId: true });
+/** As for sites: `basedOn` is the run as the edit form loaded it. */
+export const CableRunUpdateSchema = CableRunInputSchema.omit({ siteId: true }).extend({
+  basedOn: z
+    .strictObject({
+      name: snapshotText,
+      cableTypeId: id,
+      endALabel: snapshotText,
+      endBLabel: snapshotText,
+      installedLengthM: snapshotNumber,
+      notes: snapshotText,
+    })
+    .partial()
+    .optional(),
+});
+export type CableRunUpdate = z.input<typeof CableRunUpdateSchema>;
+
+/** A marker as the editor loaded it (its id, if sent, is not compared). */
+const MarkerSnapshotSchema = z.object({
+  label: snapshotText,
+  kind: snapshotText,
+  chainageM: snapshotNumber,
+  slackM: snapshotNumber,
+  notes: snapshotText.optional(),
+  latitude: snapshotNumber.optional(),
+  longitude: snapshotNumber.optional(),
+});
 
 export const MarkersInputSchema = z.object({
   markers: z.array(RouteMarkerInputSchema).max(500, 'at most 500 markers per run'),
+  /** The marker list as the editor loaded it: the save is refused (409 changed_meanwhile) if someone else saved another list meanwhile. */
+  basedOn: z.strictObject({ markers: z.array(MarkerSnapshotSchema).max(500, 'at most 500 markers per run') }).optional(),
 });
 
 export const CableRunListQuerySchema = z.strictObject({

@@ -1,8 +1,8 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import type { CableRunInput, CableRunView } from '../../../../shared/schemas/sites';
+import type { CableRunInput, CableRunUpdate, CableRunView } from '../../../../shared/schemas/sites';
 import { api } from '../../../lib/api-client';
 
-export const saveCableRun = ({ id, ...input }: CableRunInput & { id?: number }) =>
+export const saveCableRun = ({ id, ...input }: (CableRunInput | (CableRunUpdate & { siteId: number })) & { id?: number }) =>
   id
     ? api<CableRunView>(`/api/cable-runs/${id}`, { method: 'PUT', body: input })
     : api<CableRunView>('/api/cable-runs', { method: 'POST', body: input });

@@ -46,6 +46,8 @@ export function MarkerEditor({ run, unit }: { run: CableRunView; unit: LengthUni
     longitude: m.longitude === null ? '' : String(m.longitude),
   });
   const [rows, setRows] = useState<Row[]>(run.markers.map(toRow));
+  // The list the rows were loaded from: sent with the save, so a list someone else saved meanwhile is not replaced unseen.
+  const [basis, setBasis] = useState(run.markers);
   const save = useSaveMarkers();
   const errors = fieldErrors(save.error, unit);
   const edit = (i: number, patch: Partial<Row>) => setRows(rows.map((r, j) => (j === i ? { ...r, ...patch } : r)));
@@ -63,8 +65,14 @@ export function MarkerEditor({ run, unit }: { run: CableRunView; unit: LengthUni
           latitude: degrees(r.latitude),
           longitude: degrees(r.longitude),
         })),
+        basedOn: { markers: basis },
       },
-      { onSuccess: (saved) => setRows(saved.markers.map(toRow)) },
+      {
+        onSuccess: (saved) => {
+          setRows(saved.markers.map(toRow));
+          setBasis(saved.markers);
+        },
+      },
     );
   return (
     <div className="space-y-3">

@@ -3,6 +3,7 @@ import type { CableRunView } from '../../../../shared/schemas/sites';
 import { Button } from '../../../components/ui/button';
 import { fieldErrors, SelectField, TextAreaField, TextField } from '../../../components/ui/field';
 import { ErrorNotice } from '../../../components/ui/notice';
+import { ApiError } from '../../../lib/api-client';
 import { fromUnit, lengthForInput, type LengthUnit } from '../../../lib/format';
 import { useCableTypeChoices } from '../api/list-cable-type-choices';
 import { useSaveCableRun } from '../api/save-cable-run';
@@ -10,12 +11,13 @@ import { useSaveCableRun } from '../api/save-cable-run';
 export function RunForm({ siteId, run, unit, onSaved }: { siteId: number; run?: CableRunView; unit: LengthUnit; onSaved?: (r: CableRunView) => void }) {
   const save = useSaveCableRun();
   const types = useCableTypeChoices();
+  const loadedLength = run ? lengthForInput(run.installedLengthM, unit) : '';
   const [form, setForm] = useState({
     name: run?.name ?? '',
     cableTypeId: run ? String(run.cableTypeId) : '',
     endALabel: run?.endALabel ?? '',
     endBLabel: run?.endBLabel ?? '',
-    installedLength: run ? lengthForInput(run.installedLengthM, unit) : '',
+    installedLength: loadedLength,
     notes: run?.notes ?? '',
   });
   const errors = fieldErrors(save.error, unit);
@@ -29,8 +31,20 @@ export function RunForm({ siteId, run, unit, onSaved }: { siteId: number; run?: 
         cableTypeId: Number(form.cableTypeId),
         endALabel: form.endALabel,
         endBLabel: form.endBLabel,
-        installedLengthM: fromUnit(Number(form.installedLength), unit),
+        // A length left as shown is sent as stored, not as its rounding in the chosen unit.
+        installedLengthM: run && form.installedLength === loadedLength ? run.installedLengthM : fromUnit(Number(form.installedLength), unit),
         notes: form.notes,
+        // What the form was opened with: a field someone else saved meanwhile is kept unless this form changed it too.
+        ...(run && {
+          basedOn: {
+            name: run.name,
+            cableTypeId: run.cableTypeId,
+            endALabel: run.endALabel,
+            endBLabel: run.endBLabel,
+            installedLengthM: run.installedLengthM,
+            notes: run.notes,
+          },
+        }),
       },
       { onSuccess: (r) => onSaved?.(r) },
     );
@@ -59,7 +73,7 @@ export function RunForm({ siteId, run, unit, onSaved }: { siteId: number; run?: 
         required
       />
       <TextAreaField label="Notes" value={form.notes} onChange={(e) => setForm({ ...form, notes: e.target.value })} />
-      {save.error && !Object.keys(errors).length && <ErrorNotice error={save.error} unit={unit} />}
+      {save.error && (!Object.keys(errors).length || (save.error instanceof ApiError && save.error.code === 'changed_meanwhile')) && <ErrorNotice error={save.error} unit={unit} />}
       <Button type="submit" disabled={save.isPending}>
         {run ? 'Save cable run' : 'Add cable run'}
       </Button>

@@ -3,6 +3,7 @@ import type { SiteSummary } from '../../../../shared/schemas/sites';
 import { Button } from '../../../components/ui/button';
 import { fieldErrors, TextAreaField, TextField } from '../../../components/ui/field';
 import { ErrorNotice } from '../../../components/ui/notice';
+import { ApiError } from '../../../lib/api-client';
 import { useSupervisorChoices } from '../api/list-supervisor-choices';
 import { useSaveSite } from '../api/save-site';
 
@@ -26,6 +27,17 @@ export function SiteForm({ site, onSaved }: { site?: SiteSummary; onSaved?: (s: 
         ...form,
         latitude: form.latitude === '' ? null : Number(form.latitude),
         longitude: form.longitude === '' ? null : Number(form.longitude),
+        // What the form was opened with: a field someone else saved meanwhile is kept unless this form changed it too.
+        ...(site && {
+          basedOn: {
+            name: site.name,
+            address: site.address,
+            latitude: site.latitude,
+            longitude: site.longitude,
+            accessNotes: site.accessNotes,
+            supervisorIds: site.supervisors.map((u) => u.id),
+          },
+        }),
       },
       { onSuccess: (s) => onSaved?.(s) },
     );
@@ -57,7 +69,7 @@ export function SiteForm({ site, onSaved }: { site?: SiteSummary; onSaved?: (s: 
         ))}
         {errors.supervisorIds && <p className="text-xs font-semibold text-danger">{errors.supervisorIds}</p>}
       </fieldset>
-      {save.error && !Object.keys(errors).length && <ErrorNotice error={save.error} />}
+      {save.error && (!Object.keys(errors).length || (save.error instanceof ApiError && save.error.code === 'changed_meanwhile')) && <ErrorNotice error={save.error} />}
       <Button type="submit" disabled={save.isPending}>
         {site ? 'Save site' : 'Add site'}
       </Button>
