@@ -128,8 +128,9 @@ export const reasonSchema = z
   .min(3, 'is required: say why (at least 3 characters)')
   .max(2000, 'must be at most 2000 characters');
 
+// Strict: a field name it does not know is refused by name, not dropped while the answer says the change was made.
 export const CableTypeUpdateSchema = z
-  .object({
+  .strictObject({
     ...cableFields,
   })
   .partial()

@@ -39,8 +39,9 @@ export const TicketCreateSchema = z.object({
 });
 export type TicketCreateInput = z.input<typeof TicketCreateSchema>;
 
+// Strict: a field name it does not know is refused by name, not dropped while the answer says the change was made.
 export const TicketUpdateSchema = z
-  .object({
+  .strictObject({
     title: oneLine(z.string({ error: 'must be text' }).trim().min(1, 'is required').max(160, 'must be at most 160 characters')),
     assigneeId: id('a user id').nullable(),
     priority,

@@ -31,8 +31,9 @@ export const CreateUserSchema = z.object({
   phone: oneLine(z.string().trim().max(40)).optional(),
 });
 
+// Strict: a field name it does not know is refused by name, not dropped while the answer says the change was made.
 export const UpdateUserSchema = z
-  .object({
+  .strictObject({
     name: oneLine(z.string().trim().min(1, 'is required').max(120)),
     role: z.enum(ROLES, { error: `must be one of ${ROLES.join(', ')}` }),
     active: z.boolean({ error: 'must be true or false' }),
@@ -52,7 +53,7 @@ export interface OpenRepairsView {
   tickets: Array<{ id: number; title: string; status: TicketStatus; movable: boolean }>;
 }
 
-export const PreferencesSchema = z.object({
+export const PreferencesSchema = z.strictObject({
   unitPreference: z.enum(['m', 'ft'], { error: 'must be m or ft' }),
 });
 
