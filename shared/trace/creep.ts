@@ -74,10 +74,10 @@ export function removeIncidentCreep(rec: TraceRecord, L: Launch, sig: WorkingSig
  * A pulse record's trace less the creep its launch pulse leaves behind on a line with series loss:
  * the pulse is a step up and a step down, each creeping as incidentCreep has it, so the port shows
  * the launch pulse convolved with the creep's increments. Returns the corrected trace, or null where
- * it does not apply (no launch in the record, a clipped one, no series loss).
+ * it does not apply (no launch in the record, one clipped on its edge, no series loss).
  */
 export function pulseCreepRemoved(rec: TraceRecord, L: Launch, model: LossModel | null, vf: number): Float64Array | null {
-  if (L.mode !== 'pulse' || !model || !(vf > 0) || !L.found || !L.onsetInRecord || L.clipped) return null;
+  if (L.mode !== 'pulse' || !model || !(vf > 0) || !L.found || !L.onsetInRecord || L.clippedOnEdge) return null;
   const n = rec.n;
   const from = Math.max(0, Math.floor(L.idx - 2 * Math.max(1, L.riseSamples)));
   const to = Math.min(n - 1, Math.ceil(L.settleIdx));

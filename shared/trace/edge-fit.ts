@@ -236,7 +236,7 @@ function launchShape(input: EdgeFitInput): LaunchShape | null {
   const { launch: L, signal: sig, rec } = input;
   const step = sig.mode === 'step';
   const rise = Math.max(1, L.riseSamples);
-  if (L.found && L.onsetInRecord && !L.clipped) {
+  if (L.found && L.onsetInRecord && !L.clippedOnEdge) {
     const from = Math.max(0, L.idx - Math.max(4, 2 * rise));
     const to = Math.min(rec.n - 1, Math.max(L.settleIdx, L.idx + 2 * rise) + rise);
     return { kind: 'measured', step, reference: 'launch', from, to, centre: 0, sigma: 0, width: 0 };
@@ -247,7 +247,7 @@ function launchShape(input: EdgeFitInput): LaunchShape | null {
   if (step) return { kind: 'synthetic', step, reference: 'axis', from: 0, to: 0, centre: L.zeroIdx, sigma, width: 0 };
   // A pulse record that starts during its launch: the launch as its measured width and rise, its
   // leading edge's half height at time zero (where the file's axis puts the launch).
-  if (L.found && !L.onsetInRecord && L.widthSamples !== null && L.widthSamples > 0 && !L.clipped)
+  if (L.found && !L.onsetInRecord && L.widthSamples !== null && L.widthSamples > 0 && !L.clippedOnEdge)
     return { kind: 'synthetic', step, reference: 'axis', from: 0, to: 0, centre: L.zeroIdx, sigma, width: L.widthSamples };
   return null;
 }

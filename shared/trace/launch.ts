@@ -23,7 +23,7 @@
  * there the level it rests at stands in for it. A launch whose top is flat at the record's extreme
  * while its edge is still steep has been clipped by the recorder.
  */
-import { estimateSlowNoise } from './noise';
+import { adcStep, estimateNoise, estimateSlowNoise } from './noise';
 import { boxcar, percentileOf, sampleMedian, sortedSample } from './stats';
 import type { Launch, Mode, TraceRecord } from './steps';
 
@@ -316,6 +316,7 @@ function pulseOpenedBefore(n: number, sign: number, rest: number, peak: number, 
     widthSamples: iFall - Math.min(0, zeroIdx),
     zeroIdx,
     clipped: false,
+    clippedOnEdge: false,
   };
 }
 
@@ -419,25 +420,36 @@ function wideLaunchBeforeRecord(rec: TraceRecord, lv: Levels): Launch | null {
 }
 
 /** A flat run at the record's own extreme that the edge hits while still steep. */
-function isClipped(y: Float64Array, from: number, to: number, sign: number): boolean {
+function clipOf(y: Float64Array, from: number, to: number, sign: number): 'edge' | 'top' | null {
   // A noise-free record's tops are flat anyway: only a noisy baseline makes flatness telling.
   const before = new Set<number>();
   for (let i = Math.max(0, from - 200); i < Math.max(0, from - 20); i++) before.add(y[i]);
-  if (before.size <= 2) return false;
+  if (before.size <= 2) return null;
   let ext = y[from];
   for (let i = from; i < to; i++) if (sign * y[i] > sign * ext) ext = y[i];
   let global = ext;
   for (let i = 0; i < y.length; i++) if (sign * y[i] > sign * global) global = y[i];
-  if (ext !== global) return false;
+  if (ext !== global) return null;
   const first = y.findIndex((v, i) => i >= from && v === ext);
-  if (first < 2) return false;
+  if (first < 2) return null;
   let run = 0;
   while (first + run < y.length && y[first + run] === ext) run++;
-  if (run < 3) return false;
+  if (run < 3) return null;
   let steepest = 0;
   for (let i = from + 1; i <= first; i++) steepest = Math.max(steepest, sign * (y[i] - y[i - 1]));
-  return sign * (y[first] - y[first - 1]) >= 0.3 * steepest && steepest > 0;
+  if (sign * (y[first] - y[first - 1]) >= 0.3 * steepest && steepest > 0) return 'edge';
+  // A launch that only just reaches the limit meets it where its edge has flattened; the run at the
+  // extreme gives it away where the record's noise spans quantiser steps: two samples of noise σ land
+  // on one step with odds about q / (2√π·σ), so CLIP_RUN_MIN equal samples at σ ≥ 2q come by chance
+  // less than once in 10¹¹ (normal difference of two samples, from memory).
+  const q = adcStep(y);
+  return run >= CLIP_RUN_MIN && estimateNoise(y) >= 2 * q ? 'top' : null;
 }
+
+const clipFlags = (c: 'edge' | 'top' | null) => ({ clipped: c !== null, clippedOnEdge: c === 'edge' });
+
+/** Equal samples at the record's extreme read as the recorder's limit where its noise spans quantiser steps. */
+const CLIP_RUN_MIN = 16;
 
 function noLaunch(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, baseline: number, height: number): Launch {
   const n = rec.n;
@@ -455,6 +467,7 @@ function noLaunch(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, baseline
     widthSamples: null,
     zeroIdx: lv.zeroIdx,
     clipped: false,
+    clippedOnEdge: false,
   };
 }
 
@@ -562,7 +575,7 @@ function launchInRecord(rec: TraceRecord, lv: Levels, modeOpt: 'auto' | Mode, hi
     riseSamples: edge.riseSamples,
     widthSamples: mode === 'pulse' && iFall > 0 ? iFall - edge.ic : null,
     zeroIdx: lv.zeroIdx,
-    clipped: isClipped(y, edge.i10, Math.min(n, settleIdx + 1), edge.sign),
+    ...clipFlags(clipOf(y, edge.i10, Math.min(n, settleIdx + 1), edge.sign)),
   };
 }
 

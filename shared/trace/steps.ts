@@ -42,6 +42,12 @@ export interface Launch {
   /** The launch reaches the recorder's limit: a flat top at the record's extreme. */
   clipped: boolean;
   /**
+   * Clipped while its edge is still steep, so the record's launch is no model of the wave sent. A
+   * launch that meets the limit only as its edge flattens (a run of equal samples at the top) is
+   * clipped but still shaped as sent, bar its top.
+   */
+  clippedOnEdge: boolean;
+  /**
    * A pulse launch that began before the record and fills much of it: the middle of the stretch just
    * past it where the record was seen resting on `baseline`, the level the pulse reading's baseline
    * passes through (its echoes may rest longer elsewhere). Absent for every other launch.
