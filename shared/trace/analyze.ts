@@ -510,7 +510,7 @@ function analyzeOnce(
     vfPulseWidthNs: options.vfPulseWidthNs,
   };
   const candidates = strongestCandidates(detection.candidates, warnings);
-  const fitted = dropQuantiserStairs(fitEdges(edgeInput, candidates), signal);
+  const fitted = dropQuantiserStairs(fitEdges(edgeInput, candidates), signal, L);
   const line = fitLineEdges(edgeInput, mergeEdges(fitted, signal.w0, L));
   const merged = line.events;
   const launchOnset = launchOnsetTimer(L, signal);

@@ -524,30 +524,42 @@ export function dropClutter(events: ReflectionEvent[]): TraceWarning[] {
 /**
  * Drop edges no taller than a step and a half of the recorder's quantiser: where the noise is
  * below one step, a slow creep or drift crosses each level as a clean one-step stair, which is
- * no evidence of a reflection.
+ * no evidence of a reflection. A pulse echo's departure is read over its own span only: up to the
+ * lead-in (two filter windows before the onset reading) of the next echo that begins past its end,
+ * where the record already departs for that one, and never short of the launch pulse's own extent
+ * (its width and two rises) from its onset. Without a launch (`L`) the span is the whole reading.
  */
-export function dropQuantiserStairs(measured: Measured[], sig: WorkingSignal): Measured[] {
+export function dropQuantiserStairs(measured: Measured[], sig: WorkingSignal, L?: Launch): Measured[] {
   if (sig.mode === 'pulse') {
     if (!(sig.quantRaw > 0)) return measured;
-    return measured.filter((m) => Math.abs(pulseExcursion(sig, m)) > 1.5 * sig.quantRaw);
+    // An echo lasts at the least the launch pulse's width and two rises, which its own span always keeps.
+    const extent = L?.found ? (L.widthSamples ?? 0) + 2 * L.riseSamples : 0;
+    return measured.filter((m) => {
+      let until = Infinity;
+      if (L?.found)
+        for (const o of measured)
+          if (o.onsetIdx >= m.endIdx) until = Math.min(until, Math.max(o.onsetIdx - 2 * o.w, m.onsetIdx + extent));
+      return Math.abs(pulseExcursion(sig, m, until)) > 1.5 * sig.quantRaw;
+    });
   }
   if (!(sig.quantU > 0)) return measured;
   return measured.filter((m) => Math.abs(m.height) > 1.5 * sig.quantU);
 }
 
 /**
- * Largest departure of a pulse record's raw trace, over an echo's span, from the level it rests at
+ * Largest departure of a pulse record's raw trace, over an echo's span (ending at `until` where the next
+ * echo's lead-in begins), from the level it rests at
  * just before the echo (the median over two windows before its onset), in launch peaks. An echo of a
  * quiet, coarse recorder that departs by no more than a level and a half is a run of the neighbouring
  * level, which drift or slow noise near a rounding point makes as well (see quantRaw).
  */
-function pulseExcursion(sig: WorkingSignal, m: Measured): number {
+function pulseExcursion(sig: WorkingSignal, m: Measured, until = Infinity): number {
   const raw = sig.pulseRaw;
   const n = raw.length;
   const onset = Math.max(0, Math.min(n - 1, Math.floor(m.onsetIdx)));
   const from = Math.max(0, onset - 2 * m.w);
   const ref = onset > from ? sampleMedian(raw, from, onset) : raw[onset];
-  const to = Math.min(n, Math.max(onset + 1, Math.ceil(m.endIdx)));
+  const to = Math.min(n, Math.max(onset + 1, Math.ceil(Math.min(m.endIdx, until))));
   let peak = 0;
   for (let i = onset; i < to; i++) if (Math.abs(raw[i] - ref) > Math.abs(peak)) peak = raw[i] - ref;
   return peak;
