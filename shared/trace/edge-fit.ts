@@ -98,6 +98,27 @@ export function settleLossyEdge(
   return { r, height, fLo, settleTo, stillMoving };
 }
 
+/**
+ * The level before an edge, read again where the edge has not begun: null where the window it was read
+ * over, ending at preTo, already ends before the edge's toe (half its rise before the tangent
+ * construction's onset, onset.ts). Otherwise the window ends at that toe and reaches back two of the
+ * edge's rise times, no further than the edge before it (prevEnd); null if that leaves under two samples.
+ */
+export function footLevel(
+  us: Float64Array,
+  r: Onset,
+  base: number,
+  preTo: number,
+  prevEnd: number,
+): { level: number; from: number; to: number } | null {
+  if (!Number.isFinite(r.onset) || preTo <= r.onset) return null;
+  const to = Math.floor(r.onset - 0.5 * r.rise);
+  const from = Math.max(prevEnd, to - Math.max(2, Math.round(2 * r.rise)));
+  if (to - from < 2) return null;
+  const level = lineFit(us, from, to)(to);
+  return Number.isFinite(level) && level !== base ? { level, from, to } : null;
+}
+
 /** Largest deviation of the raw pulse-domain echo from its onset to `to`, in launch peaks. */
 function echoPeakOf(input: EdgeFitInput, onset: number, to: number): number {
   const { rec, launch: L, signal } = input;
@@ -121,7 +142,7 @@ function fitOne(input: EdgeFitInput, accepted: Candidate[], k: number, prevEnd: 
   const preFrom = Math.max(prevEnd, preTo - 2 * w);
   // Flat baseline at the level just before the event: a slope fitted over a short
   // window and extended across a slow edge does more harm than the creep it would follow.
-  const baseLevel = lineFit(us, preFrom, Math.max(preFrom + 1, preTo))(preTo);
+  let baseLevel = lineFit(us, preFrom, Math.max(preFrom + 1, preTo))(preTo);
   const base = () => baseLevel;
   const postFrom = Math.min(n - 1, c.i + w);
   const postTo = Math.min(n, Math.max(postFrom + 1, Math.min(c.i + 2 * w, next)));
@@ -146,6 +167,27 @@ function fitOne(input: EdgeFitInput, accepted: Candidate[], k: number, prevEnd: 
     const s = settleLossyEdge(us, { r, height, fLo }, baseLevel, w, limit, preFrom, sigmaLocal);
     ({ r, height, fLo, stillMoving } = s);
     if (s.settleTo !== null) settleTo = s.settleTo;
+    // The level before is read where the edge has not begun. The first window is set by the detection's
+    // scale, which a record with no launch edge in it cannot size from the instrument's rise: where that
+    // scale is narrower than the edge, the window lies on the edge's own foot and reads it short. Only
+    // there, and on step records: with the launch's rise known, a slower edge is one the line has spread
+    // (settleLossyEdge and the line fit read it), and re-reading its level before moved a lossy series
+    // fault by 4 m on the simulator sweep; on a pulse record's running sum it moved many echoes' sizes
+    // and distances with no gain on the tuning sets.
+    let readTo = sig.mode === 'step' && !input.launch.found ? preTo : -Infinity;
+    for (let pass = 0; pass < 3; pass++) {
+      const foot = footLevel(us, r, baseLevel, readTo, prevEnd);
+      if (foot === null) break;
+      const h2 = height + baseLevel - foot.level;
+      const again = { r, height: h2, fLo: lowFraction(sigmaLocal, h2) };
+      if (Math.sign(again.height) !== c.sign || Math.abs(again.height) < rhoMin) break;
+      again.r = measureOnset(us, postFrom, () => foot.level, again.height, again.fLo, foot.from, Math.min(n - 1, postTo));
+      const s2 = settleLossyEdge(us, again, foot.level, w, limit, foot.from, sigmaLocal);
+      ({ r, height, fLo, stillMoving } = s2);
+      if (s2.settleTo !== null) settleTo = s2.settleTo;
+      baseLevel = foot.level;
+      readTo = foot.to;
+    }
   }
   return {
     onsetIdx: r.onset,
