@@ -244,27 +244,37 @@ const firstShortIndex = (events: readonly ReflectionEvent[]) =>
   events.findIndex((e) => e.likelyMultipleOf === null && rawRho(e) <= SHORT_MAX_RHO);
 
 /**
+ * The most of its size that an event beyond a drop read at ρ can show at the instrument. A lumped
+ * shunt fault passes 1 + ρ each way, (1 − |ρ|)²; a change to a lower-impedance line passes 1 + ρ out
+ * and 1 − ρ back, 1 − ρ², which is the larger (Pozar §2.3, eq. 2.35 at each junction). The record
+ * cannot tell the two apart at the edge, so the larger bounds what a step record can show.
+ */
+export const seenBeyond = (rho: number) => 1 - Math.min(1, rho * rho);
+
+/**
  * A step reading no line can give: a total reflection (a short, ρ ≤ −0.8 read at the instrument)
  * followed by a strong event that is no echo. A short returns the whole wave, so what lies beyond it
- * shows at most (1 − |ρ|)² of its size (Pozar §2.3) and a step record stays at its level; a record that
- * falls to the baseline and climbs back is a wide pulse. `strong` is in units of the launch.
+ * shows at most seenBeyond(ρ) of its size and a step record stays at its level; a record that falls to
+ * the baseline and climbs back is a wide pulse. `strong` is in units of the launch.
  */
 export function impossibleStepReading(a: TraceAnalysis, strong = 0.3): boolean {
   if (a.mode !== 'step') return false;
   const k = firstShortIndex(a.events);
-  return k >= 0 && a.events.some((e, j) => j > k && e.likelyMultipleOf === null && Math.abs(rawRho(e)) >= strong);
+  if (k < 0) return false;
+  const bar = Math.max(strong, seenBeyond(rawRho(a.events[k])));
+  return a.events.some((e, j) => j > k && e.likelyMultipleOf === null && Math.abs(rawRho(e)) > bar);
 }
 
 /**
  * Smallest edge, in launch heights, taken as the line seen past a short (see lineSeenPastShort): a
- * floor under (1 − |ρ|)² for a short read a little under its size (from memory: a step's level is
+ * floor under seenBeyond(ρ) for a short read a little under its size (from memory: a step's level is
  * read to a few hundredths of the launch on a lossy line).
  */
 const PAST_SHORT_MIN = 0.05;
 
 /**
  * The same test on the events as read, before the weak ones past the cable's end are dropped as its
- * echoes: past a short read at ρ the line shows at most (1 − |ρ|)² of its size (Pozar §2.3), so an
+ * echoes: past a short read at ρ the line shows at most seenBeyond(ρ) of its size, so an
  * edge clear of the short's own timing (two of its uncertainties) that is no echo and stands larger
  * than that is no step record's, however small beside the launch.
  */
@@ -272,7 +282,7 @@ function lineSeenPastShort(events: readonly ReflectionEvent[]): boolean {
   const k = firstShortIndex(events);
   if (k < 0) return false;
   const short = events[k];
-  const beyond = (1 - Math.min(1, Math.abs(rawRho(short)))) ** 2;
+  const beyond = seenBeyond(rawRho(short));
   return events.some(
     (e, j) =>
       j > k &&
@@ -280,6 +290,35 @@ function lineSeenPastShort(events: readonly ReflectionEvent[]): boolean {
       e.distanceM > short.distanceM + 2 * short.uncertaintyM &&
       Math.abs(rawRho(e)) > Math.max(PAST_SHORT_MIN, beyond),
   );
+}
+
+/**
+ * A drop read as a short (ρ ≤ SHORT_MAX_RHO) with an edge beyond it, clear of its timing and no echo,
+ * larger than a lumped shunt fault could pass ((1 − |ρ|)², with the PAST_SHORT_MIN floor) but within
+ * what a change of line passes (seenBeyond): the line goes on past it at a much lower impedance, so it
+ * is an impedance drop, not a short. Run on a step reading that is kept as one.
+ */
+function retypeDropsWithLineBeyond(events: ReflectionEvent[], z0: number | null, warnings: TraceWarning[]): void {
+  for (const [k, drop] of events.entries()) {
+    if (drop.type !== 'short' || drop.likelyMultipleOf !== null) continue;
+    const lumped = Math.max(PAST_SHORT_MIN, (1 - Math.min(1, Math.abs(rawRho(drop)))) ** 2);
+    const beyond = events.find(
+      (e, j) =>
+        j > k &&
+        e.likelyMultipleOf === null &&
+        e.distanceM > drop.distanceM + 2 * drop.uncertaintyM &&
+        Math.abs(rawRho(e)) > lumped,
+    );
+    if (beyond === undefined) continue;
+    const rho = drop.reflectionCoefficient;
+    drop.type = 'impedance-drop';
+    drop.isCableEnd = false;
+    drop.impedanceOhm = z0 !== null && rho > -1 ? (z0 * (1 + rho)) / (1 - rho) : null;
+    warnings.push({
+      code: 'LINE_PAST_DROP',
+      message: `the drop at ${drop.distanceM.toFixed(2)} m is read as a change to a much lower impedance, not a short: the line shows beyond it (the ${beyond.type} at ${beyond.distanceM.toFixed(2)} m), more than a short could pass`,
+    });
+  }
 }
 
 /**
@@ -481,6 +520,7 @@ function analyzeOnce(
   if (!L.clipped) warnings.push(...dropOverUnity(events));
   const seenPastShort =
     L.mode === 'step' && (lineSeenPastShort(events) || sinksPastShort(rec, L, sigma0, shortEnd(events, merged, tb)));
+  if (L.mode === 'step' && !seenPastShort) retypeDropsWithLineBeyond(events, options.z0Ohm ?? null, warnings);
   warnings.push(...resolveCableEnd(events));
   const clutter = dropClutter(events);
   if (clutter.length > 0) {
