@@ -158,7 +158,7 @@ export const CableListQuerySchema = z.strictObject({
 });
 export type CableListQuery = z.output<typeof CableListQuerySchema>;
 
-export const CalibrationSubmitSchema = z.object({
+export const CalibrationSubmitSchema = z.strictObject({
   cableTypeId: z.number({ error: required('is required') }).int('must be a whole number').positive('must be a positive whole number'),
   knownLengthM: num('is required: a number of metres').gt(0, 'must be greater than 0 m').max(100_000, 'must be at most 100 km'),
   roundTripNs: num('is required: a number of nanoseconds').gt(0, 'must be greater than 0 ns').max(10_000_000, 'must be at most 10 ms'),
@@ -175,14 +175,14 @@ export const CalibrationListQuerySchema = z.strictObject({
   pageSize: textInt({ min: 1, max: 100, what: 'a page size' }).default(25),
 });
 
-export const CalibrationAcceptSchema = z.object({
+export const CalibrationAcceptSchema = z.strictObject({
   /** The VF to store, when the reviewer takes the mean of the accepted calibrations; the calibration's own VF otherwise. */
   vf: cableFields.vf.optional(),
   /** Optional new tolerance to store with the accepted VF; the entry's stays otherwise. */
   vfTolerance: cableFields.vfTolerance.optional(),
   note: z.string().trim().max(2000).optional(),
 });
-export const CalibrationRejectSchema = z.object({ reason: reasonSchema });
+export const CalibrationRejectSchema = z.strictObject({ reason: reasonSchema });
 
 // ---- what the API answers ----
 

@@ -6,7 +6,7 @@ export const FINDING_DECISION_ACTIONS = ['decided', 'reversed'] as const;
 export type FindingDecisionAction = (typeof FINDING_DECISION_ACTIONS)[number];
 
 /** A supervisor turns a confirmed event into a dismissed one or back, saying why. */
-export const FindingReverseSchema = z.object({
+export const FindingReverseSchema = z.strictObject({
   /**
    * The status the finding is to have. A reversal names it, so a request sent
    * twice, or after someone else reversed the finding, is refused (409

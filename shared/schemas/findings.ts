@@ -31,7 +31,7 @@ export const FINDING_KIND_LABELS: Record<(typeof FINDING_KINDS)[number], string>
   other: 'Other',
 };
 
-export const FindingInputSchema = z.object({
+export const FindingInputSchema = z.strictObject({
   traceId: jsonId('must be a trace id'),
   eventIndex: z.number({ error: 'must be an event number' }).int('must be an event number').min(0, 'must be an event number').max(100_000, 'must be an event number'),
   status: z.enum(FINDING_STATUSES, { error: 'must be confirmed or dismissed' }),

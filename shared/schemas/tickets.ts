@@ -25,7 +25,7 @@ const dueDate = z
   .transform((v) => v ?? null);
 const priority = z.enum(TICKET_PRIORITIES, { error: `must be one of ${TICKET_PRIORITIES.join(', ')}` });
 
-export const TicketCreateSchema = z.object({
+export const TicketCreateSchema = z.strictObject({
   findingIds: z
     .array(id('a finding id'), { error: 'must list at least one finding' })
     .min(1, 'must list at least one finding')
@@ -53,24 +53,24 @@ export const TicketUpdateSchema = z
   .refine((v) => Object.keys(v).some((k) => k !== 'comment'), 'give at least one field to change');
 export type TicketUpdateInput = z.input<typeof TicketUpdateSchema>;
 
-export const TicketMoveSchema = z.object({
+export const TicketMoveSchema = z.strictObject({
   to: z.enum(TICKET_STATUSES, { error: `must be one of ${TICKET_STATUSES.join(', ')}` }),
   comment: text(2000),
 });
 
-export const TicketCommentSchema = z.object({
+export const TicketCommentSchema = z.strictObject({
   comment: z.string({ error: required('is required') }).trim().min(1, 'is required').max(2000, 'must be at most 2000 characters'),
 });
 
 export const FoundPositionSchema = z.discriminatedUnion(
   'method',
   [
-    z.object({
+    z.strictObject({
       method: z.literal('distance'),
       fromEnd: z.enum(['A', 'B'], { error: 'must be A or B' }),
       distanceM: lengthM('the distance'),
     }),
-    z.object({
+    z.strictObject({
       method: z.literal('marker'),
       markerId: id('a route marker id'),
       offsetM: lengthM('the offset (metres past the marker toward end B)'),
@@ -79,7 +79,7 @@ export const FoundPositionSchema = z.discriminatedUnion(
   { error: 'must say how the position was found: method "distance" (fromEnd, distanceM) or "marker" (markerId, offsetM)' },
 );
 
-export const CloseoutSchema = z.object({
+export const CloseoutSchema = z.strictObject({
   /** Which of the ticket's findings the found position answers (optional when the ticket has one). */
   findingId: id('a finding id of this ticket').optional(),
   found: FoundPositionSchema,

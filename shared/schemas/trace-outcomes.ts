@@ -15,11 +15,11 @@ const note = z
   .transform((v) => (v ? v : undefined));
 
 /** "Far end, cable healthy": the event that is the run's far end on a cable with no fault. */
-export const HealthyOutcomeSchema = z.object({ eventIndex, note });
+export const HealthyOutcomeSchema = z.strictObject({ eventIndex, note });
 export type HealthyOutcomeInput = z.input<typeof HealthyOutcomeSchema>;
 
 /** "Calibrate the VF from this known length": the far-end event and the length it is known to be (metres). */
-export const TraceCalibrationSchema = z.object({
+export const TraceCalibrationSchema = z.strictObject({
   eventIndex,
   knownLengthM: z
     .number({ error: required('is required: the known length of the run, in metres') })
@@ -31,7 +31,7 @@ export const TraceCalibrationSchema = z.object({
 export type TraceCalibrationInput = z.input<typeof TraceCalibrationSchema>;
 
 /** Archiving or restoring a trace always says why. */
-export const ArchiveReasonSchema = z.object({
+export const ArchiveReasonSchema = z.strictObject({
   reason: z
     .string({ error: required('is required: say why') })
     .trim()

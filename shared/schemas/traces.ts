@@ -80,7 +80,7 @@ export const TraceViewQuerySchema = z.object({
   compareTo: textId('the id of a trace').optional(),
 });
 
-export const ReferenceSchema = z.object({ isReference: z.boolean({ error: 'must be true or false' }) });
+export const ReferenceSchema = z.strictObject({ isReference: z.boolean({ error: 'must be true or false' }) });
 
 export interface TraceSummary {
   id: number;

@@ -19,12 +19,12 @@ export const passwordSchema = z
   .min(10, 'must be at least 10 characters')
   .max(200, 'must be at most 200 characters');
 
-export const ChangePasswordSchema = z.object({
+export const ChangePasswordSchema = z.strictObject({
   currentPassword: z.string({ error: required('is required') }).min(1, 'is required').max(200, 'must be at most 200 characters'),
   newPassword: passwordSchema,
 });
 
-export const CreateUserSchema = z.object({
+export const CreateUserSchema = z.strictObject({
   email: emailSchema,
   name: oneLine(z.string({ error: required('is required') }).trim().min(1, 'is required').max(120)),
   role: z.enum(ROLES, { error: `must be one of ${ROLES.join(', ')}` }),
@@ -43,7 +43,7 @@ export const UpdateUserSchema = z
   .refine((v) => Object.keys(v).length > 0, 'give at least one field to change');
 
 /** Hand a person's open repairs to another technician (POST /api/users/:id/hand-over-repairs). */
-export const HandOverSchema = z.object({
+export const HandOverSchema = z.strictObject({
   toUserId: z.number({ error: 'must be a person' }).int({ error: 'must be a person' }).positive({ error: 'must be a person' }),
 });
 
