@@ -1,9 +1,9 @@
 import { IdParam } from '../http/params';
 import {
   CalibrationAcceptSchema,
+  CalibrationFileSchema,
   CalibrationListQuerySchema,
   CalibrationRejectSchema,
-  CalibrationSubmitSchema,
 } from '../../shared/schemas/cables';
 import { currentUser } from '../auth/guards';
 import type { AppContext } from '../context';
@@ -24,7 +24,7 @@ export function calibrationRoutes(ctx: AppContext) {
     '/',
     'calibrations:submit',
     handle(async (req, res) => {
-      const input = CalibrationSubmitSchema.parse(req.body);
+      const input = CalibrationFileSchema.parse(req.body);
       const created = await calibrations.submitCalibration({ ...input, submittedById: currentUser(req).id });
       res.status(201);
       return created;

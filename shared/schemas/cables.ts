@@ -168,6 +168,18 @@ export const CalibrationSubmitSchema = z.strictObject({
 });
 export type CalibrationSubmitInput = z.input<typeof CalibrationSubmitSchema>;
 
+/**
+ * A calibration filed through the API: by hand, or read off a trace (which it names). 'repair-closeout' is only
+ * ever written by a repair's close-out, so a calibration cannot claim a crew's found position it does not have.
+ */
+export const CalibrationFileSchema = CalibrationSubmitSchema.extend({
+  source: z.enum(['manual', 'trace'], { error: 'must be manual or trace (a repair close-out files its own calibration)' }).default('manual'),
+}).superRefine((v, ctx) => {
+  if (v.source === 'trace' && (v.traceId === null || v.traceId === undefined)) {
+    ctx.addIssue({ code: 'custom', path: ['traceId'], message: 'is required: the trace the calibration was read from' });
+  }
+});
+
 export const CalibrationListQuerySchema = z.strictObject({
   status: z.enum([...CALIBRATION_STATUSES, 'all'], { error: `must be one of ${CALIBRATION_STATUSES.join(', ')}, all` }).default('pending'),
   cableTypeId: textId('a cable type id').optional(),
