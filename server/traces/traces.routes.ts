@@ -87,9 +87,25 @@ function uploadMiddleware(ctx: AppContext): RequestHandler {
       }
       if (err instanceof multer.MulterError) return next(multerAppError(err));
       if (isMalformedMultipart(err)) return next(malformedMultipartError(err as Error));
+      if (senderWentAway(err, req)) {
+        // A phone that lost its signal mid-upload: everyday in the field, not a server fault. The part written is
+        // already removed; the answer below reaches nobody but keeps the request's record straight.
+        ctx.logger.info({ userId: req.user?.id, why: (err as Error).message }, 'upload-cut-off');
+        return next(
+          new AppError(400, 'upload_cut_off', 'The upload stopped before the whole form arrived (the connection was closed). Nothing was stored; send it again.'),
+        );
+      }
       next(err);
     });
   };
+}
+
+/** The form reader's own words for a sender that closed the connection before the form ended, or the socket's. */
+function senderWentAway(err: unknown, req: Request): boolean {
+  if (!(err instanceof Error)) return false;
+  if (err.message === 'Request aborted' || err.message === 'Request closed') return true;
+  const code = (err as NodeJS.ErrnoException).code;
+  return req.destroyed && (code === 'ECONNRESET' || code === 'ECONNABORTED');
 }
 
 /** The optional Idempotency-Key header: the client makes one per file it sends, so a retry of the same upload reuses it. */
