@@ -23,6 +23,7 @@ import { getTrace } from '../../features/traces/api/get-trace';
 import { formatDate, formatDateTime, formatLength, lengthsInText, type LengthUnit } from '../../lib/format';
 import { NotFoundPage } from './not-found';
 import { paths } from '../paths';
+import { Term } from '../../components/ui/term';
 
 /** The cable-end reflection of an uploaded trace and its run's recorded length, as a calibration's inputs. */
 async function calibrationFromTrace(traceId: number, unit: LengthUnit): Promise<TraceCalibrationSource> {
@@ -44,7 +45,7 @@ async function calibrationFromTrace(traceId: number, unit: LengthUnit): Promise<
   };
 }
 
-function Row({ label, children }: { label: string; children: ReactNode }) {
+function Row({ label, children }: { label: ReactNode; children: ReactNode }) {
   return (
     <div className="grid grid-cols-[9rem_1fr] gap-2 border-t border-rule py-2 text-sm first:border-t-0">
       <dt className="text-ink-soft">{label}</dt>
@@ -131,7 +132,7 @@ export function CablePage() {
               </>
             ) : (
               <dl data-testid="cable-values">
-                <Row label="Velocity factor">
+                <Row label={<Term k="vf">Velocity factor</Term>}>
                   <span className="text-lg font-bold" data-testid="cable-vf">
                     {formatVf(c.vf, 4)}
                   </span>{' '}
@@ -140,7 +141,7 @@ export function CablePage() {
                   </span>
                 </Row>
                 <Row label="Delay">{formatDelay(c.vf, unit)}</Row>
-                <Row label="Impedance Z0">{c.z0Ohm} Ω</Row>
+                <Row label={<Term k="z0">Impedance Z0</Term>}>{c.z0Ohm} Ω</Row>
                 <CableLossDetails cable={c} unit={unit} />
                 <Row label="VF source">
                   <StatusBadge kind="vfSource" status={c.vfSource} label={vfSourceLabel(c.vfSource)} />

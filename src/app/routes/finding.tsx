@@ -16,6 +16,7 @@ import { MeasurementPanel } from '../../features/locate/components/measurement-p
 import { useCableRun } from '../../features/sites/api/get-cable-run';
 import { formatDateTime, formatLength, formatSignedLength } from '../../lib/format';
 import { paths } from '../paths';
+import { Term } from '../../components/ui/term';
 
 export function FindingPage() {
   const id = Number(useParams().findingId);
@@ -144,13 +145,19 @@ export function FindingPage() {
                 </Link>{' '}
                 (event {f.eventIndex + 1}, {f.eventType})
               </dd>
-              <dt className="text-mist">Round-trip time</dt>
+              <dt className="text-mist">
+                <Term k="roundTrip">Round-trip time</Term>
+              </dt>
               <dd>{f.roundTripNs.toFixed(1)} ns</dd>
-              <dt className="text-mist">Velocity factor</dt>
+              <dt className="text-mist">
+                <Term k="vf">Velocity factor</Term>
+              </dt>
               <dd>
                 {f.vf} ± {(f.vfTolerance * 100).toFixed(1)} %
               </dd>
-              <dt className="text-mist">Uncertainty (95 %)</dt>
+              <dt className="text-mist">
+                <Term k="window95">Uncertainty (95 %)</Term>
+              </dt>
               <dd>± {formatLength(f.uncertaintyM, unit)}</dd>
               <dt className="text-mist">From end A</dt>
               <dd>{formatLength(f.distanceFromAM, unit)} along the cable</dd>

@@ -23,6 +23,7 @@ import { ReadingAlone, RouteSentence } from '../../features/findings/components/
 import { formatDate, formatDateTime, formatLength, formatLengthRange, formatSignedLength, type LengthUnit } from '../../lib/format';
 import { describeError } from '../../lib/api-client';
 import { paths } from '../paths';
+import { Term } from '../../components/ui/term';
 
 /** Steps that cannot be taken back: each asks first. */
 const FINAL_MOVES: readonly TicketStatus[] = ['withdrawn', 'signed-off'];
@@ -66,7 +67,7 @@ function FindingCard({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; un
             <RouteSentence pos={f.routePosition} storedText={f.routePositionText} unit={unit} testId="ticket-route-position" />
           </p>
           <p className="text-sm text-ink-soft tabular">
-            Cable-length window: {formatLengthRange(f.windowStartM, f.windowEndM, unit)} along the cable from end {f.measuredFrom}, slack included
+            <Term k="cableWindow">Cable-length window</Term>: {formatLengthRange(f.windowStartM, f.windowEndM, unit)} along the cable from end {f.measuredFrom}, slack included
           </p>
         </>
       )}

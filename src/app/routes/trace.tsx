@@ -22,6 +22,7 @@ import { EventCard } from '../../features/traces/components/event-card';
 import { eventTitle } from '../../features/traces/reflection-words';
 import { formatDateTime, formatLength, lengthsInText, type LengthUnit } from '../../lib/format';
 import { paths } from '../paths';
+import { Term } from '../../components/ui/term';
 
 /**
  * An engine warning in the reader's unit. The blind-zone one is written from
@@ -322,15 +323,23 @@ export function TracePage() {
             </Card>
             <Card title="Analysis">
               <dl className="grid grid-cols-2 gap-x-3 gap-y-1 text-sm tabular">
-                <dt className="text-mist">Velocity factor</dt>
+                <dt className="text-mist">
+                  <Term k="vf">Velocity factor</Term>
+                </dt>
                 <dd>
                   {t.vf} ± {(t.vfTolerance * 100).toFixed(1)} %{t.vfOverrideReason ? ` (override: ${t.vfOverrideReason})` : ''}
                 </dd>
-                <dt className="text-mist">Z0</dt>
+                <dt className="text-mist">
+                  <Term k="z0">Z0</Term>
+                </dt>
                 <dd>{t.z0Ohm ?? '—'} Ω</dd>
-                <dt className="text-mist">Trace kind</dt>
+                <dt className="text-mist">
+                  <Term k="traceKind">Trace kind</Term>
+                </dt>
                 <dd>{t.analysis.mode}</dd>
-                <dt className="text-mist">Blind zone</dt>
+                <dt className="text-mist">
+                  <Term k="blindZone">Blind zone</Term>
+                </dt>
                 <dd>{formatLength(t.analysis.blindZoneM, unit)}</dd>
                 <dt className="text-mist">Range</dt>
                 <dd>{formatLength(t.analysis.rangeM, unit)}</dd>

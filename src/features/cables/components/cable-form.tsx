@@ -121,7 +121,9 @@ export function CableForm({ unit, cable, prefill, pending, error, submitLabel, o
           ))}
         </SelectField>
         <TextField label="Dielectric" value={state.dielectric} onChange={(e) => set('dielectric', e.target.value)} error={errors.dielectric} hint="e.g. solid polyethylene, XLPE" />
-        <TextField label="Impedance Z0 (Ω)" inputMode="decimal" value={state.z0Ohm} onChange={(e) => set('z0Ohm', e.target.value)} error={errors.z0Ohm} />
+        <TextField label="Impedance Z0 (Ω)" inputMode="decimal" value={state.z0Ohm} onChange={(e) => set('z0Ohm', e.target.value)} error={errors.z0Ohm}
+          hint="The datasheet's characteristic impedance: typically 50 or 75 Ω for coax, about 100 Ω for telephone and data pairs"
+        />
         <TextField
           label="Velocity factor"
           inputMode="decimal"

@@ -2,6 +2,7 @@ import { describeCrossings, describeRoutePosition, routePosition, type RoutePosi
 import type { ReflectionEvent } from '../../../../shared/schemas/trace-analysis';
 import { DigCaution } from '../../../components/ui/safety-caution';
 import { formatLength, formatLengthRange, lengthsInText, type LengthUnit } from '../../../lib/format';
+import { Term } from '../../../components/ui/term';
 
 /** Where an event of a trace is on the ground, with the run's markers as they are now. */
 export function placeEvent(run: RunLike, end: 'A' | 'B', e: Pick<ReflectionEvent, 'distanceM' | 'windowStartM' | 'windowEndM'>): RoutePosition {
@@ -77,7 +78,9 @@ export function DistanceBlock({
         {formatLength(distanceM, unit)}
       </p>
       <p className="text-base tabular" data-testid="cable-window">
-        <span className="font-semibold">Cable-length window:</span> {formatLengthRange(windowStartM, windowEndM, unit)} along the cable from end {end}, slack included
+        <span className="font-semibold">
+          <Term k="cableWindow">Cable-length window</Term>:
+        </span> {formatLengthRange(windowStartM, windowEndM, unit)} along the cable from end {end}, slack included
       </p>
       <p className="rounded-md bg-copper-light px-3 py-2 text-lg font-semibold text-ink">
         <RouteSentence pos={pos} storedText={storedText} unit={unit} />

@@ -1,3 +1,4 @@
+import { Fragment } from 'react';
 import { Link } from 'react-router-dom';
 import type { BestLocationView, LocationMethodView } from '../../../../shared/schemas/measurements';
 import { methodShareText, weightText } from '../../../../shared/locate/words';
@@ -7,6 +8,7 @@ import { formatLength, formatLengthRange, lengthsInText, type LengthUnit } from 
 import { describeCrossings, describeRoutePosition } from '../../../../shared/field/route-position';
 import { GroundLinks } from './ground-links';
 import { RouteStrip, type StripRun } from './route-strip';
+import { Term } from '../../../components/ui/term';
 
 export interface LocationRun extends StripRun {
   name: string;
@@ -53,8 +55,12 @@ export function BestLocationHeadline({
             {formatLength(best.distanceFromAM, unit)}
           </p>
           <p className="text-base tabular" data-testid="best-window">
-            <span className="font-semibold">95 % window:</span> {formatLengthRange(best.windowStartM!, best.windowEndM!, unit)} along the cable from end A
-            <span className="text-ink-soft"> · standard uncertainty <span className="whitespace-nowrap">± {formatLength(best.standardUncertaintyM, unit)}</span></span>
+            <span className="font-semibold">
+              <Term k="window95">95 % window</Term>:
+            </span> {formatLengthRange(best.windowStartM!, best.windowEndM!, unit)} along the cable from end A
+            <span className="text-ink-soft">
+              {' · '}
+              <Term k="standardUncertainty">standard uncertainty</Term> <span className="whitespace-nowrap">± {formatLength(best.standardUncertaintyM, unit)}</span></span>
           </p>
           {best.routePosition && (
             <p className="rounded-md bg-copper-light px-3 py-2 text-lg font-semibold text-ink">
@@ -73,12 +79,12 @@ export function BestLocationHeadline({
         </>
       ) : (
         <Notice tone="danger" title="No best location: the readings disagree">
-          <p>{lengthsInText(best.verdict, unit)}</p>
+          <p>{withChiSquare(lengthsInText(best.verdict, unit))}</p>
         </Notice>
       )}
       {best.distanceFromAM !== null && (
         <p className={`text-sm ${best.consistent ? 'text-ok' : 'font-semibold text-danger'}`} data-testid="best-verdict">
-          {lengthsInText(best.verdict, unit)}
+          {withChiSquare(lengthsInText(best.verdict, unit))}
         </p>
       )}
       {!best.consistent && (
@@ -156,7 +162,7 @@ export function LocationMethods({ best, unit, findingLink }: { best: BestLocatio
       </div>
       {best.test && (
         <p className="text-xs text-mist">
-          Agreement test: χ² = {best.test.chiSquare.toFixed(2)} on {best.test.degreesOfFreedom} degree{best.test.degreesOfFreedom === 1 ? '' : 's'} of freedom (95 % limit{' '}
+          Agreement test: <Term k="chiSquare">χ²</Term> = {best.test.chiSquare.toFixed(2)} on {best.test.degreesOfFreedom} degree{best.test.degreesOfFreedom === 1 ? '' : 's'} of freedom (95 % limit{' '}
           {best.test.limit95.toFixed(2)}). Readings are weighted by the inverse of their variance; errors they share (the installed length, one velocity factor) are counted once.
         </p>
       )}
@@ -184,4 +190,15 @@ export function LocationMethods({ best, unit, findingLink }: { best: BestLocatio
       )}
     </div>
   );
+}
+
+/** A verdict's χ² as a term whose meaning is a tap away; the words are unchanged. */
+function withChiSquare(text: string) {
+  const parts = text.split('χ²');
+  return parts.map((part, i) => (
+    <Fragment key={i}>
+      {i > 0 && <Term k="chiSquare">χ²</Term>}
+      {part}
+    </Fragment>
+  ));
 }

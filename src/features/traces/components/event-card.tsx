@@ -5,6 +5,7 @@ import { Card } from '../../../components/ui/card';
 import type { LengthUnit } from '../../../lib/format';
 import { eventMeaning, eventTitle, signedRho } from '../reflection-words';
 import { FarEndPanel, isLastReflection, windowHoldsLength } from './far-end-panel';
+import { Term } from '../../../components/ui/term';
 
 /**
  * The chosen event: where it is, what its ρ says, and what can be decided
@@ -39,8 +40,8 @@ export function EventCard({
   const reading = (
     <>
       <p className="mt-2 text-sm text-ink-soft tabular" data-testid="event-reading">
-        ρ = {signedRho(event.reflectionCoefficient, 3)}
-        {event.impedanceOhm !== null && Number.isFinite(event.impedanceOhm) && event.impedanceOhm < 1e5 ? ` · Z ≈ ${event.impedanceOhm.toFixed(0)} Ω` : ''} · round-trip{' '}
+        <Term k="rho">ρ</Term> = {signedRho(event.reflectionCoefficient, 3)}
+        {event.impedanceOhm !== null && Number.isFinite(event.impedanceOhm) && event.impedanceOhm < 1e5 ? ` · Z ≈ ${event.impedanceOhm.toFixed(0)} Ω` : ''} · <Term k="roundTrip">round-trip</Term>{' '}
         {event.roundTripNs.toFixed(1)} ns
         {event.likelyMultipleOf !== null ? ` · probably an echo of event ${event.likelyMultipleOf + 1}` : ''}
         {isNew ? ' · new since the reference' : ''}

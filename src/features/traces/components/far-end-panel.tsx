@@ -8,6 +8,7 @@ import { fieldErrors, TextField } from '../../../components/ui/field';
 import { ErrorNotice, Notice } from '../../../components/ui/notice';
 import { formatDateTime, formatLength, formatLengthRange, fromUnit, lengthNumber, type LengthUnit } from '../../../lib/format';
 import { useFileTraceCalibration, useRecordHealthy, useTraceOutcomes } from '../api/trace-outcomes';
+import { Term } from '../../../components/ui/term';
 
 /** Whether the run's recorded length lies inside the event's cable-length window. */
 export function windowHoldsLength(e: Pick<ReflectionEvent, 'windowStartM' | 'windowEndM'>, lengthM: number) {
@@ -139,7 +140,9 @@ export function FarEndPanel({
           {formatLength(event.distanceM, unit)}
         </p>
         <p className="text-base tabular">
-          <span className="font-semibold">Cable-length window:</span> {formatLengthRange(event.windowStartM, event.windowEndM, unit)} along the cable from end {trace.end}
+          <span className="font-semibold">
+            <Term k="cableWindow">Cable-length window</Term>:
+          </span> {formatLengthRange(event.windowStartM, event.windowEndM, unit)} along the cable from end {trace.end}
         </p>
         {children}
       </div>
