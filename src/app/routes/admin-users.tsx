@@ -57,7 +57,7 @@ export function AdminUsersPage() {
           {users.isPending ? (
             <Loading />
           ) : users.error ? (
-            <ErrorNotice error={users.error} />
+            <ErrorNotice error={users.error} onRetry={() => void users.refetch()} retrying={users.isFetching} />
           ) : (
             <>
               <ul className="mt-3 divide-y divide-rule text-sm">

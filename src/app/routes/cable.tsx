@@ -70,7 +70,7 @@ export function CablePage() {
 
   if (!Number.isInteger(id) || id <= 0) return <NotFoundPage />;
   if (cable.isPending) return <Loading />;
-  if (cable.error) return <ErrorNotice error={cable.error} />;
+  if (cable.error) return <ErrorNotice error={cable.error} onRetry={() => void cable.refetch()} retrying={cable.isFetching} />;
   const c = cable.data;
 
   return (
@@ -161,7 +161,7 @@ export function CablePage() {
             {calibrations.isPending ? (
               <Loading />
             ) : calibrations.error ? (
-              <ErrorNotice error={calibrations.error} />
+              <ErrorNotice error={calibrations.error} onRetry={() => void calibrations.refetch()} retrying={calibrations.isFetching} />
             ) : (
               <>
                 <dl className="mb-3 grid grid-cols-3 gap-2 text-center text-sm" data-testid="calibration-stats">
@@ -242,7 +242,7 @@ export function CablePage() {
             <ReanalysisPanel cableId={c.id} revision={c.revision} unit={unit} canStart={can('cables:write')} />
           </Card>
           <Card title="History">
-            {history.isPending ? <Loading /> : history.error ? <ErrorNotice error={history.error} /> : <CableHistory entries={history.data} unit={unit} />}
+            {history.isPending ? <Loading /> : history.error ? <ErrorNotice error={history.error} onRetry={() => void history.refetch()} retrying={history.isFetching} /> : <CableHistory entries={history.data} unit={unit} />}
           </Card>
         </div>
       </div>

@@ -80,7 +80,7 @@ export function CablesPage() {
         {cables.isPending ? (
           <Loading />
         ) : cables.error ? (
-          <ErrorNotice error={cables.error} />
+          <ErrorNotice error={cables.error} onRetry={() => void cables.refetch()} retrying={cables.isFetching} />
         ) : (
           <>
             <div className="mt-3 overflow-x-auto">

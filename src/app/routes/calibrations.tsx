@@ -190,7 +190,7 @@ export function CalibrationsPage() {
         {list.isPending ? (
           <Loading />
         ) : list.error ? (
-          <ErrorNotice error={list.error} />
+          <ErrorNotice error={list.error} onRetry={() => void list.refetch()} retrying={list.isFetching} />
         ) : list.data.total === 0 ? (
           <Notice tone="info">{status === 'pending' ? 'Nothing is waiting for review.' : 'No calibrations here.'}</Notice>
         ) : (

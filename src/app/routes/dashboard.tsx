@@ -20,7 +20,7 @@ export function DashboardPage() {
   const { unit, can } = useSession();
   const d = useDashboard();
   if (d.isPending) return <Loading what="Loading the dashboard" />;
-  if (d.error) return <ErrorNotice error={d.error} />;
+  if (d.error) return <ErrorNotice error={d.error} onRetry={() => void d.refetch()} retrying={d.isFetching} />;
   const v = d.data;
   return (
     <>

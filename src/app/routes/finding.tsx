@@ -26,7 +26,7 @@ export function FindingPage() {
   const run = useCableRun(finding.data?.cableRunId ?? 0, finding.data !== undefined);
   const twoEnded = useFindingTwoEnded(id);
   if (finding.isPending) return <Loading what="Loading the finding" />;
-  if (finding.error || !finding.data) return <ErrorNotice error={finding.error} />;
+  if (finding.error || !finding.data) return <ErrorNotice error={finding.error} onRetry={() => void finding.refetch()} retrying={finding.isFetching} />;
   const f = finding.data;
   const te = twoEnded.data?.twoEnded;
   return (

@@ -65,7 +65,7 @@ export function FindingsPage() {
         {findings.isPending ? (
           <Loading />
         ) : findings.error ? (
-          badSearch ? null : <ErrorNotice error={findings.error} />
+          badSearch ? null : <ErrorNotice error={findings.error} onRetry={() => void findings.refetch()} retrying={findings.isFetching} />
         ) : findings.data.items.length === 0 && search && !findings.isPlaceholderData ? (
           <NoMatches what="findings" search={search} />
         ) : (

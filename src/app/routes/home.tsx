@@ -26,7 +26,7 @@ function OpenTickets({ mine }: { mine: boolean }) {
       </Card>
     );
   if (tickets.isPending) return <Loading what="Loading repairs" />;
-  if (tickets.error) return <ErrorNotice error={tickets.error} />;
+  if (tickets.error) return <ErrorNotice error={tickets.error} onRetry={() => void tickets.refetch()} retrying={tickets.isFetching} />;
   const items = tickets.data.items.slice(0, 5);
   return (
     <Card
@@ -63,7 +63,7 @@ function OpenTickets({ mine }: { mine: boolean }) {
 function PendingCalibrations() {
   const cals = useCalibrations({ status: 'pending', page: 1 });
   if (cals.isPending) return <Loading what="Loading calibrations" />;
-  if (cals.error) return <ErrorNotice error={cals.error} />;
+  if (cals.error) return <ErrorNotice error={cals.error} onRetry={() => void cals.refetch()} retrying={cals.isFetching} />;
   return (
     <Card
       title="Calibrations waiting for review"

@@ -107,7 +107,7 @@ export function OutboxPage() {
           {messages.isPending ? (
             <Loading />
           ) : messages.error ? (
-            <ErrorNotice error={messages.error} />
+            <ErrorNotice error={messages.error} onRetry={() => void messages.refetch()} retrying={messages.isFetching} />
           ) : messages.data.items.length === 0 ? (
             <p className="py-6 text-sm text-mist">No e-mail yet. Confirming a finding or assigning a ticket sends one.</p>
           ) : (
@@ -153,7 +153,7 @@ export function OutboxPage() {
         {queue.isPending ? (
           <Loading />
         ) : queue.error ? (
-          <ErrorNotice error={queue.error} />
+          <ErrorNotice error={queue.error} onRetry={() => void queue.refetch()} retrying={queue.isFetching} />
         ) : (
           <>
             <ul className="mt-3 divide-y divide-rule">

@@ -21,7 +21,7 @@ export function SiteRunPage() {
   const traces = useTraces({ cableRunId: id, pageSize: 10 });
   const [editing, setEditing] = useState(false);
   if (run.isPending) return <Loading what="Loading the cable run" />;
-  if (run.error || !run.data) return <ErrorNotice error={run.error} />;
+  if (run.error || !run.data) return <ErrorNotice error={run.error} onRetry={() => void run.refetch()} retrying={run.isFetching} />;
   const r = run.data;
   return (
     <>

@@ -19,7 +19,7 @@ export function SitePage() {
   const runs = useCableRuns({ siteId: id });
   const [editing, setEditing] = useState(false);
   if (site.isPending) return <Loading what="Loading the site" />;
-  if (site.error || !site.data) return <ErrorNotice error={site.error} />;
+  if (site.error || !site.data) return <ErrorNotice error={site.error} onRetry={() => void site.refetch()} retrying={site.isFetching} />;
   const s = site.data;
   return (
     <>

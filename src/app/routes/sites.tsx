@@ -24,7 +24,7 @@ export function SitesPage() {
           {sites.isPending ? (
             <Loading />
           ) : sites.error ? (
-            <ErrorNotice error={sites.error} />
+            <ErrorNotice error={sites.error} onRetry={() => void sites.refetch()} retrying={sites.isFetching} />
           ) : (
             <>
               <ul className="mt-3 divide-y divide-rule">

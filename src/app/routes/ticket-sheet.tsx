@@ -87,7 +87,7 @@ export function TicketSheetPage() {
   const { unit } = useSession();
   const ticket = useTicket(id);
   if (ticket.isPending) return <Loading what="Loading the crew sheet" />;
-  if (ticket.error) return <ErrorNotice error={ticket.error} />;
+  if (ticket.error) return <ErrorNotice error={ticket.error} onRetry={() => void ticket.refetch()} retrying={ticket.isFetching} />;
   const t = ticket.data;
   const run = t.cableRun;
 

@@ -125,7 +125,7 @@ export function TicketPage() {
   const [note, setNote] = useState('');
   const [asking, setAsking] = useState<TicketStatus | null>(null);
   if (ticket.isPending) return <Loading what="Loading the ticket" />;
-  if (ticket.error) return <ErrorNotice error={ticket.error} />;
+  if (ticket.error) return <ErrorNotice error={ticket.error} onRetry={() => void ticket.refetch()} retrying={ticket.isFetching} />;
   const t = ticket.data;
   const go = (to: TicketStatus) =>
     move.mutate({ id: t.id, to, comment: moveComment }, { onSuccess: () => (setMoveComment(''), setAsking(null)) });

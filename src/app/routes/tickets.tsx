@@ -89,7 +89,7 @@ export function TicketsPage() {
           {tickets.isPending ? (
             <Loading />
           ) : tickets.error ? (
-            <ErrorNotice error={tickets.error} />
+            <ErrorNotice error={tickets.error} onRetry={() => void tickets.refetch()} retrying={tickets.isFetching} />
           ) : tickets.data.items.length === 0 ? (
             <p className="py-6 text-sm text-mist">No tickets to show.</p>
           ) : (

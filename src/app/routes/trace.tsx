@@ -81,7 +81,7 @@ export function TracePage() {
   const best = useBestLocation(faultFinding?.id ?? null).data ?? null;
 
   if (trace.isPending) return <Loading what="Loading the trace" />;
-  if (trace.error || !t) return <ErrorNotice error={trace.error} />;
+  if (trace.error || !t) return <ErrorNotice error={trace.error} onRetry={() => void trace.refetch()} retrying={trace.isFetching} />;
 
   const run = { ...t.cableRun, markers: t.cableRun.markers };
   const moveCursor = (i: 0 | 1, dM: number) => {

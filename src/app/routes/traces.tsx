@@ -74,7 +74,7 @@ export function TracesPage() {
         {traces.isPending ? (
           <Loading />
         ) : traces.error ? (
-          badSearch ? null : <ErrorNotice error={traces.error} />
+          badSearch ? null : <ErrorNotice error={traces.error} onRetry={() => void traces.refetch()} retrying={traces.isFetching} />
         ) : traces.data.items.length === 0 && search && !traces.isPlaceholderData ? (
           <NoMatches what="traces" search={search} />
         ) : (

@@ -1,5 +1,5 @@
 import type { ReactNode } from 'react';
-import { describeError, type FieldLabels } from '../../lib/api-client';
+import { ApiError, describeError, type FieldLabels } from '../../lib/api-client';
 import { lengthsInText, type LengthUnit } from '../../lib/format';
 
 type Tone = 'info' | 'ok' | 'warn' | 'danger';
@@ -38,11 +38,37 @@ export function Loading({ what = 'Loading' }: { what?: string }) {
 /**
  * A failed request in the reader's words: the form's own labels for the
  * fields, and lengths in the reader's unit when the form deals in lengths.
+ * A page that could not load its data (`onRetry`) offers to load it again
+ * when trying again can help: no signal, or the server's own failure; a
+ * refusal (4xx) would only be refused again.
  */
-export function ErrorNotice({ error, labels, unit = 'm' }: { error: unknown; labels?: FieldLabels; unit?: LengthUnit }) {
+export function ErrorNotice({
+  error,
+  labels,
+  unit = 'm',
+  onRetry,
+  retrying = false,
+}: {
+  error: unknown;
+  labels?: FieldLabels;
+  unit?: LengthUnit;
+  onRetry?: () => void;
+  retrying?: boolean;
+}) {
+  const canRetry = onRetry && !(error instanceof ApiError && error.status >= 400 && error.status < 500);
   return (
     <Notice tone="danger" title="That did not work">
       {lengthsInText(describeError(error, labels), unit)}
+      {canRetry && (
+        <button
+          type="button"
+          onClick={onRetry}
+          disabled={retrying}
+          className="mt-2 flex min-h-11 items-center rounded-md border border-rule bg-card px-4 py-2 text-sm font-semibold text-ink hover:border-ink-soft disabled:text-mist"
+        >
+          {retrying ? 'Trying again…' : 'Try again'}
+        </button>
+      )}
     </Notice>
   );
 }

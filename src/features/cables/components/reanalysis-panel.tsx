@@ -14,7 +14,7 @@ export function ReanalysisPanel({ cableId, revision, unit, canStart }: { cableId
   const latest = useLatestReanalysis(cableId);
   const start = useStartReanalysis(cableId);
   if (latest.isPending) return <Loading />;
-  if (latest.error) return <ErrorNotice error={latest.error} />;
+  if (latest.error) return <ErrorNotice error={latest.error} onRetry={() => void latest.refetch()} retrying={latest.isFetching} />;
   const r = latest.data.reanalysis;
   const running = r?.status === 'running';
   const percent = r && r.traceTotal > 0 ? Math.round((100 * r.tracesDone) / r.traceTotal) : 100;

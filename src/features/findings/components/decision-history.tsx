@@ -19,7 +19,7 @@ export function DecisionHistory({ finding, mayReverse }: { finding: FindingView;
   const history = useFindingDecisions(finding.id);
   return (
     <Card title="Decision history">
-      {history.error && <ErrorNotice error={history.error} />}
+      {history.error && <ErrorNotice error={history.error} onRetry={() => void history.refetch()} retrying={history.isFetching} />}
       <ol className="space-y-2 text-sm">
         {(history.data ?? []).map((d) => (
           <li key={d.id} className="border-l-2 border-rule pl-3">

@@ -154,7 +154,7 @@ export function MeasurementPanel({
       {list.isPending ? (
         <Loading what="Loading the readings" />
       ) : list.error ? (
-        <ErrorNotice error={list.error} />
+        <ErrorNotice error={list.error} onRetry={() => void list.refetch()} retrying={list.isFetching} />
       ) : list.data.length === 0 ? (
         <p className="text-sm text-mist">No bridge, capacitance or resistance reading of this fault yet.</p>
       ) : (

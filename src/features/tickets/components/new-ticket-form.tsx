@@ -41,7 +41,7 @@ export function NewTicketForm({ unit, preselect, onCreated }: { unit: LengthUnit
   };
 
   if (findings.isPending) return <Loading what="Loading findings" />;
-  if (findings.error) return <ErrorNotice error={findings.error} />;
+  if (findings.error) return <ErrorNotice error={findings.error} onRetry={() => void findings.refetch()} retrying={findings.isFetching} />;
   if (findings.data.length === 0) return <p className="text-sm text-mist">Every confirmed finding is on a ticket.</p>;
 
   return (

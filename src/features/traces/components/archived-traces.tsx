@@ -16,7 +16,7 @@ export function ArchivedTraces({ traceLink }: { traceLink: (id: number) => strin
       {list.isPending ? (
         <Loading />
       ) : list.error ? (
-        <ErrorNotice error={list.error} />
+        <ErrorNotice error={list.error} onRetry={() => void list.refetch()} retrying={list.isFetching} />
       ) : list.data.total === 0 ? (
         <p className="text-sm text-mist">No archived traces.</p>
       ) : (

@@ -1,0 +1,104 @@
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { cleanup, fireEvent, render, screen } from '@testing-library/react';
+import { http, HttpResponse } from 'msw';
+import { setupServer } from 'msw/node';
+import { createMemoryRouter, RouterProvider } from 'react-router-dom';
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { FindingsPage } from '../../src/app/routes/findings';
+
+const me = {
+  id: 2,
+  email: 'ada@example.com',
+  name: 'Ada Field',
+  role: 'technician',
+  active: true,
+  mustChangePassword: false,
+  unitPreference: 'm',
+};
+
+const finding = {
+  id: 7,
+  siteId: 1,
+  siteName: 'Harrowmere North',
+  cableRunId: 3,
+  cableRunName: 'HN-3',
+  traceId: 9,
+  eventIndex: 0,
+  end: 'A',
+  status: 'confirmed',
+  kind: 'open',
+  distanceM: 120,
+  confirmedBy: { id: 2, name: 'Ada Field' },
+  confirmedAt: '2026-12-01T10:00:00.000Z',
+  routePosition: null,
+  routePositionText: 'finding 7 route words',
+};
+
+/** What the findings list answers next, one answer per request: then the list itself. */
+let answers: Array<'network' | 500 | 403> = [];
+let asked = 0;
+
+const server = setupServer(
+  http.get('*/api/auth/me', () => HttpResponse.json(me)),
+  http.get('*/api/sites', () => HttpResponse.json({ items: [], total: 0, page: 1, pageSize: 100 })),
+  http.get('*/api/findings', () => {
+    asked += 1;
+    const next = answers.shift();
+    if (next === 'network') return HttpResponse.error();
+    if (next === 500)
+      return HttpResponse.json({ error: { code: 'internal', message: 'Something went wrong on the server.' } }, { status: 500 });
+    if (next === 403)
+      return HttpResponse.json({ error: { code: 'forbidden', message: 'Your role may not do that.' } }, { status: 403 });
+    return HttpResponse.json({ items: [finding], total: 1, page: 1, pageSize: 25 });
+  }),
+);
+
+beforeAll(() => server.listen({ onUnhandledRequest: 'error' }));
+afterEach(() => {
+  cleanup();
+  answers = [];
+  asked = 0;
+});
+afterAll(() => server.close());
+
+function show() {
+  const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
+  qc.setQueryData(['auth', 'me'], me);
+  const router = createMemoryRouter([{ path: '*', element: <FindingsPage /> }], { initialEntries: ['/findings'] });
+  render(
+    <QueryClientProvider client={qc}>
+      <RouterProvider router={router} />
+    </QueryClientProvider>,
+  );
+}
+
+describe('a list that could not load', () => {
+  it('says there was no connection and loads again from its own button, without reloading the app', async () => {
+    answers = ['network'];
+    show();
+    const alert = await screen.findByRole('alert');
+    expect(alert.textContent).toBe('That did not workCould not reach Rholog. Check the connection and try again.Try again');
+    expect(asked).toBe(1);
+    fireEvent.click(screen.getByRole('button', { name: 'Try again' }));
+    expect(await screen.findByText('finding 7 route words')).toBeTruthy();
+    expect(asked).toBe(2);
+    expect(screen.queryByRole('alert')).toBeNull();
+  });
+
+  it('offers to try again after the server failed, and keeps the notice while the second try fails too', async () => {
+    answers = [500, 'network'];
+    show();
+    await screen.findByText('Something went wrong on the server.');
+    fireEvent.click(screen.getByRole('button', { name: 'Try again' }));
+    expect(await screen.findByText('Could not reach Rholog. Check the connection and try again.')).toBeTruthy();
+    expect(asked).toBe(2);
+    expect((screen.getByRole('button', { name: 'Try again' }) as HTMLButtonElement).disabled).toBe(false);
+  });
+
+  it('does not offer to try again what the server refused', async () => {
+    answers = [403];
+    show();
+    await screen.findByText('Your role may not do that.');
+    expect(screen.queryByRole('button', { name: 'Try again' })).toBeNull();
+  });
+});
