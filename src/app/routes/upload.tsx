@@ -190,6 +190,7 @@ export function UploadPage() {
                 multiple
                 accept=".csv,text/csv,text/comma-separated-values,application/vnd.ms-excel"
                 className="sr-only"
+                tabIndex={-1}
                 aria-label="Trace files"
                 onChange={(e) => (addFiles(e.target.files), (e.target.value = ''))}
               />

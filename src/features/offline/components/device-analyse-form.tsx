@@ -199,6 +199,7 @@ export function DeviceAnalyseForm({ unit, onAnalysed }: { unit: LengthUnit; onAn
           type="file"
           accept=".csv,text/csv,text/comma-separated-values,application/vnd.ms-excel"
           className="sr-only"
+          tabIndex={-1}
           aria-label="Trace file"
           onChange={(e) => (setFile(e.target.files?.[0] ?? null), (e.target.value = ''))}
         />

@@ -1,0 +1,50 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { PHONE, signIn, startE2E, type E2E } from './support/browser';
+
+/** Forms on a phone: what a sent form that cannot be taken, and the keyboard, do. */
+let e2e: E2E;
+beforeAll(async () => {
+  e2e = await startE2E();
+});
+afterAll(async () => {
+  await e2e?.stop();
+});
+
+/** The focused element's accessible label (its <label>, else aria-label, else its text). */
+const focused = (page: Page) =>
+  page.evaluate(() => {
+    const a = document.activeElement as HTMLElement & { labels?: NodeListOf<HTMLLabelElement> };
+    return (a.labels?.[0]?.textContent ?? a.getAttribute('aria-label') ?? a.textContent ?? '').trim();
+  });
+
+describe('forms on a phone', () => {
+  it('takes the planner to the first field to fix when a new cable type is sent from the bottom of the form', async () => {
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'planner@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/cables/new`);
+    await page.getByLabel('Velocity factor').fill('1.4');
+    const send = page.getByRole('button', { name: 'Add to the library' });
+    await send.scrollIntoViewIfNeeded();
+    await send.click();
+    await page.getByText('must be at most 1 (nothing is faster than light)').waitFor();
+    await page.waitForFunction(() => document.activeElement?.getAttribute('aria-invalid') === 'true');
+    expect(await focused(page)).toBe('Name');
+    // In sight, below the bar at the top of the screen.
+    const box = (await page.getByLabel('Name').boundingBox())!;
+    const header = (await page.locator('header').first().boundingBox())!;
+    expect(box.y).toBeGreaterThanOrEqual(header.y + header.height);
+    expect(box.y + box.height).toBeLessThanOrEqual(PHONE.height);
+  });
+
+  it('goes from the file button straight to the instrument settings with the keyboard: the hidden file field is no stop of its own', async () => {
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'tech@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/upload`);
+    await page.getByRole('button', { name: 'Choose trace files' }).focus();
+    await page.keyboard.press('Tab');
+    expect(await focused(page)).toBe('3. Instrument settings (optional)');
+  });
+});
