@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
+import { stepTraceCsv } from '../support/step-trace';
 import { PHONE, signIn, startE2E, type E2E } from './support/browser';
 
 /** Forms on a phone: what a sent form that cannot be taken, and the keyboard, do. */
@@ -18,7 +19,7 @@ const focused = (page: Page) =>
     return (a.labels?.[0]?.textContent ?? a.getAttribute('aria-label') ?? a.textContent ?? '').trim();
   });
 
-describe('forms on a phone', () => {
+describe('forms and long names on a phone', () => {
   it('takes the planner to the first field to fix when a new cable type is sent from the bottom of the form', async () => {
     const page = await e2e.newPage(PHONE);
     await signIn(page, e2e.baseUrl, 'planner@example.com');
@@ -46,5 +47,29 @@ describe('forms on a phone', () => {
     await page.getByRole('button', { name: 'Choose trace files' }).focus();
     await page.keyboard.press('Tab');
     expect(await focused(page)).toBe('3. Instrument settings (optional)');
+  });
+
+  it('keeps a long file name with no spaces inside the width of the phone, on the upload form and on the trace it makes', async () => {
+    const name = 'HN3_feeder_from_substation_bay3_2026-12-03_pulse_10ns_gain_x4_final_v2_reviewed.csv';
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'tech@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/upload`);
+    await page.getByLabel('Site').selectOption({ label: 'Brookfold pumping station' });
+    await page.getByLabel('Cable run').selectOption({ label: 'Radio mast feeder BF-R1' });
+    await page.getByRole('button', { name: /End A/ }).click();
+    await page
+      .getByLabel('Trace files')
+      .setInputFiles({ name, mimeType: 'text/csv', buffer: Buffer.from(stepTraceCsv({ faultM: 60, vf: 0.66, samples: 4000 })) });
+    await page.getByRole('button', { name: `Remove ${name}` }).waitFor();
+    const width = () => page.evaluate(() => document.documentElement.scrollWidth);
+    expect(await width()).toBe(PHONE.width);
+    const send = page.getByRole('button', { name: 'Upload and analyse' });
+    expect((await send.boundingBox())!.width).toBeLessThan(PHONE.width);
+    await send.click();
+    await page.getByRole('heading', { level: 1, name }).waitFor();
+    expect(await width()).toBe(PHONE.width);
+    const title = (await page.getByRole('heading', { level: 1, name }).boundingBox())!;
+    expect(title.x + title.width).toBeLessThanOrEqual(PHONE.width);
   });
 });

@@ -27,7 +27,7 @@ export function AccountPage() {
           You signed in with a temporary password. Set one of your own below.
         </Notice>
       )}
-      <div className="grid gap-4 md:grid-cols-2">
+      <div className="grid grid-cols-1 gap-4 md:grid-cols-2">
         <Card title="Units">
           <SelectField
             label="Show lengths in"

@@ -51,7 +51,7 @@ export function AdminUsersPage() {
             : 'No open repair names them.'}
         </Notice>
       )}
-      <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
         <Card title="People" className="min-w-0">
           <TextField label="Search by name or e-mail" value={q} onChange={(e) => (setQ(e.target.value), setPage(1))} />
           {users.isPending ? (

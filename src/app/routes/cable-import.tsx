@@ -38,7 +38,7 @@ export function CableImportPage() {
   return (
     <>
       <PageHeader title="Import the cable library" subtitle="Check a CSV row by row before anything is written; the import writes every row or none." />
-      <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
         <Card title="1. Choose the file" className="min-w-0">
           <label className="block text-sm font-semibold text-ink-soft" htmlFor="cable-csv">
             CSV file

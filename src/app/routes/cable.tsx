@@ -89,7 +89,7 @@ export function CablePage() {
           </>
         }
       />
-      <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="min-w-0 space-y-4">
           <Card title={editing ? 'Edit the entry' : 'Values'}>
             {editing ? (

@@ -109,7 +109,7 @@ export function DashboardPage() {
           {v.accuracy.length === 0 ? (
             <p className="text-sm text-mist">No close-outs yet. Each repair's found position is compared with the reading here.</p>
           ) : (
-            <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
+            <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
               <AccuracyChart rows={v.accuracy} unit={unit} />
               <div className="overflow-x-auto">
                 <table className="w-full text-left text-sm tabular">

@@ -34,7 +34,7 @@ export function DeviceAnalysePage() {
           )
         }
       />
-      <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="space-y-4">
           {id && !item && (
             <Notice tone="info" title="That trace is no longer on this phone">

@@ -38,7 +38,7 @@ export function DevicePage() {
           </Link>
         }
       />
-      <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="space-y-4">
           <Card
             title={`Waiting to send (${d.waiting.length})`}

@@ -98,7 +98,7 @@ export function HomePage() {
   return (
     <>
       <PageHeader title={`Hello, ${user.name.split(' ')[0]}`} subtitle={`Signed in as ${ROLE_LABELS[user.role].toLowerCase()}.`} />
-      <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
         <div className="space-y-4">
           {can('traces:upload') && (
             // Without signal the upload cannot reach the server: the big button goes where a trace can be read now.

@@ -41,7 +41,7 @@ export function SitePage() {
           </>
         }
       />
-      <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
         <div className="space-y-4">
           {editing && (
             <Card title="Edit site">

@@ -18,7 +18,7 @@ export function SitesPage() {
   return (
     <>
       <PageHeader title="Sites" subtitle="Where the cables are, who is responsible, and how to get in." />
-      <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
         <Card>
           <TextField label="Search by name or address" value={q} onChange={(e) => (setQ(e.target.value), setPage(1))} />
           {sites.isPending ? (

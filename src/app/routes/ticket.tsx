@@ -154,7 +154,7 @@ export function TicketPage() {
           {failing[0] ? `${failing[0].lastError} — ` : ''}Rholog keeps trying; the ticket itself is saved. Tell the people concerned another way if it is urgent.
         </Notice>
       )}
-      <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="min-w-0 space-y-4">
           <Card title="Where to dig">
             <div className="space-y-3">

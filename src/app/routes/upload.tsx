@@ -129,7 +129,7 @@ export function UploadPage() {
   return (
     <>
       <PageHeader title="Upload a trace" subtitle="Choose where you measured from, add the CSV from the instrument, and read where the fault is." />
-      <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
+      <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <form onSubmit={submit} className="space-y-4" aria-label="Upload traces">
           {!online && (
             <div data-testid="upload-offline">
@@ -199,7 +199,7 @@ export function UploadPage() {
               <ul className="mt-3 divide-y divide-rule rounded-md border border-rule">
                 {files.map((f) => (
                   <li key={f.name + f.size} className="flex items-center justify-between gap-2 px-3 py-2 text-sm">
-                    <span className="truncate font-semibold">{f.name}</span>
+                    <span className="min-w-0 truncate font-semibold">{f.name}</span>
                     <span className="flex items-center gap-2 text-mist tabular">
                       {formatFileSize(f.size)}
                       <Button variant="ghost" aria-label={`Remove ${f.name}`} onClick={() => setFiles(files.filter((x) => x !== f))}>

@@ -17,7 +17,7 @@ export function Card({ title, actions, children, className = '' }: { title?: Rea
 export function PageHeader({ title, subtitle, actions }: { title: ReactNode; subtitle?: ReactNode; actions?: ReactNode }) {
   return (
     <header className="mb-5 flex flex-wrap items-end justify-between gap-3">
-      <div>
+      <div className="min-w-0 max-w-full">
         <h1 className="text-2xl font-bold leading-tight">{title}</h1>
         {subtitle && <p className="mt-1 text-sm text-ink-soft">{subtitle}</p>}
       </div>

@@ -98,7 +98,7 @@ export function CableCalculator({ unit, onUse }: { unit: LengthUnit; onUse?: (en
           </a>
         ))}
       </nav>
-      <div className="grid gap-4 xl:grid-cols-2">
+      <div className="grid grid-cols-1 gap-4 xl:grid-cols-2">
         <CalcCard
           id="calc-card-dielectric"
           title="From the dielectric"

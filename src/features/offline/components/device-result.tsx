@@ -213,7 +213,7 @@ export function DeviceResult({
         </Notice>
       )}
       {item.analysis && (
-        <div className="grid gap-4 lg:grid-cols-[3fr_2fr]">
+        <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
           {selected ? (
             <Card
               title={`Event ${selected.index + 1}: ${TYPE_WORDS[selected.type]}${run && atFarEnd(selected, run.installedLengthM) ? ' (far end of the run)' : ''}`}
