@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { stepTraceCsv } from '../support/step-trace';
+import { Ticket } from '../../server/db/models';
 import { PHONE, signIn, startE2E, type E2E } from './support/browser';
 
 /** Forms on a phone: what a sent form that cannot be taken, and the keyboard, do. */
@@ -71,5 +72,20 @@ describe('forms and long names on a phone', () => {
     expect(await width()).toBe(PHONE.width);
     const title = (await page.getByRole('heading', { level: 1, name }).boundingBox())!;
     expect(title.x + title.width).toBeLessThanOrEqual(PHONE.width);
+  });
+
+  it('fits the close-out table of readings against the dig on a phone, its last column in sight', async () => {
+    const ticket = (await Ticket.findOne({ where: { status: 'fixed' } }))!;
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/tickets/${ticket.id}`);
+    const table = page.getByTestId('method-scores');
+    await table.waitFor();
+    const [tableWidth, boxWidth] = await table.evaluate((el) => [el.scrollWidth, el.parentElement!.clientWidth]);
+    expect(tableWidth).toBeLessThanOrEqual(boxWidth);
+    const last = (await table.getByRole('columnheader', { name: 'In window' }).boundingBox())!;
+    expect(last.x + last.width).toBeLessThanOrEqual(PHONE.width - 16);
+    expect(await table.locator('tbody tr').first().locator('td').last().textContent()).toMatch(/^(yes|no)$/);
   });
 });

@@ -10,18 +10,19 @@ export function MethodScores({ scores, unit }: { scores: MethodScoreView[]; unit
         <thead className="text-xs uppercase text-mist">
           <tr>
             <th className="py-1">Reading</th>
-            <th className="whitespace-nowrap text-right">Located</th>
+            <th className="pl-2 text-right">Located</th>
             <th className="whitespace-nowrap text-right">Found</th>
             <th className="whitespace-nowrap text-right">Miss</th>
-            <th className="whitespace-nowrap text-right">In window</th>
+            <th className="pl-2 text-right">In window</th>
           </tr>
         </thead>
         <tbody>
           {scores.map((s) => (
             <tr key={`${s.method}-${s.label}`} className={`border-t border-rule ${s.method === 'best-location' ? 'font-semibold' : ''}`}>
               <td className="py-1">{s.label}</td>
-              <td className="whitespace-nowrap pl-2 text-right">
-                {formatLength(s.locatedFromEndM, unit)} from {s.fromEnd}
+              {/* The length and its end may go on two lines: on a phone the whole table then fits, "In window" included. */}
+              <td className="pl-2 text-right">
+                <span className="whitespace-nowrap">{formatLength(s.locatedFromEndM, unit)}</span> <span className="whitespace-nowrap">from {s.fromEnd}</span>
               </td>
               <td className="whitespace-nowrap pl-2 text-right">{formatLength(s.foundFromEndM, unit)}</td>
               <td className="whitespace-nowrap pl-2 text-right">{formatSignedLength(s.errorM, unit)}</td>
