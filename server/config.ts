@@ -62,6 +62,7 @@ const EnvSchema = z.object({
   PASSWORD_CHANGE_MAX_FAILS: z.coerce.number().int().positive().default(5),
   SESSION_IDLE_HOURS: z.coerce.number({ error: 'must be a number of hours' }).positive('must be more than 0').max(24 * 30).default(12),
   SESSION_MAX_DAYS: z.coerce.number({ error: 'must be a number of days' }).positive('must be more than 0').max(365).default(7),
+  SESSIONS_PER_USER: z.coerce.number({ error: 'must be a whole number from 1 to 100' }).int('must be a whole number from 1 to 100').min(1, 'must be a whole number from 1 to 100').max(100, 'must be a whole number from 1 to 100').default(10),
   SCRYPT_COST: z.coerce
     .number({ error: 'must be a power of two from 1024 to 1048576' })
     .int('must be a power of two from 1024 to 1048576')
@@ -126,6 +127,8 @@ export interface AppConfig {
   /** Wrong current passwords on the change-password route per account per login window. */
   passwordChangeMaxFails: number;
   session: { idleMs: number; absoluteMs: number };
+  /** Sessions one account may hold at once; a sign-in beyond this ends the account's oldest. */
+  sessionsPerUser: number;
   /** scrypt's N (CPU/memory cost) for new password hashes; stored hashes keep their own. */
   scryptCost: number;
   logLevel: 'fatal' | 'error' | 'warn' | 'info' | 'debug' | 'trace' | 'silent';
@@ -182,6 +185,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     },
     passwordChangeMaxFails: e.PASSWORD_CHANGE_MAX_FAILS,
     session: { idleMs: Math.round(e.SESSION_IDLE_HOURS * 3_600_000), absoluteMs: Math.round(e.SESSION_MAX_DAYS * 86_400_000) },
+    sessionsPerUser: e.SESSIONS_PER_USER,
     scryptCost: e.SCRYPT_COST,
     logLevel: e.LOG_LEVEL,
     storageUrl: e.STORAGE_URL,

@@ -26,7 +26,9 @@ export type SecurityEvent =
   | 'admin-created'
   | 'calibration-own-accepted'
   | 'finding-reversed'
-  | 'session-expired';
+  | 'session-expired'
+  | 'sessions-ended-over-cap'
+  | 'session-ended-by-owner';
 
 /** Failures and refusals are warnings; changes made on purpose are information. */
 const WARNINGS: ReadonlySet<SecurityEvent> = new Set([

@@ -12,6 +12,7 @@ import { currentUser } from './guards';
 import { assertStrongPassword } from './password-strength';
 import { WRONG_CREDENTIALS } from './passport';
 import { hashPassword, verifyPassword } from './passwords';
+import { capSessions, deviceOf, endOwnSession, listOwnSessions } from './own-sessions';
 import { limitStore } from './shared-limit-store';
 import { signInLimits } from './sign-in-limits';
 
@@ -76,11 +77,21 @@ export function authRoutes(ctx: AppContext, deps: { passport: PassportStatic; cs
         const now = Date.now();
         req.session.signedInAt = now;
         req.session.lastSeenAt = now;
-        User.findByPk(user.id)
-          .then((u) => {
-            res.json({ user: u!.toPublic(), csrfToken: deps.csrf.token(req, res, true) });
-          })
-          .catch(next);
+        req.session.device = deviceOf(req.get('user-agent')) ?? undefined;
+        req.session.address = req.ip;
+        // The new session is stored before the account's oldest are ended beyond the cap, so it is counted as the newest.
+        req.session.save((saveErr) => {
+          if (saveErr) return next(saveErr);
+          capSessions(ctx.sequelize, user.id, req.sessionID, ctx.config.sessionsPerUser)
+            .then((ended) => {
+              if (ended) ctx.security('sessions-ended-over-cap', { userId: user.id, ip: req.ip, ended, cap: ctx.config.sessionsPerUser });
+              return User.findByPk(user.id);
+            })
+            .then((u) => {
+              res.json({ user: u!.toPublic(), csrfToken: deps.csrf.token(req, res, true) });
+            })
+            .catch(next);
+        });
       });
     })(req, res, next);
   });
@@ -111,6 +122,30 @@ export function authRoutes(ctx: AppContext, deps: { passport: PassportStatic; cs
       if (!user) throw AppError.unauthenticated();
       await user.update(body);
       return user.toPublic();
+    }),
+  );
+
+  // The account's own sessions (browsers, phones): where it is signed in, and a way to end one left signed in elsewhere.
+  r.get(
+    '/sessions',
+    'signed-in',
+    handle(async (req) => ({
+      sessions: await listOwnSessions(currentUser(req).id, req.sessionID, ctx.config.session.absoluteMs),
+      cap: ctx.config.sessionsPerUser,
+    })),
+  );
+
+  r.delete(
+    '/sessions/:id',
+    'signed-in',
+    handle(async (req) => {
+      const userId = currentUser(req).id;
+      const outcome = await endOwnSession(ctx.sequelize, userId, req.sessionID, String(req.params.id));
+      if (outcome === 'not-found') throw new AppError(404, 'not_found', 'That session has already ended.');
+      if (outcome === 'current')
+        throw new AppError(409, 'current_session', 'This is the session you are using: sign out to end it.');
+      ctx.security('session-ended-by-owner', { userId, ip: req.ip });
+      return { ok: true };
     }),
   );
 

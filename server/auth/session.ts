@@ -15,6 +15,10 @@ declare module 'express-session' {
     signedInAt?: number;
     /** The last time the idle clock was moved on (ms since the epoch), at most once a minute. */
     lastSeenAt?: number;
+    /** Browser and system at sign-in ("Firefox on Android"), shown on the account page's list of sessions. */
+    device?: string;
+    /** The address the sign-in came from. */
+    address?: string;
     passport?: { user?: number };
   }
 }

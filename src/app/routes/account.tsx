@@ -3,6 +3,8 @@ import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
 import { fieldErrors, SelectField, TextField } from '../../components/ui/field';
 import { Notice } from '../../components/ui/notice';
+import { formatAge, formatDateTime } from '../../lib/format';
+import { useEndOwnSession, useOwnSessions } from '../../features/auth/api/own-sessions';
 import { useChangePassword, useUpdateMe } from '../../features/auth/api/update-me';
 import { useSession } from '../../features/auth/use-session';
 
@@ -50,8 +52,49 @@ export function AccountPage() {
             </Button>
           </form>
         </Card>
+        <SignedInElsewhere />
       </div>
     </>
+  );
+}
+
+/** Where the account is signed in (browsers, phones), newest first, with a way to end one left signed in elsewhere. */
+function SignedInElsewhere() {
+  const sessions = useOwnSessions();
+  const end = useEndOwnSession();
+  return (
+    <Card title="Where you are signed in">
+      {sessions.error && <Notice tone="danger">{sessions.error.message}</Notice>}
+      {sessions.data && (
+        <>
+          <ul className="divide-y divide-rule" data-testid="own-sessions">
+            {sessions.data.sessions.map((s) => (
+              <li key={s.id} className="flex items-center justify-between gap-3 py-2">
+                <div className="text-sm">
+                  <div className="font-semibold">
+                    {s.device ?? 'Unknown browser'}
+                    {s.current && <span className="ml-2 text-xs font-normal text-mist">(this one)</span>}
+                  </div>
+                  <div className="text-xs text-mist">
+                    Signed in {s.signedInAt ? formatDateTime(s.signedInAt) : '—'}
+                    {s.address ? ` from ${s.address}` : ''} · last used {formatAge(s.lastSeenAt)}
+                  </div>
+                </div>
+                {!s.current && (
+                  <Button variant="secondary" disabled={end.isPending} onClick={() => end.mutate(s.id)}>
+                    Sign out there
+                  </Button>
+                )}
+              </li>
+            ))}
+          </ul>
+          {end.error && <Notice tone="danger">{end.error.message}</Notice>}
+          <p className="mt-2 text-xs text-mist">
+            An account keeps at most {sessions.data.cap} sessions: signing in on one more ends the oldest.
+          </p>
+        </>
+      )}
+    </Card>
   );
 }
 export default AccountPage;
