@@ -14,7 +14,7 @@ import { WRONG_CREDENTIALS } from './passport';
 import { hashPassword, verifyPassword } from './passwords';
 import { capSessions, deviceOf, endOwnSession, listOwnSessions } from './own-sessions';
 import { limitStore } from './shared-limit-store';
-import { signInLimits } from './sign-in-limits';
+import { signInLimits, type SignInOutcome } from './sign-in-limits';
 
 export function authRoutes(ctx: AppContext, deps: { passport: PassportStatic; csrf: Csrf }) {
   const r = new ApiRouter('/api/auth');
@@ -61,16 +61,26 @@ export function authRoutes(ctx: AppContext, deps: { passport: PassportStatic; cs
     }),
   );
 
-  r.post('/login', 'public', ...signInLimits(ctx.config.login, ctx.security, (prefix) => limitStore(ctx.sequelize, prefix)), (req, res, next) => {
+  const signInGate = signInLimits(
+    ctx.config.login,
+    ctx.security,
+    (prefix) => limitStore(ctx.sequelize, prefix),
+    (message, err) => ctx.logger.warn({ err }, message),
+  );
+
+  r.post('/login', 'public', ...signInGate, (req, res, next) => {
     req.body = LoginSchema.parse(req.body);
     const email = (req.body as { email: string }).email;
     deps.passport.authenticate('local', (err: unknown, user: Express.User | false, info?: { message?: string; reason?: string }) => {
       if (err) return next(err);
+      const outcome = res.locals as SignInOutcome;
       if (!user) {
+        outcome.signInSettled?.(true);
         ctx.security('sign-in-failed', { email, ip: req.ip, reason: info?.reason ?? 'wrong credentials' });
         res.status(401).json({ error: { code: 'wrong_credentials', message: info?.message ?? WRONG_CREDENTIALS } });
         return;
       }
+      outcome.signInSettled?.(false);
       // passport 0.7 regenerates the session id on logIn (session fixation defence).
       req.logIn(user, (loginErr) => {
         if (loginErr) return next(loginErr);

@@ -1,6 +1,6 @@
-import type { Request, RequestHandler } from 'express';
-import { ipKeyGenerator, rateLimit, type Store } from 'express-rate-limit';
-import { slowDown } from 'express-slow-down';
+import type { Request, RequestHandler, Response } from 'express';
+import { Mutex, Semaphore } from 'async-mutex';
+import { ipKeyGenerator, MemoryStore, type Options, type Store } from 'express-rate-limit';
 import type { AppConfig } from '../config';
 import type { SecurityLog } from '../log';
 
@@ -17,14 +17,50 @@ export function signInDelayMs(failures: number, limits: Pick<LoginLimits, 'slowA
   return Math.min(limits.maxDelayMs, limits.delayMs * 2 ** Math.min(over, 30));
 }
 
-const accountOf = (req: Request) => String((req.body as { email?: unknown } | undefined)?.email ?? '').trim().toLowerCase();
+/** "Try again in 1 minute." (any wait up to a minute) / "… in 14 minutes." for a wait of `seconds`, rounded up. */
+export function retryWords(seconds: number): string {
+  const minutes = Math.max(1, Math.ceil(seconds / 60));
+  return `Try again in ${minutes} minute${minutes === 1 ? '' : 's'}.`;
+}
+
+/**
+ * Sign-in tries from one address that are checked at the same time (in this process). Tries beyond it wait their
+ * turn, they are not refused; it bounds how far a burst of wrong passwords sent together can overshoot the address
+ * limit (by at most this many less one) while a crew signing in together is hardly held up.
+ */
+export const ADDRESS_TRIES_AT_ONCE = 4;
+
+const accountOf = (req: Request) =>
+  String((req.body as { email?: unknown } | undefined)?.email ?? '')
+    .trim()
+    .toLowerCase();
 const addressOf = (req: Request) => ipKeyGenerator(req.ip ?? '');
 
-function refuse(security: SecurityLog, scope: 'address' | 'account-and-address', message: string): RequestHandler {
-  return (req, res) => {
-    security('sign-in-limited', { scope, email: accountOf(req), ip: req.ip });
-    res.status(429).json({ error: { code: 'too_many_attempts', message } });
-  };
+/** Per-key locks that are dropped again when nobody holds or waits for them, so the map stays as small as the traffic. */
+class KeyedLocks<L extends Mutex | Semaphore> {
+  private readonly held = new Map<string, { lock: L; users: number }>();
+  constructor(private readonly make: () => L) {}
+  async acquire(key: string): Promise<() => void> {
+    let entry = this.held.get(key);
+    if (!entry) this.held.set(key, (entry = { lock: this.make(), users: 0 }));
+    entry.users++;
+    // A Mutex hands back its release function, a Semaphore [value, release].
+    const got = (await entry.lock.acquire()) as (() => void) | [number, () => void];
+    const release = typeof got === 'function' ? got : got[1];
+    const e = entry;
+    let done = false;
+    return () => {
+      if (done) return;
+      done = true;
+      release();
+      if (--e.users === 0 && this.held.get(key) === e) this.held.delete(key);
+    };
+  }
+}
+
+/** Locals the sign-in route calls once it knows how the try ended (see `signInLimits`). */
+export interface SignInOutcome {
+  signInSettled?: (failed: boolean) => void;
 }
 
 /**
@@ -37,48 +73,101 @@ function refuse(security: SecurityLog, scope: 'address' | 'account-and-address',
  * - one account from anywhere: never locked, only slowed down (a growing delay, capped),
  *   so the owner signing in from their own address still gets in while another address guesses.
  *
- * Only failures count: a crew signing in all morning from one depot address is never held up.
+ * Only failures count, and only once they have happened: a try is checked against the failures so far, and counted
+ * when its answer is known (a 4xx). Tries still under way count for nothing, so a crew signing in together from one
+ * depot address is never told to wait. So that wrong passwords sent all at once cannot all slip past the check
+ * before any of them is counted, tries on one account from one address go one after another (the pair limit is
+ * exact), and at most `ADDRESS_TRIES_AT_ONCE` tries from one address are checked at once. With several instances on
+ * one database these turns are per instance. A refusal is a 429 that says when to try again (`Retry-After` and
+ * `retryAfterSeconds`).
+ *
+ * The route calls `res.locals.signInSettled(failed)` when it knows the outcome; an answer sent without it (a
+ * malformed body) is counted by its status.
  */
-export function signInLimits(limits: LoginLimits, security: SecurityLog, storeFor: (prefix: string) => Store | undefined = () => undefined): RequestHandler[] {
-  const store = (prefix: string) => {
-    const s = storeFor(prefix);
-    return s ? { store: s } : {};
+export function signInLimits(
+  limits: LoginLimits,
+  security: SecurityLog,
+  storeFor: (prefix: string) => Store | undefined = () => undefined,
+  warn: (message: string, err: unknown) => void = () => {},
+): RequestHandler[] {
+  const counter = (prefix: string): Store => {
+    const store = storeFor(prefix) ?? new MemoryStore();
+    store.init?.({ windowMs: limits.windowMs } as Options);
+    return store;
   };
-  const minutes = Math.max(1, Math.round(limits.windowMs / 60_000));
-  const wait = `Wait ${minutes} minute${minutes === 1 ? '' : 's'} and try again.`;
-  const perAddress = rateLimit({
-    windowMs: limits.windowMs,
-    limit: limits.maxPerAddress,
-    skipSuccessfulRequests: true,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    keyGenerator: (req) => `addr:${addressOf(req)}`,
-    ...store('signin-address:'),
-    handler: refuse(security, 'address', `Too many failed sign-ins from this address. ${wait}`),
-  });
-  const perPair = rateLimit({
-    windowMs: limits.windowMs,
-    limit: limits.maxPerPair,
-    skipSuccessfulRequests: true,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    keyGenerator: (req) => `pair:${accountOf(req)}|${addressOf(req)}`,
-    ...store('signin-pair:'),
-    handler: refuse(security, 'account-and-address', `Too many failed sign-ins for this account from this address. ${wait}`),
-  });
-  const perAccount = slowDown({
-    windowMs: limits.windowMs,
-    delayAfter: limits.slowAfter,
-    skipSuccessfulRequests: true,
-    keyGenerator: (req) => `acct:${accountOf(req)}`,
-    ...store('signin-account:'),
-    // `used` counts this try too: the failures before it are one fewer.
-    delayMs: (used: number, req: Request) => {
-      const delayMs = signInDelayMs(used - 1, limits);
-      if (delayMs > 0) security('sign-in-slowed', { email: accountOf(req), ip: req.ip, failures: used - 1, delayMs });
-      return delayMs;
-    },
-    maxDelayMs: limits.maxDelayMs,
-  });
-  return [perAddress, perPair, perAccount];
+  const perAddress = counter('signin-address:');
+  const perPair = counter('signin-pair:');
+  const perAccount = counter('signin-account:');
+  const pairTurns = new KeyedLocks(() => new Mutex());
+  const addressTurns = new KeyedLocks(() => new Semaphore(ADDRESS_TRIES_AT_ONCE));
+
+  const failures = async (store: Store, key: string) => {
+    const info = await store.get?.(key);
+    return info && (!info.resetTime || info.resetTime.getTime() > Date.now()) ? info : undefined;
+  };
+
+  const refuse = (req: Request, res: Response, scope: 'address' | 'account-and-address', what: string, resetTime: Date | undefined) => {
+    const seconds = Math.max(1, Math.ceil(((resetTime?.getTime() ?? Date.now() + limits.windowMs) - Date.now()) / 1000));
+    security('sign-in-limited', { scope, email: accountOf(req), ip: req.ip, retryAfterSeconds: seconds });
+    res.setHeader('retry-after', String(seconds));
+    res.status(429).json({ error: { code: 'too_many_attempts', message: `${what} ${retryWords(seconds)}`, retryAfterSeconds: seconds } });
+  };
+
+  const gate: RequestHandler = (req, res, next) => {
+    const account = accountOf(req);
+    const address = addressOf(req);
+    const pairKey = `pair:${account}|${address}`;
+    const addressKey = `addr:${address}`;
+    const accountKey = `acct:${account}`;
+    void (async () => {
+      // Always the pair's turn first, then the address's: one order, so no two tries wait on each other.
+      const releasePair = await pairTurns.acquire(pairKey);
+      const releaseAddress = await addressTurns.acquire(addressKey);
+      const release = () => {
+        releaseAddress();
+        releasePair();
+      };
+      try {
+        const byAddress = await failures(perAddress, addressKey);
+        if (byAddress && byAddress.totalHits >= limits.maxPerAddress) {
+          release();
+          return refuse(req, res, 'address', 'Too many failed sign-ins from this address.', byAddress.resetTime);
+        }
+        const byPair = await failures(perPair, pairKey);
+        if (byPair && byPair.totalHits >= limits.maxPerPair) {
+          release();
+          return refuse(req, res, 'account-and-address', 'Too many failed sign-ins for this account from this address.', byPair.resetTime);
+        }
+        const byAccount = (await failures(perAccount, accountKey))?.totalHits ?? 0;
+        const delayMs = signInDelayMs(byAccount, limits);
+        if (delayMs > 0) {
+          security('sign-in-slowed', { email: account, ip: req.ip, failures: byAccount, delayMs });
+          await new Promise((resolve) => setTimeout(resolve, delayMs));
+        }
+      } catch (err) {
+        release();
+        return next(err);
+      }
+
+      let settled = false;
+      const settle = (failed: boolean) => {
+        if (settled) return;
+        settled = true;
+        const counted = failed ? Promise.all([perAddress.increment(addressKey), perPair.increment(pairKey), perAccount.increment(accountKey)]) : Promise.resolve();
+        // The next try of this pair is checked only once this failure is counted.
+        counted.then(release, (err: unknown) => {
+          release();
+          warn('a failed sign-in could not be counted', err);
+        });
+      };
+      (res.locals as SignInOutcome).signInSettled = settle;
+      res.on('finish', () => settle(res.statusCode >= 400 && res.statusCode < 500));
+      // A visitor who hangs up does not keep the turn; their try is still counted when the route settles it.
+      res.on('close', () => {
+        if (!res.writableFinished) release();
+      });
+      next();
+    })().catch(next);
+  };
+  return [gate];
 }

@@ -29,7 +29,8 @@ describe('failed sign-ins on one account from one address', () => {
     const locked = await signInFrom(attacker, '203.0.113.10', 'supervisor.test@example.com', TEST_PASSWORD).expect(429);
     expect(locked.body.error).toEqual({
       code: 'too_many_attempts',
-      message: 'Too many failed sign-ins for this account from this address. Wait 1 minute and try again.',
+      message: 'Too many failed sign-ins for this account from this address. Try again in 1 minute.',
+      retryAfterSeconds: Number(locked.headers['retry-after']),
     });
     const owner = await api.anonymous();
     const ok = await signInFrom(owner, '198.51.100.7', 'supervisor.test@example.com', TEST_PASSWORD).expect(200);
@@ -67,8 +68,39 @@ describe('failed sign-ins from one address', () => {
       await signInFrom(c, '192.0.2.44', `nobody${i}@example.com`, 'wrong', `10.9.8.${i}`).expect(401);
     }
     const res = await signInFrom(c, '192.0.2.44', 'nobody9@example.com', 'wrong', '10.9.8.99').expect(429);
-    expect(res.body.error.message).toBe('Too many failed sign-ins from this address. Wait 1 minute and try again.');
+    expect(res.body.error.message).toBe('Too many failed sign-ins from this address. Try again in 1 minute.');
     expect(log.security('sign-in-failed').filter((l) => l.ip === '192.0.2.44')).toHaveLength(6);
     expect(log.security('sign-in-limited').filter((l) => l.ip === '192.0.2.44')).toEqual([expect.objectContaining({ scope: 'address' })]);
+  });
+});
+
+describe('sign-ins under way', () => {
+  it('do not count against the limits: a burst of right passwords from one address all get in', async () => {
+    // A crew behind one depot address signs in at the start of the shift, all at once: 12 right passwords in flight
+    // together from one address (the address limit here is 6 failures, the pair limit 3).
+    const roles = ['technician', 'supervisor', 'planner', 'admin'] as const;
+    const clients = await Promise.all(Array.from({ length: 12 }, () => api.anonymous()));
+    const answers = await Promise.all(clients.map((c, i) => signInFrom(c, '192.0.2.77', `${roles[i % 4]}.test@example.com`, TEST_PASSWORD)));
+    expect(answers.map((r) => r.status)).toEqual(Array(12).fill(200));
+    expect(log.security('sign-in-limited').filter((l) => l.ip === '192.0.2.77')).toEqual([]);
+  });
+
+  it('and failures in flight together are still limited, with the time to wait in the answer', async () => {
+    const clients = await Promise.all(Array.from({ length: 10 }, () => api.anonymous()));
+    const answers = await Promise.all(clients.map((c, i) => signInFrom(c, '192.0.2.78', 'planner.test@example.com', `wrong-${i}`)));
+    // Tries on one account from one address are checked one after another: 3 failures, then the pair is locked.
+    expect(answers.map((r) => r.status).sort()).toEqual([...Array(3).fill(401), ...Array(7).fill(429)]);
+    const refused = answers.find((r) => r.status === 429)!;
+    const seconds = Number(refused.headers['retry-after']);
+    expect(seconds).toBeGreaterThan(0);
+    expect(seconds).toBeLessThanOrEqual(60);
+    expect(refused.body.error).toEqual({
+      code: 'too_many_attempts',
+      message: 'Too many failed sign-ins for this account from this address. Try again in 1 minute.',
+      retryAfterSeconds: seconds,
+    });
+    // The right password from that address waits out the window like the wrong ones.
+    const owner = await api.anonymous();
+    await signInFrom(owner, '192.0.2.78', 'planner.test@example.com', TEST_PASSWORD).expect(429);
   });
 });
