@@ -1,6 +1,7 @@
 import { parse } from 'csv-parse/sync';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { CableTypeChange } from '../../server/db/models';
+import type { Transaction } from 'sequelize';
+import { CableType, CableTypeChange } from '../../server/db/models';
 import { startApi, type Client, type TestApi } from './support/api';
 
 let api: TestApi;
@@ -119,20 +120,35 @@ describe('POST /api/cables/import', () => {
   it('rolls back the rows already written when a later write fails', async () => {
     const before = await libraryNames();
     const csv = [HEADER, 'Rollback one,coax,PE,50,0.66,0.02,,,handbook,ref,', 'Rollback two,coax,PE,50,0.66,0.02,,,handbook,ref,'].join('\n');
-    const real = CableTypeChange.create.bind(CableTypeChange);
-    let calls = 0;
-    const spy = vi.spyOn(CableTypeChange, 'create').mockImplementation(((...args: Parameters<typeof real>) => {
-      calls += 1;
-      if (calls === 2) return Promise.reject(new Error('disk full'));
-      return real(...args);
+    // The history write fails once a new entry is already in the library inside the import's transaction, however the
+    // import writes its history (row by row, or many rows at once).
+    const libraryBefore = await CableType.count();
+    let failed = 0;
+    const failOnceRowsAreIn = async (options: { transaction?: Transaction } | undefined) => {
+      if (failed === 0 && (await CableType.count({ transaction: options?.transaction })) > libraryBefore) {
+        failed += 1;
+        throw new Error('disk full');
+      }
+    };
+    const realCreate = CableTypeChange.create.bind(CableTypeChange);
+    const realBulk = CableTypeChange.bulkCreate.bind(CableTypeChange);
+    const one = vi.spyOn(CableTypeChange, 'create').mockImplementation((async (...args: Parameters<typeof realCreate>) => {
+      await failOnceRowsAreIn(args[1] as { transaction?: Transaction });
+      return realCreate(...args);
     }) as typeof CableTypeChange.create);
+    const many = vi.spyOn(CableTypeChange, 'bulkCreate').mockImplementation((async (...args: Parameters<typeof realBulk>) => {
+      await failOnceRowsAreIn(args[1] as { transaction?: Transaction });
+      return realBulk(...args);
+    }) as typeof CableTypeChange.bulkCreate);
     try {
       await upload('/api/cables/import', csv, { reason: 'Rollback check' }).expect(500);
     } finally {
-      spy.mockRestore();
+      one.mockRestore();
+      many.mockRestore();
     }
-    expect(calls).toBe(2);
+    expect(failed).toBe(1);
     expect(await libraryNames()).toEqual(before);
+    expect(await CableType.count()).toBe(libraryBefore);
   });
 
   it('needs a reason, then writes every row with history', async () => {
