@@ -2,11 +2,11 @@ import { CsvError, parse } from 'csv-parse/sync';
 import { stringify } from 'csv-stringify/sync';
 import type { Transaction } from 'sequelize';
 import { CableTypeInputSchema, parseAttenuationList, parsePulseVfList, type CableTypeInput } from '../../shared/schemas/cables';
-import { CableType } from '../db/models';
+import { CableType, CableTypeChange } from '../db/models';
 import type { FieldChange } from '../db/models/cable-type-change';
 import { AppError, type FieldIssue } from '../errors';
 import { protectCell, unprotectCell } from './csv-cells';
-import { CABLE_FIELDS, cableNameKey, createCable, diffCable, historyValue, LIST_FIELDS, updateCable, type CableField } from './cables.service';
+import { CABLE_FIELDS, cableNameKey, diffCable, historyValue, LIST_FIELDS, planUpdate, type CableField } from './cables.service';
 import { findBidiControl } from '../http/strict-input';
 
 /**
@@ -302,30 +302,107 @@ export async function previewImport(text: string): Promise<ImportPreview> {
   return summarise(await parseImport(text));
 }
 
+/** Cable types written by one INSERT: well inside SQLite's and PostgreSQL's limits on bound values (about 30 columns each). */
+const INSERT_CHUNK = 200;
+
+/** The columns an import's update may change (every field of an entry but its name, which keeps the library's spelling). */
+const UPDATED_COLUMNS = [...CABLE_FIELDS.filter((f) => f !== 'name'), 'revision', 'updatedAt'] as const;
+
+/** What the library looked like when a file was checked: every entry's id, name key and last change. */
+function libraryState(rows: Array<Pick<CableType, 'id' | 'nameKey' | 'revision' | 'updatedAt'>>): string {
+  return rows
+    .map((c) => `${c.id}:${c.nameKey}:${c.revision}:${new Date(c.updatedAt).getTime()}`)
+    .sort()
+    .join('|');
+}
+
+function refuseInvalid(rows: ParsedRow[]) {
+  const preview = summarise(rows);
+  if (preview.counts.invalid > 0) {
+    const bad = preview.rows.filter((r) => r.action === 'invalid');
+    throw new AppError(
+      422,
+      'import_invalid',
+      `Nothing was imported: ${bad.length} row${bad.length > 1 ? 's have' : ' has'} errors (line${bad.length > 1 ? 's' : ''} ${bad.map((r) => r.line).join(', ')}).`,
+      { fields: bad.flatMap((r) => r.errors), rows: preview.rows, counts: preview.counts },
+    );
+  }
+  if (!preview.canCommit) throw new AppError(422, 'import_empty', 'Nothing to import: every row matches the library already.');
+  return preview;
+}
+
 /**
- * Writes the whole file or nothing: every row is checked again inside one
- * transaction; any invalid row aborts it with the list of bad rows.
+ * Writes the whole file or nothing, in one transaction that is kept short so other saves are not held up for long.
+ *
+ * The file is read and every row checked against the library first, outside any write turn (that is the slow
+ * part). The transaction then only writes: it first makes sure the library is still as the check saw it (every
+ * entry's id, name key and last change; if anything moved meanwhile, the rows are checked again inside it), then
+ * adds the new entries a few hundred per INSERT with their history rows in as few, and applies each update with its
+ * history row. The database's own transaction is what makes it all or nothing, including when the process is killed
+ * half way: nothing of a transaction that did not commit is ever seen, on SQLite or PostgreSQL, so there is no
+ * half-imported state to publish or clean up.
  */
 export async function commitImport(text: string, opts: { reason: string; userId: number; fileName?: string }) {
   const sequelize = CableType.sequelize!;
+  const checkedAgainst = await CableType.findAll({ attributes: ['id', 'nameKey', 'revision', 'updatedAt'] });
+  const checked = await parseImport(text);
+  const preview = refuseInvalid(checked);
+  const reason = opts.fileName ? `Import of ${opts.fileName}: ${opts.reason}` : `Import: ${opts.reason}`;
   return sequelize.transaction(async (transaction) => {
-    const rows = await parseImport(text, transaction);
-    const preview = summarise(rows);
-    if (preview.counts.invalid > 0) {
-      const bad = preview.rows.filter((r) => r.action === 'invalid');
-      throw new AppError(
-        422,
-        'import_invalid',
-        `Nothing was imported: ${bad.length} row${bad.length > 1 ? 's have' : ' has'} errors (line${bad.length > 1 ? 's' : ''} ${bad.map((r) => r.line).join(', ')}).`,
-        { fields: bad.flatMap((r) => r.errors), rows: preview.rows, counts: preview.counts },
+    // PostgreSQL runs transactions side by side: hold off other writers of the library until this one ends
+    // (as a single entry's name check does), so the state compared below stays true until the commit.
+    if (sequelize.getDialect() === 'postgres') await sequelize.query('LOCK TABLE cable_types IN SHARE ROW EXCLUSIVE MODE', { transaction });
+    const now = await CableType.findAll({ attributes: ['id', 'nameKey', 'revision', 'updatedAt'], transaction });
+    let rows = checked;
+    let result = preview;
+    if (libraryState(now) !== libraryState(checkedAgainst)) {
+      rows = await parseImport(text, transaction);
+      result = refuseInvalid(rows);
+    }
+    const creates = rows.filter((r) => r.action === 'create');
+    for (let i = 0; i < creates.length; i += INSERT_CHUNK) {
+      const chunk = creates.slice(i, i + INSERT_CHUNK);
+      await CableType.bulkCreate(
+        chunk.map((r) => ({ ...r.input!, revision: 1 })),
+        { transaction, validate: true },
+      );
+      // Read the new ids back by name key (bulk inserts do not return them on every dialect).
+      const added = await CableType.findAll({ where: { nameKey: chunk.map((r) => cableNameKey(r.input!.name)) }, attributes: ['id', 'nameKey'], transaction });
+      const idOf = new Map(added.map((c) => [c.nameKey, c.id]));
+      await CableTypeChange.bulkCreate(
+        chunk.map((r) => ({
+          cableTypeId: idOf.get(cableNameKey(r.input!.name))!,
+          revision: 1,
+          kind: 'import' as const,
+          changes: r.changes,
+          reason,
+          changedById: opts.userId,
+          calibrationId: null,
+        })),
+        { transaction },
       );
     }
-    if (!preview.canCommit) throw new AppError(422, 'import_empty', 'Nothing to import: every row matches the library already.');
-    const reason = opts.fileName ? `Import of ${opts.fileName}: ${opts.reason}` : `Import: ${opts.reason}`;
-    for (const row of rows) {
-      if (row.action === 'create') await createCable(row.input!, { userId: opts.userId, reason, kind: 'import' }, transaction);
-      else if (row.action === 'update') await updateCable(row.existingId!, { ...row.input!, reason }, { userId: opts.userId, kind: 'import' }, transaction);
+    // Updates: the entries are read once, each change planned as a single edit would be (the same loss rules and
+    // revision bump), then written a few hundred rows per statement (an insert that updates the existing row by id).
+    const updates = rows.filter((r) => r.action === 'update');
+    for (let i = 0; i < updates.length; i += INSERT_CHUNK) {
+      const chunk = updates.slice(i, i + INSERT_CHUNK);
+      const stored = new Map((await CableType.findAll({ where: { id: chunk.map((r) => r.existingId!) }, transaction })).map((c) => [c.id, c]));
+      const planned = chunk.map((r) => {
+        const cable = stored.get(r.existingId!);
+        if (!cable) throw AppError.notFound(`Cable type ${r.existingId}`);
+        return { cable, ...planUpdate(cable, r.input!) };
+      });
+      const writing = planned.filter((p) => p.changes.length > 0);
+      await CableType.bulkCreate(
+        writing.map((p) => ({ ...p.cable.get({ plain: true }), ...p.patch, revision: p.revision, updatedAt: new Date() })),
+        { transaction, validate: true, updateOnDuplicate: [...UPDATED_COLUMNS] },
+      );
+      await CableTypeChange.bulkCreate(
+        writing.map((p) => ({ cableTypeId: p.cable.id, revision: p.revision, kind: 'import' as const, changes: p.changes, reason, changedById: opts.userId, calibrationId: null })),
+        { transaction },
+      );
     }
-    return { counts: preview.counts, rows: preview.rows };
+    return { counts: result.counts, rows: result.rows };
   });
 }

@@ -229,18 +229,27 @@ export async function updateCable(
   const cable = await CableType.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
   if (!cable) throw AppError.notFound(`Cable type ${id}`);
   if (basedOn) await assertNotChangedMeanwhile(cable, basedOn, Object.keys(given), transaction);
-  const patch = lossPatch(cable, given);
-  const changes = diffCable(cable, patch);
+  const { patch, changes, revision } = planUpdate(cable, given);
   if (changes.length === 0) {
     throw new AppError(422, 'no_change', 'Nothing would change: every value given is the one already stored.', {
       fields: [{ field: '(body)', message: 'changes nothing' }],
     });
   }
   if (patch.name !== undefined && patch.name !== cable.name) await assertNameFree(patch.name, cable.id, transaction);
-  const bump = changes.some((c) => (ANALYSIS_FIELDS as readonly string[]).includes(c.field));
-  await cable.update({ ...patch, revision: bump ? cable.revision + 1 : cable.revision }, { transaction });
+  await cable.update({ ...patch, revision }, { transaction });
   await record(cable, by.kind ?? 'update', changes, reason, by.userId, transaction, by.calibrationId ?? null);
   return { cable: cableView(cable), changes };
+}
+
+/**
+ * What a change would write to an entry: the values (loss figures made consistent), the fields that differ
+ * (old → new) and the revision, bumped when a value the analysis uses (ANALYSIS_FIELDS) changes. Writes nothing.
+ */
+export function planUpdate(cable: CableType, given: Omit<CableTypeUpdate, 'reason' | 'basedOn'>) {
+  const patch = lossPatch(cable, given);
+  const changes = diffCable(cable, patch);
+  const bump = changes.some((c) => (ANALYSIS_FIELDS as readonly string[]).includes(c.field));
+  return { patch, changes, revision: bump ? cable.revision + 1 : cable.revision };
 }
 
 /**
