@@ -229,30 +229,36 @@ export async function receiveUpload(
     const { run, cable } = await runAndCable(fields);
     const settings = settingsFrom(fields);
     const pool = analysisPool(ctx);
-    // Small files are analysed now; a large one is only hashed, stored as pending and analysed by a background job.
-    const results: Array<{ sha256: string; sizeBytes: number; outcome: Outcome | null; parsed: ParsedTrace | null }> =
-      await Promise.all(
-        inbox.map(async (p, i) => {
-          const sizeBytes = (await fs.stat(p)).size;
-          if (sizeBytes > ctx.config.analysisInlineMaxBytes)
-            return { sha256: hashes[i] ?? (await fileSha256(p)), sizeBytes, outcome: null, parsed: null };
-          return pool.analyse({ path: p, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes }, { owner: `user ${uploadedById}` });
-        }),
-      );
-
-    // Each file is new (moved into the store), a copy of a trace stored earlier, or a repeat of a file earlier in this upload.
-    const plan: Array<{ kind: 'new'; rawPath: string } | { kind: 'copy'; of: DuplicateFile } | { kind: 'repeat'; of: number }> =
-      [];
-    for (const [index, r] of results.entries()) {
-      const first = results.findIndex((o) => o.sha256 === r.sha256);
-      const earlier = first < index ? null : await earlierCopy(r.sha256, run.id, fields.end);
-      if (first < index) plan.push({ kind: 'repeat', of: first });
-      else if (earlier) plan.push({ kind: 'copy', of: duplicateOf(files[index].originalName, earlier) });
-      else {
-        const rawPath = await ctx.storage.adopt(inbox[index]);
-        adopted.push(rawPath);
-        plan.push({ kind: 'new', rawPath });
+    // Each file is known by its bytes before anything else: a copy of a trace stored earlier, or a repeat of a file
+    // earlier in this upload, is reported as such and never analysed.
+    if (hashes.length !== inbox.length) hashes = await Promise.all(inbox.map(fileSha256));
+    const plan: Array<{ kind: 'new' } | { kind: 'copy'; of: DuplicateFile } | { kind: 'repeat'; of: number }> = [];
+    for (const [index, sha256] of hashes.entries()) {
+      const first = hashes.indexOf(sha256);
+      if (first < index) {
+        plan.push({ kind: 'repeat', of: first });
+        continue;
       }
+      const earlier = await earlierCopy(sha256, run.id, fields.end);
+      plan.push(earlier ? { kind: 'copy', of: duplicateOf(files[index].originalName, earlier) } : { kind: 'new' });
+    }
+
+    // The new files only: a small one is analysed now; a large one is stored as pending and analysed by a background job.
+    const results: Array<{ sha256: string; sizeBytes: number; outcome: Outcome | null; parsed: ParsedTrace | null } | null> = await Promise.all(
+      inbox.map(async (p, i) => {
+        if (plan[i].kind !== 'new') return null;
+        const sizeBytes = (await fs.stat(p)).size;
+        if (sizeBytes > ctx.config.analysisInlineMaxBytes) return { sha256: hashes[i], sizeBytes, outcome: null, parsed: null };
+        const analysed = await pool.analyse({ path: p, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes }, { owner: `user ${uploadedById}` });
+        return { ...analysed, sha256: hashes[i] };
+      }),
+    );
+    const rawPaths = new Map<number, string>();
+    for (const [index, step] of plan.entries()) {
+      if (step.kind !== 'new') continue;
+      const rawPath = await ctx.storage.adopt(inbox[index]);
+      adopted.push(rawPath);
+      rawPaths.set(index, rawPath);
     }
 
     const outcome = await ctx.sequelize.transaction(async (transaction) => {
@@ -265,7 +271,7 @@ export async function receiveUpload(
       const recordedAs = new Map<number, Pick<Trace, 'id' | 'createdAt'>>();
       const storedPaths = new Set<string>();
       for (const [index, step] of plan.entries()) {
-        const r = results[index];
+        const r = results[index]!;
         const name = files[index].originalName;
         if (step.kind === 'repeat') {
           duplicates.push(duplicateOf(name, recordedAs.get(step.of)!));
@@ -285,7 +291,7 @@ export async function receiveUpload(
             end: fields.end,
             uploadedById,
             originalName: name.slice(0, 255),
-            rawPath: step.rawPath,
+            rawPath: rawPaths.get(index)!,
             sha256: r.sha256,
             sizeBytes: r.sizeBytes,
             ...(r.outcome ? analysisColumns(r.outcome, cable, settings) : pendingColumns(cable, settings)),
@@ -296,7 +302,7 @@ export async function receiveUpload(
         );
         recordedAs.set(index, trace);
         traceIds.push(trace.id);
-        storedPaths.add(step.rawPath);
+        storedPaths.add(rawPaths.get(index)!);
       }
       if (idempotencyKey) {
         await UploadReceipt.create(
@@ -309,13 +315,12 @@ export async function receiveUpload(
     committed = true;
 
     // A file that turned out to be a copy inside the transaction is not kept (no committed row names it); the others' samples are, to draw them.
-    for (const [index, step] of plan.entries()) {
-      if (step.kind !== 'new') continue;
-      if (!outcome.storedPaths.has(step.rawPath)) await ctx.storage.remove(step.rawPath).catch(() => undefined);
-      else if (results[index].parsed) rememberParsed(ctx, step.rawPath, settings, results[index].parsed!);
+    for (const [index, rawPath] of rawPaths) {
+      if (!outcome.storedPaths.has(rawPath)) await ctx.storage.remove(rawPath).catch(() => undefined);
+      else if (results[index]?.parsed) rememberParsed(ctx, rawPath, settings, results[index]!.parsed!);
     }
     // Only a large file is left pending (analysed by a background job); an upload of small files has nothing to queue.
-    if (results.some((r) => r.outcome === null)) await queueAnalyses(ctx, outcome.traceIds);
+    if (results.some((r) => r !== null && r.outcome === null)) await queueAnalyses(ctx, outcome.traceIds);
     return { traceIds: outcome.traceIds, duplicates: outcome.duplicates, replayed: false };
   } catch (err) {
     if (!committed) for (const rel of adopted) await ctx.storage.remove(rel).catch(() => undefined);

@@ -4,6 +4,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Trace, UploadReceipt } from '../../server/db/models';
 import { boundedAnalysis } from '../../server/traces/analysis';
+import { analysisPool, type AnalysisPool } from '../../server/traces/analysis-pool';
 import { makeRun, stepTraceCsv } from './support/field-fixtures';
 import { startApi, type Client, type TestApi } from './support/api';
 
@@ -120,6 +121,42 @@ describe('uploads that are retried or repeated', () => {
     // From the other end of the run it is another measurement: stored.
     await send(csv, 'pole-14.csv', { end: 'B' }).expect(201);
     expect(await Trace.count({ where: { sha256: sha(csv) } })).toBe(2);
+  });
+
+  it('recognises a repeated file by its bytes before analysing it: duplicates are never analysed, and name the upload they match', async () => {
+    const csv = Buffer.from(stepTraceCsv({ faultM: 57, vf: 0.66 }));
+    const fresh = Buffer.from(stepTraceCsv({ faultM: 59, vf: 0.66 }));
+    const pool = analysisPool(api.app.ctx);
+    const analysed: string[] = [];
+    const real = pool.analyse.bind(pool);
+    pool.analyse = (async (...args: Parameters<AnalysisPool['analyse']>) => {
+      analysed.push(sha(fs.readFileSync(args[0].path)));
+      return real(...args);
+    }) as AnalysisPool['analyse'];
+    try {
+      const first = await send(csv, 'mh-7.csv').expect(201);
+      expect(analysed).toEqual([sha(csv)]);
+      const again = await send(csv, 'mh-7 again.csv').expect(409);
+      expect(again.body.error.duplicates).toEqual([{ originalName: 'mh-7 again.csv', traceId: first.body.traces[0].id, uploadedAt: first.body.traces[0].createdAt }]);
+      // One upload with the known file, a new one, and the new one twice: only the new file's bytes are analysed, once.
+      const mixed = await tech
+        .postRaw('/api/traces')
+        .field('cableRunId', String(runId))
+        .field('end', 'A')
+        .attach('file', csv, 'mh-7 third.csv')
+        .attach('file', fresh, 'mh-8.csv')
+        .attach('file', fresh, 'mh-8 twice.csv')
+        .expect(201);
+      expect(mixed.body.traces.map((t: { originalName: string }) => t.originalName)).toEqual(['mh-8.csv']);
+      expect(mixed.body.duplicates.map((d: { originalName: string; traceId: number }) => [d.originalName, d.traceId])).toEqual([
+        ['mh-7 third.csv', first.body.traces[0].id],
+        ['mh-8 twice.csv', mixed.body.traces[0].id],
+      ]);
+      expect(analysed).toEqual([sha(csv), sha(fresh)]);
+    } finally {
+      Reflect.deleteProperty(pool, 'analyse');
+    }
+    expect(filesIn(api, 'incoming')).toEqual([]);
   });
 
   it('stores the same bytes again once the earlier trace is archived, and says archived traces do not count', async () => {
