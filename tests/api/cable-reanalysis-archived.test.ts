@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableReanalysisItem, Trace } from '../../server/db/models';
 import { analysisPool, type AnalysisPool } from '../../server/traces/analysis-pool';
 import type { CableReanalysisView } from '../../shared/schemas/cable-reanalysis';
-import { makeRun, stepTraceCsv } from './support/field-fixtures';
+import { makeRun, uploadStepTrace } from './support/field-fixtures';
 import { startApi, type TestApi } from './support/api';
 import { eventually } from './mail.support';
 
@@ -36,13 +36,7 @@ describe('a trace archived during its cable type’s re-analysis', () => {
     const { run, cable } = await makeRun('Archive during reanalysis run');
     const tech = await api.as('technician');
     const planner = await api.as('planner');
-    const up = await tech
-      .postRaw('/api/traces')
-      .field('cableRunId', String(run.id))
-      .field('end', 'A')
-      .attach('file', Buffer.from(stepTraceCsv({ faultM: 80, vf: 0.66 })), 'wrong-pair.csv')
-      .expect(201);
-    const traceId = up.body.traces[0].id as number;
+    const { id: traceId } = await uploadStepTrace(tech, run.id, 80);
     await planner.patch(`/api/cables/${cable.id}`, { vf: 0.7, reason: 'Drum measured at the yard' }).expect(200);
 
     const hold = holdBackground(analysisPool(api.app.ctx, 'background'));
