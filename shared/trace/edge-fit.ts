@@ -1025,7 +1025,12 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     }
     // The last event may be a resistive end, read with the line's own impedance (terminatedEnd); only with
     // the cable's loss known, whose creep was taken out of the signal and which the reversed creep follows.
-    const term = lossSource === 'library' && k === events.length - 1 ? terminatedEnd(ctx, events, k, model, win) : null;
+    const end = lossSource === 'library' && k === events.length - 1 ? terminatedEnd(ctx, events, k, model, win) : null;
+    // An event with more line past it may be a lumped fault, which meets the line's own impedance on both
+    // sides (terminatedFit, 'fault'): its echo grows as that impedance does at low frequency, and a plain
+    // edge fitted to it reads late. Taken where it explains the window decisively better than the plain fit.
+    const fault = !end && f && lossSource === 'library' && k < events.length - 1 ? faultFit(ctx, win, model, f) : null;
+    const term = end ?? (fault ? { f: fault, win } : null);
     if (term) {
       f = term.f;
       win = term.win;
@@ -1062,9 +1067,18 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     m.onsetIdx = onset;
     if (shape.reference === 'axis') m.t50Idx = onset;
     ctx.peeled.push({ t: f.t, q: f.q, d: f.dq, h: f.h });
-    if (term) ctx.peeled.push({ t: term.f.tb, q: f.q, d: f.dq, h: term.f.g });
+    // A fault's creep share is not taken out of the later windows: its template ends with this window and
+    // would stand there at its last value, where the share goes on growing past it; the later fits' own
+    // sloping baseline follows it instead.
+    if (term && !fault) ctx.peeled.push({ t: term.f.tb, q: f.q, d: f.dq, h: term.f.g });
   }
   return { events, lossSource, loss: model, estimatedFrom, vf: input.vf };
+}
+
+/** A lumped fault's fit (terminatedFit, 'fault') where the odds favour it decisively over the plain fit `plain` of the same window. */
+function faultFit(ctx: FitContext, win: EventWindow, model: LossModel, plain: ModelFit): (ModelFit & { g: number; tb: Template }) | null {
+  const tf = terminatedFit(ctx, win, model, twoWayOf(ctx, plain.d), 'fault');
+  return tf && (tf.points / 2) * Math.log(plain.ss / tf.ss) > Math.log(TERMINATED_ODDS) ? tf : null;
 }
 
 /**
