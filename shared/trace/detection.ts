@@ -447,6 +447,115 @@ function scalesOf(sig: WorkingSignal): number[] {
   return scales;
 }
 
+/** Longest launch template matched sample by sample (longer pulses are met by the step filter's coarse scales). */
+const MATCHED_MAX_TEMPLATE = 64;
+
+interface MatchedOutput {
+  /** M[i]: the record at i read as an echo of the launch centred there, in launch peaks (0 outside the search). */
+  m: Float64Array;
+  from: number;
+  to: number;
+  sigma: number;
+  /** The template's length in samples. */
+  span: number;
+  /** Independent outputs: one per launch width at half height. */
+  independent: number;
+}
+
+/**
+ * A pulse record matched against its own launch (North's matched filter, the detector of a known shape
+ * in white noise with the highest signal-to-noise ratio; D. O. North, Proc. IEEE 51 (1963) 1016): each
+ * output is the least-squares height of a launch-shaped echo centred there, Σ t·y / Σ t². Where the
+ * launch is only a few samples wide the step filter's finest windows, four pulse widths long on the
+ * running sum, take in several times the noise a short echo rises above; this reads it over the echo's
+ * own extent. The noise of M is measured on M itself (3σ-clipped, so coloured noise and the echoes
+ * count as they are) and never read below white noise through the template.
+ */
+function matchedFilter(sig: WorkingSignal): MatchedOutput | null {
+  const t = sig.pulseTemplate;
+  if (sig.mode !== 'pulse' || t === null || t.length > MATCHED_MAX_TEMPLATE) return null;
+  let energy = 0;
+  let moment = 0;
+  let mass = 0;
+  let peak = 0;
+  for (let j = 0; j < t.length; j++) {
+    energy += t[j] * t[j];
+    if (t[j] > 0) {
+      moment += j * t[j];
+      mass += t[j];
+    }
+    peak = Math.max(peak, t[j]);
+  }
+  if (!(energy > 0) || !(mass > 0)) return null;
+  let width = 0;
+  for (let j = 0; j < t.length; j++) if (t[j] >= 0.5 * peak) width++;
+  const c = Math.round(moment / mass);
+  const raw = sig.pulseRaw;
+  const n = raw.length;
+  const from = sig.start + c;
+  const to = n - (t.length - c);
+  if (to - from < 2 * t.length) return null;
+  const m = new Float64Array(n);
+  for (let i = from; i < to; i++) {
+    let acc = 0;
+    const o = i - c;
+    for (let j = 0; j < t.length; j++) acc += t[j] * raw[o + j];
+    m[i] = acc / energy;
+  }
+  const stride = Math.max(1, Math.floor((to - from) / 20000));
+  const sample = new Float64Array(Math.ceil((to - from) / stride));
+  for (let i = from, j = 0; i < to; i += stride, j++) sample[j] = m[i];
+  const white = sig.scaleForPulse * sig.unitArea * sig.noiseExcess(Math.max(1, width)) / Math.sqrt(energy);
+  const sigma = Math.max(clippedMadSigma(sample, 0, sample.length), white);
+  return { m, from, to, sigma, span: t.length, independent: Math.max(1, (to - from) / Math.max(1, width)) };
+}
+
+/**
+ * An echo of the launch's shape gives a matched output that falls below half its peak within the
+ * template's length on both sides (the template's own autocorrelation); a slower feature (the
+ * loss-spread tail of a larger echo, creep, drift) holds it up for longer and is left to the step
+ * filter's coarser scales.
+ */
+function compact(mo: MatchedOutput, p: number): boolean {
+  const v = mo.m[p];
+  const falls = (from: number, to: number, dir: number) => {
+    for (let i = from; dir > 0 ? i <= to : i >= to; i += dir) {
+      // The search's ends: the launch before it, the record's end after it; nothing to hold it up.
+      if (i < mo.from || i >= mo.to) return true;
+      if (mo.m[i] * Math.sign(v) < 0.5 * Math.abs(v)) return true;
+    }
+    return false;
+  };
+  return falls(p - 1, p - mo.span, -1) && falls(p + 1, p + mo.span, 1);
+}
+
+/**
+ * Echoes the matched filter finds above the threshold that no step-filter candidate of the same sign
+ * already stands for: the peak of each run above k·σ (and rhoMin), at the finest scale.
+ */
+function matchedCandidates(mo: MatchedOutput, found: readonly Candidate[], sig: WorkingSignal, k: number, rhoMin: number): Candidate[] {
+  // A run of one quantiser level is no echo (dropQuantiserStairs): the height must pass a step and a half.
+  const thr = Math.max(k * mo.sigma, rhoMin, 1.5 * sig.quantRaw);
+  const out: Candidate[] = [];
+  const w = sig.w0;
+  let best = -1;
+  for (let i = mo.from; i <= mo.to; i++) {
+    const v = i < mo.to ? mo.m[i] : 0;
+    const above = Math.abs(v) > thr;
+    if (above && (best < 0 || Math.sign(v) === Math.sign(mo.m[best]))) {
+      if (best < 0 || Math.abs(v) > Math.abs(mo.m[best])) best = i;
+      continue;
+    }
+    if (best >= 0) {
+      const sign = mo.m[best] > 0 ? 1 : -1;
+      const near = found.some((c) => c.sign === sign && Math.abs(c.i - best) <= 2 * w + c.w);
+      if (!near && compact(mo, best)) out.push({ i: best, w, sign, f: mo.m[best], snr: Math.abs(mo.m[best]) / mo.sigma, matched: true });
+    }
+    best = above ? i : -1;
+  }
+  return out;
+}
+
 /** Candidate events in the working signal, in time order, and the threshold that found them. */
 export function detectEdges(sig: WorkingSignal, settings: DetectionSettings): Detection {
   const n = sig.u.length;
@@ -454,7 +563,9 @@ export function detectEdges(sig: WorkingSignal, settings: DetectionSettings): De
   const scales = scalesOf(sig);
   // About two independent outputs per window length: F's kernel decorrelates within half a
   // window of lag (measured on noise-only records, tests/unit/trace/engine-steps.test.ts).
-  const independentTests = scales.reduce((acc, w) => acc + Math.max(1, (2 * (searchLen - 3 * w)) / w), 0);
+  const matched = matchedFilter(sig);
+  const independentTests =
+    scales.reduce((acc, w) => acc + Math.max(1, (2 * (searchLen - 3 * w)) / w), 0) + (matched?.independent ?? 0);
   const k = settings.thresholdSigma ?? normalUpperQuantile(settings.falseEventsPerTrace / (2 * independentTests));
   const rhoMin = settings.rhoMin;
   const P = prefixSums(sig.u, settings.scratch);
@@ -479,7 +590,10 @@ export function detectEdges(sig: WorkingSignal, settings: DetectionSettings): De
   const thrOf = new Map(scales.map((w, j) => [w, thresholds[j] ?? rhoMin]));
   // Inside the blind zone the launch's own settling is still in the signal: keep only what
   // stands twice the threshold out of it.
-  const clear = candidates.filter((c) => c.i - 2 * c.w >= sig.blindIdx || c.snr >= 2 * k);
+  if (matched) candidates.push(...matchedCandidates(matched, candidates, sig, k, rhoMin));
+  // A matched candidate's window starts past the launch's settling (the search's start): it is judged
+  // on the threshold alone.
+  const clear = candidates.filter((c) => c.matched === true || c.i - 2 * c.w >= sig.blindIdx || c.snr >= 2 * k);
   const kept = dropSideLobes(clear, P, thrOf, rhoMin, sig.mode === 'pulse');
   return { candidates: resolveScales(dropCoarseEdgeLobes(kept, P)), thresholdSigma: k, independentTests };
 }

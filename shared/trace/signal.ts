@@ -173,6 +173,19 @@ export function modalLevel(values: ArrayLike<number>, from: number, to: number, 
   return bestCount % 2 ? v[m] : (v[m] + v[m + 1]) / 2;
 }
 
+/**
+ * The launch pulse as recorded, in launch peaks: the shape every echo of a loss-free line repeats. None where the launch
+ * is not whole in the record or was clipped on its edge.
+ */
+function launchTemplate(pulseRaw: Float64Array, L: Launch): Float64Array | null {
+  if (!L.found || !L.onsetInRecord || L.clippedOnEdge || L.mode !== 'pulse') return null;
+  // From half a rise before its 10 % point to a rise past its fall: the flat ends would add only noise.
+  const rise = Math.max(1, L.riseSamples);
+  const from = Math.max(0, L.idx - Math.ceil(rise / 2));
+  const to = Math.min(pulseRaw.length, L.settleIdx + 1, L.idx + (L.widthSamples ?? rise) + 2 * rise);
+  return to - from >= 3 ? pulseRaw.slice(from, to) : null;
+}
+
 /** Pulse mode: baseline-free trace (in launch peaks) and its running integral in launch areas. */
 function pulseSignal(rec: TraceRecord, L: Launch, sigma0: number): { u: Float64Array; pulseRaw: Float64Array; unitArea: number } {
   const { y, n } = rec;
@@ -266,6 +279,7 @@ export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number, 
   const { u, pulseRaw, unitArea } =
     mode === 'step' ? { u: stepSignal(rec, L), pulseRaw: new Float64Array(0), unitArea: 1 } : pulseSignal(rec, L, sigma0);
   const sigmaU = mode === 'step' ? sigma0 / Math.abs(L.found || rec.unit !== 'rho' ? L.height : 1) : 0;
+  const pulseTemplate = mode === 'pulse' ? launchTemplate(pulseRaw, L) : null;
   const scaleForPulse = mode === 'pulse' ? sigma0 / Math.abs(L.found ? L.height : 1) / unitArea : 0;
   // The shortest edge in u: the launch's rise (step), or the ramp an echo of the launch
   // pulse makes in the running integral, about 0.8 of its width (pulse).
@@ -288,6 +302,7 @@ export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number, 
     u,
     us,
     pulseRaw,
+    pulseTemplate,
     unitArea,
     sigmaU,
     scaleForPulse,

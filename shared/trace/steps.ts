@@ -67,6 +67,11 @@ export interface WorkingSignal {
   us: Float64Array;
   /** Pulse mode: the baseline-free trace in units of the launch peak; empty for steps. */
   pulseRaw: Float64Array;
+  /**
+   * Pulse mode: the launch as recorded (pulseRaw from its foot to where it has settled), the template
+   * the echoes are matched against; null where the record holds no whole, unclipped launch.
+   */
+  pulseTemplate: Float64Array | null;
   unitArea: number;
   /** Noise of u per sample (step mode). */
   sigmaU: number;
@@ -107,6 +112,8 @@ export interface Candidate {
   sign: number;
   f: number;
   snr: number;
+  /** Found by the pulse matched filter, whose window lies wholly past the launch's settling. */
+  matched?: boolean;
 }
 
 /** A detection after its edge has been timed and its height measured. */
