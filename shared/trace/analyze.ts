@@ -480,7 +480,7 @@ function analyzeOnce(
     options.loss && options.loss.length > 0
       ? pulseCreepRemoved(rec, L, lossModelThroughLine(options.loss, options.vf), options.vf)
       : null;
-  const signal = buildWorkingSignal(pulseFixed ? { ...rec, y: pulseFixed } : rec, L, sigma0, scratch);
+  const signal = buildWorkingSignal(pulseFixed ? { ...rec, y: pulseFixed } : rec, L, sigma0, scratch, rec.y);
   if (rec.n - signal.start < 16) {
     const msg = 'no reflection above noise (the record ends inside the blind zone)';
     return {

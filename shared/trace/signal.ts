@@ -272,8 +272,17 @@ function pulseQuantiserStep(y: Float64Array, sigma0: number): number {
   return q > 0 && sigma0 < 0.5 * q ? q : 0;
 }
 
-/** `scratch`, when given (n + 1 values), holds the noise measure's temporary sums instead of a new array. */
-export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number, scratch?: Float64Array): WorkingSignal {
+/**
+ * `scratch`, when given (n + 1 values), holds the noise measure's temporary sums instead of a new array;
+ * `recorded` is the record as the recorder gave it, whose quantiser step a corrected `rec.y` no longer shows.
+ */
+export function buildWorkingSignal(
+  rec: TraceRecord,
+  L: Launch,
+  sigma0: number,
+  scratch?: Float64Array,
+  recorded: Float64Array = rec.y,
+): WorkingSignal {
   const mode = L.mode;
   const { n } = rec;
   const { u, pulseRaw, unitArea } =
@@ -316,6 +325,6 @@ export function buildWorkingSignal(rec: TraceRecord, L: Launch, sigma0: number, 
     noiseExcess: noiseExcess(rec.y, sigma0, scratch, held, clipNoiseUpTo),
     held,
     quantU: mode === 'step' ? adcStep(rec.y) / Math.abs(L.found || rec.unit !== 'rho' ? L.height : 1) : 0,
-    quantRaw: mode === 'pulse' ? pulseQuantiserStep(rec.y, sigma0) / Math.abs(L.found ? L.height : 1) : 0,
+    quantRaw: mode === 'pulse' ? pulseQuantiserStep(recorded, sigma0) / Math.abs(L.found ? L.height : 1) : 0,
   };
 }
