@@ -36,6 +36,7 @@ const SET_NAMES: readonly string[] = [
   'check',
   'heldout10',
   'heldout11',
+  'heldout12',
 ];
 if (!setName || !SET_NAMES.includes(setName)) {
   process.stderr.write(`usage: run.ts --set ${SET_NAMES.join('|')} [--json] [--quiet] [--only TEXT] [--no-loss]\n`);

@@ -27,7 +27,8 @@ export type SetName =
   | 'heldout9'
   | 'check'
   | 'heldout10'
-  | 'heldout11';
+  | 'heldout11'
+  | 'heldout12';
 
 const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   tuning: { seed: 0x51a7e, count: 80 },
@@ -62,6 +63,8 @@ const SETS: Partial<Record<SetName, { seed: number; count: number }>> = {
   heldout10: { seed: 0x5be0cd19, count: 120 },
   // An eleventh, drawn after the tenth had been run once on the final engine of its round, for the next round: the same rules apply.
   heldout11: { seed: 0x714f7121, count: 120 },
+  // A twelfth, drawn after the eleventh had been run once on the final engine of its round, for the next round: the same rules apply.
+  heldout12: { seed: 0x428a2f98, count: 120 },
 };
 
 /** Seed of case i of a set: a splitmix-style scramble of the set's seed and the index. */
