@@ -1,15 +1,8 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
+import type { OwnSession } from '../../../../shared/schemas/own-sessions';
 
-/** One of the signed-in person's own sessions, as `GET /api/auth/sessions` lists it. */
-export interface OwnSession {
-  id: string;
-  signedInAt: string | null;
-  lastSeenAt: string | null;
-  device: string | null;
-  address: string | null;
-  current: boolean;
-}
+export type { OwnSession };
 
 export const getOwnSessions = () => api<{ sessions: OwnSession[]; cap: number }>('/api/auth/sessions');
 
