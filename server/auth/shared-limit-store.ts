@@ -2,7 +2,7 @@ import { QueryTypes, type Sequelize } from 'sequelize';
 import type { ClientRateLimitInfo, Options, Store } from 'express-rate-limit';
 
 /**
- * An express-rate-limit (and express-slow-down) store that counts in the
+ * An express-rate-limit store that counts in the
  * `rate_limit_hits` table, so every instance on one PostgreSQL database sees
  * the same counts. Each increment is one atomic upsert that also starts a
  * new window when the old one has ended; the database clock decides, so
