@@ -1,24 +1,16 @@
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { cleanup, fireEvent, render, screen } from '@testing-library/react';
-import { http, HttpResponse } from 'msw';
 import { setupServer } from 'msw/node';
 import { MemoryRouter } from 'react-router-dom';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { CalibrationsPage } from '../../src/app/routes/calibrations';
-import { noCalibrations, pendingCalibration } from './support/fixtures';
+import { calibrationReviewHandlers, demoPlanner, pendingCalibration } from './support/fixtures';
 
-const none = noCalibrations;
 const pending = (submittedBy: { id: number; name: string }) => pendingCalibration({ submittedBy });
-const planner = { id: 4, email: 'planner@example.com', name: 'Priya Castellanos', role: 'planner', active: true, mustChangePassword: false, unitPreference: 'm' };
+const planner = demoPlanner;
 const admin = { id: 1, email: 'admin@example.com', name: 'Dana Okafor', role: 'admin', active: true, mustChangePassword: false, unitPreference: 'm' };
 let item = pending({ id: 2, name: 'Ines Ravelo' });
-const server = setupServer(
-  http.get('*/api/auth/csrf', () => HttpResponse.json({ csrfToken: 'token-1' })),
-  http.get('*/api/calibrations', () => HttpResponse.json({ items: [item], total: 1, page: 1, pageSize: 20 })),
-  http.get('*/api/cables/3/calibrations', () =>
-    HttpResponse.json({ libraryVf: 0.66, libraryVfTolerance: 0.02, stats: none, acceptedStats: none, counts: { pending: 1, accepted: 0, rejected: 0 }, items: [item] }),
-  ),
-);
+const server = setupServer(...calibrationReviewHandlers(() => [item]));
 beforeAll(() => server.listen({ onUnhandledRequest: 'error' }));
 afterEach(cleanup);
 afterAll(() => server.close());

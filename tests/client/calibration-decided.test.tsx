@@ -5,18 +5,16 @@ import { setupServer } from 'msw/node';
 import { MemoryRouter } from 'react-router-dom';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { CalibrationsPage } from '../../src/app/routes/calibrations';
-import { noCalibrations, pendingCalibration } from './support/fixtures';
+import { calibrationReviewHandlers, demoPlanner, pendingCalibration } from './support/fixtures';
 
-const none = noCalibrations;
 const pending = pendingCalibration();
-const planner = { id: 4, email: 'planner@example.com', name: 'Priya Castellanos', role: 'planner', active: true, mustChangePassword: false, unitPreference: 'm' };
+const planner = demoPlanner;
 let accepted = false;
 const server = setupServer(
   http.get('*/api/auth/me', () => HttpResponse.json(planner)),
-  http.get('*/api/auth/csrf', () => HttpResponse.json({ csrfToken: 'token-1' })),
-  http.get('*/api/calibrations', () => HttpResponse.json({ items: accepted ? [] : [pending], total: accepted ? 0 : 1, page: 1, pageSize: 20 })),
-  http.get('*/api/cables/3/calibrations', () =>
-    HttpResponse.json({ libraryVf: 0.66, libraryVfTolerance: 0.02, stats: none, acceptedStats: none, counts: { pending: 1, accepted: 0, rejected: 0 }, items: [pending] }),
+  ...calibrationReviewHandlers(
+    () => (accepted ? [] : [pending]),
+    () => [pending],
   ),
   http.post('*/api/calibrations/2/accept', async () => {
     accepted = true;

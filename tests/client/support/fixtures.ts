@@ -1,3 +1,4 @@
+import { http, HttpResponse } from 'msw';
 import type { CalibrationView } from '../../../shared/schemas/cables';
 import type { TicketDetail } from '../../../shared/schemas/tickets';
 
@@ -27,6 +28,39 @@ export const pendingCalibration = (changes: Partial<CalibrationView> = {}): Cali
   createdAt: '2026-12-03T06:28:00.000Z',
   ...changes,
 });
+
+/** The demo planner, as `GET /api/auth/me` gives them. */
+export const demoPlanner = {
+  id: 4,
+  email: 'planner@example.com',
+  name: 'Priya Castellanos',
+  role: 'planner',
+  active: true,
+  mustChangePassword: false,
+  unitPreference: 'm',
+};
+
+/**
+ * The msw handlers the calibration review page reads: the review queue holds `queue()` and cable 3 (the solid
+ * PE coax, library VF 0.66 ± 2 %) lists `cable()`, each as it stands when asked.
+ */
+export const calibrationReviewHandlers = (queue: () => CalibrationView[], cable: () => CalibrationView[] = queue) => [
+  http.get('*/api/auth/csrf', () => HttpResponse.json({ csrfToken: 'token-1' })),
+  http.get('*/api/calibrations', () => {
+    const items = queue();
+    return HttpResponse.json({ items, total: items.length, page: 1, pageSize: 20 });
+  }),
+  http.get('*/api/cables/3/calibrations', () =>
+    HttpResponse.json({
+      libraryVf: 0.66,
+      libraryVfTolerance: 0.02,
+      stats: noCalibrations,
+      acceptedStats: noCalibrations,
+      counts: { pending: 1, accepted: 0, rejected: 0 },
+      items: cable(),
+    }),
+  ),
+];
 
 /** Radio mast feeder BF-R1 of the demo: 120 m installed, 1.5 m and 2 m coiled at its two markers (116.5 m of route). */
 export const mastFeederTicket = {
