@@ -161,7 +161,16 @@ async function smallTargets(page: Page): Promise<string[]> {
       if (box.width <= 1 || box.height <= 1) continue;
       // A check box or radio is worked through its label: the label is the target.
       if (el instanceof HTMLInputElement && (el.type === 'checkbox' || el.type === 'radio')) box = (el.closest('label') ?? el).getBoundingClientRect();
-      if (box.height < min) out.push(`${el.tagName.toLowerCase()} "${(el.textContent || el.getAttribute('aria-label') || (el as HTMLInputElement).value || '').trim().slice(0, 40)}" ${box.height.toFixed(1)} px`);
+      // A control whose touch area reaches past its text through an absolutely placed ::before (a term in running
+      // text, whose lines it must not spread) is worked through that area: it counts as tall as it reaches.
+      let height = box.height;
+      const before = getComputedStyle(el, '::before');
+      if (before.content !== 'none' && before.position === 'absolute') {
+        const top = parseFloat(before.top);
+        const bottom = parseFloat(before.bottom);
+        if (Number.isFinite(top) && Number.isFinite(bottom)) height = Math.max(height, box.height - top - bottom);
+      }
+      if (height < min) out.push(`${el.tagName.toLowerCase()} "${(el.textContent || el.getAttribute('aria-label') || (el as HTMLInputElement).value || '').trim().slice(0, 40)}" ${height.toFixed(1)} px`);
     }
     return out;
   }, MIN_TARGET_PX);
