@@ -7,7 +7,8 @@ import { TERMS, type TermKey } from '../../lib/terms';
  * before), and tapping it opens a short explanation in plain words under it,
  * kept inside the screen. Its touch area reaches past the text, for gloved
  * thumbs, without spreading the lines. Tapping it again, tapping anywhere
- * else (the explanation too) or Escape closes it.
+ * else (the explanation too) or Escape closes it. The touch area is at least
+ * 44 px tall (the look's rule for gloved hands), whatever the term's font size.
  */
 export function Term({ k, children }: { k: TermKey; children?: ReactNode }) {
   const term = TERMS[k];
@@ -61,7 +62,7 @@ export function Term({ k, children }: { k: TermKey; children?: ReactNode }) {
           setShift(0);
           setOpen((o) => !o);
         }}
-        className="relative cursor-help text-left font-[inherit] underline decoration-teal decoration-dotted underline-offset-4 before:absolute before:-inset-x-1 before:-inset-y-3 before:content-[''] after:ml-0.5 after:inline-flex after:h-4 after:w-4 after:items-center after:justify-center after:rounded-full after:bg-teal-light after:align-text-top after:text-[0.6875rem] after:font-bold after:leading-none after:text-teal after:content-['?'_/_'']"
+        className="relative cursor-help text-left font-[inherit] underline decoration-teal decoration-dotted underline-offset-4 before:absolute before:-inset-x-1 before:bottom-[min(-0.75rem,calc(50%-22px))] before:top-[min(-0.75rem,calc(50%-22px))] before:content-[''] after:ml-0.5 after:inline-flex after:h-4 after:w-4 after:items-center after:justify-center after:rounded-full after:bg-teal-light after:align-text-top after:text-[0.6875rem] after:font-bold after:leading-none after:text-teal after:content-['?'_/_'']"
       >
         {children ?? term.name}
       </button>
