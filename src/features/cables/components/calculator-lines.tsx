@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { awgDiameterM, type DerivationError } from '../../../../shared/cable/derivations';
+import { awgDiameterM } from '../../../../shared/cable/derivations';
 import { shieldedPair } from '../../../../shared/cable/geometries/shielded-pair';
 import { stripline } from '../../../../shared/cable/geometries/stripline';
 import { twistedPair, type FilmKind, type TwistedPairMethod } from '../../../../shared/cable/geometries/twisted-pair';
@@ -9,16 +9,12 @@ import type { LengthUnit } from '../../../lib/format';
 import {
   attempt,
   CalcCard,
-  refused,
-  FormulaNote,
+  CardOutcome,
   lcRows,
+  marker,
   num,
-  Problem,
-  Results,
   sig,
   smallLength,
-  StartCableType,
-  VfCheck,
   type CalculatedEntry,
   type Row,
 } from './calculator-parts';
@@ -27,10 +23,6 @@ interface CardProps {
   unit: LengthUnit;
   onUse?: (entry: CalculatedEntry) => void;
 }
-
-/** "see below" beside the field a derivation refused, so the planner knows which one to change. */
-const marker = (error: DerivationError | null, ...fields: string[]) =>
-  error && fields.includes(error.field) ? 'see below' : undefined;
 
 const GAUGES = [10, 12, 14, 16, 18, 19, 20, 22, 24, 26];
 
@@ -94,38 +86,30 @@ export function StriplineCard({ unit, onUse }: CardProps) {
           hint="PTFE laminate about 2.2, glass-epoxy about 4.3"
         />
       </div>
-      {r.error ? (
-        <Problem error={r.error} />
-      ) : (
-        <>
-          {!refused(r.value.vf) && (
-            <Results
-              testId="calc-stripline"
-              rows={[
-                ...lcRows(r.value, unit, { epsilonR: num(er), muR: 1 }),
-                ...(num(t) > 0 ? ([['Thin-strip Z0 (exact)', `${sig(r.value.thinStripZ0Ohm)} Ω`]] satisfies Row[]) : []),
-              ]}
-            />
-          )}
-          <VfCheck vf={r.value.vf} testId="calc-stripline-check" />
-          <FormulaNote formula={r.value.formula} />
-          <StartCableType
-            onUse={onUse}
-            offer={{
-              formula: r.value.formula,
-              inputs: [
-                `W = ${sig(num(w), 6)} ${len.label}`,
-                `b = ${sig(num(b), 6)} ${len.label}`,
-                `t = ${sig(num(t), 6)} ${len.label}`,
-                `εr = ${sig(num(er), 6)}`,
-              ],
-              vf: r.value.vf,
-              z0Ohm: r.value.z0Ohm,
-              construction: 'other',
-            }}
-          />
-        </>
-      )}
+      <CardOutcome
+        result={r}
+        testId="calc-stripline"
+        onUse={onUse}
+        view={(v) => ({
+          vf: v.vf,
+          rows: [
+            ...lcRows(v, unit, { epsilonR: num(er), muR: 1 }),
+            ...(num(t) > 0 ? ([['Thin-strip Z0 (exact)', `${sig(v.thinStripZ0Ohm)} Ω`]] satisfies Row[]) : []),
+          ],
+          offer: {
+            formula: v.formula,
+            inputs: [
+              `W = ${sig(num(w), 6)} ${len.label}`,
+              `b = ${sig(num(b), 6)} ${len.label}`,
+              `t = ${sig(num(t), 6)} ${len.label}`,
+              `εr = ${sig(num(er), 6)}`,
+            ],
+            vf: v.vf,
+            z0Ohm: v.z0Ohm,
+            construction: 'other',
+          },
+        })}
+      />
     </CalcCard>
   );
 }
@@ -202,46 +186,38 @@ export function TwistedPairCard({ unit, onUse }: CardProps) {
           </>
         )}
       </div>
-      {r.error ? (
-        <Problem error={r.error} />
-      ) : (
-        <>
-          {!refused(r.value.vf) && (
-            <Results
-              testId="calc-twisted-pair"
-              rows={[
-                ['Effective εr', sig(r.value.epsilonEff)],
-                ...(r.value.twistAngleDeg !== undefined
-                  ? ([
-                      ['Pitch angle θ', `${sig(r.value.twistAngleDeg, 3)}°`],
-                      ['Share in the film, q', sig(r.value.q ?? Number.NaN, 3)],
-                    ] satisfies Row[])
-                  : []),
-                ...lcRows(r.value, unit, { epsilonR: r.value.epsilonEff, muR: 1, effective: true }),
-              ]}
-            />
-          )}
-          <VfCheck vf={r.value.vf} testId="calc-twisted-pair-check" />
-          <FormulaNote formula={r.value.formula} />
-          <StartCableType
-            onUse={onUse}
-            offer={{
-              formula: r.value.formula,
-              inputs: [
-                `d = ${sig(len.fromM(wireM), 4)} ${len.label}${gauge ? ` (No. ${gauge})` : ''}`,
-                `D = ${sig(num(insulated), 6)} ${len.label}`,
-                `insulation εr = ${sig(num(er), 6)}`,
-                ...(method === 'twist'
-                  ? [`lay = ${sig(num(lay), 6)} ${len.label}`, film === 'ptfe' ? 'PTFE film' : 'enamel film']
-                  : []),
-              ],
-              vf: r.value.vf,
-              z0Ohm: r.value.z0Ohm,
-              construction: 'twisted-pair',
-            }}
-          />
-        </>
-      )}
+      <CardOutcome
+        result={r}
+        testId="calc-twisted-pair"
+        onUse={onUse}
+        view={(v) => ({
+          vf: v.vf,
+          rows: [
+            ['Effective εr', sig(v.epsilonEff)],
+            ...(v.twistAngleDeg !== undefined
+              ? ([
+                  ['Pitch angle θ', `${sig(v.twistAngleDeg, 3)}°`],
+                  ['Share in the film, q', sig(v.q ?? Number.NaN, 3)],
+                ] satisfies Row[])
+              : []),
+            ...lcRows(v, unit, { epsilonR: v.epsilonEff, muR: 1, effective: true }),
+          ],
+          offer: {
+            formula: v.formula,
+            inputs: [
+              `d = ${sig(len.fromM(wireM), 4)} ${len.label}${gauge ? ` (No. ${gauge})` : ''}`,
+              `D = ${sig(num(insulated), 6)} ${len.label}`,
+              `insulation εr = ${sig(num(er), 6)}`,
+              ...(method === 'twist'
+                ? [`lay = ${sig(num(lay), 6)} ${len.label}`, film === 'ptfe' ? 'PTFE film' : 'enamel film']
+                : []),
+            ],
+            vf: v.vf,
+            z0Ohm: v.z0Ohm,
+            construction: 'twisted-pair',
+          },
+        })}
+      />
     </CalcCard>
   );
 }
@@ -297,38 +273,27 @@ export function ShieldedPairCard({ unit, onUse }: CardProps) {
           error={marker(r.error, 'epsilonR')}
         />
       </div>
-      {r.error ? (
-        <Problem error={r.error} />
-      ) : (
-        <>
-          {!refused(r.value.vf) && (
-            <Results
-              testId="calc-shielded-pair"
-              rows={[
-                ...lcRows(r.value, unit, { epsilonR: num(er), muR: 1 }),
-                ['Without the screen', `${sig(r.value.unshieldedZ0Ohm)} Ω`],
-              ]}
-            />
-          )}
-          <VfCheck vf={r.value.vf} testId="calc-shielded-pair-check" />
-          <FormulaNote formula={r.value.formula} />
-          <StartCableType
-            onUse={onUse}
-            offer={{
-              formula: r.value.formula,
-              inputs: [
-                `d = ${sig(num(wire), 6)} ${len.label}`,
-                `h = ${sig(num(spacing), 6)} ${len.label}`,
-                `D = ${sig(num(shield), 6)} ${len.label}`,
-                `εr = ${sig(num(er), 6)}`,
-              ],
-              vf: r.value.vf,
-              z0Ohm: r.value.z0Ohm,
-              construction: 'other',
-            }}
-          />
-        </>
-      )}
+      <CardOutcome
+        result={r}
+        testId="calc-shielded-pair"
+        onUse={onUse}
+        view={(v) => ({
+          vf: v.vf,
+          rows: [...lcRows(v, unit, { epsilonR: num(er), muR: 1 }), ['Without the screen', `${sig(v.unshieldedZ0Ohm)} Ω`]],
+          offer: {
+            formula: v.formula,
+            inputs: [
+              `d = ${sig(num(wire), 6)} ${len.label}`,
+              `h = ${sig(num(spacing), 6)} ${len.label}`,
+              `D = ${sig(num(shield), 6)} ${len.label}`,
+              `εr = ${sig(num(er), 6)}`,
+            ],
+            vf: v.vf,
+            z0Ohm: v.z0Ohm,
+            construction: 'other',
+          },
+        })}
+      />
     </CalcCard>
   );
 }
@@ -410,42 +375,34 @@ export function TwoDielectricCard({ unit, onUse }: CardProps) {
           hint={rule === 'foam' ? 'For a foam: its density over the solid’s' : 'The share of the field in material 2'}
         />
       </div>
-      {r.error ? (
-        <Problem error={r.error} />
-      ) : (
-        <>
-          {!refused(r.value.vf) && (
-            <Results
-              testId="calc-two-dielectrics"
-              rows={[
-                ['Effective εr', sig(r.value.epsilonEff)],
-                ['Z0 in air', `${sig(r.value.z0AirOhm)} Ω`],
-                ...lcRows(r.value, unit, { epsilonR: r.value.epsilonEff, muR: 1, effective: true }),
-                ['Bounds at this q', `VF ${sig(r.value.vfRange.slowest, 3)} to ${sig(r.value.vfRange.fastest, 3)}`],
-              ]}
-            />
-          )}
-          <VfCheck vf={r.value.vf} testId="calc-two-dielectrics-check" />
-          <FormulaNote formula={r.value.formula} />
-          <StartCableType
-            onUse={onUse}
-            offer={{
-              formula: r.value.formula,
-              inputs: [
-                kind === 'coax'
-                  ? `coax d = ${sig(num(a), 6)} ${len.label}, D = ${sig(num(bDim), 6)} ${len.label}`
-                  : `two wires d = ${sig(num(a), 6)} ${len.label} at s = ${sig(num(bDim), 6)} ${len.label}`,
-                `ε1 = ${sig(num(e1), 6)}`,
-                `ε2 = ${sig(num(e2), 6)}`,
-                `q = ${sig(num(q), 6)}`,
-              ],
-              vf: r.value.vf,
-              z0Ohm: r.value.z0Ohm,
-              construction: kind === 'coax' ? 'coax' : 'twin-lead',
-            }}
-          />
-        </>
-      )}
+      <CardOutcome
+        result={r}
+        testId="calc-two-dielectrics"
+        onUse={onUse}
+        view={(v) => ({
+          vf: v.vf,
+          rows: [
+            ['Effective εr', sig(v.epsilonEff)],
+            ['Z0 in air', `${sig(v.z0AirOhm)} Ω`],
+            ...lcRows(v, unit, { epsilonR: v.epsilonEff, muR: 1, effective: true }),
+            ['Bounds at this q', `VF ${sig(v.vfRange.slowest, 3)} to ${sig(v.vfRange.fastest, 3)}`],
+          ],
+          offer: {
+            formula: v.formula,
+            inputs: [
+              kind === 'coax'
+                ? `coax d = ${sig(num(a), 6)} ${len.label}, D = ${sig(num(bDim), 6)} ${len.label}`
+                : `two wires d = ${sig(num(a), 6)} ${len.label} at s = ${sig(num(bDim), 6)} ${len.label}`,
+              `ε1 = ${sig(num(e1), 6)}`,
+              `ε2 = ${sig(num(e2), 6)}`,
+              `q = ${sig(num(q), 6)}`,
+            ],
+            vf: v.vf,
+            z0Ohm: v.z0Ohm,
+            construction: kind === 'coax' ? 'coax' : 'twin-lead',
+          },
+        })}
+      />
     </CalcCard>
   );
 }

@@ -211,3 +211,46 @@ export function CalcCard({ id, title, intro, children }: { id: string; title: st
     </div>
   );
 }
+
+/** "see below" beside the field a derivation refused, so the planner knows which one to change. */
+export const marker = (error: DerivationError | null, ...fields: string[]) =>
+  error && fields.includes(error.field) ? 'see below' : undefined;
+
+/** What a derivation gives a card to show: its VF, its result rows and, where it can start a library entry, the offer. */
+export interface CardView {
+  vf: number;
+  rows: Row[];
+  offer?: Offer;
+}
+
+/**
+ * What every card shows under its fields: the derivation's refusal; or its results (held back when
+ * faster than light), the VF check, and where the card can start a library entry, the formula it
+ * used and the offer. The check's test id is the results' with `-check`.
+ */
+export function CardOutcome<T>({
+  result,
+  testId,
+  view,
+  onUse,
+}: {
+  result: { value: T; error: null } | { value: null; error: DerivationError };
+  testId: string;
+  view: (value: T) => CardView;
+  onUse?: (entry: CalculatedEntry) => void;
+}) {
+  if (result.error) return <Problem error={result.error} />;
+  const { vf, rows, offer } = view(result.value);
+  return (
+    <>
+      {!refused(vf) && <Results testId={testId} rows={rows} />}
+      <VfCheck vf={vf} testId={`${testId}-check`} />
+      {offer && (
+        <>
+          <FormulaNote formula={offer.formula} />
+          <StartCableType onUse={onUse} offer={offer} />
+        </>
+      )}
+    </>
+  );
+}

@@ -15,21 +15,7 @@ import { M_PER_FT } from '../../../../shared/cable/propagation';
 import { SelectField, TextField } from '../../../components/ui/field';
 import type { LengthUnit } from '../../../lib/format';
 import { ShieldedPairCard, StriplineCard, TwistedPairCard, TwoDielectricCard } from './calculator-lines';
-import {
-  attempt,
-  CalcCard,
-  FormulaNote,
-  lcRows,
-  num,
-  Problem,
-  refused,
-  Results,
-  sig,
-  smallLength,
-  StartCableType,
-  VfCheck,
-  type CalculatedEntry,
-} from './calculator-parts';
+import { attempt, CalcCard, CardOutcome, lcRows, marker, num, sig, smallLength, type CalculatedEntry } from './calculator-parts';
 
 export type { CalculatedEntry } from './calculator-parts';
 
@@ -110,41 +96,33 @@ export function CableCalculator({ unit, onUse }: { unit: LengthUnit; onUse?: (en
               inputMode="decimal"
               value={er}
               onChange={(e) => setEr(e.target.value)}
-              error={perm.error?.field === 'epsilonR' ? 'see below' : undefined}
+              error={marker(perm.error, 'epsilonR')}
             />
             <TextField
               label="Relative permeability μr"
               inputMode="decimal"
               value={mr}
               onChange={(e) => setMr(e.target.value)}
-              error={perm.error?.field === 'muR' ? 'see below' : undefined}
+              error={marker(perm.error, 'muR')}
             />
           </div>
-          {perm.error ? (
-            <Problem error={perm.error} />
-          ) : (
-            <>
-              {!refused(perm.value) && (
-                <Results
-                  testId="calc-permittivity"
-                  rows={[
-                    ['VF', sig(perm.value)],
-                    ['Delay', unit === 'ft' ? `${sig(delayNsPerFt(perm.value))} ns/ft` : `${sig(delayNsPerM(perm.value))} ns/m`],
-                  ]}
-                />
-              )}
-              <VfCheck vf={perm.value} testId="calc-permittivity-check" />
-              <FormulaNote formula={BASIC_FORMULAS.permittivity} />
-              <StartCableType
-                onUse={onUse}
-                offer={{
-                  formula: BASIC_FORMULAS.permittivity,
-                  inputs: [`εr = ${sig(num(er), 6)}`, `μr = ${sig(num(mr), 6)}`],
-                  vf: perm.value,
-                }}
-              />
-            </>
-          )}
+          <CardOutcome
+            result={perm}
+            testId="calc-permittivity"
+            onUse={onUse}
+            view={(v) => ({
+              vf: v,
+              rows: [
+                ['VF', sig(v)],
+                ['Delay', unit === 'ft' ? `${sig(delayNsPerFt(v))} ns/ft` : `${sig(delayNsPerM(v))} ns/m`],
+              ],
+              offer: {
+                formula: BASIC_FORMULAS.permittivity,
+                inputs: [`εr = ${sig(num(er), 6)}`, `μr = ${sig(num(mr), 6)}`],
+                vf: v,
+              },
+            })}
+          />
         </CalcCard>
 
         <CalcCard
@@ -158,49 +136,39 @@ export function CableCalculator({ unit, onUse }: { unit: LengthUnit; onUse?: (en
               inputMode="decimal"
               value={l}
               onChange={(e) => setL(e.target.value)}
-              error={lc.error?.field === 'lHPerM' ? 'see below' : undefined}
+              error={marker(lc.error, 'lHPerM')}
             />
             <TextField
               label={`Capacitance C (pF/${unit})`}
               inputMode="decimal"
               value={c}
               onChange={(e) => setC(e.target.value)}
-              error={lc.error?.field === 'cFPerM' ? 'see below' : undefined}
+              error={marker(lc.error, 'cFPerM')}
             />
           </div>
-          {lc.error ? (
-            <Problem error={lc.error} />
-          ) : (
-            <>
-              {!refused(lc.value.vf) && (
-                <Results
-                  testId="calc-lc"
-                  rows={[
-                    ['VF', sig(lc.value.vf)],
-                    ['Z0', `${sig(lc.value.z0Ohm)} Ω`],
-                    [
-                      'Velocity',
-                      unit === 'ft'
-                        ? `${sig(lc.value.velocityMPerS / M_PER_FT / 1e6)} ft/µs`
-                        : `${sig(lc.value.velocityMPerS / 1e6)} m/µs`,
-                    ],
-                    ['Implied εr·μr', sig(lc.value.epsilonMuR)],
-                  ]}
-                />
-              )}
-              <VfCheck vf={lc.value.vf} testId="calc-lc-check" />
-              <FormulaNote formula={BASIC_FORMULAS.lc} />
-              <StartCableType
-                onUse={onUse}
-                offer={{
-                  formula: BASIC_FORMULAS.lc,
-                  inputs: [`L = ${sig(num(l), 6)} nH/${unit}`, `C = ${sig(num(c), 6)} pF/${unit}`],
-                  vf: lc.value.vf,
-                  z0Ohm: lc.value.z0Ohm,
-                }}
-              />
-            </>
-          )}
+          <CardOutcome
+            result={lc}
+            testId="calc-lc"
+            onUse={onUse}
+            view={(v) => ({
+              vf: v.vf,
+              rows: [
+                ['VF', sig(v.vf)],
+                ['Z0', `${sig(v.z0Ohm)} Ω`],
+                [
+                  'Velocity',
+                  unit === 'ft' ? `${sig(v.velocityMPerS / M_PER_FT / 1e6)} ft/µs` : `${sig(v.velocityMPerS / 1e6)} m/µs`,
+                ],
+                ['Implied εr·μr', sig(v.epsilonMuR)],
+              ],
+              offer: {
+                formula: BASIC_FORMULAS.lc,
+                inputs: [`L = ${sig(num(l), 6)} nH/${unit}`, `C = ${sig(num(c), 6)} pF/${unit}`],
+                vf: v.vf,
+                z0Ohm: v.z0Ohm,
+              },
+            })}
+          />
         </CalcCard>
 
         <CalcCard
@@ -214,44 +182,39 @@ export function CableCalculator({ unit, onUse }: { unit: LengthUnit; onUse?: (en
               inputMode="decimal"
               value={outer}
               onChange={(e) => setOuter(e.target.value)}
-              error={cx.error?.field === 'outerDiameter' ? 'see below' : undefined}
+              error={marker(cx.error, 'outerDiameter')}
             />
             <TextField
               label={`Inner conductor d (${dia})`}
               inputMode="decimal"
               value={inner}
               onChange={(e) => setInner(e.target.value)}
-              error={cx.error?.field === 'innerDiameter' ? 'see below' : undefined}
+              error={marker(cx.error, 'innerDiameter')}
             />
             <TextField
               label="εr"
               inputMode="decimal"
               value={coaxEr}
               onChange={(e) => setCoaxEr(e.target.value)}
-              error={cx.error?.field === 'epsilonR' ? 'see below' : undefined}
+              error={marker(cx.error, 'epsilonR')}
             />
           </div>
-          {cx.error ? (
-            <Problem error={cx.error} />
-          ) : (
-            <>
-              {!refused(cx.value.vf) && (
-                <Results testId="calc-coax" rows={lcRows(cx.value, unit, { epsilonR: num(coaxEr), muR: 1 })} />
-              )}
-              <VfCheck vf={cx.value.vf} testId="calc-coax-check" />
-              <FormulaNote formula={BASIC_FORMULAS.coax} />
-              <StartCableType
-                onUse={onUse}
-                offer={{
-                  formula: BASIC_FORMULAS.coax,
-                  inputs: [`D = ${sig(num(outer), 6)} ${dia}`, `d = ${sig(num(inner), 6)} ${dia}`, `εr = ${sig(num(coaxEr), 6)}`],
-                  vf: cx.value.vf,
-                  z0Ohm: cx.value.z0Ohm,
-                  construction: 'coax',
-                }}
-              />
-            </>
-          )}
+          <CardOutcome
+            result={cx}
+            testId="calc-coax"
+            onUse={onUse}
+            view={(v) => ({
+              vf: v.vf,
+              rows: lcRows(v, unit, { epsilonR: num(coaxEr), muR: 1 }),
+              offer: {
+                formula: BASIC_FORMULAS.coax,
+                inputs: [`D = ${sig(num(outer), 6)} ${dia}`, `d = ${sig(num(inner), 6)} ${dia}`, `εr = ${sig(num(coaxEr), 6)}`],
+                vf: v.vf,
+                z0Ohm: v.z0Ohm,
+                construction: 'coax',
+              },
+            })}
+          />
         </CalcCard>
 
         <CalcCard
@@ -274,57 +237,49 @@ export function CableCalculator({ unit, onUse }: { unit: LengthUnit; onUse?: (en
               value={gauge ? sig(len.fromM(wireM)) : wire}
               disabled={gauge !== ''}
               onChange={(e) => setWire(e.target.value)}
-              error={tw.error?.field === 'wireDiameter' ? 'see below' : undefined}
+              error={marker(tw.error, 'wireDiameter')}
             />
             <TextField
               label={`Centre spacing s (${dia})`}
               inputMode="decimal"
               value={spacing}
               onChange={(e) => setSpacing(e.target.value)}
-              error={tw.error?.field === 'spacing' ? 'see below' : undefined}
+              error={marker(tw.error, 'spacing')}
             />
             <TextField
               label="εr (effective)"
               inputMode="decimal"
               value={twEr}
               onChange={(e) => setTwEr(e.target.value)}
-              error={tw.error?.field === 'epsilonR' ? 'see below' : undefined}
+              error={marker(tw.error, 'epsilonR')}
             />
           </div>
-          {tw.error ? (
-            <Problem error={tw.error} />
-          ) : (
-            <>
-              {!refused(tw.value.vf) && (
-                <Results
-                  testId="calc-two-wire"
-                  rows={[
-                    ...lcRows(tw.value, unit, { epsilonR: num(twEr), muR: 1 }),
-                    [
-                      'Thin-wire Z0',
-                      `${sig(tw.value.thinWire.z0Ohm)} Ω (${tw.value.thinWireError >= 0 ? '+' : ''}${sig(tw.value.thinWireError * 100, 2)} % against acosh)`,
-                    ],
-                  ]}
-                />
-              )}
-              <VfCheck vf={tw.value.vf} testId="calc-two-wire-check" />
-              <FormulaNote formula={BASIC_FORMULAS.twoWire} />
-              <StartCableType
-                onUse={onUse}
-                offer={{
-                  formula: BASIC_FORMULAS.twoWire,
-                  inputs: [
-                    `d = ${sig(len.fromM(wireM), 4)} ${dia}${gauge ? ` (No. ${gauge})` : ''}`,
-                    `s = ${sig(num(spacing), 6)} ${dia}`,
-                    `εr = ${sig(num(twEr), 6)}`,
-                  ],
-                  vf: tw.value.vf,
-                  z0Ohm: tw.value.z0Ohm,
-                  construction: 'twin-lead',
-                }}
-              />
-            </>
-          )}
+          <CardOutcome
+            result={tw}
+            testId="calc-two-wire"
+            onUse={onUse}
+            view={(v) => ({
+              vf: v.vf,
+              rows: [
+                ...lcRows(v, unit, { epsilonR: num(twEr), muR: 1 }),
+                [
+                  'Thin-wire Z0',
+                  `${sig(v.thinWire.z0Ohm)} Ω (${v.thinWireError >= 0 ? '+' : ''}${sig(v.thinWireError * 100, 2)} % against acosh)`,
+                ],
+              ],
+              offer: {
+                formula: BASIC_FORMULAS.twoWire,
+                inputs: [
+                  `d = ${sig(len.fromM(wireM), 4)} ${dia}${gauge ? ` (No. ${gauge})` : ''}`,
+                  `s = ${sig(num(spacing), 6)} ${dia}`,
+                  `εr = ${sig(num(twEr), 6)}`,
+                ],
+                vf: v.vf,
+                z0Ohm: v.z0Ohm,
+                construction: 'twin-lead',
+              },
+            })}
+          />
         </CalcCard>
 
         <StriplineCard unit={unit} onUse={onUse} />
@@ -360,30 +315,25 @@ export function CableCalculator({ unit, onUse }: { unit: LengthUnit; onUse?: (en
               }}
             />
           </div>
-          {delay.error ? (
-            <Problem error={delay.error} />
-          ) : (
-            <>
-              {!refused(delayVfValue) && (
-                <Results
-                  testId="calc-delay"
-                  rows={[
-                    ['One-way delay', `${sig(delay.value.m)} ns/m · ${sig(delay.value.ft)} ns/ft`],
-                    [
-                      'Round trip over the length',
-                      !Number.isFinite(num(meters))
-                        ? '—'
-                        : num(meters) < 0
-                          ? 'a length cannot be negative'
-                          : `${sig(2 * num(meters) * delay.value.m)} ns`,
-                    ],
-                    ['1 ft', '0.3048 m exactly'],
-                  ]}
-                />
-              )}
-              <VfCheck vf={delayVfValue} testId="calc-delay-check" />
-            </>
-          )}
+          <CardOutcome
+            result={delay}
+            testId="calc-delay"
+            view={(v) => ({
+              vf: delayVfValue,
+              rows: [
+                ['One-way delay', `${sig(v.m)} ns/m · ${sig(v.ft)} ns/ft`],
+                [
+                  'Round trip over the length',
+                  !Number.isFinite(num(meters))
+                    ? '—'
+                    : num(meters) < 0
+                      ? 'a length cannot be negative'
+                      : `${sig(2 * num(meters) * v.m)} ns`,
+                ],
+                ['1 ft', '0.3048 m exactly'],
+              ],
+            })}
+          />
         </CalcCard>
       </div>
     </>
