@@ -1,7 +1,8 @@
 import { z } from 'zod';
 import type { RoutePosition } from '../field/route-position';
 import type { GroundPlace } from '../locate/route-geo';
-import { CONDUCTOR_MATERIALS, type ConductorMaterial, type LocateMethod } from '../locate';
+import { CONDUCTOR_MATERIALS, type ConductorMaterial } from '../locate';
+import type { FusedMethod } from '../locate/fuse';
 import { MAX_LENGTH_M, oneLine, required } from './input';
 
 /** Readings other than TDR traces, kept with who took them, when and with what. */
@@ -207,22 +208,11 @@ export const MeasurementListQuerySchema = z.strictObject({
   all: z.enum(['true', 'false'], { error: 'must be true or false' }).optional(),
 });
 
-/** One method's estimate as the finding shows it. */
-export interface LocationMethodView {
-  id: string;
-  method: LocateMethod;
-  label: string;
-  fromEnd: 'A' | 'B';
-  distanceFromEndM: number;
-  distanceFromAM: number;
-  standardUncertaintyM: number;
-  windowStartM: number;
-  windowEndM: number;
-  /** Whether it went into the best location; false for the one that stands apart, or for a single-ended reading already in a two-ended one. */
-  used: boolean;
-  weight: number | null;
-  normalisedResidual: number | null;
-  /** Where the reading is kept. */
+/**
+ * One method's estimate as the finding shows it: the fused method's figures (used: false also for a
+ * single-ended reading already in a two-ended one), without its budget and notes, and where the reading is kept.
+ */
+export interface LocationMethodView extends Omit<FusedMethod, 'budget' | 'notes'> {
   findingId: number | null;
   traceId: number | null;
   measurementId: number | null;
