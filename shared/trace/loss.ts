@@ -112,26 +112,40 @@ export function exactAttenuationNpPerM(model: LossModel, frequencyHz: number, vf
  * (the Levenberg–Marquardt method, D. W. Marquardt, J. SIAM 11 (1963) 431), each kept
  * non-negative. On a thin pair a point at 100 kHz lies where the line is already diffusive;
  * read as R/2Z0 it gives too small a DC resistance, and the edges and the incident step's creep
- * built from that model come out too fast. Returns the starting model when no step improves it, or
- * when the result misses a figure by more than 1 %.
+ * built from that model come out too fast. Two figures give the sum at most two terms; where those
+ * two through the exact propagation cannot meet both figures with non-negative values (a line whose
+ * DC resistance still counts at the lower figure: R is not small beside ωL there, and the exact
+ * attenuation is no sum of the terms), the third term is freed as well and all three are fitted to
+ * the two figures, starting from the sum's reading (the figures do not fix them uniquely; the fit
+ * meets them with the terms nearest that reading). Returns the starting model when no step improves it, or when the result misses a figure
+ * by more than 1 %.
  */
 export function lossModelThroughLine(points: readonly LossPoint[], vf: number): LossModel {
   const start = lossModelFromPoints(points);
   const pts = points.filter((p) => p.frequencyHz > 0 && p.dbPer100m > 0 && Number.isFinite(p.dbPer100m));
   if (pts.length === 0 || !(vf > 0 && vf <= 1)) return start;
+  return throughLine(pts, vf, start, false) ?? (pts.length < 3 ? throughLine(pts, vf, start, true) : null) ?? start;
+}
+
+/**
+ * lossModelThroughLine's fit from `start`: every term free with three figures or more, or with
+ * `freeAll`; otherwise only the terms `start` holds. Null where no step improves on `start` or the
+ * result misses a figure by more than 1 %.
+ */
+function throughLine(pts: readonly LossPoint[], vf: number, start: LossModel, freeAll: boolean): LossModel | null {
   const toModel0 = (m: LossModel) => [m.resistiveNpPerM ?? 0, m.skinNpPerMRootHz, m.dielectricNpPerMPerHz];
   const toModel = (x: number[]): LossModel => ({ resistiveNpPerM: x[0], skinNpPerMRootHz: x[1], dielectricNpPerMPerHz: x[2] });
   const x0 = [start.resistiveNpPerM ?? 0, start.skinNpPerMRootHz, start.dielectricNpPerMPerHz];
   // With three points or more every term is free; a term the first fit set to zero starts at a
   // twentieth of the lowest point's attenuation (a relative step cannot leave zero).
-  if (pts.length >= 3) {
+  if (pts.length >= 3 || freeAll) {
     const fMin = Math.min(...pts.map((p) => p.frequencyHz));
     const aMin = Math.min(...pts.map((p) => npPerM(p.dbPer100m)));
     const seed = [aMin / 20, aMin / 20 / Math.sqrt(fMin), aMin / 20 / fMin];
     for (let j = 0; j < 3; j++) if (!(x0[j] > 0)) x0[j] = seed[j];
   }
   const free = [0, 1, 2].filter((j) => x0[j] > 0);
-  if (free.length === 0) return start;
+  if (free.length === 0) return null;
   const residuals = (x: number[]) => pts.map((p) => exactAttenuationNpPerM(toModel(x), p.frequencyHz, vf) / npPerM(p.dbPer100m) - 1);
   const cost = (x: number[]) => residuals(x).reduce((a, r) => a + r * r, 0);
   let x = x0;
@@ -175,7 +189,7 @@ export function lossModelThroughLine(points: readonly LossPoint[], vf: number): 
   }
   // Kept only where it meets every figure (to 1 %): otherwise the terms the figures allow cannot
   // describe this line through the exact propagation, and the sum's reading stands.
-  return c < cost(toModel0(start)) && residuals(x).every((r) => Math.abs(r) <= 0.01) ? toModel(x) : start;
+  return c < cost(toModel0(start)) && residuals(x).every((r) => Math.abs(r) <= 0.01) ? toModel(x) : null;
 }
 
 /** Solves the k × (k + 1) augmented system in place by Gaussian elimination with partial pivoting; null when singular. */
