@@ -4,6 +4,7 @@ import { IdParam } from '../http/params';
 import { currentUser } from '../auth/guards';
 import type { AppContext } from '../context';
 import { ApiRouter, handle } from '../http/api-router';
+import { once } from '../http/idempotency';
 import * as decisions from './decisions.service';
 import { bestLocationFor } from './best-location';
 import * as findings from './findings.service';
@@ -15,10 +16,14 @@ export function findingRoutes(ctx: AppContext) {
   r.post(
     '/',
     'findings:confirm',
-    handle(async (req, res) => {
-      const finding = await findings.recordFinding(ctx, FindingInputSchema.parse(req.body), currentUser(req).id);
-      res.status(201);
-      return finding;
+    handle((req, res) => {
+      const input = FindingInputSchema.parse(req.body);
+      return once(req, res, {
+        userId: currentUser(req).id,
+        status: 201,
+        make: (receipt) => findings.recordFinding(ctx, input, currentUser(req).id, receipt),
+        replay: (id) => findings.getFinding(id),
+      });
     }),
   );
   r.get(

@@ -9,6 +9,7 @@ import type { AppContext } from '../context';
 import { CableRun, Finding, FindingDecision, RouteMarker, Site, Ticket, TicketFinding, Trace, User } from '../db/models';
 import { sameFaultFindingIds } from './best-location';
 import { AppError } from '../errors';
+import type { WriteReceipt } from '../http/idempotency';
 import { emitFindingConfirmed } from './events';
 import { containsPattern, idsContaining } from '../db/text-search';
 import { containsText } from '../db/search';
@@ -91,7 +92,7 @@ export async function placeEvent(trace: Trace, eventIndex: number) {
   return { event, run, pos, text: describeRoutePosition(pos, metresText) };
 }
 
-export async function recordFinding(ctx: AppContext, input: FindingInput, userId: number): Promise<FindingView> {
+export async function recordFinding(ctx: AppContext, input: FindingInput, userId: number, receipt?: WriteReceipt): Promise<FindingView> {
   const id = await ctx.sequelize.transaction(async (transaction) => {
     // The trace row is held (FOR UPDATE on PostgreSQL; SQLite runs write transactions one at a time) while the
     // checks run, so an archive made at the same moment waits and then sees the finding, or this sees it archived.
@@ -162,6 +163,7 @@ export async function recordFinding(ctx: AppContext, input: FindingInput, userId
     // The site supervisors' e-mail is stored with the finding, never after it: a server stopped in between would
     // leave a confirmed fault nobody was told about.
     if (input.status === 'confirmed') await mailFindingConfirmed(ctx, finding.id, transaction);
+    await receipt?.(transaction, finding.id);
     return finding.id;
   });
   if (input.status === 'confirmed') emitFindingConfirmed(id, ctx.log);

@@ -7,6 +7,7 @@ import {
 import { currentUser } from '../auth/guards';
 import type { AppContext } from '../context';
 import { ApiRouter, handle } from '../http/api-router';
+import { once } from '../http/idempotency';
 import { IdParam } from '../http/params';
 import * as measurements from './measurements.service';
 
@@ -20,10 +21,14 @@ export function measurementRoutes(ctx: AppContext) {
   r.post(
     '/',
     'measurements:record',
-    handle(async (req, res) => {
-      const m = await measurements.recordMeasurement(ctx, MeasurementInputSchema.parse(req.body), currentUser(req));
-      res.status(201);
-      return m;
+    handle((req, res) => {
+      const input = MeasurementInputSchema.parse(req.body);
+      return once(req, res, {
+        userId: currentUser(req).id,
+        status: 201,
+        make: (receipt) => measurements.recordMeasurement(ctx, input, currentUser(req), receipt),
+        replay: (id) => measurements.measurementView(id),
+      });
     }),
   );
   r.get(

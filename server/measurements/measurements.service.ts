@@ -14,6 +14,7 @@ import type { SessionUser } from '../auth/guards';
 import type { AppContext } from '../context';
 import { CableRun, Finding, Measurement } from '../db/models';
 import { AppError } from '../errors';
+import type { WriteReceipt } from '../http/idempotency';
 import { measurementEstimate, runInput } from './measurement-estimate';
 
 /** A reading may be dated this far ahead of the server's clock (a phone's clock runs fast). */
@@ -100,10 +101,16 @@ async function load(id: number, transaction?: Transaction) {
   return m;
 }
 
+/** One reading as recording it answers. */
+export async function measurementView(id: number): Promise<MeasurementView> {
+  return view(await load(id));
+}
+
 export async function recordMeasurement(
   ctx: AppContext,
   input: z.output<typeof MeasurementInputSchema>,
   user: SessionUser,
+  receipt?: WriteReceipt,
 ): Promise<MeasurementView> {
   const id = await ctx.sequelize.transaction(async (transaction) => {
     let runId = input.cableRunId;
@@ -144,9 +151,10 @@ export async function recordMeasurement(
       },
       { transaction },
     );
+    await receipt?.(transaction, m.id);
     return m.id;
   });
-  return view(await load(id));
+  return measurementView(id);
 }
 
 export async function listMeasurements(q: z.output<typeof MeasurementListQuerySchema>): Promise<MeasurementView[]> {

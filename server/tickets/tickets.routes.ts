@@ -3,6 +3,7 @@ import { CloseoutSchema, TicketCommentSchema, TicketCreateSchema, TicketListQuer
 import { currentUser } from '../auth/guards';
 import type { AppContext } from '../context';
 import { ApiRouter, handle } from '../http/api-router';
+import { once } from '../http/idempotency';
 import * as tickets from './tickets.service';
 
 
@@ -38,7 +39,16 @@ export function ticketRoutes(ctx: AppContext) {
   r.post(
     '/:id/closeout',
     'tickets:work',
-    handle((req) => tickets.closeOutTicket(ctx, currentUser(req), IdParam.parse(req.params).id, CloseoutSchema.parse(req.body))),
+    handle((req, res) => {
+      const id = IdParam.parse(req.params).id;
+      const input = CloseoutSchema.parse(req.body);
+      return once(req, res, {
+        userId: currentUser(req).id,
+        status: 200,
+        make: (receipt) => tickets.closeOutTicket(ctx, currentUser(req), id, input, receipt),
+        replay: (ticketId) => tickets.getTicket(ticketId, currentUser(req)),
+      });
+    }),
   );
   return r;
 }

@@ -20,6 +20,7 @@ import { submitCalibration } from '../calibrations/calibrations.service';
 import type { AppContext } from '../context';
 import { CableRun, Finding, MailJob, RouteMarker, Site, Ticket, TicketCloseout, TicketEvent, TicketFinding, Trace, User } from '../db/models';
 import { AppError } from '../errors';
+import type { WriteReceipt } from '../http/idempotency';
 import { formatDate } from '../../shared/units/format-date';
 import { bestLocationFor, repairedBetween, repairTimes, sameFault } from '../findings/best-location';
 import { scoreMethodsAtCloseout, scoresOfCloseout } from '../findings/method-scores';
@@ -267,7 +268,7 @@ export async function commentOnTicket(ctx: AppContext, actor: SessionUser, id: n
   return getTicket(id, actor);
 }
 
-export async function closeOutTicket(ctx: AppContext, actor: SessionUser, id: number, input: CloseoutInput): Promise<TicketDetail> {
+export async function closeOutTicket(ctx: AppContext, actor: SessionUser, id: number, input: CloseoutInput, receipt?: WriteReceipt): Promise<TicketDetail> {
   await ctx.sequelize.transaction(async (transaction) => {
     const t = await loadTicket(id, transaction);
     checkMover(t, actor);
@@ -374,6 +375,7 @@ export async function closeOutTicket(ctx: AppContext, actor: SessionUser, id: nu
       const found = { measuredFrom, foundDistanceM: result.foundDistanceM, locatedDistanceM: result.locatedDistanceM, errorM: result.errorM };
       await mailTicket(ctx, t.id, actor, { kind: 'fixed', to: creator, found }, transaction);
     }
+    await receipt?.(transaction, t.id);
   });
   return getTicket(id, actor);
 }

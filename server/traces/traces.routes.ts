@@ -6,7 +6,6 @@ import { pipeline } from 'node:stream/promises';
 import type { Request, RequestHandler, Response } from 'express';
 import multer from 'multer';
 import {
-  IDEMPOTENCY_KEY,
   ReferenceSchema,
   TraceListQuerySchema,
   TraceUploadSchema,
@@ -18,6 +17,7 @@ import { currentUser } from '../auth/guards';
 import type { AppContext } from '../context';
 import { AppError, capMessage, isMalformedMultipart, malformedMultipartError, multerAppError } from '../errors';
 import { ApiRouter, handle } from '../http/api-router';
+import { idempotencyKey } from '../http/idempotency';
 import { IdParam } from '../http/params';
 import { nulByteError, textTrouble, uploadedFileName } from '../http/strict-input';
 import { analysisPool } from './analysis-pool';
@@ -106,18 +106,6 @@ function senderWentAway(err: unknown, req: Request): boolean {
   if (err.message === 'Request aborted' || err.message === 'Request closed') return true;
   const code = (err as NodeJS.ErrnoException).code;
   return req.destroyed && (code === 'ECONNRESET' || code === 'ECONNABORTED');
-}
-
-/** The optional Idempotency-Key header: the client makes one per file it sends, so a retry of the same upload reuses it. */
-function idempotencyKey(req: Request): string | undefined {
-  const key = req.get('idempotency-key');
-  if (key === undefined) return undefined;
-  if (!IDEMPOTENCY_KEY.test(key)) {
-    throw AppError.badRequest('bad_idempotency_key', 'The Idempotency-Key header must be 8 to 128 letters, digits, dots, dashes, underscores or colons.', {
-      fields: [{ field: 'Idempotency-Key', message: 'must be 8 to 128 of A–Z, a–z, 0–9, . _ : -' }],
-    });
-  }
-  return key;
 }
 
 function duplicateWords(d: DuplicateFile) {

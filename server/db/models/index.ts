@@ -19,6 +19,7 @@ import { associateTicketModels, initTicket, initTicketCloseout, initTicketEvent,
 import { initTrace } from './trace';
 import { associateTraceArchiveEvent, initTraceArchiveEvent } from './trace-archive-event';
 import { associateTraceOutcome, initTraceOutcome } from './trace-outcome';
+import { initRequestReceipt } from './request-receipt';
 import { initUploadReceipt } from './upload-receipt';
 import { initUser, User } from './user';
 
@@ -38,6 +39,7 @@ export function initModels(sequelize: Sequelize) {
   initRouteMarker(sequelize);
   initTrace(sequelize);
   initUploadReceipt(sequelize);
+  initRequestReceipt(sequelize);
   initFinding(sequelize);
   initFindingDecision(sequelize);
   associateFieldModels();
@@ -74,6 +76,7 @@ export { CableRun } from './cable-run';
 export { RouteMarker } from './route-marker';
 export { Trace } from './trace';
 export { UploadReceipt } from './upload-receipt';
+export { RequestReceipt } from './request-receipt';
 export { Finding } from './finding';
 export { FindingDecision } from './finding-decision';
 export { Ticket, TicketFinding, TicketEvent, TicketCloseout } from './ticket';

@@ -13,7 +13,9 @@
  * An upload carries its idempotency key from the moment it is queued, so a
  * send that was cut off after the server stored the file, or that the app was
  * killed in the middle of, is sent again under the same key and answered with
- * the first result: never a second trace.
+ * the first result: never a second trace. A decision's key is made from its
+ * own id (`decisionKey`), so every try of it sends the same one and the
+ * server answers a repeat with the finding the first try made.
  */
 import type { CableEnd, TraceStatus } from '../../../shared/schemas/traces';
 import type { DeviceAnalysis } from '../../../shared/schemas/device-analysis';
@@ -108,6 +110,9 @@ export interface DecisionItem extends ItemBase {
 }
 
 export type OutboxItem = UploadItem | DecisionItem;
+
+/** The Idempotency-Key a decision is sent under: the same on every try, as it is made from the item's own id. */
+export const decisionKey = (item: DecisionItem) => `decision-${item.id}`;
 
 /** What came back from one try: an HTTP answer, or none at all. */
 export type Answer = { kind: 'network'; message: string } | { kind: 'http'; status: number; body: unknown };
@@ -295,8 +300,8 @@ export function resumeAfterSignIn<T extends OutboxItem>(item: T, userId: number)
 
 /**
  * At start: an item left "sending" means the app was closed or killed during
- * the send. Whether or not the server got it, sending it again is safe (the
- * same key, or a decision the server answers "already decided").
+ * the send. Whether or not the server got it, sending it again is safe: under
+ * the same key the server answers with what the first try made.
  */
 export function recoverInterrupted<T extends OutboxItem>(item: T): T {
   return item.state === 'sending' ? { ...item, state: 'queued' } : item;

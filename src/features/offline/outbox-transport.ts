@@ -3,7 +3,7 @@
  * client, which sends people to the sign-in page on a 401: a sync running in
  * the background only records that sign-in is needed and waits.
  */
-import type { Answer, DecisionItem, UploadItem } from './outbox-machine';
+import { decisionKey, type Answer, type DecisionItem, type UploadItem } from './outbox-machine';
 import type { Transport } from './outbox-sync';
 
 const NO_NETWORK = 'Could not reach Rholog: no signal, or the server did not answer.';
@@ -57,7 +57,7 @@ export const browserTransport: Transport = {
     const { traceId, eventIndex } = item.target!;
     return call('/api/findings', {
       method: 'POST',
-      headers: { 'content-type': 'application/json' },
+      headers: { 'content-type': 'application/json', 'Idempotency-Key': decisionKey(item) },
       body: JSON.stringify({ traceId, eventIndex, status: item.status, kind: item.findingKind, note: item.note }),
     });
   },

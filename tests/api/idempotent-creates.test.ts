@@ -1,0 +1,184 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { CableRun, Finding, Measurement, RequestReceipt, Ticket, TicketCloseout } from '../../server/db/models';
+import { startApi, type Client, type TestApi } from './support/api';
+import { pauseFirstRead } from './support/pause';
+import { stepTraceCsv } from './support/field-fixtures';
+import { confirmedFinding, supervisedRun } from './tickets.support';
+
+/**
+ * A phone with poor signal sends a finding, a reading or a close-out, and the answer never comes back: it sends
+ * the same request again under the same Idempotency-Key. The server makes the record once and answers every
+ * repeat with the first answer's status and that record.
+ */
+let api: TestApi;
+let fx: Awaited<ReturnType<typeof supervisedRun>>;
+let tech: Client;
+
+beforeAll(async () => {
+  api = await startApi();
+  fx = await supervisedRun(api, 'Repeat run');
+  tech = await api.as('technician');
+});
+afterAll(() => api.close());
+
+async function uploadTrace(faultM: number): Promise<number> {
+  const res = await tech
+    .postRaw('/api/traces')
+    .field('cableRunId', String(fx.run.id))
+    .field('end', 'A')
+    .attach('file', Buffer.from(stepTraceCsv({ faultM, vf: 0.66 })), `repeat-${faultM}.csv`)
+    .expect(201);
+  return res.body.traces[0].id as number;
+}
+
+/** A Murray loop reading on the run's two 200 m, 16 mm² copper conductors. */
+const murray = (findingId: number, ratio: number) => ({
+  findingId,
+  kind: 'murray',
+  instrument: 'Loop bridge, serial HV-0042',
+  measuredAt: '2026-03-02T10:15:00Z',
+  readings: { fromEnd: 'A', ratio, faulty: [{ lengthM: 200, material: 'copper', sizeMm2: 16 }], temperatureC: 11 },
+});
+
+describe('a decision sent again under its key', () => {
+  it('is answered with the first finding, 201, and no second decision is tried', async () => {
+    const traceId = await uploadTrace(90);
+    const body = { traceId, eventIndex: 0, status: 'confirmed', kind: 'open-conductor', note: 'by the gate' };
+    const first = await tech.post('/api/findings', body).set('Idempotency-Key', 'decision-1b7e6a40').expect(201);
+    expect(first.headers['idempotent-replayed']).toBeUndefined();
+    // The same values with the keys in another order are the same request.
+    const again = await tech
+      .post('/api/findings', { note: 'by the gate', kind: 'open-conductor', status: 'confirmed', eventIndex: 0, traceId })
+      .set('Idempotency-Key', 'decision-1b7e6a40')
+      .expect(201);
+    expect(again.headers['idempotent-replayed']).toBe('true');
+    expect(again.body.id).toBe(first.body.id);
+    expect(again.body.status).toBe('confirmed');
+    expect(again.body.note).toBe('by the gate');
+    expect(await Finding.count({ where: { traceId } })).toBe(1);
+    expect(await RequestReceipt.count({ where: { idempotencyKey: 'decision-1b7e6a40' } })).toBe(1);
+    // Without the key, the second decision on that event is still refused as before.
+    const plain = await tech.post('/api/findings', body).expect(409);
+    expect(plain.body.error.code).toBe('already_decided');
+  });
+
+  it('refuses the same key with other values, naming the header, and changes nothing', async () => {
+    const traceId = await uploadTrace(110);
+    const first = await tech
+      .post('/api/findings', { traceId, eventIndex: 0, status: 'confirmed', kind: 'open-conductor' })
+      .set('Idempotency-Key', 'decision-5c0d9e12')
+      .expect(201);
+    const other = await tech
+      .post('/api/findings', { traceId, eventIndex: 0, status: 'dismissed', kind: 'not-a-fault' })
+      .set('Idempotency-Key', 'decision-5c0d9e12')
+      .expect(422);
+    expect(other.body.error.code).toBe('idempotency_key_reused');
+    expect(other.body.error.message).toMatch(/already used for the same request with other values/);
+    expect(other.body.error.fields).toEqual([{ field: 'Idempotency-Key', message: 'already used with other values' }]);
+    expect((await Finding.findByPk(first.body.id))!.status).toBe('confirmed');
+    const bad = await tech.post('/api/findings', { traceId, eventIndex: 0, status: 'confirmed', kind: 'open-conductor' }).set('Idempotency-Key', 'short').expect(400);
+    expect(bad.body.error.code).toBe('bad_idempotency_key');
+    expect(bad.body.error.fields[0].field).toBe('Idempotency-Key');
+  });
+
+  it('ends two copies sent together in one finding, both answered with it', async () => {
+    const traceId = await uploadTrace(130);
+    const body = { traceId, eventIndex: 0, status: 'confirmed', kind: 'open-conductor' };
+    const [a, b] = await Promise.all([
+      tech.post('/api/findings', body).set('Idempotency-Key', 'decision-77aa0c3e'),
+      tech.post('/api/findings', body).set('Idempotency-Key', 'decision-77aa0c3e'),
+    ]);
+    expect([a.status, b.status]).toEqual([201, 201]);
+    expect(a.body.id).toBe(b.body.id);
+    expect([a.headers['idempotent-replayed'], b.headers['idempotent-replayed']].filter(Boolean)).toEqual(['true']);
+    expect(await Finding.count({ where: { traceId } })).toBe(1);
+  });
+});
+
+describe('a reading sent again under its key', () => {
+  let findingId: number;
+  beforeAll(async () => {
+    findingId = (await confirmedFinding(api, fx.run.id, 120)).id;
+  });
+
+  it('is stored once and the repeat answered with it', async () => {
+    const before = await Measurement.count({ where: { findingId } });
+    const first = await tech.post('/api/measurements', murray(findingId, 0.3)).set('Idempotency-Key', 'reading-0d4c7f1a').expect(201);
+    const again = await tech.post('/api/measurements', murray(findingId, 0.3)).set('Idempotency-Key', 'reading-0d4c7f1a').expect(201);
+    expect(again.headers['idempotent-replayed']).toBe('true');
+    expect(again.body.id).toBe(first.body.id);
+    // 0.3 of a loop of two 200 m conductors = 120 m from A (hand-worked).
+    expect(again.body.estimate.distanceFromAM).toBeCloseTo(120, 6);
+    expect(await Measurement.count({ where: { findingId } })).toBe(before + 1);
+  });
+
+  it('keeps no receipt for a refused try, so the corrected one goes through under the same key', async () => {
+    const refused = await tech.post('/api/measurements', murray(999_999, 0.3)).set('Idempotency-Key', 'reading-9e21b3c4').expect(422);
+    expect(refused.body.error.code).toBe('no_such_finding');
+    expect(await RequestReceipt.count({ where: { idempotencyKey: 'reading-9e21b3c4' } })).toBe(0);
+    const ok = await tech.post('/api/measurements', murray(findingId, 0.25)).set('Idempotency-Key', 'reading-9e21b3c4').expect(201);
+    expect(ok.body.findingId).toBe(findingId);
+  });
+
+  it('refuses a key already used for another kind of request', async () => {
+    const res = await tech.post('/api/measurements', murray(findingId, 0.3)).set('Idempotency-Key', 'decision-1b7e6a40').expect(422);
+    expect(res.body.error.code).toBe('idempotency_key_reused');
+    expect(res.body.error.message).toContain('another request (POST /api/findings)');
+  });
+
+  it('is a key of the account that sent it: another account’s same key is its own reading', async () => {
+    const sup = await api.as('supervisor');
+    const mine = await tech.post('/api/measurements', murray(findingId, 0.31)).set('Idempotency-Key', 'reading-shared-0001').expect(201);
+    const theirs = await sup.post('/api/measurements', murray(findingId, 0.31)).set('Idempotency-Key', 'reading-shared-0001').expect(201);
+    expect(theirs.body.id).not.toBe(mine.body.id);
+    expect(theirs.body.recordedBy.id).toBe(api.users.supervisor.id);
+  });
+
+  it('stores one reading when the repeat arrives while the first is still being stored', async () => {
+    const before = await Measurement.count({ where: { findingId } });
+    // The first try is held inside its transaction, after reading the cable run and before storing anything.
+    const pause = pauseFirstRead(CableRun, 'hold-first-reading', (result) => (result as { id?: number } | null)?.id === fx.run.id);
+    const first = tech.post('/api/measurements', murray(findingId, 0.35)).set('Idempotency-Key', 'reading-4f8e2d6b').then((r) => r);
+    await pause.reached;
+    // The repeat looks for an earlier answer while there is none yet, then goes on to store its own.
+    let lookedUp!: () => void;
+    const secondLookedUp = new Promise<void>((r) => (lookedUp = r));
+    RequestReceipt.addHook('afterFind', 'second-looked-up', (result: unknown, options: { transaction?: unknown }) => {
+      if (!options.transaction && result === null) lookedUp();
+    });
+    const second = tech.post('/api/measurements', murray(findingId, 0.35)).set('Idempotency-Key', 'reading-4f8e2d6b').then((r) => r);
+    await secondLookedUp;
+    RequestReceipt.removeHook('afterFind', 'second-looked-up');
+    pause.release();
+    const [a, b] = await Promise.all([first, second]);
+    expect([a.status, b.status]).toEqual([201, 201]);
+    expect(b.body.id).toBe(a.body.id);
+    expect(b.headers['idempotent-replayed']).toBe('true');
+    expect(await Measurement.count({ where: { findingId } })).toBe(before + 1);
+    expect(await RequestReceipt.count({ where: { idempotencyKey: 'reading-4f8e2d6b' } })).toBe(1);
+  });
+});
+
+describe('a close-out sent again under its key', () => {
+  it('closes the repair once and answers the repeat with the fixed ticket', async () => {
+    const run = await supervisedRun(api, 'Repeat close-out run');
+    const finding = await confirmedFinding(api, run.run.id, 100);
+    const sup = await api.as('supervisor');
+    const ticketId = (await sup.post('/api/tickets', { findingIds: [finding.id], assigneeId: api.users.technician.id }).expect(201)).body.id as number;
+    await tech.post(`/api/tickets/${ticketId}/status`, { to: 'under-way' }).expect(200);
+    const body = { found: { method: 'distance', fromEnd: 'A', distanceM: 104 }, cause: 'water-ingress', workDone: 'New straight joint' };
+    const first = await tech.post(`/api/tickets/${ticketId}/closeout`, body).set('Idempotency-Key', 'closeout-3a9f0b7d').expect(200);
+    expect(first.body.status).toBe('fixed');
+    const again = await tech.post(`/api/tickets/${ticketId}/closeout`, body).set('Idempotency-Key', 'closeout-3a9f0b7d').expect(200);
+    expect(again.headers['idempotent-replayed']).toBe('true');
+    expect(again.body.id).toBe(ticketId);
+    expect(again.body.status).toBe('fixed');
+    expect(again.body.closeouts).toHaveLength(1);
+    expect(again.body.closeouts[0].foundDistanceM).toBeCloseTo(104, 9);
+    expect(await TicketCloseout.count({ where: { ticketId } })).toBe(1);
+    expect((await Ticket.findByPk(ticketId))!.status).toBe('fixed');
+    // A close-out of the fixed repair without the key is still refused as before.
+    const plain = await tech.post(`/api/tickets/${ticketId}/closeout`, body).expect(409);
+    expect(plain.body.error.code).toBe('closeout_not_allowed');
+  });
+});
