@@ -92,7 +92,7 @@ export function authRoutes(ctx: AppContext, deps: { passport: PassportStatic; cs
         // The new session is stored before the account's oldest are ended beyond the cap, so it is counted as the newest.
         req.session.save((saveErr) => {
           if (saveErr) return next(saveErr);
-          capSessions(ctx.sequelize, user.id, req.sessionID, ctx.config.sessionsPerUser)
+          capSessions(ctx.sequelize, user.id, req.sessionID, ctx.config.sessionsPerUser, ctx.config.session.absoluteMs)
             .then((ended) => {
               if (ended) ctx.security('sessions-ended-over-cap', { userId: user.id, ip: req.ip, ended, cap: ctx.config.sessionsPerUser });
               return User.findByPk(user.id);

@@ -51,31 +51,33 @@ function parse(data: string): StoredData {
   }
 }
 
-/** The account's sessions still in force, newest sign-in first. */
-async function liveSessions(userId: number, absoluteMs: number) {
-  const rows = await Session.findAll({ where: { userId, expires: { [Op.gt]: new Date() } } });
-  const now = Date.now();
-  return rows
-    .map((row) => ({ row, data: parse(row.data), created: (row.get('createdAt') as Date | undefined)?.getTime() ?? 0 }))
-    .filter((s) => s.data.signedInAt === undefined || now - s.data.signedInAt <= absoluteMs)
-    .sort(
-      (a, b) =>
-        (b.data.signedInAt ?? b.created) - (a.data.signedInAt ?? a.created) ||
-        b.created - a.created ||
-        (a.row.sid < b.row.sid ? 1 : -1),
-    );
+/** Newest sign-in first (a session from before sign-in times were kept counts from its row's creation), then newest row, then by id. */
+function newestFirst<T extends { sid: string; data: StoredData; createdMs: number }>(sessions: T[]): T[] {
+  const at = (s: T) => s.data.signedInAt ?? s.createdMs;
+  return sessions.sort((a, b) => at(b) - at(a) || b.createdMs - a.createdMs || (a.sid < b.sid ? 1 : -1));
 }
 
 /**
- * After a sign-in: the account keeps at most `max` sessions, the one just opened and the newest others; the
- * oldest are ended (their rows go, so their holders are signed out at their next request). Returns how many ended.
+ * The account's sessions still in force, newest sign-in first: not past their idle end (the row's `expires`)
+ * nor their whole lifetime (`absoluteMs` from sign-in). What the account page lists and what the cap counts.
  */
-export async function capSessions(sequelize: Sequelize, userId: number, currentSid: string, max: number): Promise<number> {
-  const rows = await Session.findAll({ where: { userId }, attributes: ['sid', 'data', 'createdAt'] });
-  const others = rows
-    .filter((r) => r.sid !== currentSid)
-    .map((r) => ({ sid: r.sid, at: parse(r.data).signedInAt ?? (r.get('createdAt') as Date | undefined)?.getTime() ?? 0 }))
-    .sort((a, b) => b.at - a.at || (a.sid < b.sid ? 1 : -1));
+async function liveSessions(userId: number, absoluteMs: number) {
+  const rows = await Session.findAll({ where: { userId, expires: { [Op.gt]: new Date() } } });
+  const now = Date.now();
+  return newestFirst(
+    rows
+      .map((row) => ({ row, sid: row.sid, data: parse(row.data), createdMs: (row.get('createdAt') as Date | undefined)?.getTime() ?? 0 }))
+      .filter((s) => s.data.signedInAt === undefined || now - s.data.signedInAt <= absoluteMs),
+  );
+}
+
+/**
+ * After a sign-in: the account keeps at most `max` sessions in force, the one just opened and the newest others;
+ * the oldest are ended (their rows go, so their holders are signed out at their next request). A session that has
+ * already ended (idle, or past its lifetime) takes no place. Returns how many were ended.
+ */
+export async function capSessions(sequelize: Sequelize, userId: number, currentSid: string, max: number, absoluteMs: number): Promise<number> {
+  const others = (await liveSessions(userId, absoluteMs)).filter((s) => s.sid !== currentSid);
   const ending = others.slice(Math.max(0, max - 1)).map((s) => s.sid);
   if (!ending.length) return 0;
   return sequelize.transaction((transaction) => Session.destroy({ where: { userId, sid: ending }, transaction }));

@@ -1,6 +1,7 @@
 import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Session } from '../../server/db/models';
+import { hashPassword } from '../../server/auth/passwords';
+import { Session, User } from '../../server/db/models';
 import { startApi, TEST_PASSWORD, type TestApi } from './support/api';
 import { captureLog } from './support/log-capture';
 
@@ -98,5 +99,34 @@ describe('sessions per account', () => {
     expect(left.map((s: { id: string }) => s.id)).toEqual([deskId]);
     await desk.agent.delete(`/api/auth/sessions/${phoneId}`).set('x-csrf-token', desk.csrf).expect(404);
     expect(log.security('session-ended-by-owner')).toEqual([expect.objectContaining({ userId: api.users.admin.id })]);
+  });
+
+  it('gives a session that has already ended no place under the cap: a live one is not ended to keep it', async () => {
+    const email = 'cap.ended@example.com';
+    const user = await User.create({ email, name: 'Cai Capped', role: 'technician', passwordHash: await hashPassword(TEST_PASSWORD) });
+    const phone = await browser(email, FIREFOX_ANDROID);
+    const desk = await browser(email, CHROME_WINDOWS);
+    const tablet = await browser(email, SAFARI_IPHONE);
+    // The tablet, the newest sign-in, was then left unused until its idle time ran out: its row stays until the store
+    // sweeps it or the tablet is next used, but the session has ended (its idle end and last use are in the past).
+    const rows = await Session.findAll({ where: { userId: user.id } });
+    const tabletRow = rows.find((r) => JSON.parse(r.data).device === 'Safari on iPhone')!;
+    const idleMs = api.app.ctx.config.session.idleMs;
+    const lastSeenAt = Date.now() - idleMs - 60_000;
+    await tabletRow.update({ expires: new Date(lastSeenAt + idleMs), data: JSON.stringify({ ...JSON.parse(tabletRow.data), lastSeenAt }) });
+
+    // A fourth sign-in: the account has three sessions in force (phone, desk and the new laptop), within the cap of 3.
+    const laptop = await browser(email, FIREFOX_LINUX);
+    for (const b of [phone, desk, laptop]) expect((await b.agent.get('/api/auth/me').expect(200)).body.email).toBe(email);
+    const listed = (await laptop.agent.get('/api/auth/sessions').expect(200)).body.sessions;
+    expect(listed.map((s: { device: string }) => s.device)).toEqual(['Firefox on Linux', 'Chrome on Windows', 'Firefox on Android']);
+    expect(log.security('sessions-ended-over-cap').filter((e) => e.userId === user.id)).toEqual([]);
+    await tablet.agent.get('/api/auth/me').expect(401);
+
+    // A fifth ends the oldest in force, the phone.
+    await browser(email, CHROME_WINDOWS);
+    await phone.agent.get('/api/auth/me').expect(401);
+    for (const b of [desk, laptop]) await b.agent.get('/api/auth/me').expect(200);
+    expect(log.security('sessions-ended-over-cap').filter((e) => e.userId === user.id)).toEqual([expect.objectContaining({ ended: 1, cap: 3 })]);
   });
 });
