@@ -1,4 +1,3 @@
-import { rateLimit } from 'express-rate-limit';
 import { Op } from 'sequelize';
 import type { PassportStatic } from 'passport';
 import { ChangePasswordSchema, LoginSchema, PreferencesSchema } from '../../shared/schemas/users';
@@ -14,30 +13,28 @@ import { WRONG_CREDENTIALS } from './passport';
 import { hashPassword, verifyPassword } from './passwords';
 import { capSessions, deviceOf, endOwnSession, listOwnSessions } from './own-sessions';
 import { limitStore } from './shared-limit-store';
-import { signInLimits, type SignInOutcome } from './sign-in-limits';
+import { passwordChangeLimit, signInLimits, type SignInOutcome } from './sign-in-limits';
 
 export function authRoutes(ctx: AppContext, deps: { passport: PassportStatic; csrf: Csrf }) {
   const r = new ApiRouter('/api/auth');
   const { windowMs } = ctx.config.login;
-  const minutes = Math.max(1, Math.round(windowMs / 60_000));
 
   // Wrong current passwords on the change route, per account: someone at an
-  // unlocked, signed-in screen cannot guess the password behind it.
-  const passwordGuesses = rateLimit({
+  // unlocked, signed-in screen cannot guess the password behind it. Only wrong ones count, once answered.
+  const passwordGuesses = passwordChangeLimit({
+    max: ctx.config.passwordChangeMaxFails,
     windowMs,
-    limit: ctx.config.passwordChangeMaxFails,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    keyGenerator: (req) => `pw:${req.user?.id ?? 0}`,
-    ...(ctx.sequelize.getDialect() === 'postgres' ? { store: limitStore(ctx.sequelize, 'password-change:') } : {}),
-    requestWasSuccessful: (_req, res) => res.locals.wrongCurrentPassword !== true,
-    skipSuccessfulRequests: true,
-    handler: (req, res) => {
-      ctx.security('password-change-limited', { userId: req.user?.id, ip: req.ip });
+    store: ctx.sequelize.getDialect() === 'postgres' ? limitStore(ctx.sequelize, 'password-change:') : undefined,
+    warn: (message, err) => ctx.logger.warn({ err }, message),
+    refuse: (req, res, seconds) => {
+      ctx.security('password-change-limited', { userId: req.user?.id, ip: req.ip, retryAfterSeconds: seconds });
+      const wait = Math.max(1, Math.ceil(seconds / 60));
+      res.setHeader('retry-after', String(seconds));
       res.status(429).json({
         error: {
           code: 'too_many_attempts',
-          message: `Too many wrong current passwords. Wait ${minutes} minute${minutes === 1 ? '' : 's'} and try again, or ask an administrator for a new temporary password.`,
+          message: `Too many wrong current passwords. Wait ${wait} minute${wait === 1 ? '' : 's'} and try again, or ask an administrator for a new temporary password.`,
+          retryAfterSeconds: seconds,
         },
       });
     },

@@ -58,6 +58,23 @@ class KeyedLocks<L extends Mutex | Semaphore> {
   }
 }
 
+/** A failure counter over `windowMs`: the shared store given (several instances on one database), or this process's own. */
+function failureCounter(store: Store | undefined, windowMs: number): Store {
+  const counter = store ?? new MemoryStore();
+  counter.init?.({ windowMs } as Options);
+  return counter;
+}
+
+/** The failures counted under `key` in the window still running, if any. */
+async function failuresSoFar(store: Store, key: string) {
+  const info = await store.get?.(key);
+  return info && (!info.resetTime || info.resetTime.getTime() > Date.now()) ? info : undefined;
+}
+
+/** Seconds until a window ending at `resetTime` is over (the whole window when the store does not say), at least 1. */
+const secondsUntil = (resetTime: Date | undefined, windowMs: number) =>
+  Math.max(1, Math.ceil(((resetTime?.getTime() ?? Date.now() + windowMs) - Date.now()) / 1000));
+
 /** Locals the sign-in route calls once it knows how the try ended (see `signInLimits`). */
 export interface SignInOutcome {
   signInSettled?: (failed: boolean) => void;
@@ -90,24 +107,17 @@ export function signInLimits(
   storeFor: (prefix: string) => Store | undefined = () => undefined,
   warn: (message: string, err: unknown) => void = () => {},
 ): RequestHandler[] {
-  const counter = (prefix: string): Store => {
-    const store = storeFor(prefix) ?? new MemoryStore();
-    store.init?.({ windowMs: limits.windowMs } as Options);
-    return store;
-  };
+  const counter = (prefix: string): Store => failureCounter(storeFor(prefix), limits.windowMs);
   const perAddress = counter('signin-address:');
   const perPair = counter('signin-pair:');
   const perAccount = counter('signin-account:');
   const pairTurns = new KeyedLocks(() => new Mutex());
   const addressTurns = new KeyedLocks(() => new Semaphore(ADDRESS_TRIES_AT_ONCE));
 
-  const failures = async (store: Store, key: string) => {
-    const info = await store.get?.(key);
-    return info && (!info.resetTime || info.resetTime.getTime() > Date.now()) ? info : undefined;
-  };
+  const failures = failuresSoFar;
 
   const refuse = (req: Request, res: Response, scope: 'address' | 'account-and-address', what: string, resetTime: Date | undefined) => {
-    const seconds = Math.max(1, Math.ceil(((resetTime?.getTime() ?? Date.now() + limits.windowMs) - Date.now()) / 1000));
+    const seconds = secondsUntil(resetTime, limits.windowMs);
     security('sign-in-limited', { scope, email: accountOf(req), ip: req.ip, retryAfterSeconds: seconds });
     res.setHeader('retry-after', String(seconds));
     res.status(429).json({ error: { code: 'too_many_attempts', message: `${what} ${retryWords(seconds)}`, retryAfterSeconds: seconds } });
@@ -170,4 +180,58 @@ export function signInLimits(
     })().catch(next);
   };
   return [gate];
+}
+
+/** Locals the change-password route sets when the current password it was given is wrong (see `passwordChangeLimit`). */
+export interface PasswordChangeOutcome {
+  wrongCurrentPassword?: boolean;
+}
+
+/**
+ * Wrong current passwords on the change-password route, per account, counted as sign-in failures are: a try is
+ * checked against the wrong ones so far and counted only once its answer says the current password was wrong
+ * (`res.locals.wrongCurrentPassword`). A right password never counts, however many are sent at once or however
+ * they end (a weak or unchanged new password); tries of one account take turns, so wrong ones sent all at once are
+ * still held to `max`. After `max` wrong ones in the window, `refuse(seconds)` answers until it is over.
+ */
+export function passwordChangeLimit(opts: {
+  max: number;
+  windowMs: number;
+  store?: Store;
+  refuse: (req: Request, res: Response, retryAfterSeconds: number) => void;
+  warn?: (message: string, err: unknown) => void;
+}): RequestHandler {
+  const wrong = failureCounter(opts.store, opts.windowMs);
+  const turns = new KeyedLocks(() => new Mutex());
+  return (req, res, next) => {
+    const key = `pw:${req.user?.id ?? 0}`;
+    void (async () => {
+      const release = await turns.acquire(key);
+      try {
+        const so = await failuresSoFar(wrong, key);
+        if (so && so.totalHits >= opts.max) {
+          release();
+          return opts.refuse(req, res, secondsUntil(so.resetTime, opts.windowMs));
+        }
+      } catch (err) {
+        release();
+        return next(err);
+      }
+      let settled = false;
+      res.on('finish', () => {
+        if (settled) return;
+        settled = true;
+        const counted = (res.locals as PasswordChangeOutcome).wrongCurrentPassword === true ? Promise.resolve(wrong.increment(key)) : Promise.resolve();
+        // The account's next try is checked only once this one is counted.
+        counted.then(release, (err: unknown) => {
+          release();
+          opts.warn?.('a wrong current password could not be counted', err);
+        });
+      });
+      res.on('close', () => {
+        if (!res.writableFinished) release();
+      });
+      next();
+    })().catch(next);
+  };
 }

@@ -94,10 +94,31 @@ describe('POST /api/auth/password: guessing the current password', () => {
     expect(limited.body.error).toEqual({
       code: 'too_many_attempts',
       message: 'Too many wrong current passwords. Wait 15 minutes and try again, or ask an administrator for a new temporary password.',
+      retryAfterSeconds: expect.any(Number),
     });
+    // The window (15 minutes) started with the first wrong try, moments ago.
+    expect(limited.body.error.retryAfterSeconds).toBeGreaterThan(14 * 60);
+    expect(limited.body.error.retryAfterSeconds).toBeLessThanOrEqual(15 * 60);
+    expect(limited.headers['retry-after']).toBe(String(limited.body.error.retryAfterSeconds));
     expect((await User.findByPk(p.id))!.passwordHash).toBe(before);
     expect(log.security('password-change-failed').filter((l) => l.userId === p.id)).toHaveLength(3);
     expect(log.security('password-change-limited').filter((l) => l.userId === p.id)).toHaveLength(1);
+  });
+
+  it('counts only wrong ones, once answered: a burst of tries with the right password is never refused', async () => {
+    const p = await person('burst.right@example.com', 'Bea Burst');
+    // Five tries sent at once with the right current password, each refused for its new password (the same as the current).
+    const burst = await Promise.all(
+      Array.from({ length: 5 }, () => p.client.post('/api/auth/password', { currentPassword: p.temporary, newPassword: p.temporary })),
+    );
+    expect(burst.map((r) => [r.status, r.body.error.code])).toEqual(Array.from({ length: 5 }, () => [400, 'same_password']));
+    expect(log.security('password-change-limited').filter((l) => l.userId === p.id)).toEqual([]);
+    // Wrong ones sent at once are still held to the limit of 3: three are answered, the rest refused.
+    const wrong = await Promise.all(
+      Array.from({ length: 5 }, (_, i) => p.client.post('/api/auth/password', { currentPassword: `guess-${i}`, newPassword: STRONG })),
+    );
+    expect(wrong.map((r) => r.status).sort()).toEqual([400, 400, 400, 429, 429]);
+    expect(log.security('password-change-failed').filter((l) => l.userId === p.id)).toHaveLength(3);
   });
 
   it('does not count a weak new password as a wrong guess', async () => {
