@@ -110,6 +110,32 @@ function unitsRow(cells: string[]): string[] | null {
   return known ? units : null;
 }
 
+/**
+ * The first row of numbers with more (or fewer) values than the header just above it, where the rows after it
+ * have as many as the header: that row is the wrong one. The number of columns is read from the first row of
+ * numbers, so without this the header would not be taken as one and the next, right, row would be blamed.
+ */
+function refuseOddFirstRow(
+  head: FileHead,
+  rows: FileHead['rows'],
+  rowCells: string[][],
+  columnCount: number,
+  delimiter: Delimiter,
+  allNames: (cells: string[]) => boolean,
+): void {
+  const last = rows.length - 1;
+  if (last < 0 || head.samples.length < 2 || rows[last].line !== head.dataLine - 1) return;
+  const header = rowCells[last];
+  if (header.length === columnCount || header.length < 2 || !allNames(header)) return;
+  const next = head.samples[1];
+  if (splitRow(next.text, delimiter).length !== header.length) return;
+  throw new TraceInputError(
+    'RAGGED_ROW',
+    `row has ${columnCount} value${columnCount === 1 ? '' : 's'}; expected ${header.length} like the header on line ${rows[last].line}`,
+    { line: head.samples[0].line },
+  );
+}
+
 /** Split the head into header and metadata rows, and work out the delimiter and the number of columns. */
 export function readLayout(head: FileHead): FileLayout {
   const { delimiter, decimalComma } = readDelimiter(head);
@@ -124,6 +150,7 @@ export function readLayout(head: FileHead): FileLayout {
   }
   const rowCells = rows.map((r) => splitRow(r.text, delimiter ?? headDelimiter));
   const allNames = (cells: string[]) => cells.every((c) => c !== '' && !isNumericCell(c));
+  refuseOddFirstRow(head, rows, rowCells, columnCount, delimiter, allNames);
   // Rows of broken numbers (NaN, text) just above the first clean row belong to the data, not the header.
   let headRows = rows.length;
   while (headRows > 0 && rowCells[headRows - 1].length === columnCount && isNumericCell(rowCells[headRows - 1][0] ?? ''))
