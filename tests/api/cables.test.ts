@@ -132,7 +132,7 @@ describe('PATCH /api/cables/:id', () => {
     expect(answers.map((r) => r.status)).toEqual([200, 200, 200, 200, 200, 200]);
     // Each change bumped the revision once: six distinct revisions after the first.
     expect(answers.map((r) => r.body.revision).sort()).toEqual([2, 3, 4, 5, 6, 7]);
-    const h = (await planner.get(`/api/cables/${c.id}/history?pageSize=20`).expect(200)).body as Array<{
+    const h = (await planner.get(`/api/cables/${c.id}/history`).expect(200)).body as Array<{
       revision: number;
       changes: Array<{ field: string; from: number; to: number }>;
     }>;
