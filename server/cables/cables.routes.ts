@@ -12,8 +12,11 @@ import { refuseBadFormText, uploadedFileName } from '../http/strict-input';
 import { commitImport, csvFileText, exportCsv, previewImport } from './cables.csv';
 import * as cables from './cables.service';
 
-const HistoryQuery = z.object({ sinceRevision: textInt({ min: 0, what: 'a revision number' }).optional() });
-const CommitBody = z.object({ reason: reasonSchema });
+// Strict, as every other body and query: a misspelt field or parameter is refused by name rather than dropped. The
+// CSV comes as the "file" part of a form, or as the JSON body's csv (read by csvText).
+const HistoryQuery = z.strictObject({ sinceRevision: textInt({ min: 0, what: 'a revision number' }).optional() });
+const PreviewBody = z.strictObject({ csv: z.unknown().optional() });
+const CommitBody = z.strictObject({ reason: reasonSchema, csv: z.unknown().optional() });
 
 export const MAX_IMPORT_BYTES = 1024 * 1024;
 
@@ -45,7 +48,16 @@ export function cableRoutes() {
         .send(csv);
     }),
   );
-  r.post('/import/preview', 'cables:write', upload, refuseBadFormText, handle((req) => previewImport(csvText(req).text)));
+  r.post(
+    '/import/preview',
+    'cables:write',
+    upload,
+    refuseBadFormText,
+    handle((req) => {
+      PreviewBody.parse(req.body ?? {});
+      return previewImport(csvText(req).text);
+    }),
+  );
   r.post(
     '/import',
     'cables:write',

@@ -18,8 +18,10 @@ export type TraceStatus = (typeof TRACE_STATUSES)[number];
 const optionalNumber = (what: string, check: (v: number) => boolean, rule: string) =>
   formNumber({ what: `${what} as a number` }).refine((v) => v === undefined || check(v), `${what} ${rule}`);
 
+// Strict: a form field it does not know (a slip such as "pulsewidthNs" or "vfOveride") is refused by name, not dropped
+// while the trace is analysed on the defaults the technician meant to change.
 export const TraceUploadSchema = z
-  .object({
+  .strictObject({
     cableRunId: textId('the id of a cable run (choose a cable run)'),
     end: z.enum(CABLE_ENDS, { error: 'must be A or B (the end the instrument was connected to)' }),
     mode: z.preprocess((v) => (v === '' ? undefined : v), z.enum(['auto', 'step', 'pulse']).default('auto')),
