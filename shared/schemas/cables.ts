@@ -8,7 +8,7 @@ import {
   type LineConstants,
   type PulseVf,
 } from './cable-loss';
-import { foldedNameFits, oneLine, required, textId, textInt } from './input';
+import { foldedNameFits, multiLine, oneLine, required, textId, textInt } from './input';
 
 export * from './cable-loss';
 
@@ -54,12 +54,12 @@ export const cableFields = {
   attenuationDbPer100m: num().min(0, 'must not be negative').max(1000, 'must be at most 1000 dB/100 m').nullable(),
   attenuationFreqMhz: num().gt(0, 'must be greater than 0 MHz').max(100_000, 'must be at most 100000 MHz').nullable(),
   vfSource: z.enum(VF_SOURCES, { error: required(`is required: one of ${VF_SOURCES.join(', ')}`) }),
-  vfReference: z.string({ error: required('is required') }).trim().min(1, 'is required: say where the VF comes from').max(2000),
-  notes: z.string().trim().max(4000, 'must be at most 4000 characters').nullable(),
+  vfReference: multiLine(z.string({ error: required('is required') }).trim().min(1, 'is required: say where the VF comes from').max(2000)),
+  notes: multiLine(z.string().trim().max(4000, 'must be at most 4000 characters').nullable()),
   /** Attenuation at stated frequencies, dB per 100 m; the engine corrects distance and ρ for it. */
   attenuation: attenuationListSchema,
   /** Where the attenuation figures and line constants come from. */
-  lossSource: z.string().trim().max(2000, 'must be at most 2000 characters').nullable().transform((s) => (s === '' ? null : s)),
+  lossSource: multiLine(z.string().trim().max(2000, 'must be at most 2000 characters').nullable().transform((s) => (s === '' ? null : s))),
   ...lineConstantFields,
   /** VF measured with a given pulse width; used instead of vf when a trace's pulse width matches. */
   pulseVfs: pulseVfListSchema,
@@ -122,11 +122,13 @@ export function headlinePoint(points: readonly AttenuationPoint[]): { attenuatio
   return first ? { attenuationDbPer100m: first.dbPer100m, attenuationFreqMhz: first.frequencyMhz } : { attenuationDbPer100m: null, attenuationFreqMhz: null };
 }
 
-export const reasonSchema = z
-  .string({ error: required('is required: say why') })
-  .trim()
-  .min(3, 'is required: say why (at least 3 characters)')
-  .max(2000, 'must be at most 2000 characters');
+export const reasonSchema = multiLine(
+  z
+    .string({ error: required('is required: say why') })
+    .trim()
+    .min(3, 'is required: say why (at least 3 characters)')
+    .max(2000, 'must be at most 2000 characters'),
+);
 
 // Strict: a field name it does not know is refused by name, not dropped while the answer says the change was made.
 export const CableTypeUpdateSchema = z
@@ -164,7 +166,7 @@ export const CalibrationSubmitSchema = z.strictObject({
   roundTripNs: num('is required: a number of nanoseconds').gt(0, 'must be greater than 0 ns').max(10_000_000, 'must be at most 10 ms'),
   source: z.enum(CALIBRATION_SOURCES, { error: `must be one of ${CALIBRATION_SOURCES.join(', ')}` }).default('manual'),
   traceId: z.number().int().positive().nullable().optional(),
-  note: z.string().trim().max(2000, 'must be at most 2000 characters').optional(),
+  note: multiLine(z.string().trim().max(2000, 'must be at most 2000 characters').optional()),
 });
 export type CalibrationSubmitInput = z.input<typeof CalibrationSubmitSchema>;
 
@@ -192,7 +194,7 @@ export const CalibrationAcceptSchema = z.strictObject({
   vf: cableFields.vf.optional(),
   /** Optional new tolerance to store with the accepted VF; the entry's stays otherwise. */
   vfTolerance: cableFields.vfTolerance.optional(),
-  note: z.string().trim().max(2000).optional(),
+  note: multiLine(z.string().trim().max(2000).optional()),
 });
 export const CalibrationRejectSchema = z.strictObject({ reason: reasonSchema });
 

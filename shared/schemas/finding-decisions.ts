@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { required } from './input';
+import { multiLine, required } from './input';
 import { FINDING_KINDS, type FindingStatus } from './findings';
 
 export const FINDING_DECISION_ACTIONS = ['decided', 'reversed'] as const;
@@ -13,11 +13,13 @@ export const FindingReverseSchema = z.strictObject({
    * `decision_changed`) instead of turning it back.
    */
   to: z.enum(['confirmed', 'dismissed'], { error: required("is required: the status the finding is to have, 'confirmed' or 'dismissed'") }),
-  reason: z
-    .string({ error: required('is required: say why the decision is reversed') })
-    .trim()
-    .min(10, 'must be at least 10 characters: say why the decision is reversed')
-    .max(2000, 'must be at most 2000 characters'),
+  reason: multiLine(
+    z
+      .string({ error: required('is required: say why the decision is reversed') })
+      .trim()
+      .min(10, 'must be at least 10 characters: say why the decision is reversed')
+      .max(2000, 'must be at most 2000 characters'),
+  ),
   /** What the event is after the reversal; when left out, a dismissal becomes "not a fault" and a confirmation keeps a fault kind. */
   kind: z.enum(FINDING_KINDS, { error: `must be one of ${FINDING_KINDS.join(', ')}` }).optional(),
 });

@@ -110,6 +110,32 @@ export function oneLine<T extends z.ZodType<string | null | undefined>>(schema: 
 }
 
 /**
+ * Control characters a note, comment or reason may not hold: C0 other than tab, line feed and carriage return
+ * (a bell, a backspace, an escape that starts a terminal sequence, a form feed), DEL and C1. They show as nothing or as
+ * boxes on screen, can rewrite what a terminal or a plain-text e-mail reader shows, and no keyboard types them: they
+ * come from a paste of binary or a hostile client.
+ */
+// eslint-disable-next-line no-control-regex -- finding control characters is the point
+const NOT_TEXT = /[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F-\u009F]/;
+
+/**
+ * A note, comment or reason: text of several lines. Line breaks (LF, CR LF) and tabs are kept; other control
+ * characters are refused, naming the first one and where it is.
+ */
+export function multiLine<T extends z.ZodType<string | null | undefined>>(schema: T): T {
+  return schema.superRefine((v, ctx) => {
+    if (typeof v !== 'string') return;
+    const at = v.search(NOT_TEXT);
+    if (at < 0) return;
+    const code = `U+${v.codePointAt(at)!.toString(16).toUpperCase().padStart(4, '0')}`;
+    ctx.addIssue({
+      code: 'custom',
+      message: `must not contain control characters (${code} at character ${at + 1}); only line breaks and tabs are kept`,
+    });
+  }) as unknown as T;
+}
+
+/**
  * The form of a name two rows may not share (stored as name_key): Unicode compatibility-normalised (NFKC),
  * case-folded in every script (lower, upper, lower again also folds "ß" with "ss") and with runs of spaces as one.
  */

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { foldedNameFits, jsonId, lengthM, MAX_LENGTH_M, oneLine, textId, textInt } from './input';
+import { foldedNameFits, jsonId, lengthM, MAX_LENGTH_M, multiLine, oneLine, textId, textInt } from './input';
 
 const text = (max: number) => z.string().trim().max(max, `must be at most ${max} characters`);
 const optionalText = (max: number) =>
@@ -36,7 +36,7 @@ export const SiteInputSchema = z.object({
     .max(180, 'must be between -180 and 180')
     .nullish()
     .transform((v) => v ?? null),
-  accessNotes: optionalText(4000),
+  accessNotes: multiLine(optionalText(4000)),
   supervisorIds: z.array(id, { error: 'must be a list of user ids' }).max(20, 'at most 20 supervisors').default([]),
 });
 export type SiteInput = z.input<typeof SiteInputSchema>;
@@ -74,7 +74,7 @@ export const RouteMarkerInputSchema = z.object({
   kind: z.enum(MARKER_KINDS, { error: `must be one of ${MARKER_KINDS.join(', ')}` }),
   chainageM: lengthM('chainage'),
   slackM: lengthM('slack', { max: 10_000 }).default(0),
-  notes: optionalText(1000),
+  notes: multiLine(optionalText(1000)),
   /** WGS 84 decimal degrees, optional; both or neither (checked with the run's other markers). */
   latitude: z
     .number({ error: 'must be a number of degrees (WGS 84), or left empty' })
@@ -98,7 +98,7 @@ export const CableRunInputSchema = z.object({
   endALabel: oneLine(text(120).min(1, 'is required')),
   endBLabel: oneLine(text(120).min(1, 'is required')),
   installedLengthM: lengthM('installed length', { positive: true, max: MAX_LENGTH_M }),
-  notes: optionalText(4000),
+  notes: multiLine(optionalText(4000)),
 });
 export type CableRunInput = z.input<typeof CableRunInputSchema>;
 

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { jsonId, lengthM, oneLine, required, textId, textInt } from './input';
+import { jsonId, lengthM, multiLine, oneLine, required, textId, textInt } from './input';
 import type { RoutePosition } from '../field/route-position';
 import { FINDING_KINDS } from './findings';
 import type { MailJobView } from './outbox';
@@ -35,7 +35,7 @@ export const TicketCreateSchema = z.strictObject({
   priority: priority.default('normal'),
   // A new ticket cannot be due in the past (a day's grace for time zones).
   dueDate: dueDate.refine((v) => v === null || Date.parse(`${v}T00:00:00Z`) >= Date.now() - 2 * 86_400_000, 'is in the past'),
-  notes: text(4000),
+  notes: multiLine(text(4000)),
 });
 export type TicketCreateInput = z.input<typeof TicketCreateSchema>;
 
@@ -46,8 +46,8 @@ export const TicketUpdateSchema = z
     assigneeId: id('a user id').nullable(),
     priority,
     dueDate,
-    notes: text(4000),
-    comment: text(2000),
+    notes: multiLine(text(4000)),
+    comment: multiLine(text(2000)),
   })
   .partial()
   .refine((v) => Object.keys(v).some((k) => k !== 'comment'), 'give at least one field to change');
@@ -55,11 +55,11 @@ export type TicketUpdateInput = z.input<typeof TicketUpdateSchema>;
 
 export const TicketMoveSchema = z.strictObject({
   to: z.enum(TICKET_STATUSES, { error: `must be one of ${TICKET_STATUSES.join(', ')}` }),
-  comment: text(2000),
+  comment: multiLine(text(2000)),
 });
 
 export const TicketCommentSchema = z.strictObject({
-  comment: z.string({ error: required('is required') }).trim().min(1, 'is required').max(2000, 'must be at most 2000 characters'),
+  comment: multiLine(z.string({ error: required('is required') }).trim().min(1, 'is required').max(2000, 'must be at most 2000 characters')),
 });
 
 export const FoundPositionSchema = z.discriminatedUnion(
@@ -84,10 +84,10 @@ export const CloseoutSchema = z.strictObject({
   findingId: id('a finding id of this ticket').optional(),
   found: FoundPositionSchema,
   cause: z.enum(FINDING_KINDS, { error: `must be one of ${FINDING_KINDS.join(', ')}` }),
-  workDone: z.string({ error: required('is required') }).trim().min(1, 'is required: say what was done').max(4000, 'must be at most 4000 characters'),
+  workDone: multiLine(z.string({ error: required('is required') }).trim().min(1, 'is required: say what was done').max(4000, 'must be at most 4000 characters')),
   /** File the implied VF as a field calibration (turn off when the fault found was not the one located). */
   fileCalibration: z.boolean({ error: 'must be true or false' }).default(true),
-  comment: text(2000),
+  comment: multiLine(text(2000)),
 });
 export type CloseoutInput = z.input<typeof CloseoutSchema>;
 

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { required, textInt, textNumber } from './input';
+import { multiLine, required, textInt, textNumber } from './input';
 
 const eventIndex = z
   .number({ error: required('is required: the number of the event (counting from 0)') })
@@ -7,12 +7,14 @@ const eventIndex = z
   .min(0, 'must be 0 or more')
   .max(100_000, 'must be an event of this trace');
 
-const note = z
-  .string({ error: 'must be text' })
-  .trim()
-  .max(2000, 'must be at most 2000 characters')
-  .optional()
-  .transform((v) => (v ? v : undefined));
+const note = multiLine(
+  z
+    .string({ error: 'must be text' })
+    .trim()
+    .max(2000, 'must be at most 2000 characters')
+    .optional()
+    .transform((v) => (v ? v : undefined)),
+);
 
 /** "Far end, cable healthy": the event that is the run's far end on a cable with no fault. */
 export const HealthyOutcomeSchema = z.strictObject({ eventIndex, note });
@@ -32,11 +34,13 @@ export type TraceCalibrationInput = z.input<typeof TraceCalibrationSchema>;
 
 /** Archiving or restoring a trace always says why. */
 export const ArchiveReasonSchema = z.strictObject({
-  reason: z
-    .string({ error: required('is required: say why') })
-    .trim()
-    .min(3, 'is required: say why (at least 3 characters)')
-    .max(2000, 'must be at most 2000 characters'),
+  reason: multiLine(
+    z
+      .string({ error: required('is required: say why') })
+      .trim()
+      .min(3, 'is required: say why (at least 3 characters)')
+      .max(2000, 'must be at most 2000 characters'),
+  ),
 });
 
 /** A window of a trace's samples, for drawing a zoomed view at full detail. */

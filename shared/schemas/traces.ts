@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { CALIBRATION_VF_MIN } from '../cable/calibration';
 import { deviceAnalysisField, type DeviceAnalysis } from './device-analysis';
-import { formNumber, textId, textInt } from './input';
+import { formNumber, multiLine, textId, textInt } from './input';
 import type { TraceAnalysis } from './trace-analysis';
 import type { RouteMarkerView } from './sites';
 
@@ -32,12 +32,14 @@ export const TraceUploadSchema = z
     sampleIntervalNs: optionalNumber('sample interval', (v) => v >= 0.001 && v < 1e9, 'must be at least 0.001 ns (1 ps) and under 1 s'),
     // Below VF 0.2 no practical cable is that slow: almost always a unit slip (see shared/cable/calibration.ts).
     vfOverride: optionalNumber('velocity factor', (v) => v >= CALIBRATION_VF_MIN && v <= 1, `must be between ${CALIBRATION_VF_MIN} and 1 (no practical cable is slower, nothing is faster than light)`),
-    vfOverrideReason: z
-      .string()
-      .trim()
-      .max(500)
-      .optional()
-      .transform((v) => (v ? v : undefined)),
+    vfOverrideReason: multiLine(
+      z
+        .string()
+        .trim()
+        .max(500)
+        .optional()
+        .transform((v) => (v ? v : undefined)),
+    ),
     /** The phone's own analysis of the file, when it was analysed there before the upload. */
     deviceAnalysis: deviceAnalysisField,
   })
