@@ -1,8 +1,10 @@
+import type { Transaction } from 'sequelize';
 import type { SessionUser } from '../auth/guards';
 import type { AppContext } from '../context';
 import { Ticket, TicketEvent, User } from '../db/models';
 import { AppError } from '../errors';
 import { mailTicket } from '../tickets/tickets.mail';
+import { ROLE_LABELS } from '../../shared/auth/permissions';
 import { OPEN_STATUSES, type TicketStatus } from '../../shared/tickets/status';
 import type { OpenRepairsView } from '../../shared/schemas/users';
 
@@ -69,4 +71,40 @@ export async function handOverRepairs(ctx: AppContext, fromUserId: number, toUse
     }
     return { moved: tickets.map((t) => t.id), to: { id: to.id, name: to.name } };
   });
+}
+
+/**
+ * A technician given another role no longer works repairs (only an active technician may be a ticket's assignee):
+ * inside the transaction that changes the role, each of their repairs not yet fixed goes back to "raised" with no
+ * assignee, for a supervisor to give to someone else. Its timeline says why, and the person is told it is no longer
+ * theirs. A fixed ticket stays as it is: it waits for a supervisor's sign-off, not for its assignee.
+ */
+export async function releaseRepairsOf(ctx: AppContext, person: User, actor: SessionUser, transaction: Transaction): Promise<number[]> {
+  // Held as every change to a ticket holds it (FOR UPDATE on PostgreSQL; SQLite writes one at a time).
+  const tickets = await Ticket.findAll({
+    where: { assigneeId: person.id, status: [...HANDED_OVER] },
+    order: [['id', 'ASC']],
+    lock: transaction.LOCK.UPDATE,
+    transaction,
+  });
+  const label = ROLE_LABELS[person.role].toLowerCase();
+  const role = `${/^[aeiou]/.test(label) ? 'an' : 'a'} ${label}`;
+  for (const t of tickets) {
+    const fromStatus = t.status;
+    await t.update({ assigneeId: null, status: 'raised' }, { transaction });
+    await TicketEvent.create(
+      {
+        ticketId: t.id,
+        actorId: actor.id,
+        kind: 'assigned',
+        fromStatus,
+        toStatus: 'raised',
+        comment: `${person.name} is now ${role} and no longer works repairs: the ticket waits for a supervisor to assign it.`,
+        changes: JSON.stringify({ assignee: [person.name, null] }),
+      },
+      { transaction },
+    );
+    await mailTicket(ctx, t.id, actor, { kind: 'unassigned', to: person }, transaction);
+  }
+  return tickets.map((t) => t.id);
 }

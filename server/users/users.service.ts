@@ -9,6 +9,7 @@ import type { AppContext } from '../context';
 import { Session, Ticket, User } from '../db/models';
 import { AppError } from '../errors';
 import { hashPassword, temporaryPassword } from '../auth/passwords';
+import { releaseRepairsOf } from './hand-over.service';
 
 export async function listUsers(opts: { q?: string; page: number; pageSize: number }) {
   const where = opts.q
@@ -57,7 +58,7 @@ export async function updateUser(ctx: AppContext, id: number, input: z.output<ty
   if (id === actor.id && (input.active === false || (input.role && input.role !== 'admin'))) {
     throw AppError.badRequest('cannot_demote_self', 'You cannot deactivate yourself or take away your own admin role.');
   }
-  const { user, before } = await ctx.sequelize.transaction(async (transaction) => {
+  const { user, before, unassignedTicketIds } = await ctx.sequelize.transaction(async (transaction) => {
     const lock = ctx.sequelize.getDialect() === 'postgres' ? transaction.LOCK.UPDATE : undefined;
     // The administrators first, always in id order, then the person: every such change takes its locks in one order.
     const admins = await User.findAll({ where: { role: 'admin', active: true }, attributes: ['id'], order: [['id', 'ASC']], lock, transaction });
@@ -79,7 +80,9 @@ export async function updateUser(ctx: AppContext, id: number, input: z.output<ty
     }
     await user.update(input, { transaction });
     if (input.active === false) await Session.destroy({ where: { userId: id }, transaction });
-    return { user, before };
+    // Someone who is no longer a technician cannot work the repairs given to them: they go back to the supervisors.
+    const unassignedTicketIds = before.role === 'technician' && user.role !== 'technician' ? await releaseRepairsOf(ctx, user, actor, transaction) : [];
+    return { user, before, unassignedTicketIds };
   });
   if (input.role !== undefined && input.role !== before.role) {
     ctx.security('role-changed', { userId: id, actorId: actor.id, from: before.role, to: user.role });
@@ -89,7 +92,7 @@ export async function updateUser(ctx: AppContext, id: number, input: z.output<ty
   }
   // Deactivating someone does not take their repairs away silently: say how many are still theirs.
   const openTickets = await Ticket.count({ where: { assigneeId: id, status: [...OPEN_STATUSES] } });
-  return { ...user.toPublic(), openTicketCount: openTickets };
+  return { ...user.toPublic(), openTicketCount: openTickets, unassignedTicketIds };
 }
 
 export async function resetPassword(ctx: AppContext, id: number, actorId: number) {

@@ -132,7 +132,10 @@ export function PersonRow({
             </p>
             <p>
               It applies from their next click: anything only {article(ROLE_LABELS[person.role])} may do stops at once
-              {person.role === 'technician' ? '; repairs assigned to them stay theirs until someone reassigns them' : ''}.
+              {person.role === 'technician' && asking.role !== 'technician'
+                ? '; the repairs given to them and not yet fixed go back to the supervisors, unassigned, for someone else to take on'
+                : ''}
+              .
             </p>
           </>
         )}
