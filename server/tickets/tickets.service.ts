@@ -140,12 +140,46 @@ const describeChange = (field: string, before: unknown, after: unknown) => {
   return field === 'notes' ? 'notes updated' : `${name} ${show(before)} → ${show(after)}`;
 };
 
+/**
+ * Two supervisors editing one ticket at once (both give it to someone, both move its date): a field this change sets
+ * that the other changed after this editor opened the ticket is refused (409 `changed_meanwhile`), rather than
+ * overwriting theirs unseen. A field both set to the same value is no conflict; fields sent without `basedOn` are
+ * taken as before.
+ */
+async function refuseStaleEdit(t: Ticket, input: UpdateInput, transaction: Transaction) {
+  const basedOn = input.basedOn;
+  if (!basedOn) return;
+  const blank = (v: unknown) => (v === undefined || v === '' ? null : v);
+  const stale: Array<{ field: string; now: unknown; from: unknown }> = [];
+  for (const field of ['title', 'assigneeId', 'priority', 'dueDate', 'notes'] as const) {
+    if (input[field] === undefined || !(field in basedOn)) continue;
+    const now = blank(t[field]);
+    const from = blank(basedOn[field]);
+    if (now !== from && now !== blank(input[field])) stale.push({ field, now, from });
+  }
+  if (!stale.length) return;
+  const ids = stale.filter((s) => s.field === 'assigneeId').flatMap((s) => [s.now, s.from]).filter((v): v is number => typeof v === 'number');
+  const people = new Map((await User.findAll({ where: { id: ids }, attributes: ['id', 'name'], transaction })).map((u) => [u.id, u.name]));
+  const shown = (field: string, v: unknown) =>
+    v === null ? (field === 'assigneeId' ? 'nobody' : 'empty') : field === 'assigneeId' ? (people.get(v as number) ?? `user ${String(v)}`) : String(v);
+  const last = await TicketEvent.findOne({ where: { ticketId: t.id }, order: [['id', 'DESC']], include: [{ association: 'actor', attributes: ['name'] }], transaction });
+  const who = (last as unknown as { actor?: { name: string } | null } | null)?.actor?.name;
+  const byWhom = last ? ` (last saved${who ? ` by ${who}` : ''} at ${last.createdAt.toISOString()})` : '';
+  throw new AppError(
+    409,
+    'changed_meanwhile',
+    `Someone else changed ${stale.map((s) => s.field).join(', ')} of ticket ${t.id} after you opened it${byWhom}. Nothing was saved: open the ticket again to see the current values, then make your change if it still stands.`,
+    { fields: stale.map((s) => ({ field: s.field, message: `is now ${shown(s.field, s.now)}; you started from ${shown(s.field, s.from)}` })) },
+  );
+}
+
 export async function updateTicket(ctx: AppContext, actor: SessionUser, id: number, input: UpdateInput): Promise<TicketDetail> {
   await ctx.sequelize.transaction(async (transaction) => {
     const t = await loadTicket(id, transaction);
     if (!['raised', 'assigned', 'under-way'].includes(t.status)) {
       throw new AppError(409, 'ticket_not_editable', `Ticket ${id} is ${TICKET_STATUS_LABELS[t.status].toLowerCase()}; it can no longer be edited.`);
     }
+    await refuseStaleEdit(t, input, transaction);
     const changes: Record<string, [unknown, unknown]> = {};
     for (const field of ['title', 'priority', 'dueDate', 'notes'] as const) {
       if (input[field] !== undefined && input[field] !== t[field]) changes[field] = [t[field], input[field]];

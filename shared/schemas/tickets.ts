@@ -48,9 +48,22 @@ export const TicketUpdateSchema = z
     dueDate,
     notes: multiLine(text(4000)),
     comment: multiLine(text(2000)),
+    /**
+     * The values the editor started from, for the fields it changes: where one has moved on since (another
+     * supervisor saved meanwhile), the change is refused with 409 rather than overwriting theirs unseen.
+     */
+    basedOn: z
+      .strictObject({
+        title: z.string({ error: 'must be text' }),
+        assigneeId: id('a user id').nullable(),
+        priority,
+        dueDate: z.string({ error: 'must be a date (YYYY-MM-DD) or null' }).nullable(),
+        notes: z.string({ error: 'must be text or null' }).max(4000, 'must be at most 4000 characters').nullable(),
+      })
+      .partial(),
   })
   .partial()
-  .refine((v) => Object.keys(v).some((k) => k !== 'comment'), 'give at least one field to change');
+  .refine((v) => Object.keys(v).some((k) => k !== 'comment' && k !== 'basedOn'), 'give at least one field to change');
 export type TicketUpdateInput = z.input<typeof TicketUpdateSchema>;
 
 export const TicketMoveSchema = z.strictObject({

@@ -7,7 +7,7 @@ import { ErrorNotice } from '../../../components/ui/notice';
 import { useAssignable } from '../api/list-assignable';
 import { useUpdateTicket } from '../api/save-ticket';
 
-/** Supervisors: who does it, how urgent, by when. Sends only what changed. */
+/** Supervisors: who does it, how urgent, by when. Sends only what changed, with the values it started from. */
 export function EditTicketForm({ ticket }: { ticket: TicketDetail }) {
   const people = useAssignable();
   const update = useUpdateTicket();
@@ -27,7 +27,11 @@ export function EditTicketForm({ ticket }: { ticket: TicketDetail }) {
   const changed = Object.keys(patch).length > 0;
   const submit = (e: FormEvent) => {
     e.preventDefault();
-    update.mutate({ id: ticket.id, ...patch, comment: comment || null }, { onSuccess: () => setComment('') });
+    // What the form was opened with, for each field it changes: another supervisor's change made meanwhile is refused
+    // (409) rather than overwritten unseen.
+    const opened = { assigneeId: ticket.assignee?.id ?? null, priority: ticket.priority, dueDate: ticket.dueDate, notes: ticket.notes };
+    const basedOn = Object.fromEntries(Object.keys(patch).map((k) => [k, opened[k as keyof typeof opened]]));
+    update.mutate({ id: ticket.id, ...patch, comment: comment || null, basedOn }, { onSuccess: () => setComment('') });
   };
 
   return (
