@@ -136,11 +136,19 @@ export function multiLine<T extends z.ZodType<string | null | undefined>>(schema
 }
 
 /**
- * The form of a name two rows may not share (stored as name_key): Unicode compatibility-normalised (NFKC),
- * case-folded in every script (lower, upper, lower again also folds "ß" with "ss") and with runs of spaces as one.
+ * Characters that draw nothing (Unicode's default-ignorable code points: zero-width space U+200B, word joiner U+2060,
+ * soft hyphen U+00AD, variation selectors, tags …). A name that differs from another only by them looks the same on
+ * every screen and in every e-mail, so its key leaves them out.
+ */
+const INVISIBLE = /\p{Default_Ignorable_Code_Point}/gu;
+
+/**
+ * The form of a name two rows may not share (stored as name_key): without characters that draw nothing, Unicode
+ * compatibility-normalised (NFKC), case-folded in every script (lower, upper, lower again also folds "ß" with "ss")
+ * and with runs of spaces as one.
  */
 export function foldName(name: string): string {
-  return name.normalize('NFKC').toLowerCase().toUpperCase().toLowerCase().replace(/\s+/g, ' ').trim();
+  return name.replace(INVISIBLE, '').normalize('NFKC').replace(INVISIBLE, '').toLowerCase().toUpperCase().toLowerCase().replace(/\s+/g, ' ').trim();
 }
 
 /** The longest folded name the stored key holds (its column is 480 characters long). */
@@ -153,6 +161,10 @@ export const FOLDED_NAME_MAX = 480;
 export function foldedNameFits<T extends z.ZodType<string>>(schema: T): T {
   return schema.superRefine((v, ctx) => {
     const n = foldName(v).length;
+    if (n === 0 && v.length > 0) {
+      ctx.addIssue({ code: 'custom', message: 'must have a visible character: it holds only characters that draw nothing (such as U+200B)' });
+      return;
+    }
     if (n > FOLDED_NAME_MAX) {
       ctx.addIssue({
         code: 'custom',
