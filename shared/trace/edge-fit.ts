@@ -414,6 +414,71 @@ function profile(w: WindowData, t: Template, d: number, fixedH?: number, extra?:
   return { ss: Math.max(0, syy - b * sy - c * sxy - h * sey), b, h };
 }
 
+/**
+ * profile with a second shape at the same delay whose height is free between 0 and `bound(h)` of the
+ * first's (an end's reversed creep, at most the share a resistor of that ρ sends back): y ≈ b + c·x + h·e + g·e₂
+ * solved exactly, then, where g falls outside, held at the nearer bound.
+ */
+function profileShared(w: WindowData, t: Template, t2: Template, d: number, bound: (h: number) => number): { ss: number; b: number; h: number; g: number } {
+  const { y, j0 } = w;
+  const n = y.length;
+  const cols = w.slope ? 4 : 3;
+  const a = new Float64Array(cols * cols);
+  const r = new Float64Array(cols);
+  let syy = 0;
+  const row = new Float64Array(cols);
+  for (let k = 0; k < n; k++) {
+    row[0] = 1;
+    let c = 1;
+    if (w.slope) row[c++] = (k - (n - 1) / 2) / n;
+    row[c++] = templateAt(t, j0 + k - t.start - d);
+    row[c] = templateAt(t2, j0 + k - t2.start - d);
+    for (let i = 0; i < cols; i++) {
+      r[i] += row[i] * y[k];
+      for (let j = 0; j < cols; j++) a[i * cols + j] += row[i] * row[j];
+    }
+    syy += y[k] * y[k];
+  }
+  const sol = solveSymmetric(a, r, cols);
+  const fixed = (g: number) => ({ ...profile(w, t, d, undefined, { t: t2, g }), g });
+  if (!sol) return fixed(bound(0));
+  const h = sol[cols - 2];
+  const g = sol[cols - 1];
+  const lim = bound(h);
+  if (!(Math.sign(g) === Math.sign(lim) && Math.abs(g) <= Math.abs(lim))) return fixed(Math.sign(g) === Math.sign(lim) ? lim : 0);
+  let fit = 0;
+  for (let i = 0; i < cols; i++) fit += sol[i] * r[i];
+  return { ss: Math.max(0, syy - fit), b: sol[0], h, g };
+}
+
+/** The symmetric system a·x = r (cols × cols) by Gaussian elimination with partial pivoting; null when singular. */
+function solveSymmetric(a0: Float64Array, r0: Float64Array, cols: number): Float64Array | null {
+  const a = Float64Array.from(a0);
+  const r = Float64Array.from(r0);
+  const scale = Math.max(...Array.from({ length: cols }, (_, i) => Math.abs(a[i * cols + i])), 1e-300);
+  for (let c = 0; c < cols; c++) {
+    let p = c;
+    for (let i = c + 1; i < cols; i++) if (Math.abs(a[i * cols + c]) > Math.abs(a[p * cols + c])) p = i;
+    if (!(Math.abs(a[p * cols + c]) > 1e-14 * scale)) return null;
+    if (p !== c) {
+      for (let j = 0; j < cols; j++) [a[c * cols + j], a[p * cols + j]] = [a[p * cols + j], a[c * cols + j]];
+      [r[c], r[p]] = [r[p], r[c]];
+    }
+    for (let i = c + 1; i < cols; i++) {
+      const f = a[i * cols + c] / a[c * cols + c];
+      for (let j = c; j < cols; j++) a[i * cols + j] -= f * a[c * cols + j];
+      r[i] -= f * r[c];
+    }
+  }
+  const x = new Float64Array(cols);
+  for (let i = cols - 1; i >= 0; i--) {
+    let v = r[i];
+    for (let j = i + 1; j < cols; j++) v -= a[i * cols + j] * x[j];
+    x[i] = v / a[i * cols + i];
+  }
+  return x;
+}
+
 /** A second shape at the same delay with its height given (a terminated end's mismatch to the line, terminatedFit). */
 interface Extra {
   t: Template;
@@ -731,7 +796,16 @@ function fitWindow(
  * both through the round trip. An end matched to Z0 (ρ = 0) sends back the reversed creep alone, a slow
  * drop from the end's round trip on that reads late, and smaller, on the edge of a plain reflection.
  * The fit is the plain one with the second shape added at the same delay, its height −(1 − ρ²) taken
- * from the height fitted the pass before (two passes).
+ * from the height fitted the pass before (two passes). For an end, the second shape's height is then also
+ * fitted freely between 0 and −(1 − ρ²) (profileShared), and taken where it leaves less: the share the
+ * first-order reading gives is the most the record can hold, and the record often holds less (the library's
+ * loss, a fit to a few frequencies, and the first-order reading both set it only roughly; a 64 Ω end on a
+ * lossy coax, step record, read with the full share, was 21 m late). That adds a free parameter.
+ * `sloped` fits the level with a slope (a step record's always does). An end's fit on a pulse record takes
+ * it too: its baseline is a line through the resting level of the record's two halves (signal.ts,
+ * pulseSignal), and past a resistive end the reversed creep's long tail fills the second half and tilts
+ * that line, so the end's window sits on a slope the record's own echoes did not make. `element` 'edge'
+ * leaves the second shape out: the plain edge on the same sloping level, for a fair comparison.
  * A lumped fault along the line meets the line's own impedance too, with the line going on past it:
  * a series resistor reflects Γ = R/(R + 2Zc), a shunt one −Zc/(Zc + 2R), to first order
  * ρ − 2|ρ|(1 − |ρ|)·ρ_in (ρ read against Z0; Pozar §2.3, §4.4). `element` 'fault' fits that share
@@ -743,25 +817,33 @@ function terminatedFit(
   win: EventWindow,
   model: LossModel,
   twoWayM: number,
-  element: 'end' | 'fault' = 'end',
+  element: 'end' | 'fault' | 'edge' = 'end',
+  sloped = ctx.shape.step,
 ): (ModelFit & { g: number; tb: Template }) | null {
   const { rec, vf } = ctx.input;
   if (!vf || !((model.resistiveNpPerM ?? 0) > 0 || model.skinNpPerMRootHz > 0)) return null;
   const q = Math.max(1, Math.ceil((win.to - win.from) / MAX_FIT_POINTS));
-  const w = windowData(ctx, win, q);
+  const w = { ...windowData(ctx, win, q), slope: sloped };
   if (w.y.length < 6) return null;
   const launch = coarseLaunch(ctx.input, ctx.shape, q);
   const span = w.y.length + (win.hi - win.lo) / q + 8;
   const ref = vfReferenceHz(ctx.input);
   const ta = buildTemplate(launch, causalKernel(ctx, model, twoWayM, q, span), ctx.shape.step);
   const tb = buildTemplate(launch, exactLineKernel(model, Math.max(0, twoWayM), rec.dt * q, span, vf, ref, 'inputReflection'), ctx.shape.step);
-  const creepShare = (h: number) => (element === 'end' ? -(1 - h * h) : -2 * Math.abs(h) * (1 - Math.abs(h)));
+  const creepShare = (h: number) => (element === 'end' ? -(1 - h * h) : element === 'fault' ? -2 * Math.abs(h) * (1 - Math.abs(h)) : 0);
   let g = element === 'end' ? -1 : 0;
   let best: { d: number; ss: number; h: number } = { d: win.lo / q, ss: Infinity, h: 0 };
   for (let pass = 0; pass < 2; pass++) {
     best = bestDelay(w, ta, win.lo / q, win.hi / q, 0, undefined, undefined, { t: tb, g });
     if (!Number.isFinite(best.ss) || !(Math.abs(best.h) <= MAX_HEIGHT)) return null;
     if (pass === 0) g = creepShare(best.h);
+  }
+  if (element === 'end') {
+    const free = searchDelay((d) => profileShared(w, ta, tb, d, creepShare), win.lo / q, win.hi / q, 0, 1e-3);
+    if (Number.isFinite(free.ss) && free.ss < best.ss && Math.abs(free.h) <= MAX_HEIGHT) {
+      best = free;
+      g = free.g;
+    }
   }
   const extra = { t: tb, g };
   const sigma = delaySigma(w, ta, best.d, best.ss, (win.hi - win.lo) / q / 2, undefined, extra);
@@ -781,11 +863,12 @@ function terminatedSeen(f: ModelFit & { g: number; tb: Template }, win: EventWin
 }
 
 /**
- * A terminated end's fit replaces the plain one where the data favour it by these odds. The two have the
- * same free parameters (delay, height, level and slope: the creep's height is tied to the edge's), so the
- * ratio of their likelihoods, (S_plain/S_terminated)^(N/2) for Gaussian residuals of unknown spread over
- * N points, compares them directly; 100 is "decisive" on H. Jeffreys' scale ("Theory of Probability",
- * 3rd ed., 1961, appendix B).
+ * A terminated end's fit replaces the plain one where the data favour it by these odds. The two have
+ * nearly the same free parameters (delay, height, level and slope; the end's creep share is bounded by
+ * its edge's, and free inside that bound), so the ratio of their likelihoods, (S_plain/S_terminated)^(N/2)
+ * for Gaussian residuals of unknown spread over N points, compares them directly; 100 is "decisive" on
+ * H. Jeffreys' scale ("Theory of Probability", 3rd ed., 1961, appendix B), far past the factor of about
+ * e^½ one more nested parameter gains on noise alone (Wilks' theorem, χ² with one degree of freedom).
  */
 const TERMINATED_ODDS = 100;
 /**
@@ -794,6 +877,12 @@ const TERMINATED_ODDS = 100;
  * plain edge reads the end as well.
  */
 const TERMINATED_MAX_RHO = 0.5;
+/**
+ * The same on a pulse record, whose window (the launch pulse's spread echo and the creep's long tail) is long
+ * and fitted on a sloping level with the creep's share free: there a plain rise of 0.23 with more line past it
+ * was read as a 0.28 end with its creep, 7 m late. A resistor within 1.5 times Z0 is still taken.
+ */
+const TERMINATED_MAX_RHO_PULSE = 0.2;
 
 const twoWayOf = (ctx: FitContext, delaySamples: number) => Math.max(0, delaySamples) * ctx.twoWayMPerSample;
 
@@ -1097,11 +1186,11 @@ function terminatedEnd(
   const wide = eventWindow(ctx, events, k, Math.max(win.hi - win.lo, m.riseSamples));
   if (wide.to - wide.from < 8) return null;
   const guess = (wide.lo + wide.hi) / 2;
-  let tf = terminatedFit(ctx, wide, model, twoWayOf(ctx, guess));
-  if (tf && Math.abs(tf.d - guess) > 0.02 * Math.abs(guess)) tf = terminatedFit(ctx, wide, model, twoWayOf(ctx, tf.d)) ?? tf;
+  let tf = terminatedFit(ctx, wide, model, twoWayOf(ctx, guess), 'end', true);
+  if (tf && Math.abs(tf.d - guess) > 0.02 * Math.abs(guess)) tf = terminatedFit(ctx, wide, model, twoWayOf(ctx, tf.d), 'end', true) ?? tf;
   if (!tf) return null;
   const inside = tf.d > wide.lo + 0.01 * (wide.hi - wide.lo) && tf.d < wide.hi - 0.01 * (wide.hi - wide.lo);
-  if (!inside || Math.abs(tf.h) > TERMINATED_MAX_RHO || Math.sign(terminatedSeen(tf, wide)) !== Math.sign(m.height)) return null;
+  if (!inside || Math.abs(tf.h) > (ctx.shape.step ? TERMINATED_MAX_RHO : TERMINATED_MAX_RHO_PULSE) || Math.sign(terminatedSeen(tf, wide)) !== Math.sign(m.height)) return null;
   // Only a shape that explains its window to the noise is taken: where it leaves more, the window holds
   // more than an end (a neighbour, a change of cable, a loss the library misstates), and the odds
   // between two wrong shapes say little.
@@ -1109,7 +1198,8 @@ function terminatedEnd(
   // Decisively better than a plain edge, and than a fault with the line going on past it.
   const favoured = (other: ModelFit | null) => !other || (tf.points / 2) * Math.log(other.ss / tf.ss) > Math.log(TERMINATED_ODDS);
   if (!favoured(fitWindow(ctx, wide, model, twoWayOf(ctx, tf.d)))) return null;
-  if (!favoured(terminatedFit(ctx, wide, model, twoWayOf(ctx, tf.d), 'fault'))) return null;
+  if (!favoured(terminatedFit(ctx, wide, model, twoWayOf(ctx, tf.d), 'fault', true))) return null;
+  if (!ctx.shape.step && !favoured(terminatedFit(ctx, wide, model, twoWayOf(ctx, tf.d), 'edge', true))) return null;
   return { f: tf, win: wide };
 }
 
