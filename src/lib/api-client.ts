@@ -65,6 +65,8 @@ export interface RequestOptions {
   query?: Record<string, string | number | boolean | undefined | null>;
   /** Do not redirect to sign-in on 401 (the session check itself). */
   allowUnauthenticated?: boolean;
+  /** Sent as the Idempotency-Key header: the same on every try of one create (see `repeatKey`). */
+  idempotencyKey?: string;
   signal?: AbortSignal;
 }
 
@@ -98,6 +100,7 @@ export async function api<T>(path: string, options: RequestOptions = {}, retried
   const isForm = typeof FormData !== 'undefined' && options.body instanceof FormData;
   if (options.body !== undefined && !isForm) headers['content-type'] = 'application/json';
   if (method !== 'GET') headers['x-csrf-token'] = csrfToken ?? (await fetchCsrfToken());
+  if (options.idempotencyKey) headers['idempotency-key'] = options.idempotencyKey;
   let res: Response;
   try {
     res = await fetch(withQuery(path, options.query), {

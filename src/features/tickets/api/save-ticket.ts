@@ -1,21 +1,25 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { useState } from 'react';
 import type { CloseoutInput, TicketCreateInput, TicketDetail, TicketUpdateInput } from '../../../../shared/schemas/tickets';
 import type { TicketStatus } from '../../../../shared/tickets/status';
 import { api } from '../../../lib/api-client';
+import { repeatKey } from '../../../lib/repeat-key';
 
 export const createTicket = (input: TicketCreateInput) => api<TicketDetail>('/api/tickets', { method: 'POST', body: input });
 export const updateTicket = ({ id, ...patch }: TicketUpdateInput & { id: number }) => api<TicketDetail>(`/api/tickets/${id}`, { method: 'PATCH', body: patch });
 export const moveTicket = ({ id, to, comment }: { id: number; to: TicketStatus; comment?: string }) =>
   api<TicketDetail>(`/api/tickets/${id}/status`, { method: 'POST', body: { to, comment: comment || null } });
 export const commentOnTicket = ({ id, comment }: { id: number; comment: string }) => api<TicketDetail>(`/api/tickets/${id}/comments`, { method: 'POST', body: { comment } });
-export const closeOutTicket = ({ id, ...input }: CloseoutInput & { id: number }) => api<TicketDetail>(`/api/tickets/${id}/closeout`, { method: 'POST', body: input });
+export const closeOutTicket = ({ id, ...input }: CloseoutInput & { id: number }, idempotencyKey?: string) =>
+  api<TicketDetail>(`/api/tickets/${id}/closeout`, { method: 'POST', body: input, idempotencyKey });
 
 /** Every ticket change refreshes the lists, the ticket, the dashboard and the calibration queue it may feed. */
-function useTicketMutation<TIn>(fn: (input: TIn) => Promise<TicketDetail>) {
+function useTicketMutation<TIn>(fn: (input: TIn) => Promise<TicketDetail>, onTaken?: () => void) {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: fn,
     onSuccess: (t) => {
+      onTaken?.();
       qc.setQueryData(['tickets', 'one', t.id], t);
       void qc.invalidateQueries({ queryKey: ['tickets'] });
       void qc.invalidateQueries({ queryKey: ['dashboard'] });
@@ -28,4 +32,8 @@ export const useCreateTicket = () => useTicketMutation(createTicket);
 export const useUpdateTicket = () => useTicketMutation(updateTicket);
 export const useMoveTicket = () => useTicketMutation(moveTicket);
 export const useCommentOnTicket = () => useTicketMutation(commentOnTicket);
-export const useCloseOutTicket = () => useTicketMutation(closeOutTicket);
+/** A close-out sent again with the same values (its answer lost) goes under the same key: the server records it once. */
+export function useCloseOutTicket() {
+  const [key] = useState(() => repeatKey('closeout'));
+  return useTicketMutation((input: CloseoutInput & { id: number }) => closeOutTicket(input, key.keyFor(input)), key.taken);
+}
