@@ -8,6 +8,7 @@ import { AppError, type FieldIssue } from '../errors';
 import { protectCell, unprotectCell } from './csv-cells';
 import { CABLE_FIELDS, cableNameKey, diffCable, historyValue, LIST_FIELDS, planUpdate, type CableField } from './cables.service';
 import { findBidiControl } from '../http/strict-input';
+import { csvTrouble, unclosedQuoteLine } from '../../shared/trace/csv-trouble';
 
 /**
  * The library as CSV: one row per cable type, SI units named in the header.
@@ -171,14 +172,6 @@ export function csvDelimiter(text: string): ',' | ';' {
   return count(';') > count(',') ? ';' : ',';
 }
 
-/** What a CSV reading error means, in words a planner can act on. */
-const CSV_TROUBLE: Record<string, string> = {
-  CSV_QUOTE_NOT_CLOSED: 'a double quote (") opens a cell and is never closed; look for a stray quote on this line or above',
-  CSV_INVALID_CLOSING_QUOTE: 'a quoted cell goes on after its closing quote; inside quotes, write a quote mark twice ("")',
-  CSV_NON_TRIMABLE_CHAR_AFTER_CLOSING_QUOTE: 'a quoted cell goes on after its closing quote; inside quotes, write a quote mark twice ("")',
-  INVALID_OPENING_QUOTE: 'a quote mark appears inside a cell that does not start with one; put the whole cell in quotes and write the quote mark twice ("")',
-};
-
 function readRecords(text: string, delimiter: ',' | ';') {
   if (text.includes('\u0000')) throw fileError('The file is not a text CSV file.');
   try {
@@ -188,8 +181,10 @@ function readRecords(text: string, delimiter: ',' | ';') {
     }>;
   } catch (err) {
     if (err instanceof CsvError) {
-      const line = (err as CsvError & { lines?: number }).lines;
-      const why = CSV_TROUBLE[err.code] ?? 'its cells are not laid out as CSV (one row per line, cells separated by commas or semicolons)';
+      // A quote never closed is noticed at the end of the file: the line named is the one where it was opened.
+      const end = (err as CsvError & { lines?: number }).lines;
+      const line = (err.code === 'CSV_QUOTE_NOT_CLOSED' ? unclosedQuoteLine(text.replace(/^\uFEFF/, ''), 1) : null) ?? end;
+      const why = csvTrouble(err.code);
       throw fileError(`The file cannot be read${line ? ` at line ${line}` : ''}: ${why}.`, line);
     }
     throw err;

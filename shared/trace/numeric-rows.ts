@@ -15,6 +15,7 @@
  * linear in the size of the file.
  */
 import { parse as csvParse } from 'csv-parse/browser/esm/sync';
+import { csvTrouble, unclosedQuoteLine } from './csv-trouble';
 import { shorten, TraceInputError } from './errors';
 import { decodeText, lineTooLong, MAX_DATA_LINE_BYTES } from './lines';
 
@@ -445,10 +446,16 @@ export function readBodyCsvParse(spec: BodySpec, store: RowStore, from: Resume):
     });
   } catch (err) {
     if (err instanceof TraceInputError) throw err;
-    const e = err as { message?: string; lines?: number };
-    const line = typeof e.lines === 'number' ? from.line + e.lines - 1 : undefined;
-    const msg = shorten((e.message ?? 'unreadable CSV').replace(/^Invalid [^:]*:\s*/, ''), 120);
-    throw new TraceInputError('CSV_SYNTAX', `the CSV could not be read (${msg})`, line !== undefined ? { line } : {});
+    const e = err as { code?: string; lines?: number };
+    // The reader counts lines from the body's first; a quote never closed is noticed at the end, so the
+    // line named is the one where it was opened.
+    const opened = e.code === 'CSV_QUOTE_NOT_CLOSED' ? unclosedQuoteLine(body, from.line) : null;
+    const line = opened ?? (typeof e.lines === 'number' ? from.line + e.lines - 1 : undefined);
+    throw new TraceInputError(
+      'CSV_SYNTAX',
+      `the CSV could not be read: ${csvTrouble(e.code)}`,
+      line !== undefined ? { line } : {},
+    );
   }
 }
 

@@ -39,7 +39,7 @@ describe('cable library CSV as spreadsheets write it', () => {
     const res = await upload(csv).expect(422);
     expect(res.body.error.code).toBe('csv_unreadable');
     expect(res.body.error.message).toBe(
-      'The file cannot be read at line 2: a double quote (") opens a cell and is never closed; look for a stray quote on this line or above.',
+      'The file cannot be read at line 2: a double quote (") opens a cell and is never closed; look for a stray quote on this line.',
     );
     expect(res.body.error.message).not.toMatch(/Quote Not Closed|parsing/);
   });
