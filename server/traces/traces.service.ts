@@ -642,6 +642,27 @@ function toPoints(x: Float64Array, y: Float64Array, buckets: number) {
   return decimateMinMax(x, y, buckets).map((p) => ({ t: p.x, y: p.y }));
 }
 
+/** Point counts kept per trace's samples: the page's usual one and a few zoomed ones. */
+const VIEW_POINT_COUNTS_KEPT = 4;
+const viewPoints = new WeakMap<ParsedTrace, Map<number, Array<{ t: number; y: number }>>>();
+
+/**
+ * A trace's samples reduced to `points` for its page, worked out once per point count while its samples are
+ * cached (reducing 600,000 samples takes tens of milliseconds on the request thread, and many people may
+ * open one trace at once). The answer is shared: callers must not change it.
+ */
+export function samplePoints(parsed: ParsedTrace, points: number): Array<{ t: number; y: number }> {
+  let byCount = viewPoints.get(parsed);
+  if (!byCount) viewPoints.set(parsed, (byCount = new Map()));
+  let hit = byCount.get(points);
+  if (!hit) {
+    hit = toPoints(scaled(parsed.timeS, 1e9), parsed.amplitude, points);
+    if (byCount.size >= VIEW_POINT_COUNTS_KEPT) byCount.delete(byCount.keys().next().value!);
+    byCount.set(points, hit);
+  }
+  return hit;
+}
+
 async function comparison(
   ctx: AppContext,
   trace: Trace,
@@ -741,7 +762,7 @@ export async function getTrace(
         : null,
     analysis: boundedAnalysis(trace.analysis),
     zeroNs: trace.analysis ? zeroTimeNs(trace.analysis, trace.settings) : 0,
-    samples: parsed ? toPoints(scaled(parsed.timeS, 1e9), parsed.amplitude, opts.points) : [],
+    samples: parsed ? samplePoints(parsed, opts.points) : [],
     sampleCount: parsed?.amplitude.length ?? 0,
     cableRun: {
       id: run.id,
