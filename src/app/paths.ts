@@ -15,7 +15,15 @@ export const paths = {
   dashboard: { pattern: '/dashboard', to: () => '/dashboard' },
   upload: { pattern: '/upload', to: () => '/upload' },
   device: { pattern: '/device', to: () => '/device' },
-  deviceAnalyse: { pattern: '/device/analyse', to: (itemId?: string) => (itemId ? `/device/analyse?item=${encodeURIComponent(itemId)}` : '/device/analyse') },
+  deviceAnalyse: {
+    pattern: '/device/analyse',
+    /** One analysed item, or the form with where the trace was taken already chosen (site, run, end). */
+    to: (itemId?: string, where?: { site?: string; run?: string; end?: string }) => {
+      if (itemId) return `/device/analyse?item=${encodeURIComponent(itemId)}`;
+      const q = new URLSearchParams(Object.entries(where ?? {}).filter(([, v]) => !!v) as Array<[string, string]>).toString();
+      return q ? `/device/analyse?${q}` : '/device/analyse';
+    },
+  },
   traces: { pattern: '/traces', to: () => '/traces' },
   trace: { pattern: '/traces/:traceId', to: (traceId: number) => `/traces/${traceId}` },
   findings: { pattern: '/findings', to: () => '/findings' },

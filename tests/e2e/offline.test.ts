@@ -266,3 +266,55 @@ describe('a trace analysed on the phone while the cable library changed', () => 
     await page.close();
   });
 });
+
+describe('the upload page opened with no signal', () => {
+  it('lists the sites and cable runs kept on the phone, and hands what was chosen to the phone’s analysis', async () => {
+    const run = (await CableRun.findOne({ where: { name: 'Control pair HN-C2' } }))!;
+    const cable = (await CableType.findByPk(run.cableTypeId))!;
+    const csv = stepTraceCsv({ faultM: 120, vf: cable.vf, samples: 4000 });
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'tech@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/device`);
+    await page.getByTestId('field-data-age').waitFor();
+    await offlineReady(page);
+
+    await e2e.context.setOffline(true);
+    await page.goto(`${e2e.baseUrl}/upload`);
+    await page.getByTestId('upload-offline').waitFor();
+    // The server's lists cannot load; the ones saved on the phone stand in, so the choice can still be made here.
+    const site = page.getByLabel('Site');
+    expect(await site.locator('option').allTextContents()).toEqual([
+      'Choose a site…',
+      'Brookfold pumping station',
+      'Harrowmere North substation',
+      'Oakhollow cabinet row',
+    ]);
+    await site.selectOption({ label: 'Harrowmere North substation' });
+    expect(await page.getByLabel('Cable run').locator('option').allTextContents()).toEqual([
+      'Choose a cable run…',
+      'Control pair HN-C2',
+      'Feeder HN-3 to Ashby Lane',
+    ]);
+    await page.getByLabel('Cable run').selectOption({ label: 'Control pair HN-C2' });
+    await page.getByRole('button', { name: /End B/ }).click();
+    await page.getByLabel('Trace files').setInputFiles({ name: 'hc2-from-b.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+    await page.getByText('hc2-from-b.csv').waitFor();
+    await e2e.screenshot(page, 'offline-upload-page-phone');
+
+    // Taken to the phone's analysis with the same site, run, end and file: nothing to choose twice with gloves on.
+    await page.getByRole('link', { name: 'Analyse the trace on this phone' }).click();
+    await page.getByRole('heading', { name: 'Analyse on this phone' }).waitFor();
+    expect(await page.getByLabel('Site').locator('option:checked').textContent()).toBe('Harrowmere North substation');
+    expect(await page.getByLabel('Cable run').locator('option:checked').textContent()).toBe('Control pair HN-C2');
+    expect(await page.getByRole('button', { name: /End B/ }).getAttribute('aria-pressed')).toBe('true');
+    expect(await page.getByText('hc2-from-b.csv').isVisible()).toBe(true);
+    expect(await page.getByTestId('device-analyse-missing').count()).toBe(0);
+    await page.getByRole('button', { name: 'Analyse on this phone' }).click();
+    await page.getByText('Analysed on this device, not yet uploaded').waitFor({ timeout: 20_000 });
+    // d = VF·c·t/2 puts the open back at 120 m (the file was written from that distance).
+    expect(Math.abs(number(await page.getByTestId('fault-distance').textContent()) - 120)).toBeLessThan(1);
+    expect(await page.getByTestId('cable-window').textContent()).toMatch(/along the cable from end B/);
+    await page.close();
+  });
+});

@@ -1,4 +1,4 @@
-import { useSearchParams } from 'react-router-dom';
+import { useLocation, useSearchParams } from 'react-router-dom';
 import { Button } from '../../components/ui/button';
 import { PageHeader } from '../../components/ui/card';
 import { Notice } from '../../components/ui/notice';
@@ -16,6 +16,15 @@ export function DeviceAnalysePage() {
   const [params, setParams] = useSearchParams();
   const id = params.get('item');
   const item = id ? d.mine.find((i) => i.id === id && i.kind === 'upload') : undefined;
+  // Where the trace was taken, and its file, as chosen on the upload page before the signal went.
+  const carried = (useLocation().state as { file?: unknown } | null)?.file;
+  const end = params.get('end');
+  const initial: { siteId?: string; runId?: string; end?: 'A' | 'B'; file?: File } = {
+    siteId: params.get('site') ?? undefined,
+    runId: params.get('run') ?? undefined,
+    end: end === 'A' || end === 'B' ? end : undefined,
+    file: carried instanceof File ? carried : undefined,
+  };
 
   return (
     <>
@@ -44,7 +53,7 @@ export function DeviceAnalysePage() {
           {item?.kind === 'upload' ? (
             <DeviceResult item={item} unit={unit} traceLink={paths.trace.to} findingLink={paths.finding.to} />
           ) : (
-            <DeviceAnalyseForm unit={unit} onAnalysed={(itemId) => setParams({ item: itemId })} />
+            <DeviceAnalyseForm unit={unit} initial={initial} onAnalysed={(itemId) => setParams({ item: itemId })} />
           )}
         </div>
         <div className="order-first space-y-4 lg:order-none">

@@ -14,7 +14,7 @@ import { formatFileSize } from '../../features/traces/components/file-size';
 import { fileAtFault, sameBytes, UploadOutcome } from '../../features/traces/components/upload-outcome';
 import { countOf, formatLength, fromUnit, lengthsInText } from '../../lib/format';
 import { useSession } from '../../features/auth/use-session';
-import { useOnline } from '../../features/offline/device-context';
+import { useDevice, useOnline } from '../../features/offline/device-context';
 import { paths } from '../paths';
 
 const LAST = 'rholog.upload.last';
@@ -65,9 +65,14 @@ export function UploadPage() {
   const sites = useSites({ pageSize: 100 });
   const runs = useCableRuns({ siteId: Number(siteId) }, !!siteId);
   const upload = useUploadTraces();
-  const run = runs.data?.items.find((r) => String(r.id) === runId);
-  const errors = fieldErrors(upload.error, unit);
   const online = useOnline();
+  const device = useDevice();
+  // Without signal the server's lists cannot load: choose from the sites and runs kept on the phone instead.
+  const kept = !online ? device.field : null;
+  const siteItems = kept ? kept.sites : (sites.data?.items ?? []);
+  const runItems = kept ? kept.runs.filter((r) => String(r.siteId) === siteId) : (runs.data?.items ?? []);
+  const run = runItems.find((r) => String(r.id) === runId);
+  const errors = fieldErrors(upload.error, unit);
   // Said under the button while it cannot be pressed, so nobody is left guessing why it is grey.
   const missing = [
     !run && (siteId ? 'the cable run' : 'the site and cable run'),
@@ -136,7 +141,8 @@ export function UploadPage() {
               <Notice tone="warn" title="No signal: this page needs the server">
                 <p>The phone can read the trace now, with the fault's distance and route position, and send it when the signal is back.</p>
                 <Link
-                  to={paths.deviceAnalyse.to()}
+                  to={paths.deviceAnalyse.to(undefined, { site: siteId, run: run ? runId : '', end })}
+                  state={files.length === 1 ? { file: files[0] } : undefined}
                   className="mt-2 inline-flex min-h-11 items-center rounded-md bg-copper px-4 font-semibold text-white hover:bg-copper-dark"
                 >
                   Analyse the trace on this phone
@@ -148,7 +154,7 @@ export function UploadPage() {
             <div className="grid gap-3 sm:grid-cols-2">
               <SelectField label="Site" value={siteId} onChange={(e) => (setSiteId(e.target.value), setRunId(''))} required>
                 <option value="">Choose a site…</option>
-                {sites.data?.items.map((s) => (
+                {siteItems.map((s) => (
                   <option key={s.id} value={s.id}>
                     {s.name}
                   </option>
@@ -156,7 +162,7 @@ export function UploadPage() {
               </SelectField>
               <SelectField label="Cable run" value={run ? runId : ''} onChange={(e) => setRunId(e.target.value)} disabled={!siteId} error={errors.cableRunId} required>
                 <option value="">{siteId ? 'Choose a cable run…' : 'Choose the site first'}</option>
-                {runs.data?.items.map((r) => (
+                {runItems.map((r) => (
                   <option key={r.id} value={r.id}>
                     {r.name}
                   </option>

@@ -37,13 +37,22 @@ const newKey = () => `device-${crypto.randomUUID()}`;
  * the phone, analysed here by the engine in a worker, and put in the outbox
  * with its settings and the raw bytes.
  */
-export function DeviceAnalyseForm({ unit, onAnalysed }: { unit: LengthUnit; onAnalysed: (id: string) => void }) {
+export function DeviceAnalyseForm({
+  unit,
+  onAnalysed,
+  initial,
+}: {
+  unit: LengthUnit;
+  onAnalysed: (id: string) => void;
+  /** What was already chosen on the upload page before the signal went; else what this phone used last. */
+  initial?: { siteId?: string; runId?: string; end?: 'A' | 'B'; file?: File };
+}) {
   const d = useDevice();
-  const last = remembered();
+  const last = initial?.siteId ? initial : remembered();
   const [siteId, setSiteId] = useState(last.siteId ?? '');
   const [runId, setRunId] = useState(last.runId ?? '');
   const [end, setEnd] = useState<'A' | 'B' | ''>(last.end ?? '');
-  const [file, setFile] = useState<File | null>(null);
+  const [file, setFile] = useState<File | null>(initial?.file ?? null);
   const [settings, setSettings] = useState({
     mode: 'auto',
     pulseWidthNs: '',
