@@ -1,6 +1,7 @@
 import { IdParam } from '../http/params';
 import { MailQueueQuerySchema, OutboxQuerySchema } from '../../shared/schemas/outbox';
 import type { AppContext } from '../context';
+import { currentUser } from '../auth/guards';
 import { AppError } from '../errors';
 import { ApiRouter, handle } from '../http/api-router';
 import * as outbox from './outbox.service';
@@ -9,6 +10,8 @@ import * as outbox from './outbox.service';
 export function outboxRoutes(ctx: AppContext) {
   const r = new ApiRouter('/api/outbox');
   r.get('/', 'outbox:read', handle((req) => outbox.listOutbox(OutboxQuerySchema.parse(req.query))));
+  // The mail sent to the signed-in person only: what their own inbox got, readable while mail is captured locally.
+  r.get('/mine', 'outbox:own', handle((req) => outbox.listOutbox(OutboxQuerySchema.parse(req.query), currentUser(req).email)));
   r.get(
     '/queue',
     'outbox:read',

@@ -1,4 +1,4 @@
-import { Op } from 'sequelize';
+import { Op, fn, literal, where as sqlWhere } from 'sequelize';
 import type { z } from 'zod';
 import type { MailJobView, MailQueueQuerySchema, OutboxMessageView, OutboxQuerySchema } from '../../shared/schemas/outbox';
 import type { Page } from '../../shared/schemas/users';
@@ -48,9 +48,21 @@ export function mailJobView(j: MailJob): MailJobView {
   };
 }
 
-/** Captured messages, newest first. */
-export async function listOutbox(q: z.output<typeof OutboxQuerySchema>): Promise<Page<OutboxMessageView>> {
-  const where = q.to ? { envelopeTo: { [Op.like]: `%${q.to.toLowerCase()}%` } } : {};
+/**
+ * Messages whose envelope names this address exactly (one of its comma-separated recipients), by
+ * position rather than LIKE so that an address holding "_" or "%" matches only itself.
+ */
+function sentTo(address: string, dialect: string) {
+  const inList = fn(dialect === 'postgres' ? 'strpos' : 'instr', literal(`', ' || lower("envelope_to") || ','`), `, ${address.toLowerCase()},`);
+  return sqlWhere(inList, Op.gt, 0);
+}
+
+/** Captured messages, newest first; with `recipient`, only those sent to that address. */
+export async function listOutbox(q: z.output<typeof OutboxQuerySchema>, recipient?: string): Promise<Page<OutboxMessageView>> {
+  const conditions: unknown[] = [];
+  if (q.to) conditions.push({ envelopeTo: { [Op.like]: `%${q.to.toLowerCase()}%` } });
+  if (recipient) conditions.push(sentTo(recipient, OutboxMessage.sequelize!.getDialect()));
+  const where = conditions.length ? { [Op.and]: conditions } : {};
   const { rows, count } = await OutboxMessage.findAndCountAll({
     where,
     order: [

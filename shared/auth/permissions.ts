@@ -34,6 +34,8 @@ export const PERMISSIONS = [
   'dashboard:read',
   'users:manage',
   'outbox:read',
+  /** Read the captured e-mail Rholog sent to oneself (a supervisor's finding and ticket mail about their sites). */
+  'outbox:own',
 ] as const;
 export type Permission = (typeof PERMISSIONS)[number];
 
@@ -52,7 +54,7 @@ const FIELD: Permission[] = [
 
 export const ROLE_PERMISSIONS: Record<Role, readonly Permission[]> = {
   technician: FIELD,
-  supervisor: [...FIELD, 'sites:write', 'traces:reference', 'traces:archive', 'findings:review', 'tickets:manage', 'dashboard:read'],
+  supervisor: [...FIELD, 'sites:write', 'traces:reference', 'traces:archive', 'findings:review', 'tickets:manage', 'dashboard:read', 'outbox:own'],
   planner: [
     'sites:read',
     'sites:write',

@@ -23,5 +23,6 @@ export const NAV: NavItem[] = [
   { label: 'Cable library', short: 'Cables', to: paths.cables.to(), permission: 'cables:read' },
   { label: 'Calibrations', to: paths.calibrations.to(), permission: 'calibrations:review' },
   { label: 'Users', to: paths.adminUsers.to(), permission: 'users:manage' },
-  { label: 'Outbox', to: paths.outbox.to(), permission: 'outbox:read' },
+  // Administrators read every message there; a supervisor reads the mail sent to them.
+  { label: 'Outbox', to: paths.outbox.to(), permission: 'outbox:own' },
 ];

@@ -38,7 +38,7 @@ export const routes: RouteObject[] = [
       { path: paths.account.pattern, ...page(() => import('./routes/account')) },
       { path: paths.notAllowed.pattern, element: <NotAllowedPage /> },
       { path: paths.adminUsers.pattern, ...page(() => import('./routes/admin-users'), 'users:manage') },
-      { path: paths.outbox.pattern, ...page(() => import('./routes/outbox'), 'outbox:read') },
+      { path: paths.outbox.pattern, ...page(() => import('./routes/outbox'), 'outbox:own') },
       { path: paths.tickets.pattern, ...page(() => import('./routes/tickets'), 'tickets:read') },
       { path: paths.ticket.pattern, ...page(() => import('./routes/ticket'), 'tickets:read') },
       { path: paths.ticketSheet.pattern, ...page(() => import('./routes/ticket-sheet'), 'tickets:read') },

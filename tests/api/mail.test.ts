@@ -101,6 +101,31 @@ describe('mail through the local capture server', () => {
     const res = await admin.get('/api/outbox?pageSize=1000').expect(400);
     expect(res.body.error.fields[0].field).toBe('pageSize');
   });
+
+  it('shows a supervisor the captured mail sent to their own address only; the whole outbox stays with administrators', async () => {
+    const supervisor = await api.as('supervisor');
+    const me = 'supervisor.test@example.com';
+    const client = nodemailer.createTransport({ host: '127.0.0.1', port: api.app.ctx.mail.capturePort!, secure: false, ignoreTLS: true, auth: api.app.ctx.mail.captureAuth! });
+    await client.sendMail({ from: 'rholog@example.com', to: me, subject: 'Fault confirmed on pair P-12', text: 'mine' });
+    await client.sendMail({ from: 'rholog@example.com', to: 'crew.two@example.com', cc: me.toUpperCase(), subject: 'Ticket 40 assigned', text: 'copied to me' });
+    // Addresses that hold "supervisor.test@example.com" inside them, and one that differs only where another has "_", are not this supervisor's.
+    await client.sendMail({ from: 'rholog@example.com', to: `x${me}`, subject: 'Not mine: longer address', text: 'no' });
+    await client.sendMail({ from: 'rholog@example.com', to: 'supervisor_test@example.com', subject: 'Not mine: underscore', text: 'no' });
+    await client.sendMail({ from: 'rholog@example.com', to: 'other.site@example.com', subject: 'Not mine: another site', text: 'no' });
+    client.close();
+    await eventually(async () => ((await OutboxMessage.count({ where: { subject: 'Not mine: another site' } })) === 1 ? true : undefined), 'the last message captured');
+
+    const res = await supervisor.get('/api/outbox/mine').expect(200);
+    expect((res.body.items as OutboxMessageView[]).map((m) => m.subject)).toEqual(['Ticket 40 assigned', 'Fault confirmed on pair P-12']);
+    expect(res.body.total).toBe(2);
+    // The whole outbox and the send queue are not theirs to read; a technician has no mail view at all.
+    expect((await supervisor.get('/api/outbox')).status).toBe(403);
+    expect((await supervisor.get('/api/outbox/queue')).status).toBe(403);
+    expect((await (await api.as('technician')).get('/api/outbox/mine')).status).toBe(403);
+    const admin = await api.as('admin');
+    const all = await admin.get('/api/outbox?to=example.com&pageSize=100').expect(200);
+    expect((all.body.items as OutboxMessageView[]).map((m) => m.subject)).toEqual(expect.arrayContaining(['Not mine: underscore', 'Not mine: longer address']));
+  });
 });
 
 describe('mail through a relay that fails', () => {

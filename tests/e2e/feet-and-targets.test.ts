@@ -112,7 +112,7 @@ function pagesFor(role: Role): Array<{ name: string; path: string; time?: boolea
     { name: 'cable-import', path: '/cables/import', need: 'cables:write' },
     { name: 'calibrations', path: '/calibrations', need: 'calibrations:review' },
     { name: 'users', path: '/admin/users', need: 'users:manage' },
-    { name: 'outbox', path: '/outbox', need: 'outbox:read' },
+    { name: 'outbox', path: '/outbox', need: 'outbox:own' },
   ];
   return all.filter((p) => !p.need || can(role, p.need));
 }

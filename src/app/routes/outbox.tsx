@@ -10,6 +10,7 @@ import { useOutbox } from '../../features/outbox/api/list-outbox';
 import { useRetryMailJob } from '../../features/outbox/api/retry-mail-job';
 import { MailStatusLine } from '../../features/outbox/components/mail-status';
 import { formatDateTime } from '../../lib/format';
+import { useSession } from '../../features/auth/use-session';
 
 /**
  * The HTML part in a frame as tall as its content. The frame may not run
@@ -69,47 +70,70 @@ function MessageView({ message }: { message: OutboxMessageView }) {
         <FormattedMessage html={message.html} />
       ) : (
         // Fixed-width letters, as a mail reader shows plain text, so the label and value columns line up.
-        <pre className="overflow-x-auto whitespace-pre rounded border border-rule bg-paper p-3 font-mono text-xs leading-relaxed sm:text-sm" data-testid="outbox-body">
+        <pre
+          className="overflow-x-auto whitespace-pre rounded border border-rule bg-paper p-3 font-mono text-xs leading-relaxed sm:text-sm"
+          data-testid="outbox-body"
+        >
           {message.body || '(no plain-text body)'}
         </pre>
       )}
       <details className="text-xs">
         <summary className="cursor-pointer py-2 font-semibold text-ink-soft">All headers ({message.headers.length})</summary>
-        <pre className="overflow-x-auto whitespace-pre-wrap break-all rounded bg-paper p-2 font-mono">{message.headers.map((h) => h.line).join('\n')}</pre>
+        <pre className="overflow-x-auto whitespace-pre-wrap break-all rounded bg-paper p-2 font-mono">
+          {message.headers.map((h) => h.line).join('\n')}
+        </pre>
       </details>
     </article>
   );
 }
 
-/** Admins: every e-mail Rholog has sent, as the local capture server received it, and the send queue. */
+/**
+ * Admins: every e-mail Rholog has sent, as the local capture server received it, and the send queue.
+ * Supervisors: the e-mail sent to them (finding and ticket mail about their sites), nothing else.
+ */
 export function OutboxPage() {
+  const { can, user } = useSession();
+  const everything = can('outbox:read');
   const [to, setTo] = useState('');
   const [page, setPage] = useState(1);
   const [selectedId, setSelectedId] = useState<number | null>(null);
   const [status, setStatus] = useState<MailJobStatus | ''>('');
   const [queuePage, setQueuePage] = useState(1);
-  const messages = useOutbox({ to: to || undefined, page });
-  const queue = useMailQueue({ status: status || undefined, page: queuePage });
+  const messages = useOutbox({ to: everything ? to || undefined : undefined, page, mine: !everything });
+  const queue = useMailQueue({ status: status || undefined, page: queuePage }, everything);
   const retry = useRetryMailJob();
   const selected = messages.data?.items.find((m) => m.id === selectedId) ?? messages.data?.items[0];
 
   return (
     <>
-      <PageHeader title="Outbox" subtitle="Every e-mail Rholog sent, newest first, and the queue of mail still waiting to go out." />
-      {queue.data && (
+      <PageHeader
+        title="Outbox"
+        subtitle={
+          everything
+            ? 'Every e-mail Rholog sent, newest first, and the queue of mail still waiting to go out.'
+            : `The e-mail Rholog sent to you (${user.email}), newest first: findings confirmed and tickets at your sites.`
+        }
+      />
+      {everything && queue.data && (
         <Notice tone="info" className="mb-4">
           Mail goes to the {queue.data.relay}.
         </Notice>
       )}
       <div className="grid grid-cols-[minmax(0,1fr)] gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)]">
         <Card title="Messages">
-          <TextField label="Recipient contains" value={to} onChange={(e) => (setTo(e.target.value), setPage(1))} />
+          {everything && (
+            <TextField label="Recipient contains" value={to} onChange={(e) => (setTo(e.target.value), setPage(1))} />
+          )}
           {messages.isPending ? (
             <Loading />
           ) : messages.error ? (
             <ErrorNotice error={messages.error} onRetry={() => void messages.refetch()} retrying={messages.isFetching} />
           ) : messages.data.items.length === 0 ? (
-            <p className="py-6 text-sm text-mist">No e-mail yet. Confirming a finding or assigning a ticket sends one.</p>
+            <p className="py-6 text-sm text-mist">
+              {everything
+                ? 'No e-mail yet. Confirming a finding or assigning a ticket sends one.'
+                : 'No e-mail to you yet. A finding confirmed at one of your sites, or a ticket there waiting for your sign-off, sends one.'}
+            </p>
           ) : (
             <>
               <ul className="mt-3 divide-y divide-rule" data-testid="outbox-list">
@@ -120,7 +144,8 @@ export function OutboxPage() {
                       onClick={() => {
                         setSelectedId(m.id);
                         // On a phone the message is below the list: bring it into view.
-                        if (window.innerWidth < 1024) document.getElementById('outbox-message')?.scrollIntoView({ behavior: 'smooth', block: 'start' });
+                        if (window.innerWidth < 1024)
+                          document.getElementById('outbox-message')?.scrollIntoView({ behavior: 'smooth', block: 'start' });
                       }}
                       aria-current={selected?.id === m.id ? 'true' : undefined}
                       className={`block min-h-11 w-full px-2 py-2 text-left hover:bg-paper ${selected?.id === m.id ? 'border-l-4 border-copper bg-copper-light/40' : 'border-l-4 border-transparent'}`}
@@ -139,40 +164,51 @@ export function OutboxPage() {
             </>
           )}
         </Card>
-        <Card title={<span id="outbox-message">Message</span>}>{selected ? <MessageView message={selected} /> : <p className="text-sm text-mist">Choose a message.</p>}</Card>
+        <Card title={<span id="outbox-message">Message</span>}>
+          {selected ? <MessageView message={selected} /> : <p className="text-sm text-mist">Choose a message.</p>}
+        </Card>
       </div>
-      <Card title="Send queue" className="mt-4">
-        <div className="max-w-xs">
-          <SelectField label="Show" value={status} onChange={(e) => (setStatus(e.target.value as MailJobStatus | ''), setQueuePage(1))}>
-            <option value="">All</option>
-            <option value="queued">Waiting to send</option>
-            <option value="failed">Not delivered</option>
-            <option value="sent">Sent</option>
-          </SelectField>
-        </div>
-        {queue.isPending ? (
-          <Loading />
-        ) : queue.error ? (
-          <ErrorNotice error={queue.error} onRetry={() => void queue.refetch()} retrying={queue.isFetching} />
-        ) : (
-          <>
-            <ul className="mt-3 divide-y divide-rule">
-              {queue.data.items.map((j) => (
-                <li key={j.id} className="flex min-w-0 flex-wrap items-center justify-between gap-2 py-2 [overflow-wrap:anywhere]">
-                  <MailStatusLine job={j} />
-                  {j.status === 'failed' && (
-                    <Button variant="secondary" onClick={() => retry.mutate(j.id)} disabled={retry.isPending}>
-                      Try again
-                    </Button>
-                  )}
-                </li>
-              ))}
-            </ul>
-            <Pager page={queuePage} pageSize={queue.data.pageSize} total={queue.data.total} onPage={setQueuePage} />
-          </>
-        )}
-        {retry.error && <ErrorNotice error={retry.error} />}
-      </Card>
+      {everything && (
+        <Card title="Send queue" className="mt-4">
+          <div className="max-w-xs">
+            <SelectField
+              label="Show"
+              value={status}
+              onChange={(e) => (setStatus(e.target.value as MailJobStatus | ''), setQueuePage(1))}
+            >
+              <option value="">All</option>
+              <option value="queued">Waiting to send</option>
+              <option value="failed">Not delivered</option>
+              <option value="sent">Sent</option>
+            </SelectField>
+          </div>
+          {queue.isPending ? (
+            <Loading />
+          ) : queue.error ? (
+            <ErrorNotice error={queue.error} onRetry={() => void queue.refetch()} retrying={queue.isFetching} />
+          ) : (
+            <>
+              <ul className="mt-3 divide-y divide-rule">
+                {queue.data.items.map((j) => (
+                  <li
+                    key={j.id}
+                    className="flex min-w-0 flex-wrap items-center justify-between gap-2 py-2 [overflow-wrap:anywhere]"
+                  >
+                    <MailStatusLine job={j} />
+                    {j.status === 'failed' && (
+                      <Button variant="secondary" onClick={() => retry.mutate(j.id)} disabled={retry.isPending}>
+                        Try again
+                      </Button>
+                    )}
+                  </li>
+                ))}
+              </ul>
+              <Pager page={queuePage} pageSize={queue.data.pageSize} total={queue.data.total} onPage={setQueuePage} />
+            </>
+          )}
+          {retry.error && <ErrorNotice error={retry.error} />}
+        </Card>
+      )}
     </>
   );
 }

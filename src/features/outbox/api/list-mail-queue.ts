@@ -15,6 +15,6 @@ export const listMailQueue = (p: ListMailQueueParams) => api<MailQueuePage>('/ap
 export const getMailQueueQueryOptions = (p: ListMailQueueParams) =>
   queryOptions({ queryKey: ['outbox', 'queue', p], queryFn: () => listMailQueue(p), placeholderData: keepPreviousData, refetchInterval: 5_000 });
 
-export function useMailQueue(p: ListMailQueueParams) {
-  return useQuery(getMailQueueQueryOptions(p));
+export function useMailQueue(p: ListMailQueueParams, enabled = true) {
+  return useQuery({ ...getMailQueueQueryOptions(p), enabled });
 }
