@@ -1,4 +1,5 @@
 import { useState } from 'react';
+import { useNavigate } from 'react-router-dom';
 import type { MailJobStatus, OutboxMessageView } from '../../../shared/schemas/outbox';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
@@ -15,10 +16,13 @@ import { useSession } from '../../features/auth/use-session';
 /**
  * The HTML part in a frame as tall as its content. The frame may not run
  * scripts (sandbox without allow-scripts); allow-same-origin only lets this
- * page measure the content's height once it has loaded.
+ * page measure the content's height once it has loaded, and follow a tapped
+ * link: one into Rholog opens here, any other in a new tab (the sandboxed frame
+ * itself may not load either, and showed a blocked page).
  */
 function FormattedMessage({ html }: { html: string }) {
   const [height, setHeight] = useState(384);
+  const navigate = useNavigate();
   return (
     <iframe
       title="Formatted message"
@@ -27,7 +31,16 @@ function FormattedMessage({ html }: { html: string }) {
       style={{ height }}
       onLoad={(e) => {
         const doc = e.currentTarget.contentDocument;
-        if (doc) setHeight(Math.max(120, doc.documentElement.scrollHeight + 16));
+        if (!doc) return;
+        setHeight(Math.max(120, doc.documentElement.scrollHeight + 16));
+        doc.addEventListener('click', (click) => {
+          const link = (click.target as Element | null)?.closest?.('a[href]');
+          if (!link) return;
+          click.preventDefault();
+          const url = new URL(link.getAttribute('href')!, window.location.href);
+          if (url.origin === window.location.origin) navigate(url.pathname + url.search + url.hash);
+          else window.open(url.href, '_blank', 'noopener,noreferrer');
+        });
       }}
       className="w-full rounded border border-rule bg-white"
     />
