@@ -300,6 +300,11 @@ describe('the upload page opened with no signal', () => {
     await page.getByRole('button', { name: /End B/ }).click();
     await page.getByLabel('Trace files').setInputFiles({ name: 'hc2-from-b.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
     await page.getByText('hc2-from-b.csv').waitFor();
+    // Everything chosen, but sending needs the server: the button waits and says why, rather than fail when pressed.
+    expect(await page.getByRole('button', { name: 'Upload and analyse' }).isDisabled()).toBe(true);
+    expect(await page.getByTestId('upload-missing').textContent()).toBe(
+      'Still needed: a signal to reach Rholog (or analyse the trace on this phone instead).',
+    );
     await e2e.screenshot(page, 'offline-upload-page-phone');
 
     // Taken to the phone's analysis with the same site, run, end and file: nothing to choose twice with gloves on.

@@ -78,6 +78,8 @@ export function UploadPage() {
     !run && (siteId ? 'the cable run' : 'the site and cable run'),
     !end && 'the end the instrument is connected at',
     !files.length && 'a trace file',
+    // Sending without signal can only fail: the button waits, and the notice above offers the phone's own analysis.
+    !online && 'a signal to reach Rholog (or analyse the trace on this phone instead)',
   ].filter((m): m is string => !!m);
 
   const addFiles = async (list: FileList | null) => {
