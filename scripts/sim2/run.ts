@@ -11,6 +11,7 @@
 import { analyzeCsv } from '../../shared/trace';
 import type { Sim2Case } from './cases';
 import { type CaseScore, formatTally, type ReportedEvent, scoreCase, tally } from './score';
+import { SET_NAMES } from './set-seeds';
 import { buildSet, type SetName } from './sets';
 
 function arg(name: string): string | undefined {
@@ -19,26 +20,7 @@ function arg(name: string): string | undefined {
 }
 
 const setName = arg('--set');
-const SET_NAMES: readonly string[] = [
-  'tuning',
-  'tuning2',
-  'tuning3',
-  'heldout',
-  'heldout2',
-  'heldout3',
-  'heldout4',
-  'heldout5',
-  'tuning4',
-  'heldout6',
-  'heldout7',
-  'heldout8',
-  'heldout9',
-  'check',
-  'heldout10',
-  'heldout11',
-  'heldout12',
-];
-if (!setName || !SET_NAMES.includes(setName)) {
+if (!setName || !(SET_NAMES as readonly string[]).includes(setName)) {
   process.stderr.write(`usage: run.ts --set ${SET_NAMES.join('|')} [--json] [--quiet] [--only TEXT] [--no-loss]\n`);
   process.exit(2);
 }
