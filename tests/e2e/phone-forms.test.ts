@@ -88,4 +88,39 @@ describe('forms and long names on a phone', () => {
     expect(last.x + last.width).toBeLessThanOrEqual(PHONE.width - 16);
     expect(await table.locator('tbody tr').first().locator('td').last().textContent()).toMatch(/^(yes|no)$/);
   });
+
+  it("labels each person's role dropdown on the Users page with a visible word, wide enough for the longest role and a finger", async () => {
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'admin@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/admin/users`);
+    const role = page.getByLabel('Role of Tomas Ekwueme');
+    await role.waitFor();
+    expect(await role.inputValue()).toBe('technician');
+    const seen = await role.evaluate((el) => {
+      const select = el as HTMLSelectElement;
+      const label = select.labels[0];
+      const word = label?.querySelector('span');
+      const box = word?.getBoundingClientRect();
+      const style = getComputedStyle(select);
+      const ctx = document.createElement('canvas').getContext('2d')!;
+      ctx.font = style.font;
+      return {
+        word: word?.textContent ?? null,
+        wordBox: box ? { x: box.x, width: box.width, height: box.height } : null,
+        // Room for the text: the box less its side padding (the right padding holds the arrow).
+        room: select.clientWidth - parseFloat(style.paddingLeft) - parseFloat(style.paddingRight),
+        longest: ctx.measureText('Field technician').width,
+        height: select.getBoundingClientRect().height,
+      };
+    });
+    expect(seen.word).toBe('Role');
+    expect(seen.wordBox!.width).toBeGreaterThan(0);
+    expect(seen.wordBox!.height).toBeGreaterThan(0);
+    expect(seen.wordBox!.x).toBeGreaterThanOrEqual(0);
+    expect(seen.wordBox!.x + seen.wordBox!.width).toBeLessThanOrEqual(PHONE.width);
+    expect(seen.height).toBeGreaterThanOrEqual(44);
+    expect(seen.room).toBeGreaterThanOrEqual(seen.longest);
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBe(PHONE.width);
+  });
 });

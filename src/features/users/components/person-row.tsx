@@ -82,20 +82,24 @@ export function PersonRow({
         <StatusBadge kind="person" status={person.active ? 'active' : 'deactivated'} />
         <span className="block text-xs text-mist">{person.email}</span>
       </span>
-      <select
-        aria-label={`Role of ${person.name}`}
-        className="min-h-11 rounded-md border border-rule bg-white px-2 text-base"
-        value={person.role}
-        disabled={isMe}
-        title={isMe ? 'Another administrator changes your role' : undefined}
-        onChange={(e) => setAsking({ what: 'role', role: e.target.value as Role })}
-      >
-        {ROLES.map((r) => (
-          <option key={r} value={r}>
-            {ROLE_LABELS[r]}
-          </option>
-        ))}
-      </select>
+      {/* A visible word beside the dropdown (its spoken name adds whose role it is); wide enough for the longest role and the arrow. */}
+      <label className="flex items-center gap-2 text-sm">
+        <span className="font-semibold text-ink-soft">Role</span>
+        <select
+          aria-label={`Role of ${person.name}`}
+          className="min-h-11 min-w-48 rounded-md border border-rule bg-white pr-8 pl-2 text-base"
+          value={person.role}
+          disabled={isMe}
+          title={isMe ? 'Another administrator changes your role' : undefined}
+          onChange={(e) => setAsking({ what: 'role', role: e.target.value as Role })}
+        >
+          {ROLES.map((r) => (
+            <option key={r} value={r}>
+              {ROLE_LABELS[r]}
+            </option>
+          ))}
+        </select>
+      </label>
       <span className="flex flex-wrap gap-1">
         {!isMe &&
           (person.active ? (
