@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { jsonId, multiLine, textId, textInt } from './input';
+import { jsonId, optionalNote, textId, textInt } from './input';
 import type { RoutePosition } from '../field/route-position';
 import type { BestLocationView } from './measurements';
 import type { CableEnd } from './traces';
@@ -36,14 +36,7 @@ export const FindingInputSchema = z.strictObject({
   eventIndex: z.number({ error: 'must be an event number' }).int('must be an event number').min(0, 'must be an event number').max(100_000, 'must be an event number'),
   status: z.enum(FINDING_STATUSES, { error: 'must be confirmed or dismissed' }),
   kind: z.enum(FINDING_KINDS, { error: `must be one of ${FINDING_KINDS.join(', ')}` }),
-  note: multiLine(
-    z
-      .string()
-      .trim()
-      .max(2000, 'must be at most 2000 characters')
-      .nullish()
-      .transform((v) => (v ? v : null)),
-  ),
+  note: optionalNote(2000),
 });
 export type FindingInput = z.input<typeof FindingInputSchema>;
 

@@ -196,3 +196,14 @@ export function required(message: string) {
     return message;
   };
 }
+
+/** A free-text note of at most `max` characters: trimmed, kept with its line breaks and tabs, empty or absent read as null. */
+export const optionalNote = (max: number) =>
+  multiLine(
+    z
+      .string()
+      .trim()
+      .max(max, `must be at most ${max} characters`)
+      .nullish()
+      .transform((v) => (v ? v : null)),
+  );

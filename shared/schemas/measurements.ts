@@ -3,7 +3,7 @@ import type { RoutePosition } from '../field/route-position';
 import type { GroundPlace } from '../locate/route-geo';
 import { CONDUCTOR_MATERIALS, type ConductorMaterial } from '../locate';
 import type { FusedMethod } from '../locate/fuse';
-import { MAX_LENGTH_M, multiLine, oneLine, required } from './input';
+import { MAX_LENGTH_M, multiLine, oneLine, optionalNote, required } from './input';
 
 /** Readings other than TDR traces, kept with who took them, when and with what. */
 export const MEASUREMENT_KINDS = ['murray', 'varley', 'capacitance', 'loop-resistance'] as const;
@@ -140,14 +140,7 @@ const record = {
     // A year typed with two digits ("0026") is a valid ISO date; no reading entered here predates 1900.
     .refine((v) => Date.parse(v) >= Date.UTC(1900, 0, 1), 'must be in 1900 or later (check the year)')
     .optional(),
-  note: multiLine(
-    z
-      .string()
-      .trim()
-      .max(2000, 'must be at most 2000 characters')
-      .nullish()
-      .transform((v) => (v ? v : null)),
-  ),
+  note: optionalNote(2000),
 };
 
 const kindError = { error: `must be one of ${MEASUREMENT_KINDS.join(', ')}` };
