@@ -57,4 +57,55 @@ describe('a supervisor reading the mail Rholog sent them', () => {
     expect(recipients.some((r) => !r.startsWith('supervisor@example.com'))).toBe(true);
     await page.close();
   });
+
+  it('wraps a long line of a plain-text message inside its box on a desktop, keeping the lines it was written in', async () => {
+    const subject = 'Plain text with a long line';
+    const link = `${e2e.baseUrl}/findings/1?from=mail&reference=${'HN3-feeder-substation-bay-3-'.repeat(6)}end`;
+    const text = ['Finding 1 was confirmed.', '', `Open it: ${link}`, 'Last line.'].join('\n');
+    await e2e.app.ctx.mail.queue.enqueue({ kind: 'test', to: ['planner@example.com'], subject, text });
+    await expect.poll(() => OutboxMessage.count({ where: { subject } }), { timeout: 10_000 }).toBe(1);
+
+    const page = await e2e.newPage(DESKTOP);
+    await signIn(page, e2e.baseUrl, 'admin@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/outbox`);
+    await page
+      .getByTestId('outbox-list')
+      .getByRole('button', { name: new RegExp(subject) })
+      .click();
+    const body = page.getByTestId('outbox-body');
+    await body.getByText('Last line.').waitFor();
+    const seen = await body.evaluate((el) => {
+      const text = el.firstChild!;
+      // Where a piece of the text sits on screen.
+      const at = (piece: string) => {
+        const start = text.textContent!.indexOf(piece);
+        const range = document.createRange();
+        range.setStart(text, start);
+        range.setEnd(text, start + piece.length);
+        return range.getBoundingClientRect();
+      };
+      const box = el.getBoundingClientRect();
+      const end = at('end\nLast');
+      return {
+        scrollWidth: el.scrollWidth,
+        clientWidth: el.clientWidth,
+        right: box.right,
+        first: at('Finding').top,
+        open: at('Open it').top,
+        last: at('Last line').top,
+        linkEnd: end.top,
+        linkEndRight: end.right,
+        text: el.textContent!.trimEnd(),
+      };
+    });
+    expect(seen.text).toBe(text);
+    expect(seen.scrollWidth).toBeLessThanOrEqual(seen.clientWidth);
+    expect(seen.linkEndRight).toBeLessThanOrEqual(seen.right);
+    // The empty line and the breaks are kept: each line starts lower than the one before, and the long one takes more than one row.
+    expect(seen.open).toBeGreaterThan(seen.first);
+    expect(seen.linkEnd).toBeGreaterThan(seen.open);
+    expect(seen.last).toBeGreaterThan(seen.linkEnd);
+    await page.close();
+  });
 });

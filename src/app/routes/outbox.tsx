@@ -48,7 +48,7 @@ function FormattedMessage({ html }: { html: string }) {
 }
 
 function MessageView({ message }: { message: OutboxMessageView }) {
-  // On a phone the 76-character plain text is wider than the screen; the formatted part wraps to fit, so it comes first there.
+  // On a phone the 76-character plain text is wider than the screen (it wraps there, out of its columns); the formatted part fits, so it comes first there.
   const [formatted, setFormatted] = useState(() => typeof window !== 'undefined' && window.matchMedia('(width < 40rem)').matches);
   return (
     <article aria-label="Message" className="space-y-3">
@@ -82,9 +82,10 @@ function MessageView({ message }: { message: OutboxMessageView }) {
       {formatted && message.html ? (
         <FormattedMessage html={message.html} />
       ) : (
-        // Fixed-width letters, as a mail reader shows plain text, so the label and value columns line up.
+        // Fixed-width letters, as a mail reader shows plain text, so the label and value columns line up. Long lines
+        // wrap inside the box (its own line breaks kept) rather than running off to the side.
         <pre
-          className="overflow-x-auto whitespace-pre rounded border border-rule bg-paper p-3 font-mono text-xs leading-relaxed sm:text-sm"
+          className="whitespace-pre-wrap [overflow-wrap:anywhere] rounded border border-rule bg-paper p-3 font-mono text-xs leading-relaxed sm:text-sm"
           data-testid="outbox-body"
         >
           {message.body || '(no plain-text body)'}
