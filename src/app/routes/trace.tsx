@@ -19,20 +19,11 @@ import { ArchiveControl } from '../../features/traces/components/archive-control
 import { AnalysisPending } from '../../features/traces/components/analysis-pending';
 import { CursorPanel } from '../../features/traces/components/cursor-panel';
 import { EventCard } from '../../features/traces/components/event-card';
-import { eventTitle } from '../../features/traces/reflection-words';
-import { formatDateTime, formatLength, lengthsInText, type LengthUnit } from '../../lib/format';
+import { eventTitle, warningWords } from '../../features/traces/reflection-words';
+import { formatDateTime, formatLength, lengthsInText } from '../../lib/format';
 import { paths } from '../paths';
 import { Term } from '../../components/ui/term';
 
-/**
- * An engine warning in the reader's unit. The blind-zone one is written from
- * the analysis' own value, not from the figure rounded into the message, so
- * it matches the "Blind zone" line beside it.
- */
-function warningWords(w: { code: string; message: string }, blindZoneM: number, unit: LengthUnit) {
-  const text = w.code === 'BLIND_ZONE' ? w.message.replace(/\d+(\.\d+)? m\b/, formatLength(blindZoneM, 'm')) : w.message;
-  return lengthsInText(text, unit);
-}
 /** An engine message as a sentence: capital first letter. */
 const sentence = (text: string) => (text ? text.charAt(0).toUpperCase() + text.slice(1) : text);
 

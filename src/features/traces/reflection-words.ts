@@ -1,4 +1,5 @@
 import type { ReflectionEvent } from '../../../shared/schemas/trace-analysis';
+import { formatLength, lengthsInText, type LengthUnit } from '../../lib/format';
 
 /**
  * The engine's kinds, in words. The engine types them from the event's own ρ: open ≥ +0.8, short ≤ −0.8,
@@ -15,6 +16,27 @@ export const TYPE_WORDS: Record<ReflectionEvent['type'], string> = {
 export function signedRho(rho: number, digits = 2): string {
   const s = Math.abs(rho).toFixed(digits);
   return `${rho < 0 && Number(s) !== 0 ? '−' : rho > 0 && Number(s) !== 0 ? '+' : ''}${s}`;
+}
+
+/**
+ * A sentence the engine wrote, with every negative figure given the true minus the rest of the page
+ * uses ("peak −0.04", "ρ ≈ −0.12"), and a figure that is zero at its precision given none ("−0.00" is "0.00").
+ * Only a hyphen that starts a figure changes: one inside a name ("HH-1") or between figures ("3-5") stays.
+ */
+export function trueMinusInText(text: string): string {
+  return text.replace(/(^|[\s([=≈:;,/])-(\d+(?:\.\d+)?)/g, (_, before: string, figure: string) =>
+    Number(figure) === 0 ? `${before}${figure}` : `${before}−${figure}`,
+  );
+}
+
+/**
+ * An engine warning in the reader's unit. The blind-zone one is written from
+ * the analysis' own value, not from the figure rounded into the message, so
+ * it matches the "Blind zone" line beside it. Negative figures get the true minus.
+ */
+export function warningWords(w: { code: string; message: string }, blindZoneM: number, unit: LengthUnit) {
+  const text = w.code === 'BLIND_ZONE' ? w.message.replace(/\d+(\.\d+)? m\b/, formatLength(blindZoneM, 'm')) : w.message;
+  return trueMinusInText(lengthsInText(text, unit));
 }
 
 /** ρ with its sign always written and a true minus: "ρ −0.54". */
