@@ -104,6 +104,34 @@ describe('the best location in the browser', () => {
     await page.close();
   });
 
+  it('says the best location is being worked out while it is, pointing at no headline and showing no other distance to dig by', async () => {
+    const finding = (await Finding.findByPk(findingA))!;
+    const page = await e2e.newPage(DESKTOP);
+    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    // The cable run the headline needs is held back until the page has been read.
+    let release!: () => void;
+    const held = new Promise<void>((resolve) => (release = resolve));
+    await page.route(new RegExp(`/api/cable-runs/${finding.cableRunId}$`), async (route) => {
+      await held;
+      await route.continue();
+    });
+    await page.goto(`${e2e.baseUrl}/findings/${findingA}`);
+    const alone = page.getByTestId('reading-alone');
+    await alone.waitFor();
+    expect(await page.getByRole('status').filter({ hasText: 'Working out the best location to dig' }).count()).toBe(1);
+    expect(await alone.locator('p').first().textContent()).toBe('This reading alone (the best location to dig by is being worked out)');
+    expect(await page.locator('main').textContent()).not.toContain('dig by the best location above');
+    expect(await page.getByTestId('fault-distance').count()).toBe(0);
+    expect(await page.getByTestId('best-distance').count()).toBe(0);
+    release();
+    await page.getByTestId('best-distance').waitFor();
+    expect(await page.getByTestId('best-distance').textContent()).toBe(formatLength(best.distanceFromAM, 'm'));
+    expect(await alone.locator('p').first().textContent()).toBe('This reading alone (dig by the best location above)');
+    expect(await page.getByText('Working out the best location to dig').count()).toBe(0);
+    await page.close();
+  });
+
   it('lets a technician record a bridge reading on a phone, with the safety caution, and withdraw it', async () => {
     const page = await e2e.newPage(PHONE);
     await signIn(page, e2e.baseUrl, 'tech@example.com');

@@ -68,16 +68,26 @@ export function FindingPage() {
       />
       <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="min-w-0 space-y-4">
-          {best && run.data && (
-            <>
+          {best &&
+            (run.data ? (
+              <>
+                <Card title="Where to dig">
+                  <BestLocationHeadline best={best} run={run.data} unit={unit} fileStem={`finding-${f.id}-location`} />
+                </Card>
+                <Card title="Readings of this fault">
+                  <LocationMethods best={best} unit={unit} findingLink={paths.finding.to} />
+                </Card>
+              </>
+            ) : (
+              // The headline needs the cable run (its markers place the fault on the route): until it has come, say so, and show no other distance to dig by.
               <Card title="Where to dig">
-                <BestLocationHeadline best={best} run={run.data} unit={unit} fileStem={`finding-${f.id}-location`} />
+                {run.error ? (
+                  <ErrorNotice error={run.error} onRetry={() => void run.refetch()} retrying={run.isFetching} />
+                ) : (
+                  <Loading what="Working out the best location to dig" />
+                )}
               </Card>
-              <Card title="Readings of this fault">
-                <LocationMethods best={best} unit={unit} findingLink={paths.finding.to} />
-              </Card>
-            </>
-          )}
+            ))}
           {f.status === 'confirmed' && run.data && (
             <Card title="Bridge, capacitance and resistance readings">
               <MeasurementPanel
@@ -104,6 +114,7 @@ export function FindingPage() {
                 pos={f.routePosition}
                 storedText={f.routePositionText}
                 fused={best.distanceFromAM !== null}
+                bestShown={run.data !== undefined}
               />
             ) : (
               <DistanceBlock distanceM={f.distanceM} windowStartM={f.windowStartM} windowEndM={f.windowEndM} end={f.end} endLabel={f.endLabel} unit={unit} pos={f.routePosition} storedText={f.routePositionText} />

@@ -95,7 +95,9 @@ export function DistanceBlock({
  * Every line says "this reading alone", so the crew never takes its narrower
  * window for the one to dig by. When the readings give a best location
  * (`fused`), the marker warning belongs to its window and is left out here;
- * when they disagree, this reading's own warning stays.
+ * when they disagree, this reading's own warning stays. Until the best
+ * location is on the page (`bestShown` false) it says that one is being
+ * worked out, rather than pointing at a headline not there yet.
  */
 export function ReadingAlone({
   distanceM,
@@ -110,6 +112,7 @@ export function ReadingAlone({
   distanceTestId,
   routeTestId = 'route-position',
   fused,
+  bestShown = true,
 }: {
   distanceM: number;
   uncertaintyM: number;
@@ -123,10 +126,16 @@ export function ReadingAlone({
   distanceTestId?: string;
   routeTestId?: string;
   fused: boolean;
+  bestShown?: boolean;
 }) {
+  const heading = !fused
+    ? 'This reading alone (the readings disagree: check them before digging)'
+    : bestShown
+      ? 'This reading alone (dig by the best location above)'
+      : 'This reading alone (the best location to dig by is being worked out)';
   return (
     <div className="space-y-1 text-sm tabular text-ink-soft" data-testid="reading-alone">
-      <p className="font-semibold text-ink">{fused ? 'This reading alone (dig by the best location above)' : 'This reading alone (the readings disagree: check them before digging)'}</p>
+      <p className="font-semibold text-ink">{heading}</p>
       <p data-testid={distanceTestId}>
         {formatLength(distanceM, unit)} along the cable from end {end} ({endLabel}), ± {formatLength(uncertaintyM, unit)} (95 %)
       </p>
