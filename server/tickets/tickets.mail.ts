@@ -26,13 +26,16 @@ function headlineDistance(f: Finding & { trace?: Trace }, best: BestLocationView
   return `${formatLength(f.distanceM, unit)} from end ${f.trace?.end ?? 'A'}`;
 }
 
-function findingRows(f: Finding, trace: Trace | null, run: CableRun, unit: LengthUnit, underBest = false): Array<[string, string]> {
+function findingRows(f: Finding, trace: Trace | null, run: CableRun, unit: LengthUnit, best: BestLocationView | null = null): Array<[string, string]> {
   const end = trace?.end ?? 'A';
   const endLabel = end === 'A' ? run.endALabel : run.endBLabel;
+  const underBest = best !== null;
   return [
     // Under a best location these rows are the one TDR reading this finding was made from.
     [underBest ? 'This TDR reading' : 'Distance', `${formatLength(f.distanceM, unit)} along the cable from end ${end} (${endLabel}), ± ${formatLength(f.uncertaintyM, unit)} (95 %)`],
-    ['Route position', whereText(f, unit)],
+    // Where the best location is placed on the route ("Where to dig"), the place is said once, there: this reading's own
+    // sentence would name the same spot again from another marker (a reading from B counts from the B side).
+    ...(best?.routePosition ? [] : ([['Route position', whereText(f, unit)]] as Array<[string, string]>)),
     // Beside the best location's dig window, this one is said to be the one reading's own (under "This TDR reading").
     [underBest ? 'Its own window' : 'Cable-length window', `${formatLengthRange(f.windowStartM, f.windowEndM, unit)} along the cable from end ${end}, slack included`],
   ];
@@ -71,7 +74,7 @@ export async function mailFindingConfirmed(ctx: AppContext, findingId: number, t
         ['Site', site.name],
         ['Cable run', `${run.name} (${run.endALabel} → ${run.endBLabel})`],
         ...(best ? bestLocationRows(best, run, r.unitPreference) : []),
-        ...findingRows(finding, finding.trace ?? null, run, r.unitPreference, best !== null),
+        ...findingRows(finding, finding.trace ?? null, run, r.unitPreference, best),
       ],
       paragraph: finding.note ? `Note: ${finding.note}` : null,
       link: { label: 'Open the finding', url: link },
@@ -114,7 +117,7 @@ export async function mailTicket(ctx: AppContext, ticketId: number, actor: { id:
     ['Site', site.name],
     ['Cable run', `${run.name} (${run.endALabel} → ${run.endBLabel})`],
     ...(best ? bestLocationRows(best, run, unit) : []),
-    ...(first ? findingRows(first, first.trace ?? null, run, unit, best !== null) : []),
+    ...(first ? findingRows(first, first.trace ?? null, run, unit, best) : []),
   ];
   let subject: string;
   let intro: string;

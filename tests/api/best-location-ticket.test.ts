@@ -103,6 +103,19 @@ describe('one best location on the finding, the ticket, the crew sheet and the e
     expect(job!.text).not.toMatch(/\d m\b/);
   });
 
+  it('says where to dig once in the finding e-mail of the reading from end B: from the best location, not again from the B side', async () => {
+    const job = await MailJob.findOne({ where: { findingId: fb.id, kind: 'finding-confirmed' } });
+    const text = job!.text.replace(/\n {2,}/g, ' ');
+    // 120 m of cable from A is chainage 115 m, 35 m past MH-2 (hand-worked above): 35 / 0.3048 = 114.8 ft.
+    expect(text).toMatch(/Where to dig: +114\.8 ft past manhole MH-2 toward pedestal P-7; dig on the ground/);
+    // The reading from B alone (80 m of cable from B) would place the same spot from P-7 toward MH-2: not said a second time.
+    expect(text).not.toContain('Route position:');
+    expect(text.match(/ toward /g)).toHaveLength(1);
+    // The reading's own distance and window stay, named as this reading's.
+    expect(text).toMatch(/This TDR reading: +262\.\d ft along the cable from end B/);
+    expect(text).toMatch(/Its own window: +[\d.]+–[\d.]+ ft along the cable from end B, slack included/);
+  });
+
   it('scores every method against the found position at close-out, and the dashboard shows it per method and cable type', async () => {
     await tech.post(`/api/tickets/${ticket.id}/status`, { to: 'under-way' }).expect(200);
     // Found 121 m of cable from A.

@@ -43,8 +43,9 @@ describe('repair tickets', () => {
     expect(msg.body).toContain(`Site:`);
     expect(msg.body).toContain(fx.site.name);
     expect(msg.body).toContain('Ticket run (Cabinet C-1 → Pole 14)');
-    // Hand-worked: 100 m of cable from A is 95 m of route, 15 m past MH-2 toward P-7.
-    expect(msg.body).toMatch(/Route position: +15\.\d+ m past manhole MH-2 toward pedestal P-7/);
+    // Hand-worked: 100 m of cable from A is 95 m of route, 15 m past MH-2 toward P-7; said once, as where to dig.
+    expect(msg.body).toMatch(/Where to dig: +15\.\d+ m past manhole MH-2 toward pedestal P-7/);
+    expect(msg.body).not.toContain('Route position:');
     expect(msg.body).toMatch(/Its own window: +\d+\.\d–\d+\.\d m along the cable from end A, slack/);
     // The ± beside the distance is the 95 % window's half-width, and says so (the best location's ± is a standard uncertainty).
     expect(msg.body).toMatch(/m along the cable from end A \(Cabinet C-1\),\s+± \d+\.\d+ m \(95 %\)/);
