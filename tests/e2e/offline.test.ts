@@ -284,6 +284,8 @@ describe('the upload page opened with no signal', () => {
     await page.getByTestId('upload-offline').waitFor();
     // The server's lists cannot load; the ones saved on the phone stand in, so the choice can still be made here.
     const site = page.getByLabel('Site');
+    // The lists are read from the phone's storage after the page shows: wait for them before reading them.
+    await site.locator('option', { hasText: 'Oakhollow cabinet row' }).waitFor({ state: 'attached' });
     expect(await site.locator('option').allTextContents()).toEqual([
       'Choose a site…',
       'Brookfold pumping station',
@@ -291,6 +293,7 @@ describe('the upload page opened with no signal', () => {
       'Oakhollow cabinet row',
     ]);
     await site.selectOption({ label: 'Harrowmere North substation' });
+    await page.getByLabel('Cable run').locator('option', { hasText: 'Feeder HN-3 to Ashby Lane' }).waitFor({ state: 'attached' });
     expect(await page.getByLabel('Cable run').locator('option').allTextContents()).toEqual([
       'Choose a cable run…',
       'Control pair HN-C2',
