@@ -10,6 +10,7 @@ import { useCableRuns } from '../../features/sites/api/list-cable-runs';
 import { useSites } from '../../features/sites/api/list-sites';
 import { useUploadTraces } from '../../features/traces/api/upload-traces';
 import { EndPicker } from '../../features/traces/components/end-picker';
+import { SiteRunFields } from '../../features/traces/components/site-run-fields';
 import { formatFileSize } from '../../features/traces/components/file-size';
 import { fileAtFault, sameBytes, UploadOutcome } from '../../features/traces/components/upload-outcome';
 import { countOf, formatLength, fromUnit, lengthsInText } from '../../lib/format';
@@ -153,24 +154,15 @@ export function UploadPage() {
             </div>
           )}
           <Card title="1. Where">
-            <div className="grid gap-3 sm:grid-cols-2">
-              <SelectField label="Site" value={siteId} onChange={(e) => (setSiteId(e.target.value), setRunId(''))} required>
-                <option value="">Choose a site…</option>
-                {siteItems.map((s) => (
-                  <option key={s.id} value={s.id}>
-                    {s.name}
-                  </option>
-                ))}
-              </SelectField>
-              <SelectField label="Cable run" value={run ? runId : ''} onChange={(e) => setRunId(e.target.value)} disabled={!siteId} error={errors.cableRunId} required>
-                <option value="">{siteId ? 'Choose a cable run…' : 'Choose the site first'}</option>
-                {runItems.map((r) => (
-                  <option key={r.id} value={r.id}>
-                    {r.name}
-                  </option>
-                ))}
-              </SelectField>
-            </div>
+            <SiteRunFields
+              sites={siteItems}
+              runs={runItems}
+              siteId={siteId}
+              runId={run ? runId : ''}
+              onSite={(id) => (setSiteId(id), setRunId(''))}
+              onRun={setRunId}
+              runError={errors.cableRunId}
+            />
             {run && (
               <p className="mt-2 text-sm text-ink-soft">
                 {run.cableType.name} · VF {run.cableType.vf.toFixed(3)} ± {(run.cableType.vfTolerance * 100).toFixed(1)} % · installed {formatLength(run.installedLengthM, unit)} ·{' '}

@@ -7,6 +7,7 @@ import { SelectField, TextField } from '../../../components/ui/field';
 import { Notice } from '../../../components/ui/notice';
 import { countOf, formatLength, fromUnit, type LengthUnit } from '../../../lib/format';
 import { EndPicker } from '../../traces/components/end-picker';
+import { SiteRunFields } from '../../traces/components/site-run-fields';
 import { formatFileSize } from '../../traces/components/file-size';
 import { analyseOnDevice, startEngine } from '../analyse-on-device';
 import { analysisCableOf } from '../cable-values';
@@ -163,31 +164,15 @@ export function DeviceAnalyseForm({
   return (
     <form onSubmit={(e) => void submit(e)} className="space-y-4" aria-label="Analyse a trace on this phone">
       <Card title="1. Where">
-        <div className="grid gap-3 sm:grid-cols-2">
-          <SelectField label="Site" value={siteId} onChange={(e) => (setSiteId(e.target.value), setRunId(''))} required>
-            <option value="">Choose a site…</option>
-            {sites.map((s) => (
-              <option key={s.id} value={s.id}>
-                {s.name}
-              </option>
-            ))}
-          </SelectField>
-          <SelectField
-            label="Cable run"
-            value={run ? runId : ''}
-            onChange={(e) => setRunId(e.target.value)}
-            disabled={!siteId}
-            error={errors.cableRunId}
-            required
-          >
-            <option value="">{siteId ? 'Choose a cable run…' : 'Choose the site first'}</option>
-            {runs.map((r) => (
-              <option key={r.id} value={r.id}>
-                {r.name}
-              </option>
-            ))}
-          </SelectField>
-        </div>
+        <SiteRunFields
+          sites={sites}
+          runs={runs}
+          siteId={siteId}
+          runId={run ? runId : ''}
+          onSite={(id) => (setSiteId(id), setRunId(''))}
+          onRun={setRunId}
+          runError={errors.cableRunId}
+        />
         {run && (
           <p className="mt-2 text-sm text-ink-soft">
             {cable
