@@ -6,29 +6,13 @@ import { createMemoryRouter, RouterProvider } from 'react-router-dom';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { FindingsPage } from '../../src/app/routes/findings';
 import { TracesPage } from '../../src/app/routes/traces';
+import { listedFinding, technicianMe } from './support/fixtures';
 
 /** Every list request's query, in the order the page asked. */
 const asked: URLSearchParams[] = [];
 
-const finding = (id: number) => ({
-  id,
-  siteId: 1,
-  siteName: 'Harrowmere North',
-  cableRunId: 3,
-  cableRunName: 'HN-3',
-  traceId: 9,
-  eventIndex: 0,
-  end: 'A',
-  status: 'confirmed',
-  kind: 'open',
-  distanceM: 120,
-  confirmedBy: { id: 2, name: 'Ada Field' },
-  confirmedAt: '2026-12-01T10:00:00.000Z',
-  routePosition: null,
-  routePositionText: `finding ${id} route words`,
-});
-
-const me = { id: 2, email: 'ada@example.com', name: 'Ada Field', role: 'technician', active: true, mustChangePassword: false, unitPreference: 'm' };
+const finding = listedFinding;
+const me = technicianMe;
 
 const server = setupServer(
   http.get('*/api/auth/me', () => HttpResponse.json(me)),

@@ -5,34 +5,10 @@ import { setupServer } from 'msw/node';
 import { createMemoryRouter, RouterProvider } from 'react-router-dom';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { FindingsPage } from '../../src/app/routes/findings';
+import { listedFinding, technicianMe } from './support/fixtures';
 
-const me = {
-  id: 2,
-  email: 'ada@example.com',
-  name: 'Ada Field',
-  role: 'technician',
-  active: true,
-  mustChangePassword: false,
-  unitPreference: 'm',
-};
-
-const finding = {
-  id: 7,
-  siteId: 1,
-  siteName: 'Harrowmere North',
-  cableRunId: 3,
-  cableRunName: 'HN-3',
-  traceId: 9,
-  eventIndex: 0,
-  end: 'A',
-  status: 'confirmed',
-  kind: 'open',
-  distanceM: 120,
-  confirmedBy: { id: 2, name: 'Ada Field' },
-  confirmedAt: '2026-12-01T10:00:00.000Z',
-  routePosition: null,
-  routePositionText: 'finding 7 route words',
-};
+const me = technicianMe;
+const finding = listedFinding(7);
 
 /** What the findings list answers next, one answer per request: then the list itself. */
 let answers: Array<'network' | 500 | 403> = [];

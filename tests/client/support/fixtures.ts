@@ -29,6 +29,36 @@ export const pendingCalibration = (changes: Partial<CalibrationView> = {}): Cali
   ...changes,
 });
 
+/** A technician, as `GET /api/auth/me` gives them. */
+export const technicianMe = {
+  id: 2,
+  email: 'ada@example.com',
+  name: 'Ada Field',
+  role: 'technician',
+  active: true,
+  mustChangePassword: false,
+  unitPreference: 'm',
+};
+
+/** One confirmed finding (an open at 120 m on run HN-3) as the findings list gives it; its route words name its id. */
+export const listedFinding = (id: number) => ({
+  id,
+  siteId: 1,
+  siteName: 'Harrowmere North',
+  cableRunId: 3,
+  cableRunName: 'HN-3',
+  traceId: 9,
+  eventIndex: 0,
+  end: 'A',
+  status: 'confirmed',
+  kind: 'open',
+  distanceM: 120,
+  confirmedBy: { id: 2, name: 'Ada Field' },
+  confirmedAt: '2026-12-01T10:00:00.000Z',
+  routePosition: null,
+  routePositionText: `finding ${id} route words`,
+});
+
 /** The demo planner, as `GET /api/auth/me` gives them. */
 export const demoPlanner = {
   id: 4,
