@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableType, CableTypeChange } from '../../server/db/models';
 import { startApi, type Client, type TestApi } from './support/api';
+import { foamPeRow, LIBRARY_CSV_HEADER } from './support/cables';
 
 /** The cable library's CSV import read as a multipart form: what a broken or hostile form gets back, and what is stored. */
 let api: TestApi;
@@ -11,9 +12,8 @@ beforeAll(async () => {
 });
 afterAll(() => api.close());
 
-const HEADER = 'name,construction,dielectric,z0_ohm,vf,vf_tolerance,attenuation_db_per_100m,attenuation_freq_mhz,vf_source,vf_reference,notes';
-/** Foamed PE coax, VF 0.82 ± 0.03 (a handbook range for foam PE, common practice). */
-const row = (name: string) => `${name},coax,foamed polyethylene,75,0.82,0.03,,,handbook,"Foam PE coax, handbook range",`;
+const HEADER = LIBRARY_CSV_HEADER;
+const row = foamPeRow;
 const csv = (name: string) => Buffer.from([HEADER, row(name)].join('\n'), 'utf8');
 
 describe('POST /api/cables/import form fields', () => {

@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableType, CableTypeChange } from '../../server/db/models';
 import { nameKey } from '../../server/db/name-key';
 import { startApi, type Client, type TestApi } from './support/api';
+import { foamPeRow, LIBRARY_CSV_HEADER } from './support/cables';
 
 let api: TestApi;
 let planner: Client;
@@ -11,9 +12,8 @@ beforeAll(async () => {
 });
 afterAll(() => api.close());
 
-const HEADER = 'name,construction,dielectric,z0_ohm,vf,vf_tolerance,attenuation_db_per_100m,attenuation_freq_mhz,vf_source,vf_reference,notes';
-// Foamed-PE coax, VF 0.82 ± 0.03: a handbook range (from memory); the names are made up.
-const rows = (n: number, prefix: string) => Array.from({ length: n }, (_, i) => `${prefix} ${String(i + 1).padStart(4, '0')},coax,foamed polyethylene,75,0.82,0.03,,,handbook,Foam PE coax handbook range,`);
+const HEADER = LIBRARY_CSV_HEADER;
+const rows = (n: number, prefix: string) => Array.from({ length: n }, (_, i) => foamPeRow(`${prefix} ${String(i + 1).padStart(4, '0')}`));
 
 /** Statements run inside each write transaction while `work` runs, by transaction. */
 async function statementsPerTransaction(work: () => Promise<unknown>) {

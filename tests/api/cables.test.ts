@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ROLES } from '../../shared/auth/permissions';
 import { cableTypeVersion, changesSince } from '../../server/cables/cables.service';
 import { startApi, type Client, type TestApi } from './support/api';
+import { solidPeCoax } from './support/cables';
 
 let api: TestApi;
 let planner: Client;
@@ -11,18 +12,7 @@ beforeAll(async () => {
 });
 afterAll(() => api.close());
 
-/** A valid body; the VF and εr of solid PE from the Standard Wire & Cable dielectric table (εr 2.26, VP 66 %). */
-const solidPe = (name: string, extra: object = {}) => ({
-  name,
-  construction: 'coax',
-  dielectric: 'solid polyethylene',
-  z0Ohm: 50,
-  vf: 0.66,
-  vfTolerance: 0.02,
-  vfSource: 'handbook',
-  vfReference: 'Standard Wire & Cable dielectric table: PE 2.26 → VP 66 %',
-  ...extra,
-});
+const solidPe = solidPeCoax;
 
 describe('permissions on /api/cables', () => {
   it('lets every role read and search, and only planners and admins create and edit', async () => {

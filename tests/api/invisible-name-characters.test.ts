@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableType, Site } from '../../server/db/models';
 import { startApi, type Client, type TestApi } from './support/api';
+import { solidPeCoax } from './support/cables';
 
 // Two sites (or cable types) may not share a name as a reader sees it. A zero-width space (U+200B), a word joiner
 // (U+2060) or a soft hyphen (U+00AD) draws nothing, yet each made a second "Harbour pumping station" that looked
@@ -31,19 +32,8 @@ describe('names that differ only by characters that draw nothing', () => {
 
   it('are taken as the same cable type name', async () => {
     const planner = await api.as('planner');
-    const cable = {
-      construction: 'coax',
-      dielectric: 'solid polyethylene',
-      z0Ohm: 50,
-      // Solid PE, VF 0.66 (a handbook value, common practice).
-      vf: 0.66,
-      vfTolerance: 0.02,
-      vfSource: 'handbook',
-      vfReference: 'common practice',
-      notes: null,
-    };
-    await planner.post('/api/cables', { ...cable, name: 'Yard coax 50' }).expect(201);
-    const twin = await planner.post('/api/cables', { ...cable, name: 'Yard\u200b coax 50' });
+    await planner.post('/api/cables', solidPeCoax('Yard coax 50')).expect(201);
+    const twin = await planner.post('/api/cables', solidPeCoax('Yard\u200b coax 50'));
     expect(twin.status).toBe(409);
     expect(await CableType.count({ where: { nameKey: 'yard coax 50' } })).toBe(1);
   });

@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { migrator } from '../../server/db/migrations';
 import { Site } from '../../server/db/models';
 import { startApi, type Client, type TestApi } from './support/api';
+import { solidPeCoax } from './support/cables';
 
 // Names are stored with their folded form (name_key) under a unique index: checked in one lookup,
 // searched in every script, and never doubled even by writers side by side.
@@ -69,16 +70,7 @@ describe('stored name keys', () => {
     const sup = await api.as('supervisor');
     const site = await sup.post('/api/sites', { name: long }).expect(400);
     expect(site.body.error.fields).toEqual([{ field: 'name', message: 'is too long once written out in full: its characters stand for 2160 letters and signs, at most 480' }]);
-    const cable = await planner.post('/api/cables', {
-      name: long,
-      construction: 'coax',
-      dielectric: 'solid polyethylene',
-      z0Ohm: 50,
-      vf: 0.66,
-      vfTolerance: 0.02,
-      vfSource: 'handbook',
-      vfReference: 'common practice',
-    });
+    const cable = await planner.post('/api/cables', solidPeCoax(long));
     expect(cable.status).toBe(400);
     expect(cable.body.error.fields).toEqual([{ field: 'name', message: 'is too long once written out in full: its characters stand for 2160 letters and signs, at most 480' }]);
     const { body: s } = await sup.post('/api/sites', { name: 'Long-name yard' }).expect(201);
