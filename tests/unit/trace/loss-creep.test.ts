@@ -1,13 +1,14 @@
 import { describe, expect, it } from 'vitest';
+import { libraryLoss } from './support/lossy-line';
 import { SPEED_OF_LIGHT_M_PER_S } from '../../../shared/cable/propagation';
 import { analyzeCsv } from '../../../shared/trace';
 import { incidentCreep, pulseCreepRemoved } from '../../../shared/trace/creep';
 import { findLaunch } from '../../../shared/trace/launch';
 import { estimateSlowNoise } from '../../../shared/trace/noise';
-import { attenuationFromLineConstants, exactLineKernel, lossModelThroughLine } from '../../../shared/trace/loss';
+import { exactLineKernel, lossModelThroughLine } from '../../../shared/trace/loss';
 import { incidentStep } from '../../../shared/trace/loss-estimate';
 import { PAIR_04 } from '../../../scripts/sim/cables';
-import { type CableModel, simulate } from '../../../scripts/sim/line-model';
+import { simulate } from '../../../scripts/sim/line-model';
 import { writeLayout } from '../../../scripts/sim/layouts';
 import { buildNetwork, defaultAcquisition, type Scenario, simulateScenario } from '../../../scripts/sim/scenario';
 
@@ -18,12 +19,6 @@ import { buildNetwork, defaultAcquisition, type Scenario, simulateScenario } fro
  * feature was put.
  */
 
-/** The cable's attenuation at 0.1, 1 and 10 MHz, as the cable library would hold it. */
-function libraryLoss(cable: CableModel) {
-  const v = cable.vf * SPEED_OF_LIGHT_M_PER_S;
-  const lc = { rDcOhmPerM: cable.rdcOhmPerM, skinOhmPerMRootHz: cable.skinOhmPerMRootHz, lHPerM: cable.z0Ohm / v, cFPerM: 1 / (cable.z0Ohm * v), lossTangent: cable.tanDelta };
-  return [1e5, 1e6, 1e7].map((f) => ({ frequencyHz: f, dbPer100m: attenuationFromLineConstants(lc, f) }));
-}
 
 describe('the incident step’s creep on a lossy pair', () => {
   it('follows the exact step response on every sample, the early square-root rise included', () => {

@@ -1,11 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { SPEED_OF_LIGHT_M_PER_S } from '../../../shared/cable/propagation';
+import { libraryLoss, lossyLineTrace } from './support/lossy-line';
 import { analyzeCsv } from '../../../shared/trace';
-import { attenuationFromLineConstants } from '../../../shared/trace/loss';
 import { PAIR_04 } from '../../../scripts/sim/cables';
-import { type CableModel, simulate } from '../../../scripts/sim/line-model';
-import { writeLayout } from '../../../scripts/sim/layouts';
-import { defaultAcquisition, type Scenario } from '../../../scripts/sim/scenario';
+import { type CableModel } from '../../../scripts/sim/line-model';
 
 /**
  * A shunt resistor part-way along a long lossy pair, with more line past it. The fault meets the line's
@@ -16,20 +13,12 @@ import { defaultAcquisition, type Scenario } from '../../../scripts/sim/scenario
  * value is where the resistor was put.
  */
 
-function libraryLoss(cable: CableModel) {
-  const v = cable.vf * SPEED_OF_LIGHT_M_PER_S;
-  const lc = { rDcOhmPerM: cable.rdcOhmPerM, skinOhmPerMRootHz: cable.skinOhmPerMRootHz, lHPerM: cable.z0Ohm / v, cFPerM: 1 / (cable.z0Ohm * v), lossTangent: cable.tanDelta };
-  return [1e5, 1e6, 1e7].map((f) => ({ frequencyHz: f, dbPer100m: attenuationFromLineConstants(lc, f) }));
-}
 
 /** A step into `atM` of cable, a shunt of `rOhm`, then cable to an open end at `lengthM`; seeded noise of 0.2 % of the step. */
-function shuntTrace(cable: CableModel, atM: number, rOhm: number, lengthM: number): string {
-  const scenario: Scenario = { name: 'shunt', cable, lengthM, end: 'open', features: [] };
-  const acq = defaultAcquisition(scenario, 'step', 1, 0, 16);
-  const dt = acq.sampleIntervalS;
-  const t0 = acq.preTriggerSamples;
-  const n = acq.samples;
-  const clean = simulate(
+const shuntTrace = (cable: CableModel, atM: number, rOhm: number, lengthM: number) =>
+  lossyLineTrace(
+    cable,
+    lengthM,
     {
       elements: [
         { kind: 'line', lengthM: atM, cable },
@@ -38,15 +27,8 @@ function shuntTrace(cable: CableModel, atM: number, rOhm: number, lengthM: numbe
       ],
       termination: { kind: 'open' },
     },
-    { samples: n, sampleIntervalS: dt, launchAtS: t0 * dt, riseTimeS: acq.riseTimeS, sourceV: 2, sourceOhm: cable.z0Ohm, excitation: { kind: 'step' } },
+    { noiseV: 0.002 },
   );
-  // Gaussian noise by Box–Muller from a linear congruential sequence (the C library's constants).
-  let state = 12345;
-  const uniform = () => (state = (state * 1103515245 + 12345) % 2147483648) / 2147483648;
-  const volts = clean.map((v) => v + 0.002 * Math.sqrt(-2 * Math.log(uniform() + 1e-12)) * Math.cos(2 * Math.PI * uniform()));
-  const timeS = new Float64Array(n).map((_, i) => (i - t0) * dt);
-  return writeLayout({ layout: 'time-ns-mv', timeS, volts, incidentV: 1, instrumentVf: cable.vf, cableName: cable.name });
-}
 
 describe('a shunt fault on a lossy pair with line past it, with the cable’s loss known', () => {
   const cable = PAIR_04;

@@ -1,9 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { SPEED_OF_LIGHT_M_PER_S } from '../../../shared/cable/propagation';
+import { libraryLoss } from './support/lossy-line';
 import { analyzeCsv } from '../../../shared/trace';
-import { attenuationFromLineConstants } from '../../../shared/trace/loss';
 import { PAIR_04, PAIR_100 } from '../../../scripts/sim/cables';
-import type { CableModel } from '../../../scripts/sim/line-model';
 import { writeLayout } from '../../../scripts/sim/layouts';
 import { defaultAcquisition, type Scenario, simulateScenario } from '../../../scripts/sim/scenario';
 
@@ -14,11 +12,6 @@ import { defaultAcquisition, type Scenario, simulateScenario } from '../../../sc
  */
 
 /** The cable's attenuation at a few frequencies, as the cable library would hold it. */
-function libraryLoss(cable: CableModel) {
-  const v = cable.vf * SPEED_OF_LIGHT_M_PER_S;
-  const lc = { rDcOhmPerM: cable.rdcOhmPerM, skinOhmPerMRootHz: cable.skinOhmPerMRootHz, lHPerM: cable.z0Ohm / v, cFPerM: 1 / (cable.z0Ohm * v), lossTangent: cable.tanDelta };
-  return [1e5, 1e6, 1e7, 1e8].map((f) => ({ frequencyHz: f, dbPer100m: attenuationFromLineConstants(lc, f) }));
-}
 
 const ROUTES: Array<Omit<Scenario, 'name'>> = [
   { cable: PAIR_100, lengthM: 300, end: 'short', features: [] },
@@ -43,7 +36,7 @@ function locate(withLibraryLoss: boolean): Located[] {
       const acq = defaultAcquisition(scenario, mode, seed++, 0.002, 12);
       const sim = simulateScenario(scenario, acq);
       const csv = writeLayout({ layout: 'time-ns-mv', timeS: sim.timeS, volts: sim.volts, incidentV: sim.incidentV, instrumentVf: route.cable.vf, cableName: route.cable.name });
-      const a = analyzeCsv(csv, {}, { vf: route.cable.vf, z0Ohm: route.cable.z0Ohm, ...(withLibraryLoss ? { loss: libraryLoss(route.cable) } : {}) });
+      const a = analyzeCsv(csv, {}, { vf: route.cable.vf, z0Ohm: route.cable.z0Ohm, ...(withLibraryLoss ? { loss: libraryLoss(route.cable, [1e5, 1e6, 1e7, 1e8]) } : {}) });
       for (const e of sim.expected.filter((x) => !x.optional)) {
         const near = a.events.reduce((best, g) => (Math.abs(g.distanceM - e.distanceM) < Math.abs(best.distanceM - e.distanceM) ? g : best), a.events[0]);
         out.push({

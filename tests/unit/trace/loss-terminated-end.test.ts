@@ -1,11 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { SPEED_OF_LIGHT_M_PER_S } from '../../../shared/cable/propagation';
+import { libraryLoss, lossyLineTrace } from './support/lossy-line';
 import { analyzeCsv } from '../../../shared/trace';
-import { attenuationFromLineConstants } from '../../../shared/trace/loss';
 import { PAIR_04 } from '../../../scripts/sim/cables';
-import { type CableModel, simulate } from '../../../scripts/sim/line-model';
-import { writeLayout } from '../../../scripts/sim/layouts';
-import { defaultAcquisition, type Scenario } from '../../../scripts/sim/scenario';
+import { type CableModel } from '../../../scripts/sim/line-model';
 
 /**
  * A resistor at the far end of a lossy line. The line's own impedance grows at low frequency (series
@@ -15,31 +12,10 @@ import { defaultAcquisition, type Scenario } from '../../../scripts/sim/scenario
  * and §4.4); the check values are where the resistor was put and ρ = (R − Z0)/(R + Z0) (Pozar §2.3).
  */
 
-/** The cable's attenuation at 0.1, 1 and 10 MHz, as the cable library would hold it. */
-function libraryLoss(cable: CableModel) {
-  const v = cable.vf * SPEED_OF_LIGHT_M_PER_S;
-  const lc = { rDcOhmPerM: cable.rdcOhmPerM, skinOhmPerMRootHz: cable.skinOhmPerMRootHz, lHPerM: cable.z0Ohm / v, cFPerM: 1 / (cable.z0Ohm * v), lossTangent: cable.tanDelta };
-  return [1e5, 1e6, 1e7].map((f) => ({ frequencyHz: f, dbPer100m: attenuationFromLineConstants(lc, f) }));
-}
 
 /** A step into `lengthM` of cable ending in `rOhm`, from a source of its nominal impedance, with seeded noise of 0.2 % of the step. */
-function terminatedTrace(cable: CableModel, lengthM: number, rOhm: number): string {
-  const scenario: Scenario = { name: 'terminated', cable, lengthM, end: 'open', features: [] };
-  const acq = defaultAcquisition(scenario, 'step', 1, 0, 16);
-  const dt = acq.sampleIntervalS;
-  const t0 = acq.preTriggerSamples;
-  const n = acq.samples;
-  const clean = simulate(
-    { elements: [{ kind: 'line', lengthM, cable }], termination: { kind: 'load', rOhm } },
-    { samples: n, sampleIntervalS: dt, launchAtS: t0 * dt, riseTimeS: acq.riseTimeS, sourceV: 2, sourceOhm: cable.z0Ohm, excitation: { kind: 'step' } },
-  );
-  // Gaussian noise by Box–Muller from a linear congruential sequence (the C library's constants).
-  let state = 12345;
-  const uniform = () => (state = (state * 1103515245 + 12345) % 2147483648) / 2147483648;
-  const volts = clean.map((v) => v + 0.002 * Math.sqrt(-2 * Math.log(uniform() + 1e-12)) * Math.cos(2 * Math.PI * uniform()));
-  const timeS = new Float64Array(n).map((_, i) => (i - t0) * dt);
-  return writeLayout({ layout: 'time-ns-mv', timeS, volts, incidentV: 1, instrumentVf: cable.vf, cableName: cable.name });
-}
+const terminatedTrace = (cable: CableModel, lengthM: number, rOhm: number) =>
+  lossyLineTrace(cable, lengthM, { elements: [{ kind: 'line', lengthM, cable }], termination: { kind: 'load', rOhm } }, { noiseV: 0.002 });
 
 const describeEvents = (events: Array<{ distanceM: number; type: string; reflectionCoefficient: number }>) =>
   JSON.stringify(events.map((e) => [e.distanceM.toFixed(2), e.type, e.reflectionCoefficient.toFixed(3)]));
