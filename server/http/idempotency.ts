@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto';
 import type { Request, Response } from 'express';
-import type { Transaction } from 'sequelize';
+import { Op, type Transaction } from 'sequelize';
 import { IDEMPOTENCY_KEY } from '../../shared/schemas/traces';
 import { RequestReceipt } from '../db/models';
 import { AppError } from '../errors';
@@ -19,6 +19,32 @@ export function idempotencyKey(req: Request): string | undefined {
     });
   }
   return key;
+}
+
+/**
+ * How long a receipt is kept. A phone keeps a reading in its outbox until it is sent, however long it is out
+ * of signal, and sends it again under the same key; 90 days covers any field trip, while the table no longer
+ * grows for ever.
+ */
+export const RECEIPTS_KEPT_DAYS = 90;
+/** Receipts older than the kept days are forgotten at most this often, by whichever create comes next. */
+const FORGET_EVERY_MS = 60 * 60 * 1000;
+let lastForgotAt = 0;
+
+/** Forgets every receipt made before `cutoff`; returns how many. A repeat of one of those makes a new record. */
+export async function forgetReceiptsBefore(cutoff: Date): Promise<number> {
+  return RequestReceipt.destroy({ where: { createdAt: { [Op.lt]: cutoff } } });
+}
+
+/** Once an hour at most, forget the receipts past their kept days; trouble here never fails the create that asked. */
+export async function forgetOldReceipts(now = Date.now()): Promise<void> {
+  if (now - lastForgotAt < FORGET_EVERY_MS) return;
+  lastForgotAt = now;
+  try {
+    await forgetReceiptsBefore(new Date(now - RECEIPTS_KEPT_DAYS * 24 * 60 * 60 * 1000));
+  } catch {
+    lastForgotAt = 0;
+  }
 }
 
 /** Written by the create itself, inside its own transaction, once it knows the id of what it made. */
@@ -97,6 +123,7 @@ export async function once<T>(req: Request, res: Response, opts: OnceOptions<T>)
       );
     });
     res.status(opts.status);
+    await forgetOldReceipts();
     return made;
   } catch (err) {
     // A copy of this request sent alongside it may have made the record first: then this one was refused

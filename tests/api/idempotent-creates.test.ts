@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableRun, Finding, Measurement, RequestReceipt, Ticket, TicketCloseout } from '../../server/db/models';
+import { forgetOldReceipts, RECEIPTS_KEPT_DAYS } from '../../server/http/idempotency';
 import { startApi, type Client, type TestApi } from './support/api';
 import { pauseFirstRead } from './support/pause';
 import { stepTraceCsv } from './support/field-fixtures';
@@ -180,5 +181,30 @@ describe('a close-out sent again under its key', () => {
     // A close-out of the fixed repair without the key is still refused as before.
     const plain = await tech.post(`/api/tickets/${ticketId}/closeout`, body).expect(409);
     expect(plain.body.error.code).toBe('closeout_not_allowed');
+  });
+});
+
+describe('receipts past their kept days', () => {
+  it('are forgotten (a repeat then makes a new record), while a recent receipt still answers its repeat', async () => {
+    const traceId = await uploadTrace(145);
+    const finding = await tech.post('/api/findings', { traceId, eventIndex: 0, status: 'confirmed', kind: 'open-conductor' }).expect(201);
+    const findingId = finding.body.id as number;
+    const old = await tech.post('/api/measurements', murray(findingId, 0.41)).set('Idempotency-Key', 'reading-old-7f3e2d1c').expect(201);
+    const recent = await tech.post('/api/measurements', murray(findingId, 0.42)).set('Idempotency-Key', 'reading-new-7f3e2d1c').expect(201);
+    const day = 24 * 60 * 60 * 1000;
+    await api.app.ctx.sequelize.query('UPDATE request_receipts SET created_at = ? WHERE idempotency_key = ?', {
+      replacements: [new Date(Date.now() - (RECEIPTS_KEPT_DAYS + 1) * day), 'reading-old-7f3e2d1c'],
+    });
+    // The next forgetting (at most hourly, by whichever create comes next) takes the old receipt only.
+    await forgetOldReceipts(Date.now() + 2 * 60 * 60 * 1000);
+    expect(await RequestReceipt.count({ where: { idempotencyKey: 'reading-old-7f3e2d1c' } })).toBe(0);
+    expect(await RequestReceipt.count({ where: { idempotencyKey: 'reading-new-7f3e2d1c' } })).toBe(1);
+    const oldAgain = await tech.post('/api/measurements', murray(findingId, 0.41)).set('Idempotency-Key', 'reading-old-7f3e2d1c').expect(201);
+    expect(oldAgain.headers['idempotent-replayed']).toBeUndefined();
+    expect(oldAgain.body.id).not.toBe(old.body.id);
+    const recentAgain = await tech.post('/api/measurements', murray(findingId, 0.42)).set('Idempotency-Key', 'reading-new-7f3e2d1c').expect(201);
+    expect(recentAgain.headers['idempotent-replayed']).toBe('true');
+    expect(recentAgain.body.id).toBe(recent.body.id);
+    expect(await Measurement.count({ where: { findingId } })).toBe(3);
   });
 });
