@@ -26,7 +26,7 @@ import { openStorage } from './storage';
 import { sessionSecret } from './db/settings';
 import { AppError, errorHandler } from './errors';
 import type { ApiRouter, RouteRecord } from './http/api-router';
-import { refuseEncodedForms, refuseNulBytes, refuseUnreadBodies } from './http/strict-input';
+import { refuseEncodedForms, refuseNulBytes, refuseRepeatedFields, refuseUnreadBodies } from './http/strict-input';
 import { staticClient } from './static-client';
 import { outboxRoutes } from './outbox/outbox.routes';
 import { dashboardRoutes } from './dashboard/dashboard.routes';
@@ -108,6 +108,7 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
   app.use(express.json({ limit: '256kb' }));
   app.use(express.urlencoded({ extended: false, limit: '64kb' }));
   app.use('/api', refuseNulBytes);
+  app.use('/api', refuseRepeatedFields);
   app.use('/api', refuseEncodedForms);
   app.use('/api', refuseUnreadBodies);
 

@@ -1,5 +1,6 @@
 import type { RequestHandler } from 'express';
-import { AppError } from '../errors';
+import { repeatedFields } from '../../shared/schemas/input';
+import { AppError, capMessage } from '../errors';
 
 /** The path of the first string holding a NUL character (U+0000), or null. */
 export function findNulByte(value: unknown, path = '', depth = 0): string | null {
@@ -73,6 +74,24 @@ export function bidiControlError(where: string, field: string): AppError {
 }
 
 /**
+ * A query string or a form (url-encoded or multipart) gives each field once: `?limit=1&limit=2` or two `vf` parts
+ * arrive as a list, which no field takes, and were refused as "not written in digits" or "expected string". Said as
+ * what it is, naming the field; JSON bodies are not checked here (their lists are real lists).
+ */
+export function repeatedFieldError(where: 'query' | 'form', fields: unknown): AppError | null {
+  const found = repeatedFields(fields).map((f) => ({ field: capMessage(f.field, 60), message: f.message }));
+  if (!found.length) return null;
+  return AppError.badRequest('invalid_input', `The ${where} is not valid: ${found.map((f) => `${f.field}: ${f.message}`).join('; ')}`, { fields: found });
+}
+
+export const refuseRepeatedFields: RequestHandler = (req, _res, next) => {
+  const inQuery = repeatedFieldError('query', req.query);
+  if (inQuery) return next(inQuery);
+  if (req.is('application/x-www-form-urlencoded')) return next(repeatedFieldError('form', req.body) ?? undefined);
+  next();
+};
+
+/**
  * No text Rholog takes in may hold a NUL character (databases refuse it or
  * cut the text there) or a lone UTF-16 surrogate (no character; it cannot be
  * stored as UTF-8 and comes back as something else). Query parameters and
@@ -97,10 +116,10 @@ export const refuseNulBytes: RequestHandler = (req, _res, next) => {
 
 /**
  * The same checks for the text fields of a multipart form, which the form
- * reader (multer) fills in only after `refuseNulBytes` has run: put it right
- * after the form reader of a route.
+ * reader (multer) fills in only after `refuseNulBytes` and `refuseRepeatedFields`
+ * have run: put it right after the form reader of a route.
  */
-export const refuseBadFormText: RequestHandler = (req, _res, next) => next(textTrouble('form', req.body) ?? undefined);
+export const refuseBadFormText: RequestHandler = (req, _res, next) => next(repeatedFieldError('form', req.body) ?? textTrouble('form', req.body) ?? undefined);
 
 /** The first NUL, lone surrogate or direction control in a value (e.g. JSON read out of a form field), as the error to answer with. */
 export function textTrouble(where: string, value: unknown): AppError | null {

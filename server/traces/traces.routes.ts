@@ -19,7 +19,7 @@ import { AppError, capMessage, isMalformedMultipart, malformedMultipartError, mu
 import { ApiRouter, handle } from '../http/api-router';
 import { idempotencyKey } from '../http/idempotency';
 import { IdParam } from '../http/params';
-import { nulByteError, textTrouble, uploadedFileName } from '../http/strict-input';
+import { nulByteError, repeatedFieldError, textTrouble, uploadedFileName } from '../http/strict-input';
 import { analysisPool } from './analysis-pool';
 import { inboxDir } from './trace-store';
 import * as traces from './traces.service';
@@ -163,7 +163,7 @@ export function traceRoutes(ctx: AppContext) {
     handle(async (req, res) => {
       const files = (req.files as Express.Multer.File[] | undefined) ?? [];
       try {
-        const inForm = textTrouble('form', req.body ?? {});
+        const inForm = repeatedFieldError('form', req.body ?? {}) ?? textTrouble('form', req.body ?? {});
         if (inForm) throw inForm;
         const fields = TraceUploadSchema.parse(req.body ?? {});
         // The phone's summary is JSON text: "\u0000" and the like only appear once it is read.

@@ -15,6 +15,31 @@ import { z } from 'zod';
 export const MAX_LENGTH_M = 100_000;
 
 const WHOLE = /^-?\d{1,15}$/;
+
+/**
+ * A query string or form that gives one field twice (`?page=1&page=2`, two `vfOverride` parts) arrives as a list:
+ * said as such, not as a number that is not written in digits.
+ */
+export const GIVEN_MORE_THAN_ONCE = 'was given more than once; give it once';
+
+/** The message for a field that arrived as a list (given twice, or as `field[]`) rather than as one value, or null. */
+export function notOneValue(v: unknown): string | null {
+  if (Array.isArray(v)) return v.length > 1 ? GIVEN_MORE_THAN_ONCE : 'must be given once, as plain text (not as a list such as field[])';
+  if (v !== null && typeof v === 'object') return 'must be given once, as plain text (not with a bracketed part such as field[x])';
+  return null;
+}
+
+/**
+ * The fields of a query string or form that do not hold one plain value, with what is wrong with each (no value is
+ * repeated in the messages: they may be long or hostile).
+ */
+export function repeatedFields(fields: unknown): Array<{ field: string; message: string }> {
+  if (fields === null || typeof fields !== 'object' || Array.isArray(fields)) return [];
+  return Object.entries(fields).flatMap(([field, v]) => {
+    const message = notOneValue(v);
+    return message ? [{ field, message }] : [];
+  });
+}
 const DECIMAL = /^[-+]?(\d{1,20}(\.\d{0,20})?|\.\d{1,20})([eE][-+]?\d{1,3})?$/;
 
 interface Bounds {
@@ -39,7 +64,7 @@ export function textInt(b: Bounds = {}) {
     .transform((v, ctx) => {
       if (typeof v === 'number') return v;
       if (typeof v === 'string' && WHOLE.test(v)) return Number(v);
-      ctx.addIssue({ code: 'custom', message: `must be ${what}, written in digits` });
+      ctx.addIssue({ code: 'custom', message: notOneValue(v) ?? `must be ${what}, written in digits` });
       return z.NEVER;
     })
     .pipe(bounded(z.number().int({ error: `must be ${what}` }), b));
@@ -56,7 +81,7 @@ export function textNumber(b: Bounds = {}) {
     .transform((v, ctx) => {
       if (typeof v === 'number' && Number.isFinite(v)) return v;
       if (typeof v === 'string' && DECIMAL.test(v) && Number.isFinite(Number(v))) return Number(v);
-      ctx.addIssue({ code: 'custom', message: `must be ${what}, written in digits` });
+      ctx.addIssue({ code: 'custom', message: notOneValue(v) ?? `must be ${what}, written in digits` });
       return z.NEVER;
     })
     .pipe(bounded(z.number(), b));
@@ -75,6 +100,11 @@ export function formNumber(b: Bounds = {}) {
       if (typeof v === 'number' && Number.isFinite(v)) return v;
       const finite = typeof v === 'string' && DECIMAL.test(v.trim());
       if (finite && Number.isFinite(Number(v))) return Number(v);
+      const repeated = notOneValue(v);
+      if (repeated) {
+        ctx.addIssue({ code: 'custom', message: repeated });
+        return z.NEVER;
+      }
       ctx.addIssue({ code: 'custom', message: finite ? `must be ${what} of a sensible size (this one is too large to hold)` : `must be ${what}, written in digits` });
       return z.NEVER;
     })
