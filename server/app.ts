@@ -37,7 +37,7 @@ import { measurementRoutes } from './measurements/measurements.routes';
 import { siteRoutes } from './sites/sites.routes';
 import { traceRoutes } from './traces/traces.routes';
 import { traceOutcomeRoutes } from './trace-outcomes/trace-outcomes.routes';
-import { sweepUploads } from './traces/traces.service';
+import { sweepInboxWhileRunning, sweepUploads } from './traces/traces.service';
 import { userRoutes } from './users/users.routes';
 import { createLogger, requestIds, securityLog } from './log';
 import { healthRoutes } from './health/health';
@@ -70,6 +70,7 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
   fs.mkdirSync(config.uploadDir, { recursive: true, mode: 0o750 });
   hardenFiles(config, logger);
   await sweepUploads(ctx);
+  ctx.onClose.unshift(sweepInboxWhileRunning(ctx));
 
   if (config.demoData) await seedDemo(ctx);
   await registerCableReanalysis(ctx);

@@ -108,6 +108,8 @@ export interface AppConfig {
   /** Uploads larger than this are answered 202 and analysed in the background. */
   analysisInlineMaxBytes: number;
   uploadSweepMinAgeMs: number;
+  /** How often the inbox is swept while running: a quarter of the minimum age, from 1 s to 60 s. */
+  uploadSweepEveryMs: number;
   sqliteBusyTimeoutMs: number;
   cookieSecure: 'auto' | boolean;
   /** Reverse proxies in front of Rholog; the client address is read that many hops back in X-Forwarded-For. */
@@ -172,6 +174,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
       memoryMb: e.ANALYSIS_MEMORY_MB,
     },
     uploadSweepMinAgeMs: Math.round(e.UPLOAD_SWEEP_MIN_AGE_S * 1000),
+    uploadSweepEveryMs: Math.min(60_000, Math.max(1_000, Math.round(e.UPLOAD_SWEEP_MIN_AGE_S * 250))),
     sqliteBusyTimeoutMs: e.SQLITE_BUSY_TIMEOUT_MS,
     cookieSecure: e.COOKIE_SECURE === 'auto' ? 'auto' : e.COOKIE_SECURE === 'on',
     trustProxyHops: e.TRUST_PROXY,

@@ -28,10 +28,35 @@ function newRawPath(when: Date): string {
   return path.posix.join('traces', String(when.getUTCFullYear()), String(when.getUTCMonth() + 1).padStart(2, '0'), `${randomUUID()}.csv`);
 }
 
+/**
+ * Inbox files a request of this process is still writing or working on (an upload waiting its turn in the analysis
+ * pool can sit there longer than the sweep's minimum age): the sweep while running leaves them alone whatever their age.
+ */
+const heldInbox = new Set<string>();
+
+/** Marks inbox files as in use by this process until `releaseInbox`. */
+export function holdInbox(...files: string[]) {
+  for (const f of files) heldInbox.add(path.resolve(f));
+}
+
+export function releaseInbox(...files: string[]) {
+  for (const f of files) heldInbox.delete(path.resolve(f));
+}
+
+/**
+ * The sweep while running: inbox files at least `minAgeMs` old that no request of this process holds, which an upload
+ * cut off by a killed process (or a crash of this one's predecessor) left. Stored files are left to the start-up
+ * sweep: a file moved into the store a moment before its row commits is not an orphan.
+ */
+export function sweepInbox(uploadDir: string, minAgeMs: number, now = Date.now()): Promise<string[]> {
+  return sweepOrphans(uploadDir, heldInbox, minAgeMs, now, [inboxDir(uploadDir)]);
+}
+
 /** Put bytes given in memory (the demo seed) into the inbox, as an upload would arrive. */
 export async function writeInbox(uploadDir: string, bytes: Buffer): Promise<string> {
   const abs = path.join(inboxDir(uploadDir), `${randomUUID()}.part`);
   await fs.mkdir(path.dirname(abs), { recursive: true });
+  holdInbox(abs);
   await fs.writeFile(abs, bytes, { flag: 'wx', mode: 0o600 });
   return abs;
 }

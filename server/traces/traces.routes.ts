@@ -21,11 +21,14 @@ import { idempotencyKey } from '../http/idempotency';
 import { IdParam } from '../http/params';
 import { nulByteError, repeatedFieldError, textTrouble, uploadedFileName } from '../http/strict-input';
 import { analysisPool } from './analysis-pool';
-import { inboxDir } from './trace-store';
+import { holdInbox, inboxDir, releaseInbox } from './trace-store';
 import * as traces from './traces.service';
 
 export const MAX_FILES_PER_UPLOAD = 10;
 const CSV_TYPES = new Set(['text/csv', 'text/plain', 'application/csv', 'application/vnd.ms-excel', 'application/octet-stream', 'text/comma-separated-values', '']);
+
+/** The inbox files each upload in progress holds (see `holdInbox`). */
+const inboxHeldBy = new WeakMap<Request, string[]>();
 
 /** The uploader's file name, as they wrote it (see `uploadedFileName`). */
 const fileName = (f: Express.Multer.File) => uploadedFileName(f.originalname);
@@ -41,7 +44,17 @@ function uploadMiddleware(ctx: AppContext): RequestHandler {
   const inbox = inboxDir(ctx.config.uploadDir);
   fs.mkdirSync(inbox, { recursive: true, mode: 0o750 });
   const upload = multer({
-    storage: multer.diskStorage({ destination: inbox, filename: (_req, _file, cb) => cb(null, `${randomUUID()}.part`) }),
+    storage: multer.diskStorage({
+      destination: inbox,
+      filename: (req, _file, cb) => {
+        // Held from before the file exists until the request is done with it, so the sweep while running never takes it.
+        const name = `${randomUUID()}.part`;
+        const file = path.join(inbox, name);
+        inboxHeldBy.set(req, [...(inboxHeldBy.get(req) ?? []), file]);
+        holdInbox(file);
+        cb(null, name);
+      },
+    }),
     limits: { fileSize: ctx.config.maxUploadBytes, files: MAX_FILES_PER_UPLOAD, fields: 20, fieldSize: 2048, parts: MAX_FILES_PER_UPLOAD + 20, headerPairs: 200 },
     fileFilter: (_req, file, cb) => {
       const name = Buffer.from(file.originalname, 'latin1').toString('utf8');
@@ -70,6 +83,8 @@ function uploadMiddleware(ctx: AppContext): RequestHandler {
     }
     upload(req, res, (err: unknown) => {
       if (!err) return next();
+      // The form reader has removed what it wrote of the files.
+      releaseInbox(...(inboxHeldBy.get(req) ?? []));
       if (err instanceof multer.MulterError && err.code === 'LIMIT_FILE_SIZE') {
         return next(
           new AppError(413, 'file_too_large', `A file is larger than the upload limit of ${mb} MB. Nothing was stored. Shorten the record on the instrument, or ask an administrator to raise the limit.`, {
@@ -183,6 +198,7 @@ export function traceRoutes(ctx: AppContext) {
         return await uploadAnswer(ctx, res, outcome);
       } finally {
         await Promise.all(files.map((f) => fsp.rm(f.path, { force: true })));
+        releaseInbox(...(inboxHeldBy.get(req) ?? []));
       }
     }),
   );

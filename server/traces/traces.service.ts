@@ -25,7 +25,7 @@ import { markerView } from '../cable-runs/cable-runs.service';
 import { AppError } from '../errors';
 import { boundedAnalysis, parseOptions, type AnalysisCable, type Outcome } from './analysis';
 import { analysisPool } from './analysis-pool';
-import { inboxDir, sweepOrphans, writeInbox } from './trace-store';
+import { inboxDir, releaseInbox, sweepInbox, sweepOrphans, writeInbox } from './trace-store';
 import { idsContaining } from '../db/text-search';
 
 export type UploadFields = z.output<typeof TraceUploadSchema>;
@@ -332,6 +332,7 @@ export async function receiveUpload(
     throw err;
   } finally {
     await Promise.all(inbox.map((p) => fs.rm(p, { force: true })));
+    releaseInbox(...inbox);
   }
 }
 
@@ -491,6 +492,27 @@ export async function sweepUploads(ctx: AppContext): Promise<number> {
   }
   ctx.log(`Upload clean-up: removed ${removed.length} file${removed.length === 1 ? '' : 's'} no trace refers to.`);
   return removed.length;
+}
+
+/**
+ * While running: the inbox files an upload cut off by a killed process left (a `.part` file of a form that never
+ * ended), once they are `UPLOAD_SWEEP_MIN_AGE_S` old, so none waits for the next start. Every
+ * `uploadSweepEveryMs`, on an unref'd timer; one sweep at a time.
+ */
+export function sweepInboxWhileRunning(ctx: AppContext): () => void {
+  let running = false;
+  const timer = setInterval(() => {
+    if (running) return;
+    running = true;
+    sweepInbox(ctx.config.uploadDir, ctx.config.uploadSweepMinAgeMs)
+      .then((removed) => {
+        if (removed.length) ctx.logger.info({ removed }, `Upload clean-up: removed ${removed.length} unfinished upload${removed.length === 1 ? '' : 's'} from the inbox.`);
+      })
+      .catch((err: unknown) => ctx.logger.warn({ err }, 'Upload clean-up of the inbox failed; it is tried again.'))
+      .finally(() => (running = false));
+  }, ctx.config.uploadSweepEveryMs);
+  timer.unref();
+  return () => clearInterval(timer);
 }
 
 function endLabel(run: CableRun, end: CableEnd) {
