@@ -3,6 +3,7 @@ import type { z } from 'zod';
 import type { MailJobView, MailQueueQuerySchema, OutboxMessageView, OutboxQuerySchema } from '../../shared/schemas/outbox';
 import type { Page } from '../../shared/schemas/users';
 import { MailJob } from '../db/models/mail-job';
+import { idsContaining } from '../db/text-search';
 import { OutboxMessage } from '../db/models/outbox-message';
 
 function parseHeaders(json: string): OutboxMessageView['headers'] {
@@ -60,7 +61,8 @@ function sentTo(address: string, dialect: string) {
 /** Captured messages, newest first; with `recipient`, only those sent to that address. */
 export async function listOutbox(q: z.output<typeof OutboxQuerySchema>, recipient?: string): Promise<Page<OutboxMessageView>> {
   const conditions: unknown[] = [];
-  if (q.to) conditions.push({ envelopeTo: { [Op.like]: `%${q.to.toLowerCase()}%` } });
+  // The text as typed ("_" and "%" are no wildcards), in any case on SQLite and PostgreSQL alike.
+  if (q.to) conditions.push(idsContaining(OutboxMessage, ['envelope_to'], q.to));
   if (recipient) conditions.push(sentTo(recipient, OutboxMessage.sequelize!.getDialect()));
   const where = conditions.length ? { [Op.and]: conditions } : {};
   const { rows, count } = await OutboxMessage.findAndCountAll({
