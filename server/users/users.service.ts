@@ -1,4 +1,4 @@
-import { Op, UniqueConstraintError } from 'sequelize';
+import { Op, UniqueConstraintError, type Transaction } from 'sequelize';
 import { containsText } from '../db/search';
 import type { z } from 'zod';
 import type { CreateUserSchema, UpdateUserSchema } from '../../shared/schemas/users';
@@ -24,6 +24,20 @@ export async function listUsers(opts: { q?: string; page: number; pageSize: numb
   return { items: rows.map((u) => u.toPublic()), total: count, page: opts.page, pageSize: opts.pageSize };
 }
 
+/**
+ * The request was allowed when it arrived; the actor may have lost the right since (another administrator took their
+ * role away a moment ago). Read again inside the change's transaction, held (PostgreSQL: FOR SHARE, so a demotion at
+ * the same moment waits or is seen; SQLite writes one at a time), so an account losing its administrator role
+ * cannot make an administrator or hand out a temporary password on its way out.
+ */
+async function assertStillManagesUsers(ctx: AppContext, actorId: number, transaction: Transaction) {
+  const lock = ctx.sequelize.getDialect() === 'postgres' ? transaction.LOCK.SHARE : undefined;
+  const acting = await User.findByPk(actorId, { lock, transaction });
+  if (!acting || !acting.active || !can(acting.role, 'users:manage')) {
+    throw new AppError(409, 'no_longer_allowed', 'Your own account was changed a moment ago and may no longer manage users. Reload the page.');
+  }
+}
+
 export async function createUser(ctx: AppContext, input: z.output<typeof CreateUserSchema>, actorId: number) {
   const taken = () =>
     new AppError(409, 'email_taken', `A user with e-mail ${input.email} already exists.`, {
@@ -33,16 +47,14 @@ export async function createUser(ctx: AppContext, input: z.output<typeof CreateU
   const password = temporaryPassword();
   const passwordHash = await hashPassword(password);
   // The same e-mail sent twice at once passes the check above both times: the unique index decides.
-  const user = await User.create({
-    email: input.email,
-    name: input.name,
-    role: input.role,
-    phone: input.phone ?? null,
-    passwordHash,
-    mustChangePassword: true,
-  }).catch((err: unknown) => {
-    throw err instanceof UniqueConstraintError ? taken() : err;
-  });
+  const user = await ctx.sequelize
+    .transaction(async (transaction) => {
+      await assertStillManagesUsers(ctx, actorId, transaction);
+      return User.create({ email: input.email, name: input.name, role: input.role, phone: input.phone ?? null, passwordHash, mustChangePassword: true }, { transaction });
+    })
+    .catch((err: unknown) => {
+      throw err instanceof UniqueConstraintError ? taken() : err;
+    });
   if (input.role === 'admin') ctx.security('admin-created', { userId: user.id, actorId, email: user.email });
   return { user: user.toPublic(), temporaryPassword: password };
 }
@@ -73,11 +85,7 @@ export async function updateUser(ctx: AppContext, id: number, input: z.output<ty
         `${user.name} is the last active administrator: make someone else an administrator first, so Rholog always has one.`,
       );
     }
-    // The request was allowed when it arrived; the actor may have lost the right since.
-    const acting = await User.findByPk(actor.id, { transaction });
-    if (!acting || !acting.active || !can(acting.role, 'users:manage')) {
-      throw new AppError(409, 'no_longer_allowed', 'Your own account was changed a moment ago and may no longer manage users. Reload the page.');
-    }
+    await assertStillManagesUsers(ctx, actor.id, transaction);
     await user.update(input, { transaction });
     if (input.active === false) await Session.destroy({ where: { userId: id }, transaction });
     // Someone who is no longer a technician cannot work the repairs given to them: they go back to the supervisors.
@@ -101,6 +109,7 @@ export async function resetPassword(ctx: AppContext, id: number, actorId: number
   const password = temporaryPassword();
   const passwordHash = await hashPassword(password);
   await ctx.sequelize.transaction(async (transaction) => {
+    await assertStillManagesUsers(ctx, actorId, transaction);
     await user.update({ passwordHash, mustChangePassword: true }, { transaction });
     await Session.destroy({ where: { userId: id }, transaction });
   });
