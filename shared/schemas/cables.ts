@@ -8,7 +8,7 @@ import {
   type LineConstants,
   type PulseVf,
 } from './cable-loss';
-import { foldedNameFits, multiLine, oneLine, required, textId, textInt } from './input';
+import { foldedNameFits, jsonId, MAX_ID, multiLine, oneLine, required, textId, textInt } from './input';
 
 export * from './cable-loss';
 
@@ -161,11 +161,11 @@ export const CableListQuerySchema = z.strictObject({
 export type CableListQuery = z.output<typeof CableListQuerySchema>;
 
 export const CalibrationSubmitSchema = z.strictObject({
-  cableTypeId: z.number({ error: required('is required') }).int('must be a whole number').positive('must be a positive whole number'),
+  cableTypeId: z.number({ error: required('is required') }).int('must be a whole number').positive('must be a positive whole number').max(MAX_ID, `must be at most ${MAX_ID}`),
   knownLengthM: num('is required: a number of metres').gt(0, 'must be greater than 0 m').max(100_000, 'must be at most 100 km'),
   roundTripNs: num('is required: a number of nanoseconds').gt(0, 'must be greater than 0 ns').max(10_000_000, 'must be at most 10 ms'),
   source: z.enum(CALIBRATION_SOURCES, { error: `must be one of ${CALIBRATION_SOURCES.join(', ')}` }).default('manual'),
-  traceId: z.number().int().positive().nullable().optional(),
+  traceId: jsonId('must be a trace id').nullable().optional(),
   note: multiLine(z.string().trim().max(2000, 'must be at most 2000 characters').optional()),
 });
 export type CalibrationSubmitInput = z.input<typeof CalibrationSubmitSchema>;

@@ -70,8 +70,15 @@ export function textInt(b: Bounds = {}) {
     .pipe(bounded(z.number().int({ error: `must be ${what}` }), b));
 }
 
+/**
+ * The largest id a row can have: ids are `integer` columns (2^31 − 1 on PostgreSQL). A larger one names no row, and
+ * PostgreSQL refuses it outright as a value bound to such a column (out of range), so it is refused here, on every
+ * database alike.
+ */
+export const MAX_ID = 2_147_483_647;
+
 /** A positive id in a query string or path. */
-export const textId = (what = 'a positive id') => textInt({ min: 1, what });
+export const textId = (what = 'a positive id') => textInt({ min: 1, max: MAX_ID, what });
 
 /** A decimal number written in a query string: digits with an optional sign, point and exponent, finite ("0x10", "", "1e999" are refused). */
 export function textNumber(b: Bounds = {}) {
@@ -113,7 +120,8 @@ export function formNumber(b: Bounds = {}) {
 }
 
 /** A positive id in a JSON body: a real whole number. */
-export const jsonId = (message = 'must be a positive id') => z.number({ error: message }).int({ error: message }).positive({ error: message });
+export const jsonId = (message = 'must be a positive id') =>
+  z.number({ error: message }).int({ error: message }).positive({ error: message }).max(MAX_ID, { error: `${message} (at most ${MAX_ID})` });
 
 /** A length in metres in a JSON body: a real number from 0 (or above, when `positive`) to 100 km. */
 export function lengthM(what: string, opts: { positive?: boolean; max?: number } = {}) {

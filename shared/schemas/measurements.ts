@@ -3,7 +3,7 @@ import type { RoutePosition } from '../field/route-position';
 import type { GroundPlace } from '../locate/route-geo';
 import { CONDUCTOR_MATERIALS, type ConductorMaterial } from '../locate';
 import type { FusedMethod } from '../locate/fuse';
-import { MAX_LENGTH_M, multiLine, oneLine, optionalNote, required } from './input';
+import { jsonId, MAX_ID, MAX_LENGTH_M, multiLine, oneLine, optionalNote, required } from './input';
 
 /** Readings other than TDR traces, kept with who took them, when and with what. */
 export const MEASUREMENT_KINDS = ['murray', 'varley', 'capacitance', 'loop-resistance'] as const;
@@ -34,11 +34,7 @@ const MAX_FARAD = 1e-3;
 const ohm = (reading: z.ZodNumber) => reading.max(MAX_OHM, 'must be at most 1e12 Ω (1 TΩ)');
 const farad = (reading: z.ZodNumber) => reading.max(MAX_FARAD, 'must be at most 0.001 F (1 mF)');
 const share = (reading: z.ZodNumber) => reading.max(1, 'must be at most 1 (a share of the loop)');
-const id = (what: string) =>
-  z
-    .number({ error: `must be ${what}` })
-    .int(`must be ${what}`)
-    .positive(`must be ${what}`);
+const id = (what: string) => jsonId(`must be ${what}`);
 
 const sectionSchema = z.strictObject({
   lengthM: positive('metres').max(MAX_LENGTH_M, `must be at most ${MAX_LENGTH_M} m`),
@@ -198,7 +194,8 @@ const queryId = (what: string) =>
   z
     .string({ error: `must be ${what}` })
     .regex(/^[1-9]\d{0,9}$/, `must be ${what}`)
-    .transform(Number);
+    .transform(Number)
+    .refine((n) => n <= MAX_ID, `must be ${what} (at most ${MAX_ID})`);
 
 export const MeasurementListQuerySchema = z.strictObject({
   cableRunId: queryId('a cable run id').optional(),

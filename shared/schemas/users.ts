@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { oneLine, required, textInt } from './input';
+import { jsonId, oneLine, required, textInt } from './input';
 import { ROLES } from '../auth/permissions';
 import type { TicketStatus } from '../tickets/status';
 
@@ -44,7 +44,7 @@ export const UpdateUserSchema = z
 
 /** Hand a person's open repairs to another technician (POST /api/users/:id/hand-over-repairs). */
 export const HandOverSchema = z.strictObject({
-  toUserId: z.number({ error: 'must be a person' }).int({ error: 'must be a person' }).positive({ error: 'must be a person' }),
+  toUserId: jsonId('must be a person'),
 });
 
 /** A person's open repair tickets; `movable` ones can be handed over (a fixed one waits for sign-off). */
