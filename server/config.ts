@@ -50,6 +50,11 @@ const EnvSchema = z.object({
   /** Start-up clean-up leaves files younger than this alone (an upload may be arriving). */
   /** How long an SQLite statement waits for another process's write lock (this process queues its own writes). */
   SQLITE_BUSY_TIMEOUT_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(0).max(600_000).default(10_000),
+  /**
+   * How long one request may take from its first byte to its last, the upload of a trace file included. Unset:
+   * long enough for the largest file over a poor mobile link (MAX_UPLOAD_MB at 32 KiB/s), at least 5 minutes.
+   */
+  REQUEST_TIMEOUT_S: z.coerce.number({ error: 'must be a whole number of seconds' }).int('must be a whole number of seconds').min(10).max(86_400).optional(),
   UPLOAD_SWEEP_MIN_AGE_S: z.coerce.number({ error: 'must be a number of seconds' }).min(0).max(86_400).default(600),
   COOKIE_SECURE: z.enum(['auto', 'on', 'off']).default('auto'),
   TRUST_PROXY: proxyHops.default(0),
@@ -108,6 +113,8 @@ export interface AppConfig {
   /** Uploads larger than this are answered 202 and analysed in the background. */
   analysisInlineMaxBytes: number;
   uploadSweepMinAgeMs: number;
+  /** The longest a request may take, upload included (Node's requestTimeout); headers must come within a minute of it. */
+  requestTimeoutMs: number;
   /** How often the inbox is swept while running: a quarter of the minimum age, from 1 s to 60 s. */
   uploadSweepEveryMs: number;
   sqliteBusyTimeoutMs: number;
@@ -174,6 +181,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
       memoryMb: e.ANALYSIS_MEMORY_MB,
     },
     uploadSweepMinAgeMs: Math.round(e.UPLOAD_SWEEP_MIN_AGE_S * 1000),
+    requestTimeoutMs: (e.REQUEST_TIMEOUT_S ?? Math.max(300, Math.ceil((e.MAX_UPLOAD_MB * 1024) / 32))) * 1000,
     uploadSweepEveryMs: Math.min(60_000, Math.max(1_000, Math.round(e.UPLOAD_SWEEP_MIN_AGE_S * 250))),
     sqliteBusyTimeoutMs: e.SQLITE_BUSY_TIMEOUT_MS,
     cookieSecure: e.COOKIE_SECURE === 'auto' ? 'auto' : e.COOKIE_SECURE === 'on',

@@ -1,7 +1,7 @@
 import { createApp } from './app';
 import { ConfigError, loadConfig } from './config';
 import { createLogger } from './log';
-import { exposureWarnings } from './startup';
+import { applyRequestTimeouts, exposureWarnings } from './startup';
 
 async function main() {
   // Files and folders Rholog creates (database, uploads) are closed to other users.
@@ -42,6 +42,7 @@ async function main() {
       `Listening on http://${config.host === '0.0.0.0' ? 'localhost' : config.host}:${port} (${config.env})`,
     );
   });
+  applyRequestTimeouts(server, config);
   let stopping = false;
   const stop = (signal: string) => {
     if (stopping) return;

@@ -1,4 +1,5 @@
 import fs from 'node:fs';
+import type { Server } from 'node:http';
 import path from 'node:path';
 import type { AppConfig } from './config';
 import { dialectOf, sqlitePath } from './db/connection';
@@ -60,4 +61,15 @@ export function exposureWarnings(config: Pick<AppConfig, 'demoData' | 'host'>): 
     warnings.push(`HOST=${config.host} makes the demo accounts reachable from other machines; while demo data is on, leave HOST unset (127.0.0.1).`);
   }
   return warnings;
+}
+
+/**
+ * Node cuts a request that has not fully arrived after 5 minutes (its requestTimeout default), answering a bare
+ * 408: a technician's 20 MB trace over a poor mobile link would fail that way on every try. The limit comes from
+ * the configuration instead (sized to the largest upload); headers must still arrive within a minute, so a
+ * client that never finishes its headers holds a connection no longer than before.
+ */
+export function applyRequestTimeouts(server: Pick<Server, 'requestTimeout' | 'headersTimeout'>, config: Pick<AppConfig, 'requestTimeoutMs'>): void {
+  server.requestTimeout = config.requestTimeoutMs;
+  server.headersTimeout = Math.min(60_000, config.requestTimeoutMs);
 }

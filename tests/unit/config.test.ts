@@ -63,3 +63,28 @@ describe('loadConfig', () => {
     expect(message).toContain('DEMO_DATA: must be on or off');
   });
 });
+
+describe('how long a request may take', () => {
+  it('is long enough for the largest upload at 32 KiB/s, at least 5 minutes, unless REQUEST_TIMEOUT_S says', () => {
+    // 20 MiB at 32 KiB/s = 640 s; 2 MiB would take 64 s, so the 5-minute floor holds.
+    expect(loadConfig({}).requestTimeoutMs).toBe(640_000);
+    expect(loadConfig({ MAX_UPLOAD_MB: '2' }).requestTimeoutMs).toBe(300_000);
+    expect(loadConfig({ MAX_UPLOAD_MB: '100' }).requestTimeoutMs).toBe(3_200_000);
+    expect(loadConfig({ REQUEST_TIMEOUT_S: '1800' }).requestTimeoutMs).toBe(1_800_000);
+    expect(() => loadConfig({ REQUEST_TIMEOUT_S: '5' })).toThrow(ConfigError);
+    expect(() => loadConfig({ REQUEST_TIMEOUT_S: '90.5' })).toThrow(/REQUEST_TIMEOUT_S/);
+  });
+
+  it('is set on the listening server, with headers still due within a minute', async () => {
+    const { createServer } = await import('node:http');
+    const { applyRequestTimeouts } = await import('../../server/startup');
+    const server = createServer();
+    // Node's own defaults, which cut a 20 MB upload over a slow link at 5 minutes.
+    expect(server.requestTimeout).toBe(300_000);
+    applyRequestTimeouts(server, loadConfig({}));
+    expect(server.requestTimeout).toBe(640_000);
+    expect(server.headersTimeout).toBe(60_000);
+    applyRequestTimeouts(server, { requestTimeoutMs: 30_000 });
+    expect(server.headersTimeout).toBe(30_000);
+  });
+});
