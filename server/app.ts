@@ -35,6 +35,7 @@ import { cableRunRoutes } from './cable-runs/cable-runs.routes';
 import { findingRoutes } from './findings/findings.routes';
 import { measurementRoutes } from './measurements/measurements.routes';
 import { siteRoutes } from './sites/sites.routes';
+import { sampleTraceRoutes } from './traces/sample-traces.routes';
 import { traceRoutes } from './traces/traces.routes';
 import { traceOutcomeRoutes } from './trace-outcomes/trace-outcomes.routes';
 import { sweepInboxWhileRunning, sweepUploads } from './traces/traces.service';
@@ -133,7 +134,7 @@ export async function createApp(config: AppConfig, options: { logDestination?: D
 
   const healthRouteList = healthRoutes(app, ctx, lifecycle);
 
-  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(ctx), cableRoutes(), cableReanalysisRoutes(ctx), calibrationRoutes(ctx), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceOutcomeRoutes(ctx), traceRoutes(ctx), findingRoutes(ctx), measurementRoutes(ctx), ticketRoutes(ctx), dashboardRoutes()];
+  const routers: ApiRouter[] = [authRoutes(ctx, { passport, csrf }), userRoutes(ctx), cableRoutes(), cableReanalysisRoutes(ctx), calibrationRoutes(ctx), outboxRoutes(ctx), siteRoutes(ctx), cableRunRoutes(ctx), traceOutcomeRoutes(ctx), traceRoutes(ctx), sampleTraceRoutes(ctx), findingRoutes(ctx), measurementRoutes(ctx), ticketRoutes(ctx), dashboardRoutes()];
   for (const r of routers) app.use(r.prefix, r.router);
   const routes = [...healthRouteList, ...routers.flatMap((r) => r.routes)];
 

@@ -4,7 +4,7 @@
 //   node scripts/build/build-node.mjs            (npm run build:node)
 //
 // Output: dist/server/index.js, dist/server/analysis-worker.js (the worker pool
-// starts it from beside the server), dist/server/traces/ (demo trace files),
+// starts it from beside the server), dist/server/traces/ and samples/ (demo trace files),
 // dist/cli/rholog.js with dist/cli/analyze.js and dist/cli/locate.js (CommonJS, self-contained).
 import { build } from 'esbuild';
 import { buildCli, nodeCommon } from './cli-build.mjs';
@@ -29,5 +29,6 @@ await Promise.all([
 
 // The demo seed reads its trace files from beside its own module: in the bundle, beside dist/server/index.js.
 fs.cpSync(path.join(root, 'server/db/demo/traces'), path.join(out, 'server/traces'), { recursive: true });
+fs.cpSync(path.join(root, 'server/db/demo/samples'), path.join(out, 'server/samples'), { recursive: true });
 fs.writeFileSync(path.join(out, 'server/package.json'), '{ "type": "module" }\n');
 process.stdout.write(`built dist/server and dist/cli in ${Date.now() - started} ms\n`);

@@ -188,3 +188,20 @@ export interface UploadResult {
 
 /** The Idempotency-Key header of an upload: 8 to 128 letters, digits, dots, dashes, underscores or colons. */
 export const IDEMPOTENCY_KEY = /^[A-Za-z0-9._:-]{8,128}$/;
+
+/** A sample trace file offered to try an upload with while the demo data is on (GET /api/sample-traces). */
+export interface SampleTrace {
+  file: string;
+  /** What the trace shows, in words. */
+  title: string;
+  sizeBytes: number;
+  siteId: number;
+  siteName: string;
+  /** The demo run and end it was taken on: the upload form is filled in with them. */
+  cableRunId: number;
+  cableRunName: string;
+  end: 'A' | 'B';
+  endLabel: string;
+  /** The trace these bytes are already stored as on that run and end (an upload would be refused as a copy), or null. */
+  triedAsTraceId: number | null;
+}

@@ -16,6 +16,8 @@ import { CableRun, CableType, RouteMarker, Site, SiteSupervisor, Trace, type Use
  * confirmed finding on each trace that shows a fault.
  */
 export const DEMO_TRACE_DIR = path.resolve(import.meta.dirname, 'traces');
+/** Sample traces offered on the upload page to try, never loaded by the seed (beside the bundle too, as the traces are). */
+export const DEMO_SAMPLE_DIR = path.resolve(import.meta.dirname, 'samples');
 
 interface DemoRun {
   name: string;

@@ -8,10 +8,12 @@ import { Notice } from '../../components/ui/notice';
 import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useCableRuns } from '../../features/sites/api/list-cable-runs';
 import { useSites } from '../../features/sites/api/list-sites';
+import { useSampleTraces } from '../../features/traces/api/list-sample-traces';
 import { useUploadTraces } from '../../features/traces/api/upload-traces';
 import { EndPicker } from '../../features/traces/components/end-picker';
 import { SiteRunFields } from '../../features/traces/components/site-run-fields';
 import { formatFileSize } from '../../features/traces/components/file-size';
+import { SampleTraces } from '../../features/traces/components/sample-traces';
 import { fileAtFault, sameBytes, UploadOutcome } from '../../features/traces/components/upload-outcome';
 import { countOf, formatLength, fromUnit, lengthsInText } from '../../lib/format';
 import { useSession } from '../../features/auth/use-session';
@@ -68,6 +70,7 @@ export function UploadPage() {
   const upload = useUploadTraces();
   const online = useOnline();
   const device = useDevice();
+  const samples = useSampleTraces(online);
   // Without signal the server's lists cannot load: choose from the sites and runs kept on the phone instead.
   const kept = !online ? device.field : null;
   const siteItems = kept ? kept.sites : (sites.data?.items ?? []);
@@ -153,6 +156,22 @@ export function UploadPage() {
               </Notice>
             </div>
           )}
+          {/* Above the form, not between its steps: trying a sample fills them all in. */}
+          {online && files.length === 0 && (
+            <SampleTraces
+              samples={samples.data?.items ?? []}
+              traceLink={paths.trace.to}
+              onTry={(s, file) => {
+                setSiteId(String(s.siteId));
+                setRunId(String(s.cableRunId));
+                setEnd(s.end);
+                setFiles([file]);
+                setSkipped([]);
+                upload.reset();
+              }}
+            />
+          )}
+
           <Card title="1. Where">
             <SiteRunFields
               sites={siteItems}

@@ -1,0 +1,48 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { PHONE, signIn, startE2E, type E2E } from './support/browser';
+
+let e2e: E2E;
+beforeAll(async () => {
+  e2e = await startE2E();
+});
+afterAll(async () => {
+  await e2e?.stop();
+});
+
+const number = (s: string | null) => Number((s ?? '').replace(/[^\d.]/g, ''));
+
+describe('a new technician on the demo with no trace file of their own', () => {
+  it('tries the upload with a sample from the upload page and reads the fault, not "already uploaded"', async () => {
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'tech2@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.goto(`${e2e.baseUrl}/upload`);
+    await page.getByRole('heading', { name: 'No trace file to hand?' }).waitFor();
+    await page.getByRole('button', { name: 'Try the sample oakhollow-data-link-short.csv' }).click();
+    // The sample fills in where it was taken.
+    await page.getByText('oakhollow-data-link-short.csv').first().waitFor();
+    await expect
+      .poll(() => page.getByLabel('Cable run').evaluate((el: HTMLSelectElement) => el.selectedOptions[0]?.textContent))
+      .toBe('Data link OH-D1');
+    expect(await page.getByLabel('Site').evaluate((el: HTMLSelectElement) => el.selectedOptions[0]?.textContent)).toBe(
+      'Oakhollow cabinet row',
+    );
+    expect(await page.getByRole('button', { name: /End A/ }).getAttribute('aria-pressed')).toBe('true');
+    await e2e.screenshot(page, 'sample-upload-phone');
+    await page.getByRole('button', { name: 'Upload and analyse' }).click();
+
+    const distance = page.getByTestId('fault-distance');
+    await distance.waitFor({ timeout: 20_000 });
+    // scripts/make-demo-traces.ts put the short 57.3 m from end A, written with the run's library VF (0.675).
+    expect(Math.abs(number(await distance.textContent()) - 57.3)).toBeLessThan(1.5);
+    const traceUrl = new URL(page.url()).pathname;
+
+    // Back on the upload page the tried sample links to its trace instead of offering an upload that would be a copy.
+    await page.goto(`${e2e.baseUrl}/upload`);
+    const tried = page.getByTestId('sample-traces').getByRole('link', { name: /^open trace \d+$/ });
+    await tried.waitFor();
+    expect(await tried.getAttribute('href')).toBe(traceUrl);
+    expect(await page.getByRole('button', { name: 'Try the sample oakhollow-data-link-short.csv' }).count()).toBe(0);
+    expect(await page.getByRole('button', { name: 'Try the sample brookfold-telemetry-open.csv' }).count()).toBe(1);
+  });
+});
