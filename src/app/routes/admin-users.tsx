@@ -1,4 +1,4 @@
-import { useState, type FormEvent } from 'react';
+import { useEffect, useRef, useState, type FormEvent } from 'react';
 import { ROLE_LABELS, ROLES, type Role } from '../../../shared/auth/permissions';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
@@ -23,6 +23,14 @@ export function AdminUsersPage() {
   const [issued, setIssued] = useState<{ email: string; password: string } | null>(null);
   const [left, setLeft] = useState<{ name: string; stillOpen: number; handedTo: string | null } | null>(null);
   const errors = fieldErrors(create.error);
+  // The password just issued (or the hand-over just done) is said above the list: on a phone the button pressed is
+  // a screen or more below, so the page brings the notice into view and to the keyboard's and reader's attention.
+  const said = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    if (!issued && !left) return;
+    said.current?.scrollIntoView?.({ block: 'center' });
+    said.current?.focus({ preventScroll: true });
+  }, [issued, left]);
 
   const submit = (e: FormEvent) => {
     e.preventDefault();
@@ -36,21 +44,26 @@ export function AdminUsersPage() {
 
   return (
     <>
-      <PageHeader title="Users" subtitle="Create accounts with a temporary password, change roles, deactivate people who have left." />
-      {issued && (
-        <Notice tone="ok" title="Temporary password" className="mb-4">
-          Give <strong>{issued.email}</strong> this password by a safe route; they will be asked to change it:{' '}
-          <code className="rounded bg-white px-1 font-mono">{issued.password}</code>
-        </Notice>
-      )}
-      {left && (
-        <Notice tone={left.stillOpen > 0 ? 'warn' : 'ok'} title={`${left.name} is deactivated`} className="mb-4">
-          {left.handedTo ? `Their repairs not yet fixed went to ${left.handedTo}. ` : ''}
-          {left.stillOpen > 0
-            ? `${countOf(left.stillOpen, 'open repair ticket')} still ${left.stillOpen === 1 ? 'names' : 'name'} them: a supervisor reassigns or signs ${left.stillOpen === 1 ? 'it' : 'them'} off on the Tickets page.`
-            : 'No open repair names them.'}
-        </Notice>
-      )}
+      <PageHeader
+        title="Users"
+        subtitle="Create accounts with a temporary password, change roles, deactivate people who have left."
+      />
+      <div ref={said} tabIndex={-1} className="scroll-mt-20 outline-none" data-testid="users-said">
+        {issued && (
+          <Notice tone="ok" title="Temporary password" className="mb-4">
+            Give <strong>{issued.email}</strong> this password by a safe route; they will be asked to change it:{' '}
+            <code className="rounded bg-white px-1 font-mono">{issued.password}</code>
+          </Notice>
+        )}
+        {left && (
+          <Notice tone={left.stillOpen > 0 ? 'warn' : 'ok'} title={`${left.name} is deactivated`} className="mb-4">
+            {left.handedTo ? `Their repairs not yet fixed went to ${left.handedTo}. ` : ''}
+            {left.stillOpen > 0
+              ? `${countOf(left.stillOpen, 'open repair ticket')} still ${left.stillOpen === 1 ? 'names' : 'name'} them: a supervisor reassigns or signs ${left.stillOpen === 1 ? 'it' : 'them'} off on the Tickets page.`
+              : 'No open repair names them.'}
+          </Notice>
+        )}
+      </div>
       <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
         <Card title="People" className="min-w-0">
           <TextField label="Search by name or e-mail" value={q} onChange={(e) => (setQ(e.target.value), setPage(1))} />
@@ -78,9 +91,27 @@ export function AdminUsersPage() {
         </Card>
         <Card title="Add a person" className="min-w-0">
           <form onSubmit={submit} className="space-y-3">
-            <TextField label="Name" value={form.name} onChange={(e) => setForm({ ...form, name: e.target.value })} error={errors.name} required />
-            <TextField label="E-mail" type="email" value={form.email} onChange={(e) => setForm({ ...form, email: e.target.value })} error={errors.email} required />
-            <SelectField label="Role" value={form.role} onChange={(e) => setForm({ ...form, role: e.target.value as Role })} error={errors.role}>
+            <TextField
+              label="Name"
+              value={form.name}
+              onChange={(e) => setForm({ ...form, name: e.target.value })}
+              error={errors.name}
+              required
+            />
+            <TextField
+              label="E-mail"
+              type="email"
+              value={form.email}
+              onChange={(e) => setForm({ ...form, email: e.target.value })}
+              error={errors.email}
+              required
+            />
+            <SelectField
+              label="Role"
+              value={form.role}
+              onChange={(e) => setForm({ ...form, role: e.target.value as Role })}
+              error={errors.role}
+            >
               {ROLES.map((r) => (
                 <option key={r} value={r}>
                   {ROLE_LABELS[r]}
