@@ -90,7 +90,12 @@ export function SitePage() {
                   {!u.active && <span className="text-xs font-semibold text-warn"> · no longer a supervisor: gets no e-mail from this site</span>}
                 </li>
               ))}
-              {s.supervisors.length === 0 && <li className="text-mist">Nobody yet: confirmed findings here reach no one by e-mail.</li>}
+              {/* The finding e-mail's own rule (server/tickets/tickets.mail.ts): with no one here to receive it, every supervisor does. */}
+              {!s.supervisors.some((u) => u.active) && (
+                <li className={s.supervisors.length ? 'mt-2 text-ink-soft' : 'text-ink-soft'} data-testid="site-mail-fallback">
+                  {s.supervisors.length ? 'None of them gets e-mail now' : 'Nobody named yet'}: a finding confirmed here is e-mailed to every supervisor.
+                </li>
+              )}
             </ul>
           </Card>
           <Card title="Findings">
