@@ -1,4 +1,5 @@
 import type { ReactNode } from 'react';
+import { Link, useInRouterContext } from 'react-router-dom';
 import { ApiError, describeError, type FieldLabels } from '../../lib/api-client';
 import { lengthsInText, type LengthUnit } from '../../lib/format';
 
@@ -40,7 +41,9 @@ export function Loading({ what = 'Loading' }: { what?: string }) {
  * fields, and lengths in the reader's unit when the form deals in lengths.
  * A page that could not load its data (`onRetry`) offers to load it again
  * when trying again can help: no signal, or the server's own failure; a
- * refusal (4xx) would only be refused again.
+ * refusal (4xx) would only be refused again. A page whose record is not there
+ * (404: an old link, a mistyped number) offers the way back to today's work
+ * instead of leaving the reader on a page with nothing else on it.
  */
 export function ErrorNotice({
   error,
@@ -56,6 +59,8 @@ export function ErrorNotice({
   retrying?: boolean;
 }) {
   const canRetry = onRetry && !(error instanceof ApiError && error.status >= 400 && error.status < 500);
+  const inRouter = useInRouterContext();
+  const gone = onRetry && inRouter && error instanceof ApiError && error.status === 404;
   return (
     <Notice tone="danger" title="That did not work">
       {lengthsInText(describeError(error, labels), unit)}
@@ -68,6 +73,11 @@ export function ErrorNotice({
         >
           {retrying ? 'Trying again…' : 'Try again'}
         </button>
+      )}
+      {gone && (
+        <Link to="/" className="mt-1 flex min-h-11 items-center font-semibold text-teal underline">
+          Back to today's work
+        </Link>
       )}
     </Notice>
   );
