@@ -1125,6 +1125,11 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
       win = term.win;
       zeroPhase = false;
     } else if (!f || !acceptable(f, m, win)) continue;
+    else if (!zeroPhase && lossSource === 'library') {
+      // A step of the other sign in the window that one edge cannot follow: fitted beside it (withNeighbourEdge).
+      const two = withNeighbourEdge(ctx, win, f);
+      if (two && acceptable(two, m, win)) f = two;
+    }
     const probe =
       model === NO_LOSS
         ? null
@@ -1162,6 +1167,102 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     if (term && !fault) ctx.peeled.push({ t: term.f.tb, q: f.q, d: f.dq, h: term.f.g });
   }
   return { events, lossSource, loss: model, estimatedFrom, vf: input.vf };
+}
+
+/**
+ * Odds a second edge in an event's window must win by to be taken into its fit: TERMINATED_ODDS (decisive on
+ * Jeffreys' scale) for each place the second edge was tried, since the best of many places is kept (the
+ * Bonferroni bound on the look-elsewhere gain).
+ */
+const NEIGHBOUR_ODDS = TERMINATED_ODDS;
+/**
+ * Most of the one-edge fit's residual the fit with a second edge may leave: a second edge that takes less
+ * is following the one edge's own shape (its foot, its slow settling) rather than a step of its own.
+ */
+const NEIGHBOUR_SHARE = 0.5;
+
+/**
+ * The event's fit `f` with a second edge of the same modelled shape and of the other sign, at another delay
+ * in its window, fitted with it. A far event's window on a lossy line is long, and another step in it (a
+ * neighbour in its slow skirt, or the line's response where it departs from the single modelled edge) is taken
+ * by a one-edge fit as part of the event's own edge, which pulls its arrival and height off. Tried only with
+ * the cable's loss known (the edge's shape is then the line's own, and what it leaves is structure, not a
+ * shape the model lacks), on step records, and only where the one-edge fit leaves more than the noise
+ * (withinNoise). The second edge is of the other sign, so it cannot be the event's own edge split in two, and
+ * is sought at least one modelled lag from arrival to middle (and the launch's rise) away from the first. It
+ * is taken only where it explains the window decisively better (NEIGHBOUR_ODDS for each place tried), takes
+ * at least half of what the one edge left (NEIGHBOUR_SHARE) and stands at least the smallest reported
+ * reflection. It is not reported itself: only the event's delay and height are refitted. Returns the refitted
+ * event, or null.
+ */
+function withNeighbourEdge(ctx: FitContext, win: EventWindow, f: ModelFit): ModelFit | null {
+  const { rhoMin, launch: L } = ctx.input;
+  // A one-edge fit that leaves no more than the noise has nothing more to explain.
+  if (!ctx.shape.step || withinNoise(ctx, f, 3)) return null;
+  const q = f.q;
+  const w = windowData(ctx, win, q);
+  const n = w.y.length;
+  if (n < 12) return null;
+  const t = f.t;
+  const cols = w.slope ? 4 : 3;
+  const xs = new Float64Array(n);
+  for (let k = 0; k < n; k++) xs[k] = (k - (n - 1) / 2) / n;
+  let syy = 0;
+  for (let k = 0; k < n; k++) syy += w.y[k] * w.y[k];
+  const e2 = new Float64Array(n);
+  const a = new Float64Array(cols * cols);
+  const r = new Float64Array(cols);
+  const row = new Float64Array(cols);
+  const prof2 = (d1: number): { ss: number; h: number; h2: number } => {
+    a.fill(0);
+    r.fill(0);
+    for (let k = 0; k < n; k++) {
+      let c = 0;
+      row[c++] = 1;
+      if (w.slope) row[c++] = xs[k];
+      row[c++] = templateAt(t, w.j0 + k - t.start - d1);
+      row[c] = e2[k];
+      const yk = w.y[k];
+      for (let i = 0; i < cols; i++) {
+        r[i] += row[i] * yk;
+        for (let j = i; j < cols; j++) a[i * cols + j] += row[i] * row[j];
+      }
+    }
+    for (let i = 0; i < cols; i++) for (let j = 0; j < i; j++) a[i * cols + j] = a[j * cols + i];
+    const sol = solveSymmetric(a, r, cols);
+    if (!sol) return { ss: Infinity, h: 0, h2: 0 };
+    let fit = 0;
+    for (let i = 0; i < cols; i++) fit += sol[i] * r[i];
+    return { ss: Math.max(0, syy - fit), h: sol[cols - 2], h2: sol[cols - 1] };
+  };
+  const sep = Math.max(4, (Math.max(0, f.middle) + Math.max(1, L.riseSamples)) / q);
+  const lo = win.lo / q;
+  const hi = win.hi / q;
+  const step = Math.max(1, n / 60);
+  let tried = 0;
+  let best: { ss: number; h: number; h2: number; d: number; d2: number } | null = null;
+  for (let d2 = f.dq - n; d2 <= f.dq + n; d2 += step) {
+    // The second edge must change the level inside the window: wholly before or after it, it is the baseline.
+    const first = templateAt(t, w.j0 - t.start - d2);
+    const last = templateAt(t, w.j0 + n - 1 - t.start - d2);
+    if (!(Math.abs(last - first) > 0.5 * Math.abs(templateAt(t, 1e9)))) continue;
+    if (Math.abs(d2 - f.dq) < sep) continue;
+    for (let k = 0; k < n; k++) e2[k] = templateAt(t, w.j0 + k - t.start - d2);
+    const dLo = Math.max(lo, d2 < f.dq ? d2 + sep : lo);
+    const dHi = Math.min(hi, d2 > f.dq ? d2 - sep : hi);
+    if (!(dHi > dLo)) continue;
+    tried++;
+    const p = searchDelay(prof2, dLo, dHi, win.sign, 1e-2);
+    if (Number.isFinite(p.ss) && Math.sign(p.h2) === -win.sign && (best === null || p.ss < best.ss)) best = { ...p, d2 };
+  }
+  if (best === null || !(best.ss > 0) || Math.abs(best.h2) < rhoMin || Math.sign(best.h2) === win.sign) return null;
+  if ((n / 2) * Math.log(f.ss / best.ss) <= Math.log(NEIGHBOUR_ODDS * tried)) return null;
+  if (Math.abs(best.h) > MAX_HEIGHT) return null;
+  // The second edge must take at least half of what the one edge left: a smaller gain is the one edge's shape.
+  if (best.ss > NEIGHBOUR_SHARE * f.ss) return null;
+  const other = { t: { ...t, start: t.start + (best.d2 - best.d) }, g: best.h2 };
+  const sigma = delaySigma(w, t, best.d, best.ss, (win.hi - win.lo) / q / 2, undefined, other);
+  return { ...f, d: best.d * q, dq: best.d, h: best.h, ss: best.ss, sigma: sigma * q };
 }
 
 /** A lumped fault's fit (terminatedFit, 'fault') where the odds favour it decisively over the plain fit `plain` of the same window. */
