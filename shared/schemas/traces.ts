@@ -76,6 +76,9 @@ export const TraceListQuerySchema = z.strictObject({
   dir: z.enum(['asc', 'desc']).default('desc'),
   page: textInt({ min: 1, max: 1_000_000, what: 'a page number' }).default(1),
   pageSize: textInt({ min: 1, max: 100, what: 'a page size' }).default(25),
+}).refine((v) => v.from === undefined || v.to === undefined || v.from <= v.to, {
+  path: ['to'],
+  message: 'must be the same day as "from" or later',
 });
 export type TraceListQuery = Partial<z.output<typeof TraceListQuerySchema>>;
 

@@ -34,6 +34,14 @@ const server = setupServer(
   http.get('*/api/traces', ({ request }) => {
     const p = new URL(request.url).searchParams;
     asked.push(p);
+    const from = p.get('from');
+    const to = p.get('to');
+    if (from && to && from > to) {
+      return HttpResponse.json(
+        { error: { code: 'invalid_input', message: 'Some fields are not valid.', fields: [{ field: 'to', message: 'must be the same day as "from" or later' }] } },
+        { status: 400 },
+      );
+    }
     return HttpResponse.json({ items: [], total: 0, page: Number(p.get('page') ?? 1), pageSize: 25 });
   }),
   http.get('*/api/traces/archived', () => HttpResponse.json({ items: [], total: 0, page: 1, pageSize: 25 })),
@@ -118,5 +126,22 @@ describe('the traces search', () => {
     expect(lastAsked().get('q')).toBe('hn-c2');
     expect(lastAsked().get('page')).toBe('1');
     expect(router.state.location.search).toBe('?q=hn-c2');
+  });
+});
+
+describe('the traces date range', () => {
+  it('keeps To from before From, and shows a refused range under To instead of an error box', async () => {
+    show(<TracesPage />, '/traces');
+    const from = (await screen.findByLabelText('From')) as HTMLInputElement;
+    fireEvent.change(from, { target: { value: '2026-12-03' } });
+    const to = screen.getByLabelText('To') as HTMLInputElement;
+    expect(to.getAttribute('min')).toBe('2026-12-03');
+    // A typed date can still go under the picker's limit: the server's refusal is shown at the field.
+    fireEvent.change(to, { target: { value: '2026-12-01' } });
+    const message = await screen.findByText('must be the same day as "from" or later');
+    expect(to.getAttribute('aria-invalid')).toBe('true');
+    expect(to.getAttribute('aria-describedby')).toBe(message.id);
+    expect(from.getAttribute('max')).toBe('2026-12-01');
+    expect(screen.queryByText('Some fields are not valid.')).toBeNull();
   });
 });

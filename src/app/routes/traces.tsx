@@ -3,7 +3,8 @@ import { Link } from 'react-router-dom';
 import type { TraceListQuery } from '../../../shared/schemas/traces';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
-import { SelectField, TextField } from '../../components/ui/field';
+import { fieldErrors, SelectField, TextField } from '../../components/ui/field';
+import { ApiError } from '../../lib/api-client';
 import { ErrorNotice, Loading } from '../../components/ui/notice';
 import { StatusBadge } from '../../components/ui/status-badge';
 import { Pager } from '../../components/ui/pager';
@@ -28,6 +29,9 @@ export function TracesPage() {
   const runs = useCableRuns({ siteId: q.siteId }, !!q.siteId);
   const traces = useTraces(q);
   const badSearch = searchError(traces.error);
+  // A date range the server refused (the end before the start) is said under the date it names.
+  const dateErrors = traces.error instanceof ApiError && traces.error.status === 400 ? fieldErrors(traces.error) : {};
+  const badDates = dateErrors.from ?? dateErrors.to;
   const set = (patch: Partial<TraceListQuery>) => setQ({ ...q, page: 1, ...patch });
   const sortBy = (sort: Sort) => setQ({ ...q, sort, dir: q.sort === sort && q.dir === 'desc' ? 'asc' : 'desc' });
   const arrow = (s: Sort) => (q.sort === s ? (q.dir === 'asc' ? ' ▲' : ' ▼') : '');
@@ -68,13 +72,13 @@ export function TracesPage() {
             <option value="">Anyone</option>
             <option value="me">Me</option>
           </SelectField>
-          <TextField label="From" type="date" value={q.from ?? ''} onChange={(e) => set({ from: e.target.value || undefined })} />
-          <TextField label="To" type="date" value={q.to ?? ''} onChange={(e) => set({ to: e.target.value || undefined })} />
+          <TextField label="From" type="date" value={q.from ?? ''} max={q.to} error={dateErrors.from} onChange={(e) => set({ from: e.target.value || undefined })} />
+          <TextField label="To" type="date" value={q.to ?? ''} min={q.from} error={dateErrors.to} onChange={(e) => set({ to: e.target.value || undefined })} />
         </div>
         {traces.isPending ? (
           <Loading />
         ) : traces.error ? (
-          badSearch ? null : <ErrorNotice error={traces.error} onRetry={() => void traces.refetch()} retrying={traces.isFetching} />
+          badSearch || badDates ? null : <ErrorNotice error={traces.error} onRetry={() => void traces.refetch()} retrying={traces.isFetching} />
         ) : traces.data.items.length === 0 && search && !traces.isPlaceholderData ? (
           <NoMatches what="traces" search={search} />
         ) : (
