@@ -56,7 +56,7 @@ export const FindingListQuerySchema = z.strictObject({
 });
 export type FindingListQuery = Partial<z.output<typeof FindingListQuerySchema>>;
 
-export const TwoEndedQuerySchema = z.object({
+export const TwoEndedQuerySchema = z.strictObject({
   traceA: textId('a trace id'),
   eventA: textInt({ min: 0, max: 100_000, what: 'an event number' }),
   traceB: textId('a trace id'),

@@ -82,7 +82,7 @@ export const TraceListQuerySchema = z.strictObject({
 });
 export type TraceListQuery = Partial<z.output<typeof TraceListQuerySchema>>;
 
-export const TraceViewQuerySchema = z.object({
+export const TraceViewQuerySchema = z.strictObject({
   points: textInt({ min: 100, max: 20000, what: 'a number of points' }).default(2000),
   compareTo: textId('the id of a trace').optional(),
 });
