@@ -30,7 +30,16 @@
  * through (the differences tie), the median sits on a tie and the spread is
  * read from their 90th percentile instead. At coarse scales, where the record holds
  * too few independent outputs for a robust spread, the ratio of measured to
- * white noise found at the finer scales is carried over.
+ * white noise found at the finer scales is carried over. Where a scale holds too
+ * few even for the differences (the coarsest), its noise is not measured at all;
+ * there, in a pulse record, whose running sum builds slow noise up as a walk, the
+ * spread a finer scale of few outputs still read counts too, when it is the
+ * larger: a record whose slow noise already shows one scale finer is not taken as
+ * quiet where it cannot be measured. The record-end filter's own scale (too long
+ * for F anywhere) keeps the finer scales' measured level: its windows span most of
+ * the record, and what it reads there is a broad echo still creeping at the
+ * record's end, which also fills the finer scale of few outputs and would raise
+ * its threshold against itself.
  */
 import type { ReflectionEvent, TraceWarning } from '../schemas/trace-analysis';
 import { touchesHeld } from './noise';
@@ -60,6 +69,8 @@ interface ScaleNoise {
   sigmaF: number;
   /** Measured over white-noise level, when measured on enough outputs. */
   excess: number | null;
+  /** Where too few outputs were measured for that but the spread was still read (pulse records), its level over white noise. */
+  heldExcess?: number;
 }
 
 /**
@@ -78,7 +89,11 @@ function stepFilterAt(P: Float64Array, i: number, w: number, inv: number): numbe
   return (-P[i - 2 * w] + 4 * P[i - w] - 6 * P[i] + 4 * P[i + w] - P[i + 2 * w]) * inv;
 }
 
-/** Robust noise of F at one scale (see the header); F's k-th output (k < count) is centred on from + k·stride. */
+/**
+ * Robust noise of F at one scale (see the header); F's k-th output (k < count) is centred on from + k·stride.
+ * `excess`: the finer scales' measured level over white noise; `guess`: the level taken where this scale's
+ * noise cannot be measured at all (at least `excess`).
+ */
 function filterNoise(
   P: Float64Array,
   from: number,
@@ -87,6 +102,7 @@ function filterNoise(
   stride: number,
   sig: WorkingSignal,
   excess: number,
+  guess = excess,
 ): ScaleNoise {
   const white = Math.max(whiteNoiseOfF(w, sig), 1e-12);
   const lag = Math.max(1, Math.round((4 * w) / stride));
@@ -116,7 +132,9 @@ function filterNoise(
   }
   // Enough independent outputs (twelve lags' worth) for the robust spread to hold.
   if (used >= 12 * lag) return { sigmaF: Math.max(measured, white), excess: Math.max(1, measured / white) };
-  return { sigmaF: Math.max(white, Math.min(measured, 3 * excess * white)), excess: null };
+  if (count <= lag + 8) return { sigmaF: Math.max(white, Math.min(measured, 3 * guess * white)), excess: null };
+  const sigmaF = Math.max(white, Math.min(measured, 3 * excess * white));
+  return sig.mode === 'pulse' ? { sigmaF, excess: null, heldExcess: sigmaF / white } : { sigmaF, excess: null };
 }
 
 /**
@@ -231,6 +249,7 @@ interface ScaleResult {
   candidates: Candidate[];
   thr: number;
   excess: number | null;
+  heldExcess?: number;
 }
 
 /** The filter at scale w, its threshold, and the extreme of each run above it. */
@@ -242,6 +261,7 @@ function filterScale(
   rhoMin: number,
   excess: number,
   floorF = rhoMin,
+  guess = excess,
 ): ScaleResult | null {
   const n = P.length - 1;
   const from = sig.start + 2 * w;
@@ -251,7 +271,7 @@ function filterScale(
   const stride = Math.max(1, Math.floor(w / 4));
   const count = Math.floor((to - 1 - from) / stride) + 1;
   // (A − 3B + 3C − D)/2 over window means, written on the prefix sums; read where needed, not stored.
-  const noise = filterNoise(P, from, count, w, stride, sig, excess);
+  const noise = filterNoise(P, from, count, w, stride, sig, excess, guess);
   const thr = Math.max(k * noise.sigmaF, floorF);
   const candidates = filterRunsAbove(P, count, from, stride, w, thr, noise.sigmaF);
   // The record's last two windows: C − 2B + A, with noise √6/√5 that of F for white noise.
@@ -265,7 +285,7 @@ function filterScale(
     const sigmaT = noise.sigmaF * Math.sqrt(6 / 5);
     candidates.push(...runsAbove(T, tailCount, tailFrom, stride, w, Math.max(k * sigmaT, rhoMin), sigmaT));
   }
-  return { candidates, thr, excess: noise.excess };
+  return { candidates, thr, excess: noise.excess, heldExcess: noise.heldExcess };
 }
 
 /**
@@ -572,6 +592,7 @@ export function detectEdges(sig: WorkingSignal, settings: DetectionSettings): De
   const candidates: Candidate[] = [];
   const thresholds: number[] = [];
   let excess = 1;
+  let held = 1;
   // A pulse record too short for the scale 2·w0 has no scale that reads an echo's ramp in the running
   // sum (the pulse's width, 2.5 w0) whole: the finest reads it at 0.14 of its height, so a floor of
   // rhoMin there keeps out echoes seven times larger. Its floor is then what an echo of rhoMin gives
@@ -581,9 +602,10 @@ export function detectEdges(sig: WorkingSignal, settings: DetectionSettings): De
   for (const w of scales) {
     // Only F's floor: the record-end filter reads an echo the record cuts short, at no known share of it.
     const floorF = rampScaleMissing && w === sig.w0 ? rhoMin * rampResponse(2.5 * sig.w0, w) : rhoMin;
-    const r = filterScale(P, w, sig, k, rhoMin, excess, floorF);
+    const r = filterScale(P, w, sig, k, rhoMin, excess, floorF, Math.max(excess, held));
     if (!r) continue;
     if (r.excess !== null) excess = r.excess;
+    if (r.heldExcess !== undefined) held = Math.max(held, r.heldExcess);
     thresholds.push(r.thr);
     candidates.push(...r.candidates);
   }
