@@ -2,6 +2,7 @@ import type { ErrorRequestHandler } from 'express';
 import multer from 'multer';
 import { UniqueConstraintError } from 'sequelize';
 import { ZodError } from 'zod';
+import { issueWords } from '../shared/schemas/issue-words';
 import { capMessage } from './http/messages';
 
 export { capMessage, MAX_MESSAGE_CHARS } from './http/messages';
@@ -45,7 +46,7 @@ export function zodFields(error: ZodError): FieldIssue[] {
     // one by one, rather than as "(body): Unrecognized keys: …".
     i.code === 'unrecognized_keys'
       ? i.keys.map((k) => ({ field: [...i.path, k].join('.'), message: 'is not expected here' }))
-      : [{ field: i.path.join('.') || '(body)', message: i.message }],
+      : [{ field: i.path.join('.') || '(body)', message: issueWords(i) }],
   );
 }
 

@@ -9,6 +9,7 @@ import { protectCell, unprotectCell } from './csv-cells';
 import { CABLE_FIELDS, cableNameKey, diffCable, historyValue, LIST_FIELDS, planUpdate, type CableField } from './cables.service';
 import { findBidiControl } from '../http/strict-input';
 import { csvTrouble, unclosedQuoteLine } from '../../shared/trace/csv-trouble';
+import { issueWords } from '../../shared/schemas/issue-words';
 
 /**
  * The library as CSV: one row per cable type, SI units named in the header.
@@ -259,7 +260,7 @@ export async function parseImport(text: string, transaction?: Transaction): Prom
       const unreadable = new Set(errors.map((e) => e.field));
       for (const issue of parsed.error.issues) {
         const column = CSV_COLUMNS[issue.path[0] as CableField] ?? String(issue.path[0] ?? '(row)');
-        if (!unreadable.has(column)) errors.push({ field: column, message: issue.message, line });
+        if (!unreadable.has(column)) errors.push({ field: column, message: issueWords(issue), line });
       }
     }
     const key = cableNameKey(name);
