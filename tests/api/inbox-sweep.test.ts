@@ -1,12 +1,11 @@
 import fs from 'node:fs';
 import http from 'node:http';
-import type { AddressInfo, Socket } from 'node:net';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Trace } from '../../server/db/models';
 import { sweepInbox } from '../../server/traces/trace-store';
 import { eventually } from './mail.support';
-import { startApi, type TestApi } from './support/api';
+import { listenOnLoopback, startApi, type LoopbackServer, type TestApi } from './support/api';
 import { makeRun, stepTraceCsv } from './support/field-fixtures';
 
 /**
@@ -17,27 +16,20 @@ import { makeRun, stepTraceCsv } from './support/field-fixtures';
  */
 const MIN_AGE_MS = 60_000;
 let api: TestApi;
-let server: http.Server;
+let loop: LoopbackServer;
 let port: number;
 let inbox: string;
-const sockets = new Set<Socket>();
 
 beforeAll(async () => {
   // The sweep runs every 100 ms here (a quarter of the minimum age, at least 1 s, when read from the environment).
   api = await startApi({ uploadSweepMinAgeMs: MIN_AGE_MS, uploadSweepEveryMs: 100 });
   inbox = path.join(api.app.ctx.config.uploadDir, 'incoming');
   fs.mkdirSync(inbox, { recursive: true });
-  server = api.app.app.listen(0, '127.0.0.1');
-  server.on('connection', (s) => {
-    sockets.add(s);
-    s.on('close', () => sockets.delete(s));
-  });
-  await new Promise((r) => server.once('listening', r));
-  port = (server.address() as AddressInfo).port;
+  loop = await listenOnLoopback(api);
+  port = loop.port;
 });
 afterAll(async () => {
-  for (const s of sockets) s.destroy();
-  await new Promise((r) => server.close(r));
+  await loop.close();
   await api.close();
 });
 

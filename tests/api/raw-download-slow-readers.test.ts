@@ -1,8 +1,7 @@
 import { createHash } from 'node:crypto';
 import http from 'node:http';
-import type { AddressInfo, Socket } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startApi, type TestApi } from './support/api';
+import { listenOnLoopback, startApi, type LoopbackServer, type TestApi } from './support/api';
 import { eventually } from './mail.support';
 import { makeRun, stepTraceCsv } from './support/field-fixtures';
 
@@ -13,23 +12,16 @@ import { makeRun, stepTraceCsv } from './support/field-fixtures';
  * then sent as the client takes it, so what waits for a client is a small buffer, not the file.
  */
 let api: TestApi;
-let server: http.Server;
+let loop: LoopbackServer;
 let port: number;
-const sockets = new Set<Socket>();
 
 beforeAll(async () => {
   api = await startApi();
-  server = api.app.app.listen(0, '127.0.0.1');
-  server.on('connection', (s) => {
-    sockets.add(s);
-    s.on('close', () => sockets.delete(s));
-  });
-  await new Promise((r) => server.once('listening', r));
-  port = (server.address() as AddressInfo).port;
+  loop = await listenOnLoopback(api);
+  port = loop.port;
 });
 afterAll(async () => {
-  for (const s of sockets) s.destroy();
-  await new Promise((r) => server.close(r));
+  await loop.close();
   await api.close();
 });
 
@@ -58,7 +50,7 @@ describe('GET /api/traces/:id/raw read by clients that do not read', () => {
     await eventually(async () => stalled.length === 4, 'the four downloads to begin');
     expect(stalled.map((r) => r.statusCode)).toEqual([200, 200, 200, 200]);
     // What the server holds for them in memory, beyond what the operating system's socket buffers took.
-    const waiting = [...sockets].reduce((n, s) => n + s.writableLength, 0);
+    const waiting = [...loop.sockets].reduce((n, s) => n + s.writableLength, 0);
     expect(waiting).toBeLessThan(4 * 1024 * 1024);
     for (const r of requests) r.destroy();
 

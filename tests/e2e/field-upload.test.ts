@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableRun, CableType, Finding } from '../../server/db/models';
 import { stepTraceCsv } from '../support/step-trace';
-import { DESKTOP, PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { DESKTOP, type E2E, numberIn, PHONE, signIn, startE2E } from './support/browser';
 
 let e2e: E2E;
 beforeAll(async () => {
@@ -11,7 +11,7 @@ afterAll(async () => {
   await e2e?.stop();
 });
 
-const number = (s: string | null) => Number((s ?? '').replace(/[^\d.]/g, ''));
+const number = numberIn;
 
 describe('a technician on a phone', () => {
   it('uploads a trace, reads the distance and where to dig, moves a cursor and confirms the finding', async () => {

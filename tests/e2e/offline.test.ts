@@ -5,7 +5,7 @@ import { hashPassword } from '../../server/auth/passwords';
 import { updateUser } from '../../server/users/users.service';
 import { updateCable } from '../../server/cables/cables.service';
 import { stepTraceCsv } from '../support/step-trace';
-import { PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { type E2E, numberIn, PHONE, signIn, startE2E } from './support/browser';
 
 let e2e: E2E;
 beforeAll(async () => {
@@ -19,7 +19,7 @@ afterEach(async () => {
   await e2e?.context.setOffline(false);
 });
 
-const number = (s: string | null) => Number((s ?? '').replace(/[^\d.]/g, ''));
+const number = numberIn;
 
 /** The service worker is active and its precache complete: the app can start with no network. */
 async function offlineReady(page: Page) {

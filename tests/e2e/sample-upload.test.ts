@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { type E2E, numberIn, PHONE, signIn, startE2E } from './support/browser';
 
 let e2e: E2E;
 beforeAll(async () => {
@@ -9,7 +9,7 @@ afterAll(async () => {
   await e2e?.stop();
 });
 
-const number = (s: string | null) => Number((s ?? '').replace(/[^\d.]/g, ''));
+const number = numberIn;
 
 describe('a new technician on the demo with no trace file of their own', () => {
   it('tries the upload with a sample from the upload page and reads the fault, not "already uploaded"', async () => {

@@ -5,7 +5,7 @@ import { CableCalibration, CableRun, CableType, RouteMarker, Site, Trace, TraceA
 import { stepTraceCsv } from '../support/step-trace';
 import path from 'node:path';
 import type { Locator } from 'playwright-core';
-import { DESKTOP, PHONE, SCREENSHOT_DIR, signIn, startE2E, type E2E } from './support/browser';
+import { DESKTOP, type E2E, numberIn, PHONE, SCREENSHOT_DIR, signIn, startE2E } from './support/browser';
 
 let e2e: E2E;
 beforeAll(async () => {
@@ -18,7 +18,7 @@ afterAll(async () => {
 /** A picture of one part of the page, to look at closely. */
 const part = (l: Locator, name: string) => l.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`) });
 
-const number = (s: string | null) => Number((s ?? '').replace(/[^\d.]/g, ''));
+const number = numberIn;
 
 async function signedIn(email: string, viewport = PHONE) {
   const page = await e2e.newPage(viewport);

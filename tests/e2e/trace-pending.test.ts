@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableRun, CableType, Trace } from '../../server/db/models';
 import { stepTraceCsv } from '../support/step-trace';
-import { DESKTOP, signIn, startE2E, type E2E } from './support/browser';
+import { DESKTOP, type E2E, numberIn, signIn, startE2E } from './support/browser';
 
 /** Files above 100 KiB are analysed in the background here (a 12,000-sample file is about 157 kB). */
 let e2e: E2E;
@@ -12,7 +12,7 @@ afterAll(async () => {
   await e2e?.stop();
 });
 
-const number = (s: string | null) => Number((s ?? '').replace(/[^\d.]/g, ''));
+const number = numberIn;
 
 describe('a large upload', () => {
   it('opens its trace page saying "Analysing…", then shows the distance once the background analysis is in', async () => {

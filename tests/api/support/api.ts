@@ -1,3 +1,4 @@
+import type { AddressInfo, Socket } from 'node:net';
 import type { DestinationStream } from 'pino';
 import supertest from 'supertest';
 import { createApp, type RhologApp } from '../../../server/app';
@@ -79,6 +80,32 @@ export async function startApi(overrides: Partial<AppConfig> = {}, options: { lo
     close: async () => {
       await app.close();
       await db.cleanup();
+    },
+  };
+}
+
+/** The app listening on a free loopback port, for tests that need raw sockets; `sockets` holds the open connections. */
+export interface LoopbackServer {
+  port: number;
+  sockets: Set<Socket>;
+  /** Ends every connection, then stops listening. */
+  close: () => Promise<void>;
+}
+
+export async function listenOnLoopback(api: TestApi): Promise<LoopbackServer> {
+  const server = api.app.app.listen(0, '127.0.0.1');
+  const sockets = new Set<Socket>();
+  server.on('connection', (s) => {
+    sockets.add(s);
+    s.on('close', () => sockets.delete(s));
+  });
+  await new Promise((r) => server.once('listening', r));
+  return {
+    port: (server.address() as AddressInfo).port,
+    sockets,
+    close: async () => {
+      for (const s of sockets) s.destroy();
+      await new Promise((r) => server.close(r));
     },
   };
 }

@@ -81,3 +81,6 @@ export async function signIn(page: Page, baseUrl: string, email: string, passwor
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
 }
+
+/** The number in a shown text, its other characters dropped ("260.4 m" → 260.4). */
+export const numberIn = (s: string | null) => Number((s ?? '').replace(/[^\d.]/g, ''));
