@@ -19,6 +19,7 @@ export function findingRoutes(ctx: AppContext) {
     handle((req, res) => {
       const input = FindingInputSchema.parse(req.body);
       return once(req, res, {
+        logger: ctx.logger,
         userId: currentUser(req).id,
         status: 201,
         make: (receipt) => findings.recordFinding(ctx, input, currentUser(req).id, receipt),

@@ -4,6 +4,7 @@ import { Op, type Transaction } from 'sequelize';
 import { IDEMPOTENCY_KEY } from '../../shared/schemas/traces';
 import { RequestReceipt } from '../db/models';
 import { AppError } from '../errors';
+import type { Logger } from '../log';
 
 /**
  * The optional Idempotency-Key header. The client makes one per thing it
@@ -36,14 +37,19 @@ export async function forgetReceiptsBefore(cutoff: Date): Promise<number> {
   return RequestReceipt.destroy({ where: { createdAt: { [Op.lt]: cutoff } } });
 }
 
-/** Once an hour at most, forget the receipts past their kept days; trouble here never fails the create that asked. */
-export async function forgetOldReceipts(now = Date.now()): Promise<void> {
+/**
+ * Once an hour at most, forget the receipts past their kept days. Trouble here never fails the create that
+ * asked: it is written to the log as a warning (so a table that keeps growing has a cause to find) and tried
+ * again by the next create.
+ */
+export async function forgetOldReceipts(now = Date.now(), logger?: Pick<Logger, 'warn'>): Promise<void> {
   if (now - lastForgotAt < FORGET_EVERY_MS) return;
   lastForgotAt = now;
   try {
     await forgetReceiptsBefore(new Date(now - RECEIPTS_KEPT_DAYS * 24 * 60 * 60 * 1000));
-  } catch {
+  } catch (err) {
     lastForgotAt = 0;
+    logger?.warn({ err }, `Forgetting request receipts older than ${RECEIPTS_KEPT_DAYS} days failed; the next create tries again.`);
   }
 }
 
@@ -71,6 +77,8 @@ export interface OnceOptions<T> {
   make: (receipt: WriteReceipt | undefined) => Promise<T>;
   /** The answer for a record made earlier under the same key: the record as it is now. */
   replay: (resourceId: number) => Promise<T>;
+  /** Where trouble in the hourly forgetting of old receipts is written. */
+  logger?: Pick<Logger, 'warn'>;
 }
 
 /**
@@ -123,7 +131,7 @@ export async function once<T>(req: Request, res: Response, opts: OnceOptions<T>)
       );
     });
     res.status(opts.status);
-    await forgetOldReceipts();
+    await forgetOldReceipts(Date.now(), opts.logger);
     return made;
   } catch (err) {
     // A copy of this request sent alongside it may have made the record first: then this one was refused

@@ -24,6 +24,7 @@ export function measurementRoutes(ctx: AppContext) {
     handle((req, res) => {
       const input = MeasurementInputSchema.parse(req.body);
       return once(req, res, {
+        logger: ctx.logger,
         userId: currentUser(req).id,
         status: 201,
         make: (receipt) => measurements.recordMeasurement(ctx, input, currentUser(req), receipt),

@@ -43,6 +43,7 @@ export function ticketRoutes(ctx: AppContext) {
       const id = IdParam.parse(req.params).id;
       const input = CloseoutSchema.parse(req.body);
       return once(req, res, {
+        logger: ctx.logger,
         userId: currentUser(req).id,
         status: 200,
         make: (receipt) => tickets.closeOutTicket(ctx, currentUser(req), id, input, receipt),

@@ -1,4 +1,4 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { CableRun, Finding, Measurement, RequestReceipt, Ticket, TicketCloseout } from '../../server/db/models';
 import { forgetOldReceipts, RECEIPTS_KEPT_DAYS } from '../../server/http/idempotency';
 import { startApi, type Client, type TestApi } from './support/api';
@@ -206,5 +206,35 @@ describe('receipts past their kept days', () => {
     expect(recentAgain.headers['idempotent-replayed']).toBe('true');
     expect(recentAgain.body.id).toBe(recent.body.id);
     expect(await Measurement.count({ where: { findingId } })).toBe(3);
+  });
+});
+
+describe('a failed forgetting of old receipts', () => {
+  it('is written to the log as a warning, leaves the receipts, and is tried again by the next forgetting', async () => {
+    const day = 24 * 60 * 60 * 1000;
+    const traceId = await uploadTrace(160);
+    const finding = await tech.post('/api/findings', { traceId, eventIndex: 0, status: 'confirmed', kind: 'open-conductor' }).expect(201);
+    await tech.post('/api/measurements', murray(finding.body.id as number, 0.43)).set('Idempotency-Key', 'reading-stale-4b9a8e21').expect(201);
+    await api.app.ctx.sequelize.query('UPDATE request_receipts SET created_at = ? WHERE idempotency_key = ?', {
+      replacements: [new Date(Date.now() - (RECEIPTS_KEPT_DAYS + 5) * day), 'reading-stale-4b9a8e21'],
+    });
+    const warn = vi.fn();
+    const broken = vi.spyOn(RequestReceipt, 'destroy').mockRejectedValueOnce(new Error('database is locked'));
+    try {
+      // Far enough ahead of every earlier forgetting in this file that the hourly limit lets it run.
+      const later = Date.now() + 10 * 60 * 60 * 1000;
+      await forgetOldReceipts(later, { warn });
+      expect(warn).toHaveBeenCalledTimes(1);
+      const [fields, message] = warn.mock.calls[0] as [{ err: Error }, string];
+      expect(fields.err.message).toBe('database is locked');
+      expect(message).toBe(`Forgetting request receipts older than ${RECEIPTS_KEPT_DAYS} days failed; the next create tries again.`);
+      expect(await RequestReceipt.count({ where: { idempotencyKey: 'reading-stale-4b9a8e21' } })).toBe(1);
+      // The failure does not count as this hour's forgetting: the very next one runs and takes the receipt.
+      await forgetOldReceipts(later + 1000, { warn });
+      expect(warn).toHaveBeenCalledTimes(1);
+      expect(await RequestReceipt.count({ where: { idempotencyKey: 'reading-stale-4b9a8e21' } })).toBe(0);
+    } finally {
+      broken.mockRestore();
+    }
   });
 });
