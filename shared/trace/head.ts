@@ -49,6 +49,24 @@ function noNumbers(extra = ''): TraceInputError {
   return new TraceInputError('NO_NUMERIC_ROWS', `no rows of numbers were found${extra}; expected numeric rows after the header`);
 }
 
+/** A line that begins like a row of numbers but has words in it, such as `12.5 ns, 0.031 V`. */
+const NUMBER_FIRST = /^[-+]?(\d|\.\d)/;
+
+/**
+ * Why no row of numbers was found: where a line starts with a number but carries words beside it (units written
+ * in every cell, say), name the first such line, since that is most likely meant to be the data.
+ */
+function noNumbersIn(rows: HeadRow[], where = ''): TraceInputError {
+  const wordy = rows.find((r) => !r.comment && NUMBER_FIRST.test(r.text));
+  if (!wordy) return noNumbers(where);
+  const shown = wordy.text.length > 40 ? `${wordy.text.slice(0, 40)}…` : wordy.text;
+  return new TraceInputError(
+    'NO_NUMERIC_ROWS',
+    `"${shown}" starts with a number but has words beside its numbers: give every cell as a plain number and put the units in the header (no rows of numbers were found${where})`,
+    { line: wordy.line },
+  );
+}
+
 /** Refuse a line longer than the head limit, naming the limit that applies to what it looks like. */
 function refuseLongHeadLine(src: TraceBytes, pos: number, line: number): never {
   const prefix = decodeText(src.bytes, pos, Math.min(src.bytes.length, pos + 64)).trim();
@@ -92,9 +110,9 @@ export function readHead(src: TraceBytes): FileHead {
         return { rows, dataStart: pos, dataLine: line, samples: readSamples(src, pos, line) };
       } else rows.push({ text: t, line, comment: false });
     }
-    if (line >= MAX_HEAD_LINES) throw noNumbers(` in the first ${MAX_HEAD_LINES} lines`);
+    if (line >= MAX_HEAD_LINES) throw noNumbersIn(rows, ` in the first ${MAX_HEAD_LINES} lines`);
     pos = end + 1;
     line++;
   }
-  throw noNumbers();
+  throw noNumbersIn(rows);
 }

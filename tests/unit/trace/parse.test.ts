@@ -504,6 +504,27 @@ describe('parseTraceCsv from bytes', () => {
 });
 
 describe('parseTraceCsv bounds on hostile files', () => {
+  it('names the first line that starts with a number but has words beside its numbers (units in every cell)', () => {
+    const text = ['# sample interval: 1 ns', 'time,voltage', ...col((i) => `${i}.0 ns,${(i * 0.01).toFixed(3)} V`)].join('\n');
+    for (const input of [Buffer.from(text), text]) {
+      let err: TraceInputError | undefined;
+      try {
+        parseTraceCsv(input);
+      } catch (e) {
+        err = e as TraceInputError;
+      }
+      expect(err?.code).toBe('NO_NUMERIC_ROWS');
+      expect(err?.line).toBe(3);
+      expect(err?.message).toBe(
+        'line 3: "0.0 ns,0.000 V" starts with a number but has words beside its numbers: give every cell as a plain number and put the units in the header (no rows of numbers were found)',
+      );
+    }
+    // A head of words only still says just that no numbers were found.
+    expect(() => parseTraceCsv('time,voltage\nnone,recorded\n')).toThrow(
+      expect.objectContaining({ code: 'NO_NUMERIC_ROWS', message: 'no rows of numbers were found; expected numeric rows after the header' }),
+    );
+  });
+
   it('refuses a 19.5 MB single-cell line at its line, with a short message, from bytes and from text', () => {
     const cell = '7'.repeat(19_500_000);
     const text = `time_ns,voltage_V\n${cell}\n${col((i) => `${i},${i}`).join('\n')}`;
