@@ -136,6 +136,31 @@ function refuseOddFirstRow(
   );
 }
 
+/**
+ * A header just above the numbers that names more or fewer columns than every row of numbers has. Without this
+ * the header is not taken as one, and the file is refused for what the header would have told (a time unit, say).
+ */
+function refuseHeaderOfOtherWidth(
+  head: FileHead,
+  rows: FileHead['rows'],
+  rowCells: string[][],
+  columnCount: number,
+  delimiter: Delimiter,
+  allNames: (cells: string[]) => boolean,
+): void {
+  const last = rows.length - 1;
+  if (last < 0 || delimiter === null || delimiter === 'whitespace' || rows[last].line !== head.dataLine - 1) return;
+  const names = rowCells[last];
+  if (names.length === columnCount || names.length < 2 || !allNames(names)) return;
+  if (!head.samples.every((s) => splitRow(s.text, delimiter).length === columnCount)) return;
+  const shown = names.map((n) => `'${shorten(n, 20)}'`).join(', ');
+  throw new TraceInputError(
+    'HEADER_MISMATCH',
+    `the header names ${names.length} columns (${shorten(shown, 120)}) but the rows of numbers below it have ${columnCount}; give one name per column`,
+    { line: rows[last].line },
+  );
+}
+
 /** Split the head into header and metadata rows, and work out the delimiter and the number of columns. */
 export function readLayout(head: FileHead): FileLayout {
   const { delimiter, decimalComma } = readDelimiter(head);
@@ -174,6 +199,7 @@ export function readLayout(head: FileHead): FileLayout {
       }
     }
   }
+  if (header === null) refuseHeaderOfOtherWidth(head, rows, rowCells, columnCount, delimiter, allNames);
   const splitByDelimiter = (delimiter ?? headDelimiter) !== null && delimiter !== 'whitespace';
   const metaRows: HeadText[] = [];
   let k = 0;

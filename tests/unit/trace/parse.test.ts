@@ -504,6 +504,24 @@ describe('parseTraceCsv from bytes', () => {
 });
 
 describe('parseTraceCsv bounds on hostile files', () => {
+  it('refuses a header that names more or fewer columns than the rows of numbers have, at the header line', () => {
+    const wide = ['# sample interval: 1 ns', 'time (ns),voltage (V),note', ...col((i) => `${i},${i * 0.01}`)].join('\n');
+    for (const input of [Buffer.from(wide), wide]) {
+      expect(() => parseTraceCsv(input)).toThrow(
+        expect.objectContaining({
+          code: 'HEADER_MISMATCH',
+          line: 2,
+          message: "line 2: the header names 3 columns ('time (ns)', 'voltage (V)', 'note') but the rows of numbers below it have 2; give one name per column",
+        }),
+      );
+    }
+    const narrow = ['time (ns);voltage (V)', ...col((i) => `${i};${i * 0.01};${i * 0.02}`)].join('\n');
+    expect(() => parseTraceCsv(narrow)).toThrow(expect.objectContaining({ code: 'HEADER_MISMATCH', line: 1 }));
+    // A trailing delimiter on every row, or on the header alone, is not a missing column.
+    const t = parseTraceCsv(['time (ns),voltage (V),', ...col((i) => `${i},${i * 0.01}`)].join('\n'));
+    expect(t.amplitude[4]).toBeCloseTo(0.04, 12);
+  });
+
   it('names the first line that starts with a number but has words beside its numbers (units in every cell)', () => {
     const text = ['# sample interval: 1 ns', 'time,voltage', ...col((i) => `${i}.0 ns,${(i * 0.01).toFixed(3)} V`)].join('\n');
     for (const input of [Buffer.from(text), text]) {
