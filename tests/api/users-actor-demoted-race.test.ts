@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { hashPassword } from '../../server/auth/passwords';
 import { User } from '../../server/db/models';
 import { startApi, TEST_PASSWORD, type Client, type TestApi } from './support/api';
+import { pauseFirstRead } from './support/pause';
 
 /**
  * An administrator whose role another administrator takes away while their own request is under way: the request
@@ -26,28 +27,9 @@ async function twoAdmins(): Promise<{ leaving: User; leavingClient: Client; othe
   return { leaving, leavingClient: await api.signIn(leaving.email, TEST_PASSWORD), other: await api.signIn(`staying${n}@example.com`, TEST_PASSWORD) };
 }
 
-/** Holds the first read of a User that `matches` (outside any transaction) until release(). */
-function holdRead(matches: (result: unknown, options: { where?: unknown; transaction?: unknown }) => boolean) {
-  let reached!: () => void;
-  let release!: () => void;
-  const reachedP = new Promise<void>((r) => (reached = r));
-  const released = new Promise<void>((r) => (release = r));
-  let armed = true;
-  const name = `hold-${Math.random()}`;
-  User.addHook('afterFind', name, async (result: unknown, options: { where?: unknown; transaction?: unknown }) => {
-    if (!armed || options.transaction || !matches(result, options)) return;
-    armed = false;
-    reached();
-    await released;
-  });
-  return {
-    reached: reachedP,
-    release: () => {
-      User.removeHook('afterFind', name);
-      release();
-    },
-  };
-}
+/** Holds the first read of a User that `matches`, made outside any transaction, until release(). */
+const holdRead = (matches: (result: unknown, options: { where?: unknown; transaction?: unknown }) => boolean) =>
+  pauseFirstRead(User, `hold-user-read-${n}`, matches, { inTransaction: false });
 
 describe('an administrator demoted while their request is under way', () => {
   it('does not reset another person’s password', async () => {

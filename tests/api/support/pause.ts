@@ -9,13 +9,16 @@ export interface Pause {
 }
 
 /**
- * Holds the first read of `model` made inside a transaction that `matches` until `release()`, so a test can
- * send a second request at exactly that moment. `name` names the hook (one pause per model at a time).
+ * Holds the first read of `model` that `matches` until `release()`, so a test can send a second request at
+ * exactly that moment: by default a read made inside a transaction (a write under way), or with
+ * `{ inTransaction: false }` one made outside any (the check a request makes before it writes). `name` names the
+ * hook (one pause per model at a time).
  */
 export function pauseFirstRead<M extends Model>(
   model: ModelStatic<M>,
   name: string,
   matches: (result: unknown, options: { transaction?: unknown; where?: unknown }) => boolean,
+  { inTransaction = true }: { inTransaction?: boolean } = {},
 ): Pause {
   let reached!: () => void;
   let release!: () => void;
@@ -23,7 +26,7 @@ export function pauseFirstRead<M extends Model>(
   const released = new Promise<void>((r) => (release = r));
   let armed = true;
   model.addHook('afterFind', name, async (result: unknown, options: { transaction?: unknown; where?: unknown }) => {
-    if (!armed || !options.transaction || !matches(result, options)) return;
+    if (!armed || Boolean(options.transaction) !== inTransaction || !matches(result, options)) return;
     armed = false;
     reached();
     await released;
