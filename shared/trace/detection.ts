@@ -664,6 +664,8 @@ export function dropClutter(events: ReflectionEvent[]): TraceWarning[] {
  * lead-in (two filter windows before the onset reading) of the next echo that begins past its end,
  * where the record already departs for that one, and never short of the launch pulse's own extent
  * (its width and two rises) from its onset. Without a launch (`L`) the span is the whole reading.
+ * A step record's edge is kept where the record climbs more levels around it than its reading holds,
+ * from a level it rested at (loneTransition).
  */
 export function dropQuantiserStairs(measured: Measured[], sig: WorkingSignal, L?: Launch): Measured[] {
   if (sig.mode === 'pulse') {
@@ -679,7 +681,44 @@ export function dropQuantiserStairs(measured: Measured[], sig: WorkingSignal, L?
     });
   }
   if (!(sig.quantU > 0)) return measured;
-  return measured.filter((m) => Math.abs(m.height) > 1.5 * sig.quantU);
+  return measured.filter((m) => Math.abs(m.height) > 1.5 * sig.quantU || loneTransition(sig, m, measured));
+}
+
+/**
+ * A step record's edge no taller than a step and a half that is still a reflection: the record rests at
+ * one level (the same over two windows four windows apart, no other edge's reading among them), then,
+ * within six of the edge's windows either side of its onset reading and before the next edge's lead-in,
+ * departs from it by more than a step and a half, held over a whole window. A loss-spread echo on a
+ * quiet recorder climbs several levels in one short run, of which the edge's reading may hold only one;
+ * a creep crosses one level and rests there for many windows, and the tail of a larger edge before it
+ * does not rest first.
+ */
+function loneTransition(sig: WorkingSignal, m: Measured, measured: Measured[]): boolean {
+  const u = sig.u;
+  const n = u.length;
+  const w = Math.max(1, m.w);
+  const onset = Math.floor(m.onsetIdx);
+  const refTo = onset - 6 * w;
+  const farFrom = refTo - 6 * w;
+  if (farFrom < sig.start) return false;
+  let next = n;
+  for (const o of measured) {
+    if (o === m) continue;
+    if (o.onsetIdx < m.onsetIdx && o.endIdx > farFrom) return false;
+    if (o.onsetIdx > m.onsetIdx) next = Math.min(next, Math.floor(o.onsetIdx - 2 * o.w));
+  }
+  const q = sig.quantU;
+  const ref = sampleMedian(u, refTo - 2 * w, refTo);
+  if (Math.abs(ref - sampleMedian(u, farFrom, farFrom + 2 * w)) >= 0.5 * q) return false;
+  const to = Math.min(n, onset + 6 * w, next);
+  const sign = Math.sign(m.height);
+  let sum = 0;
+  for (let i = refTo; i < refTo + w && i < to; i++) sum += u[i];
+  for (let i = refTo + w; i <= to; i++) {
+    if (sign * (sum / w - ref) > 1.5 * q) return true;
+    if (i < to) sum += u[i] - u[i - w];
+  }
+  return false;
 }
 
 /**
