@@ -872,6 +872,11 @@ function terminatedSeen(f: ModelFit & { g: number; tb: Template }, win: EventWin
  */
 const TERMINATED_ODDS = 100;
 /**
+ * Largest share of the residual of the plain fit (and of the fault's, and on a pulse record the edge's) a
+ * terminated end's fit may leave where it does not explain its window to the noise: an order of magnitude less.
+ */
+const TERMINATED_DOMINANT_SHARE = 0.1;
+/**
  * Largest |ρ| read as a resistive end: a resistor within a factor of three of Z0. Further out the edge
  * itself outweighs the reversed creep (whose share 1 − ρ² falls towards an open or a short), and the
  * plain edge reads the end as well.
@@ -1292,15 +1297,20 @@ function terminatedEnd(
   if (!tf) return null;
   const inside = tf.d > wide.lo + 0.01 * (wide.hi - wide.lo) && tf.d < wide.hi - 0.01 * (wide.hi - wide.lo);
   if (!inside || Math.abs(tf.h) > (ctx.shape.step ? TERMINATED_MAX_RHO : TERMINATED_MAX_RHO_PULSE) || Math.sign(terminatedSeen(tf, wide)) !== Math.sign(m.height)) return null;
-  // Only a shape that explains its window to the noise is taken: where it leaves more, the window holds
-  // more than an end (a neighbour, a change of cable, a loss the library misstates), and the odds
-  // between two wrong shapes say little.
-  if (!withinNoise(ctx, tf, 4)) return null;
   // Decisively better than a plain edge, and than a fault with the line going on past it.
-  const favoured = (other: ModelFit | null) => !other || (tf.points / 2) * Math.log(other.ss / tf.ss) > Math.log(TERMINATED_ODDS);
-  if (!favoured(fitWindow(ctx, wide, model, twoWayOf(ctx, tf.d)))) return null;
-  if (!favoured(terminatedFit(ctx, wide, model, twoWayOf(ctx, tf.d), 'fault', true))) return null;
-  if (!ctx.shape.step && !favoured(terminatedFit(ctx, wide, model, twoWayOf(ctx, tf.d), 'edge', true))) return null;
+  const others = [
+    fitWindow(ctx, wide, model, twoWayOf(ctx, tf.d)),
+    terminatedFit(ctx, wide, model, twoWayOf(ctx, tf.d), 'fault', true),
+    ...(ctx.shape.step ? [] : [terminatedFit(ctx, wide, model, twoWayOf(ctx, tf.d), 'edge', true)]),
+  ];
+  if (!others.every((other) => !other || (tf.points / 2) * Math.log(other.ss / tf.ss) > Math.log(TERMINATED_ODDS))) return null;
+  // A shape that explains its window to the noise is taken on those odds. Where it leaves more, the window
+  // may hold more than an end (a neighbour, a change of cable, a loss the library misstates), and the odds
+  // between two wrong shapes say little: there the end's shape is taken only where it leaves no more than
+  // TERMINATED_DOMINANT_SHARE of what each other shape leaves. What a window holding something else leaves
+  // is of the size of what the other shapes leave; what is left here is the model's own small misfit,
+  // which a clean record shows above its noise.
+  if (!withinNoise(ctx, tf, 4) && !others.every((other) => !other || tf.ss <= TERMINATED_DOMINANT_SHARE * other.ss)) return null;
   return { f: tf, win: wide };
 }
 
