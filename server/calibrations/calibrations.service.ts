@@ -202,6 +202,41 @@ function ownCalibrationOverride(c: CableCalibration, reviewer: Pick<SessionUser,
   return note.trim();
 }
 
+export interface AcceptBasedOn {
+  vf: number;
+  vfTolerance: number;
+  acceptedCount: number;
+}
+
+/**
+ * A reviewer's proposal is the mean of the calibrations accepted when the form was opened, with this one added.
+ * Where another planner accepted one of the same cable type since, storing it would set the library VF to a mean
+ * that leaves theirs out while both show as accepted: refused (409), naming what was accepted. The cable type's
+ * row is held first (FOR UPDATE on PostgreSQL; SQLite writes one at a time), so two reviewers accepting two
+ * calibrations of one type at once count one after the other. Accepted calibrations are never undone, so the
+ * count says whether the set moved.
+ */
+async function refuseAcceptedMeanwhile(c: CableCalibration, acceptedCount: number, transaction: Transaction) {
+  await CableType.findByPk(c.cableTypeId, { attributes: ['id'], lock: transaction.LOCK.UPDATE, transaction });
+  const accepted = await CableCalibration.findAll({
+    where: { cableTypeId: c.cableTypeId, status: 'accepted' },
+    attributes: ['id'],
+    order: [['id', 'ASC']],
+    transaction,
+  });
+  if (accepted.length === acceptedCount) return;
+  // The newest ones are the ones the form did not know of.
+  const since = accepted.slice(Math.min(acceptedCount, accepted.length)).map((a) => `#${a.id}`);
+  const which = since.length === 0 ? 'fewer calibrations than the form counted' : `calibration${since.length === 1 ? '' : 's'} ${since.join(', ')}`;
+  const now = `${accepted.length} calibration${accepted.length === 1 ? ' is' : 's are'} accepted now, you started from ${acceptedCount}`;
+  throw new AppError(
+    409,
+    'changed_meanwhile',
+    `Someone else accepted ${which} of ${c.cableType?.name ?? `cable type ${c.cableTypeId}`} after you opened calibration #${c.id}, so the VF proposed leaves ${since.length === 1 ? 'it' : 'them'} out. Nothing was saved: open the calibration again to see the new proposal, then accept it if it still stands.`,
+    { fields: [{ field: 'vf', message: `the proposal leaves out ${which}, accepted after you opened the form: ${now}` }] },
+  );
+}
+
 /**
  * Accepts a pending calibration into its library entry: the entry's VF becomes
  * the calibration's (source field-calibrated, with a reference to it), with a
@@ -211,7 +246,7 @@ function ownCalibrationOverride(c: CableCalibration, reviewer: Pick<SessionUser,
 export async function acceptCalibration(
   id: number,
   reviewer: Pick<SessionUser, 'id' | 'role'>,
-  opts: { vf?: number; vfTolerance?: number; note?: string } = {},
+  opts: { vf?: number; vfTolerance?: number; note?: string; basedOn?: AcceptBasedOn } = {},
   security?: SecurityLog,
 ) {
   const sequelize = CableCalibration.sequelize!;
@@ -220,6 +255,7 @@ export async function acceptCalibration(
     const c = await loadForDecision(id, transaction);
     assertPending(c);
     const override = ownCalibrationOverride(c, reviewer, opts.note);
+    if (opts.basedOn) await refuseAcceptedMeanwhile(c, opts.basedOn.acceptedCount, transaction);
     // In the one date style of the screens and e-mails ("3 Dec 2026"), not ISO beside them.
     const submitted = formatDate(c.createdAt);
     const vf = roundVf(opts.vf ?? c.vf);
@@ -235,6 +271,8 @@ export async function acceptCalibration(
         vfSource: 'field-calibrated',
         vfReference,
         ...(opts.vfTolerance !== undefined ? { vfTolerance: opts.vfTolerance } : {}),
+        // The library values the form showed: a VF or tolerance changed by hand since is refused, not overwritten.
+        ...(opts.basedOn ? { basedOn: { vf: opts.basedOn.vf, vfTolerance: opts.basedOn.vfTolerance } } : {}),
         reason: override
           ? `Accepted field calibration #${c.id} by its own submitter, an administrator, without a second reviewer: ${override}`
           : `Accepted field calibration #${c.id}${opts.note ? `: ${opts.note}` : ''}`,
@@ -277,13 +315,16 @@ export async function calibrationsForCable(cableTypeId: number) {
     ],
     limit: 500,
   });
+  // The counts and statistics are over every calibration of the type, not only the newest listed: a reviewer's form
+  // sends the accepted count back as what it started from (acceptCalibration).
+  const all = await CableCalibration.findAll({ where: { cableTypeId }, attributes: ['status', 'vf'], raw: true });
   const counts: Record<CalibrationStatus, number> = { pending: 0, accepted: 0, rejected: 0 };
-  for (const r of rows) counts[r.status as CalibrationStatus] += 1;
+  for (const r of all) counts[r.status as CalibrationStatus] += 1;
   return {
     libraryVf: cable.vf,
     libraryVfTolerance: cable.vfTolerance,
-    stats: calibrationStats(rows.filter((r) => r.status !== 'rejected').map((r) => r.vf)),
-    acceptedStats: calibrationStats(rows.filter((r) => r.status === 'accepted').map((r) => r.vf)),
+    stats: calibrationStats(all.filter((r) => r.status !== 'rejected').map((r) => r.vf)),
+    acceptedStats: calibrationStats(all.filter((r) => r.status === 'accepted').map((r) => r.vf)),
     counts,
     items: rows.map(calibrationView),
   };

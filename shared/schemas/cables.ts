@@ -195,6 +195,19 @@ export const CalibrationAcceptSchema = z.strictObject({
   /** Optional new tolerance to store with the accepted VF; the entry's stays otherwise. */
   vfTolerance: cableFields.vfTolerance.optional(),
   note: multiLine(z.string().trim().max(2000).optional()),
+  /**
+   * What the reviewer's form started from: the library VF and tolerance it showed, and how many calibrations of the
+   * cable type were accepted (the proposed mean is theirs with this one added). Where another planner accepted one,
+   * or changed the VF or tolerance, since, the accept is refused (409) rather than storing a mean that leaves theirs
+   * out. Optional, so a script that sends no snapshot still works.
+   */
+  basedOn: z
+    .strictObject({
+      vf: cableFields.vf,
+      vfTolerance: cableFields.vfTolerance,
+      acceptedCount: z.number().int().min(0).max(1_000_000),
+    })
+    .optional(),
 });
 export const CalibrationRejectSchema = z.strictObject({ reason: reasonSchema });
 

@@ -79,7 +79,12 @@ function Decide({ c, onDone }: { c: CalibrationView; onDone: (said: string) => v
               <Button
                 onClick={() =>
                   accept.mutate(
-                    { id: c.id, note: note.trim() || undefined, ...(chosen ?? {}) },
+                    {
+                      id: c.id,
+                      note: note.trim() || undefined,
+                      ...(chosen ?? {}),
+                      ...(cable.data ? { basedOn: { vf: cable.data.libraryVf, vfTolerance: cable.data.libraryVfTolerance, acceptedCount: cable.data.acceptedStats.count } } : {}),
+                    },
                     { onSuccess: (r) => onDone(`Calibration #${c.id} accepted: ${r.cable.name} is now VF ${formatVf(r.cable.vf, 4)} ± ${(r.cable.vfTolerance * 100).toFixed(1)} % in the library. It is listed under Accepted.`) },
                   )
                 }

@@ -33,4 +33,12 @@ describe('calibration statistics', () => {
     expect(calibrationStats([0.7])).toEqual({ count: 1, mean: 0.7, stdDev: null, min: 0.7, max: 0.7 });
     expect(calibrationStats([])).toEqual({ count: 0, mean: null, stdDev: null, min: null, max: null });
   });
+
+  it('takes any number of values (a cable type with hundreds of thousands of calibrations)', () => {
+    // 300,000 values alternating 0.64 and 0.68: mean 0.66, range 0.64–0.68 (arithmetic).
+    const s = calibrationStats(Array.from({ length: 300_000 }, (_, i) => (i % 2 ? 0.68 : 0.64)));
+    expect(s.count).toBe(300_000);
+    expect(s.mean).toBeCloseTo(0.66, 9);
+    expect([s.min, s.max]).toEqual([0.64, 0.68]);
+  });
 });

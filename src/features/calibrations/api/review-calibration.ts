@@ -8,6 +8,8 @@ export interface AcceptInput {
   /** The VF and tolerance to store, as the reviewer confirmed them. */
   vf?: number;
   vfTolerance?: number;
+  /** What the form showed: the library VF and tolerance, and how many calibrations were accepted (see the API). */
+  basedOn?: { vf: number; vfTolerance: number; acceptedCount: number };
 }
 
 export const acceptCalibration = ({ id, ...body }: AcceptInput) =>
@@ -20,7 +22,8 @@ function useReview<TIn, TOut>(fn: (input: TIn) => Promise<TOut>) {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: fn,
-    onSuccess: () => {
+    // Also when refused: a 409 says someone else decided meanwhile, and the form then shows what is stored now.
+    onSettled: () => {
       void qc.invalidateQueries({ queryKey: ['calibrations'] });
       void qc.invalidateQueries({ queryKey: ['cables'] });
     },
