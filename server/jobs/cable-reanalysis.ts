@@ -207,22 +207,30 @@ async function runStep(ctx: AppContext, data: StepData, signal: AbortSignal) {
   await finishIfComplete(run);
 }
 
-/** Declare the job on this instance's queue; on SQLite (jobs in memory) queue again what a restart interrupted. */
+/**
+ * Declare the job on this instance's queue, and queue again the traces of a running re-analysis that no job holds:
+ * on SQLite every one a restart interrupted (the jobs were in memory); on PostgreSQL those of a run whose instance
+ * was killed after the run was stored but before its steps were queued, or whose steps used up their retries. A
+ * trace a live job still holds is left to it; one queued twice is analysed once (the item's unique index).
+ */
 export async function registerCableReanalysis(ctx: AppContext) {
   await ctx.jobs.define<StepData>(
     CABLE_REANALYSIS_JOB,
     { retryLimit: 5, retryDelaySeconds: 5, leaseSeconds: ctx.config.jobs.leaseSeconds },
     (data, job) => runStep(ctx, data, job.signal),
   );
-  if (ctx.jobs.engine !== 'in-process') return;
-  for (const run of await CableReanalysis.findAll({ where: { status: 'running' } })) {
+  const running = await CableReanalysis.findAll({ where: { status: 'running' } });
+  if (!running.length) return;
+  const held = new Set((await ctx.jobs.unfinished<StepData>(CABLE_REANALYSIS_JOB)).flatMap((j) => (j.traceIds ?? []).map((id) => `${j.reanalysisId}:${id}`)));
+  for (const run of running) {
     const done = new Set(
       (await CableReanalysisItem.findAll({ where: { reanalysisId: run.id }, attributes: ['traceId'] })).map((i) => i.traceId),
     );
-    const left = run.traceIds.filter((id) => !done.has(id));
-    ctx.log(`re-analysis ${run.id} resumed: ${left.length} of ${run.traceTotal} traces left`);
-    if (left.length) await sendSteps(ctx, run, left);
-    else await finishIfComplete(run);
+    const left = run.traceIds.filter((id) => !done.has(id) && !held.has(`${run.id}:${id}`));
+    if (left.length) {
+      ctx.log(`re-analysis ${run.id} resumed: ${left.length} of ${run.traceTotal} traces queued again`);
+      await sendSteps(ctx, run, left);
+    } else if (run.traceIds.every((id) => done.has(id))) await finishIfComplete(run);
   }
 }
 

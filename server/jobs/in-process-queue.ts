@@ -51,6 +51,10 @@ export class InProcessQueue implements JobQueue {
     return entry.id;
   }
 
+  async unfinished<T extends object>(name: string): Promise<T[]> {
+    return [...this.jobs.values()].filter((e) => e.name === name).map((e) => e.data as T);
+  }
+
   async state(_name: string, id: string): Promise<JobState | null> {
     return this.jobs.get(id)?.state ?? this.finished.get(id) ?? null;
   }

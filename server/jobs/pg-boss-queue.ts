@@ -84,6 +84,11 @@ export class PgBossQueue implements JobQueue {
     return job ? (STATES[job.state] ?? null) : null;
   }
 
+  async unfinished<T extends object>(name: string): Promise<T[]> {
+    const { rows } = await this.boss.getDb().executeSql("SELECT data FROM pgboss.job WHERE name = $1 AND state IN ('created', 'retry', 'active')", [name]);
+    return rows.map((r: { data: T }) => r.data);
+  }
+
   async ping() {
     await this.boss.getDb().executeSql('SELECT 1 FROM pgboss.version', []);
   }

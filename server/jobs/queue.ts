@@ -31,6 +31,8 @@ export interface JobQueue {
   /** Queue a job; it runs after the caller's transaction (if any) has committed, so send after commit. */
   send<T extends object>(name: string, data: T): Promise<string>;
   state(name: string, id: string): Promise<JobState | null>;
+  /** The data of this kind's jobs not yet finished (waiting, running or waiting for a retry), on any instance. */
+  unfinished<T extends object>(name: string): Promise<T[]>;
   /** Throws when the queue's store cannot be reached. */
   ping(): Promise<void>;
   /** Take no new jobs; wait up to graceMs for the running ones, then give them back to the queue. */

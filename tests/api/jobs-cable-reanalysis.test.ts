@@ -100,6 +100,26 @@ describe('re-analysis of every trace of a cable type', () => {
   });
 });
 
+describe('a re-analysis stored but never queued', () => {
+  it('is queued again when an instance starts, and finishes with each trace analysed once', async () => {
+    await planner.patch(`/api/cables/${cableId}`, { vf: 0.69, reason: 'Third drum' }).expect(200);
+    // The newest analysis of each of the three uploads: the traces no later re-analysis has replaced.
+    const all = await Trace.findAll({ attributes: ['id', 'reanalysisOfId'] });
+    const replaced = new Set(all.map((t) => t.reanalysisOfId));
+    const newest = all.map((t) => t.id).filter((id) => !replaced.has(id));
+    expect(newest).toHaveLength(3);
+    // What an instance killed between storing the run and queuing its steps leaves: the run, and no job at all.
+    const run = await CableReanalysis.create({ cableTypeId: cableId, cableTypeRevision: 4, vf: 0.69, requestedById: api.users.planner.id, status: 'running', traceTotal: newest.length, traceIds: newest });
+    expect(await api.app.ctx.jobs.unfinished('cable-reanalysis')).toEqual([]);
+    await planner.post(`/api/cables/${cableId}/reanalyses`).expect(409);
+    // An instance starting (on PostgreSQL any one of them; on SQLite the one) queues what no job holds.
+    await registerCableReanalysis(api.app.ctx);
+    await eventually(async () => (await CableReanalysis.findByPk(run.id))!.status === 'done', 'the run to finish', 60_000);
+    expect(await CableReanalysisItem.count({ where: { reanalysisId: run.id } })).toBe(newest.length);
+    for (const id of newest) expect(await Trace.count({ where: { reanalysisOfId: id } })).toBe(1);
+  }, 90_000);
+});
+
 describe('finding moves', () => {
   it('matches findings by round-trip time and counts moves of 5 cm or more', () => {
     const analysis = { events: [{ roundTripNs: 1010, distanceM: 106.1 }, { roundTripNs: 606, distanceM: 60.01 }] } as never;
