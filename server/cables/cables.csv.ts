@@ -1,4 +1,4 @@
-import { CsvError, parse } from 'csv-parse/sync';
+import { CsvError, Parser } from 'csv-parse';
 import { stringify } from 'csv-stringify/sync';
 import type { Transaction } from 'sequelize';
 import { CableTypeInputSchema, parseAttenuationList, parsePulseVfList, type CableTypeInput } from '../../shared/schemas/cables';
@@ -168,28 +168,57 @@ export function csvFileText(bytes: Uint8Array): string {
  * quotes: whichever of the two it has more of.
  */
 export function csvDelimiter(text: string): ',' | ';' {
-  const header = (text.replace(/^\uFEFF/, '').split(/\r?\n/, 1)[0] ?? '').replace(/"[^"]*"/g, '');
-  const count = (c: string) => header.split(c).length - 1;
+  // A header is a few hundred characters: the first 64 KiB of the first line decide, however long a hostile one is.
+  const first = text.slice(0, 65_536).replace(/^\uFEFF/, '');
+  const header = first.slice(0, first.search(/\r?\n|$/)).replace(/"[^"]*"/g, '');
+  let commas = 0;
+  let semicolons = 0;
+  for (const ch of header) {
+    if (ch === ',') commas++;
+    else if (ch === ';') semicolons++;
+  }
+  const count = (c: string) => (c === ',' ? commas : semicolons);
   return count(';') > count(',') ? ';' : ',';
 }
 
-function readRecords(text: string, delimiter: ',' | ';') {
+type CsvRecord = { record: string[]; info: { lines: number } };
+
+/** How much of a file is read between turns of the event loop. */
+const READ_SLICE_BYTES = 4 * 1024;
+
+/**
+ * The file's records, read a slice at a time with a turn of the event loop between slices: a file of a megabyte of
+ * delimiters or of empty rows costs the reader seconds, and read in one go it held every other request (sign-ins,
+ * uploads, pages) for all of them. The reading stops at the first row past the limit.
+ */
+export async function readRecords(text: string, delimiter: ',' | ';'): Promise<CsvRecord[]> {
   if (text.includes('\u0000')) throw fileError('The file is not a text CSV file.');
-  try {
-    return parse(text, { bom: true, delimiter, skip_empty_lines: true, trim: true, info: true, relax_column_count: true }) as unknown as Array<{
-      record: string[];
-      info: { lines: number };
-    }>;
-  } catch (err) {
-    if (err instanceof CsvError) {
-      // A quote never closed is noticed at the end of the file: the line named is the one where it was opened.
-      const end = (err as CsvError & { lines?: number }).lines;
-      const line = (err.code === 'CSV_QUOTE_NOT_CLOSED' ? unclosedQuoteLine(text.replace(/^\uFEFF/, ''), 1) : null) ?? end;
-      const why = csvTrouble(err.code);
-      throw fileError(`The file cannot be read${line ? ` at line ${line}` : ''}: ${why}.`, line);
-    }
-    throw err;
+  const parser = new Parser({ bom: true, delimiter, skip_empty_lines: true, trim: true, info: true, relax_column_count: true });
+  const records: CsvRecord[] = [];
+  let failure: unknown = null;
+  parser.on('data', (r: CsvRecord) => records.push(r));
+  parser.on('error', (err) => (failure ??= err));
+  const ended = new Promise<void>((resolve) => parser.once('end', resolve).once('close', resolve));
+  const bytes = Buffer.from(text, 'utf8');
+  const tooMany = () => records.length - 1 > MAX_IMPORT_ROWS;
+  for (let at = 0; at < bytes.length && failure === null && !tooMany(); at += READ_SLICE_BYTES) {
+    parser.write(bytes.subarray(at, at + READ_SLICE_BYTES));
+    await new Promise((resolve) => setImmediate(resolve));
   }
+  if (failure === null && !tooMany()) {
+    parser.end();
+    await Promise.race([ended, new Promise((resolve) => parser.once('error', resolve))]);
+  } else parser.destroy();
+  if (failure instanceof CsvError) {
+    // A quote never closed is noticed at the end of the file: the line named is the one where it was opened.
+    const end = (failure as CsvError & { lines?: number }).lines;
+    const line = (failure.code === 'CSV_QUOTE_NOT_CLOSED' ? unclosedQuoteLine(text.replace(/^\uFEFF/, ''), 1) : null) ?? end;
+    const why = csvTrouble(failure.code);
+    throw fileError(`The file cannot be read${line ? ` at line ${line}` : ''}: ${why}.`, line);
+  }
+  if (failure !== null) throw failure;
+  if (tooMany()) throw fileError(`The file has more than ${MAX_IMPORT_ROWS} rows; import at most ${MAX_IMPORT_ROWS} at a time.`);
+  return records;
 }
 
 function cellToValue(field: CableField, cell: string, decimalComma: boolean): { value?: unknown; error?: string } {
@@ -214,19 +243,28 @@ function cellToValue(field: CableField, cell: string, decimalComma: boolean): { 
 /** Parses and checks every row against the schema and the library; writes nothing. */
 export async function parseImport(text: string, transaction?: Transaction): Promise<ParsedRow[]> {
   const delimiter = csvDelimiter(text);
-  const records = readRecords(text, delimiter);
+  return checkRecords(await readRecords(text, delimiter), delimiter, transaction);
+}
+
+/** Checks read records against the schema and the library; writes nothing. */
+async function checkRecords(records: CsvRecord[], delimiter: ',' | ';', transaction?: Transaction): Promise<ParsedRow[]> {
   if (records.length === 0) throw fileError('The file is empty: it needs a header row and at least one cable type.');
+  const columns = Object.keys(CSV_COLUMNS).length;
+  if (records[0].record.length > 2 * columns) {
+    throw fileError(`Line 1: the header has ${records[0].record.length} columns; a library file has at most ${columns}: ${Object.values(CSV_COLUMNS).join(', ')}.`, 1);
+  }
   const header = records[0].record.map((h) => h.trim().toLowerCase());
   const headerFields = header.map((h) => COLUMN_TO_FIELD.get(h));
   const unknown = header.filter((_h, i) => !headerFields[i]);
   if (unknown.length) {
-    throw fileError(`Line 1: unknown column${unknown.length > 1 ? 's' : ''} ${unknown.map((u) => `"${u}"`).join(', ')}. The columns are: ${Object.values(CSV_COLUMNS).join(', ')}.`, 1);
+    // Named up to ten: a header of a million empty cells is not said back a million times.
+    const named = unknown.slice(0, 10).map((u) => `"${u}"`).join(', ') + (unknown.length > 10 ? ` and ${unknown.length - 10} more` : '');
+    throw fileError(`Line 1: unknown column${unknown.length > 1 ? 's' : ''} ${named}. The columns are: ${Object.values(CSV_COLUMNS).join(', ')}.`, 1);
   }
   const missing = REQUIRED_COLUMNS.filter((f) => !headerFields.includes(f)).map((f) => CSV_COLUMNS[f]);
   if (missing.length) throw fileError(`Line 1: the header lacks ${missing.join(', ')}.`, 1);
   const dupes = header.filter((h, i) => header.indexOf(h) !== i);
   if (dupes.length) throw fileError(`Line 1: the column "${dupes[0]}" appears twice.`, 1);
-  if (records.length - 1 > MAX_IMPORT_ROWS) throw fileError(`The file has ${records.length - 1} rows; import at most ${MAX_IMPORT_ROWS} at a time.`);
 
   const existing = await CableType.findAll({ transaction });
   const byName = new Map(existing.map((c) => [cableNameKey(c.name), c]));
@@ -341,7 +379,10 @@ function refuseInvalid(rows: ParsedRow[]) {
 export async function commitImport(text: string, opts: { reason: string; userId: number; fileName?: string }) {
   const sequelize = CableType.sequelize!;
   const checkedAgainst = await CableType.findAll({ attributes: ['id', 'nameKey', 'revision', 'updatedAt'] });
-  const checked = await parseImport(text);
+  // Read once, outside the transaction: the check is made again inside it only when the library changed meanwhile.
+  const delimiter = csvDelimiter(text);
+  const records = await readRecords(text, delimiter);
+  const checked = await checkRecords(records, delimiter);
   const preview = refuseInvalid(checked);
   const reason = opts.fileName ? `Import of ${opts.fileName}: ${opts.reason}` : `Import: ${opts.reason}`;
   return sequelize.transaction(async (transaction) => {
@@ -352,7 +393,7 @@ export async function commitImport(text: string, opts: { reason: string; userId:
     let rows = checked;
     let result = preview;
     if (libraryState(now) !== libraryState(checkedAgainst)) {
-      rows = await parseImport(text, transaction);
+      rows = await checkRecords(records, delimiter, transaction);
       result = refuseInvalid(rows);
     }
     const creates = rows.filter((r) => r.action === 'create');
