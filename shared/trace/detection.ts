@@ -665,7 +665,8 @@ export function dropClutter(events: ReflectionEvent[]): TraceWarning[] {
  * where the record already departs for that one, and never short of the launch pulse's own extent
  * (its width and two rises) from its onset. Without a launch (`L`) the span is the whole reading.
  * A step record's edge is kept where the record climbs more levels around it than its reading holds,
- * from a level it rested at (loneTransition).
+ * from a level it rested at (loneTransition); a pulse echo of one level, where that level is one the
+ * record did not touch at rest and the echo holds it for about the launch's width (loneEcho).
  */
 export function dropQuantiserStairs(measured: Measured[], sig: WorkingSignal, L?: Launch): Measured[] {
   if (sig.mode === 'pulse') {
@@ -677,7 +678,7 @@ export function dropQuantiserStairs(measured: Measured[], sig: WorkingSignal, L?
       if (L?.found)
         for (const o of measured)
           if (o.onsetIdx >= m.endIdx) until = Math.min(until, Math.max(o.onsetIdx - 2 * o.w, m.onsetIdx + extent));
-      return Math.abs(pulseExcursion(sig, m, until)) > 1.5 * sig.quantRaw;
+      return Math.abs(pulseExcursion(sig, m, until)) > 1.5 * sig.quantRaw || (L?.found === true && loneEcho(sig, m, L));
     });
   }
   if (!(sig.quantU > 0)) return measured;
@@ -719,6 +720,46 @@ function loneTransition(sig: WorkingSignal, m: Measured, measured: Measured[]): 
     if (i < to) sum += u[i] - u[i - w];
   }
   return false;
+}
+
+/**
+ * A pulse record's echo of one level that is still a reflection: the record holds the neighbouring level,
+ * on the echo's side, unbroken for three quarters of the launch's width or more (an echo has at least its
+ * shape), after resting for two of the launch's extents (its width and two rises) with not one sample on
+ * that level nor further than a level from it, and is back at its resting level within an extent after.
+ * A rounding point the resting level lies near shows as samples of the neighbouring level beside it, and
+ * drift or slow noise there makes its runs; an echo's run of a level the record never touched at rest
+ * does not come from them.
+ */
+function loneEcho(sig: WorkingSignal, m: Measured, L: Launch): boolean {
+  const width = L.widthSamples;
+  if (width === null || !(width >= 2) || m.height === 0) return false;
+  const raw = sig.pulseRaw;
+  const n = raw.length;
+  const q = sig.quantRaw;
+  const extent = width + 2 * L.riseSamples;
+  const onset = Math.max(0, Math.min(n - 1, Math.floor(m.onsetIdx)));
+  const from = Math.max(0, onset - 2 * m.w);
+  const ref = onset > from ? sampleMedian(raw, from, onset) : raw[onset];
+  const level = ref + Math.sign(m.height) * q;
+  const at = (i: number) => Math.abs(raw[i] - level) < 0.5 * q;
+  // The longest unbroken run of the level from a launch width before the onset reading to two extents after it.
+  let best = 0;
+  let bestStart = -1;
+  for (let i = Math.max(0, onset - width), run = 0; i < Math.min(n, onset + 2 * extent); i++) {
+    run = at(i) ? run + 1 : 0;
+    if (run > best) {
+      best = run;
+      bestStart = i - run + 1;
+    }
+  }
+  if (best < 0.75 * width) return false;
+  const restFrom = Math.floor(bestStart - 2 * extent);
+  if (restFrom < sig.start) return false;
+  for (let i = restFrom; i < bestStart; i++) if (at(i) || Math.abs(raw[i] - ref) > 1.5 * q) return false;
+  const back = bestStart + best;
+  const backTo = Math.min(n, Math.ceil(back + extent));
+  return backTo > back && Math.abs(sampleMedian(raw, back, backTo) - ref) < 0.5 * q;
 }
 
 /**
