@@ -81,7 +81,12 @@ export async function scoresOfCloseout(closeoutId: number): Promise<MethodScoreV
 
 const ORDER = Object.keys(SCORED_METHOD_LABELS) as ScoredMethod[];
 
-function summarise(method: ScoredMethod, cableType: MethodAccuracyRow['cableType'], rows: MethodScore[]): MethodAccuracyRow {
+/** One row of the accuracy table: a method's errors on one cable type (or on all), however many close-outs there are. */
+export function summarise(
+  method: ScoredMethod,
+  cableType: MethodAccuracyRow['cableType'],
+  rows: Pick<MethodScore, 'errorM' | 'withinWindow'>[],
+): MethodAccuracyRow {
   const errors = rows.map((r) => r.errorM);
   return {
     method,
@@ -90,7 +95,8 @@ function summarise(method: ScoredMethod, cableType: MethodAccuracyRow['cableType
     count: rows.length,
     meanErrorM: errors.reduce((s, e) => s + e, 0) / rows.length,
     meanAbsErrorM: errors.reduce((s, e) => s + Math.abs(e), 0) / rows.length,
-    maxAbsErrorM: Math.max(...errors.map(Math.abs)),
+    // Folded, not spread into Math.max: a spread of some hundred thousand values overflows the call stack.
+    maxAbsErrorM: errors.reduce((m, e) => Math.max(m, Math.abs(e)), 0),
     withinWindow: rows.filter((r) => r.withinWindow).length,
   };
 }

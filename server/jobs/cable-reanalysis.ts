@@ -263,7 +263,8 @@ export async function reanalysisView(id: number): Promise<CableReanalysisView> {
     findingsMoved: items.reduce((n, i) => n + i.findingsMoved, 0),
     findingsUnmatched: unmatched,
     movedThresholdM: MOVED_THRESHOLD_M,
-    maxShiftM: maxes.length ? Math.max(...maxes) : null,
+    // Folded, not spread into Math.max: a cable type of some hundred thousand traces would overflow the call stack.
+    maxShiftM: maxes.length ? maxes.reduce((a, b) => Math.max(a, b)) : null,
     meanShiftM: matched > 0 ? sum / matched : null,
     skipped: items
       .filter((i) => i.outcome === 'skipped')
