@@ -157,6 +157,9 @@ export async function recordMeasurement(
   return measurementView(id);
 }
 
+/** At most this many readings are listed for a run or a finding. */
+export const MEASUREMENTS_LISTED = 500;
+
 export async function listMeasurements(q: z.output<typeof MeasurementListQuerySchema>): Promise<MeasurementView[]> {
   if (q.cableRunId === undefined && q.findingId === undefined)
     throw AppError.badRequest('invalid_input', 'Give a cableRunId or a findingId.', {
@@ -167,16 +170,17 @@ export async function listMeasurements(q: z.output<typeof MeasurementListQuerySc
     ...(q.findingId !== undefined ? { findingId: q.findingId } : {}),
     ...(q.all === 'true' ? {} : { status: 'active' }),
   };
+  // The newest MEASUREMENTS_LISTED readings, shown oldest first: a run read more often than that shows its latest ones.
   const rows = await Measurement.findAll({
     where,
     include: withUsers,
     order: [
-      ['measuredAt', 'ASC'],
-      ['id', 'ASC'],
+      ['measuredAt', 'DESC'],
+      ['id', 'DESC'],
     ],
-    limit: 500,
+    limit: MEASUREMENTS_LISTED,
   });
-  return Promise.all(rows.map(view));
+  return Promise.all(rows.reverse().map(view));
 }
 
 /** One measurement with every version of it, oldest first (the one asked for included). */

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { hashPassword } from '../../server/auth/passwords';
-import { User } from '../../server/db/models';
+import { Measurement, User } from '../../server/db/models';
+import { MEASUREMENTS_LISTED } from '../../server/measurements/measurements.service';
 import { makeRun, stepTraceCsv } from './support/field-fixtures';
 import { startApi, TEST_PASSWORD, type TestApi } from './support/api';
 
@@ -207,5 +208,31 @@ describe('best location of a finding from traces at both ends and a bridge readi
 
   it('keeps a planner to reading', async () => {
     await (await api.as('planner')).post('/api/measurements', murray(fa.id, 0.3)).expect(403);
+  });
+});
+
+describe('a run read more often than the list shows', () => {
+  it('lists its newest readings, oldest first, so the latest one is never the one left out', async () => {
+    const f = await confirmedFinding('A', 60);
+    const tech = await api.as('technician');
+    const latest = await tech.post('/api/measurements', { ...murray(f.id, 0.15), measuredAt: '2026-03-09T08:00:00Z' }).expect(201);
+    const row = (await Measurement.findByPk(latest.body.id as number))!.get({ plain: true }) as Record<string, unknown>;
+    delete row.id;
+    // As many older readings of the same finding as the list holds, a day apart going back from the latest.
+    await Measurement.bulkCreate(
+      Array.from({ length: MEASUREMENTS_LISTED }, (_, i) => ({
+        ...row,
+        measuredAt: new Date(Date.parse('2026-03-08T08:00:00Z') - i * 24 * 60 * 60 * 1000),
+      })) as never[],
+    );
+    const list = await tech.get(`/api/measurements?findingId=${f.id}`).expect(200);
+    expect(list.body).toHaveLength(MEASUREMENTS_LISTED);
+    expect(list.body[list.body.length - 1].id).toBe(latest.body.id);
+    expect(list.body[list.body.length - 1].measuredAt).toBe('2026-03-09T08:00:00.000Z');
+    // The oldest reading is the one left out; the rest are in time order.
+    const oldestShown = Date.parse('2026-03-08T08:00:00Z') - (MEASUREMENTS_LISTED - 2) * 24 * 60 * 60 * 1000;
+    expect(Date.parse(list.body[0].measuredAt as string)).toBe(oldestShown);
+    const times = (list.body as { measuredAt: string }[]).map((m) => Date.parse(m.measuredAt));
+    expect(times.every((t, i) => i === 0 || t >= times[i - 1])).toBe(true);
   });
 });
