@@ -31,6 +31,7 @@ const INCLUDE = [
   { association: 'cableType', attributes: ['id', 'name', 'vf'] },
   { association: 'submittedBy', attributes: ['id', 'name'] },
   { association: 'reviewedBy', attributes: ['id', 'name'] },
+  { association: 'closeout', attributes: ['id', 'ticketId'] },
 ];
 
 export function calibrationView(c: CableCalibration): CalibrationView {
@@ -45,6 +46,7 @@ export function calibrationView(c: CableCalibration): CalibrationView {
     deviation: (c.vf - c.libraryVf) / c.libraryVf,
     source: c.source,
     traceId: c.traceId,
+    ticketId: c.closeout?.ticketId ?? null,
     note: c.note,
     status: c.status,
     submittedBy: person(c.submittedBy),

@@ -271,6 +271,8 @@ export interface CalibrationView {
   deviation: number;
   source: CalibrationSource;
   traceId: number | null;
+  /** The repair ticket whose close-out filed it (source 'repair-closeout'), else null. */
+  ticketId: number | null;
   note: string | null;
   status: CalibrationStatus;
   submittedBy: { id: number; name: string } | null;

@@ -38,7 +38,8 @@ describe('a calibration filed by hand', () => {
     expect(none.body.error.fields[0]).toMatchObject({ field: 'traceId' });
     expect(await CableCalibration.count()).toBe(before);
     const ok = await tech.post('/api/calibrations', { cableTypeId: cableId, knownLengthM: 150, roundTripNs: roundTripNs(150, 0.65), source: 'trace', traceId }).expect(201);
-    expect(ok.body).toMatchObject({ source: 'trace', traceId });
+    // Filed by hand, no repair ticket stands behind it.
+    expect(ok.body).toMatchObject({ source: 'trace', traceId, ticketId: null });
   });
 });
 

@@ -201,7 +201,8 @@ describe('repair tickets', () => {
 
     const queue = await (await api.as('planner')).get('/api/calibrations?status=pending').expect(200);
     const cal = queue.body.items.find((c: { id: number }) => c.id === co.calibrationId);
-    expect(cal).toMatchObject({ source: 'repair-closeout', knownLengthM: 105, traceId: t.findings[0].traceId, cableType: { id: fx.cable.id } });
+    // It names the ticket whose close-out filed it, for the planner to open.
+    expect(cal).toMatchObject({ source: 'repair-closeout', knownLengthM: 105, traceId: t.findings[0].traceId, ticketId, cableType: { id: fx.cable.id } });
     expect(cal.vf).toBeCloseTo(co.impliedVf!, 9);
     expect(cal.roundTripNs).toBeCloseTo(finding.roundTripNs, 9);
 

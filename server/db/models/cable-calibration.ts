@@ -8,6 +8,7 @@ import {
   type Sequelize,
 } from 'sequelize';
 import type { CableType } from './cable-type';
+import type { TicketCloseout } from './ticket';
 import type { User } from './user';
 
 import type { CalibrationSource, CalibrationStatus } from '../../../shared/schemas/cables';
@@ -42,6 +43,8 @@ export class CableCalibration extends Model<InferAttributes<CableCalibration>, I
   declare cableType?: NonAttribute<CableType>;
   declare submittedBy?: NonAttribute<User>;
   declare reviewedBy?: NonAttribute<User>;
+  /** The repair close-out that filed it (source 'repair-closeout'). */
+  declare closeout?: NonAttribute<TicketCloseout> | null;
 }
 
 export function initCableCalibration(sequelize: Sequelize) {
@@ -68,10 +71,11 @@ export function initCableCalibration(sequelize: Sequelize) {
   );
 }
 
-export function associateCableCalibration(models: { CableType: typeof CableType; User: typeof User }) {
+export function associateCableCalibration(models: { CableType: typeof CableType; User: typeof User; TicketCloseout: typeof TicketCloseout }) {
   // createApp may run more than once in a process (tests); an alias can be declared only once.
   if (CableCalibration.associations.cableType) return;
   CableCalibration.belongsTo(models.CableType, { as: 'cableType', foreignKey: 'cableTypeId' });
   CableCalibration.belongsTo(models.User, { as: 'submittedBy', foreignKey: 'submittedById' });
   CableCalibration.belongsTo(models.User, { as: 'reviewedBy', foreignKey: 'reviewedById' });
+  CableCalibration.hasOne(models.TicketCloseout, { as: 'closeout', foreignKey: 'calibrationId' });
 }

@@ -15,7 +15,7 @@ import { initRouteMarker } from './route-marker';
 import { initSession } from './session';
 import { initSite, Site } from './site';
 import { initSiteSupervisor } from './site-supervisor';
-import { associateTicketModels, initTicket, initTicketCloseout, initTicketEvent, initTicketFinding } from './ticket';
+import { associateTicketModels, initTicket, initTicketCloseout, initTicketEvent, initTicketFinding, TicketCloseout } from './ticket';
 import { initTrace } from './trace';
 import { associateTraceArchiveEvent, initTraceArchiveEvent } from './trace-archive-event';
 import { associateTraceOutcome, initTraceOutcome } from './trace-outcome';
@@ -52,7 +52,7 @@ export function initModels(sequelize: Sequelize) {
   initTicketCloseout(sequelize);
   associateTicketModels({ User, Site, CableRun, Finding });
   associateCableTypeChange({ CableType, User });
-  associateCableCalibration({ CableType, User });
+  associateCableCalibration({ CableType, User, TicketCloseout });
   associateMeasurement({ User });
   associateFindingDecision({ User });
   initMethodScore(sequelize);

@@ -1,7 +1,7 @@
 import { useState, type ReactNode } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { roundTripFromDistance } from '../../../shared/cable/propagation';
-import type { CableTypeView } from '../../../shared/schemas/cables';
+import { CALIBRATION_SOURCE_LABELS, type CableTypeView } from '../../../shared/schemas/cables';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
 import { ErrorNotice, Loading, Notice } from '../../components/ui/notice';
@@ -18,6 +18,7 @@ import { CableHistory } from '../../features/cables/components/cable-history';
 import { CableLossDetails } from '../../features/cables/components/cable-loss-details';
 import { ReanalysisPanel } from '../../features/cables/components/reanalysis-panel';
 import { CalibrationChart } from '../../features/calibrations/components/calibration-chart';
+import { CalibrationOrigin } from '../../features/calibrations/components/calibration-origin';
 import { CalibrationForm, type TraceCalibrationSource } from '../../features/calibrations/components/calibration-form';
 import { getTrace } from '../../features/traces/api/get-trace';
 import { formatDate, formatDateTime, formatLength, lengthsInText, type LengthUnit } from '../../lib/format';
@@ -186,7 +187,7 @@ export function CablePage() {
                   <>
                     <CalibrationChart items={calibrations.data.items} stats={calibrations.data.stats} libraryVf={c.vf} unit={unit} animate={!navigator.webdriver} />
                     <div className="mt-3 overflow-x-auto">
-                      <table className="w-full min-w-[32rem] text-left text-sm">
+                      <table className="w-full min-w-[38rem] text-left text-sm">
                         <thead className="text-xs uppercase text-mist">
                           <tr>
                             <th className="py-2 pr-3">#</th>
@@ -194,6 +195,7 @@ export function CablePage() {
                             <th className="pr-3 text-right">Round trip</th>
                             <th className="pr-3 text-right">VF</th>
                             <th className="pr-3">Status</th>
+                            <th className="pr-3">From</th>
                             <th>By</th>
                           </tr>
                         </thead>
@@ -208,6 +210,10 @@ export function CablePage() {
                               </td>
                               <td className="pr-3">
                                 <StatusBadge kind="calibration" status={k.status} />
+                              </td>
+                              <td className="pr-3 text-xs">
+                                {CALIBRATION_SOURCE_LABELS[k.source]}
+                                <CalibrationOrigin c={k} />
                               </td>
                               <td>
                                 {k.submittedBy?.name ?? '—'} <span className="text-xs text-mist">{formatDate(k.createdAt)}</span>

@@ -10,6 +10,7 @@ import { Pager } from '../../components/ui/pager';
 import { useSession } from '../../features/auth/use-session';
 import { useCableCalibrations } from '../../features/cables/api/get-cable-calibrations';
 import { formatPercent, formatVf } from '../../features/cables/cable-format';
+import { CalibrationOrigin } from '../../features/calibrations/components/calibration-origin';
 import { CalibrationProposal, proposalDefaults, proposalInput, type ProposalValues } from '../../features/calibrations/components/calibration-proposal';
 import { useCalibrations } from '../../features/calibrations/api/list-calibrations';
 import { useAcceptCalibration, useRejectCalibration } from '../../features/calibrations/api/review-calibration';
@@ -141,7 +142,7 @@ function CalibrationItem({ c, unit, onDone }: { c: CalibrationView; unit: Length
         </p>
         <p className="text-mist">
           {c.submittedBy?.name ?? 'Unknown'} · {formatDateTime(c.createdAt)}
-          {c.traceId ? ` · trace ${c.traceId}` : ''}
+          <CalibrationOrigin c={c} />
         </p>
         {c.status === 'pending' && c.cableType.currentVf !== null && c.cableType.currentVf !== c.libraryVf && (
           <p className="mt-1 font-semibold text-warn">

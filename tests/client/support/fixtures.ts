@@ -19,6 +19,7 @@ export const pendingCalibration = (changes: Partial<CalibrationView> = {}): Cali
   deviation: -0.0209,
   source: 'repair-closeout',
   traceId: 6,
+  ticketId: null,
   note: null,
   status: 'pending',
   submittedBy: { id: 2, name: 'Ines Ravelo' },
