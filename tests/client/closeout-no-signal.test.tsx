@@ -48,7 +48,9 @@ describe('close-out: recording the repair with no signal', () => {
     fireEvent.click(button);
 
     // Not a grey button waiting unseen for the network: the words, and the button back to press again.
-    expect((await screen.findByRole('alert')).textContent).toContain('Could not reach Rholog. Check the connection and try again.');
+    expect((await screen.findByRole('alert')).textContent).toContain(
+      'Could not reach Rholog. Check the connection and try again.',
+    );
     expect(button.disabled).toBe(false);
     expect(received).toEqual([]);
     expect((screen.getByLabelText('What was done') as HTMLTextAreaElement).value).toBe('Cut out the crushed length, new joint.');
@@ -59,6 +61,9 @@ describe('close-out: recording the repair with no signal', () => {
     signal = true;
     fireEvent.click(button);
     await expect.poll(() => received.length).toBe(1);
-    expect(received[0]).toMatchObject({ workDone: 'Cut out the crushed length, new joint.', found: { markerId: 11, offsetM: 3.5 } });
+    expect(received[0]).toMatchObject({
+      workDone: 'Cut out the crushed length, new joint.',
+      found: { markerId: 11, offsetM: 3.5 },
+    });
   });
 });

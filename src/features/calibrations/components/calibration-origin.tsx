@@ -7,10 +7,21 @@ import { paths } from '../../../app/paths';
  * Where a calibration's numbers came from, as links to open: the repair ticket whose close-out filed it and the
  * trace its round trip was read off. Nothing for one typed in by hand with neither.
  */
-export function CalibrationOrigin({ c, separator = ' · ' }: { c: Pick<CalibrationView, 'id' | 'ticketId' | 'traceId'>; separator?: string }) {
+export function CalibrationOrigin({
+  c,
+  separator = ' · ',
+}: {
+  c: Pick<CalibrationView, 'id' | 'ticketId' | 'traceId'>;
+  separator?: string;
+}) {
   const links = [
     c.ticketId !== null && (
-      <Link key="ticket" to={paths.ticket.to(c.ticketId)} className="text-teal underline" data-testid={`calibration-${c.id}-ticket`}>
+      <Link
+        key="ticket"
+        to={paths.ticket.to(c.ticketId)}
+        className="text-teal underline"
+        data-testid={`calibration-${c.id}-ticket`}
+      >
         ticket {c.ticketId}
       </Link>
     ),
