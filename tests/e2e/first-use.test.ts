@@ -87,8 +87,8 @@ describe('the first screens', () => {
     await page.getByTestId('connection-state').getByText('Offline').waitFor();
     expect(await start.textContent()).toBe('Analyse a trace on this phone');
     expect(await start.getAttribute('href')).toBe('/device/analyse');
-    // The repairs list that cannot load says so calmly, with no failure notice on the page.
-    expect(await page.getByTestId('repairs-offline').textContent()).toBe('Not shown without signal: the list comes back with the signal.');
+    // The repairs list that cannot load is the one saved on the phone, said calmly, with no failure notice on the page.
+    expect(await page.getByTestId('repairs-saved').textContent()).toMatch(/^No signal: as saved on this phone .+ ago, with where to dig\.$/);
     expect(await page.getByText('That did not work').count()).toBe(0);
     await e2e.screenshot(page, 'first-use-offline-home-phone');
 

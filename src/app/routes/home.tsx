@@ -4,27 +4,60 @@ import { Card, PageHeader } from '../../components/ui/card';
 import { ErrorNotice, Loading } from '../../components/ui/notice';
 import { SafetyCaution } from '../../components/ui/safety-caution';
 import { useSession } from '../../features/auth/use-session';
-import { useOnline } from '../../features/offline/device-context';
+import { useDevice, useOnline } from '../../features/offline/device-context';
 import { useCalibrations } from '../../features/calibrations/api/list-calibrations';
 import { useTickets } from '../../features/tickets/api/list-tickets';
 import { PriorityBadge, TicketStatusBadge } from '../../features/tickets/components/ticket-badges';
+import type { TicketSummary } from '../../../shared/schemas/tickets';
 import { formatAge, formatDate } from '../../lib/format';
 import { NAV } from '../nav';
 import { paths } from '../paths';
 
+function TicketLinks({ items }: { items: Array<Omit<TicketSummary, 'cableRun'>> }) {
+  return (
+    <ul className="divide-y divide-rule">
+      {items.map((t) => (
+        <li key={t.id}>
+          <Link to={paths.ticket.to(t.id)} className="block min-h-11 py-2 hover:text-copper">
+            <span className="font-semibold">{t.title}</span>
+            <span className="mt-0.5 flex flex-wrap items-center gap-1 text-xs text-ink-soft">
+              <TicketStatusBadge status={t.status} />
+              <PriorityBadge priority={t.priority} />
+              {t.site.name} · raised {formatAge(t.createdAt)}
+              {t.dueDate && ` · due ${formatDate(t.dueDate)}`}
+            </span>
+          </Link>
+        </li>
+      ))}
+    </ul>
+  );
+}
+
 function OpenTickets({ mine }: { mine: boolean }) {
   const tickets = useTickets({ status: 'open', assignee: mine ? 'me' : 'any', page: 1 });
   const online = useOnline();
+  const { field } = useDevice();
   const title = mine ? 'Your open repairs' : 'Open repairs';
-  // Without signal the list cannot come: said calmly, not as a failure.
-  if (!online && !tickets.data)
+  // Without signal the list cannot come: the person's own repairs kept on the phone stand in, or it is said calmly.
+  if (!online && !tickets.data) {
+    const saved = mine ? field?.tickets : undefined;
     return (
       <Card title={title}>
-        <p className="text-sm text-ink-soft" data-testid="repairs-offline">
-          Not shown without signal: the list comes back with the signal.
-        </p>
+        {saved && field ? (
+          <>
+            <p className="text-sm text-ink-soft" data-testid="repairs-saved">
+              No signal: as saved on this phone {formatAge(field.savedAt)}, with where to dig.
+            </p>
+            {saved.length === 0 ? <p className="mt-2 text-sm text-mist">Nothing was assigned to you then.</p> : <TicketLinks items={saved.slice(0, 5)} />}
+          </>
+        ) : (
+          <p className="text-sm text-ink-soft" data-testid="repairs-offline">
+            Not shown without signal: the list comes back with the signal.
+          </p>
+        )}
       </Card>
     );
+  }
   if (tickets.isPending) return <Loading what="Loading repairs" />;
   if (tickets.error) return <ErrorNotice error={tickets.error} onRetry={() => void tickets.refetch()} retrying={tickets.isFetching} />;
   const items = tickets.data.items.slice(0, 5);
@@ -40,21 +73,7 @@ function OpenTickets({ mine }: { mine: boolean }) {
       {items.length === 0 ? (
         <p className="text-sm text-mist">{mine ? 'Nothing assigned to you right now.' : 'No open repair tickets.'}</p>
       ) : (
-        <ul className="divide-y divide-rule">
-          {items.map((t) => (
-            <li key={t.id}>
-              <Link to={paths.ticket.to(t.id)} className="block min-h-11 py-2 hover:text-copper">
-                <span className="font-semibold">{t.title}</span>
-                <span className="mt-0.5 flex flex-wrap items-center gap-1 text-xs text-ink-soft">
-                  <TicketStatusBadge status={t.status} />
-                  <PriorityBadge priority={t.priority} />
-                  {t.site.name} · raised {formatAge(t.createdAt)}
-                  {t.dueDate && ` · due ${formatDate(t.dueDate)}`}
-                </span>
-              </Link>
-            </li>
-          ))}
-        </ul>
+        <TicketLinks items={items} />
       )}
     </Card>
   );

@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { FINDING_KIND_LABELS } from '../../../shared/schemas/findings';
 import type { CloseoutView, TicketDetail, TicketFindingView } from '../../../shared/schemas/tickets';
@@ -20,8 +20,9 @@ import { EditTicketForm } from '../../features/tickets/components/edit-ticket-fo
 import { PriorityBadge, TicketStatusBadge } from '../../features/tickets/components/ticket-badges';
 import { TicketTimeline } from '../../features/tickets/components/ticket-timeline';
 import { ReadingAlone, RouteSentence } from '../../features/findings/components/where-to-dig';
-import { formatDate, formatDateTime, formatLength, formatLengthRange, formatSignedLength, type LengthUnit } from '../../lib/format';
-import { describeError } from '../../lib/api-client';
+import { formatAge, formatDate, formatDateTime, formatLength, formatLengthRange, formatSignedLength, type LengthUnit } from '../../lib/format';
+import { ApiError, describeError } from '../../lib/api-client';
+import { useDevice } from '../../features/offline/device-context';
 import { paths } from '../paths';
 import { Term } from '../../components/ui/term';
 
@@ -124,9 +125,25 @@ export function TicketPage() {
   const [moveComment, setMoveComment] = useState('');
   const [note, setNote] = useState('');
   const [asking, setAsking] = useState<TicketStatus | null>(null);
-  if (ticket.isPending) return <Loading what="Loading the ticket" />;
-  if (ticket.error) return <ErrorNotice error={ticket.error} onRetry={() => void ticket.refetch()} retrying={ticket.isFetching} />;
-  const t = ticket.data;
+  const device = useDevice();
+  // Without signal, one of the person's open repairs kept on the phone stands in: where to dig is still there.
+  const saved = device.field?.tickets?.find((s) => s.id === id);
+  const noSignal = !device.online || (ticket.error instanceof ApiError && ticket.error.code === 'offline');
+  const savedCopy = !ticket.data && saved && noSignal ? saved : null;
+  // Opened without signal, the ticket is asked for again as soon as the signal is back (not on every start).
+  const { refetch } = ticket;
+  const missing = !ticket.data;
+  const wasOnline = useRef(device.online);
+  useEffect(() => {
+    const back = device.online && !wasOnline.current;
+    wasOnline.current = device.online;
+    if (back && missing) void refetch();
+  }, [device.online, missing, refetch]);
+  if (!savedCopy && ticket.isPending) return <Loading what="Loading the ticket" />;
+  if (!savedCopy && ticket.error) return <ErrorNotice error={ticket.error} onRetry={() => void ticket.refetch()} retrying={ticket.isFetching} />;
+  const t = ticket.data ?? savedCopy!;
+  // The copy on the phone is read-only: a step, a comment or a close-out needs the server.
+  const live = !savedCopy;
   const go = (to: TicketStatus) =>
     move.mutate({ id: t.id, to, comment: moveComment }, { onSuccess: () => (setMoveComment(''), setAsking(null)) });
   const failing = t.mail.filter((m) => m.status === 'failed' || (m.status === 'queued' && m.attempts > 0));
@@ -137,11 +154,21 @@ export function TicketPage() {
         title={`Ticket ${t.id}: ${t.title}`}
         subtitle={`${t.site.name} · ${t.cableRun.name} (${t.cableRun.cableType.name}) · raised by ${t.createdBy.name}, ${formatDateTime(t.createdAt)}`}
         actions={
-          <Link to={paths.ticketSheet.to(t.id)} className="inline-flex min-h-11 items-center rounded-md border border-rule bg-card px-4 text-sm font-semibold hover:border-ink-soft">
-            Crew sheet
-          </Link>
+          live && (
+            <Link to={paths.ticketSheet.to(t.id)} className="inline-flex min-h-11 items-center rounded-md border border-rule bg-card px-4 text-sm font-semibold hover:border-ink-soft">
+              Crew sheet
+            </Link>
+          )
         }
       />
+      {savedCopy && device.field && (
+        <Notice tone="warn" title="No signal: this ticket as saved on this phone" className="mb-4">
+          <span data-testid="ticket-saved-copy">
+            Saved {formatAge(device.field.savedAt)} ({formatDateTime(device.field.savedAt)}), with where to dig, access and notes as they were then. A step, a
+            comment or the close-out needs the signal: this page offers them again when it is back.
+          </span>
+        </Notice>
+      )}
       <div className="mb-4 flex flex-wrap items-center gap-2">
         <TicketStatusBadge status={t.status} />
         <PriorityBadge priority={t.priority} />
@@ -177,7 +204,7 @@ export function TicketPage() {
               )}
             </div>
           </Card>
-          {(t.can.moves.length > 0 || t.can.closeOut) && (
+          {live && (t.can.moves.length > 0 || t.can.closeOut) && (
             <Card title="Next step">
               {t.can.moves.length > 0 && (
                 <div className="space-y-3">
@@ -257,7 +284,7 @@ export function TicketPage() {
           )}
           <Card title="Timeline">
             <TicketTimeline events={t.timeline} />
-            {t.can.comment && (
+            {live && t.can.comment && (
               <form
                 className="mt-4 space-y-2"
                 onSubmit={(e) => {
@@ -275,13 +302,13 @@ export function TicketPage() {
           </Card>
         </div>
         <div className="space-y-4">
-          {t.can.edit && can('tickets:manage') && (
+          {live && t.can.edit && can('tickets:manage') && (
             <Card title="Assign and plan">
               <EditTicketForm key={t.updatedAt} ticket={t} />
             </Card>
           )}
           {/* Recipients, delivery state and relay errors are for those who may read the Outbox. */}
-          {can('outbox:read') && (
+          {live && can('outbox:read') && (
             <Card title="E-mail about this ticket">
               {t.mail.length === 0 ? (
                 <p className="text-sm text-mist">None sent yet.</p>

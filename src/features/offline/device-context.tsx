@@ -145,7 +145,7 @@ export function DeviceProvider({ user, children }: { user: PublicUser; children:
     if (!fieldUser) return;
     setFieldRefreshing(true);
     try {
-      const data = await fetchFieldData(user.id);
+      const data = await fetchFieldData(user.id, can(user.role, 'tickets:work'));
       const db = await deviceDb();
       await saveFieldData(db, data);
       setField(data);
@@ -155,7 +155,7 @@ export function DeviceProvider({ user, children }: { user: PublicUser; children:
     } finally {
       setFieldRefreshing(false);
     }
-  }, [fieldUser, user.id]);
+  }, [fieldUser, user.id, user.role]);
 
   // On sign-in or start: remember who this is, keep only their field data, pick up what a closed app left half-sent.
   useEffect(() => {

@@ -7,6 +7,7 @@
 import { openDB, type DBSchema, type IDBPDatabase } from 'idb';
 import type { CableTypeView } from '../../../shared/schemas/cables';
 import type { CableRunView, SiteSummary } from '../../../shared/schemas/sites';
+import type { TicketDetail } from '../../../shared/schemas/tickets';
 import type { PublicUser } from '../../../shared/schemas/users';
 import type { OutboxItem, Problem } from './outbox-machine';
 
@@ -20,6 +21,11 @@ export interface FieldData {
   sites: SiteSummary[];
   runs: CableRunView[];
   cables: CableTypeView[];
+  /**
+   * The open repair tickets assigned to this user, each whole (where to dig, access, notes), so a ticket opened
+   * again without signal still says where to dig. Absent from field data saved before it was kept.
+   */
+  tickets?: TicketDetail[];
 }
 
 export interface SyncRecord {

@@ -1,11 +1,12 @@
 /**
  * The field data a technician needs without signal — sites, cable runs with
- * their route markers, and the cable library — read through the API as the
- * signed-in user (so the server decides what they may see) and kept on the
- * phone for that user only.
+ * their route markers, the cable library, and the open repairs assigned to
+ * them — read through the API as the signed-in user (so the server decides
+ * what they may see) and kept on the phone for that user only.
  */
 import type { CableTypeView } from '../../../shared/schemas/cables';
 import type { CableRunView, SiteSummary } from '../../../shared/schemas/sites';
+import type { TicketDetail, TicketSummary } from '../../../shared/schemas/tickets';
 import type { Page } from '../../../shared/schemas/users';
 import { api } from '../../lib/api-client';
 import type { FieldData } from './device-db';
@@ -20,13 +21,26 @@ async function all<T>(path: string, pageSize: number, query: Record<string, stri
   }
 }
 
-export async function fetchFieldData(userId: number, now = new Date()): Promise<FieldData> {
-  const [sites, runs, cables] = await Promise.all([
+/** At most this many of a person's open repairs are kept on the phone (the first page of their list, theirs first). */
+export const FIELD_TICKETS_MAX = 25;
+
+/** The open repair tickets assigned to this user, each whole, as the ticket page reads them; none for a role without tickets. */
+async function myOpenTickets(withTickets: boolean): Promise<TicketDetail[]> {
+  if (!withTickets) return [];
+  const list = await api<Page<TicketSummary>>('/api/tickets', {
+    query: { status: 'open', assignee: 'me', page: 1, pageSize: FIELD_TICKETS_MAX },
+  });
+  return Promise.all(list.items.map((t) => api<TicketDetail>(`/api/tickets/${t.id}`)));
+}
+
+export async function fetchFieldData(userId: number, withTickets: boolean, now = new Date()): Promise<FieldData> {
+  const [sites, runs, cables, tickets] = await Promise.all([
     all<SiteSummary>('/api/sites', 100),
     all<CableRunView>('/api/cable-runs', 200),
     all<CableTypeView>('/api/cables', 200, { sort: 'name', dir: 'asc' }),
+    myOpenTickets(withTickets),
   ]);
-  return { userId, savedAt: now.toISOString(), sites, runs, cables };
+  return { userId, savedAt: now.toISOString(), sites, runs, cables, tickets };
 }
 
 /** Field data older than this is fetched again when the phone is online. */
