@@ -157,6 +157,10 @@ describe('a repair from assignment to calibration', () => {
     await page.getByRole('heading', { name: 'Calibrations', exact: true }).waitFor();
     await page.getByText('Repair close-out').first().waitFor();
     expect(await page.getByText(cal.vf.toFixed(3)).first().isVisible()).toBe(true);
+    // Where the number came from is one click away: the repair ticket that filed it and the trace it was read off.
+    const item = page.getByTestId(`calibration-${cal.id}`);
+    expect(await item.getByRole('link', { name: `ticket ${closeout.ticketId}` }).getAttribute('href')).toBe(`/tickets/${closeout.ticketId}`);
+    expect(await item.getByRole('link', { name: `trace ${cal.traceId}` }).getAttribute('href')).toBe(`/traces/${cal.traceId}`);
     await e2e.screenshot(page, 'calibrations-planner-desktop');
     await page.close();
   });
@@ -202,5 +206,22 @@ describe('a repair from assignment to calibration', () => {
     expect(await adminPhone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(PHONE.width);
     await e2e.screenshot(adminPhone, 'outbox-admin-phone');
     await adminPhone.close();
+  });
+
+  it('a supervisor reads what the crew found and did before the step that signs it off', async () => {
+    // The demo's repair on Control pair HN-C2 is fixed and waits for sign-off.
+    const page = await e2e.newPage(PHONE);
+    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
+    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    await page.getByRole('link', { name: /Short circuit on Control pair HN-C2/ }).first().click();
+    const signOff = page.getByRole('button', { name: 'Sign off…' });
+    await signOff.waitFor();
+    const summary = page.getByTestId('closeout-summary');
+    expect(await summary.textContent()).toContain('Cut out the wet length and fitted a new straight joint');
+    const summaryTop = (await summary.boundingBox())!.y;
+    const signOffTop = (await signOff.boundingBox())!.y;
+    expect(summaryTop).toBeLessThan(signOffTop);
+    await e2e.screenshot(page, 'ticket-sign-off-phone');
+    await page.close();
   });
 });

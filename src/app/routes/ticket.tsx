@@ -204,6 +204,17 @@ export function TicketPage() {
               )}
             </div>
           </Card>
+          {/* What the crew found and did comes before the step that accepts it (sign off, reopen). */}
+          {t.closeouts.length > 0 && (
+            <Card title="Close-out">
+              <CloseoutSummary c={t.closeouts[0]} unit={unit} />
+              {t.closeouts[0].methodScores && t.closeouts[0].methodScores.length > 0 && (
+                <div className="mt-3">
+                  <MethodScores scores={t.closeouts[0].methodScores} unit={unit} />
+                </div>
+              )}
+            </Card>
+          )}
           {live && (t.can.moves.length > 0 || t.can.closeOut) && (
             <Card title="Next step">
               {t.can.moves.length > 0 && (
@@ -268,16 +279,6 @@ export function TicketPage() {
                     <SafetyCaution compact />
                   </div>
                   <CloseoutForm ticket={t} unit={unit} />
-                </div>
-              )}
-            </Card>
-          )}
-          {t.closeouts.length > 0 && (
-            <Card title="Close-out">
-              <CloseoutSummary c={t.closeouts[0]} unit={unit} />
-              {t.closeouts[0].methodScores && t.closeouts[0].methodScores.length > 0 && (
-                <div className="mt-3">
-                  <MethodScores scores={t.closeouts[0].methodScores} unit={unit} />
                 </div>
               )}
             </Card>
