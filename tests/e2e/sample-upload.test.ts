@@ -28,6 +28,11 @@ describe('a new technician on the demo with no trace file of their own', () => {
       'Oakhollow cabinet row',
     );
     expect(await page.getByRole('button', { name: /End A/ }).getAttribute('aria-pressed')).toBe('true');
+    // The file's size reads on one line beside its name on the phone, not its number over its unit.
+    const size = page.getByTestId('upload-file-size');
+    expect(await size.textContent()).toMatch(/^\d+ kB$/);
+    const lines = await size.evaluate((el) => Math.round(el.getBoundingClientRect().height / parseFloat(getComputedStyle(el).lineHeight)));
+    expect(lines).toBe(1);
     await e2e.screenshot(page, 'sample-upload-phone');
     await page.getByRole('button', { name: 'Upload and analyse' }).click();
 

@@ -219,8 +219,9 @@ export function UploadPage() {
                 {files.map((f) => (
                   <li key={f.name + f.size} className="flex items-center justify-between gap-2 px-3 py-2 text-sm">
                     <span className="min-w-0 truncate font-semibold">{f.name}</span>
-                    <span className="flex items-center gap-2 text-mist tabular">
-                      {formatFileSize(f.size)}
+                    {/* The size keeps to one line ("31 kB", not "31" over "kB"): the name gives way instead. */}
+                    <span className="flex shrink-0 items-center gap-2 whitespace-nowrap text-mist tabular">
+                      <span data-testid="upload-file-size">{formatFileSize(f.size)}</span>
                       <Button variant="ghost" aria-label={`Remove ${f.name}`} onClick={() => setFiles(files.filter((x) => x !== f))}>
                         Remove
                       </Button>
