@@ -905,6 +905,12 @@ function fitAtDistance(ctx: FitContext, win: EventWindow, model: LossModel, zero
  * The zero-phase fit is kept only when it leaves less than ZERO_PHASE_GAIN of the causal residual.
  */
 const ZERO_PHASE_GAIN = 0.5;
+/**
+ * Smallest ratio of the two edges' heights, either way round, for a two-edge fit to be read as a section:
+ * a stretch of other cable between lengths of the same one returns ρ at its start and about −ρ at its end
+ * (less by the two-way transmission 1 − ρ² and the line's loss between them).
+ */
+const SECTION_END_RATIO = 0.5;
 
 /** A fit of `params` free parameters whose residual per point is no more than twice the noise's (four times its variance). */
 function withinNoise(ctx: FitContext, f: ModelFit, params: number): boolean {
@@ -1083,6 +1089,7 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
   const model = library ?? estimated ?? NO_LOSS;
   const lossSource: LossSource = library ? 'library' : estimated ? 'estimated' : 'none';
   const launchOnset = launchOnsetTimer(input.launch, input.signal);
+  const added: Measured[] = [];
   for (const [k, m] of events.entries()) {
     // A blip is two edges, and an event inside the blind zone rides on the launch's own tail: their readings stand.
     if (m.blip || m.onsetIdx < input.signal.blindIdx) continue;
@@ -1090,6 +1097,8 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     if (win.to - win.from < 8) continue;
     const shaped = bestShapeFit(ctx, win, model, m, lossSource);
     let { f, zeroPhase } = shaped;
+    let causal = shaped.causal;
+    let second: SecondEdge | null = null;
     const atFloor = (g: ModelFit | null) => g !== null && g.d < win.lo + 0.01 * (win.hi - win.lo);
     let extra = 0;
     // A causal fit that runs into the earliest arrival tried (a lossy edge's foot lies further back than
@@ -1112,7 +1121,7 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
       if (wider.lo < win.lo - 1) {
         const again = bestShapeFit(ctx, wider, model, m, lossSource);
         if (again.f && acceptable(again.f, m, wider)) {
-          ({ f, zeroPhase } = again);
+          ({ f, zeroPhase, causal } = again);
           win = wider;
         }
       }
@@ -1134,6 +1143,20 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
       // A step of the other sign in the window that one edge cannot follow: fitted beside it (withNeighbourEdge).
       const two = withNeighbourEdge(ctx, win, f);
       if (two && acceptable(two, m, win)) f = two;
+    } else if (zeroPhase && lossSource === 'library' && causal) {
+      // A section: two edges of opposite sign, each spread by the line over about the section's length, make
+      // one slow dip (or bump) that the symmetric shape follows better than one causal edge, and reads as one
+      // edge between the two ends. The causal edge with a second one of the other sign beside it
+      // (withNeighbourEdge) is taken instead where it leaves less than ZERO_PHASE_GAIN of the symmetric fit's
+      // residual (the same margin the symmetric shape had to win by) and the two ends are of a size
+      // (SECTION_END_RATIO); both ends are then reported.
+      const two = withNeighbourEdge(ctx, win, causal);
+      const ratio = two ? Math.abs(two.second.h / two.h) : 0;
+      if (two && two.ss < ZERO_PHASE_GAIN * f.ss && ratio >= SECTION_END_RATIO && ratio <= 1 / SECTION_END_RATIO && acceptable(two, m, win)) {
+        f = two;
+        zeroPhase = false;
+        second = two.second;
+      }
     }
     const probe =
       model === NO_LOSS
@@ -1166,10 +1189,38 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     m.onsetIdx = onset;
     if (shape.reference === 'axis') m.t50Idx = onset;
     ctx.peeled.push({ t: f.t, q: f.q, d: f.dq, h: f.h });
+    // The section's other end, reported as an event of its own unless one is already read there; its edge is
+    // taken out of the later windows as the first one's is.
+    if (second) {
+      const onset2 = shape.reference === 'launch' ? launchOnset(m.fLo) + second.d : input.launch.zeroIdx + second.d;
+      const sep = Math.max(1, input.launch.riseSamples, f.middle);
+      const taken = events.some((o, j) => j !== k && Math.abs(o.onsetIdx - onset2) < sep);
+      if (!taken) {
+        added.push({
+          ...m,
+          onsetIdx: onset2,
+          t50Idx: shape.reference === 'axis' ? onset2 : m.t50Idx + (second.d - f.d),
+          height: second.h,
+          heightRaw: second.h,
+          peakDev: second.h,
+          blip: false,
+          snr: m.snr * Math.abs(second.h / f.h),
+          endIdx: Math.max(m.endIdx, onset2 + (m.endIdx - m.onsetIdx)),
+          echoPeak: 0,
+          levelBefore: m.levelBefore + f.h,
+          fit: { ...m.fit, delaySamples: second.d, heightRaw: second.h },
+        });
+        ctx.peeled.push({ t: f.t, q: f.q, d: second.dq, h: second.h });
+      }
+    }
     // A fault's creep share is not taken out of the later windows: its template ends with this window and
     // would stand there at its last value, where the share goes on growing past it; the later fits' own
     // sloping baseline follows it instead.
     if (term && !fault) ctx.peeled.push({ t: term.f.tb, q: f.q, d: f.dq, h: term.f.g });
+  }
+  if (added.length > 0) {
+    events.push(...added);
+    events.sort((a, b) => a.onsetIdx - b.onsetIdx);
   }
   return { events, lossSource, loss: model, estimatedFrom, vf: input.vf };
 }
@@ -1197,10 +1248,11 @@ const NEIGHBOUR_SHARE = 0.5;
  * is sought at least one modelled lag from arrival to middle (and the launch's rise) away from the first. It
  * is taken only where it explains the window decisively better (NEIGHBOUR_ODDS for each place tried), takes
  * at least half of what the one edge left (NEIGHBOUR_SHARE) and stands at least the smallest reported
- * reflection. It is not reported itself: only the event's delay and height are refitted. Returns the refitted
- * event, or null.
+ * reflection. It is not reported itself here: only the event's delay and height are refitted. Returns the
+ * refitted event with the second edge (`second`), or null. Where the event was read with the symmetric shape, the
+ * two edges may be a section's two ends, and fitLineEdges reports both (SECTION_END_RATIO).
  */
-function withNeighbourEdge(ctx: FitContext, win: EventWindow, f: ModelFit): ModelFit | null {
+function withNeighbourEdge(ctx: FitContext, win: EventWindow, f: ModelFit): (ModelFit & { second: SecondEdge }) | null {
   const { rhoMin, launch: L } = ctx.input;
   // A one-edge fit that leaves no more than the noise has nothing more to explain.
   if (!ctx.shape.step || withinNoise(ctx, f, 3)) return null;
@@ -1267,7 +1319,14 @@ function withNeighbourEdge(ctx: FitContext, win: EventWindow, f: ModelFit): Mode
   if (best.ss > NEIGHBOUR_SHARE * f.ss) return null;
   const other = { t: { ...t, start: t.start + (best.d2 - best.d) }, g: best.h2 };
   const sigma = delaySigma(w, t, best.d, best.ss, (win.hi - win.lo) / q / 2, undefined, other);
-  return { ...f, d: best.d * q, dq: best.d, h: best.h, ss: best.ss, sigma: sigma * q };
+  return { ...f, d: best.d * q, dq: best.d, h: best.h, ss: best.ss, sigma: sigma * q, second: { d: best.d2 * q, dq: best.d2, h: best.h2 } };
+}
+
+/** The second edge of a two-edge fit (withNeighbourEdge): its delay (full-rate samples and blocks) and height. */
+interface SecondEdge {
+  d: number;
+  dq: number;
+  h: number;
 }
 
 /** A lumped fault's fit (terminatedFit, 'fault') where the odds favour it decisively over the plain fit `plain` of the same window. */
