@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableRun, CableType, Site } from '../../server/db/models';
 import { stepTraceCsv } from './support/field-fixtures';
+import { solidPePair } from './support/cables';
 import { startApi, type TestApi } from './support/api';
 
 let api: TestApi;
@@ -9,19 +10,15 @@ beforeAll(async () => {
   api = await startApi();
   const planner = await api.as('planner');
   const { body: cable } = await planner
-    .post('/api/cables', {
-      name: 'Pulse VF test pair',
-      construction: 'twisted-pair',
-      dielectric: 'solid polyethylene',
-      z0Ohm: 100,
-      vf: 0.66,
-      vfTolerance: 0.03,
-      vfSource: 'handbook',
-      vfReference: 'solid PE, εr ≈ 2.3',
-      attenuation: [{ frequencyMhz: 1, dbPer100m: 1.6 }],
-      lossSource: 'typical of 0.5 mm PE pairs, from memory',
-      pulseVfs: [{ pulseWidthNs: 100, vf: 0.63, source: 'yard test on drum 4' }],
-    })
+    .post(
+      '/api/cables',
+      solidPePair('Pulse VF test pair', {
+        vfReference: 'solid PE, εr ≈ 2.3',
+        attenuation: [{ frequencyMhz: 1, dbPer100m: 1.6 }],
+        lossSource: 'typical of 0.5 mm PE pairs, from memory',
+        pulseVfs: [{ pulseWidthNs: 100, vf: 0.63, source: 'yard test on drum 4' }],
+      }),
+    )
     .expect(201);
   const site = await Site.create({ name: 'Pulse VF site', address: null, latitude: null, longitude: null, accessNotes: null });
   const run = await CableRun.create({

@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableCalibration, CableType, CableTypeChange } from '../../server/db/models';
+import { solidPePair } from './support/cables';
 import { startApi, type TestApi } from './support/api';
 
 // Two planners each accepting a different field calibration of one cable type, both forms opened before either
@@ -19,20 +20,13 @@ afterAll(() => api.close());
 async function cableWithTwoCalibrations(name: string) {
   const planner = await api.as('planner');
   const tech = await api.as('technician');
-  const { body: cable } = await planner
-    .post('/api/cables', {
-      name,
-      construction: 'twisted-pair',
-      dielectric: 'solid polyethylene',
-      z0Ohm: 100,
-      vf: 0.66,
-      vfTolerance: 0.03,
-      vfSource: 'handbook',
-      vfReference: 'common practice',
-    })
-    .expect(201);
+  const { body: cable } = await planner.post('/api/cables', solidPePair(name)).expect(201);
   const file = async (vf: number) =>
-    (await tech.post('/api/calibrations', { cableTypeId: cable.id, knownLengthM: 300, roundTripNs: roundTripNs(300, vf) }).expect(201)).body as { id: number };
+    (
+      await tech
+        .post('/api/calibrations', { cableTypeId: cable.id, knownLengthM: 300, roundTripNs: roundTripNs(300, vf) })
+        .expect(201)
+    ).body as { id: number };
   return { cable: cable as { id: number }, low: await file(0.64), high: await file(0.68) };
 }
 
@@ -52,7 +46,10 @@ describe('accepting a calibration from a form opened before another was accepted
     expect(late.body.error.code).toBe('changed_meanwhile');
     expect(late.body.error.message).toContain(`calibration #${high.id}`);
     expect(late.body.error.fields).toEqual([
-      { field: 'vf', message: `the proposal leaves out calibration #${high.id}, accepted after you opened the form: 1 calibration is accepted now, you started from 0` },
+      {
+        field: 'vf',
+        message: `the proposal leaves out calibration #${high.id}, accepted after you opened the form: 1 calibration is accepted now, you started from 0`,
+      },
     ]);
     expect((await CableCalibration.findByPk(low.id))!.status).toBe('pending');
     expect((await CableType.findByPk(cable.id))!.vf).toBe(0.68);
@@ -62,7 +59,11 @@ describe('accepting a calibration from a form opened before another was accepted
     const again = (await first.get(`/api/cables/${cable.id}/calibrations`).expect(200)).body;
     expect(again.acceptedStats.count).toBe(1);
     await first
-      .post(`/api/calibrations/${low.id}/accept`, { vf: 0.66, vfTolerance: 0.02, basedOn: { vf: again.libraryVf, vfTolerance: again.libraryVfTolerance, acceptedCount: 1 } })
+      .post(`/api/calibrations/${low.id}/accept`, {
+        vf: 0.66,
+        vfTolerance: 0.02,
+        basedOn: { vf: again.libraryVf, vfTolerance: again.libraryVfTolerance, acceptedCount: 1 },
+      })
       .expect(200);
     expect((await CableType.findByPk(cable.id))!.vf).toBe(0.66);
   });
@@ -72,9 +73,14 @@ describe('accepting a calibration from a form opened before another was accepted
     const reviewer = await api.as('planner');
     const editor = await api.as('planner');
     const opened = (await reviewer.get(`/api/cables/${cable.id}/calibrations`).expect(200)).body;
-    await editor.patch(`/api/cables/${cable.id}`, { vf: 0.67, reason: 'Maker’s data sheet, second issue', basedOn: { vf: 0.66 } }).expect(200);
+    await editor
+      .patch(`/api/cables/${cable.id}`, { vf: 0.67, reason: 'Maker’s data sheet, second issue', basedOn: { vf: 0.66 } })
+      .expect(200);
     const late = await reviewer
-      .post(`/api/calibrations/${low.id}/accept`, { vf: 0.64, basedOn: { vf: opened.libraryVf, vfTolerance: opened.libraryVfTolerance, acceptedCount: 0 } })
+      .post(`/api/calibrations/${low.id}/accept`, {
+        vf: 0.64,
+        basedOn: { vf: opened.libraryVf, vfTolerance: opened.libraryVfTolerance, acceptedCount: 0 },
+      })
       .expect(409);
     expect(late.body.error.code).toBe('changed_meanwhile');
     expect(late.body.error.fields).toEqual([{ field: 'vf', message: 'is now 0.67; you started from 0.66' }]);
@@ -101,7 +107,9 @@ describe('accepting a calibration from a form opened before another was accepted
   it('refuses a starting point that is not a count', async () => {
     const { low } = await cableWithTwoCalibrations('Bad snapshot PE pair');
     const planner = await api.as('planner');
-    const res = await planner.post(`/api/calibrations/${low.id}/accept`, { vf: 0.64, basedOn: { vf: 0.66, vfTolerance: 0.03, acceptedCount: -1 } }).expect(400);
+    const res = await planner
+      .post(`/api/calibrations/${low.id}/accept`, { vf: 0.64, basedOn: { vf: 0.66, vfTolerance: 0.03, acceptedCount: -1 } })
+      .expect(400);
     expect(res.body.error.fields).toEqual([{ field: 'basedOn.acceptedCount', message: 'must be at least 0' }]);
   });
 });
@@ -136,7 +144,10 @@ describe('a cable type with more calibrations than the list shows', () => {
     expect(opened.acceptedStats.count).toBe(520);
     expect(opened.acceptedStats.mean).toBeCloseTo(0.66, 9);
     await planner
-      .post(`/api/calibrations/${low.id}/accept`, { vf: 0.66, basedOn: { vf: opened.libraryVf, vfTolerance: opened.libraryVfTolerance, acceptedCount: opened.acceptedStats.count } })
+      .post(`/api/calibrations/${low.id}/accept`, {
+        vf: 0.66,
+        basedOn: { vf: opened.libraryVf, vfTolerance: opened.libraryVfTolerance, acceptedCount: opened.acceptedStats.count },
+      })
       .expect(200);
   });
 });

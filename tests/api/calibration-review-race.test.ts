@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableCalibration, CableTypeChange } from '../../server/db/models';
+import { solidPePair } from './support/cables';
 import { startApi, type TestApi } from './support/api';
 
 // Two planners deciding the same field calibration at the same moment, one accepting and one rejecting it (or
@@ -22,16 +23,7 @@ describe('a calibration decided twice at once', () => {
     const other = await api.as('planner');
     const tech = await api.as('technician');
     const { body: cable } = await planner
-      .post('/api/cables', {
-        name: 'Race-calibrated PE pair',
-        construction: 'twisted-pair',
-        dielectric: 'solid polyethylene',
-        z0Ohm: 100,
-        vf: 0.66,
-        vfTolerance: 0.03,
-        vfSource: 'handbook',
-        vfReference: 'common practice',
-      })
+      .post('/api/cables', solidPePair('Race-calibrated PE pair', { vfReference: 'common practice' }))
       .expect(201);
     for (let round = 0; round < 6; round++) {
       const vf = 0.64 + 0.002 * round;

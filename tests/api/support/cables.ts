@@ -17,9 +17,26 @@ export const solidPeCoax = (name: string, extra: object = {}) => ({
   ...extra,
 });
 
+/**
+ * A valid `POST /api/cables` body for a 100 Ω solid PE telephone pair named `name` (VF 0.66 ± 0.03, a handbook
+ * range for PE-insulated pairs: common practice, from memory), with `extra` laid over it.
+ */
+export const solidPePair = (name: string, extra: object = {}) => ({
+  name,
+  construction: 'twisted-pair',
+  dielectric: 'solid polyethylene',
+  z0Ohm: 100,
+  vf: 0.66,
+  vfTolerance: 0.03,
+  vfSource: 'handbook',
+  vfReference: 'PE-insulated telephone pair, handbook range',
+  ...extra,
+});
+
 /** The cable library import's full header, every column it reads. */
 export const LIBRARY_CSV_HEADER =
   'name,construction,dielectric,z0_ohm,vf,vf_tolerance,attenuation_db_per_100m,attenuation_freq_mhz,vf_source,vf_reference,notes';
 
 /** One import row under LIBRARY_CSV_HEADER: a 75 Ω foamed PE coax named `name`. */
-export const foamPeRow = (name: string) => `${name},coax,foamed polyethylene,75,0.82,0.03,,,handbook,Foam PE coax handbook range,`;
+export const foamPeRow = (name: string) =>
+  `${name},coax,foamed polyethylene,75,0.82,0.03,,,handbook,Foam PE coax handbook range,`;
