@@ -111,11 +111,12 @@ function unitsRow(cells: string[]): string[] | null {
 }
 
 /**
- * The first row of numbers with more (or fewer) values than the header just above it, where the rows after it
- * have as many as the header: that row is the wrong one. The number of columns is read from the first row of
- * numbers, so without this the header would not be taken as one and the next, right, row would be blamed.
+ * A header just above the numbers whose count of names is not the first row's count of values. The number of
+ * columns is read from the first row of numbers, so without this the header would not be taken as one and the
+ * file refused for something else. Where the rows after the first have as many values as the header, the first
+ * row is the wrong one and is named; where every row of numbers has the same other count, the header is.
  */
-function refuseOddFirstRow(
+function refuseHeaderMisfit(
   head: FileHead,
   rows: FileHead['rows'],
   rowCells: string[][],
@@ -124,35 +125,18 @@ function refuseOddFirstRow(
   allNames: (cells: string[]) => boolean,
 ): void {
   const last = rows.length - 1;
-  if (last < 0 || head.samples.length < 2 || rows[last].line !== head.dataLine - 1) return;
-  const header = rowCells[last];
-  if (header.length === columnCount || header.length < 2 || !allNames(header)) return;
-  const next = head.samples[1];
-  if (splitRow(next.text, delimiter).length !== header.length) return;
-  throw new TraceInputError(
-    'RAGGED_ROW',
-    `row has ${columnCount} value${columnCount === 1 ? '' : 's'}; expected ${header.length} like the header on line ${rows[last].line}`,
-    { line: head.samples[0].line },
-  );
-}
-
-/**
- * A header just above the numbers that names more or fewer columns than every row of numbers has. Without this
- * the header is not taken as one, and the file is refused for what the header would have told (a time unit, say).
- */
-function refuseHeaderOfOtherWidth(
-  head: FileHead,
-  rows: FileHead['rows'],
-  rowCells: string[][],
-  columnCount: number,
-  delimiter: Delimiter,
-  allNames: (cells: string[]) => boolean,
-): void {
-  const last = rows.length - 1;
-  if (last < 0 || delimiter === null || delimiter === 'whitespace' || rows[last].line !== head.dataLine - 1) return;
+  if (last < 0 || rows[last].line !== head.dataLine - 1) return;
   const names = rowCells[last];
   if (names.length === columnCount || names.length < 2 || !allNames(names)) return;
-  if (!head.samples.every((s) => splitRow(s.text, delimiter).length === columnCount)) return;
+  const widths = head.samples.map((s) => splitRow(s.text, delimiter).length);
+  if (widths.length >= 2 && widths[1] === names.length) {
+    throw new TraceInputError(
+      'RAGGED_ROW',
+      `row has ${columnCount} value${columnCount === 1 ? '' : 's'}; expected ${names.length} like the header on line ${rows[last].line}`,
+      { line: head.samples[0].line },
+    );
+  }
+  if (delimiter === null || delimiter === 'whitespace' || !widths.every((w) => w === columnCount)) return;
   const shown = names.map((n) => `'${shorten(n, 20)}'`).join(', ');
   throw new TraceInputError(
     'HEADER_MISMATCH',
@@ -175,7 +159,7 @@ export function readLayout(head: FileHead): FileLayout {
   }
   const rowCells = rows.map((r) => splitRow(r.text, delimiter ?? headDelimiter));
   const allNames = (cells: string[]) => cells.every((c) => c !== '' && !isNumericCell(c));
-  refuseOddFirstRow(head, rows, rowCells, columnCount, delimiter, allNames);
+  refuseHeaderMisfit(head, rows, rowCells, columnCount, delimiter, allNames);
   // Rows of broken numbers (NaN, text) just above the first clean row belong to the data, not the header.
   let headRows = rows.length;
   while (headRows > 0 && rowCells[headRows - 1].length === columnCount && isNumericCell(rowCells[headRows - 1][0] ?? ''))
@@ -199,7 +183,6 @@ export function readLayout(head: FileHead): FileLayout {
       }
     }
   }
-  if (header === null) refuseHeaderOfOtherWidth(head, rows, rowCells, columnCount, delimiter, allNames);
   const splitByDelimiter = (delimiter ?? headDelimiter) !== null && delimiter !== 'whitespace';
   const metaRows: HeadText[] = [];
   let k = 0;
