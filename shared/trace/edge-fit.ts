@@ -953,6 +953,10 @@ function bestShapeFit(
  * square of the length, so 0.7 gives it under half the spread).
  */
 const NEAR_SPREAD_SHARE = 0.7;
+/** Doublings (or halvings) the loss search may go past either end of its grid, while the fit keeps improving. */
+const GRID_EXTEND = 8;
+/** Share of the edge's residual with the incident stretch's resistance that a fit without it must stay under to leave it out. */
+const INCIDENT_R_DROP_SHARE = 0.5;
 
 function estimateSkin(ctx: FitContext, events: Measured[], resistiveNpPerM = 0): LossModel | null {
   const fittable = events.map((m, k) => ({ m, k })).filter(({ m }) => !m.blip);
@@ -966,11 +970,10 @@ function estimateSkin(ctx: FitContext, events: Measured[], resistiveNpPerM = 0):
   const twoWayM = twoWayOf(ctx, d0);
   if (!(twoWayM > 0)) return null;
   const dt = ctx.input.rec.dt;
-  const modelFor = (t50Samples: number): LossModel => {
+  const modelFor = (t50Samples: number, r: number): LossModel => {
     const kParam = Math.sqrt((t50Samples * dt) / 1.099);
-    return { skinNpPerMRootHz: (kParam * Math.sqrt(Math.PI)) / twoWayM, dielectricNpPerMPerHz: 0, resistiveNpPerM };
+    return { skinNpPerMRootHz: (kParam * Math.sqrt(Math.PI)) / twoWayM, dielectricNpPerMPerHz: 0, resistiveNpPerM: r };
   };
-  const base: LossModel = resistiveNpPerM > 0 ? { ...NO_LOSS, resistiveNpPerM } : NO_LOSS;
   // With no launch edge in the record, the instrument's own rise is unknown: it is fitted together with the
   // loss on the clearest event and the nearest one, whose loss spread is smaller by the square of their distances.
   let near: { win: EventWindow; twoWayM: number; rise: number } | null = null;
@@ -985,9 +988,10 @@ function estimateSkin(ctx: FitContext, events: Measured[], resistiveNpPerM = 0):
         near = { win: nw, twoWayM: nTwo, rise: nearest.m.riseSamples };
     }
   }
-  const search = (c: FitContext) => {
+  const search = (c: FitContext, r: number) => {
+    const base: LossModel = r > 0 ? { ...NO_LOSS, resistiveNpPerM: r } : NO_LOSS;
     const ssAt = (t50: number) => {
-      const model = t50 > 0 ? modelFor(t50) : base;
+      const model = t50 > 0 ? modelFor(t50, r) : base;
       const opts = { withMiddle: false, maxPoints: ESTIMATE_POINTS, delayTol: ESTIMATE_DELAY_TOL };
       const a = fitWindow(c, win, model, twoWayM, opts)?.ss ?? Infinity;
       return near ? a + (fitWindow(c, near.win, model, near.twoWayM, opts)?.ss ?? Infinity) : a;
@@ -997,24 +1001,55 @@ function estimateSkin(ctx: FitContext, events: Measured[], resistiveNpPerM = 0):
     const scores = grid.map(ssAt);
     let bi = 0;
     for (let i = 1; i < grid.length; i++) if (scores[i] < scores[bi]) bi = i;
+    // The guess is read from the edge's 10–90 % rise, which a long skin tail sinking into the noise makes short:
+    // on a step record a minimum at either end of the grid lies outside it, and the grid goes on doubling (or
+    // halving) while the fit improves. A pulse record's grid is not extended: there the spreads found past it
+    // read the loss of long pairs too high and put several of their faults and ends early.
+    for (let more = 0; c.shape.step && more < GRID_EXTEND && (bi === grid.length - 1 || bi === 0); more++) {
+      const atTop = bi === grid.length - 1;
+      const t = atTop ? grid[bi] * 2 : grid[0] / 2;
+      const sc = ssAt(t);
+      if (!(sc < scores[bi])) break;
+      if (atTop) {
+        grid.push(t);
+        scores.push(sc);
+        bi = grid.length - 1;
+      } else {
+        grid.unshift(t);
+        scores.unshift(sc);
+        bi = 0;
+      }
+    }
     const g = goldenMin((x) => ssAt(Math.exp(x)), Math.log(grid[bi] / 2), Math.log(grid[bi] * 2), 0.05, 7);
-    const best = g.fx < scores[bi] ? { t50: Math.exp(g.x), ss: g.fx } : { t50: grid[bi], ss: scores[bi] };
+    const best = g.fx < scores[bi] ? { t50: Math.exp(g.x), ss: g.fx, r } : { t50: grid[bi], ss: scores[bi], r };
     return { lossless, best };
   };
   const guess = Math.max(0.25, (m.riseSamples - instRise) / 28.6);
-  let { lossless, best } = search(ctx);
-  if (near) {
-    // The instrument's rise is tried as a quarter, half, three quarters and all of the nearest edge's own rise.
-    for (const f of [0.25, 0.5, 0.75, 1]) {
-      const sg = Math.max(ctx.shape.sigma, (f * near.rise) / 2.5631);
-      const r = search({ ...ctx, shape: { ...ctx.shape, sigma: sg } });
-      if (r.lossless < lossless) lossless = r.lossless;
-      if (r.best.ss < best.ss) best = r.best;
+  const searchAll = (r: number) => {
+    let { lossless, best } = search(ctx, r);
+    if (near) {
+      // The instrument's rise is tried as a quarter, half, three quarters and all of the nearest edge's own rise.
+      for (const f of [0.25, 0.5, 0.75, 1]) {
+        const sg = Math.max(ctx.shape.sigma, (f * near.rise) / 2.5631);
+        const o = search({ ...ctx, shape: { ...ctx.shape, sigma: sg } }, r);
+        if (o.lossless < lossless) lossless = o.lossless;
+        if (o.best.ss < best.ss) best = o.best;
+      }
     }
+    return { lossless, best };
+  };
+  let { lossless, best } = searchAll(resistiveNpPerM);
+  // The resistive term read from the incident stretch is tried against the edge's own shape: where the edge
+  // fits decisively better without it (the stretch gave more resistance than the cable has, and the skin
+  // spread was held too narrow), it is left out.
+  if (resistiveNpPerM > 0) {
+    const bare = searchAll(0);
+    if (bare.lossless < lossless) lossless = bare.lossless;
+    if (bare.best.ss < INCIDENT_R_DROP_SHARE * best.ss) best = bare.best;
   }
   const pointsIn = (w: EventWindow) => Math.min(ESTIMATE_POINTS, w.to - w.from);
   const dof = Math.max(1, pointsIn(win) + (near ? pointsIn(near.win) - 3 : 0) - 3);
-  return lossFitSignificant(lossless, best.ss, dof) ? modelFor(best.t50) : null;
+  return lossFitSignificant(lossless, best.ss, dof) ? modelFor(best.t50, best.r) : null;
 }
 
 /**
@@ -1085,7 +1120,9 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
   const incident = library ? null : incidentLoss(input, events);
   const edgeShape = library ? null : estimateSkin(ctx, events, incident?.resistiveNpPerM ?? 0);
   const estimated = library ? null : (edgeShape ?? incident);
-  const estimatedFrom: LossEvidence[] = [...(incident ? ['incident-step' as const] : []), ...(edgeShape ? ['edge-shape' as const] : [])];
+  // The edge's fit may leave the incident stretch's resistance out; the stretch then gave nothing to the estimate.
+  const incidentUsed = incident !== null && (edgeShape === null || (edgeShape.resistiveNpPerM ?? 0) > 0);
+  const estimatedFrom: LossEvidence[] = [...(incidentUsed ? ['incident-step' as const] : []), ...(edgeShape ? ['edge-shape' as const] : [])];
   const model = library ?? estimated ?? NO_LOSS;
   const lossSource: LossSource = library ? 'library' : estimated ? 'estimated' : 'none';
   const launchOnset = launchOnsetTimer(input.launch, input.signal);
