@@ -42,6 +42,8 @@ export const SETS = {
   heldout13: { seed: 0x71374491, count: 120 },
   // A fourteenth, drawn after the thirteenth had been run once on the final engine of its round, for the next round: the same rules apply.
   heldout14: { seed: 0xb5c0fbcf, count: 120 },
+  // A fifteenth, drawn after the fourteenth had been run once on the final engine of its round, for the next round: the same rules apply.
+  heldout15: { seed: 0xe9b5dba5, count: 120 },
 } as const satisfies Record<string, { seed: number; count: number }>;
 
 export type SetName = keyof typeof SETS;
