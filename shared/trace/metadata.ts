@@ -207,13 +207,37 @@ function splitWordsAndQuantity(words: string[]): { key: string; value: string } 
   return null;
 }
 
+/** A remark in brackets at the end of a line or value: "0.66 (instrument setting)", "99 (m/µs)". */
+const TRAILING_REMARK = /^(.*\S)\s*[([]([^()[\]]*)[)\]]\s*$/;
+
+/**
+ * A value with a bracketed remark after its number: the remark is dropped
+ * ("0.66 (instrument setting)" is 0.66), or taken as the unit when it is one
+ * and the number has none ("66 (%)", "99 (m/µs)").
+ */
+export function valueWithoutRemark(value: string): string {
+  const m = TRAILING_REMARK.exec(value);
+  if (!m) return value;
+  const q = splitQuantity(m[1]);
+  if (!q) return value;
+  const remark = m[2].trim();
+  const asUnit = q.unit === null && remark !== '' ? splitQuantity(`1 ${remark}`) : null;
+  return asUnit?.unit ? `${m[1]} ${remark}` : m[1];
+}
+
 /**
  * Split one metadata line into key and value: at the first `:` or `=`; else
  * between words and a trailing number (with its unit); else at the first tab,
- * `;` or `,`; else between a unit key and its unit ("units mV"). Null for a
- * line that is a note rather than a setting.
+ * `;` or `,`; else between a unit key and its unit ("units mV"). A bracketed
+ * remark after the number ("VF 0.66 (instrument setting)") is set aside
+ * first. Null for a line that is a note rather than a setting.
  */
 export function splitMetaText(text: string): { key: string; value: string } | null {
+  const remark = TRAILING_REMARK.exec(text);
+  if (remark && !/[:=]/.test(text)) {
+    const kv = splitMetaText(remark[1]);
+    if (kv) return { key: kv.key, value: valueWithoutRemark(`${kv.value} (${remark[2]})`) };
+  }
   const colon = text.search(/[:=]/);
   if (colon >= 0) return splitOnFirst(text, colon);
   const words = text.length <= MAX_KEY_VALUE_CHARS ? text.split(/\s+/) : [];
@@ -290,7 +314,11 @@ export function metadataEntries(rows: HeadText[]): MetaEntry[] {
           .join(' '),
       };
     } else kv = splitMetaText(r.text);
-    out.push(kv ? { ...kv, line: r.line } : { key: `note ${++notes}`, value: r.text, line: r.line });
+    out.push(
+      kv
+        ? { key: kv.key, value: valueWithoutRemark(kv.value), line: r.line }
+        : { key: `note ${++notes}`, value: r.text, line: r.line },
+    );
   }
   return out;
 }

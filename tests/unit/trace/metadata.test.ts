@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { lineEnd } from '../../../shared/trace/lines';
-import { readKey, readMetadata, splitMetaText, type MetaEntry } from '../../../shared/trace/metadata';
+import { metadataEntries, readKey, readMetadata, splitMetaText, type MetaEntry } from '../../../shared/trace/metadata';
 
 // c = 299 792 458 m/s, exact by the SI definition of the metre (BIPM, SI Brochure, 9th ed.).
 const C = 299_792_458;
@@ -21,6 +21,11 @@ describe('splitMetaText', () => {
     ['Sample Interval,5e-10,s', { key: 'Sample Interval', value: '5e-10 s' }],
     ['units mV', { key: 'units', value: 'mV' }],
     ['recorded after rain', null],
+    ['Cable VF 0.66 (instrument setting)', { key: 'Cable VF', value: '0.66' }],
+    ['NVP 66 (%)', { key: 'NVP', value: '66 %' }],
+    ['v/2 99 [m/µs]', { key: 'v/2', value: '99 m/µs' }],
+    ['VF: 0.66 (instrument setting)', { key: 'VF', value: '0.66 (instrument setting)' }],
+    ['note (after rain)', null],
   ];
   for (const [text, want] of cases) {
     it(`splits '${text}'`, () => expect(splitMetaText(text)).toEqual(want));
@@ -74,6 +79,19 @@ describe('readMetadata', () => {
     expect(readMetadata(at('propagation velocity', '200 m/µs')).hints.instrumentVf).toBeCloseTo(200e6 / C, 14);
     expect(readMetadata(at('velocity', '0.656 ft/ns')).hints.instrumentVf).toBeCloseTo((0.656 * 0.3048e9) / C, 14);
     expect(readMetadata(at('v/2', '100 m/µs')).hints.instrumentVf).toBeCloseTo(200e6 / C, 14);
+  });
+
+  it('reads a value with a bracketed remark after it, and takes a bracketed unit', () => {
+    const entries = metadataEntries([
+      { text: 'VF: 0.66 (instrument setting)', line: 2, cells: null },
+      { text: 'Sample interval = 0.5 (ns)', line: 3, cells: null },
+      { text: 'Start time: 10:32:05 (local)', line: 4, cells: null },
+    ]);
+    expect(entries.map((e) => e.value)).toEqual(['0.66', '0.5 ns', '10:32:05 (local)']);
+    const scan = readMetadata(entries);
+    expect(scan.hints.instrumentVf).toBe(0.66);
+    expect(scan.hints.sampleIntervalNs).toBeCloseTo(0.5, 12);
+    expect(scan.hints.startNs).toBeUndefined();
   });
 
   it('refuses a velocity factor outside (0, 1] with the line', () => {

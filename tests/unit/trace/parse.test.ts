@@ -241,6 +241,9 @@ describe('parseTraceCsv velocity factor written in any of the usual ways', () =>
     ['half velocity (m/µs) 80', (2 * 80e6) / C, 'unit in the key: 2 · 80 m/µs ÷ c = 0.53370'],
     ['v/2 84', (2 * 84e6) / C, 'v/2 without a unit is in m/µs (common practice)'],
     ['Propagation velocity (m/us): 200', 200e6 / C, 'full speed: 200 m/µs ÷ c = 0.66713'],
+    ['Cable VF 0.66 (instrument setting)', 0.66, 'a remark in brackets after the value'],
+    ['# NVP: 67 (%)', 0.67, 'the unit in brackets after the value'],
+    ['v/2 84 (m/µs)', (2 * 84e6) / C, 'the speed unit in brackets after the value'],
   ];
   for (const [line, vf, why] of cases) {
     it(`reads '${line}' (${why})`, () => {
