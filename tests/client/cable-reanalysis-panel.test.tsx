@@ -1,11 +1,11 @@
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { cleanup, fireEvent, render, screen, within } from '@testing-library/react';
+import { cleanup, fireEvent, screen, within } from '@testing-library/react';
 import { http, HttpResponse } from 'msw';
 import { setupServer } from 'msw/node';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { setCsrfToken } from '../../src/lib/api-client';
 import { ReanalysisPanel } from '../../src/features/cables/components/reanalysis-panel';
 import type { CableReanalysisView } from '../../shared/schemas/cable-reanalysis';
+import { renderApp } from './support/render';
 
 const base: CableReanalysisView = {
   id: 7,
@@ -51,12 +51,7 @@ afterEach(() => {
 afterAll(() => server.close());
 
 function show(canStart: boolean) {
-  const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
-  return render(
-    <QueryClientProvider client={qc}>
-      <ReanalysisPanel cableId={3} revision={4} unit="m" canStart={canStart} />
-    </QueryClientProvider>,
-  );
+  return renderApp(<ReanalysisPanel cableId={3} revision={4} unit="m" canStart={canStart} />, { router: false });
 }
 
 describe('the cable page re-analysis panel', () => {

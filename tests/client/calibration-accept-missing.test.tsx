@@ -1,10 +1,9 @@
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { cleanup, fireEvent, render, screen } from '@testing-library/react';
+import { cleanup, fireEvent, screen } from '@testing-library/react';
 import { setupServer } from 'msw/node';
-import { MemoryRouter } from 'react-router-dom';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { CalibrationsPage } from '../../src/app/routes/calibrations';
 import { calibrationReviewHandlers, demoPlanner, pendingCalibration } from './support/fixtures';
+import { renderApp } from './support/render';
 
 const pending = (submittedBy: { id: number; name: string }) => pendingCalibration({ submittedBy });
 const planner = demoPlanner;
@@ -16,16 +15,7 @@ afterEach(cleanup);
 afterAll(() => server.close());
 
 function page(user: typeof planner) {
-  const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
-  // Signed in, as under the signed-in layout.
-  qc.setQueryData(['auth', 'me'], user);
-  render(
-    <QueryClientProvider client={qc}>
-      <MemoryRouter>
-        <CalibrationsPage />
-      </MemoryRouter>
-    </QueryClientProvider>,
-  );
+  renderApp(<CalibrationsPage />, { me: user });
 }
 
 describe('the grey accept button of the calibration review', () => {

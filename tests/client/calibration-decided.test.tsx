@@ -1,11 +1,10 @@
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { cleanup, fireEvent, render, screen } from '@testing-library/react';
+import { cleanup, fireEvent, screen } from '@testing-library/react';
 import { http, HttpResponse } from 'msw';
 import { setupServer } from 'msw/node';
-import { MemoryRouter } from 'react-router-dom';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { CalibrationsPage } from '../../src/app/routes/calibrations';
 import { calibrationReviewHandlers, demoPlanner, pendingCalibration } from './support/fixtures';
+import { renderApp } from './support/render';
 
 const pending = pendingCalibration();
 const planner = demoPlanner;
@@ -29,16 +28,7 @@ afterAll(() => server.close());
 
 describe('the calibration review queue', () => {
   it('says what became of a calibration once it has left the Waiting list', async () => {
-    const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
-    // Signed in, as under the signed-in layout.
-    qc.setQueryData(['auth', 'me'], planner);
-    render(
-      <QueryClientProvider client={qc}>
-        <MemoryRouter>
-          <CalibrationsPage />
-        </MemoryRouter>
-      </QueryClientProvider>,
-    );
+    renderApp(<CalibrationsPage />, { me: planner });
     fireEvent.click(await screen.findByRole('button', { name: /^Accept into the library: VF 0\.6462/ }));
     // The queue is empty now; without a word, the planner cannot tell an accepted calibration from a lost one.
     await screen.findByText('Nothing is waiting for review.');

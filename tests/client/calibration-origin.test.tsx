@@ -1,11 +1,10 @@
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { cleanup, render, screen, within } from '@testing-library/react';
+import { cleanup, screen, within } from '@testing-library/react';
 import { http, HttpResponse } from 'msw';
 import { setupServer } from 'msw/node';
-import { MemoryRouter } from 'react-router-dom';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { CalibrationsPage } from '../../src/app/routes/calibrations';
 import { calibrationReviewHandlers, demoPlanner, pendingCalibration } from './support/fixtures';
+import { renderApp } from './support/render';
 
 // A close-out calibration (ticket 9's repair, read off trace 6) and one typed in by hand with neither.
 const closeout = pendingCalibration({ ticketId: 9 });
@@ -21,15 +20,7 @@ afterAll(() => server.close());
 
 describe('the calibration review queue: where a VF came from', () => {
   it('links a close-out calibration to its repair ticket and its trace, and one typed in by hand to neither', async () => {
-    const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
-    qc.setQueryData(['auth', 'me'], planner);
-    render(
-      <QueryClientProvider client={qc}>
-        <MemoryRouter>
-          <CalibrationsPage />
-        </MemoryRouter>
-      </QueryClientProvider>,
-    );
+    renderApp(<CalibrationsPage />, { me: planner });
     const item = await screen.findByTestId('calibration-2');
     expect(within(item).getByRole('link', { name: 'ticket 9' }).getAttribute('href')).toBe('/tickets/9');
     expect(within(item).getByRole('link', { name: 'trace 6' }).getAttribute('href')).toBe('/traces/6');

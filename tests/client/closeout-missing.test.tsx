@@ -1,19 +1,14 @@
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { cleanup, fireEvent, render, screen } from '@testing-library/react';
+import { cleanup, fireEvent, screen } from '@testing-library/react';
 import { afterEach, describe, expect, it } from 'vitest';
 import { CloseoutForm } from '../../src/features/tickets/components/closeout-form';
 import { mastFeederTicket } from './support/fixtures';
+import { renderApp } from './support/render';
 
 afterEach(cleanup);
 
 const ticket = mastFeederTicket;
 
-const form = () =>
-  render(
-    <QueryClientProvider client={new QueryClient()}>
-      <CloseoutForm ticket={ticket} unit="m" />
-    </QueryClientProvider>,
-  );
+const form = () => renderApp(<CloseoutForm ticket={ticket} unit="m" />, { router: false });
 
 describe('close-out: the grey "Record the repair" button', () => {
   it('says under it what is still needed, for either way of giving the position, until nothing is', () => {

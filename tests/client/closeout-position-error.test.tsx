@@ -1,10 +1,10 @@
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { cleanup, fireEvent, render, screen, waitFor } from '@testing-library/react';
+import { cleanup, fireEvent, screen, waitFor } from '@testing-library/react';
 import { http, HttpResponse } from 'msw';
 import { setupServer } from 'msw/node';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { CloseoutForm } from '../../src/features/tickets/components/closeout-form';
 import { mastFeederTicket } from './support/fixtures';
+import { renderApp } from './support/render';
 
 const MESSAGE = 'must be 0 or more and stay on the route: Mast foot is at 110 m and the route ends at 116.5 m';
 let posted = 0;
@@ -29,12 +29,7 @@ const shown = () => screen.queryAllByText((_, el) => !!el && el.children.length 
 
 describe('close-out: a found position off the route', () => {
   it('is said once, under the distance, before and after the server has answered', async () => {
-    const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
-    render(
-      <QueryClientProvider client={qc}>
-        <CloseoutForm ticket={ticket} unit="m" />
-      </QueryClientProvider>,
-    );
+    const { qc } = renderApp(<CloseoutForm ticket={ticket} unit="m" />, { router: false });
     fireEvent.change(screen.getByLabelText('Route marker'), { target: { value: '12' } });
     const distance = screen.getByLabelText(/^Distance past it toward end B/);
     fireEvent.change(distance, { target: { value: '27' } });

@@ -1,9 +1,9 @@
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { cleanup, fireEvent, render, screen, within } from '@testing-library/react';
+import { cleanup, fireEvent, screen, within } from '@testing-library/react';
 import { http, HttpResponse } from 'msw';
 import { setupServer } from 'msw/node';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { PersonRow } from '../../src/features/users/components/person-row';
+import { renderApp } from './support/render';
 
 // jsdom has no modal dialogs; opening one only has to set `open` here.
 HTMLDialogElement.prototype.showModal = function showModal(this: HTMLDialogElement) {
@@ -31,19 +31,17 @@ const ines = { id: 7, email: 'tech@example.com', name: 'Ines Ravelo', role: 'tec
 
 describe('deactivating a technician with a fixed repair and one not yet fixed', () => {
   it('says per ticket which moves to the chosen person and which stays, and why', async () => {
-    const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
-    render(
-      <QueryClientProvider client={qc}>
-        <ul>
-          <PersonRow
-            person={ines}
-            isMe={false}
-            technicians={[ines, { id: 8, name: 'Tomas Ekwueme' }]}
-            onPassword={() => {}}
-            onDeactivated={() => {}}
-          />
-        </ul>
-      </QueryClientProvider>,
+    renderApp(
+      <ul>
+        <PersonRow
+          person={ines}
+          isMe={false}
+          technicians={[ines, { id: 8, name: 'Tomas Ekwueme' }]}
+          onPassword={() => {}}
+          onDeactivated={() => {}}
+        />
+      </ul>,
+      { router: false },
     );
     fireEvent.click(screen.getByRole('button', { name: 'Deactivate…' }));
     const fates = await screen.findByTestId('repair-fates');

@@ -1,12 +1,11 @@
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { act, cleanup, fireEvent, render, screen, waitFor } from '@testing-library/react';
+import { act, cleanup, fireEvent, screen, waitFor } from '@testing-library/react';
 import { http, HttpResponse } from 'msw';
 import { setupServer } from 'msw/node';
-import { createMemoryRouter, RouterProvider } from 'react-router-dom';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { FindingsPage } from '../../src/app/routes/findings';
 import { TracesPage } from '../../src/app/routes/traces';
 import { listedFinding, technicianMe } from './support/fixtures';
+import { renderApp } from './support/render';
 
 /** Every list request's query, in the order the page asked. */
 const asked: URLSearchParams[] = [];
@@ -54,16 +53,8 @@ afterEach(() => {
 });
 afterAll(() => server.close());
 
-function show(element: React.ReactNode, url: string) {
-  const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
-  qc.setQueryData(['auth', 'me'], me); // the signed-in layout's session
-  const router = createMemoryRouter([{ path: '*', element }], { initialEntries: [url] });
-  render(
-    <QueryClientProvider client={qc}>
-      <RouterProvider router={router} />
-    </QueryClientProvider>,
-  );
-  return router;
+function show(element: React.ReactElement, url: string) {
+  return renderApp(element, { me, url }).router!;
 }
 
 const lastAsked = () => asked[asked.length - 1]!;

@@ -1,12 +1,11 @@
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { cleanup, render, screen, within } from '@testing-library/react';
+import { cleanup, screen, within } from '@testing-library/react';
 import { http, HttpResponse } from 'msw';
 import { setupServer } from 'msw/node';
-import { createMemoryRouter, RouterProvider } from 'react-router-dom';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { can } from '../../shared/auth/permissions';
 import { NAV } from '../../src/app/nav';
 import { OutboxPage } from '../../src/app/routes/outbox';
+import { renderApp } from './support/render';
 
 const supervisor = {
   id: 3,
@@ -71,14 +70,7 @@ describe('the Outbox for a supervisor', () => {
     expect(menu('supervisor')).toContain('Outbox');
     expect(menu('technician')).not.toContain('Outbox');
 
-    const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
-    qc.setQueryData(['auth', 'me'], supervisor);
-    const router = createMemoryRouter([{ path: '*', element: <OutboxPage /> }], { initialEntries: ['/outbox'] });
-    render(
-      <QueryClientProvider client={qc}>
-        <RouterProvider router={router} />
-      </QueryClientProvider>,
-    );
+    renderApp(<OutboxPage />, { me: supervisor, url: '/outbox' });
     const list = await screen.findByTestId('outbox-list');
     expect(within(list).getAllByTestId('outbox-subject').map((s) => s.textContent)).toEqual([
       'Ticket 3 fixed, waiting for your sign-off',

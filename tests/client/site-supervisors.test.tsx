@@ -1,10 +1,9 @@
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { cleanup, render, screen } from '@testing-library/react';
+import { cleanup, screen } from '@testing-library/react';
 import { http, HttpResponse } from 'msw';
 import { setupServer } from 'msw/node';
-import { createMemoryRouter, RouterProvider } from 'react-router-dom';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { SitePage } from '../../src/app/routes/site';
+import { renderApp } from './support/render';
 
 const planner = {
   id: 4,
@@ -40,14 +39,7 @@ afterEach(cleanup);
 afterAll(() => server.close());
 
 function renderSite() {
-  const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
-  qc.setQueryData(['auth', 'me'], planner);
-  const router = createMemoryRouter([{ path: '/sites/:siteId', element: <SitePage /> }], { initialEntries: ['/sites/7'] });
-  render(
-    <QueryClientProvider client={qc}>
-      <RouterProvider router={router} />
-    </QueryClientProvider>,
-  );
+  renderApp(<SitePage />, { me: planner, path: '/sites/:siteId', url: '/sites/7' });
 }
 
 describe('who a site’s confirmed findings are e-mailed to', () => {

@@ -1,11 +1,10 @@
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { cleanup, fireEvent, render, screen } from '@testing-library/react';
+import { cleanup, fireEvent, screen } from '@testing-library/react';
 import { http, HttpResponse } from 'msw';
 import { setupServer } from 'msw/node';
-import { createMemoryRouter, RouterProvider } from 'react-router-dom';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { FindingsPage } from '../../src/app/routes/findings';
 import { listedFinding, technicianMe } from './support/fixtures';
+import { renderApp } from './support/render';
 
 const me = technicianMe;
 const finding = listedFinding(7);
@@ -38,14 +37,7 @@ afterEach(() => {
 afterAll(() => server.close());
 
 function show() {
-  const qc = new QueryClient({ defaultOptions: { queries: { retry: false } } });
-  qc.setQueryData(['auth', 'me'], me);
-  const router = createMemoryRouter([{ path: '*', element: <FindingsPage /> }], { initialEntries: ['/findings'] });
-  render(
-    <QueryClientProvider client={qc}>
-      <RouterProvider router={router} />
-    </QueryClientProvider>,
-  );
+  renderApp(<FindingsPage />, { me, url: '/findings' });
 }
 
 describe('a list that could not load', () => {
