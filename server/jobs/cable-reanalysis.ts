@@ -41,7 +41,13 @@ async function currentTraces(cable: CableType): Promise<number[]> {
       cableRunId: runs.map((r) => r.id),
       archivedAt: null,
       status: 'ok',
-      [Op.or]: [{ cableTypeRevision: null }, { cableTypeRevision: { [Op.ne]: cable.revision } }],
+      // Analysed with another revision, or as another cable type (the run was given this one since).
+      [Op.or]: [
+        { cableTypeRevision: null },
+        { cableTypeRevision: { [Op.ne]: cable.revision } },
+        { cableTypeId: null },
+        { cableTypeId: { [Op.ne]: cable.id } },
+      ],
     },
     attributes: ['id'],
     order: [['id', 'ASC']],

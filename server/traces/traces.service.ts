@@ -48,6 +48,7 @@ export function analysisColumns(outcome: Outcome, cable: CableType, settings: Tr
     vf: settings.vfOverride ?? cable.vf,
     vfTolerance: cable.vfTolerance,
     z0Ohm: cable.z0Ohm,
+    cableTypeId: cable.id,
     cableTypeRevision: cable.revision,
     engineVersion: ENGINE_VERSION,
     analysis: outcome.analysis,
@@ -437,7 +438,7 @@ async function reanalyseOnce(ctx: AppContext, earlier: Trace, cable: CableType, 
   const id = earlier.id;
   const { vfOverride: _dropped, ...settings } = earlier.settings;
   const done = await Trace.findOne({
-    where: { reanalysisOfId: id, cableTypeRevision: cable.revision, engineVersion: ENGINE_VERSION, archivedAt: null },
+    where: { reanalysisOfId: id, cableTypeId: cable.id, cableTypeRevision: cable.revision, engineVersion: ENGINE_VERSION, archivedAt: null },
     order: [['id', 'DESC']],
   });
   if (done && JSON.stringify(done.settings) === JSON.stringify(settings)) return { id: done.id, created: false };
@@ -757,6 +758,9 @@ export async function getTrace(
     Trace.findAll({ where: { reanalysisOfId: id }, attributes: ['id'], order: [['id', 'ASC']] }),
   ]);
   const libraryRevision = cable?.revision;
+  // Analysed as another cable type than the run's now (the run was given another since): its revision says nothing of this one.
+  const otherType = !!cable && trace.cableTypeId !== null && trace.cableTypeId !== cable.id;
+  const analysedAs = otherType ? await CableType.findByPk(trace.cableTypeId!, { attributes: ['id', 'name'] }) : null;
   return {
     ...summary,
     settings: trace.settings,
@@ -770,9 +774,11 @@ export async function getTrace(
     reanalysedAs: newer.map((t) => t.id),
     libraryChangedSince:
       !!cable &&
-      (trace.cableTypeRevision !== null && libraryRevision !== undefined
-        ? libraryRevision > trace.cableTypeRevision
-        : trace.settings.vfOverride === undefined && (cable.vf !== trace.vf || cable.vfTolerance !== trace.vfTolerance)),
+      (otherType ||
+        (trace.cableTypeRevision !== null && libraryRevision !== undefined
+          ? libraryRevision > trace.cableTypeRevision
+          : trace.settings.vfOverride === undefined && (cable.vf !== trace.vf || cable.vfTolerance !== trace.vfTolerance))),
+    analysedCableType: otherType ? { id: trace.cableTypeId!, name: analysedAs?.name ?? `cable type ${trace.cableTypeId}` } : null,
     error:
       trace.status === 'failed'
         ? {

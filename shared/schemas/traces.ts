@@ -144,8 +144,10 @@ export interface TraceDetail extends TraceSummary {
   vfOverrideReason: string | null;
   engineVersion: string;
   cableTypeRevision: number | null;
-  /** True when the cable library's VF/Z0 has changed since this trace was analysed. */
+  /** True when the cable library's VF/Z0 has changed since this trace was analysed, or its run was given another cable type. */
   libraryChangedSince: boolean;
+  /** The cable type the trace was analysed as, where its run has been given another since (null when it is the run's type, or unknown). */
+  analysedCableType: { id: number; name: string } | null;
   /** The trace whose analysis this one replaces (same stored file), if this is a re-analysis. */
   reanalysisOfId: number | null;
   /** Later re-analyses of this trace's file, oldest first. */

@@ -21,6 +21,7 @@ import * as m0018 from './0018-findings-text-index';
 import * as m0019 from './0019-trace-reference-index';
 import * as m0020 from './0020-name-keys';
 import * as m0021 from './0021-request-receipts';
+import * as m0022 from './0022-trace-cable-type';
 
 export type Migration = MigrationFn<QueryInterface>;
 
@@ -50,6 +51,7 @@ const MIGRATIONS: Array<{ name: string; up: Migration; down: Migration }> = [
   { name: '0019-trace-reference-index', ...m0019 },
   { name: '0020-name-keys', ...m0020 },
   { name: '0021-request-receipts', ...m0021 },
+  { name: '0022-trace-cable-type', ...m0022 },
 ];
 
 export function migrator(sequelize: Sequelize) {

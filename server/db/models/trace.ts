@@ -39,6 +39,8 @@ export class Trace extends Model<InferAttributes<Trace>, InferCreationAttributes
   declare vfTolerance: number;
   declare z0Ohm: number | null;
   declare vfOverrideReason: string | null;
+  /** The cable type the trace was analysed as (its run may be given another since); null before it was recorded. */
+  declare cableTypeId: CreationOptional<number | null>;
   /** The cable type's revision at analysis time; compare with the library's to tell a changed VF. */
   declare cableTypeRevision: number | null;
   declare engineVersion: string;
@@ -80,6 +82,7 @@ export function initTrace(sequelize: Sequelize) {
       vfTolerance: { type: DataTypes.DOUBLE, allowNull: false },
       z0Ohm: { type: DataTypes.DOUBLE, allowNull: true },
       vfOverrideReason: { type: DataTypes.TEXT, allowNull: true },
+      cableTypeId: { type: DataTypes.INTEGER, allowNull: true },
       cableTypeRevision: { type: DataTypes.INTEGER, allowNull: true },
       engineVersion: { type: DataTypes.STRING(20), allowNull: false },
       analysis: { type: DataTypes.JSON, allowNull: true },

@@ -137,9 +137,14 @@ export function TracePage() {
       )}
       <DeviceComparisonNotice trace={t} unit={unit} />
       {t.libraryChangedSince && (
-        <Notice tone="warn" title="The cable library has changed since this analysis" className="mb-4">
+        <Notice
+          tone="warn"
+          title={t.analysedCableType ? "The cable run's cable type has changed since this analysis" : 'The cable library has changed since this analysis'}
+          className="mb-4"
+        >
           <p>
-            This trace was analysed with VF {t.vf} ± {(t.vfTolerance * 100).toFixed(1)} %. Its findings keep the values they were made with.
+            This trace was analysed {t.analysedCableType ? `as ${t.analysedCableType.name}, ` : ''}with VF {t.vf} ± {(t.vfTolerance * 100).toFixed(1)} %. Its
+            findings keep the values they were made with.
           </p>
           {t.reanalysedAs.length > 0 ? (
             <p className="mt-1">
