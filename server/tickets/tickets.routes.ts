@@ -34,7 +34,18 @@ export function ticketRoutes(ctx: AppContext) {
   r.post(
     '/:id/comments',
     'tickets:work',
-    handle((req) => tickets.commentOnTicket(ctx, currentUser(req), IdParam.parse(req.params).id, TicketCommentSchema.parse(req.body).comment)),
+    handle((req, res) => {
+      const id = IdParam.parse(req.params).id;
+      const { comment } = TicketCommentSchema.parse(req.body);
+      // A comment sent again from a phone whose answer was lost is recorded and mailed once.
+      return once(req, res, {
+        logger: ctx.logger,
+        userId: currentUser(req).id,
+        status: 200,
+        make: (receipt) => tickets.commentOnTicket(ctx, currentUser(req), id, comment, receipt),
+        replay: (ticketId) => tickets.getTicket(ticketId, currentUser(req)),
+      });
+    }),
   );
   r.post(
     '/:id/closeout',

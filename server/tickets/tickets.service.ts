@@ -289,7 +289,7 @@ export async function moveTicket(ctx: AppContext, actor: SessionUser, id: number
   return getTicket(id, actor);
 }
 
-export async function commentOnTicket(ctx: AppContext, actor: SessionUser, id: number, comment: string): Promise<TicketDetail> {
+export async function commentOnTicket(ctx: AppContext, actor: SessionUser, id: number, comment: string, receipt?: WriteReceipt): Promise<TicketDetail> {
   await ctx.sequelize.transaction(async (transaction) => {
     const t = await loadTicket(id, transaction);
     checkMover(t, actor);
@@ -298,6 +298,7 @@ export async function commentOnTicket(ctx: AppContext, actor: SessionUser, id: n
     await t.changed('updatedAt', true);
     await t.save({ transaction });
     await mailTicket(ctx, t.id, actor, { kind: 'comment', comment }, transaction);
+    await receipt?.(transaction, t.id);
   });
   return getTicket(id, actor);
 }

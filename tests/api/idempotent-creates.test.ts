@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { CableRun, Finding, Measurement, RequestReceipt, Ticket, TicketCloseout } from '../../server/db/models';
+import { CableRun, Finding, MailJob, Measurement, RequestReceipt, Ticket, TicketCloseout, TicketEvent } from '../../server/db/models';
 import { forgetOldReceipts, RECEIPTS_KEPT_DAYS } from '../../server/http/idempotency';
 import { startApi, type Client, type TestApi } from './support/api';
 import { pauseFirstRead } from './support/pause';
@@ -181,6 +181,33 @@ describe('a close-out sent again under its key', () => {
     // A close-out of the fixed repair without the key is still refused as before.
     const plain = await tech.post(`/api/tickets/${ticketId}/closeout`, body).expect(409);
     expect(plain.body.error.code).toBe('closeout_not_allowed');
+  });
+});
+
+describe('a ticket comment sent again under its key', () => {
+  it('is recorded and mailed once, the repeat answered with the ticket; the same key with other words is refused', async () => {
+    const run = await supervisedRun(api, 'Repeat comment run');
+    const finding = await confirmedFinding(api, run.run.id, 90);
+    const sup = await api.as('supervisor');
+    const ticketId = (await sup.post('/api/tickets', { findingIds: [finding.id], assigneeId: api.users.technician.id }).expect(201)).body.id as number;
+    // The supervisor's words reach the assignee by e-mail: a repeat must not send them twice.
+    const body = { comment: 'Pit lid reported seized; take a lifter' };
+    const first = await sup.post(`/api/tickets/${ticketId}/comments`, body).set('Idempotency-Key', 'comment-6d2c41e8').expect(200);
+    expect(first.headers['idempotent-replayed']).toBeUndefined();
+    const again = await sup.post(`/api/tickets/${ticketId}/comments`, body).set('Idempotency-Key', 'comment-6d2c41e8').expect(200);
+    expect(again.headers['idempotent-replayed']).toBe('true');
+    expect(again.body.id).toBe(ticketId);
+    expect(await TicketEvent.count({ where: { ticketId, kind: 'comment', comment: body.comment } })).toBe(1);
+    expect(await MailJob.count({ where: { ticketId, kind: 'ticket-comment' } })).toBe(1);
+    const other = await sup
+      .post(`/api/tickets/${ticketId}/comments`, { comment: 'Lifter is in the van' })
+      .set('Idempotency-Key', 'comment-6d2c41e8')
+      .expect(422);
+    expect(other.body.error.code).toBe('idempotency_key_reused');
+    expect(await TicketEvent.count({ where: { ticketId, kind: 'comment' } })).toBe(1);
+    // Without a key each comment is its own, as before.
+    await sup.post(`/api/tickets/${ticketId}/comments`, body).expect(200);
+    expect(await TicketEvent.count({ where: { ticketId, kind: 'comment', comment: body.comment } })).toBe(2);
   });
 });
 

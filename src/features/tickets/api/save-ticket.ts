@@ -9,7 +9,8 @@ export const createTicket = (input: TicketCreateInput) => api<TicketDetail>('/ap
 export const updateTicket = ({ id, ...patch }: TicketUpdateInput & { id: number }) => api<TicketDetail>(`/api/tickets/${id}`, { method: 'PATCH', body: patch });
 export const moveTicket = ({ id, to, comment }: { id: number; to: TicketStatus; comment?: string }) =>
   api<TicketDetail>(`/api/tickets/${id}/status`, { method: 'POST', body: { to, comment: comment || null } });
-export const commentOnTicket = ({ id, comment }: { id: number; comment: string }) => api<TicketDetail>(`/api/tickets/${id}/comments`, { method: 'POST', body: { comment } });
+export const commentOnTicket = ({ id, comment }: { id: number; comment: string }, idempotencyKey?: string) =>
+  api<TicketDetail>(`/api/tickets/${id}/comments`, { method: 'POST', body: { comment }, idempotencyKey });
 export const closeOutTicket = ({ id, ...input }: CloseoutInput & { id: number }, idempotencyKey?: string) =>
   api<TicketDetail>(`/api/tickets/${id}/closeout`, { method: 'POST', body: input, idempotencyKey });
 
@@ -31,7 +32,11 @@ function useTicketMutation<TIn>(fn: (input: TIn) => Promise<TicketDetail>, onTak
 export const useCreateTicket = () => useTicketMutation(createTicket);
 export const useUpdateTicket = () => useTicketMutation(updateTicket);
 export const useMoveTicket = () => useTicketMutation(moveTicket);
-export const useCommentOnTicket = () => useTicketMutation(commentOnTicket);
+/** A comment sent again with the same words (its answer lost) goes under the same key: the server records and mails it once. */
+export function useCommentOnTicket() {
+  const [key] = useState(() => repeatKey('comment'));
+  return useTicketMutation((input: { id: number; comment: string }) => commentOnTicket(input, key.keyFor(input)), key.taken);
+}
 /** A close-out sent again with the same values (its answer lost) goes under the same key: the server records it once. */
 export function useCloseOutTicket() {
   const [key] = useState(() => repeatKey('closeout'));
