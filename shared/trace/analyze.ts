@@ -169,7 +169,10 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
       vfAtPulseWidth: options.vfPulseWidthNs !== undefined,
     });
     const uncertaintyM = budget.expandedM;
-    const type = classifyEvent(m, own[mi], L.found ? L.riseSamples : sig.w0, rec.n - 1);
+    // The edge's second arrival, off the instrument's source, would start one round trip after its own.
+    const launchSamples = (L.widthSamples ?? 0) + (L.found ? L.riseSamples : sig.w0);
+    const sourceUnseen = echoes.sourceRho === 0 && m.onsetIdx + roundTripSamples(tb, m) > rec.n - 1 - launchSamples;
+    const type = classifyEvent(m, own[mi], L.found ? L.riseSamples : sig.w0, rec.n - 1, sourceUnseen);
     const amplitude =
       sig.mode === 'step'
         ? rhoRaw * Math.abs(L.found || rec.unit !== 'rho' ? L.height : 1)

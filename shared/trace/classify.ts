@@ -18,7 +18,11 @@
  * or a short from ρ ≤ −0.45 (±0.3 while it is still rising when the record
  * ends; +0.5 and −0.55 when its loss is corrected), since loss takes more of a
  * far end than a correction can be sure to give back; a partial fault with the
- * line still visible beyond it keeps the strict bands. The impedance is
+ * line still visible beyond it keeps the strict bands. A last event read where the
+ * instrument's source reflection is unknown (none measured, and the record ends
+ * before the event's own second arrival off the source could show it) is read
+ * through an unknown 1 + ρ_s of at least 2/3, so it is an open or a short from
+ * |ρ| ≥ 0.8 · 2/3. The impedance is
  * Z = Z0 (1 + ρ)/(1 − ρ) (Pozar eq. 2.35), for step traces only.
  */
 import type { ReflectionType } from '../schemas/trace-analysis';
@@ -72,12 +76,34 @@ export function ownReflections(merged: Measured[], isEcho: boolean[], sourceRho 
   });
 }
 
-/** Open, short, or an impedance rise or drop, from the event's own ρ; `recordEnd` is the record's last sample. */
-export function classifyEvent(m: Measured, own: OwnReflection, launchRiseSamples: number, recordEnd = Infinity): ReflectionType {
+/**
+ * The least share of a wave that a mismatched source passes into the instrument, 1 + ρ_s, for a
+ * source within a factor of two of the line's impedance (R_s ≥ Z0/2: ρ_s ≥ −1/3), common practice
+ * for an instrument matched to its cable class (e.g. a 50 Ω instrument on 100 Ω pair).
+ */
+export const SOURCE_SHARE_MIN = 2 / 3;
+
+/**
+ * Open, short, or an impedance rise or drop, from the event's own ρ; `recordEnd` is the record's
+ * last sample. `sourceUnseen`: the record ends before this edge's wave could come back a second
+ * time off the instrument's source and no source reflection was measured otherwise, so the share
+ * 1 + ρ_s the source passes is unknown and a last event's ρ is known only to within it.
+ */
+export function classifyEvent(
+  m: Measured,
+  own: OwnReflection,
+  launchRiseSamples: number,
+  recordEnd = Infinity,
+  sourceUnseen = false,
+): ReflectionType {
   const rho = own.rho;
   if (!m.blip) {
     if (rho >= OPEN_MIN_RHO) return 'open';
     if (rho <= SHORT_MAX_RHO) return 'short';
+    if (own.isLast && sourceUnseen) {
+      if (rho >= OPEN_MIN_RHO * SOURCE_SHARE_MIN) return 'open';
+      if (rho <= SHORT_MAX_RHO * SOURCE_SHARE_MIN) return 'short';
+    }
     // Still rising where its level window meets the record's end: the reading is cut short. A level
     // still moving inside the record is the next feature arriving (one too weak to report), not this edge.
     const settling = m.stillMoving > 0.05 && m.endIdx >= recordEnd - 2;
