@@ -40,12 +40,20 @@ export class AppError extends Error {
   }
 }
 
+/** Unknown keys of one object named at most: a body of thousands of them is not said back thousands of times. */
+const UNKNOWN_KEYS_NAMED = 10;
+
 export function zodFields(error: ZodError): FieldIssue[] {
   return error.issues.flatMap((i) =>
     // A key the input may not hold (a strict object: a list's query, a reading's fields) is named as the field,
-    // one by one, rather than as "(body): Unrecognized keys: …".
+    // one by one, rather than as "(body): Unrecognized keys: …"; past ten, the rest are counted.
     i.code === 'unrecognized_keys'
-      ? i.keys.map((k) => ({ field: [...i.path, k].join('.'), message: 'is not expected here' }))
+      ? [
+          ...i.keys.slice(0, UNKNOWN_KEYS_NAMED).map((k) => ({ field: [...i.path, k].join('.'), message: 'is not expected here' })),
+          ...(i.keys.length > UNKNOWN_KEYS_NAMED
+            ? [{ field: i.path.join('.') || '(body)', message: `and ${i.keys.length - UNKNOWN_KEYS_NAMED} more fields not expected here` }]
+            : []),
+        ]
       : [{ field: i.path.join('.') || '(body)', message: issueWords(i) }],
   );
 }

@@ -65,4 +65,18 @@ describe('an action naming a field the server does not take', () => {
     expectNamed(await tech.post(`/api/tickets/${ticket.id}/comments`, { comment: 'on site', urgent: true }), 'urgent');
     expect((await Ticket.findByPk(ticket.id))!.status).toBe('assigned');
   });
+
+  it('names ten of a body of thousands of unknown fields and counts the rest, in an answer of a few hundred bytes', async () => {
+    const sup = await api.as('supervisor');
+    const body: Record<string, number> = { findingIds: 1 } as unknown as Record<string, number>;
+    for (let i = 0; i < 5000; i++) body[`k${i}`] = 1;
+    const res = await sup.post('/api/tickets', body);
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe('invalid_input');
+    const unknown = (res.body.error.fields as Array<{ field: string; message: string }>).filter((f) => f.field !== 'findingIds');
+    expect(unknown.slice(0, 10)).toEqual(Array.from({ length: 10 }, (_, i) => ({ field: `k${i}`, message: 'is not expected here' })));
+    expect(unknown[10]).toEqual({ field: '(body)', message: 'and 4990 more fields not expected here' });
+    expect(unknown).toHaveLength(11);
+    expect(res.text.length).toBeLessThan(2000);
+  });
 });
