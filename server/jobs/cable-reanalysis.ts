@@ -205,12 +205,34 @@ async function runStep(ctx: AppContext, data: StepData, signal: AbortSignal) {
       (i) => i.traceId,
     ),
   );
+  // The library's values of now, where they are not those the run started with (a planner changed the type while
+  // its steps waited), would make a run reported as one VF analyse some traces with another: the rest are skipped,
+  // saying so, and stay at their old revision for the next run to take.
+  const changed =
+    cable.revision !== run.cableTypeRevision
+      ? `the cable type was changed (revision ${cable.revision}, VF ${cable.vf}) after this re-analysis started with revision ${run.cableTypeRevision} (VF ${run.vf}): start a new re-analysis`
+      : null;
   for (const traceId of data.traceIds) {
     if (done.has(traceId)) continue;
     if (signal.aborted) throw new JobReleased();
-    await reanalyseOne(ctx, run, cable, traceId);
+    if (changed) await skipOne(ctx, run, traceId, changed.slice(0, 300));
+    else await reanalyseOne(ctx, run, cable, traceId);
   }
   await finishIfComplete(run);
+}
+
+/** Record a trace of the run as skipped, once (the item's unique index refuses a second). */
+async function skipOne(ctx: AppContext, run: CableReanalysis, traceId: number, note: string) {
+  try {
+    await ctx.sequelize.transaction((transaction) =>
+      CableReanalysisItem.create(
+        { reanalysisId: run.id, traceId, resultTraceId: null, outcome: 'skipped', note, findings: 0, findingsMoved: 0, findingsUnmatched: 0, maxShiftM: null, sumShiftM: 0 },
+        { transaction },
+      ),
+    );
+  } catch (err) {
+    if (!(err instanceof UniqueConstraintError)) throw err;
+  }
 }
 
 /**
