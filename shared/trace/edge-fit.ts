@@ -1195,12 +1195,26 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
         second = two.second;
       }
     }
+    // The library's loss is the first cable's: past a change of cable, or on a line whose loss the figures
+    // misstate, a plain edge is sharper or slower than the library makes it, and its arrival is read off by the
+    // difference. The loss is scaled for this edge where the record decisively says so (lossScaleFit); not
+    // for a terminated end or a fault, whose shape is the library's loss's own creep.
+    // Pulse records only: a step record's window is fitted on a sloping level (and with the incident
+    // step's creep, taken out with the library's loss, under it), which a scaled edge trades against.
+    let evModel = model;
+    if (!term && !zeroPhase && !ctx.shape.step && lossSource === 'library' && model !== NO_LOSS) {
+      const rescaled = lossScaleFit(ctx, win, model, f);
+      if (rescaled && acceptable(rescaled.f, m, win)) {
+        f = rescaled.f;
+        evModel = rescaled.model;
+      }
+    }
     const probe =
-      model === NO_LOSS
+      evModel === NO_LOSS
         ? null
         : term
-          ? terminatedFit(ctx, win, scaled(model, 1 + LOSS_PROBE), twoWayOf(ctx, f.d))
-          : fitWindow(ctx, win, scaled(model, 1 + LOSS_PROBE), twoWayOf(ctx, f.d), { withMiddle: false, zeroPhase });
+          ? terminatedFit(ctx, win, scaled(evModel, 1 + LOSS_PROBE), twoWayOf(ctx, f.d))
+          : fitWindow(ctx, win, scaled(evModel, 1 + LOSS_PROBE), twoWayOf(ctx, f.d), { withMiddle: false, zeroPhase });
     m.fit = {
       reference: shape.reference,
       lossSource,
@@ -1209,7 +1223,7 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
       heightRaw: m.height,
       lossSensitivitySamples: probe ? Math.abs(probe.d - f.d) : 0,
       lossDelaySamples: Math.max(0, f.middle),
-      dielectricNpPerMPerHz: model.dielectricNpPerMPerHz,
+      dielectricNpPerMPerHz: evModel.dielectricNpPerMPerHz,
     };
     m.heightRaw = m.height;
     // With no loss model the fitted shape is the launch's own, narrower than an echo the line has spread,
@@ -1408,6 +1422,46 @@ function terminatedEnd(
   // which a clean record shows above its noise.
   if (!withinNoise(ctx, tf, 4) && !others.every((other) => !other || tf.ss <= TERMINATED_DOMINANT_SHARE * other.ss)) return null;
   return { f: tf, win: wide };
+}
+
+/** Scales of the library's loss a single edge's fit tries (lossScaleFit), from none to three times it. */
+const LOSS_SCALES = [0, 0.25, 0.5, 0.7, 1.4, 2, 3];
+
+/**
+ * The edge `f` (fitted with the library's loss) fitted again with that loss scaled, for the scale whose fit
+ * leaves the least residual: each of LOSS_SCALES, then the geometric midpoints between the best and its neighbours (the library's own scale, 1, among them). The library's
+ * figures are those of the cable at the port; past a change to another cable (a thicker pair spliced on) the
+ * line loses less or more, and an edge fitted with the first cable's loss is read early or late by the
+ * difference in its modelled lag. Taken only where the library's loss leaves more than the noise
+ * (withinNoise), the scaled loss explains the window to the noise, and it does so decisively: by
+ * TERMINATED_ODDS for each scale tried (the best of many is kept; the Bonferroni bound on the look-elsewhere
+ * gain), the likelihood ratio of Gaussian residuals of unknown spread being (S_library/S_scaled)^(N/2). A
+ * window the library's loss leaves above the noise may hold more than one edge (a neighbour's tail, a
+ * section's other end), and a scale that only follows that better moves the reading without cause; one that
+ * leaves no more than the noise is the edge's own. Null otherwise.
+ */
+function lossScaleFit(ctx: FitContext, win: EventWindow, model: LossModel, f: ModelFit): { f: ModelFit; model: LossModel } | null {
+  let best: { f: ModelFit; k: number } | null = null;
+  let tried = 0;
+  const tryScale = (k: number) => {
+    tried++;
+    const g = fitAtDistance(ctx, win, k === 0 ? NO_LOSS : scaled(model, k));
+    if (g && Number.isFinite(g.ss) && (!best || g.ss < best.f.ss)) best = { f: g, k };
+  };
+  for (const k of LOSS_SCALES) tryScale(k);
+  const b0 = best as { f: ModelFit; k: number } | null;
+  if (!b0) return null;
+  // The best scale's neighbours among those tried and the library's own (1).
+  const all = [...LOSS_SCALES, 1].sort((a, b) => a - b);
+  const i = all.indexOf(b0.k);
+  if (i > 0) tryScale(all[i - 1] > 0 ? Math.sqrt(all[i - 1] * b0.k) : b0.k / 2);
+  if (i < all.length - 1) tryScale(b0.k > 0 ? Math.sqrt(all[i + 1] * b0.k) : all[i + 1] / 2);
+  const b = best as { f: ModelFit; k: number } | null;
+  if (!b || !(b.f.ss < f.ss)) return null;
+  if ((b.f.points / 2) * Math.log(f.ss / b.f.ss) <= Math.log(TERMINATED_ODDS * tried)) return null;
+  // Only where the library's loss leaves more than the noise and the scaled one explains the window to it.
+  if (withinNoise(ctx, f, 3) || !withinNoise(ctx, b.f, 4)) return null;
+  return { f: b.f, model: b.k === 0 ? NO_LOSS : scaled(model, b.k) };
 }
 
 const scaled = (m: LossModel, k: number): LossModel => ({
