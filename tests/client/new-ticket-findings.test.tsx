@@ -5,7 +5,7 @@ import { setupServer } from 'msw/node';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { NewTicketForm } from '../../src/features/tickets/components/new-ticket-form';
 
-const finding = (id: number, measuredFrom: 'A' | 'B', distanceM: number, kind: string) => ({
+const finding = (id: number, measuredFrom: 'A' | 'B', distanceM: number, kind: string, routePositionText = '') => ({
   id,
   kind,
   note: null,
@@ -18,7 +18,7 @@ const finding = (id: number, measuredFrom: 'A' | 'B', distanceM: number, kind: s
   windowStartM: distanceM - 1,
   windowEndM: distanceM + 1,
   routePosition: null,
-  routePositionText: '',
+  routePositionText,
   vf: 0.66,
   confirmedBy: { id: 2, name: 'Ines Ravelo' },
   confirmedAt: '2026-12-03T06:22:00.000Z',
@@ -27,7 +27,10 @@ const finding = (id: number, measuredFrom: 'A' | 'B', distanceM: number, kind: s
 });
 
 const server = setupServer(
-  http.get('*/api/tickets/unticketed-findings', () => HttpResponse.json([finding(5, 'B', 44.4, 'short-circuit'), finding(6, 'A', 143.2, 'open-conductor')])),
+  http.get('*/api/tickets/unticketed-findings', () => HttpResponse.json([
+      finding(5, 'B', 44.4, 'short-circuit', '12.9 m past handhole HH-A toward marker Mast foot; dig on the ground 11.4–14.5 m past HH-A'),
+      finding(6, 'A', 143.2, 'open-conductor'),
+    ])),
   http.get('*/api/users/assignable', () => HttpResponse.json([])),
 );
 beforeAll(() => server.listen({ onUnhandledRequest: 'error' }));
@@ -62,5 +65,23 @@ describe('raising a ticket', () => {
     expect(button.disabled).toBe(false);
     expect(screen.queryByTestId('new-ticket-missing')).toBeNull();
     expect(button.getAttribute('aria-describedby')).toBeNull();
+  });
+
+  it('shows where each finding sends the crew to dig, and the caution before anyone digs', async () => {
+    render(
+      <QueryClientProvider client={new QueryClient({ defaultOptions: { queries: { retry: false } } })}>
+        <NewTicketForm unit="ft" onCreated={() => {}} />
+      </QueryClientProvider>,
+    );
+    await screen.findByText(/^Short circuit at/);
+    // The stored route sentence, in the viewer's unit: 12.9 m = 42.3 ft, 11.4 m = 37.4 ft, 14.5 m = 47.6 ft.
+    expect(screen.getByTestId('new-ticket-dig-5').textContent).toBe(
+      'Dig: 42.3 ft past handhole HH-A toward marker Mast foot; dig on the ground 37.4–47.6 ft past HH-A',
+    );
+    // A finding on a run without route markers has no route sentence: no empty "Dig:" line.
+    expect(screen.queryByTestId('new-ticket-dig-6')).toBeNull();
+    const form = screen.getByRole('form', { name: 'Raise a ticket' });
+    const caution = form.querySelector('[data-testid="dig-caution"]');
+    expect(caution?.textContent).toContain('Before anyone digs or climbs: cable de-energised, locked out and proven dead, stored charge discharged');
   });
 });

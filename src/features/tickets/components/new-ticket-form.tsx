@@ -5,12 +5,15 @@ import { TICKET_PRIORITIES, TICKET_PRIORITY_LABELS, type TicketPriority } from '
 import { Button } from '../../../components/ui/button';
 import { fieldErrors, SelectField, TextAreaField, TextField } from '../../../components/ui/field';
 import { ErrorNotice, Loading } from '../../../components/ui/notice';
+import { DigCaution } from '../../../components/ui/safety-caution';
+import { routeWords } from '../../findings/components/where-to-dig';
 import { formatDateTime, formatLength, type LengthUnit } from '../../../lib/format';
 import { useAssignable } from '../api/list-assignable';
 import { useUnticketedFindings } from '../api/list-unticketed-findings';
 import { useCreateTicket } from '../api/save-ticket';
 
 const kindLabel = (k: string) => FINDING_KIND_LABELS[k as keyof typeof FINDING_KIND_LABELS] ?? k;
+const digWords = (f: UnticketedFinding, unit: LengthUnit) => routeWords(f.routePosition, f.routePositionText, unit).sentence;
 
 /** Supervisors: pick confirmed findings nobody has a ticket for, then who, how urgent and by when. */
 export function NewTicketForm({ unit, preselect, onCreated }: { unit: LengthUnit; preselect?: number; onCreated: (t: TicketDetail) => void }) {
@@ -62,6 +65,12 @@ export function NewTicketForm({ unit, preselect, onCreated }: { unit: LengthUnit
                     <span className="block text-xs text-mist">
                       {f.site.name} · {f.cableRun.name} · confirmed {formatDateTime(f.confirmedAt)} by {f.confirmedBy.name}
                     </span>
+                    {/* Where the crew will dig, so the ticket is raised knowing what it sends them to. */}
+                    {digWords(f, unit) && (
+                      <span className="mt-0.5 block text-xs" data-testid={`new-ticket-dig-${f.id}`}>
+                        Dig: {digWords(f, unit)}
+                      </span>
+                    )}
                   </span>
                 </label>
               </li>
@@ -89,6 +98,8 @@ export function NewTicketForm({ unit, preselect, onCreated }: { unit: LengthUnit
         <TextField label="Due by" type="date" value={dueDate} onChange={(e) => setDueDate(e.target.value)} error={errors.dueDate} />
       </div>
       <TextAreaField label="Notes for the crew" value={notes} onChange={(e) => setNotes(e.target.value)} error={errors.notes} />
+      {/* The ticket sends a crew to dig: the caution goes with it from the start. */}
+      <DigCaution />
       {create.error && !Object.keys(errors).length && <ErrorNotice error={create.error} />}
       <Button type="submit" disabled={create.isPending || picked.length === 0} aria-describedby={picked.length === 0 ? 'new-ticket-missing' : undefined}>
         Raise ticket
