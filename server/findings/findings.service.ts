@@ -263,7 +263,10 @@ export async function listFindings(q: z.output<typeof FindingListQuerySchema>): 
     limit: q.pageSize,
     offset: (q.page - 1) * q.pageSize,
   });
-  return { items: await views(rows), total: count, page: q.page, pageSize: q.pageSize };
+  const items = await views(rows);
+  // Each row says which repair ticket acts on it, as the finding's own page does.
+  for (const item of items) item.tickets = await ticketsFor(item.id);
+  return { items, total: count, page: q.page, pageSize: q.pageSize };
 }
 
 

@@ -93,7 +93,7 @@ export interface FindingView {
   engineVersion: string;
   /** The best location from every reading of this fault; only GET /api/findings/:id fills it in. */
   bestLocation?: BestLocationView | null;
-  /** The repair tickets acting on this finding (any not withdrawn); only GET /api/findings/:id fills it in. */
+  /** The repair tickets acting on this finding (any not withdrawn); GET /api/findings/:id and the list fill it in. */
   tickets?: Array<{ id: number; title: string; status: TicketStatus }>;
 }
 

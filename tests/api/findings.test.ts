@@ -129,4 +129,18 @@ describe('GET /api/findings', () => {
     expect(page.body.items).toHaveLength(1);
     expect(page.body.total).toBe(4);
   });
+
+  it('names on each row the repair ticket acting on the finding, and none on the others', async () => {
+    const trace = await upload('A', 150);
+    const tech = await api.as('technician');
+    const f = (await tech.post('/api/findings', { traceId: trace.id, eventIndex: 0, status: 'confirmed', kind: 'water-ingress' }).expect(201)).body;
+    const sup = await api.as('supervisor');
+    const ticket = (await sup.post('/api/tickets', { findingIds: [f.id], assigneeId: api.users.technician.id }).expect(201)).body;
+    const list = await (await api.as('planner')).get(`/api/findings?siteId=${fx.site.id}&status=confirmed&pageSize=100`).expect(200);
+    const rows = new Map(list.body.items.map((i: { id: number; tickets: unknown }) => [i.id, i.tickets]));
+    expect(rows.get(f.id)).toEqual([{ id: ticket.id, title: ticket.title, status: 'assigned' }]);
+    // The first finding (100 m from A) is 50 m away: another fault, on no ticket.
+    const other = list.body.items.find((i: { distanceM: number }) => Math.abs(i.distanceM - 100) < 2);
+    expect(other.tickets).toEqual([]);
+  });
 });

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { FINDING_KIND_LABELS, type FindingListQuery } from '../../../shared/schemas/findings';
+import { TICKET_STATUS_LABELS } from '../../../shared/tickets/status';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
 import { SelectField } from '../../components/ui/field';
@@ -88,6 +89,22 @@ export function FindingsPage() {
                       <RouteSentence pos={f.routePosition} storedText={f.routePositionText} unit={unit} testId="finding-route" />
                     </span>
                   </Link>
+                  {/* The repair under way for it, one tap from the list (its own link: a link cannot hold another). */}
+                  {(f.tickets ?? []).map((t) => (
+                    <Link
+                      key={t.id}
+                      to={paths.ticket.to(t.id)}
+                      className="inline-flex min-h-11 items-center text-sm font-semibold text-teal underline"
+                      data-testid="finding-row-ticket"
+                    >
+                      On repair ticket {t.id} ({TICKET_STATUS_LABELS[t.status].toLowerCase()})
+                    </Link>
+                  ))}
+                  {f.status === 'confirmed' && f.tickets?.length === 0 && (
+                    <span className="block text-sm text-ink-soft" data-testid="finding-row-no-ticket">
+                      No repair ticket yet
+                    </span>
+                  )}
                 </li>
               ))}
             </ul>
