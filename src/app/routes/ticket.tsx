@@ -18,6 +18,7 @@ import { useCommentOnTicket, useMoveTicket } from '../../features/tickets/api/sa
 import { CloseoutForm } from '../../features/tickets/components/closeout-form';
 import { EditTicketForm } from '../../features/tickets/components/edit-ticket-form';
 import { PriorityBadge, TicketStatusBadge } from '../../features/tickets/components/ticket-badges';
+import { SignOffSummary } from '../../features/tickets/components/sign-off-summary';
 import { TicketTimeline } from '../../features/tickets/components/ticket-timeline';
 import { ReadingAlone, RouteSentence } from '../../features/findings/components/where-to-dig';
 import { formatAge, formatDate, formatDateTime, formatLength, formatLengthRange, formatSignedLength, type LengthUnit } from '../../lib/format';
@@ -264,6 +265,7 @@ export function TicketPage() {
                       </>
                     ) : (
                       <>
+                        <SignOffSummary t={t} unit={unit} />
                         <p>The repair is accepted as done and the ticket closes. A signed-off ticket cannot be reopened.</p>
                         <p>The close-out and any field calibration it filed stay as recorded.</p>
                       </>
