@@ -32,14 +32,19 @@ const FINAL_MOVES: readonly TicketStatus[] = ['withdrawn', 'signed-off'];
 
 const kindLabel = (k: string) => FINDING_KIND_LABELS[k as keyof typeof FINDING_KIND_LABELS] ?? k;
 
-function FindingCard({ f, t, unit }: { f: TicketFindingView; t: TicketDetail; unit: LengthUnit }) {
+function FindingCard({ f, t, unit, live }: { f: TicketFindingView; t: TicketDetail; unit: LengthUnit; live: boolean }) {
   const endLabel = f.measuredFrom === 'A' ? t.cableRun.endALabel : t.cableRun.endBLabel;
   return (
     <div className="space-y-1 rounded-md border border-rule p-3">
       <p className="text-xs text-mist">
-        <Link className="text-teal underline" to={paths.finding.to(f.id)}>
-          Finding {f.id}
-        </Link>{' '}
+        {live ? (
+          <Link className="text-teal underline" to={paths.finding.to(f.id)}>
+            Finding {f.id}
+          </Link>
+        ) : (
+          // The phone keeps the ticket, not the finding's own page: no link that fails without signal.
+          <span data-testid="ticket-finding-saved">Finding {f.id} (its page opens with signal)</span>
+        )}{' '}
         · {kindLabel(f.kind)} · confirmed by {f.confirmedBy.name}, {formatDateTime(f.confirmedAt)}
       </p>
       {f.bestLocation ? (
@@ -189,7 +194,7 @@ export function TicketPage() {
               <TicketLocations t={t} unit={unit} methods={false} />
               {t.findings.some((f) => f.bestLocation) && <h3 className="pt-2 text-sm font-semibold text-ink-soft">The TDR readings behind it</h3>}
               {t.findings.map((f) => (
-                <FindingCard key={f.id} f={f} t={t} unit={unit} />
+                <FindingCard key={f.id} f={f} t={t} unit={unit} live={live} />
               ))}
               {t.accessNotes && (
                 <p className="text-sm">
