@@ -70,8 +70,16 @@ export interface UncertainInput {
   source?: string;
 }
 
-/** Coverage factor for a 95 % window of a normal distribution (GUM §6.2, Annex G). */
+/** Coverage factor for a 95 % two-sided limit of a normal distribution (GUM §6.2, Annex G): the agreement tests between readings. */
 export const COVERAGE_FACTOR_95 = 1.96;
+
+/**
+ * Coverage factor of every window shown to dig by: k = 2, for about 95 %
+ * (JCGM 100:2008 §6.2.2), the factor the trace engine expands its own windows
+ * with (shared/trace/uncertainty.ts). One reading alone then has one window,
+ * on its trace, its finding and its best location alike.
+ */
+export const WINDOW_COVERAGE_FACTOR = 2;
 
 export function checkedRun(run: CableRunInput) {
   const L = positive('installedLengthM', run.installedLengthM, 'installed length');
@@ -190,7 +198,7 @@ export function readingU(step: number, halfWidth = 0): number {
 
 /** The 95 % window around a position, kept on the cable. */
 export function window95(distanceFromAM: number, standardUncertaintyM: number, installedLengthM: number) {
-  const half = COVERAGE_FACTOR_95 * standardUncertaintyM;
+  const half = WINDOW_COVERAGE_FACTOR * standardUncertaintyM;
   return {
     windowStartM: Math.max(0, distanceFromAM - half),
     windowEndM: Math.min(installedLengthM, distanceFromAM + half),

@@ -20,7 +20,7 @@
  * given.
  */
 import { LocateInputError } from './errors';
-import { COVERAGE_FACTOR_95, window95, type LocationEstimate, type LocateMethod } from './estimate';
+import { COVERAGE_FACTOR_95, WINDOW_COVERAGE_FACTOR, window95, type LocationEstimate, type LocateMethod } from './estimate';
 
 /**
  * Upper 95 % points of the chi-square distribution for 1…10 degrees of freedom
@@ -273,7 +273,7 @@ export function fuseEstimates(estimates: LocationEstimate[], installedLengthM: n
     standardUncertaintyM: u,
     windowStartM: win ? win.windowStartM : null,
     windowEndM: win ? win.windowEndM : null,
-    coverageFactor: COVERAGE_FACTOR_95,
+    coverageFactor: WINDOW_COVERAGE_FACTOR,
     methods,
     test,
     outlier,

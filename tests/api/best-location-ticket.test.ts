@@ -54,7 +54,7 @@ describe('one best location on the finding, the ticket, the crew sheet and the e
     expect(best.distanceFromAM!).toBeCloseTo(120, 0);
     expect(best.standardUncertaintyM!).toBeGreaterThan(1.19);
     expect(best.standardUncertaintyM!).toBeLessThan(1.21);
-    expect(best.windowStartM!).toBeCloseTo(best.distanceFromAM! - 1.96 * best.standardUncertaintyM!, 9);
+    expect(best.windowStartM!).toBeCloseTo(best.distanceFromAM! - 2 * best.standardUncertaintyM!, 9);
     // 120 m of cable passes MH-1 (2 m coiled) and MH-2 (3 m): chainage 115 m, 35 m past MH-2 (hand-worked).
     expect(best.routePosition!.from.label).toBe('MH-2');
     expect(best.routePosition!.offsetM).toBeCloseTo(35, 0);
@@ -130,7 +130,7 @@ describe('one best location on the finding, the ticket, the crew sheet and the e
     const scores = (closed.body as TicketDetail).closeouts[0].methodScores!;
     const by = (method: string) => scores.filter((s) => s.method === method);
     expect(scores[0].method).toBe('best-location');
-    // Murray: 120 − 121 = −1 m, inside its window 120 ± 1.96 × 1.2055 m (hand-worked).
+    // Murray: 120 − 121 = −1 m, inside its window 120 ± 2 × 1.2055 m (hand-worked).
     expect(by('murray-loop')[0].errorM).toBeCloseTo(-1, 6);
     expect(by('murray-loop')[0].withinWindow).toBe(true);
     expect(by('best-location')[0].errorM).toBeCloseTo(best.distanceFromAM! - 121, 9);

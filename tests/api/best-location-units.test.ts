@@ -7,8 +7,8 @@ import { confirmedFinding, supervisedRun } from './tickets.support';
  * One reading alone must give the same 95 % window as the engine's own: the engine states a
  * finding's uncertaintyM as the expanded half-width (k = 2, JCGM 100:2008 §6.2) and the VF
  * tolerance as a rectangular half-width (u = T/√3, §4.3.7); the fusion works in standard
- * uncertainties and expands by 1.96 (a normal distribution's 95 % factor). So the fused
- * half-width is 1.96/2 = 0.98 of the reading's, not about twice it.
+ * uncertainties and expands its window by the same k = 2. So the fused half-width is the
+ * reading's own, not about twice it, nor 1.96/2 = 0.98 of it.
  */
 let api: TestApi;
 beforeAll(async () => {
@@ -27,7 +27,9 @@ describe('a best location from one TDR reading', () => {
     expect(best.standardUncertaintyM).toBeCloseTo(view.uncertaintyM / 2, 6);
     const readingHalf = (view.windowEndM - view.windowStartM) / 2;
     const fusedHalf = (best.windowEndM! - best.windowStartM!) / 2;
-    expect(fusedHalf / readingHalf).toBeCloseTo(0.98, 2);
+    expect(fusedHalf / readingHalf).toBeCloseTo(1, 6);
+    expect(best.windowStartM!).toBeCloseTo(view.windowStartM, 6);
+    expect(best.windowEndM!).toBeCloseTo(view.windowEndM, 6);
   });
 });
 

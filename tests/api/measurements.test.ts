@@ -89,8 +89,8 @@ describe('best location of a finding from traces at both ends and a bridge readi
     expect(best.distanceFromAM).toBeCloseTo(120, 0);
     expect(best.standardUncertaintyM).toBeGreaterThan(1.19);
     expect(best.standardUncertaintyM).toBeLessThanOrEqual(twoEnded.standardUncertaintyM + 1e-9);
-    expect(best.windowStartM).toBeCloseTo(best.distanceFromAM - 1.96 * best.standardUncertaintyM, 9);
-    expect(best.windowEndM).toBeCloseTo(best.distanceFromAM + 1.96 * best.standardUncertaintyM, 9);
+    expect(best.windowStartM).toBeCloseTo(best.distanceFromAM - 2 * best.standardUncertaintyM, 9);
+    expect(best.windowEndM).toBeCloseTo(best.distanceFromAM + 2 * best.standardUncertaintyM, 9);
     expect(best.test.degreesOfFreedom).toBe(1);
     // The window is narrower than the single-ended TDR window from A (120 m × 2 % = 2.4 m at least).
     const singleA = singles.find((s: { findingId: number }) => s.findingId === fa.id);

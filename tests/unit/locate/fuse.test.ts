@@ -29,9 +29,10 @@ describe('fusing location estimates', () => {
     expect(f.distanceFromAM).toBeCloseTo(400.229, 3);
     expect(f.standardUncertaintyM).toBeCloseTo(7.934, 3);
     expect(f.test!.statistic).toBeCloseTo(0.0502, 4);
-    // 95 % window: 400.229 ± 1.96 × 7.934 = 384.678 … 415.780 m (hand-worked).
-    expect(f.windowStartM).toBeCloseTo(384.678, 2);
-    expect(f.windowEndM).toBeCloseTo(415.78, 2);
+    // 95 % window, k = 2 (JCGM 100:2008 §6.2.2): 400.229 ± 2 × 7.934 = 384.361 … 416.098 m (hand-worked).
+    expect(f.windowStartM).toBeCloseTo(384.361, 2);
+    expect(f.windowEndM).toBeCloseTo(416.098, 2);
+    expect(f.coverageFactor).toBe(2);
     // Weights 1/64 and 1/3844 normalised: 0.98362 and 0.01638 (hand-worked).
     expect(f.methods.map((m) => m.weight)).toEqual([expect.closeTo(0.98362, 4), expect.closeTo(0.01638, 4)]);
     expect(f.outlier).toBeNull();

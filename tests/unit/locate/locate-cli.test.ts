@@ -13,7 +13,7 @@ function run(args: string[]) {
 describe('locate command', () => {
   it('prints the fused location, window and each method as JSON', () => {
     // From B, 500 m on a 900 m run is 400 m from A. 400 ± 8 m with 414 ± 62 m → 400.229 ± 7.934 m,
-    // window 384.678 … 415.780 m (hand-worked inverse-variance mean, as in the fusion tests).
+    // window ± 2 × 7.934 = 384.361 … 416.098 m (hand-worked inverse-variance mean, as in the fusion tests).
     const r = run(['--length-m', '900', '--tdr-a-m', '414', '--tdr-a-u', '62', '--tdr-b-m', '500', '--tdr-b-u', '8', '--json']);
     expect(r.status).toBe(0);
     expect(r.stderr).toBe('');
@@ -21,8 +21,8 @@ describe('locate command', () => {
     expect(json.consistent).toBe(true);
     expect(json.best.distance_from_a_m).toBeCloseTo(400.229, 3);
     expect(json.best.standard_uncertainty_m).toBeCloseTo(7.934, 3);
-    expect(json.best.window_start_m).toBeCloseTo(384.678, 2);
-    expect(json.best.window_end_m).toBeCloseTo(415.78, 2);
+    expect(json.best.window_start_m).toBeCloseTo(384.361, 2);
+    expect(json.best.window_end_m).toBeCloseTo(416.098, 2);
     expect(json.methods.map((m: { id: string; distance_from_a_m: number }) => [m.id, m.distance_from_a_m])).toEqual([
       ['tdr-a', expect.closeTo(414, 9)],
       ['tdr-b', expect.closeTo(400, 9)],
