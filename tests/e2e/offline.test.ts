@@ -308,10 +308,18 @@ describe('the upload page opened with no signal', () => {
     expect(await page.getByTestId('upload-missing').textContent()).toBe(
       'Still needed: a signal to reach Rholog (or analyse the trace on this phone instead).',
     );
+    // The way on stands under the grey button too, where the thumb is after choosing the file, as well as in the notice at the top.
+    expect(await page.getByRole('link', { name: 'Analyse the trace on this phone' }).count()).toBe(2);
+    const next = page.getByTestId('upload-offline-next').getByRole('link', { name: 'Analyse the trace on this phone' });
+    const [buttonBox, nextBox] = [await page.getByRole('button', { name: 'Upload and analyse' }).boundingBox(), await next.boundingBox()];
+    expect(nextBox!.y).toBeGreaterThan(buttonBox!.y);
+    // Glove-sized: as tall as the upload button (56 px) and the phone's width less the page's margins.
+    expect(nextBox!.height).toBeGreaterThanOrEqual(56);
+    expect(nextBox!.width).toBe(buttonBox!.width);
     await e2e.screenshot(page, 'offline-upload-page-phone');
 
     // Taken to the phone's analysis with the same site, run, end and file: nothing to choose twice with gloves on.
-    await page.getByRole('link', { name: 'Analyse the trace on this phone' }).click();
+    await next.click();
     await page.getByRole('heading', { name: 'Analyse on this phone' }).waitFor();
     expect(await page.getByLabel('Site').locator('option:checked').textContent()).toBe('Harrowmere North substation');
     expect(await page.getByLabel('Cable run').locator('option:checked').textContent()).toBe('Control pair HN-C2');

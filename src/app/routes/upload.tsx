@@ -86,6 +86,13 @@ export function UploadPage() {
     !online && 'a signal to reach Rholog (or analyse the trace on this phone instead)',
   ].filter((m): m is string => !!m);
 
+  // The phone's own analysis, carrying what is chosen so far: nothing to choose twice with gloves on.
+  const analyseHere = (className: string) => (
+    <Link to={paths.deviceAnalyse.to(undefined, { site: siteId, run: run ? runId : '', end })} state={files.length === 1 ? { file: files[0] } : undefined} className={className}>
+      Analyse the trace on this phone
+    </Link>
+  );
+
   const addFiles = async (list: FileList | null) => {
     if (!list) return;
     const picked = Array.from(list);
@@ -146,13 +153,7 @@ export function UploadPage() {
             <div data-testid="upload-offline">
               <Notice tone="warn" title="No signal: this page needs the server">
                 <p>The phone can read the trace now, with the fault's distance and route position, and send it when the signal is back.</p>
-                <Link
-                  to={paths.deviceAnalyse.to(undefined, { site: siteId, run: run ? runId : '', end })}
-                  state={files.length === 1 ? { file: files[0] } : undefined}
-                  className="mt-2 inline-flex min-h-11 items-center rounded-md bg-copper px-4 font-semibold text-white hover:bg-copper-dark"
-                >
-                  Analyse the trace on this phone
-                </Link>
+                {analyseHere('mt-2 inline-flex min-h-11 items-center rounded-md bg-copper px-4 font-semibold text-white hover:bg-copper-dark')}
               </Notice>
             </div>
           )}
@@ -278,6 +279,12 @@ export function UploadPage() {
             <p id="upload-missing" className="text-center text-sm text-ink-soft" data-testid="upload-missing">
               Still needed: {missing.join(', ').replace(/, ([^,]*)$/, ' and $1')}.
             </p>
+          )}
+          {/* Without signal the way on stands where the thumb already is, not only in the notice at the top. */}
+          {!online && (
+            <div data-testid="upload-offline-next">
+              {analyseHere('flex min-h-14 w-full items-center justify-center rounded-md bg-copper px-4 text-lg font-semibold text-white hover:bg-copper-dark')}
+            </div>
           )}
         </form>
         <div className="order-first space-y-4 lg:order-none">
