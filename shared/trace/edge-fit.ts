@@ -57,8 +57,22 @@ export interface EdgeFitInput {
 const lowFraction = (sigmaLocal: number, height: number) => Math.min(0.3, Math.max(0.1, (3 * sigmaLocal) / Math.abs(height)));
 
 /**
+ * Latest onset the level-window widening may move an edge to. The step filter's peak marks where the
+ * edge is, to within the detection's timing uncertainty: at scale w, F's slope beside the peak of an edge is
+ * height/w, so noise of F = height/snr moves the peak by about w/snr, and the peak is taken on a stride of
+ * w/4 (detection.ts), so it may lie up to half a stride off. An onset (the foot of the edge) lies at or
+ * before the edge's middle; three such uncertainties past the peak is the noise picking a later foot.
+ */
+export function latestOnset(c: Pick<Candidate, 'i' | 'w' | 'snr'>): number {
+  const stride = Math.max(1, Math.floor(c.w / 4));
+  return c.i + stride / 2 + (3 * c.w) / Math.max(c.snr, 1);
+}
+
+/**
  * A lossy edge keeps rising long after the filter window: widen the level window
- * to a few times the edge's own 10–90 % time until the level stops changing.
+ * to a few times the edge's own 10–90 % time until the level stops changing. A wider
+ * window that puts the onset after `latest` and reads the edge less than half as slow
+ * as before has found a noise excursion's foot, not this edge's: the reading stops there.
  */
 export function settleLossyEdge(
   us: Float64Array,
@@ -68,6 +82,7 @@ export function settleLossyEdge(
   limit: number,
   preFrom: number,
   sigmaLocal: number,
+  latest = Infinity,
 ): { r: Onset; height: number; fLo: number; settleTo: number | null; stillMoving: number } {
   let { r, height, fLo } = first;
   let settleTo: number | null = null;
@@ -89,10 +104,14 @@ export function settleLossyEdge(
     // A lossy edge settles: each widening adds less than the one before. A level that keeps
     // running away is a slope in the working signal (drift, a neighbour's tail), not this edge.
     if (iter > 0 && change > 0.25 && change >= prevChange) break;
+    const fNext = lowFraction(sigmaLocal, hNext);
+    const rNext = measureOnset(us, a, () => base, hNext, fNext, preFrom, Math.min(n - 1, b));
+    // Past the detection's bound, and sharper than the reading it would replace: the noise's foot.
+    if (rNext.onset > latest && rNext.rise < 0.5 * r.rise) break;
     prevChange = change;
     height = hNext;
-    fLo = lowFraction(sigmaLocal, height);
-    r = measureOnset(us, a, () => base, height, fLo, preFrom, Math.min(n - 1, b));
+    fLo = fNext;
+    r = rNext;
     if (change < 0.02 || b >= limit) break;
   }
   return { r, height, fLo, settleTo, stillMoving };
@@ -164,7 +183,7 @@ function fitOne(input: EdgeFitInput, accepted: Candidate[], k: number, prevEnd: 
   let settleTo = postTo;
   let stillMoving = 0;
   if (!blip) {
-    const s = settleLossyEdge(us, { r, height, fLo }, baseLevel, w, limit, preFrom, sigmaLocal);
+    const s = settleLossyEdge(us, { r, height, fLo }, baseLevel, w, limit, preFrom, sigmaLocal, latestOnset(c));
     ({ r, height, fLo, stillMoving } = s);
     if (s.settleTo !== null) settleTo = s.settleTo;
     // The level before is read where the edge has not begun. The first window is set by the detection's
@@ -182,7 +201,7 @@ function fitOne(input: EdgeFitInput, accepted: Candidate[], k: number, prevEnd: 
       const again = { r, height: h2, fLo: lowFraction(sigmaLocal, h2) };
       if (Math.sign(again.height) !== c.sign || Math.abs(again.height) < rhoMin) break;
       again.r = measureOnset(us, postFrom, () => foot.level, again.height, again.fLo, foot.from, Math.min(n - 1, postTo));
-      const s2 = settleLossyEdge(us, again, foot.level, w, limit, foot.from, sigmaLocal);
+      const s2 = settleLossyEdge(us, again, foot.level, w, limit, foot.from, sigmaLocal, latestOnset(c));
       ({ r, height, fLo, stillMoving } = s2);
       if (s2.settleTo !== null) settleTo = s2.settleTo;
       baseLevel = foot.level;
