@@ -44,6 +44,8 @@ export const SETS = {
   heldout14: { seed: 0xb5c0fbcf, count: 120 },
   // A fifteenth, drawn after the fourteenth had been run once on the final engine of its round, for the next round: the same rules apply.
   heldout15: { seed: 0xe9b5dba5, count: 120 },
+  // A sixteenth, drawn after the fifteenth had been run once on the final engine of its round, for the next round: the same rules apply.
+  heldout16: { seed: 0x3956c25b, count: 120 },
 } as const satisfies Record<string, { seed: number; count: number }>;
 
 export type SetName = keyof typeof SETS;
