@@ -61,16 +61,37 @@ export function repairedBetween(a: Pick<Finding, 'confirmedAt'>, b: Pick<Finding
   return false;
 }
 
-/** The ids of the confirmed findings on the finding's run that read the same fault, itself included. */
-export async function sameFaultFindingIds(findingId: number, transaction?: Transaction): Promise<number[]> {
-  const f = await Finding.findByPk(findingId, { transaction });
-  if (!f) return [];
-  const run = await CableRun.findByPk(f.cableRunId, { attributes: ['id', 'installedLengthM'], transaction });
-  if (!run || f.status !== 'confirmed') return [f.id];
-  const others = await Finding.findAll({ where: { cableRunId: run.id, status: 'confirmed' }, attributes: ['id', 'distanceFromAM', 'uncertaintyM', 'confirmedAt'], transaction });
-  const near = others.filter((o) => o.id === f.id || sameFault(o, f, run.installedLengthM));
-  const repairs = [...(await repairTimes(near.map((o) => o.id), transaction)).values()];
-  return near.filter((o) => o.id === f.id || !repairedBetween(o, f, repairs)).map((o) => o.id);
+/**
+ * For each finding, by id, the ids of the confirmed findings on its run that
+ * read the same fault, itself included (only itself when it is not confirmed).
+ * A fixed number of queries however many findings are asked about: the runs and
+ * their confirmed findings are read once, and the repairs of all the near ones together.
+ */
+export async function sameFaultFindingIdsOf(findings: Finding[], transaction?: Transaction): Promise<Map<number, number[]>> {
+  const out = new Map<number, number[]>(findings.map((f) => [f.id, [f.id]]));
+  const confirmed = findings.filter((f) => f.status === 'confirmed');
+  if (confirmed.length === 0) return out;
+  const runIds = [...new Set(confirmed.map((f) => f.cableRunId))];
+  const [runs, others] = await Promise.all([
+    CableRun.findAll({ where: { id: runIds }, attributes: ['id', 'installedLengthM'], transaction }),
+    Finding.findAll({ where: { cableRunId: runIds, status: 'confirmed' }, attributes: ['id', 'cableRunId', 'distanceFromAM', 'uncertaintyM', 'confirmedAt'], transaction }),
+  ]);
+  const lengths = new Map(runs.map((r) => [r.id, r.installedLengthM]));
+  const nearOf = new Map<number, Finding[]>();
+  for (const f of confirmed) {
+    const length = lengths.get(f.cableRunId);
+    if (length === undefined) continue;
+    nearOf.set(f.id, others.filter((o) => o.cableRunId === f.cableRunId && (o.id === f.id || sameFault(o, f, length))));
+  }
+  // A finding's repair time does not depend on which others it is read with: one read serves every row.
+  const repaired = await repairTimes([...new Set([...nearOf.values()].flat().map((o) => o.id))], transaction);
+  for (const f of confirmed) {
+    const near = nearOf.get(f.id);
+    if (!near) continue;
+    const repairs = near.filter((o) => repaired.has(o.id)).map((o) => repaired.get(o.id)!);
+    out.set(f.id, near.filter((o) => o.id === f.id || !repairedBetween(o, f, repairs)).map((o) => o.id));
+  }
+  return out;
 }
 
 interface TdrReading {

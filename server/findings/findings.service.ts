@@ -7,7 +7,7 @@ import type { FindingInputSchema, FindingListQuerySchema, FindingView, TwoEndedV
 import type { Page } from '../../shared/schemas/users';
 import type { AppContext } from '../context';
 import { CableRun, Finding, FindingDecision, RouteMarker, Site, Ticket, TicketFinding, Trace, User } from '../db/models';
-import { sameFaultFindingIds } from './best-location';
+import { sameFaultFindingIdsOf } from './best-location';
 import { AppError } from '../errors';
 import type { WriteReceipt } from '../http/idempotency';
 import { emitFindingConfirmed } from './events';
@@ -176,15 +176,32 @@ export async function recordFinding(ctx: AppContext, input: FindingInput, userId
  * or a later upload), so a fault already on a ticket is not ticketed twice.
  */
 export async function ticketsFor(findingId: number): Promise<NonNullable<FindingView['tickets']>> {
-  const ids = await sameFaultFindingIds(findingId);
-  const links = await TicketFinding.findAll({ where: { findingId: ids.length ? ids : [findingId] }, attributes: ['ticketId'] });
-  if (links.length === 0) return [];
+  const f = await Finding.findByPk(findingId);
+  if (!f) return [];
+  return (await ticketsOf([f])).get(f.id)!;
+}
+
+/** `ticketsFor` for many findings at once, by finding id, in a fixed number of queries however many they are. */
+async function ticketsOf(findings: Finding[]): Promise<Map<number, NonNullable<FindingView['tickets']>>> {
+  const out = new Map<number, NonNullable<FindingView['tickets']>>(findings.map((f) => [f.id, []]));
+  if (findings.length === 0) return out;
+  const sameFault = await sameFaultFindingIdsOf(findings);
+  const links = await TicketFinding.findAll({ where: { findingId: [...new Set([...sameFault.values()].flat())] }, attributes: ['ticketId', 'findingId'] });
+  if (links.length === 0) return out;
   const tickets = await Ticket.findAll({
-    where: { id: links.map((l) => l.ticketId), status: { [Op.ne]: 'withdrawn' } },
+    where: { id: [...new Set(links.map((l) => l.ticketId))], status: { [Op.ne]: 'withdrawn' } },
     attributes: ['id', 'title', 'status'],
     order: [['id', 'ASC']],
   });
-  return tickets.map((t) => ({ id: t.id, title: t.title, status: t.status }));
+  for (const f of findings) {
+    const ids = new Set(sameFault.get(f.id));
+    const on = new Set(links.filter((l) => ids.has(l.findingId)).map((l) => l.ticketId));
+    out.set(
+      f.id,
+      tickets.filter((t) => on.has(t.id)).map((t) => ({ id: t.id, title: t.title, status: t.status })),
+    );
+  }
+  return out;
 }
 
 export async function getFinding(id: number): Promise<FindingView> {
@@ -263,9 +280,9 @@ export async function listFindings(q: z.output<typeof FindingListQuerySchema>): 
     limit: q.pageSize,
     offset: (q.page - 1) * q.pageSize,
   });
-  const items = await views(rows);
-  // Each row says which repair ticket acts on it, as the finding's own page does.
-  for (const item of items) item.tickets = await ticketsFor(item.id);
+  const [items, tickets] = await Promise.all([views(rows), ticketsOf(rows)]);
+  // Each row says which repair ticket acts on it, as the finding's own page does (read for all rows at once).
+  for (const item of items) item.tickets = tickets.get(item.id)!;
   return { items, total: count, page: q.page, pageSize: q.pageSize };
 }
 
