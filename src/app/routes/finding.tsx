@@ -1,6 +1,5 @@
 import { Link, useParams } from 'react-router-dom';
 import { FINDING_KIND_LABELS } from '../../../shared/schemas/findings';
-import { TICKET_STATUS_LABELS } from '../../../shared/tickets/status';
 import { Card, PageHeader } from '../../components/ui/card';
 import { ErrorNotice, Loading } from '../../components/ui/notice';
 import { StatusBadge } from '../../components/ui/status-badge';
@@ -13,6 +12,7 @@ import { DistanceBlock, ReadingAlone, RouteSentence } from '../../features/findi
 import { useBestLocation } from '../../features/locate/api/get-best-location';
 import { BestLocationHeadline, LocationMethods } from '../../features/locate/components/best-location';
 import { MeasurementPanel } from '../../features/locate/components/measurement-panel';
+import { TicketLink } from '../../features/tickets/components/ticket-link';
 import { useCableRun } from '../../features/sites/api/get-cable-run';
 import { formatDateTime, formatLength, formatSignedLength } from '../../lib/format';
 import { paths } from '../paths';
@@ -46,14 +46,7 @@ export function FindingPage() {
             <StatusBadge kind="finding" status={f.status} />
             {/* A finding a ticket already acts on links to it; a second ticket would be refused. */}
             {(f.tickets ?? []).map((t) => (
-              <Link
-                key={t.id}
-                to={paths.ticket.to(t.id)}
-                className="inline-flex min-h-11 items-center rounded-md border border-teal px-4 text-sm font-semibold text-teal hover:bg-teal/10"
-                data-testid="finding-ticket-link"
-              >
-                On repair ticket {t.id} ({TICKET_STATUS_LABELS[t.status].toLowerCase()})
-              </Link>
+              <TicketLink key={t.id} ticket={t} look="button" testId="finding-ticket-link" />
             ))}
             {f.status === 'confirmed' && can('tickets:manage') && !f.tickets?.length && (
               <Link

@@ -1,7 +1,6 @@
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { FINDING_KIND_LABELS, type FindingListQuery } from '../../../shared/schemas/findings';
-import { TICKET_STATUS_LABELS } from '../../../shared/tickets/status';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
 import { SelectField } from '../../components/ui/field';
@@ -13,6 +12,7 @@ import { useFindings } from '../../features/findings/api/list-findings';
 import { useSites } from '../../features/sites/api/list-sites';
 import { ListSearch, NoMatches, searchError, useListSearch } from '../../features/findings/components/list-search';
 import { RouteSentence } from '../../features/findings/components/where-to-dig';
+import { TicketLink } from '../../features/tickets/components/ticket-link';
 import { formatDateTime, formatLength } from '../../lib/format';
 import { paths } from '../paths';
 
@@ -91,14 +91,7 @@ export function FindingsPage() {
                   </Link>
                   {/* The repair under way for it, one tap from the list (its own link: a link cannot hold another). */}
                   {(f.tickets ?? []).map((t) => (
-                    <Link
-                      key={t.id}
-                      to={paths.ticket.to(t.id)}
-                      className="inline-flex min-h-11 items-center text-sm font-semibold text-teal underline"
-                      data-testid="finding-row-ticket"
-                    >
-                      On repair ticket {t.id} ({TICKET_STATUS_LABELS[t.status].toLowerCase()})
-                    </Link>
+                    <TicketLink key={t.id} ticket={t} look="inline" testId="finding-row-ticket" />
                   ))}
                   {f.status === 'confirmed' && f.tickets?.length === 0 && (
                     <span className="block text-sm text-ink-soft" data-testid="finding-row-no-ticket">
