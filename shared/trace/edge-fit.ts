@@ -69,10 +69,32 @@ export function latestOnset(c: Pick<Candidate, 'i' | 'w' | 'snr'>): number {
 }
 
 /**
+ * Earliest middle the detection allows an edge: the filter's peak less the same half stride and three
+ * timing uncertainties w/snr as latestOnset. An onset lies before its edge's middle by up to FOOT_TO_MIDDLE
+ * of the edge's 10–90 % rise, so the earliest onset a reading of rise R can have is this less that share of R.
+ */
+export function earliestMiddle(c: Pick<Candidate, 'i' | 'w' | 'snr'>): number {
+  const stride = Math.max(1, Math.floor(c.w / 4));
+  return c.i - stride / 2 - (3 * c.w) / Math.max(c.snr, 1);
+}
+
+/**
+ * How far the tangent construction's onset lies before the edge's middle, in 10–90 % rises: a ramp runs
+ * from 0 to 100 % in rise/0.8, so its foot is half of that, 0.625 rise, before its middle (the ramp's geometry;
+ * rounder edges put the construction's onset closer to the middle).
+ */
+export const FOOT_TO_MIDDLE = 0.625;
+
+/**
  * A lossy edge keeps rising long after the filter window: widen the level window
  * to a few times the edge's own 10–90 % time until the level stops changing. A wider
  * window that puts the onset after `latest` and reads the edge less than half as slow
  * as before has found a noise excursion's foot, not this edge's: the reading stops there.
+ * So does one that puts the onset before the earliest the detection allows the reading it would
+ * replace (`earliestMid` less FOOT_TO_MIDDLE of that reading's rise), where that reading itself lies
+ * inside the detection's bounds: on a small, noisy edge the level read further out barely changes, but
+ * its 50 % crossing lands on a later noise excursion, and the construction walks the onset back
+ * through the noise before the edge.
  */
 export function settleLossyEdge(
   us: Float64Array,
@@ -83,6 +105,7 @@ export function settleLossyEdge(
   preFrom: number,
   sigmaLocal: number,
   latest = Infinity,
+  earliestMid = -Infinity,
 ): { r: Onset; height: number; fLo: number; settleTo: number | null; stillMoving: number } {
   let { r, height, fLo } = first;
   let settleTo: number | null = null;
@@ -108,6 +131,9 @@ export function settleLossyEdge(
     const rNext = measureOnset(us, a, () => base, hNext, fNext, preFrom, Math.min(n - 1, b));
     // Past the detection's bound, and sharper than the reading it would replace: the noise's foot.
     if (rNext.onset > latest && rNext.rise < 0.5 * r.rise) break;
+    // Before the detection's bound for the reading it would replace, which lay inside it: the noise's foot.
+    const earliest = earliestMid - FOOT_TO_MIDDLE * r.rise;
+    if (rNext.onset < earliest && r.onset >= earliest && r.onset <= latest) break;
     prevChange = change;
     height = hNext;
     fLo = fNext;
@@ -183,7 +209,7 @@ function fitOne(input: EdgeFitInput, accepted: Candidate[], k: number, prevEnd: 
   let settleTo = postTo;
   let stillMoving = 0;
   if (!blip) {
-    const s = settleLossyEdge(us, { r, height, fLo }, baseLevel, w, limit, preFrom, sigmaLocal, latestOnset(c));
+    const s = settleLossyEdge(us, { r, height, fLo }, baseLevel, w, limit, preFrom, sigmaLocal, latestOnset(c), earliestMiddle(c));
     ({ r, height, fLo, stillMoving } = s);
     if (s.settleTo !== null) settleTo = s.settleTo;
     // The level before is read where the edge has not begun. The first window is set by the detection's
@@ -201,7 +227,7 @@ function fitOne(input: EdgeFitInput, accepted: Candidate[], k: number, prevEnd: 
       const again = { r, height: h2, fLo: lowFraction(sigmaLocal, h2) };
       if (Math.sign(again.height) !== c.sign || Math.abs(again.height) < rhoMin) break;
       again.r = measureOnset(us, postFrom, () => foot.level, again.height, again.fLo, foot.from, Math.min(n - 1, postTo));
-      const s2 = settleLossyEdge(us, again, foot.level, w, limit, foot.from, sigmaLocal, latestOnset(c));
+      const s2 = settleLossyEdge(us, again, foot.level, w, limit, foot.from, sigmaLocal, latestOnset(c), earliestMiddle(c));
       ({ r, height, fLo, stillMoving } = s2);
       if (s2.settleTo !== null) settleTo = s2.settleTo;
       baseLevel = foot.level;
