@@ -6,7 +6,7 @@ import { formatLength, formatLengthRange } from '../../shared/units/format-lengt
 import fs from 'node:fs';
 import path from 'node:path';
 import type { Locator } from 'playwright-core';
-import { DESKTOP, PHONE, SCREENSHOT_DIR, signIn, startE2E, type E2E } from './support/browser';
+import { DESKTOP, PHONE, SCREENSHOT_DIR, startE2E, type E2E } from './support/browser';
 
 /** One part of a page at full size, to look at closely. */
 const shoot = (part: Locator, name: string) => part.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`) });
@@ -36,9 +36,7 @@ afterAll(async () => {
 
 describe('the best location in the browser', () => {
   it('leads the finding page with the fused location, its window and the readings behind it', async () => {
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('supervisor@example.com', DESKTOP);
     await page.goto(`${e2e.baseUrl}/findings/${findingA}`);
     const headline = page.getByTestId('best-distance');
     await headline.waitFor();
@@ -106,9 +104,7 @@ describe('the best location in the browser', () => {
 
   it('says the best location is being worked out while it is, pointing at no headline and showing no other distance to dig by', async () => {
     const finding = (await Finding.findByPk(findingA))!;
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('supervisor@example.com', DESKTOP);
     // The cable run the headline needs is held back until the page has been read.
     let release!: () => void;
     const held = new Promise<void>((resolve) => (release = resolve));
@@ -133,9 +129,7 @@ describe('the best location in the browser', () => {
   });
 
   it('lets a technician record a bridge reading on a phone, with the safety caution, and withdraw it', async () => {
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/findings/${findingA}`);
     await page.getByTestId('best-distance').waitFor();
     // No text of the route strips runs into another on a 390 px phone: marker names, lengths, "best location".
@@ -219,9 +213,7 @@ describe('the best location in the browser', () => {
 
   it('prints the crew sheet with the fused location in the crew’s unit, feet included', async () => {
     await User.update({ unitPreference: 'ft' }, { where: { email: 'tech2@example.com' } });
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech2@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech2@example.com', PHONE);
     // The ticket leads with the same location.
     await page.goto(`${e2e.baseUrl}/tickets/${ticketId}`);
     await page.getByTestId('best-distance').waitFor();
@@ -264,9 +256,7 @@ describe('the best location in the browser', () => {
 
   it('places the location on the map once the markers carry coordinates, with a geo: link and a GPX file', async () => {
     const run = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('supervisor@example.com', DESKTOP);
     await page.goto(`${e2e.baseUrl}/sites/${run.siteId}/runs/${run.id}`);
     await page.getByRole('heading', { name: 'Route markers' }).waitFor();
     // Invented test coordinates on one meridian: RC-1 (chainage 455 m), SP-1 (600 m) and P-7 (760 m), spaced as the

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DESKTOP, PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { DESKTOP, PHONE, startE2E, type E2E } from './support/browser';
 
 let e2e: E2E;
 beforeAll(async () => {
@@ -25,9 +25,7 @@ async function openEntry(page: import('playwright-core').Page, name: string) {
 
 describe('the cable library in the browser', () => {
   it('lets a planner edit a VF with a reason and see it in the history', async () => {
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, PLANNER);
-    await page.getByTestId('signed-in-name').first().waitFor();
+    const page = await e2e.pageAs(PLANNER, DESKTOP);
     await openEntry(page, ENTRY);
     expect(await page.getByTestId('cable-vf').textContent()).toBe('0.6600');
 
@@ -52,9 +50,7 @@ describe('the cable library in the browser', () => {
   });
 
   it('keeps a planner from overwriting a VF someone else saved while the form was open', async () => {
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, PLANNER);
-    await page.getByTestId('signed-in-name').first().waitFor();
+    const page = await e2e.pageAs(PLANNER, DESKTOP);
     // An entry of this test's own, so the other tests' edits do not matter.
     const id = await page.evaluate(async () => {
       const csrf = (await (await fetch('/api/auth/csrf')).json()).csrfToken as string;
@@ -106,9 +102,7 @@ describe('the cable library in the browser', () => {
   });
 
   it('does not let a technician edit, but lets them send a calibration', async () => {
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, TECH);
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs(TECH, PHONE);
     await page.goto(`${e2e.baseUrl}/cables`);
     await page.getByRole('heading', { name: 'Cable library' }).waitFor();
     expect(await page.getByRole('link', { name: 'New cable type' }).count()).toBe(0);
@@ -152,9 +146,7 @@ describe('the cable library in the browser', () => {
   });
 
   it('lets the planner accept the calibration, which becomes the library VF', async () => {
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, PLANNER);
-    await page.getByTestId('signed-in-name').first().waitFor();
+    const page = await e2e.pageAs(PLANNER, DESKTOP);
     await page.getByRole('link', { name: 'Calibrations' }).first().click();
     await page.getByRole('heading', { name: 'Calibrations' }).waitFor();
     const item = page.locator('[data-testid^="calibration-"]').filter({ hasText: 'As-built length, feeder from cabinet 4' });
@@ -177,9 +169,7 @@ describe('the cable library in the browser', () => {
   });
 
   it('works out VF and Z0 as the planner types, and checks an import row by row', async () => {
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, PLANNER);
-    await page.getByTestId('signed-in-name').first().waitFor();
+    const page = await e2e.pageAs(PLANNER, DESKTOP);
     await page.goto(`${e2e.baseUrl}/cables/calculator`);
     await page.getByRole('heading', { name: 'VF calculator' }).waitFor();
     // PTFE εr 2.1 → VF 0.6901 (Standard Wire & Cable dielectric table: TFE 2.1, 69 %).

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Locator, Page } from 'playwright-core';
-import { DESKTOP, PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { DESKTOP, PHONE, startE2E, type E2E } from './support/browser';
 
 let e2e: E2E;
 beforeAll(async () => {
@@ -12,11 +12,11 @@ afterAll(async () => {
 
 const PLANNER = 'planner@example.com';
 
-async function openCalculator(page: Page) {
-  await signIn(page, e2e.baseUrl, PLANNER);
-  await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+async function openCalculator(viewport: { width: number; height: number }) {
+  const page = await e2e.pageAs(PLANNER, viewport);
   await page.goto(`${e2e.baseUrl}/cables/calculator`);
   await page.getByRole('heading', { name: 'VF calculator' }).waitFor();
+  return page;
 }
 
 const card = (page: Page, title: string): Locator =>
@@ -36,8 +36,7 @@ async function controlHeights(page: Page) {
 
 describe('the VF calculator in the browser', () => {
   it('lets a planner derive a stripline’s VF and start a cable type that names the formula', async () => {
-    const page = await e2e.newPage(DESKTOP);
-    await openCalculator(page);
+    const page = await openCalculator(DESKTOP);
     const strip = card(page, 'Stripline');
     // Pozar, Microwave Engineering, 4th ed., §3.7, Example 3.5: W = 0.266 cm, b = 0.32 cm, εr = 2.20 makes a 50 Ω stripline.
     await strip.getByLabel('Strip width W (mm)').fill('2.66');
@@ -84,8 +83,7 @@ describe('the VF calculator in the browser', () => {
   });
 
   it('refuses a result faster than light from L and C, and offers nothing to the library', async () => {
-    const page = await e2e.newPage(DESKTOP);
-    await openCalculator(page);
+    const page = await openCalculator(DESKTOP);
     const lc = card(page, 'From inductance and capacitance');
     // 250 nH/m with 1 pF/m (a coax's 100 pF/m mistyped): 1/√(LC) = 2e9 m/s, VF 6.671.
     await lc.getByLabel('Inductance L (nH/m)').fill('250');
@@ -112,8 +110,7 @@ describe('the VF calculator in the browser', () => {
       [PHONE, 'phone'],
       [DESKTOP, 'desktop'],
     ] as const) {
-      const page = await e2e.newPage(viewport);
-      await openCalculator(page);
+      const page = await openCalculator(viewport);
       const twisted = card(page, 'Twisted pair');
       await twisted.getByLabel('Insulation', { exact: true }).selectOption('twist');
       await twisted.getByLabel('Lay length, one full twist (mm)').waitFor();
@@ -130,9 +127,7 @@ describe('the VF calculator in the browser', () => {
   });
 
   it('works in inches and feet for a planner who reads lengths in feet', async () => {
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, PLANNER);
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs(PLANNER, PHONE);
     await page.goto(`${e2e.baseUrl}/account`);
     await Promise.all([
       page.waitForResponse((r) => r.request().method() !== 'GET' && r.ok()),

@@ -1,9 +1,8 @@
-import supertest from 'supertest';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableRun, CableType, Finding, Ticket, User } from '../../server/db/models';
 import { stepTraceCsv } from '../support/step-trace';
-import { DESKTOP, PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { DESKTOP, PHONE, startE2E, type E2E } from './support/browser';
 
 /**
  * Every step that cannot be taken back, or takes something from someone,
@@ -18,20 +17,9 @@ afterAll(async () => {
   await e2e?.stop();
 });
 
-async function as(email: string, viewport = PHONE) {
-  const page = await e2e.newPage(viewport);
-  await signIn(page, e2e.baseUrl, email);
-  await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
-  return page;
-}
-
+const as = (email: string, viewport = PHONE) => e2e.pageAs(email, viewport);
 /** An API client signed in as `email`, for setting the scene. */
-async function agentFor(email: string) {
-  const agent = supertest.agent(e2e.app.app);
-  const csrf = (await agent.get('/api/auth/csrf')).body.csrfToken as string;
-  const login = await agent.post('/api/auth/login').set('x-csrf-token', csrf).send({ email, password: 'rholog-demo' }).expect(200);
-  return { agent, token: login.body.csrfToken as string };
-}
+const agentFor = (email: string) => e2e.agentAs(email);
 
 /** Upload a trace with an open `faultM` from end A of the demo feeder; its event nearest the open. */
 async function uploadOpen(faultM: number, name: string) {

@@ -1,4 +1,3 @@
-import supertest from 'supertest';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableCalibration, CableRun, CableType, Finding, MailJob, Ticket, Trace, User } from '../../server/db/models';
@@ -42,10 +41,7 @@ beforeAll(async () => {
 
   const run = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
   const vf = (await CableType.findByPk(run.cableTypeId))!.vf;
-  const agent = supertest.agent(e2e.app.app);
-  const csrf = (await agent.get('/api/auth/csrf')).body.csrfToken as string;
-  const login = await agent.post('/api/auth/login').set('x-csrf-token', csrf).send({ email: PEOPLE.technician, password: 'rholog-demo' }).expect(200);
-  const token = login.body.csrfToken as string;
+  const { agent, token } = await e2e.agentAs(PEOPLE.technician);
   // An open 462 m of cable from end A. Hand-worked: MH-1 (120 m, 4 m coiled) and MH-2 (310 m, 6 m) lie
   // before it, so it is 452 m along the route, 142 m past MH-2 and 3 m short of road crossing RC-1 at 455 m
   // (reached at 455 + 10 = 465 m of cable): any window wider than ±3 m runs over RC-1.
@@ -61,12 +57,10 @@ beforeAll(async () => {
   expect(event.windowStartM).toBeLessThan(465);
   expect(event.windowEndM).toBeGreaterThan(465);
   const f = await agent.post('/api/findings').set('x-csrf-token', token).send({ traceId: trace.id, eventIndex: event.index, status: 'confirmed', kind: 'sheath-damage' }).expect(201);
-  const supAgent = supertest.agent(e2e.app.app);
-  const csrf2 = (await supAgent.get('/api/auth/csrf')).body.csrfToken as string;
-  const sup = await supAgent.post('/api/auth/login').set('x-csrf-token', csrf2).send({ email: PEOPLE.supervisor, password: 'rholog-demo' }).expect(200);
-  const t = await supAgent
+  const sup = await e2e.agentAs(PEOPLE.supervisor);
+  const t = await sup.agent
     .post('/api/tickets')
-    .set('x-csrf-token', sup.body.csrfToken)
+    .set('x-csrf-token', sup.token)
     .send({ findingIds: [f.body.id], assigneeId: (await User.findOne({ where: { email: PEOPLE.technician } }))!.id, priority: 'urgent', dueDate: `${new Date().getUTCFullYear() + 1}-05-20` })
     .expect(201);
   crossing = { traceId: trace.id, findingId: f.body.id, ticketId: t.body.id };
@@ -220,9 +214,7 @@ describe('every page in feet, for every role', () => {
 
 describe('a dig window that runs over a marker', () => {
   it('is named with both markers on the trace, the finding, the ticket and the crew sheet, in feet', async () => {
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, PEOPLE.supervisor);
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs(PEOPLE.supervisor, PHONE);
     // Hand-worked (see beforeAll): 142 m past MH-2 is 465.9 ft; RC-1 lies 145 m = 475.7 ft past MH-2.
     const expected = /^The dig window crosses road crossing RC-1 \(475\.7 ft past MH-2\): the fault may be on either side of it\.$/;
     for (const path of [`/traces/${crossing.traceId}`, `/findings/${crossing.findingId}`, `/tickets/${crossing.ticketId}`, `/tickets/${crossing.ticketId}/sheet`]) {
@@ -252,9 +244,7 @@ describe('a dig window that runs over a marker', () => {
 
 describe('words and look', () => {
   it('counts one route marker as one, shows marker kinds in words, and saved marker values in ink, not placeholder grey', async () => {
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, PEOPLE.supervisor);
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs(PEOPLE.supervisor, DESKTOP);
     await visit(page, `/sites/${ids.site}/runs/${ids.run}`);
     const kind = page.getByLabel('Kind').first();
     expect(await kind.locator('option').allTextContents()).toContain('Road crossing');

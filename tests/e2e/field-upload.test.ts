@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableRun, CableType, Finding } from '../../server/db/models';
 import { stepTraceCsv } from '../support/step-trace';
-import { DESKTOP, type E2E, numberIn, PHONE, signIn, startE2E } from './support/browser';
+import { DESKTOP, type E2E, numberIn, PHONE, startE2E } from './support/browser';
 
 let e2e: E2E;
 beforeAll(async () => {
@@ -20,9 +20,7 @@ describe('a technician on a phone', () => {
     // An open 400 m of cable from end A, written with the run's own VF.
     const csv = stepTraceCsv({ faultM: 400, vf: cable.vf, samples: 9000 });
 
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech@example.com', PHONE);
     await page.getByRole('button', { name: 'Menu' }).click();
     await page.getByRole('link', { name: 'Upload trace' }).first().click();
     await page.getByRole('heading', { name: 'Upload a trace' }).waitFor();
@@ -85,9 +83,7 @@ describe('a technician on a phone', () => {
     const mine = findings.find((f) => Math.abs(f.distanceM - 400) < 1);
     expect(mine?.routePositionText).toMatch(/past manhole MH-2 toward road crossing RC-1/);
 
-    const desk = await e2e.newPage(DESKTOP);
-    await signIn(desk, e2e.baseUrl, 'supervisor@example.com');
-    await desk.getByTestId('signed-in-name').first().waitFor();
+    const desk = await e2e.pageAs('supervisor@example.com', DESKTOP);
     await desk.goto(`${e2e.baseUrl}/traces/${mine!.traceId}`);
     await desk.getByTestId('fault-distance').waitFor();
     await desk.locator('canvas').first().waitFor();

@@ -1,8 +1,7 @@
-import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableRun, CableType, Finding, FindingDecision } from '../../server/db/models';
 import { stepTraceCsv } from '../support/step-trace';
-import { DESKTOP, PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { DESKTOP, PHONE, startE2E, type E2E } from './support/browser';
 
 let e2e: E2E;
 let findingId: number;
@@ -13,10 +12,7 @@ beforeAll(async () => {
   // The demo technician uploads a trace of the demo feeder (an open 250 m from end A) and confirms its event.
   const run = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
   const vf = (await CableType.findByPk(run.cableTypeId))!.vf;
-  const agent = supertest.agent(e2e.app.app);
-  const csrf = (await agent.get('/api/auth/csrf')).body.csrfToken as string;
-  const login = await agent.post('/api/auth/login').set('x-csrf-token', csrf).send({ email: 'tech@example.com', password: 'rholog-demo' }).expect(200);
-  const token = login.body.csrfToken as string;
+  const { agent, token } = await e2e.agentAs('tech@example.com');
   const up = await agent
     .post('/api/traces')
     .set('x-csrf-token', token)
@@ -35,9 +31,7 @@ afterAll(() => e2e?.stop());
 
 describe('a decision on an event', () => {
   it('is not offered to a technician on someone else’s trace', async () => {
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech2@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech2@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/findings/${findingId}`);
     await page.getByRole('heading', { name: /Decision history/ }).waitFor();
     expect(await page.getByRole('button', { name: /Reverse/ }).count()).toBe(0);
@@ -45,9 +39,7 @@ describe('a decision on an event', () => {
   });
 
   it('is reversed by a supervisor with a reason, after a confirmation, and kept in the history', async () => {
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('supervisor@example.com', DESKTOP);
     await page.goto(`${e2e.baseUrl}/findings/${findingId}`);
     await page.getByText(/Decided: confirmed as a fault \(Open conductor\) by/).waitFor();
     await page.getByRole('button', { name: 'Reverse: dismiss this fault…' }).click();

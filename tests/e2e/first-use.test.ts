@@ -1,5 +1,5 @@
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { DESKTOP, PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { DESKTOP, PHONE, startE2E, type E2E } from './support/browser';
 
 /** What someone new to Rholog meets first: the sign-in page, the upload form, and a phone with no signal. */
 let e2e: E2E;
@@ -25,9 +25,7 @@ describe('the first screens', () => {
   });
 
   it('says under the grey upload button what is still needed, until nothing is', async () => {
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech2@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech2@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/upload`);
     const button = page.getByRole('button', { name: 'Upload and analyse' });
     const missing = page.getByTestId('upload-missing');
@@ -52,9 +50,7 @@ describe('the first screens', () => {
   });
 
   it('lets a keyboard skip the navigation: the first Tab offers the page itself', async () => {
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, 'tech2@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech2@example.com', DESKTOP);
     await page.goto(`${e2e.baseUrl}/upload`);
     await page.getByLabel('Site').waitFor();
     await page.keyboard.press('Tab');
@@ -70,9 +66,7 @@ describe('the first screens', () => {
   });
 
   it('sends a technician with no signal to the analysis on the phone, from the start page and from the upload page', async () => {
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/device`);
     await page.getByTestId('field-data-age').waitFor();
     await page.evaluate(async () => (await navigator.serviceWorker.ready).active?.state);

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Finding } from '../../server/db/models';
-import { PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { PHONE, startE2E, type E2E } from './support/browser';
 
 let e2e: E2E;
 beforeAll(async () => {
@@ -18,9 +18,7 @@ describe('searching the findings list on a phone', () => {
     expect(atSplice.length).toBeGreaterThan(0);
     expect(atSplice.length).toBeLessThan(confirmed.length);
 
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/findings`);
     const box = page.getByRole('searchbox', { name: 'Search findings' });
     await box.waitFor();

@@ -1,6 +1,6 @@
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { PHONE, startE2E, type E2E } from './support/browser';
 
 /** A technician's repair, opened again on the phone where there is no signal (the app reloaded, the tab evicted). */
 let e2e: E2E;
@@ -23,9 +23,7 @@ const REPAIR = 'Open conductor on Radio mast feeder BF-R1';
 
 describe('a repair ticket without signal', () => {
   it('is still listed on the start page and opens with where to dig, read-only and saying so, and comes back to life with the signal', async () => {
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech@example.com', PHONE);
 
     // Online: the ticket as the server gives it, and the field data saved on the phone.
     await page.getByRole('link', { name: new RegExp(REPAIR) }).click();

@@ -52,9 +52,7 @@ describe('a technician with no signal', () => {
     // An open 400 m of cable from end A, written with the run's own VF.
     const csv = stepTraceCsv({ faultM: 400, vf: cable.vf, samples: 9000 });
 
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/device`);
     // The field data this technician may read is on the phone before the signal goes.
     await page.getByTestId('field-data-age').waitFor();
@@ -179,9 +177,7 @@ describe('a device whose account was deactivated while it was offline', () => {
     } as never);
     const run = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
     const cable = (await CableType.findByPk(run.cableTypeId))!;
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'kit.field@example.com', 'Skylark-Ridge-4417');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('kit.field@example.com', PHONE, 'Skylark-Ridge-4417');
     await page.goto(`${e2e.baseUrl}/device/analyse`);
     await page.getByLabel('Site').waitFor();
     await offlineReady(page);
@@ -226,9 +222,7 @@ describe('a trace analysed on the phone while the cable library changed', () => 
     const run = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
     const cable = (await CableType.findByPk(run.cableTypeId))!;
     const phoneVf = cable.vf;
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/device/analyse`);
     await page.getByLabel('Site').waitFor();
     await offlineReady(page);
@@ -272,9 +266,7 @@ describe('the upload page opened with no signal', () => {
     const run = (await CableRun.findOne({ where: { name: 'Control pair HN-C2' } }))!;
     const cable = (await CableType.findByPk(run.cableTypeId))!;
     const csv = stepTraceCsv({ faultM: 120, vf: cable.vf, samples: 4000 });
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/device`);
     await page.getByTestId('field-data-age').waitFor();
     await offlineReady(page);

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Finding, OutboxMessage } from '../../server/db/models';
-import { DESKTOP, PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { DESKTOP, PHONE, startE2E, type E2E } from './support/browser';
 
 let e2e: E2E;
 beforeAll(async () => {
@@ -23,9 +23,7 @@ describe('a supervisor reading the mail Rholog sent them', () => {
     });
     await expect.poll(() => OutboxMessage.count({ where: { subject } }), { timeout: 10_000 }).toBe(1);
 
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('supervisor@example.com', PHONE);
     await page.getByRole('button', { name: 'Menu' }).click();
     await page.getByRole('link', { name: 'Outbox' }).first().click();
     const list = page.getByTestId('outbox-list');
@@ -47,9 +45,7 @@ describe('a supervisor reading the mail Rholog sent them', () => {
   });
 
   it('keeps the send queue and every message for administrators', async () => {
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, 'admin@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('admin@example.com', DESKTOP);
     await page.locator('aside').getByRole('link', { name: 'Outbox' }).click();
     await page.getByRole('heading', { name: 'Send queue' }).waitFor();
     await page.getByTestId('outbox-list').waitFor();
@@ -65,9 +61,7 @@ describe('a supervisor reading the mail Rholog sent them', () => {
     await e2e.app.ctx.mail.queue.enqueue({ kind: 'test', to: ['planner@example.com'], subject, text });
     await expect.poll(() => OutboxMessage.count({ where: { subject } }), { timeout: 10_000 }).toBe(1);
 
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, 'admin@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('admin@example.com', DESKTOP);
     await page.goto(`${e2e.baseUrl}/outbox`);
     await page
       .getByTestId('outbox-list')

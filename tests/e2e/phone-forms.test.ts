@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { stepTraceCsv } from '../support/step-trace';
 import { Ticket } from '../../server/db/models';
-import { PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { PHONE, startE2E, type E2E } from './support/browser';
 
 /** Forms on a phone: what a sent form that cannot be taken, and the keyboard, do. */
 let e2e: E2E;
@@ -22,9 +22,7 @@ const focused = (page: Page) =>
 
 describe('forms and long names on a phone', () => {
   it('takes the planner to the first field to fix when a new cable type is sent from the bottom of the form', async () => {
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'planner@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('planner@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/cables/new`);
     await page.getByLabel('Velocity factor').fill('1.4');
     const send = page.getByRole('button', { name: 'Add to the library' });
@@ -41,9 +39,7 @@ describe('forms and long names on a phone', () => {
   });
 
   it('goes from the file button straight to the instrument settings with the keyboard: the hidden file field is no stop of its own', async () => {
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/upload`);
     await page.getByRole('button', { name: 'Choose trace files' }).focus();
     await page.keyboard.press('Tab');
@@ -52,9 +48,7 @@ describe('forms and long names on a phone', () => {
 
   it('keeps a long file name with no spaces inside the width of the phone, on the upload form and on the trace it makes', async () => {
     const name = 'HN3_feeder_from_substation_bay3_2026-12-03_pulse_10ns_gain_x4_final_v2_reviewed.csv';
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/upload`);
     await page.getByLabel('Site').selectOption({ label: 'Brookfold pumping station' });
     await page.getByLabel('Cable run').selectOption({ label: 'Radio mast feeder BF-R1' });
@@ -76,9 +70,7 @@ describe('forms and long names on a phone', () => {
 
   it('fits the close-out table of readings against the dig on a phone, its last column in sight', async () => {
     const ticket = (await Ticket.findOne({ where: { status: 'fixed' } }))!;
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('supervisor@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/tickets/${ticket.id}`);
     const table = page.getByTestId('method-scores');
     await table.waitFor();
@@ -90,9 +82,7 @@ describe('forms and long names on a phone', () => {
   });
 
   it("labels each person's role dropdown on the Users page with a visible word, wide enough for the longest role and a finger", async () => {
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'admin@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('admin@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/admin/users`);
     const role = page.getByLabel('Role of Tomas Ekwueme');
     await role.waitFor();

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { type E2E, numberIn, PHONE, signIn, startE2E } from './support/browser';
+import { type E2E, numberIn, PHONE, startE2E } from './support/browser';
 
 let e2e: E2E;
 beforeAll(async () => {
@@ -13,9 +13,7 @@ const number = numberIn;
 
 describe('a new technician on the demo with no trace file of their own', () => {
   it('tries the upload with a sample from the upload page and reads the fault, not "already uploaded"', async () => {
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech2@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech2@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/upload`);
     await page.getByRole('heading', { name: 'No trace file to hand?' }).waitFor();
     await page.getByRole('button', { name: 'Try the sample oakhollow-data-link-short.csv' }).click();

@@ -37,9 +37,7 @@ describe('signing in', () => {
   for (const role of roles) {
     it(`shows a ${role} their own navigation`, async () => {
       const user = DEMO_USERS.find((u) => u.role === role)!;
-      const page = await e2e.newPage(DESKTOP);
-      await signIn(page, e2e.baseUrl, user.email);
-      await page.getByTestId('signed-in-name').first().waitFor();
+      const page = await e2e.pageAs(user.email, DESKTOP);
       const nav = page.locator('aside [data-testid="main-nav"] a');
       const labels = await nav.allTextContents();
       const expected = NAV.filter((i) => !i.permission || ROLE_PERMISSIONS[role].includes(i.permission)).map((i) => i.label);
@@ -51,9 +49,7 @@ describe('signing in', () => {
   }
 
   it('keeps the start page’s safety caution as tall as its words beside a longer column on a wide screen', async () => {
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor();
+    const page = await e2e.pageAs('supervisor@example.com', DESKTOP);
     const caution = page.getByRole('note', { name: 'Safety caution' });
     await caution.waitFor();
     // Stretched to the height of the open repairs and links beside it, it was a tall empty yellow box.
@@ -106,9 +102,7 @@ describe('signing in', () => {
   });
 
   it('shows the not-allowed page to a role without the permission', async () => {
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/admin/users`);
     await page.getByRole('heading', { name: 'Your role cannot open this page' }).waitFor();
     await e2e.screenshot(page, 'not-allowed-phone');

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Locator, Page } from 'playwright-core';
 import { CableRun, Finding, TicketFinding, Trace } from '../../server/db/models';
-import { PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { PHONE, startE2E, type E2E } from './support/browser';
 
 /**
  * The trade's terms on a phone: each one a tap away from a short meaning in
@@ -27,9 +27,7 @@ async function insideScreen(page: Page, note: Locator) {
 describe('terms explained where they appear', () => {
   it('explains ρ beside the event and the blind zone and Z0 in the analysis, on a phone', async () => {
     const trace = (await Trace.findOne({ where: { originalName: 'coax-feeder-open.csv' } }))!;
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/traces/${trace.id}`);
 
     const reading = page.getByTestId('event-reading');
@@ -62,9 +60,7 @@ describe('terms explained where they appear', () => {
     const run = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
     const finding = (await Finding.findOne({ where: { cableRunId: run.id, status: 'confirmed' }, order: [['id', 'ASC']] }))!;
     const ticketId = (await TicketFinding.findOne({ where: { findingId: finding.id } }))!.ticketId;
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('supervisor@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/tickets/${ticketId}`);
 
     const verdict = page.getByTestId('best-verdict');

@@ -1,8 +1,7 @@
-import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableCalibration, CableRun, CableType, RouteMarker, TicketCloseout } from '../../server/db/models';
 import { stepTraceCsv } from '../support/step-trace';
-import { DESKTOP, PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { DESKTOP, PHONE, startE2E, type E2E } from './support/browser';
 
 let e2e: E2E;
 let findingId: number;
@@ -19,10 +18,7 @@ beforeAll(async () => {
   const run = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
   runVf = (await CableType.findByPk(run.cableTypeId))!.vf;
   mh2Id = (await RouteMarker.findOne({ where: { cableRunId: run.id, label: 'MH-2' } }))!.id;
-  const agent = supertest.agent(e2e.app.app);
-  const csrf = (await agent.get('/api/auth/csrf')).body.csrfToken as string;
-  const login = await agent.post('/api/auth/login').set('x-csrf-token', csrf).send({ email: 'tech@example.com', password: 'rholog-demo' }).expect(200);
-  const token = login.body.csrfToken as string;
+  const { agent, token } = await e2e.agentAs('tech@example.com');
   const up = await agent
     .post('/api/traces')
     .set('x-csrf-token', token)
@@ -46,9 +42,7 @@ describe('a repair from assignment to calibration', () => {
   let ticketPath = '';
 
   it('a supervisor raises a ticket from the finding and assigns a technician', async () => {
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('supervisor@example.com', DESKTOP);
     await page.locator('aside').getByRole('link', { name: 'Tickets' }).click();
     await page.getByRole('heading', { name: 'Tickets', exact: true }).waitFor();
     const form = page.getByRole('form', { name: 'Raise a ticket' });
@@ -77,9 +71,7 @@ describe('a repair from assignment to calibration', () => {
   });
 
   it('the technician sees it first on a phone, starts, and closes it out with the found position', async () => {
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech@example.com', PHONE);
     await page.getByRole('button', { name: 'Menu' }).click();
     await page.getByRole('link', { name: 'Tickets' }).first().click();
     const rows = page.getByTestId('ticket-row');
@@ -150,9 +142,7 @@ describe('a repair from assignment to calibration', () => {
     const cal = (await CableCalibration.findByPk(closeout.calibrationId!))!;
     expect(cal.source).toBe('repair-closeout');
     expect(cal.knownLengthM).toBeCloseTo(405, 9);
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, 'planner@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('planner@example.com', DESKTOP);
     await page.locator('aside').getByRole('link', { name: 'Calibrations' }).click();
     await page.getByRole('heading', { name: 'Calibrations', exact: true }).waitFor();
     await page.getByText('Repair close-out').first().waitFor();
@@ -166,17 +156,13 @@ describe('a repair from assignment to calibration', () => {
   });
 
   it('the dashboard and the outbox show the story', async () => {
-    const page = await e2e.newPage(DESKTOP);
-    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('supervisor@example.com', DESKTOP);
     await page.locator('aside').getByRole('link', { name: 'Dashboard' }).click();
     await page.getByRole('heading', { name: 'Dashboard', exact: true }).waitFor();
     await page.getByRole('img', { name: 'Located-vs-found error per cable type' }).waitFor();
     await e2e.screenshot(page, 'dashboard-supervisor-desktop');
     await page.close();
-    const phone = await e2e.newPage(PHONE);
-    await signIn(phone, e2e.baseUrl, 'supervisor@example.com');
-    await phone.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const phone = await e2e.pageAs('supervisor@example.com', PHONE);
     await phone.goto(`${e2e.baseUrl}/dashboard`);
     await phone.getByRole('img', { name: 'Located-vs-found error per cable type' }).waitFor();
     // Nothing wider than the phone: no sideways scrolling.
@@ -184,18 +170,14 @@ describe('a repair from assignment to calibration', () => {
     await e2e.screenshot(phone, 'dashboard-supervisor-phone');
     await phone.close();
 
-    const admin = await e2e.newPage(DESKTOP);
-    await signIn(admin, e2e.baseUrl, 'admin@example.com');
-    await admin.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const admin = await e2e.pageAs('admin@example.com', DESKTOP);
     await admin.locator('aside').getByRole('link', { name: 'Outbox' }).click();
     const list = admin.getByTestId('outbox-list');
     await expect.poll(async () => (await list.textContent()) ?? '', { timeout: 10_000 }).toMatch(/assigned to you: Water in the cable on Feeder HN-3/);
     await e2e.screenshot(admin, 'outbox-admin-desktop');
     await admin.close();
 
-    const adminPhone = await e2e.newPage(PHONE);
-    await signIn(adminPhone, e2e.baseUrl, 'admin@example.com');
-    await adminPhone.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const adminPhone = await e2e.pageAs('admin@example.com', PHONE);
     await adminPhone.goto(`${e2e.baseUrl}/outbox`);
     // On a phone the formatted part opens first (it wraps to the screen); the plain text is one tap away.
     await adminPhone.getByRole('article', { name: 'Message' }).waitFor();
@@ -210,9 +192,7 @@ describe('a repair from assignment to calibration', () => {
 
   it('a supervisor reads what the crew found and did before the step that signs it off', async () => {
     // The demo's repair on Control pair HN-C2 is fixed and waits for sign-off.
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'supervisor@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('supervisor@example.com', PHONE);
     await page.getByRole('link', { name: /Short circuit on Control pair HN-C2/ }).first().click();
     const signOff = page.getByRole('button', { name: 'Sign off…' });
     await signOff.waitFor();

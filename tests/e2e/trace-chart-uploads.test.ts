@@ -5,7 +5,7 @@ import { CableCalibration, CableRun, CableType, RouteMarker, Site, Trace, TraceA
 import { stepTraceCsv } from '../support/step-trace';
 import path from 'node:path';
 import type { Locator } from 'playwright-core';
-import { DESKTOP, type E2E, numberIn, PHONE, SCREENSHOT_DIR, signIn, startE2E } from './support/browser';
+import { DESKTOP, type E2E, numberIn, PHONE, SCREENSHOT_DIR, startE2E } from './support/browser';
 
 let e2e: E2E;
 beforeAll(async () => {
@@ -21,9 +21,7 @@ const part = (l: Locator, name: string) => l.screenshot({ path: path.join(SCREEN
 const number = numberIn;
 
 async function signedIn(email: string, viewport = PHONE) {
-  const page = await e2e.newPage(viewport);
-  await signIn(page, e2e.baseUrl, email);
-  await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+  const page = await e2e.pageAs(email, viewport);
   return page;
 }
 

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableRun, CableType, Trace } from '../../server/db/models';
 import { stepTraceCsv } from '../support/step-trace';
-import { DESKTOP, type E2E, numberIn, signIn, startE2E } from './support/browser';
+import { DESKTOP, type E2E, numberIn, startE2E } from './support/browser';
 
 /** Files above 100 KiB are analysed in the background here (a 12,000-sample file is about 157 kB). */
 let e2e: E2E;
@@ -32,9 +32,7 @@ describe('a large upload', () => {
       return checkout(key, sha256);
     };
     try {
-      const page = await e2e.newPage(DESKTOP);
-      await signIn(page, e2e.baseUrl, 'tech@example.com');
-      await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+      const page = await e2e.pageAs('tech@example.com', DESKTOP);
       await page.goto(`${e2e.baseUrl}/upload`);
       await page.getByRole('heading', { name: 'Upload a trace' }).waitFor();
       await page.getByLabel('Site').selectOption({ label: 'Harrowmere North substation' });

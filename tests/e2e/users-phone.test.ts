@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { PHONE, startE2E, type E2E } from './support/browser';
 
 let e2e: E2E;
 beforeAll(async () => {
@@ -11,9 +11,7 @@ afterAll(async () => {
 
 describe('an administrator on a phone', () => {
   it('sees the temporary password of the account just created without scrolling up to find it, and it signs the person in', async () => {
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'admin@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('admin@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/admin/users`);
     await page.getByText('tech2@example.com').waitFor();
     await page.getByRole('textbox', { name: 'Name', exact: true }).fill('Noor Haddad');
@@ -34,9 +32,7 @@ describe('an administrator on a phone', () => {
     const password = (await notice.locator('code').textContent())!;
     await e2e.screenshot(page, 'users-temporary-password-phone');
 
-    const theirs = await e2e.newPage(PHONE);
-    await signIn(theirs, e2e.baseUrl, 'noor@example.com', password);
-    await theirs.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const theirs = await e2e.pageAs('noor@example.com', PHONE, password);
     expect(await theirs.getByTestId('signed-in-name').first().textContent()).toContain('Noor Haddad');
   });
 });

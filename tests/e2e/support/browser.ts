@@ -4,6 +4,7 @@ import path from 'node:path';
 import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import supertest from 'supertest';
 import { createApp, type RhologApp } from '../../../server/app';
 import { freshDatabase, testConfig } from '../../support/test-config';
 import { CHROMIUM_ARGS, CHROMIUM_PATH } from './chromium';
@@ -14,6 +15,10 @@ export interface E2E {
   app: RhologApp;
   context: BrowserContext;
   newPage: (viewport?: { width: number; height: number }) => Promise<Page>;
+  /** A new page signed in as `email` (the demo password unless given), once the signed-in layout is there. */
+  pageAs: (email: string, viewport?: { width: number; height: number }, password?: string) => Promise<Page>;
+  /** An API client signed in as `email`, with the CSRF token its changes carry, for setting a scene. */
+  agentAs: (email: string) => Promise<{ agent: ReturnType<typeof supertest.agent>; token: string }>;
   screenshot: (page: Page, name: string) => Promise<string>;
   stop: () => Promise<void>;
 }
@@ -42,16 +47,34 @@ export async function startE2E(overrides: Partial<AppConfig> = {}): Promise<E2E>
     const ctx = context;
     fs.mkdirSync(SCREENSHOT_DIR, { recursive: true });
     const srv = server;
+    const newPage = async (viewport = DESKTOP) => {
+      // One signed-in person at a time: a new page starts signed out.
+      await ctx.clearCookies();
+      const page = await ctx.newPage();
+      await page.setViewportSize(viewport);
+      return page;
+    };
     return {
       baseUrl,
       app,
       context: ctx,
-      newPage: async (viewport = DESKTOP) => {
-        // One signed-in person at a time: a new page starts signed out.
-        await ctx.clearCookies();
-        const page = await ctx.newPage();
-        await page.setViewportSize(viewport);
+      newPage,
+      pageAs: async (email, viewport = DESKTOP, password) => {
+        const page = await newPage(viewport);
+        await signIn(page, baseUrl, email, password);
+        // Attached, not visible: on a phone the name sits in the closed menu.
+        await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
         return page;
+      },
+      agentAs: async (email) => {
+        const agent = supertest.agent(app.app);
+        const csrf = (await agent.get('/api/auth/csrf')).body.csrfToken as string;
+        const login = await agent
+          .post('/api/auth/login')
+          .set('x-csrf-token', csrf)
+          .send({ email, password: 'rholog-demo' })
+          .expect(200);
+        return { agent, token: login.body.csrfToken as string };
       },
       screenshot: async (page, name) => {
         const file = path.join(SCREENSHOT_DIR, `${name}.png`);
