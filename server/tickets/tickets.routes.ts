@@ -24,7 +24,18 @@ export function ticketRoutes(ctx: AppContext) {
   r.patch(
     '/:id',
     'tickets:manage',
-    handle((req) => tickets.updateTicket(ctx, currentUser(req), IdParam.parse(req.params).id, TicketUpdateSchema.parse(req.body))),
+    handle((req, res) => {
+      const id = IdParam.parse(req.params).id;
+      const input = TicketUpdateSchema.parse(req.body);
+      // An edit sent again whose answer was lost: its comment is recorded and mailed once, as through /comments.
+      return once(req, res, {
+        logger: ctx.logger,
+        userId: currentUser(req).id,
+        status: 200,
+        make: (receipt) => tickets.updateTicket(ctx, currentUser(req), id, input, receipt),
+        replay: (ticketId) => tickets.getTicket(ticketId, currentUser(req)),
+      });
+    }),
   );
   r.post(
     '/:id/status',

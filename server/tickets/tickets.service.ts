@@ -173,7 +173,7 @@ async function refuseStaleEdit(t: Ticket, input: UpdateInput, transaction: Trans
   );
 }
 
-export async function updateTicket(ctx: AppContext, actor: SessionUser, id: number, input: UpdateInput): Promise<TicketDetail> {
+export async function updateTicket(ctx: AppContext, actor: SessionUser, id: number, input: UpdateInput, receipt?: WriteReceipt): Promise<TicketDetail> {
   await ctx.sequelize.transaction(async (transaction) => {
     const t = await loadTicket(id, transaction);
     if (!['raised', 'assigned', 'under-way'].includes(t.status)) {
@@ -213,6 +213,7 @@ export async function updateTicket(ctx: AppContext, actor: SessionUser, id: numb
       t.changed('updatedAt', true);
       await t.save({ transaction });
       await mailTicket(ctx, t.id, actor, { kind: 'comment', comment }, transaction);
+      await receipt?.(transaction, t.id);
       return;
     }
     await t.update(
@@ -240,6 +241,7 @@ export async function updateTicket(ctx: AppContext, actor: SessionUser, id: numb
       const words = Object.entries(changes).map(([k, [a, b]]) => describeChange(k, a, b));
       await mailTicket(ctx, t.id, actor, { kind: 'updated', changes: words, comment: input.comment ?? null }, transaction);
     }
+    await receipt?.(transaction, t.id);
   });
   return getTicket(id, actor);
 }

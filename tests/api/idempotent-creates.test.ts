@@ -211,6 +211,41 @@ describe('a ticket comment sent again under its key', () => {
   });
 });
 
+describe('a ticket edit sent again under its key', () => {
+  it('records and mails its change and comment once; a repeat of a comment-only edit is not a second comment', async () => {
+    const run = await supervisedRun(api, 'Repeat edit run');
+    const finding = await confirmedFinding(api, run.run.id, 95);
+    const sup = await api.as('supervisor');
+    const ticketId = (await sup.post('/api/tickets', { findingIds: [finding.id], assigneeId: api.users.technician.id }).expect(201)).body.id as number;
+    const mailsBefore = await MailJob.count({ where: { ticketId } });
+    // The edit form sends the new priority with a word for the assignee; its answer is lost and it is sent again.
+    // The repeat's priority is now the ticket's own, so without the key it was taken as a comment-only edit and
+    // the words were added and mailed a second time.
+    const edit = { priority: 'urgent', comment: 'Customer on life support at the far end', basedOn: { priority: 'normal' } };
+    const first = await sup.patch(`/api/tickets/${ticketId}`, edit).set('Idempotency-Key', 'edit-3a91c07e').expect(200);
+    expect(first.headers['idempotent-replayed']).toBeUndefined();
+    expect(first.body.priority).toBe('urgent');
+    const again = await sup.patch(`/api/tickets/${ticketId}`, edit).set('Idempotency-Key', 'edit-3a91c07e').expect(200);
+    expect(again.headers['idempotent-replayed']).toBe('true');
+    expect(again.body.priority).toBe('urgent');
+    const events = await TicketEvent.findAll({ where: { ticketId }, order: [['id', 'ASC']] });
+    expect(events.filter((e) => e.comment === edit.comment).map((e) => e.kind)).toEqual(['updated']);
+    expect(await MailJob.count({ where: { ticketId } })).toBe(mailsBefore + 1);
+
+    // An edit of unchanged values is kept as a comment: sent twice under one key, it is one comment and one mail.
+    const note = { priority: 'urgent', comment: 'Gate code is 4417' };
+    await sup.patch(`/api/tickets/${ticketId}`, note).set('Idempotency-Key', 'edit-5be2f310').expect(200);
+    const noteAgain = await sup.patch(`/api/tickets/${ticketId}`, note).set('Idempotency-Key', 'edit-5be2f310').expect(200);
+    expect(noteAgain.headers['idempotent-replayed']).toBe('true');
+    expect(await TicketEvent.count({ where: { ticketId, kind: 'comment', comment: note.comment } })).toBe(1);
+    expect(await MailJob.count({ where: { ticketId } })).toBe(mailsBefore + 2);
+    // The same key with other values is refused and changes nothing.
+    const other = await sup.patch(`/api/tickets/${ticketId}`, { priority: 'low' }).set('Idempotency-Key', 'edit-5be2f310').expect(422);
+    expect(other.body.error.code).toBe('idempotency_key_reused');
+    expect((await Ticket.findByPk(ticketId))!.priority).toBe('urgent');
+  });
+});
+
 describe('receipts past their kept days', () => {
   it('are forgotten (a repeat then makes a new record), while a recent receipt still answers its repeat', async () => {
     const traceId = await uploadTrace(145);

@@ -6,7 +6,8 @@ import { api } from '../../../lib/api-client';
 import { repeatKey } from '../../../lib/repeat-key';
 
 export const createTicket = (input: TicketCreateInput) => api<TicketDetail>('/api/tickets', { method: 'POST', body: input });
-export const updateTicket = ({ id, ...patch }: TicketUpdateInput & { id: number }) => api<TicketDetail>(`/api/tickets/${id}`, { method: 'PATCH', body: patch });
+export const updateTicket = ({ id, ...patch }: TicketUpdateInput & { id: number }, idempotencyKey?: string) =>
+  api<TicketDetail>(`/api/tickets/${id}`, { method: 'PATCH', body: patch, idempotencyKey });
 export const moveTicket = ({ id, to, comment }: { id: number; to: TicketStatus; comment?: string }) =>
   api<TicketDetail>(`/api/tickets/${id}/status`, { method: 'POST', body: { to, comment: comment || null } });
 export const commentOnTicket = ({ id, comment }: { id: number; comment: string }, idempotencyKey?: string) =>
@@ -30,7 +31,11 @@ function useTicketMutation<TIn>(fn: (input: TIn) => Promise<TicketDetail>, onTak
 }
 
 export const useCreateTicket = () => useTicketMutation(createTicket);
-export const useUpdateTicket = () => useTicketMutation(updateTicket);
+/** An edit sent again with the same values (its answer lost) goes under the same key: its comment is recorded and mailed once. */
+export function useUpdateTicket() {
+  const [key] = useState(() => repeatKey('edit'));
+  return useTicketMutation((input: TicketUpdateInput & { id: number }) => updateTicket(input, key.keyFor(input)), key.taken);
+}
 export const useMoveTicket = () => useTicketMutation(moveTicket);
 /** A comment sent again with the same words (its answer lost) goes under the same key: the server records and mails it once. */
 export function useCommentOnTicket() {
