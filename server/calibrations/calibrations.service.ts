@@ -10,7 +10,8 @@ import {
 import { updateCable } from '../cables/cables.service';
 import { can } from '../../shared/auth/permissions';
 import type { SessionUser } from '../auth/guards';
-import { CableCalibration, CableType, Trace, User } from '../db/models';
+import { CableCalibration, CableType, Ticket, TicketCloseout, Trace, User } from '../db/models';
+import { TICKET_STATUS_LABELS } from '../../shared/tickets/status';
 import { AppError } from '../errors';
 import { formatDate } from '../../shared/units/format-date';
 import type { SecurityLog } from '../log';
@@ -34,7 +35,45 @@ const INCLUDE = [
   { association: 'closeout', attributes: ['id', 'ticketId'] },
 ];
 
-export function calibrationView(c: CableCalibration): CalibrationView {
+/**
+ * Why a close-out's calibration cannot be accepted yet, or null. Its VF comes from where the crew says they found
+ * the fault: that is known to be the fault only once a supervisor has signed the repair off. A repair still fixed
+ * may yet be reopened as not fixed, and a close-out followed by another one on its ticket (reopened, then closed
+ * out again) was not where the fault was; feeding either into the library would move every later analysis of
+ * the cable type by a position nobody confirmed.
+ */
+export async function acceptHolds(rows: CableCalibration[], transaction?: Transaction): Promise<Map<number, string>> {
+  const held = new Map<number, string>();
+  const fromCloseouts = rows.filter((c) => c.closeout);
+  if (!fromCloseouts.length) return held;
+  const ticketIds = [...new Set(fromCloseouts.map((c) => c.closeout!.ticketId))];
+  const tickets = new Map((await Ticket.findAll({ where: { id: ticketIds }, attributes: ['id', 'status'], transaction })).map((t) => [t.id, t.status]));
+  const latest = new Map<number, number>();
+  for (const k of await TicketCloseout.findAll({ where: { ticketId: ticketIds }, attributes: ['id', 'ticketId'], transaction })) {
+    latest.set(k.ticketId, Math.max(latest.get(k.ticketId) ?? 0, k.id));
+  }
+  for (const c of fromCloseouts) {
+    const { id: closeoutId, ticketId } = c.closeout!;
+    const status = tickets.get(ticketId);
+    if (latest.get(ticketId) !== closeoutId) {
+      held.set(c.id, `ticket ${ticketId} was reopened and closed out again after this close-out, so the fault was not where it was found here; reject it`);
+    } else if (status !== 'signed-off') {
+      held.set(
+        c.id,
+        `its repair, ticket ${ticketId}, is ${status ? TICKET_STATUS_LABELS[status].toLowerCase() : 'not there'}: a close-out's found position is taken into the library once a supervisor has signed the repair off`,
+      );
+    }
+  }
+  return held;
+}
+
+/** The views of `rows`, each saying whether its close-out's repair holds its acceptance (acceptHolds). */
+export async function calibrationViews(rows: CableCalibration[], transaction?: Transaction): Promise<CalibrationView[]> {
+  const held = await acceptHolds(rows, transaction);
+  return rows.map((c) => ({ ...calibrationView(c), acceptHeld: held.get(c.id) ?? null }));
+}
+
+function calibrationView(c: CableCalibration): CalibrationView {
   const person = (u?: User | null) => (u ? { id: u.id, name: u.name } : null);
   return {
     id: c.id,
@@ -47,6 +86,7 @@ export function calibrationView(c: CableCalibration): CalibrationView {
     source: c.source,
     traceId: c.traceId,
     ticketId: c.closeout?.ticketId ?? null,
+    acceptHeld: null,
     note: c.note,
     status: c.status,
     submittedBy: person(c.submittedBy),
@@ -145,7 +185,7 @@ export async function submitCalibration(input: SubmitCalibrationInput, transacti
     },
     { transaction },
   );
-  return calibrationView(await loadCalibration(created.id, transaction));
+  return (await calibrationViews([await loadCalibration(created.id, transaction)], transaction))[0];
 }
 
 // ---- review ----
@@ -173,7 +213,7 @@ export async function listCalibrations(query: {
     offset: (query.page - 1) * query.pageSize,
     distinct: true,
   });
-  return { items: rows.map(calibrationView), total: count, page: query.page, pageSize: query.pageSize };
+  return { items: await calibrationViews(rows), total: count, page: query.page, pageSize: query.pageSize };
 }
 
 function assertPending(c: CableCalibration) {
@@ -257,6 +297,12 @@ export async function acceptCalibration(
     const c = await loadForDecision(id, transaction);
     assertPending(c);
     const override = ownCalibrationOverride(c, reviewer, opts.note);
+    // Held while its repair is not signed off: the ticket's row is read in this transaction, and a signed-off
+    // ticket is never reopened, so a sign-off cannot be undone under the accept.
+    const held = (await acceptHolds([c], transaction)).get(c.id);
+    if (held) {
+      throw new AppError(409, 'repair_not_signed_off', `Calibration #${c.id} cannot be accepted: ${held}. Nothing was changed.`);
+    }
     if (opts.basedOn) await refuseAcceptedMeanwhile(c, opts.basedOn.acceptedCount, transaction);
     // In the one date style of the screens and e-mails ("3 Dec 2026"), not ISO beside them.
     const submitted = formatDate(c.createdAt);
@@ -286,7 +332,7 @@ export async function acceptCalibration(
       { status: 'accepted', reviewedById: reviewerId, reviewedAt: new Date(), reviewReason: override ? `Own calibration accepted by override: ${override}` : (opts.note ?? null) },
       { transaction },
     );
-    return { calibration: calibrationView(await loadCalibration(id, transaction)), cable, override };
+    return { calibration: (await calibrationViews([await loadCalibration(id, transaction)], transaction))[0], cable, override };
   });
   if (result.override) {
     security?.('calibration-own-accepted', { calibrationId: id, cableTypeId: result.cable.id, actorId: reviewerId, reason: result.override });
@@ -300,7 +346,7 @@ export async function rejectCalibration(id: number, reviewerId: number, reason: 
     const c = await loadForDecision(id, transaction);
     assertPending(c);
     await c.update({ status: 'rejected', reviewedById: reviewerId, reviewedAt: new Date(), reviewReason: reason }, { transaction });
-    return calibrationView(await loadCalibration(id, transaction));
+    return (await calibrationViews([await loadCalibration(id, transaction)], transaction))[0];
   });
 }
 
@@ -328,6 +374,6 @@ export async function calibrationsForCable(cableTypeId: number) {
     stats: calibrationStats(all.filter((r) => r.status !== 'rejected').map((r) => r.vf)),
     acceptedStats: calibrationStats(all.filter((r) => r.status === 'accepted').map((r) => r.vf)),
     counts,
-    items: rows.map(calibrationView),
+    items: await calibrationViews(rows),
   };
 }

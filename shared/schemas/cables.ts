@@ -273,6 +273,11 @@ export interface CalibrationView {
   traceId: number | null;
   /** The repair ticket whose close-out filed it (source 'repair-closeout'), else null. */
   ticketId: number | null;
+  /**
+   * Why it cannot be accepted yet, or null: a close-out's calibration waits for its repair to be signed off, and
+   * one whose ticket was reopened and closed out again is not taken at all (reject it).
+   */
+  acceptHeld: string | null;
   note: string | null;
   status: CalibrationStatus;
   submittedBy: { id: number; name: string } | null;

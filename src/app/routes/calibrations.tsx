@@ -89,8 +89,8 @@ function Decide({ c, onDone }: { c: CalibrationView; onDone: (said: string) => v
                     { onSuccess: (r) => onDone(`Calibration #${c.id} accepted: ${r.cable.name} is now VF ${formatVf(r.cable.vf, 4)} ± ${(r.cable.vfTolerance * 100).toFixed(1)} % in the library. It is listed under Accepted.`) },
                   )
                 }
-                disabled={accept.isPending || missing.length > 0}
-                aria-describedby={missing.length > 0 ? `accept-missing-${c.id}` : undefined}
+                disabled={accept.isPending || missing.length > 0 || c.acceptHeld !== null}
+                aria-describedby={c.acceptHeld !== null ? `accept-held-${c.id}` : missing.length > 0 ? `accept-missing-${c.id}` : undefined}
               >
                 {override ? 'Accept my own, with this reason' : chosen ? `Accept into the library: VF ${chosen.vf.toFixed(4)} ± ${(chosen.vfTolerance * 100).toFixed(1)} %` : 'Accept into the library'}
               </Button>
@@ -98,6 +98,11 @@ function Decide({ c, onDone }: { c: CalibrationView; onDone: (said: string) => v
             <Button variant="secondary" onClick={() => setRejecting(true)}>
               Reject…
             </Button>
+            {(!own || override) && c.acceptHeld !== null && (
+              <p id={`accept-held-${c.id}`} className="basis-full text-sm text-ink-soft" data-testid={`accept-held-${c.id}`}>
+                Cannot be accepted: {c.acceptHeld}.
+              </p>
+            )}
             {(!own || override) && missing.length > 0 && (
               <p id={`accept-missing-${c.id}`} className="basis-full text-sm text-ink-soft" data-testid={`accept-missing-${c.id}`}>
                 Still needed: {missing.join(', ').replace(/, ([^,]*)$/, ' and $1')}.

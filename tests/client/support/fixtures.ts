@@ -20,6 +20,7 @@ export const pendingCalibration = (changes: Partial<CalibrationView> = {}): Cali
   source: 'repair-closeout',
   traceId: 6,
   ticketId: null,
+  acceptHeld: null,
   note: null,
   status: 'pending',
   submittedBy: { id: 2, name: 'Ines Ravelo' },
