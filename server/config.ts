@@ -47,6 +47,11 @@ const EnvSchema = z.object({
    * "pending" and analysed by a background job. 4096 KiB holds about 200,000 samples at about 20 bytes a row.
    */
   ANALYSIS_INLINE_MAX_KB: z.coerce.number({ error: 'must be a whole number of KiB' }).int().min(1).max(524_288).default(4096),
+  /**
+   * How many large files (over ANALYSIS_INLINE_MAX_KB) one person may have waiting for their background analysis at
+   * once: the background lane has one thread, so one account's queue of hundreds would hold everyone else's for hours.
+   */
+  ANALYSIS_PENDING_PER_USER: z.coerce.number({ error: 'must be a whole number' }).int('must be a whole number').min(1).max(10_000).default(20),
   /** Start-up clean-up leaves files younger than this alone (an upload may be arriving). */
   /** How long an SQLite statement waits for another process's write lock (this process queues its own writes). */
   SQLITE_BUSY_TIMEOUT_MS: z.coerce.number({ error: 'must be a number of milliseconds' }).int().min(0).max(600_000).default(10_000),
@@ -112,6 +117,8 @@ export interface AppConfig {
   analysis: { threads: number; timeoutMs: number; memoryMb: number };
   /** Uploads larger than this are answered 202 and analysed in the background. */
   analysisInlineMaxBytes: number;
+  /** Large files one person may have waiting for the background analysis at once (ANALYSIS_PENDING_PER_USER). */
+  analysisPendingPerUser: number;
   uploadSweepMinAgeMs: number;
   /** The longest a request may take, upload included (Node's requestTimeout); headers must come within a minute of it. */
   requestTimeoutMs: number;
@@ -175,6 +182,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     uploadDir: path.resolve(e.UPLOAD_DIR),
     maxUploadBytes: Math.round(e.MAX_UPLOAD_MB * 1024 * 1024),
     analysisInlineMaxBytes: e.ANALYSIS_INLINE_MAX_KB * 1024,
+    analysisPendingPerUser: e.ANALYSIS_PENDING_PER_USER,
     analysis: {
       threads: e.ANALYSIS_THREADS ?? Math.min(8, Math.max(1, os.availableParallelism() - 1)),
       timeoutMs: Math.round(e.ANALYSIS_TIMEOUT_S * 1000),

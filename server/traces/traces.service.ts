@@ -245,10 +245,14 @@ export async function receiveUpload(
     }
 
     // The new files only: a small one is analysed now; a large one is stored as pending and analysed by a background job.
+    const sizes = await Promise.all(inbox.map(async (p, i) => (plan[i].kind === 'new' ? (await fs.stat(p)).size : 0)));
+    const largeCount = sizes.filter((size) => size > ctx.config.analysisInlineMaxBytes).length;
+    // Refused before any analysis is spent on the upload's small files; counted again inside the transaction.
+    if (largeCount) await refuseTooManyPending(ctx, uploadedById, largeCount);
     const results: Array<{ sha256: string; sizeBytes: number; outcome: Outcome | null; parsed: ParsedTrace | null } | null> = await Promise.all(
       inbox.map(async (p, i) => {
         if (plan[i].kind !== 'new') return null;
-        const sizeBytes = (await fs.stat(p)).size;
+        const sizeBytes = sizes[i];
         if (sizeBytes > ctx.config.analysisInlineMaxBytes) return { sha256: hashes[i], sizeBytes, outcome: null, parsed: null };
         const analysed = await pool.analyse({ path: p, settings, cable: analysisCable(cable), maxBytes: ctx.config.maxUploadBytes }, { owner: `user ${uploadedById}` });
         return { ...analysed, sha256: hashes[i] };
@@ -268,6 +272,7 @@ export async function receiveUpload(
         await ctx.sequelize.query('SELECT pg_advisory_xact_lock(:key)', { replacements: { key: run.id }, transaction });
       }
       const traceIds: number[] = [];
+      const pendingMade: number[] = [];
       const duplicates: DuplicateFile[] = [];
       const recordedAs = new Map<number, Pick<Trace, 'id' | 'createdAt'>>();
       const storedPaths = new Set<string>();
@@ -303,7 +308,15 @@ export async function receiveUpload(
         );
         recordedAs.set(index, trace);
         traceIds.push(trace.id);
+        if (!r.outcome) pendingMade.push(trace.id);
         storedPaths.add(rawPaths.get(index)!);
+      }
+      if (pendingMade.length) {
+        if (ctx.sequelize.getDialect() === 'postgres') {
+          // One person's uploads count their waiting files one after the other (SQLite writes one at a time).
+          await ctx.sequelize.query('SELECT pg_advisory_xact_lock(:space, :userId)', { replacements: { space: PENDING_LOCK_SPACE, userId: uploadedById }, transaction });
+        }
+        await refuseTooManyPending(ctx, uploadedById, pendingMade.length, transaction, pendingMade);
       }
       if (idempotencyKey) {
         await UploadReceipt.create(
@@ -335,6 +348,34 @@ export async function receiveUpload(
     await Promise.all(inbox.map((p) => fs.rm(p, { force: true })));
     releaseInbox(...inbox);
   }
+}
+
+/** The advisory lock space (first key) that holds one person's uploads while their waiting files are counted. */
+const PENDING_LOCK_SPACE = 7_301;
+
+/**
+ * The background analysis has one thread for everyone: a person may have at most ANALYSIS_PENDING_PER_USER large
+ * files waiting for it, so one account's upload of hundreds cannot hold everyone else's for hours. An upload whose
+ * large files would pass that is refused whole (429, nothing stored); its small files are analysed at once as
+ * ever, so it may be sent again without the large ones. `made`: traces this upload has just created (not counted
+ * as waiting before it).
+ */
+async function refuseTooManyPending(ctx: AppContext, userId: number, adding: number, transaction?: Transaction, made: number[] = []) {
+  const cap = ctx.config.analysisPendingPerUser;
+  const waiting = await Trace.count({ where: { uploadedById: userId, status: 'pending', ...(made.length ? { id: { [Op.notIn]: made } } : {}) }, transaction });
+  if (waiting + adding <= cap) return;
+  const files = (n: number) => `${n} large file${n === 1 ? '' : 's'}`;
+  throw new AppError(
+    429,
+    'too_many_waiting',
+    `You have ${files(waiting)} waiting for analysis; each person may have at most ${cap} waiting, so everyone's keep moving. ` +
+      `This upload's ${files(adding)} would make ${waiting + adding}, so nothing was stored: send ${adding === 1 ? 'it' : 'them'} again once some of yours are analysed, or send fewer at a time.`,
+    {
+      fields: [{ field: 'file', message: `${files(adding)} over the limit of ${cap} waiting for analysis per person (${waiting} waiting now)` }],
+      limit: cap,
+      waiting,
+    },
+  );
 }
 
 /** 409 for anything that needs the analysis of a trace still waiting for it. */
