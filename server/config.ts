@@ -51,6 +51,11 @@ const EnvSchema = z.object({
    * How many large files (over ANALYSIS_INLINE_MAX_KB) one person may have waiting for their background analysis at
    * once: the background lane has one thread, so one account's queue of hundreds would hold everyone else's for hours.
    */
+  /**
+   * How many uploads one person may have arriving or being analysed at once, per instance: each holds a
+   * connection, up to MAX_UPLOAD_MB × 10 files of the inbox's disk, and its small files' analyses.
+   */
+  UPLOADS_AT_ONCE_PER_USER: z.coerce.number({ error: 'must be a whole number' }).int('must be a whole number').min(1).max(1000).default(4),
   ANALYSIS_PENDING_PER_USER: z.coerce.number({ error: 'must be a whole number' }).int('must be a whole number').min(1).max(10_000).default(20),
   /** Start-up clean-up leaves files younger than this alone (an upload may be arriving). */
   /** How long an SQLite statement waits for another process's write lock (this process queues its own writes). */
@@ -119,6 +124,8 @@ export interface AppConfig {
   analysisInlineMaxBytes: number;
   /** Large files one person may have waiting for the background analysis at once (ANALYSIS_PENDING_PER_USER). */
   analysisPendingPerUser: number;
+  /** Uploads one person may have under way at once on one instance (UPLOADS_AT_ONCE_PER_USER). */
+  uploadsAtOncePerUser: number;
   uploadSweepMinAgeMs: number;
   /** The longest a request may take, upload included (Node's requestTimeout); headers must come within a minute of it. */
   requestTimeoutMs: number;
@@ -183,6 +190,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     maxUploadBytes: Math.round(e.MAX_UPLOAD_MB * 1024 * 1024),
     analysisInlineMaxBytes: e.ANALYSIS_INLINE_MAX_KB * 1024,
     analysisPendingPerUser: e.ANALYSIS_PENDING_PER_USER,
+    uploadsAtOncePerUser: e.UPLOADS_AT_ONCE_PER_USER,
     analysis: {
       threads: e.ANALYSIS_THREADS ?? Math.min(8, Math.max(1, os.availableParallelism() - 1)),
       timeoutMs: Math.round(e.ANALYSIS_TIMEOUT_S * 1000),

@@ -71,6 +71,8 @@ function uploadMiddleware(ctx: AppContext): RequestHandler {
       cb(null, true);
     },
   }).array('file', MAX_FILES_PER_UPLOAD);
+  // Uploads under way per person on this instance, from the first byte of the form to the answer.
+  const underWay = new Map<number, number>();
   return (req, res, next) => {
     const type = (req.get('content-type') ?? '').trim();
     if (!/^multipart\/form-data(;|$)/i.test(type)) {
@@ -81,6 +83,32 @@ function uploadMiddleware(ctx: AppContext): RequestHandler {
         }),
       );
     }
+    // Each upload holds a connection, up to ten files' worth of the inbox's disk and its small files' analyses:
+    // one account opening dozens of slow uploads at once would fill the disk and the pool for everyone.
+    const userId = currentUser(req).id;
+    const cap = ctx.config.uploadsAtOncePerUser;
+    const now = underWay.get(userId) ?? 0;
+    if (now >= cap) {
+      res.setHeader('retry-after', '30');
+      return next(
+        new AppError(429, 'too_many_uploads', `You have ${now} uploads under way; each person may send at most ${cap} at once. Nothing was stored: send this one again when one of them has finished.`, {
+          fields: [{ field: 'file', message: `at most ${cap} uploads at once per person` }],
+          limit: cap,
+          retryAfterSeconds: 30,
+        }),
+      );
+    }
+    underWay.set(userId, now + 1);
+    let done = false;
+    const finished = () => {
+      if (done) return;
+      done = true;
+      const left = (underWay.get(userId) ?? 1) - 1;
+      if (left > 0) underWay.set(userId, left);
+      else underWay.delete(userId);
+    };
+    res.once('finish', finished);
+    res.once('close', finished);
     upload(req, res, (err: unknown) => {
       if (!err) return next();
       // The form reader has removed what it wrote of the files.
