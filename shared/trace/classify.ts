@@ -10,7 +10,11 @@
  * cannot tell the two apart, so an edge is taken as a change of line when it
  * starts a section (an opposite edge of like size follows: a wet stretch, a
  * splice, a bridged tap's junction and stub end), whether or not more line shows
- * after it, and as a lumped fault otherwise.
+ * after it, and as a lumped fault otherwise. The pair's bounce tells a shunt or series fault
+ * in front of the end from a section when the closing edge is the last one: the end's wave
+ * comes back off a lumped fault with the fault's own sign, off a section's start (seen from
+ * within) with the opposite sign (L. V. Bewley, "Traveling Waves on Transmission Systems",
+ * 2nd ed., ch. 3).
  *
  * Bands on the event's own ρ (common practice): open at ρ ≥ +0.8, short at
  * ρ ≤ −0.8, otherwise an impedance rise or drop. A last event (nothing real
@@ -42,15 +46,90 @@ export interface OwnReflection {
 
 const clampRho = (r: number) => Math.max(-1, Math.min(1, r));
 
-/** Is merged[k] the first edge of a section: is the next real edge an opposite one of like size? */
-function startsSection(merged: Measured[], primary: boolean[], k: number): boolean {
+/** The working level a bounce is read from, and its noise (steps.ts WorkingSignal). */
+export interface BounceProbe {
+  u: Float64Array;
+  mode: Mode;
+  /** Step records: noise of u per sample. */
+  sigmaU: number;
+  /** Pulse records: noise of one pulse-domain sample in u units (u is their running sum). */
+  scaleForPulse: number;
+  w0: number;
+  noiseExcess: (w: number) => number;
+}
+
+/**
+ * The wave merged[j] sends back meets merged[k] again on its way, and the share k reflects goes back
+ * to j and returns one gap t_j − t_k later. A lumped fault reflects it with its own sign, seen from
+ * either side; a change of line reflects it with the opposite sign, seen from within. Returns the
+ * change of u there (signed so that j's own sign is positive), its noise, and what a lumped k in
+ * front of an end at j would give, −|A_j|·|ρ_k|·|ρ_j|; null where the record does not hold it clear
+ * of j's own edge and of any later real edge.
+ */
+function bounceAfter(
+  merged: Measured[],
+  primary: boolean[],
+  k: number,
+  j: number,
+  probe: BounceProbe,
+): { delta: number; sigma: number; lumped: number } | null {
+  const mk = merged[k];
+  const mj = merged[j];
+  const gap = mj.onsetIdx - mk.onsetIdx;
+  const at = Math.round(mj.onsetIdx + gap);
+  // The copy has travelled further than j's own wave and is spread more, up to as the square of the path (skin loss).
+  const grow = (mj.onsetIdx + gap) / Math.max(1, mj.onsetIdx);
+  const spread = Math.ceil(Math.max(probe.w0, mj.riseSamples) * grow * grow);
+  const w = Math.ceil(Math.max(2 * probe.w0, mj.riseSamples));
+  const from = at - w;
+  const to = at + spread + w;
+  if (from <= mj.onsetIdx + mj.riseSamples || to >= probe.u.length) return null;
+  for (let l = j + 1; l < merged.length; l++) if (primary[l] && merged[l].onsetIdx <= to && merged[l].endIdx >= from) return null;
+  let before = 0;
+  let after = 0;
+  for (let i = from; i < at; i++) before += probe.u[i];
+  for (let i = at + spread; i < to; i++) after += probe.u[i];
+  const delta = ((after - before) / w) * Math.sign(mj.height);
+  // Two means of w samples: white noise on a step record; on a pulse record u is a running sum, so
+  // its noise grows with the samples between the two windows.
+  const sigma =
+    probe.mode === 'step'
+      ? probe.sigmaU * Math.sqrt(2 / w) * probe.noiseExcess(w)
+      : probe.scaleForPulse * Math.sqrt(spread + (2 * w) / 3) * probe.noiseExcess(w);
+  const rk = Math.min(0.95, Math.abs(mk.height));
+  const lumped = -Math.abs(mj.height) * rk * Math.min(1, Math.abs(mj.height) / (1 - rk) ** 2);
+  return { delta, sigma, lumped };
+}
+
+/**
+ * A closer larger than this share of its start stays a section's: a bridged tap's stub end, which the
+ * line shows just as an open behind a shunt of the line's own impedance, reads (2/3)²/(1/3) = 4/3 of
+ * its junction less the stub's loss, and is reported through the junction as a tap.
+ */
+const LUMPED_RATIO_MAX = 1.2;
+
+/**
+ * Is merged[k] the first edge of a section: is the next real edge an opposite one of like size?
+ * Not where that edge is the last one, a lumped k would make it an end (ρ ≥ 0.8 through (1 − |ρ_k|)²),
+ * it is not larger than a tap's stub end through little loss would read, and its bounce off k is
+ * seen with k's sign, standing 2.5 deviations out and at least half what a lumped k gives.
+ */
+function startsSection(merged: Measured[], primary: boolean[], k: number, probe?: BounceProbe): boolean {
   const m = merged[k];
   for (let j = k + 1; j < merged.length; j++) {
     if (!primary[j]) continue;
     const o = merged[j];
     if (Math.sign(o.height) === Math.sign(m.height)) return false;
     const ratio = Math.abs(o.height) / Math.abs(m.height);
-    return ratio > 0.6 && ratio < 1.4;
+    if (!(ratio > 0.6 && ratio < 1.4)) return false;
+    const last = merged.every((later, l) => l <= j || !primary[l] || Math.abs(later.height) < 0.1 * Math.abs(o.height));
+    const rk = Math.min(0.95, Math.abs(m.height));
+    const endIfLumped = Math.abs(o.height) / (1 - rk) ** 2 >= OPEN_MIN_RHO;
+    if (probe && last && ratio <= LUMPED_RATIO_MAX && endIfLumped) {
+      const b = bounceAfter(merged, primary, k, j, probe);
+      if (b && b.delta < -2.5 * b.sigma && b.delta < b.lumped / 2) return false;
+    }
+    return true;
   }
   return false;
 }
@@ -58,8 +137,9 @@ function startsSection(merged: Measured[], primary: boolean[], k: number): boole
 /**
  * Each event's own ρ, referred to the wave that reached it, and whether anything real
  * follows it. A mismatched source (ρ_s) shows every returning wave as (1 + ρ_s) of it.
+ * `probe`: the record's working level, to tell a lumped fault in front of the end from a section's start.
  */
-export function ownReflections(merged: Measured[], isEcho: boolean[], sourceRho = 0): OwnReflection[] {
+export function ownReflections(merged: Measured[], isEcho: boolean[], sourceRho = 0, probe?: BounceProbe): OwnReflection[] {
   const primary = isEcho.map((e) => !e);
   const atPort = 1 + sourceRho;
   let t = 1;
@@ -70,7 +150,7 @@ export function ownReflections(merged: Measured[], isEcho: boolean[], sourceRho 
     if (primary[k]) {
       const r = Math.min(0.95, Math.abs(rho));
       if (m.blip) t *= (1 - r * r) ** 2;
-      else t *= startsSection(merged, primary, k) ? 1 - r * r : (1 - r) ** 2;
+      else t *= startsSection(merged, primary, k, probe) ? 1 - r * r : (1 - r) ** 2;
     }
     return { rho, transmission, isLast };
   });
