@@ -10,7 +10,7 @@
  * cannot tell the two apart, so an edge is taken as a change of line when it
  * starts a section (an opposite edge of like size follows: a wet stretch, a
  * splice, a bridged tap's junction and stub end), whether or not more line shows
- * after it, and as a lumped fault otherwise. The pair's bounce tells a shunt or series fault
+ * after it, and as a lumped fault otherwise; the section's closing edge passes 1 − ρ² as well. The pair's bounce tells a shunt or series fault
  * in front of the end from a section when the closing edge is the last one: the end's wave
  * comes back off a lumped fault with the fault's own sign, off a section's start (seen from
  * within) with the opposite sign (L. V. Bewley, "Traveling Waves on Transmission Systems",
@@ -143,6 +143,7 @@ export function ownReflections(merged: Measured[], isEcho: boolean[], sourceRho 
   const primary = isEcho.map((e) => !e);
   const atPort = 1 + sourceRho;
   let t = 1;
+  const closers = new Set<number>();
   return merged.map((m, k) => {
     const transmission = t;
     const rho = clampRho(m.height / atPort / Math.max(0.05, transmission));
@@ -150,7 +151,13 @@ export function ownReflections(merged: Measured[], isEcho: boolean[], sourceRho 
     if (primary[k]) {
       const r = Math.min(0.95, Math.abs(rho));
       if (m.blip) t *= (1 - r * r) ** 2;
-      else t *= startsSection(merged, primary, k, probe) ? 1 - r * r : (1 - r) ** 2;
+      else if (closers.has(k)) t *= 1 - r * r;
+      else if (startsSection(merged, primary, k, probe)) {
+        t *= 1 - r * r;
+        // The section's closer is a change of line too: it passes 1 − ρ² as its start does.
+        const j = merged.findIndex((_, l) => l > k && primary[l]);
+        if (j > 0) closers.add(j);
+      } else t *= (1 - r) ** 2;
     }
     return { rho, transmission, isLast };
   });
