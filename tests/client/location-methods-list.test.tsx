@@ -63,3 +63,51 @@ describe('the best location headline', () => {
     expect(figure?.className).toContain('whitespace-nowrap');
   });
 });
+
+describe('whether the readings agree, in plain words', () => {
+  const run = { name: 'Feeder HN-3 to Ashby Lane', endALabel: 'Substation bay 3', endBLabel: 'Ashby Lane ring main unit', installedLengthM: 887, markers: [] };
+
+  it('says two readings agree without the test figures, which stand in full beside the readings', () => {
+    const agreeing = {
+      ...best,
+      verdict: 'The 2 readings agree (χ² = 0.02 on 1 degree of freedom, 95 % limit 3.84).',
+      test: { chiSquare: 0.02, degreesOfFreedom: 1, limit95: 3.84 },
+    } as unknown as BestLocationView;
+    render(<BestLocationHeadline best={agreeing} run={run as never} unit="m" strip={false} />);
+    expect(screen.getByTestId('best-verdict').textContent).toBe('The 2 readings agree.');
+    cleanup();
+    render(<LocationMethods best={agreeing} unit="m" />);
+    expect(screen.getByTestId('agreement-test').textContent).toMatch(/^Agreement test: χ² = 0\.02 on 1 degree of freedom \(95 % limit 3\.84\)\./);
+  });
+
+  it('names the reading set aside and how far off it is, without χ² or σ, when one of three stands apart', () => {
+    // As shared/locate/fuse.ts words an outlier: 80 m off, 7.1 standard uncertainties.
+    const disagreeing = {
+      ...best,
+      consistent: false,
+      verdict:
+        'The readings disagree (χ² = 50.40 on 2 degrees of freedom, 95 % limit 5.99). Murray loop from end A (reading 1) stands apart, 80.0 m further from end A than the others (7.1 σ); the other 2 agree and give the location without it.',
+    } as unknown as BestLocationView;
+    render(<BestLocationHeadline best={disagreeing} run={run as never} unit="ft" strip={false} />);
+    expect(screen.getByTestId('best-verdict').textContent).toBe(
+      'The readings disagree. Murray loop from end A (reading 1) stands apart, 262.5 ft further from end A than the others; the other 2 agree and give the location without it.',
+    );
+  });
+
+  it('says why there is no location when readings disagree and none stands apart, in the same plain words', () => {
+    const split = {
+      ...best,
+      consistent: false,
+      distanceFromAM: null,
+      windowStartM: null,
+      windowEndM: null,
+      verdict:
+        'The readings disagree (χ² = 50.00 on 1 degree of freedom, 95 % limit 3.84) and no single one stands apart, so they are not averaged into a location: TDR from end A (finding 1) and Murray loop from end A (reading 1) are 80.0 m apart (limit 22.2 m). A third, independent method would tell which one is wrong.',
+    } as unknown as BestLocationView;
+    render(<BestLocationHeadline best={split} run={run as never} unit="m" strip={false} />);
+    const notice = screen.getByText(/^The readings disagree and no single one stands apart/);
+    expect(notice.textContent).toBe(
+      'The readings disagree and no single one stands apart, so they are not averaged into a location: TDR from end A (finding 1) and Murray loop from end A (reading 1) are 80.0 m apart (limit 22.2 m). A third, independent method would tell which one is wrong.',
+    );
+  });
+});

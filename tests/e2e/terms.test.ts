@@ -31,9 +31,13 @@ describe('terms explained where they appear', () => {
     await page.goto(`${e2e.baseUrl}/traces/${trace.id}`);
 
     const reading = page.getByTestId('event-reading');
-    // The reading's words are unchanged by the term in it.
-    expect(await reading.textContent()).toMatch(/^ρ = \+0\.9\d\d · round-trip \d+\.\d ns$/);
-    const rho = reading.getByRole('button', { name: 'ρ', exact: true });
+    // The reading's words are unchanged by the term in it, and name the reflection coefficient in words, not by its symbol.
+    expect(await reading.textContent()).toMatch(/^Reflection coefficient \+0\.9\d\d · round-trip \d+\.\d ns$/);
+    // The event's title too: the open's kind and its reflection, no Greek letter a crew has to know.
+    const title = (await page.getByRole('heading', { name: /^Event \d+: / }).first().textContent())!;
+    expect(title).toMatch(/^Event \d+: Open · reflection \+0\.9\d/);
+    expect(title).not.toContain('ρ');
+    const rho = reading.getByRole('button', { name: 'Reflection coefficient', exact: true });
     expect(await rho.getAttribute('aria-expanded')).toBe('false');
     await rho.click();
     const rhoNote = page.getByRole('note', { name: 'ρ, the reflection coefficient' });
@@ -56,21 +60,25 @@ describe('terms explained where they appear', () => {
     expect(await z0Note.count()).toBe(0);
   });
 
-  it('explains χ², the 95 % window and the standard uncertainty on the three-reading ticket', async () => {
+  it('says in plain words that the readings agree on the three-reading ticket, explains the 95 % window and the standard uncertainty there, and χ² beside the readings on the finding', async () => {
     const run = (await CableRun.findOne({ where: { name: 'Feeder HN-3 to Ashby Lane' } }))!;
     const finding = (await Finding.findOne({ where: { cableRunId: run.id, status: 'confirmed' }, order: [['id', 'ASC']] }))!;
     const ticketId = (await TicketFinding.findOne({ where: { findingId: finding.id } }))!.ticketId;
     const page = await e2e.pageAs('supervisor@example.com', PHONE);
-    await page.goto(`${e2e.baseUrl}/tickets/${ticketId}`);
 
-    const verdict = page.getByTestId('best-verdict');
-    expect(await verdict.textContent()).toMatch(
-      /^The 2 readings agree \(χ² = \d+\.\d\d on 1 degree of freedom, 95 % limit 3\.84\)/,
-    );
-    await verdict.getByRole('button', { name: 'χ²' }).click();
+    // The finding's readings carry the agreement test's figures, χ² a tap away from its meaning.
+    await page.goto(`${e2e.baseUrl}/findings/${finding.id}`);
+    const agreement = page.getByTestId('agreement-test');
+    expect(await agreement.textContent()).toMatch(/^Agreement test: χ² = \d+\.\d\d on 1 degree of freedom \(95 % limit 3\.84\)/);
+    await agreement.getByRole('button', { name: 'χ²' }).click();
     const chi = page.getByRole('note', { name: 'χ², the agreement test' });
     expect(await chi.textContent()).toContain('Above it at least one is probably wrong');
     await insideScreen(page, chi);
+
+    // The ticket the crew digs by says it in plain words, without the test's figures.
+    await page.goto(`${e2e.baseUrl}/tickets/${ticketId}`);
+    expect(await page.getByTestId('best-verdict').textContent()).toBe('The 2 readings agree.');
+    expect(await page.getByTestId('best-location').textContent()).not.toMatch(/χ²|degree of freedom/);
 
     const window = page.getByTestId('best-window');
     await window.getByRole('button', { name: '95 % window' }).click();

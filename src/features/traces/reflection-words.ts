@@ -39,12 +39,12 @@ export function warningWords(w: { code: string; message: string }, blindZoneM: n
   return trueMinusInText(lengthsInText(text, unit));
 }
 
-/** ρ with its sign always written and a true minus: "ρ −0.54". */
+/** ρ in plain words, its sign always written and a true minus: "reflection −0.54". */
 export function rhoText(rho: number): string {
-  return `ρ ${signedRho(rho)}`;
+  return `reflection ${signedRho(rho)}`;
 }
 
-/** "Impedance drop · ρ −0.54": the engine's kind and the ρ it was named from. */
+/** "Impedance drop · reflection −0.54": the engine's kind and the ρ it was named from, in words a crew reads without the symbol. */
 export function eventTitle(e: Pick<ReflectionEvent, 'type' | 'reflectionCoefficient'>): string {
   return `${TYPE_WORDS[e.type]} · ${rhoText(e.reflectionCoefficient)}`;
 }
@@ -60,11 +60,11 @@ export function eventMeaning(e: Pick<ReflectionEvent, 'type' | 'reflectionCoeffi
   switch (e.type) {
     case 'open':
       if (rho < 0.8)
-        return 'Read as an open though ρ is below +0.80: nothing real follows it and its edge is spread by the cable’s loss, which takes more of a far end than the correction can be sure to give back. Likely the cable ends or a conductor is broken here; confirm from the other end.';
+        return 'Read as an open though the reflection is below +0.80: nothing real follows it and its edge is spread by the cable’s loss, which takes more of a far end than the correction can be sure to give back. Likely the cable ends or a conductor is broken here; confirm from the other end.';
       return 'A full open: the cable ends or a conductor is broken here.';
     case 'short':
       if (rho > -0.8)
-        return 'Read as a short though ρ is above −0.80: nothing real follows it and its edge is spread by the cable’s loss, which takes more of a far end than the correction can be sure to give back. Likely the conductors touch here; confirm from the other end.';
+        return 'Read as a short though the reflection is above −0.80: nothing real follows it and its edge is spread by the cable’s loss, which takes more of a far end than the correction can be sure to give back. Likely the conductors touch here; confirm from the other end.';
       return 'A full short: the conductors touch, or nearly, here.';
     case 'impedance-drop':
       if (size >= 0.3) return 'A strong drop, short of a full short (that reads beyond −0.80): a low-resistance fault, heavy water or a crushed section.';

@@ -26,16 +26,16 @@ describe('events named by their ρ', () => {
     // ρ = (8 − 30)/(8 + 30) = −0.579 for a change of line; the engine reads −0.54 for this fault and types it
     // from its ρ bands (a short needs ρ ≤ −0.8, common practice).
     const partial = { type: 'impedance-drop' as const, reflectionCoefficient: -0.54 };
-    expect(eventTitle(partial)).toBe('Impedance drop · ρ −0.54');
+    expect(eventTitle(partial)).toBe('Impedance drop · reflection −0.54');
     expect(eventMeaning(partial)).toMatch(/^A strong drop, short of a full short \(that reads beyond −0\.80\)/);
-    expect(eventTitle({ type: 'short', reflectionCoefficient: -0.97 })).toBe('Short · ρ −0.97');
+    expect(eventTitle({ type: 'short', reflectionCoefficient: -0.97 })).toBe('Short · reflection −0.97');
     expect(eventMeaning({ type: 'impedance-rise', reflectionCoefficient: 0.12 })).toBe('A rise: a high-resistance joint, a splice or a change of cable.');
     // A far, loss-spread end typed an open from a wider band (classify.ts) is not called a full open.
-    expect(eventMeaning({ type: 'open', reflectionCoefficient: 0.72 })).toMatch(/^Read as an open though ρ is below \+0\.80: nothing real follows it/);
+    expect(eventMeaning({ type: 'open', reflectionCoefficient: 0.72 })).toMatch(/^Read as an open though the reflection is below \+0\.80: nothing real follows it/);
     expect(eventMeaning({ type: 'open', reflectionCoefficient: 0.93 })).toBe('A full open: the cable ends or a conductor is broken here.');
-    expect(eventMeaning({ type: 'short', reflectionCoefficient: -0.6 })).toMatch(/^Read as a short though ρ is above −0\.80/);
-    expect(rhoText(0.004)).toBe('ρ 0.00');
-    expect(rhoText(0.81)).toBe('ρ +0.81');
+    expect(eventMeaning({ type: 'short', reflectionCoefficient: -0.6 })).toMatch(/^Read as a short though the reflection is above −0\.80/);
+    expect(rhoText(0.004)).toBe('reflection 0.00');
+    expect(rhoText(0.81)).toBe('reflection +0.81');
   });
 });
 

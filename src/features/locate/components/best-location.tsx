@@ -1,4 +1,3 @@
-import { Fragment } from 'react';
 import { Link } from 'react-router-dom';
 import type { BestLocationView, LocationMethodView } from '../../../../shared/schemas/measurements';
 import { methodShareText, weightText } from '../../../../shared/locate/words';
@@ -79,12 +78,12 @@ export function BestLocationHeadline({
         </>
       ) : (
         <Notice tone="danger" title="No best location: the readings disagree">
-          <p>{withChiSquare(lengthsInText(best.verdict, unit))}</p>
+          <p>{plainVerdict(lengthsInText(best.verdict, unit))}</p>
         </Notice>
       )}
       {best.distanceFromAM !== null && (
         <p className={`text-sm ${best.consistent ? 'text-ok' : 'font-semibold text-danger'}`} data-testid="best-verdict">
-          {withChiSquare(lengthsInText(best.verdict, unit))}
+          {plainVerdict(lengthsInText(best.verdict, unit))}
         </p>
       )}
       {!best.consistent && (
@@ -161,7 +160,7 @@ export function LocationMethods({ best, unit, findingLink }: { best: BestLocatio
         </table>
       </div>
       {best.test && (
-        <p className="text-xs text-mist">
+        <p className="text-xs text-mist" data-testid="agreement-test">
           Agreement test: <Term k="chiSquare">χ²</Term> = {best.test.chiSquare.toFixed(2)} on {best.test.degreesOfFreedom} degree{best.test.degreesOfFreedom === 1 ? '' : 's'} of freedom (95 % limit{' '}
           {best.test.limit95.toFixed(2)}). Readings are weighted by the inverse of their variance; errors they share (the installed length, one velocity factor) are counted once.
         </p>
@@ -192,13 +191,11 @@ export function LocationMethods({ best, unit, findingLink }: { best: BestLocatio
   );
 }
 
-/** A verdict's χ² as a term whose meaning is a tap away; the words are unchanged. */
-function withChiSquare(text: string) {
-  const parts = text.split('χ²');
-  return parts.map((part, i) => (
-    <Fragment key={i}>
-      {i > 0 && <Term k="chiSquare">χ²</Term>}
-      {part}
-    </Fragment>
-  ));
+/**
+ * The verdict in plain words for the crew: the agreement test's figures (χ², degrees
+ * of freedom, its limit, a reading's distance in σ) are left out here and stand in
+ * full under the readings behind the location ("Agreement test: …").
+ */
+export function plainVerdict(text: string): string {
+  return text.replace(/ \(χ² = [^)]*\)/g, '').replace(/ \(\d+(?:\.\d+)? σ\)/g, '');
 }

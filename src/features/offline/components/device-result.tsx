@@ -229,7 +229,7 @@ export function DeviceResult({
                 storedText={run ? null : 'The route markers of this run are not on this phone.'}
               />
               <p className="mt-2 text-sm text-ink-soft tabular">
-                ρ = {signedRho(selected.reflectionCoefficient, 3)} · round-trip {selected.roundTripNs.toFixed(1)} ns
+                Reflection coefficient {signedRho(selected.reflectionCoefficient, 3)} · round-trip {selected.roundTripNs.toFixed(1)} ns
                 {selected.likelyMultipleOf !== null ? ` · probably an echo of event ${selected.likelyMultipleOf + 1}` : ''}
               </p>
               <div className="mt-3">

@@ -40,7 +40,7 @@ export function EventCard({
   const reading = (
     <>
       <p className="mt-2 text-sm text-ink-soft tabular" data-testid="event-reading">
-        <Term k="rho">ρ</Term> = {signedRho(event.reflectionCoefficient, 3)}
+        <Term k="rho">Reflection coefficient</Term> {signedRho(event.reflectionCoefficient, 3)}
         {event.impedanceOhm !== null && Number.isFinite(event.impedanceOhm) && event.impedanceOhm < 1e5 ? ` · Z ≈ ${event.impedanceOhm.toFixed(0)} Ω` : ''} · <Term k="roundTrip">round-trip</Term>{' '}
         {event.roundTripNs.toFixed(1)} ns
         {event.likelyMultipleOf !== null ? ` · probably an echo of event ${event.likelyMultipleOf + 1}` : ''}
