@@ -16,7 +16,7 @@ describe('a new technician on the demo with no trace file of their own', () => {
     const page = await e2e.pageAs('tech2@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/upload`);
     await page.getByRole('heading', { name: 'No trace file to hand?' }).waitFor();
-    await page.getByRole('button', { name: 'Try the sample oakhollow-data-link-short.csv' }).click();
+    await page.getByRole('button', { name: 'Try this sample oakhollow-data-link-short.csv', exact: true }).click();
     // The sample fills in where it was taken.
     await page.getByText('oakhollow-data-link-short.csv').first().waitFor();
     await expect
@@ -45,7 +45,7 @@ describe('a new technician on the demo with no trace file of their own', () => {
     const tried = page.getByTestId('sample-traces').getByRole('link', { name: /^open trace \d+$/ });
     await tried.waitFor();
     expect(await tried.getAttribute('href')).toBe(traceUrl);
-    expect(await page.getByRole('button', { name: 'Try the sample oakhollow-data-link-short.csv' }).count()).toBe(0);
-    expect(await page.getByRole('button', { name: 'Try the sample brookfold-telemetry-open.csv' }).count()).toBe(1);
+    expect(await page.getByRole('button', { name: 'Try this sample oakhollow-data-link-short.csv', exact: true }).count()).toBe(0);
+    expect(await page.getByRole('button', { name: 'Try this sample brookfold-telemetry-open.csv', exact: true }).count()).toBe(1);
   });
 });

@@ -59,13 +59,11 @@ export function SampleTraces({
                   </Link>
                 </p>
               ) : (
-                <Button
-                  variant="secondary"
-                  onClick={() => void tryIt(s)}
-                  disabled={busy !== null}
-                  aria-label={`Try the sample ${s.file}`}
-                >
+                // The file's name is spoken after the words on the button (not instead of them), so a
+                // voice command of what the button says finds it and each sample's button is told apart.
+                <Button variant="secondary" onClick={() => void tryIt(s)} disabled={busy !== null}>
                   {busy === s.file ? 'Fetching…' : 'Try this sample'}
+                  {' '}<span className="sr-only">{s.file}</span>
                 </Button>
               )}
               <a
@@ -73,7 +71,7 @@ export function SampleTraces({
                 download={s.file}
                 className="inline-flex min-h-11 items-center px-2 text-teal underline"
               >
-                Download the CSV
+                Download the CSV{' '}<span className="sr-only">{s.file}</span>
               </a>
             </div>
           </li>
