@@ -2,6 +2,7 @@ import { useEffect, useRef, useState, type FormEvent } from 'react';
 import { ROLE_LABELS, ROLES, type Role } from '../../../shared/auth/permissions';
 import { Button } from '../../components/ui/button';
 import { Card, PageHeader } from '../../components/ui/card';
+import { CopyButton } from '../../components/ui/copy-button';
 import { fieldErrors, SelectField, TextField } from '../../components/ui/field';
 import { ErrorNotice, Loading, Notice } from '../../components/ui/notice';
 import { Pager } from '../../components/ui/pager';
@@ -26,6 +27,7 @@ export function AdminUsersPage() {
   // The password just issued (or the hand-over just done) is said above the list: on a phone the button pressed is
   // a screen or more below, so the page brings the notice into view and to the keyboard's and reader's attention.
   const said = useRef<HTMLDivElement>(null);
+  const issuedCode = useRef<HTMLElement>(null);
   useEffect(() => {
     if (!issued && !left) return;
     said.current?.scrollIntoView?.({ block: 'center' });
@@ -52,7 +54,12 @@ export function AdminUsersPage() {
         {issued && (
           <Notice tone="ok" title="Temporary password" className="mb-4">
             Give <strong>{issued.email}</strong> this password by a safe route; they will be asked to change it:{' '}
-            <code className="rounded bg-white px-1 font-mono">{issued.password}</code>
+            <span className="mt-2 flex flex-wrap items-center gap-2">
+              <code ref={issuedCode} className="rounded bg-white px-2 py-1 font-mono text-base" data-testid="temporary-password">
+                {issued.password}
+              </code>
+              <CopyButton key={issued.password} text={issued.password} target={issuedCode} label="Copy the password" />
+            </span>
           </Notice>
         )}
         {left && (
@@ -89,7 +96,8 @@ export function AdminUsersPage() {
             </>
           )}
         </Card>
-        <Card title="Add a person" className="min-w-0">
+        {/* On a phone the form comes before the list, which runs to many screens; on a wide screen it stands beside it. */}
+        <Card title="Add a person" className="min-w-0 max-lg:order-first">
           <form onSubmit={submit} className="space-y-3">
             <TextField
               label="Name"
