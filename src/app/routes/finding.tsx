@@ -8,7 +8,7 @@ import { useSession } from '../../features/auth/use-session';
 import { useFinding } from '../../features/findings/api/get-finding';
 import { useFindingTwoEnded } from '../../features/findings/api/get-two-ended';
 import { DecisionHistory } from '../../features/findings/components/decision-history';
-import { DistanceBlock, ReadingAlone, RouteSentence } from '../../features/findings/components/where-to-dig';
+import { DistanceBlock, onlyReadingOf, ReadingAlone, RouteSentence } from '../../features/findings/components/where-to-dig';
 import { useBestLocation } from '../../features/locate/api/get-best-location';
 import { BestLocationHeadline, LocationMethods } from '../../features/locate/components/best-location';
 import { MeasurementPanel } from '../../features/locate/components/measurement-panel';
@@ -108,6 +108,7 @@ export function FindingPage() {
                 storedText={f.routePositionText}
                 fused={best.distanceFromAM !== null}
                 bestShown={run.data !== undefined}
+                only={onlyReadingOf(best, f.id)}
               />
             ) : (
               <DistanceBlock distanceM={f.distanceM} windowStartM={f.windowStartM} windowEndM={f.windowEndM} end={f.end} endLabel={f.endLabel} unit={unit} pos={f.routePosition} storedText={f.routePositionText} />

@@ -20,7 +20,7 @@ import { EditTicketForm } from '../../features/tickets/components/edit-ticket-fo
 import { PriorityBadge, TicketStatusBadge } from '../../features/tickets/components/ticket-badges';
 import { SignOffSummary } from '../../features/tickets/components/sign-off-summary';
 import { TicketTimeline } from '../../features/tickets/components/ticket-timeline';
-import { ReadingAlone, RouteSentence } from '../../features/findings/components/where-to-dig';
+import { onlyReadingOf, ReadingAlone, RouteSentence } from '../../features/findings/components/where-to-dig';
 import { formatAge, formatDate, formatDateTime, formatLength, formatLengthRange, formatSignedLength, type LengthUnit } from '../../lib/format';
 import { ApiError, describeError } from '../../lib/api-client';
 import { useDevice } from '../../features/offline/device-context';
@@ -61,6 +61,7 @@ function FindingCard({ f, t, unit, live }: { f: TicketFindingView; t: TicketDeta
           distanceTestId="ticket-distance"
           routeTestId="ticket-route-position"
           fused={f.bestLocation.distanceFromAM !== null}
+          only={onlyReadingOf(f.bestLocation, f.id)}
         />
       ) : (
         <>
@@ -192,7 +193,7 @@ export function TicketPage() {
           <Card title="Where to dig">
             <div className="space-y-3">
               <TicketLocations t={t} unit={unit} methods={false} />
-              {t.findings.some((f) => f.bestLocation) && <h3 className="pt-2 text-sm font-semibold text-ink-soft">The TDR readings behind it</h3>}
+              {t.findings.some((f) => f.bestLocation) && <h3 className="pt-2 text-sm font-semibold text-ink-soft">{t.findings.length === 1 ? 'The TDR reading behind it' : 'The TDR readings behind it'}</h3>}
               {t.findings.map((f) => (
                 <FindingCard key={f.id} f={f} t={t} unit={unit} live={live} />
               ))}

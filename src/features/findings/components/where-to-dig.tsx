@@ -1,4 +1,5 @@
 import { describeCrossings, describeRoutePosition, routePosition, type RoutePosition, type RunLike } from '../../../../shared/field/route-position';
+import type { BestLocationView } from '../../../../shared/schemas/measurements';
 import type { ReflectionEvent } from '../../../../shared/schemas/trace-analysis';
 import { DigCaution } from '../../../components/ui/safety-caution';
 import { formatLength, formatLengthRange, lengthsInText, type LengthUnit } from '../../../lib/format';
@@ -90,6 +91,13 @@ export function DistanceBlock({
   );
 }
 
+/** The best location rests on this finding's reading and no other: its headline already says all the reading does. */
+export function onlyReadingOf(best: Pick<BestLocationView, 'methods' | 'distanceFromAM'> | null | undefined, findingId: number): boolean {
+  if (!best || best.distanceFromAM === null || best.methods.length !== 1) return false;
+  const [m] = best.methods;
+  return m!.used && m!.findingId === findingId && m!.measurementId === null;
+}
+
 /**
  * One TDR reading's own distance and windows, shown under a best location.
  * Every line says "this reading alone", so the crew never takes its narrower
@@ -97,7 +105,10 @@ export function DistanceBlock({
  * (`fused`), the marker warning belongs to its window and is left out here;
  * when they disagree, this reading's own warning stays. Until the best
  * location is on the page (`bestShown` false) it says that one is being
- * worked out, rather than pointing at a headline not there yet.
+ * worked out, rather than pointing at a headline not there yet. When the
+ * best location is this reading alone (`only`), its figures would repeat the
+ * headline's word for word: it says so instead, with the distance from the
+ * end it was measured at when that is end B (the headline counts from A).
  */
 export function ReadingAlone({
   distanceM,
@@ -113,6 +124,7 @@ export function ReadingAlone({
   routeTestId = 'route-position',
   fused,
   bestShown = true,
+  only = false,
 }: {
   distanceM: number;
   uncertaintyM: number;
@@ -127,7 +139,19 @@ export function ReadingAlone({
   routeTestId?: string;
   fused: boolean;
   bestShown?: boolean;
+  only?: boolean;
 }) {
+  if (only && fused && bestShown)
+    return (
+      <div className="space-y-1 text-sm tabular text-ink-soft" data-testid="reading-alone">
+        <p className="font-semibold text-ink">The best location above is this reading alone: the same distance, window and place to dig.</p>
+        {end === 'B' && (
+          <p data-testid={distanceTestId}>
+            Measured from end B ({endLabel}): {formatLength(distanceM, unit)} along the cable, ± {formatLength(uncertaintyM, unit)} (95 %)
+          </p>
+        )}
+      </div>
+    );
   const heading = !fused
     ? 'This reading alone (the readings disagree: check them before digging)'
     : bestShown
