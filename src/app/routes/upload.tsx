@@ -10,12 +10,11 @@ import { useCableRuns } from '../../features/sites/api/list-cable-runs';
 import { useSites } from '../../features/sites/api/list-sites';
 import { useSampleTraces } from '../../features/traces/api/list-sample-traces';
 import { useUploadTraces } from '../../features/traces/api/upload-traces';
-import { EndPicker } from '../../features/traces/components/end-picker';
-import { SiteRunFields } from '../../features/traces/components/site-run-fields';
+import { WhereCard } from '../../features/traces/components/where-card';
 import { formatFileSize } from '../../features/traces/components/file-size';
 import { SampleTraces } from '../../features/traces/components/sample-traces';
 import { fileAtFault, sameBytes, UploadOutcome } from '../../features/traces/components/upload-outcome';
-import { countOf, formatLength, fromUnit, lengthsInText } from '../../lib/format';
+import { fromUnit, lengthsInText } from '../../lib/format';
 import { useSession } from '../../features/auth/use-session';
 import { useDevice, useOnline } from '../../features/offline/device-context';
 import { paths } from '../paths';
@@ -173,24 +172,21 @@ export function UploadPage() {
             />
           )}
 
-          <Card title="1. Where">
-            <SiteRunFields
-              sites={siteItems}
-              runs={runItems}
-              siteId={siteId}
-              runId={run ? runId : ''}
-              onSite={(id) => (setSiteId(id), setRunId(''))}
-              onRun={setRunId}
-              runError={errors.cableRunId}
-            />
-            {run && (
-              <p className="mt-2 text-sm text-ink-soft">
-                {run.cableType.name} · VF {run.cableType.vf.toFixed(3)} ± {(run.cableType.vfTolerance * 100).toFixed(1)} % · installed {formatLength(run.installedLengthM, unit)} ·{' '}
-                {countOf(run.markers.length, 'route marker')}
-              </p>
-            )}
-            <EndPicker end={end} onChange={setEnd} labels={run ? { A: run.endALabel, B: run.endBLabel } : null} error={errors.end} />
-          </Card>
+          <WhereCard
+            sites={siteItems}
+            runs={runItems}
+            siteId={siteId}
+            runId={runId}
+            onSite={(id) => (setSiteId(id), setRunId(''))}
+            onRun={setRunId}
+            runError={errors.cableRunId}
+            run={run}
+            cable={run?.cableType}
+            unit={unit}
+            end={end}
+            onEnd={setEnd}
+            endError={errors.end}
+          />
 
           <Card title="2. Trace files">
             <div

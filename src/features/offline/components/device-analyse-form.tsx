@@ -5,9 +5,8 @@ import { Button } from '../../../components/ui/button';
 import { Card } from '../../../components/ui/card';
 import { SelectField, TextField } from '../../../components/ui/field';
 import { Notice } from '../../../components/ui/notice';
-import { countOf, formatLength, fromUnit, type LengthUnit } from '../../../lib/format';
-import { EndPicker } from '../../traces/components/end-picker';
-import { SiteRunFields } from '../../traces/components/site-run-fields';
+import { fromUnit, type LengthUnit } from '../../../lib/format';
+import { WhereCard } from '../../traces/components/where-card';
 import { formatFileSize } from '../../traces/components/file-size';
 import { analyseOnDevice, startEngine } from '../analyse-on-device';
 import { analysisCableOf } from '../cable-values';
@@ -163,26 +162,20 @@ export function DeviceAnalyseForm({
 
   return (
     <form onSubmit={(e) => void submit(e)} className="space-y-4" aria-label="Analyse a trace on this phone">
-      <Card title="1. Where">
-        <SiteRunFields
-          sites={sites}
-          runs={runs}
-          siteId={siteId}
-          runId={run ? runId : ''}
-          onSite={(id) => (setSiteId(id), setRunId(''))}
-          onRun={setRunId}
-          runError={errors.cableRunId}
-        />
-        {run && (
-          <p className="mt-2 text-sm text-ink-soft">
-            {cable
-              ? `${cable.name} · VF ${cable.vf.toFixed(3)} ± ${(cable.vfTolerance * 100).toFixed(1)} %`
-              : 'Its cable type is not in the library kept on this phone'}{' '}
-            · installed {formatLength(run.installedLengthM, unit)} · {countOf(run.markers.length, 'route marker')}
-          </p>
-        )}
-        <EndPicker end={end} onChange={setEnd} labels={run ? { A: run.endALabel, B: run.endBLabel } : null} />
-      </Card>
+      <WhereCard
+        sites={sites}
+        runs={runs}
+        siteId={siteId}
+        runId={runId}
+        onSite={(id) => (setSiteId(id), setRunId(''))}
+        onRun={setRunId}
+        runError={errors.cableRunId}
+        run={run}
+        cable={cable}
+        unit={unit}
+        end={end}
+        onEnd={setEnd}
+      />
 
       <Card title="2. Trace file">
         <Button variant="secondary" className="min-h-14 w-full text-base sm:w-auto" onClick={() => input.current?.click()}>
