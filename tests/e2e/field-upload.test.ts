@@ -76,7 +76,10 @@ describe('a technician on a phone', () => {
     await page.getByRole('link', { name: /^finding \d+$/ }).click();
     await page.getByRole('heading', { name: /Finding \d+: Open conductor/ }).waitFor();
     expect(await page.getByRole('note', { name: 'Safety caution' }).isVisible()).toBe(true);
-    expect(await page.getByTestId('route-position').textContent()).toBe(where);
+    // The one reading is the best location: the place to dig is said once, in the headline, as the trace page said it.
+    expect(await page.getByTestId('best-route-position').textContent()).toBe(where);
+    expect(await page.getByTestId('reading-alone').textContent()).toBe('The best location above is this reading alone: the same distance, window and place to dig.');
+    expect(await page.getByTestId('route-position').count()).toBe(0);
     await e2e.screenshot(page, 'field-finding-phone');
 
     const findings = await Finding.findAll({ where: { cableRunId: run.id, status: 'confirmed' } });
