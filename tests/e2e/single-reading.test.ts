@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CableRun, Finding, TicketFinding } from '../../server/db/models';
 import { formatLengthRange } from '../../src/lib/format';
-import { PHONE, signIn, startE2E, type E2E } from './support/browser';
+import { PHONE, startE2E, type E2E } from './support/browser';
 
 let e2e: E2E;
 beforeAll(async () => {
@@ -16,9 +16,7 @@ describe('a repair located by one TDR reading, on the crew’s phone', () => {
     const run = (await CableRun.findOne({ where: { name: 'Radio mast feeder BF-R1' } }))!;
     const finding = (await Finding.findOne({ where: { cableRunId: run.id, status: 'confirmed' } }))!;
     const ticketId = (await TicketFinding.findOne({ where: { findingId: finding.id } }))!.ticketId;
-    const page = await e2e.newPage(PHONE);
-    await signIn(page, e2e.baseUrl, 'tech@example.com');
-    await page.getByTestId('signed-in-name').first().waitFor({ state: 'attached' });
+    const page = await e2e.pageAs('tech@example.com', PHONE);
     await page.goto(`${e2e.baseUrl}/tickets/${ticketId}`);
 
     // The headline: the reading's own window (one window per reading), from end A where it was taken.
