@@ -521,6 +521,7 @@ function analyzeOnce(
   const tb: Timebase = { rec, launch: L, signal, launchOnset, zeroOverride, zeroShift: referencePlaneShift(L, merged) };
   const events = describeEvents(merged, tb, options, warnings);
   if (!L.clipped) warnings.push(...dropOverUnity(events));
+  warnings.push(...dropUnplaced(events));
   const seenPastShort =
     L.mode === 'step' && (lineSeenPastShort(events) || sinksPastShort(rec, L, sigma0, shortEnd(events, merged, tb)));
   if (L.mode === 'step' && !seenPastShort) retypeDropsWithLineBeyond(events, options.z0Ohm ?? null, warnings);
@@ -562,11 +563,24 @@ function analyzeOnce(
  * read larger is the launch's own ringing or a misread scale, not a reflection.
  */
 export function dropOverUnity(events: ReflectionEvent[], bound = 2): TraceWarning[] {
+  const dropped = dropEvents(events, (e) => Math.abs(rawRho(e)) > bound);
+  if (dropped.length === 0) return [];
+  return [
+    {
+      code: 'OVER_UNITY_IGNORED',
+      message: `${dropped.length} edge(s) read larger than a passive line can return were ignored as the launch's ringing`,
+    },
+  ];
+}
+
+/** Removes the events `drop` picks, with the echoes marked as theirs, numbers the rest again and returns what went. */
+function dropEvents(events: ReflectionEvent[], drop: (e: ReflectionEvent) => boolean): ReflectionEvent[] {
   const dropped = new Set<number>();
   for (const e of events) {
-    if (Math.abs(rawRho(e)) > bound || (e.likelyMultipleOf !== null && dropped.has(e.likelyMultipleOf))) dropped.add(e.index);
+    if (drop(e) || (e.likelyMultipleOf !== null && dropped.has(e.likelyMultipleOf))) dropped.add(e.index);
   }
   if (dropped.size === 0) return [];
+  const gone = events.filter((e) => dropped.has(e.index));
   const kept = events.filter((e) => !dropped.has(e.index));
   const renumber = new Map(kept.map((e, k) => [e.index, k]));
   for (const e of kept) {
@@ -574,12 +588,34 @@ export function dropOverUnity(events: ReflectionEvent[], bound = 2): TraceWarnin
     if (e.likelyMultipleOf !== null) e.likelyMultipleOf = renumber.get(e.likelyMultipleOf) ?? null;
   }
   events.splice(0, events.length, ...kept);
-  return [
-    {
-      code: 'OVER_UNITY_IGNORED',
-      message: `${dropped.size} edge(s) read larger than a passive line can return were ignored as the launch's ringing`,
-    },
-  ];
+  return gone;
+}
+
+/**
+ * An event is placed only when its window is narrower than this fraction of its distance either
+ * side, or it stands at least UNPLACED_SNR above the noise. A reflection off a discontinuity is an
+ * edge the fit can time; a weak change that the fit can place only to within a fifth of its own
+ * distance is a slow change of level (the creep of a lossy line, a wander of coloured noise, the
+ * foot of a far edge) that no distance can be given for, so it is said, not listed as an event.
+ * On the simulated tuning traces (scripts/sim2) no event that had to be found was read both this weak
+ * and this spread.
+ */
+export const UNPLACED_WINDOW_FRACTION = 0.2;
+/** The SNR at and above which an event is kept however wide its window (see UNPLACED_WINDOW_FRACTION). */
+export const UNPLACED_SNR = 10;
+
+/**
+ * Drops the events too weak and too spread to place (UNPLACED_WINDOW_FRACTION), with any echo
+ * marked as theirs, and says where each lay.
+ */
+export function dropUnplaced(events: ReflectionEvent[]): TraceWarning[] {
+  const unplaced = (e: ReflectionEvent) => e.snr < UNPLACED_SNR && e.uncertaintyM > UNPLACED_WINDOW_FRACTION * e.distanceM;
+  return dropEvents(events, unplaced)
+    .filter(unplaced)
+    .map((e) => ({
+      code: 'UNPLACED_CHANGE',
+      message: `a weak, slow change of level near ${e.distanceM.toFixed(1)} m (± ${e.uncertaintyM.toFixed(1)} m, ${e.snr.toFixed(1)} times the noise) is too spread to place; it is not listed as an event`,
+    }));
 }
 
 function noLaunchWarning(rec: TraceRecord): TraceWarning {
