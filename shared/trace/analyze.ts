@@ -31,7 +31,7 @@ import type { ParsedTrace } from './parse';
 import { buildWorkingSignal } from './signal';
 import { percentileOf, sampleMedian, sortedSample } from './stats';
 import type { Candidate, Launch, Measured, TraceRecord } from './steps';
-import { budgetView, uncertaintyBudget, WINDOW_COVERAGE } from './uncertainty';
+import { budgetView, COVERAGE_FACTOR, uncertaintyBudget, WINDOW_COVERAGE } from './uncertainty';
 import { ENGINE_VERSION } from './version';
 
 export interface AnalyzeOptions {
@@ -592,11 +592,13 @@ function dropEvents(events: ReflectionEvent[], drop: (e: ReflectionEvent) => boo
 }
 
 /**
- * An event is placed only when its window is narrower than this fraction of its distance either
- * side, or it stands at least UNPLACED_SNR above the noise. A reflection off a discontinuity is an
- * edge the fit can time; a weak change that the fit can place only to within a fifth of its own
- * distance is a slow change of level (the creep of a lossy line, a wander of coloured noise, the
- * foot of a far edge) that no distance can be given for, so it is said, not listed as an event.
+ * An event is placed only when the fit times it (the timing term of its window, at the window's
+ * coverage) to better than this fraction of its distance either side, or it stands at least
+ * UNPLACED_SNR above the noise. A reflection off a discontinuity is an edge the fit can time; a weak
+ * change that the fit can time only to within a fifth of its own distance is a slow change of level
+ * (a wander of coloured noise, the foot of a far edge) that no distance can be given for, so it is
+ * said, not listed as an event. A far echo spread by loss is timed well and kept, however wide the
+ * loss model's share of its window.
  * On the simulated tuning traces (scripts/sim2) no event that had to be found was read both this weak
  * and this spread.
  */
@@ -609,12 +611,13 @@ export const UNPLACED_SNR = 10;
  * marked as theirs, and says where each lay.
  */
 export function dropUnplaced(events: ReflectionEvent[]): TraceWarning[] {
-  const unplaced = (e: ReflectionEvent) => e.snr < UNPLACED_SNR && e.uncertaintyM > UNPLACED_WINDOW_FRACTION * e.distanceM;
+  const unplaced = (e: ReflectionEvent) =>
+    e.snr < UNPLACED_SNR && COVERAGE_FACTOR * (e.uncertaintyBudget?.timingM ?? 0) > UNPLACED_WINDOW_FRACTION * e.distanceM;
   return dropEvents(events, unplaced)
     .filter(unplaced)
     .map((e) => ({
       code: 'UNPLACED_CHANGE',
-      message: `a weak, slow change of level near ${e.distanceM.toFixed(1)} m (± ${e.uncertaintyM.toFixed(1)} m, ${e.snr.toFixed(1)} times the noise) is too spread to place; it is not listed as an event`,
+      message: `a weak, slow change of level near ${e.distanceM.toFixed(1)} m (timed to ± ${(COVERAGE_FACTOR * (e.uncertaintyBudget?.timingM ?? 0)).toFixed(1)} m, ${e.snr.toFixed(1)} times the noise) is too spread to place; it is not listed as an event`,
     }));
 }
 

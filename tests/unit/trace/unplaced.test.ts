@@ -5,19 +5,20 @@ import { dropUnplaced } from '../../../shared/trace/analyze';
 import { drawCase } from '../../../scripts/sim2/cases';
 
 /**
- * A weak change of level that the edge fit can place only to within a fifth of its own distance (the
- * window's half-width) is not listed as an event: it is a slow change (a lossy line's creep, a wander of
- * the noise, the foot of a far edge), not an edge off a discontinuity, and no distance can be given for
- * it. The record's warnings say where it lay. The traces are cases of the second simulator (scripts/sim2,
+ * A weak change of level that the edge fit can time only to within a fifth of its own distance (the
+ * timing term of its window) is not listed as an event: it is a slow change (a wander of the noise, the
+ * foot of a far edge), not an edge off a discontinuity, and no distance can be given for it. A far echo
+ * spread by loss, timed well but with a wide window from the loss model, stays (detect-coarse-edge-lobe). The record's warnings say where it lay. The traces are cases of the second simulator (scripts/sim2,
  * finite differences of the telegrapher's equations with the line's loss), drawn from fixed seeds; the
  * check values are where it put the events.
  */
 
-const ev = (distanceM: number, uncertaintyM: number, snr: number, likelyMultipleOf: number | null, index: number) =>
+const ev = (distanceM: number, timingM: number, snr: number, likelyMultipleOf: number | null, index: number, lossM = 0) =>
   ({
     index,
     distanceM,
-    uncertaintyM,
+    uncertaintyM: 2 * Math.hypot(timingM, lossM),
+    uncertaintyBudget: { vfM: 0, samplingM: 0, timingM, lossM, dispersionM: 0, combinedM: Math.hypot(timingM, lossM) },
     snr,
     reflectionCoefficient: 0.05,
     reflectionCoefficientRaw: 0.05,
@@ -36,35 +37,38 @@ const listed = (events: ReadonlyArray<{ distanceM: number; type: string }>) =>
   JSON.stringify(events.map((e) => [e.distanceM.toFixed(2), e.type]));
 
 describe('events too weak and too spread to place', () => {
-  it('drops a weak event whose window is wider than a fifth of its distance, with its echo, and keeps the rest', () => {
+  it('drops a weak event timed to worse than a fifth of its distance, with its echo, and keeps the rest', () => {
+    // Standard uncertainties; the window's timing term is twice them (k = 2).
     const events = [
-      ev(50, 1.2, 30, null, 0), // narrow and strong
-      ev(650, 300, 5.8, null, 1), // ± 46 % at 5.8 σ: dropped
-      ev(1300, 20, 5.5, 1, 2), // its echo goes with it, though placed to 2 %
-      ev(1280, 400, 19.6, null, 3), // as spread, but standing well out of the noise: kept
-      ev(3.5, 0.6, 8.8, null, 4), // weak, but placed to 17 % of its distance: kept
+      ev(50, 0.6, 30, null, 0), // timed well and strong
+      ev(650, 150, 5.8, null, 1), // timed to ± 46 % at 5.8 σ: dropped
+      ev(1300, 10, 5.5, 1, 2), // its echo goes with it, though timed to 2 %
+      ev(1280, 200, 19.6, null, 3), // as spread, but standing well out of the noise: kept
+      ev(3.5, 0.3, 8.8, null, 4), // weak, but timed to 17 % of its distance: kept
+      ev(1395, 4.6, 6.6, null, 5, 110), // weak, a window of ± 16 % from the loss model, timed to 0.7 %: kept
     ];
     const warnings = dropUnplaced(events);
     expect(events.map((e) => [e.distanceM, e.index])).toEqual([
       [50, 0],
       [1280, 1],
       [3.5, 2],
+      [1395, 3],
     ]);
     expect(warnings.map((w) => w.code)).toEqual(['UNPLACED_CHANGE']);
-    expect(warnings[0].message).toContain('650.0 m (± 300.0 m, 5.8 times the noise)');
+    expect(warnings[0].message).toContain('650.0 m (timed to ± 300.0 m, 5.8 times the noise)');
   });
 
-  it('3691 m of pair, step record, loss known: no event at 1170 m ± 357 m', () => {
-    // The wet section starts at 1014.44 m (ρ −0.065); a change of level read at 1170.11 m ± 357.32 m,
-    // 6.6 times the noise, was listed as a drop 156 m off it.
-    const { c, a } = analyseDrawn(0x43a0c0b5, 66, true);
+  it('3691 m of pair, step record, loss unknown: no event at 649 m timed to ± 300 m', () => {
+    // The wet section starts at 1014.44 m (ρ −0.065); a rise read at 649.09 m ± 300.50 m (its timing
+    // term 300.1 m), 5.8 times the noise, was listed where the line has nothing.
+    const { c, a } = analyseDrawn(0x43a0c0b5, 66, false);
     expect(c.expected[0].distanceM).toBeCloseTo(1014.44, 1);
     expect(
-      a.events.some((e) => Math.abs(e.distanceM - 1170.11) < 50),
+      a.events.some((e) => Math.abs(e.distanceM - 649.09) < 50),
       listed(a.events),
     ).toBe(false);
     const w = a.warnings.find((x) => x.code === 'UNPLACED_CHANGE');
-    expect(w?.message).toContain('1170.1 m (± 357.3 m, 6.6 times the noise)');
+    expect(w?.message).toContain('649.1 m (timed to ± 300.1 m, 5.8 times the noise)');
   });
 
   it('162 m of coax, step record, loss unknown: the shunt at 80.6 m stays, the spread rise at 6.2 m goes', () => {
