@@ -40,3 +40,23 @@ export function gaussianShapes(riseSamples: number) {
   const pulse = (i: number, a: number, w: number) => edge(i - a) - edge(i - a - w);
   return { edge, pulse };
 }
+
+/**
+ * A step record of erf edges (each `height` high, centred on sample `at`, a 10–90 % rise of about
+ * 2.6 samples) plus uniform noise of ± 0.002 from a linear congruential generator started at `seed`,
+ * so every run of a test sees the same samples.
+ */
+export function erfStepTrace(n: number, parts: Array<{ at: number; height: number }>, seed: number): Float64Array {
+  let s = seed >>> 0;
+  const noise = () => {
+    s = (Math.imul(s, 1103515245) + 12345) >>> 0;
+    return (s / 2 ** 32 - 0.5) * 0.004;
+  };
+  const y = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    let v = 0;
+    for (const p of parts) v += (p.height * (1 + erf((i - p.at) / 2))) / 2;
+    y[i] = v + noise();
+  }
+  return y;
+}

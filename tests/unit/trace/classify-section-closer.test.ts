@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { analyzeTrace } from '../../../shared/trace';
-import { erf, parsedTrace } from '../../support/parsed-trace';
+import { erfStepTrace, parsedTrace } from '../../support/parsed-trace';
 
 /**
  * A fault seen through a section: a change of line passes 1 + ρ one way and 1 − ρ the other,
@@ -10,20 +10,7 @@ import { erf, parsedTrace } from '../../support/parsed-trace';
  * 0.96·0.2 = 0.192), and a shunt of own ρ = −0.3 at sample 600, read through both edges as
  * 0.96²·(−0.3) = −0.276.
  */
-function stepTrace(n: number, parts: Array<{ at: number; height: number }>): Float64Array {
-  let seed = 0x3c6ef372;
-  const noise = () => {
-    seed = (Math.imul(seed, 1103515245) + 12345) >>> 0;
-    return (seed / 2 ** 32 - 0.5) * 0.004;
-  };
-  const y = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let v = 0;
-    for (const p of parts) v += (p.height * (1 + erf((i - p.at) / 2))) / 2;
-    y[i] = v + noise();
-  }
-  return y;
-}
+const stepTrace = (n: number, parts: Array<{ at: number; height: number }>) => erfStepTrace(n, parts, 0x3c6ef372);
 
 describe('a fault behind a section', () => {
   it('is read through 1 − ρ² at the section’s closing edge as at its start', () => {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { analyzeTrace } from '../../../shared/trace';
-import { erf, parsedTrace } from '../../support/parsed-trace';
+import { erfStepTrace, parsedTrace } from '../../support/parsed-trace';
 
 /**
  * A shunt fault followed by the cable's open end, against a low-impedance section whose closing edge
@@ -15,20 +15,7 @@ import { erf, parsedTrace } from '../../support/parsed-trace';
  * copy at 800 is 0.84·0.4³ = +0.054 (D. M. Pozar, "Microwave Engineering", 4th ed., §2.3; the bounce
  * diagram: L. V. Bewley, "Traveling Waves on Transmission Systems", 2nd ed., ch. 3).
  */
-function stepTrace(n: number, parts: Array<{ at: number; height: number }>): Float64Array {
-  let seed = 0x1b873593;
-  const noise = () => {
-    seed = (Math.imul(seed, 1103515245) + 12345) >>> 0;
-    return (seed / 2 ** 32 - 0.5) * 0.004;
-  };
-  const y = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let v = 0;
-    for (const p of parts) v += (p.height * (1 + erf((i - p.at) / 2))) / 2;
-    y[i] = v + noise();
-  }
-  return y;
-}
+const stepTrace = (n: number, parts: Array<{ at: number; height: number }>) => erfStepTrace(n, parts, 0x1b873593);
 
 const analyse = (y: Float64Array) => analyzeTrace(parsedTrace(y, { dtS: 1e-9 }), { vf: 0.66, z0Ohm: 50 });
 const at = (a: ReturnType<typeof analyse>, ns: number) =>

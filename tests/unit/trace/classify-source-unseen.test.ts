@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { analyzeTrace } from '../../../shared/trace';
-import { erf, parsedTrace } from '../../support/parsed-trace';
+import { erfStepTrace, parsedTrace } from '../../support/parsed-trace';
 
 /**
  * The last edge of a short pair read through an instrument whose source does not match the line.
@@ -14,20 +14,7 @@ import { erf, parsedTrace } from '../../support/parsed-trace';
 const LAUNCH = 100;
 const END = 700;
 
-function stepTrace(n: number, parts: Array<{ at: number; height: number }>): Float64Array {
-  let seed = 0x2545f491;
-  const noise = () => {
-    seed = (Math.imul(seed, 1103515245) + 12345) >>> 0;
-    return (seed / 2 ** 32 - 0.5) * 0.004;
-  };
-  const y = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let v = 0;
-    for (const p of parts) v += (p.height * (1 + erf((i - p.at) / 2))) / 2;
-    y[i] = v + noise();
-  }
-  return y;
-}
+const stepTrace = (n: number, parts: Array<{ at: number; height: number }>) => erfStepTrace(n, parts, 0x2545f491);
 
 const analyse = (y: Float64Array) => analyzeTrace(parsedTrace(y, { dtS: 1e-9 }), { vf: 0.66, z0Ohm: 100 });
 const lastEvent = (y: Float64Array) => {
