@@ -17,7 +17,9 @@ let tech: Client;
 let sup: Client;
 
 beforeAll(async () => {
-  api = await startApi();
+  // Twenty uploads at once from one account: the per-person caps on uploads under way and files waiting
+  // (uploads-at-once.test.ts, upload-waiting-cap.test.ts) are raised so that only the storage's concurrency is tested.
+  api = await startApi({ uploadsAtOncePerUser: 100, analysisPendingPerUser: 100 });
   fx = await supervisedRun(api, 'Busy run');
   tech = await api.as('technician');
   sup = await api.as('supervisor');

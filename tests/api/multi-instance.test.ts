@@ -61,6 +61,9 @@ async function startChild(port: number) {
       JOB_POLL_S: String(JOBS.pollSeconds),
       JOB_LEASE_S: String(JOBS.leaseSeconds),
       ANALYSIS_INLINE_MAX_KB: String(INLINE_MAX_KB),
+      // Many uploads at once from one account: the per-person caps (their own tests) are raised here.
+      UPLOADS_AT_ONCE_PER_USER: '100',
+      ANALYSIS_PENDING_PER_USER: '100',
     },
     stdio: ['ignore', 'ignore', 'pipe'],
   });
@@ -86,7 +89,7 @@ beforeAll(async () => {
   db = await freshDatabase();
   s3 = await startFakeS3();
   const base = testConfig(db.url, db.dir, {});
-  config = { ...base, storageUrl: s3.storageUrl('multi'), trustProxyHops: 1, login: { ...base.login, delayMs: 0 }, jobs: JOBS, analysisInlineMaxBytes: INLINE_MAX_KB * 1024 };
+  config = { ...base, storageUrl: s3.storageUrl('multi'), trustProxyHops: 1, login: { ...base.login, delayMs: 0 }, jobs: JOBS, analysisInlineMaxBytes: INLINE_MAX_KB * 1024, uploadsAtOncePerUser: 100, analysisPendingPerUser: 100 };
   b = await createApp(config);
   const hash = await hashPassword(TEST_PASSWORD);
   for (const role of ['technician', 'planner'] as const) await User.create({ email: `${role}.multi@example.com`, name: `Multi ${role}`, role, passwordHash: hash });
