@@ -145,7 +145,7 @@ function describeEvents(merged: Measured[], tb: Timebase, options: AnalyzeOption
   );
   if (echoes.sourceRho !== 0) warnings.push(sourceWarning(echoes.sourceRho));
   const isEcho = echoes.of.map((s) => s !== null);
-  const own = ownReflections(merged, isEcho, echoes.sourceRho, sig);
+  const own = ownReflections(merged, isEcho, echoes.sourceRho, sig, L.found ? L.riseSamples : sig.w0);
   const events: ReflectionEvent[] = [];
   const eventOf = new Map<number, number>();
   for (const [mi, m] of merged.entries()) {

@@ -112,9 +112,10 @@ const LUMPED_RATIO_MAX = 1.2;
  * Is merged[k] the first edge of a section: is the next real edge an opposite one of like size?
  * Not where that edge is the last one, a lumped k would make it an end (ρ ≥ 0.8 through (1 − |ρ_k|)²),
  * it is not larger than a tap's stub end through little loss would read, and its bounce off k is
- * seen with k's sign, standing 2.5 deviations out and at least half what a lumped k gives.
+ * seen with k's sign, standing 2.5 deviations out and at least half what a lumped k gives, or falls past the
+ * record's end. A closer spread by loss is an end through a lumped k from the wider bands of classifyEvent.
  */
-function startsSection(merged: Measured[], primary: boolean[], k: number, probe?: BounceProbe): boolean {
+function startsSection(merged: Measured[], primary: boolean[], k: number, probe?: BounceProbe, launchRise = 1): boolean {
   const m = merged[k];
   for (let j = k + 1; j < merged.length; j++) {
     if (!primary[j]) continue;
@@ -124,10 +125,16 @@ function startsSection(merged: Measured[], primary: boolean[], k: number, probe?
     if (!(ratio > 0.6 && ratio < 1.4)) return false;
     const last = merged.every((later, l) => l <= j || !primary[l] || Math.abs(later.height) < 0.1 * Math.abs(o.height));
     const rk = Math.min(0.95, Math.abs(m.height));
-    const endIfLumped = Math.abs(o.height) / (1 - rk) ** 2 >= OPEN_MIN_RHO;
+    const [openBand, shortBand] = endBands(o, launchRise);
+    const ifLumped = o.height / (1 - rk) ** 2;
+    const endIfLumped = ifLumped >= openBand || ifLumped <= shortBand;
     if (probe && last && ratio <= LUMPED_RATIO_MAX && endIfLumped) {
       const b = bounceAfter(merged, primary, k, j, probe);
       if (b && b.delta < -2.5 * b.sigma && b.delta < b.lumped / 2) return false;
+      // Where the record ends before that bounce could come back, nothing shows a section running on past
+      // the record with the line behind it unseen; a fault in front of the end is the usual reading (common
+      // practice: a last edge that would make an open or a short through a lumped fault is read as the end).
+      if (!b) return false;
     }
     return true;
   }
@@ -139,7 +146,13 @@ function startsSection(merged: Measured[], primary: boolean[], k: number, probe?
  * follows it. A mismatched source (ρ_s) shows every returning wave as (1 + ρ_s) of it.
  * `probe`: the record's working level, to tell a lumped fault in front of the end from a section's start.
  */
-export function ownReflections(merged: Measured[], isEcho: boolean[], sourceRho = 0, probe?: BounceProbe): OwnReflection[] {
+export function ownReflections(
+  merged: Measured[],
+  isEcho: boolean[],
+  sourceRho = 0,
+  probe?: BounceProbe,
+  launchRise = 1,
+): OwnReflection[] {
   const primary = isEcho.map((e) => !e);
   const atPort = 1 + sourceRho;
   let t = 1;
@@ -152,7 +165,7 @@ export function ownReflections(merged: Measured[], isEcho: boolean[], sourceRho 
       const r = Math.min(0.95, Math.abs(rho));
       if (m.blip) t *= (1 - r * r) ** 2;
       else if (closers.has(k)) t *= 1 - r * r;
-      else if (startsSection(merged, primary, k, probe)) {
+      else if (startsSection(merged, primary, k, probe, launchRise)) {
         t *= 1 - r * r;
         // The section's closer is a change of line too: it passes 1 − ρ² as its start does.
         const j = merged.findIndex((_, l) => l > k && primary[l]);
@@ -169,6 +182,15 @@ export function ownReflections(merged: Measured[], isEcho: boolean[], sourceRho 
  * for an instrument matched to its cable class (e.g. a 50 Ω instrument on 100 Ω pair).
  */
 export const SOURCE_SHARE_MIN = 2 / 3;
+
+/**
+ * The ρ bands a last event is typed an open or a short from: ±0.8, or, for an edge visibly spread by
+ * loss (rise at least four launch rises), the wider bands of classifyEvent.
+ */
+function endBands(m: Measured, launchRise: number): [number, number] {
+  if (m.riseSamples < 4 * Math.max(1, launchRise)) return [OPEN_MIN_RHO, SHORT_MAX_RHO];
+  return m.lossCorrected ? [0.5, -0.55] : [0.35, -0.45];
+}
 
 /**
  * Open, short, or an impedance rise or drop, from the event's own ρ; `recordEnd` is the record's

@@ -53,4 +53,21 @@ describe('an edge that closes what looks like a section', () => {
     expect(closer?.reflectionCoefficient).toBeCloseTo(0.4, 1);
     expect(closer?.type).toBe('impedance-rise');
   });
+
+  it('is read as the open end behind a shunt when the record ends before the bounce could come back', () => {
+    // The same shunt and end, recorded to sample 720: the bounce at 800 is past the record, so nothing
+    // shows a section running on beyond it; the fault in front of the end is the reading.
+    const a = analyse(
+      stepTrace(720, [
+        { at: 100, height: 1 },
+        { at: 400, height: -0.4 },
+        { at: 600, height: 0.36 },
+      ]),
+    );
+    const end = at(a, 500);
+    expect(at(a, 300)?.reflectionCoefficient).toBeCloseTo(-0.4, 1);
+    expect(end?.reflectionCoefficient).toBeCloseTo(1, 1);
+    expect(end?.type).toBe('open');
+    expect(end?.isCableEnd).toBe(true);
+  });
 });
