@@ -38,3 +38,25 @@ describe('the ticket timeline', () => {
     ]);
   });
 });
+
+describe('an assignment on the ticket timeline', () => {
+  const headline = (events: TicketEventView[]) => {
+    const { container } = render(<TicketTimeline events={events} />);
+    // The event items are the outer list's own children; the first line of each is its headline.
+    return Array.from(container.querySelectorAll('[data-testid="ticket-timeline"] > li')).map((li) => li.querySelector('p')?.textContent);
+  };
+
+  it('names the act, then the status step, so the step does not read as the assignee changing', () => {
+    expect(
+      headline([
+        event({ id: 1, kind: 'assigned', fromStatus: 'raised', toStatus: 'assigned', changes: { assignee: [null, 'Tomas Ekwueme'] } }),
+        event({ id: 2, kind: 'assigned', changes: { assignee: ['Tomas Ekwueme', 'Ines Ravelo'] } }),
+        event({ id: 3, kind: 'assigned', fromStatus: 'assigned', toStatus: 'raised', changes: { assignee: ['Ines Ravelo', null] } }),
+      ]),
+    ).toEqual([
+      'Sam Supervisor assigned the ticket: Raised → Assigned',
+      'Sam Supervisor reassigned the ticket',
+      'Sam Supervisor took the assignee off the ticket: Assigned → Raised',
+    ]);
+  });
+});

@@ -4,7 +4,7 @@ import { formatDate, formatDateTime } from '../../../lib/format';
 
 const KIND_WORDS: Record<TicketEventView['kind'], string> = {
   created: 'raised the ticket',
-  assigned: 'changed the assignee',
+  assigned: 'assigned the ticket',
   status: 'moved it',
   updated: 'changed details',
   comment: 'commented',
@@ -21,6 +21,21 @@ function show(field: string, v: unknown): string {
   return String(v);
 }
 
+/**
+ * What the person did, in words. An assignment that also moves the status is
+ * followed by that status step, so it names the act rather than the field
+ * ("assigned the ticket: Raised → Assigned", not "changed the assignee: Raised →
+ * Assigned", which read as if the assignee were a status).
+ */
+function kindWords(e: TicketEventView): string {
+  if (e.kind === 'assigned' && e.changes?.assignee) {
+    const [before, after] = e.changes.assignee;
+    if (after === null || after === undefined || after === '') return 'took the assignee off the ticket';
+    if (before !== null && before !== undefined && before !== '') return 'reassigned the ticket';
+  }
+  return KIND_WORDS[e.kind];
+}
+
 /** Who did what and when, oldest first, each status step as from → to. */
 export function TicketTimeline({ events }: { events: TicketEventView[] }) {
   return (
@@ -29,7 +44,7 @@ export function TicketTimeline({ events }: { events: TicketEventView[] }) {
         <li key={e.id} className="relative">
           <span className={`absolute -left-[27px] top-1.5 h-3 w-3 rounded-full border-2 border-card ${e.kind === 'closeout' ? 'bg-ok' : e.kind === 'status' || e.kind === 'assigned' ? 'bg-copper' : 'bg-mist'}`} aria-hidden />
           <p className="text-sm">
-            <span className="font-semibold">{e.actor.name}</span> {KIND_WORDS[e.kind]}
+            <span className="font-semibold">{e.actor.name}</span> {kindWords(e)}
             {e.fromStatus && e.toStatus && e.fromStatus !== e.toStatus && (
               <>
                 : <span className="font-semibold">{TICKET_STATUS_LABELS[e.fromStatus]}</span> → <span className="font-semibold">{TICKET_STATUS_LABELS[e.toStatus]}</span>
