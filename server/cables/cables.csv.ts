@@ -48,6 +48,39 @@ const NUMBER_RE = /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/;
 
 export const MAX_IMPORT_ROWS = 2000;
 
+/**
+ * The library column a header cell most likely meant: one that starts with it or holds it as a word
+ * ("z0" → z0_ohm, "tolerance" → vf_tolerance), or one within two edits of it (a typo); none when the
+ * cell is shorter than two letters or nothing is near.
+ */
+export function likelyColumn(cell: string): string | null {
+  const c = cell.trim().toLowerCase().replace(/[\s-]+/g, '_');
+  if (c.length < 2 || c.length > 60) return null;
+  const all = Object.values(CSV_COLUMNS);
+  const byWord = all.filter((k) => k === c || k.startsWith(`${c}_`) || k.endsWith(`_${c}`) || k.includes(`_${c}_`));
+  if (byWord.length === 1) return byWord[0];
+  let best: string | null = null;
+  let bestD = 3;
+  for (const k of all) {
+    const d = editDistance(c, k, bestD);
+    if (d < bestD) [best, bestD] = [k, d];
+  }
+  return best;
+}
+
+/** Levenshtein distance of two short strings, or `cap` once it reaches it. */
+function editDistance(a: string, b: string, cap: number): number {
+  if (Math.abs(a.length - b.length) >= cap) return cap;
+  let prev = Array.from({ length: b.length + 1 }, (_, j) => j);
+  for (let i = 1; i <= a.length; i++) {
+    const row = [i];
+    for (let j = 1; j <= b.length; j++) row[j] = Math.min(prev[j] + 1, row[j - 1] + 1, prev[j - 1] + (a[i - 1] === b[j - 1] ? 0 : 1));
+    if (Math.min(...row) >= cap) return cap;
+    prev = row;
+  }
+  return Math.min(prev[b.length], cap);
+}
+
 export async function exportCsv(): Promise<string> {
   const rows = await CableType.findAll({ order: [['name', 'ASC']] });
   return stringify(
@@ -258,8 +291,20 @@ async function checkRecords(records: CsvRecord[], delimiter: ',' | ';', transact
   const unknown = header.filter((_h, i) => !headerFields[i]);
   if (unknown.length) {
     // Named up to ten: a header of a million empty cells is not said back a million times.
-    const named = unknown.slice(0, 10).map((u) => `"${u}"`).join(', ') + (unknown.length > 10 ? ` and ${unknown.length - 10} more` : '');
-    throw fileError(`Line 1: unknown column${unknown.length > 1 ? 's' : ''} ${named}. The columns are: ${Object.values(CSV_COLUMNS).join(', ')}.`, 1);
+    // Each with the column it most likely meant; the needed columns are listed (the optional loss and pulse
+    // columns are in the import help and in an export), so the message stays whole under the message cap.
+    const named =
+      unknown
+        .slice(0, 10)
+        .map((u) => {
+          const meant = likelyColumn(u);
+          return meant ? `"${u}" (perhaps "${meant}")` : `"${u}"`;
+        })
+        .join(', ') + (unknown.length > 10 ? ` and ${unknown.length - 10} more` : '');
+    throw fileError(
+      `Line 1: unknown column${unknown.length > 1 ? 's' : ''} ${named}. Needed: ${REQUIRED_COLUMNS.map((f) => CSV_COLUMNS[f]).join(', ')}; the optional columns are in the import help.`,
+      1,
+    );
   }
   const missing = REQUIRED_COLUMNS.filter((f) => !headerFields.includes(f)).map((f) => CSV_COLUMNS[f]);
   if (missing.length) throw fileError(`Line 1: the header lacks ${missing.join(', ')}.`, 1);

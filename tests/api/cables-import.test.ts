@@ -95,6 +95,11 @@ describe('POST /api/cables/import/preview', () => {
     const unknown = await upload('/api/cables/import/preview', 'name,colour\nx,red\n').expect(422);
     expect(unknown.body.error).toMatchObject({ code: 'csv_unreadable' });
     expect(unknown.body.error.message).toMatch(/^Line 1: unknown column "colour"/);
+    // A near miss is answered with the column it most likely meant, and the message is whole, not cut short.
+    const near = await upload('/api/cables/import/preview', 'name,z0,tolerance,vf\nx,50,0.02,0.66\n').expect(422);
+    expect(near.body.error.message).toBe(
+      'Line 1: unknown columns "z0" (perhaps "z0_ohm"), "tolerance" (perhaps "vf_tolerance"). Needed: name, construction, dielectric, z0_ohm, vf, vf_tolerance, vf_source, vf_reference; the optional columns are in the import help.',
+    );
     const quote = await upload('/api/cables/import/preview', `${HEADER}\n"Open quote,coax\n`).expect(422);
     expect(quote.body.error.fields[0]).toMatchObject({ field: 'file', line: 2 });
     const none = await planner.post('/api/cables/import/preview', {}).expect(400);

@@ -16,7 +16,9 @@ const ACTION: Record<ImportAction, { label: string; tone: 'ok' | 'info' | 'plain
   invalid: { label: 'Error', tone: 'danger' },
 };
 
-const COLUMNS = 'name, construction, dielectric, z0_ohm, vf, vf_tolerance, attenuation_db_per_100m, attenuation_freq_mhz, vf_source, vf_reference, notes';
+const NEEDED_COLUMNS = 'name, construction, dielectric, z0_ohm, vf, vf_tolerance, vf_source, vf_reference';
+const OPTIONAL_COLUMNS =
+  'notes, attenuation_db_per_100m, attenuation_freq_mhz, attenuation_points, loss_source, r_dc_ohm_per_m, skin_ohm_per_m_root_hz, l_h_per_m, c_f_per_m, g_s_per_m, loss_tangent, pulse_vfs';
 
 /** Upload a CSV, see every row checked, then write it all in one go — or nothing. */
 export function CableImportPage() {
@@ -51,7 +53,7 @@ export function CableImportPage() {
             onChange={(e) => choose(e.target.files?.[0] ?? null)}
           />
           <p className="mt-2 text-xs text-mist">
-            Columns: {COLUMNS}. Cells separated by commas, or by semicolons with a decimal comma as many spreadsheets save them. SI units; tolerance as a fraction
+            Needed columns: {NEEDED_COLUMNS}. Optional: {OPTIONAL_COLUMNS}. Cells separated by commas, or by semicolons with a decimal comma as many spreadsheets save them. SI units; tolerance as a fraction
             (0.02 for ±2 %). Rows are matched to the library by name. The{' '}
             <a href={CABLE_EXPORT_URL} className="text-teal underline" download>
               export
@@ -93,6 +95,12 @@ export function CableImportPage() {
                 </Notice>
               )}
             </>
+          ) : preview.isPending ? (
+            <p className="text-sm text-mist">Checking the file…</p>
+          ) : preview.error ? (
+            <p className="text-sm text-ink-soft" data-testid="import-blocked">
+              Nothing can be imported from this file: fix what the message beside it says, save the file and choose it again.
+            </p>
           ) : (
             <p className="text-sm text-mist">Choose a file to see the check.</p>
           )}
