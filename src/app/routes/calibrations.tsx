@@ -46,15 +46,25 @@ function Decide({ c, onDone }: { c: CalibrationView; onDone: (said: string) => v
     values !== null && proposalInput({ ...values, tolerancePct: '1' }) === null && 'a VF to store above 0 and at most 1',
     values !== null && proposalInput({ ...values, vf: '0.5' }) === null && 'a tolerance of 0 to 50 %',
   ].filter((m): m is string => !!m);
+  // Held until the repair it came from is signed off: the reason comes first and the accept form waits,
+  // so nobody fills in a value for a button that cannot be pressed.
+  const held = c.acceptHeld !== null;
   return (
     <div className="space-y-2">
+      {held && (
+        <div data-testid={`accept-held-${c.id}`}>
+          <Notice tone="info" title="Waiting for the repair's sign-off">
+            It cannot be accepted yet: {c.acceptHeld}. The accept form opens here once the supervisor signs the repair off; you may reject it now.
+          </Notice>
+        </div>
+      )}
       {own && (
         <p className="text-sm text-ink-soft">
           You filed this calibration, so another planner accepts it.
           {override ? ' As an administrator you may accept it yourself: say why in the note (kept in the library history).' : ''}
         </p>
       )}
-      {!rejecting && (!own || override) && cable.data && values && (
+      {!rejecting && !held && (!own || override) && cable.data && values && (
         <CalibrationProposal
           calibration={c}
           accepted={cable.data.acceptedStats}
@@ -76,7 +86,7 @@ function Decide({ c, onDone }: { c: CalibrationView; onDone: (said: string) => v
       <div className="flex flex-wrap gap-2">
         {!rejecting ? (
           <>
-            {(!own || override) && (
+            {!held && (!own || override) && (
               <Button
                 onClick={() =>
                   accept.mutate(
@@ -89,8 +99,8 @@ function Decide({ c, onDone }: { c: CalibrationView; onDone: (said: string) => v
                     { onSuccess: (r) => onDone(`Calibration #${c.id} accepted: ${r.cable.name} is now VF ${formatVf(r.cable.vf, 4)} ± ${(r.cable.vfTolerance * 100).toFixed(1)} % in the library. It is listed under Accepted.`) },
                   )
                 }
-                disabled={accept.isPending || missing.length > 0 || c.acceptHeld !== null}
-                aria-describedby={c.acceptHeld !== null ? `accept-held-${c.id}` : missing.length > 0 ? `accept-missing-${c.id}` : undefined}
+                disabled={accept.isPending || missing.length > 0}
+                aria-describedby={missing.length > 0 ? `accept-missing-${c.id}` : undefined}
               >
                 {override ? 'Accept my own, with this reason' : chosen ? `Accept into the library: VF ${chosen.vf.toFixed(4)} ± ${(chosen.vfTolerance * 100).toFixed(1)} %` : 'Accept into the library'}
               </Button>
@@ -98,12 +108,7 @@ function Decide({ c, onDone }: { c: CalibrationView; onDone: (said: string) => v
             <Button variant="secondary" onClick={() => setRejecting(true)}>
               Reject…
             </Button>
-            {(!own || override) && c.acceptHeld !== null && (
-              <p id={`accept-held-${c.id}`} className="basis-full text-sm text-ink-soft" data-testid={`accept-held-${c.id}`}>
-                Cannot be accepted: {c.acceptHeld}.
-              </p>
-            )}
-            {(!own || override) && missing.length > 0 && (
+            {!held && (!own || override) && missing.length > 0 && (
               <p id={`accept-missing-${c.id}`} className="basis-full text-sm text-ink-soft" data-testid={`accept-missing-${c.id}`}>
                 Still needed: {missing.join(', ').replace(/, ([^,]*)$/, ' and $1')}.
               </p>
@@ -136,7 +141,7 @@ function CalibrationItem({ c, unit, onDone }: { c: CalibrationView; unit: Length
           <Link to={paths.cable.to(c.cableType.id)} className="font-semibold text-teal hover:underline">
             {c.cableType.name}
           </Link>
-          <StatusBadge kind="calibration" status={c.status} />
+          {c.status === 'pending' && c.acceptHeld !== null ? <Badge tone="plain">Waiting for the repair's sign-off</Badge> : <StatusBadge kind="calibration" status={c.status} />}
           <Badge tone="plain">{CALIBRATION_SOURCE_LABELS[c.source]}</Badge>
         </p>
         <p className="mt-1 tabular">
