@@ -41,6 +41,30 @@ afterAll(async () => {
 describe('a repair from assignment to calibration', () => {
   let ticketPath = '';
 
+  it('the supervisor’s start page shows the new finding first among those waiting for a repair ticket, with its Raise ticket step', async () => {
+    const page = await e2e.pageAs('supervisor@example.com', DESKTOP);
+    await page.goto(`${e2e.baseUrl}/`);
+    const list = page.getByTestId('unticketed-findings');
+    await list.waitFor();
+    const waiting = await page.evaluate(async () => ((await (await fetch('/api/tickets/unticketed-findings')).json()) as unknown[]).length);
+    expect(waiting).toBeGreaterThan(0);
+    expect(await page.getByText(/^Findings waiting for a repair ticket \(\d+\)$/).textContent()).toBe(`Findings waiting for a repair ticket (${waiting})`);
+    expect(await list.locator('li').count()).toBe(Math.min(5, waiting));
+    // Newest first: the finding confirmed above, with the step that gives it a ticket.
+    const first = list.locator('li').first();
+    expect(await first.getByRole('link', { name: 'Raise ticket' }).getAttribute('href')).toBe(`/tickets?finding=${findingId}`);
+    expect(await first.getByRole('link').first().getAttribute('href')).toBe(`/findings/${findingId}`);
+    // It stands before the upload button: raising the ticket is the supervisor's next step.
+    expect(await page.evaluate(() => !!(document.querySelector('[data-testid="unticketed-findings"]')!.compareDocumentPosition(document.querySelector('[data-testid="home-upload"]')!) & 4))).toBe(true);
+    await e2e.screenshot(page, 'home-supervisor-waiting-desktop');
+    await page.close();
+    const tech = await e2e.pageAs('tech2@example.com', PHONE);
+    await tech.goto(`${e2e.baseUrl}/`);
+    await tech.getByTestId('home-upload').waitFor();
+    expect(await tech.getByTestId('unticketed-findings').count()).toBe(0);
+    await tech.close();
+  });
+
   it('a supervisor raises a ticket from the finding and assigns a technician', async () => {
     const page = await e2e.pageAs('supervisor@example.com', DESKTOP);
     await page.locator('aside').getByRole('link', { name: 'Tickets' }).click();

@@ -1,5 +1,4 @@
 import { Link } from 'react-router-dom';
-import { FINDING_KIND_LABELS } from '../../../shared/schemas/findings';
 import { TICKET_PRIORITIES, TICKET_PRIORITY_LABELS } from '../../../shared/tickets/status';
 import { Card, PageHeader } from '../../components/ui/card';
 import { ErrorNotice, Loading } from '../../components/ui/notice';
@@ -8,12 +7,12 @@ import { openDaysText } from '../../../shared/tickets/age';
 import { useSession } from '../../features/auth/use-session';
 import { useDashboard } from '../../features/dashboard/api/get-dashboard';
 import { AccuracyChart } from '../../features/dashboard/components/accuracy-chart';
+import { UnticketedFindings } from '../../features/dashboard/components/unticketed-findings';
 import { MethodAccuracyTable } from '../../features/locate/components/method-accuracy';
 import { PriorityBadge, TicketStatusBadge } from '../../features/tickets/components/ticket-badges';
 import { formatDate, formatDateTime, formatLength } from '../../lib/format';
 import { paths } from '../paths';
 
-const kindLabel = (k: string) => FINDING_KIND_LABELS[k as keyof typeof FINDING_KIND_LABELS] ?? k;
 
 /** Supervisors and planners: what is open and for how long, what nobody has picked up, and how good the readings were. */
 export function DashboardPage() {
@@ -77,34 +76,7 @@ export function DashboardPage() {
             {v.oldest.length === 0 && <li className="text-sm text-mist">No open tickets.</li>}
           </ul>
         </Card>
-        <Card title={`Confirmed findings without a ticket (${v.unticketed.length})`}>
-          {v.unticketed.length === 0 ? (
-            <p className="text-sm text-mist">Every confirmed finding is on a ticket.</p>
-          ) : (
-            <ul className="space-y-2" data-testid="unticketed-findings">
-              {v.unticketed.map((f) => (
-                <li key={f.id} className="flex flex-wrap items-center justify-between gap-2 rounded border border-rule px-3 py-2">
-                  <span>
-                    <Link to={paths.finding.to(f.id)} className="font-semibold text-teal underline">
-                      {kindLabel(f.kind)} at {formatLength(f.distanceM, unit)} from end {f.measuredFrom}
-                    </Link>
-                    <span className="block text-xs text-mist">
-                      {f.site.name} · {f.cableRun.name} · confirmed {formatDateTime(f.confirmedAt)} by {f.confirmedBy.name}
-                    </span>
-                  </span>
-                  {can('tickets:manage') && (
-                    <Link
-                      to={`${paths.tickets.to()}?finding=${f.id}`}
-                      className="inline-flex min-h-11 items-center rounded-md bg-copper px-4 text-sm font-semibold text-white hover:bg-copper-dark"
-                    >
-                      Raise ticket
-                    </Link>
-                  )}
-                </li>
-              ))}
-            </ul>
-          )}
-        </Card>
+        <UnticketedFindings items={v.unticketed} unit={unit} canRaise={can('tickets:manage')} />
         <Card title="Located against found, per cable type" className="xl:col-span-2">
           {v.accuracy.length === 0 ? (
             <p className="text-sm text-mist">No close-outs yet. Each repair's found position is compared with the reading here.</p>

@@ -7,6 +7,8 @@ import { useSession } from '../../features/auth/use-session';
 import { useDevice, useOnline } from '../../features/offline/device-context';
 import { useCalibrations } from '../../features/calibrations/api/list-calibrations';
 import { useTickets } from '../../features/tickets/api/list-tickets';
+import { useUnticketedFindings } from '../../features/tickets/api/list-unticketed-findings';
+import { UnticketedFindings } from '../../features/dashboard/components/unticketed-findings';
 import { PriorityBadge, TicketStatusBadge } from '../../features/tickets/components/ticket-badges';
 import type { TicketSummary } from '../../../shared/schemas/tickets';
 import { formatAge, formatDate } from '../../lib/format';
@@ -79,6 +81,15 @@ function OpenTickets({ mine }: { mine: boolean }) {
   );
 }
 
+/** A supervisor's first task: confirmed findings that still need a repair ticket. */
+function FindingsWaiting() {
+  const { unit } = useSession();
+  const f = useUnticketedFindings();
+  if (f.isPending) return <Loading what="Loading findings waiting for a ticket" />;
+  if (f.error) return <ErrorNotice error={f.error} onRetry={() => void f.refetch()} retrying={f.isFetching} />;
+  return <UnticketedFindings items={f.data} unit={unit} canRaise title="Findings waiting for a repair ticket" limit={5} />;
+}
+
 function PendingCalibrations() {
   const cals = useCalibrations({ status: 'pending', page: 1 });
   if (cals.isPending) return <Loading what="Loading calibrations" />;
@@ -119,6 +130,7 @@ export function HomePage() {
       <PageHeader title={`Hello, ${user.name.split(' ')[0]}`} subtitle={`Signed in as ${ROLE_LABELS[user.role].toLowerCase()}.`} />
       <div className="grid grid-cols-1 gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
         <div className="space-y-4">
+          {can('tickets:manage') && online && <FindingsWaiting />}
           {can('traces:upload') && (
             // Without signal the upload cannot reach the server: the big button goes where a trace can be read now.
             <div>
