@@ -676,7 +676,16 @@ interface FitContext {
   /** Length of line (out and back) per sample of round trip, metres. */
   twoWayMPerSample: number;
   /** Earlier fitted events, subtracted from later windows so their slow tails do not pass for a baseline. */
-  peeled: Array<{ t: Template; q: number; d: number; h: number }>;
+  peeled: Peel[];
+}
+
+/** An earlier fitted event's shape, taken out of later windows; `k` is the event's index among those fitted. */
+interface Peel {
+  t: Template;
+  q: number;
+  d: number;
+  h: number;
+  k?: number;
 }
 
 /**
@@ -991,6 +1000,8 @@ function bestShapeFit(
  * after its launch has no edge to take the instrument's rise from: there the
  * nearest event, fitted with the same loss per metre, joins the fit, and the
  * instrument's rise is tried at fractions of that event's own rise.
+ * With `prior` (the events fitted once, and the shapes that fit took out of each later window), the earlier
+ * events' shapes are taken out of the clearest event's window before its edge is read.
  */
 /**
  * The nearest event is a second view of the instrument's rise when its loss spread is clearly smaller than the
@@ -1003,14 +1014,23 @@ const GRID_EXTEND = 8;
 /** Share of the edge's residual with the incident stretch's resistance that a fit without it must stay under to leave it out. */
 const INCIDENT_R_DROP_SHARE = 0.5;
 
-function estimateSkin(ctx: FitContext, events: Measured[], resistiveNpPerM = 0): LossModel | null {
+function estimateSkin(
+  ctx0: FitContext,
+  events: Measured[],
+  resistiveNpPerM = 0,
+  prior?: { events: Measured[]; peeled: Peel[] },
+): LossModel | null {
+  let ctx = ctx0;
   const fittable = events.map((m, k) => ({ m, k })).filter(({ m }) => !m.blip);
   if (fittable.length === 0) return null;
   const { k, m } = fittable.reduce((a, b) => (Math.abs(b.m.height) * b.m.snr > Math.abs(a.m.height) * a.m.snr ? b : a));
   const instRise = Math.max(1, ctx.input.launch.riseSamples);
   // An edge no wider than the launch shows no loss worth a fit.
   if (m.riseSamples <= 1.5 * instRise + 1) return null;
-  const win = eventWindow(ctx, events, k);
+  // With the events fitted once (`prior`), the fitted shapes of those before this one are taken out of its
+  // window, which is then bounded as the line fit bounds it (the earlier events with their fits).
+  if (prior) ctx = { ...ctx0, peeled: prior.peeled.filter((p) => p.k !== undefined && p.k < k) };
+  const win = eventWindow(ctx, prior ? events.map((e, j) => (j < k ? prior.events[j] : e)) : events, k);
   const d0 = (win.lo + win.hi) / 2;
   const twoWayM = twoWayOf(ctx, d0);
   if (!(twoWayM > 0)) return null;
@@ -1168,152 +1188,169 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
   // The edge's fit may leave the incident stretch's resistance out; the stretch then gave nothing to the estimate.
   const incidentUsed = incident !== null && (edgeShape === null || (edgeShape.resistiveNpPerM ?? 0) > 0);
   const estimatedFrom: LossEvidence[] = [...(incidentUsed ? ['incident-step' as const] : []), ...(edgeShape ? ['edge-shape' as const] : [])];
-  const model = library ?? estimated ?? NO_LOSS;
   const lossSource: LossSource = library ? 'library' : estimated ? 'estimated' : 'none';
   const launchOnset = launchOnsetTimer(input.launch, input.signal);
-  const added: Measured[] = [];
-  for (const [k, m] of events.entries()) {
-    // A blip is two edges, and an event inside the blind zone rides on the launch's own tail: their readings stand.
-    if (m.blip || m.onsetIdx < input.signal.blindIdx) continue;
-    let win = eventWindow(ctx, events, k);
-    if (win.to - win.from < 8) continue;
-    const shaped = bestShapeFit(ctx, win, model, m, lossSource);
-    let { f, zeroPhase } = shaped;
-    let causal = shaped.causal;
-    let second: SecondEdge | null = null;
-    const atFloor = (g: ModelFit | null) => g !== null && g.d < win.lo + 0.01 * (win.hi - win.lo);
-    let extra = 0;
-    // A causal fit that runs into the earliest arrival tried (a lossy edge's foot lies further back than
-    // its tangent reading suggests) has lost to the zero-phase shape unfairly: both are tried once more
-    // with the search reaching a range further back.
-    if (zeroPhase && atFloor(shaped.causal)) extra = win.hi - win.lo;
-    // A causal fit on the earliest arrival tried found no minimum, and would be dropped for the tangent
-    // reading (which a neighbour's tail or a spread pulse echo can put late). With the cable's loss known, the
-    // modelled edge says how far back its arrival can lie (earliestArrival): the search reaches back to there, once.
-    // Only where the edge is as slow as that loss makes it: a recorded edge sharper than the model's lag from
-    // arrival to middle says the library's loss overstates this line's, and its modelled lag would put the
-    // arrival early by the difference; the tangent reading stands there.
-    else if (!zeroPhase && f && atFloor(f) && lossSource === 'library' && m.riseSamples >= f.middle) {
-      const ref = shape.reference === 'launch' ? input.launch.idx : shape.centre;
-      const reading = Math.min(m.onsetIdx, shape.reference === 'launch' ? m.onsetIdx : m.t50Idx) - ref;
-      extra = win.lo - earliestArrival(reading, f.halfLag, input.launch.riseSamples);
-    }
-    if (extra > 0) {
-      const wider = eventWindow(ctx, events, k, extra);
-      if (wider.lo < win.lo - 1) {
-        const again = bestShapeFit(ctx, wider, model, m, lossSource);
-        if (again.f && acceptable(again.f, m, wider)) {
-          ({ f, zeroPhase, causal } = again);
-          win = wider;
+  // Every event's fit with one loss model, in order; each fitted shape is taken out of the later windows (ctx.peeled).
+  // Returns the sections' other ends found on the way.
+  const fitAll = (ctx: FitContext, events: Measured[], model: LossModel): Measured[] => {
+    const added: Measured[] = [];
+    for (const [k, m] of events.entries()) {
+      // A blip is two edges, and an event inside the blind zone rides on the launch's own tail: their readings stand.
+      if (m.blip || m.onsetIdx < input.signal.blindIdx) continue;
+      let win = eventWindow(ctx, events, k);
+      if (win.to - win.from < 8) continue;
+      const shaped = bestShapeFit(ctx, win, model, m, lossSource);
+      let { f, zeroPhase } = shaped;
+      let causal = shaped.causal;
+      let second: SecondEdge | null = null;
+      const atFloor = (g: ModelFit | null) => g !== null && g.d < win.lo + 0.01 * (win.hi - win.lo);
+      let extra = 0;
+      // A causal fit that runs into the earliest arrival tried (a lossy edge's foot lies further back than
+      // its tangent reading suggests) has lost to the zero-phase shape unfairly: both are tried once more
+      // with the search reaching a range further back.
+      if (zeroPhase && atFloor(shaped.causal)) extra = win.hi - win.lo;
+      // A causal fit on the earliest arrival tried found no minimum, and would be dropped for the tangent
+      // reading (which a neighbour's tail or a spread pulse echo can put late). With the cable's loss known, the
+      // modelled edge says how far back its arrival can lie (earliestArrival): the search reaches back to there, once.
+      // Only where the edge is as slow as that loss makes it: a recorded edge sharper than the model's lag from
+      // arrival to middle says the library's loss overstates this line's, and its modelled lag would put the
+      // arrival early by the difference; the tangent reading stands there.
+      else if (!zeroPhase && f && atFloor(f) && lossSource === 'library' && m.riseSamples >= f.middle) {
+        const ref = shape.reference === 'launch' ? input.launch.idx : shape.centre;
+        const reading = Math.min(m.onsetIdx, shape.reference === 'launch' ? m.onsetIdx : m.t50Idx) - ref;
+        extra = win.lo - earliestArrival(reading, f.halfLag, input.launch.riseSamples);
+      }
+      if (extra > 0) {
+        const wider = eventWindow(ctx, events, k, extra);
+        if (wider.lo < win.lo - 1) {
+          const again = bestShapeFit(ctx, wider, model, m, lossSource);
+          if (again.f && acceptable(again.f, m, wider)) {
+            ({ f, zeroPhase, causal } = again);
+            win = wider;
+          }
         }
       }
-    }
-    // The last event may be a resistive end, read with the line's own impedance (terminatedEnd); only with
-    // the cable's loss known, whose creep was taken out of the signal and which the reversed creep follows.
-    const end = lossSource === 'library' && k === events.length - 1 ? terminatedEnd(ctx, events, k, model, win) : null;
-    // An event with more line past it may be a lumped fault, which meets the line's own impedance on both
-    // sides (terminatedFit, 'fault'): its echo grows as that impedance does at low frequency, and a plain
-    // edge fitted to it reads late. Taken where it explains the window decisively better than the plain fit.
-    const fault = !end && f && lossSource === 'library' && k < events.length - 1 ? faultFit(ctx, win, model, f) : null;
-    const term = end ?? (fault ? { f: fault, win } : null);
-    if (term) {
-      f = term.f;
-      win = term.win;
-      zeroPhase = false;
-    } else if (!f || !acceptable(f, m, win)) continue;
-    else if (!zeroPhase && lossSource === 'library') {
-      // A step of the other sign in the window that one edge cannot follow: fitted beside it (withNeighbourEdge).
-      const two = withNeighbourEdge(ctx, win, f);
-      if (two && acceptable(two, m, win)) f = two;
-    } else if (zeroPhase && lossSource === 'library' && causal) {
-      // A section: two edges of opposite sign, each spread by the line over about the section's length, make
-      // one slow dip (or bump) that the symmetric shape follows better than one causal edge, and reads as one
-      // edge between the two ends. The causal edge with a second one of the other sign beside it
-      // (withNeighbourEdge) is taken instead where it leaves less than ZERO_PHASE_GAIN of the symmetric fit's
-      // residual (the same margin the symmetric shape had to win by) and the two ends are of a size
-      // (SECTION_END_RATIO); both ends are then reported.
-      const two = withNeighbourEdge(ctx, win, causal);
-      const ratio = two ? Math.abs(two.second.h / two.h) : 0;
-      if (two && two.ss < ZERO_PHASE_GAIN * f.ss && ratio >= SECTION_END_RATIO && ratio <= 1 / SECTION_END_RATIO && acceptable(two, m, win)) {
-        f = two;
+      // The last event may be a resistive end, read with the line's own impedance (terminatedEnd); only with
+      // the cable's loss known, whose creep was taken out of the signal and which the reversed creep follows.
+      const end = lossSource === 'library' && k === events.length - 1 ? terminatedEnd(ctx, events, k, model, win) : null;
+      // An event with more line past it may be a lumped fault, which meets the line's own impedance on both
+      // sides (terminatedFit, 'fault'): its echo grows as that impedance does at low frequency, and a plain
+      // edge fitted to it reads late. Taken where it explains the window decisively better than the plain fit.
+      const fault = !end && f && lossSource === 'library' && k < events.length - 1 ? faultFit(ctx, win, model, f) : null;
+      const term = end ?? (fault ? { f: fault, win } : null);
+      if (term) {
+        f = term.f;
+        win = term.win;
         zeroPhase = false;
-        second = two.second;
+      } else if (!f || !acceptable(f, m, win)) continue;
+      else if (!zeroPhase && lossSource === 'library') {
+        // A step of the other sign in the window that one edge cannot follow: fitted beside it (withNeighbourEdge).
+        const two = withNeighbourEdge(ctx, win, f);
+        if (two && acceptable(two, m, win)) f = two;
+      } else if (zeroPhase && lossSource === 'library' && causal) {
+        // A section: two edges of opposite sign, each spread by the line over about the section's length, make
+        // one slow dip (or bump) that the symmetric shape follows better than one causal edge, and reads as one
+        // edge between the two ends. The causal edge with a second one of the other sign beside it
+        // (withNeighbourEdge) is taken instead where it leaves less than ZERO_PHASE_GAIN of the symmetric fit's
+        // residual (the same margin the symmetric shape had to win by) and the two ends are of a size
+        // (SECTION_END_RATIO); both ends are then reported.
+        const two = withNeighbourEdge(ctx, win, causal);
+        const ratio = two ? Math.abs(two.second.h / two.h) : 0;
+        if (two && two.ss < ZERO_PHASE_GAIN * f.ss && ratio >= SECTION_END_RATIO && ratio <= 1 / SECTION_END_RATIO && acceptable(two, m, win)) {
+          f = two;
+          zeroPhase = false;
+          second = two.second;
+        }
       }
-    }
-    // The library's loss is the first cable's: past a change of cable, or on a line whose loss the figures
-    // misstate, a plain edge is sharper or slower than the library makes it, and its arrival is read off by the
-    // difference. The loss is scaled for this edge where the record decisively says so (lossScaleFit); not
-    // for a terminated end or a fault, whose shape is the library's loss's own creep.
-    // Pulse records only: a step record's window is fitted on a sloping level (and with the incident
-    // step's creep, taken out with the library's loss, under it), which a scaled edge trades against.
-    let evModel = model;
-    if (!term && !zeroPhase && !ctx.shape.step && lossSource === 'library' && model !== NO_LOSS) {
-      const rescaled = lossScaleFit(ctx, win, model, f);
-      if (rescaled && acceptable(rescaled.f, m, win)) {
-        f = rescaled.f;
-        evModel = rescaled.model;
+      // The library's loss is the first cable's: past a change of cable, or on a line whose loss the figures
+      // misstate, a plain edge is sharper or slower than the library makes it, and its arrival is read off by the
+      // difference. The loss is scaled for this edge where the record decisively says so (lossScaleFit); not
+      // for a terminated end or a fault, whose shape is the library's loss's own creep.
+      // Pulse records only: a step record's window is fitted on a sloping level (and with the incident
+      // step's creep, taken out with the library's loss, under it), which a scaled edge trades against.
+      let evModel = model;
+      if (!term && !zeroPhase && !ctx.shape.step && lossSource === 'library' && model !== NO_LOSS) {
+        const rescaled = lossScaleFit(ctx, win, model, f);
+        if (rescaled && acceptable(rescaled.f, m, win)) {
+          f = rescaled.f;
+          evModel = rescaled.model;
+        }
       }
-    }
-    const probe =
-      evModel === NO_LOSS
-        ? null
-        : term
-          ? terminatedFit(ctx, win, scaled(evModel, 1 + LOSS_PROBE), twoWayOf(ctx, f.d))
-          : fitWindow(ctx, win, scaled(evModel, 1 + LOSS_PROBE), twoWayOf(ctx, f.d), { withMiddle: false, zeroPhase });
-    m.fit = {
-      reference: shape.reference,
-      lossSource,
-      delaySamples: f.d,
-      sigmaDelaySamples: f.sigma,
-      heightRaw: m.height,
-      lossSensitivitySamples: probe ? Math.abs(probe.d - f.d) : 0,
-      lossDelaySamples: Math.max(0, f.middle),
-      dielectricNpPerMPerHz: evModel.dielectricNpPerMPerHz,
-    };
-    m.heightRaw = m.height;
-    // With no loss model the fitted shape is the launch's own, narrower than an echo the line has spread,
-    // and a narrow shape fitted to a spread echo reads its height short; the echo's area, which the skin
-    // effect does not change, is the pulse reading's ρ (as the header of this module and analyze say).
-    if (!(input.signal.mode === 'pulse' && lossSource === 'none')) m.height = f.h;
-    // A pulse's ρ comes from the echo's area, which only the line's DC resistance lowers (skin loss spreads
-    // the echo but keeps its area). A loss estimated from the edges' shape alone has no resistive term,
-    // so such a reading is not corrected for the loss that lowers it, and says so.
-    m.lossCorrected = lossSource !== 'none';
-    m.areaUncorrected = input.signal.mode === 'pulse' && lossSource === 'estimated' && !((model.resistiveNpPerM ?? 0) > 0);
-    // Timed from the launch's onset (or the trace's zero), so the location step reads the fitted delay.
-    const onset = shape.reference === 'launch' ? launchOnset(m.fLo) + f.d : input.launch.zeroIdx + f.d;
-    m.onsetIdx = onset;
-    if (shape.reference === 'axis') m.t50Idx = onset;
-    ctx.peeled.push({ t: f.t, q: f.q, d: f.dq, h: f.h });
-    // The section's other end, reported as an event of its own unless one is already read there; its edge is
-    // taken out of the later windows as the first one's is.
-    if (second) {
-      const onset2 = shape.reference === 'launch' ? launchOnset(m.fLo) + second.d : input.launch.zeroIdx + second.d;
-      const sep = Math.max(1, input.launch.riseSamples, f.middle);
-      const taken = events.some((o, j) => j !== k && Math.abs(o.onsetIdx - onset2) < sep);
-      if (!taken) {
-        added.push({
-          ...m,
-          onsetIdx: onset2,
-          t50Idx: shape.reference === 'axis' ? onset2 : m.t50Idx + (second.d - f.d),
-          height: second.h,
-          heightRaw: second.h,
-          peakDev: second.h,
-          blip: false,
-          snr: m.snr * Math.abs(second.h / f.h),
-          endIdx: Math.max(m.endIdx, onset2 + (m.endIdx - m.onsetIdx)),
-          echoPeak: 0,
-          levelBefore: m.levelBefore + f.h,
-          fit: { ...m.fit, delaySamples: second.d, heightRaw: second.h },
-        });
-        ctx.peeled.push({ t: f.t, q: f.q, d: second.dq, h: second.h });
+      const probe =
+        evModel === NO_LOSS
+          ? null
+          : term
+            ? terminatedFit(ctx, win, scaled(evModel, 1 + LOSS_PROBE), twoWayOf(ctx, f.d))
+            : fitWindow(ctx, win, scaled(evModel, 1 + LOSS_PROBE), twoWayOf(ctx, f.d), { withMiddle: false, zeroPhase });
+      m.fit = {
+        reference: shape.reference,
+        lossSource,
+        delaySamples: f.d,
+        sigmaDelaySamples: f.sigma,
+        heightRaw: m.height,
+        lossSensitivitySamples: probe ? Math.abs(probe.d - f.d) : 0,
+        lossDelaySamples: Math.max(0, f.middle),
+        dielectricNpPerMPerHz: evModel.dielectricNpPerMPerHz,
+      };
+      m.heightRaw = m.height;
+      // With no loss model the fitted shape is the launch's own, narrower than an echo the line has spread,
+      // and a narrow shape fitted to a spread echo reads its height short; the echo's area, which the skin
+      // effect does not change, is the pulse reading's ρ (as the header of this module and analyze say).
+      if (!(input.signal.mode === 'pulse' && lossSource === 'none')) m.height = f.h;
+      // A pulse's ρ comes from the echo's area, which only the line's DC resistance lowers (skin loss spreads
+      // the echo but keeps its area). A loss estimated from the edges' shape alone has no resistive term,
+      // so such a reading is not corrected for the loss that lowers it, and says so.
+      m.lossCorrected = lossSource !== 'none';
+      m.areaUncorrected = input.signal.mode === 'pulse' && lossSource === 'estimated' && !((model.resistiveNpPerM ?? 0) > 0);
+      // Timed from the launch's onset (or the trace's zero), so the location step reads the fitted delay.
+      const onset = shape.reference === 'launch' ? launchOnset(m.fLo) + f.d : input.launch.zeroIdx + f.d;
+      m.onsetIdx = onset;
+      if (shape.reference === 'axis') m.t50Idx = onset;
+      ctx.peeled.push({ t: f.t, q: f.q, d: f.dq, h: f.h, k });
+      // The section's other end, reported as an event of its own unless one is already read there; its edge is
+      // taken out of the later windows as the first one's is.
+      if (second) {
+        const onset2 = shape.reference === 'launch' ? launchOnset(m.fLo) + second.d : input.launch.zeroIdx + second.d;
+        const sep = Math.max(1, input.launch.riseSamples, f.middle);
+        const taken = events.some((o, j) => j !== k && Math.abs(o.onsetIdx - onset2) < sep);
+        if (!taken) {
+          added.push({
+            ...m,
+            onsetIdx: onset2,
+            t50Idx: shape.reference === 'axis' ? onset2 : m.t50Idx + (second.d - f.d),
+            height: second.h,
+            heightRaw: second.h,
+            peakDev: second.h,
+            blip: false,
+            snr: m.snr * Math.abs(second.h / f.h),
+            endIdx: Math.max(m.endIdx, onset2 + (m.endIdx - m.onsetIdx)),
+            echoPeak: 0,
+            levelBefore: m.levelBefore + f.h,
+            fit: { ...m.fit, delaySamples: second.d, heightRaw: second.h },
+          });
+          ctx.peeled.push({ t: f.t, q: f.q, d: second.dq, h: second.h });
+        }
       }
+      // A fault's creep share is not taken out of the later windows: its template ends with this window and
+      // would stand there at its last value, where the share goes on growing past it; the later fits' own
+      // sloping baseline follows it instead.
+      if (term && !fault) ctx.peeled.push({ t: term.f.tb, q: f.q, d: f.dq, h: term.f.g });
     }
-    // A fault's creep share is not taken out of the later windows: its template ends with this window and
-    // would stand there at its last value, where the share goes on growing past it; the later fits' own
-    // sloping baseline follows it instead.
-    if (term && !fault) ctx.peeled.push({ t: term.f.tb, q: f.q, d: f.dq, h: term.f.g });
+    return added;
+  };
+  let model = library ?? estimated ?? NO_LOSS;
+  // The skin term read from the clearest edge took in the tails of the events before it, which run on into its
+  // window (a pulse echo's skin tail most of all) and read as more spread than the edge has: the events are fitted
+  // once with that estimate, and the term is read again with the earlier events' fitted shapes taken out.
+  // Pulse records only: on a step record's sloping level the second reading put more events off than it set right.
+  if (edgeShape && !ctx.shape.step) {
+    const trial = events.map((e) => ({ ...e }));
+    const first: FitContext = { ...ctx, peeled: [] };
+    fitAll(first, trial, model);
+    const again = estimateSkin(ctx, events, edgeShape.resistiveNpPerM ?? 0, { events: trial, peeled: first.peeled });
+    if (again) model = again;
   }
+  const added = fitAll(ctx, events, model);
   if (added.length > 0) {
     events.push(...added);
     events.sort((a, b) => a.onsetIdx - b.onsetIdx);
