@@ -1019,7 +1019,7 @@ function estimateSkin(
   events: Measured[],
   resistiveNpPerM = 0,
   prior?: { events: Measured[]; peeled: Peel[] },
-): LossModel | null {
+): { model: LossModel; from: number[] } | null {
   let ctx = ctx0;
   const fittable = events.map((m, k) => ({ m, k })).filter(({ m }) => !m.blip);
   if (fittable.length === 0) return null;
@@ -1041,7 +1041,7 @@ function estimateSkin(
   };
   // With no launch edge in the record, the instrument's own rise is unknown: it is fitted together with the
   // loss on the clearest event and the nearest one, whose loss spread is smaller by the square of their distances.
-  let near: { win: EventWindow; twoWayM: number; rise: number } | null = null;
+  let near: { win: EventWindow; twoWayM: number; rise: number; k: number } | null = null;
   if (ctx.shape.kind === 'synthetic' && ctx.shape.step) {
     const nearest = fittable
       .filter(({ m: e }) => e.onsetIdx >= ctx.input.signal.blindIdx)
@@ -1050,7 +1050,7 @@ function estimateSkin(
       const nw = eventWindow(ctx, events, nearest.k);
       const nTwo = twoWayOf(ctx, (nw.lo + nw.hi) / 2);
       if (nw.to - nw.from >= 8 && nTwo > 0 && nTwo < NEAR_SPREAD_SHARE * twoWayM)
-        near = { win: nw, twoWayM: nTwo, rise: nearest.m.riseSamples };
+        near = { win: nw, twoWayM: nTwo, rise: nearest.m.riseSamples, k: nearest.k };
     }
   }
   const search = (c: FitContext, r: number) => {
@@ -1114,7 +1114,7 @@ function estimateSkin(
   }
   const pointsIn = (w: EventWindow) => Math.min(ESTIMATE_POINTS, w.to - w.from);
   const dof = Math.max(1, pointsIn(win) + (near ? pointsIn(near.win) - 3 : 0) - 3);
-  return lossFitSignificant(lossless, best.ss, dof) ? modelFor(best.t50, best.r) : null;
+  return lossFitSignificant(lossless, best.ss, dof) ? { model: modelFor(best.t50, best.r), from: near ? [k, near.k] : [k] } : null;
 }
 
 /**
@@ -1183,7 +1183,8 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
   if (!shape || !input.vf) return { events, lossSource: library ? 'library' : 'none', loss: library ?? NO_LOSS, vf: input.vf };
   const ctx: FitContext = { input, shape, twoWayMPerSample: input.vf * SPEED_OF_LIGHT_M_PER_S * input.rec.dt, peeled: [] };
   const incident = library ? null : incidentLoss(input, events);
-  const edgeShape = library ? null : estimateSkin(ctx, events, incident?.resistiveNpPerM ?? 0);
+  let skin = library ? null : estimateSkin(ctx, events, incident?.resistiveNpPerM ?? 0);
+  const edgeShape = skin?.model ?? null;
   const estimated = library ? null : (edgeShape ?? incident);
   // The edge's fit may leave the incident stretch's resistance out; the stretch then gave nothing to the estimate.
   const incidentUsed = incident !== null && (edgeShape === null || (edgeShape.resistiveNpPerM ?? 0) > 0);
@@ -1230,9 +1231,17 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
           }
         }
       }
-      // The last event may be a resistive end, read with the line's own impedance (terminatedEnd); only with
-      // the cable's loss known, whose creep was taken out of the signal and which the reversed creep follows.
-      const end = lossSource === 'library' && k === events.length - 1 ? terminatedEnd(ctx, events, k, model, win) : null;
+      // The last event may be a resistive end, read with the line's own impedance (terminatedEnd): with the
+      // cable's loss known, whose creep was taken out of the signal and which the reversed creep follows, and
+      // with a loss read from the record too. An end near the line's impedance sends back little more than the
+      // reversed creep, a slow drop that a plain edge reads far late (a matched end on 600 m of 50 Ω coax, a
+      // step record read without the library's loss, was 94 m late and a drop of 0.11); the end's shape
+      // (the plain edge plus the reversed creep, both spread by the estimated loss) puts it at its round trip,
+      // and is taken only on the same decisive odds over the plain edge and the fault as with a known loss.
+      // Not where the loss was read from this event's own edge (estimateSkin), taken there for a plain one: the
+      // end's slow reversed creep then passes for a skin spread too wide, and the end's shape with it reads early.
+      const endShapeKnown = lossSource === 'library' || (lossSource === 'estimated' && !(skin?.from.includes(k) ?? false));
+      const end = endShapeKnown && k === events.length - 1 ? terminatedEnd(ctx, events, k, model, win) : null;
       // An event with more line past it may be a lumped fault, which meets the line's own impedance on both
       // sides (terminatedFit, 'fault'): its echo grows as that impedance does at low frequency, and a plain
       // edge fitted to it reads late. Taken where it explains the window decisively better than the plain fit.
@@ -1348,7 +1357,10 @@ export function fitLineEdges(input: EdgeFitInput, events: Measured[]): LineFitRe
     const first: FitContext = { ...ctx, peeled: [] };
     fitAll(first, trial, model);
     const again = estimateSkin(ctx, events, edgeShape.resistiveNpPerM ?? 0, { events: trial, peeled: first.peeled });
-    if (again) model = again;
+    if (again) {
+      model = again.model;
+      skin = again;
+    }
   }
   const added = fitAll(ctx, events, model);
   if (added.length > 0) {
