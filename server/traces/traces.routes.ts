@@ -30,6 +30,9 @@ const CSV_TYPES = new Set(['text/csv', 'text/plain', 'application/csv', 'applica
 /** The inbox files each upload in progress holds (see `holdInbox`). */
 const inboxHeldBy = new WeakMap<Request, string[]>();
 
+/** Frees the upload's place among the uploads its sender has under way (see `uploadMiddleware`). */
+const uploadDoneBy = new WeakMap<Request, () => void>();
+
 /** The uploader's file name, as they wrote it (see `uploadedFileName`). */
 const fileName = (f: Express.Multer.File) => uploadedFileName(f.originalname);
 
@@ -107,10 +110,22 @@ function uploadMiddleware(ctx: AppContext): RequestHandler {
       if (left > 0) underWay.set(userId, left);
       else underWay.delete(userId);
     };
-    res.once('finish', finished);
-    res.once('close', finished);
+    // The place is held until the server is done with the files, not until the sender stops listening: one who
+    // hangs up once the form is sent leaves its files in the inbox and the analysis, and must not free its place
+    // for the next form. While the form is still being read, an answer or a closed connection ends the upload.
+    let formRead = false;
+    const formEnded = () => {
+      if (!formRead) finished();
+    };
+    res.once('finish', formEnded);
+    res.once('close', formEnded);
     upload(req, res, (err: unknown) => {
-      if (!err) return next();
+      formRead = true;
+      if (!err) {
+        uploadDoneBy.set(req, finished);
+        return next();
+      }
+      finished();
       // The form reader has removed what it wrote of the files.
       releaseInbox(...(inboxHeldBy.get(req) ?? []));
       if (err instanceof multer.MulterError && err.code === 'LIMIT_FILE_SIZE') {
@@ -227,6 +242,7 @@ export function traceRoutes(ctx: AppContext) {
       } finally {
         await Promise.all(files.map((f) => fsp.rm(f.path, { force: true })));
         releaseInbox(...(inboxHeldBy.get(req) ?? []));
+        uploadDoneBy.get(req)?.();
       }
     }),
   );
