@@ -112,10 +112,11 @@ function uploadMiddleware(ctx: AppContext): RequestHandler {
     };
     // The place is held until the server is done with the files, not until the sender stops listening: one who
     // hangs up once the form is sent leaves its files in the inbox and the analysis, and must not free its place
-    // for the next form. While the form is still being read, an answer or a closed connection ends the upload.
+    // for the next form. While the form is still arriving, an answer or a closed connection ends the upload; once
+    // it has all arrived, the form reader's answer (its files written, or an error) does.
     let formRead = false;
     const formEnded = () => {
-      if (!formRead) finished();
+      if (!formRead && !req.complete) finished();
     };
     res.once('finish', formEnded);
     res.once('close', formEnded);
