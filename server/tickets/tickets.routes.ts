@@ -1,14 +1,34 @@
+import type { Request, Response } from 'express';
 import { IdParam } from '../http/params';
-import { CloseoutSchema, TicketCommentSchema, TicketCreateSchema, TicketListQuerySchema, TicketMoveSchema, TicketUpdateSchema } from '../../shared/schemas/tickets';
+import {
+  CloseoutSchema,
+  TicketCommentSchema,
+  TicketCreateSchema,
+  TicketListQuerySchema,
+  TicketMoveSchema,
+  TicketUpdateSchema,
+  type TicketDetail,
+} from '../../shared/schemas/tickets';
 import { currentUser } from '../auth/guards';
 import type { AppContext } from '../context';
 import { ApiRouter, handle } from '../http/api-router';
-import { once } from '../http/idempotency';
+import { once, type WriteReceipt } from '../http/idempotency';
 import * as tickets from './tickets.service';
-
 
 export function ticketRoutes(ctx: AppContext) {
   const r = new ApiRouter('/api/tickets');
+  /**
+   * A change to a ticket that is safe to send twice: with an Idempotency-Key it is made once, and a repeat whose
+   * answer was lost is answered (200) with the ticket as it is now, as the first try was.
+   */
+  const onceOnTicket = (req: Request, res: Response, make: (receipt: WriteReceipt | undefined) => Promise<TicketDetail>) =>
+    once(req, res, {
+      logger: ctx.logger,
+      userId: currentUser(req).id,
+      status: 200,
+      make,
+      replay: (ticketId) => tickets.getTicket(ticketId, currentUser(req)),
+    });
   r.get('/', 'tickets:read', handle((req) => tickets.listTickets(currentUser(req), TicketListQuerySchema.parse(req.query))));
   r.get('/unticketed-findings', 'tickets:manage', handle(() => tickets.unticketedFindings()));
   r.post(
@@ -28,13 +48,7 @@ export function ticketRoutes(ctx: AppContext) {
       const id = IdParam.parse(req.params).id;
       const input = TicketUpdateSchema.parse(req.body);
       // An edit sent again whose answer was lost: its comment is recorded and mailed once, as through /comments.
-      return once(req, res, {
-        logger: ctx.logger,
-        userId: currentUser(req).id,
-        status: 200,
-        make: (receipt) => tickets.updateTicket(ctx, currentUser(req), id, input, receipt),
-        replay: (ticketId) => tickets.getTicket(ticketId, currentUser(req)),
-      });
+      return onceOnTicket(req, res, (receipt) => tickets.updateTicket(ctx, currentUser(req), id, input, receipt));
     }),
   );
   r.post(
@@ -49,13 +63,7 @@ export function ticketRoutes(ctx: AppContext) {
       const id = IdParam.parse(req.params).id;
       const { comment } = TicketCommentSchema.parse(req.body);
       // A comment sent again from a phone whose answer was lost is recorded and mailed once.
-      return once(req, res, {
-        logger: ctx.logger,
-        userId: currentUser(req).id,
-        status: 200,
-        make: (receipt) => tickets.commentOnTicket(ctx, currentUser(req), id, comment, receipt),
-        replay: (ticketId) => tickets.getTicket(ticketId, currentUser(req)),
-      });
+      return onceOnTicket(req, res, (receipt) => tickets.commentOnTicket(ctx, currentUser(req), id, comment, receipt));
     }),
   );
   r.post(
@@ -64,13 +72,7 @@ export function ticketRoutes(ctx: AppContext) {
     handle((req, res) => {
       const id = IdParam.parse(req.params).id;
       const input = CloseoutSchema.parse(req.body);
-      return once(req, res, {
-        logger: ctx.logger,
-        userId: currentUser(req).id,
-        status: 200,
-        make: (receipt) => tickets.closeOutTicket(ctx, currentUser(req), id, input, receipt),
-        replay: (ticketId) => tickets.getTicket(ticketId, currentUser(req)),
-      });
+      return onceOnTicket(req, res, (receipt) => tickets.closeOutTicket(ctx, currentUser(req), id, input, receipt));
     }),
   );
   return r;
