@@ -254,6 +254,16 @@ function checkMover(t: Ticket, actor: SessionUser) {
   return { isAssignee, isSupervisor: isSupervisor(actor) };
 }
 
+/**
+ * Starting, pausing and recording the close-out are the assigned technician's own steps, not a supervisor's: a
+ * supervisor who wants other hands on the work assigns the ticket to them. Anyone else is told whose the step is.
+ */
+async function assigneeOnly(t: Ticket, step: string, transaction: Transaction) {
+  const assignee = t.assigneeId === null ? null : await User.findByPk(t.assigneeId, { attributes: ['id', 'name'], transaction });
+  const whose = assignee ? `Ticket ${t.id} is assigned to ${assignee.name}: only they may ${step}` : `Ticket ${t.id} is assigned to nobody: only its assignee may ${step}`;
+  return new AppError(403, 'assignee_only', `${whose}. To have someone else do it, a supervisor assigns the ticket to them.`);
+}
+
 export async function moveTicket(ctx: AppContext, actor: SessionUser, id: number, input: MoveInput): Promise<TicketDetail> {
   await ctx.sequelize.transaction(async (transaction) => {
     const t = await loadTicket(id, transaction);
@@ -282,6 +292,7 @@ export async function moveTicket(ctx: AppContext, actor: SessionUser, id: number
       });
     }
     const allowed = (who.isAssignee && move.by.includes('assignee')) || (who.isSupervisor && move.by.includes('supervisor'));
+    if (!allowed && !move.by.includes('supervisor')) throw await assigneeOnly(t, `${move.label.toLowerCase()} on it`, transaction);
     if (!allowed) throw AppError.forbidden(`Only a supervisor may ${move.label.toLowerCase()} ticket ${id}.`);
     const closed = to === 'signed-off' || to === 'withdrawn';
     await t.update({ status: to, closedAt: closed ? new Date() : null }, { transaction });
@@ -312,6 +323,7 @@ export async function closeOutTicket(ctx: AppContext, actor: SessionUser, id: nu
     if (!CLOSEOUT_FROM.includes(t.status)) {
       throw new AppError(409, 'closeout_not_allowed', `Ticket ${id} is ${TICKET_STATUS_LABELS[t.status].toLowerCase()}: a close-out is recorded while it is assigned or under way.`);
     }
+    if (t.assigneeId !== actor.id) throw await assigneeOnly(t, 'record its close-out (where the fault was found and what was done)', transaction);
     const links = await TicketFinding.findAll({ where: { ticketId: t.id }, transaction });
     let findingId = input.findingId;
     if (findingId === undefined) {

@@ -36,7 +36,10 @@ export type Mover = 'assignee' | 'supervisor';
 export interface Move {
   from: TicketStatus;
   to: TicketStatus;
-  /** Who may make it: the assignee, a supervisor (tickets:manage), or both. */
+  /**
+   * Who may make it: the assignee, a supervisor (tickets:manage), or both. Starting and pausing the work are the
+   * crew's own steps: a supervisor who wants other hands on it assigns the ticket to someone else.
+   */
   by: readonly Mover[];
   /** The button's words. */
   label: string;
@@ -48,8 +51,8 @@ export interface Move {
  * neither is listed here.
  */
 export const MOVES: readonly Move[] = [
-  { from: 'assigned', to: 'under-way', by: ['assignee', 'supervisor'], label: 'Start work' },
-  { from: 'under-way', to: 'assigned', by: ['assignee', 'supervisor'], label: 'Pause work' },
+  { from: 'assigned', to: 'under-way', by: ['assignee'], label: 'Start work' },
+  { from: 'under-way', to: 'assigned', by: ['assignee'], label: 'Pause work' },
   { from: 'fixed', to: 'signed-off', by: ['supervisor'], label: 'Sign off' },
   { from: 'fixed', to: 'under-way', by: ['supervisor'], label: 'Reopen: not fixed' },
   { from: 'raised', to: 'withdrawn', by: ['supervisor'], label: 'Withdraw' },
@@ -69,6 +72,7 @@ export function allowedMoves(status: TicketStatus, who: { isAssignee: boolean; i
   return MOVES.filter((m) => m.from === status && ((who.isAssignee && m.by.includes('assignee')) || (who.isSupervisor && m.by.includes('supervisor'))));
 }
 
+/** The close-out says where the crew found the fault and what they did: it is the assignee's to record. */
 export function mayCloseOut(status: TicketStatus, who: { isAssignee: boolean; isSupervisor: boolean }): boolean {
-  return CLOSEOUT_FROM.includes(status) && (who.isAssignee || who.isSupervisor);
+  return CLOSEOUT_FROM.includes(status) && who.isAssignee;
 }

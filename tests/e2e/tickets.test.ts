@@ -82,6 +82,10 @@ describe('a repair from assignment to calibration', () => {
     const timeline = await page.getByTestId('ticket-timeline').textContent();
     expect(timeline).toContain('Maren Holt raised the ticket');
     expect(timeline).toContain('Raised → Assigned');
+    // Starting the work and recording the repair are Ines's steps, not the supervisor's: only withdrawing is offered here.
+    expect(await page.getByRole('button', { name: 'Start work' }).count()).toBe(0);
+    expect(await page.getByRole('button', { name: 'Record the repair' }).count()).toBe(0);
+    expect(await page.getByRole('button', { name: 'Withdraw the ticket…' }).isVisible()).toBe(true);
     await e2e.screenshot(page, 'ticket-supervisor-desktop');
     // The crew sheet as it prints: no navigation, no buttons, the caution on the page.
     await page.getByRole('link', { name: 'Crew sheet' }).click();

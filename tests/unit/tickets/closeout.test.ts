@@ -86,6 +86,15 @@ describe('status rules', () => {
     expect(mayCloseOut('raised', assignee)).toBe(false);
     expect(mayCloseOut('under-way', { isAssignee: false, isSupervisor: false })).toBe(false);
   });
+
+  it('leaves starting, pausing and the close-out to the assignee: a supervisor viewing the crew’s ticket may only withdraw it', () => {
+    const supervisor = { isAssignee: false, isSupervisor: true };
+    expect(allowedMoves('assigned', supervisor).map((m) => m.label)).toEqual(['Withdraw']);
+    expect(allowedMoves('under-way', supervisor).map((m) => m.label)).toEqual(['Withdraw']);
+    expect(mayCloseOut('assigned', supervisor)).toBe(false);
+    expect(mayCloseOut('under-way', supervisor)).toBe(false);
+    expect(allowedMoves('under-way', { isAssignee: true, isSupervisor: false }).map((m) => m.label)).toEqual(['Pause work']);
+  });
 });
 
 describe('the note a close-out files with its calibration', () => {
