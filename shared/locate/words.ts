@@ -59,6 +59,27 @@ export function groundText(best: BestLocationView, unit: LengthUnit): { text: st
   };
 }
 
+/**
+ * Why a reading was set aside, in words a technician reads at the kerb: which
+ * reading, how far from the others it puts the fault, and that the best
+ * location is made without it. The figure an expert checks it by (how many
+ * standard uncertainties off) is in `setAsideFigureText`, shown apart.
+ */
+export function setAsideText(outlier: Pick<NonNullable<BestLocationView['outlier']>, 'label' | 'offsetM'>, unit: LengthUnit): string {
+  const side = outlier.offsetM > 0 ? 'further from' : 'nearer to';
+  return (
+    `${outlier.label} puts the fault ${formatLength(Math.abs(outlier.offsetM), unit)} ${side} end A than the other readings do. ` +
+    'That is more than their uncertainties can explain, so it was left out and the best location comes from the others. ' +
+    'Check that reading (end, cable, velocity factor) before relying on it.'
+  );
+}
+
+/** The set-aside reading's gap in standard uncertainties (σ), for those who check the arithmetic. */
+export function setAsideFigureText(outlier: Pick<NonNullable<BestLocationView['outlier']>, 'sigmas'>): string {
+  // 1.96: the two-sided 95 % point of the normal distribution (common practice), COVERAGE_FACTOR_95 in ./estimate.
+  return `${outlier.sigmas.toFixed(1)} σ: the gap is ${outlier.sigmas.toFixed(1)} times its standard uncertainty (σ); a reading more than 1.96 σ from the others is out of line at the 95 % level.`;
+}
+
 /** Label/value rows for an e-mail or a printed sheet: the best location first, then how it was reached. */
 export function bestLocationRows(best: BestLocationView, run: { endALabel: string }, unit: LengthUnit): Array<[string, string]> {
   const distance = bestDistanceText(best, run.endALabel, unit);

@@ -94,6 +94,35 @@ describe('whether the readings agree, in plain words', () => {
     );
   });
 
+  it('says why a reading was set aside in plain words, with its σ only under the figure for experts', () => {
+    // As shared/locate/fuse.ts sets aside an outlier: 80 m further from end A than the other two, 7.1 standard uncertainties.
+    const disagreeing = {
+      ...best,
+      consistent: false,
+      verdict:
+        'The readings disagree (χ² = 50.40 on 2 degrees of freedom, 95 % limit 5.99). Murray loop from end A (reading 1) stands apart, 80.0 m further from end A than the others (7.1 σ); the other 2 agree and give the location without it.',
+      outlier: { methodId: 'murray-1', label: 'Murray loop from end A (reading 1)', offsetM: 80, sigmas: 7.1 },
+      checks: ['that the looped conductor is sound and the far-end strap is tight'],
+    } as unknown as BestLocationView;
+    render(<BestLocationHeadline best={disagreeing} run={run as never} unit="ft" strip={false} />);
+    const box = screen.getByTestId('best-set-aside');
+    // 80 m = 262.47 ft (0.3048 m per international foot).
+    expect(box.querySelector('p')!.textContent).toBe(
+      'Set aside: Murray loop from end A (reading 1) puts the fault 262.5 ft further from end A than the other readings do. That is more than their uncertainties can explain, so it was left out and the best location comes from the others. Check that reading (end, cable, velocity factor) before relying on it.',
+    );
+    // Outside the folded figure, no σ anywhere on the headline.
+    const figure = screen.getByTestId('best-set-aside-figure');
+    expect(figure.closest('details')!.open).toBe(false);
+    expect(figure.textContent).toBe(
+      '7.1 σ: the gap is 7.1 times its standard uncertainty (σ); a reading more than 1.96 σ from the others is out of line at the 95 % level.',
+    );
+    const shown = screen.getByTestId('best-location').cloneNode(true) as HTMLElement;
+    shown.querySelector('details')!.remove();
+    expect(shown.textContent).not.toContain('σ');
+    expect(box.querySelector('summary')!.textContent).toBe('The figure behind it');
+    expect(box.querySelector('summary')!.className).toContain('min-h-11');
+  });
+
   it('says why there is no location when readings disagree and none stands apart, in the same plain words', () => {
     const split = {
       ...best,

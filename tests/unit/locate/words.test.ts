@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { routePosition } from '../../../shared/field/route-position';
-import { bestLocationRows, weightText } from '../../../shared/locate/words';
+import { bestLocationRows, setAsideFigureText, setAsideText, weightText } from '../../../shared/locate/words';
 import type { BestLocationView, LocationMethodView } from '../../../shared/schemas/measurements';
 
 const method = (id: string, label: string, weight: number | null): LocationMethodView => ({
@@ -84,6 +84,15 @@ describe('the best location in words', () => {
     expect(rows[0]).toEqual(['Best location', 'none: the readings disagree and none can be set aside']);
     // 914 m = 2998.7 ft → 2999 ft; 900 m = 2952.8 ft → 2953 ft (four figures carry no decimals).
     expect(rows).toContainEqual(['What to check', 'the TDR readings from the two ends add up to 2999 ft on a 2953 ft run']);
+  });
+
+  it('says why a reading was set aside without σ, which is left to the figure for experts', () => {
+    const outlier = { label: 'TDR from end B (finding 4)', offsetM: -31.25, sigmas: 3.46 };
+    expect(setAsideText(outlier, 'm')).toBe(
+      'TDR from end B (finding 4) puts the fault 31.3 m nearer to end A than the other readings do. That is more than their uncertainties can explain, so it was left out and the best location comes from the others. Check that reading (end, cable, velocity factor) before relying on it.',
+    );
+    expect(setAsideText(outlier, 'm')).not.toMatch(/σ|sigma/);
+    expect(setAsideFigureText(outlier)).toBe('3.5 σ: the gap is 3.5 times its standard uncertainty (σ); a reading more than 1.96 σ from the others is out of line at the 95 % level.');
   });
 
   it('writes weights in whole per cent, a small negative one with a true minus sign', () => {

@@ -1,6 +1,6 @@
 import { Link } from 'react-router-dom';
 import type { BestLocationView, LocationMethodView } from '../../../../shared/schemas/measurements';
-import { methodShareText, weightText } from '../../../../shared/locate/words';
+import { methodShareText, setAsideFigureText, setAsideText, weightText } from '../../../../shared/locate/words';
 import { Notice } from '../../../components/ui/notice';
 import { DigCaution } from '../../../components/ui/safety-caution';
 import { formatLength, formatLengthRange, lengthsInText, type LengthUnit } from '../../../lib/format';
@@ -89,10 +89,14 @@ export function BestLocationHeadline({
       {!best.consistent && (
         <div className="rounded-md border-l-4 border-danger bg-danger-light px-4 py-3 text-sm" data-testid="best-checks">
           {best.outlier && (
-            <p className="font-semibold">
-              Set aside: {best.outlier.label}, {formatLength(Math.abs(best.outlier.offsetM), unit)} {best.outlier.offsetM > 0 ? 'further from' : 'nearer to'} end A than the
-              others ({best.outlier.sigmas.toFixed(1)} σ).
-            </p>
+            <div data-testid="best-set-aside">
+              <p className="font-semibold">Set aside: {setAsideText(best.outlier, unit)}</p>
+              {/* The statistic stays for those who check it, folded away from the crew's reading. */}
+              <details className="text-xs text-ink-soft">
+                <summary className="inline-flex min-h-11 cursor-pointer items-center font-semibold text-teal">The figure behind it</summary>
+                <p data-testid="best-set-aside-figure">{setAsideFigureText(best.outlier)}</p>
+              </details>
+            </div>
           )}
           <p className="mt-1 font-semibold">What to check:</p>
           <ul className="list-disc pl-5">
