@@ -83,5 +83,8 @@ export function composeMail(opts: {
   return { subject: opts.subject, text, html };
 }
 
+/** The caution under every mail that sends someone to dig or repair: the points of the screens' SafetyCaution, in one paragraph. */
 export const SAFETY_LINE =
-  'Before any work: de-energise, lock out and verify dead; discharge and ground the cable; locate other utilities before digging. Follow local codes and your employer’s procedures.';
+  'Before any work: de-energise the cable, lock out and verify it is dead; discharge its stored charge and keep it grounded; ' +
+  'high-voltage fault-location methods (surge, thumping, burn-down) are for qualified persons only; locate other utilities before digging. ' +
+  'Follow local codes, your employer’s procedures and the permit for the work.';

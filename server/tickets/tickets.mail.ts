@@ -7,7 +7,7 @@ import { CableRun, Finding, Site, Ticket, Trace, User } from '../db/models';
 import { appLink } from '../mail';
 import { composeMail, SAFETY_LINE } from '../mail/compose';
 import { bestLocationFor } from '../findings/best-location';
-import { bestLocationRows } from '../../shared/locate/words';
+import { bestLocationRows, ONLY_READING_SENTENCE, onlyReadingFromBText, onlyReadingOf } from '../../shared/locate/words';
 import type { BestLocationView } from '../../shared/schemas/measurements';
 import { formatDate } from '../../shared/units/format-date';
 import { formatLength, formatLengthRange, formatSignedLength, lengthsInText, type LengthUnit } from '../../shared/units/format-length';
@@ -30,6 +30,11 @@ function findingRows(f: Finding, trace: Trace | null, run: CableRun, unit: Lengt
   const end = trace?.end ?? 'A';
   const endLabel = end === 'A' ? run.endALabel : run.endBLabel;
   const underBest = best !== null;
+  // The best location is this reading and no other: as on the finding and ticket pages, say so rather than repeat its figures.
+  if (onlyReadingOf(best, f.id)) {
+    const fromB = end === 'B' ? ` ${onlyReadingFromBText({ distanceM: f.distanceM, uncertaintyM: f.uncertaintyM, endLabel }, unit)}.` : '';
+    return [['This TDR reading', `${ONLY_READING_SENTENCE}${fromB}`]];
+  }
   return [
     // Under a best location these rows are the one TDR reading this finding was made from.
     [underBest ? 'This TDR reading' : 'Distance', `${formatLength(f.distanceM, unit)} along the cable from end ${end} (${endLabel}), ± ${formatLength(f.uncertaintyM, unit)} (95 %)`],
@@ -73,6 +78,7 @@ export async function mailFindingConfirmed(ctx: AppContext, findingId: number, t
       rows: [
         ['Site', site.name],
         ['Cable run', `${run.name} (${run.endALabel} → ${run.endBLabel})`],
+        ['Fault', kindLabel(finding.kind)],
         ...(best ? bestLocationRows(best, run, r.unitPreference) : []),
         ...findingRows(finding, finding.trace ?? null, run, r.unitPreference, best),
       ],
@@ -116,6 +122,7 @@ export async function mailTicket(ctx: AppContext, ticketId: number, actor: { id:
     ['Due', ticket.dueDate ? formatDate(ticket.dueDate) : 'no date set'],
     ['Site', site.name],
     ['Cable run', `${run.name} (${run.endALabel} → ${run.endBLabel})`],
+    ...(first ? ([['Fault', [...new Set(ticket.findings!.map((f) => kindLabel(f.kind)))].join(', ')]] as Array<[string, string]>) : []),
     ...(best ? bestLocationRows(best, run, unit) : []),
     ...(first ? findingRows(first, first.trace ?? null, run, unit, best) : []),
   ];

@@ -60,6 +60,30 @@ export function groundText(best: BestLocationView, unit: LengthUnit): { text: st
 }
 
 /**
+ * The verdict in plain words for the crew: the agreement test's figures (χ², degrees
+ * of freedom, its limit, a reading's distance in σ) are left out here and stand in
+ * full under the readings behind the location ("Agreement test: …").
+ */
+export function plainVerdict(text: string): string {
+  return text.replace(/ \(χ² = [^)]*\)/g, '').replace(/ \(\d+(?:\.\d+)? σ\)/g, '');
+}
+
+/** The best location rests on this finding's reading and no other: its headline already says all the reading does. */
+export function onlyReadingOf(best: Pick<BestLocationView, 'methods' | 'distanceFromAM'> | null | undefined, findingId: number): boolean {
+  if (!best || best.distanceFromAM === null || best.methods.length !== 1) return false;
+  const [m] = best.methods;
+  return m!.used && m!.findingId === findingId && m!.measurementId === null;
+}
+
+/** Said of a finding's reading when the best location is that reading alone (`onlyReadingOf`), rather than its figures again. */
+export const ONLY_READING_SENTENCE = 'The best location above is this reading alone: the same distance, window and place to dig.';
+
+/** A reading from end B that is the best location alone: its distance from the end it was measured at (the best location counts from A). */
+export function onlyReadingFromBText(r: { distanceM: number; uncertaintyM: number; endLabel: string }, unit: LengthUnit): string {
+  return `Measured from end B (${r.endLabel}): ${formatLength(r.distanceM, unit)} along the cable, ± ${formatLength(r.uncertaintyM, unit)} (95 %)`;
+}
+
+/**
  * Why a reading was set aside, in words a technician reads at the kerb: which
  * reading, how far from the others it puts the fault, and that the best
  * location is made without it. The figure an expert checks it by (how many
@@ -94,8 +118,9 @@ export function bestLocationRows(best: BestLocationView, run: { endALabel: strin
   } else {
     rows.push(['Best location', 'none: the readings disagree and none can be set aside']);
   }
-  rows.push([best.consistent ? 'Readings' : 'Readings disagree', lengthsInText(best.verdict, unit)]);
-  if (best.outlier) rows.push(['Set aside', best.outlier.label]);
+  // The verdict and the reading set aside in the words the screens use: the agreement test's figures stay on the page.
+  rows.push([best.consistent ? 'Readings' : 'Readings disagree', plainVerdict(lengthsInText(best.verdict, unit))]);
+  if (best.outlier) rows.push(['Set aside', setAsideText(best.outlier, unit)]);
   if (best.checks.length) rows.push(['What to check', best.checks.map((c) => lengthsInText(c, unit)).join('; ')]);
   return rows;
 }

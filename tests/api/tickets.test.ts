@@ -46,9 +46,9 @@ describe('repair tickets', () => {
     // Hand-worked: 100 m of cable from A is 95 m of route, 15 m past MH-2 toward P-7; said once, as where to dig.
     expect(msg.body).toMatch(/Where to dig: +15\.\d+ m past manhole MH-2 toward pedestal P-7/);
     expect(msg.body).not.toContain('Route position:');
-    expect(msg.body).toMatch(/Its own window: +\d+\.\d–\d+\.\d m along the cable from end A, slack/);
-    // The ± beside the distance is the 95 % window's half-width, and says so (the best location's ± is a standard uncertainty).
-    expect(msg.body).toMatch(/m along the cable from end A \(Cabinet C-1\),\s+± \d+\.\d+ m \(95 %\)/);
+    // The one reading is the whole best location: said so, as on the finding page, rather than its distance and window again.
+    expect(msg.body.replace(/\n {2,}/g, ' ')).toMatch(/This TDR reading: +The best location above is this reading alone: the same distance, window and place to dig\./);
+    expect(msg.body).not.toContain('Its own window');
     expect(msg.body).toContain(`${PUBLIC_URL}/findings/${finding.id}`);
     expect(msg.html).toContain(`href="${PUBLIC_URL}/findings/${finding.id}"`);
   });

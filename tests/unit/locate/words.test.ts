@@ -62,8 +62,33 @@ describe('the best location in words', () => {
       ['Dig window (95 %)', '386.0–401.4 ft of cable from end A'],
       ['Where to dig', expect.stringMatching(/^114\.8 ft past manhole MH-2 toward pedestal P-7; dig on the ground/)],
       ['Based on', 'TDR from both ends (findings 1 and 2), 65 %; Murray loop from end A (reading 1), 35 %'],
-      ['Readings', 'The 2 readings agree (χ² = 0.02 on 1 degree of freedom, 95 % limit 3.84).'],
+      // The verdict as the screens say it: the agreement test's figures stay on the page, under the readings.
+      ['Readings', 'The 2 readings agree.'],
     ]);
+  });
+
+  it('says a set-aside reading in the same plain words as the page, without χ² or σ', () => {
+    const rows = bestLocationRows(
+      {
+        ...best,
+        consistent: false,
+        verdict:
+          'The readings disagree (χ² = 50.40 on 2 degrees of freedom, 95 % limit 5.99). Murray loop from end A (reading 1) stands apart, 80.0 m further from end A than the others (7.1 σ); the other 2 agree and give the location without it.',
+        outlier: { methodId: 'b', label: 'Murray loop from end A (reading 1)', offsetM: 80, sigmas: 7.1 },
+        checks: ['that the looped conductor is sound and the far-end strap is tight'],
+      },
+      run,
+      'm',
+    );
+    expect(rows).toContainEqual([
+      'Readings disagree',
+      'The readings disagree. Murray loop from end A (reading 1) stands apart, 80.0 m further from end A than the others; the other 2 agree and give the location without it.',
+    ]);
+    expect(rows).toContainEqual([
+      'Set aside',
+      'Murray loop from end A (reading 1) puts the fault 80.0 m further from end A than the other readings do. That is more than their uncertainties can explain, so it was left out and the best location comes from the others. Check that reading (end, cable, velocity factor) before relying on it.',
+    ]);
+    expect(rows.map(([, v]) => v).join(' ')).not.toMatch(/χ²|σ/);
   });
 
   it('says there is no location, names the one set aside and what to check, lengths in the reader’s unit', () => {

@@ -1,9 +1,12 @@
 import { describeCrossings, describeRoutePosition, routePosition, type RoutePosition, type RunLike } from '../../../../shared/field/route-position';
-import type { BestLocationView } from '../../../../shared/schemas/measurements';
 import type { ReflectionEvent } from '../../../../shared/schemas/trace-analysis';
 import { DigCaution } from '../../../components/ui/safety-caution';
 import { formatLength, formatLengthRange, lengthsInText, type LengthUnit } from '../../../lib/format';
 import { Term } from '../../../components/ui/term';
+import { ONLY_READING_SENTENCE, onlyReadingFromBText } from '../../../../shared/locate/words';
+
+// Kept here for the pages that import it with ReadingAlone; the mail reads the same helper from shared/locate/words.
+export { onlyReadingOf } from '../../../../shared/locate/words';
 
 /** Where an event of a trace is on the ground, with the run's markers as they are now. */
 export function placeEvent(run: RunLike, end: 'A' | 'B', e: Pick<ReflectionEvent, 'distanceM' | 'windowStartM' | 'windowEndM'>): RoutePosition {
@@ -91,13 +94,6 @@ export function DistanceBlock({
   );
 }
 
-/** The best location rests on this finding's reading and no other: its headline already says all the reading does. */
-export function onlyReadingOf(best: Pick<BestLocationView, 'methods' | 'distanceFromAM'> | null | undefined, findingId: number): boolean {
-  if (!best || best.distanceFromAM === null || best.methods.length !== 1) return false;
-  const [m] = best.methods;
-  return m!.used && m!.findingId === findingId && m!.measurementId === null;
-}
-
 /**
  * One TDR reading's own distance and windows, shown under a best location.
  * Every line says "this reading alone", so the crew never takes its narrower
@@ -144,12 +140,8 @@ export function ReadingAlone({
   if (only && fused && bestShown)
     return (
       <div className="space-y-1 text-sm tabular text-ink-soft" data-testid="reading-alone">
-        <p className="font-semibold text-ink">The best location above is this reading alone: the same distance, window and place to dig.</p>
-        {end === 'B' && (
-          <p data-testid={distanceTestId}>
-            Measured from end B ({endLabel}): {formatLength(distanceM, unit)} along the cable, ± {formatLength(uncertaintyM, unit)} (95 %)
-          </p>
-        )}
+        <p className="font-semibold text-ink">{ONLY_READING_SENTENCE}</p>
+        {end === 'B' && <p data-testid={distanceTestId}>{onlyReadingFromBText({ distanceM, uncertaintyM, endLabel }, unit)}</p>}
       </div>
     );
   const heading = !fused

@@ -1,6 +1,6 @@
 import { Link } from 'react-router-dom';
 import type { BestLocationView, LocationMethodView } from '../../../../shared/schemas/measurements';
-import { methodShareText, setAsideFigureText, setAsideText, weightText } from '../../../../shared/locate/words';
+import { methodShareText, plainVerdict, setAsideFigureText, setAsideText, weightText } from '../../../../shared/locate/words';
 import { Notice } from '../../../components/ui/notice';
 import { DigCaution } from '../../../components/ui/safety-caution';
 import { formatLength, formatLengthRange, lengthsInText, type LengthUnit } from '../../../lib/format';
@@ -193,13 +193,4 @@ export function LocationMethods({ best, unit, findingLink }: { best: BestLocatio
       )}
     </div>
   );
-}
-
-/**
- * The verdict in plain words for the crew: the agreement test's figures (χ², degrees
- * of freedom, its limit, a reading's distance in σ) are left out here and stand in
- * full under the readings behind the location ("Agreement test: …").
- */
-export function plainVerdict(text: string): string {
-  return text.replace(/ \(χ² = [^)]*\)/g, '').replace(/ \(\d+(?:\.\d+)? σ\)/g, '');
 }
