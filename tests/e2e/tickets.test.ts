@@ -125,6 +125,13 @@ describe('a repair from assignment to calibration', () => {
     await e2e.screenshot(page, 'ticket-sheet-phone');
     await page.getByRole('link', { name: /Back to ticket/ }).click();
 
+    // The way from the ticket to its finding is a thumb's target on the phone (44 px, the look's rule for gloves), named as such.
+    const toFinding = page.getByRole('link', { name: `Open finding ${findingId}`, exact: true });
+    expect(await toFinding.getAttribute('href')).toBe(`/findings/${findingId}`);
+    const box = (await toFinding.boundingBox())!;
+    expect(box.height).toBeGreaterThanOrEqual(44);
+    expect(box.width).toBeGreaterThanOrEqual(44);
+
     await page.getByRole('button', { name: 'Start work' }).click();
     await page.getByText('Under way', { exact: true }).first().waitFor();
     const form = page.getByRole('form', { name: 'Close-out' });

@@ -38,8 +38,13 @@ function FindingCard({ f, t, unit, live }: { f: TicketFindingView; t: TicketDeta
     <div className="space-y-1 rounded-md border border-rule p-3">
       <p className="text-xs text-mist">
         {live ? (
-          <Link className="text-teal underline" to={paths.finding.to(f.id)}>
-            Finding {f.id}
+          // A gloved thumb's target (44 px tall), named for where it goes: the finding's page with its trace and readings.
+          <Link
+            className="-ml-1 mr-1 inline-flex min-h-11 items-center rounded-md px-1 text-sm font-semibold text-teal underline underline-offset-2"
+            to={paths.finding.to(f.id)}
+            data-testid="ticket-finding-link"
+          >
+            Open finding {f.id}
           </Link>
         ) : (
           // The phone keeps the ticket, not the finding's own page: no link that fails without signal.
