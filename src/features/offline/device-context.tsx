@@ -14,6 +14,7 @@ import { can } from '../../../shared/auth/permissions';
 import type { PublicUser } from '../../../shared/schemas/users';
 import { describeError } from '../../lib/api-client';
 import { getMeQueryOptions } from '../auth/api/get-me';
+import { getTicketQueryOptions } from '../tickets/api/get-ticket';
 import {
   deviceDb,
   fieldDataFor,
@@ -145,7 +146,8 @@ export function DeviceProvider({ user, children }: { user: PublicUser; children:
     if (!fieldUser) return;
     setFieldRefreshing(true);
     try {
-      const data = await fetchFieldData(user.id, can(user.role, 'tickets:work'));
+      // Each ticket through the ticket page's own query: one request when the page is loading that ticket too.
+      const data = await fetchFieldData(user.id, can(user.role, 'tickets:work'), new Date(), (id) => qc.fetchQuery(getTicketQueryOptions(id)));
       const db = await deviceDb();
       await saveFieldData(db, data);
       setField(data);
@@ -155,7 +157,7 @@ export function DeviceProvider({ user, children }: { user: PublicUser; children:
     } finally {
       setFieldRefreshing(false);
     }
-  }, [fieldUser, user.id, user.role]);
+  }, [fieldUser, user.id, user.role, qc]);
 
   // On sign-in or start: remember who this is, keep only their field data, pick up what a closed app left half-sent.
   useEffect(() => {

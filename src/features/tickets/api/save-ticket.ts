@@ -4,6 +4,7 @@ import type { CloseoutInput, TicketCreateInput, TicketDetail, TicketUpdateInput 
 import type { TicketStatus } from '../../../../shared/tickets/status';
 import { api } from '../../../lib/api-client';
 import { repeatKey } from '../../../lib/repeat-key';
+import { getTicketQueryOptions } from './get-ticket';
 
 export const createTicket = (input: TicketCreateInput) => api<TicketDetail>('/api/tickets', { method: 'POST', body: input });
 export const updateTicket = ({ id, ...patch }: TicketUpdateInput & { id: number }, idempotencyKey?: string) =>
@@ -22,8 +23,10 @@ function useTicketMutation<TIn>(fn: (input: TIn) => Promise<TicketDetail>, onTak
     mutationFn: fn,
     onSuccess: (t) => {
       onTaken?.();
-      qc.setQueryData(['tickets', 'one', t.id], t);
-      void qc.invalidateQueries({ queryKey: ['tickets'] });
+      const key = getTicketQueryOptions(t.id).queryKey;
+      qc.setQueryData(key, t);
+      // The answer is the ticket as it now stands: every other ticket query is refreshed, this one is not asked for again.
+      void qc.invalidateQueries({ queryKey: ['tickets'], predicate: (q) => !(q.queryKey.length === key.length && q.queryKey.every((k, i) => k === key[i])) });
       void qc.invalidateQueries({ queryKey: ['dashboard'] });
       void qc.invalidateQueries({ queryKey: ['calibrations'] });
     },
