@@ -1,2 +1,2 @@
 /** Bump when a change to parsing or analysis can change a stored result. */
-export const ENGINE_VERSION = '1.12.0';
+export const ENGINE_VERSION = '1.13.0';
