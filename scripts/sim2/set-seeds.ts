@@ -48,6 +48,8 @@ export const SETS = {
   heldout16: { seed: 0x3956c25b, count: 120 },
   // A seventeenth, drawn after the sixteenth had been run once on the final engine of its round, for the next round: the same rules apply.
   heldout17: { seed: 0x59f111f1, count: 120 },
+  // An eighteenth, drawn after the seventeenth had been run once on the final engine of its round, for the next round: the same rules apply.
+  heldout18: { seed: 0x923f82a4, count: 120 },
 } as const satisfies Record<string, { seed: number; count: number }>;
 
 export type SetName = keyof typeof SETS;
