@@ -48,4 +48,24 @@ describe('a new technician on the demo with no trace file of their own', () => {
     expect(await page.getByRole('button', { name: 'Try this sample oakhollow-data-link-short.csv', exact: true }).count()).toBe(0);
     expect(await page.getByRole('button', { name: 'Try this sample brookfold-telemetry-open.csv', exact: true }).count()).toBe(1);
   });
+
+  it('opens the chart on the cable’s length and a little more, not the whole record, until Whole trace is asked for', async () => {
+    const page = await e2e.pageAs('tech2@example.com', PHONE);
+    await page.goto(`${e2e.baseUrl}/upload`);
+    await page.getByRole('button', { name: 'Try this sample brookfold-telemetry-open.csv', exact: true }).click();
+    await page.getByText('brookfold-telemetry-open.csv').first().waitFor();
+    await page.getByRole('button', { name: 'Upload and analyse' }).click();
+    await page.getByTestId('fault-distance').waitFor({ timeout: 20_000 });
+    const note = page.getByTestId('chart-view-note');
+    await note.waitFor();
+    expect(await note.textContent()).toMatch(/^Showing the cable's [\d.,]+ k?m and a little more; the record runs to [\d.,]+ k?m\. Whole trace shows all of it\.$/);
+    const xMax = () => page.locator('[data-x-max]').first().evaluate((el) => Number(el.getAttribute('data-x-max')));
+    await expect.poll(xMax).toBeGreaterThan(0);
+    const first = await xMax();
+    await page.getByRole('button', { name: 'Whole trace' }).click();
+    await expect.poll(xMax).toBeGreaterThan(first * 1.2);
+    expect(await note.count()).toBe(0);
+    await e2e.screenshot(page, 'chart-cable-length-phone');
+    await page.close();
+  });
 });

@@ -113,9 +113,19 @@ export function TraceChart({
     () => ({ min: 0, max: Math.max(overview.length ? overview[overview.length - 1].x : 1, 1e-6) }),
     [overview],
   );
+  // The first view: the cable's installed length (or the farthest event's window, if that is further) and a
+  // little more, when the record runs well past it; a fault at 260 m of a 1.4 km cable on a 2 km record would
+  // otherwise sit in the first eighth of the chart. "Whole trace" shows the full record.
+  const cableView = useMemo<Range | null>(() => {
+    const lengthM = trace.cableRun?.installedLengthM;
+    if (!interactive || !(lengthM && lengthM > 0)) return null;
+    const farM = Math.max(lengthM, ...(trace.analysis?.events ?? []).filter((e) => e.likelyMultipleOf === null).map((e) => e.windowEndM));
+    const hi = map.ofDistance(farM * 1.1);
+    return Number.isFinite(hi) && hi > limits.min && hi < limits.min + 0.9 * (limits.max - limits.min) ? { min: limits.min, max: hi } : null;
+  }, [trace.cableRun?.installedLengthM, trace.analysis?.events, interactive, map, limits]);
   const viewKey = `${trace.id}:${axis}:${unit}`;
   const [view, setView] = useState<View | null>(null);
-  const range = view?.key === viewKey ? view.range : limits;
+  const range = view?.key === viewKey ? view.range : (cableView ?? limits);
   const setRange = (r: Range) => setView({ key: viewKey, range: r });
   const [geometry, setGeometry] = useState<PlotGeometry | null>(null);
   const [gain, setGain] = useState(1);
@@ -399,10 +409,16 @@ export function TraceChart({
           />
         )}
       </div>
+      {interactive && cableView && view?.key !== viewKey && (
+        <p className="mt-1 text-xs text-ink-soft print:hidden" data-testid="chart-view-note">
+          Showing the cable's {formatLength(trace.cableRun.installedLengthM, unit)} and a little more; the record runs to{' '}
+          {formatLength(map.distanceOf(limits.max), unit)}. Whole trace shows all of it.
+        </p>
+      )}
       {interactive && (
         <ChartControls
           onZoom={zoomBy}
-          onShowAll={() => setView(null)}
+          onShowAll={() => setRange(limits)}
           zoomToEvent={
             selected
               ? {
