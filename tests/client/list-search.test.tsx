@@ -136,3 +136,22 @@ describe('the traces date range', () => {
     expect(screen.queryByText('Some fields are not valid.')).toBeNull();
   });
 });
+
+describe('the traces filters on a phone', () => {
+  it('fold behind one button that says how many are set, and open with it', async () => {
+    show(<TracesPage />, '/traces');
+    const toggle = await screen.findByTestId('trace-filters-toggle');
+    const filters = document.getElementById('trace-filters')!;
+    expect(toggle.textContent).toBe('Filters');
+    expect(toggle.getAttribute('aria-expanded')).toBe('false');
+    expect(filters.className.split(' ')).toContain('hidden');
+    fireEvent.click(toggle);
+    expect(toggle.textContent).toBe('Hide the filters');
+    expect(toggle.getAttribute('aria-expanded')).toBe('true');
+    expect(filters.className.split(' ')).not.toContain('hidden');
+    fireEvent.change(screen.getByLabelText('From'), { target: { value: '2026-12-01' } });
+    fireEvent.click(toggle);
+    expect(toggle.textContent).toBe('Filters (1 set)');
+    expect(filters.className.split(' ')).toContain('hidden');
+  });
+});

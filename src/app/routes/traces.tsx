@@ -35,6 +35,11 @@ export function TracesPage() {
   const set = (patch: Partial<TraceListQuery>) => setQ({ ...q, page: 1, ...patch });
   const sortBy = (sort: Sort) => setQ({ ...q, sort, dir: q.sort === sort && q.dir === 'desc' ? 'asc' : 'desc' });
   const arrow = (s: Sort) => (q.sort === s ? (q.dir === 'asc' ? ' ▲' : ' ▼') : '');
+  // On a phone the six filters would fill the first screen before any trace: they fold behind one button there
+  // (open while a date the server refused needs fixing); from the small-tablet width up they always show.
+  const [filtersOpen, setFiltersOpen] = useState(false);
+  const filtersSet = [q.siteId, q.cableRunId, q.status, q.uploadedById, q.from, q.to].filter((v) => v !== undefined && v !== '').length;
+  const showFilters = filtersOpen || !!badDates;
 
   return (
     <>
@@ -45,7 +50,17 @@ export function TracesPage() {
       />
       <Card>
         <ListSearch label="Search traces" placeholder="File name" text={text} onText={setText} onClear={clear} error={badSearch} />
-        <div className="mt-3 grid gap-3 sm:grid-cols-3 lg:grid-cols-6">
+        <button
+          type="button"
+          className="mt-3 inline-flex min-h-11 items-center rounded-md border border-rule px-4 text-sm font-semibold text-ink-soft sm:hidden"
+          aria-expanded={showFilters}
+          aria-controls="trace-filters"
+          onClick={() => setFiltersOpen(!showFilters)}
+          data-testid="trace-filters-toggle"
+        >
+          {showFilters ? 'Hide the filters' : filtersSet ? `Filters (${filtersSet} set)` : 'Filters'}
+        </button>
+        <div id="trace-filters" className={`mt-3 gap-3 sm:grid sm:grid-cols-3 lg:grid-cols-6 ${showFilters ? 'grid' : 'hidden'}`}>
           <SelectField label="Site" value={q.siteId ?? ''} onChange={(e) => set({ siteId: e.target.value ? Number(e.target.value) : undefined, cableRunId: undefined })}>
             <option value="">All sites</option>
             {sites.data?.items.map((s) => (
