@@ -1,11 +1,9 @@
 import fs from 'node:fs';
-import http from 'node:http';
-import net from 'node:net';
 import path from 'node:path';
-import type { AddressInfo } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Trace } from '../../server/db/models';
 import { captureLog } from './support/log-capture';
+import { listenRaw, type RawHttp } from './support/raw-http';
 import { startApi, type TestApi } from './support/api';
 import { eventually } from './mail.support';
 import { makeRun } from './support/field-fixtures';
@@ -16,19 +14,15 @@ import { makeRun } from './support/field-fixtures';
  * stack) as if something had broken, so an error alert would fire for every dropped upload.
  */
 let api: TestApi;
-let server: http.Server;
-let port: number;
+let raw: RawHttp;
 const log = captureLog();
 
 beforeAll(async () => {
   api = await startApi({ logLevel: 'info' }, { logDestination: log.stream });
-  server = api.app.app.listen(0, '127.0.0.1');
-  await new Promise((r) => server.once('listening', r));
-  port = (server.address() as AddressInfo).port;
+  raw = await listenRaw(api);
 });
 afterAll(async () => {
-  server.closeAllConnections();
-  await new Promise((r) => server.close(r));
+  await raw.close();
   await api.close();
 });
 
@@ -41,7 +35,7 @@ describe('an upload whose sender goes away half-way', () => {
     const inbox = path.join(api.app.ctx.config.uploadDir, 'incoming');
     const errorsBefore = log.lines.filter((l) => Number(l.level) >= 50).length;
 
-    const socket = net.connect(port, '127.0.0.1');
+    const socket = raw.connect();
     await new Promise((r) => socket.once('connect', r));
     const head = [
       '--XB',

@@ -1,11 +1,9 @@
 import fs from 'node:fs';
-import http from 'node:http';
-import net from 'node:net';
-import type { AddressInfo } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Trace } from '../../server/db/models';
 import { AnalysisPool, analysisPool } from '../../server/traces/analysis-pool';
 import { inboxDir } from '../../server/traces/trace-store';
+import { listenRaw, type RawHttp } from './support/raw-http';
 import { startApi, type Client, type TestApi } from './support/api';
 import { eventually } from './mail.support';
 import { makeRun, stepTraceCsv } from './support/field-fixtures';
@@ -17,20 +15,14 @@ import { makeRun, stepTraceCsv } from './support/field-fixtures';
  * form and have any number of them in the inbox and the analysis queue at once.
  */
 let api: TestApi;
-let server: http.Server;
-let port: number;
-const sockets: net.Socket[] = [];
+let raw: RawHttp;
 
 beforeAll(async () => {
   api = await startApi({ uploadsAtOncePerUser: 1, analysis: { threads: 1, timeoutMs: 120_000, memoryMb: 256 } });
-  server = api.app.app.listen(0, '127.0.0.1');
-  await new Promise((r) => server.once('listening', r));
-  port = (server.address() as AddressInfo).port;
+  raw = await listenRaw(api);
 });
 afterAll(async () => {
-  for (const s of sockets) s.destroy();
-  server.closeAllConnections();
-  await new Promise((r) => server.close(r));
+  await raw.close();
   await api.close();
 });
 
@@ -54,8 +46,7 @@ async function sendWhole(c: Client, runId: number, name: string, csv: string) {
     '--XB--',
     '',
   ].join('\r\n');
-  const socket = net.connect(port, '127.0.0.1');
-  sockets.push(socket);
+  const socket = raw.connect();
   await new Promise((r) => socket.once('connect', r));
   socket.write(
     `POST /api/traces HTTP/1.1\r\nHost: 127.0.0.1\r\nCookie: ${cookie}\r\nx-csrf-token: ${c.csrf}\r\n` +

@@ -1,10 +1,8 @@
 import fs from 'node:fs';
-import http from 'node:http';
-import net from 'node:net';
-import type { AddressInfo } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Trace } from '../../server/db/models';
 import { inboxDir } from '../../server/traces/trace-store';
+import { listenRaw, type RawHttp } from './support/raw-http';
 import { startApi, type Client, type TestApi } from './support/api';
 import { eventually } from './mail.support';
 import { makeRun, stepTraceCsv } from './support/field-fixtures';
@@ -15,29 +13,22 @@ import { makeRun, stepTraceCsv } from './support/field-fixtures';
  * each person may have at most UPLOADS_AT_ONCE_PER_USER under way; the next is refused at once with 429.
  */
 let api: TestApi;
-let server: http.Server;
-let port: number;
+let raw: RawHttp;
 const CAP = 2;
-const sockets: net.Socket[] = [];
 
 beforeAll(async () => {
   api = await startApi({ uploadsAtOncePerUser: CAP });
-  server = api.app.app.listen(0, '127.0.0.1');
-  await new Promise((r) => server.once('listening', r));
-  port = (server.address() as AddressInfo).port;
+  raw = await listenRaw(api);
 });
 afterAll(async () => {
-  for (const s of sockets) s.destroy();
-  server.closeAllConnections();
-  await new Promise((r) => server.close(r));
+  await raw.close();
   await api.close();
 });
 
 /** An upload whose file part has begun and then stalls, as a slow sender's does. */
 async function stalledUpload(c: Client, runId: number) {
   const cookie = c.agent.jar.getCookies({ domain: '127.0.0.1', path: '/', secure: false, script: false }).toValueString();
-  const socket = net.connect(port, '127.0.0.1');
-  sockets.push(socket);
+  const socket = raw.connect();
   await new Promise((r) => socket.once('connect', r));
   const head = [
     '--XB',
