@@ -68,5 +68,5 @@ export async function dashboard(now = new Date()): Promise<DashboardView> {
     .sort((a, b) => a.cableType.name.localeCompare(b.cableType.name));
 
   const unticketed = await unticketedFindings(20);
-  return { generatedAt: now.toISOString(), openCount: open.length, byAge, oldest: oldest.slice(0, 20), unticketed, accuracy, methodAccuracy: await methodAccuracy() };
+  return { generatedAt: now.toISOString(), openCount: open.length, awaitingSignOff: open.filter((t) => t.status === 'fixed').length, byAge, oldest: oldest.slice(0, 20), unticketed, accuracy, methodAccuracy: await methodAccuracy() };
 }

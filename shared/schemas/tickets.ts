@@ -227,6 +227,8 @@ export interface UnticketedFinding extends TicketFindingView {
 export interface DashboardView {
   generatedAt: string;
   openCount: number;
+  /** Of the open tickets, those fixed and waiting for a supervisor's sign-off: work for a desk, not a crew. */
+  awaitingSignOff: number;
   /** Open tickets counted by how long they have been open and by priority. */
   byAge: Array<{ label: string; counts: Record<TicketPriority, number> }>;
   /** The longest-open tickets first. */

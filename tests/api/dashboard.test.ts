@@ -21,6 +21,7 @@ describe('GET /api/dashboard', () => {
     let d = (await sup.get('/api/dashboard').expect(200)).body as DashboardView;
     expect(d.unticketed.map((f) => f.id).sort()).toEqual([f1.id, f2.id, f3.id].sort());
     expect(d.accuracy).toEqual([]);
+    expect([d.openCount, d.awaitingSignOff]).toEqual([0, 0]);
 
     const t1 = (await sup.post('/api/tickets', { findingIds: [f1.id], assigneeId: api.users.technician.id, priority: 'urgent' }).expect(201)).body as TicketDetail;
     const t2 = (await sup.post('/api/tickets', { findingIds: [f2.id], assigneeId: api.users.technician.id, priority: 'low' }).expect(201)).body as TicketDetail;
@@ -31,6 +32,8 @@ describe('GET /api/dashboard', () => {
     d = (await (await api.as('planner')).get('/api/dashboard').expect(200)).body as DashboardView;
     expect(d.unticketed.map((f) => f.id)).toEqual([f3.id]);
     expect(d.openCount).toBe(2);
+    // Both are closed out: fixed, and waiting for a supervisor's sign-off rather than a crew.
+    expect(d.awaitingSignOff).toBe(2);
     expect(d.byAge[0].label).toBe('Under a day');
     expect(d.byAge[0].counts).toEqual({ urgent: 1, high: 0, normal: 0, low: 1 });
     expect(d.byAge.slice(1).every((b) => Object.values(b.counts).every((n) => n === 0))).toBe(true);

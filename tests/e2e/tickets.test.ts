@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { CableCalibration, CableRun, CableType, RouteMarker, TicketCloseout } from '../../server/db/models';
+import { CableCalibration, CableRun, CableType, RouteMarker, Ticket, TicketCloseout } from '../../server/db/models';
 import { stepTraceCsv } from '../support/step-trace';
 import { DESKTOP, PHONE, startE2E, type E2E } from './support/browser';
 
@@ -196,6 +196,15 @@ describe('a repair from assignment to calibration', () => {
     await page.getByRole('heading', { name: 'Dashboard', exact: true }).waitFor();
     await page.getByRole('img', { name: 'Located-vs-found error per cable type' }).waitFor();
     await e2e.screenshot(page, 'dashboard-supervisor-desktop');
+    // The repair closed out above and the demo's HN-C2 repair wait for sign-off, not for a crew; the count says so
+    // and opens the list on them.
+    const fixed = (await Ticket.count({ where: { status: 'fixed' } })) as number;
+    expect(fixed).toBeGreaterThanOrEqual(2);
+    const waiting = page.getByTestId('awaiting-sign-off');
+    expect(await waiting.textContent()).toBe(`${fixed} of them are fixed and waiting for sign-off — work for a supervisor, not a crew.`);
+    await waiting.getByRole('link').click();
+    await page.getByRole('heading', { name: 'Tickets', exact: true }).waitFor();
+    expect(await page.getByLabel('Show').inputValue()).toBe('fixed');
     await page.close();
     const phone = await e2e.pageAs('supervisor@example.com', PHONE);
     await phone.goto(`${e2e.baseUrl}/dashboard`);

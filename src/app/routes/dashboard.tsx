@@ -27,6 +27,14 @@ export function DashboardPage() {
       {/* min-w-0: a wide table scrolls inside its card instead of pushing the card past a phone's edge. */}
       <div className="grid grid-cols-1 gap-4 xl:grid-cols-2 [&>*]:min-w-0">
         <Card title={`Open tickets (${v.openCount})`}>
+          {v.awaitingSignOff > 0 && (
+            <p className="mb-2 text-sm" data-testid="awaiting-sign-off">
+              <Link to={`${paths.tickets.to()}?status=fixed`} className="font-semibold text-teal underline">
+                {v.awaitingSignOff} of them {v.awaitingSignOff === 1 ? 'is' : 'are'} fixed and waiting for sign-off
+              </Link>{' '}
+              — work for a supervisor, not a crew.
+            </p>
+          )}
           <div className="overflow-x-auto">
             <table className="w-full text-left text-sm tabular" aria-label="Open tickets by age and priority">
               <thead className="text-xs uppercase text-mist">

@@ -48,7 +48,11 @@ export function TicketsPage() {
   const navigate = useNavigate();
   const [params] = useSearchParams();
   const preselect = Number(params.get('finding')) || undefined;
-  const [status, setStatus] = useState<TicketStatus | 'open' | 'all'>('open');
+  // A link may open the list on one status (the dashboard's "waiting for sign-off": ?status=fixed).
+  const asked = params.get('status');
+  const [status, setStatus] = useState<TicketStatus | 'open' | 'all'>(
+    asked && (asked === 'all' || (TICKET_STATUSES as readonly string[]).includes(asked)) ? (asked as TicketStatus | 'all') : 'open',
+  );
   const [onlyMine, setOnlyMine] = useState(false);
   const [page, setPage] = useState(1);
   const tickets = useTickets({ status, assignee: onlyMine ? 'me' : 'any', page });
