@@ -20,7 +20,7 @@ describe('a calibration whose repair is not signed off yet', () => {
     expect(blocked.textContent).toContain("Waiting for the repair's sign-off");
     expect(blocked.textContent).not.toContain('Waiting for review');
     expect(screen.getByTestId('accept-held-2').textContent).toBe(
-      "Waiting for the repair's sign-offIt cannot be accepted yet: its repair, ticket 4, is fixed, awaiting sign-off. The accept form opens here once the supervisor signs the repair off; you may reject it now.",
+      "Waiting for the repair's sign-offIt cannot be accepted yet: its repair, ticket 4, is fixed, awaiting sign-off. You may reject it now.",
     );
     expect([...blocked.querySelectorAll('button')].map((b) => b.textContent)).toEqual(['Reject…']);
     await screen.findAllByLabelText('VF to store');

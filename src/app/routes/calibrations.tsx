@@ -54,7 +54,7 @@ function Decide({ c, onDone }: { c: CalibrationView; onDone: (said: string) => v
       {held && (
         <div data-testid={`accept-held-${c.id}`}>
           <Notice tone="info" title="Waiting for the repair's sign-off">
-            It cannot be accepted yet: {c.acceptHeld}. The accept form opens here once the supervisor signs the repair off; you may reject it now.
+            It cannot be accepted yet: {c.acceptHeld}. You may reject it now.
           </Notice>
         </div>
       )}
